@@ -1,0 +1,71 @@
+/**
+ * The shape of a closed-loop run: what the simulator hands to metrics, exports, plots and 3D.
+ *
+ * All per-sample channels are flat Float64Arrays, sample-major: channel `q` of sample k is
+ * q[4k .. 4k+3] in `[x, y, z, w]` order; per-wheel channels hold `nWheels` values per sample.
+ * One sample per control sample (the zero-order-hold instants) plus, in ideal continuous mode, one
+ * at each located jump. Time in seconds from the scenario's start epoch; SI units throughout.
+ */
+
+export type RunStatus = 'completed' | 'zeno' | 'step-underflow' | 'non-finite' | 'max-steps' | 'cancelled';
+
+export interface RunOutcome {
+  status: RunStatus;
+  /** Sentence for a person: what stopped the run and where. */
+  message: string;
+  /** Hybrid time where the run ended. */
+  t: number;
+  j: number;
+}
+
+export interface JumpEvent {
+  t: number;
+  /** Jump counter after the jump. */
+  j: number;
+  /** What jumped: 'logic' (controller logic variable), 'sample' is not recorded as an event. */
+  what: string;
+  from: number;
+  to: number;
+  /** Why, e.g. `h·η = -0.41 ≤ -δ` or `synergy gap 0.31 ≥ δ = 0.2`. */
+  why: string;
+}
+
+export interface RunTrace {
+  n: number;
+  nWheels: number;
+  t: Float64Array;
+  /** Hybrid jump counter at the sample (logic jumps only, not timer resets). */
+  j: Int32Array;
+  /** Maneuver segment index (target number) active at the sample. */
+  segment: Int32Array;
+  /** Attitude qInertialFromBody, 4 per sample. */
+  q: Float64Array;
+  /** Body rate in body axes, rad/s, 3 per sample. */
+  omega: Float64Array;
+  /** Wheel axial (absolute) momentum, N·m·s, nWheels per sample. */
+  hWheel: Float64Array;
+  /** Reference attitude (the target in direct mode), 4 per sample. */
+  qRef: Float64Array;
+  /** Reference body rate, rad/s, 3 per sample. */
+  omegaRef: Float64Array;
+  /** Controller's body torque request, N·m, 3 per sample (held over the sample period). */
+  torqueCmdBody: Float64Array;
+  /** Body torque actually delivered by the wheels after limits, N·m, 3 per sample. */
+  torqueBody: Float64Array;
+  /** Commanded wheel motor torques (allocation output), N·m, nWheels per sample. */
+  wheelTorqueCmd: Float64Array;
+  /** Delivered wheel motor torques after torque and momentum limits, N·m, nWheels per sample. */
+  wheelTorque: Float64Array;
+  /** Controller logic value (h ∈ {−1, 1}, synergistic index q ∈ {1..M}, 0 for smooth laws). */
+  logic: Float64Array;
+  /** Shortest rotation angle from the true attitude to the reference, rad. */
+  errorAngle: Float64Array;
+  /** Active potential V_q (0 where the law has none). */
+  potential: Float64Array;
+  /** Minimum over the family min_p V_p. */
+  potentialMin: Float64Array;
+  /** Synergy gap μ = V_q − min_p V_p. */
+  gap: Float64Array;
+  /** Lyapunov value W. */
+  lyapunov: Float64Array;
+}
