@@ -208,12 +208,11 @@ export function qAngle(q: ArrayLike<number>): number {
   return 2 * Math.atan2(Math.hypot(q[0], q[1], q[2]), Math.abs(q[3]));
 }
 
-/** Shortest rotation angle between two attitudes. */
+/** Shortest rotation angle between two attitudes (from the relative quaternion a* ⊗ b, accurate near 0). */
 export function qAngleBetween(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  const d = Math.min(1, Math.abs(qDot(a, b)));
-  // angle = 2 acos|<a,b>|, written with atan2 for accuracy near 0.
-  return 2 * Math.atan2(Math.sqrt(Math.max(0, 1 - d * d)), d);
+  return qAngle(qConjMultiply(scratchAngle, a, b));
 }
+const scratchAngle = new Float64Array(4);
 
 /** Body-frame attitude error q_e = q_d* ⊗ q (methods §1.1). */
 export function qError(out: Quat, qDesired: ArrayLike<number>, q: ArrayLike<number>): Quat {
