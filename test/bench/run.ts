@@ -1,0 +1,26 @@
+/**
+ * `npm run bench`: prints the speed figures of every part that has a target. Figures only; no
+ * assertions (speed is never checked by timed tests). Each module exports one async function.
+ */
+type Bench = { file: string; fn: string; title: string };
+
+const benches: Bench[] = [
+  { file: './engine.ts', fn: 'benchEngine', title: 'Engine: 600 s gyrostat run, 10 Hz zero-order hold' },
+  { file: './control.ts', fn: 'benchControl', title: 'Synergistic flow-set check over uniform attitudes' },
+  { file: './pipeline.ts', fn: 'benchPipeline', title: 'Scenario pipeline (plan + closed-loop runs)' },
+  { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
+  { file: './study.ts', fn: 'benchStudy', title: 'Robustness study in worker threads' },
+  { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
+];
+
+const only = process.argv.slice(2);
+for (const b of benches) {
+  if (only.length && !only.some((o) => b.file.includes(o))) continue;
+  console.log(`\n== ${b.title} (${b.file})`);
+  try {
+    const mod = (await import(b.file)) as Record<string, () => Promise<void>>;
+    await mod[b.fn]();
+  } catch (e) {
+    console.log(`   could not run: ${(e as Error).message.split('\n')[0]}`);
+  }
+}
