@@ -28,6 +28,9 @@ export interface JumpEvent {
   to: number;
   /** Why, e.g. `h·η = -0.41 ≤ -δ` or `synergy gap 0.31 ≥ δ = 0.2`. */
   why: string;
+  /** Lyapunov value W just before and just after the jump, at the same instant (when known). */
+  lyapunovBefore?: number;
+  lyapunovAfter?: number;
 }
 
 export interface RunTrace {
