@@ -1,0 +1,228 @@
+/**
+ * The renderer's application state: the scenario JSON being edited with undo/redo for every edit,
+ * the dirty flag, the validation of the current JSON, the latest pipeline output and which runs
+ * are shown. Plain TypeScript over createStore; React reads it through hooks.ts.
+ *
+ * Every change to the scenario goes through `edit` / `replace`, which push the previous snapshot
+ * on the undo stack. Snapshots share structure (paths.ts setIn), so a deep history is cheap.
+ * Consecutive edits of the same field within `coalesceMs` fold into one undo step, so typing
+ * "0.125" is one step rather than five.
+ *
+ * Dirty means "differs from what was last loaded or saved" by identity: undoing back to the saved
+ * snapshot makes the document clean again.
+ */
+import type { Issue } from '../../engine/errors';
+import type { PipelineOutput } from '../../engine/pipeline/types';
+import { createStore, type Store } from './createStore';
+import { formatPath, parsePath, setIn, type PathToken } from './paths';
+
+export interface ValidationState {
+  ok: boolean;
+  errors: Issue[];
+  warnings: Issue[];
+}
+
+export interface UndoEntry {
+  /** The scenario before the edit. */
+  scenario: unknown;
+  label: string;
+  coalesceKey: string | null;
+  at: number;
+}
+
+export type PipelineStatus = 'idle' | 'waiting' | 'running' | 'done' | 'invalid' | 'failed';
+
+export interface PipelineState {
+  status: PipelineStatus;
+  /** Engine errors from the last pass (validation or pipeline), or a crash message. */
+  errors: Issue[];
+  message: string;
+}
+
+export interface AppState {
+  scenario: unknown;
+  savedScenario: unknown;
+  /** Display name of the document (file name, or "untitled"). */
+  fileName: string;
+  /** True when Save must ask for a path (a template or a new document). */
+  untitled: boolean;
+  dirty: boolean;
+  undoStack: UndoEntry[];
+  redoStack: UndoEntry[];
+  validation: ValidationState;
+  pipeline: PipelineState;
+  output: PipelineOutput | null;
+  /** The scenario snapshot `output` was computed from. */
+  outputScenario: unknown;
+  /** Keys of the runs shown in plots and 3D (ControllerRun.key); the first is the detailed one. */
+  selectedRunKeys: string[];
+  /** Ids of controllers to run and compare (the scenario's controllers chosen by checkbox). */
+  comparedControllerIds: string[];
+}
+
+export type Validate = (scenario: unknown) => ValidationState;
+
+export interface EditOptions {
+  label?: string;
+  /** Fold into the previous undo step when it has the same key and is recent. Default: the path. */
+  coalesceKey?: string | null;
+}
+
+export interface AppStoreOptions {
+  validate: Validate;
+  now?: () => number;
+  coalesceMs?: number;
+  maxUndo?: number;
+}
+
+export interface AppStore extends Store<AppState> {
+  /** Set one value in the scenario (undefined removes the key). */
+  edit(path: string | readonly PathToken[], value: unknown, o?: EditOptions): void;
+  /** Replace the whole scenario with a new JSON value as one undo step. */
+  replace(next: unknown, label: string): void;
+  undo(): boolean;
+  redo(): boolean;
+  /** A freshly opened or created document: clears history, clean. */
+  load(scenario: unknown, fileName: string, untitled: boolean): void;
+  markSaved(fileName: string): void;
+  setOutput(output: PipelineOutput, forScenario: unknown): void;
+  setPipeline(p: Partial<PipelineState>): void;
+  selectRuns(keys: string[]): void;
+  setCompared(ids: string[]): void;
+}
+
+const EMPTY_PIPELINE: PipelineState = { status: 'idle', errors: [], message: '' };
+
+export function createAppStore(initialScenario: unknown, o: AppStoreOptions): AppStore {
+  const now = o.now ?? (() => Date.now());
+  const coalesceMs = o.coalesceMs ?? 1200;
+  const maxUndo = o.maxUndo ?? 500;
+  const validate = o.validate;
+
+  const base = createStore<AppState>({
+    scenario: initialScenario,
+    savedScenario: initialScenario,
+    fileName: 'untitled',
+    untitled: true,
+    dirty: false,
+    undoStack: [],
+    redoStack: [],
+    validation: validate(initialScenario),
+    pipeline: EMPTY_PIPELINE,
+    output: null,
+    outputScenario: null,
+    selectedRunKeys: [],
+    comparedControllerIds: [],
+  });
+
+  /** Common tail of every scenario change: revalidate, recompute dirty. */
+  function withScenario(s: AppState, scenario: unknown): Partial<AppState> {
+    return { scenario, dirty: scenario !== s.savedScenario, validation: validate(scenario) };
+  }
+
+  function pushUndo(stack: UndoEntry[], e: UndoEntry): UndoEntry[] {
+    const next = stack.length >= maxUndo ? stack.slice(stack.length - maxUndo + 1) : stack.slice();
+    next.push(e);
+    return next;
+  }
+
+  const store: AppStore = {
+    ...base,
+
+    edit(path, value, opts = {}) {
+      const tokens = typeof path === 'string' ? parsePath(path) : path;
+      const key = opts.coalesceKey === undefined ? formatPath(tokens) : opts.coalesceKey;
+      base.setState((s) => {
+        const next = setIn(s.scenario, tokens, value);
+        const t = now();
+        const top = s.undoStack[s.undoStack.length - 1];
+        const fold = key !== null && top !== undefined && top.coalesceKey === key && t - top.at <= coalesceMs && s.redoStack.length === 0;
+        const undoStack = fold
+          ? [...s.undoStack.slice(0, -1), { ...top, at: t }]
+          : pushUndo(s.undoStack, { scenario: s.scenario, label: opts.label ?? `Edit ${formatPath(tokens)}`, coalesceKey: key, at: t });
+        return { ...withScenario(s, next), undoStack, redoStack: [] };
+      });
+    },
+
+    replace(next, label) {
+      base.setState((s) => {
+        if (next === s.scenario) return {};
+        return {
+          ...withScenario(s, next),
+          undoStack: pushUndo(s.undoStack, { scenario: s.scenario, label, coalesceKey: null, at: now() }),
+          redoStack: [],
+        };
+      });
+    },
+
+    undo() {
+      const s = base.getState();
+      const top = s.undoStack[s.undoStack.length - 1];
+      if (!top) return false;
+      base.setState({
+        ...withScenario(s, top.scenario),
+        undoStack: s.undoStack.slice(0, -1),
+        redoStack: [...s.redoStack, { ...top, scenario: s.scenario, coalesceKey: null }],
+      });
+      return true;
+    },
+
+    redo() {
+      const s = base.getState();
+      const top = s.redoStack[s.redoStack.length - 1];
+      if (!top) return false;
+      base.setState({
+        ...withScenario(s, top.scenario),
+        redoStack: s.redoStack.slice(0, -1),
+        // Never fold a later edit into a redone step.
+        undoStack: pushUndo(s.undoStack, { ...top, scenario: s.scenario, coalesceKey: null }),
+      });
+      return true;
+    },
+
+    load(scenario, fileName, untitled) {
+      base.setState({
+        scenario,
+        savedScenario: scenario,
+        fileName,
+        untitled,
+        dirty: false,
+        undoStack: [],
+        redoStack: [],
+        validation: validate(scenario),
+        pipeline: EMPTY_PIPELINE,
+        output: null,
+        outputScenario: null,
+        selectedRunKeys: [],
+        comparedControllerIds: [],
+      });
+    },
+
+    markSaved(fileName) {
+      base.setState((s) => ({ savedScenario: s.scenario, fileName, untitled: false, dirty: false }));
+    },
+
+    setOutput(output, forScenario) {
+      base.setState((s) => {
+        const keys = output.runs.map((r) => r.key);
+        // Keep the user's selection where those runs still exist; otherwise show the first run.
+        let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
+        if (selected.length === 0 && keys.length > 0) selected = [keys[0]];
+        return { output, outputScenario: forScenario, selectedRunKeys: selected };
+      });
+    },
+
+    setPipeline(p) {
+      base.setState((s) => ({ pipeline: { ...s.pipeline, ...p } }));
+    },
+
+    selectRuns(keys) {
+      base.setState({ selectedRunKeys: keys });
+    },
+
+    setCompared(ids) {
+      base.setState({ comparedControllerIds: ids });
+    },
+  };
+  return store;
+}
