@@ -1,0 +1,26 @@
+/// <reference lib="webworker" />
+/**
+ * Runs the engine's pipeline off the UI thread. One request at a time; the client (client.ts)
+ * keeps only the newest request waiting and discards replies that are no longer wanted.
+ */
+import { runPipeline } from '../../engine/pipeline/run';
+import type { RunReply, RunRequest } from './protocol';
+import { transferables } from './protocol';
+
+const scope = self as unknown as DedicatedWorkerGlobalScope;
+
+scope.onmessage = (ev: MessageEvent<RunRequest>) => {
+  const req = ev.data;
+  if (!req || req.type !== 'run') return;
+  let reply: RunReply;
+  let transfer: ArrayBuffer[] = [];
+  try {
+    const result = runPipeline(req.scenario, req.options as never);
+    reply = { type: 'result', id: req.id, result };
+    if (result.ok) transfer = transferables(result.value);
+  } catch (e) {
+    // A throw here is an engine bug, not bad input (bad input comes back as errors); say so.
+    reply = { type: 'crash', id: req.id, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) };
+  }
+  scope.postMessage(reply, transfer);
+};

@@ -1,0 +1,32 @@
+/** Messages between the renderer and the pipeline worker (structured-clonable data only). */
+import type { Result } from '../../engine/errors';
+import type { PipelineOutput } from '../../engine/pipeline/types';
+
+export interface RunRequest {
+  type: 'run';
+  id: number;
+  scenario: unknown;
+  /** Passed through to runPipeline as its options. */
+  options: Record<string, unknown>;
+}
+
+export type RunReply =
+  | { type: 'result'; id: number; result: Result<PipelineOutput> }
+  | { type: 'crash'; id: number; message: string };
+
+/** The typed-array buffers of an output, each once, for a zero-copy transfer. */
+export function transferables(out: PipelineOutput): ArrayBuffer[] {
+  const seen = new Set<ArrayBuffer>();
+  const add = (a: unknown) => {
+    if (ArrayBuffer.isView(a) && a.buffer instanceof ArrayBuffer) seen.add(a.buffer);
+  };
+  for (const run of out.runs) for (const v of Object.values(run.trace)) add(v);
+  for (const v of Object.values(out.vehicle)) add(v);
+  add(out.vehicle.torqueEnvelope.vertices);
+  add(out.vehicle.torqueEnvelope.triangles);
+  add(out.vehicle.momentumEnvelope.vertices);
+  add(out.vehicle.momentumEnvelope.triangles);
+  add(out.targets);
+  add(out.initialQ);
+  return [...seen];
+}

@@ -1,0 +1,119 @@
+/**
+ * The UI's pipeline runner: debounce, latest-wins, stale replies discarded, a stuck stale worker
+ * replaced, crashes reported. Behaviour specified in app/ui/worker/client.ts (our own design).
+ */
+import { describe, expect, it } from 'vitest';
+import { createPipelineRunner, type WorkerLike } from '../../app/ui/worker/client';
+import type { RunReply, RunRequest } from '../../app/ui/worker/protocol';
+
+class FakeWorker implements WorkerLike {
+  received: RunRequest[] = [];
+  terminated = false;
+  onmessage: ((ev: MessageEvent<RunReply>) => void) | null = null;
+  onerror: ((ev: ErrorEvent) => void) | null = null;
+  postMessage(m: RunRequest) {
+    this.received.push(m);
+  }
+  terminate() {
+    this.terminated = true;
+  }
+  reply(id: number, value: string) {
+    this.onmessage?.({ data: { type: 'result', id, result: { ok: true, value: value as never, warnings: [] } } } as MessageEvent<RunReply>);
+  }
+}
+
+function setup() {
+  let clock = 0;
+  const timers: { at: number; fn: () => void; live: boolean }[] = [];
+  const workers: FakeWorker[] = [];
+  const results: { value: unknown; scenario: unknown }[] = [];
+  const crashes: string[] = [];
+  const runner = createPipelineRunner({
+    spawn: () => {
+      const w = new FakeWorker();
+      workers.push(w);
+      return w;
+    },
+    debounceMs: 150,
+    staleKillMs: 2000,
+    now: () => clock,
+    setTimer: (fn, ms) => {
+      const h = { at: clock + ms, fn, live: true };
+      timers.push(h);
+      return h;
+    },
+    clearTimer: (h) => ((h as { live: boolean }).live = false),
+    onResult: (r, scenario) => results.push({ value: r.ok ? r.value : null, scenario }),
+    onCrash: (m) => crashes.push(m),
+  });
+  const advance = (ms: number) => {
+    clock += ms;
+    for (const t of timers) if (t.live && t.at <= clock) {
+      t.live = false;
+      t.fn();
+    }
+  };
+  return { runner, workers, results, crashes, advance };
+}
+
+describe('pipeline runner', () => {
+  it('debounces a burst of edits into one run of the newest scenario', () => {
+    const { runner, workers, advance } = setup();
+    runner.schedule('s1');
+    advance(100);
+    runner.schedule('s2');
+    advance(100);
+    runner.schedule('s3');
+    advance(149);
+    expect(workers).toHaveLength(0);
+    advance(1);
+    expect(workers[0].received.map((r) => r.scenario)).toEqual(['s3']);
+  });
+
+  it('keeps only the newest waiting request while busy and discards the stale reply', () => {
+    const { runner, workers, results, advance } = setup();
+    runner.runNow('a');
+    runner.runNow('b');
+    runner.runNow('c');
+    const w = workers[0];
+    expect(w.received.map((r) => r.scenario)).toEqual(['a']);
+    w.reply(w.received[0].id, 'out-a');
+    expect(results).toEqual([]); // 'a' is stale: 'c' was requested after it
+    expect(w.received.map((r) => r.scenario)).toEqual(['a', 'c']);
+    w.reply(w.received[1].id, 'out-c');
+    expect(results).toEqual([{ value: 'out-c', scenario: 'c' }]);
+    advance(1000);
+    expect(runner.busy).toBe(false);
+  });
+
+  it('replaces a worker stuck on a stale job', () => {
+    const { runner, workers, results, advance } = setup();
+    runner.runNow('slow');
+    advance(2500);
+    runner.runNow('new');
+    expect(workers[0].terminated).toBe(true);
+    expect(workers[1].received.map((r) => r.scenario)).toEqual(['new']);
+    workers[1].reply(workers[1].received[0].id, 'out-new');
+    expect(results.map((r) => r.value)).toEqual(['out-new']);
+  });
+
+  it('cancel makes the running reply stale', () => {
+    const { runner, workers, results } = setup();
+    runner.runNow('x');
+    runner.cancel();
+    workers[0].reply(workers[0].received[0].id, 'out-x');
+    expect(results).toEqual([]);
+  });
+
+  it('reports a crash of the newest job and recovers with a fresh worker', () => {
+    const { runner, workers, crashes, results } = setup();
+    runner.runNow('boom');
+    workers[0].onerror?.({ message: 'worker died', preventDefault() {} } as ErrorEvent);
+    expect(crashes).toEqual(['worker died']);
+    expect(workers[0].terminated).toBe(true);
+    runner.runNow('ok');
+    expect(workers).toHaveLength(2);
+    workers[1].reply(workers[1].received[0].id, 'fine');
+    expect(results.map((r) => r.value)).toEqual(['fine']);
+  });
+});
