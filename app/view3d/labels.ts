@@ -1,0 +1,93 @@
+/**
+ * Text labels as sprites with canvas textures (constant size on screen). A label factory is
+ * injected into the scene model so the model also builds in Node (tests, benchmark), where no
+ * canvas exists: there the factory is null and labels are simply not built.
+ */
+import { CanvasTexture, LinearFilter, SRGBColorSpace, Sprite, SpriteMaterial } from 'three';
+import type { Object3D } from 'three';
+import { CAMERA_FOV_DEG, SIZES } from './style';
+
+export interface LabelStyle {
+  /** CSS colour of the text. */
+  color: string;
+  /** Screen height as a fraction of the viewport height (default SIZES.labelHeight). */
+  heightFraction?: number;
+  /** Which point of the label sits at its position: (0, 0.5) left-middle, (0.5, 0.5) centre… */
+  anchorX?: number;
+  anchorY?: number;
+  /**
+   * For a HUD drawn with an orthographic camera whose view spans y ∈ [−1, 1]: the scale is then
+   * 2·heightFraction instead of the perspective formula.
+   */
+  screenSpace?: boolean;
+}
+
+/** Makes a label object for `text`; "X_I" draws I as a subscript. */
+export type LabelFactory = (text: string, style: LabelStyle) => Object3D;
+
+type Canvas2D = { width: number; height: number; getContext(id: '2d'): CanvasRenderingContext2D | null };
+
+function makeCanvas(): Canvas2D | null {
+  if (typeof document !== 'undefined' && typeof document.createElement === 'function') {
+    return document.createElement('canvas');
+  }
+  if (typeof OffscreenCanvas !== 'undefined') return new OffscreenCanvas(1, 1) as unknown as Canvas2D;
+  return null;
+}
+
+const FONT_PX = 44;
+const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+
+/**
+ * A sprite-label factory when the environment can draw on a canvas, otherwise null.
+ * Sprites use `sizeAttenuation: false`, so for a perspective camera the on-screen height fraction
+ * is scale.y · P₁₁ / 2 with P₁₁ = 1/tan(fov/2); the scale is set from CAMERA_FOV_DEG.
+ */
+export function canvasLabelFactory(): LabelFactory | null {
+  if (!makeCanvas()) return null;
+  const p11 = 1 / Math.tan((CAMERA_FOV_DEG * Math.PI) / 360);
+  return (text, style) => {
+    const canvas = makeCanvas()!;
+    const ctx = canvas.getContext('2d')!;
+    const us = text.indexOf('_');
+    const main = us >= 0 ? text.slice(0, us) : text;
+    const sub = us >= 0 ? text.slice(us + 1) : '';
+    const mainFont = `600 ${FONT_PX}px ${FONT}`;
+    const subFont = `600 ${Math.round(FONT_PX * 0.66)}px ${FONT}`;
+    ctx.font = mainFont;
+    const wMain = ctx.measureText(main).width;
+    ctx.font = subFont;
+    const wSub = sub ? ctx.measureText(sub).width + 2 : 0;
+    const pad = 8;
+    const h = Math.ceil(FONT_PX * 1.45);
+    canvas.width = Math.ceil(wMain + wSub + 2 * pad);
+    canvas.height = h;
+    // Resizing resets the context state.
+    ctx.textBaseline = 'middle';
+    ctx.lineJoin = 'round';
+    ctx.lineWidth = 7;
+    ctx.strokeStyle = 'rgba(10, 12, 16, 0.85)';
+    ctx.fillStyle = style.color;
+    ctx.font = mainFont;
+    ctx.strokeText(main, pad, h * 0.45);
+    ctx.fillText(main, pad, h * 0.45);
+    if (sub) {
+      ctx.font = subFont;
+      ctx.strokeText(sub, pad + wMain + 2, h * 0.62);
+      ctx.fillText(sub, pad + wMain + 2, h * 0.62);
+    }
+    const tex = new CanvasTexture(canvas as unknown as HTMLCanvasElement);
+    tex.colorSpace = SRGBColorSpace;
+    tex.minFilter = LinearFilter;
+    tex.generateMipmaps = false;
+    const mat = new SpriteMaterial({ map: tex, sizeAttenuation: false, depthTest: false, depthWrite: false, transparent: true });
+    const sprite = new Sprite(mat);
+    const frac = style.heightFraction ?? SIZES.labelHeight;
+    const sy = style.screenSpace ? 2 * frac : (2 * frac) / p11;
+    sprite.scale.set((sy * canvas.width) / canvas.height, sy, 1);
+    sprite.center.set(style.anchorX ?? 0.5, style.anchorY ?? 0.5);
+    sprite.renderOrder = 10;
+    sprite.name = `label:${text}`;
+    return sprite;
+  };
+}

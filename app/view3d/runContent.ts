@@ -1,0 +1,176 @@
+/**
+ * Everything one run contributes to the view, built once per run and updated in place by
+ * `update(time)`: the posed bus with its body triad, the active target's ghost triad, the moving
+ * reference's ghost (profiled mode), the boresight trail (inertial scene) and the wheel momentum
+ * (body-frame inset).
+ */
+import { Group } from 'three';
+import { setObjectAttitude, slerpFlat } from './adapter';
+import type { BusModel } from './busModel';
+import { buildBusGroup } from './busModel';
+import { MomentumContent } from './momentumContent';
+import type { Kit } from './primitives';
+import { cssHex, disposeTree, Triad } from './primitives';
+import { countUpTo, createCursor, locateSample } from './sampling';
+import { COLORS, SIZES } from './style';
+import { TrailObject } from './trailObject';
+import type { ViewOptions, ViewRun } from './types';
+
+export interface RunContentStyle {
+  /** Position of the run among those sharing a viewport (0 = drawn solid). */
+  index: number;
+  /** Opacity for index ≥ 1. */
+  overlayOpacity: number;
+  /** Draw the envelope in the inset (the first run of a viewport only). */
+  drawEnvelope: boolean;
+  /** Show the run's label beside its body (overlay). */
+  tagBody: boolean;
+  /** Shared momentum display scale (so overlaid runs use one scale). */
+  momentumScale?: number;
+}
+
+/** Index of the active target at `time`: last with tStart ≤ time, −1 in a gap or before the first. */
+export function activeTargetIndex(tStarts: Float64Array, tEnds: Float64Array, time: number): number {
+  const m = tStarts.length;
+  const k = countUpTo(tStarts, m, time) - 1;
+  if (k < 0) return -1;
+  // After the last segment ends the run is over: keep its target on screen.
+  if (time > tEnds[k] && k < m - 1) return -1;
+  return k;
+}
+
+export class RunContent {
+  readonly run: ViewRun;
+  /** Inertial-frame content. */
+  readonly group = new Group();
+  readonly body = new Group();
+  readonly bus: Group;
+  readonly bodyTriad: Triad;
+  /** Target ghosts; the group carries the show/hide option, each ghost shows while its segment is active. */
+  readonly targets = new Group();
+  readonly targetGhosts: Triad[] = [];
+  readonly referenceGhost: Triad | null;
+  readonly trail: TrailObject;
+  readonly momentum: MomentumContent;
+  readonly cursor = createCursor();
+  /** Interpolated attitude at the last update, [x, y, z, w]. */
+  readonly qNow = new Float64Array([0, 0, 0, 1]);
+  readonly qRefNow = new Float64Array([0, 0, 0, 1]);
+  activeTarget = -1;
+
+  private readonly tStarts: Float64Array;
+  private readonly tEnds: Float64Array;
+  private readonly kit: Kit;
+
+  constructor(kit: Kit, bus: BusModel, run: ViewRun, options: ViewOptions, style: RunContentStyle) {
+    this.kit = kit;
+    this.run = run;
+    const solid = style.index === 0;
+    const opacity = solid ? 1 : style.overlayOpacity;
+    this.group.name = `run:${run.label}`;
+
+    this.bus = buildBusGroup(bus, opacity);
+    this.bodyTriad = new Triad(kit, {
+      length: SIZES.bodyTriad,
+      opacity: solid ? 1 : Math.min(1, opacity + 0.15),
+      suffix: solid ? 'B' : null,
+      tag: style.tagBody ? run.label : undefined,
+      radius: 0.011,
+    });
+    this.body.add(this.bus, this.bodyTriad);
+    this.body.name = 'body';
+    this.group.add(this.body);
+
+    this.targets.name = 'targets';
+    this.group.add(this.targets);
+    this.tStarts = Float64Array.from(run.targets, (t) => t.tStart);
+    this.tEnds = Float64Array.from(run.targets, (t) => t.tEnd);
+    run.targets.forEach((tg, k) => {
+      const ghost = new Triad(kit, {
+        length: SIZES.targetTriad,
+        opacity: 0.38 * (solid ? 1 : 0.7),
+        radius: 0.008,
+        suffix: null,
+        tag: solid ? `target ${k + 1}${tg.label ? `: ${tg.label}` : ''}` : undefined,
+        tagColor: '#aab4c0',
+      });
+      setObjectAttitude(ghost, tg.q, 0);
+      ghost.visible = false;
+      ghost.name = `target-ghost:${k}`;
+      this.targetGhosts.push(ghost);
+      this.targets.add(ghost);
+    });
+
+    if (run.hasReference) {
+      const c = COLORS.reference;
+      this.referenceGhost = new Triad(kit, {
+        length: SIZES.referenceTriad,
+        opacity: 0.5 * (solid ? 1 : 0.7),
+        radius: 0.007,
+        suffix: null,
+        tag: solid ? 'reference' : undefined,
+        tagColor: cssHex(c),
+        colors: [c, c, c],
+      });
+      this.referenceGhost.name = 'reference-ghost';
+      this.group.add(this.referenceGhost);
+    } else this.referenceGhost = null;
+
+    this.trail = new TrailObject(kit, run, options.boresightBody, {
+      opacity: solid ? 1 : Math.max(0.35, opacity),
+      marker: solid ? 'dot' : 'diamond',
+      sphereRadius: SIZES.sphereRadius,
+    });
+    this.group.add(this.trail.group);
+
+    this.momentum = new MomentumContent(kit, run, {
+      drawEnvelope: style.drawEnvelope,
+      opacity: solid ? 1 : Math.max(0.35, opacity),
+      scale: style.momentumScale,
+    });
+    this.applyOptions(options);
+  }
+
+  /** Pose everything for `time` (s). Reads the trace's typed arrays; allocation-free. */
+  update(time: number): void {
+    const tr = this.run.trace;
+    const c = locateSample(tr.t, tr.n, time, this.cursor);
+    if (c.i < 0) return; // empty run: its groups stay hidden (applyOptions)
+    slerpFlat(this.qNow, 0, tr.q, 4 * c.i, tr.q, 4 * c.i1, c.alpha);
+    setObjectAttitude(this.body, this.qNow, 0);
+    if (this.referenceGhost) {
+      slerpFlat(this.qRefNow, 0, tr.qRef, 4 * c.i, tr.qRef, 4 * c.i1, c.alpha);
+      setObjectAttitude(this.referenceGhost, this.qRefNow, 0);
+    }
+    const k = activeTargetIndex(this.tStarts, this.tEnds, time);
+    if (k !== this.activeTarget) {
+      if (this.activeTarget >= 0) this.targetGhosts[this.activeTarget].visible = false;
+      if (k >= 0) this.targetGhosts[k].visible = true;
+      this.activeTarget = k;
+    }
+    this.trail.update(c, this.qNow, time, k);
+    this.momentum.update(c);
+  }
+
+  /** Apply display options (not per frame: may recompute the trail for a new boresight axis). */
+  applyOptions(o: ViewOptions): void {
+    const a = this.trail.axis, b = o.boresightBody;
+    if (a[0] !== b[0] || a[1] !== b[1] || a[2] !== b[2]) this.trail.setAxis(b);
+    this.trail.setKeepOut(o.showKeepOut ? o.keepOut : []);
+    this.trail.setVisibility(o.showTrail, o.showJumpMarkers, o.showGreatCircle, o.showKeepOut);
+    this.bus.visible = o.showBody;
+    this.bodyTriad.visible = o.showBodyTriad;
+    this.targets.visible = o.showTarget;
+    if (this.referenceGhost) this.referenceGhost.visible = o.showReference;
+    const empty = this.run.trace.n === 0;
+    this.group.visible = !empty;
+    this.momentum.group.visible = o.showMomentum && !empty;
+    if (this.momentum.envelope) this.momentum.envelope.group.visible = o.showEnvelope;
+  }
+
+  dispose(): void {
+    this.trail.dispose();
+    disposeTree(this.group, this.kit);
+    disposeTree(this.momentum.group, this.kit);
+  }
+}
