@@ -1,0 +1,49 @@
+/**
+ * The named commands the menu (desktop) or the keyboard handler (browser) sends to the UI, with
+ * their accelerators in Electron's notation. One table so the two shells cannot drift apart.
+ */
+export const MENU_COMMANDS = ['new', 'open', 'save', 'save-as', 'export', 'undo', 'redo', 'run'] as const;
+export type MenuCommand = (typeof MENU_COMMANDS)[number];
+
+export const COMMAND_ACCELERATORS: Readonly<Record<MenuCommand, string>> = {
+  new: 'CmdOrCtrl+N',
+  open: 'CmdOrCtrl+O',
+  save: 'CmdOrCtrl+S',
+  'save-as': 'CmdOrCtrl+Shift+S',
+  export: 'CmdOrCtrl+E',
+  undo: 'CmdOrCtrl+Z',
+  redo: 'CmdOrCtrl+Shift+Z',
+  run: 'CmdOrCtrl+R',
+};
+
+/** Quit is handled by the shell itself (through the unsaved-changes guard), not by the UI. */
+export const QUIT_ACCELERATOR = 'CmdOrCtrl+Q';
+
+export function isMenuCommand(v: unknown): v is MenuCommand {
+  return typeof v === 'string' && (MENU_COMMANDS as readonly string[]).includes(v);
+}
+
+export interface KeyChord {
+  key: string;
+  ctrlKey: boolean;
+  metaKey: boolean;
+  shiftKey: boolean;
+  altKey: boolean;
+}
+
+/**
+ * The command a keyboard chord stands for, or null. `CmdOrCtrl` is Meta on macOS and Ctrl elsewhere,
+ * as in Electron's accelerators.
+ */
+export function commandForChord(chord: KeyChord, isMac: boolean): MenuCommand | null {
+  const primary = isMac ? chord.metaKey : chord.ctrlKey;
+  const other = isMac ? chord.ctrlKey : chord.metaKey;
+  if (!primary || other || chord.altKey) return null;
+  const key = chord.key.length === 1 ? chord.key.toUpperCase() : chord.key;
+  for (const command of MENU_COMMANDS) {
+    const parts = COMMAND_ACCELERATORS[command].split('+');
+    const wantShift = parts.includes('Shift');
+    if (parts[parts.length - 1] === key && wantShift === chord.shiftKey) return command;
+  }
+  return null;
+}
