@@ -1,0 +1,77 @@
+/**
+ * Renderer build: app/index.html + React into dist/renderer, with relative asset URLs (base './')
+ * so the same files load from app://, file:// or a static server. `vite preview` (npm run web)
+ * serves that folder on 127.0.0.1.
+ *
+ * The production index gets the CSP from electron.config.ts as a <meta> tag (the dev server leaves
+ * it out: React's fast refresh needs an inline script there). A copy of the demo scenario is
+ * emitted beside the page so the browser build can open it without a file system.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import react from '@vitejs/plugin-react';
+import { defineConfig, type Plugin } from 'vite';
+import { contentSecurityPolicy, electronConfig } from './electron.config.ts';
+
+const root = path.dirname(fileURLToPath(import.meta.url));
+const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as { version: string };
+
+/** Puts the CSP right after the charset declaration, ahead of every script and stylesheet. */
+function cspMeta(csp: string): Plugin {
+  const tag = `<meta http-equiv="Content-Security-Policy" content="${csp.replace(/"/g, '&quot;')}" />`;
+  return {
+    name: 'slewsmith-csp-meta',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html) {
+        const charset = /<meta charset="utf-8"\s*\/?>/i;
+        if (!charset.test(html)) throw new Error('app/index.html must declare <meta charset="utf-8"> first in <head>');
+        return html.replace(charset, (m) => `${m}\n    ${tag}`);
+      },
+    },
+  };
+}
+
+function demoScenario(): Plugin {
+  const source = path.join(root, electronConfig.demoScenario);
+  const url = electronConfig.demoScenarioUrl;
+  return {
+    name: 'slewsmith-demo-scenario',
+    generateBundle() {
+      // The browser shell treats a missing demo as "no initial scenario", so absence is not an error.
+      if (fs.existsSync(source)) this.emitFile({ type: 'asset', fileName: url, source: fs.readFileSync(source) });
+    },
+    configureServer(server) {
+      server.middlewares.use(`/${url}`, (_req, res, next) => {
+        if (!fs.existsSync(source)) return next();
+        res.setHeader('Content-Type', 'application/json; charset=utf-8');
+        res.end(fs.readFileSync(source));
+      });
+    },
+  };
+}
+
+export default defineConfig({
+  root: path.join(root, electronConfig.entries.rendererRoot),
+  base: './',
+  publicDir: false,
+  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario()],
+  define: {
+    __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),
+  },
+  build: {
+    outDir: path.join(root, electronConfig.output.rendererDir),
+    emptyOutDir: true,
+    target: 'es2022',
+    sourcemap: true,
+    // Inlined data: URLs are allowed for images and fonts only; keep scripts and styles as files.
+    assetsInlineLimit: 0,
+  },
+  preview: {
+    host: '127.0.0.1',
+    headers: { 'Content-Security-Policy': contentSecurityPolicy, 'X-Content-Type-Options': 'nosniff' },
+  },
+  server: { host: '127.0.0.1' },
+});
