@@ -1,0 +1,166 @@
+/**
+ * Quaternion feedback laws on S³: continuous PD, memoryless sign switch, hysteretic hybrid.
+ *
+ * All three: τ = τ_ff − k_p s ε − K_d ω_e, with (η, ε) = q_e, τ_ff the passive tracking
+ * feedforward (tracking.ts) and s the chosen sign of the target lift:
+ *   - PD:         s = +1 always (quaternion feedback as in Wie & Barba, JGCD 8(3), 1985, from
+ *                 memory); it unwinds, the topological obstruction of Bhat & Bernstein,
+ *                 Systems & Control Letters 39(1):63–70, 2000;
+ *   - sign-switch: s = sgn(η), sgn(0) = +1 — discontinuous at η = 0, chatters under noise
+ *                 (Mayhew, Sanfelice & Teel, IEEE TAC 58(5):1179–1191, 2013);
+ *   - hysteretic: s = h ∈ {−1, 1}, flow set hη ≥ −δ, jump set hη ≤ −δ, h⁺ = sgn(η)
+ *                 (Mayhew, Sanfelice & Teel, "Quaternion-based hybrid control for robust global
+ *                 attitude tracking", IEEE TAC 56(11):2555–2566, 2011).
+ * Lyapunov value W = 2k_p(1 − sη) + ½ω_eᵀJ⊥ω_e, Ẇ = −ω_eᵀK_dω_e on flows (methods §2a, §3);
+ * a hysteretic jump lowers W by at least 4k_pδ.
+ */
+import type { Mat3, Vec3 } from '../math/mat3';
+import { qAngle } from '../math/rotation';
+import type { TrackingState } from './tracking';
+import { computeTracking, errorKineticEnergy, feedforwardPassive, makeTrackingState, sgnPos, subtractMatVec } from './tracking';
+import type { AttitudeController, ControlDiagnostics, ControlInput, ControllerKind, PlantModel } from './types';
+
+abstract class QuaternionLawBase implements AttitudeController {
+  abstract readonly kind: ControllerKind;
+  abstract readonly jumpDecrease: number;
+  readonly certificate = null;
+  protected readonly st: TrackingState = makeTrackingState();
+
+  constructor(
+    readonly label: string,
+    protected readonly plant: PlantModel,
+    readonly kp: number,
+    readonly Kd: Mat3,
+  ) {}
+
+  /** The sign s of the target lift for this state and logic. */
+  protected abstract sign(eta: number, logic: number): number;
+
+  abstract initialLogic(input: ControlInput): number;
+  abstract jumpGuard(input: ControlInput, logic: number): number;
+  abstract updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null };
+
+  torque(out: Vec3, input: ControlInput, logic: number): Vec3 {
+    const st = computeTracking(this.st, this.plant, input);
+    const s = this.sign(st.qe[3], logic) * this.kp;
+    const ex = st.qe[0], ey = st.qe[1], ez = st.qe[2];
+    feedforwardPassive(out, st, this.plant);
+    out[0] -= s * ex;
+    out[1] -= s * ey;
+    out[2] -= s * ez;
+    return subtractMatVec(out, st, this.Kd, st.omegaE);
+  }
+
+  diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics {
+    const st = computeTracking(this.st, this.plant, input);
+    const eta = st.qe[3];
+    const s = this.sign(eta, logic);
+    out.errorAngle = qAngle(st.qe);
+    out.eta = eta;
+    out.potential = 2 * (1 - s * eta);
+    out.potentialMin = this.familyMin(eta);
+    out.gap = out.potential - out.potentialMin;
+    out.lyapunov = this.kp * out.potential + errorKineticEnergy(st, this.plant);
+    return out;
+  }
+
+  /** Smallest potential of the law's family at this η. */
+  protected abstract familyMin(eta: number): number;
+
+  protected eta(input: ControlInput): number {
+    return computeTracking(this.st, this.plant, input).qe[3];
+  }
+}
+
+/** Continuous quaternion PD (unwinds; Bhat & Bernstein 2000). Logic unused (0). */
+export class QuaternionPd extends QuaternionLawBase {
+  readonly kind = 'quaternion-pd' as const;
+  readonly jumpDecrease = 0;
+  protected sign(): number {
+    return 1;
+  }
+  protected familyMin(eta: number): number {
+    return 2 * (1 - eta);
+  }
+  initialLogic(): number {
+    return 0;
+  }
+  jumpGuard(): number {
+    return -1;
+  }
+  updateLogic(): { logic: number; why: string | null } {
+    return { logic: 0, why: null };
+  }
+}
+
+/** Memoryless shortest-path law, s = sgn(η) with sgn(0) = +1. Logic unused (0). */
+export class SignSwitch extends QuaternionLawBase {
+  readonly kind = 'sign-switch' as const;
+  readonly jumpDecrease = 0;
+  protected sign(eta: number): number {
+    return sgnPos(eta);
+  }
+  protected familyMin(eta: number): number {
+    return 2 * (1 - Math.abs(eta));
+  }
+  initialLogic(): number {
+    return 0;
+  }
+  jumpGuard(): number {
+    return -1;
+  }
+  updateLogic(): { logic: number; why: string | null } {
+    return { logic: 0, why: null };
+  }
+}
+
+/** Hysteretic hybrid quaternion feedback, logic h ∈ {−1, 1} (MST 2011). */
+export class Hysteretic extends QuaternionLawBase {
+  readonly kind = 'hysteretic' as const;
+  readonly jumpDecrease: number;
+
+  constructor(
+    label: string,
+    plant: PlantModel,
+    kp: number,
+    Kd: Mat3,
+    /** Hysteresis δ ≥ 0 (δ = 0: sign switch; δ ≥ 1: no jump possible, continuous PD). */
+    readonly delta: number,
+    /** Fixed h(0), or 0 for "sgn(η) at the start". */
+    readonly startLogic: number,
+  ) {
+    super(label, plant, kp, Kd);
+    this.jumpDecrease = 4 * kp * delta;
+  }
+
+  protected sign(eta: number, logic: number): number {
+    // An invalid logic value is treated as the jump map would set it.
+    return logic === 1 || logic === -1 ? logic : sgnPos(eta);
+  }
+  protected familyMin(eta: number): number {
+    return 2 * (1 - Math.abs(eta));
+  }
+
+  initialLogic(input: ControlInput): number {
+    return this.startLogic === 1 || this.startLogic === -1 ? this.startLogic : sgnPos(this.eta(input));
+  }
+
+  /** g = −hη − δ ≥ 0 ⇔ hη ≤ −δ (jump set). */
+  jumpGuard(input: ControlInput, logic: number): number {
+    if (logic !== 1 && logic !== -1) return 1;
+    return -logic * this.eta(input) - this.delta;
+  }
+
+  updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null } {
+    const eta = this.eta(input);
+    if (logic !== 1 && logic !== -1) {
+      const h = sgnPos(eta);
+      return { logic: h, why: `logic reset to h = ${h} (invalid value ${logic})` };
+    }
+    if (logic * eta <= -this.delta) {
+      const h = sgnPos(eta);
+      if (h !== logic) return { logic: h, why: `h·η = ${(logic * eta).toFixed(4)} ≤ −δ = ${(-this.delta).toFixed(4)}: h ${logic} → ${h}` };
+    }
+    return { logic, why: null };
+  }
+}

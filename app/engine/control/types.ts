@@ -1,0 +1,91 @@
+/**
+ * One interface for every attitude controller, smooth or hybrid.
+ *
+ * Conventions (rotation.ts): q = qInertialFromBody stored [x, y, z, w]; body rates in body axes;
+ * attitude error q_e = q_d* ⊗ q, R_e = R(q_e), ω_e = ω − R_eᵀω_d (methods §1.1). Every law is in
+ * tracking form: in regulation (ω_d = ω̇_d = 0) the feedforward vanishes and the textbook
+ * regulation law remains.
+ *
+ * A controller owns at most one number of hybrid logic (h ∈ {−1, 1}, member index q ∈ {1..M},
+ * 0 for laws without logic). The caller (closed loop / simulator) stores it with the plant state:
+ *   - at the start of a run call `initialLogic`; at the start of each maneuver segment call
+ *     `beginSegment` when the law has it (it latches per-segment data such as the eigenaxis law's
+ *     saturation limits; `initialLogic` latches too, a run start being a segment start);
+ *   - `jumpGuard(input, logic) ≥ 0` ⇔ (state, logic) is in the jump set D (closed sets, so C and D
+ *     overlap on the boundary; Goebel, Sanfelice & Teel, IEEE CSM 29(2), 2009). In the ideal
+ *     continuous mode the simulator locates the zero crossing of the guard;
+ *   - at a sample or located crossing call `updateLogic`; it returns `why` ≠ null exactly when the
+ *     logic changed. On a boundary where the jump map is the identity it may return the same logic
+ *     with why = null even though the guard is ≥ 0: the simulator must then keep flowing.
+ * `torque` and `diagnostics` write into `out` and allocate nothing.
+ */
+import type { Mat3, Vec3 } from '../math/mat3';
+import type { Quat } from '../math/rotation';
+import type { CertificateResult } from './certificate';
+
+export type ControllerKind = 'quaternion-pd' | 'sign-switch' | 'eigenaxis' | 'hysteretic' | 'synergistic';
+
+export const CONTROLLER_KINDS: readonly ControllerKind[] = ['quaternion-pd', 'sign-switch', 'eigenaxis', 'hysteretic', 'synergistic'];
+
+/** What the controller knows of the plant. */
+export interface PlantModel {
+  /** J⊥ = J_tot − G J_s Gᵀ, kg·m² (methods §6), column-major 3×3. */
+  Jperp: Mat3;
+  nWheels: number;
+  /** Unit wheel spin axes in body axes, 3 per wheel (G's columns). */
+  axes: Float64Array;
+}
+
+export interface ControlInput {
+  /** Measured attitude qInertialFromBody. */
+  q: Quat;
+  /** Measured body rate, body axes, rad/s. */
+  omega: Vec3;
+  /** Wheel axial (absolute) momenta h_i, N·m·s, nWheels values: the body's gyroscopic term uses G h. */
+  hWheel: Float64Array;
+  /** Reference attitude qInertialFromReference (the target in regulation). */
+  qRef: Quat;
+  /** Reference body rate, in the reference frame's axes, rad/s. */
+  omegaRef: Vec3;
+  /** Reference body acceleration, reference axes, rad/s². */
+  omegaDotRef: Vec3;
+}
+
+export interface ControlDiagnostics {
+  /** Shortest rotation angle of q_e, rad. */
+  errorAngle: number;
+  /** Scalar part η of q_e (sign as computed, not made positive). */
+  eta: number;
+  /** Active potential (V_q, or 2(1 − hη) for quaternion laws); unscaled by the gain. */
+  potential: number;
+  /** Minimum over the law's family of potentials (= potential for a family of one). */
+  potentialMin: number;
+  /** Synergy gap μ = potential − potentialMin. */
+  gap: number;
+  /** The law's Lyapunov value W (see each law for its definition and units). */
+  lyapunov: number;
+}
+
+export interface AttitudeController {
+  readonly kind: ControllerKind;
+  readonly label: string;
+  /**
+   * The drop of W that theory guarantees at each jump: 4k_pδ (hysteretic), k_Rδ (synergistic),
+   * 0 for laws without logic.
+   */
+  readonly jumpDecrease: number;
+  /** The synergistic law's certificate (null for other laws). */
+  readonly certificate: CertificateResult | null;
+  initialLogic(input: ControlInput): number;
+  /** Re-latch per-segment data at a segment start (laws without such data omit it). */
+  beginSegment?(input: ControlInput): void;
+  jumpGuard(input: ControlInput, logic: number): number;
+  updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null };
+  /** Body torque request, N·m, written into out. */
+  torque(out: Vec3, input: ControlInput, logic: number): Vec3;
+  diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics;
+}
+
+export function makeDiagnostics(): ControlDiagnostics {
+  return { errorAngle: 0, eta: 1, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0 };
+}
