@@ -1,0 +1,236 @@
+/**
+ * validateScenario: the file's format and version first (a file we cannot read says so and
+ * nothing else), then the zod structure and the cross-field rules, ALL reported together, each
+ * with its JSON path and rule. Cross-field rules run on the raw input part by part, so one
+ * broken field does not hide problems elsewhere.
+ */
+import type { Issue, Result } from '../errors';
+import { describe, fail, issue, ok } from '../errors';
+import { qCreate } from '../math/rotation';
+import type { Quat } from '../math/rotation';
+import { resolveAttitude } from './attitude';
+import { fromZodIssues } from './issues';
+import {
+  ActuationSchema,
+  AttitudeSchema,
+  ControllerSchema,
+  InitialSchema,
+  KeepOutSchema,
+  SCENARIO_FORMAT,
+  SCENARIO_VERSION,
+  ScenarioSchema,
+  WheelsSchema,
+} from './schema';
+import type { Scenario, WheelsSpec } from './schema';
+import { parseIsoUtcMs } from './utc';
+
+type Obj = Record<string, unknown>;
+
+function isObj(v: unknown): v is Obj {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+function get(v: unknown, ...keys: (string | number)[]): unknown {
+  let x = v;
+  for (const k of keys) {
+    if (x === null || typeof x !== 'object') return undefined;
+    x = (x as Obj)[k as string];
+  }
+  return x;
+}
+
+/** Number of wheels of a wheels entry that parses, else null. */
+export function wheelCount(w: WheelsSpec): number {
+  return w.layout === 'pyramid' ? 4 : w.layout === 'triad' ? 3 : w.wheels.length;
+}
+
+/** Per-wheel momentum limits (mN·m·s) of a wheels entry. */
+export function wheelMomentumLimitsMNms(w: WheelsSpec): number[] {
+  if (w.layout === 'custom') return w.wheels.map((x) => x.maxMomentumMNms);
+  return new Array(wheelCount(w)).fill(w.maxMomentumMNms);
+}
+
+/** The format and version gate. Returns issues when the file is not one we can read. */
+function checkFormatAndVersion(json: unknown): Issue[] {
+  if (!isObj(json)) {
+    return [issue('', 'type', `A scenario file must be a JSON object (got ${describe(json)})`)];
+  }
+  const f = json.format;
+  if (f !== SCENARIO_FORMAT) {
+    const msg =
+      f === undefined
+        ? `This is not a Slewsmith scenario file: the field "format" is missing (it must be "${SCENARIO_FORMAT}")`
+        : `This is not a Slewsmith scenario file: "format" is ${describe(f)}, not "${SCENARIO_FORMAT}"`;
+    return [issue('format', 'format', msg)];
+  }
+  const v = json.version;
+  if (v === undefined) {
+    return [issue('version', 'required', `version is missing; this Slewsmith reads scenario files of version ${SCENARIO_VERSION}`)];
+  }
+  if (typeof v !== 'number' || !Number.isInteger(v) || v < 1) {
+    return [issue('version', 'version', `version must be a whole number ≥ 1 (got ${describe(v)}); this Slewsmith reads version ${SCENARIO_VERSION}`)];
+  }
+  if (v > SCENARIO_VERSION) {
+    return [issue('version', 'version-newer', `version ${v} is newer than this Slewsmith reads (${SCENARIO_VERSION}); open the file with a newer Slewsmith`)];
+  }
+  return [];
+}
+
+/** Structure, ranges, units and cross-field rules of a scenario file. */
+export function validateScenario(json: unknown): Result<Scenario> {
+  const gate = checkFormatAndVersion(json);
+  if (gate.length) return fail(gate);
+
+  const errors: Issue[] = [];
+  const warnings: Issue[] = [];
+  const parsed = ScenarioSchema.safeParse(json);
+  if (!parsed.success) errors.push(...fromZodIssues(parsed.error.issues as never, json));
+  crossFieldChecks(json as Obj, errors, warnings);
+
+  if (errors.length || !parsed.success) return fail(dedupe(errors), warnings);
+  return ok(parsed.data, warnings);
+}
+
+function dedupe(list: Issue[]): Issue[] {
+  const seen = new Set<string>();
+  return list.filter((i) => {
+    const k = `${i.path}|${i.rule}`;
+    if (seen.has(k)) return false;
+    seen.add(k);
+    return true;
+  });
+}
+
+function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
+  // Epoch: the regex passes 2030-02-30T…; the calendar check does not.
+  const ep = raw.epochUtc;
+  if (typeof ep === 'string' && /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{1,3})?Z$/.test(ep) && parseIsoUtcMs(ep) === null) {
+    errors.push(issue('epochUtc', 'calendar', `epochUtc ${JSON.stringify(ep)} is not a real UTC date and time`));
+  }
+
+  // Wheels and the initial wheel momentum.
+  const wheels = WheelsSchema.safeParse(get(raw, 'vehicle', 'wheels'));
+  if (wheels.success && wheels.data.layout === 'custom') {
+    wheels.data.wheels.forEach((w, i) => {
+      if (!(Math.hypot(w.axis[0], w.axis[1], w.axis[2]) > 0)) {
+        const p = `vehicle.wheels.wheels[${i}].axis`;
+        errors.push(issue(p, 'non-zero', `${p} is the zero vector; a spin axis needs a non-zero length`));
+      }
+    });
+  }
+  const h0 = get(raw, 'initial', 'wheelMomentumMNms');
+  if (wheels.success && Array.isArray(h0)) {
+    const n = wheelCount(wheels.data);
+    if (h0.length !== n) {
+      errors.push(issue('initial.wheelMomentumMNms', 'count', `initial.wheelMomentumMNms has ${h0.length} value${h0.length === 1 ? '' : 's'} but the vehicle has ${n} wheels (one value per wheel)`));
+    } else {
+      const lim = wheelMomentumLimitsMNms(wheels.data);
+      h0.forEach((h, i) => {
+        if (typeof h === 'number' && Number.isFinite(h) && Math.abs(h) > lim[i]) {
+          const p = `initial.wheelMomentumMNms[${i}]`;
+          errors.push(issue(p, 'within-limit', `${p} = ${h} mN·m·s exceeds wheel ${i + 1}'s momentum limit of ${lim[i]} mN·m·s`));
+        }
+      });
+    }
+  }
+
+  // Actuation mode and its quantum.
+  const act = ActuationSchema.safeParse(get(raw, 'vehicle', 'actuation'));
+  if (act.success) {
+    if (act.data.mode === 'quantized' && act.data.torqueQuantumMNm === undefined) {
+      errors.push(issue('vehicle.actuation.torqueQuantumMNm', 'required-for-mode', 'vehicle.actuation.torqueQuantumMNm is required when vehicle.actuation.mode is "quantized"'));
+    } else if (act.data.mode !== 'quantized' && act.data.torqueQuantumMNm !== undefined) {
+      warnings.push(issue('vehicle.actuation.torqueQuantumMNm', 'ignored', `vehicle.actuation.torqueQuantumMNm is ignored when mode is "${act.data.mode}"`));
+    }
+  }
+
+  checkAttitudes(raw, errors, warnings);
+  checkControllers(raw, errors, warnings);
+
+  const ko = raw.keepOut;
+  if (Array.isArray(ko)) {
+    ko.forEach((k, i) => {
+      const r = KeepOutSchema.safeParse(k);
+      if (!r.success) return;
+      for (const f of ['inertialDirection', 'bodyAxis'] as const) {
+        const v = r.data[f];
+        if (v && !(Math.hypot(v[0], v[1], v[2]) > 0)) {
+          const p = `keepOut[${i}].${f}`;
+          errors.push(issue(p, 'non-zero', `${p} is the zero vector; a direction needs a non-zero length`));
+        }
+      }
+    });
+  }
+}
+
+/** Resolve every attitude in order (so relative ones compose) and report their problems. */
+function checkAttitudes(raw: Obj, errors: Issue[], warnings: Issue[]): void {
+  let previous: Quat | null = null;
+  const init = InitialSchema.shape.attitude.safeParse(get(raw, 'initial', 'attitude'));
+  if (init.success) {
+    const q = qCreate();
+    if (resolveAttitude(q, init.data, null, 'initial.attitude', errors, warnings, true)) previous = q;
+  }
+  const targets = raw.targets;
+  if (!Array.isArray(targets)) return;
+  targets.forEach((t, i) => {
+    const a = AttitudeSchema.safeParse(get(t, 'attitude'));
+    if (!a.success) {
+      previous = null;
+      return;
+    }
+    const q = qCreate();
+    previous = resolveAttitude(q, a.data, previous, `targets[${i}].attitude`, errors, warnings) ? q : null;
+  });
+}
+
+function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
+  const list = raw.controllers;
+  if (!Array.isArray(list)) return;
+  const firstIndex = new Map<string, number>();
+  const rate = get(raw, 'vehicle', 'controlRateHz');
+  list.forEach((c, i) => {
+    const id = get(c, 'id');
+    if (typeof id === 'string') {
+      const k = firstIndex.get(id);
+      if (k === undefined) firstIndex.set(id, i);
+      else errors.push(issue(`controllers[${i}].id`, 'unique', `controllers[${i}].id "${id}" is already used by controllers[${k}]; controller ids must be unique`));
+    }
+    const r = ControllerSchema.safeParse(c);
+    if (!r.success) return;
+    const ctl = r.data;
+    if ('bandwidthRadPerS' in ctl.gains && typeof rate === 'number' && rate > 0) {
+      const nyquistFraction = ctl.gains.bandwidthRadPerS / (2 * Math.PI * rate);
+      if (nyquistFraction > 0.1) {
+        warnings.push(issue(`controllers[${i}].gains.bandwidthRadPerS`, 'sample-rate', `controllers[${i}].gains.bandwidthRadPerS = ${ctl.gains.bandwidthRadPerS} rad/s is more than a tenth of the ${rate} Hz control rate; sampled behaviour will differ from the continuous design`));
+      }
+    }
+    if (ctl.law !== 'synergistic') return;
+    const p = `controllers[${i}]`;
+    const w = ctl.potentialWeights;
+    const wMax = Math.max(...w);
+    pairs: for (let a = 0; a < 3; a++)
+      for (let b = a + 1; b < 3; b++)
+        if (Math.abs(w[a] - w[b]) <= 1e-9 * wMax) {
+          errors.push(issue(`${p}.potentialWeights`, 'distinct', `${p}.potentialWeights must be distinct (entries ${a} and ${b} are both ${w[a]}); repeated weights give a continuum of critical attitudes`));
+          break pairs;
+        }
+    if (ctl.potentialAxes) {
+      const ax = ctl.potentialAxes;
+      let worst = 0;
+      for (let a = 0; a < 3; a++)
+        for (let b = a; b < 3; b++) {
+          const d = ax[a][0] * ax[b][0] + ax[a][1] * ax[b][1] + ax[a][2] * ax[b][2];
+          worst = Math.max(worst, Math.abs(d - (a === b ? 1 : 0)));
+        }
+      if (!(worst <= 1e-6)) {
+        errors.push(issue(`${p}.potentialAxes`, 'orthonormal', `${p}.potentialAxes must be three orthonormal vectors (within 1e-6; largest departure ${worst.toPrecision(3)})`));
+      }
+    }
+    ctl.warpDirections?.forEach((u, k) => {
+      if (!(Math.hypot(u[0], u[1], u[2]) > 0)) {
+        errors.push(issue(`${p}.warpDirections[${k}]`, 'non-zero', `${p}.warpDirections[${k}] is the zero vector; a warping direction needs a non-zero length`));
+      }
+    });
+  });
+}
