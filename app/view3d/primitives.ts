@@ -45,7 +45,6 @@ export function disposeKit(kit: Kit): void {
 }
 
 const UP = new Vector3(0, 1, 0);
-const sDir = new Vector3();
 
 export interface ArrowStyle {
   color: number;
@@ -57,6 +56,9 @@ export interface ArrowStyle {
 /** An arrow from its parent's origin; `set` re-aims and re-sizes it without allocating. */
 export class VectorArrow extends Group {
   readonly material: MeshBasicMaterial;
+  /** Current length (scene units) and unit direction (parent frame), as last set. */
+  length = 0;
+  readonly direction = new Vector3(0, 1, 0);
   private readonly shaft: Mesh;
   private readonly head: Mesh;
   private readonly radius: number;
@@ -76,11 +78,13 @@ export class VectorArrow extends Group {
     const n = Math.hypot(x, y, z);
     if (!(n > 0) || !(length > 1e-9)) {
       this.visible = false;
+      this.length = 0;
       return;
     }
     this.visible = true;
-    sDir.set(x / n, y / n, z / n);
-    this.quaternion.setFromUnitVectors(UP, sDir);
+    this.length = length;
+    this.direction.set(x / n, y / n, z / n);
+    this.quaternion.setFromUnitVectors(UP, this.direction);
     const headLen = Math.min(this.radius * 7, length * 0.35);
     const headR = this.radius * 2.6;
     this.shaft.scale.set(this.radius, Math.max(length - headLen, 1e-6), this.radius);
