@@ -59,12 +59,13 @@ export function evaluateReference(
   outQ[1] = aw * by - ax * bz + ay * bw + az * bx;
   outQ[2] = aw * bz + ax * by - ay * bx + az * bw;
   outQ[3] = aw * bw - ax * bx - ay * by - az * bz;
-  outOmega[0] = st[1] * ex;
-  outOmega[1] = st[1] * ey;
-  outOmega[2] = st[1] * ez;
-  outOmegaDot[0] = st[2] * ex;
-  outOmegaDot[1] = st[2] * ey;
-  outOmegaDot[2] = st[2] * ez;
+  // "+ 0" turns −0 (zero rate times a negative axis component) into +0: exports must not write −0.
+  outOmega[0] = st[1] * ex + 0;
+  outOmega[1] = st[1] * ey + 0;
+  outOmega[2] = st[1] * ez + 0;
+  outOmegaDot[0] = st[2] * ex + 0;
+  outOmegaDot[1] = st[2] * ey + 0;
+  outOmegaDot[2] = st[2] * ez + 0;
   return k;
 }
 
@@ -103,9 +104,9 @@ export function evaluatePlannedLoads(
   const jex = J[0] * ex + J[3] * ey + J[6] * ez;
   const jey = J[1] * ex + J[4] * ey + J[7] * ez;
   const jez = J[2] * ex + J[5] * ey + J[8] * ez;
-  outTorqueBody[0] = jex * al + w * (ey * Hz - ez * Hy);
-  outTorqueBody[1] = jey * al + w * (ez * Hx - ex * Hz);
-  outTorqueBody[2] = jez * al + w * (ex * Hy - ey * Hx);
+  outTorqueBody[0] = jex * al + w * (ey * Hz - ez * Hy) + 0;
+  outTorqueBody[1] = jey * al + w * (ez * Hx - ex * Hz) + 0;
+  outTorqueBody[2] = jez * al + w * (ex * Hy - ey * Hx) + 0;
   outWheelMomentumBody[0] = Hx - w * jex;
   outWheelMomentumBody[1] = Hy - w * jey;
   outWheelMomentumBody[2] = Hz - w * jez;
