@@ -50,6 +50,15 @@ export function wheelMomentumLimitsMNms(w: WheelsSpec): number[] {
   return new Array(wheelCount(w)).fill(w.maxMomentumMNms);
 }
 
+/** Wheel count from the layout alone, so a bad limit elsewhere in `wheels` does not hide a count error. */
+function rawWheelCount(w: unknown): number | null {
+  const layout = get(w, 'layout');
+  if (layout === 'pyramid') return 4;
+  if (layout === 'triad') return 3;
+  const list = get(w, 'wheels');
+  return layout === 'custom' && Array.isArray(list) ? list.length : null;
+}
+
 /** The format and version gate. Returns issues when the file is not one we can read. */
 function checkFormatAndVersion(json: unknown): Issue[] {
   if (!isObj(json)) {
@@ -119,11 +128,11 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     });
   }
   const h0 = get(raw, 'initial', 'wheelMomentumMNms');
-  if (wheels.success && Array.isArray(h0)) {
-    const n = wheelCount(wheels.data);
+  const n = rawWheelCount(get(raw, 'vehicle', 'wheels'));
+  if (n !== null && Array.isArray(h0)) {
     if (h0.length !== n) {
       errors.push(issue('initial.wheelMomentumMNms', 'count', `initial.wheelMomentumMNms has ${h0.length} value${h0.length === 1 ? '' : 's'} but the vehicle has ${n} wheels (one value per wheel)`));
-    } else {
+    } else if (wheels.success) {
       const lim = wheelMomentumLimitsMNms(wheels.data);
       h0.forEach((h, i) => {
         if (typeof h === 'number' && Number.isFinite(h) && Math.abs(h) > lim[i]) {
