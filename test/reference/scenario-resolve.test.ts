@@ -38,7 +38,8 @@ function expectSameAttitude(ours: ArrayLike<number>, ref: { w: number; x: number
   expect(1 - Math.abs(d)).toBeLessThan(tol);
 }
 
-const axisOf = (c: string) => (c === 'X' ? [1, 0, 0] : c === 'Y' ? [0, 1, 0] : [0, 0, 1]);
+type V3 = [number, number, number];
+const axisOf = (c: string): V3 => (c === 'X' ? [1, 0, 0] : c === 'Y' ? [0, 1, 0] : [0, 0, 1]);
 
 describe('Euler targets', () => {
   it('the quaternion package composes fromEuler as a product of its own axis-angle rotations (all 12 orders)', () => {
@@ -82,7 +83,7 @@ describe('Euler targets', () => {
 
 describe('pointing targets', () => {
   const rng = makeRng(11, 3);
-  const gauss = () => [rng.normal(), rng.normal(), rng.normal()];
+  const gauss = (): V3 => [rng.normal(), rng.normal(), rng.normal()];
   const unit = (v: number[]) => { const n = Math.hypot(...v); return v.map((x) => x / n); };
   const angle = (a: number[], b: number[]) => Math.atan2(Math.hypot(a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]), a[0] * b[0] + a[1] * b[1] + a[2] * b[2]);
   const sinA = (a: number[], b: number[]) => Math.sin(angle(a, b));
@@ -105,7 +106,7 @@ describe('pointing targets', () => {
       // And any extra rotation about r makes it worse.
       for (const d of [-0.02, 0.02]) {
         const qr = Quaternion.fromAxisAngle(r, d);
-        const v = qr.rotateVector(Rb2);
+        const v = qr.rotateVector(Rb2 as V3) as V3;
         expect(angle(v, r2)).toBeGreaterThan(mis - 1e-12);
       }
     }
