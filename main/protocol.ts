@@ -51,6 +51,8 @@ export function resolveAppPath(url: string, rootDir: string): string | null {
     return null;
   }
   if (pathname.includes('\0')) return null;
+  // Decoded dot segments (%2e%2e, ..%5c) are refused outright rather than resolved.
+  if (pathname.split(/[/\\]/).includes('..')) return null;
   if (pathname === '/' || pathname === '') pathname = `/${electronConfig.protocol.index}`;
   const root = path.resolve(rootDir);
   // Backslashes would be separators on Windows: treat them as such everywhere.
