@@ -9,8 +9,9 @@
  * The sample loop allocates nothing (one workspace and a few scratch arrays per call).
  */
 import { makeRng } from '../math/prng';
-import { qAngle, qRandomUniform } from '../math/rotation';
-import type { WarpFamily } from './potential';
+import { qFromRotationVector, qMultiply, qRandomUniform } from '../math/rotation';
+import { nelderMead } from './numeric';
+import type { FamilyWorkspace, WarpFamily } from './potential';
 import { evaluateFamily, makeFamilyWorkspace, memberGradient } from './potential';
 
 export interface FlowSetMemberStats {
@@ -22,6 +23,12 @@ export interface FlowSetMemberStats {
   minGradientNorm: number;
   /** Attitude [x, y, z, w] where the minimum was seen. */
   worstAttitude: [number, number, number, number];
+  /**
+   * The minimum after a local constrained search (Nelder–Mead with an extreme barrier on the flow
+   * set and the angle cut) started from the worst sample: an estimate of the true infimum, which
+   * sampling alone only bounds from above. NaN when not refined.
+   */
+  refinedMinGradientNorm: number;
 }
 
 export interface FlowSetCheck {
@@ -32,7 +39,7 @@ export interface FlowSetCheck {
   /** Samples beyond the angle cut. */
   beyondAngle: number;
   perMember: FlowSetMemberStats[];
-  /** Smallest over all members. */
+  /** Smallest over all members (sampled or refined). */
   minGradientNorm: number;
 }
 
@@ -40,6 +47,8 @@ export interface FlowSetOptions {
   samples?: number;
   seed?: number;
   minAngleRad?: number;
+  /** Refine each member's minimum by a local constrained search (default true). */
+  refine?: boolean;
 }
 
 export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: FlowSetOptions = {}): FlowSetCheck {
@@ -55,9 +64,11 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   const minB = new Float64Array(n).fill(Infinity);
   const worst = new Float64Array(4 * n);
   let beyond = 0;
+  // angle ≥ a ⇔ |η| ≤ cos(a/2) (angle = 2 acos|η|), cheaper than computing the angle
+  const etaMax = Math.cos(0.5 * minAngle);
   for (let s = 0; s < samples; s++) {
     qRandomUniform(q, rng);
-    if (qAngle(q) < minAngle) continue;
+    if (Math.abs(q[3]) > etaMax) continue;
     beyond++;
     evaluateFamily(ws, fam, q);
     const vmin = ws.minValue;
@@ -65,7 +76,7 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
       if (ws.V[p] - vmin > delta) continue;
       count[p]++;
       memberGradient(b, fam, ws, p);
-      const nb = Math.hypot(b[0], b[1], b[2]);
+      const nb = Math.sqrt(b[0] * b[0] + b[1] * b[1] + b[2] * b[2]);
       if (nb < minB[p]) {
         minB[p] = nb;
         worst[4 * p] = q[0];
@@ -77,14 +88,45 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   }
   const perMember: FlowSetMemberStats[] = [];
   let overall = Infinity;
+  const refine = options.refine ?? true;
   for (let p = 0; p < n; p++) {
+    const w0 = worst.subarray(4 * p, 4 * p + 4);
+    const refined = refine && count[p] > 0 ? refineMinimum(fam, ws, p, w0, delta, etaMax) : NaN;
     perMember.push({
       member: p + 1,
       inFlowSet: count[p],
       minGradientNorm: minB[p],
-      worstAttitude: [worst[4 * p], worst[4 * p + 1], worst[4 * p + 2], worst[4 * p + 3]],
+      worstAttitude: [w0[0], w0[1], w0[2], w0[3]],
+      refinedMinGradientNorm: refined,
     });
-    overall = Math.min(overall, minB[p]);
+    overall = Math.min(overall, minB[p], Number.isNaN(refined) ? Infinity : refined);
   }
   return { samples, seed, delta, minAngleRad: minAngle, beyondAngle: beyond, perMember, minGradientNorm: overall };
+}
+
+/** Local search for min ‖b_p‖ on {μ ≤ δ, |η| ≤ etaMax} from a feasible start (extreme barrier). */
+function refineMinimum(fam: WarpFamily, ws: FamilyWorkspace, p: number, start: Float64Array, delta: number, etaMax: number): number {
+  const q0 = Float64Array.from(start), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3), b = new Float64Array(3);
+  const f = (x: number[]) => {
+    xv[0] = x[0];
+    xv[1] = x[1];
+    xv[2] = x[2];
+    qMultiply(qt, q0, qFromRotationVector(dq, xv));
+    if (Math.abs(qt[3]) > etaMax) return Infinity;
+    evaluateFamily(ws, fam, qt);
+    if (ws.V[p] - ws.minValue > delta) return Infinity;
+    memberGradient(b, fam, ws, p);
+    return Math.hypot(b[0], b[1], b[2]);
+  };
+  let best = f([0, 0, 0]);
+  let x0 = [0, 0, 0];
+  // Restart a few times with shrinking simplices: the barrier can stall a single run.
+  for (const step of [0.05, 0.01, 0.002]) {
+    const r = nelderMead(f, x0, step, 1e-14, 4000);
+    if (r.fx < best) {
+      best = r.fx;
+      x0 = r.x;
+    }
+  }
+  return best;
 }

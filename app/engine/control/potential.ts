@@ -107,6 +107,8 @@ export interface FamilyWorkspace {
   theta: number;
   cosTheta: number;
   sinTheta: number;
+  /** ψ(AR) at the attitude (g = 2kψ(AR) is the gradient of the warp angle). */
+  readonly psiR: Float64Array;
   /** Γ_p quaternions, 4 per member. */
   readonly gamma: Float64Array;
   /** V_p = Φ(Γ_p), one per member. */
@@ -123,6 +125,7 @@ export function makeFamilyWorkspace(fam: WarpFamily): FamilyWorkspace {
     theta: 0,
     cosTheta: 1,
     sinTheta: 0,
+    psiR: new Float64Array(3),
     gamma: new Float64Array(4 * fam.members),
     V: new Float64Array(fam.members),
     minIndex: 0,
@@ -153,14 +156,26 @@ export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLik
   ws.q[1] = y;
   ws.q[2] = z;
   ws.q[3] = w;
-  const phi = phiQuat(fam, q);
+  // Φ = 4εᵀĀε and ψ(AR) = 2ηĀε + ε × Aε share Āε.
+  const B = fam.Abar, A = fam.A;
+  const bx = B[0] * x + B[3] * y + B[6] * z;
+  const by = B[1] * x + B[4] * y + B[7] * z;
+  const bz = B[2] * x + B[5] * y + B[8] * z;
+  const ax = A[0] * x + A[3] * y + A[6] * z;
+  const ay = A[1] * x + A[4] * y + A[7] * z;
+  const az = A[2] * x + A[5] * y + A[8] * z;
+  ws.psiR[0] = 2 * w * bx + (y * az - z * ay);
+  ws.psiR[1] = 2 * w * by + (z * ax - x * az);
+  ws.psiR[2] = 2 * w * bz + (x * ay - y * ax);
+  const phi = 4 * (x * bx + y * by + z * bz);
   const theta = fam.k * phi;
   ws.phi = phi;
   ws.theta = theta;
-  ws.cosTheta = Math.cos(theta);
-  ws.sinTheta = Math.sin(theta);
   const ch = Math.cos(0.5 * theta), sh = Math.sin(0.5 * theta);
-  const B = fam.Abar, U = fam.directions, G = ws.gamma, V = ws.V;
+  // full-angle cosine and sine from the half angle (two fewer transcendental calls)
+  ws.cosTheta = 1 - 2 * sh * sh;
+  ws.sinTheta = 2 * sh * ch;
+  const U = fam.directions, G = ws.gamma, V = ws.V;
   const n = fam.members;
   for (let p = 0; p < n; p++) {
     // Γ_p = q ⊗ (sh u_p, ch)
@@ -173,10 +188,10 @@ export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLik
     G[4 * p + 1] = gy;
     G[4 * p + 2] = gz;
     G[4 * p + 3] = gw;
-    const bx = B[0] * gx + B[3] * gy + B[6] * gz;
-    const by = B[1] * gx + B[4] * gy + B[7] * gz;
-    const bz = B[2] * gx + B[5] * gy + B[8] * gz;
-    V[p] = 4 * (gx * bx + gy * by + gz * bz);
+    const cx = B[0] * gx + B[3] * gy + B[6] * gz;
+    const cy = B[1] * gx + B[4] * gy + B[7] * gz;
+    const cz = B[2] * gx + B[5] * gy + B[8] * gz;
+    V[p] = 4 * (gx * cx + gy * cy + gz * cz);
   }
   const mi = argminMember(V, n);
   ws.minIndex = mi;
@@ -212,11 +227,11 @@ export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, 
   const rx = c * px + s * (uy * pz - uz * py) + (1 - c) * ud * ux;
   const ry = c * py + s * (uz * px - ux * pz) + (1 - c) * ud * uy;
   const rz = c * pz + s * (ux * py - uy * px) + (1 - c) * ud * uz;
-  psiAQuat(sPsiR, fam, ws.q);
   const gs = 2 * fam.k * ud;
-  out[0] = 2 * (rx + gs * sPsiR[0]);
-  out[1] = 2 * (ry + gs * sPsiR[1]);
-  out[2] = 2 * (rz + gs * sPsiR[2]);
+  const pr = ws.psiR;
+  out[0] = 2 * (rx + gs * pr[0]);
+  out[1] = 2 * (ry + gs * pr[1]);
+  out[2] = 2 * (rz + gs * pr[2]);
   return out;
 }
 
