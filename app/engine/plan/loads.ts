@@ -116,18 +116,29 @@ const hS = new Float64Array(3);
 const st = new Float64Array(3);
 
 /**
- * Sample the profile phase by phase (nPerPhase + 1 points per phase, both ends included, each
- * end with that phase's acceleration, so the one-sided values at a switch are both seen) and
- * record the peak envelope fractions. Stops early, with the value that crossed, once a fraction
- * exceeds its stop level (for feasibility tests). Peaks between samples can be missed: the
- * search keeps a guard band for that (search.ts).
+ * How densely to sample: per phase, enough points that the rotation between samples is at most
+ * stepRad, at least 8 and at most maxPerPhase. Only the rotation bends the loads within a phase
+ * (τ and h_w are affine in ω for a fixed attitude, and their peaks at the phase ends are
+ * sampled), so a missed peak is second order in stepRad.
+ */
+export interface Sampling {
+  stepRad: number;
+  maxPerPhase: number;
+}
+
+/**
+ * Sample the profile phase by phase (both ends of each phase included, each with that phase's
+ * acceleration, so the one-sided values at a switch are both seen) and record the peak envelope
+ * fractions. Stops early, with the value that crossed, once a fraction exceeds its stop level
+ * (for feasibility tests). Peaks between samples can be missed: the search keeps a guard band
+ * for that (search.ts).
  */
 export function scanEnvelopeUse(
   out: EnvelopeUse,
   g: SlewGeometry,
   p: RestToRestProfile,
   limits: PlanLimits,
-  nPerPhase: number,
+  sampling: Sampling,
   torqueStop = Infinity,
   momentumStop = Infinity,
 ): EnvelopeUse {
@@ -135,18 +146,21 @@ export function scanEnvelopeUse(
   out.momentum = 0;
   const tA = p.accelTimeS, tC = p.coastTimeS;
   const a = p.accelRadPerS2;
+  const bangAngle = 0.5 * a * tA * tA, coastAngle = p.peakRateRadPerS * tC;
   // Phase boundaries and accelerations: [0, tA] +a, [tA, tA + tC] 0, [tA + tC, T] −a.
   for (let ph = 0; ph < 3; ph++) {
-    const t0 = ph === 0 ? 0 : ph === 1 ? tA : tA + tC;
-    const t1 = ph === 0 ? tA : ph === 1 ? tA + tC : tA + tC + tA;
-    const alpha = ph === 0 ? a : ph === 1 ? 0 : -a;
     if (ph === 1 && !(tC > 0)) continue;
     if (p.kind === 'rest' && ph !== 0) continue;
-    for (let j = 0; j <= nPerPhase; j++) {
-      const t = j === nPerPhase ? t1 : t0 + ((t1 - t0) * j) / nPerPhase;
+    const t0 = ph === 0 ? 0 : ph === 1 ? tA : tA + tC;
+    const t1 = ph === 0 ? tA : ph === 1 ? tA + tC : tA + tC + tA;
+    const alpha = p.kind === 'rest' ? 0 : ph === 0 ? a : ph === 1 ? 0 : -a;
+    const span = ph === 1 ? coastAngle : bangAngle;
+    const n = Math.min(sampling.maxPerPhase, Math.max(8, Math.ceil(span / sampling.stepRad)));
+    for (let j = 0; j <= n; j++) {
+      const t = j === n ? t1 : t0 + ((t1 - t0) * j) / n;
       profileStateAt(st, p.angleRad, a, p.peakRateRadPerS, tA, tC, t);
       // φ and ω are continuous; α is this phase's value, also at its end points.
-      slewLoadsAt(tauS, hS, g, st[0], st[1], p.kind === 'rest' ? 0 : alpha);
+      slewLoadsAt(tauS, hS, g, st[0], st[1], alpha);
       const ft = envelopeFraction(tauS, limits.torqueCapacity);
       const fh = envelopeFraction(hS, limits.momentumCapacity);
       if (ft > out.torque) out.torque = ft;

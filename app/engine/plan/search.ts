@@ -7,31 +7,33 @@
  * numbers, the acceleration a and the rate cap w; feasibility is tested on a sampled profile.
  *  1. a ≤ a_hi, the closed-form torque bound: at the start and end ω = 0, so τ = J e a exactly.
  *  2. w ≤ w_hi = min(slew-rate limit, √(θ a_hi)) (above √(θ a) the profile is bang-bang anyway).
- *  3. For a rate cap w, the largest feasible a by bisection (geometric, a ∈ [1e-6 a_hi, a_hi]).
- *  4. Over w, minimise T(a*(w), w): a geometric scan, then golden-section refinement around
- *     the best scan point.
- *  5. Verify the result on a 16× denser sampling; shrink a and w slightly if a peak was missed.
- * A guard band GUARD keeps the coarse-sampled peaks below (1 − GUARD)·margin, so peaks between
- * samples (second order in the spacing) stay inside the margin; the price is at most ~0.1% of
- * acceleration or rate. The result is the best found within the profile family, not a proof of
- * global optimality over (a, w).
+ *  3. For a rate cap w, the largest feasible a by geometric bisection in [1e-6 a_hi, a_hi],
+ *     to a relative width of GUARD/4.
+ *  4. Over w, minimise T(a*(w), w): a geometric scan downwards from w_hi, stopped once T has
+ *     grown well past its best (T grows like θ/w for small w), then golden-section refinement
+ *     of ln w around the best scan point. This assumes T(a*(w), w) has one minimum near the
+ *     best scan point; the result is the best profile found, not a proof of optimality.
+ *  5. Verify the result on a denser sampling; shrink a and w slightly if a peak was missed.
+ * A guard band GUARD keeps the coarse-sampled peaks below (1 − GUARD)·margin so that peaks
+ * between samples stay inside the margin; the price is about GUARD of the usable envelope.
  */
 import { issue, type Issue } from '../errors';
 import { restToRestProfile } from './profile';
-import { scanEnvelopeUse, type EnvelopeUse, type SlewGeometry } from './loads';
+import { scanEnvelopeUse, type EnvelopeUse, type Sampling, type SlewGeometry } from './loads';
 import type { BindingLimit, PlanLimits, RestToRestProfile } from './types';
 
 /** Relative guard band below the margins for the sampled search. */
 export const SEARCH_GUARD = 1e-3;
-/** Samples per profile phase during the search, and in the final verification. */
-export const SEARCH_SAMPLES_PER_PHASE = 128;
-export const VERIFY_SAMPLES_PER_PHASE = 2048;
+/** Sampling during the search (missed peaks ≲ step²/8 ≈ 5e-5 relative) and for verification/reporting. */
+export const SEARCH_SAMPLING: Sampling = { stepRad: 0.02, maxPerPhase: 128 };
+export const VERIFY_SAMPLING: Sampling = { stepRad: 0.002, maxPerPhase: 2048 };
 
-const SCAN_COUNT = 24;
-const SCAN_RATIO = 0.75;
-const BISECTION_STEPS = 34;
-const GOLDEN_STEPS = 24;
+const SCAN_COUNT = 20;
+const SCAN_RATIO = 0.7;
+const SCAN_STOP = 1.25; // stop scanning once T exceeds 1.25 × the best T
+const GOLDEN_STEPS = 16;
 const A_FLOOR = 1e-6;
+const MAX_BISECTIONS = 40;
 
 export type SearchOutcome =
   | { ok: true; profile: RestToRestProfile; binding: BindingLimit; use: EnvelopeUse }
@@ -40,24 +42,26 @@ export type SearchOutcome =
 export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number): SearchOutcome {
   const th = g.angleRad;
   const slew = limits.slewRateLimitRadPerS;
-  const wHi = Math.min(slew ?? Infinity, Math.sqrt(th * aHi * (1 - SEARCH_GUARD)));
   const tStop = limits.torqueMargin * (1 - SEARCH_GUARD);
   const hStop = limits.momentumMargin * (1 - SEARCH_GUARD);
+  // The start torque is exactly J e a, so a_hi sits on the margin, outside the guard band:
+  // search below aTop (a tiny extra factor against rounding at equality).
+  const aTop = aHi * (1 - SEARCH_GUARD) * (1 - 1e-12);
+  const wHi = Math.min(slew ?? Infinity, Math.sqrt(th * aTop));
   const use: EnvelopeUse = { torque: 0, momentum: 0 };
 
-  const feasible = (a: number, w: number, n = SEARCH_SAMPLES_PER_PHASE, tMax = tStop, hMax = hStop): boolean => {
-    scanEnvelopeUse(use, g, restToRestProfile(th, a, w), limits, n, tMax, hMax);
+  const feasible = (a: number, w: number, s: Sampling = SEARCH_SAMPLING, tMax = tStop, hMax = hStop): boolean => {
+    scanEnvelopeUse(use, g, restToRestProfile(th, a, w), limits, s, tMax, hMax);
     return use.torque <= tMax && use.momentum <= hMax;
   };
 
-  // The start torque is exactly J e a, so a_hi itself always sits on the margin, outside the
-  // guard band: search below aTop (tiny extra factor against rounding at equality).
-  const aTop = aHi * (1 - SEARCH_GUARD) * (1 - 1e-12);
-  const maxAccelFor = (w: number): number => {
+  /** Largest feasible a for rate cap w (0 if none); `hint` is a likely feasible lower bracket. */
+  const maxAccelFor = (w: number, hint = 0): number => {
     if (feasible(aTop, w)) return aTop;
-    let lo = aTop * A_FLOOR, hi = aTop;
-    if (!feasible(lo, w)) return 0;
-    for (let i = 0; i < BISECTION_STEPS; i++) {
+    let lo = hint > 0 && hint < aTop && feasible(hint, w) ? hint : aTop * A_FLOOR;
+    if (lo === aTop * A_FLOOR && !feasible(lo, w)) return 0;
+    let hi = aTop;
+    for (let i = 0; i < MAX_BISECTIONS && hi > lo * (1 + SEARCH_GUARD / 4); i++) {
       const mid = Math.sqrt(lo * hi);
       if (feasible(mid, w)) lo = mid;
       else hi = mid;
@@ -90,13 +94,14 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
 
   const timeOf = (a: number, w: number): number => (a > 0 ? restToRestProfile(th, a, w).durationS : Infinity);
 
-  // Geometric scan over the rate cap, fastest first. Once a*(w) reaches a_hi no slower cap can win.
-  let bestK = -1, bestT = Infinity, bestA = 0, bestW = 0;
+  // 4a. Scan the rate cap downwards. Once a*(w) reaches aTop no slower cap can win.
+  let bestK = -1, bestT = Infinity, bestA = 0, bestW = 0, prevA = 0;
   const ws: number[] = [];
   for (let k = 0; k < SCAN_COUNT; k++) {
     const w = wHi * Math.pow(SCAN_RATIO, k);
     ws.push(w);
-    const a = maxAccelFor(w);
+    const a = maxAccelFor(w, prevA);
+    if (a > 0) prevA = a;
     const T = timeOf(a, w);
     if (T < bestT) {
       bestT = T;
@@ -104,18 +109,22 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
       bestA = a;
       bestW = w;
     }
-    if (a >= aTop) break;
+    if (a >= aTop || T > SCAN_STOP * bestT) break;
   }
   if (bestK < 0) return { ok: false, reason: explainNoProfile(g, limits, aTop * A_FLOOR, ws[ws.length - 1]) };
 
-  // Golden-section on ln w between the neighbours of the best scan point.
+  // 4b. Golden-section on ln w between the neighbours of the best scan point.
   if (bestA < aTop || bestK > 0) {
-    let lo = Math.log(bestK + 1 < ws.length ? ws[bestK + 1] : ws[bestK] * SCAN_RATIO);
+    let lo = Math.log(ws[bestK] * SCAN_RATIO);
     let hi = Math.log(bestK > 0 ? ws[bestK - 1] : wHi);
     const r = (Math.sqrt(5) - 1) / 2;
+    const at = (x: number): [number, number] => {
+      const a = maxAccelFor(Math.exp(x), bestA * 0.5);
+      return [timeOf(a, Math.exp(x)), a];
+    };
     let x1 = hi - r * (hi - lo), x2 = lo + r * (hi - lo);
-    let a1 = maxAccelFor(Math.exp(x1)), a2 = maxAccelFor(Math.exp(x2));
-    let f1 = timeOf(a1, Math.exp(x1)), f2 = timeOf(a2, Math.exp(x2));
+    let [f1, a1] = at(x1);
+    let [f2, a2] = at(x2);
     for (let i = 0; i < GOLDEN_STEPS; i++) {
       if (f1 <= f2) {
         hi = x2;
@@ -123,36 +132,28 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
         f2 = f1;
         a2 = a1;
         x1 = hi - r * (hi - lo);
-        a1 = maxAccelFor(Math.exp(x1));
-        f1 = timeOf(a1, Math.exp(x1));
+        [f1, a1] = at(x1);
       } else {
         lo = x1;
         x1 = x2;
         f1 = f2;
         a1 = a2;
         x2 = lo + r * (hi - lo);
-        a2 = maxAccelFor(Math.exp(x2));
-        f2 = timeOf(a2, Math.exp(x2));
+        [f2, a2] = at(x2);
       }
     }
-    const cands: [number, number, number][] = [[f1, a1, Math.exp(x1)], [f2, a2, Math.exp(x2)]];
-    for (const [T, a, w] of cands) {
-      if (T < bestT) {
-        bestT = T;
-        bestA = a;
-        bestW = w;
-      }
-    }
+    if (f1 < bestT) [bestT, bestA, bestW] = [f1, a1, Math.exp(x1)];
+    if (f2 < bestT) [bestT, bestA, bestW] = [f2, a2, Math.exp(x2)];
   }
 
-  // Dense verification against half the guard band; shrink on a missed peak.
+  // 5. Dense verification against half the guard band; shrink on a missed peak.
   const vt = limits.torqueMargin * (1 - SEARCH_GUARD / 2);
   const vh = limits.momentumMargin * (1 - SEARCH_GUARD / 2);
   let a = bestA, w = bestW;
   for (let tries = 0; tries < 12; tries++) {
-    if (feasible(a, w, VERIFY_SAMPLES_PER_PHASE, vt, vh)) {
+    if (feasible(a, w, VERIFY_SAMPLING, vt, vh)) {
       const profile = restToRestProfile(th, a, w);
-      const finalUse = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, profile, limits, VERIFY_SAMPLES_PER_PHASE);
+      const finalUse = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, profile, limits, VERIFY_SAMPLING);
       return { ok: true, profile, binding: classify(profile, a, w), use: finalUse };
     }
     a *= 1 - SEARCH_GUARD;
@@ -165,7 +166,7 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
 }
 
 function explainNoProfile(g: SlewGeometry, limits: PlanLimits, a: number, w: number): Issue {
-  const use = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, restToRestProfile(g.angleRad, a, w), limits, SEARCH_SAMPLES_PER_PHASE);
+  const use = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, restToRestProfile(g.angleRad, a, w), limits, SEARCH_SAMPLING);
   const mom = use.momentum / limits.momentumMargin >= use.torque / limits.torqueMargin;
   return mom
     ? issue(

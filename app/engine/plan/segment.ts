@@ -24,7 +24,7 @@ import {
   type SlewGeometry,
 } from './loads';
 import { profileSwitchTimes, restToRestProfile } from './profile';
-import { pct, searchProfile, SEARCH_GUARD, VERIFY_SAMPLES_PER_PHASE } from './search';
+import { pct, searchProfile, SEARCH_GUARD, VERIFY_SAMPLING } from './search';
 import type { BindingLimit, PlanLimits, RestToRestProfile, SegmentPlan, SegmentVerdict } from './types';
 import { checkLimits, readInertia, readQuat, readVec3 } from './validate';
 
@@ -125,7 +125,7 @@ function finish(
   method: SegmentPlan['method'],
   summary: string,
 ): SegmentPlan {
-  const use = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, p, limits, VERIFY_SAMPLES_PER_PHASE);
+  const use = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, p, limits, VERIFY_SAMPLING);
   const slew = limits.slewRateLimitRadPerS;
   return {
     ...base,
