@@ -44,6 +44,9 @@ export function defaultViewOptions(bus: BusModel): ViewOptions {
 
 interface HudItem {
   obj: Object3D;
+  /** Scale as built (the inset title is shrunk to fit narrow insets). */
+  baseScaleX: number;
+  baseScaleY: number;
   /** Row from the top (0, 1, …) or −1 for the inset title. */
   row: number;
 }
@@ -60,7 +63,7 @@ export class Viewport {
   constructor(kit: Kit, bus: BusModel, runs: ViewRun[], options: ViewOptions, overlay: boolean) {
     this.common = new CommonContent(kit);
     this.scene.add(this.common.group);
-    this.insetTriad = new Triad(kit, { length: SIZES.insetTriad, suffix: 'B', radius: 0.01, opacity: 0.8 });
+    this.insetTriad = new Triad(kit, { length: SIZES.insetTriad, suffix: 'B', radius: 0.01, opacity: 0.8, labelHeight: SIZES.insetLabelHeight });
     this.momentumScene.add(this.insetTriad);
     const scale = runs.length ? envelopeDisplayScale(runs[0].momentumEnvelope) : 1;
     runs.forEach((run, index) => {
@@ -79,11 +82,11 @@ export class Viewport {
       runs.forEach((run, index) => {
         const text = runs.length > 1 ? `${run.label}  (${index === 0 ? 'solid' : 'translucent'})` : run.label;
         const lab = kit.labels!(text, { color: '#e6edf3', anchorX: 0, anchorY: 1, heightFraction: 0.04, screenSpace: true });
-        this.hud.push({ obj: lab, row: index });
+        this.hud.push({ obj: lab, row: index, baseScaleX: lab.scale.x, baseScaleY: lab.scale.y });
         this.hudScene.add(lab);
       });
-      const title = kit.labels('wheel momentum, body axes', { color: '#9aa7b4', anchorX: 0, anchorY: 0, heightFraction: 0.032, screenSpace: true });
-      this.hud.push({ obj: title, row: -1 });
+      const title = kit.labels('wheel momentum, body axes', { color: '#9aa7b4', anchorX: 0, anchorY: 1, heightFraction: 0.03, screenSpace: true });
+      this.hud.push({ obj: title, row: -1, baseScaleX: title.scale.x, baseScaleY: title.scale.y });
       this.hudScene.add(title);
     }
     this.applyOptions(options);
@@ -97,7 +100,10 @@ export class Viewport {
     for (const h of this.hud) {
       if (h.row >= 0) h.obj.position.set(-aspect + 0.04, 0.96 - 0.095 * h.row, 0);
       else {
-        h.obj.position.set(aspect - insetSide + 0.03, -1 + insetSide + 0.01, 0);
+        // Inside the inset's top-left corner, shrunk to fit its width.
+        const k = Math.min(1, (0.94 * insetSide - 0.03) / h.baseScaleX);
+        h.obj.scale.set(h.baseScaleX * k, h.baseScaleY * k, 1);
+        h.obj.position.set(aspect - insetSide + 0.025, -1 + insetSide - 0.02, 0);
         h.obj.visible = showInset;
       }
     }

@@ -10,7 +10,7 @@ import type { EnvelopeObject } from './envelope';
 import type { Kit } from './primitives';
 import { cssHex, VectorArrow } from './primitives';
 import type { SampleCursor } from './sampling';
-import { COLORS, MOMENTUM_COLORS, momentumLevel, WHEEL_COLORS } from './style';
+import { COLORS, MOMENTUM_COLORS, momentumLevel, SIZES, WHEEL_COLORS } from './style';
 import type { MomentumLevel } from './style';
 import type { ViewRun } from './types';
 
@@ -63,7 +63,7 @@ export class MomentumContent {
       this.wheelArrows.push(a);
       this.group.add(a);
       if (kit.labels && opts.drawEnvelope) {
-        const lab = kit.labels(`${i + 1}`, { color: cssHex(color), heightFraction: 0.04 });
+        const lab = kit.labels(`${i + 1}`, { color: cssHex(color), heightFraction: SIZES.insetLabelHeight * 0.85 });
         lab.position.set(seg[6 * i + 3], seg[6 * i + 4], seg[6 * i + 5]).multiplyScalar(1.1);
         this.group.add(lab);
       }
@@ -72,7 +72,7 @@ export class MomentumContent {
     this.totalArrow.name = 'total-momentum';
     this.group.add(this.totalArrow);
     if (kit.labels && opts.drawEnvelope) {
-      const lab = kit.labels('H', { color: '#f2f4f7', anchorX: 0, heightFraction: 0.045 });
+      const lab = kit.labels('H', { color: '#f2f4f7', anchorX: 0, heightFraction: SIZES.insetLabelHeight });
       this.group.add(lab);
       this.totalLabel = lab;
     } else this.totalLabel = null;

@@ -103,6 +103,8 @@ export interface TriadStyle {
   tag?: string;
   tagColor?: string;
   colors?: readonly [number, number, number];
+  /** Label height as a fraction of the viewport height (default SIZES.labelHeight). */
+  labelHeight?: number;
 }
 
 /** Three arrows along the local X, Y, Z axes, with labels. */
@@ -122,7 +124,7 @@ export class Triad extends Group {
     if (kit.labels && style.suffix !== null) {
       const names = ['X', 'Y', 'Z'];
       for (let a = 0; a < 3; a++) {
-        const lab = kit.labels(`${names[a]}_${style.suffix}`, { color: cssHex(colors[a]) });
+        const lab = kit.labels(`${names[a]}_${style.suffix}`, { color: cssHex(colors[a]), heightFraction: style.labelHeight });
         lab.position.set(a === 0 ? 1 : 0, a === 1 ? 1 : 0, a === 2 ? 1 : 0).multiplyScalar(style.length * 1.08);
         this.add(lab);
       }

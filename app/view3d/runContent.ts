@@ -70,6 +70,7 @@ export class RunContent {
     this.group.name = `run:${run.label}`;
 
     this.bus = buildBusGroup(bus, opacity);
+    this.bus.scale.setScalar(SIZES.busScale);
     this.bodyTriad = new Triad(kit, {
       length: SIZES.bodyTriad,
       opacity: solid ? 1 : Math.min(1, opacity + 0.15),
@@ -88,7 +89,7 @@ export class RunContent {
     run.targets.forEach((tg, k) => {
       const ghost = new Triad(kit, {
         length: SIZES.targetTriad,
-        opacity: 0.38 * (solid ? 1 : 0.7),
+        opacity: 0.5 * (solid ? 1 : 0.7),
         radius: 0.008,
         suffix: null,
         tag: solid ? `target ${k + 1}${tg.label ? `: ${tg.label}` : ''}` : undefined,

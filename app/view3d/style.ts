@@ -77,8 +77,12 @@ export const SIZES = {
   insetFraction: 0.36,
   /** Label height on screen, as a fraction of the viewport height. */
   labelHeight: 0.045,
+  /** Labels in the (smaller) momentum inset. */
+  insetLabelHeight: 0.075,
+  /** The bus model is drawn this many scene units per model unit. */
+  busScale: 1.5,
 } as const;
 
 /** Main and inset cameras: vertical field of view (deg) and the default viewing position. */
 export const CAMERA_FOV_DEG = 38;
-export const CAMERA_HOME = [4.4, 3.3, 2.5] as const;
+export const CAMERA_HOME = [5.3, 4.0, 3.0] as const;
