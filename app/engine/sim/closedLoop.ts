@@ -1,0 +1,327 @@
+/**
+ * The closed loop: gyrostat plant + sensors + sampled (or ideal continuous) controller + wheel
+ * allocation and limits, as ONE hybrid system run by the general simulator (hybrid/).
+ *
+ * Hybrid state: the plant state x = [q(4), ω(3), h(N)] flows; the controller's logic value, the
+ * held wheel torques and the sample clock are the discrete part. Sampled-data control is modelled
+ * the way methods §7 describes: a timer makes every controller update a (scheduled) jump, at
+ * which the sensors are read, the logic may switch, the torque is computed, allocated, limited and
+ * held (zero-order hold) until the next sample. In the ideal continuous mode the torque is a
+ * function of the true state inside the flow map and logic switches are located on the jump-set
+ * boundary by the simulator's root finder; that is the setting of the stability theorems.
+ *
+ * The run's jump counter j counts LOGIC jumps only (sample instants are scheduled timer jumps of
+ * the simulator, not shown as j).
+ */
+import type { AttitudeController, ControlDiagnostics, ControlInput } from '../control/types';
+import type { Gyrostat } from '../body/gyrostat';
+import { gyrostatDerivative } from '../body/gyrostat';
+import type { WheelArray } from '../wheels/array';
+import { allocateMinMax, allocateMinNorm } from '../wheels/allocation';
+import { limitWheelTorque } from '../wheels/limits';
+import { bodyTorqueFromWheelTorque } from '../wheels/array';
+import { simulateHybrid } from '../hybrid/simulate';
+import { createLimitInfo } from '../wheels/limits';
+import type { HybridSystem } from '../hybrid/types';
+import { qAngleBetween, qNormalize } from '../math/rotation';
+import { makeRng } from '../math/prng';
+import type { SensorModel } from './sensors';
+import { measure } from './sensors';
+import { TraceBuilder } from './trace';
+import type { JumpEvent, RunOutcome, RunTrace } from './types';
+
+/** Where the controller's reference comes from: a planned profile or a fixed target per segment. */
+export interface ReferenceSource {
+  /** Writes the reference at time t; returns the active segment index. */
+  at(t: number, qOut: Float64Array, omegaOut: Float64Array, omegaDotOut: Float64Array): number;
+}
+
+export type Actuation =
+  | { mode: 'hold' }
+  /** Each control period's wheel torque as a full-torque pulse of proportional width. */
+  | { mode: 'pwm' }
+  /** Each wheel torque rounded to a multiple of the quantum (N·m). */
+  | { mode: 'quantized'; quantumNm: number };
+
+export interface ClosedLoopConfig {
+  plant: Gyrostat;
+  wheels: WheelArray;
+  controller: AttitudeController;
+  reference: ReferenceSource;
+  q0: ArrayLike<number>;
+  omega0: ArrayLike<number>;
+  hWheel0: ArrayLike<number>;
+  tEnd: number;
+  timing: 'sampled' | 'continuous-ideal';
+  controlRateHz: number;
+  /** RK4 steps per control period (sampled) or per output interval (continuous-ideal). */
+  rk4StepsPerSample: number;
+  sensors: SensorModel;
+  seed: number;
+  /** Random stream (e.g. a study case index) so cases are independent and repeatable. */
+  stream?: number;
+  actuation: Actuation;
+  allocation: 'min-max' | 'min-norm';
+  /** Stop early once settled for this long (s); 0 = run to tEnd. Used by studies. */
+  stopWhenSettledForS?: number;
+  settleAngleRad?: number;
+  settleRateRadPerS?: number;
+  /** Cap on logic jumps at one instant before the run is declared Zeno-like. */
+  maxJumpsPerInstant?: number;
+  /** Cancellation hook polled at samples. */
+  shouldStop?: () => boolean;
+}
+
+export interface ClosedLoopResult {
+  trace: RunTrace;
+  jumps: JumpEvent[];
+  outcome: RunOutcome;
+}
+
+export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
+  const N = cfg.wheels.n;
+  const dim = 7 + N;
+  const Ts = 1 / cfg.controlRateHz;
+  const sampled = cfg.timing === 'sampled';
+  const ctrl = cfg.controller;
+  const rng = makeRng(cfg.seed, cfg.stream ?? 0);
+  const builder = new TraceBuilder(N, Math.ceil(cfg.tEnd / Ts) + 8);
+  const jumps: JumpEvent[] = [];
+
+  // Scratch, allocated once per run.
+  const qRef = new Float64Array(4), wRef = new Float64Array(3), wdRef = new Float64Array(3);
+  const qTrue = new Float64Array(4), wTrue = new Float64Array(3), hTrue = new Float64Array(N);
+  const input: ControlInput = {
+    q: new Float64Array(4), omega: new Float64Array(3), hWheel: new Float64Array(N),
+    qRef, omegaRef: wRef, omegaDotRef: wdRef,
+  };
+  const trueInput: ControlInput = { q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef, omegaDotRef: wdRef };
+  const diag: ControlDiagnostics = { errorAngle: 0, eta: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0 };
+  const tauCmd = new Float64Array(3);
+  const tauBody = new Float64Array(3);
+  const wheelCmd = new Float64Array(N);
+  const wheelHeld = new Float64Array(N); // delivered average over the period
+  const wheelNow = new Float64Array(N); // what the motors apply right now (PWM phase)
+  const pulseEnd = new Float64Array(N);
+  const zero3 = new Float64Array(3);
+  const limitInfo = createLimitInfo();
+
+  let logic = NaN;
+  let logicJumps = 0;
+  let segment = -1;
+  let sampleIndex = 0;
+  let tSampleStart = 0;
+  let settledSince = -1;
+  let stopRequested = false;
+  const maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
+
+  const unpack = (x: Float64Array) => {
+    qTrue[0] = x[0]; qTrue[1] = x[1]; qTrue[2] = x[2]; qTrue[3] = x[3];
+    wTrue[0] = x[4]; wTrue[1] = x[5]; wTrue[2] = x[6];
+    for (let i = 0; i < N; i++) hTrue[i] = x[7 + i];
+  };
+
+  /** Reference at t; on a segment change let the law re-latch what it keeps per segment. */
+  const updateReference = (t: number) => {
+    const s = cfg.reference.at(t, qRef, wRef, wdRef);
+    if (s !== segment) {
+      segment = s;
+      ctrl.beginSegment?.(trueInput);
+    }
+  };
+
+  /** Logic update (with its event record) for the given input; returns true when it jumped. */
+  const logicStep = (t: number, inp: ControlInput): boolean => {
+    const r = ctrl.updateLogic(inp, logic);
+    if (r.why === null || r.logic === logic) return false;
+    ctrl.diagnostics(diag, trueInput, logic);
+    const wBefore = diag.lyapunov;
+    ctrl.diagnostics(diag, trueInput, r.logic);
+    logicJumps++;
+    jumps.push({ t, j: logicJumps, what: 'logic', from: logic, to: r.logic, why: r.why, lyapunovBefore: wBefore, lyapunovAfter: diag.lyapunov });
+    logic = r.logic;
+    return true;
+  };
+
+  /** Body torque request → wheel torques within limits (direction preserved) for the period dt. */
+  const actuate = (dtPredict: number) => {
+    if (cfg.allocation === 'min-max' && N > 3) allocateMinMax(wheelCmd, cfg.wheels, tauCmd);
+    else allocateMinNorm(wheelCmd, cfg.wheels, tauCmd);
+    limitWheelTorque(wheelHeld, cfg.wheels, wheelCmd, hTrue, dtPredict, limitInfo);
+  };
+
+  const record = (t: number) => {
+    ctrl.diagnostics(diag, trueInput, logic);
+    bodyTorqueFromWheelTorque(tauBody, cfg.wheels, wheelHeld);
+    builder.push({
+      t, j: logicJumps, segment: Math.max(0, segment), q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
+      torqueCmdBody: tauCmd, torqueBody: tauBody, wheelTorqueCmd: wheelCmd, wheelTorque: wheelHeld, logic,
+      errorAngle: qAngleBetween(qTrue, qRef), potential: diag.potential, potentialMin: diag.potentialMin, gap: diag.gap,
+      lyapunov: diag.lyapunov,
+    });
+    if (cfg.stopWhenSettledForS && cfg.stopWhenSettledForS > 0) {
+      const rateErr = Math.hypot(wTrue[0] - wRef[0], wTrue[1] - wRef[1], wTrue[2] - wRef[2]);
+      const ok = qAngleBetween(qTrue, qRef) < (cfg.settleAngleRad ?? 0) && rateErr < (cfg.settleRateRadPerS ?? 0);
+      if (!ok) settledSince = -1;
+      else if (settledSince < 0) settledSince = t;
+      else if (t - settledSince >= cfg.stopWhenSettledForS) stopRequested = true;
+    }
+    if (cfg.shouldStop?.()) stopRequested = true;
+  };
+
+  /** One controller sample at time t (sampled mode): measure, switch, compute, allocate, hold. */
+  const sample = (t: number, x: Float64Array) => {
+    unpack(x);
+    updateReference(t);
+    measure(input.q as Float64Array, input.omega as Float64Array, cfg.sensors, rng, qTrue, wTrue, qRef);
+    for (let i = 0; i < N; i++) input.hWheel[i] = hTrue[i];
+    if (Number.isNaN(logic)) logic = ctrl.initialLogic(input);
+    for (let k = 0; k < maxPerInstant && logicStep(t, input); k++);
+    ctrl.torque(tauCmd, input, logic);
+    actuate(Ts);
+    applyActuationMode(t);
+    record(t);
+    tSampleStart = t;
+    sampleIndex++;
+  };
+
+  const applyActuationMode = (t: number) => {
+    const a = cfg.actuation;
+    if (a.mode === 'quantized') {
+      for (let i = 0; i < N; i++) {
+        const qn = a.quantumNm;
+        wheelHeld[i] = Math.round(wheelHeld[i] / qn) * qn;
+        if (Math.abs(wheelHeld[i]) > cfg.wheels.maxTorqueNm[i]) wheelHeld[i] = Math.sign(wheelHeld[i]) * Math.floor(cfg.wheels.maxTorqueNm[i] / qn) * qn;
+      }
+    }
+    for (let i = 0; i < N; i++) {
+      if (a.mode === 'pwm') {
+        const full = cfg.wheels.maxTorqueNm[i];
+        const width = Math.min(1, Math.abs(wheelHeld[i]) / full) * Ts;
+        wheelNow[i] = width > 0 ? Math.sign(wheelHeld[i]) * full : 0;
+        pulseEnd[i] = t + width;
+      } else {
+        wheelNow[i] = wheelHeld[i];
+        pulseEnd[i] = Infinity;
+      }
+    }
+  };
+
+  const nextSampleTime = () => sampleIndex * Ts;
+
+  const sys: HybridSystem = {
+    dim,
+    flow(t, x, dx) {
+      if (!sampled) {
+        unpack(x);
+        updateReference(t);
+        ctrl.torque(tauCmd, trueInput, logic);
+        actuate(0);
+        for (let i = 0; i < N; i++) wheelNow[i] = wheelHeld[i];
+      }
+      gyrostatDerivative(dx, x, cfg.plant, wheelNow, zero3);
+    },
+    jumpGuard: sampled
+      ? undefined
+      : (t, x) => {
+          unpack(x);
+          updateReference(t);
+          return ctrl.jumpGuard(trueInput, logic);
+        },
+    nextScheduledJump(t) {
+      let next = nextSampleTime();
+      if (sampled && cfg.actuation.mode === 'pwm') {
+        for (let i = 0; i < N; i++) if (pulseEnd[i] > t + 1e-12 && pulseEnd[i] < next) next = pulseEnd[i];
+      }
+      return next;
+    },
+    jump(t, x, xPlus) {
+      if (sampled) {
+        const due = nextSampleTime();
+        if (Math.abs(t - due) <= 1e-9 * Math.max(1, Math.abs(due))) {
+          sample(due, x);
+          return null;
+        }
+        // PWM pulse edge: the wheels whose pulse has ended stop.
+        for (let i = 0; i < N; i++) if (pulseEnd[i] <= t + 1e-12) { wheelNow[i] = 0; pulseEnd[i] = Infinity; }
+        return null;
+      }
+      // Continuous-ideal: either an output instant (scheduled) or a located logic crossing.
+      unpack(x);
+      updateReference(t);
+      const due = nextSampleTime();
+      let jumped = false;
+      for (let k = 0; k < maxPerInstant && logicStep(t, trueInput); k++) jumped = true;
+      if (Math.abs(t - due) <= 1e-9 * Math.max(1, Math.abs(due))) {
+        ctrl.torque(tauCmd, trueInput, logic);
+        actuate(0);
+        record(t);
+        sampleIndex++;
+      } else if (jumped) {
+        ctrl.torque(tauCmd, trueInput, logic);
+        actuate(0);
+        record(t);
+      }
+      return jumped ? { what: 'logic', from: jumps[jumps.length - 1].from, to: logic, why: jumps[jumps.length - 1].why } : null;
+    },
+    project(x) {
+      const n = Math.hypot(x[0], x[1], x[2], x[3]);
+      if (!(n > 0) || Math.abs(n - 1) < 1e-15) return false;
+      x[0] /= n; x[1] /= n; x[2] /= n; x[3] /= n;
+      return true;
+    },
+    stop() {
+      return stopRequested;
+    },
+  };
+
+  const x0 = new Float64Array(dim);
+  for (let i = 0; i < 4; i++) x0[i] = cfg.q0[i];
+  for (let i = 0; i < 3; i++) x0[4 + i] = cfg.omega0[i];
+  for (let i = 0; i < N; i++) x0[7 + i] = cfg.hWheel0[i];
+  qNormalize(qTrue, x0);
+  x0.set(qTrue, 0);
+
+  // Initial logic and first sample at t = 0.
+  unpack(x0);
+  updateReference(0);
+  if (!sampled) {
+    logic = ctrl.initialLogic(trueInput);
+    for (let k = 0; k < maxPerInstant && logicStep(0, trueInput); k++);
+    ctrl.torque(tauCmd, trueInput, logic);
+    actuate(0);
+    record(0);
+    sampleIndex = 1;
+  } else {
+    sample(0, x0);
+  }
+
+  const stepsPer = Math.max(1, Math.round(cfg.rk4StepsPerSample));
+  const res = simulateHybrid(sys, x0, {
+    tEnd: cfg.tEnd,
+    integrator: { kind: 'rk4', dt: Ts / stepsPer },
+    maxJumpsPerInstant: maxPerInstant + 2,
+    record: 'none',
+  });
+  if (!res.ok) {
+    // Options are built here from validated inputs; a refusal is a programming error worth a clear stop.
+    const msg = res.errors.map((e) => `${e.path}: ${e.message}`).join('; ');
+    return { trace: builder.finish(), jumps, outcome: { status: 'non-finite', message: `simulator refused the run: ${msg}`, t: 0, j: 0 } };
+  }
+  const arc = res.value;
+
+  // Last state: record it if the run did not end exactly on a sample.
+  const tr = builder.trace;
+  const last = arc.outcome.t;
+  if (tr.n === 0 || last > tr.t[tr.n - 1] + 1e-9) {
+    unpack(arc.finalState);
+    record(last);
+  }
+  const status = arc.outcome.status === 'blocked' ? 'non-finite' : arc.outcome.status;
+  const outcome: RunOutcome = { status, message: arc.outcome.message, t: arc.outcome.t, j: logicJumps };
+  if (stopRequested && status === 'cancelled' && !cfg.shouldStop?.()) {
+    outcome.status = 'completed';
+    outcome.message = `settled for ${cfg.stopWhenSettledForS} s; run ended early at t = ${last.toFixed(1)} s`;
+  }
+  return { trace: builder.finish(), jumps, outcome };
+}
