@@ -207,7 +207,7 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
         evaluateFamily(ws, fam, at(x));
         memberGradient(b, fam, ws, p);
         return [b[0], b[1], b[2]];
-      }, [0, 0, 0], 1e-11 * scale);
+      }, [0, 0, 0], 1e-11 * scale, 60);
       if (!res.converged) continue;
       completeness.converged++;
       const qc = at(res.x);
@@ -355,16 +355,24 @@ function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: number): 
   }
   const out: number[] = [];
   const qs = new Float64Array(4), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3);
+  const vals = new Float64Array(N);
+  const order = new Uint32Array(N);
   for (let p = 0; p < n; p++) {
-    const vals: { v: number; s: number }[] = [];
-    for (let s = 0; s < N; s++) vals.push({ v: warpJacobianDet(fam, pts.subarray(4 * s, 4 * s + 4), p), s });
-    vals.sort((a, b) => a.v - b.v);
-    let best = vals[0].v;
+    for (let s = 0; s < N; s++) {
+      q[0] = pts[4 * s];
+      q[1] = pts[4 * s + 1];
+      q[2] = pts[4 * s + 2];
+      q[3] = pts[4 * s + 3];
+      vals[s] = warpJacobianDet(fam, q, p);
+      order[s] = s;
+    }
+    order.sort((a, b) => vals[a] - vals[b]);
+    let best = vals[order[0]];
     // Refine the few lowest, well-separated samples (the minimum may be attained at ± pairs).
     const seeds: Float64Array[] = [];
-    for (const c of vals) {
-      if (seeds.length >= 6) break;
-      const cand = pts.subarray(4 * c.s, 4 * c.s + 4);
+    for (let r = 0; r < N && seeds.length < 6; r++) {
+      const c = order[r];
+      const cand = pts.subarray(4 * c, 4 * c + 4);
       if (seeds.some((z) => qAngleBetween(z, cand) < 0.3)) continue;
       seeds.push(Float64Array.from(cand));
     }
@@ -376,7 +384,7 @@ function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: number): 
         xv[2] = x[2];
         qMultiply(qt, qs, qFromRotationVector(dq, xv));
         return warpJacobianDet(fam, qt, p);
-      }, [0, 0, 0], 0.05, 1e-15, 3000);
+      }, [0, 0, 0], 0.05, 1e-13, 1000);
       best = Math.min(best, m.fx);
     }
     out.push(best);

@@ -104,29 +104,27 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   return { samples, seed, delta, minAngleRad: minAngle, beyondAngle: beyond, perMember, minGradientNorm: overall };
 }
 
-/** Local search for min ‖b_p‖ on {μ ≤ δ, |η| ≤ etaMax} from a feasible start (extreme barrier). */
+/**
+ * Local search for min ‖b_p‖ on {μ ≤ δ, |η| ≤ etaMax} from a feasible start: Nelder–Mead on ‖b_p‖
+ * plus a steep linear penalty outside the set; the answer is the best FEASIBLE point evaluated.
+ */
 function refineMinimum(fam: WarpFamily, ws: FamilyWorkspace, p: number, start: Float64Array, delta: number, etaMax: number): number {
   const q0 = Float64Array.from(start), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3), b = new Float64Array(3);
+  let bestFeasible = Infinity;
   const f = (x: number[]) => {
     xv[0] = x[0];
     xv[1] = x[1];
     xv[2] = x[2];
     qMultiply(qt, q0, qFromRotationVector(dq, xv));
-    if (Math.abs(qt[3]) > etaMax) return Infinity;
     evaluateFamily(ws, fam, qt);
-    if (ws.V[p] - ws.minValue > delta) return Infinity;
     memberGradient(b, fam, ws, p);
-    return Math.hypot(b[0], b[1], b[2]);
+    const nb = Math.hypot(b[0], b[1], b[2]);
+    const over = Math.max(0, ws.V[p] - ws.minValue - delta) + Math.max(0, Math.abs(qt[3]) - etaMax);
+    if (over === 0 && nb < bestFeasible) bestFeasible = nb;
+    return nb + 1e3 * over;
   };
-  let best = f([0, 0, 0]);
   let x0 = [0, 0, 0];
-  // Restart a few times with shrinking simplices: the barrier can stall a single run.
-  for (const step of [0.05, 0.01, 0.002]) {
-    const r = nelderMead(f, x0, step, 1e-14, 4000);
-    if (r.fx < best) {
-      best = r.fx;
-      x0 = r.x;
-    }
-  }
-  return best;
+  // Restarts with shrinking simplices refine a minimum that sits on the boundary of the set.
+  for (const step of [0.05, 0.01, 0.002]) x0 = nelderMead(f, x0, step, 1e-12, 1500).x;
+  return bestFeasible;
 }

@@ -172,7 +172,7 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
     const JtJ = [0, 1, 2].map((a) => [0, 1, 2].map((b) => J[0][a] * J[0][b] + J[1][a] * J[1][b] + J[2][a] * J[2][b]));
     const Jtr = [0, 1, 2].map((a) => J[0][a] * res[0] + J[1][a] * res[1] + J[2][a] * res[2]);
     let accepted = false;
-    for (let tries = 0; tries < 30 && !accepted; tries++) {
+    for (let tries = 0; tries < 12 && !accepted; tries++) {
       const M = JtJ.map((row, a) => row.map((v, b) => (a === b ? v * (1 + lambda) + 1e-300 : v)));
       const dx = solveLinear3(M, Jtr.map((v) => -v));
       if (!dx) {
@@ -190,7 +190,7 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
         accepted = true;
       } else lambda *= 10;
     }
-    if (!accepted) break;
+    if (!accepted || lambda > 1e12) break;
   }
   return { x, residualNorm: nrm, iterations: it, converged: nrm <= tol };
 }
