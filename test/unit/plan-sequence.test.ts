@@ -30,7 +30,7 @@ const targets = [
   { q: axisAngle([-1, 0.4, 0.5], 150 * D), holdS: 10 },
 ];
 const toQ = (q: ArrayLike<number>) => new Quaternion(q[3], q[0], q[1], q[2]);
-const rotate = (q: ArrayLike<number>, v: ArrayLike<number>) => toQ(q).rotateVector([v[0], v[1], v[2]]);
+const rotate = (q: ArrayLike<number>, v: ArrayLike<number>) => toQ(q).rotateVector([v[0], v[1], v[2]]) as number[];
 
 function plan(h: number[]): SequencePlan {
   const r = planSequence({ qStart: q0, inertia: J, wheelMomentumBody: h, targets }, lim);
