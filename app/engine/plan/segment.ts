@@ -158,12 +158,12 @@ function checkSegment(g: SlewGeometry, limits: PlanLimits, hEnd: Vec3, emptySyst
       out.push(issue('qTarget', 'stored-momentum-end', `At the target attitude the stored momentum would use ${pct(f1)} of the momentum envelope along its direction; the margin allows ${pct(m)}.`));
     }
     if (!(symmetricCapacity(g.Je, limits.torqueCapacity) > 0)) {
-      out.push(issue('limits.torqueCapacity', 'zero-torque-capacity', 'The wheels can deliver no torque along ±Je, the direction this eigenaxis slew must push.'));
+      out.push(issue('limits.torqueCapacity', 'zero-torque-capacity', 'The torque envelope gives no usable capacity (zero, or not a finite number) along ±Je, the direction this eigenaxis slew must push.'));
     }
     if (emptySystem) {
       const mJe = Float64Array.from([-g.Je[0], -g.Je[1], -g.Je[2]]);
       if (!(capacityAlong(mJe, limits.momentumCapacity) > 0)) {
-        out.push(issue('limits.momentumCapacity', 'zero-momentum-capacity', 'The wheels can store no momentum along −Je, where this slew puts it.'));
+        out.push(issue('limits.momentumCapacity', 'zero-momentum-capacity', 'The momentum envelope gives no usable capacity (zero, or not a finite number) along −Je, where this slew puts the wheel momentum.'));
       }
     }
   }
