@@ -207,6 +207,7 @@ export function gyrostatDerivative(
   let bx = extTorque[0], by = extTorque[1], bz = extTorque[2];
   const ax = g.axes, n = g.n;
   const fr = g.friction;
+  const active = fr.active;
   for (let i = 0; i < n; i++) {
     const gx = ax[3 * i], gy = ax[3 * i + 1], gz = ax[3 * i + 2];
     const h = x[7 + i];
@@ -214,7 +215,7 @@ export function gyrostatDerivative(
     Hy += gy * h;
     Hz += gz * h;
     let tau = wheelMotorTorque[i];
-    if (fr.active) {
+    if (active) {
       const rel = h * g.JsInv[i] - (gx * wx + gy * wy + gz * wz);
       tau -= fr.viscousNmsPerRad[i] * rel + fr.coulombNm[i] * Math.tanh(rel / fr.coulombSmoothingRadPerS);
     }

@@ -180,7 +180,8 @@ export class DormandPrince implements Stepper {
 
   reset(t: number, x: ArrayLike<number>): void {
     this.t = t;
-    this.x.set(x);
+    const d = this.x;
+    for (let i = 0; i < this.n; i++) d[i] = x[i];
     this.fsal = false;
   }
 

@@ -99,7 +99,6 @@ export class Rk4Stepper implements Stepper {
   private kValid = false;
   private hLast = 0;
   private readonly work: Rk4Work;
-  private backup: Float64Array;
 
   constructor(n: number, f: FlowFn, dt: number) {
     this.n = n;
@@ -112,13 +111,13 @@ export class Rk4Stepper implements Stepper {
     this.xEnd = this.x;
     this.fOld = new Float64Array(n);
     this.fEnd = new Float64Array(n);
-    this.backup = new Float64Array(n);
     this.work = makeRk4Work(n);
   }
 
   reset(t: number, x: ArrayLike<number>): void {
     this.t = t;
-    this.x.set(x);
+    const d = this.x;
+    for (let i = 0; i < this.n; i++) d[i] = x[i];
     this.kValid = false;
     this.atEnd = false;
     this.fEndValid = false;
@@ -194,9 +193,9 @@ export class Rk4Stepper implements Stepper {
 
   /**
    * Fast path for sampled-data loops: take the equal steps from t to tStop (at most `budget`)
-   * with no per-step checks, calling `project` after each. Checks finiteness once at the end; if
-   * the state went non-finite it replays from the saved start step by step and stops at the
-   * last finite state. Returns the number of steps taken; `this.t === tStop` on full success.
+   * with no bookkeeping but a finiteness check, calling `project` after each. On a non-finite
+   * result the step is not taken: the stepper stays at the last finite state. Returns the number
+   * of steps taken; `this.t === tStop` on full success.
    */
   runTo(tStop: number, budget: number, project?: (x: Float64Array) => boolean | void): { steps: number; status: StepStatus } {
     const t0 = this.t;
@@ -204,28 +203,29 @@ export class Rk4Stepper implements Stepper {
     const m = equalStepCount(span, this.dt);
     const steps = Math.min(m, budget);
     const h = span / m;
-    this.backup.set(this.x);
     const w = this.work;
-    const kValidAtStart = this.kValid;
-    let kValid = kValidAtStart;
+    const f = this.f;
+    const res = this.runResult;
     for (let i = 0; i < steps; i++) {
       const ti = t0 + i * h;
-      if (!kValid) this.f(ti, this.x, w.k1);
-      rk4Step(this.xNew, this.f, ti, this.x, h, w, true);
+      if (!this.kValid) {
+        f(ti, this.x, w.k1);
+        this.evaluations++;
+      }
+      rk4Step(this.xNew, f, ti, this.x, h, w, true);
+      this.evaluations += 3;
+      if (!allFinite(this.xNew)) {
+        this.kValid = true;
+        res.steps = i;
+        res.status = STEP_NON_FINITE;
+        return res;
+      }
       this.commit(i === m - 1 ? tStop : t0 + (i + 1) * h, h);
       if (project && project(this.x)) this.atEnd = false;
-      kValid = false;
     }
-    this.evaluations += 4 * steps - (kValidAtStart && steps > 0 ? 1 : 0);
-    if (allFinite(this.x)) return { steps, status: STEP_OK };
-    // Replay with checks to find the last finite state.
-    this.accepted -= steps;
-    this.reset(t0, this.backup);
-    for (let i = 0; i < steps; i++) {
-      const st = this.advance(tStop);
-      if (st !== STEP_OK) return { steps: i + 1, status: st };
-      if (project && project(this.x)) this.invalidate();
-    }
-    return { steps, status: STEP_NON_FINITE };
+    res.steps = steps;
+    res.status = STEP_OK;
+    return res;
   }
+  private readonly runResult: { steps: number; status: StepStatus } = { steps: 0, status: STEP_OK };
 }

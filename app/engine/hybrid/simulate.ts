@@ -135,7 +135,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       ringIdx = (ringIdx + 1) % M;
       ringCount++;
       const x = stepper.x;
-      xPlus.set(x);
+      for (let i = 0; i < n; i++) xPlus[i] = x[i];
       const r = sys.jump(t, x, xPlus, cause);
       if (!allFinite(xPlus)) {
         stop('non-finite', `the jump map (${cause}) gave a non-finite state at t = ${fmt(t)} s (j = ${j}); ` +
