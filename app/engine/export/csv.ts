@@ -1,0 +1,58 @@
+/**
+ * CSV export: `#` comment header (tool, conventions, frames, units, caution), one header row of
+ * column names with units, one row per (optionally decimated) sample. Comma-separated, `.` as the
+ * decimal mark, numbers in shortest round-trip form.
+ */
+import type { Result } from '../errors';
+import { fail, ok } from '../errors';
+import type { ResolvedScenario } from '../scenario/resolve';
+import type { RunTrace } from '../sim/types';
+import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from './caution';
+import { formatNumber, selectSamples, traceColumns } from './columns';
+import { checkExportInputs, oneLine } from './prepare';
+import type { ExportMeta } from './types';
+
+export interface CsvOptions {
+  /** Keep about this many samples per second (the first at or after each grid point, and the last). */
+  sampleRateHz?: number;
+  lineEnding?: '\n' | '\r\n';
+}
+
+export function writeCsv(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta, options: CsvOptions = {}): Result<string> {
+  const errors = checkExportInputs(trace, resolved, meta);
+  if (options.lineEnding !== undefined && options.lineEnding !== '\n' && options.lineEnding !== '\r\n') {
+    errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
+  }
+  if (errors.length) return fail(errors);
+  const sel = selectSamples(trace, options.sampleRateHz);
+  if (!sel.ok) return sel;
+  const idx = sel.value;
+  const cols = traceColumns(trace.nWheels);
+  const eol = options.lineEnding ?? '\n';
+
+  const ctl = meta.controllerId ? `${oneLine(meta.controllerLabel)} (id ${oneLine(meta.controllerId)})` : oneLine(meta.controllerLabel);
+  const head = [
+    `${oneLine(meta.toolName)} ${oneLine(meta.toolVersion)} - run export (CSV)`,
+    `CAUTION: ${CAUTION_TEXT}`,
+    `scenario: ${oneLine(resolved.name)}; vehicle: ${oneLine(resolved.vehicle.name)}; controller: ${ctl}`,
+    `epoch (t = 0): ${resolved.epochUtc} (UTC)`,
+    `time: ${TIME_CONVENTION}`,
+    `quaternion: ${QUATERNION_CONVENTION}`,
+    `frames: ${FRAME_CONVENTION}`,
+    'units: SI (s, rad/s, N m, N m s) as each column name says; quaternions dimensionless; error_angle_deg in degrees',
+    `wheels: ${trace.nWheels}, numbered 1..${trace.nWheels} in the order of the scenario's wheel list`,
+    options.sampleRateHz !== undefined
+      ? `samples: ${idx.length} of ${trace.n} (decimated to about ${options.sampleRateHz} Hz; the last sample always kept)`
+      : `samples: ${trace.n}`,
+    `columns: ${cols.map((c) => `${c.name} = ${c.description}${c.unit && c.unit !== 'count' ? ` [${c.unit}]` : ''}`).join('; ')}`,
+  ];
+  const lines: string[] = head.map((h) => `# ${h}`);
+  lines.push(cols.map((c) => c.name).join(','));
+  const row: string[] = new Array(cols.length);
+  for (let m = 0; m < idx.length; m++) {
+    const k = idx[m];
+    for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c].get(trace, k));
+    lines.push(row.join(','));
+  }
+  return ok(lines.join(eol) + eol);
+}

@@ -1,0 +1,31 @@
+/**
+ * Checks every writer runs before writing anything: the trace (finite, ordered, unit
+ * quaternions), its wheel count against the scenario's, and the metadata strings.
+ */
+import type { Issue } from '../errors';
+import type { ResolvedScenario } from '../scenario/resolve';
+import type { RunTrace } from '../sim/types';
+import { validateTraceForExport } from './trace-check';
+import type { ExportMeta } from './types';
+
+export function checkExportInputs(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta): Issue[] {
+  const errors: Issue[] = [];
+  const t = validateTraceForExport(trace);
+  if (!t.ok) errors.push(...t.errors);
+  else if (trace.nWheels !== resolved.vehicle.wheelCount) {
+    errors.push({ path: 'trace.nWheels', rule: 'wheel-count', message: `trace.nWheels = ${trace.nWheels} but the scenario's vehicle has ${resolved.vehicle.wheelCount} wheels` });
+  }
+  for (const k of ['toolName', 'toolVersion', 'controllerLabel'] as const) {
+    const v = meta?.[k];
+    if (typeof v !== 'string' || v.trim() === '') errors.push({ path: `meta.${k}`, rule: 'required', message: `meta.${k} must be a non-empty string` });
+  }
+  if (meta?.controllerId !== undefined && typeof meta.controllerId !== 'string') {
+    errors.push({ path: 'meta.controllerId', rule: 'type', message: 'meta.controllerId must be a string when given' });
+  }
+  return errors;
+}
+
+/** One line of free text: no line breaks, no control characters. */
+export function oneLine(s: string): string {
+  return s.replace(/[\u0000-\u001f\u007f]+/g, ' ').trim();
+}

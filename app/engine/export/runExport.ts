@@ -1,0 +1,45 @@
+/**
+ * One entry point for exporting a pipeline run in any of the three formats, used by the CLI and
+ * the app's export dialog alike (so both write the same bytes for the same run).
+ */
+import type { Result } from '../errors';
+import type { ResolvedScenario } from '../scenario/resolve';
+import type { ControllerRun, PipelineOutput } from '../pipeline/types';
+import { writeCsv } from './csv';
+import { writeJson } from './json';
+import { writeAem } from './aem-write';
+import type { ExportMeta } from './types';
+
+export const EXPORT_FORMATS = ['csv', 'json', 'aem'] as const;
+export type ExportFormat = (typeof EXPORT_FORMATS)[number];
+
+export interface RunExportOptions {
+  toolName: string;
+  toolVersion: string;
+  /** Export sample rate; default every stored sample. */
+  sampleRateHz?: number;
+  /** AEM CREATION_DATE; default now (UTC, whole seconds). */
+  creationDateUtc?: string;
+}
+
+export function exportRun(
+  format: ExportFormat,
+  run: ControllerRun,
+  out: PipelineOutput,
+  resolved: ResolvedScenario,
+  o: RunExportOptions,
+): Result<string> {
+  const meta: ExportMeta = {
+    toolName: o.toolName,
+    toolVersion: o.toolVersion,
+    controllerLabel: `${run.label} (${run.mode})`,
+    controllerId: run.controllerId,
+    jumpEvents: run.jumps,
+    metrics: run.metrics,
+    plan: out.plan,
+  };
+  if (format === 'csv') return writeCsv(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
+  if (format === 'json') return writeJson(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
+  const created = o.creationDateUtc ?? new Date().toISOString().replace(/\.\d{3}Z$/, 'Z');
+  return writeAem(run.trace, resolved, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz });
+}
