@@ -279,8 +279,10 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       }
     }
     const tUpTo = kind ? tEvent : tNew;
+    let recordEnd = rec.every === 'step';
     while (tRec <= tUpTo) {
-      if (tRec === tNew) record(tRec, j, stepper.x, false);
+      // A grid time on the step end is recorded below as the current point (after projection).
+      if (tRec === tUpTo) recordEnd = true;
       else record(tRec, j, stepper.dense(scratch, tRec), false);
       nextRecK++;
       tRec = o.t0 + nextRecK * rec.dt;
@@ -299,7 +301,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       else g = sys.jumpGuard!(t, stepper.x);
       if (g < 0) armed = true;
     }
-    if (rec.every === 'step') record(t, j, stepper.x, true);
+    if (recordEnd) record(t, j, stepper.x, true);
     if (stopAsked()) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
   }
 
