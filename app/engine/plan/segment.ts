@@ -71,7 +71,10 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
     wheelMomentumStartBody: Float64Array.from(h0),
     wheelMomentumEndBody: hEnd,
   };
-  const emptySystem = h0[0] === 0 && h0[1] === 0 && h0[2] === 0;
+  // Zero stored momentum, allowing for rounding carried through a sequence (|h| ~ 1e-20 N·m·s
+  // after several rotations): below 1e-12 of the envelope the closed forms are exact to print.
+  const hScale = limits.momentumCapacity(Float64Array.of(1, 0, 0)) + limits.momentumCapacity(Float64Array.of(0, 1, 0)) + limits.momentumCapacity(Float64Array.of(0, 0, 1));
+  const emptySystem = Math.hypot(h0[0], h0[1], h0[2]) <= 1e-12 * hScale;
   const reasons = checkSegment(g, limits, hEnd, emptySystem);
   if (reasons.length) return { ...base, feasible: false, reasons };
 
