@@ -82,7 +82,6 @@ export class DocumentService {
   private readonly limits: { scenarioBytes: number; exportBytes: number };
   private readonly state: DocumentState = { path: null, name: UNTITLED, dirty: false };
   private closeAfterSave = false;
-  private launchTaken = false;
   private lastExportDir: string | null = null;
 
   constructor(deps: DocumentServiceDeps) {
@@ -128,11 +127,13 @@ export class DocumentService {
     return r;
   }
 
-  /** The launch document, once; later calls (a renderer reload) get none. */
+  /**
+   * The launch document. Each call opens it again and makes it current, so a renderer reload (or
+   * React's development double effects) ends up where main's document state is.
+   */
   async initialScenario(): Promise<OpenResult | { status: 'none' }> {
     const launch = this.deps.launch;
-    if (this.launchTaken || !launch) return { status: 'none' };
-    this.launchTaken = true;
+    if (!launch) return { status: 'none' };
     return this.openPath(launch.path, launch.kind === 'template');
   }
 

@@ -14,6 +14,8 @@ import { locateElectronBinary } from './electron-binary';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
 async function main(): Promise<number> {
+  // What we build is what we ship: React's production build, whatever the calling shell set.
+  process.env.NODE_ENV = 'production';
   const binary = locateElectronBinary(path.join(root, 'node_modules/electron'), fs, process.env);
   if (!binary.ok) {
     console.error(binary.message);

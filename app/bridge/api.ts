@@ -86,7 +86,10 @@ export interface SlewsmithBridge {
   openScenario(): Promise<OpenResult>;
   /** `path` must be one returned by recentFiles(); anything else is refused. */
   openRecent(path: string): Promise<OpenResult>;
-  /** The document the shell was launched with (the demo under `npm start`), once; else none. */
+  /**
+   * The document the shell was launched with (the demo under `npm start` and `npm run web`), or
+   * none. Call it at startup; each call opens that document again and makes it current.
+   */
   initialScenario(): Promise<OpenResult | { status: 'none' }>;
   /** Asks about unsaved changes, then forgets the current path so the next Save asks. */
   newScenario(): Promise<NewResult>;

@@ -31,7 +31,7 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
   const doc = win.document;
   let name = UNTITLED_SCENARIO;
   let dirty = false;
-  let initialTaken = false;
+  let demoText: Promise<string | null> | null = null;
 
   // The page's own unsaved-changes guard: the browser shows its standard leave-page question.
   win.addEventListener('beforeunload', (event) => {
@@ -129,18 +129,16 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       return { status: 'failed', message: 'Recent files are not available in the browser; use Open.' };
     },
     async initialScenario() {
-      if (initialTaken || !o.demoUrl) return { status: 'none' };
-      initialTaken = true;
-      let text: string;
-      try {
-        const res = await win.fetch(new URL(o.demoUrl, doc.baseURI));
-        if (!res.ok) return { status: 'none' };
-        text = await res.text();
-      } catch {
-        return { status: 'none' };
-      }
-      const fileName = o.demoUrl.split('/').pop() ?? UNTITLED_SCENARIO;
-      return openText(fileName, text, true);
+      const demoUrl = o.demoUrl;
+      if (!demoUrl) return { status: 'none' };
+      // Fetched once; each call reopens it (see the interface).
+      demoText ??= win
+        .fetch(new URL(demoUrl, doc.baseURI))
+        .then((res) => (res.ok ? res.text() : null))
+        .catch(() => null);
+      const text = await demoText;
+      if (text === null) return { status: 'none' };
+      return openText(demoUrl.split('/').pop() ?? UNTITLED_SCENARIO, text, true);
     },
     async newScenario() {
       if (!confirmDiscard('start a new scenario')) return { status: 'cancelled' };

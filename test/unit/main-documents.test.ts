@@ -103,15 +103,19 @@ describe('open', () => {
     expect(await recent.list()).toEqual([]);
   });
 
-  it('gives the launch document once; a template opens untitled so Save asks where', async () => {
+  it('reopens the launch document on each call; a template opens untitled so Save asks where', async () => {
     const demo = await writeScenario('demo.scenario.json');
     const { docs, dialogs } = setup({ launch: { kind: 'template', path: demo } });
     const r = await docs.initialScenario();
     expect(r).toMatchObject({ status: 'opened', template: true, file: { path: null, name: 'demo.scenario.json' } });
-    expect(await docs.initialScenario()).toEqual({ status: 'none' });
+    docs.setDirty(true);
+    expect(await docs.initialScenario()).toEqual(r);
+    expect(docs.current).toEqual({ path: null, name: 'demo.scenario.json', dirty: false });
     dialogs.saveAnswers.push({ canceled: true });
     expect(await docs.saveScenario(GOOD_SCENARIO)).toEqual({ status: 'cancelled' });
     expect(dialogs.log).toEqual([`save ${path.join(dir, 'demo.scenario.json')}`]);
+    const none = setup();
+    expect(await none.docs.initialScenario()).toEqual({ status: 'none' });
   });
 
   it('new asks about unsaved changes and forgets the path', async () => {
