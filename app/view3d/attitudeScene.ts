@@ -19,6 +19,7 @@ import type { Kit } from './primitives';
 import { createKit, disposeKit, disposeTree, Triad } from './primitives';
 import { RunContent } from './runContent';
 import { SIZES } from './style';
+import { NO_KEEP_OUT } from './types';
 import type { ViewLayout, ViewOptions, ViewRun, ViewStats } from './types';
 
 export function defaultViewOptions(bus: BusModel): ViewOptions {
@@ -115,7 +116,7 @@ export class Viewport {
 
   applyOptions(o: ViewOptions): void {
     this.common.setVisibility(o.showInertialTriad, o.showSphere, o.showKeepOut);
-    this.common.setKeepOut(o.showKeepOut ? o.keepOut : []);
+    this.common.setKeepOut(o.showKeepOut ? o.keepOut : NO_KEEP_OUT);
     for (const r of this.runs) r.applyOptions(o);
   }
 

@@ -83,6 +83,7 @@ export class CommonContent {
   readonly sphere: LineSegments;
   readonly keepOut = new Group();
   private readonly kit: Kit;
+  private cones: readonly KeepOutCone[] | null = null;
 
   constructor(kit: Kit) {
     this.kit = kit;
@@ -103,7 +104,10 @@ export class CommonContent {
     this.group.add(this.inertialTriad, this.sphere, this.keepOut);
   }
 
+  /** Rebuild the cones when the list changes (compared by identity: the scene copies option lists). */
   setKeepOut(cones: readonly KeepOutCone[]): void {
+    if (cones === this.cones) return;
+    this.cones = cones;
     disposeTree(this.keepOut, this.kit);
     this.keepOut.clear();
     const R = SIZES.sphereRadius;

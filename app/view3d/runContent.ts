@@ -14,6 +14,7 @@ import { cssHex, disposeTree, Triad } from './primitives';
 import { countUpTo, createCursor, locateSample } from './sampling';
 import { COLORS, SIZES } from './style';
 import { TrailObject } from './trailObject';
+import { NO_KEEP_OUT } from './types';
 import type { ViewOptions, ViewRun } from './types';
 
 export interface RunContentStyle {
@@ -157,7 +158,7 @@ export class RunContent {
   applyOptions(o: ViewOptions): void {
     const a = this.trail.axis, b = o.boresightBody;
     if (a[0] !== b[0] || a[1] !== b[1] || a[2] !== b[2]) this.trail.setAxis(b);
-    this.trail.setKeepOut(o.showKeepOut ? o.keepOut : []);
+    this.trail.setKeepOut(o.showKeepOut ? o.keepOut : NO_KEEP_OUT);
     this.trail.setVisibility(o.showTrail, o.showJumpMarkers, o.showGreatCircle, o.showKeepOut);
     this.bus.visible = o.showBody;
     this.bodyTriad.visible = o.showBodyTriad;

@@ -35,6 +35,7 @@ import {
   trailColors,
   unitAxis,
 } from './trailMath';
+import { NO_KEEP_OUT } from './types';
 import type { KeepOutCone, ViewRun } from './types';
 
 export const ARC_POINTS = 64;
@@ -79,7 +80,7 @@ export class TrailObject {
   private readonly entryGroup = new Group();
   private readonly arcMaterial: LineBasicMaterial;
   private readonly arcEndMaterial: MeshBasicMaterial;
-  private keepOut: KeepOutCone[] = [];
+  private keepOut: readonly KeepOutCone[] = NO_KEEP_OUT;
   private activeArc = -1;
 
   constructor(kit: Kit, run: ViewRun, axisBody: ArrayLike<number>, style: TrailStyle) {
@@ -155,7 +156,7 @@ export class TrailObject {
     this.jumpMarkers.instanceMatrix.needsUpdate = true;
 
     this.buildArcs();
-    this.setKeepOut(this.keepOut);
+    this.setKeepOut(this.keepOut, true);
   }
 
   private buildArcs(): void {
@@ -190,8 +191,9 @@ export class TrailObject {
     this.activeArc = -1;
   }
 
-  /** Recompute keep-out entry markers for the current path. */
-  setKeepOut(cones: KeepOutCone[]): void {
+  /** Recompute keep-out entry markers for the current path (when the list or, with force, the path changed). */
+  setKeepOut(cones: readonly KeepOutCone[], force = false): void {
+    if (cones === this.keepOut && !force) return;
     this.keepOut = cones;
     if (this.entryMarkers) {
       this.entryGroup.remove(this.entryMarkers);
@@ -280,6 +282,6 @@ export class TrailObject {
     for (const a of this.arcs) if (a) a.geometry.dispose();
     this.arcMaterial.dispose();
     this.arcEndMaterial.dispose();
-    this.setKeepOut([]);
+    this.setKeepOut(NO_KEEP_OUT, true);
   }
 }

@@ -59,6 +59,9 @@ export interface KeepOutCone {
   halfAngleRad: number;
 }
 
+/** The empty cone list, one shared instance (option changes are detected by identity). */
+export const NO_KEEP_OUT: readonly KeepOutCone[] = Object.freeze([]);
+
 export interface ViewOptions {
   /** Body axis whose path the trail draws (need not be unit). Default: the bus model's boresight. */
   boresightBody: ArrayLike<number>;
