@@ -38,7 +38,7 @@ export interface AttitudeViewHandle extends AttitudeView {
 }
 
 /** Inset camera for the fixed view: oblique, Z_B up. */
-const INSET_HOME = [3.4, 2.6, 2.1] as const;
+const INSET_HOME = [3.8, 2.9, 2.35] as const;
 
 export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeViewOptions = {}): AttitudeViewHandle {
   const renderer = new WebGLRenderer({
