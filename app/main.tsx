@@ -1,12 +1,29 @@
-/** Renderer entry: mounts the React app. */
+/** Renderer entry: wires the app controller (store, clock, worker, bridge) and mounts React. */
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
+import { getBridge } from './bridge';
 import { App } from './ui/App';
+import { createAppController } from './ui/appController';
+import type { WorkerLike } from './ui/worker/client';
+import demo from '../assets/lumen6-imaging.scenario.json';
+import './ui/styles.css';
 
 const container = document.getElementById('root');
 if (!container) throw new Error('index.html has no #root element');
+
+const app = createAppController({
+  bridge: getBridge(),
+  spawnWorker: () => new Worker(new URL('./ui/worker/pipeline.worker.ts', import.meta.url), { type: 'module', name: 'pipeline' }) as unknown as WorkerLike,
+  fallbackScenario: demo,
+  fallbackName: 'lumen6-imaging.scenario.json',
+});
+
+// For the end-to-end tests and for debugging from the console: read-only handles, no globals
+// the app itself depends on.
+(window as unknown as { __slewsmith?: unknown }).__slewsmith = { store: app.store, clock: app.clock };
+
 createRoot(container).render(
   <StrictMode>
-    <App />
+    <App app={app} />
   </StrictMode>,
 );

@@ -1,37 +1,76 @@
 /**
- * Minimal shell page (the UI work replaces this file): the caution strip, the product name, and
- * which shell and document the bridge reports, so the browser tests have something real to read.
- * Keep `data-testid="caution-strip"` on the strip: test/e2e/smoke.test.ts looks for it.
+ * The main window (design.md "Main window"): caution strip, top bar, editors on the left, the 3D
+ * view over the synchronised plots in the centre, plan and comparison on the right, the playback
+ * bar at the bottom, and the export dialog.
  */
-import { useEffect, useState } from 'react';
-import { getBridge } from '../bridge';
+import { useEffect } from 'react';
+import { commandForChord } from '../bridge/commands';
+import type { AppController } from './appController';
+import { AppContext } from './context';
+import { startFrameLoop } from './playback/clock';
+import { CautionStrip, TopBar } from './components/Chrome';
+import { VehiclePanel } from './components/VehiclePanel';
+import { ManeuverPanel } from './components/ManeuverPanel';
+import { ControllersPanel } from './components/ControllersPanel';
+import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
+import { Scrubber } from './components/Scrubber';
+import { ExportDialog } from './components/ExportDialog';
+import { PlotsPanel } from './plots/PlotsPanel';
+import { View3DPanel } from './view/View3DPanel';
 
-export const CAUTION_TEXT = 'CAUTION: planning aid, not flight software — verify before flight use';
+function isEditable(t: EventTarget | null): boolean {
+  const el = t as HTMLElement | null;
+  if (!el || typeof el.tagName !== 'string') return false;
+  const tag = el.tagName.toLowerCase();
+  return tag === 'input' || tag === 'textarea' || tag === 'select' || el.isContentEditable;
+}
 
-export function App() {
-  const [status, setStatus] = useState('starting');
+/**
+ * Undo/redo inside a text field edits the document too (the fields commit as you type, so the
+ * field's own undo would fight the store). The desktop menu already sends the command; the
+ * browser bridge leaves text fields alone, so here we send it ourselves.
+ */
+function useFieldUndo(app: AppController) {
   useEffect(() => {
-    const bridge = getBridge();
-    let live = true;
-    void bridge.initialScenario().then((r) => {
-      if (!live) return;
-      if (r.status === 'opened') setStatus(`${bridge.shell} shell · ${r.file.name}`);
-      else if (r.status === 'invalid') setStatus(`${bridge.shell} shell · ${r.file.name} has ${r.errors.length} problem(s)`);
-      else setStatus(`${bridge.shell} shell · no scenario`);
-    });
-    return () => {
-      live = false;
+    const isMac = /Mac|iPhone|iPad/.test(navigator.platform);
+    const onKey = (e: KeyboardEvent) => {
+      const c = commandForChord(e, isMac);
+      if ((c !== 'undo' && c !== 'redo') || !isEditable(e.target)) return;
+      e.preventDefault();
+      if (app.bridge.shell === 'browser') app.command(c);
     };
-  }, []);
+    window.addEventListener('keydown', onKey, { capture: true });
+    return () => window.removeEventListener('keydown', onKey, { capture: true });
+  }, [app]);
+}
+
+export function App({ app }: { app: AppController }) {
+  useFieldUndo(app);
+  useEffect(() => startFrameLoop(app.clock), [app]);
   return (
-    <div style={{ fontFamily: 'system-ui, sans-serif', margin: 0 }}>
-      <div role="note" data-testid="caution-strip" style={{ background: '#f2c200', color: '#111', padding: '6px 12px', fontWeight: 600 }}>
-        {CAUTION_TEXT}
+    <AppContext.Provider value={app}>
+      <div className="app">
+        <CautionStrip />
+        <TopBar />
+        <main className="workspace">
+          <aside className="left" aria-label="Scenario editors">
+            <VehiclePanel />
+            <ManeuverPanel />
+            <ControllersPanel />
+          </aside>
+          <section className="center" aria-label="3D view and plots">
+            <View3DPanel />
+            <PlotsPanel />
+          </section>
+          <aside className="right" aria-label="Plan and comparison">
+            <RunStatus />
+            <PlanSummary />
+            <ComparisonTable />
+          </aside>
+        </main>
+        <Scrubber />
+        <ExportDialog />
       </div>
-      <main style={{ padding: '16px' }}>
-        <h1 style={{ margin: 0 }}>Slewsmith</h1>
-        <p data-testid="shell-status">{status}</p>
-      </main>
-    </div>
+    </AppContext.Provider>
   );
 }

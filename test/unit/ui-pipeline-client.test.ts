@@ -18,7 +18,7 @@ class FakeWorker implements WorkerLike {
     this.terminated = true;
   }
   reply(id: number, value: string) {
-    this.onmessage?.({ data: { type: 'result', id, result: { ok: true, value: value as never, warnings: [] } } } as MessageEvent<RunReply>);
+    this.onmessage?.({ data: { type: 'result', id, result: { ok: true, value: value as never, warnings: [] } } } as unknown as MessageEvent<RunReply>);
   }
 }
 

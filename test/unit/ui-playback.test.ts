@@ -42,7 +42,9 @@ describe('playback clock', () => {
     const c = createClock();
     c.setRange(0, 100);
     const seen: number[] = [];
+    const ticks: boolean[] = [];
     c.onFrame((t) => seen.push(t));
+    c.onTick((_t, moved) => ticks.push(moved));
     let cb: ((now: number) => void) | null = null;
     const stop = startFrameLoop(c, (f) => ((cb = f), 1), () => (cb = null));
     cb!(0); // first frame: listeners get the initial time
@@ -53,6 +55,7 @@ describe('playback clock', () => {
     c.play();
     cb!(42); // +10 ms × 100 = +1 s
     expect(seen).toEqual([0, 4, 5]);
+    expect(ticks).toEqual([true, false, true, true]);
     stop();
     expect(cb).toBeNull();
   });

@@ -31,6 +31,8 @@ export interface PlaybackClock {
   /** Advance by a wall-clock interval (ms); called by the frame loop. Returns true when t moved. */
   advance(wallMs: number): boolean;
   onFrame(listener: FrameListener): () => void;
+  /** Every animation frame, with whether the time moved (for views that also animate on input). */
+  onTick(listener: (t: number, changed: boolean) => void): () => void;
   /** Run the listeners if anything changed since the last call (or when forced). */
   emitIfChanged(force?: boolean): void;
 }
@@ -43,6 +45,7 @@ export function createClock(): PlaybackClock {
   let tMax = 0;
   let changed = true;
   const listeners = new Set<FrameListener>();
+  const tickers = new Set<(t: number, changed: boolean) => void>();
   const controls = createStore<ClockControls>({ playing: false, speed: 10 });
 
   const clamp = (v: number) => (Number.isFinite(v) ? Math.min(tMax, Math.max(tMin, v)) : tMin);
@@ -104,10 +107,17 @@ export function createClock(): PlaybackClock {
         listeners.delete(listener);
       };
     },
+    onTick(listener) {
+      tickers.add(listener);
+      return () => {
+        tickers.delete(listener);
+      };
+    },
     emitIfChanged(force = false) {
-      if (!changed && !force) return;
+      const moved = changed || force;
       changed = false;
-      for (const l of [...listeners]) l(t);
+      if (moved) for (const l of [...listeners]) l(t);
+      for (const l of [...tickers]) l(t, moved);
     },
   };
   return clock;

@@ -56,8 +56,9 @@ export interface AppState {
   outputScenario: unknown;
   /** Keys of the runs shown in plots and 3D (ControllerRun.key); the first is the detailed one. */
   selectedRunKeys: string[];
-  /** Ids of controllers to run and compare (the scenario's controllers chosen by checkbox). */
-  comparedControllerIds: string[];
+  /** Ids of the scenario's controllers left out of the comparison (unchecked). Kept as the
+   *  excluded set so that new or renamed controllers are compared by default. */
+  excludedControllerIds: string[];
 }
 
 export type Validate = (scenario: unknown) => ValidationState;
@@ -78,6 +79,8 @@ export interface AppStoreOptions {
 export interface AppStore extends Store<AppState> {
   /** Set one value in the scenario (undefined removes the key). */
   edit(path: string | readonly PathToken[], value: unknown, o?: EditOptions): void;
+  /** Set several values as one undo step (e.g. an off-diagonal inertia entry and its mirror). */
+  editMany(changes: readonly [string | readonly PathToken[], unknown][], o?: EditOptions): void;
   /** Replace the whole scenario with a new JSON value as one undo step. */
   replace(next: unknown, label: string): void;
   undo(): boolean;
@@ -88,7 +91,7 @@ export interface AppStore extends Store<AppState> {
   setOutput(output: PipelineOutput, forScenario: unknown): void;
   setPipeline(p: Partial<PipelineState>): void;
   selectRuns(keys: string[]): void;
-  setCompared(ids: string[]): void;
+  setExcluded(ids: string[]): void;
 }
 
 const EMPTY_PIPELINE: PipelineState = { status: 'idle', errors: [], message: '' };
@@ -112,7 +115,7 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     output: null,
     outputScenario: null,
     selectedRunKeys: [],
-    comparedControllerIds: [],
+    excludedControllerIds: [],
   });
 
   /** Common tail of every scenario change: revalidate, recompute dirty. */
@@ -130,10 +133,17 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     ...base,
 
     edit(path, value, opts = {}) {
-      const tokens = typeof path === 'string' ? parsePath(path) : path;
-      const key = opts.coalesceKey === undefined ? formatPath(tokens) : opts.coalesceKey;
+      store.editMany([[path, value]], opts);
+    },
+
+    editMany(changes, opts = {}) {
+      if (changes.length === 0) return;
+      const all = changes.map(([p, v]) => [typeof p === 'string' ? parsePath(p) : p, v] as const);
+      const tokens = all[0][0];
+      const key = opts.coalesceKey === undefined ? all.map(([t]) => formatPath(t)).join('+') : opts.coalesceKey;
       base.setState((s) => {
-        const next = setIn(s.scenario, tokens, value);
+        let next = s.scenario;
+        for (const [t, v] of all) next = setIn(next, t, v);
         const t = now();
         const top = s.undoStack[s.undoStack.length - 1];
         const fold = key !== null && top !== undefined && top.coalesceKey === key && t - top.at <= coalesceMs && s.redoStack.length === 0;
@@ -194,7 +204,7 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
         output: null,
         outputScenario: null,
         selectedRunKeys: [],
-        comparedControllerIds: [],
+        excludedControllerIds: [],
       });
     },
 
@@ -220,8 +230,8 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
       base.setState({ selectedRunKeys: keys });
     },
 
-    setCompared(ids) {
-      base.setState({ comparedControllerIds: ids });
+    setExcluded(ids) {
+      base.setState({ excludedControllerIds: ids });
     },
   };
   return store;

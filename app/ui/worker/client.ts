@@ -23,7 +23,8 @@ export interface PipelineRunnerOptions {
   debounceMs?: number;
   staleKillMs?: number;
   onStart?: (id: number) => void;
-  onResult: (result: Result<PipelineOutput>, scenario: unknown, id: number) => void;
+  /** `tag` is whatever the caller passed with the request (e.g. the document it came from). */
+  onResult: (result: Result<PipelineOutput>, scenario: unknown, id: number, tag: unknown) => void;
   onCrash: (message: string, id: number) => void;
   now?: () => number;
   setTimer?: (fn: () => void, ms: number) => unknown;
@@ -31,9 +32,9 @@ export interface PipelineRunnerOptions {
 }
 
 export interface PipelineRunner {
-  schedule(scenario: unknown, options?: Record<string, unknown>): void;
+  schedule(scenario: unknown, options?: Record<string, unknown>, tag?: unknown): void;
   /** Send now, skipping the debounce. */
-  runNow(scenario: unknown, options?: Record<string, unknown>): void;
+  runNow(scenario: unknown, options?: Record<string, unknown>, tag?: unknown): void;
   /** Forget the newest request (e.g. the scenario became invalid): its reply will be discarded. */
   cancel(): void;
   dispose(): void;
@@ -44,6 +45,7 @@ interface Job {
   id: number;
   scenario: unknown;
   options: Record<string, unknown>;
+  tag: unknown;
   sentAt: number;
 }
 
@@ -104,14 +106,14 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     if (!job || reply.id !== job.id) return;
     inFlight = null;
     if (reply.id === wantedId) {
-      if (reply.type === 'result') o.onResult(reply.result, job.scenario, reply.id);
+      if (reply.type === 'result') o.onResult(reply.result, job.scenario, reply.id, job.tag);
       else o.onCrash(reply.message, reply.id);
     }
     pump();
   }
 
-  function enqueue(scenario: unknown, options: Record<string, unknown>) {
-    const job: Job = { id: nextId++, scenario, options, sentAt: 0 };
+  function enqueue(scenario: unknown, options: Record<string, unknown>, tag: unknown) {
+    const job: Job = { id: nextId++, scenario, options, tag, sentAt: 0 };
     wantedId = job.id;
     waiting = job;
     if (inFlight && now() - inFlight.sentAt > staleKillMs) dropWorker();
@@ -119,19 +121,19 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   }
 
   return {
-    schedule(scenario, options = {}) {
+    schedule(scenario, options = {}, tag) {
       if (disposed) return;
       if (timer !== null) clearTimer(timer);
       timer = setTimer(() => {
         timer = null;
-        enqueue(scenario, options);
+        enqueue(scenario, options, tag);
       }, debounceMs);
     },
-    runNow(scenario, options = {}) {
+    runNow(scenario, options = {}, tag) {
       if (disposed) return;
       if (timer !== null) clearTimer(timer);
       timer = null;
-      enqueue(scenario, options);
+      enqueue(scenario, options, tag);
     },
     cancel() {
       if (timer !== null) clearTimer(timer);

@@ -1,0 +1,224 @@
+/**
+ * The renderer's wiring, outside React: the document store, the playback clock, the worker
+ * runner and the bridge. Every scenario change (edit, undo, redo, open) schedules a debounced
+ * pipeline run when the UI-side checks pass; replies for older scenarios are dropped. Menu and
+ * keyboard commands land in `command`.
+ */
+import type { Issue } from '../engine/errors';
+import type { PipelineOutput } from '../engine/pipeline/types';
+import type { MenuCommand, OpenResult, SlewsmithBridge } from '../bridge/api';
+import { createStore, type Store } from './store/createStore';
+import { createAppStore, type AppStore } from './store/document';
+import { createClock, type PlaybackClock } from './playback/clock';
+import { createPipelineRunner, type PipelineRunner, type WorkerLike } from './worker/client';
+import { preflight } from './preflight';
+
+export interface UiFlags {
+  exportOpen: boolean;
+  /** Short status message (saved, exported, failed …) and its kind. */
+  notice: { text: string; kind: 'info' | 'error' } | null;
+}
+
+export interface AppController {
+  store: AppStore;
+  clock: PlaybackClock;
+  ui: Store<UiFlags>;
+  bridge: SlewsmithBridge;
+  command(c: MenuCommand): void;
+  /** Ids of the scenario's controllers being compared (sent as runPipeline's `controllers`). */
+  comparedIds(): string[];
+  /** Reasons running is not possible now (empty when it is). */
+  blockers(): Issue[];
+  notify(text: string, kind?: 'info' | 'error'): void;
+  dispose(): void;
+}
+
+export interface AppControllerOptions {
+  bridge: SlewsmithBridge;
+  spawnWorker: () => WorkerLike;
+  /** The scenario shown until the shell gives one (the bundled demo). */
+  fallbackScenario: unknown;
+  fallbackName: string;
+  debounceMs?: number;
+}
+
+type Obj = Record<string, unknown>;
+
+function controllersOf(s: unknown): Obj[] {
+  const list = (s as Obj | null)?.controllers;
+  return Array.isArray(list) ? (list as Obj[]) : [];
+}
+
+/** The controller ids of a scenario that are not excluded, in file order. */
+export function comparedControllerIds(scenario: unknown, excluded: readonly string[]): string[] {
+  return controllersOf(scenario)
+    .map((c) => c.id)
+    .filter((id): id is string => typeof id === 'string' && !excluded.includes(id));
+}
+
+function runEnd(out: PipelineOutput): number {
+  let tMax = 0;
+  for (const r of out.runs) if (r.trace.n > 0) tMax = Math.max(tMax, r.trace.t[r.trace.n - 1]);
+  return tMax;
+}
+
+export function createAppController(o: AppControllerOptions): AppController {
+  const store = createAppStore(o.fallbackScenario, { validate: preflight });
+  store.load(o.fallbackScenario, o.fallbackName, true);
+  const clock = createClock();
+  const ui = createStore<UiFlags>({ exportOpen: false, notice: null });
+  const bridge = o.bridge;
+  let noticeTimer: ReturnType<typeof setTimeout> | null = null;
+
+  const runner: PipelineRunner = createPipelineRunner({
+    spawn: o.spawnWorker,
+    debounceMs: o.debounceMs ?? 150,
+    onStart: () => store.setPipeline({ status: 'running' }),
+    // `source` is the document and comparison the request was made for.
+    onResult: (result, _input, _id, source) => {
+      const s = store.getState();
+      const src = source as { scenario: unknown; excluded: unknown };
+      if (src.scenario !== s.scenario || src.excluded !== s.excludedControllerIds) return; // stale
+      if (result.ok) {
+        store.setOutput(result.value, src.scenario);
+        store.setPipeline({ status: 'done', errors: [], message: `${result.value.runs.length} run(s) in ${Math.round(result.value.elapsedMs)} ms` });
+        clock.setRange(0, runEnd(result.value));
+      } else {
+        store.setPipeline({ status: 'invalid', errors: result.errors, message: 'The engine rejected the scenario' });
+      }
+    },
+    onCrash: (message) => {
+      store.setPipeline({ status: 'failed', errors: [], message });
+    },
+  });
+
+  function blockers(): Issue[] {
+    const s = store.getState();
+    const out: Issue[] = [...s.validation.errors];
+    if (s.pipeline.status === 'invalid') {
+      const seen = new Set(out.map((i) => `${i.path}|${i.rule}`));
+      for (const i of s.pipeline.errors) if (!seen.has(`${i.path}|${i.rule}`)) out.push(i);
+    }
+    if (controllersOf(s.scenario).length > 0 && comparedIds().length === 0)
+      out.push({ path: 'controllers', rule: 'compare-none', message: 'Choose at least one controller to compare' });
+    return out;
+  }
+
+  function comparedIds(): string[] {
+    const s = store.getState();
+    return comparedControllerIds(s.scenario, s.excludedControllerIds);
+  }
+
+  function request(now: boolean) {
+    const s = store.getState();
+    const ids = comparedIds();
+    if (!s.validation.ok || ids.length === 0) {
+      runner.cancel();
+      store.setPipeline({ status: 'invalid', errors: [], message: 'Fix the listed problems to run' });
+      return;
+    }
+    store.setPipeline({ status: 'waiting', errors: [], message: '' });
+    const tag = { scenario: s.scenario, excluded: s.excludedControllerIds };
+    if (now) runner.runNow(s.scenario, { controllers: ids }, tag);
+    else runner.schedule(s.scenario, { controllers: ids }, tag);
+  }
+
+  const unsubscribe = store.subscribe((s, prev) => {
+    if (s.scenario !== prev.scenario || s.excludedControllerIds !== prev.excludedControllerIds) request(false);
+    if (s.dirty !== prev.dirty) bridge.setDirty(s.dirty);
+  });
+
+  function notify(text: string, kind: 'info' | 'error' = 'info') {
+    ui.setState({ notice: { text, kind } });
+    if (noticeTimer) clearTimeout(noticeTimer);
+    noticeTimer = setTimeout(() => ui.setState({ notice: null }), kind === 'error' ? 9000 : 4000);
+  }
+
+  function issuesText(list: readonly Issue[]): string {
+    const first = list.slice(0, 3).map((i) => `${i.path}: ${i.message}`).join('; ');
+    return list.length > 3 ? `${first}; … (${list.length} problems)` : first;
+  }
+
+  function applyOpen(r: OpenResult) {
+    if (r.status === 'opened') {
+      store.load(r.scenario, r.file.name, r.template);
+      clock.pause();
+      clock.setTime(0);
+      request(true);
+      if (r.warnings.length) notify(`Opened with warnings: ${issuesText(r.warnings)}`);
+    } else if (r.status === 'invalid') notify(`${r.file.name} is not a valid scenario: ${issuesText(r.errors)}`, 'error');
+    else if (r.status === 'failed') notify(r.message, 'error');
+  }
+
+  async function save(as: boolean) {
+    const s = store.getState();
+    const r = as || s.untitled ? await bridge.saveScenarioAs(s.scenario) : await bridge.saveScenario(s.scenario);
+    if (r.status === 'saved') {
+      // Only the snapshot that was sent counts as saved, even if edits happened meanwhile.
+      if (store.getState().scenario === s.scenario) store.markSaved(r.file.name);
+      notify(`Saved ${r.file.name}`);
+    } else if (r.status === 'invalid') notify(`Not saved: ${issuesText(r.errors)}`, 'error');
+    else if (r.status === 'failed') notify(`Not saved: ${r.message}`, 'error');
+  }
+
+  async function newDocument() {
+    const r = await bridge.newScenario();
+    if (r.status !== 'created') return;
+    // A new document starts from the demo's structure under a new name; the user edits from there.
+    const base = o.fallbackScenario as Obj;
+    store.load({ ...base, name: 'Untitled scenario', description: '' }, 'untitled.scenario.json', true);
+    request(true);
+  }
+
+  function command(c: MenuCommand) {
+    switch (c) {
+      case 'undo':
+        store.undo();
+        break;
+      case 'redo':
+        store.redo();
+        break;
+      case 'run':
+        request(true);
+        break;
+      case 'new':
+        void newDocument();
+        break;
+      case 'open':
+        void bridge.openScenario().then(applyOpen);
+        break;
+      case 'save':
+        void save(false);
+        break;
+      case 'save-as':
+        void save(true);
+        break;
+      case 'export':
+        ui.setState({ exportOpen: true });
+        break;
+    }
+  }
+
+  const offCommand = bridge.onCommand(command);
+  // The shell's document (the demo under `npm start`), else keep the bundled fallback.
+  void bridge.initialScenario().then((r) => {
+    if (r.status === 'none') request(true);
+    else applyOpen(r);
+  });
+
+  return {
+    store,
+    clock,
+    ui,
+    bridge,
+    command,
+    comparedIds,
+    blockers,
+    notify,
+    dispose() {
+      unsubscribe();
+      offCommand();
+      runner.dispose();
+    },
+  };
+}

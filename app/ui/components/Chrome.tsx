@@ -1,0 +1,68 @@
+/** The caution strip, the top bar (file commands, undo/redo, document name) and notices. */
+import { useApp, useAppState } from '../context';
+import { useStoreSlice } from '../store/hooks';
+import { COMMAND_ACCELERATORS, type MenuCommand } from '../../bridge/commands';
+
+export function CautionStrip() {
+  return (
+    <div className="caution" role="note" data-testid="caution-strip">
+      <strong>Caution:</strong> Planning aid, not flight software — verify in your own simulations and reviews before any flight use.
+    </div>
+  );
+}
+
+const isMac = typeof navigator !== 'undefined' && /Mac|iPhone|iPad/.test(navigator.platform);
+function shortcut(c: MenuCommand): string {
+  return COMMAND_ACCELERATORS[c].replace('CmdOrCtrl', isMac ? '⌘' : 'Ctrl');
+}
+
+function CmdButton({ c, label, disabled }: { c: MenuCommand; label: string; disabled?: boolean }) {
+  const app = useApp();
+  return (
+    <button className="toolbar-button" onClick={() => app.command(c)} disabled={disabled} title={`${label} (${shortcut(c)})`} data-testid={`cmd-${c}`}>
+      {label}
+    </button>
+  );
+}
+
+export function TopBar() {
+  const app = useApp();
+  const fileName = useAppState((s) => s.fileName);
+  const dirty = useAppState((s) => s.dirty);
+  const undo = useAppState((s) => s.undoStack[s.undoStack.length - 1]);
+  const redo = useAppState((s) => s.redoStack[s.redoStack.length - 1]);
+  const name = useAppState((s) => (s.scenario as { name?: unknown } | null)?.name);
+  const notice = useStoreSlice(app.ui, (u) => u.notice);
+  return (
+    <header className="topbar">
+      <h1 className="brand">Slewsmith</h1>
+      <nav className="toolbar">
+        <CmdButton c="new" label="New" />
+        <CmdButton c="open" label="Open…" />
+        <CmdButton c="save" label="Save" />
+        <CmdButton c="save-as" label="Save as…" />
+        <span className="sep" />
+        <button className="toolbar-button" disabled={!undo} onClick={() => app.command('undo')} title={undo ? `Undo ${undo.label} (${shortcut('undo')})` : 'Nothing to undo'} data-testid="cmd-undo">
+          Undo
+        </button>
+        <button className="toolbar-button" disabled={!redo} onClick={() => app.command('redo')} title={redo ? `Redo ${redo.label} (${shortcut('redo')})` : 'Nothing to redo'} data-testid="cmd-redo">
+          Redo
+        </button>
+        <span className="sep" />
+        <CmdButton c="export" label="Export…" />
+      </nav>
+      <span className="doc" data-testid="document-name">
+        {typeof name === 'string' ? name : ''} <span className="muted">— {fileName}</span>
+        {dirty && <span className="dirty" title="Unsaved changes" data-testid="dirty-marker"> ●</span>}
+      </span>
+      <span className="shell muted" data-testid="shell-status">
+        {app.bridge.shell} shell · {fileName}
+      </span>
+      {notice && (
+        <span className={`notice ${notice.kind}`} role="status" data-testid="notice">
+          {notice.text}
+        </span>
+      )}
+    </header>
+  );
+}

@@ -1,0 +1,105 @@
+/** Export dialog: format, run, sample rate; writes through the engine and saves through the bridge. */
+import { useEffect, useRef, useState } from 'react';
+import type { Issue } from '../../engine/errors';
+import { useApp, useAppState } from '../context';
+import { EXPORT_FORMATS, exportRun, type ExportFormat } from '../exporting';
+import { useStoreSlice } from '../store/hooks';
+import { IssueText } from './fields';
+
+export function ExportDialog() {
+  const app = useApp();
+  const open = useStoreSlice(app.ui, (u) => u.exportOpen);
+  const output = useAppState((s) => s.output);
+  const outputScenario = useAppState((s) => s.outputScenario);
+  const current = useAppState((s) => s.outputScenario === s.scenario);
+  const selected = useAppState((s) => s.selectedRunKeys);
+  const [format, setFormat] = useState<ExportFormat>('aem');
+  const [runKey, setRunKey] = useState('');
+  const [rateText, setRateText] = useState('');
+  const [issues, setIssues] = useState<Issue[]>([]);
+  const [busy, setBusy] = useState(false);
+  const dialog = useRef<HTMLDialogElement>(null);
+
+  useEffect(() => {
+    const d = dialog.current;
+    if (!d) return;
+    if (open && !d.open) {
+      d.showModal();
+      setIssues([]);
+      if (output && !output.runs.some((r) => r.key === runKey)) setRunKey(selected[0] ?? output.runs[0]?.key ?? '');
+    } else if (!open && d.open) d.close();
+  }, [open, output, runKey, selected]);
+
+  const close = () => app.ui.setState({ exportOpen: false });
+  const rate = rateText.trim() === '' ? null : Number(rateText);
+  const rateBad = rate !== null && !(Number.isFinite(rate) && rate > 0);
+
+  const doExport = async () => {
+    if (!output) return;
+    setBusy(true);
+    try {
+      const r = exportRun(output, outputScenario, { format, runKey, sampleRateHz: rateBad ? NaN : rate });
+      if (!r.ok) {
+        setIssues(r.errors);
+        return;
+      }
+      const res = await app.bridge.exportFile({ suggestedName: r.value.name, content: r.value.content });
+      if (res.status === 'exported') {
+        app.notify(`Exported ${res.file.name}`);
+        close();
+      } else if (res.status === 'invalid') setIssues(res.errors);
+      else if (res.status === 'failed') setIssues([{ path: '', rule: 'write', message: res.message }]);
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  return (
+    <dialog ref={dialog} className="export-dialog" onClose={close} onCancel={close} data-testid="export-dialog">
+      <h2>Export a run</h2>
+      {!output ? (
+        <p>Nothing to export yet: no run has been computed.</p>
+      ) : (
+        <>
+          {!current && <p className="issue warning">The scenario changed since this run; the export is of the last computed run.</p>}
+          <fieldset>
+            <legend>Format</legend>
+            {EXPORT_FORMATS.map((f) => (
+              <label key={f.value} className="radio">
+                <input type="radio" name="export-format" value={f.value} checked={format === f.value} onChange={() => setFormat(f.value)} data-testid={`format-${f.value}`} />
+                <strong>{f.label}</strong> <span className="muted">{f.note}</span>
+              </label>
+            ))}
+          </fieldset>
+          <div className="field-row">
+            <span className="field-label">Run</span>
+            <span className="field-control">
+              <select value={runKey} onChange={(e) => setRunKey(e.target.value)} aria-label="run to export" data-testid="export-run">
+                {output.runs.map((r) => (
+                  <option key={r.key} value={r.key}>
+                    {r.label} — {r.mode}
+                  </option>
+                ))}
+              </select>
+            </span>
+            <span className="field-unit" />
+          </div>
+          <div className="field-row">
+            <span className="field-label">Sample rate</span>
+            <span className="field-control">
+              <input className={`num ${rateBad ? 'invalid' : ''}`} type="text" inputMode="decimal" placeholder="every sample" value={rateText} onChange={(e) => setRateText(e.target.value)} aria-label="export sample rate" data-testid="export-rate" />
+            </span>
+            <span className="field-unit">Hz</span>
+          </div>
+          <IssueText errors={issues} />
+        </>
+      )}
+      <div className="dialog-buttons">
+        <button onClick={close}>Cancel</button>
+        <button className="primary" disabled={!output || busy || !runKey} onClick={() => void doExport()} data-testid="export-go">
+          Export…
+        </button>
+      </div>
+    </dialog>
+  );
+}

@@ -1,0 +1,117 @@
+/**
+ * Centre: the three.js attitude view (app/view3d), mounted once on a canvas and driven
+ * imperatively. Runs go in with setRuns when the output or the selection changes; playback time
+ * goes in from the clock's frame loop. It renders when the time moved, after a resize or data
+ * change, and for a moment after pointer input (the orbit camera damps its motion).
+ */
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { createAttitudeView, type AttitudeViewHandle } from '../../view3d';
+import type { ViewLayout, ViewOptions } from '../../view3d/types';
+import { useApp, useAppState } from '../context';
+import { keepOutCones, toViewRuns } from './viewRuns';
+
+const TOGGLES: { key: keyof ViewOptions; label: string }[] = [
+  { key: 'showTrail', label: 'trail' },
+  { key: 'showReference', label: 'reference' },
+  { key: 'showTarget', label: 'target' },
+  { key: 'showJumpMarkers', label: 'jumps' },
+  { key: 'showMomentum', label: 'momentum' },
+  { key: 'showKeepOut', label: 'keep-out' },
+];
+
+export function View3DPanel() {
+  const app = useApp();
+  const host = useRef<HTMLDivElement>(null);
+  const canvas = useRef<HTMLCanvasElement>(null);
+  const view = useRef<AttitudeViewHandle | null>(null);
+  const needsRender = useRef(true);
+  const [failure, setFailure] = useState<string | null>(null);
+  const [layout, setLayout] = useState<ViewLayout>('overlay');
+  const [toggles, setToggles] = useState<Record<string, boolean>>(() => Object.fromEntries(TOGGLES.map((t) => [t.key, true])));
+  const output = useAppState((s) => s.output);
+  const selected = useAppState((s) => s.selectedRunKeys);
+  const scenario = useAppState((s) => s.outputScenario);
+  const runs = useMemo(() => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []), [output, selected]);
+
+  // Mount once.
+  useEffect(() => {
+    const c = canvas.current;
+    const h = host.current;
+    if (!c || !h) return;
+    let v: AttitudeViewHandle;
+    try {
+      v = createAttitudeView(c, { width: h.clientWidth, height: h.clientHeight, preserveDrawingBuffer: true });
+    } catch (e) {
+      setFailure(`3D view unavailable: ${(e as Error).message}`);
+      return;
+    }
+    view.current = v;
+    let activeUntil = 0;
+    const poke = () => {
+      activeUntil = performance.now() + 1200;
+    };
+    c.addEventListener('pointerdown', poke);
+    c.addEventListener('pointermove', poke);
+    c.addEventListener('wheel', poke, { passive: true });
+    const ro = new ResizeObserver(() => {
+      v.resize(h.clientWidth, h.clientHeight);
+      needsRender.current = true;
+    });
+    ro.observe(h);
+    const offTick = app.clock.onTick((t, moved) => {
+      if (moved) v.setTime(t);
+      if (moved || needsRender.current || performance.now() < activeUntil) {
+        needsRender.current = false;
+        v.render();
+      }
+    });
+    return () => {
+      offTick();
+      ro.disconnect();
+      c.removeEventListener('pointerdown', poke);
+      c.removeEventListener('pointermove', poke);
+      c.removeEventListener('wheel', poke);
+      v.dispose();
+      view.current = null;
+    };
+  }, [app]);
+
+  useEffect(() => {
+    const v = view.current;
+    if (!v || !output) return;
+    v.setRuns(toViewRuns(output, runs), runs.length > 1 ? layout : 'single');
+    v.setTime(app.clock.t);
+    needsRender.current = true;
+  }, [output, runs, layout, app]);
+
+  useEffect(() => {
+    const v = view.current;
+    if (!v) return;
+    v.setOptions({ ...toggles, keepOut: keepOutCones(scenario) });
+    needsRender.current = true;
+  }, [toggles, scenario]);
+
+  return (
+    <div className="view3d" data-testid="view3d">
+      <div className="view3d-canvas" ref={host}>
+        <canvas ref={canvas} data-testid="view3d-canvas" />
+        {failure && <div className="panel-empty overlay-msg">{failure}</div>}
+        {!output && !failure && <div className="overlay-msg">The 3D view shows the run once it is computed.</div>}
+      </div>
+      <div className="view3d-bar">
+        {TOGGLES.map((t) => (
+          <label key={t.key} className="check">
+            <input type="checkbox" checked={toggles[t.key] ?? true} onChange={(e) => setToggles({ ...toggles, [t.key]: e.target.checked })} /> {t.label}
+          </label>
+        ))}
+        <select value={layout} onChange={(e) => setLayout(e.target.value as ViewLayout)} aria-label="layout of several runs" disabled={runs.length < 2} title="How several selected runs are shown">
+          <option value="overlay">overlay</option>
+          <option value="side-by-side">side by side</option>
+        </select>
+        <button className="small" onClick={() => (view.current?.resetCamera(), (needsRender.current = true))}>
+          reset view
+        </button>
+      </div>
+    </div>
+  );
+}
