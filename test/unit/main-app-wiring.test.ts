@@ -80,9 +80,10 @@ function fakeElectron() {
   let protocolHandler: ((r: { url: string; method: string }) => Promise<Response>) | null = null;
   let menuTemplate: MenuItemConstructorOptions[] = [];
   const messageAnswers: number[] = [];
-  const session = {
-    permission: null as null | ((c: unknown, p: string, cb: (g: boolean) => void) => void),
-    setPermissionRequestHandler(h: typeof session.permission) {
+  type PermissionHandler = null | ((c: unknown, p: string, cb: (g: boolean) => void) => void);
+  const session: { permission: PermissionHandler; setPermissionRequestHandler(h: PermissionHandler): void; setPermissionCheckHandler(): void; webRequest: { onHeadersReceived(): void } } = {
+    permission: null,
+    setPermissionRequestHandler(h) {
       session.permission = h;
     },
     setPermissionCheckHandler() {},
