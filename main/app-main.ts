@@ -42,8 +42,12 @@ export function startDesktopApp(e: ElectronModules, options: DesktopOptions): vo
   const log = options.log ?? ((m: string) => console.log(`[slewsmith] ${m}`));
   const cfg = electronConfig;
 
+  // standard: real origin and relative URLs; secure: a secure context like https; supportFetchAPI:
+  // fetch() of the demo and assets; corsEnabled: module scripts and module workers load in CORS
+  // mode, which Chromium allows only on CORS-enabled schemes (responses carry no
+  // Access-Control-Allow-Origin, so other origins still cannot read them).
   e.protocol.registerSchemesAsPrivileged([
-    { scheme: cfg.protocol.scheme, privileges: { standard: true, secure: true, supportFetchAPI: true } },
+    { scheme: cfg.protocol.scheme, privileges: { standard: true, secure: true, supportFetchAPI: true, corsEnabled: true } },
   ]);
   app.enableSandbox();
   app.setName(cfg.productName);

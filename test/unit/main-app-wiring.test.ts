@@ -139,7 +139,7 @@ async function started(argv: string[] = ['electron', 'main.cjs']) {
 describe('desktop wiring', () => {
   it('registers the privileged app scheme and turns the sandbox on before ready', async () => {
     const f = await started();
-    expect(f.calls[0]).toBe('privileged [{"scheme":"app","privileges":{"standard":true,"secure":true,"supportFetchAPI":true}}]');
+    expect(f.calls[0]).toBe('privileged [{"scheme":"app","privileges":{"standard":true,"secure":true,"supportFetchAPI":true,"corsEnabled":true}}]');
     expect(f.calls[1]).toBe('enableSandbox');
   });
 
