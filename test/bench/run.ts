@@ -1,3 +1,4 @@
+export {};
 /**
  * `npm run bench`: prints the speed figures of every part that has a target. Figures only; no
  * assertions (speed is never checked by timed tests). Each module exports one async function.

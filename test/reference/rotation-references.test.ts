@@ -58,11 +58,11 @@ describe('quaternion algebra vs npm `quaternion` 2.2.0 (independent implementati
     fc.assert(
       fc.property(unitQuat, vec, (q, v) => {
         const ours = qRotate(new Float64Array(3), q, v);
-        const theirs = lib(q).rotateVector(v);
+        const theirs = lib(q).rotateVector(v) as number[];
         for (let i = 0; i < 3; i++) expect(ours[i]).toBeCloseTo(theirs[i], 12);
         const back = qRotateInverse(new Float64Array(3), q, ours);
         for (let i = 0; i < 3; i++) expect(back[i]).toBeCloseTo(v[i], 12);
-        const conjTheirs = lib(q).conjugate().rotateVector(v);
+        const conjTheirs = lib(q).conjugate().rotateVector(v) as number[];
         const conjOurs = qRotate(new Float64Array(3), qConjugate(new Float64Array(4), q), v);
         for (let i = 0; i < 3; i++) expect(conjOurs[i]).toBeCloseTo(conjTheirs[i], 12);
       }),
@@ -74,7 +74,7 @@ describe('quaternion algebra vs npm `quaternion` 2.2.0 (independent implementati
     fc.assert(
       fc.property(unitQuat, (q) => {
         const m = qToMat3(new Float64Array(9), q);
-        const t = lib(q).toMatrix(); // row-major flat
+        const t = lib(q).toMatrix(false) as unknown as number[]; // row-major flat
         for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) expect(m[3 * c + r]).toBeCloseTo(t[3 * r + c], 13);
         const back = qFromMat3(new Float64Array(4), m);
         const d = Math.abs(back[0] * q[0] + back[1] * q[1] + back[2] * q[2] + back[3] * q[3]);

@@ -17,7 +17,7 @@ import type { JumpEvent } from '../../app/engine/sim/types';
 /** A rest-free constant-rate rotation about Z toward a target `angle` away, with a chosen rate profile. */
 function rotationTrace(rate: (t: number) => number, T: number, dt: number, target: Float64Array, torque: (t: number) => number = () => 0) {
   const b = new TraceBuilder(2, 8);
-  let q = new Float64Array([0, 0, 0, 1]);
+  let q: Float64Array = new Float64Array([0, 0, 0, 1]);
   const zero3 = [0, 0, 0];
   for (let k = 0; k * dt <= T + 1e-12; k++) {
     const t = k * dt;
