@@ -167,11 +167,11 @@ function parallelWarnings(warnings: Issue[], path: string, axes: Float64Array, n
       const cx = axes[3 * i + 1] * axes[3 * j + 2] - axes[3 * i + 2] * axes[3 * j + 1];
       const cy = axes[3 * i + 2] * axes[3 * j] - axes[3 * i] * axes[3 * j + 2];
       const cz = axes[3 * i] * axes[3 * j + 1] - axes[3 * i + 1] * axes[3 * j];
-      if (Math.hypot(cx, cy, cz) <= 1e-9) {
+      if (Math.hypot(cx, cy, cz) <= 1e-8) {
         warnings.push({
           path: `${path}[${j}].axis`,
           rule: 'parallel-axes',
-          message: `${path}[${j}].axis is parallel to ${path}[${i}].axis; the pair acts as one wheel with the summed limits`,
+          message: `${path}[${j}].axis is parallel to ${path}[${i}].axis (within 1e-8 rad); in the envelopes the pair acts as one wheel with the summed limits`,
         });
       }
     }

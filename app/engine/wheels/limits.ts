@@ -157,7 +157,7 @@ function limitCore(
     const sLp = maxScaleLp(arr);
     if (sLp > sScale * (1 + 1e-12) + 1e-15) {
       const s = Math.min(1, sLp);
-      readAlphaFromLp1(arr); // kept if LP2 fails on rounding
+      readAlphaFromLp1(arr);
       minDeviationLp(arr, s);
       for (let i = 0; i < n; i++) out[i] = s * cmdS[i] + nsTerm[i];
       const lam = enforceIntervals(out, arr);
@@ -223,13 +223,21 @@ function readAlphaFromLp1(arr: WheelArray): void {
 
 /**
  * LP2: at the scale s, the null-space term Bα with the smallest max_i |(Bα)_i|/τ_max,i that
- * keeps every wheel in its interval. Overwrites nsTerm only on success; false when the LP fails.
+ * keeps every wheel in its interval. Written as a step δ from LP1's feasible α₁ (so the origin
+ * is feasible and no phase 1 is needed, which would accept ~1e-9 infeasibility):
+ *   maximise u  s.t.  lo_i ≤ base_i + (Bδ)_i ≤ hi_i,  ±((Bα₁)_i + (Bδ)_i)/l_i + u ≤ T₁,
+ * with base = s c + Bα₁, T₁ = max_i |(Bα₁)_i|/l_i, and the peak ratio t = T₁ − u.
+ * Adds Bδ to nsTerm on success; leaves nsTerm (= Bα₁) when the LP fails.
  */
-function minDeviationLp(arr: WheelArray, s: number): boolean {
+function minDeviationLp(arr: WheelArray, s: number): void {
   const n = arr.n, k = n - 3, l = arr.maxTorqueNm, B = arr.nullBasis;
   const nv = 2 * k + 1;
-  let lMax = 0;
-  for (let i = 0; i < n; i++) lMax = Math.max(lMax, l[i]);
+  let lMax = 0, t1 = 0;
+  for (let i = 0; i < n; i++) {
+    lMax = Math.max(lMax, l[i]);
+    t1 = Math.max(t1, Math.abs(nsTerm[i]) / l[i]);
+  }
+  if (t1 === 0) return; // α₁ = 0 is already the smallest change
   for (let i = 0; i < n; i++) {
     const r0 = 4 * i * nv, r1 = r0 + nv, r2 = r1 + nv, r3 = r2 + nv;
     for (let j = 0; j < k; j++) {
@@ -245,28 +253,28 @@ function minDeviationLp(arr: WheelArray, s: number): boolean {
     }
     lpA[r0 + 2 * k] = 0;
     lpA[r1 + 2 * k] = 0;
-    lpA[r2 + 2 * k] = -1;
-    lpA[r3 + 2 * k] = -1;
-    lpB[4 * i] = (hi[i] - s * cmdS[i]) / l[i];
-    lpB[4 * i + 1] = (s * cmdS[i] - lo[i]) / l[i];
-    lpB[4 * i + 2] = 0;
-    lpB[4 * i + 3] = 0;
+    lpA[r2 + 2 * k] = 1;
+    lpA[r3 + 2 * k] = 1;
+    const base = s * cmdS[i] + nsTerm[i];
+    const d = nsTerm[i] / l[i];
+    // LP1's point is feasible up to rounding; a hair below zero is zero.
+    lpB[4 * i] = Math.max(0, (hi[i] - base) / l[i]);
+    lpB[4 * i + 1] = Math.max(0, (base - lo[i]) / l[i]);
+    lpB[4 * i + 2] = Math.max(0, t1 - d);
+    lpB[4 * i + 3] = Math.max(0, t1 + d);
   }
   lpC.fill(0, 0, nv);
-  lpC[2 * k] = 1;
-  if (lpMinimize(lpZ, 4 * n, nv, lpA, lpB, lpC) !== 'optimal') {
-    return false;
-  }
-  nsTerm.fill(0, 0, n);
+  lpC[2 * k] = -1;
+  if (lpMinimize(lpZ, 4 * n, nv, lpA, lpB, lpC) !== 'optimal') return;
   for (let j = 0; j < k; j++) {
     const a = (lpZ[j] - lpZ[k + j]) * lMax;
+    if (a === 0) continue;
     for (let i = 0; i < n; i++) nsTerm[i] += B[j * n + i] * a;
   }
-  return true;
 }
 
 /**
- * Rounding guard: a wheel past its interval by ≤ 1e-12 τ_max is set onto the bound (a change
+ * Rounding guard: a wheel past its interval by ≤ 1e-10 τ_max is set onto the bound (a change
  * far below any physical meaning); a larger excess shrinks the whole vector, which keeps the
  * direction. Returns the shrink factor applied (1 normally).
  */
@@ -274,7 +282,7 @@ function enforceIntervals(out: Float64Array, arr: WheelArray): number {
   const n = arr.n;
   let lam = 1;
   for (let i = 0; i < n; i++) {
-    const tiny = 1e-12 * arr.maxTorqueNm[i];
+    const tiny = 1e-10 * arr.maxTorqueNm[i];
     if (out[i] > hi[i]) {
       if (out[i] - hi[i] <= tiny) out[i] = hi[i];
       else lam = Math.min(lam, hi[i] / out[i]);

@@ -12,7 +12,9 @@
  *
  * The tableau lives in a module-level buffer that grows to the largest problem seen and is then
  * reused, so repeated solves (one per control step) do not allocate. Not re-entrant.
- * Callers should scale rows to O(1) entries; tolerances below are absolute.
+ * Entries below 1e-13 × their column's largest entry are treated as zero (rounding noise), and
+ * rows are then equilibrated (divided by their largest coefficient); tolerances below are
+ * absolute on the equilibrated rows, so columns should still be of comparable scale.
  */
 
 export type LpStatus = 'optimal' | 'infeasible' | 'unbounded' | 'iteration-limit';
@@ -21,7 +23,10 @@ const EPS_PIVOT = 1e-11;
 const EPS_COST = 1e-11;
 const EPS_FEAS = 1e-9;
 
+const COLUMN_NOISE = 1e-13;
+
 let tab = new Float64Array(0);
+let colMax = new Float64Array(0);
 let basis = new Int32Array(0);
 
 /**
@@ -45,13 +50,30 @@ export function lpMinimize(
   if (basis.length < m) basis = new Int32Array(m);
   const t = tab;
   t.fill(0, 0, need);
+  if (colMax.length < nv) colMax = new Float64Array(nv);
+  colMax.fill(0, 0, nv);
+  for (let i = 0; i < m; i++) for (let j = 0; j < nv; j++) colMax[j] = Math.max(colMax[j], Math.abs(a[i * nv + j]));
   let art = nv + m;
   for (let i = 0; i < m; i++) {
     const row = i * stride;
+    // Equilibrate: each row divided by its largest coefficient, so the absolute tolerances
+    // mean the same for a row of 1e-12 N·m commands as for a row of O(1) entries.
+    // An entry below COLUMN_NOISE × its column's largest entry is rounding noise (e.g. a
+    // 1e-150 null-vector component) and is read as 0, else equilibration would promote it to a
+    // binding constraint. A row left with no entries reads 0 ≤ b_i.
+    let big = 0;
+    for (let j = 0; j < nv; j++) {
+      const v = Math.abs(a[i * nv + j]);
+      if (v >= COLUMN_NOISE * colMax[j]) big = Math.max(big, v);
+    }
+    const f = (b[i] < 0 ? -1 : 1) / (big > 0 ? big : 1);
     const sign = b[i] < 0 ? -1 : 1;
-    for (let j = 0; j < nv; j++) t[row + j] = sign * a[i * nv + j];
+    for (let j = 0; j < nv; j++) {
+      const v = a[i * nv + j];
+      t[row + j] = Math.abs(v) >= COLUMN_NOISE * colMax[j] && big > 0 ? f * v : 0;
+    }
     t[row + nv + i] = sign;
-    t[row + width] = sign * b[i];
+    t[row + width] = f * b[i];
     if (sign < 0) {
       t[row + art] = 1;
       basis[i] = art++;
