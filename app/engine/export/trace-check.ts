@@ -38,7 +38,8 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
     return true;
   };
 
-  const tOf = (k: number) => (trace.t && Number.isFinite(trace.t[k]) ? ` (t = ${trace.t[k]} s)` : '');
+  // Time for people: 10 significant digits (0.7, not 0.7000000000000001).
+  const tOf = (k: number) => (trace.t && Number.isFinite(trace.t[k]) ? ` (t = ${Number(trace.t[k].toPrecision(10))} s)` : '');
 
   /** Collects per-channel issues up to `cap`, then counts. */
   const capped = (path: string, rule: string) => {
