@@ -13,7 +13,7 @@ import { formatIssues, issue, type Issue } from '../app/engine/errors';
 import type { AppInfo, RecentFile } from '../app/bridge/api';
 import type { DocumentService } from './documents';
 import { checkAbsolutePath, checkArgCount, checkExportRequest } from './payloads';
-import { isAppUrl } from './security';
+import { isAppIndexUrl } from './security';
 
 /** The part of an IPC event the checks read. */
 export interface SenderEvent {
@@ -32,8 +32,8 @@ export class RefusedMessage extends Error {
   }
 }
 
-/** Only our own page's top frame may talk to main: not an iframe, not some other origin. */
-export function senderProblem(event: SenderEvent, isTrustedUrl: (url: string) => boolean = isAppUrl): string | null {
+/** Only the top frame of our own index may talk to main: not an iframe, another page or origin. */
+export function senderProblem(event: SenderEvent, isTrustedUrl: (url: string) => boolean = isAppIndexUrl): string | null {
   const frame = event.senderFrame;
   if (!frame) return 'the sending frame is gone';
   if (frame.parent !== null) return 'the sender is a subframe';

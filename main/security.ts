@@ -54,6 +54,13 @@ export function isAppUrl(url: string): boolean {
   return u.protocol === `${electronConfig.protocol.scheme}:` && u.host === electronConfig.protocol.host;
 }
 
+/** Our index page itself (query and hash aside): the only page that may talk to main. */
+export function isAppIndexUrl(url: string): boolean {
+  if (!isAppUrl(url)) return false;
+  const pathname = new URL(url).pathname;
+  return pathname === '/' || pathname === `/${electronConfig.protocol.index}`;
+}
+
 export function appIndexUrl(): string {
   const p = electronConfig.protocol;
   return `${p.scheme}://${p.host}/${p.index}`;

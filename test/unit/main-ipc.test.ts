@@ -41,6 +41,7 @@ const FOREIGN: Record<string, SenderEvent> = {
   'another origin': { senderFrame: { url: 'https://example.org/', parent: null } },
   'a file page': { senderFrame: { url: 'file:///tmp/index.html', parent: null } },
   'a lookalike host': { senderFrame: { url: 'app://slewsmith.example/index.html', parent: null } },
+  'another page of our origin': { senderFrame: { url: 'app://slewsmith/assets/other.html', parent: null } },
   'a subframe of our page': { senderFrame: { url: 'app://slewsmith/index.html', parent: {} } },
   'a destroyed frame': { senderFrame: null },
 };
@@ -56,6 +57,8 @@ describe('registration', () => {
 describe('sender check', () => {
   it('accepts only the top frame of our own page', () => {
     expect(senderProblem(OWN_FRAME)).toBeNull();
+    expect(senderProblem({ senderFrame: { url: 'app://slewsmith/index.html#/study?x=1', parent: null } })).toBeNull();
+    expect(senderProblem({ senderFrame: { url: 'app://slewsmith/', parent: null } })).toBeNull();
     for (const [what, e] of Object.entries(FOREIGN)) expect(senderProblem(e), what).not.toBeNull();
   });
 
