@@ -183,8 +183,11 @@ export class Rk4Stepper implements Stepper {
 
   truncate(tq: number): void {
     if (tq === this.t) return;
-    this.endBuf.set(this.x);
-    this.xEnd = this.endBuf;
+    if (this.xEnd === this.x) {
+      // keep the step's end for the interpolant before x is overwritten
+      this.endBuf.set(this.x);
+      this.xEnd = this.endBuf;
+    }
     this.dense(this.x, tq);
     this.t = tq;
     this.atEnd = false;
