@@ -30,7 +30,7 @@ export async function benchControl(): Promise<void> {
   const refined = best(3, () => (last = flowSetGradientCheck(fam, 0.2, { samples: 1_000_000, seed: 1 })));
   console.log(`   same with the local refinement of each member's minimum: ${refined.toFixed(0)} ms`);
   console.log(
-    `     min ‖b_q‖ sampled / refined: ${last.perMember.map((m) => `q${m.member} ${m.minGradientNorm.toFixed(4)} / ${m.refinedMinGradientNorm.toFixed(4)}`).join(', ')}`,
+    `     min ‖b_q‖ sampled / refined: ${last.perMember.map((m) => `q${m.member} ${m.minGradientNorm.toFixed(4)} / ${m.refinedMinGradientNorm?.toFixed(4) ?? "n/a"}`).join(', ')}`,
   );
   let cert = certifySynergistic({ family: fam, delta: 0.2 });
   const tc = best(3, () => (cert = certifySynergistic({ family: fam, delta: 0.2 })));

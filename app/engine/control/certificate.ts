@@ -23,9 +23,10 @@ import { makeRng } from '../math/prng';
 import { qAngleBetween, qFromRotationVector, qMultiply, qRandomUniform } from '../math/rotation';
 import type { FlowSetCheck } from './flowset';
 import { flowSetGradientCheck } from './flowset';
-import { brentRoot, nelderMead, solve3 } from './numeric';
+import { diffeomorphismMargins } from './diffeomorphism';
+import { scalarRoots, solve3 } from './numeric';
 import type { WarpFamily } from './potential';
-import { evaluateFamily, makeFamilyWorkspace, memberGradient, phiMax, phiQuat, warpJacobianDet } from './potential';
+import { evaluateFamily, makeFamilyWorkspace, memberGradient, phiMax, phiQuat } from './potential';
 
 export interface CertifyParams {
   family: WarpFamily;
@@ -70,7 +71,7 @@ export interface CertificateResult {
   certified: boolean;
   /** certified and 0 < δ < δ*. */
   admissible: boolean;
-  /** Certified gap (0 when refused for a zero gap; NaN never leaves: 0 when unknown). */
+  /** Certified gap δ*; 0 when the family is refused (its critical-point set is then not trusted). */
   deltaStar: number;
   /** Numerical uncertainty of δ* (root-solver tolerance propagated through μ). */
   deltaStarTolerance: number;
@@ -131,9 +132,16 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
   const q = new Float64Array(4);
   const b = new Float64Array(3);
 
+  if (n < 2)
+    issues.push({
+      path: base + 'warpDirections',
+      rule: 'min-members',
+      message: `a synergistic family needs at least 2 members (got ${n}); with one member the gap is zero everywhere`,
+    });
+
   // 1. Diffeomorphism condition.
   const margins = diffeomorphismMargins(fam, options.diffeoSamples ?? 20_000, seed);
-  const diffeo = Math.min(...margins);
+  const diffeo = n > 0 ? Math.min(...margins) : 0;
   margins.forEach((m, p) => {
     if (!(m > 0))
       issues.push({
@@ -231,10 +239,12 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
       message: `the family has no synergy gap (δ* = ${fmt(deltaStar)} at or below the tolerance ${fmt(deltaTol)}): some undesired critical point is also a minimiser of the family; choose other warp directions (e.g. the eigenvectors of A) or another warp gain`,
     });
   const certified = issues.length === 0;
-  deltaStar = Math.max(0, deltaStar);
+  if (!certified) deltaStar = 0;
   let admissible = false;
   if (certified) {
-    if (!(delta > 0))
+    if (!Number.isFinite(delta))
+      issues.push({ path: base + 'hysteresis', rule: 'finite', message: `hysteresis δ must be a finite number (got ${delta})` });
+    else if (!(delta > 0))
       issues.push({ path: base + 'hysteresis', rule: 'synergy-gap', message: `hysteresis δ must be greater than zero (got ${delta})` });
     else if (!(delta < deltaStar - deltaTol))
       issues.push({
@@ -254,7 +264,7 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
   }
 
   const flowSamples = Math.max(0, Math.floor(options.flowSetSamples ?? 20_000));
-  const flowSet = certified && flowSamples > 0 && delta > 0 ? flowSetGradientCheck(fam, delta, { samples: flowSamples, seed }) : null;
+  const flowSet = certified && flowSamples > 0 && delta > 0 && Number.isFinite(delta) ? flowSetGradientCheck(fam, delta, { samples: flowSamples, seed }) : null;
   // With δ < δ* the flow set holds no critical point but I: a vanishing sampled/refined gradient
   // there would contradict the certificate (a numerical failure worth a loud warning).
   if (flowSet && admissible && !(flowSet.minGradientNorm > 1e-9 * scale))
@@ -275,7 +285,7 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
     deltaStar,
     deltaStarTolerance: deltaTol,
     delta,
-    margin: deltaStar - delta,
+    margin: Number.isFinite(delta) ? deltaStar - delta : 0,
     recommendedDelta: certified ? 0.8 * deltaStar : 0,
     diffeomorphismMargin: diffeo,
     diffeomorphismMargins: margins,
@@ -310,86 +320,6 @@ function reportAt(
     jumpTo: ws.minIndex + 1,
     gradientNorm: Math.hypot(b[0], b[1], b[2]),
   };
-}
-
-/**
- * All roots of f on [lo, hi]: sign changes on an n-point scan refined by Brent, plus tangential
- * zeros (|f| local minima that are ~0 without a sign change), refined by golden-section search.
- */
-function scalarRoots(f: (t: number) => number, lo: number, hi: number, n: number, xtol: number): number[] {
-  const roots: number[] = [];
-  const xs: number[] = [], fs: number[] = [];
-  for (let i = 0; i <= n; i++) {
-    const x = lo + ((hi - lo) * i) / n;
-    xs.push(x);
-    fs.push(f(x));
-  }
-  for (let i = 0; i < n; i++) {
-    if (fs[i] === 0) roots.push(xs[i]);
-    else if (fs[i] * fs[i + 1] < 0) {
-      const r = brentRoot(f, xs[i], xs[i + 1], xtol);
-      if (r.converged) roots.push(r.x);
-    }
-  }
-  if (fs[n] === 0) roots.push(xs[n]);
-  for (let i = 1; i < n; i++) {
-    const a = Math.abs(fs[i]);
-    if (a < Math.abs(fs[i - 1]) && a <= Math.abs(fs[i + 1]) && fs[i - 1] * fs[i + 1] > 0 && fs[i] * fs[i - 1] > 0) {
-      const m = nelderMead((x) => Math.abs(f(Math.min(xs[i + 1], Math.max(xs[i - 1], x[0])))), [xs[i]], (hi - lo) / n / 4, 1e-16, 400);
-      if (m.fx < 1e-12) roots.push(Math.min(xs[i + 1], Math.max(xs[i - 1], m.x[0])));
-    }
-  }
-  return roots.sort((a, b) => a - b);
-}
-
-/** Per member: min over SO(3) of 1 + 2k u_pᵀψ(AR), sampled then refined. */
-function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: number): number[] {
-  const rng = makeRng(seed, 2);
-  const n = fam.members;
-  const N = Math.max(100, Math.floor(samples));
-  const pts = new Float64Array(4 * N);
-  const q = new Float64Array(4);
-  for (let s = 0; s < N; s++) {
-    qRandomUniform(q, rng);
-    pts.set(q, 4 * s);
-  }
-  const out: number[] = [];
-  const qs = new Float64Array(4), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3);
-  const vals = new Float64Array(N);
-  const order = new Uint32Array(N);
-  for (let p = 0; p < n; p++) {
-    for (let s = 0; s < N; s++) {
-      q[0] = pts[4 * s];
-      q[1] = pts[4 * s + 1];
-      q[2] = pts[4 * s + 2];
-      q[3] = pts[4 * s + 3];
-      vals[s] = warpJacobianDet(fam, q, p);
-      order[s] = s;
-    }
-    order.sort((a, b) => vals[a] - vals[b]);
-    let best = vals[order[0]];
-    // Refine the few lowest, well-separated samples (the minimum may be attained at ± pairs).
-    const seeds: Float64Array[] = [];
-    for (let r = 0; r < N && seeds.length < 6; r++) {
-      const c = order[r];
-      const cand = pts.subarray(4 * c, 4 * c + 4);
-      if (seeds.some((z) => qAngleBetween(z, cand) < 0.3)) continue;
-      seeds.push(Float64Array.from(cand));
-    }
-    for (const z of seeds) {
-      qs.set(z);
-      const m = nelderMead((x) => {
-        xv[0] = x[0];
-        xv[1] = x[1];
-        xv[2] = x[2];
-        qMultiply(qt, qs, qFromRotationVector(dq, xv));
-        return warpJacobianDet(fam, qt, p);
-      }, [0, 0, 0], 0.05, 1e-13, 1000);
-      best = Math.min(best, m.fx);
-    }
-    out.push(best);
-  }
-  return out;
 }
 
 function fmt(v: number): string {

@@ -19,16 +19,16 @@ export interface FlowSetMemberStats {
   member: number;
   /** Samples in this member's flow set (and beyond the angle cut). */
   inFlowSet: number;
-  /** Smallest ‖b_q‖ over those samples (Infinity when none). */
+  /** Smallest ‖b_q‖ over those samples (Infinity when none fell in the set). */
   minGradientNorm: number;
   /** Attitude [x, y, z, w] where the minimum was seen. */
   worstAttitude: [number, number, number, number];
   /**
    * The minimum after a local constrained search (Nelder–Mead with an extreme barrier on the flow
    * set and the angle cut) started from the worst sample: an estimate of the true infimum, which
-   * sampling alone only bounds from above. NaN when not refined.
+   * sampling alone only bounds from above. null when not refined (or no sample in the set).
    */
-  refinedMinGradientNorm: number;
+  refinedMinGradientNorm: number | null;
 }
 
 export interface FlowSetCheck {
@@ -91,7 +91,7 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   const refine = options.refine ?? true;
   for (let p = 0; p < n; p++) {
     const w0 = worst.subarray(4 * p, 4 * p + 4);
-    const refined = refine && count[p] > 0 ? refineMinimum(fam, ws, p, w0, delta, etaMax) : NaN;
+    const refined = refine && count[p] > 0 ? refineMinimum(fam, ws, p, w0, delta, etaMax) : null;
     perMember.push({
       member: p + 1,
       inFlowSet: count[p],
@@ -99,7 +99,7 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
       worstAttitude: [w0[0], w0[1], w0[2], w0[3]],
       refinedMinGradientNorm: refined,
     });
-    overall = Math.min(overall, minB[p], Number.isNaN(refined) ? Infinity : refined);
+    overall = Math.min(overall, minB[p], refined ?? Infinity);
   }
   return { samples, seed, delta, minAngleRad: minAngle, beyondAngle: beyond, perMember, minGradientNorm: overall };
 }

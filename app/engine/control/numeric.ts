@@ -216,3 +216,33 @@ function solveLinear3(M: number[][], b: number[]): number[] | null {
   }
   return x.every(Number.isFinite) ? x : null;
 }
+
+/**
+ * All roots of f on [lo, hi]: sign changes on an n-point scan refined by Brent, plus tangential
+ * zeros (|f| local minima that are ~0 without a sign change), refined by golden-section search.
+ */
+export function scalarRoots(f: (t: number) => number, lo: number, hi: number, n: number, xtol: number): number[] {
+  const roots: number[] = [];
+  const xs: number[] = [], fs: number[] = [];
+  for (let i = 0; i <= n; i++) {
+    const x = lo + ((hi - lo) * i) / n;
+    xs.push(x);
+    fs.push(f(x));
+  }
+  for (let i = 0; i < n; i++) {
+    if (fs[i] === 0) roots.push(xs[i]);
+    else if (fs[i] * fs[i + 1] < 0) {
+      const r = brentRoot(f, xs[i], xs[i + 1], xtol);
+      if (r.converged) roots.push(r.x);
+    }
+  }
+  if (fs[n] === 0) roots.push(xs[n]);
+  for (let i = 1; i < n; i++) {
+    const a = Math.abs(fs[i]);
+    if (a < Math.abs(fs[i - 1]) && a <= Math.abs(fs[i + 1]) && fs[i - 1] * fs[i + 1] > 0 && fs[i] * fs[i - 1] > 0) {
+      const m = nelderMead((x) => Math.abs(f(Math.min(xs[i + 1], Math.max(xs[i - 1], x[0])))), [xs[i]], (hi - lo) / n / 4, 1e-16, 400);
+      if (m.fx < 1e-12) roots.push(Math.min(xs[i + 1], Math.max(xs[i - 1], m.x[0])));
+    }
+  }
+  return roots.sort((a, b) => a - b);
+}
