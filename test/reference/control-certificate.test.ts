@@ -121,6 +121,13 @@ describe('refusals', () => {
     // 1 − k(trA − λ_1) = 1 − 0.25·5 = −0.25 for member 1
     expect(c.diffeomorphismMargins[0]).toBeCloseTo(-0.25, 6);
     expect(c.issues.map((i) => [i.path, i.rule])).toContainEqual(['ctl.warpGain', 'diffeomorphism']);
+    expect(c.deltaStar).toBe(0); // no gap is claimed for a refused family
+  });
+
+  it('a one-member family has no gap at all (μ ≡ 0)', () => {
+    const c = certifySynergistic({ family: makeWarpFamily(diag123, 0.15, [1, 0, 0]), delta: 0.2 }, { path: 'ctl', flowSetSamples: 0 });
+    expect(c.certified).toBe(false);
+    expect(c.issues.map((i) => i.rule)).toEqual(expect.arrayContaining(['min-members', 'zero-gap']));
   });
 
   it('makeController refuses an uncertified family with the field path, unless told to build anyway', () => {
