@@ -119,7 +119,45 @@ function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number,
   return out;
 }
 
+/**
+ * Certificates are pure functions of (family, δ, options) and cost ~0.2–1 s; the app re-plans on
+ * every edit, so the last few results are kept (keyed on every number that enters).
+ */
+const CACHE_SIZE = 16;
+const cache = new Map<string, CertificateResult>();
+
+function cacheKey(params: CertifyParams, options: CertifyOptions): string {
+  const f = params.family;
+  return JSON.stringify([Array.from(f.A), f.k, Array.from(f.directions), params.delta, options]);
+}
+
 export function certifySynergistic(params: CertifyParams, options: CertifyOptions = {}): CertificateResult {
+  const key = cacheKey(params, options);
+  const hit = cache.get(key);
+  if (hit) return structuredCloneResult(hit);
+  const result = certifyUncached(params, options);
+  cache.set(key, structuredCloneResult(result));
+  if (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+  return result;
+}
+
+/** Deep copy so callers may not alter the cached value (plain data: arrays, numbers incl. Infinity, strings). */
+function structuredCloneResult(r: CertificateResult): CertificateResult {
+  return deepCopy(r) as CertificateResult;
+}
+
+function deepCopy(v: unknown): unknown {
+  if (Array.isArray(v)) return v.map(deepCopy);
+  if (v instanceof Float64Array) return Float64Array.from(v);
+  if (v !== null && typeof v === 'object') {
+    const o: Record<string, unknown> = {};
+    for (const [k, x] of Object.entries(v)) o[k] = deepCopy(x);
+    return o;
+  }
+  return v;
+}
+
+function certifyUncached(params: CertifyParams, options: CertifyOptions): CertificateResult {
   const fam = params.family;
   const delta = params.delta;
   const base = options.path ? options.path + '.' : '';
