@@ -161,7 +161,7 @@ describe('SI conversion and the example vehicles', () => {
     expect(v.sensors.attitudeNoiseRad).toBeCloseTo((10 / 3600) * DEG, 18);
     expect(v.sensors.rateBiasRadPerS[0]).toBeCloseTo(0.0011 * DEG, 18);
     expect(v.controlPeriodS).toBe(0.1);
-    expect(v.wheelFriction!.coulombNm).toBeCloseTo(1e-5, 18);
+    expect(v.wheelFriction!.coulombNm).toBeCloseTo(1e-6, 18);
     expect(Array.from(r.initial.hWheelNms)).toEqual([0.0005, -0.0005, 0.0005, -0.0005]);
     expect(r.initial.omegaBody[1]).toBeCloseTo(-0.01 * DEG, 18);
     expect(r.planning.slewRateLimitRadPerS).toBeCloseTo(3 * DEG, 15);
