@@ -85,9 +85,9 @@ function SynergisticExtras({ base }: { base: string }) {
   const dirs = useScenarioValue(`${base}.warpDirections`) as unknown[] | undefined;
   return (
     <>
-      <VectorField path={`${base}.potentialWeights`} label="Potential weights λ" unit="—" names={['1', '2', '3']} />
+      <VectorField path={`${base}.potentialWeights`} label="Weights λ" unit="—" names={['1', '2', '3']} />
       <NumberField path={`${base}.warpGain`} label="Warp gain k" unit="rad" step={0.05} />
-      <NumberField path={`${base}.hysteresis`} label="Switching margin δ" unit="pot." step={0.005} />
+      <NumberField path={`${base}.hysteresis`} label="Switching δ" unit="—" step={0.005} title="Switching margin δ on the synergy gap, in potential units; must be below the certified gap δ*" />
       <label className="check">
         <input
           type="checkbox"
@@ -174,7 +174,7 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
       <SelectField label="Law" value={law} choices={CONTROL_LAWS.map((l) => ({ value: l, label: LAW_LABELS[l] ?? l }))} onChoose={chooseLaw} />
       <GainsEditor base={base} />
       {law === 'eigenaxis' && <NumberField path={`${base}.maxRateDegPerS`} label="Slew-rate limit" unit="deg/s" step={0.5} />}
-      {law === 'hysteretic' && <NumberField path={`${base}.hysteresis`} label="Hysteresis δ on h·η" unit="—" step={0.05} />}
+      {law === 'hysteretic' && <NumberField path={`${base}.hysteresis`} label="Hysteresis δ" unit="—" step={0.05} title="Hysteresis half-width δ on h·η (0 < δ < 1)" />}
       {law === 'synergistic' && (
         <>
           <SynergisticExtras base={base} />

@@ -156,7 +156,7 @@ export function ComparisonTable() {
               <th>metric</th>
               {rows.map((r) => (
                 <th key={r.key} className={`run-col ${selected[0] === r.key ? 'detail' : ''}`} data-run={r.key}>
-                  <label className="check" title={selected[0] === r.key ? 'Shown in detail plots' : 'Show in plots and 3D'}>
+                  <label className="check" title={`${r.label} (${r.mode}) — ${selected[0] === r.key ? 'shown in the detail plots' : 'tick to show in plots and 3D'}`}>
                     <input type="checkbox" checked={selected.includes(r.key)} onChange={(e) => toggle(r.key, e.target.checked)} data-testid={`show-${r.key}`} />
                     <span className="run-name">{r.label}</span>
                   </label>

@@ -14,6 +14,8 @@ function InertiaEditor() {
   const output = useAppState((s) => s.output);
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const axis = ['x', 'y', 'z'];
+  // A rule of the whole matrix (definiteness, triangle inequality) marks every entry.
+  const matrixInvalid = issues.some((i) => i.path === INERTIA_PATH);
   return (
     <div className="inertia" data-testid="inertia-editor">
       <div className="sub-head">
@@ -29,6 +31,7 @@ function InertiaEditor() {
               title={`J${axis[r]}${axis[c]}, kg·m²`}
               className={r === c ? 'diag' : 'offdiag'}
               mirrorPath={symmetric && r !== c ? `${INERTIA_PATH}[${c}][${r}]` : undefined}
+              groupInvalid={matrixInvalid}
               showIssues={false}
             />
           )),

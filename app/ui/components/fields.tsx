@@ -40,10 +40,12 @@ interface NumberInputProps {
   showIssues?: boolean;
   /** Also write the value here in the same undo step (symmetric matrix entries). */
   mirrorPath?: string;
+  /** Mark invalid for a problem of the enclosing group (e.g. the matrix is not positive definite). */
+  groupInvalid?: boolean;
 }
 
 /** A bare number input bound to `path`. */
-export function NumberInput({ path, ariaLabel, title, step, className, showIssues = true, mirrorPath }: NumberInputProps) {
+export function NumberInput({ path, ariaLabel, title, step, className, showIssues = true, mirrorPath, groupInvalid = false }: NumberInputProps) {
   const app = useApp();
   const value = useScenarioValue(path);
   const { errors, warnings } = useIssuesAt(path);
@@ -59,6 +61,7 @@ export function NumberInput({ path, ariaLabel, title, step, className, showIssue
   }, [value]);
 
   const text = draft ?? numberText(value);
+  const invalid = errors.length > 0 || groupInvalid;
   const write = (v: unknown) => {
     committed.current = v;
     if (mirrorPath) app.store.editMany([[path, v], [mirrorPath, v]], { coalesceKey: path });
@@ -67,12 +70,12 @@ export function NumberInput({ path, ariaLabel, title, step, className, showIssue
   return (
     <>
       <input
-        className={`num ${errors.length ? 'invalid' : ''} ${className ?? ''}`}
+        className={`num ${invalid ? 'invalid' : ''} ${className ?? ''}`}
         type="text"
         inputMode="decimal"
         spellCheck={false}
         aria-label={ariaLabel}
-        aria-invalid={errors.length > 0}
+        aria-invalid={invalid}
         title={title}
         data-path={path}
         value={text}
