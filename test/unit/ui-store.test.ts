@@ -120,6 +120,16 @@ describe('app store undo/redo', () => {
     expect(store.getState().undoStack).toHaveLength(2);
   });
 
+  it('sets several values as one step (a symmetric matrix entry and its mirror)', () => {
+    const store = createAppStore({ a: { x: 0 }, m: [[1, 0], [0, 1]] }, { validate, coalesceMs: 1000, now: () => 0 });
+    store.editMany([['m[0][1]', 0.5], ['m[1][0]', 0.5]]);
+    store.editMany([['m[0][1]', 0.25], ['m[1][0]', 0.25]]);
+    expect(getIn(store.getState().scenario, ['m'])).toEqual([[1, 0.25], [0.25, 1]]);
+    expect(store.getState().undoStack).toHaveLength(1);
+    store.undo();
+    expect(getIn(store.getState().scenario, ['m'])).toEqual([[1, 0], [0, 1]]);
+  });
+
   it('caps the history', () => {
     const store = createAppStore({ a: { x: 0 } }, { validate, maxUndo: 10, coalesceMs: -1 });
     for (let i = 1; i <= 25; i++) store.edit('a.x', i);
