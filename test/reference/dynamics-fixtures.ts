@@ -104,3 +104,35 @@ export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
     },
   };
 }
+
+/**
+ * The same zero-order hold with the held torques kept in the system's closure instead of the
+ * state (as a closed-loop controller keeps its output): state = the gyrostat's 11 values.
+ * `torqueAt(out, k)` gives the held torques of sample k (default: testWheelTorque at k·Ts).
+ */
+export function zohWheelSystemCompact(
+  g: Gyrostat, Ts: number, torqueAt: (out: Float64Array, k: number) => void = (out, k) => { testWheelTorque(out, k * Ts); },
+): HybridSystem {
+  const held = new Float64Array(g.n);
+  let nextK = 0;
+  return {
+    dim: g.dim,
+    flow(_t, x, dx) {
+      gyrostatDerivative(dx, x, g, held, ZERO3);
+    },
+    nextScheduledJump() {
+      return nextK * Ts;
+    },
+    jump(t) {
+      const k = Math.round(t / Ts);
+      torqueAt(held, k);
+      nextK = k + 1;
+      return null;
+    },
+    project(x) {
+      const s = 1 / Math.sqrt(x[0] * x[0] + x[1] * x[1] + x[2] * x[2] + x[3] * x[3]);
+      x[0] *= s; x[1] *= s; x[2] *= s; x[3] *= s;
+      return false;
+    },
+  };
+}

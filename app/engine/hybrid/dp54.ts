@@ -185,6 +185,14 @@ export class DormandPrince implements Stepper {
     this.fsal = false;
   }
 
+  adopt(t: number, buf: Float64Array): Float64Array {
+    const old = this.x;
+    this.x = buf;
+    this.t = t;
+    this.fsal = false;
+    return old;
+  }
+
   invalidate(): void {
     this.fsal = false;
   }

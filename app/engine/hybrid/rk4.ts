@@ -123,6 +123,17 @@ export class Rk4Stepper implements Stepper {
     this.fEndValid = false;
   }
 
+  adopt(t: number, buf: Float64Array): Float64Array {
+    const old = this.x;
+    this.xEnd = buf;
+    this.x = buf;
+    this.t = t;
+    this.kValid = false;
+    this.atEnd = false;
+    this.fEndValid = false;
+    return old;
+  }
+
   invalidate(): void {
     this.kValid = false;
     this.atEnd = false;

@@ -4,8 +4,9 @@
  * `locateCrossing` is the Illinois variant of regula falsi (Dowell & Jarratt, "A modified regula
  * falsi method for computing the root of an equation", BIT 11:168–174, 1971): the secant through
  * the bracket ends, halving the stale end's value when the same end is kept twice, which gives
- * superlinear convergence; a bisection is forced whenever two iterations failed to halve the
- * bracket, so the worst case is bisection's. It keeps g(a) < 0 ≤ g(b) and returns b, the point
+ * superlinear convergence; trial points stay tol/2 inside the bracket so that it collapses once
+ * one end has converged, and a bisection is forced whenever three iterations failed to halve the
+ * bracket, so the worst case is a small multiple of bisection's. It keeps g(a) < 0 ≤ g(b) and returns b, the point
  * inside the jump set D = {g ≥ 0}, once b − a ≤ tol.
  */
 
@@ -25,11 +26,22 @@ export function locateCrossing(
 ): RootResult {
   let iter = 0;
   let side = 0;
-  let w1 = Infinity, w2 = Infinity; // bracket widths one and two iterations back
+  // Bracket widths 1, 2 and 3 iterations back: bisect when three iterations did not halve it.
+  let w1 = Infinity, w2 = Infinity, w3 = Infinity;
+  const half = 0.5 * tol;
   while (b - a > tol && iter < maxIter) {
-    let c = b - (gb * (b - a)) / (gb - ga);
     const width = b - a;
-    if (!(c > a && c < b) || width > 0.5 * w2) c = a + 0.5 * width;
+    let c: number;
+    if (width > 0.5 * w3) {
+      c = a + 0.5 * width;
+    } else {
+      c = b - (gb * width) / (gb - ga);
+      // Keep the trial at least tol/2 inside the bracket: once one end has converged this puts
+      // the next point just across the root, and the bracket collapses to within tol.
+      if (!(c > a + half)) c = a + half;
+      else if (!(c < b - half)) c = b - half;
+    }
+    w3 = w2;
     w2 = w1;
     w1 = width;
     const gc = g(c);

@@ -66,14 +66,15 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
   const hasFlowSet = typeof sys.inFlowSet === 'function';
   const hasSched = typeof sys.nextScheduledJump === 'function';
   const preferJump = sys.both !== 'flow';
-  const project = typeof sys.project === 'function' ? (x: Float64Array) => sys.project!(x) : undefined;
+  const hasProject = typeof sys.project === 'function';
+  const project = hasProject ? sys.project!.bind(sys) : undefined;
   const rec = o.record;
-  const stopAsked = typeof sys.stop === 'function' ? () => sys.stop!() === true : () => false;
+  const hasStop = typeof sys.stop === 'function';
   const fastPath = rk4 !== null && !hasGuard && !hasFlowSet && (rec.every === 'scheduled' || rec.every === 'none');
 
   const arc = new ArcBuffer(n);
   const events: JumpEvent[] = [];
-  const xPlus = new Float64Array(n);
+  let xPlus: Float64Array = new Float64Array(n);
   const scratch = new Float64Array(n);
   const ring = new Float64Array(o.maxJumpsPerInstant);
   let ringCount = 0, ringIdx = 0;
@@ -132,7 +133,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
         break outer;
       }
       ring[ringIdx] = t;
-      ringIdx = (ringIdx + 1) % M;
+      if (++ringIdx === M) ringIdx = 0;
       ringCount++;
       const x = stepper.x;
       for (let i = 0; i < n; i++) xPlus[i] = x[i];
@@ -154,8 +155,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
         silentJumps++;
         if (cause === 'guard') armed = false;
       }
-      stepper.reset(t, xPlus);
-      if (project) project(stepper.x);
+      xPlus = stepper.adopt(t, xPlus);
       recordedCurrent = false;
       if (r || (cause === 'scheduled' && rec.every === 'scheduled')) record(t, j, stepper.x, true);
       if (cancelled) break outer;
@@ -174,7 +174,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
           break outer;
         }
       }
-      if (stopAsked()) {
+      if ((hasStop && sys.stop!() === true)) {
         stop('cancelled', `the system asked to stop after the jump at t = ${fmt(t)} s (j = ${j})`);
         break outer;
       }
@@ -213,7 +213,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
         stop('max-steps', `used maxSteps = ${o.maxSteps} step attempts by t = ${fmt(t)} s (j = ${j})`);
         break;
       }
-      if (stopAsked()) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
+      if ((hasStop && sys.stop!() === true)) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
       continue;
     }
     const tPrev = stepper.t;
@@ -291,7 +291,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
     t = stepper.t;
     recordedCurrent = false;
     let changed = false;
-    if (project && project(stepper.x)) {
+    if (hasProject && sys.project!(stepper.x)) {
       stepper.invalidate();
       changed = true;
     }
@@ -302,7 +302,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       if (g < 0) armed = true;
     }
     if (recordEnd) record(t, j, stepper.x, true);
-    if (stopAsked()) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
+    if ((hasStop && sys.stop!() === true)) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
   }
 
   if (status === null) stop('cancelled', `onRecord asked to stop at t = ${fmt(t)} s (j = ${j})`);

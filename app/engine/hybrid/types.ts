@@ -52,9 +52,10 @@ export interface HybridSystem {
    */
   nextScheduledJump?(t: number, x: Float64Array): number;
   /**
-   * Called after each accepted step (and after each jump), e.g. to renormalise a quaternion
-   * block. Return true when x was changed, so the integrator re-evaluates the derivative instead
-   * of reusing the last stage (first-same-as-last); false/undefined when nothing changed.
+   * Called after each accepted step, e.g. to renormalise a quaternion block against integration
+   * drift (jump maps are exact, so x⁺ is used as the jump map wrote it). Return true when x was
+   * changed, so the integrator re-evaluates the derivative instead of reusing the last stage
+   * (first-same-as-last); false/undefined when nothing changed.
    */
   project?(x: Float64Array): boolean | void;
   /** Rule when x ∈ C ∩ D: 'jump' (default, as methods §7) or 'flow'. */
@@ -129,6 +130,11 @@ export interface Stepper {
   rejected: number;
   /** Start again from (t, x): after a jump the derivative is unknown. Copies x. */
   reset(t: number, x: ArrayLike<number>): void;
+  /**
+   * Like reset, but takes `buf` (length n) as the new state without copying and hands back the
+   * previous state buffer for the caller to reuse.
+   */
+  adopt(t: number, buf: Float64Array): Float64Array;
   /**
    * Take one accepted step toward tStop, never past it; lands exactly on tStop (t = tStop) when
    * it reaches it. On failure t and x are unchanged.
