@@ -68,8 +68,8 @@ describe('attitude form conversion', () => {
     const spec = attitudeInForm(q, 'pointing', null) as { pointing: { inertialDirection: number[]; inertialSecondary: number[] } };
     // quaternion(w, x, y, z).rotateVector rotates v by q (v' = q v q*), independent of our code.
     const ref = new Quaternion(q[3], q[0], q[1], q[2]);
-    const z = ref.rotateVector([0, 0, 1]);
-    const x = ref.rotateVector([1, 0, 0]);
+    const z = ref.rotateVector([0, 0, 1]) as number[];
+    const x = ref.rotateVector([1, 0, 0]) as number[];
     spec.pointing.inertialDirection.forEach((v, i) => expect(v).toBeCloseTo(z[i], 11));
     spec.pointing.inertialSecondary.forEach((v, i) => expect(v).toBeCloseTo(x[i], 11));
   });

@@ -97,7 +97,7 @@ describe('plot series from a demo run', () => {
     const shifted = { ...b, trace: { ...b.trace, t: b.trace.t.map((x) => x + 0.05) } };
     const data = alignRuns([a, shifted], (r) => r.trace.errorAngle.subarray(0, r.trace.n), join);
     expect(data[0].length).toBe(a.trace.n + b.trace.n);
-    expect(data[1].filter((v) => v === null).length).toBe(b.trace.n);
+    expect(Array.from(data[1]).filter((v) => v === null).length).toBe(b.trace.n);
   });
 
   it('shows only the error plot, saying so, when no run is selected', () => {
