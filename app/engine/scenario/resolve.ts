@@ -16,6 +16,7 @@ import { ARCSEC, DEG, attitudeForm, resolveAttitude } from './attitude';
 import type { AttitudeForm, ControlLaw, Scenario } from './schema';
 import { validateScenario, wheelCount } from './validate';
 import { parseIsoUtcMs } from './utc';
+import { resolveStudy, type StudyDefinition } from '../study/definition';
 
 const MILLI = 1e-3;
 
@@ -111,6 +112,8 @@ export interface ResolvedScenario {
     rk4StepsPerSample: number;
   };
   keepOut: { label: string; bodyAxis: Vec3; inertialDirection: Vec3; halfAngleRad: number }[];
+  /** The robustness study block, SI with defaults (study/definition.ts); null when the file has none. */
+  study: StudyDefinition | null;
 }
 
 /** Unit copy of v; a zero or non-finite v is reported at `path` and gives +X (never NaN). */
@@ -228,6 +231,8 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
     halfAngleRad: k.halfAngleDeg * DEG,
   }));
 
+  const study = s.study ? resolveStudy(s.study, s, errors, warnings) : null;
+
   if (errors.length) return fail(errors, warnings);
 
   const resolved: ResolvedScenario = {
@@ -280,6 +285,7 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
       rk4StepsPerSample: s.simulation.rk4StepsPerSample,
     },
     keepOut,
+    study,
   };
   return ok(resolved, warnings);
 }

@@ -1,0 +1,89 @@
+/**
+ * Study exports: the per-case table (CSV, one row per case × controller, `#` header lines with the
+ * caution and the conventions) and the summary (JSON). Both list cases in case-index order, so
+ * the files are the same whatever the number of workers.
+ */
+import { CAUTION_TEXT, QUATERNION_CONVENTION } from '../export/caution';
+import type { CaseRecord } from './runCase';
+import { CHATTER_THRESHOLD_PER_S } from './runCase';
+import type { MapPoint, StudyInfo, StudySummary } from './summary';
+import { outcomeMap, sortRecords } from './summary';
+
+const DEG = 180 / Math.PI;
+const ARCSEC = 3600 * DEG;
+
+/** Shortest round-trip number text; null/undefined → empty cell. */
+function num(v: number | null | undefined): string {
+  if (v === null || v === undefined) return '';
+  if (!Number.isFinite(v)) return '';
+  return Object.is(v, -0) ? '0' : String(v);
+}
+
+function cell(s: string): string {
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export const CASE_COLUMNS = [
+  'case', 'controller', 'outcome', 'status', 'settle_time_s', 'unwound', 'long_way', 'chattered', 'rotation_travelled_deg',
+  'shortest_rotation_deg', 'extra_rotation_deg', 'jumps', 'chatter_per_s', 'peak_wheel_torque_fraction',
+  'peak_wheel_momentum_fraction', 'final_error_deg', 'end_s', 'initial_error_angle_deg', 'initial_error_axis_x',
+  'initial_error_axis_y', 'initial_error_axis_z', 'initial_eta', 'q0_x', 'q0_y', 'q0_z', 'q0_w', 'initial_rate_x_deg_per_s',
+  'initial_rate_y_deg_per_s', 'initial_rate_z_deg_per_s', 'inertia_rejections', 'failed_wheel', 'control_rate_hz', 'actuation',
+  'attitude_noise_arcsec', 'adversarial_eta', 'noise_seed', 'reason',
+] as const;
+
+export function casesCsv(info: StudyInfo, records: readonly CaseRecord[], summary: StudySummary): string {
+  const def = info.def;
+  const head = [
+    `CAUTION: ${CAUTION_TEXT}`,
+    `Slewsmith robustness study: scenario "${info.scenarioName}", seed ${def.seed}, ${summary.casesDone} of ${def.runs} cases${summary.incomplete ? ' (stopped early: only finished cases listed)' : ''}, mode ${def.mode}, ${def.durationS} s per case`,
+    'one row per case and controller; a case depends only on (seed, case); every controller flies the same case with the same noise seed',
+    `q0: ${QUATERNION_CONVENTION}; initial error = q_target* q0 in target axes (shortest rotation); initial_eta is its scalar part as flown`,
+    `outcome: failed | unflyable | unsettled | unwound | chattered (chatter ≥ ${CHATTER_THRESHOLD_PER_S} events/s) | settled, first that applies; fractions are of the case's own (degraded) wheel limits`,
+    'failed_wheel: 1-based index of the wheel lost in this case, 0 for none',
+  ];
+  const lines = head.map((h) => `# ${h}`);
+  lines.push(CASE_COLUMNS.join(','));
+  const map = outcomeMap(records);
+  sortRecords(records).forEach((rec, k) => {
+    const d = rec.draw;
+    rec.runs.forEach((r, ci) => {
+      const row = [
+        String(d.index), cell(r.controllerId), map[k].outcome[ci], r.status, num(r.settleTimeS), r.unwound ? '1' : '0', r.longWay ? '1' : '0',
+        r.chattered ? '1' : '0', num(r.rotationTravelledDeg), num(r.shortestRotationDeg), num(r.extraRotationDeg), String(r.jumps),
+        num(r.chatterPerS), num(r.peakWheelTorqueFraction), num(r.peakWheelMomentumFraction), num(r.finalErrorDeg), num(r.endS),
+        num(d.errorAngleRad * DEG), num(d.errorAxis[0]), num(d.errorAxis[1]), num(d.errorAxis[2]), num(d.errorEta),
+        num(d.q0[0]), num(d.q0[1]), num(d.q0[2]), num(d.q0[3]),
+        num(d.omega0RadPerS[0] * DEG), num(d.omega0RadPerS[1] * DEG), num(d.omega0RadPerS[2] * DEG),
+        String(d.inertiaRejections), String(d.failedWheel + 1), num(d.controlRateHz), d.actuation, num(d.attitudeNoiseRad * ARCSEC),
+        num(d.adversarialEta), String(d.noiseSeed), cell(r.reason),
+      ];
+      lines.push(row.join(','));
+    });
+  });
+  return lines.join('\n') + '\n';
+}
+
+/** The summary file: caution, definition, per-controller summary and the outcome map. */
+export function summaryJson(info: StudyInfo, summary: StudySummary, records: readonly CaseRecord[]): string {
+  const map: MapPoint[] = outcomeMap(records);
+  return (
+    JSON.stringify(
+      {
+        caution: CAUTION_TEXT,
+        format: 'slewsmith-study-summary',
+        version: 1,
+        conventions: {
+          quaternion: QUATERNION_CONVENTION,
+          units: 'angles deg, times s, rates deg/s; wheel figures are fractions of the case limits',
+          map: 'axis/angleDeg = initial error rotation q_target* q0 in target axes; eta0 its scalar part as flown; outcome and settleTimeS per controller in the order of summary.controllers',
+        },
+        study: info.def,
+        summary,
+        map,
+      },
+      null,
+      1,
+    ) + '\n'
+  );
+}

@@ -1,0 +1,29 @@
+/**
+ * Robustness study (seeded Monte Carlo) — public API for the CLI and the app.
+ *
+ *   runStudy(json, overrides?, { onProgress, shouldStop })   whole study in this thread
+ *   startStudyParallel(json, ports, opts)                     split over workers (any kind)
+ *   createStudyWorker(post)                                   the worker half of that
+ *   makeStudyContext / runStudyChunk                          build once, run chunks of cases
+ *   summarizeStudy / outcomeMap                               results from finished cases
+ *   casesCsv / summaryJson                                    exports
+ *   studyCaseScenario(json, overrides, index)                 one case as a normal scenario file
+ *   rerunStudyCase(json, overrides, index, controllerId?)     one case re-flown with full traces
+ */
+export type { StudyDefinition, AttitudeDispersion, ActuationMode } from './definition';
+export { defaultStudySpec, DEFAULT_DURATION_S, DEFAULT_SETTLED_FOR_S, DEFAULT_WORST_CASES } from './definition';
+export type { CaseDraw, NominalCase } from './sample';
+export { drawCase, haarAngleBetween, MAX_CASE_INDEX, MAX_INERTIA_ATTEMPTS, SLOT } from './sample';
+export type { StudyContext, StudyOverrides } from './context';
+export { makeStudyContext, effectiveStudyJson } from './context';
+export type { CaseRecord, CaseRun, CaseStatus } from './runCase';
+export { runCase, CHATTER_THRESHOLD_PER_S, TRACE_SAMPLES, UNWIND_ETA_MIN } from './runCase';
+export type { StudyProgress, StudyResult, RunStudyOptions } from './runner';
+export { runStudy, runStudyChunk, studyInfo, ProgressCounter } from './runner';
+export type { ControllerSummary, Histogram, MapPoint, Spread, StudyInfo, StudySummary, WorstCase } from './summary';
+export { summarizeStudy, outcomeMap, outcomeOf, sortRecords } from './summary';
+export { casesCsv, summaryJson, CASE_COLUMNS } from './export';
+export type { FromWorker, ToWorker, StudyWorkerPort, ParallelOptions, ParallelOutcome, ParallelStudy } from './parallel';
+export { createStudyWorker, startStudyParallel, inThreadPort } from './parallel';
+export type { StudyCaseRerun } from './caseScenario';
+export { studyCaseScenario, rerunStudyCase } from './caseScenario';

@@ -1,0 +1,218 @@
+/**
+ * A study split across workers, independent of what a worker is: the CLI uses Node worker
+ * threads, the renderer Web Workers; both wrap their worker in a `StudyWorkerPort` and run the
+ * same two halves written here.
+ *
+ * - Worker half (`createStudyWorker`): builds the study context once, then runs the chunks of
+ *   case indices it is sent and posts every finished case.
+ * - Coordinator half (`startStudyParallel`): hands out small chunks from one queue (a free worker
+ *   takes the next), gathers the cases and summarises them. Each case depends only on (seed,
+ *   index), and the summary sorts by index, so the result is the same for any number of workers.
+ *
+ * Cancellation: `cancel()` stops handing out chunks; with a SharedArrayBuffer flag the workers
+ * also abandon the case they are in (checked at every control sample). Finished cases are kept.
+ */
+import type { Issue, Result } from '../errors';
+import { fail, ok } from '../errors';
+import type { StudyContext, StudyOverrides } from './context';
+import { makeStudyContext } from './context';
+import type { CaseRecord } from './runCase';
+import type { StudyProgress, StudyResult } from './runner';
+import { ProgressCounter, runStudyChunk, studyInfo } from './runner';
+import type { StudyInfo } from './summary';
+import { summarizeStudy } from './summary';
+
+export type ToWorker =
+  | { type: 'init'; json: unknown; overrides: StudyOverrides; cancelFlag?: SharedArrayBuffer }
+  | { type: 'run'; chunk: number; indices: number[] }
+  | { type: 'close' };
+
+export type FromWorker =
+  | { type: 'ready'; info: StudyInfo; warnings: Issue[] }
+  | { type: 'invalid'; errors: Issue[]; warnings: Issue[] }
+  | { type: 'case'; record: CaseRecord }
+  | { type: 'chunk-done'; chunk: number; count: number }
+  | { type: 'crash'; message: string };
+
+/** The worker side: feed it every message the worker receives; it answers through `post`. */
+export function createStudyWorker(post: (msg: FromWorker) => void): (msg: ToWorker) => void {
+  let ctx: StudyContext | null = null;
+  let flag: Int32Array | null = null;
+  const stop = () => flag !== null && Atomics.load(flag, 0) !== 0;
+  return (msg) => {
+    try {
+      if (msg.type === 'init') {
+        flag = msg.cancelFlag ? new Int32Array(msg.cancelFlag) : null;
+        const c = makeStudyContext(msg.json, msg.overrides);
+        if (!c.ok) {
+          post({ type: 'invalid', errors: c.errors, warnings: c.warnings });
+          return;
+        }
+        ctx = c.value;
+        post({ type: 'ready', info: studyInfo(ctx), warnings: ctx.warnings });
+      } else if (msg.type === 'run') {
+        if (!ctx) throw new Error('study worker got cases before a valid init');
+        const count = runStudyChunk(ctx, msg.indices, (record) => post({ type: 'case', record }), stop);
+        post({ type: 'chunk-done', chunk: msg.chunk, count });
+      }
+    } catch (e) {
+      post({ type: 'crash', message: (e as Error)?.stack ?? String(e) });
+    }
+  };
+}
+
+/** What the coordinator needs of one worker. */
+export interface StudyWorkerPort {
+  post(msg: ToWorker): void;
+  /** Register the handlers once; `onError` for a worker that died. */
+  listen(onMessage: (msg: FromWorker) => void, onError: (message: string) => void): void;
+}
+
+export interface ParallelOptions {
+  overrides?: StudyOverrides;
+  /** Cases per chunk (default 4): small enough to balance the load, large enough to keep messages few. */
+  chunkSize?: number;
+  /** Shared flag (Int32 at 0, non-zero = stop) so cancel() also interrupts running cases. */
+  cancelFlag?: SharedArrayBuffer;
+  onReady?: (info: StudyInfo, warnings: Issue[]) => void;
+  onProgress?: (p: StudyProgress) => void;
+}
+
+export interface ParallelOutcome extends StudyResult {
+  cancelled: boolean;
+}
+
+export interface ParallelStudy {
+  result: Promise<Result<ParallelOutcome>>;
+  cancel(): void;
+}
+
+export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPort[], opts: ParallelOptions = {}): ParallelStudy {
+  const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? 4));
+  const flag = opts.cancelFlag ? new Int32Array(opts.cancelFlag) : null;
+  let cancelled = false;
+  let settle: ((r: Result<ParallelOutcome>) => void) | null = null;
+  const result = new Promise<Result<ParallelOutcome>>((resolve) => (settle = resolve));
+  const finish = (r: Result<ParallelOutcome>) => {
+    const s = settle;
+    settle = null;
+    for (const p of ports) p.post({ type: 'close' });
+    s?.(r);
+  };
+
+  if (ports.length === 0) {
+    finish(fail([{ path: 'workers', rule: 'min', message: 'a parallel study needs at least one worker' }]));
+    return { result, cancel() {} };
+  }
+
+  let info: StudyInfo | null = null;
+  let warnings: Issue[] = [];
+  const alive = ports.map(() => true);
+  const busy: (number | null)[] = ports.map(() => null);
+  const records: CaseRecord[] = [];
+  let queue: number[][] = [];
+  const chunks: number[][] = [];
+  let progress: ProgressCounter | null = null;
+
+  const done = () => {
+    if (!info || !settle) return;
+    const s = summarizeStudy(info, records);
+    finish(ok({ info, summary: s, records: [...records].sort((a, b) => a.draw.index - b.draw.index), warnings, cancelled }, warnings));
+  };
+
+  const dispatch = () => {
+    ports.forEach((p, w) => {
+      if (!alive[w] || busy[w] !== null || cancelled || queue.length === 0) return;
+      const chunk = chunks.indexOf(queue[0]);
+      queue = queue.slice(1);
+      busy[w] = chunk;
+      p.post({ type: 'run', chunk, indices: chunks[chunk] });
+    });
+    if (busy.every((b) => b === null) && (queue.length === 0 || cancelled || !alive.some(Boolean))) {
+      if (!alive.some(Boolean) && queue.length > 0 && !cancelled) {
+        const s = settle;
+        settle = null;
+        s?.(fail([{ path: 'workers', rule: 'crashed', message: 'every study worker stopped before the study finished' }], warnings));
+        return;
+      }
+      done();
+    }
+  };
+
+  ports.forEach((p, w) => {
+    p.listen(
+      (msg) => {
+        if (!settle) return;
+        if (msg.type === 'invalid') {
+          finish(fail(msg.errors, msg.warnings));
+        } else if (msg.type === 'ready') {
+          if (!info) {
+            info = msg.info;
+            warnings = msg.warnings;
+            progress = new ProgressCounter(info.def.runs);
+            const n = info.def.runs;
+            for (let s = 0; s < n; s += chunkSize) chunks.push(Array.from({ length: Math.min(chunkSize, n - s) }, (_, k) => s + k));
+            queue = [...chunks];
+            opts.onReady?.(info, warnings);
+          }
+          dispatch();
+        } else if (msg.type === 'case') {
+          records.push(msg.record);
+          progress?.add(msg.record);
+          if (progress) opts.onProgress?.(progress.snapshot());
+        } else if (msg.type === 'chunk-done') {
+          busy[w] = null;
+          dispatch();
+        } else if (msg.type === 'crash') {
+          onDead(w, msg.message);
+        }
+      },
+      (message) => onDead(w, message),
+    );
+  });
+
+  function onDead(w: number, message: string) {
+    if (!alive[w]) return;
+    alive[w] = false;
+    warnings = [...warnings, { path: 'workers', rule: 'crashed', message: `study worker ${w + 1} stopped: ${message.split('\n')[0]}` }];
+    const lost = busy[w];
+    busy[w] = null;
+    if (lost !== null) {
+      // Re-run the unfinished part of its chunk elsewhere (finished cases of it are kept).
+      const have = new Set(records.map((r) => r.draw.index));
+      const rest = chunks[lost].filter((i) => !have.has(i));
+      if (rest.length) {
+        chunks.push(rest);
+        queue = [rest, ...queue];
+      }
+    }
+    dispatch();
+  }
+
+  for (const p of ports) p.post({ type: 'init', json, overrides: opts.overrides ?? {}, cancelFlag: opts.cancelFlag });
+
+  return {
+    result,
+    cancel() {
+      cancelled = true;
+      if (flag) Atomics.store(flag, 0, 1);
+      dispatch();
+    },
+  };
+}
+
+/** A worker port that runs the worker half in this thread (tests; environments without workers). */
+export function inThreadPort(): StudyWorkerPort {
+  let onMsg: ((m: FromWorker) => void) | null = null;
+  const handle = createStudyWorker((m) => onMsg?.(m));
+  return {
+    post: (m) => {
+      if (m.type === 'close') return;
+      // Defer like a real worker would, so the coordinator's bookkeeping sees messages in order.
+      void Promise.resolve().then(() => handle(m));
+    },
+    listen: (m) => {
+      onMsg = m;
+    },
+  };
+}
