@@ -65,7 +65,8 @@ export function AttitudeEditor({ path, chainIndex, allowRelative }: { path: stri
       {form === 'euler' && (
         <>
           <SelectField
-            label="Sequence (intrinsic)"
+            label="Sequence"
+            title="Intrinsic rotation sequence: each rotation about an axis of the already rotated frame"
             value={String((attitude?.euler as Obj | undefined)?.sequence ?? 'ZYX')}
             choices={EULER_SEQUENCES.map((s) => ({ value: s, label: s }))}
             // Keep the attitude: rewrite the angles for the new sequence.

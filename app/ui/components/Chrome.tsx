@@ -1,4 +1,5 @@
 /** The caution strip, the top bar (file commands, undo/redo, document name) and notices. */
+import { useState } from 'react';
 import { useApp, useAppState } from '../context';
 import { useStoreSlice } from '../store/hooks';
 import { COMMAND_ACCELERATORS, type MenuCommand } from '../../bridge/commands';
@@ -14,6 +15,59 @@ export function CautionStrip() {
 const isMac = typeof navigator !== 'undefined' && /Mac|iPhone|iPad/.test(navigator.platform);
 function shortcut(c: MenuCommand): string {
   return COMMAND_ACCELERATORS[c].replace('CmdOrCtrl', isMac ? '⌘' : 'Ctrl');
+}
+
+const OTHER_KEYS: [string, string][] = [
+  ['Space', 'Play / pause'],
+  ['← / →', 'Previous / next sample'],
+  ['Shift + ← / →', 'Previous / next logic jump'],
+  ['Home / End', 'Start / end of the run'],
+  ['Click on a plot', 'Move playback to that time'],
+  ['Drag on a plot', 'Zoom time on every plot (double-click resets)'],
+];
+
+const COMMAND_NAMES: [MenuCommand, string][] = [
+  ['new', 'New scenario'],
+  ['open', 'Open…'],
+  ['save', 'Save'],
+  ['save-as', 'Save as…'],
+  ['export', 'Export a run…'],
+  ['undo', 'Undo'],
+  ['redo', 'Redo'],
+  ['run', 'Run now'],
+];
+
+function Shortcuts({ onClose }: { onClose: () => void }) {
+  return (
+    <div className="shortcuts" role="dialog" aria-label="Keyboard shortcuts" data-testid="shortcuts">
+      <div className="panel-head">
+        Keyboard shortcuts
+        <button className="small push-right" onClick={onClose}>
+          close
+        </button>
+      </div>
+      <table>
+        <tbody>
+          {COMMAND_NAMES.map(([c, label]) => (
+            <tr key={c}>
+              <td>
+                <kbd>{shortcut(c)}</kbd>
+              </td>
+              <td>{label}</td>
+            </tr>
+          ))}
+          {OTHER_KEYS.map(([k, label]) => (
+            <tr key={k}>
+              <td>
+                <kbd>{k}</kbd>
+              </td>
+              <td>{label}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
 }
 
 function CmdButton({ c, label, disabled }: { c: MenuCommand; label: string; disabled?: boolean }) {
@@ -33,6 +87,7 @@ export function TopBar() {
   const redo = useAppState((s) => s.redoStack[s.redoStack.length - 1]);
   const name = useAppState((s) => (s.scenario as { name?: unknown } | null)?.name);
   const notice = useStoreSlice(app.ui, (u) => u.notice);
+  const [keys, setKeys] = useState(false);
   return (
     <header className="topbar">
       <h1 className="brand">Slewsmith</h1>
@@ -50,7 +105,12 @@ export function TopBar() {
         </button>
         <span className="sep" />
         <CmdButton c="export" label="Export…" />
+        <span className="sep" />
+        <button className="toolbar-button" onClick={() => setKeys(!keys)} title="Keyboard shortcuts" data-testid="show-shortcuts">
+          Keys
+        </button>
       </nav>
+      {keys && <Shortcuts onClose={() => setKeys(false)} />}
       <span className="doc" data-testid="document-name">
         {typeof name === 'string' ? name : ''} <span className="muted">— {fileName}</span>
         {dirty && <span className="dirty" title="Unsaved changes" data-testid="dirty-marker"> ●</span>}

@@ -3,7 +3,7 @@
  * the comparison table (metrics as rows, runs as columns, the engine's best value marked). The
  * run checkboxes in the table header choose which runs the plots and the 3D view show.
  */
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
 import type { ComparisonRow, PipelineOutput } from '../../engine/pipeline/types';
 import { useApp, useAllIssues, useAppState } from '../context';
 import { fmt, pct } from '../format';
@@ -15,6 +15,7 @@ export function RunStatus() {
   const excluded = useAppState((s) => s.excludedControllerIds);
   const blockers = useMemo(() => app.blockers(), [app, issues, excluded, pipeline]);
   const blocked = blockers.length > 0;
+  const warnings = useAppState((s) => (s.outputScenario === s.scenario ? s.output?.warnings : undefined));
   const label =
     pipeline.status === 'waiting' || pipeline.status === 'running'
       ? 'Running…'
@@ -34,6 +35,20 @@ export function RunStatus() {
         <span className={`status-text ${pipeline.status}`}>{label}</span>
       </div>
       {pipeline.status === 'failed' && <div className="issue error">{pipeline.message}</div>}
+      {!blocked && warnings && warnings.length > 0 && (
+        <details className="run-warnings" data-testid="run-warnings">
+          <summary>
+            {warnings.length} warning{warnings.length === 1 ? '' : 's'} from the engine
+          </summary>
+          <ul>
+            {warnings.map((i) => (
+              <li key={`${i.path}|${i.rule}`} data-rule={i.rule}>
+                <code>{i.path || '(file)'}</code> {i.message}
+              </li>
+            ))}
+          </ul>
+        </details>
+      )}
       {blocked && (
         <div className="blockers" data-testid="blockers">
           <div className="blockers-head">Running is disabled until these are fixed:</div>
@@ -135,6 +150,7 @@ const METRIC_HELP: Partial<Record<keyof ComparisonRow, string>> = {
 
 export function ComparisonTable() {
   const app = useApp();
+  const [wide, setWide] = useState(false);
   const output: PipelineOutput | null = useAppState((s) => s.output);
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const selected = useAppState((s) => s.selectedRunKeys);
@@ -145,9 +161,12 @@ export function ComparisonTable() {
     app.store.selectRuns(next);
   };
   return (
-    <div className={`comparison ${current ? '' : 'stale'}`} data-testid="comparison">
+    <div className={`comparison ${current ? '' : 'stale'} ${wide ? 'wide' : ''}`} data-testid="comparison">
       <div className="panel-head">
         Comparison <span className="muted">· ★ best per metric · tick runs to plot</span>
+        <button className="small push-right" onClick={() => setWide(!wide)} title={wide ? 'Back to the side column' : 'Show every run side by side over the plots'} data-testid="comparison-wide">
+          {wide ? 'narrow' : 'widen'}
+        </button>
       </div>
       <div className="table-scroll">
         <table className="data-table comparison-table">

@@ -120,8 +120,8 @@ export function VehiclePanel() {
       <WheelsEditor />
       <FrictionEditor />
       <div className="sub-head">Sensors and control</div>
-      <NumberField path="vehicle.sensors.attitudeNoiseArcsec" label="Attitude noise (1σ)" unit="arcsec" />
-      <NumberField path="vehicle.sensors.rateNoiseDegPerS" label="Rate noise (1σ)" unit="deg/s" />
+      <NumberField path="vehicle.sensors.attitudeNoiseArcsec" label="Attitude noise σ" unit="arcsec" title="Attitude measurement noise, 1σ per axis" />
+      <NumberField path="vehicle.sensors.rateNoiseDegPerS" label="Rate noise σ" unit="deg/s" title="Rate measurement noise, 1σ per axis per sample" />
       <VectorField path="vehicle.sensors.rateBiasDegPerS" label="Rate bias" unit="deg/s" />
       <NumberField path="vehicle.controlRateHz" label="Control rate" unit="Hz" step={1} />
       <ActuationEditor />
