@@ -69,14 +69,13 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
 
   // Rate error per sample: ω − R_eᵀ ω_ref ≈ ω − ω_ref near the reference; use the plain difference
   // of body components, which equals the body-frame rate error when the attitude error is small
-  // (where settling is judged).
+  // (where settling is judged). (Math.sqrt of a sum rather than Math.hypot: hypot is not inlined
+  // and returns a boxed number per call.)
+  const w = trace.omega, wr = trace.omegaRef;
   const rateErr = new Float64Array(n);
   for (let k = 0; k < n; k++) {
-    rateErr[k] = Math.hypot(
-      trace.omega[3 * k] - trace.omegaRef[3 * k],
-      trace.omega[3 * k + 1] - trace.omegaRef[3 * k + 1],
-      trace.omega[3 * k + 2] - trace.omegaRef[3 * k + 2],
-    );
+    const dx = w[3 * k] - wr[3 * k], dy = w[3 * k + 1] - wr[3 * k + 1], dz = w[3 * k + 2] - wr[3 * k + 2];
+    rateErr[k] = Math.sqrt(dx * dx + dy * dy + dz * dz);
   }
 
   // Settle time: scan backwards for the last sample outside the thresholds.
@@ -92,11 +91,9 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
 
   // Rotation travelled per segment.
   const segments: SegmentMetrics[] = [];
-  let k0 = 0;
-  let travelled = 0;
   const qStart = new Float64Array(4);
   const qTgt = new Float64Array(4);
-  const closeSegment = (kEnd: number) => {
+  const closeSegment = (k0: number, kEnd: number, travelled: number) => {
     const s = trace.segment[k0];
     for (let i = 0; i < 4; i++) {
       qStart[i] = trace.q[4 * k0 + i];
@@ -105,32 +102,34 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
     const shortest = qAngleBetween(qStart, qTgt);
     segments.push({ segment: s, tStart: t[k0], tEnd: t[kEnd], shortestRad: shortest, travelledRad: travelled, unwound: travelled - shortest > Math.PI });
   };
+  let k0 = 0;
+  let travelled = 0;
+  let wPrev = Math.sqrt(w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
   for (let k = 1; k < n; k++) {
-    const w0 = Math.hypot(trace.omega[3 * k - 3], trace.omega[3 * k - 2], trace.omega[3 * k - 1]);
-    const w1 = Math.hypot(trace.omega[3 * k], trace.omega[3 * k + 1], trace.omega[3 * k + 2]);
+    const wx = w[3 * k], wy = w[3 * k + 1], wz = w[3 * k + 2];
+    const wk = Math.sqrt(wx * wx + wy * wy + wz * wz);
     if (trace.segment[k] !== trace.segment[k0]) {
-      closeSegment(k - 1);
+      closeSegment(k0, k - 1, travelled);
       k0 = k;
       travelled = 0;
-      continue;
-    }
-    travelled += 0.5 * (w0 + w1) * (t[k] - t[k - 1]);
+    } else travelled += 0.5 * (wPrev + wk) * (t[k] - t[k - 1]);
+    wPrev = wk;
   }
-  closeSegment(n - 1);
+  closeSegment(k0, n - 1, travelled);
 
   // Peaks, effort, torque reversals.
-  let peakTau = 0, peakH = 0, effort = 0, peakBody = 0;
+  const tb = trace.torqueBody, tc = trace.torqueCmdBody;
+  let peakTau = 0, peakH = 0, effort = 0, peakBody = 0, tbPrev = 0;
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < N; i++) {
       peakTau = Math.max(peakTau, Math.abs(trace.wheelTorque[N * k + i]) / o.maxTorqueNm[i]);
       peakH = Math.max(peakH, Math.abs(trace.hWheel[N * k + i]) / o.maxMomentumNms[i]);
     }
-    const tb = Math.hypot(trace.torqueBody[3 * k], trace.torqueBody[3 * k + 1], trace.torqueBody[3 * k + 2]);
-    peakBody = Math.max(peakBody, Math.abs(trace.torqueCmdBody[3 * k]), Math.abs(trace.torqueCmdBody[3 * k + 1]), Math.abs(trace.torqueCmdBody[3 * k + 2]));
-    if (k > 0) {
-      const tbPrev = Math.hypot(trace.torqueBody[3 * k - 3], trace.torqueBody[3 * k - 2], trace.torqueBody[3 * k - 1]);
-      effort += 0.5 * (tb + tbPrev) * (t[k] - t[k - 1]);
-    }
+    const bx = tb[3 * k], by = tb[3 * k + 1], bz = tb[3 * k + 2];
+    const tbk = Math.sqrt(bx * bx + by * by + bz * bz);
+    peakBody = Math.max(peakBody, Math.abs(tc[3 * k]), Math.abs(tc[3 * k + 1]), Math.abs(tc[3 * k + 2]));
+    if (k > 0) effort += 0.5 * (tbk + tbPrev) * (t[k] - t[k - 1]);
+    tbPrev = tbk;
   }
   const floor = 0.02 * peakBody;
   const eventTimes: number[] = [];

@@ -53,16 +53,33 @@ export interface TraceSample {
   lyapunov: number;
 }
 
+/**
+ * A RunTrace with room for `capacity` samples (n = 0). Built as ONE object literal so every trace
+ * has the same fast hidden class: adding the channels one by one with computed keys turned the
+ * object into a dictionary (slow property lookups in push, metrics, exports and views, and
+ * optimized code thrown away between runs).
+ */
+function allocateTrace(nWheels: number, capacity: number): RunTrace {
+  const c = capacity, N = nWheels;
+  return {
+    n: 0, nWheels: N,
+    t: new Float64Array(c), j: new Int32Array(c), segment: new Int32Array(c),
+    q: new Float64Array(4 * c), omega: new Float64Array(3 * c), hWheel: new Float64Array(N * c),
+    qRef: new Float64Array(4 * c), omegaRef: new Float64Array(3 * c),
+    torqueCmdBody: new Float64Array(3 * c), torqueBody: new Float64Array(3 * c),
+    wheelTorqueCmd: new Float64Array(N * c), wheelTorque: new Float64Array(N * c),
+    logic: new Float64Array(c), errorAngle: new Float64Array(c), potential: new Float64Array(c),
+    potentialMin: new Float64Array(c), gap: new Float64Array(c), lyapunov: new Float64Array(c),
+  };
+}
+
 export class TraceBuilder {
   private cap: number;
   readonly trace: RunTrace;
 
   constructor(nWheels: number, initialCapacity = 1024) {
     this.cap = Math.max(16, initialCapacity);
-    const c = this.cap;
-    const tr: Partial<RunTrace> = { n: 0, nWheels, j: new Int32Array(c), segment: new Int32Array(c) };
-    for (const name of TRACE_CHANNELS) (tr as Record<string, unknown>)[name] = new Float64Array(c * channelWidth(name, nWheels));
-    this.trace = tr as RunTrace;
+    this.trace = allocateTrace(nWheels, this.cap);
   }
 
   private grow(): void {
@@ -129,19 +146,25 @@ export class TraceBuilder {
 /** Keep every k-th sample (and always the last), e.g. for exports at a lower rate or study traces. */
 export function decimateTrace(tr: RunTrace, every: number): RunTrace {
   const step = Math.max(1, Math.floor(every));
-  const idx: number[] = [];
-  for (let k = 0; k < tr.n; k += step) idx.push(k);
-  if (tr.n > 0 && idx[idx.length - 1] !== tr.n - 1) idx.push(tr.n - 1);
-  const out: Partial<RunTrace> = { n: idx.length, nWheels: tr.nWheels, j: new Int32Array(idx.length), segment: new Int32Array(idx.length) };
-  idx.forEach((k, m) => {
-    out.j![m] = tr.j[k];
-    out.segment![m] = tr.segment[k];
-  });
+  const n = tr.n;
+  const m = n === 0 ? 0 : Math.floor((n - 1) / step) + 1 + ((n - 1) % step === 0 ? 0 : 1);
+  const idx = new Int32Array(m);
+  for (let i = 0, k = 0; k < n; k += step) idx[i++] = k;
+  if (m > 0) idx[m - 1] = n - 1;
+  const out = allocateTrace(tr.nWheels, m);
+  out.n = m;
+  for (let i = 0; i < m; i++) {
+    out.j[i] = tr.j[idx[i]];
+    out.segment[i] = tr.segment[idx[i]];
+  }
   for (const name of TRACE_CHANNELS) {
     const w = channelWidth(name, tr.nWheels);
-    const a = new Float64Array(idx.length * w);
-    idx.forEach((k, m) => a.set(tr[name].subarray(k * w, k * w + w), m * w));
-    (out as Record<string, unknown>)[name] = a;
+    const src = tr[name];
+    const a = out[name];
+    for (let i = 0; i < m; i++) {
+      const o = idx[i] * w;
+      for (let c = 0; c < w; c++) a[i * w + c] = src[o + c];
+    }
   }
-  return out as RunTrace;
+  return out;
 }
