@@ -75,23 +75,42 @@ export function prepareScenario(json: unknown, only?: readonly string[]): Result
   return ok({ scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, warnings }, warnings);
 }
 
-/** Profiled mode: the planned eigenaxis reference. */
-export function profiledReference(plan: SequencePlan): ReferenceSource {
-  return { at: (t, q, w, wd) => Math.max(0, evaluateReference(plan, t, q, w, wd)) };
+/** Slew start times of the flyable timeline (where the reference changes segment). */
+function slewStarts(plan: SequencePlan): Float64Array {
+  return Float64Array.from(plan.timeline, (e) => e.slewStartS);
 }
 
-/** Direct mode: the target of the active segment, at rest (no profile), switched at the planned slew starts. */
+/** Profiled mode: the planned eigenaxis reference. */
+export function profiledReference(plan: SequencePlan): ReferenceSource {
+  return { at: (t, q, w, wd) => Math.max(0, evaluateReference(plan, t, q, w, wd)), switchTimes: slewStarts(plan) };
+}
+
+/**
+ * Direct mode: the target of the active segment, at rest (no profile), switched at the planned
+ * slew starts. Target quaternions are copied into one flat table up front, so a call allocates
+ * nothing (it runs at every sample, and at every flow evaluation in the ideal mode).
+ */
 export function directReference(plan: SequencePlan, targets: Float64Array, qInitial: ArrayLike<number>): ReferenceSource {
-  const starts = plan.timeline.map((e) => e.slewStartS);
+  const starts = slewStarts(plan);
+  const m = starts.length;
+  const table = new Float64Array(4 * (m + 1)); // entry 0: the initial attitude, k + 1: segment k's target
+  const segOf = new Int32Array(m + 1);
+  for (let i = 0; i < 4; i++) table[i] = qInitial[i];
+  for (let k = 0; k < m; k++) {
+    const tg = plan.timeline[k].target;
+    for (let i = 0; i < 4; i++) table[4 * (k + 1) + i] = targets[4 * tg + i];
+    segOf[k + 1] = Math.max(0, tg);
+  }
   return {
+    switchTimes: starts,
     at: (t, q, w, wd) => {
-      let k = -1;
-      for (let i = 0; i < starts.length; i++) if (t >= starts[i] - 1e-12) k = i;
-      const src = k < 0 ? qInitial : targets.subarray(4 * plan.timeline[k].target, 4 * plan.timeline[k].target + 4);
-      q[0] = src[0]; q[1] = src[1]; q[2] = src[2]; q[3] = src[3];
+      let k = 0;
+      while (k < m && t >= starts[k] - 1e-12) k++;
+      const o = 4 * k;
+      q[0] = table[o]; q[1] = table[o + 1]; q[2] = table[o + 2]; q[3] = table[o + 3];
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
-      return Math.max(0, k < 0 ? 0 : plan.timeline[k].target);
+      return segOf[k];
     },
   };
 }

@@ -12,6 +12,15 @@
  *
  * The run's jump counter j counts LOGIC jumps only (sample instants are scheduled timer jumps of
  * the simulator, not shown as j).
+ *
+ * Per-segment latching (`beginSegment`, e.g. the eigenaxis law's limits) happens only at jumps:
+ * at the first sample of a new segment in sampled mode, from the MEASURED state the controller
+ * sees; in the ideal mode at the reference's switch time (a scheduled jump when the reference
+ * lists its `switchTimes`), from the true state. Flow-map evaluations never latch, so an RK4 stage
+ * cannot latch from an intermediate stage state.
+ *
+ * Nothing here allocates per sample or per flow evaluation (scratch per run; doubles that change
+ * per sample live in a Float64Array rather than in closure variables, which V8 would box).
  */
 import type { AttitudeController, ControlDiagnostics, ControlInput } from '../control/types';
 import type { Gyrostat } from '../body/gyrostat';
@@ -27,13 +36,19 @@ import { qAngleBetween, qNormalize } from '../math/rotation';
 import { makeRng } from '../math/prng';
 import type { SensorModel } from './sensors';
 import { measure } from './sensors';
-import { TraceBuilder } from './trace';
+import { TraceBuilder, type TraceSample } from './trace';
 import type { JumpEvent, RunOutcome, RunTrace } from './types';
 
 /** Where the controller's reference comes from: a planned profile or a fixed target per segment. */
 export interface ReferenceSource {
   /** Writes the reference at time t; returns the active segment index. */
   at(t: number, qOut: Float64Array, omegaOut: Float64Array, omegaDotOut: Float64Array): number;
+  /**
+   * Times where the active segment changes (ascending, s), when known. In continuous-ideal mode
+   * the run lands on each one (so a piecewise-constant reference is not smeared across an RK4
+   * step and the law latches its per-segment data at the exact instant). Not used when sampled.
+   */
+  switchTimes?: ArrayLike<number>;
 }
 
 export type Actuation =
@@ -78,12 +93,18 @@ export interface ClosedLoopResult {
   outcome: RunOutcome;
 }
 
+/** Slots of the per-run scalar state array (see the header on boxing). */
+const SETTLED_SINCE = 0;
+const SWITCH_T = 1;
+const SWITCH_LEFT = 2;
+
 export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const N = cfg.wheels.n;
   const dim = 7 + N;
   const Ts = 1 / cfg.controlRateHz;
   const sampled = cfg.timing === 'sampled';
   const ctrl = cfg.controller;
+  const ref = cfg.reference;
   const rng = makeRng(cfg.seed, cfg.stream ?? 0);
   const builder = new TraceBuilder(N, Math.ceil(cfg.tEnd / Ts) + 8);
   const jumps: JumpEvent[] = [];
@@ -91,10 +112,8 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   // Scratch, allocated once per run.
   const qRef = new Float64Array(4), wRef = new Float64Array(3), wdRef = new Float64Array(3);
   const qTrue = new Float64Array(4), wTrue = new Float64Array(3), hTrue = new Float64Array(N);
-  const input: ControlInput = {
-    q: new Float64Array(4), omega: new Float64Array(3), hWheel: new Float64Array(N),
-    qRef, omegaRef: wRef, omegaDotRef: wdRef,
-  };
+  const qMeas = new Float64Array(4), wMeas = new Float64Array(3), hMeas = new Float64Array(N);
+  const input: ControlInput = { q: qMeas, omega: wMeas, hWheel: hMeas, qRef, omegaRef: wRef, omegaDotRef: wdRef };
   const trueInput: ControlInput = { q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef, omegaDotRef: wdRef };
   const diag: ControlDiagnostics = { errorAngle: 0, eta: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0 };
   const tauCmd = new Float64Array(3);
@@ -105,15 +124,28 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const pulseEnd = new Float64Array(N);
   const zero3 = new Float64Array(3);
   const limitInfo = createLimitInfo();
+  // One sample record, refilled at every sample (its arrays are the scratch above).
+  const rec: TraceSample = {
+    t: 0, j: 0, segment: 0, q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
+    torqueCmdBody: tauCmd, torqueBody: tauBody, wheelTorqueCmd: wheelCmd, wheelTorque: wheelHeld,
+    logic: 0, errorAngle: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0,
+  };
+  const sc = new Float64Array(3);
+  sc[SETTLED_SINCE] = -1;
 
   let logic = NaN;
   let logicJumps = 0;
   let segment = -1;
   let sampleIndex = 0;
-  let tSampleStart = 0;
-  let settledSince = -1;
   let stopRequested = false;
   const maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
+  const pwm = cfg.actuation.mode === 'pwm';
+  const quantum = cfg.actuation.mode === 'quantized' ? cfg.actuation.quantumNm : 0;
+  const settleFor = cfg.stopWhenSettledForS ?? 0;
+  const settleAngle = cfg.settleAngleRad ?? 0;
+  const settleRate = cfg.settleRateRadPerS ?? 0;
+  const switches = !sampled && ref.switchTimes ? ref.switchTimes : null;
+  let switchIdx = 0;
 
   const unpack = (x: Float64Array) => {
     qTrue[0] = x[0]; qTrue[1] = x[1]; qTrue[2] = x[2]; qTrue[3] = x[3];
@@ -121,17 +153,39 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     for (let i = 0; i < N; i++) hTrue[i] = x[7 + i];
   };
 
-  /** Reference at t; on a segment change let the law re-latch what it keeps per segment. */
-  const updateReference = (t: number) => {
-    const s = cfg.reference.at(t, qRef, wRef, wdRef);
-    if (s !== segment) {
-      segment = s;
-      ctrl.beginSegment?.(trueInput);
+  /** Step past every reference switch at or before t (a jump at t has reached them). */
+  const passSwitches = (t: number) => {
+    if (!switches) {
+      sc[SWITCH_T] = sc[SWITCH_LEFT] = Infinity;
+      return;
     }
+    const tol = 1e-12 * Math.max(1, Math.abs(t));
+    while (switchIdx < switches.length && switches[switchIdx] <= t + tol) switchIdx++;
+    const ts = switchIdx < switches.length ? switches[switchIdx] : Infinity;
+    sc[SWITCH_T] = ts;
+    // Flow evaluations at or after a switch not yet reached by a jump (the last RK4 stage lands
+    // on it) read the reference just before it: the old segment, continued from the left.
+    sc[SWITCH_LEFT] = ts - 1e-9 * Math.max(1, Math.abs(ts));
+  };
+
+  /** Reference inside a flow (ideal mode): no latching, old segment until the switch jump. */
+  const flowReference = (t: number) => {
+    ref.at(t < sc[SWITCH_T] ? t : sc[SWITCH_LEFT], qRef, wRef, wdRef);
+  };
+
+  /** Reference at a jump instant; on a segment change let the law re-latch from `inp`. */
+  const jumpReference = (t: number, inp: ControlInput): boolean => {
+    const s = ref.at(t, qRef, wRef, wdRef);
+    if (s === segment) return false;
+    segment = s;
+    ctrl.beginSegment?.(inp);
+    return true;
   };
 
   /** Logic update (with its event record) for the given input; returns true when it jumped. */
   const logicStep = (t: number, inp: ControlInput): boolean => {
+    // Outside the jump set the jump map cannot apply (types.ts contract): skip the call.
+    if (!(ctrl.jumpGuard(inp, logic) >= 0)) return false;
     const r = ctrl.updateLogic(inp, logic);
     if (r.why === null || r.logic === logic) return false;
     ctrl.diagnostics(diag, trueInput, logic);
@@ -153,49 +207,38 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const record = (t: number) => {
     ctrl.diagnostics(diag, trueInput, logic);
     bodyTorqueFromWheelTorque(tauBody, cfg.wheels, wheelHeld);
-    builder.push({
-      t, j: logicJumps, segment: Math.max(0, segment), q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
-      torqueCmdBody: tauCmd, torqueBody: tauBody, wheelTorqueCmd: wheelCmd, wheelTorque: wheelHeld, logic,
-      errorAngle: qAngleBetween(qTrue, qRef), potential: diag.potential, potentialMin: diag.potentialMin, gap: diag.gap,
-      lyapunov: diag.lyapunov,
-    });
-    if (cfg.stopWhenSettledForS && cfg.stopWhenSettledForS > 0) {
-      const rateErr = Math.hypot(wTrue[0] - wRef[0], wTrue[1] - wRef[1], wTrue[2] - wRef[2]);
-      const ok = qAngleBetween(qTrue, qRef) < (cfg.settleAngleRad ?? 0) && rateErr < (cfg.settleRateRadPerS ?? 0);
-      if (!ok) settledSince = -1;
-      else if (settledSince < 0) settledSince = t;
-      else if (t - settledSince >= cfg.stopWhenSettledForS) stopRequested = true;
+    const err = qAngleBetween(qTrue, qRef);
+    rec.t = t;
+    rec.j = logicJumps;
+    rec.segment = segment < 0 ? 0 : segment;
+    rec.logic = logic;
+    rec.errorAngle = err;
+    rec.potential = diag.potential;
+    rec.potentialMin = diag.potentialMin;
+    rec.gap = diag.gap;
+    rec.lyapunov = diag.lyapunov;
+    builder.push(rec);
+    if (settleFor > 0) {
+      const ex = wTrue[0] - wRef[0], ey = wTrue[1] - wRef[1], ez = wTrue[2] - wRef[2];
+      const ok = err < settleAngle && Math.sqrt(ex * ex + ey * ey + ez * ez) < settleRate;
+      if (!ok) sc[SETTLED_SINCE] = -1;
+      else if (sc[SETTLED_SINCE] < 0) sc[SETTLED_SINCE] = t;
+      else if (t - sc[SETTLED_SINCE] >= settleFor) stopRequested = true;
     }
     if (cfg.shouldStop?.()) stopRequested = true;
   };
 
-  /** One controller sample at time t (sampled mode): measure, switch, compute, allocate, hold. */
-  const sample = (t: number, x: Float64Array) => {
-    unpack(x);
-    updateReference(t);
-    measure(input.q as Float64Array, input.omega as Float64Array, cfg.sensors, rng, qTrue, wTrue, qRef);
-    for (let i = 0; i < N; i++) input.hWheel[i] = hTrue[i];
-    if (Number.isNaN(logic)) logic = ctrl.initialLogic(input);
-    for (let k = 0; k < maxPerInstant && logicStep(t, input); k++);
-    ctrl.torque(tauCmd, input, logic);
-    actuate(Ts);
-    applyActuationMode(t);
-    record(t);
-    tSampleStart = t;
-    sampleIndex++;
-  };
-
   const applyActuationMode = (t: number) => {
-    const a = cfg.actuation;
-    if (a.mode === 'quantized') {
+    if (quantum > 0) {
       for (let i = 0; i < N; i++) {
-        const qn = a.quantumNm;
-        wheelHeld[i] = Math.round(wheelHeld[i] / qn) * qn;
-        if (Math.abs(wheelHeld[i]) > cfg.wheels.maxTorqueNm[i]) wheelHeld[i] = Math.sign(wheelHeld[i]) * Math.floor(cfg.wheels.maxTorqueNm[i] / qn) * qn;
+        const max = cfg.wheels.maxTorqueNm[i];
+        let v = Math.round(wheelHeld[i] / quantum) * quantum;
+        if (Math.abs(v) > max) v = Math.sign(v) * Math.floor(max / quantum) * quantum;
+        wheelHeld[i] = v;
       }
     }
     for (let i = 0; i < N; i++) {
-      if (a.mode === 'pwm') {
+      if (pwm) {
         const full = cfg.wheels.maxTorqueNm[i];
         const width = Math.min(1, Math.abs(wheelHeld[i]) / full) * Ts;
         wheelNow[i] = width > 0 ? Math.sign(wheelHeld[i]) * full : 0;
@@ -207,14 +250,33 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     }
   };
 
-  const nextSampleTime = () => sampleIndex * Ts;
+  /** One controller sample at time t (sampled mode): measure, switch, compute, allocate, hold. */
+  const sample = (t: number, x: Float64Array) => {
+    unpack(x);
+    const s = ref.at(t, qRef, wRef, wdRef);
+    measure(qMeas, wMeas, cfg.sensors, rng, qTrue, wTrue, qRef);
+    for (let i = 0; i < N; i++) hMeas[i] = hTrue[i];
+    if (s !== segment) {
+      segment = s;
+      ctrl.beginSegment?.(input);
+    }
+    if (Number.isNaN(logic)) logic = ctrl.initialLogic(input);
+    for (let k = 0; k < maxPerInstant && logicStep(t, input); k++);
+    ctrl.torque(tauCmd, input, logic);
+    actuate(Ts);
+    applyActuationMode(t);
+    record(t);
+    sampleIndex++;
+  };
+
+  const isDue = (t: number, due: number) => Math.abs(t - due) <= 1e-9 * Math.max(1, Math.abs(due));
 
   const sys: HybridSystem = {
     dim,
     flow(t, x, dx) {
       if (!sampled) {
         unpack(x);
-        updateReference(t);
+        flowReference(t);
         ctrl.torque(tauCmd, trueInput, logic);
         actuate(0);
         for (let i = 0; i < N; i++) wheelNow[i] = wheelHeld[i];
@@ -225,49 +287,47 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
       ? undefined
       : (t, x) => {
           unpack(x);
-          updateReference(t);
+          flowReference(t);
           return ctrl.jumpGuard(trueInput, logic);
         },
     nextScheduledJump(t) {
-      let next = nextSampleTime();
-      if (sampled && cfg.actuation.mode === 'pwm') {
-        for (let i = 0; i < N; i++) if (pulseEnd[i] > t + 1e-12 && pulseEnd[i] < next) next = pulseEnd[i];
-      }
+      let next = sampleIndex * Ts;
+      if (sampled) {
+        if (pwm) for (let i = 0; i < N; i++) if (pulseEnd[i] > t + 1e-12 && pulseEnd[i] < next) next = pulseEnd[i];
+      } else if (sc[SWITCH_T] < next) next = sc[SWITCH_T];
       return next;
     },
-    jump(t, x, xPlus) {
+    jump(t, x) {
       if (sampled) {
-        const due = nextSampleTime();
-        if (Math.abs(t - due) <= 1e-9 * Math.max(1, Math.abs(due))) {
-          sample(due, x);
+        if (isDue(t, sampleIndex * Ts)) {
+          sample(sampleIndex * Ts, x);
           return null;
         }
         // PWM pulse edge: the wheels whose pulse has ended stop.
         for (let i = 0; i < N; i++) if (pulseEnd[i] <= t + 1e-12) { wheelNow[i] = 0; pulseEnd[i] = Infinity; }
         return null;
       }
-      // Continuous-ideal: either an output instant (scheduled) or a located logic crossing.
+      // Continuous-ideal: an output instant or reference switch (scheduled) or a located logic crossing.
       unpack(x);
-      updateReference(t);
-      const due = nextSampleTime();
+      passSwitches(t);
+      const newSegment = jumpReference(t, trueInput);
+      const atOutput = isDue(t, sampleIndex * Ts);
+      const before = logic;
       let jumped = false;
       for (let k = 0; k < maxPerInstant && logicStep(t, trueInput); k++) jumped = true;
-      if (Math.abs(t - due) <= 1e-9 * Math.max(1, Math.abs(due))) {
-        ctrl.torque(tauCmd, trueInput, logic);
-        actuate(0);
-        record(t);
-        sampleIndex++;
-      } else if (jumped) {
+      if (atOutput || jumped || newSegment) {
         ctrl.torque(tauCmd, trueInput, logic);
         actuate(0);
         record(t);
       }
-      return jumped ? { what: 'logic', from: jumps[jumps.length - 1].from, to: logic, why: jumps[jumps.length - 1].why } : null;
+      if (atOutput) sampleIndex++;
+      return jumped ? { what: 'logic', from: before, to: logic, why: jumps[jumps.length - 1].why } : null;
     },
     project(x) {
-      const n = Math.hypot(x[0], x[1], x[2], x[3]);
-      if (!(n > 0) || Math.abs(n - 1) < 1e-15) return false;
-      x[0] /= n; x[1] /= n; x[2] /= n; x[3] /= n;
+      const n2 = x[0] * x[0] + x[1] * x[1] + x[2] * x[2] + x[3] * x[3];
+      if (!(n2 > 0) || Math.abs(n2 - 1) < 2e-15) return false;
+      const inv = 1 / Math.sqrt(n2);
+      x[0] *= inv; x[1] *= inv; x[2] *= inv; x[3] *= inv;
       return true;
     },
     stop() {
@@ -284,8 +344,9 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
 
   // Initial logic and first sample at t = 0.
   unpack(x0);
-  updateReference(0);
   if (!sampled) {
+    passSwitches(0);
+    jumpReference(0, trueInput);
     logic = ctrl.initialLogic(trueInput);
     for (let k = 0; k < maxPerInstant && logicStep(0, trueInput); k++);
     ctrl.torque(tauCmd, trueInput, logic);
@@ -310,11 +371,13 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   }
   const arc = res.value;
 
-  // Last state: record it if the run did not end exactly on a sample.
+  // Last state: record it if the run did not end exactly on a sample, against the reference at
+  // that time (not the last sample's), so the final error is the error at the end.
   const tr = builder.trace;
   const last = arc.outcome.t;
   if (tr.n === 0 || last > tr.t[tr.n - 1] + 1e-9) {
     unpack(arc.finalState);
+    segment = ref.at(last, qRef, wRef, wdRef);
     record(last);
   }
   const status = arc.outcome.status === 'blocked' ? 'non-finite' : arc.outcome.status;
