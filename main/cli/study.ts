@@ -1,8 +1,207 @@
+/**
+ * `slewsmith study <scenario>`: the scenario's robustness study in worker threads.
+ *
+ * Progress (cases done, runs not settled, time left) goes to stderr; the summary table (or the
+ * summary JSON with --json) to stdout; --out DIR writes cases.csv and summary.json. Ctrl-C stops
+ * handing out cases, abandons the ones running, writes what is finished and exits with 130.
+ * Exit codes: 0 done, 2 invalid input, 1 workers failed, 130 interrupted.
+ */
+import { Worker } from 'node:worker_threads';
+import os from 'node:os';
+import path from 'node:path';
+import { mkdir } from 'node:fs/promises';
 import type { ParsedArgs } from './args';
 import type { CliIo } from './index';
+import { table } from './format';
+import { writeFileAtomicNode } from './fs';
+import { formatIssues, type Issue } from '../../app/engine/errors';
+import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import type { StudyOverrides } from '../../app/engine/study/context';
+import { startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
+import type { StudyProgress } from '../../app/engine/study/runner';
+import type { ControllerSummary, StudyInfo, StudySummary } from '../../app/engine/study/summary';
+import { casesCsv, summaryJson } from '../../app/engine/study/export';
+import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
 
-/** Placeholder until the study module lands (same session). */
-export async function runStudyCli(_json: unknown, _a: ParsedArgs, io: CliIo): Promise<number> {
-  io.err('the study command is not built yet');
-  return 1;
+const WORKER_URL = new URL('./study-worker.mjs', import.meta.url);
+
+/** A worker thread as the coordinator's port. */
+export function threadPort(): { port: StudyWorkerPort; worker: Worker } {
+  const worker = new Worker(WORKER_URL);
+  let dead = false;
+  const port: StudyWorkerPort = {
+    post: (msg) => {
+      if (!dead) worker.postMessage(msg);
+    },
+    listen: (onMessage, onError) => {
+      worker.on('message', (m: FromWorker) => onMessage(m));
+      worker.on('error', (e) => {
+        dead = true;
+        onError(e.stack ?? String(e));
+      });
+      worker.on('exit', (code) => {
+        dead = true;
+        if (code !== 0) onError(`worker exited with code ${code}`);
+      });
+    },
+  };
+  return { port, worker };
+}
+
+function parseCount(v: string | undefined, name: string, lo: number, hi: number, errors: string[]): number | undefined {
+  if (v === undefined) return undefined;
+  const n = Number(v);
+  if (!/^\s*\d+\s*$/.test(v) || !Number.isInteger(n) || n < lo || n > hi) {
+    errors.push(`--${name} must be a whole number from ${lo} to ${hi} (got "${v}")`);
+    return undefined;
+  }
+  return n;
+}
+
+const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
+const sec = (x: number | null, durationS: number) => (x === null ? `>${durationS}` : x.toFixed(1));
+const frac = (x: number | null) => (x === null ? '-' : pct(x));
+
+export function studyTable(s: StudySummary): string {
+  const rows = s.controllers.map((c: ControllerSummary) => [
+    `${c.label} [${c.controllerId}]`,
+    String(c.flyable),
+    pct(c.settledShare),
+    pct(c.unwoundShare),
+    pct(c.longWayShare),
+    pct(c.chatteredShare),
+    sec(c.settleTimeS.median, s.durationS),
+    sec(c.settleTimeS.p95, s.durationS),
+    c.jumps.median === null ? '-' : String(c.jumps.median),
+    c.chatterPerS.median === null ? '-' : c.chatterPerS.median.toFixed(2),
+    frac(c.peakWheelMomentumFraction.p95),
+    frac(c.peakWheelTorqueFraction.p95),
+    c.worst.map((w) => String(w.index)).join(' '),
+  ]);
+  return table(
+    ['controller', 'runs', 'settled', 'unwound', 'long way', 'chatter', 'settle med s', 'settle p95 s', 'jumps med', 'chatter med /s', 'peak h p95', 'peak τ p95', 'worst cases'],
+    rows,
+  );
+}
+
+function describeStudy(info: StudyInfo, s: StudySummary): string {
+  const d = info.def;
+  const parts: string[] = [];
+  const a = d.attitude;
+  parts.push(a.mode === 'nominal' ? 'nominal start' : a.mode === 'uniform' ? 'start uniform over SO(3)' : a.mode === 'cone' ? `start within ${((a.maxAngleRad * 180) / Math.PI).toFixed(1)}° of nominal` : `start within ${((a.withinRad * 180) / Math.PI).toFixed(1)}° of a 180° error, both hemispheres`);
+  if (d.rateSigmaRadPerS > 0) parts.push(`rate 1σ ${((d.rateSigmaRadPerS * 180) / Math.PI).toPrecision(3)}°/s`);
+  if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0) parts.push(`inertia 1σ ${pct(d.inertia.momentSigmaFraction)}, axes 1σ ${((d.inertia.axisMisalignmentSigmaRad * 180) / Math.PI).toPrecision(3)}°`);
+  const w = d.wheels;
+  if (w.torqueDegradationMax > 0 || w.momentumDegradationMax > 0) parts.push(`wheels lose up to ${pct(w.torqueDegradationMax)} torque, ${pct(w.momentumDegradationMax)} momentum`);
+  if (w.failOneWheelProbability > 0) parts.push(`one wheel lost with p = ${w.failOneWheelProbability}`);
+  const [lo, hi] = d.sensors.attitudeNoiseScale;
+  if (lo !== 1 || hi !== 1) parts.push(`attitude noise ×[${lo}, ${hi}]`);
+  if (d.sensors.rateBiasSigmaRadPerS > 0) parts.push(`extra rate bias 1σ ${((d.sensors.rateBiasSigmaRadPerS * 180) / Math.PI).toPrecision(3)}°/s`);
+  if (d.sensors.adversarialEta > 0) parts.push(`worst-case noise ē = ${d.sensors.adversarialEta}`);
+  if (d.controlRateHz) parts.push(`rate from {${d.controlRateHz.join(', ')}} Hz`);
+  if (d.actuation) parts.push(`actuation from {${d.actuation.join(', ')}}`);
+  const head = `Robustness study of "${info.scenarioName}": ${s.casesDone} of ${s.runsRequested} cases, seed ${s.seed}, ${s.mode} mode, ${s.durationS} s per case`;
+  const extra = [`inertia samples redrawn: ${s.inertiaRejections}`, `unflyable cases: ${s.unflyableCases}`];
+  return `${head}\nDispersions: ${parts.join('; ')}.\n${extra.join('; ')}.`;
+}
+
+function progressLine(p: StudyProgress): string {
+  const left = p.remainingMs === null ? '' : `, ~${(p.remainingMs / 1000).toFixed(1)} s left`;
+  return `study: ${p.done}/${p.total} cases (${((100 * p.done) / Math.max(1, p.total)).toFixed(0)}%), ${p.notSettled} run${p.notSettled === 1 ? '' : 's'} not settled, ${p.unflyable} unflyable, ${(p.elapsedMs / 1000).toFixed(1)} s${left}`;
+}
+
+function printIssues(io: CliIo, title: string, issues: readonly Issue[]): void {
+  io.err(`${title} (${issues.length} problem${issues.length === 1 ? '' : 's'}):`);
+  io.err(formatIssues(issues).split('\n').map((l) => `  ${l}`).join('\n'));
+}
+
+export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Promise<number> {
+  const bad: string[] = [];
+  const runs = parseCount(a.values.runs, 'runs', 1, 1_000_000, bad);
+  const seed = parseCount(a.values.seed, 'seed', 0, 4294967295, bad);
+  const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
+  const workersAsked = parseCount(a.values.workers, 'workers', 1, 64, bad);
+  if (bad.length) {
+    for (const b of bad) io.err(`error: ${b}`);
+    return 2;
+  }
+  const overrides: StudyOverrides = {};
+  if (runs !== undefined) overrides.runs = runs;
+  if (seed !== undefined) overrides.seed = seed;
+  if (a.lists.controller) overrides.controllers = a.lists.controller;
+
+  // Never more workers than cases (the file's runs are known only after validation: cap later).
+  const nWorkers = Math.max(1, Math.min(workersAsked ?? cores, runs ?? Infinity));
+  const threads = Array.from({ length: nWorkers }, () => threadPort());
+  const cancelFlag = new SharedArrayBuffer(4);
+  let lastPrint = 0;
+  let info: StudyInfo | null = null;
+  const study = startStudyParallel(json, threads.map((t) => t.port), {
+    overrides,
+    cancelFlag,
+    onReady: (i, warnings) => {
+      info = i;
+      for (const w of warnings) io.err(`warning: ${w.path}: ${w.message}`);
+      io.err(`study: ${i.def.runs} cases × ${i.controllers.length} controllers on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`);
+    },
+    onProgress: (p) => {
+      const now = Date.now();
+      if (now - lastPrint >= 1000 || p.done === p.total) {
+        lastPrint = now;
+        io.err(progressLine(p));
+      }
+    },
+  });
+  let interrupted = false;
+  const onSigint = () => {
+    if (interrupted) return;
+    interrupted = true;
+    io.err('study: interrupted — finishing up and writing the cases done so far (Ctrl-C again to abort without writing)');
+    process.once('SIGINT', () => process.exit(130));
+    study.cancel();
+  };
+  process.once('SIGINT', onSigint);
+  let r;
+  try {
+    r = await study.result;
+  } finally {
+    process.removeListener('SIGINT', onSigint);
+    await Promise.all(threads.map((t) => t.worker.terminate()));
+  }
+  if (!r.ok) {
+    const invalid = !r.errors.some((e) => e.path === 'workers');
+    printIssues(io, invalid ? 'the study cannot run' : 'the study failed', r.errors);
+    return invalid ? 2 : 1;
+  }
+  const o = r.value;
+  for (const w of o.warnings) if (w.path === 'workers') io.err(`warning: ${w.message}`);
+  info = info ?? o.info;
+
+  if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.records).trimEnd());
+  else {
+    io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}\n`);
+    io.out(`settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (re-run one with its index).`);
+    io.out(`\n${CAUTION_TEXT}`);
+  }
+  const outDir = a.values.out;
+  if (outDir) {
+    await mkdir(outDir, { recursive: true });
+    const files: [string, string][] = [
+      [path.join(outDir, 'cases.csv'), casesCsv(o.info, o.records, o.summary)],
+      [path.join(outDir, 'summary.json'), summaryJson(o.info, o.summary, o.records)],
+    ];
+    for (const [file, text] of files) {
+      const w = await writeFileAtomicNode(file, text);
+      if (!w.ok) {
+        io.err(`error: could not write ${file}: ${w.message}`);
+        return 1;
+      }
+      io.err(`wrote ${file}`);
+    }
+  }
+  if (o.cancelled || interrupted) {
+    io.err(`study: stopped early; ${o.summary.casesDone} of ${o.summary.runsRequested} cases finished${outDir ? ' and written' : ''}`);
+    return 130;
+  }
+  return 0;
 }
