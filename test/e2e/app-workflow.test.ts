@@ -172,6 +172,19 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     await waitForRun(page);
   });
 
+  it('updates the synergistic certificate badge live: a margin above the certified gap is refused', async () => {
+    const badge = page.getByTestId('certificate-synergistic');
+    expect(await badge.textContent()).toMatch(/admissible.*δ\* = 0\.03125/i);
+    const delta = page.locator('input[data-path="controllers[2].hysteresis"]');
+    await delta.fill('0.05');
+    await expect.poll(() => badge.textContent()).toMatch(/not certified.*certified gap δ\* = 0\.031/i);
+    expect(await page.getByTestId('run-button').isDisabled()).toBe(true);
+    await shot(page, 'certificate-refused');
+    await delta.fill('0.02');
+    await waitForRun(page);
+    await expect.poll(() => badge.textContent()).toMatch(/^admissible.*δ = 0\.02/i);
+  });
+
   it('exports a run as CCSDS AEM that the engine reader accepts', async () => {
     await page.getByTestId('cmd-export').click();
     const dialog = page.getByTestId('export-dialog');
@@ -207,24 +220,29 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
   });
 
   it('plays and steps through hybrid time on the playback bar', async () => {
-    const t = () => page.getByTestId('readout-t').textContent().then(Number);
+    // The exact clock time (the read-out rounds to 10 ms).
+    const clockT = () => page.evaluate(() => (window as unknown as { __slewsmith: { clock: { t: number } } }).__slewsmith.clock.t);
+    const shown = () => page.getByTestId('readout-t').textContent().then(Number);
     await page.getByTestId('play').click();
-    await expect.poll(t, { timeout: 5000 }).toBeGreaterThan(1);
+    await expect.poll(shown, { timeout: 5000 }).toBeGreaterThan(1);
     await page.getByTestId('play').click();
-    const paused = await t();
+    const paused = await clockT();
     await page.waitForTimeout(300);
-    expect(await t()).toBe(paused);
-    // One sample forward with the arrow key: 0.1 s at the demo's 10 Hz.
+    expect(await clockT()).toBe(paused);
+    expect(await shown()).toBeCloseTo(paused, 2);
+    // One sample forward with the arrow key: to the next 10 Hz sample of the demo.
     await page.getByTestId('plan-summary').click();
     await page.keyboard.press('ArrowRight');
-    await expect.poll(t).not.toBe(paused);
-    const stepped = await t();
+    await expect.poll(clockT).not.toBe(paused);
+    const stepped = await clockT();
     expect(stepped).toBeGreaterThan(paused);
-    expect(stepped - paused).toBeLessThanOrEqual(0.1 + 0.006);
+    expect(stepped - paused).toBeLessThanOrEqual(0.1 + 1e-9);
     expect(Math.abs(stepped * 10 - Math.round(stepped * 10))).toBeLessThan(1e-6);
-    // The slider follows the clock (written by the frame loop, not by React).
-    const slider = Number(await page.getByTestId('time-slider').inputValue());
-    expect(slider).toBeCloseTo(await t(), 1);
+    await page.keyboard.press('ArrowRight');
+    await expect.poll(clockT).toBeCloseTo(stepped + 0.1, 6);
+    // The slider and the read-out follow the clock (written by the frame loop, not by React).
+    await expect.poll(async () => Number(await page.getByTestId('time-slider').inputValue())).toBeCloseTo(stepped + 0.1, 6);
+    await expect.poll(shown).toBeCloseTo(stepped + 0.1, 2);
     expect(await page.getByTestId('readout-j').textContent()).toMatch(/^\d+$/);
   });
 

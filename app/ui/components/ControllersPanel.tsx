@@ -4,7 +4,7 @@
  */
 import type { CertificateSummary } from '../../engine/pipeline/types';
 import { CONTROL_LAWS } from '../../engine/scenario/schema';
-import { useApp, useAppState, useIssuesAt, useScenarioValue } from '../context';
+import { useAllIssues, useApp, useAppState, useIssuesAt, useScenarioValue } from '../context';
 import { fmt } from '../format';
 import { IssueText, NumberField, Section, SelectField, TextField, VectorField } from './fields';
 
@@ -28,10 +28,21 @@ const LAW_DEFAULTS: Record<string, Obj> = {
 };
 const LAW_KEYS = ['maxRateDegPerS', 'hysteresis', 'potentialWeights', 'potentialAxes', 'warpGain', 'warpDirections'];
 
-export function CertificateBadge({ id, compared }: { id: string; compared: boolean }) {
+export function CertificateBadge({ id, compared, base }: { id: string; compared: boolean; base: string }) {
   const cert: CertificateSummary | undefined = useAppState((s) => s.output?.certificates.find((c) => c.controllerId === id));
   const current = useAppState((s) => s.outputScenario === s.scenario);
+  const all = useAllIssues();
+  // The engine refuses a law it cannot certify (e.g. δ not below δ*): say so rather than show the
+  // last run's verdict.
+  const refusal = all.find((i) => i.path === base || i.path.startsWith(`${base}.`) || i.path.startsWith(`${base}[`));
   if (!compared) return <div className="cert none">Certificate: not computed (controller not compared)</div>;
+  if (refusal)
+    return (
+      <div className="cert bad" data-testid={`certificate-${id}`}>
+        <span className="cert-verdict">not certified</span>
+        <div className="cert-msg">{refusal.message}</div>
+      </div>
+    );
   if (!cert) return <div className="cert none">Certificate: waiting for a run…</div>;
   return (
     <div className={`cert ${cert.admissible ? 'ok' : 'bad'} ${current ? '' : 'stale'}`} data-testid={`certificate-${id}`} title={cert.message}>
@@ -178,7 +189,7 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
       {law === 'synergistic' && (
         <>
           <SynergisticExtras base={base} />
-          <CertificateBadge id={id} compared={compared} />
+          <CertificateBadge id={id} compared={compared} base={base} />
         </>
       )}
       {gainNote && <div className="derived">{gainNote}</div>}

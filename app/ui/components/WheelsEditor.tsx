@@ -102,10 +102,7 @@ export function WheelsEditor() {
             <thead>
               <tr>
                 <th>#</th>
-                <th colSpan={3}>spin axis (body)</th>
-                <th title="Max torque, mN·m">τ max<br />mN·m</th>
-                <th title="Max momentum, mN·m·s">h max<br />mN·m·s</th>
-                <th title="Rotor inertia, kg·m²">J rotor<br />kg·m²</th>
+                <th colSpan={3}>spin axis in body axes (normalised on load)</th>
                 <th />
               </tr>
             </thead>
@@ -118,9 +115,6 @@ export function WheelsEditor() {
                       <NumberInput path={`${P}.wheels[${i}].axis[${k}]`} ariaLabel={`wheel ${i + 1} axis ${'xyz'[k]}`} showIssues={false} />
                     </td>
                   ))}
-                  <td><NumberInput path={`${P}.wheels[${i}].maxTorqueMNm`} ariaLabel={`wheel ${i + 1} max torque`} showIssues={false} /></td>
-                  <td><NumberInput path={`${P}.wheels[${i}].maxMomentumMNms`} ariaLabel={`wheel ${i + 1} max momentum`} showIssues={false} /></td>
-                  <td><NumberInput path={`${P}.wheels[${i}].rotorInertiaKgm2`} ariaLabel={`wheel ${i + 1} rotor inertia`} showIssues={false} /></td>
                   <td>
                     <button
                       className="icon"
@@ -131,6 +125,26 @@ export function WheelsEditor() {
                       ×
                     </button>
                   </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <table className="grid-table wheel-table">
+            <thead>
+              <tr>
+                <th>#</th>
+                <th title="Largest motor torque">τ max (mN·m)</th>
+                <th title="Largest stored momentum">h max (mN·m·s)</th>
+                <th title="Rotor axial inertia">J rotor (kg·m²)</th>
+              </tr>
+            </thead>
+            <tbody>
+              {list.map((_, i) => (
+                <tr key={i}>
+                  <td>{i + 1}</td>
+                  <td><NumberInput path={`${P}.wheels[${i}].maxTorqueMNm`} ariaLabel={`wheel ${i + 1} max torque`} showIssues={false} /></td>
+                  <td><NumberInput path={`${P}.wheels[${i}].maxMomentumMNms`} ariaLabel={`wheel ${i + 1} max momentum`} showIssues={false} /></td>
+                  <td><NumberInput path={`${P}.wheels[${i}].rotorInertiaKgm2`} ariaLabel={`wheel ${i + 1} rotor inertia`} showIssues={false} /></td>
                 </tr>
               ))}
             </tbody>
