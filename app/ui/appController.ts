@@ -25,6 +25,8 @@ export interface AppController {
   ui: Store<UiFlags>;
   bridge: SlewsmithBridge;
   command(c: MenuCommand): void;
+  /** Open a file from the shell's recent list (desktop only). */
+  openRecent(path: string): void;
   /** Ids of the scenario's controllers being compared (sent as runPipeline's `controllers`). */
   comparedIds(): string[];
   /** Reasons running is not possible now (empty when it is). */
@@ -212,6 +214,9 @@ export function createAppController(o: AppControllerOptions): AppController {
     ui,
     bridge,
     command,
+    openRecent(path) {
+      void bridge.openRecent(path).then(applyOpen);
+    },
     comparedIds,
     blockers,
     notify,

@@ -3,6 +3,7 @@ import { useState } from 'react';
 import { useApp, useAppState } from '../context';
 import { useStoreSlice } from '../store/hooks';
 import { COMMAND_ACCELERATORS, type MenuCommand } from '../../bridge/commands';
+import type { RecentFile } from '../../bridge/api';
 
 export function CautionStrip() {
   return (
@@ -70,6 +71,43 @@ function Shortcuts({ onClose }: { onClose: () => void }) {
   );
 }
 
+/** Desktop only: the shell's recent files (the browser has no paths to remember). */
+function RecentMenu() {
+  const app = useApp();
+  const [items, setItems] = useState<RecentFile[] | null>(null);
+  if (app.bridge.shell !== 'desktop') return null;
+  return (
+    <span className="recent">
+      <button
+        className="toolbar-button"
+        onClick={() => (items ? setItems(null) : void app.bridge.recentFiles().then(setItems))}
+        title="Open a recently used scenario"
+        data-testid="cmd-recent"
+      >
+        Recent ▾
+      </button>
+      {items && (
+        <div className="recent-list" role="menu">
+          {items.length === 0 && <div className="muted">No recent files</div>}
+          {items.map((f) => (
+            <button
+              key={f.path}
+              role="menuitem"
+              title={f.path}
+              onClick={() => {
+                setItems(null);
+                app.openRecent(f.path);
+              }}
+            >
+              {f.name}
+            </button>
+          ))}
+        </div>
+      )}
+    </span>
+  );
+}
+
 function CmdButton({ c, label, disabled }: { c: MenuCommand; label: string; disabled?: boolean }) {
   const app = useApp();
   return (
@@ -94,6 +132,7 @@ export function TopBar() {
       <nav className="toolbar">
         <CmdButton c="new" label="New" />
         <CmdButton c="open" label="Open…" />
+        <RecentMenu />
         <CmdButton c="save" label="Save" />
         <CmdButton c="save-as" label="Save as…" />
         <span className="sep" />
