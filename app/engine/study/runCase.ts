@@ -224,8 +224,9 @@ function etaAt(q: Float64Array, k: number, target: Float64Array): number {
  * not as unwinding. The pipeline's own flag (an extra full turn beyond the shortest rotation)
  * counts as unwinding for every law.
  *
- * Under worst-case noise ē a start with |η₀| < ē is measured on the other lift, so quaternion
- * laws may legitimately go the long way there, by at most 4·arcsin ē of extra rotation.
+ * Under worst-case noise ē a start with |η₀| < ē may be measured on the other lift: no law can
+ * know its lift there, so going the long way from such a start (at most 4·arcsin ē of extra
+ * rotation) is reported as `longWay` but not as unwinding.
  */
 export const UNWIND_ETA_MIN = 0.5;
 
@@ -259,7 +260,7 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
     rotationTravelledDeg: finite(m.rotationTravelledRad * DEG),
     shortestRotationDeg: finite(m.shortestRotationRad * DEG),
     extraRotationDeg: finite((m.rotationTravelledRad - m.shortestRotationRad) * DEG),
-    unwound: m.unwound || (farLift && !SO3_LAWS.has(c.law)),
+    unwound: m.unwound || (farLift && !SO3_LAWS.has(c.law) && Math.abs(d.errorEta) >= d.adversarialEta),
     longWay: farLift,
     jumps: m.jumps,
     chatterPerS: finite(m.chatterPerS),
