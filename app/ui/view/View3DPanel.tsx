@@ -46,6 +46,10 @@ export function View3DPanel() {
       return;
     }
     view.current = v;
+    // For the end-to-end tests and the console, as main.tsx exposes the store and clock: the
+    // view handle (model, renderer, camera). Nothing in the app reads it.
+    const hook = window as unknown as { __slewsmithView?: AttitudeViewHandle };
+    hook.__slewsmithView = v;
     let activeUntil = 0;
     const poke = () => {
       activeUntil = performance.now() + 1200;
@@ -72,6 +76,7 @@ export function View3DPanel() {
       c.removeEventListener('pointermove', poke);
       c.removeEventListener('wheel', poke);
       v.dispose();
+      if (hook.__slewsmithView === v) delete hook.__slewsmithView;
       view.current = null;
     };
   }, [app]);
