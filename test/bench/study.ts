@@ -1,0 +1,114 @@
+/**
+ * Robustness-study speed figures (no assertions): 10,000 dispersed 600 s slews (2,000 cases of
+ * the Tern-12 example study × its five laws) on two worker threads, against the single-run
+ * figure (one pipeline runOne of a 600 s case) and the in-thread cost per case, with the
+ * parallel efficiency and where a case's time goes. Cheapest honest settings: RK4 with one step
+ * per 10 Hz control period (rk4StepsPerSample 1) and the study's early stop (20 s settled).
+ * Run: node --import tsx test/bench/study.ts, or npm run bench -- study.
+ */
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { prepareScenario, runOne } from '../../app/engine/pipeline/run';
+import { makeStudyContext } from '../../app/engine/study/context';
+import { drawCase } from '../../app/engine/study/sample';
+import { buildCaseVehicle, caseReference, flyCase, runCase } from '../../app/engine/study/runCase';
+import { computeMetrics } from '../../app/engine/metrics/metrics';
+import { startStudyParallel } from '../../app/engine/study/parallel';
+import { threadPort } from '../../main/cli/study';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+
+function scenario(runs: number): Record<string, any> {
+  const json = JSON.parse(readFileSync(path.join(here, '../../assets/tern12-reversal.scenario.json'), 'utf8'));
+  json.simulation.rk4StepsPerSample = 1;
+  json.study.runs = runs;
+  json.study.durationS = 600;
+  return json;
+}
+
+const ms = (x: number) => `${x.toFixed(x < 10 ? 2 : 1)} ms`;
+
+export async function benchStudy(): Promise<void> {
+  const SLEWS = 10_000;
+  const json = scenario(2_000);
+  const nLaws = json.study.controllers.length;
+  const cases = SLEWS / nLaws;
+
+  // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop).
+  const single = JSON.parse(JSON.stringify(json));
+  single.simulation.mode = 'direct';
+  single.simulation.tailS = 0;
+  const p0 = prepareScenario(single, ['hyst']);
+  if (!p0.ok) throw new Error('scenario refused');
+  single.simulation.tailS = 600 - Math.max(1, p0.value.plan.totalS); // the pipeline runs plan + tail
+  const p = prepareScenario(single, ['hyst']);
+  if (!p.ok) throw new Error('scenario refused');
+  const targets = Float64Array.from(p.value.scenario.targets[0].qInertialFromBody);
+  runOne(p.value, p.value.controllers[0], 'direct', targets);
+  const reps = 10;
+  let t0 = performance.now();
+  let samples = 0;
+  for (let k = 0; k < reps; k++) samples = runOne(p.value, p.value.controllers[0], 'direct', targets).trace.n;
+  const singleMs = (performance.now() - t0) / reps;
+  console.log(`   single run (pipeline runOne, hysteretic, ${samples} samples ≈ ${(samples / 10).toFixed(0)} s at 10 Hz, no early stop): ${ms(singleMs)}`);
+
+  // 2. In-thread cost per case and where it goes.
+  const c = makeStudyContext(json);
+  if (!c.ok) throw new Error('study refused');
+  const ctx = c.value;
+  const probe = 60;
+  for (let i = 0; i < 5; i++) runCase(ctx, i); // warm up
+  let tDraw = 0, tFly = 0, tMetrics = 0, simS = 0, nRuns = 0;
+  t0 = performance.now();
+  for (let i = 0; i < probe; i++) runCase(ctx, i);
+  const perCase = (performance.now() - t0) / probe;
+  for (let i = 0; i < probe; i++) {
+    let a = performance.now();
+    const d = drawCase(ctx.def, ctx.nominal, i);
+    const v = buildCaseVehicle(ctx, d);
+    const ref = v.ok ? caseReference(ctx, d, v.value) : null;
+    tDraw += performance.now() - a;
+    if (!v.ok || !ref || !ref.ok) continue;
+    for (const bc of ctx.controllers) {
+      a = performance.now();
+      const f = flyCase(ctx, d, v.value, ref.ref, bc);
+      tFly += performance.now() - a;
+      a = performance.now();
+      computeMetrics(f.res.trace, f.res.jumps, {
+        settleAngleRad: 1e-3, settleRateRadPerS: 1e-4, chatterWindowS: 10, maxTorqueNm: v.value.wheels.maxTorqueNm,
+        maxMomentumNms: v.value.wheels.maxMomentumNms, segmentTargets: ctx.target,
+      });
+      tMetrics += performance.now() - a;
+      simS += f.res.trace.t[f.res.trace.n - 1];
+      nRuns++;
+    }
+  }
+  const perSlew = perCase / nLaws;
+  console.log(`   in one thread: ${ms(perCase)} per case (${nLaws} laws) = ${ms(perSlew)} per slew; early stop leaves ${(simS / nRuns).toFixed(0)} of 600 simulated s per slew on average`);
+  const flyPer = tFly / nRuns, metPer = tMetrics / nRuns;
+  console.log(`   per slew: closed loop ${ms(flyPer - metPer)} (${((1e3 * (flyPer - metPer)) / ((simS / nRuns) * 10)).toFixed(2)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / probe / nLaws)}`);
+
+  // 3. Two worker threads, 10,000 slews.
+  const threads = [threadPort(), threadPort()];
+  const tStart = performance.now();
+  let tReady = 0;
+  const study = startStudyParallel(json, threads.map((t) => t.port), {
+    chunkSize: 8,
+    onReady: () => {
+      if (!tReady) tReady = performance.now();
+    },
+  });
+  const r = await study.result;
+  const wall = performance.now() - tStart;
+  await Promise.all(threads.map((t) => t.worker.terminate()));
+  if (!r.ok) throw new Error('parallel study refused');
+  const compute = wall - (tReady - tStart);
+  const efficiency = (perCase * cases) / (2 * compute);
+  console.log(`   2 worker threads, ${cases} cases × ${nLaws} laws = ${SLEWS} slews: ${(wall / 1e3).toFixed(1)} s wall (target ≤ 10 s), of which ${((tReady - tStart) / 1e3).toFixed(1)} s worker start-up (tsx + study context)`);
+  console.log(`   parallel efficiency (in-thread time / (2 × parallel compute time)): ${(100 * efficiency).toFixed(0)} %; ${(compute / SLEWS).toFixed(2)} ms wall per slew; single run / study slew = ${(singleMs / perSlew).toFixed(1)}×`);
+  const s = r.value.summary;
+  console.log(`   study outcome: ${s.casesDone} cases; settled share per law: ${s.controllers.map((c) => `${c.controllerId} ${(100 * c.settledShare).toFixed(1)} %`).join(', ')}`);
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) await benchStudy();
