@@ -102,6 +102,12 @@ export interface TriadStyle {
   /** Optional tag label placed beyond the tip of +X. */
   tag?: string;
   tagColor?: string;
+  /**
+   * Screen rows the tag is shifted by from its point (positive: down, negative: up; default 0).
+   * Triads that coincide — body, reference and target once the slew has converged, or overlaid
+   * runs — would otherwise draw their tags and the X axis label on top of each other.
+   */
+  tagRow?: number;
   colors?: readonly [number, number, number];
   /** Label height as a fraction of the viewport height (default SIZES.labelHeight). */
   labelHeight?: number;
@@ -130,7 +136,8 @@ export class Triad extends Group {
       }
     }
     if (kit.labels && style.tag) {
-      const lab = kit.labels(style.tag, { color: style.tagColor ?? COLORS.label, anchorX: 0, heightFraction: 0.036 });
+      // Row pitch 1.15 label heights: one row clears the X axis label (heightFraction 0.045).
+      const lab = kit.labels(style.tag, { color: style.tagColor ?? COLORS.label, anchorX: 0, anchorY: 0.5 + 1.15 * (style.tagRow ?? 0), heightFraction: 0.036 });
       lab.position.set(style.length * 1.1, 0, style.length * 0.12);
       this.add(lab);
     }

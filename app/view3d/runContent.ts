@@ -77,6 +77,8 @@ export class RunContent {
       opacity: solid ? 1 : Math.min(1, opacity + 0.15),
       suffix: solid ? 'B' : null,
       tag: style.tagBody ? run.label : undefined,
+      // Below the target's tag, one row per overlaid run (converged runs stack, not overprint).
+      tagRow: 2 + style.index,
       radius: 0.011,
     });
     this.body.add(this.bus, this.bodyTriad);
@@ -94,6 +96,7 @@ export class RunContent {
         radius: 0.008,
         suffix: null,
         tag: solid ? `target ${k + 1}${tg.label ? `: ${tg.label}` : ''}` : undefined,
+        tagRow: 1,
         tagColor: '#aab4c0',
       });
       setObjectAttitude(ghost, tg.q, 0);
@@ -111,6 +114,7 @@ export class RunContent {
         radius: 0.007,
         suffix: null,
         tag: solid ? 'reference' : undefined,
+        tagRow: -1,
         tagColor: cssHex(c),
         colors: [c, c, c],
       });
