@@ -232,7 +232,7 @@ const commands: Record<string, Command> = {
   },
   study: {
     summary: 'seeded Monte Carlo robustness study (the scenario\'s "study" block) in worker threads',
-    usage: 'slewsmith study <scenario.json> [--runs N] [--workers K] [--seed S] [--controller id,...] [--out DIR]',
+    usage: 'slewsmith study <scenario.json> [--runs N] [--workers K] [--seed S] [--controller id,...] [--out DIR] [--json] [--case INDEX]',
     options: [
       HELP, CONTROLLER,
       { name: 'runs', kind: 'value', valueName: 'N', help: 'number of dispersed cases (default: the file\'s study.runs)' },
@@ -240,6 +240,7 @@ const commands: Record<string, Command> = {
       { name: 'seed', kind: 'value', valueName: 'S', help: 'study seed (default: the file\'s study.seed)' },
       { name: 'out', kind: 'value', valueName: 'dir', help: 'write cases.csv and summary.json there' },
       JSON_OUT,
+      { name: 'case', kind: 'value', valueName: 'index', help: 'write that case as a normal scenario file (into --out, else to stdout) instead of running the study' },
     ],
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);

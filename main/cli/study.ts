@@ -4,6 +4,7 @@
  * Progress (cases done, runs not settled, time left) goes to stderr; the summary table (or the
  * summary JSON with --json) to stdout; --out DIR writes cases.csv and summary.json. Ctrl-C stops
  * handing out cases, abandons the ones running, writes what is finished and exits with 130.
+ * `--case N` writes case N as a normal scenario file instead (re-run it with fly/compare).
  * Exit codes: 0 done, 2 invalid input, 1 workers failed, 130 interrupted.
  */
 import { Worker } from 'node:worker_threads';
@@ -22,6 +23,7 @@ import type { StudyProgress } from '../../app/engine/study/runner';
 import type { ControllerSummary, StudyInfo, StudySummary } from '../../app/engine/study/summary';
 import { casesCsv, summaryJson } from '../../app/engine/study/export';
 import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
+import { studyCaseScenario } from '../../app/engine/study/caseScenario';
 
 const WORKER_URL = new URL('./study-worker.mjs', import.meta.url);
 
@@ -129,6 +131,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   if (runs !== undefined) overrides.runs = runs;
   if (seed !== undefined) overrides.seed = seed;
   if (a.lists.controller) overrides.controllers = a.lists.controller;
+  if (a.values.case !== undefined) return writeCase(json, overrides, a, io);
 
   // Never more workers than cases (the file's runs are known only after validation: cap later).
   const nWorkers = Math.max(1, Math.min(workersAsked ?? cores, runs ?? Infinity));
@@ -180,7 +183,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.records).trimEnd());
   else {
     io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}\n`);
-    io.out(`settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (re-run one with its index).`);
+    io.out(`settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (write one as a scenario with --case INDEX).`);
     io.out(`\n${CAUTION_TEXT}`);
   }
   const outDir = a.values.out;
@@ -203,5 +206,34 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     io.err(`study: stopped early; ${o.summary.casesDone} of ${o.summary.runsRequested} cases finished${outDir ? ' and written' : ''}`);
     return 130;
   }
+  return 0;
+}
+
+/** `--case N`: one case as a normal scenario file. */
+async function writeCase(json: unknown, overrides: StudyOverrides, a: ParsedArgs, io: CliIo): Promise<number> {
+  const bad: string[] = [];
+  const index = parseCount(a.values.case, 'case', 0, 0x0fffffff, bad);
+  if (index === undefined) {
+    for (const b of bad) io.err(`error: ${b}`);
+    return 2;
+  }
+  const r = studyCaseScenario(json, overrides, index);
+  if (!r.ok) {
+    printIssues(io, `case ${index} cannot be written`, r.errors);
+    return 2;
+  }
+  const text = JSON.stringify(r.value, null, 2) + '\n';
+  if (!a.values.out) {
+    io.out(text.trimEnd());
+    return 0;
+  }
+  await mkdir(a.values.out, { recursive: true });
+  const file = path.join(a.values.out, `study-case-${index}.scenario.json`);
+  const w = await writeFileAtomicNode(file, text);
+  if (!w.ok) {
+    io.err(`error: could not write ${file}: ${w.message}`);
+    return 1;
+  }
+  io.err(`wrote ${file} (run it with: slewsmith compare ${file})`);
   return 0;
 }

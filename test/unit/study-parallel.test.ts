@@ -4,7 +4,8 @@
  * - the same study with 1 and 2 worker threads gives identical per-case results, and the same as
  *   the single-thread runner (each case depends only on (seed, index));
  * - cancelling keeps the finished cases and reports the study as incomplete;
- * - the CLI command: summary table and files with exit 0, bad options / bad study block exit 2.
+ * - the CLI command: summary table and files with exit 0, `--case` writes a valid scenario,
+ *   bad options / bad study block exit 2.
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -16,6 +17,7 @@ import { startStudyParallel, inThreadPort } from '../../app/engine/study/paralle
 import { runStudy } from '../../app/engine/study/runner';
 import type { CaseRecord } from '../../app/engine/study/runCase';
 import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { validateScenario } from '../../app/engine/scenario/validate';
 import { testVehicleScenario } from './study-fixtures';
 
 const study = {
@@ -119,6 +121,17 @@ describe('slewsmith study (CLI)', () => {
     expect(summary.caution).toBe(CAUTION_TEXT);
     expect(summary.summary.casesDone).toBe(4);
     expect(summary.map).toHaveLength(4);
+  }, 60_000);
+
+  it('--case writes one case as a normal scenario file that validates; an index out of range is exit 2', async () => {
+    const c = io();
+    expect(await runCli(['study', file, '--case', '3', '--out', dir], c.io)).toBe(0);
+    const written = JSON.parse(readFileSync(path.join(dir, 'study-case-3.scenario.json'), 'utf8'));
+    expect(validateScenario(written).ok).toBe(true);
+    expect(written.study).toBeUndefined();
+    const d = io();
+    expect(await runCli(['study', file, '--case', '7'], d.io)).toBe(2); // runs = 7: indices 0..6
+    expect(d.err.join('\n')).toContain('from 0 to 6');
   }, 60_000);
 
   it('refuses bad options and a bad study block with exit 2', async () => {

@@ -164,4 +164,14 @@ describe('reopening a case', () => {
       expect(n.metrics.settleTimeS).toBe(run.metrics.settleTimeS);
     }
   });
+
+  it('profiled mode: each case tracks the slew planned on the nominal model and runs its full duration (no early stop)', () => {
+    const pr = runStudy(testVehicleScenario({ runs: 2, seed: 5, durationS: 200, mode: 'profiled', controllers: ['hyst'], dispersions: { initialAttitude: { mode: 'cone', maxAngleDeg: 60 } } }));
+    if (!pr.ok) throw new Error(JSON.stringify(pr.errors));
+    for (const r of pr.value.records) {
+      expect(r.runs[0].endS).toBeCloseTo(200, 6);
+      expect(r.runs[0].status).toBe('settled');
+    }
+    expect(pr.value.summary.settleDefinition).toContain('full duration');
+  });
 });

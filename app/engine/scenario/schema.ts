@@ -362,7 +362,7 @@ export const StudySchema = z
     stopAfterSettledForS: nonNegative()
       .max(100000)
       .optional()
-      .describe('End a case early once it has stayed settled this long, s (default 20; 0 = always run durationS).'),
+      .describe('End a direct-mode case early once it has stayed settled this long, s (default 20; 0 = always run durationS). Profiled cases always run durationS.'),
     worstCases: z.number().int().min(1).max(100).optional().describe('Worst cases listed per controller (default 5).'),
     dispersions: StudyDispersionsSchema.optional(),
   })

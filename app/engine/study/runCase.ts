@@ -181,7 +181,9 @@ export function flyCase(ctx: StudyContext, d: CaseDraw, v: CaseVehicle, ref: Ref
       stream: 0,
       actuation: actuationOf(ctx, d),
       allocation: 'min-max',
-      stopWhenSettledForS: ctx.def.stopAfterSettledForS,
+      // Profiled cases can sit within the settle thresholds of their moving reference while
+      // still slewing, so only direct (regulation) cases stop early.
+      stopWhenSettledForS: ctx.def.mode === 'direct' ? ctx.def.stopAfterSettledForS : 0,
       settleAngleRad: s.simulation.settleAngleRad,
       settleRateRadPerS: s.simulation.settleRateRadPerS,
       shouldStop,

@@ -228,7 +228,10 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
     incomplete: records.length < def.runs,
     durationS: def.durationS,
     mode: def.mode,
-    settleDefinition: `error angle and rate error stay below the scenario's settle thresholds until the end of the run; a case ends early after ${def.stopAfterSettledForS} s settled`,
+    settleDefinition:
+      def.mode === 'direct' && def.stopAfterSettledForS > 0
+        ? `error angle and rate error stay below the scenario's settle thresholds until the end of the run; a case ends early after ${def.stopAfterSettledForS} s settled`
+        : "error angle and rate error (to the reference) stay below the scenario's settle thresholds until the end of the run; every case runs its full duration",
     inertiaRejections: records.reduce((s, r) => s + r.draw.inertiaRejections, 0),
     unflyableCases: records.filter((r) => r.runs.length > 0 && r.runs.every((x) => x.status === 'unflyable')).length,
     controllers,
