@@ -66,9 +66,13 @@ describe('allocation', () => {
         const pa = peakTorqueRatio(arr, a), pb = peakTorqueRatio(arr, b);
         expect(pb).toBeLessThanOrEqual(pa * (1 + 1e-12) + 1e-15);
         if (tn > 1e-9) {
-          const cap = envelopeCapacity(torqueEnvelope(arr), tau);
-          // 1e-7: the envelope merges axes parallel within 1e-8 rad (zonotope.ts), an error of that order.
-          expect(Math.abs(pb - tn / cap)).toBeLessThanOrEqual(1e-7 * pb);
+          const z = torqueEnvelope(arr);
+          const cap = envelopeCapacity(z, tau);
+          // Slack: the envelope treats axes parallel within z.tolerance.parallelRad as parallel
+          // (zonotope.ts), moving its boundary by up to that × Σ|v_i|.
+          let S = 0;
+          for (let i = 0; i < arr.n; i++) S += arr.maxTorqueNm[i];
+          expect(Math.abs(pb - tn / cap)).toBeLessThanOrEqual((1e-9 + (10 * z.tolerance.parallelRad * S) / cap) * pb);
         }
       }),
       { numRuns: RUNS },
@@ -80,7 +84,9 @@ describe('allocation', () => {
         const a = allocateMinMax(new Float64Array(4), arr, tau);
         const b = allocateMinMaxLp(new Float64Array(4), arr, tau);
         const pa = peakTorqueRatio(arr, a);
-        expect(Math.abs(pa - peakTorqueRatio(arr, b))).toBeLessThanOrEqual(1e-11 * (1 + pa));
+        // 1e-9: null vectors with ~1e-11 components (nearly dependent axes) leave both exact
+        // methods with an ill-conditioned optimum.
+        expect(Math.abs(pa - peakTorqueRatio(arr, b))).toBeLessThanOrEqual(1e-9 * (1 + pa));
       }),
       { numRuns: RUNS },
     );
@@ -137,7 +143,7 @@ function bruteMaxScale(arr: WheelArray, c: number[], iv: [number, number][]): nu
     for (let q = p + 1; q < rows.length; q++) {
       const [a1, b1, r1] = rows[p], [a2, b2, r2] = rows[q];
       const det = a1 * b2 - a2 * b1;
-      if (Math.abs(det) < 1e-12) continue;
+      if (Math.abs(det) <= 1e-12 * (Math.abs(a1) + Math.abs(b1)) * (Math.abs(a2) + Math.abs(b2))) continue;
       const s = (r1 * b2 - r2 * b1) / det, al = (a1 * r2 - a2 * r1) / det;
       // Tolerance relative to each row's own size: commands and intervals can both be tiny.
       if (rows.every(([a, b, r]) => a * s + b * al <= r + 1e-9 * (Math.abs(a * s) + Math.abs(b * al) + Math.abs(r)) + 1e-300)) {
@@ -172,7 +178,9 @@ describe('limitWheelTorque', () => {
         expect(s).toBeLessThanOrEqual(1);
         const req = body(arr, wc), got = body(arr, out);
         const rn = Math.hypot(...req);
-        for (let r = 0; r < 3; r++) expect(Math.abs(got[r] - s * req[r])).toBeLessThanOrEqual(1e-9 * (1 + rn));
+        // The limiter sets a wheel within 1e-9 τ_max of its bound onto it (LP rounding, limits.ts).
+        const slack = 1e-9 * arr.maxTorqueNm.reduce((a, b) => a + b, 0);
+        for (let r = 0; r < 3; r++) expect(Math.abs(got[r] - s * req[r])).toBeLessThanOrEqual(slack + 1e-12 * rn);
         let sScale = 1;
         for (let i = 0; i < n; i++) {
           const [lo, hi] = interval(arr, i, h[i], dt);

@@ -63,15 +63,17 @@ export function allocateMinMaxLp(out: Float64Array, arr: WheelArray, bodyTorque:
  * w_i = |ν_i|/l_i, c_i = −x_i/ν_i (wheels with ν_i = 0 add a constant floor). This is the
  * weighted 1-centre problem on a line: the optimum is set by the pair (i, j) maximising
  * w_i w_j |c_i − c_j| / (w_i + w_j), at α = (w_i c_i + w_j c_j)/(w_i + w_j) (the two active
- * constraints of the two-variable LP in (α, t)). With equal w this is α = (min c + max c)/2,
+ * constraints of the two-variable LP in (α, t)). Since f(α_ij) ≥ f* for every pair, taking the
+ * candidate α_ij with the smallest actual f is the optimum too, and stays right when pair values
+ * tie to rounding. With equal w this is α = (min c + max c)/2,
  * which for ν_i = ±1 (c_i = −ν_i x_i) is the form in the project's methods note:
- * α = −(min_i ν_i x_i + max_i ν_i x_i)/2. O(n²), exact.
+ * α = −(min_i ν_i x_i + max_i ν_i x_i)/2. Exact; O(n³) as each pair's α is checked (n = 4 here).
  */
 function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
   const n = arr.n;
   const nu = arr.nullBasis;
   const l = arr.maxTorqueNm;
-  let bestVal = -1;
+  let bestPeak = Infinity;
   let alpha = 0;
   let firstFree = -1;
   for (let i = 0; i < n; i++) {
@@ -83,16 +85,25 @@ function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
       if (Math.abs(nu[j]) <= 1e-14) continue;
       const wj = Math.abs(nu[j]) / l[j];
       const cj = -out[j] / nu[j];
-      const val = (wi * wj * Math.abs(ci - cj)) / (wi + wj);
-      if (val > bestVal) {
-        bestVal = val;
-        alpha = (wi * ci + wj * cj) / (wi + wj);
+      const a = (wi * ci + wj * cj) / (wi + wj);
+      // Judge each candidate by its actual peak rather than by the pair value: when two pair
+      // values tie to rounding (a wheel with a tiny null component), the argmax pair is ill-defined.
+      const peak = peakWith(out, nu, l, n, a);
+      if (peak < bestPeak) {
+        bestPeak = peak;
+        alpha = a;
       }
     }
   }
-  if (bestVal <= 0) alpha = firstFree >= 0 ? -out[firstFree] / nu[firstFree] : 0;
+  if (bestPeak === Infinity && firstFree >= 0) alpha = -out[firstFree] / nu[firstFree];
   for (let i = 0; i < n; i++) out[i] += nu[i] * alpha;
   return out;
+}
+
+function peakWith(x: Float64Array, nu: Float64Array, l: Float64Array, n: number, a: number): number {
+  let p = 0;
+  for (let i = 0; i < n; i++) p = Math.max(p, Math.abs(x[i] + nu[i] * a) / l[i]);
+  return p;
 }
 
 /**

@@ -160,12 +160,15 @@ function limitCore(
       readAlphaFromLp1(arr);
       minDeviationLp(arr, s);
       for (let i = 0; i < n; i++) out[i] = s * cmdS[i] + nsTerm[i];
-      const lam = enforceIntervals(out, arr);
-      const scale = s * lam;
-      const wheel = activeWheel(out, arr);
-      const full = scale >= 1 - 1e-9;
-      const reason: LimitReason = full ? 'momentum-null-space' : wheel >= 0 && isMomentumBound(out, wheel, arr) ? 'momentum' : 'torque';
-      return setInfo(info, full ? 1 : scale, reason, full ? -1 : wheel, true);
+      // An LP answer outside the intervals by more than rounding (possible on nearly dependent
+      // null vectors) is discarded for plain scaling, which is always exactly feasible.
+      if (worstExcess(out, arr) <= CLAMP) {
+        enforceIntervals(out, arr);
+        const wheel = activeWheel(out, arr);
+        const full = s >= 1 - 1e-9;
+        const reason: LimitReason = full ? 'momentum-null-space' : wheel >= 0 && isMomentumBound(out, wheel, arr) ? 'momentum' : 'torque';
+        return setInfo(info, full ? 1 : s, reason, full ? -1 : wheel, true);
+      }
     }
   }
   for (let i = 0; i < n; i++) out[i] = sScale * cmdS[i];
@@ -274,7 +277,19 @@ function minDeviationLp(arr: WheelArray, s: number): void {
 }
 
 /**
- * Rounding guard: a wheel past its interval by ≤ 1e-10 τ_max is set onto the bound (a change
+ * Excess over an interval, relative to τ_max, that counts as rounding of the LP (1e-9 τ_max is
+ * 2 nN·m on a 2 mN·m wheel); such a wheel is set onto its bound.
+ */
+const CLAMP = 1e-9;
+
+function worstExcess(out: Float64Array, arr: WheelArray): number {
+  let w = 0;
+  for (let i = 0; i < arr.n; i++) w = Math.max(w, (out[i] - hi[i]) / arr.maxTorqueNm[i], (lo[i] - out[i]) / arr.maxTorqueNm[i]);
+  return w;
+}
+
+/**
+ * Rounding guard: a wheel past its interval by ≤ CLAMP τ_max is set onto the bound (a change
  * far below any physical meaning); a larger excess shrinks the whole vector, which keeps the
  * direction. Returns the shrink factor applied (1 normally).
  */
@@ -282,7 +297,7 @@ function enforceIntervals(out: Float64Array, arr: WheelArray): number {
   const n = arr.n;
   let lam = 1;
   for (let i = 0; i < n; i++) {
-    const tiny = 1e-10 * arr.maxTorqueNm[i];
+    const tiny = CLAMP * arr.maxTorqueNm[i];
     if (out[i] > hi[i]) {
       if (out[i] - hi[i] <= tiny) out[i] = hi[i];
       else lam = Math.min(lam, hi[i] / out[i]);

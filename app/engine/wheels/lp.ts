@@ -5,7 +5,8 @@
  *   minimise cᵀz  subject to  A z ≤ b,  z ≥ 0   (b of either sign)
  *
  * Two-phase tableau simplex (Dantzig; as in Chvátal, Linear Programming, Freeman 1983, ch. 2–3
- * and 8) with Bland's smallest-index rule for both the entering and the leaving variable, which
+ * and 8): Bland's smallest-index entering rule with Harris' stable ratio test, and, should that
+ * ever hit the iteration limit, a re-solve with Bland's rule for the leaving variable too, which
  * rules out cycling on the degenerate vertices that symmetric wheel layouts produce. Phase 1
  * runs only when some b_i < 0. The result is an exact vertex optimum up to floating-point
  * rounding, not an iterative approximation.
@@ -22,6 +23,8 @@ export type LpStatus = 'optimal' | 'infeasible' | 'unbounded' | 'iteration-limit
 const EPS_PIVOT = 1e-11;
 const EPS_COST = 1e-11;
 const EPS_FEAS = 1e-9;
+const HARRIS_TOL = 1e-12;
+const PIVOT_REL = 1e-9;
 
 const COLUMN_NOISE = 1e-13;
 
@@ -40,6 +43,20 @@ export function lpMinimize(
   a: ArrayLike<number>,
   b: ArrayLike<number>,
   c: ArrayLike<number>,
+): LpStatus {
+  const status = solveOnce(z, m, nv, a, b, c, true);
+  // Harris' test does not carry Bland's termination proof; the strict rule does.
+  return status === 'iteration-limit' ? solveOnce(z, m, nv, a, b, c, false) : status;
+}
+
+function solveOnce(
+  z: Float64Array,
+  m: number,
+  nv: number,
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  c: ArrayLike<number>,
+  harris: boolean,
 ): LpStatus {
   let nArt = 0;
   for (let i = 0; i < m; i++) if (b[i] < 0) nArt++;
@@ -90,7 +107,7 @@ export function lpMinimize(
       if (basis[i] < nv + m) continue;
       for (let j = 0; j <= width; j++) t[obj + j] -= t[i * stride + j];
     }
-    const s1 = runSimplex(t, m, stride, width, width, iterLeft);
+    const s1 = runSimplex(t, m, stride, width, width, iterLeft, harris);
     if (s1 < 0) return fillZero(z, nv, 'iteration-limit');
     iterLeft -= s1;
     if (-t[obj + width] > EPS_FEAS) return fillZero(z, nv, 'infeasible');
@@ -113,7 +130,7 @@ export function lpMinimize(
     if (cb === 0) continue;
     for (let j = 0; j <= width; j++) t[obj + j] -= cb * t[i * stride + j];
   }
-  const s2 = runSimplex(t, m, stride, width, nv + m, iterLeft);
+  const s2 = runSimplex(t, m, stride, width, nv + m, iterLeft, harris);
   if (s2 === -2) return fillZero(z, nv, 'unbounded');
   if (s2 < 0) return fillZero(z, nv, 'iteration-limit');
   z.fill(0, 0, nv);
@@ -127,10 +144,24 @@ function fillZero(z: Float64Array, nv: number, s: LpStatus): LpStatus {
 }
 
 /**
- * Bland's rule iterations on the tableau; columns ≥ `enterLimit` never enter. Returns the
- * number of pivots made, −1 on the iteration limit, −2 when unbounded.
+ * Simplex iterations on the tableau; columns ≥ `enterLimit` never enter. The entering column is
+ * always the lowest-numbered one with a negative reduced cost (Bland). The leaving row:
+ * - harris: Harris' two-pass ratio test (P. M. J. Harris, "Pivot selection methods of the Devex
+ *   LP code", Math. Programming 5, 1973): the largest step allowed when every row may go
+ *   HARRIS_TOL infeasible, then among the rows blocking within it the largest pivot — avoids
+ *   dividing by tiny pivots, which otherwise wrecks the tableau on degenerate wheel layouts;
+ * - otherwise Bland's smallest-index rule, which guarantees termination.
+ * Returns the number of pivots made, −1 on the iteration limit, −2 when unbounded.
  */
-function runSimplex(t: Float64Array, m: number, stride: number, width: number, enterLimit: number, maxIter: number): number {
+function runSimplex(
+  t: Float64Array,
+  m: number,
+  stride: number,
+  width: number,
+  enterLimit: number,
+  maxIter: number,
+  harris: boolean,
+): number {
   const obj = m * stride;
   for (let it = 0; it < maxIter; it++) {
     let q = -1;
@@ -142,18 +173,42 @@ function runSimplex(t: Float64Array, m: number, stride: number, width: number, e
     }
     if (q < 0) return it;
     let r = -1;
-    let best = Infinity;
-    for (let i = 0; i < m; i++) {
-      const aiq = t[i * stride + q];
-      if (aiq <= EPS_PIVOT) continue;
-      const ratio = t[i * stride + width] / aiq;
-      const tie = 1e-14 * (1 + Math.abs(best));
-      if (r < 0 || ratio < best - tie || (ratio <= best + tie && basis[i] < basis[r])) {
-        best = ratio;
-        r = i;
+    if (harris) {
+      // Pivots below PIVOT_REL × the column's largest entry are not trusted (rows equilibrated).
+      let colBig = 0;
+      for (let i = 0; i < m; i++) colBig = Math.max(colBig, Math.abs(t[i * stride + q]));
+      const minPivot = Math.max(EPS_PIVOT, PIVOT_REL * colBig);
+      let thetaMax = Infinity;
+      for (let i = 0; i < m; i++) {
+        const aiq = t[i * stride + q];
+        if (aiq > minPivot) thetaMax = Math.min(thetaMax, (t[i * stride + width] + HARRIS_TOL) / aiq);
+      }
+      if (thetaMax === Infinity) return -2;
+      let bestCoef = 0;
+      for (let i = 0; i < m; i++) {
+        const aiq = t[i * stride + q];
+        if (aiq <= minPivot || t[i * stride + width] / aiq > thetaMax) continue;
+        if (aiq > bestCoef * (1 + 1e-12) || (aiq >= bestCoef * (1 - 1e-12) && basis[i] < basis[r])) {
+          bestCoef = aiq;
+          r = i;
+        }
+      }
+    } else {
+      let best = Infinity;
+      for (let i = 0; i < m; i++) {
+        const aiq = t[i * stride + q];
+        if (aiq <= EPS_PIVOT) continue;
+        const ratio = t[i * stride + width] / aiq;
+        const tie = 1e-14 * (1 + Math.abs(best));
+        if (r < 0 || ratio < best - tie || (ratio <= best + tie && basis[i] < basis[r])) {
+          best = ratio;
+          r = i;
+        }
       }
     }
     if (r < 0) return -2;
+    // Harris may pick a row a hair infeasible; step from zero there, never backwards.
+    if (t[r * stride + width] < 0) t[r * stride + width] = 0;
     pivot(t, m, stride, width, r, q);
   }
   return -1;
@@ -171,8 +226,8 @@ function pivot(t: Float64Array, m: number, stride: number, width: number, r: num
     if (f === 0) continue;
     for (let j = 0; j <= width; j++) t[row + j] -= f * t[pr + j];
     t[row + q] = 0;
-    // Rounding can push a basic value a hair below zero; it is zero.
-    if (i < m && t[row + width] < 0 && t[row + width] > -1e-13) t[row + width] = 0;
+    // Rounding (and Harris' tolerance) can push a basic value a hair below zero; it is zero.
+    if (i < m && t[row + width] < 0 && t[row + width] > -1e-11) t[row + width] = 0;
   }
   basis[r] = q;
 }

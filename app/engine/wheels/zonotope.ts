@@ -45,15 +45,22 @@ export interface Zonotope {
    * is consistent with no faces.
    */
   consistent: boolean;
+  /**
+   * The tolerances the accepted structure was built with (see the file header). Axes closer than
+   * `parallelRad` to parallel act as parallel, and as coplanar within `planeRad`; faces, vertices
+   * and capacities are exact up to errors of that relative size (plain rounding otherwise).
+   */
+  tolerance: { parallelRad: number; planeRad: number };
 }
 
 /** (parallel tolerance on |u × w|, plane tolerance on |u·c|), unit vectors; tried in order. */
 const TOLERANCES: ReadonlyArray<readonly [number, number]> = [
   [1e-8, 1e-11],
-  [1e-6, 1e-9],
   [1e-10, 1e-13],
-  [1e-5, 1e-8],
+  [1e-6, 1e-9],
+  [1e-12, 1e-14],
   [1e-4, 1e-7],
+  [1e-3, 1e-6],
 ];
 /** Keeps sign-pattern keys exact integers (2^48 < 2^53). */
 const MAX_CLASSES = 48;
@@ -73,11 +80,13 @@ interface Structure {
 export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope['kind'] = 'custom'): Zonotope {
   let chosen: Structure | null = null;
   let first: Structure | null = null;
+  let tolerance = { parallelRad: TOLERANCES[0][0], planeRad: TOLERANCES[0][1] };
   for (const [parTol, planeTol] of TOLERANCES) {
     const st = buildStructure(generators, n, parTol, planeTol);
     first ??= st;
     if (isClosedSurface(st)) {
       chosen = st;
+      tolerance = { parallelRad: parTol, planeRad: planeTol };
       break;
     }
   }
@@ -132,6 +141,7 @@ export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope
     faceOffsets,
     edgeCount: edgeTwice / 2,
     consistent,
+    tolerance,
   };
 }
 
