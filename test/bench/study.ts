@@ -7,6 +7,7 @@
  * Run: node --import tsx test/bench/study.ts, or npm run bench -- study.
  */
 import { readFileSync } from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { prepareScenario, runOne } from '../../app/engine/pipeline/run';
@@ -35,7 +36,10 @@ export async function benchStudy(): Promise<void> {
   const nLaws = json.study.controllers.length;
   const cases = SLEWS / nLaws;
 
-  // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop).
+  const load = () => os.loadavg()[0].toFixed(1);
+  console.log(`   machine: ${os.cpus().length} cores, 1-min load average ${load()} at start (other jobs on the machine inflate every figure)`);
+
+  // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop), median of 9.
   const single = JSON.parse(JSON.stringify(json));
   single.simulation.mode = 'direct';
   single.simulation.tailS = 0;
@@ -46,24 +50,27 @@ export async function benchStudy(): Promise<void> {
   if (!p.ok) throw new Error('scenario refused');
   const targets = Float64Array.from(p.value.scenario.targets[0].qInertialFromBody);
   runOne(p.value, p.value.controllers[0], 'direct', targets);
-  const reps = 10;
-  let t0 = performance.now();
+  const singles: number[] = [];
   let samples = 0;
-  for (let k = 0; k < reps; k++) samples = runOne(p.value, p.value.controllers[0], 'direct', targets).trace.n;
-  const singleMs = (performance.now() - t0) / reps;
-  console.log(`   single run (pipeline runOne, hysteretic, ${samples} samples ≈ ${(samples / 10).toFixed(0)} s at 10 Hz, no early stop): ${ms(singleMs)}`);
+  for (let k = 0; k < 9; k++) {
+    const t = performance.now();
+    samples = runOne(p.value, p.value.controllers[0], 'direct', targets).trace.n;
+    singles.push(performance.now() - t);
+  }
+  const singleMs = median(singles);
+  console.log(`   single run (pipeline runOne, hysteretic, ${samples} samples = 600 s at 10 Hz, no early stop): ${ms(singleMs)} (median of 9)`);
 
-  // 2. In-thread cost per case and where it goes.
+  // 2. In-thread cost per case over every 20th case of the study (a fair sample of its mix).
   const c = makeStudyContext(json);
   if (!c.ok) throw new Error('study refused');
   const ctx = c.value;
-  const probe = 60;
-  for (let i = 0; i < 5; i++) runCase(ctx, i); // warm up
-  let tDraw = 0, tFly = 0, tMetrics = 0, simS = 0, nRuns = 0;
-  t0 = performance.now();
-  for (let i = 0; i < probe; i++) runCase(ctx, i);
-  const perCase = (performance.now() - t0) / probe;
-  for (let i = 0; i < probe; i++) {
+  const probe = Array.from({ length: 100 }, (_, k) => 20 * k);
+  for (let i = 0; i < 3; i++) runCase(ctx, probe[i]); // warm up
+  let t0 = performance.now();
+  for (const i of probe) runCase(ctx, i);
+  const perCase = (performance.now() - t0) / probe.length;
+  let tDraw = 0, tFly = 0, tMetrics = 0, simS = 0, nRuns = 0, nSamples = 0;
+  for (const i of probe.slice(0, 30)) {
     let a = performance.now();
     const d = drawCase(ctx.def, ctx.nominal, i);
     const v = buildCaseVehicle(ctx, d);
@@ -81,16 +88,19 @@ export async function benchStudy(): Promise<void> {
       });
       tMetrics += performance.now() - a;
       simS += f.res.trace.t[f.res.trace.n - 1];
+      nSamples += f.res.trace.n;
       nRuns++;
     }
   }
   const perSlew = perCase / nLaws;
   console.log(`   in one thread: ${ms(perCase)} per case (${nLaws} laws) = ${ms(perSlew)} per slew; early stop leaves ${(simS / nRuns).toFixed(0)} of 600 simulated s per slew on average`);
   const flyPer = tFly / nRuns, metPer = tMetrics / nRuns;
-  console.log(`   per slew: closed loop ${ms(flyPer - metPer)} (${((1e3 * (flyPer - metPer)) / ((simS / nRuns) * 10)).toFixed(2)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / probe / nLaws)}`);
+  const samplesPer = nSamples / nRuns; // the study draws 5 or 10 Hz per case
+  console.log(`   per slew: closed loop ${ms(flyPer - metPer)} (≈ ${((1e3 * (flyPer - metPer)) / samplesPer).toFixed(1)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / 30 / nLaws)}`);
 
   // 3. Two worker threads, 10,000 slews.
   const threads = [threadPort(), threadPort()];
+  const cpu0 = process.cpuUsage();
   const tStart = performance.now();
   let tReady = 0;
   const study = startStudyParallel(json, threads.map((t) => t.port), {
@@ -101,14 +111,23 @@ export async function benchStudy(): Promise<void> {
   });
   const r = await study.result;
   const wall = performance.now() - tStart;
+  const cpu = process.cpuUsage(cpu0);
   await Promise.all(threads.map((t) => t.worker.terminate()));
   if (!r.ok) throw new Error('parallel study refused');
   const compute = wall - (tReady - tStart);
-  const efficiency = (perCase * cases) / (2 * compute);
+  const ideal = (perCase * cases) / 2;
   console.log(`   2 worker threads, ${cases} cases × ${nLaws} laws = ${SLEWS} slews: ${(wall / 1e3).toFixed(1)} s wall (target ≤ 10 s), of which ${((tReady - tStart) / 1e3).toFixed(1)} s worker start-up (tsx + study context)`);
-  console.log(`   parallel efficiency (in-thread time / (2 × parallel compute time)): ${(100 * efficiency).toFixed(0)} %; ${(compute / SLEWS).toFixed(2)} ms wall per slew; single run / study slew = ${(singleMs / perSlew).toFixed(1)}×`);
-  const s = r.value.summary;
-  console.log(`   study outcome: ${s.casesDone} cases; settled share per law: ${s.controllers.map((c) => `${c.controllerId} ${(100 * c.settledShare).toFixed(1)} %`).join(', ')}`);
+  console.log(`   parallel efficiency = in-thread estimate / 2 / parallel compute time = ${(ideal / 1e3).toFixed(1)} s / ${(compute / 1e3).toFixed(1)} s = ${((100 * ideal) / compute).toFixed(0)} %; CPU used ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s of ${((2 * wall) / 1e3).toFixed(1)} s available on 2 cores; load average ${load()} at the end`);
+  const cpuS = (cpu.user + cpu.system) / 1e6;
+  console.log(`   CPU per slew in the parallel run: ${((1e3 * cpuS) / SLEWS).toFixed(2)} ms → on 2 otherwise idle cores about ${(cpuS / 2 + (tReady - tStart) / 1e3).toFixed(1)} s for the ${SLEWS} slews (CPU / 2 + start-up)`);
+  console.log(`   single 600 s run / study slew (early stop): ${(singleMs / perSlew).toFixed(1)}×; ${(compute / SLEWS).toFixed(2)} ms wall per slew in the parallel run`);
+  const sm = r.value.summary;
+  console.log(`   study outcome: ${sm.casesDone} cases; settled share per law: ${sm.controllers.map((x) => `${x.controllerId} ${(100 * x.settledShare).toFixed(1)} %`).join(', ')}`);
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) await benchStudy();
