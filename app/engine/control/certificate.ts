@@ -126,6 +126,11 @@ function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number,
 const CACHE_SIZE = 16;
 const cache = new Map<string, CertificateResult>();
 
+/** Forget cached certificates (benchmarks time the computation, not the cache). */
+export function clearCertificateCache(): void {
+  cache.clear();
+}
+
 function cacheKey(params: CertifyParams, options: CertifyOptions): string {
   const f = params.family;
   return JSON.stringify([Array.from(f.A), f.k, Array.from(f.directions), params.delta, options]);
