@@ -32,11 +32,14 @@ import { bodyTorqueFromWheelTorque } from '../wheels/array';
 import { simulateHybrid } from '../hybrid/simulate';
 import { createLimitInfo } from '../wheels/limits';
 import type { HybridSystem } from '../hybrid/types';
-import { qAngleBetween, qNormalize } from '../math/rotation';
+import { qNormalize } from '../math/rotation';
 import { makeRng } from '../math/prng';
 import type { SensorModel } from './sensors';
 import { measure } from './sensors';
-import { TraceBuilder, type TraceSample } from './trace';
+import {
+  PACKED_ERROR_ANGLE, PACKED_GAP, PACKED_LOGIC, PACKED_LYAPUNOV, PACKED_POTENTIAL, PACKED_POTENTIAL_MIN, PACKED_SCALARS, PACKED_T,
+  TraceBuilder, type PackedSample,
+} from './trace';
 import type { JumpEvent, RunOutcome, RunTrace } from './types';
 
 /** Where the controller's reference comes from: a planned profile or a fixed target per segment. */
@@ -124,12 +127,12 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const pulseEnd = new Float64Array(N);
   const zero3 = new Float64Array(3);
   const limitInfo = createLimitInfo();
-  // One sample record, refilled at every sample (its arrays are the scratch above).
-  const rec: TraceSample = {
-    t: 0, j: 0, segment: 0, q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
+  // One sample record, refilled at every sample (its arrays are the scratch above; numbers in `scalars`).
+  const rec: PackedSample = {
+    j: 0, segment: 0, scalars: new Float64Array(PACKED_SCALARS), q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
     torqueCmdBody: tauCmd, torqueBody: tauBody, wheelTorqueCmd: wheelCmd, wheelTorque: wheelHeld,
-    logic: 0, errorAngle: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0,
   };
+  const recScalars = rec.scalars;
   const sc = new Float64Array(3);
   sc[SETTLED_SINCE] = -1;
 
@@ -205,19 +208,20 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   };
 
   const record = (t: number) => {
+    // diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (types.ts)
     ctrl.diagnostics(diag, trueInput, logic);
     bodyTorqueFromWheelTorque(tauBody, cfg.wheels, wheelHeld);
-    const err = qAngleBetween(qTrue, qRef);
-    rec.t = t;
+    const err = diag.errorAngle;
     rec.j = logicJumps;
     rec.segment = segment < 0 ? 0 : segment;
-    rec.logic = logic;
-    rec.errorAngle = err;
-    rec.potential = diag.potential;
-    rec.potentialMin = diag.potentialMin;
-    rec.gap = diag.gap;
-    rec.lyapunov = diag.lyapunov;
-    builder.push(rec);
+    recScalars[PACKED_T] = t;
+    recScalars[PACKED_LOGIC] = logic;
+    recScalars[PACKED_ERROR_ANGLE] = err;
+    recScalars[PACKED_POTENTIAL] = diag.potential;
+    recScalars[PACKED_POTENTIAL_MIN] = diag.potentialMin;
+    recScalars[PACKED_GAP] = diag.gap;
+    recScalars[PACKED_LYAPUNOV] = diag.lyapunov;
+    builder.pushPacked(rec);
     if (settleFor > 0) {
       const ex = wTrue[0] - wRef[0], ey = wTrue[1] - wRef[1], ez = wTrue[2] - wRef[2];
       const ok = err < settleAngle && Math.sqrt(ex * ex + ey * ey + ez * ez) < settleRate;

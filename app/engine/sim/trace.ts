@@ -53,6 +53,36 @@ export interface TraceSample {
   lyapunov: number;
 }
 
+/** Slots of PackedSample.scalars. */
+export const PACKED_T = 0;
+export const PACKED_LOGIC = 1;
+export const PACKED_ERROR_ANGLE = 2;
+export const PACKED_POTENTIAL = 3;
+export const PACKED_POTENTIAL_MIN = 4;
+export const PACKED_GAP = 5;
+export const PACKED_LYAPUNOV = 6;
+export const PACKED_SCALARS = 7;
+
+/**
+ * The same sample as TraceSample with its per-sample numbers in one Float64Array (PACKED_* slots).
+ * The closed loop refills one of these per sample: numbers kept in object fields that change every
+ * sample are boxed by V8 (an allocation per write and per read), numbers in a typed array are not.
+ */
+export interface PackedSample {
+  j: number;
+  segment: number;
+  scalars: Float64Array;
+  q: Float64Array;
+  omega: Float64Array;
+  hWheel: Float64Array;
+  qRef: Float64Array;
+  omegaRef: Float64Array;
+  torqueCmdBody: Float64Array;
+  torqueBody: Float64Array;
+  wheelTorqueCmd: Float64Array;
+  wheelTorque: Float64Array;
+}
+
 /**
  * A RunTrace with room for `capacity` samples (n = 0). Built as ONE object literal so every trace
  * has the same fast hidden class: adding the channels one by one with computed keys turned the
@@ -129,6 +159,40 @@ export class TraceBuilder {
     tr.potentialMin[k] = s.potentialMin;
     tr.gap[k] = s.gap;
     tr.lyapunov[k] = s.lyapunov;
+    tr.n = k + 1;
+  }
+
+  /** Append a PackedSample (no allocation in the steady state). */
+  pushPacked(s: PackedSample): void {
+    if (this.trace.n >= this.cap) this.grow();
+    const tr = this.trace;
+    const k = tr.n;
+    const N = tr.nWheels;
+    const x = s.scalars;
+    tr.t[k] = x[PACKED_T];
+    tr.j[k] = s.j;
+    tr.segment[k] = s.segment;
+    for (let i = 0; i < 4; i++) {
+      tr.q[4 * k + i] = s.q[i];
+      tr.qRef[4 * k + i] = s.qRef[i];
+    }
+    for (let i = 0; i < 3; i++) {
+      tr.omega[3 * k + i] = s.omega[i];
+      tr.omegaRef[3 * k + i] = s.omegaRef[i];
+      tr.torqueCmdBody[3 * k + i] = s.torqueCmdBody[i];
+      tr.torqueBody[3 * k + i] = s.torqueBody[i];
+    }
+    for (let i = 0; i < N; i++) {
+      tr.hWheel[N * k + i] = s.hWheel[i];
+      tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i];
+      tr.wheelTorque[N * k + i] = s.wheelTorque[i];
+    }
+    tr.logic[k] = x[PACKED_LOGIC];
+    tr.errorAngle[k] = x[PACKED_ERROR_ANGLE];
+    tr.potential[k] = x[PACKED_POTENTIAL];
+    tr.potentialMin[k] = x[PACKED_POTENTIAL_MIN];
+    tr.gap[k] = x[PACKED_GAP];
+    tr.lyapunov[k] = x[PACKED_LYAPUNOV];
     tr.n = k + 1;
   }
 
