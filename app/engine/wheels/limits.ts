@@ -167,7 +167,7 @@ function limitCore(
         const wheel = activeWheel(out, arr);
         const full = s >= 1 - 1e-9;
         const reason: LimitReason = full ? 'momentum-null-space' : wheel >= 0 && isMomentumBound(out, wheel, arr) ? 'momentum' : 'torque';
-        return setInfo(info, full ? 1 : s, reason, full ? -1 : wheel, true);
+        return setInfo(info, s, reason, full ? -1 : wheel, true);
       }
     }
   }
