@@ -8,6 +8,7 @@ type Bench = { file: string; fn: string; title: string };
 const benches: Bench[] = [
   { file: './engine.ts', fn: 'benchEngine', title: 'Engine: 600 s gyrostat run, 10 Hz zero-order hold' },
   { file: './control.ts', fn: 'benchControl', title: 'Synergistic flow-set check over uniform attitudes' },
+  { file: './wheels.ts', fn: 'benchWheels', title: 'Wheel allocation, limiting, envelopes' },
   { file: './plan.ts', fn: 'benchPlan', title: 'Slew planner' },
   { file: './pipeline.ts', fn: 'benchPipeline', title: 'Scenario pipeline (plan + closed-loop runs)' },
   { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
