@@ -97,7 +97,7 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
   });
 }
 
-const rotate = (q: number[], v: number[]) => new Quaternion(q[3], q[0], q[1], q[2]).rotateVector(v);
+const rotate = (q: number[], v: number[]): number[] => new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0], v[1], v[2]]) as number[];
 const angle = (a: number[], b: number[]) => {
   const d = (a[0] * b[0] + a[1] * b[1] + a[2] * b[2]) / (Math.hypot(a[0], a[1], a[2]) * Math.hypot(b[0], b[1], b[2]));
   return Math.acos(Math.min(1, Math.max(-1, d)));

@@ -50,7 +50,7 @@ async function bracket(page: Page): Promise<TraceProbe> {
 
 /** Body X axis in inertial axes for a stored [x, y, z, w] attitude, by the npm quaternion library (v_I = q v_B q*). */
 function bodyXInertial(q: number[]): number[] {
-  return new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([1, 0, 0]);
+  return new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([1, 0, 0]) as number[];
 }
 
 const angle = (a: number[], b: number[]) => {

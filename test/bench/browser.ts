@@ -1,0 +1,394 @@
+/**
+ * The renderer in headless Chromium (Debian's /usr/bin/chromium, WebGL through SwiftShader),
+ * against the production build served by `vite preview` on 127.0.0.1. Figures only, no
+ * assertions. Three measurements, each printed with its target:
+ *
+ *  1. Cold start to first plot: navigation start (performance.timeOrigin) → the five always-shown
+ *     plots painted with data (coloured pixels on their canvases, checked every animation frame),
+ *     in a fresh browser context each time (empty HTTP cache, new worker); median of 5 loads.
+ *     Target ≤ 1.5 s.
+ *  2. Edit → updated plots on the demo (three controllers, each profiled and direct: six runs):
+ *     the Jxx field filled as a user types (alternately 0.13 and 0.11), timed from the input event
+ *     to the first moment the error-angle plot's pixels change after the new output arrived, with
+ *     the phases between: the runner's debounce (input → 'running'), the worker round trip
+ *     ('running' → 'done', of which the engine's own elapsedMs), and store → pixels (React render
+ *     plus chart draw). Median of 7 edits. Target ≤ 50 ms.
+ *  3. 3D scene update per new time with a ≥ 10,000-sample run: the demo at 30 Hz control with a
+ *     60 s tail, opened through the app's Open command; per animation frame one setTime and one
+ *     render() call of the view, script time by performance.now() in the page (render() is the
+ *     JavaScript side plus GL command submission; SwiftShader's frame rate says nothing about a
+ *     real GPU). Half playback-like steps, half random scrubbing; median and p95. Target ≤ 2 ms of
+ *     script time per setTime (+ render shown separately).
+ *
+ * Run: `node --import tsx test/bench/browser.ts` or `npm run bench browser`.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { preview } from 'vite';
+import { electronConfig } from '../../electron.config';
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+const chromiumPath = process.env.SLEWSMITH_CHROMIUM ?? '/usr/bin/chromium';
+// The same flags as the e2e harness (test/e2e/harness.ts); never --disable-software-rasterizer.
+const ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--enable-unsafe-swiftshader',
+  '--use-angle=swiftshader',
+];
+const VIEWPORT = { width: 1440, height: 900 };
+const PLOTS = ['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'lyapunov'];
+
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+function quantile(v: number[], p: number): number {
+  const s = [...v].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.floor(p * s.length))];
+}
+
+const ms = (x: number) => `${x.toFixed(x < 10 ? 2 : 0)} ms`;
+
+/**
+ * Installed before the page's scripts (injected by the browser, so the page's CSP does not apply):
+ * `__name` is a no-op for functions this file passes to page.evaluate (tsx compiles them with
+ * esbuild's keepNames, which wraps named functions in a `__name` call the page does not define),
+ * and a frame-by-frame probe that stamps when the run finished and when every always-shown plot
+ * has data pixels.
+ */
+const INIT_SCRIPT = `
+globalThis.__name = (f) => f;
+(() => {
+  const ids = ${JSON.stringify(PLOTS)};
+  const marks = (window.__bench = { done: null, painted: null, firstPost: null, firstReply: null, view: { setRunsMs: 0, setRuns: 0, renderMs: 0, renders: 0 } });
+  // When the app first posts a run to its pipeline worker and when the first reply arrives.
+  const NativeWorker = window.Worker;
+  window.Worker = function (...args) {
+    const w = new NativeWorker(...args);
+    const post = w.postMessage.bind(w);
+    w.postMessage = (...m) => { if (marks.firstPost === null) marks.firstPost = performance.now(); post(...m); };
+    w.addEventListener('message', () => { if (marks.firstReply === null) marks.firstReply = performance.now(); });
+    return w;
+  };
+  // Time spent in the 3D view's setRuns and render (wrapped on the handle the app calls).
+  const wrapView = () => {
+    const v = window.__slewsmithView;
+    if (!v || v.__benchWrapped) return;
+    v.__benchWrapped = true;
+    const setRuns = v.setRuns, render = v.render;
+    v.setRuns = (...a) => { const t = performance.now(); setRuns(...a); marks.view.setRunsMs += performance.now() - t; marks.view.setRuns++; };
+    v.render = () => { if (window.__benchSkipRender) return; const t = performance.now(); render(); marks.view.renderMs += performance.now() - t; marks.view.renders++; };
+  };
+  const hasData = (c) => {
+    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+    let n = 0;
+    for (let i = 0; i < d.length; i += 4) {
+      const mx = Math.max(d[i], d[i + 1], d[i + 2]), mn = Math.min(d[i], d[i + 1], d[i + 2]);
+      if (d[i + 3] > 128 && mx - mn > 60 && ++n > 200) return true;
+    }
+    return false;
+  };
+  const tick = () => {
+    wrapView();
+    const st = document.querySelector('[data-testid=run-status]');
+    if (st && st.getAttribute('data-status') === 'done') {
+      if (marks.done === null) marks.done = performance.now();
+      let all = true;
+      for (const id of ids) {
+        const c = document.querySelector('.plot-card[data-plot="' + id + '"] canvas');
+        if (!c || !hasData(c)) { all = false; break; }
+      }
+      if (all) { marks.painted = performance.now(); return; }
+    }
+    requestAnimationFrame(tick);
+  };
+  requestAnimationFrame(tick);
+})();
+`;
+
+async function newPage(browser: Browser, skip3d = false): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport: VIEWPORT });
+  await context.addInitScript({ content: INIT_SCRIPT + (skip3d ? '\nwindow.__benchSkipRender = true;' : '') });
+  const page = await context.newPage();
+  return { context, page };
+}
+
+async function waitForDone(page: Page): Promise<void> {
+  await page.locator('[data-testid=run-status][data-status=done]').waitFor({ timeout: 120_000 });
+}
+
+/** `skip3d`: the 3D view's render() does nothing (isolates the software-GL frames; see editToPlots). */
+async function coldStart(browser: Browser, url: string, loads: number, skip3d: boolean): Promise<void> {
+  const painted: number[] = [], done: number[] = [], dcl: number[] = [], engine: number[] = [], post: number[] = [], reply: number[] = [];
+  for (let k = 0; k < loads; k++) {
+    const { context, page } = await newPage(browser, skip3d);
+    await page.goto(url, { waitUntil: 'load' });
+    await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, { timeout: 120_000 });
+    const m = await page.evaluate(() => {
+      const b = (window as unknown as { __bench: { done: number; painted: number; firstPost: number; firstReply: number } }).__bench;
+      const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
+      const out = (window as unknown as { __slewsmith: { store: { getState(): { output: { elapsedMs: number } } } } }).__slewsmith.store.getState().output;
+      return { painted: b.painted, done: b.done, dcl: nav.domContentLoadedEventEnd, engine: out.elapsedMs, post: b.firstPost, reply: b.firstReply };
+    });
+    painted.push(m.painted);
+    done.push(m.done);
+    dcl.push(m.dcl);
+    engine.push(m.engine);
+    post.push(m.post);
+    reply.push(m.reply);
+    await context.close();
+  }
+  console.log(
+    `   ${skip3d ? 'same, 3D view render() skipped' : 'cold start → five plots with data'}: median ${ms(median(painted))} (min ${ms(Math.min(...painted))}, max ${ms(Math.max(...painted))}, ${loads} loads)${skip3d ? '' : '   [target ≤ 1500 ms]'}`,
+  );
+  console.log(
+    `     of which (medians, from navigation start): DOMContentLoaded ${ms(median(dcl))}; first run posted to the worker ${ms(median(post))}; ` +
+      `its reply ${ms(median(reply))} (worker start-up + engine pipeline ${ms(median(engine))} for six runs + transfer); ` +
+      `run status 'done' in the DOM ${ms(median(done))}; plots painted ${ms(median(painted))} (frame-probe resolution ≈ 17 ms)`,
+  );
+}
+
+interface EditTimes {
+  input: number;
+  running: number;
+  done: number;
+  /** The run status shown as done in the DOM (React committed the new output). */
+  commit: number;
+  painted: number;
+  elapsed: number;
+  /** Time inside the 3D view's setRuns and render calls between the edit and the updated plot. */
+  setRunsMs: number;
+  renderMs: number;
+  renders: number;
+}
+
+/** Arms the page-side recorder for one edit (resolved in window.__benchEdit). */
+async function armEdit(page: Page): Promise<void> {
+  await page.evaluate(() => {
+    type St = { pipeline: { status: string }; output: { elapsedMs: number } | null };
+    const app = (window as unknown as { __slewsmith: { store: { getState(): St; subscribe(l: (s: St, p: St) => void): () => void } } }).__slewsmith;
+    const store = app.store;
+    const canvasOf = () => document.querySelector<HTMLCanvasElement>('.plot-card[data-plot="error-angle"] canvas');
+    const checksum = (c: HTMLCanvasElement | null) => {
+      if (!c) return -1;
+      const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
+      let h = 0;
+      for (let i = 0; i < d.length; i += 4) h = (Math.imul(h, 31) + d[i] + 7 * d[i + 1] + 13 * d[i + 2]) | 0;
+      return h;
+    };
+    const prevOut = store.getState().output;
+    const sum0 = checksum(canvasOf());
+    const view = (window as unknown as { __bench: { view: { setRunsMs: number; renderMs: number; renders: number } } }).__bench.view;
+    const view0 = { ...view };
+    const rec = { input: NaN, running: NaN, done: NaN, commit: NaN, painted: NaN, elapsed: NaN, setRunsMs: NaN, renderMs: NaN, renders: NaN };
+    const status = document.querySelector('[data-testid=run-status]')!;
+    const mo = new MutationObserver(() => {
+      if (!Number.isNaN(rec.done) && Number.isNaN(rec.commit) && status.getAttribute('data-status') === 'done') rec.commit = performance.now();
+    });
+    mo.observe(status, { attributes: true, attributeFilter: ['data-status'] });
+    const w = window as unknown as { __benchEdit: Promise<typeof rec> };
+    w.__benchEdit = new Promise((resolve) => {
+      const onInput = () => {
+        if (Number.isNaN(rec.input)) rec.input = performance.now();
+      };
+      window.addEventListener('input', onInput, true);
+      const ch = new MessageChannel();
+      // From 'done' on, poll between tasks (sub-millisecond) for the plot's pixels to change.
+      ch.port1.onmessage = () => {
+        const out = store.getState().output;
+        if (out !== prevOut && checksum(canvasOf()) !== sum0) {
+          rec.painted = performance.now();
+          rec.elapsed = out ? out.elapsedMs : NaN;
+          rec.setRunsMs = view.setRunsMs - view0.setRunsMs;
+          rec.renderMs = view.renderMs - view0.renderMs;
+          rec.renders = view.renders - view0.renders;
+          mo.disconnect();
+          window.removeEventListener('input', onInput, true);
+          unsub();
+          resolve(rec);
+        } else ch.port2.postMessage(0);
+      };
+      const unsub = store.subscribe((s, p) => {
+        if (s.pipeline.status === p.pipeline.status) return;
+        const now = performance.now();
+        if (s.pipeline.status === 'running') rec.running = now;
+        if (s.pipeline.status === 'done' && s.output !== prevOut && Number.isNaN(rec.done)) {
+          rec.done = now;
+          ch.port2.postMessage(0);
+        }
+      });
+    });
+  });
+}
+
+/**
+ * `skip3d`: the 3D view's render() does nothing during the edits, which isolates what one 3D frame
+ * costs the main thread here (shader programs rebuilt for the new run set, then the compositor
+ * waiting for SwiftShader and reading the preserved drawing buffer back: software-GL artefacts).
+ */
+async function editToPlots(browser: Browser, url: string, edits: number, skip3d: boolean): Promise<void> {
+  const { context, page } = await newPage(browser);
+  await page.goto(url, { waitUntil: 'load' });
+  await waitForDone(page);
+  await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, { timeout: 120_000 });
+  await page.evaluate((skip) => ((window as unknown as { __benchSkipRender: boolean }).__benchSkipRender = skip), skip3d);
+  const jxx = page.getByLabel('Jxx', { exact: true });
+  const times: EditTimes[] = [];
+  for (let k = 0; k < edits; k++) {
+    await armEdit(page);
+    await jxx.fill(k % 2 === 0 ? '0.13' : '0.11');
+    const r = await page.evaluate(() => (window as unknown as { __benchEdit: Promise<EditTimes> }).__benchEdit);
+    times.push(r);
+    await page.waitForTimeout(300);
+  }
+  await context.close();
+  const total = times.map((t) => t.painted - t.input);
+  const debounce = times.map((t) => t.running - t.input);
+  const worker = times.map((t) => t.done - t.running);
+  const engine = times.map((t) => t.elapsed);
+  const render = times.map((t) => t.painted - t.done);
+  const commit = times.map((t) => t.commit - t.done);
+  const setRuns = times.map((t) => t.setRunsMs);
+  const view = times.map((t) => t.renderMs);
+  const renders = times.map((t) => t.renders);
+  const what = skip3d ? 'same, 3D view render() skipped' : 'edit (Jxx) → error-angle plot updated, demo with 3 controllers × 2 modes';
+  console.log(`   ${what}: median ${ms(median(total))} (max ${ms(Math.max(...total))}, ${edits} edits)${skip3d ? '' : '   [target ≤ 50 ms]'}`);
+  console.log(
+    `     phases (medians): debounce of the runner ${ms(median(debounce))}; worker round trip ${ms(median(worker))} ` +
+      `(engine pipeline ${ms(median(engine))}, messaging and transfer ${ms(median(worker.map((w, i) => w - engine[i])))}); ` +
+      `store → plot pixels ${ms(median(render))} (React commit of the new output ${ms(median(commit))})`,
+  );
+  console.log(
+    `     main-thread time inside the 3D view between edit and updated plot (medians): setRuns ${ms(median(setRuns))}, ` +
+      `render ${ms(median(view))} over ${median(renders)} call(s)`,
+  );
+}
+
+async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<void> {
+  const demo = JSON.parse(fs.readFileSync(path.join(root, electronConfig.demoScenario), 'utf8'));
+  demo.name = 'Lumen-6 imaging pass at 30 Hz (bench copy)';
+  demo.vehicle.controlRateHz = 30;
+  demo.simulation.tailS = 60;
+  const file = path.join(dir, 'lumen6-30hz.scenario.json');
+  fs.writeFileSync(file, JSON.stringify(demo, null, 2));
+
+  const { context, page } = await newPage(browser);
+  await page.goto(url, { waitUntil: 'load' });
+  await waitForDone(page);
+  const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByTestId('cmd-open').click()]);
+  await chooser.setFiles(file);
+  await page.getByTestId('document-name').filter({ hasText: demo.name }).waitFor({ timeout: 20_000 });
+  await waitForDone(page);
+
+  const measure = (keys: string[]) =>
+    page.evaluate(async (keys) => {
+      type Run = { key: string; trace: { n: number; t: Float64Array } };
+      const app = (window as unknown as {
+        __slewsmith: { store: { getState(): { output: { runs: Run[] } }; selectRuns(k: string[]): void }; clock: { pause(): void } };
+      }).__slewsmith;
+      app.clock.pause();
+      app.store.selectRuns(keys);
+      const raf = () => new Promise<number>((r) => requestAnimationFrame(r));
+      await raf();
+      await raf();
+      const v = (window as unknown as { __slewsmithView: { setTime(t: number): void; render(): void; stats: { lastUpdateMs: number }; model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView;
+      const runs = app.store.getState().output.runs.filter((r) => keys.includes(r.key));
+      const n = Math.min(...runs.map((r) => r.trace.n));
+      const tr = runs[0].trace;
+      const tEnd = tr.t[tr.n - 1];
+      let seed = 12345;
+      const rand = () => ((seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 4294967296);
+      const set: number[] = [], ren: number[] = [], stat: number[] = [];
+      const frames = 240, warm = 30;
+      for (let k = 0; k < warm + frames; k++) {
+        await raf();
+        const j = k - warm;
+        const t = j < frames / 2 ? (Math.max(0, j) * 0.5) % tEnd : rand() * tEnd;
+        const a = performance.now();
+        v.setTime(t);
+        const b = performance.now();
+        v.render();
+        const c = performance.now();
+        if (j >= 0) {
+          set.push(b - a);
+          ren.push(c - b);
+          stat.push(v.stats.lastUpdateMs);
+        }
+      }
+      // performance.now() is coarsened to 0.1 ms in a page that is not cross-origin isolated: a
+      // batch of setTime calls gives the mean below that resolution.
+      const batch = 2000;
+      const b0 = performance.now();
+      for (let k = 0; k < batch; k++) v.setTime(rand() * tEnd);
+      const batchMeanMs = (performance.now() - b0) / batch;
+      return { n, runs: runs.length, viewRuns: v.model.viewports.reduce((s, vp) => s + vp.runs.length, 0), set, ren, stat, batchMeanMs };
+    }, keys);
+
+  for (const keys of [['pd:profiled'], ['pd:profiled', 'hysteretic:profiled', 'synergistic:profiled']]) {
+    const r = await measure(keys);
+    const both = r.set.map((s, i) => s + r.ren[i]);
+    console.log(
+      `   3D update, ${r.viewRuns} run(s) × ${r.n} samples (${keys.length > 1 ? 'overlay' : 'single'}): setTime median ${ms(median(r.set))} (p95 ${ms(quantile(r.set, 0.95))}; view's own lastUpdateMs median ${ms(median(r.stat))}; mean of 2000 back-to-back ${(r.batchMeanMs * 1000).toFixed(1)} µs); ` +
+        `render() call median ${ms(median(r.ren))} (p95 ${ms(quantile(r.ren, 0.95))}); setTime + render ${ms(median(both))}   [target setTime ≤ 2 ms]`,
+    );
+  }
+  await context.close();
+}
+
+export async function benchBrowser(): Promise<void> {
+  if (!fs.existsSync(chromiumPath)) {
+    console.log(`   skipped: no Chromium at ${chromiumPath} (apt-get install -y chromium, or set SLEWSMITH_CHROMIUM)`);
+    return;
+  }
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'slewsmith-bench-'));
+  const outDir = path.join(dir, 'renderer');
+  try {
+    // A production build in a child process (NODE_ENV=production; see test/e2e/global-setup.ts),
+    // into a temporary folder so a concurrent e2e run's dist/renderer is left alone.
+    const t0 = performance.now();
+    const built = spawnSync(path.join(root, 'node_modules/.bin/vite'), ['build', '--logLevel', 'error', '--outDir', outDir, '--emptyOutDir'], {
+      cwd: root,
+      env: { ...process.env, NODE_ENV: 'production' },
+      encoding: 'utf8',
+    });
+    if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}${built.stdout}`);
+    console.log(`   renderer built in ${ms(performance.now() - t0)} (vite build, production)`);
+    const server = await preview({
+      configFile: path.join(root, 'vite.config.ts'),
+      root: path.join(root, electronConfig.entries.rendererRoot),
+      logLevel: 'error',
+      build: { outDir },
+      preview: { host: '127.0.0.1', port: 0, strictPort: true, open: false },
+    });
+    const url = server.resolvedUrls?.local[0];
+    if (!url) throw new Error('vite preview started without a local URL');
+    const browser = await chromium.launch({ executablePath: chromiumPath, args: ARGS, headless: true });
+    try {
+      await coldStart(browser, url, 5, false);
+      await coldStart(browser, url, 3, true);
+      await editToPlots(browser, url, 7, false);
+      await editToPlots(browser, url, 5, true);
+      await sceneUpdate(browser, url, dir);
+    } finally {
+      await browser.close();
+      await server.close();
+    }
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+// Direct run: node --import tsx test/bench/browser.ts
+if (process.argv[1] && pathToFileURL(process.argv[1]).href === import.meta.url) await benchBrowser();
