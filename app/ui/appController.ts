@@ -74,7 +74,7 @@ export function createAppController(o: AppControllerOptions): AppController {
 
   const runner: PipelineRunner = createPipelineRunner({
     spawn: o.spawnWorker,
-    debounceMs: o.debounceMs ?? 150,
+    debounceMs: o.debounceMs ?? 40,
     onStart: () => store.setPipeline({ status: 'running' }),
     // `source` is the document and comparison the request was made for.
     onResult: (result, _input, _id, source) => {

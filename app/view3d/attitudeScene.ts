@@ -144,6 +144,14 @@ export class AttitudeScene {
   runs: ViewRun[] = [];
   viewports: Viewport[] = [];
   time = 0;
+  /**
+   * When true (the WebGL view sets it), viewports replaced by setRuns are disposed only at the
+   * next flushDisposals(), after the new ones have been drawn once: three.js frees a shader
+   * program when its last material is disposed, so disposing first would recompile every program
+   * for each new run set. Node tests leave it false and see old geometry freed at once.
+   */
+  deferDisposal = false;
+  private retired: Viewport[] = [];
 
   constructor(o: AttitudeSceneOptions = {}) {
     this.bus = o.bus ?? DEFAULT_BUS_MODEL;
@@ -195,12 +203,20 @@ export class AttitudeScene {
   }
 
   private disposeViewports(): void {
-    for (const v of this.viewports) v.dispose(this.kit);
+    if (this.deferDisposal) this.retired.push(...this.viewports);
+    else for (const v of this.viewports) v.dispose(this.kit);
     this.viewports = [];
+  }
+
+  /** Dispose viewports retired by setRuns (call after rendering the new ones). */
+  flushDisposals(): void {
+    for (const v of this.retired) v.dispose(this.kit);
+    this.retired = [];
   }
 
   dispose(): void {
     this.disposeViewports();
+    this.flushDisposals();
     disposeKit(this.kit);
   }
 }

@@ -51,6 +51,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
   renderer.autoClear = false;
 
   const model = new AttitudeScene({ bus: opts.bus, options: opts.options, labels: canvasLabelFactory() });
+  model.deferDisposal = true;
 
   const camera = new PerspectiveCamera(CAMERA_FOV_DEG, 1, 0.05, 200);
   setInertialZUp(camera);
@@ -110,6 +111,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
     if (vps.length === 0) {
       renderer.setClearColor(COLORS.background, 1);
       renderer.clear();
+      model.flushDisposals();
       return;
     }
     renderer.setScissorTest(true);
@@ -153,6 +155,8 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
       renderer.render(vp.hudScene, hud);
     }
     renderer.setScissorTest(false);
+    // The new run set has compiled against the programs the old one still holds; now let it go.
+    model.flushDisposals();
   }
 
   return {
