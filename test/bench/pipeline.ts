@@ -1,7 +1,7 @@
 /**
  * Pipeline speed figures (printed, never asserted), on the invented Lumen-6 demo
  * (assets/lumen6-imaging.scenario.json: 4-wheel pyramid, three controllers, 10 Hz sampled control,
- * 4 RK4 steps per sample, sensor noise on):
+ * the scenario's RK4 steps per sample, sensor noise on):
  *  - runPipeline on the demo: validate + plan + certify + 3 controllers × (profiled, direct);
  *    also split into prepareScenario and the six runOne calls, with µs per trace sample;
  *  - one 600 s closed-loop run of the demo vehicle (hysteretic law, direct reference, 10 Hz,
@@ -141,7 +141,7 @@ export async function benchPipeline(): Promise<void> {
         ts.push(performance.now() - t0);
       }
       const m = median(ts);
-      console.log(`   runOne ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, 4 RK4 steps each)`);
+      console.log(`   runOne ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, ${p.scenario.simulation.rk4StepsPerSample} RK4 step(s) each)`);
     }
   }
 
