@@ -17,6 +17,9 @@ import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
 import { PlotsPanel } from './plots/PlotsPanel';
 import { View3DPanel } from './view/View3DPanel';
+import { useStoreSlice } from './store/hooks';
+import { studySessionOf } from './study/registry';
+import { StudyWorkspace } from './study/StudyWorkspace';
 
 function isEditable(t: EventTarget | null): boolean {
   const el = t as HTMLElement | null;
@@ -47,26 +50,34 @@ function useFieldUndo(app: AppController) {
 export function App({ app }: { app: AppController }) {
   useFieldUndo(app);
   useEffect(() => startFrameLoop(app.clock), [app]);
+  // The study view takes the centre and right columns while it is open.
+  const studyOpen = useStoreSlice(studySessionOf(app).store, (s) => s.open);
   return (
     <AppContext.Provider value={app}>
       <div className="app">
         <CautionStrip />
         <TopBar />
-        <main className="workspace">
+        <main className={`workspace ${studyOpen ? 'study-open' : ''}`}>
           <aside className="left" aria-label="Scenario editors">
             <VehiclePanel />
             <ManeuverPanel />
             <ControllersPanel />
           </aside>
-          <section className="center" aria-label="3D view and plots">
-            <View3DPanel />
-            <PlotsPanel />
-          </section>
-          <aside className="right" aria-label="Plan and comparison">
-            <RunStatus />
-            <PlanSummary />
-            <ComparisonTable />
-          </aside>
+          {studyOpen ? (
+            <StudyWorkspace />
+          ) : (
+            <>
+              <section className="center" aria-label="3D view and plots">
+                <View3DPanel />
+                <PlotsPanel />
+              </section>
+              <aside className="right" aria-label="Plan and comparison">
+                <RunStatus />
+                <PlanSummary />
+                <ComparisonTable />
+              </aside>
+            </>
+          )}
         </main>
         <Scrubber />
         <ExportDialog />

@@ -4,6 +4,7 @@ import { useApp, useAppState } from '../context';
 import { useStoreSlice } from '../store/hooks';
 import { COMMAND_ACCELERATORS, type MenuCommand } from '../../bridge/commands';
 import type { RecentFile } from '../../bridge/api';
+import { StudyToggle } from '../study/StudyWorkspace';
 
 export function CautionStrip() {
   return (
@@ -144,6 +145,7 @@ export function TopBar() {
         </button>
         <span className="sep" />
         <CmdButton c="export" label="Export…" />
+        <StudyToggle />
         <span className="sep" />
         <button className="toolbar-button" onClick={() => setKeys(!keys)} title="Keyboard shortcuts" data-testid="show-shortcuts">
           Keys
