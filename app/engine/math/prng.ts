@@ -27,11 +27,10 @@ function rotl(x: number, k: number): number {
 }
 
 export class Xoshiro128 implements Rng {
-  private a: number;
-  private b: number;
-  private c: number;
-  private d: number;
-  private spare = 0;
+  // State words and the cached normal live in typed arrays: plain object fields holding values
+  // ≥ 2^31 or doubles would be boxed, allocating on every draw in the per-sample hot path.
+  private readonly s = new Uint32Array(4);
+  private readonly spare = new Float64Array(1);
   private hasSpare = false;
 
   /** `seed` and `stream` are integers (taken modulo 2^32). */
@@ -40,22 +39,25 @@ export class Xoshiro128 implements Rng {
     // Mix the stream in twice so neighbouring streams decorrelate.
     splitmix32(st);
     st.s = (st.s ^ Math.imul(Math.trunc(stream), 0x2545f491)) | 0;
-    this.a = splitmix32(st);
-    this.b = splitmix32(st);
-    this.c = splitmix32(st);
-    this.d = splitmix32(st);
-    if ((this.a | this.b | this.c | this.d) === 0) this.a = 1;
+    const s = this.s;
+    s[0] = splitmix32(st);
+    s[1] = splitmix32(st);
+    s[2] = splitmix32(st);
+    s[3] = splitmix32(st);
+    if ((s[0] | s[1] | s[2] | s[3]) === 0) s[0] = 1;
   }
 
   nextUint32(): number {
-    const result = Math.imul(rotl(Math.imul(this.b, 5) >>> 0, 7), 9) >>> 0;
-    const t = (this.b << 9) >>> 0;
-    this.c = (this.c ^ this.a) >>> 0;
-    this.d = (this.d ^ this.b) >>> 0;
-    this.b = (this.b ^ this.c) >>> 0;
-    this.a = (this.a ^ this.d) >>> 0;
-    this.c = (this.c ^ t) >>> 0;
-    this.d = rotl(this.d, 11);
+    const s = this.s;
+    const a = s[0], b = s[1], c = s[2], d = s[3];
+    const result = Math.imul(rotl(Math.imul(b, 5) >>> 0, 7), 9) >>> 0;
+    const t = (b << 9) >>> 0;
+    const c1 = (c ^ a) >>> 0;
+    const d1 = (d ^ b) >>> 0;
+    s[1] = b ^ c1;
+    s[0] = a ^ d1;
+    s[2] = c1 ^ t;
+    s[3] = rotl(d1, 11);
     return result;
   }
 
@@ -66,13 +68,13 @@ export class Xoshiro128 implements Rng {
   normal(): number {
     if (this.hasSpare) {
       this.hasSpare = false;
-      return this.spare;
+      return this.spare[0];
     }
     let u = 0;
     while (u === 0) u = this.next();
     const v = this.next();
     const r = Math.sqrt(-2 * Math.log(u));
-    this.spare = r * Math.sin(2 * Math.PI * v);
+    this.spare[0] = r * Math.sin(2 * Math.PI * v);
     this.hasSpare = true;
     return r * Math.cos(2 * Math.PI * v);
   }

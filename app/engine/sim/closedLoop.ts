@@ -109,7 +109,10 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const ctrl = cfg.controller;
   const ref = cfg.reference;
   const rng = makeRng(cfg.seed, cfg.stream ?? 0);
-  const builder = new TraceBuilder(N, Math.ceil(cfg.tEnd / Ts) + 8);
+  // Runs that may stop early (studies) start small and grow by doubling, instead of reserving the
+  // whole duration for every case.
+  const fullCapacity = Math.ceil(cfg.tEnd / Ts) + 8;
+  const builder = new TraceBuilder(N, cfg.stopWhenSettledForS ? Math.min(fullCapacity, 1024) : fullCapacity);
   const jumps: JumpEvent[] = [];
 
   // Scratch, allocated once per run.
