@@ -164,6 +164,8 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
   const top = ticks[ticks.length - 1];
   const yOf = (v: number) => plot.bottom - (v / top) * (plot.bottom - plot.top);
   const slotX = (k: number) => plot.left + (k < nBins ? k : nBins + gap) * slotW;
+  /** Boundary k of the regular bins (k = nBins is the right end of the last bin, before the gap). */
+  const edgeX = (k: number) => plot.left + k * slotW;
 
   const bars: BarRect[] = [];
   hists.forEach((h, c) => {
@@ -192,8 +194,8 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
     }
   } else {
     const stride = labelStride(edges.length, 6);
-    for (let k = 0; k < edges.length; k += stride) xLabels.push({ x: slotX(k), text: edgeText(edges[k], q) });
-    if ((edges.length - 1) % stride !== 0) xLabels.push({ x: slotX(nBins), text: edgeText(edges[nBins], q) });
+    for (let k = 0; k < edges.length; k += stride) xLabels.push({ x: edgeX(k), text: edgeText(edges[k], q) });
+    if ((edges.length - 1) % stride !== 0) xLabels.push({ x: edgeX(nBins), text: edgeText(edges[nBins], q) });
   }
   return {
     width: size.width,
