@@ -112,9 +112,6 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
             <div className="muted">click to open as a run</div>
           </div>
         )}
-        <div className="map-caption">
-          a point per case: its initial error rotation, direction = rotation axis in target axes, distance from the centre = angle / 180°
-        </div>
       </div>
       <div className="map-legend" data-testid="map-legend">
         {mode === 'settle' && (
@@ -140,6 +137,10 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
         <span className="legend-item">
           <span className="dot ring" /> η₀ &lt; 0 (far hemisphere)
         </span>
+      </div>
+      <div className="map-caption">
+        One point per case: its initial error rotation q_target* ⊗ q0, in the direction of the rotation axis (target axes X<sub>T</sub>, Y<sub>T</sub>, Z<sub>T</sub>) at a distance
+        from the centre of angle / 180° (the wire sphere is 180°, the inner circles 90°). Drag to turn, click a point to open that case.
       </div>
     </div>
   );

@@ -150,7 +150,7 @@ function SharesTable({ summary }: { summary: StudySummary }) {
       <tbody>
         {summary.controllers.map((c, i) => (
           <tr key={c.controllerId} data-controller={c.controllerId}>
-            <td>
+            <td className="ctl-name" title={`${c.label} [${c.controllerId}] · ${c.law}`}>
               <span className="swatch" style={{ background: PALETTE[i % PALETTE.length] }} /> {c.label}
             </td>
             <td className="num">{c.flyable}</td>

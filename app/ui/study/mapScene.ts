@@ -41,7 +41,7 @@ export interface OutcomeMapView {
   dispose(): void;
 }
 
-const HOME = new Vector3(2.3, 1.7, 1.25);
+const HOME = new Vector3(2.65, 1.95, 1.45);
 const BG = 0x0b0f14;
 const POINT_PX = 11;
 
