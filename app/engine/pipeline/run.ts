@@ -123,6 +123,31 @@ const LOGIC_KIND: Record<string, LogicKind> = {
   synergistic: 'index',
 };
 
+/** Chatter is counted over sliding windows of this length (s); metrics.ts defines the measure. */
+export const CHATTER_WINDOW_S = 10;
+
+/** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
+export function runMetrics(
+  res: { trace: ControllerRun['trace']; jumps: ControllerRun['jumps'] },
+  s: ResolvedScenario,
+  wheels: { maxTorqueNm: Float64Array; maxMomentumNms: Float64Array },
+  targets: Float64Array,
+) {
+  return computeMetrics(res.trace, res.jumps, {
+    settleAngleRad: s.simulation.settleAngleRad,
+    settleRateRadPerS: s.simulation.settleRateRadPerS,
+    chatterWindowS: CHATTER_WINDOW_S,
+    maxTorqueNm: wheels.maxTorqueNm,
+    maxMomentumNms: wheels.maxMomentumNms,
+    segmentTargets: targets,
+  });
+}
+
+/** Lyapunov-monitor flags with the law's promised jump decrease (tolerance 1e-3 of max W). */
+export function runMonitor(res: { trace: ControllerRun['trace']; jumps: ControllerRun['jumps'] }, c: BuiltController) {
+  return lyapunovMonitor(res.trace, res.jumps, { jumpDecrease: c.controller.jumpDecrease, relTol: 1e-3, absTol: 1e-12 });
+}
+
 export function runOne(p: Prepared, c: BuiltController, mode: RunMode, targets: Float64Array, shouldStop?: () => boolean): ControllerRun {
   const s = p.scenario;
   const v = p.vehicle;
@@ -152,15 +177,8 @@ export function runOne(p: Prepared, c: BuiltController, mode: RunMode, targets: 
     allocation: 'min-max',
     shouldStop,
   });
-  const metrics = computeMetrics(res.trace, res.jumps, {
-    settleAngleRad: s.simulation.settleAngleRad,
-    settleRateRadPerS: s.simulation.settleRateRadPerS,
-    chatterWindowS: 10,
-    maxTorqueNm: v.wheels.maxTorqueNm,
-    maxMomentumNms: v.wheels.maxMomentumNms,
-    segmentTargets: targets,
-  });
-  const monitor = lyapunovMonitor(res.trace, res.jumps, { jumpDecrease: c.controller.jumpDecrease, relTol: 1e-3, absTol: 1e-12 });
+  const metrics = runMetrics(res, s, v.wheels, targets);
+  const monitor = runMonitor(res, c);
   return {
     key: `${c.id}:${mode}`,
     controllerId: c.id,

@@ -7,9 +7,9 @@
  */
 import { makeGyrostat } from '../body/gyrostat';
 import { validateInertia } from '../body/inertia';
-import { computeMetrics, type RunMetrics } from '../metrics/metrics';
-import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
-import { profiledReference } from '../pipeline/run';
+import type { RunMetrics } from '../metrics/metrics';
+import type { MonitorFlag } from '../metrics/monitor';
+import { profiledReference, runMetrics, runMonitor } from '../pipeline/run';
 import { planLimits, type BuiltController } from '../pipeline/build';
 import { planSequence } from '../plan/sequence';
 import { runClosedLoop, type Actuation, type ClosedLoopResult, type ReferenceSource } from '../sim/closedLoop';
@@ -188,14 +188,7 @@ export function flyCase(ctx: StudyContext, d: CaseDraw, v: CaseVehicle, ref: Ref
       settleRateRadPerS: s.simulation.settleRateRadPerS,
       shouldStop,
     });
-    const metrics = computeMetrics(res.trace, res.jumps, {
-      settleAngleRad: s.simulation.settleAngleRad,
-      settleRateRadPerS: s.simulation.settleRateRadPerS,
-      chatterWindowS: 10,
-      maxTorqueNm: v.wheels.maxTorqueNm,
-      maxMomentumNms: v.wheels.maxMomentumNms,
-      segmentTargets: ctx.target,
-    });
+    const metrics = runMetrics(res, s, v.wheels, ctx.target);
     return { res, metrics };
   } finally {
     restorePlantModel(ctx);
@@ -204,7 +197,7 @@ export function flyCase(ctx: StudyContext, d: CaseDraw, v: CaseVehicle, ref: Ref
 
 /** Lyapunov-monitor flags of a flown case (only for the exact re-run; too slow for every case). */
 export function monitorOf(f: Flown, c: BuiltController): MonitorFlag[] {
-  return lyapunovMonitor(f.res.trace, f.res.jumps, { jumpDecrease: c.controller.jumpDecrease, relTol: 1e-3, absTol: 1e-12 });
+  return runMonitor(f.res, c);
 }
 
 const qe = new Float64Array(4);
