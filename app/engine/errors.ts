@@ -88,3 +88,14 @@ export function describe(v: unknown): string {
   if (Array.isArray(v)) return `an array of length ${v.length}`;
   return typeof v;
 }
+
+/** Drop repeated (path, rule) pairs, keeping the first message of each. */
+export function dedupeIssues(list: readonly Issue[]): Issue[] {
+  const seen = new Set<string>();
+  return list.filter((i) => {
+    const k = `${i.path}|${i.rule}`;
+    if (seen.has(k)) return false;
+    seen.add(k);
+    return true;
+  });
+}

@@ -9,18 +9,10 @@ import type { Issue } from '../engine/errors';
 import { validateInertia } from '../engine/body/inertia';
 import { validateScenario } from '../engine/scenario/validate';
 import type { ValidationState } from './store/document';
+import { dedupeIssues } from '../engine/errors';
 
 export const INERTIA_PATH = 'vehicle.inertiaKgm2';
 
-function dedupe(list: Issue[]): Issue[] {
-  const seen = new Set<string>();
-  return list.filter((i) => {
-    const k = `${i.path}|${i.rule}`;
-    if (seen.has(k)) return false;
-    seen.add(k);
-    return true;
-  });
-}
 
 function isMatrix3(v: unknown): v is unknown[][] {
   return Array.isArray(v) && v.length === 3 && v.every((r) => Array.isArray(r) && r.length === 3);
@@ -37,6 +29,6 @@ export function preflight(json: unknown): ValidationState {
     if (!r.ok) errors.push(...r.errors);
     warnings.push(...r.warnings);
   }
-  const e = dedupe(errors);
-  return { ok: e.length === 0, errors: e, warnings: dedupe(warnings) };
+  const e = dedupeIssues(errors);
+  return { ok: e.length === 0, errors: e, warnings: dedupeIssues(warnings) };
 }

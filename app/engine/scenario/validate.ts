@@ -23,6 +23,7 @@ import {
 } from './schema';
 import type { Scenario, WheelsSpec } from './schema';
 import { parseIsoUtcMs } from './utc';
+import { dedupeIssues } from '../errors';
 
 type Obj = Record<string, unknown>;
 
@@ -96,19 +97,10 @@ export function validateScenario(json: unknown): Result<Scenario> {
   if (!parsed.success) errors.push(...fromZodIssues(parsed.error.issues as never, json));
   crossFieldChecks(json as Obj, errors, warnings);
 
-  if (errors.length || !parsed.success) return fail(dedupe(errors), warnings);
+  if (errors.length || !parsed.success) return fail(dedupeIssues(errors), warnings);
   return ok(parsed.data, warnings);
 }
 
-function dedupe(list: Issue[]): Issue[] {
-  const seen = new Set<string>();
-  return list.filter((i) => {
-    const k = `${i.path}|${i.rule}`;
-    if (seen.has(k)) return false;
-    seen.add(k);
-    return true;
-  });
-}
 
 function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   // Epoch: the regex passes 2030-02-30T…; the calendar check does not.
