@@ -110,16 +110,18 @@ export function validateInertia(rows: unknown, path = 'inertia'): Result<Inertia
     return fail(errors);
   }
   const [m1, m2, m3] = moments;
+  // Six significant digits in messages: enough to see the problem, short enough to read.
+  const f = (x: number) => String(Number(x.toPrecision(6)));
   const big = Math.max(Math.abs(m1), Math.abs(m3));
   if (!(m1 > INERTIA_PD_TOL * big)) {
     errors.push(issue(path, 'positive-definite',
-      `${path} must be positive definite; its smallest eigenvalue is ${m1} kg·m² ` +
-      `(principal moments ${m1}, ${m2}, ${m3})`));
+      `${path} must be positive definite; its smallest eigenvalue is ${f(m1)} kg·m² ` +
+      `(principal moments ${f(m1)}, ${f(m2)}, ${f(m3)})`));
   }
   if (m1 + m2 - m3 < -INERTIA_TRIANGLE_TOL * big) {
     errors.push(issue(path, 'triangle-inequality',
-      `${path}: principal moments ${m1}, ${m2}, ${m3} break the triangle inequality ` +
-      `(J1 + J2 = ${m1 + m2} < J3 = ${m3}); no rigid mass distribution has them`));
+      `${path}: principal moments ${f(m1)}, ${f(m2)}, ${f(m3)} break the triangle inequality ` +
+      `(J1 + J2 = ${f(m1 + m2)} < J3 = ${f(m3)}); no rigid mass distribution has them`));
   }
   if (errors.length) return fail(errors);
   return ok({ J, moments, axes });
