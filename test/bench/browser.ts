@@ -30,21 +30,11 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { preview } from 'vite';
 import { electronConfig } from '../../electron.config';
+import { CHROMIUM_ARGS } from '../e2e/chromium-args';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const chromiumPath = process.env.SLEWSMITH_CHROMIUM ?? '/usr/bin/chromium';
-// The same flags as the e2e harness (test/e2e/harness.ts); never --disable-software-rasterizer.
-const ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--enable-unsafe-swiftshader',
-  '--use-angle=swiftshader',
-];
+const ARGS = [...CHROMIUM_ARGS];
 const VIEWPORT = { width: 1440, height: 900 };
 const PLOTS = ['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'lyapunov'];
 

@@ -21,21 +21,8 @@ export const outputDir = path.join(repoRoot, 'test-output/e2e');
 export const skipBrowser = process.env.SLEWSMITH_SKIP_BROWSER === '1';
 export const chromiumPath = process.env.SLEWSMITH_CHROMIUM ?? '/usr/bin/chromium';
 
-/**
- * Flags that work headless and headed on these machines. WebGL goes through SwiftShader; never add
- * --disable-software-rasterizer (WebGL then fails).
- */
-export const CHROMIUM_ARGS: readonly string[] = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--enable-unsafe-swiftshader',
-  '--use-angle=swiftshader',
-];
+export { CHROMIUM_ARGS } from './chromium-args';
+import { CHROMIUM_ARGS } from './chromium-args';
 
 export function missingChromiumMessage(p: string): string {
   return (

@@ -130,14 +130,10 @@ export class TraceBuilder {
     this.cap = c;
   }
 
-  push(s: TraceSample): void {
-    if (this.trace.n >= this.cap) this.grow();
+  /** The per-sample vector channels, shared by push and pushPacked. */
+  private writeVectors(k: number, s: Pick<TraceSample, 'q' | 'qRef' | 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody' | 'hWheel' | 'wheelTorqueCmd' | 'wheelTorque'>): void {
     const tr = this.trace;
-    const k = tr.n;
     const N = tr.nWheels;
-    tr.t[k] = s.t;
-    tr.j[k] = s.j;
-    tr.segment[k] = s.segment;
     for (let i = 0; i < 4; i++) {
       tr.q[4 * k + i] = s.q[i];
       tr.qRef[4 * k + i] = s.qRef[i];
@@ -153,6 +149,16 @@ export class TraceBuilder {
       tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i];
       tr.wheelTorque[N * k + i] = s.wheelTorque[i];
     }
+  }
+
+  push(s: TraceSample): void {
+    if (this.trace.n >= this.cap) this.grow();
+    const tr = this.trace;
+    const k = tr.n;
+    tr.t[k] = s.t;
+    tr.j[k] = s.j;
+    tr.segment[k] = s.segment;
+    this.writeVectors(k, s);
     tr.logic[k] = s.logic;
     tr.errorAngle[k] = s.errorAngle;
     tr.potential[k] = s.potential;
@@ -167,26 +173,11 @@ export class TraceBuilder {
     if (this.trace.n >= this.cap) this.grow();
     const tr = this.trace;
     const k = tr.n;
-    const N = tr.nWheels;
     const x = s.scalars;
     tr.t[k] = x[PACKED_T];
     tr.j[k] = s.j;
     tr.segment[k] = s.segment;
-    for (let i = 0; i < 4; i++) {
-      tr.q[4 * k + i] = s.q[i];
-      tr.qRef[4 * k + i] = s.qRef[i];
-    }
-    for (let i = 0; i < 3; i++) {
-      tr.omega[3 * k + i] = s.omega[i];
-      tr.omegaRef[3 * k + i] = s.omegaRef[i];
-      tr.torqueCmdBody[3 * k + i] = s.torqueCmdBody[i];
-      tr.torqueBody[3 * k + i] = s.torqueBody[i];
-    }
-    for (let i = 0; i < N; i++) {
-      tr.hWheel[N * k + i] = s.hWheel[i];
-      tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i];
-      tr.wheelTorque[N * k + i] = s.wheelTorque[i];
-    }
+    this.writeVectors(k, s);
     tr.logic[k] = x[PACKED_LOGIC];
     tr.errorAngle[k] = x[PACKED_ERROR_ANGLE];
     tr.potential[k] = x[PACKED_POTENTIAL];
