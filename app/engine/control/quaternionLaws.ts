@@ -72,16 +72,8 @@ abstract class QuaternionLawBase implements AttitudeController {
   }
 }
 
-/** Continuous quaternion PD (unwinds; Bhat & Bernstein 2000). Logic unused (0). */
-export class QuaternionPd extends QuaternionLawBase {
-  readonly kind = 'quaternion-pd' as const;
-  readonly jumpDecrease = 0;
-  protected sign(): number {
-    return 1;
-  }
-  protected familyMin(eta: number): number {
-    return 2 * (1 - eta);
-  }
+/** Laws without hybrid logic: the logic value stays 0 and the jump set is empty. */
+abstract class MemorylessLaw extends QuaternionLawBase {
   initialLogic(): number {
     return 0;
   }
@@ -93,8 +85,20 @@ export class QuaternionPd extends QuaternionLawBase {
   }
 }
 
+/** Continuous quaternion PD (unwinds; Bhat & Bernstein 2000). Logic unused (0). */
+export class QuaternionPd extends MemorylessLaw {
+  readonly kind = 'quaternion-pd' as const;
+  readonly jumpDecrease = 0;
+  protected sign(): number {
+    return 1;
+  }
+  protected familyMin(eta: number): number {
+    return 2 * (1 - eta);
+  }
+}
+
 /** Memoryless shortest-path law, s = sgn(η) with sgn(0) = +1. Logic unused (0). */
-export class SignSwitch extends QuaternionLawBase {
+export class SignSwitch extends MemorylessLaw {
   readonly kind = 'sign-switch' as const;
   readonly jumpDecrease = 0;
   protected sign(eta: number): number {
@@ -102,15 +106,6 @@ export class SignSwitch extends QuaternionLawBase {
   }
   protected familyMin(eta: number): number {
     return 2 * (1 - Math.abs(eta));
-  }
-  initialLogic(): number {
-    return 0;
-  }
-  jumpGuard(): number {
-    return -1;
-  }
-  updateLogic(): { logic: number; why: string | null } {
-    return { logic: 0, why: null };
   }
 }
 
