@@ -114,7 +114,7 @@ export class DocumentService {
       filters: SCENARIO_FILTERS,
     });
     if (r.canceled || r.filePaths.length === 0) return { status: 'cancelled' };
-    return this.openPath(r.filePaths[0], false);
+    return this.openPath(r.filePaths[0]!, false);
   }
 
   /** `filePath` came from the renderer: it must be on the recent list. */

@@ -14,9 +14,9 @@ export function parseLaunchArgs(argv: readonly string[], isPackaged: boolean, cw
   let demo: string | null = null;
   let file: string | null = null;
   for (let i = 0; i < args.length; i++) {
-    const a = args[i];
+    const a = args[i]!;
     if (a === '--demo' && i + 1 < args.length) {
-      demo = args[++i];
+      demo = args[++i]!;
     } else if (a.startsWith('--demo=')) {
       demo = a.slice('--demo='.length);
     } else if (!a.startsWith('-') && file === null && a.toLowerCase().endsWith('.json')) {

@@ -60,7 +60,7 @@ export function comparedControllerIds(scenario: unknown, excluded: readonly stri
 
 function runEnd(out: PipelineOutput): number {
   let tMax = 0;
-  for (const r of out.runs) if (r.trace.n > 0) tMax = Math.max(tMax, r.trace.t[r.trace.n - 1]);
+  for (const r of out.runs) if (r.trace.n > 0) tMax = Math.max(tMax, r.trace.t[r.trace.n - 1]!);
   return tMax;
 }
 

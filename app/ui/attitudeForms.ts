@@ -55,10 +55,10 @@ export const DEFAULT_ATTITUDES: Record<AttitudeForm, Obj> = {
 export function attitudeInForm(q: Quat, form: AttitudeForm, previous: Quat | null, sequence: EulerSequence = 'ZYX'): Obj | null {
   switch (form) {
     case 'quaternion':
-      return { quaternion: [q[0], q[1], q[2], q[3]].map(tidy) };
+      return { quaternion: [q[0]!, q[1]!, q[2]!, q[3]!].map(tidy) };
     case 'euler': {
       const a = qToEuler(new Float64Array(3), sequence, q);
-      return { euler: { sequence, anglesDeg: [a[0], a[1], a[2]].map((x) => tidy(x * RAD)) } };
+      return { euler: { sequence, anglesDeg: [a[0]!, a[1]!, a[2]!].map((x) => tidy(x * RAD)) } };
     }
     case 'pointing': {
       const z = qRotate(new Float64Array(3), q, [0, 0, 1]);
@@ -82,7 +82,7 @@ export function attitudeInForm(q: Quat, form: AttitudeForm, previous: Quat | nul
 export function convertAttitude(scenario: unknown, k: number, form: AttitudeForm, sequence?: EulerSequence): Obj {
   const chain = resolveAttitudeChain(scenario);
   const q = chain[k];
-  const prev = k > 0 ? chain[k - 1] : null;
+  const prev = k > 0 ? chain[k - 1]! : null;
   if (q) {
     const r = attitudeInForm(q, form, prev, sequence);
     if (r) return r;

@@ -20,12 +20,12 @@ import type { Matrix3, Matrix4, Object3D, Quaternion, Vector3 } from 'three';
 
 /** Copy an engine quaternion (offset `o` into a flat [x, y, z, w]… array) into a three Quaternion. */
 export function quaternionFromArray(target: Quaternion, arr: ArrayLike<number>, o = 0): Quaternion {
-  return target.set(arr[o], arr[o + 1], arr[o + 2], arr[o + 3]);
+  return target.set(arr[o]!, arr[o + 1]!, arr[o + 2]!, arr[o + 3]!);
 }
 
 /** Pose a body-frame object (parent = inertial frame) from an engine attitude at offset `o`. */
 export function setObjectAttitude(obj: Object3D, arr: ArrayLike<number>, o = 0): Object3D {
-  obj.quaternion.set(arr[o], arr[o + 1], arr[o + 2], arr[o + 3]);
+  obj.quaternion.set(arr[o]!, arr[o + 1]!, arr[o + 2]!, arr[o + 3]!);
   return obj;
 }
 
@@ -39,7 +39,7 @@ export function quaternionToArray(out: { [i: number]: number }, q: Quaternion, o
 
 /** A three Vector3 from three consecutive entries of a flat array. */
 export function vector3FromArray(target: Vector3, arr: ArrayLike<number>, o = 0): Vector3 {
-  return target.set(arr[o], arr[o + 1], arr[o + 2]);
+  return target.set(arr[o]!, arr[o + 1]!, arr[o + 2]);
 }
 
 /**
@@ -59,8 +59,8 @@ export function slerpFlat(
   o1: number,
   alpha: number,
 ): void {
-  const ax = arr0[o0], ay = arr0[o0 + 1], az = arr0[o0 + 2], aw = arr0[o0 + 3];
-  let bx = arr1[o1], by = arr1[o1 + 1], bz = arr1[o1 + 2], bw = arr1[o1 + 3];
+  const ax = arr0[o0]!, ay = arr0[o0 + 1]!, az = arr0[o0 + 2]!, aw = arr0[o0 + 3]!;
+  let bx = arr1[o1]!, by = arr1[o1 + 1]!, bz = arr1[o1 + 2]!, bw = arr1[o1 + 3]!;
   if (ax * bx + ay * by + az * bz + aw * bw < 0) {
     bx = -bx;
     by = -by;
@@ -117,7 +117,7 @@ export function setObjectAttitudeInterpolated(
 /** Engine mat3 (column-major Float64Array(9)) → three Matrix3, a straight element copy. */
 export function matrix3FromMat3(target: Matrix3, m: ArrayLike<number>): Matrix3 {
   const e = target.elements;
-  for (let i = 0; i < 9; i++) e[i] = m[i];
+  for (let i = 0; i < 9; i++) e[i] = m[i]!;
   return target;
 }
 
@@ -125,17 +125,17 @@ export function matrix3FromMat3(target: Matrix3, m: ArrayLike<number>): Matrix3 
 export function matrix4FromMat3(target: Matrix4, m: ArrayLike<number>): Matrix4 {
   const e = target.elements;
   // Matrix4 is column-major 4×4: column c occupies e[4c .. 4c+3].
-  e[0] = m[0];
-  e[1] = m[1];
-  e[2] = m[2];
+  e[0] = m[0]!;
+  e[1] = m[1]!;
+  e[2] = m[2]!;
   e[3] = 0;
-  e[4] = m[3];
-  e[5] = m[4];
-  e[6] = m[5];
+  e[4] = m[3]!;
+  e[5] = m[4]!;
+  e[6] = m[5]!;
   e[7] = 0;
-  e[8] = m[6];
-  e[9] = m[7];
-  e[10] = m[8];
+  e[8] = m[6]!;
+  e[9] = m[7]!;
+  e[10] = m[8]!;
   e[11] = 0;
   e[12] = 0;
   e[13] = 0;
@@ -147,7 +147,7 @@ export function matrix4FromMat3(target: Matrix4, m: ArrayLike<number>): Matrix4 
 /** The 3×3 block of a three Matrix3 back into an engine mat3 (column-major). */
 export function mat3FromMatrix3(out: { [i: number]: number }, m: Matrix3): void {
   const e = m.elements;
-  for (let i = 0; i < 9; i++) out[i] = e[i];
+  for (let i = 0; i < 9; i++) out[i] = e[i]!;
 }
 
 /** Draw Z_I up: the camera's up vector is +Z of the scene (= inertial frame). */

@@ -66,7 +66,7 @@ export class Viewport {
     this.scene.add(this.common.group);
     this.insetTriad = new Triad(kit, { length: SIZES.insetTriad, suffix: 'B', radius: 0.01, opacity: 0.8, labelHeight: SIZES.insetLabelHeight });
     this.momentumScene.add(this.insetTriad);
-    const scale = runs.length ? envelopeDisplayScale(runs[0].momentumEnvelope) : 1;
+    const scale = runs.length ? envelopeDisplayScale(runs[0]!.momentumEnvelope) : 1;
     runs.forEach((run, index) => {
       const rc = new RunContent(kit, bus, run, options, {
         index,
@@ -111,7 +111,7 @@ export class Viewport {
   }
 
   update(time: number): void {
-    for (let k = 0; k < this.runs.length; k++) this.runs[k].update(time);
+    for (let k = 0; k < this.runs.length; k++) this.runs[k]!.update(time);
   }
 
   applyOptions(o: ViewOptions): void {
@@ -171,7 +171,7 @@ export class AttitudeScene {
     } else if (layout === 'overlay') {
       this.viewports = [new Viewport(this.kit, this.bus, runs, this.options, true)];
     } else {
-      this.viewports = [new Viewport(this.kit, this.bus, [runs[0]], this.options, false)];
+      this.viewports = [new Viewport(this.kit, this.bus, [runs[0]!], this.options, false)];
     }
     this.setTime(this.time);
   }
@@ -180,7 +180,7 @@ export class AttitudeScene {
   setTime(t: number): void {
     const t0 = performance.now();
     this.time = t;
-    for (let v = 0; v < this.viewports.length; v++) this.viewports[v].update(t);
+    for (let v = 0; v < this.viewports.length; v++) this.viewports[v]!.update(t);
     this.stats.lastUpdateMs = performance.now() - t0;
   }
 
@@ -195,9 +195,9 @@ export class AttitudeScene {
     Object.assign(this.options, o);
     if (o.boresightBody) {
       const b = o.boresightBody;
-      const n = Math.hypot(b[0], b[1], b[2]);
+      const n = Math.hypot(b[0]!, b[1]!, b[2]!);
       // A zero or non-finite axis is ignored (the previous axis stays).
-      this.options.boresightBody = n > 0 && Number.isFinite(n) ? Float64Array.of(b[0] / n, b[1] / n, b[2] / n) : prev;
+      this.options.boresightBody = n > 0 && Number.isFinite(n) ? Float64Array.of(b[0]! / n, b[1]! / n, b[2]! / n) : prev;
     }
     if (o.keepOut) this.options.keepOut = o.keepOut.slice();
   }

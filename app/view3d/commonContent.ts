@@ -26,7 +26,7 @@ import type { KeepOutCone } from './types';
 /** Wire sphere as line segments: 12 meridians and parallels at ±30°, ±60° and the equator. */
 export function wireSpherePositions(radius: number, seg = 72): Float32Array {
   const lines: number[] = [];
-  const push = (a: number[], b: number[]) => lines.push(a[0], a[1], a[2], b[0], b[1], b[2]);
+  const push = (a: number[], b: number[]) => lines.push(a[0]!, a[1]!, a[2]!, b[0]!, b[1]!, b[2]!);
   for (let m = 0; m < 12; m++) {
     const lon = (m * Math.PI) / 6;
     for (let s = 0; s < seg / 2; s++) {
@@ -53,7 +53,7 @@ export function wireSpherePositions(radius: number, seg = 72): Float32Array {
  */
 export function keepOutConePositions(dir: ArrayLike<number>, halfAngleRad: number, radius: number, seg = 48): { fan: Float32Array; rim: Float32Array } {
   // Orthonormal e1, e2 ⊥ dir.
-  const dx = dir[0], dy = dir[1], dz = dir[2];
+  const dx = dir[0]!, dy = dir[1]!, dz = dir[2]!;
   let ex = Math.abs(dx) < 0.9 ? 1 : 0, ey = ex ? 0 : 1, ez = 0;
   const d = ex * dx + ey * dy;
   ex -= d * dx;
@@ -129,7 +129,7 @@ export class CommonContent {
       this.keepOut.add(surface, ring);
       if (this.kit.labels) {
         const lab = this.kit.labels(c.label, { color: cssHex(COLORS.keepOut), heightFraction: 0.036 });
-        lab.position.set(dir[0], dir[1], dir[2]).multiplyScalar(R * 1.08);
+        lab.position.set(dir[0]!, dir[1]!, dir[2]).multiplyScalar(R * 1.08);
         this.keepOut.add(lab);
       }
     }

@@ -21,7 +21,7 @@ import { COLORS, SIZES } from './style';
 export function envelopeDisplayScale(env: MomentumEnvelopeMesh, radius: number = SIZES.insetEnvelopeRadius): number {
   let r2 = 0;
   const v = env.vertices;
-  for (let i = 0; i + 2 < v.length; i += 3) r2 = Math.max(r2, v[i] * v[i] + v[i + 1] * v[i + 1] + v[i + 2] * v[i + 2]);
+  for (let i = 0; i + 2 < v.length; i += 3) r2 = Math.max(r2, v[i]! * v[i]! + v[i + 1]! * v[i + 1]! + v[i + 2]! * v[i + 2]!);
   return r2 > 0 && Number.isFinite(r2) ? radius / Math.sqrt(r2) : 1;
 }
 
@@ -77,11 +77,11 @@ export function momentumFraction(
   capacity: (dirBody: Float64Array) => number,
   dirScratch: Float64Array,
 ): number {
-  const n = Math.hypot(H[0], H[1], H[2]);
+  const n = Math.hypot(H[0]!, H[1]!, H[2]!);
   if (!(n > 0)) return 0;
-  dirScratch[0] = H[0] / n;
-  dirScratch[1] = H[1] / n;
-  dirScratch[2] = H[2] / n;
+  dirScratch[0] = H[0]! / n;
+  dirScratch[1] = H[1]! / n;
+  dirScratch[2] = H[2]! / n;
   const cap = capacity(dirScratch);
   return cap > 0 && Number.isFinite(cap) ? n / cap : Number.POSITIVE_INFINITY;
 }

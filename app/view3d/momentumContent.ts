@@ -44,10 +44,10 @@ export class MomentumContent {
     // Wheel ranges: −h_max a_i … +h_max a_i.
     const seg = new Float32Array(6 * nW);
     for (let i = 0; i < nW; i++) {
-      const hm = run.maxMomentumNms[i] * this.scale;
+      const hm = run.maxMomentumNms[i]! * this.scale;
       for (let k = 0; k < 3; k++) {
-        seg[6 * i + k] = -hm * run.wheelAxes[3 * i + k];
-        seg[6 * i + 3 + k] = hm * run.wheelAxes[3 * i + k];
+        seg[6 * i + k] = -hm * run.wheelAxes[3 * i + k]!;
+        seg[6 * i + 3 + k] = hm * run.wheelAxes[3 * i + k]!;
       }
     }
     const rg = new BufferGeometry();
@@ -57,14 +57,14 @@ export class MomentumContent {
     this.group.add(ranges);
 
     for (let i = 0; i < nW; i++) {
-      const color = WHEEL_COLORS[i % WHEEL_COLORS.length];
+      const color = WHEEL_COLORS[i % WHEEL_COLORS.length]!;
       const a = new VectorArrow(kit, { color, opacity: opts.opacity, radius: 0.014 });
       a.name = `wheel-${i + 1}`;
       this.wheelArrows.push(a);
       this.group.add(a);
       if (kit.labels && opts.drawEnvelope) {
         const lab = kit.labels(`${i + 1}`, { color: cssHex(color), heightFraction: SIZES.insetLabelHeight * 0.85 });
-        lab.position.set(seg[6 * i + 3], seg[6 * i + 4], seg[6 * i + 5]).multiplyScalar(1.1);
+        lab.position.set(seg[6 * i + 3]!, seg[6 * i + 4]!, seg[6 * i + 5]).multiplyScalar(1.1);
         this.group.add(lab);
       }
     }
@@ -85,14 +85,14 @@ export class MomentumContent {
     const b0 = nW * c.i, b1 = nW * c.i1, al = c.alpha;
     H[0] = H[1] = H[2] = 0;
     for (let i = 0; i < nW; i++) {
-      const hi = (1 - al) * tr.hWheel[b0 + i] + al * tr.hWheel[b1 + i];
+      const hi = (1 - al) * tr.hWheel[b0 + i]! + al * tr.hWheel[b1 + i]!;
       h[i] = hi;
-      const x = ax[3 * i], y = ax[3 * i + 1], z = ax[3 * i + 2];
+      const x = ax[3 * i]!, y = ax[3 * i + 1]!, z = ax[3 * i + 2]!;
       H[0] += hi * x;
       H[1] += hi * y;
       H[2] += hi * z;
       const s = hi < 0 ? -1 : 1;
-      this.wheelArrows[i].set(s * x, s * y, s * z, Math.abs(hi) * this.scale);
+      this.wheelArrows[i]!.set(s * x, s * y, s * z, Math.abs(hi) * this.scale);
     }
     const nH = Math.hypot(H[0], H[1], H[2]);
     this.totalArrow.set(H[0], H[1], H[2], nH * this.scale);

@@ -121,7 +121,7 @@ export class Triad extends Group {
     super();
     const colors = style.colors ?? [COLORS.axisX, COLORS.axisY, COLORS.axisZ];
     const arrows = [0, 1, 2].map((a) => {
-      const arrow = new VectorArrow(kit, { color: colors[a], opacity: style.opacity, radius: style.radius });
+      const arrow = new VectorArrow(kit, { color: colors[a]!, opacity: style.opacity, radius: style.radius });
       arrow.set(a === 0 ? 1 : 0, a === 1 ? 1 : 0, a === 2 ? 1 : 0, style.length);
       this.add(arrow);
       return arrow;
@@ -130,7 +130,7 @@ export class Triad extends Group {
     if (kit.labels && style.suffix !== null) {
       const names = ['X', 'Y', 'Z'];
       for (let a = 0; a < 3; a++) {
-        const lab = kit.labels(`${names[a]}_${style.suffix}`, { color: cssHex(colors[a]), heightFraction: style.labelHeight });
+        const lab = kit.labels(`${names[a]}_${style.suffix}`, { color: cssHex(colors[a]!), heightFraction: style.labelHeight });
         lab.position.set(a === 0 ? 1 : 0, a === 1 ? 1 : 0, a === 2 ? 1 : 0).multiplyScalar(style.length * 1.08);
         this.add(lab);
       }

@@ -36,7 +36,7 @@ export function activeTargetIndex(tStarts: Float64Array, tEnds: Float64Array, ti
   const k = countUpTo(tStarts, m, time) - 1;
   if (k < 0) return -1;
   // After the last segment ends the run is over: keep its target on screen.
-  if (time > tEnds[k] && k < m - 1) return -1;
+  if (time > tEnds[k]! && k < m - 1) return -1;
   return k;
 }
 
@@ -150,8 +150,8 @@ export class RunContent {
     }
     const k = activeTargetIndex(this.tStarts, this.tEnds, time);
     if (k !== this.activeTarget) {
-      if (this.activeTarget >= 0) this.targetGhosts[this.activeTarget].visible = false;
-      if (k >= 0) this.targetGhosts[k].visible = true;
+      if (this.activeTarget >= 0) this.targetGhosts[this.activeTarget]!.visible = false;
+      if (k >= 0) this.targetGhosts[k]!.visible = true;
       this.activeTarget = k;
     }
     this.trail.update(c, this.qNow, time, k);

@@ -30,24 +30,24 @@ export function locateSample(t: ArrayLike<number>, n: number, time: number, curs
     return cursor;
   }
   // Before the start, or NaN: the first sample.
-  if (!(time >= t[0])) return setCursor(cursor, 0, n, 0);
-  if (time >= t[n - 1]) return setCursor(cursor, n - 1, n, 0);
+  if (!(time >= t[0]!)) return setCursor(cursor, 0, n, 0);
+  if (time >= t[n - 1]!) return setCursor(cursor, n - 1, n, 0);
   let i = cursor.i;
-  if (!(i >= 0 && i < n - 1 && t[i] <= time && t[i + 1] > time)) {
-    if (i >= 0 && i + 2 < n && t[i + 1] <= time && t[i + 2] > time) {
+  if (!(i >= 0 && i < n - 1 && t[i]! <= time && t[i + 1]! > time)) {
+    if (i >= 0 && i + 2 < n && t[i + 1]! <= time && t[i + 2]! > time) {
       i = i + 1;
     } else {
       // Largest i with t[i] ≤ time; invariant t[lo] ≤ time < t[hi].
       let lo = 0, hi = n - 1;
       while (hi - lo > 1) {
         const mid = (lo + hi) >> 1;
-        if (t[mid] <= time) lo = mid;
+        if (t[mid]! <= time) lo = mid;
         else hi = mid;
       }
       i = lo;
     }
   }
-  return setCursor(cursor, i, n, (time - t[i]) / (t[i + 1] - t[i]));
+  return setCursor(cursor, i, n, (time - t[i]!) / (t[i + 1]! - t[i]!));
 }
 
 function setCursor(c: SampleCursor, i: number, n: number, alpha: number): SampleCursor {
@@ -69,7 +69,7 @@ export function lerpChannel(
   c: SampleCursor,
 ): void {
   const b0 = stride * c.i, b1 = stride * c.i1, al = c.alpha, be = 1 - al;
-  for (let k = 0; k < stride; k++) out[oo + k] = be * a[b0 + k] + al * a[b1 + k];
+  for (let k = 0; k < stride; k++) out[oo + k] = be * a[b0 + k]! + al * a[b1 + k]!;
 }
 
 /** Number of entries of a time-sorted list with `.t ≤ time` (binary search). */
@@ -77,7 +77,7 @@ export function countUpTo(times: ArrayLike<number>, m: number, time: number): nu
   let lo = 0, hi = m;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (times[mid] <= time) lo = mid + 1;
+    if (times[mid]! <= time) lo = mid + 1;
     else hi = mid;
   }
   return lo;

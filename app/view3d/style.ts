@@ -39,7 +39,7 @@ export function logicColorHex(kind: LogicKind, value: number): number {
   if (kind === 'index') {
     const m = LOGIC_INDEX.length;
     const k = Math.round(value) - 1;
-    return Number.isFinite(k) ? LOGIC_INDEX[((k % m) + m) % m] : LOGIC_NONE;
+    return Number.isFinite(k) ? LOGIC_INDEX[((k % m) + m) % m]! : LOGIC_NONE;
   }
   return LOGIC_NONE;
 }

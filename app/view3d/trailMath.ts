@@ -18,7 +18,7 @@ const sr = new Float64Array(3);
 
 /** Normalise a body axis; a zero or non-finite axis gives false and leaves `out` as is. */
 export function unitAxis(out: Float64Array, axis: ArrayLike<number>): boolean {
-  const x = axis[0], y = axis[1], z = axis[2];
+  const x = axis[0]!, y = axis[1]!, z = axis[2]!;
   const n = Math.hypot(x, y, z);
   if (!(n > 0) || !Number.isFinite(n)) return false;
   out[0] = x / n;
@@ -30,14 +30,14 @@ export function unitAxis(out: Float64Array, axis: ArrayLike<number>): boolean {
 /** out[3k..3k+2] = R(q_k) b: the inertial direction of unit body axis b at every sample. */
 export function boresightPath<T extends Float32Array | Float64Array>(out: T, q: ArrayLike<number>, n: number, b: ArrayLike<number>): T {
   for (let k = 0; k < n; k++) {
-    sq[0] = q[4 * k];
-    sq[1] = q[4 * k + 1];
-    sq[2] = q[4 * k + 2];
-    sq[3] = q[4 * k + 3];
+    sq[0] = q[4 * k]!;
+    sq[1] = q[4 * k + 1]!;
+    sq[2] = q[4 * k + 2]!;
+    sq[3] = q[4 * k + 3]!;
     qRotate(sr, sq, b);
-    out[3 * k] = sr[0];
-    out[3 * k + 1] = sr[1];
-    out[3 * k + 2] = sr[2];
+    out[3 * k] = sr[0]!;
+    out[3 * k + 1] = sr[1]!;
+    out[3 * k + 2] = sr[2]!;
   }
   return out;
 }
@@ -46,16 +46,16 @@ export function boresightPath<T extends Float32Array | Float64Array>(out: T, q: 
 export function boresightAt(out: { [i: number]: number }, oo: number, trace: RunTrace, time: number, b: ArrayLike<number>): void {
   const c = locateSample(trace.t, trace.n, time, cursorScratch);
   if (c.i < 0) {
-    out[oo] = b[0];
-    out[oo + 1] = b[1];
-    out[oo + 2] = b[2];
+    out[oo] = b[0]!;
+    out[oo + 1] = b[1]!;
+    out[oo + 2] = b[2]!;
     return;
   }
   slerpFlat(sq, 0, trace.q, 4 * c.i, trace.q, 4 * c.i1, c.alpha);
   qRotate(sr, sq, b);
-  out[oo] = sr[0];
-  out[oo + 1] = sr[1];
-  out[oo + 2] = sr[2];
+  out[oo] = sr[0]!;
+  out[oo + 1] = sr[1]!;
+  out[oo + 2] = sr[2]!;
 }
 
 const cursorScratch = createCursor();
@@ -69,21 +69,21 @@ export function trailColors(
 ): Float32Array {
   let last = NaN;
   for (let k = 0; k < n; k++) {
-    const v = logic[k];
+    const v = logic[k]!;
     if (v !== last) {
       colorOf(v, sv);
       last = v;
     }
-    out[3 * k] = sv[0];
-    out[3 * k + 1] = sv[1];
-    out[3 * k + 2] = sv[2];
+    out[3 * k] = sv[0]!;
+    out[3 * k + 1] = sv[1]!;
+    out[3 * k + 2] = sv[2]!;
   }
   return out;
 }
 
 /** Boresight direction at each jump's time, 3 per jump (in the order given). */
 export function jumpMarkerDirections(out: Float64Array, jumps: readonly ViewJump[], trace: RunTrace, b: ArrayLike<number>): Float64Array {
-  for (let m = 0; m < jumps.length; m++) boresightAt(out, 3 * m, trace, jumps[m].t, b);
+  for (let m = 0; m < jumps.length; m++) boresightAt(out, 3 * m, trace, jumps[m]!.t, b);
   return out;
 }
 
@@ -94,10 +94,10 @@ export function jumpMarkerDirections(out: Float64Array, jumps: readonly ViewJump
  * a removed (Y_I when a is near X_I), a fixed, documented choice. Returns θ (rad).
  */
 export function greatCircleArc(out: { [i: number]: number }, oo: number, a: ArrayLike<number>, b: ArrayLike<number>, count: number): number {
-  const ax = a[0], ay = a[1], az = a[2];
-  let kx = ay * b[2] - az * b[1], ky = az * b[0] - ax * b[2], kz = ax * b[1] - ay * b[0];
+  const ax = a[0]!, ay = a[1]!, az = a[2]!;
+  let kx = ay * b[2]! - az * b[1]!, ky = az * b[0]! - ax * b[2]!, kz = ax * b[1]! - ay * b[0]!;
   const s = Math.hypot(kx, ky, kz);
-  const c = ax * b[0] + ay * b[1] + az * b[2];
+  const c = ax * b[0]! + ay * b[1]! + az * b[2]!;
   const theta = Math.atan2(s, c);
   if (s > 1e-12) {
     kx /= s;
@@ -131,7 +131,7 @@ export function firstSampleAtOrAfter(t: ArrayLike<number>, n: number, time: numb
   let lo = 0, hi = n;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (t[mid] < time) lo = mid + 1;
+    if (t[mid]! < time) lo = mid + 1;
     else hi = mid;
   }
   return lo;
@@ -147,7 +147,7 @@ export function keepOutEntries(path: ArrayLike<number>, n: number, dir: ArrayLik
   const out: number[] = [];
   let prevInside = false;
   for (let k = 0; k < n; k++) {
-    const d = path[3 * k] * dir[0] + path[3 * k + 1] * dir[1] + path[3 * k + 2] * dir[2];
+    const d = path[3 * k]! * dir[0]! + path[3 * k + 1]! * dir[1]! + path[3 * k + 2]! * dir[2]!;
     const inside = d > cosHalf;
     if (inside && !prevInside) out.push(k);
     prevInside = inside;

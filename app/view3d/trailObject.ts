@@ -150,7 +150,7 @@ export class TrailObject {
     jumpMarkerDirections(this.jumpDirs, this.run.jumps, tr, this.axis);
     sScale.setScalar(SIZES.jumpMarker);
     for (let k = 0; k < this.run.jumps.length; k++) {
-      sPos.set(this.jumpDirs[3 * k], this.jumpDirs[3 * k + 1], this.jumpDirs[3 * k + 2]).multiplyScalar(R);
+      sPos.set(this.jumpDirs[3 * k]!, this.jumpDirs[3 * k + 1]!, this.jumpDirs[3 * k + 2]).multiplyScalar(R);
       this.jumpMarkers.setMatrixAt(k, sMat.compose(sPos, IDENTITY_Q, sScale));
     }
     this.jumpMarkers.instanceMatrix.needsUpdate = true;
@@ -181,7 +181,7 @@ export class TrailObject {
       arc.name = `great-circle:${tg.label}`;
       // A small ring-like dot at the target direction.
       const end = new Mesh(this.kit.dot, endMat);
-      end.position.set(sDir[0], sDir[1], sDir[2]);
+      end.position.set(sDir[0]!, sDir[1]!, sDir[2]);
       end.scale.setScalar((SIZES.jumpMarker * 0.9) / R);
       arc.add(end);
       arc.visible = false;
@@ -218,7 +218,7 @@ export class TrailObject {
     );
     sScale.setScalar(SIZES.keepOutEntryMarker);
     idx.forEach((k, m) => {
-      sPos.set(this.path[3 * k], this.path[3 * k + 1], this.path[3 * k + 2]).multiplyScalar(R);
+      sPos.set(this.path[3 * k]!, this.path[3 * k + 1]!, this.path[3 * k + 2]).multiplyScalar(R);
       im.setMatrixAt(m, sMat.compose(sPos, IDENTITY_Q, sScale));
     });
     im.count = 0;
@@ -241,15 +241,15 @@ export class TrailObject {
     this.line.geometry.setDrawRange(0, c.i + 1);
     const p = this.path, hp = this.headPos, hc = this.headCol, col = this.colors, i3 = 3 * c.i;
     qRotate(sDir, qNow, this.axis);
-    hp[0] = p[i3];
-    hp[1] = p[i3 + 1];
-    hp[2] = p[i3 + 2];
-    hp[3] = sDir[0];
-    hp[4] = sDir[1];
-    hp[5] = sDir[2];
-    hc[0] = hc[3] = col[i3];
-    hc[1] = hc[4] = col[i3 + 1];
-    hc[2] = hc[5] = col[i3 + 2];
+    hp[0] = p[i3]!;
+    hp[1] = p[i3 + 1]!;
+    hp[2] = p[i3 + 2]!;
+    hp[3] = sDir[0]!;
+    hp[4] = sDir[1]!;
+    hp[5] = sDir[2]!;
+    hc[0] = hc[3] = col[i3]!;
+    hc[1] = hc[4] = col[i3 + 1]!;
+    hc[2] = hc[5] = col[i3 + 2]!;
     (this.head.geometry.attributes.position as BufferAttribute).needsUpdate = true;
     (this.head.geometry.attributes.color as BufferAttribute).needsUpdate = true;
 

@@ -87,13 +87,13 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
       sDir[2] = camera.position.z - controls.target.z;
       const n = Math.hypot(sDir[0], sDir[1], sDir[2]) || 1;
       qRotateInverse(sOut, qBody, sDir);
-      inset.position.set((sOut[0] / n) * insetDist, (sOut[1] / n) * insetDist, (sOut[2] / n) * insetDist);
+      inset.position.set((sOut[0]! / n) * insetDist, (sOut[1]! / n) * insetDist, (sOut[2]! / n) * insetDist);
       sCamUp.setFromMatrixColumn(camera.matrixWorld, 1);
       sUp[0] = sCamUp.x;
       sUp[1] = sCamUp.y;
       sUp[2] = sCamUp.z;
       qRotateInverse(sOut, qBody, sUp);
-      inset.up.set(sOut[0], sOut[1], sOut[2]);
+      inset.up.set(sOut[0]!, sOut[1]!, sOut[2]);
     } else {
       inset.position.set(INSET_HOME[0], INSET_HOME[1], INSET_HOME[2]);
       inset.up.set(0, 0, 1);
@@ -121,7 +121,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
       const x0 = Math.floor((v * width) / n) + (v > 0 ? 1 : 0); // 1 px divider
       const w = Math.max(1, Math.floor(((v + 1) * width) / n) - x0);
       const h = height;
-      const vp = vps[v];
+      const vp = vps[v]!;
       renderer.setViewport(x0, 0, w, h);
       renderer.setScissor(x0, 0, w, h);
       renderer.setClearColor(COLORS.background, 1);
@@ -138,7 +138,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
         renderer.setScissor(x0 + w - side, 0, side, side);
         renderer.setClearColor(COLORS.insetBackground, 1);
         renderer.clear();
-        poseInset(vp.runs.length ? vp.runs[0].qNow : null, o.momentumCamera);
+        poseInset(vp.runs.length ? vp.runs[0]!.qNow : null, o.momentumCamera);
         inset.aspect = 1;
         inset.updateProjectionMatrix();
         renderer.render(vp.momentumScene, inset);

@@ -21,7 +21,7 @@ export function parseArgs(argv: readonly string[], specs: readonly OptionSpec[])
   const byName = new Map(specs.map((s) => [s.name, s]));
   const out: ParsedArgs = { positional: [], values: {}, lists: {}, flags: new Set() };
   for (let i = 0; i < argv.length; i++) {
-    const a = argv[i];
+    const a = argv[i]!;
     if (!a.startsWith('--') || a === '--') {
       out.positional.push(a);
       continue;

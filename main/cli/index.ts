@@ -173,7 +173,7 @@ const commands: Record<string, Command> = {
       if (!loaded.ok) return 2;
       const outDir = a.values.out ?? 'slewsmith-out';
       await mkdir(outDir, { recursive: true });
-      const base = path.basename(a.positional[0]).replace(/\.scenario\.json$|\.json$/, '');
+      const base = path.basename(a.positional[0]!).replace(/\.scenario\.json$|\.json$/, '');
       let status = r.value.plan.feasible ? 0 : 1;
       for (const run of r.value.runs) {
         for (const f of formats) {

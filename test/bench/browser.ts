@@ -41,12 +41,12 @@ const PLOTS = ['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'ly
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+  return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
 }
 
 function quantile(v: number[], p: number): number {
   const s = [...v].sort((a, b) => a - b);
-  return s[Math.min(s.length - 1, Math.floor(p * s.length))];
+  return s[Math.min(s.length - 1, Math.floor(p * s.length))]!;
 }
 
 const ms = (x: number) => `${x.toFixed(x < 10 ? 2 : 0)} ms`;
@@ -175,7 +175,7 @@ async function armEdit(page: Page): Promise<void> {
       if (!c) return -1;
       const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
       let h = 0;
-      for (let i = 0; i < d.length; i += 4) h = (Math.imul(h, 31) + d[i] + 7 * d[i + 1] + 13 * d[i + 2]) | 0;
+      for (let i = 0; i < d.length; i += 4) h = (Math.imul(h, 31) + d[i]! + 7 * d[i + 1]! + 13 * d[i + 2]!) | 0;
       return h;
     };
     const prevOut = store.getState().output;
@@ -257,7 +257,7 @@ async function editToPlots(browser: Browser, url: string, edits: number, skip3d:
   console.log(`   ${what}: median ${ms(median(total))} (max ${ms(Math.max(...total))}, ${edits} edits)${skip3d ? '' : '   [target ≤ 50 ms]'}`);
   console.log(
     `     phases (medians): debounce of the runner ${ms(median(debounce))}; worker round trip ${ms(median(worker))} ` +
-      `(engine pipeline ${ms(median(engine))}, messaging and transfer ${ms(median(worker.map((w, i) => w - engine[i])))}); ` +
+      `(engine pipeline ${ms(median(engine))}, messaging and transfer ${ms(median(worker.map((w, i) => w - engine[i]!)))}); ` +
       `store → plot pixels ${ms(median(render))} (React commit of the new output ${ms(median(commit))})`,
   );
   console.log(
@@ -296,8 +296,8 @@ async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<
       const v = (window as unknown as { __slewsmithView: { setTime(t: number): void; render(): void; stats: { lastUpdateMs: number }; model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView;
       const runs = app.store.getState().output.runs.filter((r) => keys.includes(r.key));
       const n = Math.min(...runs.map((r) => r.trace.n));
-      const tr = runs[0].trace;
-      const tEnd = tr.t[tr.n - 1];
+      const tr = runs[0]!.trace;
+      const tEnd = tr.t[tr.n - 1]!;
       let seed = 12345;
       const rand = () => ((seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 4294967296);
       const set: number[] = [], ren: number[] = [], stat: number[] = [];
@@ -328,7 +328,7 @@ async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<
 
   for (const keys of [['pd:profiled'], ['pd:profiled', 'hysteretic:profiled', 'synergistic:profiled']]) {
     const r = await measure(keys);
-    const both = r.set.map((s, i) => s + r.ren[i]);
+    const both = r.set.map((s, i) => s + r.ren[i]!);
     console.log(
       `   3D update, ${r.viewRuns} run(s) × ${r.n} samples (${keys.length > 1 ? 'overlay' : 'single'}): setTime median ${ms(median(r.set))} (p95 ${ms(quantile(r.set, 0.95))}; view's own lastUpdateMs median ${ms(median(r.stat))}; mean of 2000 back-to-back ${(r.batchMeanMs * 1000).toFixed(1)} µs); ` +
         `render() call median ${ms(median(r.ren))} (p95 ${ms(quantile(r.ren, 0.95))}); setTime + render ${ms(median(both))}   [target setTime ≤ 2 ms]`,

@@ -73,10 +73,10 @@ export async function benchControl(): Promise<void> {
     const ms = best(3, () => {
       for (let i = 0; i < N; i++) {
         const o = 4 * (i & 255);
-        inp.q[0] = qs[o];
-        inp.q[1] = qs[o + 1];
-        inp.q[2] = qs[o + 2];
-        inp.q[3] = qs[o + 3];
+        inp.q[0] = qs[o]!;
+        inp.q[1] = qs[o + 1]!;
+        inp.q[2] = qs[o + 2]!;
+        inp.q[3] = qs[o + 3]!;
         c.torque(tau, inp, logic);
       }
     });

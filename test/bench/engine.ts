@@ -30,12 +30,12 @@ const N_SAMPLES = Math.round(T_END / TS);
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+  return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
 }
 
 function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>, n: number): number {
   let d = 0;
-  for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(a[i] - b[i]));
+  for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(a[i]! - b[i]!));
   return d;
 }
 
@@ -46,7 +46,7 @@ const x0 = pyra4InitialState();
 const TORQUE_TABLE = new Float64Array(4 * (N_SAMPLES + 1));
 for (let k = 0; k <= N_SAMPLES; k++) testWheelTorque(TORQUE_TABLE.subarray(4 * k, 4 * k + 4), k * TS);
 const tableTorque = (out: Float64Array, k: number): void => {
-  for (let i = 0; i < 4; i++) out[i] = TORQUE_TABLE[4 * k + i];
+  for (let i = 0; i < 4; i++) out[i] = TORQUE_TABLE[4 * k + i]!;
 };
 const x0WithHeld = new Float64Array(g.dim + 4);
 x0WithHeld.set(x0);
@@ -70,7 +70,7 @@ function runOdex(tol: number): { y: number[]; steps: number } {
   const xs = new Float64Array(g.dim), dx = new Float64Array(g.dim);
   const ext = new Float64Array(3);
   const f = (_t: number, y: number[]): number[] => {
-    for (let i = 0; i < g.dim; i++) xs[i] = y[i];
+    for (let i = 0; i < g.dim; i++) xs[i] = y[i]!;
     gyrostatDerivative(dx, xs, g, held, ext);
     return Array.from(dx);
   };
@@ -82,8 +82,8 @@ function runOdex(tol: number): { y: number[]; steps: number } {
     y = r.y;
     steps += r.nStep;
     // renormalise the quaternion as our run does after each step
-    const nq = Math.sqrt(y[0] * y[0] + y[1] * y[1] + y[2] * y[2] + y[3] * y[3]);
-    for (let i = 0; i < 4; i++) y[i] /= nq;
+    const nq = Math.sqrt(y[0]! * y[0]! + y[1]! * y[1]! + y[2]! * y[2]! + y[3]! * y[3]!);
+    for (let i = 0; i < 4; i++) y[i]! /= nq;
   }
   return { y, steps };
 }

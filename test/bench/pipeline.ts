@@ -25,7 +25,7 @@ const DEMO = new URL('../../assets/lumen6-imaging.scenario.json', import.meta.ur
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+  return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
 }
 
 /**
@@ -80,7 +80,7 @@ function targetsOf(p: Prepared): Float64Array {
 /** The 600 s run: demo vehicle, its hysteretic law, direct reference, 10 Hz, one RK4 step per sample. */
 function longRunConfig(p: Prepared): ClosedLoopConfig {
   const s = p.scenario;
-  const c = p.controllers.find((x) => x.law === 'hysteretic') ?? p.controllers[0];
+  const c = p.controllers.find((x) => x.law === 'hysteretic') ?? p.controllers[0]!;
   return {
     plant: p.vehicle.plant,
     wheels: p.vehicle.wheels,
@@ -164,4 +164,4 @@ export async function benchPipeline(): Promise<void> {
     `typed-array storage lives outside the JS heap and is not counted)`);
 }
 
-if (import.meta.url === pathToFileURL(process.argv[1]).href) await benchPipeline();
+if (import.meta.url === pathToFileURL(process.argv[1]!).href) await benchPipeline();

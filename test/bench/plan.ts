@@ -13,8 +13,8 @@ import type { PlanLimits } from '../../app/engine/plan/types';
 
 function stats(ms: number[]): string {
   const s = [...ms].sort((a, b) => a - b);
-  const q = (p: number) => s[Math.min(s.length - 1, Math.floor(p * s.length))];
-  return `median ${q(0.5).toFixed(2)} ms, p90 ${q(0.9).toFixed(2)} ms, max ${s[s.length - 1].toFixed(2)} ms (n = ${s.length})`;
+  const q = (p: number) => s[Math.min(s.length - 1, Math.floor(p * s.length))]!;
+  return `median ${q(0.5).toFixed(2)} ms, p90 ${q(0.9).toFixed(2)} ms, max ${s[s.length - 1]!.toFixed(2)} ms (n = ${s.length})`;
 }
 
 export async function benchPlan(): Promise<void> {

@@ -22,7 +22,7 @@ for (const b of benches) {
   console.log(`\n== ${b.title} (${b.file})`);
   try {
     const mod = (await import(b.file)) as Record<string, () => Promise<void>>;
-    await mod[b.fn]();
+    await mod[b.fn]!();
   } catch (e) {
     console.log(`   could not run: ${(e as Error).message.split('\n')[0]}`);
   }

@@ -36,7 +36,7 @@ export async function benchStudy(): Promise<void> {
   const nLaws = json.study.controllers.length;
   const cases = SLEWS / nLaws;
 
-  const load = () => os.loadavg()[0].toFixed(1);
+  const load = () => os.loadavg()[0]!.toFixed(1);
   console.log(`   machine: ${os.cpus().length} cores, 1-min load average ${load()} at start (other jobs on the machine inflate every figure)`);
 
   // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop), median of 9.
@@ -48,13 +48,13 @@ export async function benchStudy(): Promise<void> {
   single.simulation.tailS = 600 - Math.max(1, p0.value.plan.totalS); // the pipeline runs plan + tail
   const p = prepareScenario(single, ['hyst']);
   if (!p.ok) throw new Error('scenario refused');
-  const targets = Float64Array.from(p.value.scenario.targets[0].qInertialFromBody);
-  runOne(p.value, p.value.controllers[0], 'direct', targets);
+  const targets = Float64Array.from(p.value.scenario.targets[0]!.qInertialFromBody);
+  runOne(p.value, p.value.controllers[0]!, 'direct', targets);
   const singles: number[] = [];
   let samples = 0;
   for (let k = 0; k < 9; k++) {
     const t = performance.now();
-    samples = runOne(p.value, p.value.controllers[0], 'direct', targets).trace.n;
+    samples = runOne(p.value, p.value.controllers[0]!, 'direct', targets).trace.n;
     singles.push(performance.now() - t);
   }
   const singleMs = median(singles);
@@ -65,7 +65,7 @@ export async function benchStudy(): Promise<void> {
   if (!c.ok) throw new Error('study refused');
   const ctx = c.value;
   const probe = Array.from({ length: 100 }, (_, k) => 20 * k);
-  for (let i = 0; i < 3; i++) runCase(ctx, probe[i]); // warm up
+  for (let i = 0; i < 3; i++) runCase(ctx, probe[i]!); // warm up
   let t0 = performance.now();
   for (const i of probe) runCase(ctx, i);
   const perCase = (performance.now() - t0) / probe.length;
@@ -87,7 +87,7 @@ export async function benchStudy(): Promise<void> {
         maxMomentumNms: v.value.wheels.maxMomentumNms, segmentTargets: ctx.target,
       });
       tMetrics += performance.now() - a;
-      simS += f.res.trace.t[f.res.trace.n - 1];
+      simS += f.res.trace.t[f.res.trace.n - 1]!;
       nSamples += f.res.trace.n;
       nRuns++;
     }
@@ -127,7 +127,7 @@ export async function benchStudy(): Promise<void> {
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
+  return s[Math.floor(s.length / 2)]!;
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) await benchStudy();

@@ -15,7 +15,7 @@ import type { SyntheticRunSpec } from '../unit/view3d-fixtures';
 import { syntheticViewRun } from '../unit/view3d-fixtures';
 
 function quantile(sorted: Float64Array, p: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))];
+  return sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))]!;
 }
 
 interface SamplingNode {

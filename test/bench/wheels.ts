@@ -51,25 +51,25 @@ export async function benchWheels(): Promise<void> {
     const out = new Float64Array(n), cmd = new Float64Array(n);
     const info = createLimitInfo();
     console.log(` ${name} (${n} wheels)`);
-    perCall('allocateMinNorm', 200_000, (k) => allocateMinNorm(out, arr, tau[k % N]));
-    perCall('allocateMinMax', 50_000, (k) => allocateMinMax(out, arr, tau[k % N]));
+    perCall('allocateMinNorm', 200_000, (k) => allocateMinNorm(out, arr, tau[k % N]!));
+    perCall('allocateMinMax', 50_000, (k) => allocateMinMax(out, arr, tau[k % N]!));
     let nullSpace = 0, scaled = 0;
     perCall('limitWheelTorque (instantaneous, saturated wheels)', 20_000, (k) => {
-      allocateMinMax(cmd, arr, tau[k % N]);
-      limitWheelTorque(out, arr, cmd, h[k % N], info);
+      allocateMinMax(cmd, arr, tau[k % N]!);
+      limitWheelTorque(out, arr, cmd, h[k % N]!, info);
       if (info.reason === 'momentum-null-space') nullSpace++;
       if (info.reason === 'momentum') scaled++;
     });
     console.log(`     (of those calls: ${nullSpace} fixed in the null space, ${scaled} scaled for momentum)`);
     perCall('limitWheelTorque (predictive, dt = 0.1 s)', 20_000, (k) => {
-      allocateMinMax(cmd, arr, tau[k % N]);
-      limitWheelTorque(out, arr, cmd, h[k % N], 0.1, info);
+      allocateMinMax(cmd, arr, tau[k % N]!);
+      limitWheelTorque(out, arr, cmd, h[k % N]!, 0.1, info);
     });
     const t0 = performance.now();
     const z = momentumEnvelope(arr);
     const tBuild = performance.now() - t0;
     console.log(`   momentumEnvelope: ${tBuild.toFixed(2)} ms (V ${z.vertices.length / 3}, F ${z.faces.length})`);
-    perCall('envelopeCapacity', 100_000, (k) => envelopeCapacity(z, tau[k % N]));
+    perCall('envelopeCapacity', 100_000, (k) => envelopeCapacity(z, tau[k % N]!));
   }
 }
 

@@ -41,9 +41,9 @@ async function paintedPlots(page: Page): Promise<Record<string, number>> {
       const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
       let n = 0;
       for (let i = 0; i < d.length; i += 4) {
-        const mx = Math.max(d[i], d[i + 1], d[i + 2]);
-        const mn = Math.min(d[i], d[i + 1], d[i + 2]);
-        if (d[i + 3] > 128 && mx - mn > 60) n++;
+        const mx = Math.max(d[i]!, d[i + 1]!, d[i + 2]!);
+        const mn = Math.min(d[i]!, d[i + 1]!, d[i + 2]!);
+        if (d[i + 3]! > 128 && mx - mn > 60) n++;
       }
       out[id] = n;
     }
@@ -200,9 +200,9 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     expect(doc.ok, doc.ok ? '' : JSON.stringify(doc.errors.slice(0, 5))).toBe(true);
     if (!doc.ok) return;
     expect(doc.value.segments.length).toBeGreaterThan(0);
-    const first = doc.value.segments[0];
-    expect(first.metadata.OBJECT_NAME.toUpperCase()).toBe('LUMEN-6');
-    expect(first.lines[0].epoch.startsWith('2030-03-14T10:00:00')).toBe(true);
+    const first = doc.value.segments[0]!;
+    expect(first.metadata.OBJECT_NAME!.toUpperCase()).toBe('LUMEN-6');
+    expect(first.lines[0]!.epoch.startsWith('2030-03-14T10:00:00')).toBe(true);
     // Quaternion data lines have unit norm.
     for (const l of first.lines.slice(0, 20)) expect(Math.hypot(...l.values.slice(0, 4))).toBeCloseTo(1, 6);
     // At 1 Hz the 10 Hz run is thinned out: about one line per second of the run.

@@ -84,7 +84,7 @@ describe.skipIf(skipBrowser)('browser fallback bridge (Chromium)', () => {
     if (bad.status === 'invalid') expect(bad.errors.map((e) => e.rule)).toEqual(['json-syntax']);
     const huge = await open('huge.json', ' '.repeat(70 * 1024));
     if (huge.status !== 'invalid') throw new Error(`expected invalid, got ${huge.status}`);
-    expect(huge.errors[0].rule).toBe('max-size');
+    expect(huge.errors[0]!.rule).toBe('max-size');
   });
 
   it('saves by downloading pretty JSON under the current name, and save-as asks for a name', async () => {

@@ -44,7 +44,7 @@ async function download(page: Page, testId: string): Promise<{ d: Download; text
 
 function csvData(text: string): { head: string[]; rows: string[][] } {
   const lines = text.split('\n').filter((l) => l !== '' && !l.startsWith('#'));
-  return { head: lines[0].split(','), rows: lines.slice(1).map((l) => l.split(',')) };
+  return { head: lines[0]!.split(','), rows: lines.slice(1).map((l) => l.split(',')) };
 }
 
 /** Per histogram: data-totals (runs drawn per controller) and the sum of the bar counts per controller. */
@@ -153,14 +153,14 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     await expect.poll(() => map.getAttribute('data-drawn')).toBe('24');
     const before = await mapPixels(page);
     let lit = 0;
-    for (let i = 0; i < before.length; i += 4) if (Math.max(before[i], before[i + 1], before[i + 2]) > 60) lit++;
+    for (let i = 0; i < before.length; i += 4) if (Math.max(before[i]!, before[i + 1]!, before[i + 2]!) > 60) lit++;
     expect(lit).toBeGreaterThan(2000); // sphere lines, axes and points on the dark background
     // Recolouring by outcome changes exactly the points: enough pixels for 24 of them.
     await page.getByTestId('map-colour').selectOption('outcome');
     await page.waitForTimeout(200);
     const after = await mapPixels(page);
     let changed = 0;
-    for (let i = 0; i < after.length; i += 4) if (Math.abs(after[i] - before[i]) + Math.abs(after[i + 1] - before[i + 1]) + Math.abs(after[i + 2] - before[i + 2]) > 60) changed++;
+    for (let i = 0; i < after.length; i += 4) if (Math.abs(after[i]! - before[i]!) + Math.abs(after[i + 1]! - before[i + 1]!) + Math.abs(after[i + 2]! - before[i + 2]!) > 60) changed++;
     expect(changed).toBeGreaterThan(24 * 20);
     await page.getByTestId('map-colour').selectOption('settle');
     // Results widened (setup hidden): map and worst cases, then the histograms.
@@ -225,7 +225,7 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     const painted = await page.getByTestId('plot-error-angle').locator('canvas').first().evaluate((c: HTMLCanvasElement) => {
       const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
       let n = 0;
-      for (let i = 0; i < d.length; i += 4) if (d[i + 3] > 128 && Math.max(d[i], d[i + 1], d[i + 2]) - Math.min(d[i], d[i + 1], d[i + 2]) > 60) n++;
+      for (let i = 0; i < d.length; i += 4) if (d[i + 3]! > 128 && Math.max(d[i]!, d[i + 1]!, d[i + 2]!) - Math.min(d[i]!, d[i + 1]!, d[i + 2]!) > 60) n++;
       return n;
     });
     expect(painted).toBeGreaterThan(200);
@@ -262,7 +262,7 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     expect(await page.getByTestId('study-map').getAttribute('data-points')).toBe(String(done));
     const hs = await histograms(page);
     for (const h of hs) for (const t of h.totals!.split(',')) expect(Number(t), h.id!).toBeLessThanOrEqual(done);
-    expect(hs[0].totals!.split(',').length).toBe(expected.study.controllers.length);
+    expect(hs[0]!.totals!.split(',').length).toBe(expected.study.controllers.length);
     const csv = await download(page, 'study-export-csv');
     const { rows } = csvData(csv.text);
     expect(rows.length).toBe(done * expected.study.controllers.length);

@@ -57,11 +57,11 @@ export async function snapshot(page: Page, name: string, probes: Record<string, 
       const near: Record<string, number> = Object.fromEntries(cols.map(([key]) => [key, 0]));
       let painted = 0;
       for (let i = 0; i < d.length; i += 4) {
-        const r = d[i], g = d[i + 1], b = d[i + 2];
+        const r = d[i]!, g = d[i + 1]!, b = d[i + 2]!;
         let bg = false;
         for (const [br, bgc, bb] of backgrounds) if (Math.abs(r - br) <= 8 && Math.abs(g - bgc) <= 8 && Math.abs(b - bb) <= 8) bg = true;
         if (!bg) painted++;
-        for (const [key, cr, cg, cb] of cols) if (Math.abs(r - cr) <= tol && Math.abs(g - cg) <= tol && Math.abs(b - cb) <= tol) near[key]++;
+        for (const [key, cr, cg, cb] of cols) if (Math.abs(r - cr) <= tol && Math.abs(g - cg) <= tol && Math.abs(b - cb) <= tol) near[key]!++;
       }
       return { width: k.width, height: k.height, painted, near };
     },
@@ -90,7 +90,7 @@ export async function pixelDiff(page: Page, a: string, b: string, box?: Box, tol
       for (let y = y0; y < y1; y++)
         for (let x = x0; x < x1; x++) {
           const i = 4 * (y * A.w + x);
-          if (Math.abs(A.d[i] - B.d[i]) > tol || Math.abs(A.d[i + 1] - B.d[i + 1]) > tol || Math.abs(A.d[i + 2] - B.d[i + 2]) > tol) n++;
+          if (Math.abs(A.d[i]! - B.d[i]!) > tol || Math.abs(A.d[i + 1]! - B.d[i + 1]!) > tol || Math.abs(A.d[i + 2]! - B.d[i + 2]!) > tol) n++;
         }
       return n;
     },
@@ -163,14 +163,14 @@ export function box(cx: number, cy: number, half: number): Box {
 export async function colourNear(page: Page, name: string, x: number, y: number, radius: number, hex: number, tol = 40): Promise<number> {
   return page.evaluate(
     ({ name, x, y, radius, hex, tol }) => {
-      const S = (window as unknown as { __v3dShots: Record<string, { w: number; h: number; d: Uint8ClampedArray }> }).__v3dShots[name];
+      const S = (window as unknown as { __v3dShots: Record<string, { w: number; h: number; d: Uint8ClampedArray }> }).__v3dShots[name]!;
       const cr = (hex >> 16) & 255, cg = (hex >> 8) & 255, cb = hex & 255;
       let n = 0;
       for (let py = Math.max(0, Math.round(y - radius)); py <= Math.min(S.h - 1, Math.round(y + radius)); py++)
         for (let px = Math.max(0, Math.round(x - radius)); px <= Math.min(S.w - 1, Math.round(x + radius)); px++) {
           if ((px - x) ** 2 + (py - y) ** 2 > radius * radius) continue;
           const i = 4 * (py * S.w + px);
-          if (Math.abs(S.d[i] - cr) <= tol && Math.abs(S.d[i + 1] - cg) <= tol && Math.abs(S.d[i + 2] - cb) <= tol) n++;
+          if (Math.abs(S.d[i]! - cr) <= tol && Math.abs(S.d[i + 1]! - cg) <= tol && Math.abs(S.d[i + 2]! - cb) <= tol) n++;
         }
       return n;
     },

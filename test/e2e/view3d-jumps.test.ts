@@ -33,7 +33,7 @@ function spinThroughCopy(): string {
   delete s.study;
   s.name = SPIN_NAME;
   const axis: number[] = s.targets[0].attitude.relative.axis;
-  const n = Math.hypot(axis[0], axis[1], axis[2]);
+  const n = Math.hypot(axis[0]!, axis[1]!, axis[2]!);
   s.targets[0].attitude.relative.angleDeg = 179;
   s.initial.bodyRateDegPerS = axis.map((a) => (-12 * a) / n);
   s.vehicle.wheels.maxMomentumMNms = 60;
@@ -89,7 +89,7 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
       jumps: r.jumps.map((j) => j.t),
       brackets: r.jumps.map((j) => {
         let i = 0;
-        while (i + 1 < r.trace.n && r.trace.t[i + 1] <= j.t) i++;
+        while (i + 1 < r.trace.n && r.trace.t[i + 1]! <= j.t) i++;
         const i1 = Math.min(i + 1, r.trace.n - 1);
         return { qI: Array.from(r.trace.q.subarray(4 * i, 4 * i + 4)), qI1: Array.from(r.trace.q.subarray(4 * i1, 4 * i1 + 4)) };
       }),
@@ -97,9 +97,9 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
   });
 }
 
-const rotate = (q: number[], v: number[]): number[] => new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0], v[1], v[2]]) as number[];
+const rotate = (q: number[], v: number[]): number[] => new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0]!, v[1]!, v[2]!]) as number[];
 const angle = (a: number[], b: number[]) => {
-  const d = (a[0] * b[0] + a[1] * b[1] + a[2] * b[2]) / (Math.hypot(a[0], a[1], a[2]) * Math.hypot(b[0], b[1], b[2]));
+  const d = (a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!) / (Math.hypot(a[0]!, a[1]!, a[2]!) * Math.hypot(b[0]!, b[1]!, b[2]!));
   return Math.acos(Math.min(1, Math.max(-1, d)));
 };
 
@@ -167,7 +167,7 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
       // Each marker sits on the sphere, between the boresight directions of the samples around its jump.
       d!.positions.forEach((p, k) => {
         expect(Math.hypot(p[0], p[1], p[2])).toBeCloseTo(SPHERE_RADIUS, 6);
-        const b0 = rotate(r.brackets[k].qI, boresight), b1 = rotate(r.brackets[k].qI1, boresight);
+        const b0 = rotate(r.brackets[k]!.qI, boresight), b1 = rotate(r.brackets[k]!.qI1, boresight);
         const step = angle(b0, b1);
         expect(angle(p, b0)).toBeLessThanOrEqual(step + 1e-6);
         expect(angle(p, b1)).toBeLessThanOrEqual(step + 1e-6);
@@ -182,11 +182,11 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
   it('shows a hybrid run’s marker only once the time passes its jump', async () => {
     const hyst = byLaw('hyst');
     await showOnly(page, [hyst.key], runs.map((r) => r.key));
-    const tj = hyst.jumps[0];
+    const tj = hyst.jumps[0]!;
     await setTime(page, tj - 0.05);
-    expect((await markers(page))[0].count).toBe(0);
+    expect((await markers(page))[0]!.count).toBe(0);
     await setTime(page, tj + 0.05);
-    expect((await markers(page))[0].count).toBe(1);
+    expect((await markers(page))[0]!.count).toBe(1);
   });
 
   it('draws the marker in pixels for the hysteretic run and nothing extra for PD (jumps toggle on vs off)', async () => {
@@ -195,8 +195,8 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
     const hyst = byLaw('hyst');
     await showOnly(page, [hyst.key], all);
     await setTime(page, tMax);
-    const [m] = (await markers(page))[0].positions;
-    const at = await projectWorldPoint(page, m);
+    const [m] = (await markers(page))[0]!.positions;
+    const at = await projectWorldPoint(page, m!);
     await snapshot(page, 'hyst-on');
     await toggle.uncheck();
     await frames(page);

@@ -42,9 +42,9 @@ async function bracket(page: Page): Promise<TraceProbe> {
     const tr = run.trace;
     const t = s.clock.t;
     let i = 0;
-    while (i + 1 < tr.n && tr.t[i + 1] <= t) i++;
+    while (i + 1 < tr.n && tr.t[i + 1]! <= t) i++;
     const i1 = Math.min(i + 1, tr.n - 1);
-    return { key: run.key, t, i, tI: tr.t[i], tI1: tr.t[i1], qI: Array.from(tr.q.subarray(4 * i, 4 * i + 4)), qI1: Array.from(tr.q.subarray(4 * i1, 4 * i1 + 4)) };
+    return { key: run.key, t, i, tI: tr.t[i]!, tI1: tr.t[i1]!, qI: Array.from(tr.q.subarray(4 * i, 4 * i + 4)), qI1: Array.from(tr.q.subarray(4 * i1, 4 * i1 + 4)) };
   });
 }
 
@@ -54,7 +54,7 @@ function bodyXInertial(q: number[]): number[] {
 }
 
 const angle = (a: number[], b: number[]) => {
-  const d = (a[0] * b[0] + a[1] * b[1] + a[2] * b[2]) / (Math.hypot(a[0], a[1], a[2]) * Math.hypot(b[0], b[1], b[2]));
+  const d = (a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!) / (Math.hypot(a[0]!, a[1]!, a[2]!) * Math.hypot(b[0]!, b[1]!, b[2]!));
   return Math.acos(Math.min(1, Math.max(-1, d)));
 };
 
@@ -79,7 +79,7 @@ describe.skipIf(skipBrowser)('3D attitude view on the demo (Chromium, WebGL read
     await page.locator('[data-testid=run-status][data-status=done]').waitFor({ timeout: 60_000 });
     await page.waitForFunction(() => {
       const v = (window as unknown as { __slewsmithView?: { model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView;
-      return !!v && v.model.viewports.length === 1 && v.model.viewports[0].runs.length === 1;
+      return !!v && v.model.viewports.length === 1 && v.model.viewports[0]!.runs.length === 1;
     });
     await frames(page);
   });
@@ -138,7 +138,7 @@ describe.skipIf(skipBrowser)('3D attitude view on the demo (Chromium, WebGL read
       [B, tipB, originB],
     ] as const) {
       expect(probe.tI).toBeLessThanOrEqual(probe.t);
-      const drawn = [0, 1, 2].map((k) => tip.world[k] - origin.world[k]);
+      const drawn = [0, 1, 2].map((k) => tip.world[k]! - origin.world[k]!);
       const x0 = bodyXInertial(probe.qI), x1 = bodyXInertial(probe.qI1);
       const step = angle(x0, x1);
       expect(angle(drawn, x0)).toBeLessThanOrEqual(step + 1e-5);
@@ -149,7 +149,7 @@ describe.skipIf(skipBrowser)('3D attitude view on the demo (Chromium, WebGL read
   it('saves screenshots of the scene at the start, mid-slew and end', async () => {
     const seg = await page.evaluate(() => {
       const st = (window as unknown as { __slewsmith: { store: { getState(): { output: { plan: { segments: { tStart: number; slewTimeS: number }[] } } } } } }).__slewsmith.store.getState();
-      return st.output.plan.segments[0];
+      return st.output.plan.segments[0]!;
     });
     const tMax = await page.evaluate(() => (window as unknown as { __slewsmith: { clock: { tMax: number } } }).__slewsmith.clock.tMax);
     fs.mkdirSync(screensDir, { recursive: true });

@@ -62,12 +62,12 @@ describe('validateInertia on physical inertias', () => {
         const R = qToMat3(new Float64Array(9), q);
         const J = m3Multiply(new Float64Array(9), m3Multiply(new Float64Array(9), R, m3Diag(a, b, c)), m3Transpose(new Float64Array(9), R));
         // symmetrise the rounding of the product
-        const rows = m3ToRows(J).map((row, r) => row.map((v, k) => (r <= k ? v : m3ToRows(J)[k][r])));
+        const rows = m3ToRows(J).map((row, r) => row.map((v, k) => (r <= k ? v : m3ToRows(J)[k]![r])));
         const res = validateInertia(rows);
         expect(res.ok).toBe(true);
         if (!res.ok) return;
         const sorted = [a, b, c].sort((x, y) => x - y);
-        for (let i = 0; i < 3; i++) expect(Math.abs(res.value.moments[i] - sorted[i])).toBeLessThan(1e-12 * (a + b + c));
+        for (let i = 0; i < 3; i++) expect(Math.abs(res.value.moments[i]! - sorted[i]!)).toBeLessThan(1e-12 * (a + b + c));
       },
     ), { numRuns: 300 });
   });

@@ -26,7 +26,7 @@ function randomTrace(seed: number, n: number, dt: number, nJumps: number) {
   const jumpsAfter = Array.from({ length: nJumps }, () => Math.floor(rng.next() * n));
   const tr = makeTrace({ n, dt, nWheels: 3, q0, omega, jumpsAfter, segmentStarts: [n * dt * rng.next()] });
   // Random sign flips: the writer must restore one hemisphere.
-  for (let k = 0; k < tr.n; k++) if (rng.next() < 0.3) for (let i = 0; i < 4; i++) tr.q[4 * k + i] = -tr.q[4 * k + i];
+  for (let k = 0; k < tr.n; k++) if (rng.next() < 0.3) for (let i = 0; i < 4; i++) tr.q[4 * k + i] = -tr.q[4 * k + i]!;
   return tr;
 }
 
@@ -43,15 +43,15 @@ describe('random traces', () => {
         if (!doc.ok) throw new Error(JSON.stringify(doc.errors));
         const lines = doc.value.segments.flatMap((g) => g.lines);
         for (let i = 1; i < lines.length; i++) {
-          const a = lines[i - 1].values, b = lines[i].values;
-          expect(a[0] * b[0] + a[1] * b[1] + a[2] * b[2] + a[3] * b[3]).toBeGreaterThan(0);
+          const a = lines[i - 1]!.values, b = lines[i]!.values;
+          expect(a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!).toBeGreaterThan(0);
         }
         for (const l of lines) {
           const t = l.time.unixS - scenario.epochUnixMs / 1000;
           let k = 0;
-          while (Math.abs(tr.t[k] - t) > 5e-4) k++;
-          const s = Math.sign(l.values[0] * tr.q[4 * k] + l.values[1] * tr.q[4 * k + 1] + l.values[2] * tr.q[4 * k + 2] + l.values[3] * tr.q[4 * k + 3]);
-          for (let i = 0; i < 4; i++) expect(Math.abs(l.values[i] - s * tr.q[4 * k + i])).toBeLessThanOrEqual(0.5e-10 + 1e-15);
+          while (Math.abs(tr.t[k]! - t) > 5e-4) k++;
+          const s = Math.sign(l.values[0]! * tr.q[4 * k]! + l.values[1]! * tr.q[4 * k + 1]! + l.values[2]! * tr.q[4 * k + 2]! + l.values[3]! * tr.q[4 * k + 3]!);
+          for (let i = 0; i < 4; i++) expect(Math.abs(l.values[i]! - s * tr.q[4 * k + i]!)).toBeLessThanOrEqual(0.5e-10 + 1e-15);
         }
       }),
       { numRuns: 150, seed: 42 },
@@ -64,8 +64,8 @@ describe('random traces', () => {
         const tr = randomTrace(seed, n, 0.1, 0);
         const k = 1 + (pick % (tr.n - 1));
         if (how === 'nan') tr.torqueCmdBody[3 * k + (pick % 3)] = Number.NaN;
-        else if (how === 'back') tr.t[k] = tr.t[k - 1] - 0.01;
-        else if (how === 'norm') tr.q[4 * k + 3] += 0.01;
+        else if (how === 'back') tr.t[k] = tr.t[k - 1]! - 0.01;
+        else if (how === 'norm') tr.q[4 * k + 3]! += 0.01;
         else tr.hWheel[3 * k] = -Infinity;
         for (const r of [writeCsv(tr, scenario, META), writeJson(tr, scenario, META), writeAem(tr, scenario, META, { creationDateUtc: '2031-06-01T00:00:00Z' })]) {
           expect(r.ok).toBe(false);

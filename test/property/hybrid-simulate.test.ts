@@ -30,10 +30,10 @@ describe('simulateHybrid never returns NaN (fast-check)', () => {
         let k = 0;
         const sys: HybridSystem = {
           dim: 1,
-          flow: (_t, x, d) => { d[0] = poison !== null && x[0] > poison ? NaN : a * x[0] * x[0] + b; },
-          jump: (_t, x, xp) => { xp[0] = reset; k++; return report ? { what: 'reset', from: x[0], to: reset, why: 'test' } : null; },
+          flow: (_t, x, d) => { d[0] = poison !== null && x[0]! > poison ? NaN : a * x[0]! * x[0]! + b; },
+          jump: (_t, x, xp) => { xp[0] = reset; k++; return report ? { what: 'reset', from: x[0]!, to: reset, why: 'test' } : null; },
         };
-        if (level !== null) sys.jumpGuard = (_t, x) => x[0] - level;
+        if (level !== null) sys.jumpGuard = (_t, x) => x[0]! - level;
         if (Ts !== null) sys.nextScheduledJump = () => k * Ts;
         const integrator: IntegratorOptions = rk4 ? { kind: 'rk4', dt: 0.05 } : { kind: 'dp54', rtol: 1e-6, atol: 1e-9 };
         const r = simulateHybrid(sys, [x0], { tEnd: 3, integrator, maxSteps: 20000 });
@@ -43,8 +43,8 @@ describe('simulateHybrid never returns NaN (fast-check)', () => {
         for (const v of arc.x) expect(Number.isFinite(v)).toBe(true);
         expect(Number.isFinite(arc.finalState[0])).toBe(true);
         for (let i = 1; i < arc.count; i++) {
-          expect(arc.t[i]).toBeGreaterThanOrEqual(arc.t[i - 1]);
-          expect(arc.j[i]).toBeGreaterThanOrEqual(arc.j[i - 1]);
+          expect(arc.t[i]).toBeGreaterThanOrEqual(arc.t[i - 1]!);
+          expect(arc.j[i]).toBeGreaterThanOrEqual(arc.j[i - 1]!);
         }
         expect(STATUSES).toContain(arc.outcome.status);
         expect(arc.outcome.message.length).toBeGreaterThan(10);

@@ -24,9 +24,9 @@ const RULES = new Set(['stored-momentum-start', 'stored-momentum-end', 'stored-m
 function makeCase(seed: number) {
   const rng = makeRng(seed, 3);
   const u = (a: number, b: number) => a + (b - a) * rng.next();
-  const d = [u(0.05, 0.3), u(0.05, 0.3), u(0.05, 0.3)];
+  const d: [number, number, number] = [u(0.05, 0.3), u(0.05, 0.3), u(0.05, 0.3)];
   const m = Math.min(...d);
-  const p = [u(-0.1, 0.1) * m, u(-0.1, 0.1) * m, u(-0.1, 0.1) * m]; // diagonally dominant ⇒ SPD
+  const p: [number, number, number] = [u(-0.1, 0.1) * m, u(-0.1, 0.1) * m, u(-0.1, 0.1) * m]; // diagonally dominant ⇒ SPD
   const J = [d[0], p[0], p[1], p[0], d[1], p[2], p[1], p[2], d[2]];
   const lt = u(0.001, 0.005), lh = u(0.005, 0.03);
   const mt = u(0.3, 1), mh = u(0.3, 1);
@@ -35,7 +35,7 @@ function makeCase(seed: number) {
   let h0 = [0, 0, 0];
   if (rng.next() < 0.6) {
     const v = [rng.normal(), rng.normal(), rng.normal()];
-    const n = Math.hypot(v[0], v[1], v[2]);
+    const n = Math.hypot(v[0]!, v[1]!, v[2]!);
     const mag = u(0, 1.4) * mh * lh; // up to 1.4 × the usable cube along an axis: some cases infeasible
     h0 = v.map((x) => (x / n) * mag);
   }
@@ -43,8 +43,8 @@ function makeCase(seed: number) {
   return { J, lt, lh, mt, mh, slew, q0, q1, h0, limits, rng };
 }
 
-const mulJ = (J: number[], v: ArrayLike<number>) => [0, 1, 2].map((r) => J[r] * v[0] + J[3 + r] * v[1] + J[6 + r] * v[2]);
-const cubeGauge = (v: ArrayLike<number>, l: number) => Math.max(Math.abs(v[0]), Math.abs(v[1]), Math.abs(v[2])) / l;
+const mulJ = (J: number[], v: ArrayLike<number>) => [0, 1, 2].map((r) => J[r]! * v[0]! + J[3 + r]! * v[1]! + J[6 + r]! * v[2]!);
+const cubeGauge = (v: ArrayLike<number>, l: number) => Math.max(Math.abs(v[0]!), Math.abs(v[1]!), Math.abs(v[2]!)) / l;
 
 describe('planned profiles stay inside margin · envelope (property)', () => {
   it('random cases: resampled torque, momentum and rate within limits; H = 0 times equal the closed form', () => {
@@ -96,11 +96,11 @@ describe('planned profiles stay inside margin · envelope (property)', () => {
           evaluateReference(plan, t, q, w, wd);
           evaluatePlannedLoads(plan, t, tau, h);
           const Jw = mulJ(c.J, w), Jwd = mulJ(c.J, wd);
-          const H = [Jw[0] + h[0], Jw[1] + h[1], Jw[2] + h[2]];
-          const T3 = [Jwd[0] + w[1] * H[2] - w[2] * H[1], Jwd[1] + w[2] * H[0] - w[0] * H[2], Jwd[2] + w[0] * H[1] - w[1] * H[0]];
+          const H = [Jw[0]! + h[0]!, Jw[1]! + h[1]!, Jw[2]! + h[2]!];
+          const T3 = [Jwd[0]! + w[1]! * H[2]! - w[2]! * H[1]!, Jwd[1]! + w[2]! * H[0]! - w[0]! * H[2]!, Jwd[2]! + w[0]! * H[1]! - w[1]! * H[0]!];
           worstT = Math.max(worstT, cubeGauge(T3, c.lt));
           worstH = Math.max(worstH, cubeGauge(h, c.lh));
-          worstW = Math.max(worstW, Math.hypot(w[0], w[1], w[2]));
+          worstW = Math.max(worstW, Math.hypot(w[0]!, w[1]!, w[2]!));
         }
         expect(worstT).toBeLessThanOrEqual(c.mt * (1 + 1e-12));
         expect(worstH).toBeLessThanOrEqual(c.mh * (1 + 1e-12));
@@ -111,7 +111,7 @@ describe('planned profiles stay inside margin · envelope (property)', () => {
         expect(worstH).toBeLessThanOrEqual(v.peakMomentumFraction * (1 + 1e-5));
         // Arrival: at rest on the target.
         evaluateReference(plan, v.durationS, q, w, wd);
-        const dot = Math.abs(q[0] * c.q1[0] + q[1] * c.q1[1] + q[2] * c.q1[2] + q[3] * c.q1[3]);
+        const dot = Math.abs(q[0]! * c.q1[0]! + q[1]! * c.q1[1]! + q[2]! * c.q1[2]! + q[3]! * c.q1[3]!);
         expect(1 - dot).toBeLessThan(1e-13);
         expect(Array.from(w)).toEqual([0, 0, 0]);
       }),

@@ -20,7 +20,7 @@ function setAt(root: any, path: (string | number)[], value: unknown): any {
   if (path.length === 0) return value;
   let o = root;
   for (const k of path.slice(0, -1)) o = o[k];
-  o[path[path.length - 1]] = value;
+  o[path[path.length - 1]!] = value;
   return root;
 }
 
@@ -78,7 +78,7 @@ describe('garbage in, issues out', () => {
           fc.integer({ min: 0, max: paths.length - 1 }),
           fc.oneof(fc.jsonValue(), fc.constantFrom(Number.NaN, Infinity, -0, 0, -1, 1e308, '', [], {}, null, undefined, [0, 0, 0], [0, 0, 0, 0])),
           (k, garbage) => {
-            checkResult(setAt(loadExample(name), paths[k], garbage));
+            checkResult(setAt(loadExample(name), paths[k]!, garbage));
           },
         ),
         { numRuns: 400, seed: 3 },

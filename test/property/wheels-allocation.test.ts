@@ -45,7 +45,7 @@ const arrayArb = (minN: number, maxN: number) =>
   fc
     .array(specArb, { minLength: minN, maxLength: maxN })
     .map((s) => makeWheelArray(s))
-    .filter((r) => r.ok && r.value.singularValues[2] > 0.05 * r.value.singularValues[0])
+    .filter((r) => r.ok && r.value.singularValues[2]! > 0.05 * r.value.singularValues[0]!)
     .map((r) => (r as { value: WheelArray }).value);
 const vec3 = fc.tuple(fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }));
 
@@ -60,8 +60,8 @@ describe('allocation', () => {
         const tn = Math.hypot(...tau);
         const ba = body(arr, a), bb = body(arr, b);
         for (let r = 0; r < 3; r++) {
-          expect(Math.abs(ba[r] - tau[r])).toBeLessThanOrEqual(1e-12 * (1 + tn));
-          expect(Math.abs(bb[r] - tau[r])).toBeLessThanOrEqual(1e-11 * (1 + tn));
+          expect(Math.abs(ba[r]! - tau[r]!)).toBeLessThanOrEqual(1e-12 * (1 + tn));
+          expect(Math.abs(bb[r]! - tau[r]!)).toBeLessThanOrEqual(1e-11 * (1 + tn));
         }
         const pa = peakTorqueRatio(arr, a), pb = peakTorqueRatio(arr, b);
         expect(pb).toBeLessThanOrEqual(pa * (1 + 1e-12) + 1e-15);
@@ -71,7 +71,7 @@ describe('allocation', () => {
           // Slack: the envelope treats axes parallel within z.tolerance.parallelRad as parallel
           // (zonotope.ts), moving its boundary by up to that × Σ|v_i|.
           let S = 0;
-          for (let i = 0; i < arr.n; i++) S += arr.maxTorqueNm[i];
+          for (let i = 0; i < arr.n; i++) S += arr.maxTorqueNm[i]!;
           expect(Math.abs(pb - tn / cap)).toBeLessThanOrEqual((1e-9 + (10 * z.tolerance.parallelRad * S) / cap) * pb);
         }
       }),
@@ -113,7 +113,7 @@ const cmdFactor = fc.oneof(
 
 /** The admissible interval of wheel i, written independently of limits.ts from the stated rules. */
 function interval(arr: WheelArray, i: number, h: number, dt: number): [number, number] {
-  const l = arr.maxTorqueNm[i], hm = arr.maxMomentumNms[i];
+  const l = arr.maxTorqueNm[i]!, hm = arr.maxMomentumNms[i]!;
   let lo = -l, hi = l;
   if (dt === 0) {
     if (h >= hm) hi = 0;
@@ -130,18 +130,18 @@ function bruteMaxScale(arr: WheelArray, c: number[], iv: [number, number][]): nu
   // Null-vector entries below 1e-13 of the largest (per unit of torque limit) are rounding noise
   // such as 1e-150 components, which the limiter's LP reads as zero (lp.ts); do the same here.
   const l = arr.maxTorqueNm;
-  const big = Math.max(...[0, 1, 2, 3].map((i) => Math.abs(arr.nullBasis[i]) / l[i]));
-  const nu = [0, 1, 2, 3].map((i) => (Math.abs(arr.nullBasis[i]) / l[i] < 1e-13 * big ? 0 : arr.nullBasis[i]));
+  const big = Math.max(...[0, 1, 2, 3].map((i) => Math.abs(arr.nullBasis[i]!) / l[i]!));
+  const nu = [0, 1, 2, 3].map((i) => (Math.abs(arr.nullBasis[i]!) / l[i]! < 1e-13 * big ? 0 : arr.nullBasis[i]));
   const rows: [number, number, number][] = []; // a s + b α ≤ r
   for (let i = 0; i < 4; i++) {
-    rows.push([c[i], nu[i], iv[i][1]]);
-    rows.push([-c[i], -nu[i], -iv[i][0]]);
+    rows.push([c[i]!, nu[i]!, iv[i]![1]]);
+    rows.push([-c[i]!, -nu[i]!, -iv[i]![0]]);
   }
   rows.push([1, 0, 1], [-1, 0, 0]);
   let best = 0;
   for (let p = 0; p < rows.length; p++) {
     for (let q = p + 1; q < rows.length; q++) {
-      const [a1, b1, r1] = rows[p], [a2, b2, r2] = rows[q];
+      const [a1, b1, r1] = rows[p]!, [a2, b2, r2] = rows[q]!;
       const det = a1 * b2 - a2 * b1;
       if (Math.abs(det) <= 1e-12 * (Math.abs(a1) + Math.abs(b1)) * (Math.abs(a2) + Math.abs(b2))) continue;
       const s = (r1 * b2 - r2 * b1) / det, al = (a1 * r2 - a2 * r1) / det;
@@ -169,8 +169,8 @@ describe('limitWheelTorque', () => {
     fc.assert(
       fc.property(scenario(3, 7), ({ arr, cmd, hf, dt }) => {
         const n = arr.n;
-        const wc = cmd.map((x, i) => x * arr.maxTorqueNm[i]);
-        const h = hf.map((f, i) => f * arr.maxMomentumNms[i]);
+        const wc = cmd.map((x, i) => x * arr.maxTorqueNm[i]!);
+        const h = hf.map((f, i) => f * arr.maxMomentumNms[i]!);
         const out = new Float64Array(n);
         const info = limitWheelTorque(out, arr, wc, h, dt);
         const s = info.scale;
@@ -180,18 +180,18 @@ describe('limitWheelTorque', () => {
         const rn = Math.hypot(...req);
         // The limiter sets a wheel within 1e-9 τ_max of its bound onto it (LP rounding, limits.ts).
         const slack = 1e-9 * arr.maxTorqueNm.reduce((a, b) => a + b, 0);
-        for (let r = 0; r < 3; r++) expect(Math.abs(got[r] - s * req[r])).toBeLessThanOrEqual(slack + 1e-12 * rn);
+        for (let r = 0; r < 3; r++) expect(Math.abs(got[r]! - s * req[r]!)).toBeLessThanOrEqual(slack + 1e-12 * rn);
         let sScale = 1;
         for (let i = 0; i < n; i++) {
-          const [lo, hi] = interval(arr, i, h[i], dt);
-          const tol = 1e-12 * arr.maxTorqueNm[i];
+          const [lo, hi] = interval(arr, i, h[i]!, dt);
+          const tol = 1e-12 * arr.maxTorqueNm[i]!;
           expect(out[i]).toBeLessThanOrEqual(hi + tol);
           expect(out[i]).toBeGreaterThanOrEqual(lo - tol);
-          if (dt > 0 && Math.abs(h[i]) <= arr.maxMomentumNms[i]) {
-            expect(Math.abs(h[i] + out[i] * dt)).toBeLessThanOrEqual(arr.maxMomentumNms[i] * (1 + 1e-12));
+          if (dt > 0 && Math.abs(h[i]!) <= arr.maxMomentumNms[i]!) {
+            expect(Math.abs(h[i]! + out[i]! * dt)).toBeLessThanOrEqual(arr.maxMomentumNms[i]! * (1 + 1e-12));
           }
-          if (wc[i] > 0) sScale = Math.min(sScale, hi / wc[i]);
-          if (wc[i] < 0) sScale = Math.min(sScale, lo / wc[i]);
+          if (wc[i]! > 0) sScale = Math.min(sScale, hi / wc[i]!);
+          if (wc[i]! < 0) sScale = Math.min(sScale, lo / wc[i]!);
         }
         expect(s).toBeGreaterThanOrEqual(Math.max(0, sScale) * (1 - 1e-9) - 1e-12);
         if (info.reason === 'none') expect(Array.from(out)).toEqual(wc);
@@ -203,12 +203,12 @@ describe('limitWheelTorque', () => {
   it('four wheels: s is the largest direction-preserving scale (independent vertex enumeration)', () => {
     fc.assert(
       fc.property(scenario(4, 4), ({ arr, cmd, hf, dt }) => {
-        const wc = cmd.map((x, i) => x * arr.maxTorqueNm[i]);
-        const h = hf.map((f, i) => f * arr.maxMomentumNms[i]);
-        const iv = wc.map((_, i) => interval(arr, i, h[i], dt));
+        const wc = cmd.map((x, i) => x * arr.maxTorqueNm[i]!);
+        const h = hf.map((f, i) => f * arr.maxMomentumNms[i]!);
+        const iv = wc.map((_, i) => interval(arr, i, h[i]!, dt));
         const momentumBound = wc.some((c, i) => {
-          const [lo, hi] = interval(arr, i, h[i], dt);
-          const l = arr.maxTorqueNm[i];
+          const [lo, hi] = interval(arr, i, h[i]!, dt);
+          const l = arr.maxTorqueNm[i]!;
           return (c > hi && hi < l) || (c < lo && lo > -l);
         });
         const info = limitWheelTorque(new Float64Array(4), arr, wc, h, dt);

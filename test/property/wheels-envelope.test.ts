@@ -57,8 +57,8 @@ const latticeArray = fc
     ws,
     r: makeWheelArray(
       ws.map(({ d, sign, l }) => {
-        const v = LATTICE[d];
-        const L = Math.hypot(v[0], v[1], v[2]);
+        const v = LATTICE[d]!;
+        const L = Math.hypot(v[0]!, v[1]!, v[2]!);
         return { axis: v.map((x) => (sign * x) / L), maxTorqueNm: l, maxMomentumNms: l, rotorInertiaKgm2: 1e-4 };
       }),
     ),
@@ -66,8 +66,8 @@ const latticeArray = fc
   .filter(({ r }) => r.ok)
   .map(({ ws, r }) => ({ dirs: [...new Set(ws.map((w) => w.d))], arr: (r as { value: WheelArray }).value }));
 
-const dot = (a: ArrayLike<number>, b: ArrayLike<number>) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-const at = (a: Float64Array, i: number) => [a[3 * i], a[3 * i + 1], a[3 * i + 2]];
+const dot = (a: ArrayLike<number>, b: ArrayLike<number>) => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
+const at = (a: Float64Array, i: number): [number, number, number] => [a[3 * i]!, a[3 * i + 1]!, a[3 * i + 2]!];
 const scaleOf = (z: Zonotope) => {
   let s = 0;
   for (let i = 0; i < z.n; i++) s += Math.hypot(...at(z.generators, i));
@@ -92,26 +92,26 @@ function checkStructure(z: Zonotope): void {
     check(f.length % 2 === 0 && f.length >= 4, `face ${k} has ${f.length} vertices (zonotope faces are centrally symmetric)`);
     const nrm = at(z.faceNormals, k);
     check(Math.abs(Math.hypot(...nrm) - 1) < 1e-12, `face ${k} normal not unit`);
-    check(Math.abs(z.faceOffsets[k] - envelopeSupport(z, nrm)) <= 1e-12 * S, `face ${k} offset ≠ support`);
+    check(Math.abs(z.faceOffsets[k]! - envelopeSupport(z, nrm)) <= 1e-12 * S, `face ${k} offset ≠ support`);
     for (const v of f) {
-      faceOf[v].push(k);
-      check(Math.abs(dot(nrm, at(z.vertices, v)) - z.faceOffsets[k]) <= G, `vertex ${v} off the plane of face ${k}`);
+      faceOf[v]!.push(k);
+      check(Math.abs(dot(nrm, at(z.vertices, v)) - z.faceOffsets[k]!) <= G, `vertex ${v} off the plane of face ${k}`);
     }
   });
   // Vertices: exact zonotope points with a support-attaining sign pattern.
   for (let v = 0; v < V; v++) {
     const p = [0, 0, 0];
     for (let i = 0; i < z.n; i++) {
-      const s = z.vertexSigns[v * z.n + i];
+      const s = z.vertexSigns[v * z.n + i]!;
       check(Math.abs(s) === 1, `vertex ${v} sign ${s}`);
-      for (let c = 0; c < 3; c++) p[c] += s * z.generators[3 * i + c];
+      for (let c = 0; c < 3; c++) p[c]! += s * z.generators[3 * i + c]!;
     }
     const q = at(z.vertices, v);
-    for (let c = 0; c < 3; c++) check(Math.abs(q[c] - p[c]) <= 1e-12 * S, `vertex ${v} is not Σ σ_i v_i`);
-    check(faceOf[v].length >= 3, `vertex ${v} on ${faceOf[v].length} faces`);
+    for (let c = 0; c < 3; c++) check(Math.abs(q[c]! - p[c]!) <= 1e-12 * S, `vertex ${v} is not Σ σ_i v_i`);
+    check(faceOf[v]!.length >= 3, `vertex ${v} on ${faceOf[v]!.length} faces`);
     // d = sum of the adjacent facet normals lies inside the vertex's normal cone.
     const d = [0, 0, 0];
-    for (const k of faceOf[v]) for (let c = 0; c < 3; c++) d[c] += z.faceNormals[3 * k + c];
+    for (const k of faceOf[v]!) for (let c = 0; c < 3; c++) d[c]! += z.faceNormals[3 * k + c]!;
     const dn = Math.hypot(...d);
     check(dot(d, q) >= envelopeSupport(z, d) - G * dn, `vertex ${v} does not attain the support`);
     for (let i = 0; i < z.n; i++) {
@@ -128,18 +128,18 @@ function checkStructure(z: Zonotope): void {
     for (let j = 1; j + 1 < f.length; j++) triFace.push(k);
   });
   for (let t = 0; t < z.triangles.length / 3; t++) {
-    const a = at(z.vertices, z.triangles[3 * t]), b = at(z.vertices, z.triangles[3 * t + 1]), c = at(z.vertices, z.triangles[3 * t + 2]);
-    const ab = [b[0] - a[0], b[1] - a[1], b[2] - a[2]], ac = [c[0] - a[0], c[1] - a[1], c[2] - a[2]];
-    const cr = [ab[1] * ac[2] - ab[2] * ac[1], ab[2] * ac[0] - ab[0] * ac[2], ab[0] * ac[1] - ab[1] * ac[0]];
-    check(dot(cr, at(z.faceNormals, triFace[t])) >= -G * S, `triangle ${t} faces inwards`);
-    vol += dot(a, [b[1] * c[2] - b[2] * c[1], b[2] * c[0] - b[0] * c[2], b[0] * c[1] - b[1] * c[0]]) / 6;
+    const a = at(z.vertices, z.triangles[3 * t]!), b = at(z.vertices, z.triangles[3 * t + 1]!), c = at(z.vertices, z.triangles[3 * t + 2]!);
+    const ab = [b[0]! - a[0]!, b[1]! - a[1]!, b[2]! - a[2]!], ac = [c[0]! - a[0]!, c[1]! - a[1]!, c[2]! - a[2]!];
+    const cr = [ab[1]! * ac[2]! - ab[2]! * ac[1]!, ab[2]! * ac[0]! - ab[0]! * ac[2]!, ab[0]! * ac[1]! - ab[1]! * ac[0]!];
+    check(dot(cr, at(z.faceNormals, triFace[t]!)) >= -G * S, `triangle ${t} faces inwards`);
+    vol += dot(a, [b[1]! * c[2]! - b[2]! * c[1]!, b[2]! * c[0]! - b[0]! * c[2]!, b[0]! * c[1]! - b[1]! * c[0]!]) / 6;
   }
   let shephard = 0;
   for (let i = 0; i < z.n; i++)
     for (let j = i + 1; j < z.n; j++)
       for (let k = j + 1; k < z.n; k++) {
         const gi = at(z.generators, i), gj = at(z.generators, j), gk = at(z.generators, k);
-        shephard += Math.abs(dot(gi, [gj[1] * gk[2] - gj[2] * gk[1], gj[2] * gk[0] - gj[0] * gk[2], gj[0] * gk[1] - gj[1] * gk[0]]));
+        shephard += Math.abs(dot(gi, [gj[1]! * gk[2]! - gj[2]! * gk[1]!, gj[2]! * gk[0]! - gj[0]! * gk[2]!, gj[0]! * gk[1]! - gj[1]! * gk[0]!]));
       }
   // Relative 1e-10, plus the merge tolerance on the scale S³ (a nearly flat set has a tiny volume).
   const volTol = 1e-10 * 8 * shephard + 10 * z.n * z.tolerance.parallelRad * S * S * S;
@@ -162,12 +162,12 @@ describe('zonotope structure', () => {
         const planes = new Map<string, number>();
         for (let a = 0; a < dirs.length; a++)
           for (let b = a + 1; b < dirs.length; b++) {
-            const u = LATTICE[dirs[a]], w = LATTICE[dirs[b]];
-            let c = [u[1] * w[2] - u[2] * w[1], u[2] * w[0] - u[0] * w[2], u[0] * w[1] - u[1] * w[0]];
+            const u = LATTICE[dirs[a]!]!, w = LATTICE[dirs[b]!]!;
+            let c = [u[1]! * w[2]! - u[2]! * w[1]!, u[2]! * w[0]! - u[0]! * w[2]!, u[0]! * w[1]! - u[1]! * w[0]!];
             const g = c.reduce((x, y) => gcd(x, Math.abs(y)), 0);
             c = c.map((x) => x / g);
             if (c.find((x) => x !== 0)! < 0) c = c.map((x) => -x);
-            const m = dirs.filter((d) => dot(LATTICE[d], c) === 0).length;
+            const m = dirs.filter((d) => dot(LATTICE[d]!, c) === 0).length;
             planes.set(c.join(','), m);
           }
         const ms = [...planes.values()];

@@ -24,7 +24,7 @@ import { DEG, fly, law, sampleAt, triadVehicle } from './closedloop-fixtures';
 const veh = triadVehicle([10, 15, 20], 1e-9, 1, 10);
 const axis = [1 / 3, 2 / 3, 2 / 3];
 const half = Math.PI / 4;
-const q0 = [axis[0] * Math.sin(half), axis[1] * Math.sin(half), axis[2] * Math.sin(half), Math.cos(half)];
+const q0 = [axis[0]! * Math.sin(half), axis[1]! * Math.sin(half), axis[2]! * Math.sin(half), Math.cos(half)];
 const spec = { kind: 'eigenaxis', gains: { omegaN: 0.3, zeta: 0.9 }, maxRateRadPerS: 0.05, torqueLimitNm: 1 };
 
 /** Peaks and the axis deviation max |ε × ê|/|ε| while the error exceeds `minAngleRad`. */
@@ -34,18 +34,18 @@ function summary(hWheel0: number[], timing: 'continuous-ideal' | 'sampled', rate
   let peakRate = 0, deviation = 0;
   const peakTau = [0, 0, 0];
   for (let k = 0; k < tr.n; k++) {
-    const wx = tr.omega[3 * k], wy = tr.omega[3 * k + 1], wz = tr.omega[3 * k + 2];
+    const wx = tr.omega[3 * k]!, wy = tr.omega[3 * k + 1]!, wz = tr.omega[3 * k + 2]!;
     peakRate = Math.max(peakRate, Math.hypot(wx, wy, wz));
-    for (let i = 0; i < 3; i++) peakTau[i] = Math.max(peakTau[i], Math.abs(tr.torqueBody[3 * k + i]));
+    for (let i = 0; i < 3; i++) peakTau[i] = Math.max(peakTau[i]!, Math.abs(tr.torqueBody[3 * k + i]!));
     // target = identity, so the error quaternion is q itself: its vector part must stay on the axis
-    const ex = tr.q[4 * k], ey = tr.q[4 * k + 1], ez = tr.q[4 * k + 2];
+    const ex = tr.q[4 * k]!, ey = tr.q[4 * k + 1]!, ez = tr.q[4 * k + 2]!;
     const n = Math.hypot(ex, ey, ez);
     if (n > Math.sin(0.5 * minAngleRad)) {
-      const cx = ey * axis[2] - ez * axis[1], cy = ez * axis[0] - ex * axis[2], cz = ex * axis[1] - ey * axis[0];
+      const cx = ey * axis[2]! - ez * axis[1]!, cy = ez * axis[0]! - ex * axis[2]!, cz = ex * axis[1]! - ey * axis[0]!;
       deviation = Math.max(deviation, Math.hypot(cx, cy, cz) / n);
     }
   }
-  return { r, peakRate, deviation, peakTau, at20Deg: tr.errorAngle[sampleAt(r, 20)] * DEG, finalDeg: tr.errorAngle[tr.n - 1] * DEG };
+  return { r, peakRate, deviation, peakTau, at20Deg: tr.errorAngle[sampleAt(r, 20)]! * DEG, finalDeg: tr.errorAngle[tr.n - 1]! * DEG };
 }
 
 describe('eigenaxis check case of methods §2c through runClosedLoop', () => {
@@ -68,7 +68,7 @@ describe('eigenaxis check case of methods §2c through runClosedLoop', () => {
     expect(s.finalDeg).toBeLessThan(0.01);
     // the request never reached the limiter: delivered = commanded
     const tr = s.r.trace;
-    for (let i = 0; i < 3 * tr.n; i++) expect(Math.abs(tr.torqueBody[i] - tr.torqueCmdBody[i])).toBeLessThan(1e-12);
+    for (let i = 0; i < 3 * tr.n; i++) expect(Math.abs(tr.torqueBody[i]! - tr.torqueCmdBody[i]!)).toBeLessThan(1e-12);
   });
 
   it('with momentum stored in the wheels the cancellation keeps the same eigenaxis motion', () => {
@@ -79,7 +79,7 @@ describe('eigenaxis check case of methods §2c through runClosedLoop', () => {
     expect(Math.abs(b.at20Deg - a.at20Deg)).toBeLessThan(1e-6);
     // ... while the torque now differs (it carries ω × Gh)
     let diff = 0;
-    for (let i = 0; i < 3 * a.r.trace.n; i++) diff = Math.max(diff, Math.abs(a.r.trace.torqueBody[i] - b.r.trace.torqueBody[i]));
+    for (let i = 0; i < 3 * a.r.trace.n; i++) diff = Math.max(diff, Math.abs(a.r.trace.torqueBody[i]! - b.r.trace.torqueBody[i]!));
     expect(diff).toBeGreaterThan(1e-3);
   });
 

@@ -24,7 +24,7 @@ const h0 = [0.2, -0.1, 0.15, 0.05]; // stored wheel momentum, N·m·s
 
 /** R(q) rows, q = [x, y, z, w] (body → inertial), written out (methods §1.1). */
 function rot(q: ArrayLike<number>, o: number): number[][] {
-  const [x, y, z, w] = [q[o], q[o + 1], q[o + 2], q[o + 3]];
+  const [x, y, z, w] = [q[o]!, q[o + 1]!, q[o + 2]!, q[o + 3]!];
   return [
     [w * w + x * x - y * y - z * z, 2 * (x * y - w * z), 2 * (x * z + w * y)],
     [2 * (x * y + w * z), w * w - x * x + y * y - z * z, 2 * (y * z - w * x)],
@@ -36,8 +36,8 @@ function rot(q: ArrayLike<number>, o: number): number[][] {
 function omegaE(tr: ReturnType<typeof fly>['trace'], k: number): number[] {
   const R = rot(tr.q, 4 * k), Rd = rot(tr.qRef, 4 * k);
   const wd = [tr.omegaRef[3 * k], tr.omegaRef[3 * k + 1], tr.omegaRef[3 * k + 2]];
-  const inertial = [0, 1, 2].map((i) => Rd[i][0] * wd[0] + Rd[i][1] * wd[1] + Rd[i][2] * wd[2]);
-  return [0, 1, 2].map((i) => tr.omega[3 * k + i] - (R[0][i] * inertial[0] + R[1][i] * inertial[1] + R[2][i] * inertial[2]));
+  const inertial = [0, 1, 2].map((i) => Rd[i]![0]! * wd[0]! + Rd[i]![1]! * wd[1]! + Rd[i]![2]! * wd[2]!);
+  return [0, 1, 2].map((i) => tr.omega[3 * k + i]! - (R[0]![i]! * inertial[0]! + R[1]![i]! * inertial[1]! + R[2]![i]! * inertial[2]!));
 }
 
 /** Largest |central difference of W − (−ω_eᵀKω_e)| over interior flow samples, and the peak |Ẇ|. */
@@ -47,22 +47,22 @@ function identityError(v: Vehicle, spec: Record<string, unknown>, K: number[][],
   const tr = r.trace;
   let worst = 0, peak = 0, used = 0;
   for (let k = 2; k < tr.n - 2; k++) {
-    const h = tr.t[k + 1] - tr.t[k];
+    const h = tr.t[k + 1]! - tr.t[k]!;
     let uniform = tr.j[k - 2] === tr.j[k + 2] && tr.segment[k - 2] === tr.segment[k + 2];
-    for (let m = k - 2; m < k + 2; m++) uniform &&= Math.abs(tr.t[m + 1] - tr.t[m] - h) <= 1e-9;
+    for (let m = k - 2; m < k + 2; m++) uniform &&= Math.abs(tr.t[m + 1]! - tr.t[m]! - h) <= 1e-9;
     if (!uniform) continue;
     // five-point central difference, error O(h⁴) (Abramowitz & Stegun, Handbook, 25.3.6)
     const W = tr.lyapunov;
-    const fd = (-W[k + 2] + 8 * W[k + 1] - 8 * W[k - 1] + W[k - 2]) / (12 * h);
+    const fd = (-W[k + 2]! + 8 * W[k + 1]! - 8 * W[k - 1]! + W[k - 2]!) / (12 * h);
     const e = omegaE(tr, k);
-    const Ke = [0, 1, 2].map((i) => K[i][0] * e[0] + K[i][1] * e[1] + K[i][2] * e[2]);
-    const wdot = -(e[0] * Ke[0] + e[1] * Ke[1] + e[2] * Ke[2]);
+    const Ke = [0, 1, 2].map((i) => K[i]![0]! * e[0]! + K[i]![1]! * e[1]! + K[i]![2]! * e[2]!);
+    const wdot = -(e[0]! * Ke[0]! + e[1]! * Ke[1]! + e[2]! * Ke[2]!);
     worst = Math.max(worst, Math.abs(fd - wdot));
     peak = Math.max(peak, Math.abs(wdot));
     used++;
   }
   // the wheels never limited the torque (else the identity would not hold)
-  for (let i = 0; i < 3 * tr.n; i++) expect(Math.abs(tr.torqueBody[i] - tr.torqueCmdBody[i])).toBeLessThanOrEqual(1e-12 + 1e-12 * Math.abs(tr.torqueCmdBody[i]));
+  for (let i = 0; i < 3 * tr.n; i++) expect(Math.abs(tr.torqueBody[i]! - tr.torqueCmdBody[i]!)).toBeLessThanOrEqual(1e-12 + 1e-12 * Math.abs(tr.torqueCmdBody[i]!));
   return { worst, peak, used, jumps: r.jumps.length };
 }
 
@@ -73,10 +73,10 @@ function movingReference(): ReferenceSource {
     at: (t, q, w, wd) => {
       const phi = 0.4 * (1 - Math.cos(0.25 * t)), dphi = 0.1 * Math.sin(0.25 * t), ddphi = 0.025 * Math.cos(0.25 * t);
       const s = Math.sin(0.5 * phi);
-      q[0] = e[0] * s; q[1] = e[1] * s; q[2] = e[2] * s; q[3] = Math.cos(0.5 * phi);
+      q[0] = e[0]! * s; q[1] = e[1]! * s; q[2] = e[2]! * s; q[3] = Math.cos(0.5 * phi);
       for (let i = 0; i < 3; i++) {
-        w[i] = dphi * e[i];
-        wd[i] = ddphi * e[i];
+        w[i] = dphi * e[i]!;
+        wd[i] = ddphi * e[i]!;
       }
       return 0;
     },

@@ -21,7 +21,7 @@ export function vehicle(Jrows: number[][], specs: WheelSpec[]): Vehicle {
   const w = makeWheelArray(specs);
   if (!w.ok) throw new Error(JSON.stringify(w.errors));
   const J = new Float64Array(9);
-  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) J[3 * c + r] = Jrows[r][c];
+  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) J[3 * c + r] = Jrows[r]![c]!;
   const g = makeGyrostat(J, w.value);
   if (!g.ok) throw new Error(JSON.stringify(g.errors));
   return { plant: g.value, wheels: w.value, model: { Jperp: g.value.Jperp, nWheels: w.value.n, axes: w.value.axes } };
@@ -53,7 +53,7 @@ export function fixedReference(q: ArrayLike<number> = [0, 0, 0, 1]): ReferenceSo
   const q0 = Float64Array.from(q);
   return {
     at: (_t, qo, w, wd) => {
-      qo[0] = q0[0]; qo[1] = q0[1]; qo[2] = q0[2]; qo[3] = q0[3];
+      qo[0] = q0[0]!; qo[1] = q0[1]!; qo[2] = q0[2]!; qo[3] = q0[3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
       return 0;
@@ -100,13 +100,13 @@ export const DEG = 180 / Math.PI;
 export function etaAt(r: ClosedLoopResult, k: number): number {
   const q = r.trace.q, d = r.trace.qRef;
   // (q_d* ⊗ q)_w = d_w q_w + d·q (Hamilton, [x, y, z, w])
-  return d[4 * k + 3] * q[4 * k + 3] + d[4 * k] * q[4 * k] + d[4 * k + 1] * q[4 * k + 1] + d[4 * k + 2] * q[4 * k + 2];
+  return d[4 * k + 3]! * q[4 * k + 3]! + d[4 * k]! * q[4 * k]! + d[4 * k + 1]! * q[4 * k + 1]! + d[4 * k + 2]! * q[4 * k + 2]!;
 }
 
 /** Index of the first trace sample at or after time t. */
 export function sampleAt(r: ClosedLoopResult, t: number): number {
   const tt = r.trace.t;
   let k = 0;
-  while (k < r.trace.n - 1 && tt[k] < t - 1e-9) k++;
+  while (k < r.trace.n - 1 && tt[k]! < t - 1e-9) k++;
   return k;
 }

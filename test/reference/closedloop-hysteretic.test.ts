@@ -24,10 +24,10 @@ import { DEG, etaAt, fly, law, metricsOf, triadVehicle } from './closedloop-fixt
 
 const s14 = Math.sqrt(14);
 const v = [1 / s14, 2 / s14, 3 / s14];
-const Jd: [number, number, number] = [10 * v[0], 10 * v[1], 10 * v[2]];
+const Jd: [number, number, number] = [10 * v[0]!, 10 * v[1]!, 10 * v[2]!];
 const r96 = Math.sqrt(0.96);
-const q0 = [r96 * v[0], r96 * v[1], r96 * v[2], -0.2];
-const w0 = [0.5 * v[0], 0.5 * v[1], 0.5 * v[2]];
+const q0 = [r96 * v[0]!, r96 * v[1]!, r96 * v[2]!, -0.2];
+const w0 = [0.5 * v[0]!, 0.5 * v[1]!, 0.5 * v[2]!];
 
 /**
  * Test-local reference: first time the hysteretic guard −hη − δ reaches 0 from h = 1, for the
@@ -35,27 +35,29 @@ const w0 = [0.5 * v[0], 0.5 * v[1], 0.5 * v[2]];
  * ḣ_w = −τ (three body-axis wheels, h_w(0) = 0), τ = −k_p h ε − k_d ω. RK4, dt = 1e-4 s, crossing
  * by linear interpolation of the guard (error ~dt², far below the 1e-5 s asked).
  */
+type State = [number, number, number, number, number, number, number, number, number, number]; // ε, η, ω, h_w
+
 function firstJumpTime(withWheels: boolean, delta: number): number {
   const f = (x: number[]): number[] => {
-    const [a, b, c, s, wx, wy, wz, h1, h2, h3] = x;
+    const [a, b, c, s, wx, wy, wz, h1, h2, h3] = x as State;
     const tau = [-a - wx, -b - wy, -c - wz]; // h = +1 until the jump
     const H = [Jd[0] * wx + (withWheels ? h1 : 0), Jd[1] * wy + (withWheels ? h2 : 0), Jd[2] * wz + (withWheels ? h3 : 0)];
-    const cr = [wy * H[2] - wz * H[1], wz * H[0] - wx * H[2], wx * H[1] - wy * H[0]];
+    const cr = [wy * H[2]! - wz * H[1]!, wz * H[0]! - wx * H[2]!, wx * H[1]! - wy * H[0]!];
     return [
       0.5 * (s * wx + b * wz - c * wy), 0.5 * (s * wy + c * wx - a * wz), 0.5 * (s * wz + a * wy - b * wx), -0.5 * (a * wx + b * wy + c * wz),
-      (tau[0] - cr[0]) / Jd[0], (tau[1] - cr[1]) / Jd[1], (tau[2] - cr[2]) / Jd[2], -tau[0], -tau[1], -tau[2],
+      (tau[0]! - cr[0]!) / Jd[0], (tau[1]! - cr[1]!) / Jd[1], (tau[2]! - cr[2]!) / Jd[2], -tau[0]!, -tau[1]!, -tau[2]!,
     ];
   };
   let x = [...q0, ...w0, 0, 0, 0];
   const dt = 1e-4;
-  let gPrev = -x[3] - delta;
+  let gPrev = -x[3]! - delta;
   for (let k = 1; k < 50000; k++) {
     const k1 = f(x);
-    const k2 = f(x.map((y, i) => y + 0.5 * dt * k1[i]));
-    const k3 = f(x.map((y, i) => y + 0.5 * dt * k2[i]));
-    const k4 = f(x.map((y, i) => y + dt * k3[i]));
-    x = x.map((y, i) => y + (dt / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]));
-    const g = -x[3] - delta;
+    const k2 = f(x.map((y, i) => y + 0.5 * dt * k1[i]!));
+    const k3 = f(x.map((y, i) => y + 0.5 * dt * k2[i]!));
+    const k4 = f(x.map((y, i) => y + dt * k3[i]!));
+    x = x.map((y, i) => y + (dt / 6) * (k1[i]! + 2 * k2[i]! + 2 * k3[i]! + k4[i]!));
+    const g = -x[3]! - delta;
     if (g >= 0) return k * dt - (dt * g) / (g - gPrev);
     gPrev = g;
   }
@@ -94,12 +96,12 @@ describe('MST 2011 example 2 through runClosedLoop', () => {
     const r = run(0.4, 'continuous-ideal');
     expect(r.outcome.status).toBe('completed');
     expect(r.jumps.length).toBe(1);
-    expect(r.jumps[0].from).toBe(1);
-    expect(r.jumps[0].to).toBe(-1);
-    expect(Math.abs(r.jumps[0].t - tGyro)).toBeLessThan(1e-5);
-    expect(Math.abs(r.jumps[0].t - 1.141)).toBeLessThan(2e-3);
+    expect(r.jumps[0]!.from).toBe(1);
+    expect(r.jumps[0]!.to).toBe(-1);
+    expect(Math.abs(r.jumps[0]!.t - tGyro)).toBeLessThan(1e-5);
+    expect(Math.abs(r.jumps[0]!.t - 1.141)).toBeLessThan(2e-3);
     // the jump lowers W by at least 4 k_p δ (methods §3)
-    expect(r.jumps[0].lyapunovBefore! - r.jumps[0].lyapunovAfter!).toBeGreaterThanOrEqual(4 * 0.4 - 1e-9);
+    expect(r.jumps[0]!.lyapunovBefore! - r.jumps[0]!.lyapunovAfter!).toBeGreaterThanOrEqual(4 * 0.4 - 1e-9);
     const n = r.trace.n;
     expect(etaAt(r, n - 1)).toBeLessThan(-0.998);
     expect(r.trace.logic[n - 1]).toBe(-1);
@@ -108,8 +110,8 @@ describe('MST 2011 example 2 through runClosedLoop', () => {
   it('δ = 0.4, sampled at 1 kHz: the jump happens at the first sample after the crossing', () => {
     const r = run(0.4, 'sampled');
     expect(r.jumps.length).toBe(1);
-    expect(r.jumps[0].t).toBeGreaterThanOrEqual(tGyro);
-    expect(r.jumps[0].t).toBeLessThanOrEqual(tGyro + 1e-3 + 1e-9);
+    expect(r.jumps[0]!.t).toBeGreaterThanOrEqual(tGyro);
+    expect(r.jumps[0]!.t).toBeLessThanOrEqual(tGyro + 1e-3 + 1e-9);
     expect(etaAt(r, r.trace.n - 1)).toBeLessThan(-0.998);
   });
 
@@ -128,8 +130,8 @@ describe('MST 2011 example 2 through runClosedLoop', () => {
     for (const timing of ['continuous-ideal', 'sampled'] as const) {
       const r = run(0, timing);
       expect(r.jumps.length).toBeGreaterThanOrEqual(1);
-      expect(r.jumps[0].t).toBe(0);
-      expect(r.jumps[0].to).toBe(-1);
+      expect(r.jumps[0]!.t).toBe(0);
+      expect(r.jumps[0]!.to).toBe(-1);
       expect(etaAt(r, r.trace.n - 1)).toBeLessThan(-0.998);
     }
   });

@@ -27,7 +27,7 @@ import { DEG, etaAt, fly, law, metricsOf, pyramidVehicle } from './closedloop-fi
 const veh = pyramidVehicle([[2, 0, 0], [0, 3, 0], [0, 0, 4]], 1, 10);
 const gains = { omegaN: 0.05, zeta: 0.9 };
 const axis = [1, 1, 1].map((x) => x / Math.sqrt(3));
-const q0 = [axis[0], axis[1], axis[2], 0]; // η = 0: exactly 180° from the identity target
+const q0 = [axis[0]!, axis[1]!, axis[2]!, 0]; // η = 0: exactly 180° from the identity target
 const SIGN = { kind: 'sign-switch', gains };
 const HYST = (delta: number) => ({ kind: 'hysteretic', gains, hysteresis: delta });
 // certified family of methods §4.3 (A = diag(1,2,3), warp gain 0.15, δ = 0.2)
@@ -44,7 +44,7 @@ function reversalsInBand(r: ReturnType<typeof fly>, band: number): { reversals: 
   for (let k = 0; k < r.trace.n; k++) {
     if (Math.abs(etaAt(r, k)) >= band) continue;
     samples++;
-    const p = tc[3 * k] * axis[0] + tc[3 * k + 1] * axis[1] + tc[3 * k + 2] * axis[2];
+    const p = tc[3 * k]! * axis[0]! + tc[3 * k + 1]! * axis[1]! + tc[3 * k + 2]! * axis[2]!;
     const s = p > 0 ? 1 : -1;
     if (last !== 0 && s !== last) reversals++;
     last = s;

@@ -36,12 +36,12 @@ const targets = new Float64Array(4 * s.targets.length);
 s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
 
 const Ts = 1 / s.vehicle.controlRateHz;
-const Jmax = symmetricEigen3(p.vehicle.plant.Jperp).values[2];
+const Jmax = symmetricEigen3(p.vehicle.plant.Jperp).values[2]!;
 const w = p.vehicle.wheels;
 let dFric = 0;
 for (let i = 0; i < w.n; i++) {
   const fr = s.vehicle.wheelFriction;
-  if (fr) dFric += fr.coulombNm + fr.viscousNmPerRadPerS * (w.maxMomentumNms[i] / w.rotorInertiaKgm2[i]);
+  if (fr) dFric += fr.coulombNm + fr.viscousNmPerRadPerS * (w.maxMomentumNms[i]! / w.rotorInertiaKgm2[i]!);
 }
 const bias = Math.hypot(...s.vehicle.sensors.rateBiasRadPerS);
 const sigma = s.vehicle.sensors.attitudeNoiseRad;
@@ -73,15 +73,15 @@ describe('demo: the profiled closed loop arrives where and when the plan says', 
       const tr = run.trace;
       const at = (t: number) => {
         let k = 0;
-        while (k < tr.n - 1 && tr.t[k] < t - 1e-9) k++;
+        while (k < tr.n - 1 && tr.t[k]! < t - 1e-9) k++;
         return k;
       };
       const tab = p.plan.reference;
       p.plan.timeline.forEach((e, i) => {
         const kEnd = at(e.slewEndS);
-        expect(tr.t[kEnd] - e.slewEndS).toBeLessThan(Ts + 1e-9); // the first sample at or after the planned end
+        expect(tr.t[kEnd]! - e.slewEndS).toBeLessThan(Ts + 1e-9); // the first sample at or after the planned end
         expect(tr.segment[kEnd]).toBe(e.target);
-        expect(tr.errorAngle[kEnd]).toBeLessThan(X.slew(tab.accel[i]));
+        expect(tr.errorAngle[kEnd]).toBeLessThan(X.slew(tab.accel[i]!));
         // the reference has reached the target: what is left is the body's own error
         const kHold = at(e.holdEndS) - 1;
         expect(tr.segment[kHold]).toBe(e.target);

@@ -45,7 +45,7 @@ const starts: { q: number[]; ctrl: AttitudeController; critical: boolean }[] = [
   const rng = makeRng(20250601, 0);
   const q = new Float64Array(4);
   for (let i = 0; i < 1000; i++) starts.push({ q: Array.from(qRandomUniform(q, rng)), ctrl: auto, critical: false });
-  for (const p of critical) starts.push({ q: [...p.attitude], ctrl: byMember[p.member - 1], critical: true });
+  for (const p of critical) starts.push({ q: [...p.attitude], ctrl: byMember[p.member - 1]!, critical: true });
 }
 
 const NOISE: SensorModel = { attitudeSigmaRad: 1e-3, rateSigmaRadPerS: 1e-4, rateBiasRadPerS: [5e-5, -3e-5, 2e-5], adversarialEta: 0 };
@@ -65,15 +65,15 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
       const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common });
       const tr = r.trace;
       expect(r.outcome.status).toBe('completed');
-      worstDeg = Math.max(worstDeg, tr.errorAngle[tr.n - 1] * DEG);
-      longest = Math.max(longest, tr.t[tr.n - 1]);
+      worstDeg = Math.max(worstDeg, tr.errorAngle[tr.n - 1]! * DEG);
+      longest = Math.max(longest, tr.t[tr.n - 1]!);
       // W values are O(1) here; a rise above 1e-6 of the run's largest W would be a real rise, not rounding
       flags += lyapunovMonitor(tr, r.jumps, { jumpDecrease: s.ctrl.jumpDecrease, relTol: 1e-6, absTol: 1e-12 }).length;
       jumps += r.jumps.length;
       if (s.critical) {
         // an equilibrium of the flow: the law must jump at once, to the member the certificate names
         expect(r.jumps.length).toBeGreaterThanOrEqual(1);
-        expect(r.jumps[0].t).toBe(0);
+        expect(r.jumps[0]!.t).toBe(0);
       }
     }
     expect(worstDeg).toBeLessThan(0.5);
@@ -84,10 +84,10 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
 
   it('critical-point starts jump to the member the certificate names', () => {
     for (const p of critical) {
-      const r = fly({ vehicle: veh, controller: byMember[p.member - 1], q0: p.attitude, timing: 'continuous-ideal', ...common, tEnd: 0.5 });
-      expect(r.jumps[0].from).toBe(p.member);
-      expect(r.jumps[0].to).toBe(p.jumpTo);
-      expect(r.jumps[0].lyapunovBefore! - r.jumps[0].lyapunovAfter!).toBeCloseTo(auto.jumpDecrease / 0.2 * p.gap, 9);
+      const r = fly({ vehicle: veh, controller: byMember[p.member - 1]!, q0: p.attitude, timing: 'continuous-ideal', ...common, tEnd: 0.5 });
+      expect(r.jumps[0]!.from).toBe(p.member);
+      expect(r.jumps[0]!.to).toBe(p.jumpTo);
+      expect(r.jumps[0]!.lyapunovBefore! - r.jumps[0]!.lyapunovAfter!).toBeCloseTo(auto.jumpDecrease / 0.2 * p.gap, 9);
     }
   });
 
@@ -96,7 +96,7 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
     starts.forEach((s, i) => {
       const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'sampled', sensors: NOISE, seed: 99, stream: i, ...common, stopWhenSettledForS: 2, settleAngleRad: 1 / DEG, settleRateRadPerS: 2e-3 });
       expect(r.outcome.status).toBe('completed');
-      worstDeg = Math.max(worstDeg, r.trace.errorAngle[r.trace.n - 1] * DEG);
+      worstDeg = Math.max(worstDeg, r.trace.errorAngle[r.trace.n - 1]! * DEG);
     });
     expect(worstDeg).toBeLessThan(1);
   });

@@ -171,8 +171,8 @@ describe('sampled flow-set check (methods §5 step 5)', () => {
 
   it('with δ = 0.3 > δ* the undesired critical point of V₂ enters its flow set and the check sees ‖b₂‖ → 0', () => {
     const r = flowSetGradientCheck(fam, 0.3, { samples: 20_000, seed: 1 });
-    expect(r.perMember[1].refinedMinGradientNorm).toBeLessThan(1e-8);
-    expect(r.perMember[0].refinedMinGradientNorm).toBeGreaterThan(0.01);
-    expect(r.perMember[2].refinedMinGradientNorm).toBeGreaterThan(0.01);
+    expect(r.perMember[1]!.refinedMinGradientNorm).toBeLessThan(1e-8);
+    expect(r.perMember[0]!.refinedMinGradientNorm).toBeGreaterThan(0.01);
+    expect(r.perMember[2]!.refinedMinGradientNorm).toBeGreaterThan(0.01);
   });
 });

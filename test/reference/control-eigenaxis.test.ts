@@ -62,7 +62,7 @@ describe('eigenaxis law, methods §2c check case', () => {
     let peakRate = 0, axisDev = 0, axisDev20 = 0, angleAt20 = NaN;
     const peakTau = [0, 0, 0];
     const dt = 0.01;
-    const angle = () => 2 * Math.atan2(Math.hypot(x[0], x[1], x[2]), Math.abs(x[3]));
+    const angle = () => 2 * Math.atan2(Math.hypot(x[0]!, x[1]!, x[2]!), Math.abs(x[3]!));
     // 60 s: the whole slew (saturation ends near 27 s, when sin(θ/2) falls to 0.15).
     for (let k = 0; k < 6000; k++) {
       if (k === 2000) {
@@ -71,15 +71,15 @@ describe('eigenaxis law, methods §2c check case', () => {
       }
       inputAt(inp, x, k * dt, REGULATION);
       ctrl.torque(tau, inp, 0);
-      for (let i = 0; i < 3; i++) peakTau[i] = Math.max(peakTau[i], Math.abs(tau[i]));
+      for (let i = 0; i < 3; i++) peakTau[i] = Math.max(peakTau[i]!, Math.abs(tau[i]!));
       x = rk4Step(f, k * dt, x, dt);
-      const w = [x[4], x[5], x[6]];
+      const w = [x[4]!, x[5]!, x[6]!];
       const nw = Math.hypot(...w);
       peakRate = Math.max(peakRate, nw);
       // deviation of ε and ω from the initial axis (sin of the angle between them)
-      const e = [x[0], x[1], x[2]];
+      const e = [x[0]!, x[1]!, x[2]!];
       const ne = Math.hypot(...e);
-      const cx = (a: number[]) => Math.hypot(a[1] * axis[2] - a[2] * axis[1], a[2] * axis[0] - a[0] * axis[2], a[0] * axis[1] - a[1] * axis[0]);
+      const cx = (a: number[]) => Math.hypot(a[1]! * axis[2]! - a[2]! * axis[1]!, a[2]! * axis[0]! - a[0]! * axis[2]!, a[0]! * axis[1]! - a[1]! * axis[0]!);
       axisDev = Math.max(axisDev, cx(e) / ne, nw > 0 ? cx(w) / nw : 0);
     }
     return { peakRate, axisDev, axisDev20, peakTau, angleLeft: angleAt20, angleEnd: angle() };

@@ -43,7 +43,7 @@ function simulate(ctrl: AttitudeController, J: number[][], x0: Float64Array, tEn
     if (k === steps) break;
     const xn = rk4Step(f, t, x, dt);
     // rotation travelled: ∫‖ω‖dt by the trapezoid rule
-    travelled += 0.5 * dt * (Math.hypot(x[4], x[5], x[6]) + Math.hypot(xn[4], xn[5], xn[6]));
+    travelled += 0.5 * dt * (Math.hypot(x[4]!, x[5]!, x[6]!) + Math.hypot(xn[4]!, xn[5]!, xn[6]!));
     x = xn;
   }
   return { x, jumps, travelledDeg: (travelled * 180) / Math.PI, logic: logic.logic };
@@ -52,9 +52,9 @@ function simulate(ctrl: AttitudeController, J: number[][], x0: Float64Array, tEn
 describe('MST 2011 example 2 (noise free)', () => {
   const s14 = Math.sqrt(14);
   const v = [1 / s14, 2 / s14, 3 / s14];
-  const J = [[10 * v[0], 0, 0], [0, 10 * v[1], 0], [0, 0, 10 * v[2]]];
+  const J = [[10 * v[0]!, 0, 0], [0, 10 * v[1]!, 0], [0, 0, 10 * v[2]!]];
   const r96 = Math.sqrt(0.96);
-  const x0 = () => initialState([r96 * v[0], r96 * v[1], r96 * v[2], -0.2], [0.5 * v[0], 0.5 * v[1], 0.5 * v[2]]);
+  const x0 = () => initialState([r96 * v[0]!, r96 * v[1]!, r96 * v[2]!, -0.2], [0.5 * v[0]!, 0.5 * v[1]!, 0.5 * v[2]!]);
   const spec = (delta: number) => ({ kind: 'hysteretic', gains: { kp: 1, kd: 1 }, hysteresis: delta, initialLogic: 1 });
   const cache = new Map<number, ReturnType<typeof simulate>>();
   const runDelta = (delta: number) => {
@@ -65,10 +65,10 @@ describe('MST 2011 example 2 (noise free)', () => {
   it('δ = 0.4: one jump near t = 1.141 s, then the short way to η = −1', () => {
     const r = runDelta(0.4);
     expect(r.jumps.length).toBe(1);
-    expect(r.jumps[0].t).toBeGreaterThan(1.140);
-    expect(r.jumps[0].t).toBeLessThan(1.142);
-    expect(r.jumps[0].from).toBe(1);
-    expect(r.jumps[0].to).toBe(-1);
+    expect(r.jumps[0]!.t).toBeGreaterThan(1.140);
+    expect(r.jumps[0]!.t).toBeLessThan(1.142);
+    expect(r.jumps[0]!.from).toBe(1);
+    expect(r.jumps[0]!.to).toBe(-1);
     // After 70 s the lightly damped loop (decay k_d/2J ≈ 0.06 /s on the largest axis) is still a few
     // degrees from the target; the sign of η says which lift it converges to.
     expect(r.x[3]).toBeLessThan(-0.998);
@@ -83,8 +83,8 @@ describe('MST 2011 example 2 (noise free)', () => {
   it('δ = 0: immediate switch at t = 0, then η → −1', () => {
     const r = runDelta(0);
     expect(r.jumps.length).toBeGreaterThanOrEqual(1);
-    expect(r.jumps[0].t).toBe(0);
-    expect(r.jumps[0].to).toBe(-1);
+    expect(r.jumps[0]!.t).toBe(0);
+    expect(r.jumps[0]!.to).toBe(-1);
     expect(r.x[3]).toBeLessThan(-0.998);
   });
 

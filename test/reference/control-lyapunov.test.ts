@@ -52,10 +52,10 @@ function flow(ctrl: AttitudeController, K: number[][], logic: number, T = 3, dt 
   for (let k = 0; k <= steps; k++) {
     inputAt(inp, x, k * dt, ref);
     W.push(ctrl.diagnostics(d, inp, logic).lyapunov);
-    D.push(x[14]);
+    D.push(x[14]!);
     const e = omegaError(x, inp.omegaRef);
     let s = 0;
-    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += e[i] * K[i][j] * e[j];
+    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += e[i]! * K[i]![j]! * e[j]!;
     diss.push(s);
     maxGuard = Math.max(maxGuard, ctrl.jumpGuard(inp, logic));
     if (k < steps) x = rk4Step(f, k * dt, x, dt);
@@ -67,12 +67,12 @@ function checkFlow(r: ReturnType<typeof flow>) {
   expect(r.maxGuard).toBeLessThan(0); // the whole window is a flow (no jump due)
   const n = r.W.length - 1;
   // integral form: W(T) − W(0) = −∫ω_eᵀKω_e dt
-  expect(Math.abs(r.W[n] - r.W[0] + r.D[n])).toBeLessThan(1e-10 * (1 + r.W[0]));
-  expect(r.W[n]).toBeLessThan(r.W[0]);
+  expect(Math.abs(r.W[n]! - r.W[0]! + r.D[n]!)).toBeLessThan(1e-10 * (1 + r.W[0]!));
+  expect(r.W[n]).toBeLessThan(r.W[0]!);
   // pointwise: central difference of W against −ω_eᵀKω_e (O(dt²) ≈ 1e-6 relative)
   for (let k = 100; k < n; k += 250) {
-    const dW = (r.W[k + 1] - r.W[k - 1]) / (2 * r.dt);
-    expect(Math.abs(dW + r.diss[k])).toBeLessThan(1e-5 * (1 + r.diss[k]));
+    const dW = (r.W[k + 1]! - r.W[k - 1]!) / (2 * r.dt);
+    expect(Math.abs(dW + r.diss[k]!)).toBeLessThan(1e-5 * (1 + r.diss[k]!));
   }
 }
 
@@ -152,7 +152,6 @@ describe('W decreases at jumps', () => {
     const cp = c.certificate!.criticalPoints.find((p) => p.member === 2 && p.target === 3)!;
     let x = initialState(cp.attitude, [0.01, 0, 0], [0.05, -0.03, 0.02]);
     const logic = { logic: 2 };
-    const K = [[0.3, 0, 0], [0, 0.3, 0], [0, 0, 0.3]];
     const f = makeDerivative({ ctrl: c, plant, J }, logic);
     const inp = makeInput();
     const d = makeDiagnostics();
@@ -178,6 +177,6 @@ describe('W decreases at jumps', () => {
     }
     expect(jumps).toBeGreaterThanOrEqual(1);
     // after 60 s it has converged to the target (error angle small)
-    expect(2 * Math.acos(Math.min(1, Math.abs(x[3])))).toBeLessThan(0.01);
+    expect(2 * Math.acos(Math.min(1, Math.abs(x[3]!)))).toBeLessThan(0.01);
   });
 });

@@ -55,7 +55,7 @@ export const TORQUE_FREQ = [0.05, 0.031, 0.07, 0.023];
 export const TORQUE_PHASE = [0, 1.1, 2.3, -0.7];
 
 export function testWheelTorque(out: Float64Array, t: number): Float64Array {
-  for (let i = 0; i < 4; i++) out[i] = TORQUE_AMP[i] * Math.sin(TORQUE_FREQ[i] * t + TORQUE_PHASE[i]);
+  for (let i = 0; i < 4; i++) out[i] = TORQUE_AMP[i]! * Math.sin(TORQUE_FREQ[i]! * t + TORQUE_PHASE[i]!);
   return out;
 }
 
@@ -83,7 +83,7 @@ export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
   return {
     dim,
     flow(_t, x, dx) {
-      for (let i = 0; i < n; i++) held[i] = x[g.dim + i];
+      for (let i = 0; i < n; i++) held[i] = x[g.dim + i]!;
       gyrostatDerivative(dx, x, g, held, ZERO3);
       for (let i = 0; i < n; i++) dx[g.dim + i] = 0;
     },
@@ -93,13 +93,13 @@ export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
     },
     jump(t, _x, xPlus) {
       testWheelTorque(held, t);
-      for (let i = 0; i < n; i++) xPlus[g.dim + i] = held[i];
+      for (let i = 0; i < n; i++) xPlus[g.dim + i] = held[i]!;
       nextK = Math.round(t / Ts) + 1;
       return null;
     },
     project(x) {
-      const s = 1 / Math.sqrt(x[0] * x[0] + x[1] * x[1] + x[2] * x[2] + x[3] * x[3]);
-      x[0] *= s; x[1] *= s; x[2] *= s; x[3] *= s;
+      const s = 1 / Math.sqrt(x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!);
+      x[0]! *= s; x[1]! *= s; x[2]! *= s; x[3]! *= s;
       return false; // RK4 evaluates its first stage afresh every step, so nothing is stale
     },
   };
@@ -130,8 +130,8 @@ export function zohWheelSystemCompact(
       return null;
     },
     project(x) {
-      const s = 1 / Math.sqrt(x[0] * x[0] + x[1] * x[1] + x[2] * x[2] + x[3] * x[3]);
-      x[0] *= s; x[1] *= s; x[2] *= s; x[3] *= s;
+      const s = 1 / Math.sqrt(x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!);
+      x[0]! *= s; x[1]! *= s; x[2]! *= s; x[3]! *= s;
       return false;
     },
   };

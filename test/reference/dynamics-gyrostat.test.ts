@@ -20,7 +20,7 @@ const ZERO3 = new Float64Array(3);
 /** Largest relative deviation of R·H from its initial value over every recorded step. */
 function momentumDrift(g: Gyrostat, sys: HybridSystem, x0: Float64Array, opts: Partial<HybridOptions>): { drift: number; energies: number[] } {
   const H0 = totalMomentumInertial(new Float64Array(3), x0, g);
-  const n0 = Math.hypot(H0[0], H0[1], H0[2]);
+  const n0 = Math.hypot(H0[0]!, H0[1]!, H0[2]!);
   const H = new Float64Array(3);
   let drift = 0;
   const energies: number[] = [];
@@ -31,7 +31,7 @@ function momentumDrift(g: Gyrostat, sys: HybridSystem, x0: Float64Array, opts: P
       every: 'step', store: false,
       onRecord: (_t, _j, x) => {
         totalMomentumInertial(H, x, g);
-        drift = Math.max(drift, Math.hypot(H[0] - H0[0], H[1] - H0[1], H[2] - H0[2]) / n0);
+        drift = Math.max(drift, Math.hypot(H[0]! - H0[0]!, H[1]! - H0[1]!, H[2]! - H0[2]!) / n0);
         energies.push(kineticEnergy(x, g));
       },
     },
@@ -57,8 +57,8 @@ describe('momentum conservation with arbitrary wheel torques (methods §6)', () 
     const x0 = pyra4InitialState();
     const { drift, energies } = momentumDrift(g, sys, x0, {});
     expect(drift).toBeLessThan(1e-10);
-    for (let k = 1; k < energies.length; k++) expect(energies[k]).toBeLessThanOrEqual(energies[k - 1] * (1 + 1e-12));
-    expect(energies[energies.length - 1]).toBeLessThan(0.9 * energies[0]);
+    for (let k = 1; k < energies.length; k++) expect(energies[k]).toBeLessThanOrEqual(energies[k - 1]! * (1 + 1e-12));
+    expect(energies[energies.length - 1]).toBeLessThan(0.9 * energies[0]!);
   });
 
   it('10 Hz zero-order-hold torques, fixed-step RK4 at 2 steps per sample: |ΔH_I|/|H_I| ≤ 1e-10', () => {
@@ -87,7 +87,7 @@ describe('DP54 against odex on the same 600 s wheel-driven run (references §6)'
     const xs = new Float64Array(11), dx = new Float64Array(11);
     const theirs: number[][] = [];
     const res = solver.solve(
-      (t: number, y: number[]) => { for (let i = 0; i < 11; i++) xs[i] = y[i]; sys.f(t, xs, dx); return Array.from(dx); },
+      (t: number, y: number[]) => { for (let i = 0; i < 11; i++) xs[i] = y[i]!; sys.f(t, xs, dx); return Array.from(dx); },
       0, Array.from(x0), 600,
       solver.grid(60, (_t: number, y: number[]) => { theirs.push(y.slice()); }),
     );
@@ -97,9 +97,9 @@ describe('DP54 against odex on the same 600 s wheel-driven run (references §6)'
     let worst = 0;
     for (let k = 0; k < 11; k++) {
       expect(ours.value.t[k]).toBeCloseTo(60 * k, 9);
-      for (let i = 0; i < 11; i++) worst = Math.max(worst, Math.abs(ours.value.x[11 * k + i] - theirs[k][i]));
+      for (let i = 0; i < 11; i++) worst = Math.max(worst, Math.abs(ours.value.x[11 * k + i]! - theirs[k]![i]!));
     }
-    for (let i = 0; i < 11; i++) worst = Math.max(worst, Math.abs(ours.value.finalState[i] - res.y[i]));
+    for (let i = 0; i < 11; i++) worst = Math.max(worst, Math.abs(ours.value.finalState[i]! - res.y[i]!));
     // measured: about 1e-10 (states are O(1) quaternion, O(1e-2) rad/s, O(1e-3) N·m·s)
     expect(worst).toBeLessThan(1e-8);
   });

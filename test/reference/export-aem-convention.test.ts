@@ -22,14 +22,14 @@ import { META, makeTrace } from '../unit/export-fixtures';
 
 /** M_BA of CCSDS 504.0-B-2 Annex F2, rows, from (Q1, Q2, Q3, QC). */
 function mBA(q: ArrayLike<number>): number[][] {
-  const [q1, q2, q3, qc] = [q[0], q[1], q[2], q[3]];
+  const [q1, q2, q3, qc] = [q[0]!, q[1]!, q[2]!, q[3]!];
   return [
     [q1 * q1 - q2 * q2 - q3 * q3 + qc * qc, 2 * (q1 * q2 + q3 * qc), 2 * (q1 * q3 - q2 * qc)],
     [2 * (q1 * q2 - q3 * qc), -q1 * q1 + q2 * q2 - q3 * q3 + qc * qc, 2 * (q2 * q3 + q1 * qc)],
     [2 * (q1 * q3 + q2 * qc), 2 * (q2 * q3 - q1 * qc), -q1 * q1 - q2 * q2 + q3 * q3 + qc * qc],
   ];
 }
-const mul = (m: number[][], v: number[]) => m.map((r) => r[0] * v[0] + r[1] * v[1] + r[2] * v[2]);
+const mul = (m: number[][], v: number[]) => m.map((r) => r[0]! * v[0]! + r[1]! * v[1]! + r[2]! * v[2]!);
 
 function tern() {
   const r = loadScenario(loadExample('tern12-reversal'));
@@ -58,14 +58,14 @@ describe('AEM quaternion = qInertialFromBody (CCSDS 504.0-B-2 Annex F2)', () => 
       const x = [rng.normal(), rng.normal(), rng.normal()];
       const ours = Array.from(qRotateInverse(out, q, x));
       const theirs = mul(mBA(aemQuaternionFromAttitude(new Float64Array(4), q)), x);
-      for (let c = 0; c < 3; c++) expect(theirs[c]).toBeCloseTo(ours[c], 13);
+      for (let c = 0; c < 3; c++) expect(theirs[c]).toBeCloseTo(ours[c]!, 13);
     }
     qRandomUniform(q, rng);
     const conj = qConjugate(qCreate(), q);
     const x = [0.3, -0.4, 0.5];
     const wrong = mul(mBA(conj), x);
     const right = Array.from(qRotateInverse(out, q, x));
-    expect(Math.max(...wrong.map((w, c) => Math.abs(w - right[c])))).toBeGreaterThan(1e-3);
+    expect(Math.max(...wrong.map((w, c) => Math.abs(w - right[c]!)))).toBeGreaterThan(1e-3);
   });
 
   it('the written AEM reproduces the Annex F2 propagation vector, not the wrong-order one', () => {
@@ -78,13 +78,13 @@ describe('AEM quaternion = qInertialFromBody (CCSDS 504.0-B-2 Annex F2)', () => 
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
     const doc = parseAem(r.value);
     if (!doc.ok) throw new Error(JSON.stringify(doc.errors));
-    const last = doc.value.segments[0].lines.at(-1)!;
+    const last = doc.value.segments[0]!.lines.at(-1)!;
     const expected = [0.3239846166, 0.0411789922, 0.4416515247, 0.8356328079];
-    for (let i = 0; i < 4; i++) expect(Math.abs(last.values[i] - expected[i])).toBeLessThan(2e-10);
+    for (let i = 0; i < 4; i++) expect(Math.abs(last.values[i]! - expected[i]!)).toBeLessThan(2e-10);
     const wrongOrder = [0.1094995, 0.0545843, 0.5354888, 0.8356328];
-    expect(Math.abs(last.values[0] - wrongOrder[0])).toBeGreaterThan(0.1);
+    expect(Math.abs(last.values[0]! - wrongOrder[0]!)).toBeGreaterThan(0.1);
     // ANGVEL: B relative to A in B axes, deg/s (§4.2.4.6).
-    for (let i = 0; i < 3; i++) expect(last.values[4 + i]).toBeCloseTo((omega[i] * 180) / Math.PI, 10);
+    for (let i = 0; i < 3; i++) expect(last.values[4 + i]).toBeCloseTo((omega[i]! * 180) / Math.PI, 10);
     // The epoch: scenario epoch 2031-06-02T04:30:00Z + 12 s.
     expect(last.epoch).toBe('2031-06-02T04:30:12.000');
   });

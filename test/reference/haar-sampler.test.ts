@@ -16,7 +16,7 @@ function ksStatistic(samples: Float64Array, cdf: (x: number) => number): number 
   const n = s.length;
   let d = 0;
   for (let i = 0; i < n; i++) {
-    const f = cdf(s[i]);
+    const f = cdf(s[i]!);
     d = Math.max(d, f - i / n, (i + 1) / n - f);
   }
   return d;

@@ -16,16 +16,16 @@ const GAMMA = 9.81;
 function ball(e: number, withFlowSet: boolean): HybridSystem {
   const sys: HybridSystem = {
     dim: 2,
-    flow: (_t, x, d) => { d[0] = x[1]; d[1] = -GAMMA; },
+    flow: (_t, x, d) => { d[0] = x[1]!; d[1] = -GAMMA; },
     // D = {x1 ≤ 0 and x2 ≤ 0} = {g ≥ 0}; on C ∩ {x1 ≥ 0} it is the paper's D = {x1 = 0, x2 ≤ 0}.
-    jumpGuard: (_t, x) => Math.min(-x[0], -x[1]),
+    jumpGuard: (_t, x) => Math.min(-x[0]!, -x[1]!),
     jump: (_t, x, xp) => {
       xp[0] = 0;
-      xp[1] = -e * x[1];
-      return { what: 'impact', from: x[1], to: xp[1], why: 'x1 ≤ 0 and x2 ≤ 0' };
+      xp[1] = -e * x[1]!;
+      return { what: 'impact', from: x[1]!, to: xp[1]!, why: 'x1 ≤ 0 and x2 ≤ 0' };
     },
   };
-  if (withFlowSet) sys.inFlowSet = (_t, x) => x[0] >= 0;
+  if (withFlowSet) sys.inFlowSet = (_t, x) => x[0]! >= 0;
   return sys;
 }
 
@@ -36,10 +36,10 @@ function impactTime(k: number, t1: number, e: number): number {
 function expectHybridTimeDomain(arc: HybridArc): void {
   // GST 2009: E is a union of [t_j, t_{j+1}] × {j}; t and j never decrease, j grows only at a jump instant.
   for (let k = 1; k < arc.count; k++) {
-    expect(arc.t[k]).toBeGreaterThanOrEqual(arc.t[k - 1]);
-    expect(arc.j[k]).toBeGreaterThanOrEqual(arc.j[k - 1]);
+    expect(arc.t[k]).toBeGreaterThanOrEqual(arc.t[k - 1]!);
+    expect(arc.j[k]).toBeGreaterThanOrEqual(arc.j[k - 1]!);
     if (arc.j[k] !== arc.j[k - 1]) {
-      expect(arc.j[k]).toBe(arc.j[k - 1] + 1);
+      expect(arc.j[k]).toBe(arc.j[k - 1]! + 1);
       expect(arc.t[k]).toBe(arc.t[k - 1]);
     }
   }
@@ -68,7 +68,7 @@ describe('bouncing ball (Goebel, Sanfelice & Teel 2009)', () => {
         expect(arc.outcome.t).toBeLessThan(5);
         expect(arc.events.length).toBeGreaterThan(50);
         for (let k = 1; k <= 20; k++) {
-          const ev = arc.events[k - 1];
+          const ev = arc.events[k - 1]!;
           expect(ev.j).toBe(k);
           expect(Math.abs(ev.t - impactTime(k, t1, e))).toBeLessThan(1e-9);
           // impact speed γ t1 e^(k−1)
@@ -88,7 +88,7 @@ describe('bouncing ball (Goebel, Sanfelice & Teel 2009)', () => {
     if (!r.ok) return;
     expect(r.value.outcome.status).toBe('zeno');
     expect(Math.abs(r.value.outcome.t - (t1 * 1.8) / 0.2)).toBeLessThan(1e-5);
-    expect(Math.abs(r.value.events[9].t - impactTime(10, t1, e))).toBeLessThan(1e-9);
+    expect(Math.abs(r.value.events[9]!.t - impactTime(10, t1, e))).toBeLessThan(1e-9);
   });
 
   it('with jMax the run completes after that many impacts instead', () => {

@@ -20,20 +20,20 @@ import type { PlanLimits, SequencePlan } from '../../app/engine/plan/types';
 
 const D = Math.PI / 180;
 const axisAngle = (ax: number[], th: number) => {
-  const n = Math.hypot(ax[0], ax[1], ax[2]), s = Math.sin(th / 2) / n;
-  return [ax[0] * s, ax[1] * s, ax[2] * s, Math.cos(th / 2)];
+  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!), s = Math.sin(th / 2) / n;
+  return [ax[0]! * s, ax[1]! * s, ax[2]! * s, Math.cos(th / 2)];
 };
 /** Hamilton product, scalar last, written here independently of the engine. */
 const qmul = (a: number[], b: number[]) => [
-  a[3] * b[0] + a[0] * b[3] + a[1] * b[2] - a[2] * b[1],
-  a[3] * b[1] - a[0] * b[2] + a[1] * b[3] + a[2] * b[0],
-  a[3] * b[2] + a[0] * b[1] - a[1] * b[0] + a[2] * b[3],
-  a[3] * b[3] - a[0] * b[0] - a[1] * b[1] - a[2] * b[2],
+  a[3]! * b[0]! + a[0]! * b[3]! + a[1]! * b[2]! - a[2]! * b[1]!,
+  a[3]! * b[1]! - a[0]! * b[2]! + a[1]! * b[3]! + a[2]! * b[0]!,
+  a[3]! * b[2]! + a[0]! * b[1]! - a[1]! * b[0]! + a[2]! * b[3]!,
+  a[3]! * b[3]! - a[0]! * b[0]! - a[1]! * b[1]! - a[2]! * b[2]!,
 ];
 /** Rotation angle of a* ⊗ b: 2 atan2(|vec|, |w|), accurate near zero (unlike acos of a dot product). */
 const angleBetween = (a: ArrayLike<number>, b: ArrayLike<number>) => {
-  const e = qmul([-a[0], -a[1], -a[2], a[3]], [b[0], b[1], b[2], b[3]]);
-  return 2 * Math.atan2(Math.hypot(e[0], e[1], e[2]), Math.abs(e[3]));
+  const e = qmul([-a[0]!, -a[1]!, -a[2]!, a[3]!], [b[0]!, b[1]!, b[2]!, b[3]!]);
+  return 2 * Math.atan2(Math.hypot(e[0]!, e[1]!, e[2]!), Math.abs(e[3]!));
 };
 
 interface Case {
@@ -82,7 +82,7 @@ function planCase(c: Case): SequencePlan {
 
 /** Phase boundaries of the single slew: start, switches, end. */
 function breaks(s: SequencePlan): number[] {
-  const e = s.timeline[0];
+  const e = s.timeline[0]!;
   return [e.slewStartS, ...e.plan.switchTimesS.map((x) => x + e.slewStartS), e.slewEndS];
 }
 
@@ -94,7 +94,7 @@ function clampInto(t: number, a: number, b: number): number {
 
 describe.each(cases)('reference kinematics: $name', (c) => {
   const s = planCase(c);
-  const plan = s.timeline[0].plan;
+  const plan = s.timeline[0]!.plan;
   const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
 
   it('RK4 of q̇ = ½ q ⊗ ω_ref(t) reaches the target to 1e-9', () => {
@@ -102,25 +102,25 @@ describe.each(cases)('reference kinematics: $name', (c) => {
     const bk = breaks(s);
     const rate = (t: number, a: number, b: number) => {
       evaluateReference(s, clampInto(t, a, b), q, w, wd);
-      return [w[0], w[1], w[2], 0];
+      return [w[0]!, w[1]!, w[2]!, 0];
     };
     const f = (t: number, qq: number[], a: number, b: number) => qmul(qq, rate(t, a, b)).map((x) => 0.5 * x);
     for (let k = 0; k + 1 < bk.length; k++) {
-      const a = bk[k], b = bk[k + 1];
+      const a = bk[k]!, b = bk[k + 1]!;
       const n = Math.max(1, Math.ceil((b - a) / 0.02));
       const h = (b - a) / n;
       for (let i = 0; i < n; i++) {
         const t = a + i * h;
         const k1 = f(t, y, a, b);
-        const k2 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k1[j]), a, b);
-        const k3 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k2[j]), a, b);
-        const k4 = f(t + h, y.map((v, j) => v + h * k3[j]), a, b);
-        y = y.map((v, j) => v + (h / 6) * (k1[j] + 2 * k2[j] + 2 * k3[j] + k4[j]));
+        const k2 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k1[j]!), a, b);
+        const k3 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k2[j]!), a, b);
+        const k4 = f(t + h, y.map((v, j) => v + h * k3[j]!), a, b);
+        y = y.map((v, j) => v + (h / 6) * (k1[j]! + 2 * k2[j]! + 2 * k3[j]! + k4[j]!));
       }
     }
     expect(angleBetween(y, c.qTarget)).toBeLessThan(1e-9);
     // Same sign as the plan's end quaternion (no hemisphere flip along the way).
-    expect(y[0] * plan.qEnd[0] + y[1] * plan.qEnd[1] + y[2] * plan.qEnd[2] + y[3] * plan.qEnd[3]).toBeGreaterThan(0);
+    expect(y[0]! * plan.qEnd[0]! + y[1]! * plan.qEnd[1]! + y[2]! * plan.qEnd[2]! + y[3]! * plan.qEnd[3]!).toBeGreaterThan(0);
     evaluateReference(s, s.totalS, q, w, wd);
     expect(angleBetween(q, c.qTarget)).toBeLessThan(1e-12);
   });
@@ -137,14 +137,14 @@ describe.each(cases)('reference kinematics: $name', (c) => {
       evaluateReference(s, t + h, qp, wp, wd);
       evaluateReference(s, t - h, qm, wm, wd);
       evaluateReference(s, t, q, w, wd);
-      const qdot = [0, 1, 2, 3].map((i) => (qp[i] - qm[i]) / (2 * h));
-      const conj = [-q[0], -q[1], -q[2], q[3]];
+      const qdot = [0, 1, 2, 3].map((i) => (qp[i]! - qm[i]!) / (2 * h));
+      const conj = [-q[0]!, -q[1]!, -q[2]!, q[3]!];
       const om = qmul(conj, qdot).map((x) => 2 * x);
       for (let i = 0; i < 3; i++) {
-        expect(Math.abs(om[i] - w[i])).toBeLessThan(1e-8 * Math.max(1, scale));
-        expect(Math.abs((wp[i] - wm[i]) / (2 * h) - wd[i])).toBeLessThan(1e-9);
+        expect(Math.abs(om[i]! - w[i]!)).toBeLessThan(1e-8 * Math.max(1, scale));
+        expect(Math.abs((wp[i]! - wm[i]!) / (2 * h) - wd[i]!)).toBeLessThan(1e-9);
       }
-      expect(Math.abs(om[3])).toBeLessThan(1e-9);
+      expect(Math.abs(om[3]!)).toBeLessThan(1e-9);
     }
   });
 });
@@ -155,21 +155,21 @@ describe.each(cases)('reference kinematics: $name', (c) => {
  */
 function flyOpenLoop(c: Case, s: SequencePlan, torque: (t: number, out: Float64Array) => void) {
   const J = c.J;
-  const Jinv = (inv([[J[0], J[3], J[6]], [J[1], J[4], J[7]], [J[2], J[5], J[8]]]) as number[][]);
+  const Jinv = (inv([[J[0]!, J[3]!, J[6]!], [J[1]!, J[4]!, J[7]!], [J[2]!, J[5]!, J[8]!]]) as number[][]);
   const tau = new Float64Array(3);
-  let y = [...s.timeline[0].plan.qStart, 0, 0, 0, ...c.h0];
+  let y = [...s.timeline[0]!.plan.qStart, 0, 0, 0, ...c.h0];
   const bk = breaks(s);
   for (let k = 0; k + 1 < bk.length; k++) {
-    const a = bk[k], b = bk[k + 1];
+    const a = bk[k]!, b = bk[k + 1]!;
     const f = (t: number, x: number[]) => {
       torque(clampInto(t, a, b), tau);
       const q = x.slice(0, 4), om = x.slice(4, 7), hw = x.slice(7, 10);
-      const H = [0, 1, 2].map((r) => J[r] * om[0] + J[3 + r] * om[1] + J[6 + r] * om[2] + hw[r]);
-      const g = [om[1] * H[2] - om[2] * H[1], om[2] * H[0] - om[0] * H[2], om[0] * H[1] - om[1] * H[0]];
-      const rhs = [0, 1, 2].map((i) => tau[i] - g[i]);
-      const omd = [0, 1, 2].map((r) => Jinv[r][0] * rhs[0] + Jinv[r][1] * rhs[1] + Jinv[r][2] * rhs[2]);
-      const qd = qmul(q, [om[0], om[1], om[2], 0]).map((v) => 0.5 * v);
-      return [...qd, ...omd, -tau[0], -tau[1], -tau[2]];
+      const H = [0, 1, 2].map((r) => J[r]! * om[0]! + J[3 + r]! * om[1]! + J[6 + r]! * om[2]! + hw[r]!);
+      const g = [om[1]! * H[2]! - om[2]! * H[1]!, om[2]! * H[0]! - om[0]! * H[2]!, om[0]! * H[1]! - om[1]! * H[0]!];
+      const rhs = [0, 1, 2].map((i) => tau[i]! - g[i]!);
+      const omd = [0, 1, 2].map((r) => Jinv[r]![0]! * rhs[0]! + Jinv[r]![1]! * rhs[1]! + Jinv[r]![2]! * rhs[2]!);
+      const qd = qmul(q, [om[0]!, om[1]!, om[2]!, 0]).map((v) => 0.5 * v);
+      return [...qd, ...omd, -tau[0]!, -tau[1]!, -tau[2]!];
     };
     const solver = new Solver(10);
     solver.absoluteTolerance = 1e-13;
@@ -184,14 +184,14 @@ function flyOpenLoop(c: Case, s: SequencePlan, torque: (t: number, out: Float64A
 
 describe.each(cases)('open-loop dynamics with odex: $name', (c) => {
   const s = planCase(c);
-  const plan = s.timeline[0].plan;
+  const plan = s.timeline[0]!.plan;
 
   it('the body driven by the planned torque arrives at the target at rest, wheels as planned', () => {
     const h = new Float64Array(3);
     const end = flyOpenLoop(c, s, (t, out) => evaluatePlannedLoads(s, t, out, h));
     expect(angleBetween(end.q, c.qTarget)).toBeLessThan(1e-11);
-    expect(Math.hypot(end.omega[0], end.omega[1], end.omega[2])).toBeLessThan(1e-12);
-    for (let i = 0; i < 3; i++) expect(Math.abs(end.h[i] - plan.wheelMomentumEndBody[i])).toBeLessThan(1e-13);
+    expect(Math.hypot(end.omega[0]!, end.omega[1]!, end.omega[2]!)).toBeLessThan(1e-12);
+    for (let i = 0; i < 3; i++) expect(Math.abs(end.h[i]! - plan.wheelMomentumEndBody[i]!)).toBeLessThan(1e-13);
   });
 
   if (c.h0.some((x) => x !== 0)) {
@@ -200,7 +200,7 @@ describe.each(cases)('open-loop dynamics with odex: $name', (c) => {
       const end = flyOpenLoop(c, s, (t, out) => {
         evaluateReference(s, t, q, w, wd);
         evaluatePlannedLoads(s, t, out, h);
-        for (let i = 0; i < 3; i++) out[i] = c.J[i] * wd[0] + c.J[3 + i] * wd[1] + c.J[6 + i] * wd[2];
+        for (let i = 0; i < 3; i++) out[i] = c.J[i]! * wd[0]! + c.J[3 + i]! * wd[1]! + c.J[6 + i]! * wd[2]!;
       });
       expect(angleBetween(end.q, c.qTarget)).toBeGreaterThan(1e-3);
     });

@@ -34,7 +34,7 @@ function resolved(json: unknown): ResolvedScenario {
 
 /** |⟨a, b⟩| close to 1: same attitude up to the quaternion sign. */
 function expectSameAttitude(ours: ArrayLike<number>, ref: { w: number; x: number; y: number; z: number }, tol = 1e-12) {
-  const d = ours[0] * ref.x + ours[1] * ref.y + ours[2] * ref.z + ours[3] * ref.w;
+  const d = ours[0]! * ref.x + ours[1]! * ref.y + ours[2]! * ref.z + ours[3]! * ref.w;
   expect(1 - Math.abs(d)).toBeLessThan(tol);
 }
 
@@ -46,9 +46,9 @@ describe('Euler targets', () => {
     for (const seq of EULER_SEQUENCES) {
       const [a, b, c] = [0.3, -1.1, 2.2];
       const ref = Quaternion.fromEuler(a, b, c, seq);
-      const prod = Quaternion.fromAxisAngle(axisOf(seq[0]), a)
-        .mul(Quaternion.fromAxisAngle(axisOf(seq[1]), b))
-        .mul(Quaternion.fromAxisAngle(axisOf(seq[2]), c));
+      const prod = Quaternion.fromAxisAngle(axisOf(seq[0]!), a)
+        .mul(Quaternion.fromAxisAngle(axisOf(seq[1]!), b))
+        .mul(Quaternion.fromAxisAngle(axisOf(seq[2]!), c));
       expectSameAttitude([prod.x, prod.y, prod.z, prod.w], ref, 1e-14);
     }
   });
@@ -65,7 +65,7 @@ describe('Euler targets', () => {
           const r = resolved(s);
           const ref = Quaternion.fromEuler(angles[0] * DEG, angles[1] * DEG, angles[2] * DEG, seq);
           expectSameAttitude(r.initial.qInertialFromBody, ref);
-          expectSameAttitude(r.targets[0].qInertialFromBody, ref);
+          expectSameAttitude(r.targets[0]!.qInertialFromBody, ref);
         },
       ),
       { numRuns: 200, seed: 7 },
@@ -85,7 +85,7 @@ describe('pointing targets', () => {
   const rng = makeRng(11, 3);
   const gauss = (): V3 => [rng.normal(), rng.normal(), rng.normal()];
   const unit = (v: number[]) => { const n = Math.hypot(...v); return v.map((x) => x / n); };
-  const angle = (a: number[], b: number[]) => Math.atan2(Math.hypot(a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]), a[0] * b[0] + a[1] * b[1] + a[2] * b[2]);
+  const angle = (a: number[], b: number[]) => Math.atan2(Math.hypot(a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!), a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!);
   const sinA = (a: number[], b: number[]) => Math.sin(angle(a, b));
 
   it('R·b = r exactly and the secondary misalignment is the least possible', () => {
@@ -94,10 +94,10 @@ describe('pointing targets', () => {
       if (sinA(b, b2) < 0.05 || sinA(r, r2) < 0.05) continue;
       const s = loadExample('lumen6-imaging');
       s.targets[3].attitude = { pointing: { bodyAxis: b, inertialDirection: r, bodySecondary: b2, inertialSecondary: r2 } };
-      const q = resolved(s).targets[3].qInertialFromBody;
+      const q = resolved(s).targets[3]!.qInertialFromBody;
       const Rb = Array.from(qRotate(new Float64Array(3), q, b));
       const ru = unit(r).map((x) => x * Math.hypot(...b));
-      for (let i = 0; i < 3; i++) expect(Math.abs(Rb[i] - ru[i])).toBeLessThan(1e-12);
+      for (let i = 0; i < 3; i++) expect(Math.abs(Rb[i]! - ru[i]!)).toBeLessThan(1e-12);
       const Rb2 = Array.from(qRotate(new Float64Array(3), q, b2));
       const mis = angle(Rb2, r2);
       // Rotating about r keeps ∠(R b2, r) = ∠(b, b2); the closest R b2 can come to r2 is the
@@ -116,7 +116,7 @@ describe('pointing targets', () => {
     const r = resolved(loadExample('lumen6-imaging'));
     const sun = unit([0.9922, -0.1148, -0.0488]);
     const v = Array.from(qRotate(new Float64Array(3), r.initial.qInertialFromBody, [0, 0, -1]));
-    for (let i = 0; i < 3; i++) expect(v[i]).toBeCloseTo(sun[i], 14);
+    for (let i = 0; i < 3; i++) expect(v[i]).toBeCloseTo(sun[i]!, 14);
     const x = Array.from(qRotate(new Float64Array(3), r.initial.qInertialFromBody, [1, 0, 0]));
     expect(angle(x, [0, 0, 1])).toBeCloseTo(Math.abs(Math.PI / 2 - angle(sun, [0, 0, 1])), 12);
   });
@@ -127,21 +127,21 @@ describe('relative targets', () => {
     const s = loadExample('lumen6-imaging');
     s.targets.splice(2, 0, { label: 'extra', attitude: { relative: { axis: [0.3, -2, 0.5], angleDeg: 33 } }, holdS: 0 });
     const r = resolved(s);
-    const q1 = r.targets[0].qInertialFromBody;
+    const q1 = r.targets[0]!.qInertialFromBody;
     const prev = new Quaternion(q1[3], q1[0], q1[1], q1[2]);
     const k2 = prev.mul(Quaternion.fromAxisAngle([1, 0, 0], -14 * DEG));
     const k3 = k2.mul(Quaternion.fromAxisAngle([0.3, -2, 0.5], 33 * DEG));
-    expectSameAttitude(r.targets[1].qInertialFromBody, k2, 1e-14);
-    expectSameAttitude(r.targets[2].qInertialFromBody, k3, 1e-14);
-    expect(qAngleBetween(r.targets[1].qInertialFromBody, r.targets[0].qInertialFromBody)).toBeCloseTo(14 * DEG, 12);
+    expectSameAttitude(r.targets[1]!.qInertialFromBody, k2, 1e-14);
+    expectSameAttitude(r.targets[2]!.qInertialFromBody, k3, 1e-14);
+    expect(qAngleBetween(r.targets[1]!.qInertialFromBody, r.targets[0]!.qInertialFromBody)).toBeCloseTo(14 * DEG, 12);
   });
 
   it('the first target composes on the initial attitude (Tern-12 reversal is 175°)', () => {
     const r = resolved(loadExample('tern12-reversal'));
-    expect(qAngleBetween(r.initial.qInertialFromBody, r.targets[0].qInertialFromBody) / DEG).toBeCloseTo(175, 10);
+    expect(qAngleBetween(r.initial.qInertialFromBody, r.targets[0]!.qInertialFromBody) / DEG).toBeCloseTo(175, 10);
     const q0 = r.initial.qInertialFromBody;
     const ref = new Quaternion(q0[3], q0[0], q0[1], q0[2]).mul(Quaternion.fromAxisAngle([0.15, 0.2, 0.97], 175 * DEG));
-    expectSameAttitude(r.targets[0].qInertialFromBody, ref, 1e-14);
+    expectSameAttitude(r.targets[0]!.qInertialFromBody, ref, 1e-14);
   });
 });
 
@@ -166,8 +166,8 @@ describe('SI conversion and the example vehicles', () => {
     expect(r.initial.omegaBody[1]).toBeCloseTo(-0.01 * DEG, 18);
     expect(r.planning.slewRateLimitRadPerS).toBeCloseTo(3 * DEG, 15);
     expect(r.simulation.settleAngleRad).toBeCloseTo(0.1 * DEG, 15);
-    expect(r.keepOut[0].halfAngleRad).toBeCloseTo(40 * DEG, 15);
-    expect(Math.hypot(...r.keepOut[0].inertialDirection)).toBeCloseTo(1, 15);
+    expect(r.keepOut[0]!.halfAngleRad).toBeCloseTo(40 * DEG, 15);
+    expect(Math.hypot(...r.keepOut[0]!.inertialDirection)).toBeCloseTo(1, 15);
     expect(r.epochUnixMs).toBe(Date.UTC(2030, 2, 14, 10, 0, 0));
   });
 
@@ -186,15 +186,15 @@ describe('SI conversion and the example vehicles', () => {
       const r = resolved(loadExample(name));
       const syn = r.controllers.find((c) => c.law === 'synergistic');
       if (!syn || syn.law !== 'synergistic') throw new Error('no synergistic controller');
-      const c = syn.potentialWeights[0];
-      expect(syn.potentialWeights[1] / c).toBeCloseTo(2, 14);
-      expect(syn.potentialWeights[2] / c).toBeCloseTo(3, 14);
+      const c = syn.potentialWeights[0]!;
+      expect(syn.potentialWeights[1]! / c).toBeCloseTo(2, 14);
+      expect(syn.potentialWeights[2]! / c).toBeCloseTo(3, 14);
       expect(syn.warpGain * c).toBeCloseTo(0.15, 14);
       // Hysteresis below the scaled certified gap 0.249989·c (80 % of it, methods §5 step 6).
       expect(syn.hysteresis).toBeLessThan(0.249989 * c);
       expect(syn.hysteresis / c).toBeCloseTo(0.2, 14);
       // Warp bound k < 1/(tr A − λ_min) keeps each warp a diffeomorphism.
-      const tr = syn.potentialWeights[0] + syn.potentialWeights[1] + syn.potentialWeights[2];
+      const tr = syn.potentialWeights[0]! + syn.potentialWeights[1]! + syn.potentialWeights[2]!;
       expect(syn.warpGain).toBeLessThan(1 / (tr - c));
       // Default and explicit axes agree: A = diag(λ) in the error-frame axes.
       expect(m3Get(syn.potentialMatrix, 1, 1)).toBeCloseTo(2 * c, 15);
@@ -208,8 +208,8 @@ describe('SI conversion and the example vehicles', () => {
     const w = r.vehicle.wheels;
     if (w.layout !== 'custom') throw new Error('custom expected');
     expect(w.count).toBe(4);
-    for (const i of [0, 1, 2]) expect(w.wheels[3].axis[i]).toBeCloseTo(1 / Math.sqrt(3), 15);
-    expect(w.wheels[0].maxMomentumNms).toBeCloseTo(0.25, 15);
+    for (const i of [0, 1, 2]) expect(w.wheels[3]!.axis[i]).toBeCloseTo(1 / Math.sqrt(3), 15);
+    expect(w.wheels[0]!.maxMomentumNms).toBeCloseTo(0.25, 15);
     expect(r.vehicle.actuation.torqueQuantumNm).toBeCloseTo(5e-5, 18);
     // 50–100 kg smallsat ≈ 2–10 kg·m² (references §5, common practice, no source).
     for (let i = 0; i < 3; i++) expect(m3Get(r.vehicle.inertiaKgm2, i, i)).toBeGreaterThan(2);

@@ -59,24 +59,24 @@ describe('near-reversal starts with random sensor noise: who unwinds (Bhat & Ber
 
   it('continuous PD unwinds in (nearly) every far-hemisphere case and in no near-hemisphere case', () => {
     const k = ci('pd');
-    expect(share(far.filter((r) => r.runs[k].unwound).length, far.length)).toBeGreaterThanOrEqual(0.9);
-    expect(near.filter((r) => r.runs[k].unwound).length).toBe(0);
+    expect(share(far.filter((r) => r.runs[k]!.unwound).length, far.length)).toBeGreaterThanOrEqual(0.9);
+    expect(near.filter((r) => r.runs[k]!.unwound).length).toBe(0);
     // It ends at η = +1 from η₀ < 0: it turned 360° − θ₀, i.e. more than the shortest rotation.
-    for (const r of far) expect(r.runs[k].finalEta).toBeGreaterThan(0.5);
+    for (const r of far) expect(r.runs[k]!.finalEta).toBeGreaterThan(0.5);
   });
 
   it('the hysteretic and synergistic laws do not unwind (≤ 5 %) and settle in every case', () => {
     for (const id of ['hyst', 'syn']) {
       const k = ci(id);
-      const c = res.summary.controllers[k];
+      const c = res.summary.controllers[k]!;
       expect(c.unwoundShare).toBeLessThanOrEqual(0.05);
       expect(c.settledShare).toBe(1);
     }
     // The hysteretic law ends on the lift it started nearest to: η_end has the sign of η₀.
     const k = ci('hyst');
-    for (const r of res.records) expect(Math.sign(r.runs[k].finalEta)).toBe(Math.sign(r.draw.errorEta));
+    for (const r of res.records) expect(Math.sign(r.runs[k]!.finalEta)).toBe(Math.sign(r.draw.errorEta));
     // The SO(3) law never adds a big detour: extra rotation stays far below a turn.
-    expect(res.summary.controllers[ci('syn')].extraRotationDeg.max!).toBeLessThan(60);
+    expect(res.summary.controllers[ci('syn')]!.extraRotationDeg.max!).toBeLessThan(60);
   });
 });
 

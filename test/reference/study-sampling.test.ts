@@ -59,7 +59,7 @@ const Q = (q: readonly number[]) => new Quaternion(q[3], q[0], q[1], q[2]);
 function relative(a: readonly number[], b: readonly number[]): { angle: number; axis: number[]; w: number } {
   const r = Q(a).conjugate().mul(Q(b));
   const w = r.w, v = [r.x, r.y, r.z];
-  const s = Math.hypot(v[0], v[1], v[2]);
+  const s = Math.hypot(v[0]!, v[1]!, v[2]!);
   const sg = w < 0 ? -1 : 1;
   return { angle: 2 * Math.atan2(s, Math.abs(w)), axis: v.map((x) => (sg * x) / s), w };
 }
@@ -80,7 +80,7 @@ describe('initial attitude dispersions', () => {
     const rel = Array.from({ length: N }, (_, i) => relative(qStart, drawCase(d, nominal(), i).q0));
     expect(Math.max(...rel.map((r) => r.angle))).toBeLessThanOrEqual(alpha + 1e-12);
     expect(ks(rel.map((r) => r.angle), (t) => F(t) / F(alpha))).toBeLessThan(KS_001(N));
-    expect(ks(rel.map((r) => r.axis[2]), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
+    expect(ks(rel.map((r) => r.axis[2]!), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
     // Power: the naive "uniform angle" law is rejected by the same test.
     expect(ks(rel.map((r) => r.angle), (t) => t / alpha)).toBeGreaterThan(KS_001(N));
   });
@@ -93,15 +93,15 @@ describe('initial attitude dispersions', () => {
     const a = Math.PI - w;
     expect(Math.min(...rel.map((r) => r.angle))).toBeGreaterThanOrEqual(a - 1e-12);
     expect(ks(rel.map((r) => r.angle), (t) => (F(t) - F(a)) / (F(Math.PI) - F(a)))).toBeLessThan(KS_001(N));
-    expect(ks(rel.map((r) => r.axis[2]), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
+    expect(ks(rel.map((r) => r.axis[2]!), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
     // Hemisphere: the sign of the error's scalar part is a fair coin (within 4σ of a binomial).
     const neg = rel.filter((r) => r.w < 0).length;
     expect(Math.abs(neg - N / 2)).toBeLessThan(4 * Math.sqrt(N / 4));
     // The case's own record of its initial error agrees with the package's arithmetic.
     draws.slice(0, 50).forEach((c, i) => {
-      expect(c.errorAngleRad).toBeCloseTo(rel[i].angle, 12);
-      expect(Math.sign(c.errorEta)).toBe(Math.sign(rel[i].w));
-      for (let k = 0; k < 3; k++) expect(c.errorAxis[k]).toBeCloseTo(rel[i].axis[k], 10);
+      expect(c.errorAngleRad).toBeCloseTo(rel[i]!.angle, 12);
+      expect(Math.sign(c.errorEta)).toBe(Math.sign(rel[i]!.w));
+      for (let k = 0; k < 3; k++) expect(c.errorAxis[k]).toBeCloseTo(rel[i]!.axis[k]!, 10);
     });
   });
 });
@@ -161,8 +161,8 @@ describe('inertia dispersion keeps only physical samples and counts the rejectio
       expect(c.inertiaRejections).toBe(0);
       const J = m3FromRows(c.inertiaRows!);
       const m = symmetricEigen3(J).values;
-      for (let k = 0; k < 3; k++) expect(m[k]).toBeCloseTo(m0[k], 12);
-      expect(Math.abs(J[3] - 0.001) + Math.abs(J[6]) + Math.abs(J[7])).toBeGreaterThan(1e-6);
+      for (let k = 0; k < 3; k++) expect(m[k]).toBeCloseTo(m0[k]!, 12);
+      expect(Math.abs(J[3]! - 0.001) + Math.abs(J[6]!) + Math.abs(J[7]!)).toBeGreaterThan(1e-6);
     }
   });
 
@@ -171,7 +171,7 @@ describe('inertia dispersion keeps only physical samples and counts the rejectio
     const d = def({ inertia: { momentSigmaFraction: sigma, axisMisalignmentSigmaRad: 0 } });
     const nom = nominal([[0.1, 0, 0], [0, 0.12, 0], [0, 0, 0.08]]);
     const n = 2000;
-    const xs = Array.from({ length: n }, (_, i) => drawCase(d, nom, i).inertiaRows![1][1]);
+    const xs = Array.from({ length: n }, (_, i) => drawCase(d, nom, i).inertiaRows![1]![1]!);
     const mean = xs.reduce((a, b) => a + b, 0) / n;
     const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1));
     expect(Math.abs(mean - 0.12)).toBeLessThan(4 * (sigma * 0.12) / Math.sqrt(n));
@@ -191,7 +191,7 @@ describe('wheel, sensor and rate dispersions', () => {
       for (const f of c.wheelMomentumFactor) expect(f >= 0.6 && f <= 1).toBe(true);
       if (c.failedWheel >= 0) {
         failures++;
-        lost[c.failedWheel]++;
+        lost[c.failedWheel]!++;
       }
     }
     expect(Math.abs(failures - 0.25 * n)).toBeLessThan(4 * Math.sqrt(n * 0.25 * 0.75));

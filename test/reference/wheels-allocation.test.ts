@@ -51,7 +51,7 @@ describe('methods-note pyramid example (elevation sinβ = 1/√3, azimuths 0/90/
       [0, 0.816497, 0, -0.816497],
       [0.57735, 0.57735, 0.57735, 0.57735],
     ];
-    for (let i = 0; i < 4; i++) for (let r = 0; r < 3; r++) expect(arr.axes[3 * i + r]).toBeCloseTo(G[r][i], 6);
+    for (let i = 0; i < 4; i++) for (let r = 0; r < 3; r++) expect(arr.axes[3 * i + r]).toBeCloseTo(G[r]![i]!, 6);
   });
 
   it('G⁺ rows (±1/(2cosβ), 1/(4 sinβ)) = (0.612372, 0, 0.433013), …', () => {
@@ -61,19 +61,19 @@ describe('methods-note pyramid example (elevation sinβ = 1/√3, azimuths 0/90/
       [-0.612372, 0, 0.433013],
       [0, -0.612372, 0.433013],
     ];
-    for (let i = 0; i < 4; i++) for (let c = 0; c < 3; c++) expect(arr.pinv[3 * i + c]).toBeCloseTo(P[i][c], 6);
+    for (let i = 0; i < 4; i++) for (let c = 0; c < 3; c++) expect(arr.pinv[3 * i + c]).toBeCloseTo(P[i]![c]!, 6);
   });
 
   it('null vector ∝ (1, −1, 1, −1)', () => {
     const nu = Array.from(arr.nullBasis);
-    const s = Math.sign(nu[0]);
-    for (let i = 0; i < 4; i++) expect(nu[i] * s).toBeCloseTo(0.5 * (i % 2 === 0 ? 1 : -1), 14);
+    const s = Math.sign(nu[0]!);
+    for (let i = 0; i < 4; i++) expect(nu[i]! * s).toBeCloseTo(0.5 * (i % 2 === 0 ? 1 : -1), 14);
   });
 
   it('2-norm allocation x = G⁺t = (0.008289, −0.010082, −0.003959, 0.014413), max 0.014413', () => {
     const x = allocateMinNorm(new Float64Array(4), arr, tauC);
     const ref = [0.008289, -0.010082, -0.003959, 0.014413];
-    for (let i = 0; i < 4; i++) expect(x[i]).toBeCloseTo(ref[i], 6);
+    for (let i = 0; i < 4; i++) expect(x[i]).toBeCloseTo(ref[i]!, 6);
     expect(peakTorqueRatio(arr, x)).toBeCloseTo(0.014413, 6);
   });
 
@@ -82,12 +82,12 @@ describe('methods-note pyramid example (elevation sinβ = 1/√3, azimuths 0/90/
     const x = allocateMinMax(new Float64Array(4), arr, tauC);
     const y = allocateMinMaxLp(new Float64Array(4), arr, tauC);
     for (let i = 0; i < 4; i++) {
-      expect(x[i]).toBeCloseTo(ref[i], 6);
-      expect(y[i]).toBeCloseTo(x[i], 12);
+      expect(x[i]).toBeCloseTo(ref[i]!, 6);
+      expect(y[i]).toBeCloseTo(x[i]!, 12);
     }
     expect(peakTorqueRatio(arr, x)).toBeCloseTo(0.012247, 6);
     const back = bodyTorqueFromWheelTorque(new Float64Array(3), arr, x);
-    for (let r = 0; r < 3; r++) expect(back[r]).toBeCloseTo(tauC[r], 15);
+    for (let r = 0; r < 3; r++) expect(back[r]).toBeCloseTo(tauC[r]!, 15);
   });
 });
 
@@ -102,17 +102,17 @@ describe('cube-diagonal pyramid (cant arccos(1/√3), azimuth offset 45°)', () 
       [-1, -1, 1],
       [1, -1, 1],
     ];
-    for (let i = 0; i < 4; i++) for (let c = 0; c < 3; c++) expect(arr.pinv[3 * i + c]).toBeCloseTo(0.4330127 * S[i][c], 7);
+    for (let i = 0; i < 4; i++) for (let c = 0; c < 3; c++) expect(arr.pinv[3 * i + c]).toBeCloseTo(0.4330127 * S[i]![c]!, 7);
   });
 
   it('H = 2h·w₁: W⁺H = (1.5, 0.5, −0.5, 0.5)h (infeasible), L∞ fix (1, 1, −1, 1)h exactly on the limits', () => {
     const s3 = 1 / Math.sqrt(3);
     const Hb = [2 * h * s3, 2 * h * s3, 2 * h * s3];
     const pin = applyPinv(new Float64Array(4), arr, Hb);
-    [1.5, 0.5, -0.5, 0.5].forEach((v, i) => expect(pin[i] / h).toBeCloseTo(v, 13));
+    [1.5, 0.5, -0.5, 0.5].forEach((v, i) => expect(pin[i]! / h).toBeCloseTo(v, 13));
     // allocateMinMax solves Gτ_w = −τ_c, so ask for τ_c = −H to distribute H itself.
     const fix = allocateMinMax(new Float64Array(4), arr, Hb.map((x) => -x));
-    [1, 1, -1, 1].forEach((v, i) => expect(fix[i] / h).toBeCloseTo(v, 13));
+    [1, 1, -1, 1].forEach((v, i) => expect(fix[i]! / h).toBeCloseTo(v, 13));
     expect(peakTorqueRatio(arr, fix)).toBeCloseTo(1, 13);
   });
 });
@@ -131,10 +131,10 @@ describe('pseudo-inverse and null basis against mathjs', () => {
         const r = makeWheelArray(specs);
         if (!r.ok) continue;
         const arr = r.value;
-        const G = [0, 1, 2].map((row) => [...Array(n).keys()].map((i) => arr.axes[3 * i + row]));
+        const G = [0, 1, 2].map((row) => [...Array(n).keys()].map((i) => arr.axes[3 * i + row]!));
         const P = math.pinv(G) as number[][];
         const scale = Math.max(...P.flat().map(Math.abs));
-        for (let i = 0; i < n; i++) for (let c = 0; c < 3; c++) expect(Math.abs(arr.pinv[3 * i + c] - P[i][c])).toBeLessThan(1e-10 * scale);
+        for (let i = 0; i < n; i++) for (let c = 0; c < 3; c++) expect(Math.abs(arr.pinv[3 * i + c]! - P[i]![c]!)).toBeLessThan(1e-10 * scale);
         const k = n - 3;
         expect(arr.nullBasis.length).toBe(k * n);
         for (let a = 0; a < k; a++) {
@@ -167,12 +167,12 @@ function bruteMinMax(arr: WheelArray, b: number[]): number {
         const col = [0, 0, 0];
         others.forEach((i, k) => {
           const s = mask & (1 << k) ? 1 : -1;
-          for (let r = 0; r < 3; r++) col[r] += s * l[i] * g(i)[r];
+          for (let r = 0; r < 3; r++) col[r]! += s * l[i]! * g(i)[r]!;
         });
-        const M = [0, 1, 2].map((r) => [g(a)[r], g(c)[r], col[r]]);
+        const M = [0, 1, 2].map((r) => [g(a)[r]!, g(c)[r]!, col[r]!]);
         if (Math.abs(math.det(M)) < 1e-12) continue;
-        const [ta, tc, t] = (math.lusolve(M, b) as number[][]).map((row) => row[0]);
-        if (t >= 0 && Math.abs(ta) <= t * l[a] * (1 + 1e-9) + 1e-15 && Math.abs(tc) <= t * l[c] * (1 + 1e-9) + 1e-15) {
+        const [ta, tc, t] = (math.lusolve(M, b) as number[][]).map((row) => row[0]!) as [number, number, number];
+        if (t >= 0 && Math.abs(ta) <= t * l[a]! * (1 + 1e-9) + 1e-15 && Math.abs(tc) <= t * l[c]! * (1 + 1e-9) + 1e-15) {
           best = Math.min(best, t);
         }
       }
@@ -194,7 +194,7 @@ describe('min-max allocation against an independent LP and against the envelope 
           specs.push({ ...unitLimits, maxTorqueNm: 0.3 + rng.next(), axis: v.map((x) => x / L) });
         }
         const r = makeWheelArray(specs);
-        if (!r.ok || r.value.singularValues[2] < 0.1 * r.value.singularValues[0]) continue;
+        if (!r.ok || r.value.singularValues[2]! < 0.1 * r.value.singularValues[0]!) continue;
         const arr = r.value;
         const tauC = [rng.normal(), rng.normal(), rng.normal()];
         const out = allocateMinMax(new Float64Array(n), arr, tauC);

@@ -47,24 +47,24 @@ const cubePyramid = build(pyramid({ ...LIM, cantAngleRad: CUBE_DIAG_CANT, azimut
 /** Independent capacity: basic-solution enumeration of the LP, 3×3 solves by mathjs. */
 function lpCapacity(arr: WheelArray, limits: Float64Array, d: number[]): number {
   const n = arr.n;
-  const dn = Math.hypot(d[0], d[1], d[2]);
+  const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
   const u = d.map((x) => x / dn);
   const g = (i: number) => [arr.axes[3 * i], arr.axes[3 * i + 1], arr.axes[3 * i + 2]];
   let best = -Infinity;
   for (let a = 0; a < n; a++) {
     for (let b = a + 1; b < n; b++) {
       const others = [...Array(n).keys()].filter((i) => i !== a && i !== b);
-      const M = [0, 1, 2].map((r) => [g(a)[r], g(b)[r], -u[r]]);
+      const M = [0, 1, 2].map((r) => [g(a)[r]!, g(b)[r]!, -u[r]!]);
       if (Math.abs(math.det(M)) < 1e-12) continue;
       for (let mask = 0; mask < 1 << others.length; mask++) {
         const rhs = [0, 0, 0];
         others.forEach((i, k) => {
           const s = mask & (1 << k) ? 1 : -1;
-          for (let r = 0; r < 3; r++) rhs[r] -= s * limits[i] * g(i)[r];
+          for (let r = 0; r < 3; r++) rhs[r]! -= s * limits[i]! * g(i)[r]!;
         });
         const sol = (math.lusolve(M, rhs) as number[][]).map((row) => row[0]);
-        if (Math.abs(sol[0]) <= limits[a] * (1 + 1e-9) && Math.abs(sol[1]) <= limits[b] * (1 + 1e-9)) {
-          best = Math.max(best, sol[2]);
+        if (Math.abs(sol[0]!) <= limits[a]! * (1 + 1e-9) && Math.abs(sol[1]!) <= limits[b]! * (1 + 1e-9)) {
+          best = Math.max(best, sol[2]!);
         }
       }
     }
@@ -105,7 +105,7 @@ describe('cube-diagonal pyramid (cant arccos(1/√3) from +Z, azimuth offset 45�
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(4 / Math.sqrt(6), 12);
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(1.633, 4);
     }
-    for (let f = 0; f < zh.faceOffsets.length; f++) expect(zh.faceOffsets[f] / H).toBeCloseTo(4 / Math.sqrt(6), 12);
+    for (let f = 0; f < zh.faceOffsets.length; f++) expect(zh.faceOffsets[f]! / H).toBeCloseTo(4 / Math.sqrt(6), 12);
   });
 
   it('the minimum capacity over 20,000 random directions is ≥ the worst-face value and approaches it', () => {
@@ -174,7 +174,7 @@ describe('capacity against an independent LP (basic-solution enumeration with ma
       const specs: WheelSpec[] = [];
       for (let i = 0; i < n; i++) {
         const v = [rng.normal(), rng.normal(), rng.normal()];
-        const L = Math.hypot(v[0], v[1], v[2]);
+        const L = Math.hypot(v[0]!, v[1]!, v[2]!);
         specs.push({
           axis: v.map((x) => x / L),
           maxTorqueNm: 0.5 + rng.next(),
@@ -183,7 +183,7 @@ describe('capacity against an independent LP (basic-solution enumeration with ma
         });
       }
       const r = makeWheelArray(specs);
-      if (r.ok && r.value.singularValues[2] > 0.1 * r.value.singularValues[0]) return r.value;
+      if (r.ok && r.value.singularValues[2]! > 0.1 * r.value.singularValues[0]!) return r.value;
     }
   };
   for (const n of [3, 4, 5, 6]) {
@@ -196,7 +196,7 @@ describe('capacity against an independent LP (basic-solution enumeration with ma
           const ref = lpCapacity(arr, arr.maxMomentumNms, d);
           expect(envelopeCapacity(z, d)).toBeCloseTo(ref, 10);
           // The capacity point lies on the boundary: inside with tolerance, outside after a 1e-9 step.
-          const dn = Math.hypot(d[0], d[1], d[2]);
+          const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
           const p = d.map((x) => (x / dn) * ref);
           expect(envelopeContains(z, p, 1e-12)).toBe(true);
           expect(envelopeContains(z, p.map((x) => x * (1 + 1e-9)))).toBe(false);

@@ -49,14 +49,14 @@ describe('makeGyrostat', () => {
   it('J⊥ for the pyramid with equal rotors is J − (4/3) J_s I (Σ g gᵀ = diag(2cos²β, 2cos²β, 4sin²β), by hand)', () => {
     const g = mk(J6, pyramid([1e-4, 1e-4, 1e-4, 1e-4]));
     for (let k = 0; k < 9; k++) {
-      const expected = J6[k] - (k % 4 === 0 ? (4 / 3) * 1e-4 : 0);
+      const expected = J6[k]! - (k % 4 === 0 ? (4 / 3) * 1e-4 : 0);
       expect(g.Jperp[k]).toBeCloseTo(expected, 16);
     }
     // J⊥ J⊥⁻¹ = I
     for (let r = 0; r < 3; r++)
       for (let c = 0; c < 3; c++) {
         let s = 0;
-        for (let k = 0; k < 3; k++) s += g.Jperp[3 * k + r] * g.JperpInv[3 * c + k];
+        for (let k = 0; k < 3; k++) s += g.Jperp[3 * k + r]! * g.JperpInv[3 * c + k]!;
         expect(s).toBeCloseTo(r === c ? 1 : 0, 12);
       }
     expect(g.dim).toBe(11);
@@ -66,7 +66,7 @@ describe('makeGyrostat', () => {
     const one: WheelGeometry = { n: 1, axes: new Float64Array([0, 0, 1]), rotorInertiaKgm2: new Float64Array([0.02]) };
     const e = errs(m3Diag(0.01, 0.01, 0.015), one);
     expect(e).toEqual([expect.objectContaining({ path: 'wheels.rotorInertiaKgm2', rule: 'transverse-inertia-positive-definite' })]);
-    expect(e[0].message).toContain('-0.005');
+    expect(e[0]!.message).toContain('-0.005');
   });
 
   it('reports every bad wheel and friction field together', () => {
@@ -87,7 +87,7 @@ describe('makeGyrostat', () => {
   it('rejects wrong array lengths, a bad n and an indefinite J', () => {
     expect(errs(J6, { n: 2, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) }).map((i) => i.path))
       .toEqual(['wheels.axes', 'wheels.rotorInertiaKgm2']);
-    expect(errs(J6, { n: 1.5, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) })[0].path).toBe('wheels.n');
+    expect(errs(J6, { n: 1.5, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) })[0]!.path).toBe('wheels.n');
     const none: WheelGeometry = { n: 0, axes: new Float64Array(0), rotorInertiaKgm2: new Float64Array(0) };
     expect(errs(m3Diag(1, 1, -1), none).map((i) => i.rule)).toContain('positive-definite');
     expect(errs(m3FromRows([[1, 0.5, 0], [0, 1, 0], [0, 0, 1]]), none).map((i) => i.rule)).toContain('symmetric');
@@ -97,14 +97,14 @@ describe('makeGyrostat', () => {
 describe('gyrostatDerivative', () => {
   it('with no wheels it is Euler’s equations I1ω̇1 = (I2 − I3)ω2ω3 (cyclic), references §4', () => {
     const I = [0.1, 0.15, 0.2];
-    const g = mk(m3Diag(I[0], I[1], I[2]), { n: 0, axes: new Float64Array(0), rotorInertiaKgm2: new Float64Array(0) });
+    const g = mk(m3Diag(I[0]!, I[1]!, I[2]!), { n: 0, axes: new Float64Array(0), rotorInertiaKgm2: new Float64Array(0) });
     const x = new Float64Array([0, 0, 0, 1, 0.3, -0.2, 0.4]);
     const dx = new Float64Array(7);
     gyrostatDerivative(dx, x, g, [], [0, 0, 0]);
     const [w1, w2, w3] = [0.3, -0.2, 0.4];
-    expect(dx[4]).toBeCloseTo(((I[1] - I[2]) * w2 * w3) / I[0], 15);
-    expect(dx[5]).toBeCloseTo(((I[2] - I[0]) * w3 * w1) / I[1], 15);
-    expect(dx[6]).toBeCloseTo(((I[0] - I[1]) * w1 * w2) / I[2], 15);
+    expect(dx[4]).toBeCloseTo(((I[1]! - I[2]!) * w2 * w3) / I[0]!, 15);
+    expect(dx[5]).toBeCloseTo(((I[2]! - I[0]!) * w3 * w1) / I[1]!, 15);
+    expect(dx[6]).toBeCloseTo(((I[0]! - I[1]!) * w1 * w2) / I[2]!, 15);
   });
 
   it('kinematics q̇ = ½ q ⊗ (ω, 0) agrees with the npm quaternion package', () => {
@@ -142,10 +142,10 @@ describe('gyrostatDerivative', () => {
         const dx = new Float64Array(11);
         gyrostatDerivative(dx, x, g, tau, ext);
         // Ḣ = J⊥ ω̇ + G ḣ (G and J⊥ constant in body axes)
-        const dH = totalMomentumBody(new Float64Array(3), [0, 0, 0, 1, dx[4], dx[5], dx[6], dx[7], dx[8], dx[9], dx[10]], g);
+        const dH = totalMomentumBody(new Float64Array(3), [0, 0, 0, 1, dx[4]!, dx[5]!, dx[6]!, dx[7]!, dx[8]!, dx[9]!, dx[10]!], g);
         const H = totalMomentumBody(new Float64Array(3), x, g);
-        const c = [w[1] * H[2] - w[2] * H[1], w[2] * H[0] - w[0] * H[2], w[0] * H[1] - w[1] * H[0]];
-        for (let k = 0; k < 3; k++) expect(dH[k] + c[k] - ext[k]).toBeCloseTo(0, 15);
+        const c = [w[1]! * H[2]! - w[2]! * H[1]!, w[2]! * H[0]! - w[0]! * H[2]!, w[0]! * H[1]! - w[1]! * H[0]!];
+        for (let k = 0; k < 3; k++) expect(dH[k]! + c[k]! - ext[k]!).toBeCloseTo(0, 15);
       }), { numRuns: 200 });
     }
   });
@@ -161,13 +161,13 @@ describe('gyrostatDerivative', () => {
       gyrostatDerivative(dx, x, gFr, tau, ext);
       // dT/dt = ωᵀ J⊥ ω̇ + Σ h_i ḣ_i / J_s,i
       let dT = 0;
-      for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) dT += w[r] * gFr.Jperp[3 * c + r] * dx[4 + c];
-      for (let i = 0; i < 4; i++) dT += (h[i] * dx[7 + i]) / gFr.Js[i];
-      let motor = w[0] * ext[0] + w[1] * ext[1] + w[2] * ext[2];
+      for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) dT += w[r]! * gFr.Jperp[3 * c + r]! * dx[4 + c]!;
+      for (let i = 0; i < 4; i++) dT += (h[i]! * dx[7 + i]!) / gFr.Js[i]!;
+      let motor = w[0]! * ext[0]! + w[1]! * ext[1]! + w[2]! * ext[2]!;
       let friction = 0;
       for (let i = 0; i < 4; i++) {
-        motor += tau[i] * Om[i];
-        friction += (dx[7 + i] - tau[i]) * Om[i];
+        motor += tau[i]! * Om[i]!;
+        friction += (dx[7 + i]! - tau[i]!) * Om[i]!;
       }
       expect(friction).toBeLessThanOrEqual(0);
       expect(dT - motor - friction).toBeCloseTo(0, 12);
@@ -182,7 +182,7 @@ describe('gyrostatDerivative', () => {
     gyrostatDerivative(dx, x, g, [0], [0, 0, 0]);
     expect(dx[7]).toBeCloseTo(-1e-5 * 50 - 2e-4 * Math.tanh(100), 15);
     // the body feels the reaction +(friction) about z
-    expect(dx[6] * g.Jperp[8]).toBeCloseTo(-dx[7], 15);
+    expect(dx[6]! * g.Jperp[8]!).toBeCloseTo(-dx[7]!, 15);
   });
 });
 

@@ -26,19 +26,19 @@ describe('validateInertia: accepted matrices', () => {
     expect(J[3]).toBe(0.002);
     expect(J[1]).toBe(0.002);
     expect(J[6]).toBe(-0.001);
-    expect(moments[0]).toBeLessThanOrEqual(moments[1]);
-    expect(moments[1]).toBeLessThanOrEqual(moments[2]);
+    expect(moments[0]).toBeLessThanOrEqual(moments[1]!);
+    expect(moments[1]).toBeLessThanOrEqual(moments[2]!);
     expect(m3Determinant(axes)).toBeCloseTo(1, 12);
     // J a_i = λ_i a_i (definition of principal axes)
     for (let i = 0; i < 3; i++) {
       for (let r0 = 0; r0 < 3; r0++) {
         let s = 0;
-        for (let c = 0; c < 3; c++) s += J[3 * c + r0] * axes[3 * i + c];
-        expect(s).toBeCloseTo(moments[i] * axes[3 * i + r0], 14);
+        for (let c = 0; c < 3; c++) s += J[3 * c + r0]! * axes[3 * i + c]!;
+        expect(s).toBeCloseTo(moments[i]! * axes[3 * i + r0]!, 14);
       }
     }
     // trace is invariant
-    expect(moments[0] + moments[1] + moments[2]).toBeCloseTo(0.31, 14);
+    expect(moments[0]! + moments[1]! + moments[2]!).toBeCloseTo(0.31, 14);
   });
 
   it('[[2,1,0],[1,2,0],[0,0,3]] has principal moments 1, 3, 3 (hand algebra)', () => {
@@ -83,7 +83,7 @@ describe('validateInertia: each rule with its path', () => {
     const e = errorsOf([[1, 0.01, 0], [0.02, 1, 0], [0, 0, 1.5]]);
     expect(e).toHaveLength(1);
     expect(e[0]).toMatchObject({ path: 'inertia[0][1]', rule: 'symmetric' });
-    expect(e[0].message).toContain('inertia[1][0]');
+    expect(e[0]!.message).toContain('inertia[1][0]');
   });
 
   it('positive-definite: the message names the smallest eigenvalue', () => {
@@ -99,9 +99,9 @@ describe('validateInertia: each rule with its path', () => {
   it('triangle-inequality: diag(1, 1, 3) and diag(1, 1, 2·(1 + 1e-8))', () => {
     const e = errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, 3]]);
     expect(e).toEqual([expect.objectContaining({ path: 'inertia', rule: 'triangle-inequality' })]);
-    expect(errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, 2 * (1 + 1e-8)]])[0].rule).toBe('triangle-inequality');
+    expect(errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, 2 * (1 + 1e-8)]])[0]!.rule).toBe('triangle-inequality');
     // any ordering: the large moment on the first axis
-    expect(errorsOf([[5, 0, 0], [0, 1, 0], [0, 0, 2]])[0].rule).toBe('triangle-inequality');
+    expect(errorsOf([[5, 0, 0], [0, 1, 0], [0, 0, 2]])[0]!.rule).toBe('triangle-inequality');
   });
 
   it('all problems together: asymmetry and the triangle inequality of the symmetric part', () => {

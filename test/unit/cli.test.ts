@@ -94,17 +94,17 @@ describe('slewsmith CLI', () => {
     expect(r.code).toBe(0);
     const files = readdirSync(out);
     expect(files.sort()).toEqual(['lumen6-imaging.hysteretic.profiled.aem', 'lumen6-imaging.hysteretic.profiled.csv', 'lumen6-imaging.hysteretic.profiled.json']);
-    const aem = readFileSync(path.join(out, files[0]), 'utf8');
+    const aem = readFileSync(path.join(out, files[0]!), 'utf8');
     const doc = parseAem(aem);
     expect(doc.ok).toBe(true);
     if (doc.ok) expect(doc.value.segments.length).toBe(4); // one AEM segment per maneuver segment
     expect(aem).not.toMatch(/NaN|Infinity/);
     expect(Math.max(...aem.split(/\r?\n/).map((l) => l.length))).toBeLessThanOrEqual(254);
     expect(aem).toContain('not flight software');
-    const csv = readFileSync(path.join(out, files[1]), 'utf8');
+    const csv = readFileSync(path.join(out, files[1]!), 'utf8');
     expect(csv.split('\n')[1]).toContain(CAUTION_TEXT);
     expect(csv).not.toMatch(/NaN/);
-    const js = JSON.parse(readFileSync(path.join(out, files[2]), 'utf8'));
+    const js = JSON.parse(readFileSync(path.join(out, files[2]!), 'utf8'));
     expect(JSON.stringify(js)).toContain('not flight software');
   });
 

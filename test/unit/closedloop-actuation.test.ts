@@ -37,8 +37,8 @@ function impulseMismatch(tr: RunTrace): number {
   const N = tr.nWheels;
   let worst = 0;
   for (let k = 0; k + 1 < tr.n; k++) {
-    const dt = tr.t[k + 1] - tr.t[k];
-    for (let i = 0; i < N; i++) worst = Math.max(worst, Math.abs(tr.hWheel[N * (k + 1) + i] - tr.hWheel[N * k + i] - tr.wheelTorque[N * k + i] * dt));
+    const dt = tr.t[k + 1]! - tr.t[k]!;
+    for (let i = 0; i < N; i++) worst = Math.max(worst, Math.abs(tr.hWheel[N * (k + 1) + i]! - tr.hWheel[N * k + i]! - tr.wheelTorque[N * k + i]! * dt));
   }
   return worst;
 }
@@ -72,7 +72,7 @@ describe("pulsed actuation: 'hold', 'pwm' and 'quantized' on the same 60° slew"
   it('PWM really pulses: same impulses, different path (the attitude differs from hold within a period)', () => {
     const a = by('hold').r.trace, b = by('pwm').r.trace;
     let diff = 0;
-    for (let i = 0; i < 4 * Math.min(a.n, b.n); i++) diff = Math.max(diff, Math.abs(a.q[i] - b.q[i]));
+    for (let i = 0; i < 4 * Math.min(a.n, b.n); i++) diff = Math.max(diff, Math.abs(a.q[i]! - b.q[i]!));
     expect(diff).toBeGreaterThan(1e-7);
   });
 
@@ -89,9 +89,9 @@ describe("pulsed actuation: 'hold', 'pwm' and 'quantized' on the same 60° slew"
     const { r, m } = by('quantized');
     const tr = r.trace;
     for (let i = 0; i < tr.wheelTorque.length; i++) {
-      const u = tr.wheelTorque[i] / QUANTUM;
+      const u = tr.wheelTorque[i]! / QUANTUM;
       expect(Math.abs(u - Math.round(u))).toBeLessThan(1e-9);
-      expect(Math.abs(tr.wheelTorque[i])).toBeLessThanOrEqual(TAU_MAX);
+      expect(Math.abs(tr.wheelTorque[i]!)).toBeLessThanOrEqual(TAU_MAX);
     }
     const kp = 2 * 0.12 * 0.2 * 0.2; // bandwidth gains: k_p = 2 J_max ω_n² (control/gains.ts)
     const deadBandDeg = (QUANTUM / kp) * DEG;
@@ -108,19 +108,19 @@ function checkLimits(tr: RunTrace, tauMax: number, hMax: number) {
   for (let k = 0; k < tr.n; k++) {
     const c = [0, 1, 2].map((i) => tr.torqueCmdBody[3 * k + i]);
     const d = [0, 1, 2].map((i) => tr.torqueBody[3 * k + i]);
-    const c2 = c[0] * c[0] + c[1] * c[1] + c[2] * c[2];
+    const c2 = c[0]! * c[0]! + c[1]! * c[1]! + c[2]! * c[2]!;
     if (c2 > 0) {
-      const s = (c[0] * d[0] + c[1] * d[1] + c[2] * d[2]) / c2;
+      const s = (c[0]! * d[0]! + c[1]! * d[1]! + c[2]! * d[2]!) / c2;
       minScale = Math.min(minScale, s);
       expect(s).toBeGreaterThanOrEqual(-1e-12);
       expect(s).toBeLessThanOrEqual(1 + 1e-12);
       // the part of the delivered torque off the request's direction, relative to the request
-      const perp = Math.hypot(d[0] - s * c[0], d[1] - s * c[1], d[2] - s * c[2]) / Math.sqrt(c2);
+      const perp = Math.hypot(d[0]! - s * c[0]!, d[1]! - s * c[1]!, d[2]! - s * c[2]!) / Math.sqrt(c2);
       worstPerp = Math.max(worstPerp, perp);
     }
     for (let i = 0; i < N; i++) {
-      worstTau = Math.max(worstTau, Math.abs(tr.wheelTorque[N * k + i]) / tauMax);
-      worstH = Math.max(worstH, Math.abs(tr.hWheel[N * k + i]) / hMax);
+      worstTau = Math.max(worstTau, Math.abs(tr.wheelTorque[N * k + i]!) / tauMax);
+      worstH = Math.max(worstH, Math.abs(tr.hWheel[N * k + i]!) / hMax);
     }
   }
   return { minScale, worstPerp, worstTau, worstH };

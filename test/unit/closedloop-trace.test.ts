@@ -29,7 +29,7 @@ function twoTargets(listSwitch: boolean): ReferenceSource {
   return {
     at: (t, q, w, wd) => {
       const k = t >= T_SWITCH ? 1 : 0;
-      q[0] = k ? q1[0] : 0; q[1] = k ? q1[1] : 0; q[2] = k ? q1[2] : 0; q[3] = k ? q1[3] : 1;
+      q[0] = k ? q1[0]! : 0; q[1] = k ? q1[1]! : 0; q[2] = k ? q1[2]! : 0; q[3] = k ? q1[3]! : 1;
       w.fill(0);
       wd.fill(0);
       return k;
@@ -42,10 +42,10 @@ function checkTrace(tr: RunTrace, tEnd: number): void {
   expect(tr.n).toBeGreaterThan(10);
   for (let k = 0; k < tr.n; k++) {
     const q = tr.q.subarray(4 * k, 4 * k + 4), d = tr.qRef.subarray(4 * k, 4 * k + 4);
-    expect(Math.abs(Math.hypot(q[0], q[1], q[2], q[3]) - 1)).toBeLessThan(1e-12);
-    const dot = Math.min(1, Math.abs(q[0] * d[0] + q[1] * d[1] + q[2] * d[2] + q[3] * d[3]));
-    expect(Math.abs(tr.errorAngle[k] - 2 * Math.acos(dot))).toBeLessThan(1e-6);
-    if (k > 0) expect(tr.t[k]).toBeGreaterThan(tr.t[k - 1]);
+    expect(Math.abs(Math.hypot(q[0]!, q[1]!, q[2]!, q[3]!) - 1)).toBeLessThan(1e-12);
+    const dot = Math.min(1, Math.abs(q[0]! * d[0]! + q[1]! * d[1]! + q[2]! * d[2]! + q[3]! * d[3]!));
+    expect(Math.abs(tr.errorAngle[k]! - 2 * Math.acos(dot))).toBeLessThan(1e-6);
+    if (k > 0) expect(tr.t[k]).toBeGreaterThan(tr.t[k - 1]!);
   }
   expect(tr.t[0]).toBe(0);
   expect(tr.t[tr.n - 1]).toBeCloseTo(tEnd, 9);
@@ -79,19 +79,19 @@ describe('closed-loop trace contents', () => {
     // already sees the new target with the first segment's limits until the next output sample,
     // which pushes the body off the eigenaxis.
     const axis = [0, 0.6, 0.8];
-    const run = (list: boolean) => fly({ vehicle: veh, controller: law(LAWS[3], veh), q0: [0, 0, 0, 1], tEnd: 60, reference: twoTargets(list), timing: 'continuous-ideal', controlRateHz: 10, rk4StepsPerSample: 2 }).trace;
+    const run = (list: boolean) => fly({ vehicle: veh, controller: law(LAWS[3]!, veh), q0: [0, 0, 0, 1], tEnd: 60, reference: twoTargets(list), timing: 'continuous-ideal', controlRateHz: 10, rk4StepsPerSample: 2 }).trace;
     const deviation = (tr: RunTrace) => {
       let worst = 0;
       for (let k = 0; k < tr.n; k++) {
         if (tr.segment[k] !== 1) continue;
         // error of q against the second target, about the slew axis: q_e = q1* ⊗ q has vector part ∥ axis
         const d = tr.qRef.subarray(4 * k, 4 * k + 4), q = tr.q.subarray(4 * k, 4 * k + 4);
-        const ex = d[3] * q[0] - d[0] * q[3] - d[1] * q[2] + d[2] * q[1];
-        const ey = d[3] * q[1] - d[1] * q[3] - d[2] * q[0] + d[0] * q[2];
-        const ez = d[3] * q[2] - d[2] * q[3] - d[0] * q[1] + d[1] * q[0];
+        const ex = d[3]! * q[0]! - d[0]! * q[3]! - d[1]! * q[2]! + d[2]! * q[1]!;
+        const ey = d[3]! * q[1]! - d[1]! * q[3]! - d[2]! * q[0]! + d[0]! * q[2]!;
+        const ez = d[3]! * q[2]! - d[2]! * q[3]! - d[0]! * q[1]! + d[1]! * q[0]!;
         const n = Math.hypot(ex, ey, ez);
         if (n < Math.sin(0.5 * 1e-3)) continue;
-        const cx = ey * axis[2] - ez * axis[1], cy = ez * axis[0] - ex * axis[2], cz = ex * axis[1] - ey * axis[0];
+        const cx = ey * axis[2]! - ez * axis[1]!, cy = ez * axis[0]! - ex * axis[2]!, cz = ex * axis[1]! - ey * axis[0]!;
         worst = Math.max(worst, Math.hypot(cx, cy, cz) / n);
       }
       return worst;

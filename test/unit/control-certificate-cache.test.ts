@@ -12,11 +12,11 @@ describe('certificate cache', () => {
     const fam = makeWarpFamily(A, 0.15, new Float64Array([1, 0, 0, 0, 1, 0, 0, 0, 1]));
     clearCertificateCache();
     const first = certifySynergistic({ family: fam, delta: 0.2 });
-    first.criticalPoints[0].gap = -1; // a caller scribbling on its copy
+    first.criticalPoints[0]!.gap = -1; // a caller scribbling on its copy
     first.deltaStar = 99;
     const second = certifySynergistic({ family: fam, delta: 0.2 });
     expect(second.deltaStar).toBeCloseTo(0.249989, 6);
-    expect(second.criticalPoints[0].gap).not.toBe(-1);
+    expect(second.criticalPoints[0]!.gap).not.toBe(-1);
     clearCertificateCache();
     const fresh = certifySynergistic({ family: fam, delta: 0.2 });
     expect(fresh.deltaStar).toBe(second.deltaStar);

@@ -38,7 +38,7 @@ const c30 = Math.cos(Math.PI / 6);
 const q60z = [0, 0, 0.5, c30]; // R_a(60°, e3): ε = (0, 0, 0.5), η = cos 30°
 
 function expectVec(v: ArrayLike<number>, e: number[], digits = 12) {
-  for (let i = 0; i < 3; i++) expect(v[i]).toBeCloseTo(e[i], digits);
+  for (let i = 0; i < 3; i++) expect(v[i]).toBeCloseTo(e[i]!, digits);
 }
 
 describe('quaternion PD', () => {
@@ -277,7 +277,7 @@ describe('gains from natural frequency and damping', () => {
     for (let k = 1; k <= 1500; k++) {
       x = rk4Step(f, (k - 1) * dt, x, dt);
       const t = k * dt;
-      const th = 2 * Math.atan2(x[2], x[3]);
+      const th = 2 * Math.atan2(x[2]!, x[3]!);
       const ref = th0 * Math.exp(-z * wn * t) * (Math.cos(wd * t) + (z / Math.sqrt(1 - z * z)) * Math.sin(wd * t));
       worst = Math.max(worst, Math.abs(th - ref) / th0);
     }

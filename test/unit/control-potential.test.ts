@@ -31,17 +31,17 @@ function rotRows(q: ArrayLike<number>): number[][] {
   return new Quaternion(q[3], q[0], q[1], q[2]).toMatrix(true) as number[][];
 }
 function rows(A: ArrayLike<number>): number[][] {
-  return [0, 1, 2].map((r) => [0, 1, 2].map((c) => A[3 * c + r]));
+  return [0, 1, 2].map((r) => [0, 1, 2].map((c) => A[3 * c + r]!));
 }
 function psiMat(M: number[][]): number[] {
-  return [0.5 * (M[2][1] - M[1][2]), 0.5 * (M[0][2] - M[2][0]), 0.5 * (M[1][0] - M[0][1])];
+  return [0.5 * (M[2]![1]! - M[1]![2]!), 0.5 * (M[0]![2]! - M[2]![0]!), 0.5 * (M[1]![0]! - M[0]![1]!)];
 }
 function randomSpd(seed: number): Float64Array {
   const rng = makeRng(seed, 1);
   const B = [0, 1, 2].map(() => [0, 1, 2].map(() => rng.next() - 0.5));
   const A = math.multiply(B, math.transpose(B)) as number[][];
   const out = new Float64Array(9);
-  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) out[3 * c + r] = A[r][c] + (r === c ? 0.5 : 0);
+  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) out[3 * c + r] = A[r]![c]! + (r === c ? 0.5 : 0);
   return out;
 }
 
@@ -59,7 +59,7 @@ describe('trace potential on quaternions', () => {
       expect(phiQuat(fam, q)).toBeCloseTo(phiRef as number, 12);
       const psi = psiAQuat(new Float64Array(3), fam, q);
       const psiRef = psiMat(AR);
-      for (let i = 0; i < 3; i++) expect(psi[i]).toBeCloseTo(psiRef[i], 12);
+      for (let i = 0; i < 3; i++) expect(psi[i]).toBeCloseTo(psiRef[i]!, 12);
       // even in q: ±q give the same values
       const mq = q.map((v) => -v);
       expect(phiQuat(fam, mq)).toBeCloseTo(phiRef as number, 12);
@@ -70,7 +70,7 @@ describe('trace potential on quaternions', () => {
     const fam = makeWarpFamily(diag123, 0.1, [1, 0, 0]);
     const u = [1 / 3, 2 / 3, 2 / 3];
     const Abar = [2.5, 2, 1.5];
-    const uAu = Abar[0] * u[0] ** 2 + Abar[1] * u[1] ** 2 + Abar[2] * u[2] ** 2;
+    const uAu = Abar[0]! * u[0]! ** 2 + Abar[1]! * u[1]! ** 2 + Abar[2]! * u[2]! ** 2;
     for (const th of [0.3, 1.2, 2.9]) expect(phiQuat(fam, qFromAxisAngle(qCreate(), u, th))).toBeCloseTo(2 * (1 - Math.cos(th)) * uAu, 12);
     const b = new Float64Array(3);
     for (let i = 0; i < 3; i++) {
@@ -79,7 +79,7 @@ describe('trace potential on quaternions', () => {
       const q = qFromAxisAngle(qCreate(), e, Math.PI);
       expect(phiQuat(fam, q)).toBeCloseTo(2 * (6 - (i + 1)), 12); // 10, 8, 6
       psiAQuat(b, fam, q);
-      expect(Math.hypot(b[0], b[1], b[2])).toBeLessThan(1e-15);
+      expect(Math.hypot(b[0]!, b[1]!, b[2]!)).toBeLessThan(1e-15);
     }
     expect(phiMax(fam)).toBe(10);
   });
@@ -96,7 +96,7 @@ describe('warped family, methods §4.3 test point', () => {
     evaluateFamily(ws, fam, q0);
     expect(ws.phi).toBeCloseTo(5.664587, 6);
     const psi = psiAQuat(new Float64Array(3), fam, q0);
-    [3.096965, 1.155835, 2.046998].forEach((v, i) => expect(2 * psi[i]).toBeCloseTo(v, 6));
+    [3.096965, 1.155835, 2.046998].forEach((v, i) => expect(2 * psi[i]!).toBeCloseTo(v, 6));
     [8.085611, 6.608683, 7.259019].forEach((v, i) => expect(ws.V[i]).toBeCloseTo(v, 6));
     const expected = [
       [3.301967, -0.004922, 2.180998],
@@ -106,7 +106,7 @@ describe('warped family, methods §4.3 test point', () => {
     const b = new Float64Array(3);
     for (let p = 0; p < 3; p++) {
       memberGradient(b, fam, ws, p);
-      expected[p].forEach((v, i) => expect(b[i]).toBeCloseTo(v, 6));
+      expected[p]!.forEach((v, i) => expect(b[i]).toBeCloseTo(v, 6));
     }
   });
 
@@ -141,14 +141,14 @@ describe('body-frame gradient b_q = 2Θ_qᵀψ(AΓ_q)', () => {
       const ws = makeFamilyWorkspace(fam);
       qRandomUniform(q, rng);
       const w = [rng.normal(), rng.normal(), rng.normal()];
-      const Vat = (qq: Float64Array, p: number) => evaluateFamily(ws, fam, qq).V[p];
+      const Vat = (qq: Float64Array, p: number) => evaluateFamily(ws, fam, qq).V[p]!;
       for (let p = 0; p < 3; p++) {
         qMultiply(qp, q, qFromRotationVector(dq, w.map((x) => x * h)));
         qMultiply(qm, q, qFromRotationVector(dq, w.map((x) => -x * h)));
         const fd = (Vat(qp, p) - Vat(qm, p)) / (2 * h);
         evaluateFamily(ws, fam, q);
         memberGradient(b, fam, ws, p);
-        const an = b[0] * w[0] + b[1] * w[1] + b[2] * w[2];
+        const an = b[0]! * w[0]! + b[1]! * w[1]! + b[2]! * w[2]!;
         worst = Math.max(worst, Math.abs(fd - an) / (1 + Math.abs(an)));
       }
     }

@@ -60,7 +60,7 @@ describe('parseAem: the §1.9 example', () => {
     expect(doc.comments).toEqual(['Fictitious slew used as a writer/reader test fixture']);
     expect(doc.header).toMatchObject({ CREATION_DATE: '2030-03-13T08:00:00', ORIGINATOR: 'EXAMPLE', MESSAGE_ID: 'SLEW-TEST-0001' });
     expect(doc.segments).toHaveLength(1);
-    const s = doc.segments[0];
+    const s = doc.segments[0]!;
     expect(s.comments).toEqual(['Bang-coast-bang, 90 deg about Z']);
     expect(s.metadata.ATTITUDE_TYPE).toBe('QUATERNION/ANGVEL');
     expect(s.metadata.INTERPOLATION_DEGREE).toBe('3');
@@ -68,35 +68,35 @@ describe('parseAem: the §1.9 example', () => {
   });
 
   it('rotation angles 0, 1.125, 4.5, 49.5, 85.5, 88.875, 90° and the rate profile', () => {
-    const s = doc.segments[0];
-    const angles = s.lines.map((l) => (2 * Math.atan2(l.values[2], l.values[3]) * 180) / Math.PI);
+    const s = doc.segments[0]!;
+    const angles = s.lines.map((l) => (2 * Math.atan2(l.values[2]!, l.values[3]!) * 180) / Math.PI);
     const expected = [0, 1.125, 4.5, 49.5, 85.5, 88.875, 90];
     // Seven decimals in the quaternion: |Δθ| ≤ 2·(0.5e-7)·√2 rad ≈ 8e-6°.
-    angles.forEach((a, i) => expect(Math.abs(a - expected[i])).toBeLessThan(1e-5));
+    angles.forEach((a, i) => expect(Math.abs(a - expected[i]!)).toBeLessThan(1e-5));
     expect(s.lines.map((l) => l.values[6])).toEqual([0, 1.5, 3, 3, 3, 1.5, 0]);
-    expect(s.lines.map((l) => l.time.unixS - s.lines[0].time.unixS)).toEqual([0, 1.5, 3, 18, 30, 31.5, 33]);
-    expect(s.lines[0].time.unixS).toBe(Date.UTC(2030, 2, 14, 10, 0, 0) / 1000);
+    expect(s.lines.map((l) => l.time.unixS - s.lines[0]!.time.unixS)).toEqual([0, 1.5, 3, 18, 30, 31.5, 33]);
+    expect(s.lines[0]!.time.unixS).toBe(Date.UTC(2030, 2, 14, 10, 0, 0) / 1000);
   });
 
   it('CRLF, LFCR and CR line ends read the same', () => {
     for (const eol of ['\r\n', '\n\r', '\r']) {
       const r2 = parseAem(EXAMPLE.split('\n').join(eol));
       expect(r2.ok).toBe(true);
-      if (r2.ok) expect(r2.value.segments[0].lines.map((l) => l.values)).toEqual(doc.segments[0].lines.map((l) => l.values));
+      if (r2.ok) expect(r2.value.segments[0]!.lines.map((l) => l.values)).toEqual(doc.segments[0]!.lines.map((l) => l.values));
     }
   });
 
   it('day-of-year epochs, a trailing Z and a UTC leap second are accepted', () => {
     const l = lines();
     l[at(l, 'START_TIME')] = 'START_TIME = 2030-073T10:00:00Z';
-    l[at(l, '2030-03-14T10:00:01.500')] = l[at(l, '2030-03-14T10:00:01.500')].replace('2030-03-14T10:00:01.500', '2030-073T10:00:01.500Z');
+    l[at(l, '2030-03-14T10:00:01.500')] = l[at(l, '2030-03-14T10:00:01.500')]!.replace('2030-03-14T10:00:01.500', '2030-073T10:00:01.500Z');
     expect(issues(join(l))).toEqual([]);
     const leap = lines();
     leap[at(leap, 'START_TIME')] = 'START_TIME = 2030-03-14T23:59:59.000';
     leap[at(leap, 'STOP_TIME')] = 'STOP_TIME = 2030-03-15T00:00:31.000';
     const d = at(leap, '2030-03-14T10:00:00.000');
     const times = ['2030-03-14T23:59:59.000', '2030-03-14T23:59:60.500', '2030-03-15T00:00:00.000', '2030-03-15T00:00:10', '2030-03-15T00:00:20', '2030-03-15T00:00:25', '2030-03-15T00:00:30'];
-    for (let i = 0; i < 7; i++) leap[d + i] = leap[d + i].replace(/^\S+/, times[i]);
+    for (let i = 0; i < 7; i++) leap[d + i] = leap[d + i]!.replace(/^\S+/, times[i]!);
     expect(issues(join(leap))).toEqual([]);
   });
 });
@@ -113,13 +113,13 @@ describe('parseAem: malformed files, with line numbers', () => {
   it('metadata keywords out of the standard order', () => {
     const l = lines();
     const a = at(l, 'REF_FRAME_A'), b = at(l, 'REF_FRAME_B');
-    [l[a], l[b]] = [l[b], l[a]];
+    [l[a], l[b]] = [l[b]!, l[a]!];
     expect(issues(join(l))).toEqual([`line ${b + 1} keyword-order`]);
   });
 
   it('header keywords out of order, unknown and lower-case keywords, duplicates', () => {
     const l = lines();
-    [l[2], l[3]] = [l[3], l[2]];
+    [l[2], l[3]] = [l[3]!, l[2]!];
     l.splice(5, 0, 'SPACECRAFT = X');
     l.splice(10, 0, 'object_id = 2030-999A', 'OBJECT_NAME = AGAIN');
     expect(issues(join(l))).toEqual(['line 4 keyword-order', 'line 6 unknown-keyword', 'line 11 key-case', 'line 12 duplicate']);

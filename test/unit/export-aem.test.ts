@@ -65,7 +65,7 @@ describe('AEM writer: layout and keywords', () => {
         ATTITUDE_TYPE: 'QUATERNION/ANGVEL',
         ANGVEL_FRAME: 'SC_BODY_1',
       });
-      expect(seg.metadata.START_TIME).toBe(seg.lines[0].epoch);
+      expect(seg.metadata.START_TIME).toBe(seg.lines[0]!.epoch);
       expect(seg.metadata.STOP_TIME).toBe(seg.lines.at(-1)!.epoch);
       expect(seg.metadata.USEABLE_START_TIME).toBe(seg.metadata.START_TIME);
       expect(seg.metadata.USEABLE_STOP_TIME).toBe(seg.metadata.STOP_TIME);
@@ -78,9 +78,9 @@ describe('AEM writer: layout and keywords', () => {
     ]);
     // Consecutive segments meet at the boundary instant: USEABLE_START(k+1) = USEABLE_STOP(k).
     const segs = doc.value.segments;
-    for (let k = 1; k < segs.length; k++) expect(segs[k].metadata.USEABLE_START_TIME).toBe(segs[k - 1].metadata.USEABLE_STOP_TIME);
-    expect(segs[1].metadata.START_TIME).toBe('2030-03-14T10:00:08.000');
-    expect(segs[2].metadata.START_TIME).toBe('2030-03-14T10:00:17.500');
+    for (let k = 1; k < segs.length; k++) expect(segs[k]!.metadata.USEABLE_START_TIME).toBe(segs[k - 1]!.metadata.USEABLE_STOP_TIME);
+    expect(segs[1]!.metadata.START_TIME).toBe('2030-03-14T10:00:08.000');
+    expect(segs[2]!.metadata.START_TIME).toBe('2030-03-14T10:00:17.500');
   });
 
   it('KVN rules: line length, printable ASCII, no NaN/Inf/−0, ≤ 16 significant digits', () => {
@@ -107,7 +107,7 @@ describe('AEM writer: layout and keywords', () => {
     const all = doc.value.segments.flatMap((g) => g.lines);
     // 301 instants, 4 segments: the 3 boundary instants appear in two blocks; jumps add none.
     expect(all).toHaveLength(301 + 3);
-    for (const g of doc.value.segments) for (let i = 1; i < g.lines.length; i++) expect(g.lines[i].time.unixS).toBeGreaterThan(g.lines[i - 1].time.unixS);
+    for (const g of doc.value.segments) for (let i = 1; i < g.lines.length; i++) expect(g.lines[i]!.time.unixS).toBeGreaterThan(g.lines[i - 1]!.time.unixS);
   });
 });
 
@@ -122,13 +122,13 @@ describe('AEM writer: values', () => {
       for (const line of g.lines) {
         // Find the trace sample of this epoch (first of a repeated instant).
         const t = line.time.unixS - epoch0;
-        while (Math.abs(tr.t[k] - t) > 5e-4) k++;
-        for (let i = 0; i < 4; i++) expect(Math.abs(line.values[i] - tr.q[4 * k + i])).toBeLessThanOrEqual(0.5e-10 + 1e-16);
+        while (Math.abs(tr.t[k]! - t) > 5e-4) k++;
+        for (let i = 0; i < 4; i++) expect(Math.abs(line.values[i]! - tr.q[4 * k + i]!)).toBeLessThanOrEqual(0.5e-10 + 1e-16);
         for (let i = 0; i < 3; i++) {
-          const deg = (tr.omega[3 * k + i] * 180) / Math.PI;
-          expect(Math.abs(line.values[4 + i] - deg)).toBeLessThanOrEqual(5e-12 * Math.abs(deg) + 1e-18); // half a unit in the 12th digit
+          const deg = (tr.omega[3 * k + i]! * 180) / Math.PI;
+          expect(Math.abs(line.values[4 + i]! - deg)).toBeLessThanOrEqual(5e-12 * Math.abs(deg) + 1e-18); // half a unit in the 12th digit
         }
-        expect(Math.abs(t - tr.t[k])).toBeLessThanOrEqual(0.5e-3 + 1e-9);
+        expect(Math.abs(t - tr.t[k]!)).toBeLessThanOrEqual(0.5e-3 + 1e-9);
       }
       k = 0;
     }
@@ -138,14 +138,14 @@ describe('AEM writer: values', () => {
     // 200° about Z at 10°/s: the scalar part crosses zero half-way; a QC ≥ 0 rule would flip it.
     const tr = makeTrace({ n: 201, dt: 0.1, nWheels: 4, q0: [0, 0, 0, 1], omega: [0, 0, (10 * Math.PI) / 180], segmentStarts: [10] });
     // Feed alternate samples with the opposite (equivalent) sign.
-    for (let k = 1; k < tr.n; k += 2) for (let i = 0; i < 4; i++) tr.q[4 * k + i] = -tr.q[4 * k + i];
+    for (let k = 1; k < tr.n; k += 2) for (let i = 0; i < 4; i++) tr.q[4 * k + i] = -tr.q[4 * k + i]!;
     const doc = parseAem(write(tr));
     if (!doc.ok) throw new Error('parse');
     const lines = doc.value.segments.flatMap((g) => g.lines);
-    expect(lines[0].values[3]).toBeGreaterThan(0);
+    expect(lines[0]!.values[3]).toBeGreaterThan(0);
     for (let i = 1; i < lines.length; i++) {
-      const a = lines[i - 1].values, b = lines[i].values;
-      expect(a[0] * b[0] + a[1] * b[1] + a[2] * b[2] + a[3] * b[3]).toBeGreaterThan(0);
+      const a = lines[i - 1]!.values, b = lines[i]!.values;
+      expect(a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!).toBeGreaterThan(0);
     }
     expect(lines.at(-1)!.values[3]).toBeLessThan(0); // cos(100°) < 0: not forced positive
   });
@@ -167,7 +167,7 @@ describe('AEM writer: values', () => {
     expect(text).not.toMatch(/[^\r]\n/);
     const doc = parseAem(text);
     if (!doc.ok) throw new Error('parse');
-    expect(doc.value.segments[0].lines.map((l) => l.epoch.slice(17))).toEqual(['00.000', '01.000', '02.000', '03.000', '04.000', '05.000', '06.000', '07.000', '08.000']);
+    expect(doc.value.segments[0]!.lines.map((l) => l.epoch.slice(17))).toEqual(['00.000', '01.000', '02.000', '03.000', '04.000', '05.000', '06.000', '07.000', '08.000']);
   });
 
   it('bad options are reported together, and nothing is written', () => {

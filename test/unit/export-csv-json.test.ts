@@ -24,7 +24,7 @@ function parseCsv(text: string) {
   const lines = text.split('\n').filter((l) => l !== '');
   const comments = lines.filter((l) => l.startsWith('#'));
   const rest = lines.filter((l) => !l.startsWith('#'));
-  return { comments, header: rest[0].split(','), rows: rest.slice(1).map((l) => l.split(',').map(Number)), raw: rest };
+  return { comments, header: rest[0]!.split(','), rows: rest.slice(1).map((l) => l.split(',').map(Number)), raw: rest };
 }
 
 describe('CSV export', () => {
@@ -62,7 +62,7 @@ describe('CSV export', () => {
     expect(csv.rows).toHaveLength(tr.n);
     const col = (name: string) => csv.header.indexOf(name);
     for (let k = 0; k < tr.n; k++) {
-      const row = csv.rows[k];
+      const row = csv.rows[k]!;
       expect(row[col('t_s')]).toBe(tr.t[k]);
       expect(row[col('j')]).toBe(tr.j[k]);
       expect(row[col('segment')]).toBe(tr.segment[k]);
@@ -70,12 +70,12 @@ describe('CSV export', () => {
       expect(row[col('omega_z_radps')]).toBe(tr.omega[3 * k + 2]);
       expect(row[col('wheel2_h_Nms')]).toBe(tr.hWheel[4 * k + 1]);
       expect(row[col('wheel3_torque_Nm')]).toBe(tr.wheelTorque[4 * k + 2]);
-      expect(row[col('error_angle_deg')]).toBe(tr.errorAngle[k] * (180 / Math.PI));
+      expect(row[col('error_angle_deg')]).toBe(tr.errorAngle[k]! * (180 / Math.PI));
     }
     // The jump: same t, j + 1, logic flipped.
-    expect(csv.rows[41][col('t_s')]).toBe(csv.rows[40][col('t_s')]);
-    expect(csv.rows[41][col('j')]).toBe(1);
-    expect(csv.rows[41][col('logic')]).toBe(-csv.rows[40][col('logic')]);
+    expect(csv.rows[41]![col('t_s')]).toBe(csv.rows[40]![col('t_s')]);
+    expect(csv.rows[41]![col('j')]).toBe(1);
+    expect(csv.rows[41]![col('logic')]).toBe(-csv.rows[40]![col('logic')]!);
   });
 
   it('no NaN, no Infinity, no negative zero in the text', () => {
@@ -133,7 +133,7 @@ describe('JSON export', () => {
       [1, 'Image 2 (cross-track step)', tr.t[30], tr.t[66]], // index 66: one extra sample at the jump after 40
       [2, 'Image 3', tr.t[66], tr.t[tr.n - 1]],
     ]);
-    expect(doc.resolved.targets[3].qInertialFromBody).toEqual(Array.from(s.targets[3].qInertialFromBody));
+    expect(doc.resolved.targets[3].qInertialFromBody).toEqual(Array.from(s.targets[3]!.qInertialFromBody));
   });
 
   it('channels equal the CSV columns and the trace, exactly', () => {

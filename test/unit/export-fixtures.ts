@@ -58,8 +58,8 @@ export function makeTrace(spec: TraceSpec): RunTrace {
     tr.q.set(q, 4 * m);
     tr.qRef.set(q, 4 * m);
     for (let c = 0; c < 3; c++) {
-      tr.omega[3 * m + c] = spec.omega[c];
-      tr.omegaRef[3 * m + c] = spec.omega[c];
+      tr.omega[3 * m + c] = spec.omega[c]!;
+      tr.omegaRef[3 * m + c] = spec.omega[c]!;
       tr.torqueCmdBody[3 * m + c] = 1e-3 * Math.sin(0.3 * t + c);
       tr.torqueBody[3 * m + c] = 0.9e-3 * Math.sin(0.3 * t + c);
     }

@@ -27,17 +27,17 @@ describe('validateTraceForExport', () => {
     tr.hWheel[4 * 9 + 3] = Infinity;
     const r = validateTraceForExport(tr);
     expect(pairs(r)).toEqual(['trace.omega[7] finite', 'trace.hWheel[9] finite']);
-    if (!r.ok) expect(r.errors[0].message).toMatch(/sample 7 \(t = 0\.7 s\): trace\.omega component 1 is NaN/);
+    if (!r.ok) expect(r.errors[0]!.message).toMatch(/sample 7 \(t = 0\.7 s\): trace\.omega component 1 is NaN/);
   });
   it('time must increase; a repeat needs a jump', () => {
     const tr = base();
-    tr.t[30] = tr.t[29];
-    tr.t[40] = tr.t[38];
+    tr.t[30] = tr.t[29]!;
+    tr.t[40] = tr.t[38]!;
     expect(pairs(validateTraceForExport(tr))).toEqual(['trace.t[30] increasing', 'trace.t[40] increasing']);
   });
   it('quaternions must be unit within the tolerance', () => {
     const tr = base();
-    tr.q[4 * 12 + 3] *= 1.001;
+    tr.q[4 * 12 + 3]! *= 1.001;
     tr.qRef[4 * 3] = 0.5;
     expect(pairs(validateTraceForExport(tr))).toEqual(['trace.q[12] unit-norm', 'trace.qRef[3] unit-norm']);
     expect(validateTraceForExport(tr, { unitNormTolerance: 1 }).ok).toBe(true);
@@ -56,7 +56,7 @@ describe('validateTraceForExport', () => {
     for (let k = 0; k < 40; k++) tr.errorAngle[k] = Number.NaN;
     const r = validateTraceForExport(tr);
     expect(pairs(r)).toEqual([...[0, 1, 2, 3, 4].map((k) => `trace.errorAngle[${k}] finite`), 'trace.errorAngle finite']);
-    if (!r.ok) expect(r.errors[5].message).toContain('35 more');
+    if (!r.ok) expect(r.errors[5]!.message).toContain('35 more');
   });
 });
 

@@ -15,8 +15,8 @@ import {
 } from '../../app/engine/hybrid/index';
 import type { FlowFn } from '../../app/engine/hybrid/index';
 
-const linear = (lam: number): FlowFn => (_t, x, d) => { d[0] = lam * x[0]; };
-const harmonic: FlowFn = (_t, x, d) => { d[0] = x[1]; d[1] = -x[0]; };
+const linear = (lam: number): FlowFn => (_t, x, d) => { d[0] = lam * x[0]!; };
+const harmonic: FlowFn = (_t, x, d) => { d[0] = x[1]!; d[1] = -x[0]!; };
 
 describe('rk4Step', () => {
   it('one step on y′ = λy is the degree-4 Taylor polynomial of e^(hλ)', () => {
@@ -31,7 +31,7 @@ describe('rk4Step', () => {
       const s = new Rk4Stepper(2, harmonic, h);
       s.reset(0, [0, 1]);
       while (s.t < 10) s.advance(10);
-      return Math.abs(s.x[0] - Math.sin(10));
+      return Math.abs(s.x[0]! - Math.sin(10));
     };
     const ratio = errAt(0.1) / errAt(0.05);
     expect(ratio).toBeGreaterThan(15);
@@ -60,12 +60,12 @@ describe('rk4Step', () => {
     expect(r.steps).toBe(124);
     expect(a.t).toBe(1.234);
     // same steps up to rounding of the step length (runTo keeps h fixed, advance recomputes it)
-    for (let i = 0; i < 2; i++) expect(a.x[i]).toBeCloseTo(b.x[i], 14);
+    for (let i = 0; i < 2; i++) expect(a.x[i]).toBeCloseTo(b.x[i]!, 14);
     expect(a.evaluations).toBe(4 * 124);
   });
 
   it('runTo stops at the last finite state when the flow blows up (y′ = y², y(0) = 1)', () => {
-    const s = new Rk4Stepper(1, (_t, x, d) => { d[0] = x[0] * x[0]; }, 0.01);
+    const s = new Rk4Stepper(1, (_t, x, d) => { d[0] = x[0]! * x[0]!; }, 0.01);
     s.reset(0, [1]);
     const r = s.runTo(2, 1e9);
     expect(r.status).toBe(STEP_NON_FINITE);
@@ -94,7 +94,7 @@ describe('DormandPrince', () => {
       s.reset(0, [1]);
       expect(s.advance(Math.abs(z))).toBe(STEP_OK);
       const R = 1 + z + z * z / 2 + z ** 3 / 6 + z ** 4 / 24 + z ** 5 / 120 + z ** 6 / 600;
-      expect(Math.abs(s.x[0] - R)).toBeLessThan(1e-14 * Math.abs(R));
+      expect(Math.abs(s.x[0]! - R)).toBeLessThan(1e-14 * Math.abs(R));
       expect(s.evaluations).toBe(7);
       // a second step reuses the last stage
       s.advance(2 * Math.abs(z));
@@ -109,7 +109,7 @@ describe('DormandPrince', () => {
       s.advance(h);
       const out = new Float64Array(2);
       let e = 0;
-      for (let k = 1; k < 10; k++) e = Math.max(e, Math.abs(s.dense(out, (h * k) / 10)[0] - Math.sin((h * k) / 10)));
+      for (let k = 1; k < 10; k++) e = Math.max(e, Math.abs(s.dense(out, (h * k) / 10)[0]! - Math.sin((h * k) / 10)));
       return e;
     };
     const r = interiorErr(0.2) / interiorErr(0.1);
@@ -122,8 +122,8 @@ describe('DormandPrince', () => {
     s.reset(0, [0, 1]);
     s.advance(5);
     const out = new Float64Array(2);
-    expect(s.dense(out, s.tOld)[0]).toBeCloseTo(s.xOld[0], 15);
-    expect(s.dense(out, s.t)[0]).toBeCloseTo(s.x[0], 15);
+    expect(s.dense(out, s.tOld)[0]).toBeCloseTo(s.xOld[0]!, 15);
+    expect(s.dense(out, s.t)[0]).toBeCloseTo(s.x[0]!, 15);
     const tm = 0.5 * (s.tOld + s.t);
     const xm = s.dense(new Float64Array(2), tm);
     s.truncate(tm);
@@ -138,16 +138,16 @@ describe('DormandPrince', () => {
       expect(s.integrateTo(20)).toBe(STEP_OK);
       expect(s.t).toBe(20);
       // global error accumulates over ~3 periods: allow 100× the local tolerance
-      expect(Math.abs(s.x[0] - Math.sin(20))).toBeLessThan(100 * tol);
-      const gsn = new DormandPrince(1, (t, x, d) => { d[0] = -2 * t * x[0]; }, { rtol: tol, atol: tol * 1e-3 });
+      expect(Math.abs(s.x[0]! - Math.sin(20))).toBeLessThan(100 * tol);
+      const gsn = new DormandPrince(1, (t, x, d) => { d[0] = -2 * t * x[0]!; }, { rtol: tol, atol: tol * 1e-3 });
       gsn.reset(0, [1]);
       gsn.integrateTo(2);
-      expect(Math.abs(gsn.x[0] - Math.exp(-4))).toBeLessThan(100 * tol * Math.exp(-4) + 1e-3 * tol);
+      expect(Math.abs(gsn.x[0]! - Math.exp(-4))).toBeLessThan(100 * tol * Math.exp(-4) + 1e-3 * tol);
     }
   });
 
   it('y′ = y² (blow-up at t = 1) ends in underflow or non-finite at t ≈ 1, state finite', () => {
-    const s = new DormandPrince(1, (_t, x, d) => { d[0] = x[0] * x[0]; }, { rtol: 1e-8, atol: 1e-8 });
+    const s = new DormandPrince(1, (_t, x, d) => { d[0] = x[0]! * x[0]!; }, { rtol: 1e-8, atol: 1e-8 });
     s.reset(0, [1]);
     const st = s.integrateTo(2);
     expect([STEP_UNDERFLOW, STEP_NON_FINITE]).toContain(st);

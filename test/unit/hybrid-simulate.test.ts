@@ -25,14 +25,14 @@ function sampled(Ts: number, report = true): HybridSystem & { sampleTimes: numbe
   return {
     dim: 2,
     sampleTimes,
-    flow: (_t, x, d) => { d[0] = x[0]; d[1] = 0; },
+    flow: (_t, x, d) => { d[0] = x[0]!; d[1] = 0; },
     nextScheduledJump: () => nextK * Ts,
     jump: (t, x, xp, cause) => {
       expect(cause).toBe('scheduled');
       sampleTimes.push(t);
-      xp[1] = x[1] + 1;
+      xp[1] = x[1]! + 1;
       nextK++;
-      return report && xp[1] % 5 === 0 ? { what: 'logic', from: x[1], to: xp[1], why: 'every fifth sample' } : null;
+      return report && xp[1]! % 5 === 0 ? { what: 'logic', from: x[1]!, to: xp[1]!, why: 'every fifth sample' } : null;
     },
   };
 }
@@ -52,11 +52,11 @@ describe('sampled-data timer (scheduled jumps)', () => {
       expect(arc.stats.silentJumps).toBe(16);
       // the flow between samples is still eᵗ
       const tol = integrator.kind === 'dp54' ? 1e-8 : 'dt' in integrator && integrator.dt > 0.05 ? 1e-5 : 1e-6;
-      expect(Math.abs(arc.finalState[0] - Math.exp(2))).toBeLessThan(tol * Math.exp(2));
+      expect(Math.abs(arc.finalState[0]! - Math.exp(2))).toBeLessThan(tol * Math.exp(2));
       expect(arc.finalState[1]).toBe(20);
       // every stored sample point sits at an exact multiple of Ts
       for (let k = 0; k < arc.count; k++) {
-        const m = Math.round(arc.t[k] / Ts);
+        const m = Math.round(arc.t[k]! / Ts);
         expect(arc.t[k]).toBe(m * Ts);
       }
     });
@@ -77,8 +77,8 @@ describe('guard jumps', () => {
   const sawtooth = (level: number): HybridSystem => ({
     dim: 2,
     flow: (_t, _x, d) => { d[0] = 1; d[1] = 0; },
-    jumpGuard: (_t, x) => x[0] - level,
-    jump: (_t, x, xp) => { xp[0] = x[0] - 1; xp[1] = x[1] + 1; return { what: 'reset', from: x[1], to: xp[1], why: `x ≥ ${level}` }; },
+    jumpGuard: (_t, x) => x[0]! - level,
+    jump: (_t, x, xp) => { xp[0] = x[0]! - 1; xp[1] = x[1]! + 1; return { what: 'reset', from: x[1]!, to: xp[1]!, why: `x ≥ ${level}` }; },
   });
 
   it('crossings are located to eventTimeTol with both integrators (x = t − k hits 0.75 at t = 0.75 + k)', () => {
@@ -95,13 +95,13 @@ describe('guard jumps', () => {
     const sys: HybridSystem = {
       dim: 2,
       flow: (_t, _x, d) => { d[0] = 1; d[1] = 0; },
-      jumpGuard: (_t, x) => Math.min(x[0] - 1, 2.5 - x[1]),
-      jump: (_t, x, xp) => { xp[1] = x[1] + 1; return { what: 'count', from: x[1], to: xp[1], why: 'x ≥ 1' }; },
+      jumpGuard: (_t, x) => Math.min(x[0]! - 1, 2.5 - x[1]!),
+      jump: (_t, x, xp) => { xp[1] = x[1]! + 1; return { what: 'count', from: x[1]!, to: xp[1]!, why: 'x ≥ 1' }; },
     };
     const arc = sim(sys, [0.5, 0], { tEnd: 0.6, integrator: DP });
     expect(arc.events.length).toBe(3);
     expect(new Set(arc.events.map((e) => e.t)).size).toBe(1);
-    expect(arc.events[0].t).toBeCloseTo(0.5, 11);
+    expect(arc.events[0]!.t).toBeCloseTo(0.5, 11);
     expect(arc.outcome.status).toBe('completed');
     const z = sim(sys, [0.5, 0], { tEnd: 0.6, integrator: DP, maxJumpsPerInstant: 2 });
     expect(z.outcome.status).toBe('zeno');
@@ -109,7 +109,7 @@ describe('guard jumps', () => {
   });
 
   it('a guard that never turns negative again is reported as Zeno, not a hang', () => {
-    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0] - 0.3, jump: (_t, x, xp) => ({ what: 'stuck', from: x[0], to: xp[0], why: 'x⁺ = x' }) };
+    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0]! - 0.3, jump: (_t, x, xp) => ({ what: 'stuck', from: x[0]!, to: xp[0]!, why: 'x⁺ = x' }) };
     const arc = sim(sys, [0], { tEnd: 1 });
     expect(arc.outcome.status).toBe('zeno');
     expect(arc.outcome.t).toBeCloseTo(0.3, 10);
@@ -120,16 +120,16 @@ describe('guard jumps', () => {
     const base = (both?: 'jump' | 'flow'): HybridSystem => ({
       dim: 1, both,
       flow: (_t, _x, d) => { d[0] = 1; },
-      jumpGuard: (_t, x) => x[0], // C = {x ≤ 0}, D = {x ≥ 0}; x0 = 0 is in both
-      jump: (_t, x, xp) => { xp[0] = -1; return { what: 'back', from: x[0], to: -1, why: 'x ≥ 0' }; },
+      jumpGuard: (_t, x) => x[0]!, // C = {x ≤ 0}, D = {x ≥ 0}; x0 = 0 is in both
+      jump: (_t, x, xp) => { xp[0] = -1; return { what: 'back', from: x[0]!, to: -1, why: 'x ≥ 0' }; },
     });
     const a = sim(base(), [0], { tEnd: 0.5, jMax: 1 });
-    expect(a.events[0].t).toBe(0);
+    expect(a.events[0]!.t).toBe(0);
     const b = sim(base('flow'), [0], { tEnd: 0.5, jMax: 1 });
     // flows in C ∩ D = {0} only for an instant, then leaves C: the jump is located there
-    expect(b.events[0].t).toBeGreaterThan(0);
-    expect(b.events[0].t).toBeLessThan(1e-9);
-    expect(b.events[0].from).toBeGreaterThan(0);
+    expect(b.events[0]!.t).toBeGreaterThan(0);
+    expect(b.events[0]!.t).toBeLessThan(1e-9);
+    expect(b.events[0]!.from).toBeGreaterThan(0);
   });
 
   it('eventScan finds a guard that rises and falls within one step', () => {
@@ -137,14 +137,14 @@ describe('guard jumps', () => {
     const sys: HybridSystem = {
       dim: 1,
       flow: (_t, _x, d) => { d[0] = 1; },
-      jumpGuard: (_t, x) => 1e-4 - (x[0] - 0.5) ** 2,
-      jump: (_t, x, xp) => { xp[0] = x[0] + 10; return { what: 'hit', from: x[0], to: xp[0], why: 'in the window' }; },
+      jumpGuard: (_t, x) => 1e-4 - (x[0]! - 0.5) ** 2,
+      jump: (_t, x, xp) => { xp[0] = x[0]! + 10; return { what: 'hit', from: x[0]!, to: xp[0]!, why: 'in the window' }; },
     };
     const miss = sim(sys, [0], { tEnd: 1, integrator: { kind: 'rk4', dt: 1 } });
     expect(miss.events.length).toBe(0);
     const hit = sim(sys, [0], { tEnd: 1, integrator: { kind: 'rk4', dt: 1 }, eventScan: 3 });
     expect(hit.events.length).toBe(1);
-    expect(hit.events[0].t).toBeCloseTo(0.49, 10);
+    expect(hit.events[0]!.t).toBeCloseTo(0.49, 10);
   });
 
   it('a declined guard jump (null) disarms the guard; leaving C then blocks the solution', () => {
@@ -152,8 +152,8 @@ describe('guard jumps', () => {
     const sys: HybridSystem = {
       dim: 1,
       flow: (_t, _x, d) => { d[0] = 1; },
-      jumpGuard: (_t, x) => x[0] - 0.2,
-      inFlowSet: (_t, x) => x[0] <= 0.6,
+      jumpGuard: (_t, x) => x[0]! - 0.2,
+      inFlowSet: (_t, x) => x[0]! <= 0.6,
       jump: () => { calls++; return null; },
     };
     const arc = sim(sys, [0], { tEnd: 1 });
@@ -165,7 +165,7 @@ describe('guard jumps', () => {
 
   it('leaving an explicit flow set without reaching D ends the run as blocked at the exit time', () => {
     for (const integrator of [RK4, DP]) {
-      const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 2; }, inFlowSet: (_t, x) => x[0] <= 1, jump: () => null };
+      const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 2; }, inFlowSet: (_t, x) => x[0]! <= 1, jump: () => null };
       const arc = sim(sys, [0], { tEnd: 3, integrator });
       expect(arc.outcome.status).toBe('blocked');
       expect(arc.outcome.t).toBeCloseTo(0.5, 10);
@@ -178,7 +178,7 @@ describe('guard jumps', () => {
 describe('outcomes other than completed', () => {
   it('non-finite flow: stops at the last finite state, before the bad time', () => {
     for (const integrator of [RK4, DP, { kind: 'rk4', dt: 0.1 } as IntegratorOptions]) {
-      const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = t > 0.5 ? NaN : x[0]; }, jump: () => null };
+      const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = t > 0.5 ? NaN : x[0]!; }, jump: () => null };
       const arc = sim(sys, [1], { tEnd: 1, integrator, record: 'none' });
       expect(arc.outcome.status).toBe('non-finite');
       expect(arc.outcome.t).toBeLessThanOrEqual(0.5);
@@ -190,7 +190,7 @@ describe('outcomes other than completed', () => {
 
   it('non-finite jump map: the arc ends before that jump', () => {
     const sys: HybridSystem = {
-      dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0] - 0.4,
+      dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0]! - 0.4,
       jump: (_t, _x, xp) => { xp[0] = Infinity; return { what: 'bad', from: 0, to: 0, why: '' }; },
     };
     const arc = sim(sys, [0], { tEnd: 1 });
@@ -200,13 +200,13 @@ describe('outcomes other than completed', () => {
   });
 
   it('a guard returning NaN is reported', () => {
-    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => (x[0] > 0.3 ? NaN : -1), jump: () => null };
+    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => (x[0]! > 0.3 ? NaN : -1), jump: () => null };
     expect(sim(sys, [0], { tEnd: 1 }).outcome.status).toBe('non-finite');
   });
 
   it('step-underflow when the error control needs steps below hMin', () => {
     // stiff: ẋ = −1e6 (x − cos t); explicit DP54 must take steps ~ 3e-6 for stability
-    const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = -1e6 * (x[0] - Math.cos(t)); }, jump: () => null };
+    const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = -1e6 * (x[0]! - Math.cos(t)); }, jump: () => null };
     const arc = sim(sys, [0], { tEnd: 1, integrator: { kind: 'dp54', rtol: 1e-6, atol: 1e-9, hMin: 1e-3, hInit: 1e-3 } });
     expect(arc.outcome.status).toBe('step-underflow');
     expect(arc.outcome.t).toBeLessThan(1);
@@ -214,7 +214,7 @@ describe('outcomes other than completed', () => {
 
   it('max-steps on both paths', () => {
     expect(sim(sampled(0.1, false), [1, 0], { integrator: RK4, maxSteps: 10, record: 'none' }).outcome).toMatchObject({ status: 'max-steps' });
-    const a = sim({ dim: 1, flow: (_t, x, d) => { d[0] = x[0]; }, jump: () => null }, [1], { integrator: { kind: 'rk4', dt: 0.01 }, maxSteps: 10 });
+    const a = sim({ dim: 1, flow: (_t, x, d) => { d[0] = x[0]!; }, jump: () => null }, [1], { integrator: { kind: 'rk4', dt: 0.01 }, maxSteps: 10 });
     expect(a.outcome.status).toBe('max-steps');
     expect(a.outcome.t).toBeCloseTo(0.1, 12);
   });
@@ -231,7 +231,7 @@ describe('outcomes other than completed', () => {
 });
 
 describe('recording', () => {
-  const expo: HybridSystem = { dim: 1, flow: (_t, x, d) => { d[0] = x[0]; }, jump: () => null };
+  const expo: HybridSystem = { dim: 1, flow: (_t, x, d) => { d[0] = x[0]!; }, jump: () => null };
 
   it("'interval' samples t0 + k·dt from the dense output (eᵗ to the integrator's accuracy)", () => {
     for (const integrator of [RK4, DP]) {
@@ -239,7 +239,7 @@ describe('recording', () => {
       expect(arc.count).toBe(11);
       for (let k = 0; k < 11; k++) {
         expect(arc.t[k]).toBeCloseTo(0.5 + 0.1 * k, 14);
-        expect(Math.abs(arc.x[k] - Math.exp(arc.t[k] - 0.5))).toBeLessThan(integrator.kind === 'rk4' ? 1e-7 : 1e-8);
+        expect(Math.abs(arc.x[k]! - Math.exp(arc.t[k]! - 0.5))).toBeLessThan(integrator.kind === 'rk4' ? 1e-7 : 1e-8);
       }
     }
   });

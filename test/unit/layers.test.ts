@@ -22,7 +22,7 @@ function files(dir: string): string[] {
 function imports(file: string): string[] {
   const src = readFileSync(file, 'utf8');
   const out: string[] = [];
-  for (const m of src.matchAll(/(?:import|export)\s[^'"]*?from\s+['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)|^\s*import\s+['"]([^'"]+)['"]/gm)) out.push(m[1] ?? m[2] ?? m[3]);
+  for (const m of src.matchAll(/(?:import|export)\s[^'"]*?from\s+['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)|^\s*import\s+['"]([^'"]+)['"]/gm)) out.push(m[1] ?? m[2] ?? m[3]!);
   return out;
 }
 

@@ -133,7 +133,7 @@ async function started(argv: string[] = ['electron', 'main.cjs']) {
   const f = fakeElectron();
   startDesktopApp(f.e, { mainDir: path.join(dir, 'dist/main'), argv, cwd: dir, validateScenario: fakeValidator, log: () => {} });
   await new Promise((r) => setTimeout(r, 0));
-  return { ...f, win: FakeWindow.instances[0] };
+  return { ...f, win: FakeWindow.instances[0]! };
 }
 
 describe('desktop wiring', () => {
@@ -171,7 +171,7 @@ describe('desktop wiring', () => {
     const setWindowOpenHandler = vi.fn();
     f.appListeners.get('web-contents-created')!({}, { on, setWindowOpenHandler });
     expect(on.mock.calls.map((c) => c[0]).sort()).toEqual(['will-attach-webview', 'will-navigate', 'will-redirect']);
-    expect(setWindowOpenHandler.mock.calls[0][0]({ url: 'https://example.org' })).toEqual({ action: 'deny' });
+    expect(setWindowOpenHandler.mock.calls[0]![0]({ url: 'https://example.org' })).toEqual({ action: 'deny' });
   });
 
   it('handles every bridge channel and opens the --demo file as a template', async () => {

@@ -17,24 +17,24 @@ async function bundle(mode: 'main' | 'preload'): Promise<Rolldown.OutputChunk[]>
 }
 
 function requires(code: string): string[] {
-  return [...new Set([...code.matchAll(/\brequire\(\s*["']([^"']+)["']\s*\)/g)].map((m) => m[1]))].sort();
+  return [...new Set([...code.matchAll(/\brequire\(\s*["']([^"']+)["']\s*\)/g)].map((m) => m[1]!))].sort();
 }
 
 describe('electron bundles', () => {
   it('preload: a single CommonJS file requiring only electron', async () => {
     const chunks = await bundle('preload');
     expect(chunks.map((c) => c.fileName)).toEqual(['preload.cjs']);
-    expect(requires(chunks[0].code)).toEqual(['electron']);
-    expect(chunks[0].code).not.toMatch(/^\s*import[\s{*]|\bimport\(/m);
-    expect(chunks[0].code).toContain('exposeInMainWorld("slewsmith"');
+    expect(requires(chunks[0]!.code)).toEqual(['electron']);
+    expect(chunks[0]!.code).not.toMatch(/^\s*import[\s{*]|\bimport\(/m);
+    expect(chunks[0]!.code).toContain('exposeInMainWorld("slewsmith"');
   });
 
   it('main: one CommonJS file requiring only electron and Node built-ins', async () => {
     const chunks = await bundle('main');
     expect(chunks.map((c) => c.fileName)).toEqual(['main.cjs']);
     const builtins = new Set([...builtinModules, ...builtinModules.map((m) => `node:${m}`)]);
-    const external = requires(chunks[0].code).filter((r) => r !== 'electron' && !builtins.has(r));
+    const external = requires(chunks[0]!.code).filter((r) => r !== 'electron' && !builtins.has(r));
     expect(external).toEqual([]);
-    expect(requires(chunks[0].code)).toContain('electron');
+    expect(requires(chunks[0]!.code)).toContain('electron');
   });
 });

@@ -128,7 +128,7 @@ describe('payload checks', () => {
     s.self = s;
     const r = (await invoke(OWN_FRAME, InvokeChannels.saveScenario, s)) as { status: string; errors: { rule: string }[] };
     expect(r.status).toBe('invalid');
-    expect(r.errors[0].rule).toBe('serialisable');
+    expect(r.errors[0]!.rule).toBe('serialisable');
   });
 
   it('checks export requests: bare names, string or bytes, size limit, no extra fields — all reported together', async () => {

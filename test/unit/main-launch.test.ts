@@ -16,7 +16,7 @@ function fakeFs(files: Record<string, string>): BinaryFs {
     existsSync: (p) => p in files,
     readFileSync: (p) => {
       if (!(p in files)) throw new Error(`ENOENT ${p}`);
-      return files[p];
+      return files[p]!;
     },
   };
 }
@@ -57,7 +57,7 @@ describe('locateElectronBinary', () => {
     const dir = path.resolve('node_modules/electron');
     const pkg = JSON.parse(fs.readFileSync(path.join(dir, 'package.json'), 'utf8')) as { version: string; bin: Record<string, string>; scripts?: Record<string, string> };
     expect(pkg.bin['install-electron']).toBe('install.js');
-    expect(fs.existsSync(path.resolve(FETCH_COMMAND.split(' ')[1]))).toBe(true);
+    expect(fs.existsSync(path.resolve(FETCH_COMMAND.split(' ')[1]!))).toBe(true);
     // No postinstall: the binary really is fetched lazily (toolchain note, electron >= 42).
     expect(pkg.scripts?.postinstall).toBeUndefined();
     const index = fs.readFileSync(path.join(dir, 'index.js'), 'utf8');

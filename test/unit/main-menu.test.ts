@@ -12,7 +12,7 @@ function setup(platform: string) {
   const byLabel = (label: string) => {
     const found = items.filter((i) => i.label === label);
     expect(found, label).toHaveLength(1);
-    return found[0];
+    return found[0]!;
   };
   const click = (i: MenuItemConstructorOptions) => (i.click as () => void)();
   return { sent, quits: () => quits, template, items, byLabel, click };
@@ -47,7 +47,7 @@ describe.each(['linux', 'win32', 'darwin'])('menu on %s', (platform) => {
     const m = setup(platform);
     const quit = m.items.filter((i) => i.accelerator === 'CmdOrCtrl+Q');
     expect(quit).toHaveLength(1);
-    m.click(quit[0]);
+    m.click(quit[0]!);
     expect(m.quits()).toBe(1);
     expect(m.sent).toEqual([]);
   });
@@ -65,9 +65,9 @@ describe.each(['linux', 'win32', 'darwin'])('menu on %s', (platform) => {
 });
 
 it('macOS gets the application menu first; other platforms keep Quit in File', () => {
-  expect(setup('darwin').template[0].label).toBe('Slewsmith');
-  expect(setup('linux').template[0].label).toBe('File');
-  const file = setup('linux').template[0].submenu as MenuItemConstructorOptions[];
+  expect(setup('darwin').template[0]!.label).toBe('Slewsmith');
+  expect(setup('linux').template[0]!.label).toBe('File');
+  const file = setup('linux').template[0]!.submenu as MenuItemConstructorOptions[];
   expect(file.at(-1)?.accelerator).toBe('CmdOrCtrl+Q');
 });
 

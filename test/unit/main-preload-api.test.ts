@@ -44,7 +44,7 @@ describe('desktop bridge', () => {
   it('maps each operation to its own channel, passing exactly the declared arguments', async () => {
     const f = fakeIpc();
     const b = createDesktopBridge(f.ipc);
-    const loose = b as unknown as Record<string, (...a: unknown[]) => unknown>;
+    const loose = b as unknown as Record<'openScenario' | 'saveScenario' | 'setDirty', (...a: unknown[]) => unknown>;
     await loose.openScenario('smuggled');
     await b.openRecent('/a.json');
     await b.initialScenario();

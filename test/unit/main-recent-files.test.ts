@@ -20,7 +20,7 @@ describe('recent files', () => {
     expect((await r.list()).map((f) => f.name)).toEqual(['d.json', 'a.json', 'c.json']);
     const again = createRecentFiles({ fs: failingFs(null), file, max: 3 });
     expect(await again.list()).toEqual(await r.list());
-    expect((await again.list())[0].openedAt).toBe('2026-01-01T00:00:05.000Z');
+    expect((await again.list())[0]!.openedAt).toBe('2026-01-01T00:00:05.000Z');
     expect(await again.has(path.join(dir, 'b.json'))).toBe(false);
     await again.remove(path.join(dir, 'a.json'));
     expect((await again.list()).map((f) => f.name)).toEqual(['d.json', 'c.json']);

@@ -94,7 +94,7 @@ describe('Lyapunov monitor', () => {
     const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.1);
     const tr = rotationTrace(() => 0, 10, 0.1, target);
     // W decreasing except a bump between t = 4 and 5
-    for (let k = 0; k < tr.n; k++) tr.lyapunov[k] = 10 - tr.t[k] + (tr.t[k] > 4 && tr.t[k] <= 5 ? 2 * (tr.t[k] - 4) : tr.t[k] > 5 ? 2 : 0);
+    for (let k = 0; k < tr.n; k++) tr.lyapunov[k] = 10 - tr.t[k]! + (tr.t[k]! > 4 && tr.t[k]! <= 5 ? 2 * (tr.t[k]! - 4) : tr.t[k]! > 5 ? 2 : 0);
     const jumps: JumpEvent[] = [
       { t: 7, j: 1, what: 'logic', from: 1, to: 2, why: 'gap', lyapunovBefore: 3, lyapunovAfter: 2.5 },
       { t: 8, j: 2, what: 'logic', from: 2, to: 1, why: 'gap', lyapunovBefore: 3, lyapunovAfter: 1 },
@@ -102,12 +102,12 @@ describe('Lyapunov monitor', () => {
     const flags = lyapunovMonitor(tr, jumps, { jumpDecrease: 1, relTol: 1e-6, absTol: 1e-9 });
     const rise = flags.filter((f) => f.kind === 'flow-rise');
     expect(rise).toHaveLength(1);
-    expect(rise[0].tStart).toBeCloseTo(4, 9);
-    expect(rise[0].tEnd).toBeCloseTo(5, 9);
-    expect(rise[0].amount).toBeCloseTo(1, 9);
+    expect(rise[0]!.tStart).toBeCloseTo(4, 9);
+    expect(rise[0]!.tEnd).toBeCloseTo(5, 9);
+    expect(rise[0]!.amount).toBeCloseTo(1, 9);
     const weak = flags.filter((f) => f.kind === 'weak-jump');
     expect(weak).toHaveLength(1);
-    expect(weak[0].tStart).toBe(7);
+    expect(weak[0]!.tStart).toBe(7);
   });
 
   it('a monotone W gives no flags', () => {
@@ -143,9 +143,9 @@ describe('sensor models', () => {
     const N = 20000;
     for (let i = 0; i < N; i++) {
       measure(qm, wm, model, rng, q, [0.01, 0.02, 0.03], q);
-      s0 += wm[0];
-      s2 += wm[2];
-      sq += (wm[1] - 0.02) ** 2;
+      s0 += wm[0]!;
+      s2 += wm[2]!;
+      sq += (wm[1]! - 0.02) ** 2;
     }
     expect(s0 / N).toBeCloseTo(0.011, 5);
     expect(s2 / N).toBeCloseTo(0.028, 5);
@@ -160,7 +160,7 @@ describe('sensor models', () => {
     const near = qFromAxisAngle(new Float64Array(4), [0, 1, 0], Math.PI - 0.1); // η = cos(π/2 − 0.05) ≈ 0.05
     measure(qm, wm, model, rng, near, [0, 0, 0], qRef);
     qConjMultiply(e, qRef, qm);
-    expect(e[3]).toBeCloseTo(-near[3], 12);
+    expect(e[3]).toBeCloseTo(-near[3]!, 12);
     expect(qAngleBetween(near, qm)).toBeLessThan(2 * 0.1 + 1e-9); // noise size below 2ē
     const far = qFromAxisAngle(new Float64Array(4), [0, 1, 0], 2.0);
     measure(qm, wm, model, rng, far, [0, 0, 0], qRef);

@@ -25,8 +25,8 @@ describe('restToRestProfile closed forms', () => {
     expect(p.peakRateRadPerS).toBe(w);
     const sw = profileSwitchTimes(p);
     expect(sw.length).toBe(2);
-    expect(Math.abs(sw[0] - 3)).toBeLessThan(1e-9);
-    expect(Math.abs(sw[1] - 30)).toBeLessThan(1e-9);
+    expect(Math.abs(sw[0]! - 3)).toBeLessThan(1e-9);
+    expect(Math.abs(sw[1]! - 30)).toBeLessThan(1e-9);
   });
 
   it('bang-bang when θ ≤ θ* = w²/a: T = 2√(θ/a), switch at T/2, peak √(θ a)', () => {
@@ -73,8 +73,8 @@ describe('profileAt', () => {
     const out = new Float64Array(3);
     times.forEach((t, i) => {
       profileAt(out, p, t);
-      expect(Math.abs(out[0] / D - angles[i])).toBeLessThan(1e-9);
-      expect(Math.abs(out[1] / D - rates[i])).toBeLessThan(1e-9);
+      expect(Math.abs(out[0]! / D - angles[i]!)).toBeLessThan(1e-9);
+      expect(Math.abs(out[1]! / D - rates[i]!)).toBeLessThan(1e-9);
     });
   });
 
@@ -85,8 +85,8 @@ describe('profileAt', () => {
         profileAt(lo, p, ts - 1e-9);
         profileAt(hi, p, ts + 1e-9);
         profileAt(out, p, ts);
-        expect(Math.abs(lo[0] - hi[0])).toBeLessThan(1e-9); // ω·2e-9 apart at most
-        expect(Math.abs(lo[1] - hi[1])).toBeLessThan(1e-10);
+        expect(Math.abs(lo[0]! - hi[0]!)).toBeLessThan(1e-9); // ω·2e-9 apart at most
+        expect(Math.abs(lo[1]! - hi[1]!)).toBeLessThan(1e-10);
         expect(out[2]).toBe(hi[2]); // right-continuous
       }
       // Central differences away from switches: dφ/dt = ω, dω/dt = α (quadratic φ ⇒ exact up to rounding).
@@ -97,8 +97,8 @@ describe('profileAt', () => {
         profileAt(lo, p, t - h);
         profileAt(hi, p, t + h);
         profileAt(out, p, t);
-        expect(Math.abs((hi[0] - lo[0]) / (2 * h) - out[1])).toBeLessThan(1e-9);
-        expect(Math.abs((hi[1] - lo[1]) / (2 * h) - out[2])).toBeLessThan(1e-9);
+        expect(Math.abs((hi[0]! - lo[0]!) / (2 * h) - out[1]!)).toBeLessThan(1e-9);
+        expect(Math.abs((hi[1]! - lo[1]!) / (2 * h) - out[2]!)).toBeLessThan(1e-9);
       }
       // Ends: at rest at 0 and θ; before the start and NaN: at rest at 0.
       profileAt(out, p, p.durationS);

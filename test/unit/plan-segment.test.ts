@@ -19,8 +19,8 @@ import type { Result } from '../../app/engine/errors';
 const D = Math.PI / 180;
 const diag = (a: number, b: number, c: number) => [a, 0, 0, 0, b, 0, 0, 0, c];
 const axisAngle = (ax: number[], th: number) => {
-  const n = Math.hypot(ax[0], ax[1], ax[2]), s = Math.sin(th / 2) / n;
-  return [ax[0] * s, ax[1] * s, ax[2] * s, Math.cos(th / 2)];
+  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!), s = Math.sin(th / 2) / n;
+  return [ax[0]! * s, ax[1]! * s, ax[2]! * s, Math.cos(th / 2)];
 };
 const I4 = [0, 0, 0, 1];
 const sphere = (c: number) => () => c;
@@ -36,7 +36,7 @@ function infeasible(r: Result<SegmentVerdict>) {
   return r.value;
 }
 /** J v for column-major J (written here, independently of the engine's mat3). */
-const mulJ = (J: number[], v: number[]) => [0, 1, 2].map((r) => J[r] * v[0] + J[3 + r] * v[1] + J[6 + r] * v[2]);
+const mulJ = (J: number[], v: number[]) => [0, 1, 2].map((r) => J[r]! * v[0]! + J[3 + r]! * v[1]! + J[6 + r]! * v[2]!);
 
 describe('zero stored momentum: closed forms', () => {
   // Principal axis z, J_zz = 12 kg·m². Envelopes sized so that a = 1 deg/s² (margin 0.8) and the
@@ -51,8 +51,8 @@ describe('zero stored momentum: closed forms', () => {
     const th = 90 * D, a = 1 * D, w = 3 * D;
     expect(Math.abs(p.durationS - (th / w + w / a))).toBeLessThan(1e-9);
     expect(Math.abs(p.durationS - 33)).toBeLessThan(1e-9);
-    expect(Math.abs(p.switchTimesS[0] - 3)).toBeLessThan(1e-9);
-    expect(Math.abs(p.switchTimesS[1] - 30)).toBeLessThan(1e-9);
+    expect(Math.abs(p.switchTimesS[0]! - 3)).toBeLessThan(1e-9);
+    expect(Math.abs(p.switchTimesS[1]! - 30)).toBeLessThan(1e-9);
     expect(Math.abs(p.peakRateRadPerS - w)).toBeLessThan(1e-15);
     expect(p.binding).toBe('momentum');
     expect(p.method).toBe('closed-form');
@@ -77,7 +77,7 @@ describe('zero stored momentum: closed forms', () => {
     expect(Math.abs(p.durationS - 2 * Math.sqrt((8 * D) / (1 * D)))).toBeLessThan(1e-9);
     expect(p.profile.kind).toBe('bang-bang');
     expect(p.binding).toBe('torque');
-    expect(Math.abs(p.switchTimesS[0] - p.durationS / 2)).toBeLessThan(1e-12);
+    expect(Math.abs(p.switchTimesS[0]! - p.durationS / 2)).toBeLessThan(1e-12);
     expect(p.peakMomentumFraction).toBeLessThan(0.9);
   });
 
@@ -96,8 +96,8 @@ describe('zero stored momentum: closed forms', () => {
     const q1 = axisAngle([0, 0, 1], 270 * D); // w = cos 135° < 0
     const p = feasible(planSegment({ qStart: I4, qTarget: q1, inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     expect(Math.abs(p.angleRad - 90 * D)).toBeLessThan(1e-12);
-    expect(Math.abs(p.axisBody[2] + 1)).toBeLessThan(1e-12);
-    expect(Array.from(p.qEnd).map((x, i) => Math.abs(x + q1[i])).every((d) => d < 1e-15)).toBe(true);
+    expect(Math.abs(p.axisBody[2]! + 1)).toBeLessThan(1e-12);
+    expect(Array.from(p.qEnd).map((x, i) => Math.abs(x + q1[i]!)).every((d) => d < 1e-15)).toBe(true);
     expect(Math.abs(p.durationS - 33)).toBeLessThan(1e-9);
   });
 });
@@ -108,8 +108,8 @@ describe('non-principal axis: the wheels push along Je (references §2)', () => 
   const e = [1 / 3, 2 / 3, 2 / 3];
   const th = 120 * D;
   const Je = mulJ(J, e);
-  const JeNorm = Math.hypot(Je[0], Je[1], Je[2]);
-  const eJe = e[0] * Je[0] + e[1] * Je[1] + e[2] * Je[2];
+  const JeNorm = Math.hypot(Je[0]!, Je[1]!, Je[2]!);
+  const eJe = e[0]! * Je[0]! + e[1]! * Je[1]! + e[2]! * Je[2]!;
 
   it('norm-bounded torque: a = m c / |Je| (not m c / eᵀJe); T = 2√(θ/a)', () => {
     const c = 0.002, m = 0.7;
@@ -137,18 +137,18 @@ describe('non-principal axis: the wheels push along Je (references §2)', () => 
     const lim: PlanLimits = { torqueCapacity: sphere(0.002), momentumCapacity: sphere(0.003), torqueMargin: 1, momentumMargin: 0.8 };
     const r = planSequence({ qStart: I4, inertia: J, wheelMomentumBody: [0, 0, 0], targets: [{ q: axisAngle(e, th), holdS: 0 }] }, lim);
     if (!r.ok || !r.value.feasible) throw new Error('expected feasible');
-    const p = r.value.timeline[0].plan;
+    const p = r.value.timeline[0]!.plan;
     const w = (0.8 * 0.003) / JeNorm;
     const a = 0.002 / JeNorm;
     expect(Math.abs(p.durationS - (th / w + w / a))).toBeLessThan(1e-9);
     expect(p.binding).toBe('momentum');
     const tau = new Float64Array(3), h = new Float64Array(3);
     evaluatePlannedLoads(r.value, 1e-3, tau, h);
-    const cr = [tau[1] * Je[2] - tau[2] * Je[1], tau[2] * Je[0] - tau[0] * Je[2], tau[0] * Je[1] - tau[1] * Je[0]];
-    expect(Math.hypot(cr[0], cr[1], cr[2]) / (Math.hypot(tau[0], tau[1], tau[2]) * JeNorm)).toBeLessThan(1e-12);
+    const cr = [tau[1]! * Je[2]! - tau[2]! * Je[1]!, tau[2]! * Je[0]! - tau[0]! * Je[2]!, tau[0]! * Je[1]! - tau[1]! * Je[0]!];
+    expect(Math.hypot(cr[0]!, cr[1]!, cr[2]!) / (Math.hypot(tau[0]!, tau[1]!, tau[2]!) * JeNorm)).toBeLessThan(1e-12);
     // wheel momentum = −ω J e (H = 0)
     const om = a * 1e-3;
-    for (let i = 0; i < 3; i++) expect(Math.abs(h[i] + om * Je[i])).toBeLessThan(1e-15);
+    for (let i = 0; i < 3; i++) expect(Math.abs(h[i]! + om * Je[i]!)).toBeLessThan(1e-15);
   });
 });
 
@@ -225,7 +225,7 @@ describe('stored momentum', () => {
   it('momentum already outside, or exactly at, the margin: infeasible with the reason', () => {
     const out = infeasible(plan([0.6, 0, 0]));
     expect(out.reasons.map((r) => r.rule)).toContain('stored-momentum-start');
-    expect(out.reasons[0].message).toMatch(/120\.0%/);
+    expect(out.reasons[0]!.message).toMatch(/120\.0%/);
     const at = infeasible(plan([0.45, 0, 0])); // exactly 0.9 of the 0.5 cube along x
     expect(at.reasons.map((r) => r.rule)).toContain('stored-momentum-start');
   });
@@ -237,8 +237,8 @@ describe('stored momentum', () => {
     const h = [1.2 / Math.SQRT2, 1.2 / Math.SQRT2, 0];
     const v = infeasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 45 * D), inertia: J, wheelMomentumBody: h }, l));
     expect(v.reasons.map((r) => r.rule)).toEqual(['stored-momentum-end']);
-    expect(Math.abs(v.wheelMomentumEndBody[0] - 1.2)).toBeLessThan(1e-12);
-    expect(Math.abs(v.wheelMomentumEndBody[1])).toBeLessThan(1e-12);
+    expect(Math.abs(v.wheelMomentumEndBody[0]! - 1.2)).toBeLessThan(1e-12);
+    expect(Math.abs(v.wheelMomentumEndBody[1]!)).toBeLessThan(1e-12);
   });
 
   it('momentum that fits at both ends but leaves the envelope mid-slew: infeasible from the search', () => {
@@ -248,7 +248,7 @@ describe('stored momentum', () => {
     const h = [1.2 / Math.SQRT2, 1.2 / Math.SQRT2, 0];
     const v = infeasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 90 * D), inertia: J, wheelMomentumBody: h }, l));
     expect(v.reasons.map((x) => x.rule)).toEqual(['stored-momentum-path']);
-    expect(v.reasons[0].message).toMatch(/leaves the usable momentum envelope/);
+    expect(v.reasons[0]!.message).toMatch(/leaves the usable momentum envelope/);
   });
 
   it('zero torque capacity along ±Je: infeasible with the reason', () => {

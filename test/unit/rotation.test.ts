@@ -35,7 +35,7 @@ describe('quaternion basics (methods.md §1.1, standard identities)', () => {
     const q = qFromAxisAngle(new Float64Array(4), [0, 0, 1], Math.PI / 2);
     const m = qToMat3(new Float64Array(9), q);
     const rows = [[0, -1, 0], [1, 0, 0], [0, 0, 1]];
-    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) expect(m[3 * c + r]).toBeCloseTo(rows[r][c], 15);
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) expect(m[3 * c + r]).toBeCloseTo(rows[r]![c]!, 15);
   });
 
   it('product may alias its inputs (gl-matrix habit)', () => {
@@ -48,13 +48,13 @@ describe('quaternion basics (methods.md §1.1, standard identities)', () => {
     const b2 = Float64Array.from(b);
     qConjMultiply(b2, a, b2);
     const ref2 = qMultiply(new Float64Array(4), qConjugate(new Float64Array(4), a), b);
-    for (let i = 0; i < 4; i++) expect(b2[i]).toBeCloseTo(ref2[i], 15);
+    for (let i = 0; i < 4; i++) expect(b2[i]).toBeCloseTo(ref2[i]!, 15);
   });
 
   it('error quaternion: q_e = q_d* ⊗ q is the identity at the target and the same attitude for ±q', () => {
     const qd = qFromAxisAngle(new Float64Array(4), [0.3, -0.2, 0.9], 2.2);
     const e = qError(new Float64Array(4), qd, qd);
-    expect(Math.abs(e[3])).toBeCloseTo(1, 15);
+    expect(Math.abs(e[3]!)).toBeCloseTo(1, 15);
     const neg = Float64Array.from(qd, (v) => -v);
     expect(qAngle(qError(new Float64Array(4), qd, neg))).toBeCloseTo(0, 7);
   });
@@ -77,7 +77,7 @@ describe('quaternion basics (methods.md §1.1, standard identities)', () => {
         const axis = new Float64Array(3);
         expect(qToAxisAngle(axis, q)).toBeCloseTo(ang, 10);
         const n = Math.hypot(...ax);
-        for (let i = 0; i < 3; i++) expect(axis[i]).toBeCloseTo(ax[i] / n, 9);
+        for (let i = 0; i < 3; i++) expect(axis[i]).toBeCloseTo(ax[i]! / n, 9);
       }),
       { numRuns: 500 },
     );
@@ -98,7 +98,7 @@ describe('quaternion basics (methods.md §1.1, standard identities)', () => {
     const h = 1e-6;
     const dq = qFromAxisAngle(new Float64Array(4), w, Math.hypot(...w) * h);
     const q2 = qMultiply(new Float64Array(4), q, dq);
-    for (let i = 0; i < 4; i++) expect((q2[i] - q[i]) / h).toBeCloseTo(d[i], 8);
+    for (let i = 0; i < 4; i++) expect((q2[i]! - q[i]!) / h).toBeCloseTo(d[i]!, 8);
   });
 });
 
@@ -124,10 +124,10 @@ describe('uniform random attitudes (Shoemake 1992)', () => {
     const N = 20000;
     for (let i = 0; i < N; i++) {
       qToMat3(m, qRandomUniform(q, rng));
-      for (let k = 0; k < 9; k++) acc[k] += m[k] / N;
+      for (let k = 0; k < 9; k++) acc[k]! += m[k]! / N;
     }
     // Each entry has variance 1/3 per sample, so the standard error is √(1/(3N)) ≈ 0.004.
-    for (let k = 0; k < 9; k++) expect(Math.abs(acc[k])).toBeLessThan(0.02);
+    for (let k = 0; k < 9; k++) expect(Math.abs(acc[k]!)).toBeLessThan(0.02);
   });
 });
 
@@ -139,16 +139,16 @@ describe('two-vector attitude (TRIAD, Black 1964)', () => {
         (v) => {
           const b = v.slice(0, 3), r = v.slice(3, 6), b2 = v.slice(6, 9), r2 = v.slice(9, 12);
           const n = (x: number[]) => Math.hypot(...x);
-          const cr = (x: number[], y: number[]) => n([x[1] * y[2] - x[2] * y[1], x[2] * y[0] - x[0] * y[2], x[0] * y[1] - x[1] * y[0]]) / (n(x) * n(y));
+          const cr = (x: number[], y: number[]) => n([x[1]! * y[2]! - x[2]! * y[1]!, x[2]! * y[0]! - x[0]! * y[2]!, x[0]! * y[1]! - x[1]! * y[0]!]) / (n(x) * n(y));
           if (n(b) < 0.1 || n(r) < 0.1 || n(b2) < 0.1 || n(r2) < 0.1 || cr(b, b2) < 0.05 || cr(r, r2) < 0.05) return;
           const q = new Float64Array(4);
           expect(qFromTwoVectors(q, b, r, b2, r2)).toBe(true);
           const rb = qRotate(new Float64Array(3), q, b);
-          for (let i = 0; i < 3; i++) expect(rb[i] / n(b)).toBeCloseTo(r[i] / n(r), 10);
+          for (let i = 0; i < 3; i++) expect(rb[i]! / n(b)).toBeCloseTo(r[i]! / n(r), 10);
           // Secondary: the rotated b2 lies in the plane of r and r2, on r2's side.
           const rb2 = qRotate(new Float64Array(3), q, b2);
-          const nrm = [r[1] * r2[2] - r[2] * r2[1], r[2] * r2[0] - r[0] * r2[2], r[0] * r2[1] - r[1] * r2[0]];
-          const off = (rb2[0] * nrm[0] + rb2[1] * nrm[1] + rb2[2] * nrm[2]) / (n(nrm) * n(b2));
+          const nrm = [r[1]! * r2[2]! - r[2]! * r2[1]!, r[2]! * r2[0]! - r[0]! * r2[2]!, r[0]! * r2[1]! - r[1]! * r2[0]!];
+          const off = (rb2[0]! * nrm[0]! + rb2[1]! * nrm[1]! + rb2[2]! * nrm[2]!) / (n(nrm) * n(b2));
           expect(Math.abs(off)).toBeLessThan(1e-9);
         },
       ),
@@ -167,15 +167,15 @@ describe('symmetric eigen-decomposition (Jacobi; checked against A v = λ v)', (
   it('reconstructs random symmetric matrices', () => {
     fc.assert(
       fc.property(fc.array(fc.double({ min: -5, max: 5, noNaN: true }), { minLength: 6, maxLength: 6 }), (e) => {
-        const A = m3FromRows([[e[0], e[1], e[2]], [e[1], e[3], e[4]], [e[2], e[4], e[5]]]);
+        const A = m3FromRows([[e[0]!, e[1]!, e[2]!], [e[1]!, e[3]!, e[4]!], [e[2]!, e[4]!, e[5]!]]);
         const { values, vectors } = symmetricEigen3(A);
-        expect(values[0]).toBeLessThanOrEqual(values[1]);
-        expect(values[1]).toBeLessThanOrEqual(values[2]);
+        expect(values[0]).toBeLessThanOrEqual(values[1]!);
+        expect(values[1]).toBeLessThanOrEqual(values[2]!);
         for (let k = 0; k < 3; k++) {
           for (let r = 0; r < 3; r++) {
             let av = 0;
-            for (let c = 0; c < 3; c++) av += A[3 * c + r] * vectors[3 * k + c];
-            expect(av).toBeCloseTo(values[k] * vectors[3 * k + r], 9);
+            for (let c = 0; c < 3; c++) av += A[3 * c + r]! * vectors[3 * k + c]!;
+            expect(av).toBeCloseTo(values[k]! * vectors[3 * k + r]!, 9);
           }
         }
       }),
@@ -189,7 +189,7 @@ describe('symmetric eigen-decomposition (Jacobi; checked against A v = λ v)', (
     expect(m3Invert(inv, A)).toBe(true);
     const P = m3Multiply(new Float64Array(9), A, inv);
     const I = m3Identity(new Float64Array(9));
-    for (let k = 0; k < 9; k++) expect(P[k]).toBeCloseTo(I[k], 14);
+    for (let k = 0; k < 9; k++) expect(P[k]).toBeCloseTo(I[k]!, 14);
     expect(m3Invert(inv, m3FromRows([[1, 2, 3], [2, 4, 6], [0, 0, 1]]))).toBe(false);
   });
 });

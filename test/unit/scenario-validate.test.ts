@@ -37,9 +37,9 @@ describe('format and version gate', () => {
     s.targets = 'garbage';
     const e = errorsOf(s);
     expect(e).toHaveLength(1);
-    expect(e[0].path).toBe('version');
-    expect(e[0].rule).toBe('version-newer');
-    expect(e[0].message).toContain('version 7 is newer than this Slewsmith reads (1)');
+    expect(e[0]!.path).toBe('version');
+    expect(e[0]!.rule).toBe('version-newer');
+    expect(e[0]!.message).toContain('version 7 is newer than this Slewsmith reads (1)');
   });
   it('version 0, 1.5 and "1" are not versions', () => {
     for (const v of [0, 1.5, '1', null]) {
@@ -58,10 +58,10 @@ describe('format and version gate', () => {
     delete a.format;
     const ea = errorsOf(a);
     expect(pairs(ea)).toEqual(['format format']);
-    expect(ea[0].message).toMatch(/not a Slewsmith scenario file.*missing/);
+    expect(ea[0]!.message).toMatch(/not a Slewsmith scenario file.*missing/);
     const b = loadExample('tern12-reversal');
     b.format = 'slewsmith-run';
-    expect(errorsOf(b)[0].message).toContain('"slewsmith-run"');
+    expect(errorsOf(b)[0]!.message).toContain('"slewsmith-run"');
   });
   it('non-objects are rejected at the root', () => {
     for (const v of [null, 3, 'x', [], undefined]) expect(pairs(errorsOf(v))).toEqual([' type']);
@@ -74,7 +74,7 @@ describe('attitude entries', () => {
     s.targets[2].attitude.quaternion = [0, 0, 0, 0];
     const e = errorsOf(s);
     expect(pairs(e)).toEqual(['targets[2].attitude.quaternion non-zero']);
-    expect(e[0].message).toContain('zero quaternion');
+    expect(e[0]!.message).toContain('zero quaternion');
   });
   it('a quaternion more than 1e-6 from unit norm is rejected; within it is normalised with a warning', () => {
     const s = loadExample('lumen6-imaging');
@@ -86,14 +86,14 @@ describe('attitude entries', () => {
     const r = loadScenario(s);
     expect(r.ok).toBe(true);
     expect(pairs(r.warnings)).toEqual(['targets[2].attitude.quaternion normalised']);
-    if (r.ok) expect(Math.hypot(...r.value.targets[2].qInertialFromBody)).toBeCloseTo(1, 15);
+    if (r.ok) expect(Math.hypot(...r.value.targets[2]!.qInertialFromBody)).toBeCloseTo(1, 15);
   });
   it('bad Euler sequence names the sequence field', () => {
     const s = loadExample('lumen6-imaging');
     s.targets[0].attitude.euler.sequence = 'ZZY';
     const e = errorsOf(s);
     expect(pairs(e)).toEqual(['targets[0].attitude.euler.sequence one-of']);
-    expect(e[0].message).toContain('"ZYX"');
+    expect(e[0]!.message).toContain('"ZYX"');
   });
   it('lower-case Euler sequence is not accepted either', () => {
     const s = loadExample('tern12-reversal');
@@ -161,14 +161,14 @@ describe('vehicle, controllers and the rest', () => {
     s.controllers[3].id = 'pd';
     const e = errorsOf(s);
     expect(pairs(e)).toEqual(['controllers[3].id unique']);
-    expect(e[0].message).toContain('controllers[0]');
+    expect(e[0]!.message).toContain('controllers[0]');
   });
   it('wheel-momentum count must equal the wheel count', () => {
     const s = loadExample('lumen6-imaging');
     s.initial.wheelMomentumMNms = [0, 0, 0];
     const e = errorsOf(s);
     expect(pairs(e)).toEqual(['initial.wheelMomentumMNms count']);
-    expect(e[0].message).toContain('4 wheels');
+    expect(e[0]!.message).toContain('4 wheels');
     const k = loadExample('kestrel60-momentum');
     k.vehicle.wheels.wheels.pop();
     expect(pairs(errorsOf(k))).toEqual(['initial.wheelMomentumMNms count']);

@@ -57,7 +57,7 @@ const records: CaseRecord[] = [
 
 describe('summarizeStudy on a hand-made record set', () => {
   const s = summarizeStudy(info, records);
-  const c = s.controllers[0];
+  const c = s.controllers[0]!;
 
   it('counts and shares leave the unflyable case out', () => {
     expect([c.cases, c.flyable, c.settled, c.unsettled, c.failed]).toEqual([6, 5, 4, 1, 0]);
@@ -97,18 +97,18 @@ describe('summarizeStudy on a hand-made record set', () => {
     const m = outcomeMap(records);
     expect(m.map((p) => p.index)).toEqual([0, 1, 2, 3, 4, 5]);
     expect(m.map((p) => p.outcome[0])).toEqual(['settled', 'settled', 'chattered', 'unwound', 'unsettled', 'unflyable']);
-    expect(m[3].angleDeg).toBeCloseTo((0.3 * 180) / Math.PI, 12);
+    expect(m[3]!.angleDeg).toBeCloseTo((0.3 * 180) / Math.PI, 12);
   });
 
   it('cases.csv: caution first, one row per case × controller in case order, same column count everywhere', () => {
     const lines = casesCsv(info, records, s).trimEnd().split('\n');
     expect(lines[0]).toBe(`# CAUTION: ${CAUTION_TEXT}`);
     const h = lines.findIndex((l) => l.startsWith('case,'));
-    expect(lines[h].split(',')).toEqual([...CASE_COLUMNS]);
+    expect(lines[h]!.split(',')).toEqual([...CASE_COLUMNS]);
     const rows = lines.slice(h + 1);
     expect(rows.map((r) => r.split(',')[0])).toEqual(['0', '1', '2', '3', '4', '5']);
     for (const r of rows) expect(r.split(',').length).toBe(CASE_COLUMNS.length);
-    expect(rows[4].split(',')[4]).toBe(''); // no settle time
+    expect(rows[4]!.split(',')[4]).toBe(''); // no settle time
   });
 });
 
@@ -129,9 +129,9 @@ describe('reopening a case', () => {
   it('rerunStudyCase reproduces the study numbers of that case exactly', () => {
     const r = rerunStudyCase(json, {}, 2);
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
-    expect(r.value.draw).toEqual(res.value.records[2].draw);
+    expect(r.value.draw).toEqual(res.value.records[2]!.draw);
     r.value.runs.forEach((run, k) => {
-      const s = res.value.records[2].runs[k];
+      const s = res.value.records[2]!.runs[k]!;
       expect(run.controllerId).toBe(s.controllerId);
       expect(run.metrics.settleTimeS).toBe(s.settleTimeS);
       expect((run.metrics.finalErrorRad * 180) / Math.PI).toBe(s.finalErrorDeg);
@@ -148,7 +148,7 @@ describe('reopening a case', () => {
     if (!cs.ok) throw new Error(JSON.stringify(cs.errors));
     expect(validateScenario(cs.value).ok).toBe(true);
     expect(cs.value.vehicle.wheels.layout).toBe('custom');
-    expect(cs.value.simulation.seed).toBe(res.value.records[2].draw.noiseSeed);
+    expect(cs.value.simulation.seed).toBe(res.value.records[2]!.draw.noiseSeed);
     expect(cs.value.description).toContain('Differences from the study run');
     const normal = runPipeline(cs.value);
     if (!normal.ok) throw new Error(JSON.stringify(normal.errors));
@@ -158,7 +158,7 @@ describe('reopening a case', () => {
       const n = normal.value.runs.find((x) => x.controllerId === run.controllerId)!;
       expect(n.trace.n).toBeGreaterThanOrEqual(run.trace.n); // the normal run does not stop early
       let worst = 0;
-      for (let k = 0; k < 4 * run.trace.n; k++) worst = Math.max(worst, Math.abs(n.trace.q[k] - run.trace.q[k]));
+      for (let k = 0; k < 4 * run.trace.n; k++) worst = Math.max(worst, Math.abs(n.trace.q[k]! - run.trace.q[k]!));
       // Same physics, same noise: only unit round trips (mN·m, arcsec) differ, at the 1e-16 level.
       expect(worst).toBeLessThan(1e-9);
       expect(n.metrics.settleTimeS).toBe(run.metrics.settleTimeS);
@@ -169,8 +169,8 @@ describe('reopening a case', () => {
     const pr = runStudy(testVehicleScenario({ runs: 2, seed: 5, durationS: 200, mode: 'profiled', controllers: ['hyst'], dispersions: { initialAttitude: { mode: 'cone', maxAngleDeg: 60 } } }));
     if (!pr.ok) throw new Error(JSON.stringify(pr.errors));
     for (const r of pr.value.records) {
-      expect(r.runs[0].endS).toBeCloseTo(200, 6);
-      expect(r.runs[0].status).toBe('settled');
+      expect(r.runs[0]!.endS).toBeCloseTo(200, 6);
+      expect(r.runs[0]!.status).toBe('settled');
     }
     expect(pr.value.summary.settleDefinition).toContain('full duration');
   });

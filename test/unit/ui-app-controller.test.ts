@@ -70,8 +70,8 @@ describe('app controller', () => {
     const s = app.store.getState();
     expect(s.output?.runs.map((r) => r.key).sort()).toEqual(['hysteretic:profiled', 'pd:profiled', 'synergistic:profiled']);
     expect(s.outputScenario).toBe(s.scenario);
-    const run = s.output!.runs[0];
-    expect(app.clock.tMax).toBe(Math.max(...s.output!.runs.map((r) => r.trace.t[r.trace.n - 1])));
+    const run = s.output!.runs[0]!;
+    expect(app.clock.tMax).toBe(Math.max(...s.output!.runs.map((r) => r.trace.t[r.trace.n - 1]!)));
     expect(run.trace.n).toBeGreaterThan(100);
     app.dispose();
   });

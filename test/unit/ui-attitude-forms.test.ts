@@ -15,7 +15,7 @@ const FORMS = ['quaternion', 'euler', 'pointing', 'relative'] as const;
 function withAttitude(k: number, attitude: unknown): unknown {
   const s = structuredClone(demo) as { initial: { attitude: unknown }; targets: { attitude: unknown }[] };
   if (k === 0) s.initial.attitude = attitude;
-  else s.targets[k - 1].attitude = attitude;
+  else s.targets[k - 1]!.attitude = attitude;
   return s;
 }
 
@@ -70,7 +70,7 @@ describe('attitude form conversion', () => {
     const ref = new Quaternion(q[3], q[0], q[1], q[2]);
     const z = ref.rotateVector([0, 0, 1]) as number[];
     const x = ref.rotateVector([1, 0, 0]) as number[];
-    spec.pointing.inertialDirection.forEach((v, i) => expect(v).toBeCloseTo(z[i], 11));
-    spec.pointing.inertialSecondary.forEach((v, i) => expect(v).toBeCloseTo(x[i], 11));
+    spec.pointing.inertialDirection.forEach((v, i) => expect(v).toBeCloseTo(z[i]!, 11));
+    spec.pointing.inertialSecondary.forEach((v, i) => expect(v).toBeCloseTo(x[i]!, 11));
   });
 });

@@ -67,7 +67,7 @@ describe('pipeline runner', () => {
     advance(149);
     expect(workers).toHaveLength(0);
     advance(1);
-    expect(workers[0].received.map((r) => r.scenario)).toEqual(['s3']);
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s3']);
   });
 
   it('keeps only the newest waiting request while busy and discards the stale reply', () => {
@@ -75,12 +75,12 @@ describe('pipeline runner', () => {
     runner.runNow('a');
     runner.runNow('b');
     runner.runNow('c');
-    const w = workers[0];
+    const w = workers[0]!;
     expect(w.received.map((r) => r.scenario)).toEqual(['a']);
-    w.reply(w.received[0].id, 'out-a');
+    w.reply(w.received[0]!.id, 'out-a');
     expect(results).toEqual([]); // 'a' is stale: 'c' was requested after it
     expect(w.received.map((r) => r.scenario)).toEqual(['a', 'c']);
-    w.reply(w.received[1].id, 'out-c');
+    w.reply(w.received[1]!.id, 'out-c');
     expect(results).toEqual([{ value: 'out-c', scenario: 'c' }]);
     advance(1000);
     expect(runner.busy).toBe(false);
@@ -91,9 +91,9 @@ describe('pipeline runner', () => {
     runner.runNow('slow');
     advance(2500);
     runner.runNow('new');
-    expect(workers[0].terminated).toBe(true);
-    expect(workers[1].received.map((r) => r.scenario)).toEqual(['new']);
-    workers[1].reply(workers[1].received[0].id, 'out-new');
+    expect(workers[0]!.terminated).toBe(true);
+    expect(workers[1]!.received.map((r) => r.scenario)).toEqual(['new']);
+    workers[1]!.reply(workers[1]!.received[0]!.id, 'out-new');
     expect(results.map((r) => r.value)).toEqual(['out-new']);
   });
 
@@ -101,19 +101,19 @@ describe('pipeline runner', () => {
     const { runner, workers, results } = setup();
     runner.runNow('x');
     runner.cancel();
-    workers[0].reply(workers[0].received[0].id, 'out-x');
+    workers[0]!.reply(workers[0]!.received[0]!.id, 'out-x');
     expect(results).toEqual([]);
   });
 
   it('reports a crash of the newest job and recovers with a fresh worker', () => {
     const { runner, workers, crashes, results } = setup();
     runner.runNow('boom');
-    workers[0].onerror?.({ message: 'worker died', preventDefault() {} } as ErrorEvent);
+    workers[0]!.onerror?.({ message: 'worker died', preventDefault() {} } as ErrorEvent);
     expect(crashes).toEqual(['worker died']);
-    expect(workers[0].terminated).toBe(true);
+    expect(workers[0]!.terminated).toBe(true);
     runner.runNow('ok');
     expect(workers).toHaveLength(2);
-    workers[1].reply(workers[1].received[0].id, 'fine');
+    workers[1]!.reply(workers[1]!.received[0]!.id, 'fine');
     expect(results.map((r) => r.value)).toEqual(['fine']);
   });
 });

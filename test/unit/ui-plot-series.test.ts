@@ -18,7 +18,7 @@ function join(tables: Series[][]): Series[] {
   for (const t of tables) {
     const map = new Map<number, number | null>();
     const x = t[0] as ArrayLike<number>;
-    for (let i = 0; i < x.length; i++) map.set(x[i], t[1][i]);
+    for (let i = 0; i < x.length; i++) map.set(x[i]!, t[1]![i]!);
     out.push(xs.map((v) => (map.has(v) ? map.get(v)! : null)));
   }
   return out;
@@ -50,59 +50,59 @@ describe('plot series from a demo run', () => {
       for (const d of p.data) expect(d.length, p.id).toBeGreaterThan(0);
     }
     // Error angle: both runs, rad → deg.
-    const ea = byId['error-angle'];
+    const ea = byId['error-angle']!;
     expect(ea.series.map((s) => s.label)).toEqual([`${syn.label} (profiled)`, `${pd.label} (profiled)`]);
     const k = Math.floor(n / 3);
-    const tk = syn.trace.t[k];
+    const tk = syn.trace.t[k]!;
     const row = Array.from(ea.data[0] as ArrayLike<number>).indexOf(tk);
-    expect(ea.data[1][row]).toBeCloseTo(syn.trace.errorAngle[k] * DEG, 12);
+    expect(ea.data[1]![row]).toBeCloseTo(syn.trace.errorAngle[k]! * DEG, 12);
     // Body rate: ω_y of sample k, rad/s → deg/s.
-    expect(byId['body-rate'].data[2][k]).toBeCloseTo(syn.trace.omega[3 * k + 1] * DEG, 12);
+    expect(byId['body-rate']!.data[2]![k]).toBeCloseTo(syn.trace.omega[3 * k + 1]! * DEG, 12);
     // Wheel momentum: wheel 3 of sample k, N·m·s → mN·m·s; then the ± limit lines.
     const N = syn.trace.nWheels;
-    const wm = byId['wheel-momentum'];
-    expect(wm.data[3][k]).toBeCloseTo(syn.trace.hWheel[N * k + 2] * 1e3, 12);
-    const hMax = out.vehicle.maxMomentumNms[0] * 1e3;
+    const wm = byId['wheel-momentum']!;
+    expect(wm.data[3]![k]).toBeCloseTo(syn.trace.hWheel[N * k + 2]! * 1e3, 12);
+    const hMax = out.vehicle.maxMomentumNms[0]! * 1e3;
     expect(wm.series.slice(N).map((s) => s.label)).toEqual(['+h max', '−h max']);
-    expect(wm.data[N + 1][0]).toBeCloseTo(hMax, 12);
-    expect(wm.data[N + 2][n - 1]).toBeCloseTo(-hMax, 12);
+    expect(wm.data[N + 1]![0]).toBeCloseTo(hMax, 12);
+    expect(wm.data[N + 2]![n - 1]).toBeCloseTo(-hMax, 12);
     // Torque: delivered wheel torque, N·m → mN·m.
-    expect(byId['wheel-torque'].data[1][k]).toBeCloseTo(syn.trace.wheelTorque[N * k] * 1e3, 12);
+    expect(byId['wheel-torque']!.data[1]![k]).toBeCloseTo(syn.trace.wheelTorque[N * k]! * 1e3, 12);
     // Logic, potential and W: the trace values as they are, with the engine's jump times.
-    expect(byId.logic.series[0].stepped).toBe(true);
-    expect(byId.logic.jumpTimes).toEqual(syn.jumps.map((j) => j.t));
-    expect(byId.potential.data[1][k]).toBe(syn.trace.potential[k]);
-    expect(byId.potential.data[2][k]).toBe(syn.trace.potentialMin[k]);
-    expect(byId.potential.bands).toEqual([{ upper: 1, lower: 2, color: expect.any(String) }]);
-    expect(byId.lyapunov.intervals).toHaveLength(syn.monitor.length);
+    expect(byId.logic!.series[0]!.stepped).toBe(true);
+    expect(byId.logic!.jumpTimes).toEqual(syn.jumps.map((j) => j.t));
+    expect(byId.potential!.data[1]![k]).toBe(syn.trace.potential[k]);
+    expect(byId.potential!.data[2]![k]).toBe(syn.trace.potentialMin[k]);
+    expect(byId.potential!.bands).toEqual([{ upper: 1, lower: 2, color: expect.any(String) }]);
+    expect(byId.lyapunov!.intervals).toHaveLength(syn.monitor.length);
     // Hybrid time: j as a stepped series on its own axis.
-    const ht = byId['hybrid-time'];
+    const ht = byId['hybrid-time']!;
     expect(ht.series[1]).toMatchObject({ label: 'j', stepped: true, scale: 'j' });
-    expect(ht.data[2][n - 1]).toBe(syn.trace.j[n - 1]);
+    expect(ht.data[2]![n - 1]).toBe(syn.trace.j[n - 1]);
   });
 
   it('says why a smooth law has no logic, potential or hybrid-time plot', () => {
     const plots = buildPlots(out, ['pd:profiled'], { logError: true }, join);
     const byId = Object.fromEntries(plots.map((p) => [p.id, p]));
-    expect(byId.logic.empty).toMatch(/smooth law/);
-    expect(byId.potential.empty).toMatch(/no potential family/);
-    expect(byId['hybrid-time'].empty).toMatch(/no jumps/);
-    expect(byId['error-angle'].log).toBe(true);
+    expect(byId.logic!.empty).toMatch(/smooth law/);
+    expect(byId.potential!.empty).toMatch(/no potential family/);
+    expect(byId['hybrid-time']!.empty).toMatch(/no jumps/);
+    expect(byId['error-angle']!.log).toBe(true);
     // Log axis: non-positive samples become gaps, never NaN.
-    for (const v of Array.from(byId['error-angle'].data[1])) expect(v === null || (v as number) > 0).toBe(true);
+    for (const v of Array.from(byId['error-angle']!.data[1]!)) expect(v === null || (v as number) > 0).toBe(true);
   });
 
   it('aligns runs with different sample times on the union of times', () => {
-    const [a, b] = out.runs;
+    const a = out.runs[0]!, b = out.runs[1]!;
     const shifted = { ...b, trace: { ...b.trace, t: b.trace.t.map((x) => x + 0.05) } };
     const data = alignRuns([a, shifted], (r) => r.trace.errorAngle.subarray(0, r.trace.n), join);
-    expect(data[0].length).toBe(a.trace.n + b.trace.n);
-    expect(Array.from(data[1]).filter((v) => v === null).length).toBe(b.trace.n);
+    expect(data[0]!.length).toBe(a.trace.n + b.trace.n);
+    expect(Array.from(data[1]!).filter((v) => v === null).length).toBe(b.trace.n);
   });
 
   it('shows only the error plot, saying so, when no run is selected', () => {
     const plots = buildPlots(out, [], { logError: false }, join);
     expect(plots).toHaveLength(1);
-    expect(plots[0].empty).toBe('No run selected');
+    expect(plots[0]!.empty).toBe('No run selected');
   });
 });

@@ -171,7 +171,7 @@ describe('app store dirty flag and validation', () => {
     expect(store.getState().validation.ok).toBe(true);
     store.edit('a.x', -1);
     expect(store.getState().validation.ok).toBe(false);
-    expect(store.getState().validation.errors[0].path).toBe('a.x');
+    expect(store.getState().validation.errors[0]!.path).toBe('a.x');
     advance(5000);
     store.edit('a.x', 1);
     expect(store.getState().validation.ok).toBe(true);

@@ -50,11 +50,11 @@ function binByHand(values: (number | null)[], edges: number[]): { counts: number
   const counts = new Array(edges.length - 1).fill(0);
   let overflow = 0;
   for (const v of values) {
-    if (v === null || v > edges[edges.length - 1]) {
+    if (v === null || v > edges[edges.length - 1]!) {
       overflow++;
       continue;
     }
-    let k = edges.findIndex((e, i) => i < edges.length - 1 && v >= e && (v < edges[i + 1] || i === edges.length - 2));
+    let k = edges.findIndex((e, i) => i < edges.length - 1 && v >= e && (v < edges[i + 1]! || i === edges.length - 2));
     if (k < 0) k = 0; // below the first edge (not expected: all quantities are ≥ 0)
     counts[k]++;
   }
@@ -69,11 +69,11 @@ describe('histogram layout on a real study', () => {
       const L = layoutHistogram(hists, r.summary.controllers.map((c) => c.label), q, SIZE);
       r.summary.controllers.forEach((c, ci) => {
         const bars = L.bars.filter((b) => b.controller === ci);
-        expect(bars.length, q.key).toBe(hists[ci].counts.length + 1);
+        expect(bars.length, q.key).toBe(hists[ci]!.counts.length + 1);
         expect(bars.reduce((s, b) => s + b.count, 0), `${q.key} ${c.controllerId}`).toBe(c.flyable);
         expect(L.totals[ci]).toBe(c.flyable);
-        const raw = r.records.map((rec) => rec.runs[ci]).filter((x) => x.status !== 'unflyable');
-        const hand = binByHand(raw.map(VALUE[q.key]), hists[ci].edges);
+        const raw = r.records.map((rec) => rec.runs[ci]!).filter((x) => x.status !== 'unflyable');
+        const hand = binByHand(raw.map(VALUE[q.key]!), hists[ci]!.edges);
         expect(bars.map((b) => b.count), `${q.key} ${c.controllerId}`).toEqual([...hand.counts, hand.overflow]);
       });
     }
@@ -83,7 +83,7 @@ describe('histogram layout on a real study', () => {
     const r = result();
     for (const q of QUANTITIES) {
       const L = layoutHistogram(r.summary.controllers.map((c) => c.histograms[q.key]), ['a', 'b', 'c'], q, SIZE);
-      const top = L.yTicks[L.yTicks.length - 1];
+      const top = L.yTicks[L.yTicks.length - 1]!;
       expect(L.yTicks[0]).toEqual({ value: 0, y: L.plot.bottom });
       expect(top.value).toBeGreaterThanOrEqual(L.maxCount);
       expect(top.y).toBeCloseTo(L.plot.top, 9);
@@ -95,14 +95,14 @@ describe('histogram layout on a real study', () => {
       }
       // Left to right by bin, controllers side by side within a bin, overflow past the separator.
       const c0 = L.bars.filter((b) => b.controller === 0);
-      for (let k = 1; k < c0.length; k++) expect(c0[k].x).toBeGreaterThan(c0[k - 1].x);
+      for (let k = 1; k < c0.length; k++) expect(c0[k]!.x).toBeGreaterThan(c0[k - 1]!.x);
       const nBins = c0.length - 1;
       for (const b of L.bars) {
         if (b.bin === nBins) expect(b.x).toBeGreaterThan(L.separatorX);
         else expect(b.x + b.w).toBeLessThan(L.separatorX);
       }
       const inBin0 = L.bars.filter((b) => b.bin === 0).sort((a, b) => a.controller - b.controller);
-      for (let c = 1; c < inBin0.length; c++) expect(inBin0[c].x).toBeGreaterThanOrEqual(inBin0[c - 1].x + inBin0[c - 1].w);
+      for (let c = 1; c < inBin0.length; c++) expect(inBin0[c]!.x).toBeGreaterThanOrEqual(inBin0[c - 1]!.x + inBin0[c - 1]!.w);
     }
   });
 
@@ -125,7 +125,7 @@ describe('histogram layout on a real study', () => {
       const labels = [...A.xLabels, A.overflow].sort((a, b) => a.x - b.x);
       const halfW = (t: string) => (t.length * 0.6 * 9.5) / 2;
       for (let k = 1; k < labels.length; k++) {
-        expect(labels[k].x - labels[k - 1].x, `${q.key}: "${labels[k - 1].text}" vs "${labels[k].text}"`).toBeGreaterThan(halfW(labels[k].text) + halfW(labels[k - 1].text));
+        expect(labels[k]!.x - labels[k - 1]!.x, `${q.key}: "${labels[k - 1]!.text}" vs "${labels[k]!.text}"`).toBeGreaterThan(halfW(labels[k]!.text) + halfW(labels[k - 1]!.text));
       }
     }
   });

@@ -33,7 +33,7 @@ function result(): StudyResult {
     controllers: ['pd', 'hyst'],
     dispersions: { initialAttitude: { mode: 'uniform' } },
   }) as { targets: { attitude: unknown }[] };
-  json.targets[0].attitude = { quaternion: T };
+  json.targets[0]!.attitude = { quaternion: T };
   const r = runStudy(json);
   if (!r.ok) throw new Error(`study refused: ${JSON.stringify(r.errors)}`);
   cached = r.value;
@@ -43,10 +43,10 @@ function result(): StudyResult {
 /** WCAG 2.1 relative luminance of an sRGB colour with components in [0, 1]. */
 function luminance(c: readonly number[]): number {
   const lin = (v: number) => (v <= 0.04045 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4);
-  return 0.2126 * lin(c[0]) + 0.7152 * lin(c[1]) + 0.0722 * lin(c[2]);
+  return 0.2126 * lin(c[0]!) + 0.7152 * lin(c[1]!) + 0.0722 * lin(c[2]!);
 }
 const contrast = (a: readonly number[], b: readonly number[]) => {
-  const [l1, l2] = [luminance(a), luminance(b)].sort((x, y) => y - x);
+  const [l1, l2] = [luminance(a), luminance(b)].sort((x, y) => y - x) as [number, number];
   return (l1 + 0.05) / (l2 + 0.05);
 };
 
@@ -67,12 +67,12 @@ describe('outcome map geometry', () => {
         axis = axis.map((x) => -x) as [number, number, number];
       }
       const r0 = angle / Math.PI;
-      for (let k = 0; k < 3; k++) expect(g.positions[3 * i + k]).toBeCloseTo(axis[k] * r0, 5);
-      expect(Math.hypot(g.positions[3 * i], g.positions[3 * i + 1], g.positions[3 * i + 2])).toBeCloseTo(r0, 5);
+      for (let k = 0; k < 3; k++) expect(g.positions[3 * i + k]).toBeCloseTo(axis[k]! * r0, 5);
+      expect(Math.hypot(g.positions[3 * i]!, g.positions[3 * i + 1]!, g.positions[3 * i + 2]!)).toBeCloseTo(r0, 5);
       expect(g.angleDeg[i]).toBeCloseTo((angle * 180) / Math.PI, 6);
       expect(g.far[i]).toBe(qe.w < 0 ? 1 : 0);
       expect(g.caseIndex[i]).toBe(rec.draw.index);
-      hollow += g.far[i];
+      hollow += g.far[i]!;
     });
     // Uniform starts: both hemispheres occur.
     expect(hollow).toBeGreaterThan(0);
@@ -84,22 +84,22 @@ describe('outcome map geometry', () => {
     const points = outcomeMap(r.records);
     for (const ci of [0, 1]) {
       const g = mapGeometry(points, ci, 'settle');
-      const settled = r.records.map((rec) => rec.runs[ci]).filter((x) => x.status === 'settled').map((x) => x.settleTimeS!);
+      const settled = r.records.map((rec) => rec.runs[ci]!).filter((x) => x.status === 'settled').map((x) => x.settleTimeS!);
       expect(settled.length).toBeGreaterThan(1);
       expect(g.settleMinS).toBe(Math.min(...settled));
       expect(g.settleMaxS).toBe(Math.max(g.settleMinS + 1, Math.max(...settled)));
       for (let i = 0; i < g.count; i++) {
         const col = Array.from(g.colours.subarray(3 * i, 3 * i + 3));
-        const o = g.outcome[i];
-        const t = g.settleTimeS[i];
+        const o = g.outcome[i]!;
+        const t = g.settleTimeS[i]!;
         const expected = ['settled', 'unwound', 'chattered'].includes(o) && t !== null ? settleRamp((t - g.settleMinS) / (g.settleMaxS - g.settleMinS)) : hexToRgb(OUTCOME_COLOURS[o]);
-        for (let k = 0; k < 3; k++) expect(col[k]).toBeCloseTo(expected[k], 6);
-        expect(o).toBe(points[i].outcome[ci]);
+        for (let k = 0; k < 3; k++) expect(col[k]).toBeCloseTo(expected[k]!, 6);
+        expect(o).toBe(points[i]!.outcome[ci]);
       }
       const byCategory = mapGeometry(points, ci, 'outcome');
       for (let i = 0; i < byCategory.count; i++) {
-        const c = hexToRgb(OUTCOME_COLOURS[byCategory.outcome[i]]);
-        for (let k = 0; k < 3; k++) expect(byCategory.colours[3 * i + k]).toBeCloseTo(c[k], 6);
+        const c = hexToRgb(OUTCOME_COLOURS[byCategory.outcome[i]!]);
+        for (let k = 0; k < 3; k++) expect(byCategory.colours[3 * i + k]).toBeCloseTo(c[k]!, 6);
       }
       // Category counts cover every case.
       expect(OUTCOMES.reduce((s, o) => s + g.counts[o], 0)).toBe(g.count);

@@ -99,15 +99,15 @@ function setup(scenario: unknown, opts: { cores?: number; hardStopMs?: number; s
 async function exportsOf(session: StudySession, exported: ExportRequest[]) {
   await session.exportCases();
   await session.exportSummary();
-  const csv = exported[exported.length - 2];
-  const json = exported[exported.length - 1];
+  const csv = exported[exported.length - 2]!;
+  const json = exported[exported.length - 1]!;
   return { csv: String(csv.content), csvName: csv.suggestedName, json: String(json.content), jsonName: json.suggestedName };
 }
 
 /** Data rows of the cases CSV as objects (our own tiny parser: no quoted commas in these rows but the reason). */
 function csvRows(text: string): Record<string, string>[] {
   const lines = text.split('\n').filter((l) => l !== '' && !l.startsWith('#'));
-  const head = lines[0].split(',');
+  const head = lines[0]!.split(',');
   return lines.slice(1).map((l) => Object.fromEntries(l.split(',').slice(0, head.length - 1).map((v, i) => [head[i], v])));
 }
 
@@ -133,24 +133,24 @@ describe('study session: results do not depend on the number of workers', () => 
       expect(e.jsonName).toBe('study-test-vehicle-study-summary.json');
       outs.push(e);
     }
-    expect(outs[1].csv).toBe(outs[0].csv);
-    expect(outs[2].csv).toBe(outs[0].csv);
-    expect(outs[1].json).toBe(outs[0].json);
-    expect(outs[2].json).toBe(outs[0].json);
+    expect(outs[1]!.csv).toBe(outs[0]!.csv);
+    expect(outs[2]!.csv).toBe(outs[0]!.csv);
+    expect(outs[1]!.json).toBe(outs[0]!.json);
+    expect(outs[2]!.json).toBe(outs[0]!.json);
 
     const ref = runStudy(json);
     if (!ref.ok) throw new Error('study refused');
-    expect(outs[0].csv).toBe(casesCsv(ref.value.info, ref.value.records, ref.value.summary));
-    expect(outs[0].json).toBe(summaryJson(ref.value.info, ref.value.summary, ref.value.records));
+    expect(outs[0]!.csv).toBe(casesCsv(ref.value.info, ref.value.records, ref.value.summary));
+    expect(outs[0]!.json).toBe(summaryJson(ref.value.info, ref.value.summary, ref.value.records));
 
     // One row per case × controller, with the engine's columns.
-    const rows = csvRows(outs[0].csv);
+    const rows = csvRows(outs[0]!.csv);
     expect(rows.length).toBe(study.runs * study.controllers.length);
-    expect(outs[0].csv).toContain(CASE_COLUMNS.join(','));
+    expect(outs[0]!.csv).toContain(CASE_COLUMNS.join(','));
     const keys = new Set(rows.map((r) => `${r.case}:${r.controller}`));
     expect(keys.size).toBe(rows.length);
     // The share the view shows (summary) against a count of the CSV rows by hand.
-    const summary = JSON.parse(outs[0].json).summary as { controllers: { controllerId: string; notSettledShare: number; flyable: number }[] };
+    const summary = JSON.parse(outs[0]!.json).summary as { controllers: { controllerId: string; notSettledShare: number; flyable: number }[] };
     for (const c of summary.controllers) {
       const mine = rows.filter((r) => r.controller === c.controllerId && r.status !== 'unflyable');
       const bad = mine.filter((r) => r.status === 'unsettled' || r.status === 'failed').length;
@@ -221,10 +221,10 @@ describe('study session: running, live results and cancel', () => {
     off();
     const s = t.session.store.getState();
     expect(s.phase).toBe('cancelled');
-    expect(InThreadWorker.spawned[1].dead).toBe(true);
+    expect(InThreadWorker.spawned[1]!.dead).toBe(true);
     expect(s.records.length).toBeGreaterThanOrEqual(3);
     // The hung worker's chunk (cases 2, 3 or a later one) is not among the results.
-    const hungChunk = InThreadWorker.spawned[1].received.find((m) => m.type === 'run');
+    const hungChunk = InThreadWorker.spawned[1]!.received.find((m) => m.type === 'run');
     if (hungChunk?.type === 'run') for (const i of hungChunk.indices) expect(s.records.some((r) => r.draw.index === i)).toBe(false);
     expect(s.warnings.filter((w) => w.path === 'workers')).toEqual([]);
   }, 60_000);
@@ -272,7 +272,7 @@ describe('study session: opening a case as a normal run', () => {
     t.clock.setRange(0, 100);
     t.clock.setTime(42);
     const s = t.session.store.getState();
-    const worst = s.summary!.controllers[1].worst[0];
+    const worst = s.summary!.controllers[1]!.worst[0]!;
     await t.session.openCase(worst.index, 'hyst');
     const doc = t.store.getState();
     const expected = studyCaseScenario(json, {}, worst.index);

@@ -26,13 +26,13 @@ import {
 const rng = makeRng(20260101, 7);
 const randomUnitVector = (): Float64Array => {
   const v = new Float64Array([rng.next() - 0.5, rng.next() - 0.5, rng.next() - 0.5]);
-  const n = Math.hypot(v[0], v[1], v[2]);
+  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
   return v.map((x) => x / n);
 };
 const randomAttitude = () => qRandomUniform(new Float64Array(4), rng);
 const sameAttitude = (a: ArrayLike<number>, b: ArrayLike<number>) => {
-  const s = a[0] * b[0] + a[1] * b[1] + a[2] * b[2] + a[3] * b[3] < 0 ? -1 : 1;
-  return Math.max(...[0, 1, 2, 3].map((i) => Math.abs(a[i] - s * b[i])));
+  const s = a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]! < 0 ? -1 : 1;
+  return Math.max(...[0, 1, 2, 3].map((i) => Math.abs(a[i]! - s * b[i]!)));
 };
 
 /** A body-frame object inside an identity "inertial" group inside a scene, as in the view. */
@@ -56,9 +56,9 @@ describe('engine attitude → three.js Object3D', () => {
       const v = randomUnitVector().map((x) => x * (0.1 + 3 * rng.next()));
       setObjectAttitude(body, q, 0);
       body.updateWorldMatrix(true, false);
-      body.localToWorld(w.set(v[0], v[1], v[2]));
+      body.localToWorld(w.set(v[0]!, v[1]!, v[2]));
       qRotate(vEng, q, v);
-      worst = Math.max(worst, Math.abs(w.x - vEng[0]), Math.abs(w.y - vEng[1]), Math.abs(w.z - vEng[2]));
+      worst = Math.max(worst, Math.abs(w.x - vEng[0]!), Math.abs(w.y - vEng[1]!), Math.abs(w.z - vEng[2]!));
     }
     expect(worst).toBeLessThan(1e-12);
   });
@@ -71,9 +71,9 @@ describe('engine attitude → three.js Object3D', () => {
       const v = randomUnitVector();
       setObjectAttitude(body, q);
       body.updateWorldMatrix(true, false);
-      body.localToWorld(w.set(v[0], v[1], v[2]));
-      const ref = new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0], v[1], v[2]]) as number[];
-      expect(Math.abs(w.x - ref[0]) + Math.abs(w.y - ref[1]) + Math.abs(w.z - ref[2])).toBeLessThan(1e-12);
+      body.localToWorld(w.set(v[0]!, v[1]!, v[2]));
+      const ref = new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0]!, v[1]!, v[2]!]) as number[];
+      expect(Math.abs(w.x - ref[0]!) + Math.abs(w.y - ref[1]!) + Math.abs(w.z - ref[2]!)).toBeLessThan(1e-12);
     }
   });
 
@@ -96,7 +96,7 @@ describe('engine attitude → three.js Object3D', () => {
     for (let k = 0; k < 5; k++) {
       quaternionFromArray(tq, flat, 4 * k);
       quaternionToArray(back, tq, 0);
-      expect(Array.from(back)).toEqual(Array.from(qs[k]));
+      expect(Array.from(back)).toEqual(Array.from(qs[k]!));
     }
   });
 
@@ -117,9 +117,9 @@ describe('engine attitude → three.js Object3D', () => {
       // Read the uploaded (single-precision) values back, as a shader or instanced path would.
       body.quaternion.set(attr.getX(k), attr.getY(k), attr.getZ(k), attr.getW(k));
       body.updateWorldMatrix(true, false);
-      body.localToWorld(w.set(vs[3 * k], vs[3 * k + 1], vs[3 * k + 2]));
+      body.localToWorld(w.set(vs[3 * k]!, vs[3 * k + 1]!, vs[3 * k + 2]));
       qRotate(vEng, qs.subarray(4 * k, 4 * k + 4), vs.subarray(3 * k, 3 * k + 3));
-      worst = Math.max(worst, Math.abs(w.x - vEng[0]), Math.abs(w.y - vEng[1]), Math.abs(w.z - vEng[2]));
+      worst = Math.max(worst, Math.abs(w.x - vEng[0]!), Math.abs(w.y - vEng[1]!), Math.abs(w.z - vEng[2]!));
     }
     expect(worst).toBeLessThan(1e-6);
     expect(worst).toBeGreaterThan(0); // the test really exercises single precision
@@ -151,7 +151,7 @@ describe('slerp between two samples (shorter arc)', () => {
       slerpFlat(o2, 0, a, 0, negB, 0, al);
       expect(sameAttitude(o1, o2)).toBeLessThan(1e-15);
       // Shorter arc about Z: the angle at alpha is alpha·0.6, not the long way round.
-      expect(2 * Math.atan2(Math.hypot(o2[0], o2[1], o2[2]), Math.abs(o2[3]))).toBeCloseTo(al * 0.6, 13);
+      expect(2 * Math.atan2(Math.hypot(o2[0]!, o2[1]!, o2[2]!), Math.abs(o2[3]!))).toBeCloseTo(al * 0.6, 13);
     }
   });
 
@@ -193,12 +193,12 @@ describe('engine mat3 (column-major) → three Matrix3 / Matrix4', () => {
       qToMat3(m, q);
       matrix3FromMat3(m3, m);
       ref3.setFromMatrix4(ref4.makeRotationFromQuaternion(new TQuat(q[0], q[1], q[2], q[3])));
-      for (let i = 0; i < 9; i++) expect(Math.abs(m3.elements[i] - ref3.elements[i])).toBeLessThan(1e-15);
+      for (let i = 0; i < 9; i++) expect(Math.abs(m3.elements[i]! - ref3.elements[i]!)).toBeLessThan(1e-15);
       // And it acts on vectors as the engine does.
       const v = randomUnitVector();
       const w = new Vector3(v[0], v[1], v[2]).applyMatrix3(m3);
       const e = qRotate(new Float64Array(3), q, v);
-      expect(Math.abs(w.x - e[0]) + Math.abs(w.y - e[1]) + Math.abs(w.z - e[2])).toBeLessThan(1e-14);
+      expect(Math.abs(w.x - e[0]!) + Math.abs(w.y - e[1]!) + Math.abs(w.z - e[2]!)).toBeLessThan(1e-14);
       const back = new Float64Array(9);
       mat3FromMatrix3(back, m3);
       expect(Array.from(back)).toEqual(Array.from(m));
@@ -237,13 +237,13 @@ describe('scene frame = inertial frame, Z_I drawn up', () => {
       [0, -5, 0],
       [3, 4, 1],
     ]) {
-      cam.position.set(pos[0], pos[1], pos[2]);
+      cam.position.set(pos[0]!, pos[1]!, pos[2]);
       cam.lookAt(0, 0, 0);
       cam.updateMatrixWorld();
       // The camera's local +Y (screen up) in world coordinates.
       const up = new Vector3(0, 1, 0).transformDirection(cam.matrixWorld);
-      const horiz = Math.hypot(pos[0], pos[1]);
-      expect(up.z).toBeCloseTo(horiz / Math.hypot(pos[0], pos[1], pos[2]), 12);
+      const horiz = Math.hypot(pos[0]!, pos[1]!);
+      expect(up.z).toBeCloseTo(horiz / Math.hypot(pos[0]!, pos[1]!, pos[2]!), 12);
     }
   });
 });

@@ -34,7 +34,7 @@ const rng = makeRng(4242, 1);
 const randomDir = () => {
   for (;;) {
     const v = [2 * rng.next() - 1, 2 * rng.next() - 1, 2 * rng.next() - 1];
-    const n = Math.hypot(v[0], v[1], v[2]);
+    const n = Math.hypot(v[0]!, v[1]!, v[2]!);
     if (n > 0.1 && n <= 1) return Float64Array.from(v.map((x) => x / n));
   }
 };
@@ -59,10 +59,10 @@ function drawnTriangles(mesh: Mesh): Float64Array {
 function rayDistance(tris: Float64Array, d: ArrayLike<number>): number {
   let best = Infinity;
   for (let k = 0; k < tris.length; k += 9) {
-    const ax = tris[k], ay = tris[k + 1], az = tris[k + 2];
-    const e1x = tris[k + 3] - ax, e1y = tris[k + 4] - ay, e1z = tris[k + 5] - az;
-    const e2x = tris[k + 6] - ax, e2y = tris[k + 7] - ay, e2z = tris[k + 8] - az;
-    const px = d[1] * e2z - d[2] * e2y, py = d[2] * e2x - d[0] * e2z, pz = d[0] * e2y - d[1] * e2x;
+    const ax = tris[k]!, ay = tris[k + 1]!, az = tris[k + 2]!;
+    const e1x = tris[k + 3]! - ax, e1y = tris[k + 4]! - ay, e1z = tris[k + 5]! - az;
+    const e2x = tris[k + 6]! - ax, e2y = tris[k + 7]! - ay, e2z = tris[k + 8]! - az;
+    const px = d[1]! * e2z - d[2]! * e2y, py = d[2]! * e2x - d[0]! * e2z, pz = d[0]! * e2y - d[1]! * e2x;
     const det = e1x * px + e1y * py + e1z * pz;
     if (Math.abs(det) < 1e-14) continue;
     const inv = 1 / det;
@@ -70,7 +70,7 @@ function rayDistance(tris: Float64Array, d: ArrayLike<number>): number {
     const u = (tx * px + ty * py + tz * pz) * inv;
     if (u < -1e-9 || u > 1 + 1e-9) continue;
     const qx = ty * e1z - tz * e1y, qy = tz * e1x - tx * e1z, qz = tx * e1y - ty * e1x;
-    const v = (d[0] * qx + d[1] * qy + d[2] * qz) * inv;
+    const v = (d[0]! * qx + d[1]! * qy + d[2]! * qz) * inv;
     if (v < -1e-9 || u + v > 1 + 1e-9) continue;
     const t = (e2x * qx + e2y * qy + e2z * qz) * inv;
     if (t > 0 && t < best) best = t;
@@ -89,7 +89,7 @@ function checkDrawnEnvelope(env: MomentumEnvelopeMesh, capacity: (d: Float64Arra
   let worstV = 0;
   for (let k = 0; k < pos.count; k++) {
     v.fromBufferAttribute(pos, k).applyMatrix4(obj.mesh.matrixWorld).divideScalar(scale);
-    worstV = Math.max(worstV, Math.abs(v.x - env.vertices[3 * k]), Math.abs(v.y - env.vertices[3 * k + 1]), Math.abs(v.z - env.vertices[3 * k + 2]));
+    worstV = Math.max(worstV, Math.abs(v.x - env.vertices[3 * k]!), Math.abs(v.y - env.vertices[3 * k + 1]!), Math.abs(v.z - env.vertices[3 * k + 2]!));
   }
   const vmax = Math.max(...Array.from(env.vertices, Math.abs));
   expect(worstV / vmax).toBeLessThan(1e-6); // Float32 storage
@@ -106,7 +106,7 @@ function checkDrawnEnvelope(env: MomentumEnvelopeMesh, capacity: (d: Float64Arra
     worst = Math.max(worst, Math.abs(r - cap) / cap);
     if (k < 40) {
       ray.set(new Vector3(0, 0, 0), new Vector3(d[0], d[1], d[2]));
-      const hit = ray.intersectObject(obj.mesh, false)[0];
+      const hit = ray.intersectObject(obj.mesh, false)[0]!;
       expect(Math.abs(hit.distance / scale - cap) / cap).toBeLessThan(1e-5);
     }
   }
@@ -118,7 +118,7 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
   it('orthogonal triad: the cube, capacity h / max|d_i|', () => {
     const h = 0.02;
     const env = testZonotope(TRIAD_AXES, [h, h, h]);
-    checkDrawnEnvelope(env, (d) => h / Math.max(Math.abs(d[0]), Math.abs(d[1]), Math.abs(d[2])));
+    checkDrawnEnvelope(env, (d) => h / Math.max(Math.abs(d[0]!), Math.abs(d[1]!), Math.abs(d[2]!)));
   });
 
   it('4-wheel pyramid (rhombic dodecahedron): 2.3094 h on body axes, 2.0 h on a wheel axis, 1.6330 h worst', () => {
@@ -130,12 +130,12 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
     const capF = testZonotopeCapacity(axes, hm);
     const { tris, scale } = checkDrawnEnvelope(env, capF);
     const along = (d: number[]) => {
-      const n = Math.hypot(d[0], d[1], d[2]);
+      const n = Math.hypot(d[0]!, d[1]!, d[2]!);
       return rayDistance(tris, d.map((x) => x / n)) / scale / h;
     };
     expect(along([1, 0, 0])).toBeCloseTo(2.3094, 4);
     expect(along([0, 0, 1])).toBeCloseTo(2.3094, 4);
-    expect(along([axes[0], axes[1], axes[2]])).toBeCloseTo(2.0, 4);
+    expect(along([axes[0]!, axes[1]!, axes[2]!])).toBeCloseTo(2.0, 4);
     expect(along([1, 1, 0])).toBeCloseTo(1.633, 4);
     expect(along([1, 0, 1])).toBeCloseTo(1.633, 4);
   });
@@ -150,7 +150,7 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
     expect(rayDistance(tris, [Math.SQRT1_2, Math.SQRT1_2, 0]) / scale / h).toBeCloseTo(1.633, 4);
     const tri = unwrap(makeWheelArray(orthogonalTriad(limits)));
     const zt = momentumEnvelope(tri);
-    checkDrawnEnvelope({ vertices: zt.vertices, triangles: zt.triangles }, (d) => h / Math.max(Math.abs(d[0]), Math.abs(d[1]), Math.abs(d[2])));
+    checkDrawnEnvelope({ vertices: zt.vertices, triangles: zt.triangles }, (d) => h / Math.max(Math.abs(d[0]!), Math.abs(d[1]!), Math.abs(d[2]!)));
   });
 
   it('the display scale puts the farthest vertex at the inset radius', () => {
@@ -164,7 +164,7 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
 describe('total momentum warning colour', () => {
   it('fraction = |H| / capacity(H/|H|); thresholds 0.7 (amber) and 0.9 (red)', () => {
     const h = 0.01;
-    const cap = (d: Float64Array) => h / Math.max(Math.abs(d[0]), Math.abs(d[1]), Math.abs(d[2]));
+    const cap = (d: Float64Array) => h / Math.max(Math.abs(d[0]!), Math.abs(d[1]!), Math.abs(d[2]!));
     const dir = new Float64Array(3);
     // Along (1,1,0)/√2 the cube reaches √2 h: |H| = h is 1/√2 ≈ 0.707 of it.
     expect(momentumFraction([h / Math.SQRT2, h / Math.SQRT2, 0], cap, dir)).toBeCloseTo(Math.SQRT1_2, 14);
@@ -200,16 +200,16 @@ describe('total momentum warning colour', () => {
       mc.update(locateSample(run.trace.t, run.trace.n, k, c));
       levels.push(mc.level);
       colors.push(mc.totalArrow.material.color.getHex());
-      if (k < 3) expect(mc.fraction).toBeCloseTo(f[k], 12);
+      if (k < 3) expect(mc.fraction).toBeCloseTo(f[k]!, 12);
     }
     expect(levels).toEqual(['normal', 'amber', 'red', 'normal']);
     const hex = (x: number) => new Color().setHex(x).getHex();
     expect(colors).toEqual([hex(MOMENTUM_COLORS.normal), hex(MOMENTUM_COLORS.amber), hex(MOMENTUM_COLORS.red), hex(MOMENTUM_COLORS.normal)]);
     // Last sample: wheel 1 at −0.3 h_max → its arrow points along −X_B with length 0.3 h_max × scale.
-    const a = mc.wheelArrows[0];
+    const a = mc.wheelArrows[0]!;
     expect(a.direction.x).toBeCloseTo(-1, 14);
     expect(a.length).toBeCloseTo(0.3 * hm * mc.scale, 14);
-    expect(mc.wheelArrows[1].visible).toBe(false); // zero momentum: no arrow
+    expect(mc.wheelArrows[1]!.visible).toBe(false); // zero momentum: no arrow
     expect(mc.totalArrow.length).toBeCloseTo(0.3 * hm * mc.scale, 14);
   });
 
@@ -217,7 +217,8 @@ describe('total momentum warning colour', () => {
     const spec = { n: 50, dt: 1, q0: [0, 0, 0, 1], omegaBody: [0, 0.01, 0] as [number, number, number], jumpSamples: [], logicKind: 'none' as const };
     const scene = new AttitudeScene();
     scene.setRuns([syntheticViewRun(spec, 'A'), syntheticViewRun(spec, 'B')], 'overlay');
-    const [a, b] = scene.viewports[0].runs;
+    const shown = scene.viewports[0]!.runs;
+    const a = shown[0]!, b = shown[1]!;
     expect(a.momentum.scale).toBe(b.momentum.scale);
     expect(a.momentum.envelope).not.toBeNull();
     expect(b.momentum.envelope).toBeNull();

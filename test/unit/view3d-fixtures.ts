@@ -71,7 +71,7 @@ export function syntheticTrace(spec: SyntheticRunSpec, nWheels = 3): RunTrace {
     tr.segment[k] = k < n / 2 ? 0 : 1;
     syntheticAttitude(q, spec, t);
     const s = spec.alternateSign && k % 2 === 1 ? -1 : 1;
-    for (let i = 0; i < 4; i++) tr.q[4 * k + i] = s * q[i];
+    for (let i = 0; i < 4; i++) tr.q[4 * k + i] = s * q[i]!;
     // Reference: a slower rotation about Z_I from the same start.
     qMultiply(qr, qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.01 * t), spec.q0);
     tr.qRef.set(qr, 4 * k);
@@ -82,7 +82,7 @@ export function syntheticTrace(spec: SyntheticRunSpec, nWheels = 3): RunTrace {
 }
 
 export function syntheticJumps(spec: SyntheticRunSpec, tr: RunTrace): ViewJump[] {
-  return spec.jumpSamples.map((k) => ({ t: tr.t[k], j: tr.j[k], from: tr.logic[k - 1], to: tr.logic[k] }));
+  return spec.jumpSamples.map((k) => ({ t: tr.t[k]!, j: tr.j[k]!, from: tr.logic[k - 1]!, to: tr.logic[k]! }));
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -103,24 +103,24 @@ export function testZonotope(axes: ArrayLike<number>, hmax: ArrayLike<number>): 
   for (let i = 0; i < nW; i++)
     for (let j = i + 1; j < nW; j++) {
       const ai = a(i), aj = a(j);
-      const nrm = [ai[1] * aj[2] - ai[2] * aj[1], ai[2] * aj[0] - ai[0] * aj[2], ai[0] * aj[1] - ai[1] * aj[0]];
+      const nrm = [ai[1]! * aj[2]! - ai[2]! * aj[1]!, ai[2]! * aj[0]! - ai[0]! * aj[2]!, ai[0]! * aj[1]! - ai[1]! * aj[0]!];
       for (const s of [1, -1]) {
         const c = [0, 0, 0];
         for (let k = 0; k < nW; k++) {
           if (k === i || k === j) continue;
           const ak = a(k);
-          const sg = Math.sign(s * (nrm[0] * ak[0] + nrm[1] * ak[1] + nrm[2] * ak[2]));
-          for (let r = 0; r < 3; r++) c[r] += sg * hmax[k] * ak[r];
+          const sg = Math.sign(s * (nrm[0]! * ak[0]! + nrm[1]! * ak[1]! + nrm[2]! * ak[2]!));
+          for (let r = 0; r < 3; r++) c[r]! += sg * hmax[k]! * ak[r]!;
         }
-        const corner = (si: number, sj: number) => [0, 1, 2].map((r) => c[r] + si * hmax[i] * ai[r] + sj * hmax[j] * aj[r]);
+        const corner = (si: number, sj: number) => [0, 1, 2].map((r) => c[r]! + si * hmax[i]! * ai[r]! + sj * hmax[j]! * aj[r]!);
         const quad = [corner(-1, -1), corner(1, -1), corner(1, 1), corner(-1, 1)];
         const base = verts.length / 3;
         for (const p of quad) verts.push(...p);
         // Orientation: (p1−p0)×(p2−p0) must point along s·n.
-        const e1 = [0, 1, 2].map((r) => quad[1][r] - quad[0][r]);
-        const e2 = [0, 1, 2].map((r) => quad[2][r] - quad[0][r]);
-        const cr = [e1[1] * e2[2] - e1[2] * e2[1], e1[2] * e2[0] - e1[0] * e2[2], e1[0] * e2[1] - e1[1] * e2[0]];
-        const out = s * (cr[0] * nrm[0] + cr[1] * nrm[1] + cr[2] * nrm[2]) > 0;
+        const e1 = [0, 1, 2].map((r) => quad[1]![r]! - quad[0]![r]!);
+        const e2 = [0, 1, 2].map((r) => quad[2]![r]! - quad[0]![r]!);
+        const cr = [e1[1]! * e2[2]! - e1[2]! * e2[1]!, e1[2]! * e2[0]! - e1[0]! * e2[2]!, e1[0]! * e2[1]! - e1[1]! * e2[0]!];
+        const out = s * (cr[0]! * nrm[0]! + cr[1]! * nrm[1]! + cr[2]! * nrm[2]!) > 0;
         if (out) tris.push(base, base + 1, base + 2, base, base + 2, base + 3);
         else tris.push(base, base + 2, base + 1, base, base + 3, base + 2);
       }
@@ -138,16 +138,16 @@ export function testZonotopeCapacity(axes: ArrayLike<number>, hmax: ArrayLike<nu
   for (let i = 0; i < nW; i++)
     for (let j = i + 1; j < nW; j++) {
       const ai = [axes[3 * i], axes[3 * i + 1], axes[3 * i + 2]], aj = [axes[3 * j], axes[3 * j + 1], axes[3 * j + 2]];
-      const nr = [ai[1] * aj[2] - ai[2] * aj[1], ai[2] * aj[0] - ai[0] * aj[2], ai[0] * aj[1] - ai[1] * aj[0]];
+      const nr = [ai[1]! * aj[2]! - ai[2]! * aj[1]!, ai[2]! * aj[0]! - ai[0]! * aj[2]!, ai[0]! * aj[1]! - ai[1]! * aj[0]!];
       normals.push(nr, nr.map((x) => -x));
     }
   return (d) => {
     let best = Infinity;
     for (const nr of normals) {
-      const nd = nr[0] * d[0] + nr[1] * d[1] + nr[2] * d[2];
+      const nd = nr[0]! * d[0]! + nr[1]! * d[1]! + nr[2]! * d[2]!;
       if (nd <= 1e-15) continue;
       let sup = 0;
-      for (let k = 0; k < nW; k++) sup += hmax[k] * Math.abs(nr[0] * axes[3 * k] + nr[1] * axes[3 * k + 1] + nr[2] * axes[3 * k + 2]);
+      for (let k = 0; k < nW; k++) sup += hmax[k]! * Math.abs(nr[0]! * axes[3 * k]! + nr[1]! * axes[3 * k + 1]! + nr[2]! * axes[3 * k + 2]!);
       best = Math.min(best, sup / nd);
     }
     return best;
@@ -172,7 +172,7 @@ export function pyramidAxes(): Float64Array {
 export function syntheticViewRun(spec: SyntheticRunSpec, label = 'run A', targets?: ViewTarget[]): ViewRun {
   const trace = syntheticTrace(spec, 3);
   const hmax = Float64Array.of(0.006, 0.006, 0.006);
-  const tEnd = trace.t[trace.n - 1];
+  const tEnd = trace.t[trace.n - 1]!;
   const tg: ViewTarget[] = targets ?? [
     { tStart: 0, tEnd: tEnd / 2, q: syntheticAttitude(new Float64Array(4), spec, tEnd / 2), label: 'first' },
     { tStart: tEnd / 2, tEnd, q: syntheticAttitude(new Float64Array(4), spec, tEnd), label: 'second' },

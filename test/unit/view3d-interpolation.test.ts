@@ -17,14 +17,14 @@ import { syntheticAttitude, syntheticViewRun } from './view3d-fixtures';
 const rng = makeRng(77, 3);
 
 const sameAttitude = (a: ArrayLike<number>, b: ArrayLike<number>) => {
-  const s = a[0] * b[0] + a[1] * b[1] + a[2] * b[2] + a[3] * b[3] < 0 ? -1 : 1;
-  return Math.max(...[0, 1, 2, 3].map((i) => Math.abs(a[i] - s * b[i])));
+  const s = a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]! < 0 ? -1 : 1;
+  return Math.max(...[0, 1, 2, 3].map((i) => Math.abs(a[i]! - s * b[i]!)));
 };
 
 function bruteLocate(t: ArrayLike<number>, n: number, time: number): number {
-  if (!(time >= t[0])) return 0;
+  if (!(time >= t[0]!)) return 0;
   let i = 0;
-  for (let k = 0; k < n; k++) if (t[k] <= time) i = k;
+  for (let k = 0; k < n; k++) if (t[k]! <= time) i = k;
   return i;
 }
 
@@ -83,7 +83,7 @@ describe('AttitudeScene.setTime poses the body by slerp between samples', () => 
     it(`matches the closed-form attitude at random times (stored signs ${alternateSign ? 'alternating' : 'continuous'})`, () => {
       const scene = new AttitudeScene();
       scene.setRuns([syntheticViewRun({ ...spec, alternateSign })], 'single');
-      const rc = scene.viewports[0].runs[0];
+      const rc = scene.viewports[0]!.runs[0]!;
       const exact = new Float64Array(4);
       let worst = 0;
       for (let k = 0; k < 500; k++) {
@@ -102,12 +102,12 @@ describe('AttitudeScene.setTime poses the body by slerp between samples', () => 
     const scene = new AttitudeScene();
     const run = syntheticViewRun(spec);
     scene.setRuns([run], 'single');
-    const rc = scene.viewports[0].runs[0];
+    const rc = scene.viewports[0]!.runs[0]!;
     const tr = run.trace;
     const t = 10.3 * spec.dt; // 30 % of the way from sample 10 to 11
     scene.setTime(t);
     for (let c = 0; c < 3; c++) {
-      const h = 0.7 * tr.hWheel[3 * 10 + c] + 0.3 * tr.hWheel[3 * 11 + c];
+      const h = 0.7 * tr.hWheel[3 * 10 + c]! + 0.3 * tr.hWheel[3 * 11 + c]!;
       // Triad wheels: H equals the wheel momenta component-wise.
       expect(rc.momentum.H[c]).toBeCloseTo(h, 15);
     }
@@ -117,10 +117,10 @@ describe('AttitudeScene.setTime poses the body by slerp between samples', () => 
     const qz = [0, 0, Math.sin(half), Math.cos(half)];
     const q0 = spec.q0;
     const expected = [
-      qz[3] * q0[0] + qz[0] * q0[3] + qz[1] * q0[2] - qz[2] * q0[1],
-      qz[3] * q0[1] - qz[0] * q0[2] + qz[1] * q0[3] + qz[2] * q0[0],
-      qz[3] * q0[2] + qz[0] * q0[1] - qz[1] * q0[0] + qz[2] * q0[3],
-      qz[3] * q0[3] - qz[0] * q0[0] - qz[1] * q0[1] - qz[2] * q0[2],
+      qz[3]! * q0[0]! + qz[0]! * q0[3]! + qz[1]! * q0[2]! - qz[2]! * q0[1]!,
+      qz[3]! * q0[1]! - qz[0]! * q0[2]! + qz[1]! * q0[3]! + qz[2]! * q0[0]!,
+      qz[3]! * q0[2]! + qz[0]! * q0[1]! - qz[1]! * q0[0]! + qz[2]! * q0[3]!,
+      qz[3]! * q0[3]! - qz[0]! * q0[0]! - qz[1]! * q0[1]! - qz[2]! * q0[2]!,
     ];
     expect(sameAttitude([rq.x, rq.y, rq.z, rq.w], expected)).toBeLessThan(1e-12);
     scene.dispose();
@@ -130,14 +130,14 @@ describe('AttitudeScene.setTime poses the body by slerp between samples', () => 
     const scene = new AttitudeScene();
     const run = syntheticViewRun(spec);
     scene.setRuns([run], 'single');
-    const rc = scene.viewports[0].runs[0];
-    const tEnd = run.trace.t[run.trace.n - 1];
+    const rc = scene.viewports[0]!.runs[0]!;
+    const tEnd = run.trace.t[run.trace.n - 1]!;
     scene.setTime(0.25 * tEnd);
     expect(rc.targetGhosts.map((g) => g.visible)).toEqual([true, false]);
     scene.setTime(0.75 * tEnd);
     expect(rc.targetGhosts.map((g) => g.visible)).toEqual([false, true]);
-    const g = rc.targetGhosts[1].quaternion;
-    expect(sameAttitude([g.x, g.y, g.z, g.w], run.targets[1].q)).toBe(0);
+    const g = rc.targetGhosts[1]!.quaternion;
+    expect(sameAttitude([g.x, g.y, g.z, g.w], run.targets[1]!.q)).toBe(0);
     scene.setOptions({ showTarget: false });
     expect(rc.targets.visible).toBe(false);
     scene.dispose();

@@ -111,7 +111,8 @@ describe('layouts', () => {
   it('overlay: the second body is translucent with the chosen opacity, the first opaque', () => {
     const s = new AttitudeScene({ options: { overlayOpacity: 0.4 } });
     s.setRuns(runs(), 'overlay');
-    const [a, b] = s.viewports[0].runs;
+    const shown = s.viewports[0]!.runs;
+    const a = shown[0]!, b = shown[1]!;
     const mat = (r: typeof a) => ((r.bus.children[0] as Mesh).material as Material);
     expect(mat(a).transparent).toBe(false);
     expect(mat(b).opacity).toBe(0.4);
@@ -127,17 +128,17 @@ describe('layouts', () => {
     s.setRuns(runs(), 'overlay');
     s.setTime(33);
     const disposed = new Set<unknown>();
-    const old = s.viewports[0];
+    const old = s.viewports[0]!;
     old.scene.traverse((o) => {
       const m = o as Mesh;
       if (m.geometry) m.geometry.addEventListener('dispose', () => disposed.add(m.geometry));
       if (m.material) (m.material as Material).addEventListener('dispose', () => disposed.add(m.material));
     });
-    const trailGeom: BufferGeometry = old.runs[0].trail.line.geometry;
+    const trailGeom: BufferGeometry = old.runs[0]!.trail.line.geometry;
     s.setRuns(runs(), 'side-by-side');
     expect(disposed.has(trailGeom)).toBe(true);
-    expect(disposed.has((old.runs[1].bus.children[0] as Mesh).material)).toBe(true);
-    expect(s.viewports[0].runs[0].cursor.i).toBe(66); // 33 s / 0.5 s
+    expect(disposed.has((old.runs[1]!.bus.children[0] as Mesh).material)).toBe(true);
+    expect(s.viewports[0]!.runs[0]!.cursor.i).toBe(66); // 33 s / 0.5 s
     s.dispose();
   });
 
@@ -146,8 +147,8 @@ describe('layouts', () => {
     const r = syntheticViewRun({ ...spec, n: 0, jumpSamples: [] }, 'empty', []);
     s.setRuns([r], 'single');
     s.setTime(1);
-    expect(s.viewports[0].runs[0].group.visible).toBe(false);
-    expect(s.viewports[0].runs[0].momentum.group.visible).toBe(false);
+    expect(s.viewports[0]!.runs[0]!.group.visible).toBe(false);
+    expect(s.viewports[0]!.runs[0]!.momentum.group.visible).toBe(false);
     s.dispose();
   });
 });
@@ -156,8 +157,8 @@ describe('options', () => {
   it('layer switches hide and show their objects', () => {
     const s = new AttitudeScene();
     s.setRuns([syntheticViewRun(spec)], 'single');
-    const v = s.viewports[0];
-    const rc = v.runs[0];
+    const v = s.viewports[0]!;
+    const rc = v.runs[0]!;
     s.setOptions({ showInertialTriad: false, showSphere: false, showBody: false, showBodyTriad: false, showReference: false, showTrail: false, showJumpMarkers: false, showMomentum: false });
     expect([v.common.inertialTriad.visible, v.common.sphere.visible, rc.bus.visible, rc.bodyTriad.visible, rc.referenceGhost!.visible]).toEqual([false, false, false, false, false]);
     expect([rc.trail.line.visible, rc.trail.head.visible, rc.trail.jumpMarkers.visible, rc.momentum.group.visible]).toEqual([false, false, false, false]);
@@ -170,7 +171,7 @@ describe('options', () => {
 describe('shared geometry', () => {
   it('every wire-sphere vertex lies on the sphere', () => {
     const p = wireSpherePositions(SIZES.sphereRadius);
-    for (let k = 0; k < p.length; k += 3) expect(Math.hypot(p[k], p[k + 1], p[k + 2])).toBeCloseTo(SIZES.sphereRadius, 5);
+    for (let k = 0; k < p.length; k += 3) expect(Math.hypot(p[k]!, p[k + 1]!, p[k + 2]!)).toBeCloseTo(SIZES.sphereRadius, 5);
   });
 
   it('a keep-out cone’s rim is at the half angle from its axis, on the sphere; the fan starts at the apex', () => {
@@ -178,9 +179,9 @@ describe('shared geometry', () => {
     const alpha = 0.4;
     const { fan, rim } = keepOutConePositions(d, alpha, 2, 24);
     for (let s = 0; s < 24; s++) {
-      const x = rim[3 * s], y = rim[3 * s + 1], z = rim[3 * s + 2];
+      const x = rim[3 * s]!, y = rim[3 * s + 1]!, z = rim[3 * s + 2]!;
       expect(Math.hypot(x, y, z)).toBeCloseTo(2, 5);
-      expect(Math.acos((x * d[0] + y * d[1] + z * d[2]) / 2)).toBeCloseTo(alpha, 5);
+      expect(Math.acos((x * d[0]! + y * d[1]! + z * d[2]!) / 2)).toBeCloseTo(alpha, 5);
     }
     expect([fan[0], fan[1], fan[2]]).toEqual([0, 0, 0]);
     expect(fan.length).toBe(3 * 25);

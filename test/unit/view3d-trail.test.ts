@@ -32,7 +32,7 @@ const spec: SyntheticRunSpec = {
 function build(run: ViewRun, opts = {}) {
   const scene = new AttitudeScene({ options: opts });
   scene.setRuns([run], 'single');
-  return { scene, rc: scene.viewports[0].runs[0] };
+  return { scene, rc: scene.viewports[0]!.runs[0]! };
 }
 
 const rgb = (hex: number) => {
@@ -49,12 +49,12 @@ describe('trail geometry', () => {
       [0.3, -0.5, 0.8],
     ]) {
       const { scene, rc } = build(run, { boresightBody: b });
-      const nb = Math.hypot(b[0], b[1], b[2]);
+      const nb = Math.hypot(b[0]!, b[1]!, b[2]!);
       const bu = b.map((x) => x / nb);
       const e = new Float64Array(3);
       for (let k = 0; k < run.trace.n; k += 7) {
         qRotate(e, run.trace.q.subarray(4 * k, 4 * k + 4), bu);
-        for (let c = 0; c < 3; c++) expect(Math.abs(rc.trail.path[3 * k + c] - e[c])).toBeLessThan(1e-6);
+        for (let c = 0; c < 3; c++) expect(Math.abs(rc.trail.path[3 * k + c]! - e[c]!)).toBeLessThan(1e-6);
       }
       expect(rc.trail.line.scale.x).toBe(R);
       scene.dispose();
@@ -79,15 +79,15 @@ describe('trail geometry', () => {
     const { scene, rc } = build(run);
     const q = new Float64Array(4), e = new Float64Array(3);
     const tt = run.trace.t;
-    for (const t of [0, 3.14159, 25.05, 59.85, tt[spec.n - 1], 1e9]) {
+    for (const t of [0, 3.14159, 25.05, 59.85, tt[spec.n - 1]!, 1e9]) {
       scene.setTime(t);
-      const tc = Math.min(t, tt[spec.n - 1]);
+      const tc = Math.min(t, tt[spec.n - 1]!);
       let i = 0;
-      while (i + 1 < spec.n && tt[i + 1] <= tc) i++;
+      while (i + 1 < spec.n && tt[i + 1]! <= tc) i++;
       expect(rc.trail.line.geometry.drawRange).toMatchObject({ start: 0, count: i + 1 });
       const hp = rc.trail.head.geometry.getAttribute('position');
       qRotate(e, syntheticAttitude(q, spec, tc), [0, 0, 1]);
-      expect(Math.abs(hp.getX(1) - e[0]) + Math.abs(hp.getY(1) - e[1]) + Math.abs(hp.getZ(1) - e[2])).toBeLessThan(3e-6);
+      expect(Math.abs(hp.getX(1) - e[0]!) + Math.abs(hp.getY(1) - e[1]!) + Math.abs(hp.getZ(1) - e[2]!)).toBeLessThan(3e-6);
       expect(hp.getX(0)).toBe(rc.trail.path[3 * i]);
     }
     scene.dispose();
@@ -99,7 +99,7 @@ describe('trail colouring by the logic value', () => {
     const { scene, rc } = build(syntheticViewRun(spec));
     const pos = rgb(LOGIC_SIGN_POS), neg = rgb(LOGIC_SIGN_NEG);
     const col = (k: number) => Array.from(rc.trail.colors.subarray(3 * k, 3 * k + 3));
-    const close = (a: number[], b: number[]) => a.every((x, i) => Math.abs(x - b[i]) < 1e-7);
+    const close = (a: number[], b: number[]) => a.every((x, i) => Math.abs(x - b[i]!) < 1e-7);
     expect(close(col(0), pos)).toBe(true);
     expect(close(col(99), pos)).toBe(true);
     expect(close(col(100), neg)).toBe(true);
@@ -114,9 +114,9 @@ describe('trail colouring by the logic value', () => {
     const run = syntheticViewRun({ ...spec, logicKind: 'index' });
     const { scene, rc } = build(run);
     for (const k of [0, 150, 350, 500]) {
-      const q = run.trace.logic[k];
-      const want = rgb(LOGIC_INDEX[q - 1]);
-      for (let c = 0; c < 3; c++) expect(rc.trail.colors[3 * k + c]).toBeCloseTo(want[c], 6);
+      const q = run.trace.logic[k]!;
+      const want = rgb(LOGIC_INDEX[q - 1]!);
+      for (let c = 0; c < 3; c++) expect(rc.trail.colors[3 * k + c]).toBeCloseTo(want[c]!, 6);
     }
     expect(new Set([0, 150, 350, 500].map((k) => run.trace.logic[k])).size).toBe(3);
     scene.dispose();
@@ -129,12 +129,12 @@ describe('jump markers', () => {
     const { scene, rc } = build(run);
     const m = new Matrix4(), p = new Vector3(), e = new Float64Array(3);
     expect(rc.trail.jumpMarkers.instanceMatrix.count).toBe(3);
-    run.jumps.forEach((jp, k) => {
+    run.jumps.forEach((_jp, k) => {
       rc.trail.jumpMarkers.getMatrixAt(k, m);
       p.setFromMatrixPosition(m).divideScalar(R);
-      const ks = spec.jumpSamples[k];
+      const ks = spec.jumpSamples[k]!;
       qRotate(e, run.trace.q.subarray(4 * ks, 4 * ks + 4), [0, 0, 1]);
-      expect(Math.abs(p.x - e[0]) + Math.abs(p.y - e[1]) + Math.abs(p.z - e[2])).toBeLessThan(1e-6);
+      expect(Math.abs(p.x - e[0]!) + Math.abs(p.y - e[1]!) + Math.abs(p.z - e[2]!)).toBeLessThan(1e-6);
     });
     const counts = [5, 10, 10.05, 30, 44.99, 45, 59].map((t) => {
       scene.setTime(t);
@@ -152,7 +152,7 @@ describe('jump markers', () => {
     rc.trail.jumpMarkers.getMatrixAt(0, m);
     p.setFromMatrixPosition(m).divideScalar(R);
     qRotate(e, syntheticAttitude(new Float64Array(4), spec, 12.34), [0, 0, 1]);
-    expect(Math.abs(p.x - e[0]) + Math.abs(p.y - e[1]) + Math.abs(p.z - e[2])).toBeLessThan(1e-6);
+    expect(Math.abs(p.x - e[0]!) + Math.abs(p.y - e[1]!) + Math.abs(p.z - e[2]!)).toBeLessThan(1e-6);
     scene.dispose();
   });
 });
@@ -164,24 +164,24 @@ describe('great-circle comparison arc', () => {
     const pts = new Float64Array(3 * N);
     const th = greatCircleArc(pts, 0, a, b, N);
     expect(th).toBeCloseTo(Math.PI / 2, 14);
-    const n = [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+    const n = [a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!];
     let len = 0;
     for (let m = 0; m < N; m++) {
-      const x = pts[3 * m], y = pts[3 * m + 1], z = pts[3 * m + 2];
+      const x = pts[3 * m]!, y = pts[3 * m + 1]!, z = pts[3 * m + 2]!;
       expect(Math.hypot(x, y, z)).toBeCloseTo(1, 14);
-      expect(x * n[0] + y * n[1] + z * n[2]).toBeCloseTo(0, 14);
-      if (m > 0) len += 2 * Math.asin(0.5 * Math.hypot(x - pts[3 * m - 3], y - pts[3 * m - 2], z - pts[3 * m - 1]));
+      expect(x * n[0]! + y * n[1]! + z * n[2]!).toBeCloseTo(0, 14);
+      if (m > 0) len += 2 * Math.asin(0.5 * Math.hypot(x - pts[3 * m - 3]!, y - pts[3 * m - 2]!, z - pts[3 * m - 1]!));
     }
     expect(len).toBeCloseTo(th, 12);
-    expect(pts[3 * (N - 1)]).toBeCloseTo(b[0], 14);
-    expect(pts[3 * (N - 1) + 1]).toBeCloseTo(b[1], 14);
-    expect(pts[3 * (N - 1) + 2]).toBeCloseTo(b[2], 14);
+    expect(pts[3 * (N - 1)]).toBeCloseTo(b[0]!, 14);
+    expect(pts[3 * (N - 1) + 1]).toBeCloseTo(b[1]!, 14);
+    expect(pts[3 * (N - 1) + 2]).toBeCloseTo(b[2]!, 14);
   });
 
   it('antipodal ends give a half circle of unit points', () => {
     const pts = new Float64Array(3 * 9);
     expect(greatCircleArc(pts, 0, [0, 0, 1], [0, 0, -1], 9)).toBeCloseTo(Math.PI, 14);
-    for (let m = 0; m < 9; m++) expect(Math.hypot(pts[3 * m], pts[3 * m + 1], pts[3 * m + 2])).toBeCloseTo(1, 14);
+    for (let m = 0; m < 9; m++) expect(Math.hypot(pts[3 * m]!, pts[3 * m + 1]!, pts[3 * m + 2]!)).toBeCloseTo(1, 14);
     expect(pts[3 * 4 + 2]).toBeCloseTo(0, 14);
   });
 
@@ -203,7 +203,7 @@ describe('great-circle comparison arc', () => {
     let arcLen = 0, trailLen = 0;
     for (let m = 1; m <= last; m++) arcLen += Math.hypot(pos.getX(m) - pos.getX(m - 1), pos.getY(m) - pos.getY(m - 1), pos.getZ(m) - pos.getZ(m - 1));
     const p = rc.trail.path;
-    for (let k = 1; k < run.trace.n; k++) trailLen += Math.hypot(p[3 * k] - p[3 * k - 3], p[3 * k + 1] - p[3 * k - 2], p[3 * k + 2] - p[3 * k - 1]);
+    for (let k = 1; k < run.trace.n; k++) trailLen += Math.hypot(p[3 * k]! - p[3 * k - 3]!, p[3 * k + 1]! - p[3 * k - 2]!, p[3 * k + 2]! - p[3 * k - 1]!);
     expect(arcLen).toBeCloseTo(Math.PI / 3, 3);
     expect(trailLen).toBeCloseTo((300 * Math.PI) / 180, 3);
     scene.setTime(10);
@@ -253,7 +253,7 @@ describe('keep-out cones', () => {
     scene.setTime(kEnter2 * dt + 0.5);
     expect(rc.trail.entryMarkers!.count).toBe(2);
     // The cones are drawn in the shared content, one surface + rim (+ label when labels exist) each.
-    expect(scene.viewports[0].common.keepOut.children.length).toBe(4);
+    expect(scene.viewports[0]!.common.keepOut.children.length).toBe(4);
     scene.setOptions({ showKeepOut: false });
     expect(rc.trail.entrySamples.length).toBe(0);
     scene.dispose();

@@ -43,9 +43,9 @@ describe('makeWheelArray accepts good arrays', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     const n = r.value.n;
-    const G = [0, 1, 2].map((row) => [...Array(n).keys()].map((i) => r.value.axes[3 * i + row]));
+    const G = [0, 1, 2].map((row) => [...Array(n).keys()].map((i) => r.value.axes[3 * i + row]!));
     const ev = (math.eigs(math.multiply(G, math.transpose(G)) as number[][]).values as number[]).map(Math.sqrt).sort((a, b) => b - a);
-    for (let k = 0; k < 3; k++) expect(r.value.singularValues[k]).toBeCloseTo(ev[k], 12);
+    for (let k = 0; k < 3; k++) expect(r.value.singularValues[k]).toBeCloseTo(ev[k]!, 12);
   });
 });
 

@@ -83,11 +83,11 @@ describe('momentum limit, instantaneous rule', () => {
     expect(info.nullSpaceUsed).toBe(true);
     expect(out[0]).toBeLessThanOrEqual(0);
     const want = body(pyr, cmd), got = body(pyr, out);
-    for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r], 16);
-    for (let i = 0; i < 4; i++) expect(Math.abs(out[i])).toBeLessThanOrEqual(TAU);
+    for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r]!, 16);
+    for (let i = 0; i < 4; i++) expect(Math.abs(out[i]!)).toBeLessThanOrEqual(TAU);
     // Smallest change: with ν ∝ (1,−1,1,−1)/2 the fix moves wheel 0 exactly to 0 (α = −2 cmd₀).
     expect(out[0]).toBeCloseTo(0, 18);
-    expect(out[1]).toBeCloseTo(cmd[1] + cmd[0], 16);
+    expect(out[1]).toBeCloseTo(cmd[1]! + cmd[0]!, 16);
   });
   it('pyramid, wheels 0 and 1 saturated against a command pushing both: null space cannot help, s = 0', () => {
     // ν = ±(1, −1, 1, −1)/2: lowering wheel 0 raises wheel 1, so no α fixes both (hand-worked).
@@ -107,7 +107,7 @@ describe('momentum limit, predictive over a step', () => {
     const info = limitWheelTorqueStep(out, triad, [TAU, -TAU / 2, 0], h, dt);
     expect(info.reason).toBe('momentum');
     expect(info.scale).toBeCloseTo(0.5, 14);
-    expect(h[0] + out[0] * dt).toBeCloseTo(H, 16);
+    expect(h[0]! + out[0]! * dt).toBeCloseTo(H, 16);
     expect(out[1]).toBeCloseTo(-TAU / 4, 16);
   });
   it('the same call through limitWheelTorque(…, dt, info) (the simulator uses this form)', () => {
@@ -124,7 +124,7 @@ describe('momentum limit, predictive over a step', () => {
     const h0 = 1.0001 * H;
     const info = limitWheelTorqueStep(out, triad, [-TAU, 0, 0], [h0, 0, 0], bigDt);
     expect(info.scale).toBeCloseTo((H + h0) / (TAU * bigDt), 12);
-    expect(h0 + out[0] * bigDt).toBeCloseTo(-H, 15);
+    expect(h0 + out[0]! * bigDt).toBeCloseTo(-H, 15);
   });
   it('pyramid: the null space keeps a nearly full wheel inside while delivering the full torque', () => {
     const cmd = allocateMinMax(new Float64Array(4), pyr, [-0.0004, -0.0002, -0.0003]);
@@ -132,9 +132,9 @@ describe('momentum limit, predictive over a step', () => {
     const out = new Float64Array(4);
     const info = limitWheelTorqueStep(out, pyr, cmd, h, dt);
     expect(info.reason).toBe('momentum-null-space');
-    expect(h[0] + out[0] * dt).toBeLessThanOrEqual(H);
+    expect(h[0]! + out[0]! * dt).toBeLessThanOrEqual(H);
     const want = body(pyr, cmd), got = body(pyr, out);
-    for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r], 16);
+    for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r]!, 16);
   });
 });
 
@@ -156,14 +156,14 @@ describe('nullSpaceMomentumBleed (α = −k νᵀh/‖ν‖²)', () => {
     const k = 0.2;
     const out = nullSpaceMomentumBleed(new Float64Array(4), pyr, h, k);
     const nu = Array.from(pyr.nullBasis);
-    const nh = nu.reduce((s, v, i) => s + v * h[i], 0);
+    const nh = nu.reduce((s, v, i) => s + v * h[i]!, 0);
     // ν is unit, so out = −k (νᵀh) ν.
     nu.forEach((v, i) => expect(out[i]).toBeCloseTo(-k * nh * v, 18));
     for (const x of body(pyr, out)) expect(Math.abs(x)).toBeLessThan(1e-19);
     // One Euler step of ḣ = out shrinks the null component by (1 − k dt).
     const dt = 0.5;
-    const h1 = h.map((x, i) => x + out[i] * dt);
-    expect(nu.reduce((s, v, i) => s + v * h1[i], 0)).toBeCloseTo((1 - k * dt) * nh, 17);
+    const h1 = h.map((x, i) => x + out[i]! * dt);
+    expect(nu.reduce((s, v, i) => s + v * h1[i]!, 0)).toBeCloseTo((1 - k * dt) * nh, 17);
   });
   it('triad has no null space: zero; non-finite gain: zero', () => {
     expect(Array.from(nullSpaceMomentumBleed(new Float64Array(3), triad, [1, 2, 3], 1))).toEqual([0, 0, 0]);

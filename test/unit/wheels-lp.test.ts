@@ -24,10 +24,10 @@ function bruteLp(A: number[][], b: number[], c: number[]): number | null {
   let best: number | null = null;
   const choose = (start: number, picked: number[]): void => {
     if (picked.length === nv) {
-      const M = picked.map((r) => rows[r]);
+      const M = picked.map((r) => rows[r]!);
       if (Math.abs(math.det(M)) < 1e-10) return;
-      const z = (math.lusolve(M, picked.map((r) => rhs[r])) as number[][]).map((r) => r[0]);
-      for (let r = 0; r < m + nv; r++) if (math.dot(rows[r], z) > rhs[r] + 1e-9) return;
+      const z = (math.lusolve(M, picked.map((r) => rhs[r])) as number[][]).map((r) => r[0]!);
+      for (let r = 0; r < m + nv; r++) if (math.dot(rows[r]!, z) > rhs[r] + 1e-9) return;
       const v = math.dot(c, z);
       if (best === null || v < best) best = v;
       return;
@@ -109,7 +109,7 @@ describe('lpMinimize against vertex enumeration (fast-check, 1,000 random bounde
         else {
           expect(r.status).toBe('optimal');
           expect(r.value).toBeCloseTo(ref, 8);
-          for (let i = 0; i < Ab.length; i++) expect(math.dot(Ab[i], r.z)).toBeLessThanOrEqual(bb[i] + 1e-9);
+          for (let i = 0; i < Ab.length; i++) expect(math.dot(Ab[i]!, r.z)).toBeLessThanOrEqual(bb[i] + 1e-9);
         }
       }),
       { numRuns: 1000 },

@@ -77,10 +77,10 @@ export function validateInertia(rows: unknown, path = 'inertia'): Result<Inertia
   if (!complete) return fail(errors);
 
   let scale = 0;
-  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(a[i]));
+  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(a[i]!));
   const symTol = INERTIA_SYMMETRY_TOL * scale;
   for (const [r, c] of [[0, 1], [0, 2], [1, 2]] as const) {
-    const x = a[3 * r + c], y = a[3 * c + r];
+    const x = a[3 * r + c]!, y = a[3 * c + r]!;
     // Compare halves to avoid overflow of x − y near the largest doubles.
     if (Math.abs(0.5 * x - 0.5 * y) > 0.5 * symTol) {
       const ep = `${path}[${r}][${c}]`;
@@ -97,19 +97,19 @@ export function validateInertia(rows: unknown, path = 'inertia'): Result<Inertia
   const Js = m3Create();
   for (let r = 0; r < 3; r++)
     for (let c = 0; c < 3; c++) {
-      const v = 0.5 * a[3 * r + c] + 0.5 * a[3 * c + r];
+      const v = 0.5 * a[3 * r + c]! + 0.5 * a[3 * c + r]!;
       J[3 * c + r] = v;
       Js[3 * c + r] = v / s;
     }
   const moments = v3Create();
   const axes = m3Create();
   symmetricEigen3(Js, moments, axes);
-  for (let i = 0; i < 3; i++) moments[i] *= s;
+  for (let i = 0; i < 3; i++) moments[i]! *= s;
   if (!(Number.isFinite(moments[0]) && Number.isFinite(moments[1]) && Number.isFinite(moments[2]))) {
     errors.push(issue(path, 'range', `${path} has entries too large to analyse (largest |entry| ${scale})`));
     return fail(errors);
   }
-  const [m1, m2, m3] = moments;
+  const m1 = moments[0]!, m2 = moments[1]!, m3 = moments[2]!;
   // Six significant digits in messages: enough to see the problem, short enough to read.
   const f = (x: number) => String(Number(x.toPrecision(6)));
   const big = Math.max(Math.abs(m1), Math.abs(m3));

@@ -101,7 +101,7 @@ const TARGET_NAMES = ['I', 'R_a(π, v₁)', 'R_a(π, v₂)', 'R_a(π, v₃)'];
 function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number, theta: number): Float64Array {
   const s = -Math.sin(0.5 * theta), c = Math.cos(0.5 * theta);
   const U = fam.directions;
-  const wx = s * U[3 * p], wy = s * U[3 * p + 1], wz = s * U[3 * p + 2];
+  const wx = s * U[3 * p]!, wy = s * U[3 * p + 1]!, wz = s * U[3 * p + 2]!;
   if (target === 0) {
     out[0] = wx;
     out[1] = wy;
@@ -110,7 +110,7 @@ function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number,
     return out;
   }
   const E = fam.eigenvectors, i = target - 1;
-  const px = E[3 * i], py = E[3 * i + 1], pz = E[3 * i + 2];
+  const px = E[3 * i]!, py = E[3 * i + 1]!, pz = E[3 * i + 2]!;
   // (p, 0) ⊗ (w, c) = (c p + p × w, −p·w)
   out[0] = c * px + (py * wz - pz * wy);
   out[1] = c * py + (pz * wx - px * wz);
@@ -228,7 +228,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
           const h = 1e-6;
           const mu = (t: number) => {
             evaluateFamily(ws, fam, preimage(q, fam, target, p, t));
-            return ws.V[p] - ws.minValue;
+            return ws.V[p]! - ws.minValue;
           };
           const slope = Math.abs(mu(th + h) - mu(th - h)) / (2 * h);
           deltaTol = Math.max(deltaTol, slope * (xtol + 4 * Number.EPSILON * th) + 8 * Number.EPSILON * scale);
@@ -248,16 +248,16 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
     for (let s = 0; s < starts; s++) {
       qRandomUniform(qs, rng);
       const at = (x: number[]) => {
-        xv[0] = x[0];
-        xv[1] = x[1];
-        xv[2] = x[2];
+        xv[0] = x[0]!;
+        xv[1] = x[1]!;
+        xv[2] = x[2]!;
         qMultiply(qt, qs, qFromRotationVector(dq, xv));
         return qt;
       };
       const res = solve3((x) => {
         evaluateFamily(ws, fam, at(x));
         memberGradient(b, fam, ws, p);
-        return [b[0], b[1], b[2]];
+        return [b[0]!, b[1]!, b[2]!];
       }, [0, 0, 0], 1e-11 * scale, 60);
       if (!res.converged) continue;
       completeness.converged++;
@@ -321,7 +321,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
     ? admissible
       ? `Certified: synergy gap δ* = ${fmt(deltaStar)} (±${deltaTol.toExponential(1)}); δ = ${delta} is admissible with margin ${fmt(deltaStar - delta)} (${Math.round((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
       : `Family certified with synergy gap δ* = ${fmt(deltaStar)}, but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${fmt(0.8 * deltaStar)}).`
-    : `Refused: ${issues.map((i) => i.rule).filter((r, k, a) => a.indexOf(r) === k).join(', ')} — ${issues[0].message}.`;
+    : `Refused: ${issues.map((i) => i.rule).filter((r, k, a) => a.indexOf(r) === k).join(', ')} — ${issues[0]!.message}.`;
   return {
     certified,
     admissible,
@@ -357,11 +357,11 @@ function reportAt(
     member: p + 1,
     target,
     warpAngle: theta,
-    attitude: [q[0], q[1], q[2], q[3]],
+    attitude: [q[0]!, q[1]!, q[2]!, q[3]!],
     potentials: Array.from(ws.V),
-    gap: ws.V[p] - ws.minValue,
+    gap: ws.V[p]! - ws.minValue,
     jumpTo: ws.minIndex + 1,
-    gradientNorm: Math.hypot(b[0], b[1], b[2]),
+    gradientNorm: Math.hypot(b[0]!, b[1]!, b[2]!),
   };
 }
 

@@ -28,19 +28,19 @@ export function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: nu
   const order = new Uint32Array(N);
   for (let p = 0; p < n; p++) {
     for (let s = 0; s < N; s++) {
-      q[0] = pts[4 * s];
-      q[1] = pts[4 * s + 1];
-      q[2] = pts[4 * s + 2];
-      q[3] = pts[4 * s + 3];
+      q[0] = pts[4 * s]!;
+      q[1] = pts[4 * s + 1]!;
+      q[2] = pts[4 * s + 2]!;
+      q[3] = pts[4 * s + 3]!;
       vals[s] = warpJacobianDet(fam, q, p);
       order[s] = s;
     }
-    order.sort((a, b) => vals[a] - vals[b]);
-    let best = vals[order[0]];
+    order.sort((a, b) => vals[a]! - vals[b]!);
+    let best = vals[order[0]!]!;
     // Refine the few lowest, well-separated samples (the minimum may be attained at ± pairs).
     const seeds: Float64Array[] = [];
     for (let r = 0; r < N && seeds.length < 6; r++) {
-      const c = order[r];
+      const c = order[r]!;
       const cand = pts.subarray(4 * c, 4 * c + 4);
       if (seeds.some((z) => qAngleBetween(z, cand) < 0.3)) continue;
       seeds.push(Float64Array.from(cand));
@@ -48,9 +48,9 @@ export function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: nu
     for (const z of seeds) {
       qs.set(z);
       const m = nelderMead((x) => {
-        xv[0] = x[0];
-        xv[1] = x[1];
-        xv[2] = x[2];
+        xv[0] = x[0]!;
+        xv[1] = x[1]!;
+        xv[2] = x[2]!;
         qMultiply(qt, qs, qFromRotationVector(dq, xv));
         return warpJacobianDet(fam, qt, p);
       }, [0, 0, 0], 0.05, 1e-13, 1000);

@@ -36,15 +36,15 @@ import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel }
  * keeps the saturated rate at ω_max.
  */
 export function eigenaxisLimits(out: Vec3, k: number, c: number, omegaMax: number, eps0: ArrayLike<number>): Vec3 {
-  const n = Math.hypot(eps0[0], eps0[1], eps0[2]);
+  const n = Math.hypot(eps0[0]!, eps0[1]!, eps0[2]!);
   const f = (c / k) * omegaMax;
   if (!(n > 1e-12)) {
     out[0] = out[1] = out[2] = f / Math.sqrt(3);
     return out;
   }
-  out[0] = (f * Math.abs(eps0[0])) / n;
-  out[1] = (f * Math.abs(eps0[1])) / n;
-  out[2] = (f * Math.abs(eps0[2])) / n;
+  out[0] = (f * Math.abs(eps0[0]!)) / n;
+  out[1] = (f * Math.abs(eps0[1]!)) / n;
+  out[2] = (f * Math.abs(eps0[2]!)) / n;
   return out;
 }
 
@@ -71,19 +71,19 @@ export class Eigenaxis implements AttitudeController {
 
   /** The latched limits L (copied into out) and sign s of the current segment. */
   segmentLimits(out: Vec3): { limits: Vec3; sign: number; latched: boolean } {
-    out[0] = this.L[0];
-    out[1] = this.L[1];
-    out[2] = this.L[2];
+    out[0] = this.L[0]!;
+    out[1] = this.L[1]!;
+    out[2] = this.L[2]!;
     return { limits: out, sign: this.liftSign, latched: this.latched };
   }
 
   private latch(input: ControlInput): void {
     const st = computeTracking(this.st, this.plant, input);
-    const s = sgnPos(st.qe[3]);
+    const s = sgnPos(st.qe[3]!);
     this.liftSign = s;
-    this.a[0] = s * st.qe[0];
-    this.a[1] = s * st.qe[1];
-    this.a[2] = s * st.qe[2];
+    this.a[0] = s * st.qe[0]!;
+    this.a[1] = s * st.qe[1]!;
+    this.a[2] = s * st.qe[2]!;
     eigenaxisLimits(this.L, this.k, this.c, this.omegaMax, this.a);
     this.latched = true;
   }
@@ -108,32 +108,32 @@ export class Eigenaxis implements AttitudeController {
     const s = this.liftSign, L = this.L, k = this.k, c = this.c;
     const a = this.a;
     for (let i = 0; i < 3; i++) {
-      const e = s * st.qe[i];
-      const sat = e > L[i] ? L[i] : e < -L[i] ? -L[i] : e;
-      a[i] = -(k * sat + c * st.omegaE[i]);
+      const e = s * st.qe[i]!;
+      const sat = e > L[i]! ? L[i]! : e < -L[i]! ? -L[i]! : e;
+      a[i] = -(k * sat + c * st.omegaE[i]!);
     }
     feedforwardCancel(out, st, this.plant, input.omega);
     m3MulVec(a, this.plant.Jperp, a);
-    out[0] += a[0];
-    out[1] += a[1];
-    out[2] += a[2];
+    out[0]! += a[0]!;
+    out[1]! += a[1]!;
+    out[2]! += a[2]!;
     const lim = this.torqueLimit;
     if (lim) {
       let scale = 1;
       for (let i = 0; i < 3; i++) {
-        const m = Math.abs(out[i]);
-        if (m * scale > lim[i]) scale = lim[i] / m;
+        const m = Math.abs(out[i]!);
+        if (m * scale > lim[i]!) scale = lim[i]! / m;
       }
-      out[0] *= scale;
-      out[1] *= scale;
-      out[2] *= scale;
+      out[0]! *= scale;
+      out[1]! *= scale;
+      out[2]! *= scale;
     }
     return out;
   }
 
   diagnostics(out: ControlDiagnostics, input: ControlInput): ControlDiagnostics {
     const st = computeTracking(this.st, this.plant, input);
-    const eta = st.qe[3];
+    const eta = st.qe[3]!;
     const s = this.latched ? this.liftSign : sgnPos(eta);
     out.errorAngle = qAngle(st.qe);
     out.eta = eta;
@@ -141,7 +141,7 @@ export class Eigenaxis implements AttitudeController {
     out.potentialMin = out.potential;
     out.gap = 0;
     const w = st.omegaE;
-    out.lyapunov = this.k * out.potential + 0.5 * (w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
+    out.lyapunov = this.k * out.potential + 0.5 * (w[0]! * w[0]! + w[1]! * w[1]! + w[2]! * w[2]!);
     return out;
   }
 }

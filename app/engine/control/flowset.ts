@@ -68,21 +68,21 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   const etaMax = Math.cos(0.5 * minAngle);
   for (let s = 0; s < samples; s++) {
     qRandomUniform(q, rng);
-    if (Math.abs(q[3]) > etaMax) continue;
+    if (Math.abs(q[3]!) > etaMax) continue;
     beyond++;
     evaluateFamily(ws, fam, q);
     const vmin = ws.minValue;
     for (let p = 0; p < n; p++) {
-      if (ws.V[p] - vmin > delta) continue;
-      count[p]++;
+      if (ws.V[p]! - vmin > delta) continue;
+      count[p]!++;
       memberGradient(b, fam, ws, p);
-      const nb = Math.sqrt(b[0] * b[0] + b[1] * b[1] + b[2] * b[2]);
-      if (nb < minB[p]) {
+      const nb = Math.sqrt(b[0]! * b[0]! + b[1]! * b[1]! + b[2]! * b[2]!);
+      if (nb < minB[p]!) {
         minB[p] = nb;
-        worst[4 * p] = q[0];
-        worst[4 * p + 1] = q[1];
-        worst[4 * p + 2] = q[2];
-        worst[4 * p + 3] = q[3];
+        worst[4 * p] = q[0]!;
+        worst[4 * p + 1] = q[1]!;
+        worst[4 * p + 2] = q[2]!;
+        worst[4 * p + 3] = q[3]!;
       }
     }
   }
@@ -91,15 +91,15 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
   const refine = options.refine ?? true;
   for (let p = 0; p < n; p++) {
     const w0 = worst.subarray(4 * p, 4 * p + 4);
-    const refined = refine && count[p] > 0 ? refineMinimum(fam, ws, p, w0, delta, etaMax) : null;
+    const refined = refine && count[p]! > 0 ? refineMinimum(fam, ws, p, w0, delta, etaMax) : null;
     perMember.push({
       member: p + 1,
-      inFlowSet: count[p],
-      minGradientNorm: minB[p],
-      worstAttitude: [w0[0], w0[1], w0[2], w0[3]],
+      inFlowSet: count[p]!,
+      minGradientNorm: minB[p]!,
+      worstAttitude: [w0[0]!, w0[1]!, w0[2]!, w0[3]!],
       refinedMinGradientNorm: refined,
     });
-    overall = Math.min(overall, minB[p], refined ?? Infinity);
+    overall = Math.min(overall, minB[p]!, refined ?? Infinity);
   }
   return { samples, seed, delta, minAngleRad: minAngle, beyondAngle: beyond, perMember, minGradientNorm: overall };
 }
@@ -112,14 +112,14 @@ function refineMinimum(fam: WarpFamily, ws: FamilyWorkspace, p: number, start: F
   const q0 = Float64Array.from(start), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3), b = new Float64Array(3);
   let bestFeasible = Infinity;
   const f = (x: number[]) => {
-    xv[0] = x[0];
-    xv[1] = x[1];
-    xv[2] = x[2];
+    xv[0] = x[0]!;
+    xv[1] = x[1]!;
+    xv[2] = x[2]!;
     qMultiply(qt, q0, qFromRotationVector(dq, xv));
     evaluateFamily(ws, fam, qt);
     memberGradient(b, fam, ws, p);
-    const nb = Math.hypot(b[0], b[1], b[2]);
-    const over = Math.max(0, ws.V[p] - ws.minValue - delta) + Math.max(0, Math.abs(qt[3]) - etaMax);
+    const nb = Math.hypot(b[0]!, b[1]!, b[2]!);
+    const over = Math.max(0, ws.V[p]! - ws.minValue - delta) + Math.max(0, Math.abs(qt[3]!) - etaMax);
     if (over === 0 && nb < bestFeasible) bestFeasible = nb;
     return nb + 1e3 * over;
   };

@@ -36,7 +36,7 @@ export interface BandwidthGains {
 
 /** Gains for the quaternion laws (PD, sign-switch, hysteretic, eigenaxis). */
 export function gainsFromBandwidth(Jperp: Mat3, omegaN: number, zeta: number, errorAngleRad = Math.PI / 2): BandwidthGains {
-  const jRef = symmetricEigen3(Jperp).values[2];
+  const jRef = symmetricEigen3(Jperp).values[2]!;
   const kp = 2 * jRef * omegaN * omegaN;
   const kd = 2 * zeta * omegaN * jRef;
   return {
@@ -72,23 +72,23 @@ export function synergisticGainsFromBandwidth(
   zeta: number,
   errorAngleRad = Math.PI / 2,
 ): SynergisticBandwidthGains {
-  const jRef = symmetricEigen3(Jperp).values[2];
+  const jRef = symmetricEigen3(Jperp).values[2]!;
   // λ_min(Ā) = ½(tr A − λ_max(A))
-  const abarMin = 0.5 * (fam.traceA - fam.eigenvalues[2]);
+  const abarMin = 0.5 * (fam.traceA - fam.eigenvalues[2]!);
   const kR = (jRef * omegaN * omegaN) / (2 * abarMin);
   const kOmega = 2 * zeta * omegaN * jRef;
   const ws = makeFamilyWorkspace(fam);
   const q = new Float64Array(4), b = new Float64Array(3), ax = new Float64Array(3);
   let worst = 0;
   for (let i = 0; i < 3; i++) {
-    ax[0] = fam.eigenvectors[3 * i];
-    ax[1] = fam.eigenvectors[3 * i + 1];
-    ax[2] = fam.eigenvectors[3 * i + 2];
+    ax[0] = fam.eigenvectors[3 * i]!;
+    ax[1] = fam.eigenvectors[3 * i + 1]!;
+    ax[2] = fam.eigenvectors[3 * i + 2]!;
     qFromAxisAngle(q, ax, errorAngleRad);
     evaluateFamily(ws, fam, q);
     for (let p = 0; p < fam.members; p++) {
       memberGradient(b, fam, ws, p);
-      worst = Math.max(worst, Math.hypot(b[0], b[1], b[2]));
+      worst = Math.max(worst, Math.hypot(b[0]!, b[1]!, b[2]!));
     }
   }
   return { omegaN, zeta, inertiaRef: jRef, kR, kOmega, errorAngleRad, torqueAtErrorNm: kR * worst };

@@ -15,7 +15,7 @@ import { makeWarpFamily } from './potential';
 import { Hysteretic, QuaternionPd, SignSwitch } from './quaternionLaws';
 import { checkPlant, parseControllerSpec } from './spec';
 import { Synergistic } from './synergistic';
-import type { AttitudeController, PlantModel } from './types';
+import type { AttitudeController, ControllerKind, PlantModel } from './types';
 
 export type { AttitudeController, ControlDiagnostics, ControlInput, ControllerKind, PlantModel } from './types';
 export { CONTROLLER_KINDS, makeDiagnostics } from './types';
@@ -29,7 +29,7 @@ export { makeWarpFamily } from './potential';
 export type { WarpFamily } from './potential';
 export { eigenaxisLimits } from './eigenaxis';
 
-const DEFAULT_LABELS: Record<string, string> = {
+const DEFAULT_LABELS: Record<ControllerKind, string> = {
   'quaternion-pd': 'Quaternion PD',
   'sign-switch': 'Sign-switch PD',
   eigenaxis: 'Eigenaxis, rate-limited',
@@ -83,13 +83,13 @@ export function makeController(spec: unknown, plant: PlantModel, path = 'control
       c = g.cEigen;
     } else {
       k = s.gains.stiffness;
-      c = s.gains.damping[0];
+      c = s.gains.damping[0]!;
     }
     if (s.torqueLimit) {
       // Rest-start peak |τ_i| ≤ c ω_max Σ_j |J_ij| (methods §2c): warn when the guard may scale.
       for (let i = 0; i < 3; i++) {
-        const peak = c * s.maxRate * (Math.abs(J[i]) + Math.abs(J[3 + i]) + Math.abs(J[6 + i]));
-        if (peak > s.torqueLimit[i])
+        const peak = c * s.maxRate * (Math.abs(J[i]!) + Math.abs(J[3 + i]!) + Math.abs(J[6 + i]!));
+        if (peak > s.torqueLimit[i]!)
           warnings.push({
             path: `${path}.torqueLimitNm`,
             rule: 'torque-margin',

@@ -86,28 +86,28 @@ export function nelderMead(f: (x: number[]) => number, x0: number[], step: numbe
   const pts: number[][] = [x0.slice()];
   for (let i = 0; i < n; i++) {
     const p = x0.slice();
-    p[i] += step;
+    p[i]! += step;
     pts.push(p);
   }
   let vals = pts.map(f);
   let it = 0;
   for (; it < maxIter; it++) {
-    const order = vals.map((_, i) => i).sort((i, j) => vals[i] - vals[j]);
-    const P = order.map((i) => pts[i]);
-    const F = order.map((i) => vals[i]);
+    const order = vals.map((_, i) => i).sort((i, j) => vals[i]! - vals[j]!);
+    const P = order.map((i) => pts[i]!);
+    const F = order.map((i) => vals[i]!);
     pts.splice(0, pts.length, ...P);
     vals = F;
-    if (Math.abs(vals[n] - vals[0]) <= ftol * (1 + Math.abs(vals[0]))) {
+    if (Math.abs(vals[n]! - vals[0]!) <= ftol * (1 + Math.abs(vals[0]!))) {
       let size = 0;
-      for (let i = 1; i <= n; i++) for (let j = 0; j < n; j++) size = Math.max(size, Math.abs(pts[i][j] - pts[0][j]));
+      for (let i = 1; i <= n; i++) for (let j = 0; j < n; j++) size = Math.max(size, Math.abs(pts[i]![j]! - pts[0]![j]!));
       if (size < 1e-9) break;
     }
     const cen = new Array(n).fill(0);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) cen[j] += pts[i][j] / n;
-    const along = (t: number) => cen.map((c, j) => c + t * (pts[n][j] - c));
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) cen[j] += pts[i]![j]! / n;
+    const along = (t: number) => cen.map((c, j) => c + t * (pts[n]![j]! - c));
     const xr = along(-1);
     const fr = f(xr);
-    if (fr < vals[0]) {
+    if (fr < vals[0]!) {
       const xe = along(-2);
       const fe = f(xe);
       if (fe < fr) {
@@ -117,27 +117,27 @@ export function nelderMead(f: (x: number[]) => number, x0: number[], step: numbe
         pts[n] = xr;
         vals[n] = fr;
       }
-    } else if (fr < vals[n - 1]) {
+    } else if (fr < vals[n - 1]!) {
       pts[n] = xr;
       vals[n] = fr;
     } else {
-      const outside = fr < vals[n];
+      const outside = fr < vals[n]!;
       const xc = along(outside ? -0.5 : 0.5);
       const fcv = f(xc);
-      if (fcv < (outside ? fr : vals[n])) {
+      if (fcv < (outside ? fr : vals[n]!)) {
         pts[n] = xc;
         vals[n] = fcv;
       } else {
         for (let i = 1; i <= n; i++) {
-          pts[i] = pts[i].map((v, j) => pts[0][j] + 0.5 * (v - pts[0][j]));
-          vals[i] = f(pts[i]);
+          pts[i] = pts[i]!.map((v, j) => pts[0]![j]! + 0.5 * (v - pts[0]![j]!));
+          vals[i] = f(pts[i]!);
         }
       }
     }
   }
   let best = 0;
-  for (let i = 1; i <= n; i++) if (vals[i] < vals[best]) best = i;
-  return { x: pts[best], fx: vals[best], iterations: it };
+  for (let i = 1; i <= n; i++) if (vals[i]! < vals[best]!) best = i;
+  return { x: pts[best]!, fx: vals[best]!, iterations: it };
 }
 
 export interface SolveResult {
@@ -156,21 +156,21 @@ export interface SolveResult {
 export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, maxIter = 200, fdStep = 1e-6): SolveResult {
   let x = x0.slice();
   let res = r(x);
-  let nrm = Math.hypot(res[0], res[1], res[2]);
+  let nrm = Math.hypot(res[0]!, res[1]!, res[2]!);
   let lambda = 1e-3;
   let it = 0;
   for (; it < maxIter && nrm > tol; it++) {
     const J: number[][] = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
     for (let j = 0; j < 3; j++) {
       const xp = x.slice(), xm = x.slice();
-      xp[j] += fdStep;
-      xm[j] -= fdStep;
+      xp[j]! += fdStep;
+      xm[j]! -= fdStep;
       const rp = r(xp), rm = r(xm);
-      for (let i = 0; i < 3; i++) J[i][j] = (rp[i] - rm[i]) / (2 * fdStep);
+      for (let i = 0; i < 3; i++) J[i]![j] = (rp[i]! - rm[i]!) / (2 * fdStep);
     }
     // (JᵀJ + λ diag(JᵀJ)) dx = −Jᵀr
-    const JtJ = [0, 1, 2].map((a) => [0, 1, 2].map((b) => J[0][a] * J[0][b] + J[1][a] * J[1][b] + J[2][a] * J[2][b]));
-    const Jtr = [0, 1, 2].map((a) => J[0][a] * res[0] + J[1][a] * res[1] + J[2][a] * res[2]);
+    const JtJ = [0, 1, 2].map((a) => [0, 1, 2].map((b) => J[0]![a]! * J[0]![b]! + J[1]![a]! * J[1]![b]! + J[2]![a]! * J[2]![b]!));
+    const Jtr = [0, 1, 2].map((a) => J[0]![a]! * res[0]! + J[1]![a]! * res[1]! + J[2]![a]! * res[2]!);
     let accepted = false;
     for (let tries = 0; tries < 12 && !accepted; tries++) {
       const M = JtJ.map((row, a) => row.map((v, b) => (a === b ? v * (1 + lambda) + 1e-300 : v)));
@@ -179,9 +179,9 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
         lambda *= 10;
         continue;
       }
-      const xn = [x[0] + dx[0], x[1] + dx[1], x[2] + dx[2]];
+      const xn = [x[0]! + dx[0]!, x[1]! + dx[1]!, x[2]! + dx[2]!];
       const rn = r(xn);
-      const nn = Math.hypot(rn[0], rn[1], rn[2]);
+      const nn = Math.hypot(rn[0]!, rn[1]!, rn[2]!);
       if (nn < nrm) {
         x = xn;
         res = rn;
@@ -197,22 +197,22 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
 
 /** Gaussian elimination with partial pivoting; null when singular. */
 function solveLinear3(M: number[][], b: number[]): number[] | null {
-  const a = M.map((row, i) => [...row, b[i]]);
+  const a = M.map((row, i) => [...row, b[i]!]);
   for (let c = 0; c < 3; c++) {
     let piv = c;
-    for (let r = c + 1; r < 3; r++) if (Math.abs(a[r][c]) > Math.abs(a[piv][c])) piv = r;
-    if (!(Math.abs(a[piv][c]) > 1e-300)) return null;
-    [a[c], a[piv]] = [a[piv], a[c]];
+    for (let r = c + 1; r < 3; r++) if (Math.abs(a[r]![c]!) > Math.abs(a[piv]![c]!)) piv = r;
+    if (!(Math.abs(a[piv]![c]!) > 1e-300)) return null;
+    [a[c], a[piv]] = [a[piv]!, a[c]!];
     for (let r = c + 1; r < 3; r++) {
-      const f = a[r][c] / a[c][c];
-      for (let k = c; k < 4; k++) a[r][k] -= f * a[c][k];
+      const f = a[r]![c]! / a[c]![c]!;
+      for (let k = c; k < 4; k++) a[r]![k]! -= f * a[c]![k]!;
     }
   }
   const x = [0, 0, 0];
   for (let r = 2; r >= 0; r--) {
-    let s = a[r][3];
-    for (let k = r + 1; k < 3; k++) s -= a[r][k] * x[k];
-    x[r] = s / a[r][r];
+    let s = a[r]![3]!;
+    for (let k = r + 1; k < 3; k++) s -= a[r]![k]! * x[k]!;
+    x[r] = s / a[r]![r]!;
   }
   return x.every(Number.isFinite) ? x : null;
 }
@@ -230,18 +230,18 @@ export function scalarRoots(f: (t: number) => number, lo: number, hi: number, n:
     fs.push(f(x));
   }
   for (let i = 0; i < n; i++) {
-    if (fs[i] === 0) roots.push(xs[i]);
-    else if (fs[i] * fs[i + 1] < 0) {
-      const r = brentRoot(f, xs[i], xs[i + 1], xtol);
+    if (fs[i] === 0) roots.push(xs[i]!);
+    else if (fs[i]! * fs[i + 1]! < 0) {
+      const r = brentRoot(f, xs[i]!, xs[i + 1]!, xtol);
       if (r.converged) roots.push(r.x);
     }
   }
-  if (fs[n] === 0) roots.push(xs[n]);
+  if (fs[n] === 0) roots.push(xs[n]!);
   for (let i = 1; i < n; i++) {
-    const a = Math.abs(fs[i]);
-    if (a < Math.abs(fs[i - 1]) && a <= Math.abs(fs[i + 1]) && fs[i - 1] * fs[i + 1] > 0 && fs[i] * fs[i - 1] > 0) {
-      const m = nelderMead((x) => Math.abs(f(Math.min(xs[i + 1], Math.max(xs[i - 1], x[0])))), [xs[i]], (hi - lo) / n / 4, 1e-16, 400);
-      if (m.fx < 1e-12) roots.push(Math.min(xs[i + 1], Math.max(xs[i - 1], m.x[0])));
+    const a = Math.abs(fs[i]!);
+    if (a < Math.abs(fs[i - 1]!) && a <= Math.abs(fs[i + 1]!) && fs[i - 1]! * fs[i + 1]! > 0 && fs[i]! * fs[i - 1]! > 0) {
+      const m = nelderMead((x) => Math.abs(f(Math.min(xs[i + 1]!, Math.max(xs[i - 1]!, x[0]!)))), [xs[i]!], (hi - lo) / n / 4, 1e-16, 400);
+      if (m.fx < 1e-12) roots.push(Math.min(xs[i + 1]!, Math.max(xs[i - 1]!, m.x[0]!)));
     }
   }
   return roots.sort((a, b) => a - b);

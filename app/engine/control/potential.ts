@@ -42,16 +42,16 @@ export interface WarpFamily {
 export function makeWarpFamily(A: ArrayLike<number>, k: number, directions: ArrayLike<number>): WarpFamily {
   const a = new Float64Array(9);
   for (let r = 0; r < 3; r++)
-    for (let c = 0; c < 3; c++) a[3 * c + r] = 0.5 * (A[3 * c + r] + A[3 * r + c]);
-  const tr = a[0] + a[4] + a[8];
+    for (let c = 0; c < 3; c++) a[3 * c + r] = 0.5 * (A[3 * c + r]! + A[3 * r + c]!);
+  const tr = a[0]! + a[4]! + a[8]!;
   const abar = new Float64Array(9);
-  for (let i = 0; i < 9; i++) abar[i] = -0.5 * a[i];
-  abar[0] += 0.5 * tr;
-  abar[4] += 0.5 * tr;
-  abar[8] += 0.5 * tr;
+  for (let i = 0; i < 9; i++) abar[i] = -0.5 * a[i]!;
+  abar[0]! += 0.5 * tr;
+  abar[4]! += 0.5 * tr;
+  abar[8]! += 0.5 * tr;
   const eig = symmetricEigen3(a);
   const dirs = new Float64Array(directions.length);
-  for (let i = 0; i < dirs.length; i++) dirs[i] = directions[i];
+  for (let i = 0; i < dirs.length; i++) dirs[i] = directions[i]!;
   return {
     A: a,
     Abar: abar,
@@ -66,29 +66,29 @@ export function makeWarpFamily(A: ArrayLike<number>, k: number, directions: Arra
 
 /** Largest value of Φ over SO(3): 2(tr A − λ_min) (methods §1.2). */
 export function phiMax(fam: WarpFamily): number {
-  return 2 * (fam.traceA - fam.eigenvalues[0]);
+  return 2 * (fam.traceA - fam.eigenvalues[0]!);
 }
 
 /** Φ(R(q)) = 4 εᵀĀε. */
 export function phiQuat(fam: WarpFamily, q: ArrayLike<number>): number {
   const B = fam.Abar;
-  const x = q[0], y = q[1], z = q[2];
-  const bx = B[0] * x + B[3] * y + B[6] * z;
-  const by = B[1] * x + B[4] * y + B[7] * z;
-  const bz = B[2] * x + B[5] * y + B[8] * z;
+  const x = q[0]!, y = q[1]!, z = q[2]!;
+  const bx = B[0]! * x + B[3]! * y + B[6]! * z;
+  const by = B[1]! * x + B[4]! * y + B[7]! * z;
+  const bz = B[2]! * x + B[5]! * y + B[8]! * z;
   return 4 * (x * bx + y * by + z * bz);
 }
 
 /** out = ψ(A R(q)) = 2η Āε + ε × Aε. */
 export function psiAQuat(out: Vec3, fam: WarpFamily, q: ArrayLike<number>): Vec3 {
   const B = fam.Abar, A = fam.A;
-  const x = q[0], y = q[1], z = q[2], w = q[3];
-  const bx = B[0] * x + B[3] * y + B[6] * z;
-  const by = B[1] * x + B[4] * y + B[7] * z;
-  const bz = B[2] * x + B[5] * y + B[8] * z;
-  const ax = A[0] * x + A[3] * y + A[6] * z;
-  const ay = A[1] * x + A[4] * y + A[7] * z;
-  const az = A[2] * x + A[5] * y + A[8] * z;
+  const x = q[0]!, y = q[1]!, z = q[2]!, w = q[3]!;
+  const bx = B[0]! * x + B[3]! * y + B[6]! * z;
+  const by = B[1]! * x + B[4]! * y + B[7]! * z;
+  const bz = B[2]! * x + B[5]! * y + B[8]! * z;
+  const ax = A[0]! * x + A[3]! * y + A[6]! * z;
+  const ay = A[1]! * x + A[4]! * y + A[7]! * z;
+  const az = A[2]! * x + A[5]! * y + A[8]! * z;
   out[0] = 2 * w * bx + (y * az - z * ay);
   out[1] = 2 * w * by + (z * ax - x * az);
   out[2] = 2 * w * bz + (x * ay - y * ax);
@@ -143,27 +143,27 @@ export const TIE_RELATIVE_TOLERANCE = 1e-12;
 /** Lowest index p with V_p within the tie tolerance of min V. */
 export function argminMember(V: ArrayLike<number>, n: number): number {
   let m = Infinity;
-  for (let p = 0; p < n; p++) if (V[p] < m) m = V[p];
+  for (let p = 0; p < n; p++) if (V[p]! < m) m = V[p]!;
   const tol = TIE_RELATIVE_TOLERANCE * (1 + Math.abs(m));
-  for (let p = 0; p < n; p++) if (V[p] <= m + tol) return p;
+  for (let p = 0; p < n; p++) if (V[p]! <= m + tol) return p;
   return 0;
 }
 
 /** Evaluate Φ, the warp and every V_p at attitude q (unit). Returns ws. */
 export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLike<number>): FamilyWorkspace {
-  const x = q[0], y = q[1], z = q[2], w = q[3];
+  const x = q[0]!, y = q[1]!, z = q[2]!, w = q[3]!;
   ws.q[0] = x;
   ws.q[1] = y;
   ws.q[2] = z;
   ws.q[3] = w;
   // Φ = 4εᵀĀε and ψ(AR) = 2ηĀε + ε × Aε share Āε.
   const B = fam.Abar, A = fam.A;
-  const bx = B[0] * x + B[3] * y + B[6] * z;
-  const by = B[1] * x + B[4] * y + B[7] * z;
-  const bz = B[2] * x + B[5] * y + B[8] * z;
-  const ax = A[0] * x + A[3] * y + A[6] * z;
-  const ay = A[1] * x + A[4] * y + A[7] * z;
-  const az = A[2] * x + A[5] * y + A[8] * z;
+  const bx = B[0]! * x + B[3]! * y + B[6]! * z;
+  const by = B[1]! * x + B[4]! * y + B[7]! * z;
+  const bz = B[2]! * x + B[5]! * y + B[8]! * z;
+  const ax = A[0]! * x + A[3]! * y + A[6]! * z;
+  const ay = A[1]! * x + A[4]! * y + A[7]! * z;
+  const az = A[2]! * x + A[5]! * y + A[8]! * z;
   ws.psiR[0] = 2 * w * bx + (y * az - z * ay);
   ws.psiR[1] = 2 * w * by + (z * ax - x * az);
   ws.psiR[2] = 2 * w * bz + (x * ay - y * ax);
@@ -179,7 +179,7 @@ export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLik
   const n = fam.members;
   for (let p = 0; p < n; p++) {
     // Γ_p = q ⊗ (sh u_p, ch)
-    const ux = sh * U[3 * p], uy = sh * U[3 * p + 1], uz = sh * U[3 * p + 2];
+    const ux = sh * U[3 * p]!, uy = sh * U[3 * p + 1]!, uz = sh * U[3 * p + 2]!;
     const gx = w * ux + ch * x + (y * uz - z * uy);
     const gy = w * uy + ch * y + (z * ux - x * uz);
     const gz = w * uz + ch * z + (x * uy - y * ux);
@@ -188,14 +188,14 @@ export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLik
     G[4 * p + 1] = gy;
     G[4 * p + 2] = gz;
     G[4 * p + 3] = gw;
-    const cx = B[0] * gx + B[3] * gy + B[6] * gz;
-    const cy = B[1] * gx + B[4] * gy + B[7] * gz;
-    const cz = B[2] * gx + B[5] * gy + B[8] * gz;
+    const cx = B[0]! * gx + B[3]! * gy + B[6]! * gz;
+    const cy = B[1]! * gx + B[4]! * gy + B[7]! * gz;
+    const cz = B[2]! * gx + B[5]! * gy + B[8]! * gz;
     V[p] = 4 * (gx * cx + gy * cy + gz * cz);
   }
   const mi = argminMember(V, n);
   ws.minIndex = mi;
-  ws.minValue = V[mi];
+  ws.minValue = V[mi]!;
   return ws;
 }
 
@@ -207,20 +207,20 @@ const sPsiR = new Float64Array(3);
  */
 export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, p: number): Vec3 {
   const G = ws.gamma;
-  const gq0 = G[4 * p], gq1 = G[4 * p + 1], gq2 = G[4 * p + 2], gq3 = G[4 * p + 3];
+  const gq0 = G[4 * p]!, gq1 = G[4 * p + 1]!, gq2 = G[4 * p + 2]!, gq3 = G[4 * p + 3]!;
   // ψ(AΓ_p) from the warped quaternion
   const B = fam.Abar, A = fam.A;
-  const bx = B[0] * gq0 + B[3] * gq1 + B[6] * gq2;
-  const by = B[1] * gq0 + B[4] * gq1 + B[7] * gq2;
-  const bz = B[2] * gq0 + B[5] * gq1 + B[8] * gq2;
-  const ax = A[0] * gq0 + A[3] * gq1 + A[6] * gq2;
-  const ay = A[1] * gq0 + A[4] * gq1 + A[7] * gq2;
-  const az = A[2] * gq0 + A[5] * gq1 + A[8] * gq2;
+  const bx = B[0]! * gq0 + B[3]! * gq1 + B[6]! * gq2;
+  const by = B[1]! * gq0 + B[4]! * gq1 + B[7]! * gq2;
+  const bz = B[2]! * gq0 + B[5]! * gq1 + B[8]! * gq2;
+  const ax = A[0]! * gq0 + A[3]! * gq1 + A[6]! * gq2;
+  const ay = A[1]! * gq0 + A[4]! * gq1 + A[7]! * gq2;
+  const az = A[2]! * gq0 + A[5]! * gq1 + A[8]! * gq2;
   const px = 2 * gq3 * bx + (gq1 * az - gq2 * ay);
   const py = 2 * gq3 * by + (gq2 * ax - gq0 * az);
   const pz = 2 * gq3 * bz + (gq0 * ay - gq1 * ax);
   const U = fam.directions;
-  const ux = U[3 * p], uy = U[3 * p + 1], uz = U[3 * p + 2];
+  const ux = U[3 * p]!, uy = U[3 * p + 1]!, uz = U[3 * p + 2]!;
   const c = ws.cosTheta, s = ws.sinTheta;
   // R_a(θ, u) v = c v + s (u × v) + (1 − c)(u·v) u   (Rodrigues)
   const ud = ux * px + uy * py + uz * pz;
@@ -229,9 +229,9 @@ export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, 
   const rz = c * pz + s * (ux * py - uy * px) + (1 - c) * ud * uz;
   const gs = 2 * fam.k * ud;
   const pr = ws.psiR;
-  out[0] = 2 * (rx + gs * pr[0]);
-  out[1] = 2 * (ry + gs * pr[1]);
-  out[2] = 2 * (rz + gs * pr[2]);
+  out[0] = 2 * (rx + gs * pr[0]!);
+  out[1] = 2 * (ry + gs * pr[1]!);
+  out[2] = 2 * (rz + gs * pr[2]!);
   return out;
 }
 
@@ -242,14 +242,14 @@ export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, 
 export function warpJacobianDet(fam: WarpFamily, q: ArrayLike<number>, p: number): number {
   psiAQuat(sPsiR, fam, q);
   const U = fam.directions;
-  return 1 + 2 * fam.k * (U[3 * p] * sPsiR[0] + U[3 * p + 1] * sPsiR[1] + U[3 * p + 2] * sPsiR[2]);
+  return 1 + 2 * fam.k * (U[3 * p]! * sPsiR[0]! + U[3 * p + 1]! * sPsiR[1]! + U[3 * p + 2]! * sPsiR[2]!);
 }
 
 /** Copy of an eigenvector column of the family's A (i = 0, 1, 2 ascending eigenvalue). */
 export function eigenvector(out: Vec3, fam: WarpFamily, i: number): Vec3 {
-  out[0] = fam.eigenvectors[3 * i];
-  out[1] = fam.eigenvectors[3 * i + 1];
-  out[2] = fam.eigenvectors[3 * i + 2];
+  out[0] = fam.eigenvectors[3 * i]!;
+  out[1] = fam.eigenvectors[3 * i + 1]!;
+  out[2] = fam.eigenvectors[3 * i + 2]!;
   return out;
 }
 

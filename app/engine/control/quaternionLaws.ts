@@ -42,18 +42,18 @@ abstract class QuaternionLawBase implements AttitudeController {
 
   torque(out: Vec3, input: ControlInput, logic: number): Vec3 {
     const st = computeTracking(this.st, this.plant, input);
-    const s = this.sign(st.qe[3], logic) * this.kp;
-    const ex = st.qe[0], ey = st.qe[1], ez = st.qe[2];
+    const s = this.sign(st.qe[3]!, logic) * this.kp;
+    const ex = st.qe[0]!, ey = st.qe[1]!, ez = st.qe[2]!;
     feedforwardPassive(out, st, this.plant);
-    out[0] -= s * ex;
-    out[1] -= s * ey;
-    out[2] -= s * ez;
+    out[0]! -= s * ex;
+    out[1]! -= s * ey;
+    out[2]! -= s * ez;
     return subtractMatVec(out, st, this.Kd, st.omegaE);
   }
 
   diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics {
     const st = computeTracking(this.st, this.plant, input);
-    const eta = st.qe[3];
+    const eta = st.qe[3]!;
     const s = this.sign(eta, logic);
     out.errorAngle = qAngle(st.qe);
     out.eta = eta;
@@ -68,7 +68,7 @@ abstract class QuaternionLawBase implements AttitudeController {
   protected abstract familyMin(eta: number): number;
 
   protected eta(input: ControlInput): number {
-    return computeTracking(this.st, this.plant, input).qe[3];
+    return computeTracking(this.st, this.plant, input).qe[3]!;
   }
 }
 

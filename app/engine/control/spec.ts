@@ -77,9 +77,9 @@ function parseGainMatrix(L: IssueList, path: string, v: unknown): Mat3 | null {
     let good = true;
     v.forEach((x, i) => (good = L.positive(`${path}[${i}]`, x) && good));
     if (!good) return null;
-    M[0] = v[0];
-    M[4] = v[1];
-    M[8] = v[2];
+    M[0] = v[0]!;
+    M[4] = v[1]!;
+    M[8] = v[2]!;
     return M;
   }
   if (isNumArray(v, 3) && v.every((r) => isNumArray(r, 3))) {
@@ -87,7 +87,7 @@ function parseGainMatrix(L: IssueList, path: string, v: unknown): Mat3 | null {
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) good = L.finite(`${path}[${r}][${c}]`, (v[r] as unknown[])[c]) && good;
     if (!good) return null;
     const rows = v as unknown as number[][];
-    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) M[3 * c + r] = rows[r][c];
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) M[3 * c + r] = rows[r]![c]!;
     if (!checkSymmetricPd(L, path, M)) return null;
     return M;
   }
@@ -97,15 +97,15 @@ function parseGainMatrix(L: IssueList, path: string, v: unknown): Mat3 | null {
 
 export function checkSymmetricPd(L: IssueList, path: string, M: ArrayLike<number>): boolean {
   let scale = 0;
-  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(M[i]));
+  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(M[i]!));
   for (let r = 0; r < 3; r++)
     for (let c = r + 1; c < 3; c++)
-      if (Math.abs(M[3 * c + r] - M[3 * r + c]) > 1e-9 * scale) {
+      if (Math.abs(M[3 * c + r]! - M[3 * r + c]!) > 1e-9 * scale) {
         L.add(`${path}[${r}][${c}]`, 'symmetric', `${path} must be symmetric: entries (${r},${c}) and (${c},${r}) differ`);
         return false;
       }
   const ev = symmetricEigen3(M).values;
-  if (!(ev[0] > 1e-12 * scale)) {
+  if (!(ev[0]! > 1e-12 * scale)) {
     L.add(path, 'positive-definite', `${path} must be positive definite (smallest eigenvalue ${ev[0]})`);
     return false;
   }
@@ -152,12 +152,12 @@ function parseUnit(L: IssueList, path: string, v: unknown): number[] | null {
   let good = true;
   v.forEach((x, i) => (good = L.finite(`${path}[${i}]`, x) && good));
   if (!good) return null;
-  const n = Math.hypot(v[0], v[1], v[2]);
+  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
   if (!(Math.abs(n - 1) <= 1e-6)) {
     L.add(path, 'unit-norm', `${path} must be a unit vector (norm ${n})`);
     return null;
   }
-  return [v[0] / n, v[1] / n, v[2] / n];
+  return [v[0]! / n, v[1]! / n, v[2]! / n];
 }
 
 function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
@@ -176,7 +176,7 @@ function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
     if (good) {
       lam = ev.slice();
       const s = [...lam].sort((a, b) => a - b);
-      if (s[1] - s[0] <= 1e-6 * s[2] || s[2] - s[1] <= 1e-6 * s[2]) {
+      if (s[1]! - s[0]! <= 1e-6 * s[2]! || s[2]! - s[1]! <= 1e-6 * s[2]!) {
         L.add(`${path}.eigenvalues`, 'distinct', `${path}.eigenvalues must be distinct (got ${lam.join(', ')}): repeated eigenvalues give continua of critical points (methods §1.2)`);
         lam = null;
       }
@@ -193,7 +193,7 @@ function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
     axes = parsed as number[][];
     for (let i = 0; i < 3; i++)
       for (let j = i + 1; j < 3; j++) {
-        const d = axes[i][0] * axes[j][0] + axes[i][1] * axes[j][1] + axes[i][2] * axes[j][2];
+        const d = axes[i]![0]! * axes[j]![0]! + axes[i]![1]! * axes[j]![1]! + axes[i]![2]! * axes[j]![2]!;
         if (Math.abs(d) > 1e-6) {
           L.add(`${path}.axes`, 'orthogonal', `${path}.axes[${i}] and [${j}] must be orthogonal (dot product ${d})`);
           return null;
@@ -204,7 +204,7 @@ function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
   // A = Σ λ_i v_i v_iᵀ
   const A = m3Create();
   for (let i = 0; i < 3; i++)
-    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) A[3 * c + r] += lam[i] * axes[i][r] * axes[i][c];
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) A[3 * c + r]! += lam[i]! * axes[i]![r]! * axes[i]![c]!;
   return A;
 }
 
@@ -322,7 +322,7 @@ export function checkPlant(plant: unknown, path = 'plant'): Issue[] {
     L.add(`${path}.axes`, 'length', `${path}.axes must be a Float64Array of 3·nWheels = ${3 * p.nWheels} numbers`);
   else
     for (let i = 0; i < p.nWheels; i++) {
-      const n = Math.hypot(p.axes[3 * i], p.axes[3 * i + 1], p.axes[3 * i + 2]);
+      const n = Math.hypot(p.axes[3 * i]!, p.axes[3 * i + 1]!, p.axes[3 * i + 2]!);
       if (!(Math.abs(n - 1) <= 1e-6)) L.add(`${path}.axes[${i}]`, 'unit-norm', `${path}.axes[${i}] must be a unit vector (norm ${n})`);
     }
   return L.items;

@@ -64,18 +64,18 @@ export class Synergistic implements AttitudeController {
   jumpGuard(input: ControlInput, logic: number): number {
     if (!this.valid(logic)) return 1;
     const ws = this.evaluate(input);
-    return ws.V[logic - 1] - ws.minValue - this.delta;
+    return ws.V[logic - 1]! - ws.minValue - this.delta;
   }
 
   updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null } {
     const ws = this.evaluate(input);
     const best = ws.minIndex + 1;
     if (!this.valid(logic)) return { logic: best, why: `logic reset to q = ${best} (invalid value ${logic})` };
-    const mu = ws.V[logic - 1] - ws.minValue;
+    const mu = ws.V[logic - 1]! - ws.minValue;
     if (mu >= this.delta && best !== logic)
       return {
         logic: best,
-        why: `synergy gap ${mu.toFixed(4)} ≥ δ = ${this.delta}: V_${logic} = ${ws.V[logic - 1].toFixed(4)} → V_${best} = ${ws.minValue.toFixed(4)}`,
+        why: `synergy gap ${mu.toFixed(4)} ≥ δ = ${this.delta}: V_${logic} = ${ws.V[logic - 1]!.toFixed(4)} → V_${best} = ${ws.minValue.toFixed(4)}`,
       };
     return { logic, why: null };
   }
@@ -84,9 +84,9 @@ export class Synergistic implements AttitudeController {
     const ws = this.evaluate(input);
     const b = memberGradient(this.b, this.family, ws, this.member(logic));
     feedforwardPassive(out, this.st, this.plant);
-    out[0] -= this.kR * b[0];
-    out[1] -= this.kR * b[1];
-    out[2] -= this.kR * b[2];
+    out[0]! -= this.kR * b[0]!;
+    out[1]! -= this.kR * b[1]!;
+    out[2]! -= this.kR * b[2]!;
     return subtractMatVec(out, this.st, this.Komega, this.st.omegaE);
   }
 
@@ -94,11 +94,11 @@ export class Synergistic implements AttitudeController {
     const ws = this.evaluate(input);
     const p = this.member(logic);
     out.errorAngle = qAngle(this.st.qe);
-    out.eta = this.st.qe[3];
-    out.potential = ws.V[p];
+    out.eta = this.st.qe[3]!;
+    out.potential = ws.V[p]!;
     out.potentialMin = ws.minValue;
-    out.gap = ws.V[p] - ws.minValue;
-    out.lyapunov = this.kR * ws.V[p] + errorKineticEnergy(this.st, this.plant);
+    out.gap = ws.V[p]! - ws.minValue;
+    out.lyapunov = this.kR * ws.V[p]! + errorKineticEnergy(this.st, this.plant);
     return out;
   }
 }

@@ -55,15 +55,15 @@ export function computeTracking(st: TrackingState, plant: PlantModel, input: Con
   qRotateInverse(st.omegaR, st.qe, input.omegaRef);
   qRotateInverse(st.accelR, st.qe, input.omegaDotRef);
   const w = input.omega;
-  st.omegaE[0] = w[0] - st.omegaR[0];
-  st.omegaE[1] = w[1] - st.omegaR[1];
-  st.omegaE[2] = w[2] - st.omegaR[2];
+  st.omegaE[0] = w[0]! - st.omegaR[0]!;
+  st.omegaE[1] = w[1]! - st.omegaR[1]!;
+  st.omegaE[2] = w[2]! - st.omegaR[2]!;
   let gx = 0, gy = 0, gz = 0;
   const ax = plant.axes, h = input.hWheel;
   for (let i = 0; i < plant.nWheels; i++) {
-    gx += ax[3 * i] * h[i];
-    gy += ax[3 * i + 1] * h[i];
-    gz += ax[3 * i + 2] * h[i];
+    gx += ax[3 * i]! * h[i]!;
+    gy += ax[3 * i + 1]! * h[i]!;
+    gz += ax[3 * i + 2]! * h[i]!;
   }
   st.gh[0] = gx;
   st.gh[1] = gy;
@@ -75,14 +75,14 @@ export function computeTracking(st: TrackingState, plant: PlantModel, input: Con
 export function feedforwardPassive(out: Vec3, st: TrackingState, plant: PlantModel): Vec3 {
   const J = plant.Jperp;
   m3MulVec(st.t1, J, st.omegaR);
-  st.t1[0] += st.gh[0];
-  st.t1[1] += st.gh[1];
-  st.t1[2] += st.gh[2];
+  st.t1[0]! += st.gh[0]!;
+  st.t1[1]! += st.gh[1]!;
+  st.t1[2]! += st.gh[2]!;
   v3Cross(st.t2, st.omegaR, st.t1);
   m3MulVec(st.t1, J, st.accelR);
-  out[0] = st.t1[0] + st.t2[0];
-  out[1] = st.t1[1] + st.t2[1];
-  out[2] = st.t1[2] + st.t2[2];
+  out[0] = st.t1[0]! + st.t2[0]!;
+  out[1] = st.t1[1]! + st.t2[1]!;
+  out[2] = st.t1[2]! + st.t2[2]!;
   return out;
 }
 
@@ -90,19 +90,19 @@ export function feedforwardPassive(out: Vec3, st: TrackingState, plant: PlantMod
 export function feedforwardCancel(out: Vec3, st: TrackingState, plant: PlantModel, omega: ArrayLike<number>): Vec3 {
   const J = plant.Jperp;
   m3MulVec(st.t1, J, omega);
-  st.t1[0] += st.gh[0];
-  st.t1[1] += st.gh[1];
-  st.t1[2] += st.gh[2];
+  st.t1[0]! += st.gh[0]!;
+  st.t1[1]! += st.gh[1]!;
+  st.t1[2]! += st.gh[2]!;
   v3Cross(st.t2, omega, st.t1);
-  const ox = st.t2[0], oy = st.t2[1], oz = st.t2[2];
+  const ox = st.t2[0]!, oy = st.t2[1]!, oz = st.t2[2]!;
   v3Cross(st.t1, st.omegaE, st.omegaR);
-  st.t1[0] = st.accelR[0] - st.t1[0];
-  st.t1[1] = st.accelR[1] - st.t1[1];
-  st.t1[2] = st.accelR[2] - st.t1[2];
+  st.t1[0] = st.accelR[0]! - st.t1[0]!;
+  st.t1[1] = st.accelR[1]! - st.t1[1]!;
+  st.t1[2] = st.accelR[2]! - st.t1[2]!;
   m3MulVec(st.t2, J, st.t1);
-  out[0] = ox + st.t2[0];
-  out[1] = oy + st.t2[1];
-  out[2] = oz + st.t2[2];
+  out[0] = ox + st.t2[0]!;
+  out[1] = oy + st.t2[1]!;
+  out[2] = oz + st.t2[2]!;
   return out;
 }
 
@@ -110,15 +110,15 @@ export function feedforwardCancel(out: Vec3, st: TrackingState, plant: PlantMode
 export function errorKineticEnergy(st: TrackingState, plant: PlantModel): number {
   m3MulVec(st.t1, plant.Jperp, st.omegaE);
   const e = st.omegaE;
-  return 0.5 * (e[0] * st.t1[0] + e[1] * st.t1[1] + e[2] * st.t1[2]);
+  return 0.5 * (e[0]! * st.t1[0]! + e[1]! * st.t1[1]! + e[2]! * st.t1[2]!);
 }
 
 /** out −= K v (K column-major 3×3), using st.t1 as scratch. */
 export function subtractMatVec(out: Vec3, st: TrackingState, K: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
   m3MulVec(st.t1, K, v);
-  out[0] -= st.t1[0];
-  out[1] -= st.t1[1];
-  out[2] -= st.t1[2];
+  out[0]! -= st.t1[0]!;
+  out[1]! -= st.t1[1]!;
+  out[2]! -= st.t1[2]!;
   return out;
 }
 

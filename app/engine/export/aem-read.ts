@@ -68,7 +68,7 @@ export function parseAem(text: string): Result<AemDocument> {
     width = null;
     if (type !== undefined) {
       if (!(type in AEM_ATTITUDE_TYPES)) err(line, 'attitude-type', `ATTITUDE_TYPE "${type}" is not one of ${Object.keys(AEM_ATTITUDE_TYPES).join(', ')}`);
-      else width = AEM_ATTITUDE_TYPES[type];
+      else width = AEM_ATTITUDE_TYPES[type]!;
       if (type.startsWith('EULER_ANGLE') && md.EULER_ROT_SEQ === undefined) err(line, 'missing-keyword', `EULER_ROT_SEQ is required with ATTITUDE_TYPE ${type}`);
     }
     if (md.INTERPOLATION_METHOD !== undefined) {
@@ -88,7 +88,7 @@ export function parseAem(text: string): Result<AemDocument> {
     segStop = t.STOP_TIME ?? null;
     const order = ['START_TIME', 'USEABLE_START_TIME', 'USEABLE_STOP_TIME', 'STOP_TIME'].filter((k) => t[k]);
     for (let i = 1; i < order.length; i++) {
-      if (compareEpochs(t[order[i - 1]]!, t[order[i]]!) > 0) err(line, 'time-range', `${order[i - 1]} is after ${order[i]}`);
+      if (compareEpochs(t[order[i - 1]!]!, t[order[i]!]!) > 0) err(line, 'time-range', `${order[i - 1]} is after ${order[i]}`);
     }
     const useStart = t.USEABLE_START_TIME ?? t.START_TIME;
     if (prevUseableStop && useStart && compareEpochs(useStart, prevUseableStop) < 0) {
@@ -99,7 +99,7 @@ export function parseAem(text: string): Result<AemDocument> {
 
   for (let i = 0; i < rawLines.length; i++) {
     const ln = i + 1;
-    const raw = rawLines[i];
+    const raw = rawLines[i]!;
     if (raw.length > KVN_MAX_LINE) err(ln, 'line-length', `${raw.length} characters; KVN lines hold at most ${KVN_MAX_LINE}`);
     if (!isPrintableAscii(raw)) err(ln, 'ascii', 'contains a character outside printable ASCII (tabs included)');
     const s = raw.trim();
@@ -115,8 +115,8 @@ export function parseAem(text: string): Result<AemDocument> {
         err(ln, 'first-line', 'the first non-blank line of an AEM must be "CCSDS_AEM_VERS = 2.0"');
         return fail(errors);
       }
-      doc.version = kvm[2];
-      doc.header.CCSDS_AEM_VERS = kvm[2];
+      doc.version = kvm[2]!;
+      doc.header.CCSDS_AEM_VERS = kvm[2]!;
       if (kvm[2] !== AEM_VERSION) err(ln, 'version', `CCSDS_AEM_VERS = ${kvm[2]}: this reader reads version ${AEM_VERSION} only`);
       state = 'header';
       continue;
@@ -136,12 +136,12 @@ export function parseAem(text: string): Result<AemDocument> {
         continue;
       }
       if (!kvm) { err(ln, 'syntax', `expected "KEYWORD = value" in the header (got "${s.slice(0, 40)}")`); continue; }
-      const [, key, value] = kvm;
+      const key = kvm[1]!, value = kvm[2]!;
       if (key !== key.toUpperCase()) { err(ln, 'key-case', `keyword "${key}" must be upper case`); continue; }
       const idx = HEADER_INDEX.get(key);
       if (idx === undefined) { err(ln, 'unknown-keyword', `${key} is not an AEM header keyword`); continue; }
       if (key in doc.header) { err(ln, 'duplicate', `${key} appears twice`); continue; }
-      if (idx < lastHeaderIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_HEADER_KEYS[lastHeaderIdx].key}`);
+      if (idx < lastHeaderIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_HEADER_KEYS[lastHeaderIdx]!.key}`);
       lastHeaderIdx = Math.max(lastHeaderIdx, idx);
       if (value === '') err(ln, 'empty-value', `${key} has no value`);
       if (key === 'CREATION_DATE' && !parseAemEpoch(value, true)) err(ln, 'epoch', `CREATION_DATE "${value}" is not an epoch`);
@@ -172,12 +172,12 @@ export function parseAem(text: string): Result<AemDocument> {
       }
       if (bare === 'DATA_START' || bare === 'META_START') { err(ln, 'structure', `${bare} before META_STOP`); continue; }
       if (!kvm) { err(ln, 'syntax', `expected "KEYWORD = value" in the metadata (got "${s.slice(0, 40)}")`); continue; }
-      const [, key, value] = kvm;
+      const key = kvm[1]!, value = kvm[2]!;
       if (key !== key.toUpperCase()) { err(ln, 'key-case', `keyword "${key}" must be upper case`); continue; }
       const idx = META_INDEX.get(key);
       if (idx === undefined) { err(ln, 'unknown-keyword', `${key} is not an AEM metadata keyword`); continue; }
       if (key in seg.metadata) { err(ln, 'duplicate', `${key} appears twice in this metadata block`); continue; }
-      if (idx < lastMetaIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_META_KEYS[lastMetaIdx].key} (CCSDS 504.0-B-2 Table 4-3 order)`);
+      if (idx < lastMetaIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_META_KEYS[lastMetaIdx]!.key} (CCSDS 504.0-B-2 Table 4-3 order)`);
       lastMetaIdx = Math.max(lastMetaIdx, idx);
       if (value === '') err(ln, 'empty-value', `${key} has no value`);
       if (!EPOCH_KEYS.has(key) && /[a-z]/.test(value) && /[A-Z]/.test(value)) err(ln, 'text-case', `${key} value "${value}" mixes upper and lower case`);
@@ -207,12 +207,12 @@ export function parseAem(text: string): Result<AemDocument> {
       }
       if (kvm || bare === 'META_START' || bare === 'DATA_START' || bare === 'META_STOP') { err(ln, 'structure', `"${s.slice(0, 40)}" inside a data block (missing DATA_STOP?)`); continue; }
       const tok = s.split(/\s+/);
-      const time = parseAemEpoch(tok[0], timeSystem === 'UTC');
+      const time = parseAemEpoch(tok[0]!, timeSystem === 'UTC');
       if (!time) { err(ln, 'epoch', `"${tok[0]}" is not an epoch of the form YYYY-MM-DDThh:mm:ss[.d…d][Z]`); continue; }
       const values: number[] = [];
       let bad = false;
       for (let k = 1; k < tok.length; k++) {
-        const r = parseKvnNumber(tok[k]);
+        const r = parseKvnNumber(tok[k]!);
         if ('reason' in r) { err(ln, 'number', `value ${k}: ${r.reason}`); bad = true; }
         else values.push(r.value);
       }
@@ -223,7 +223,7 @@ export function parseAem(text: string): Result<AemDocument> {
       if ((segStart && compareEpochs(time, segStart) < 0) || (segStop && compareEpochs(time, segStop) > 0)) {
         err(ln, 'time-range', `epoch ${tok[0]} lies outside START_TIME…STOP_TIME of its segment`);
       }
-      seg.lines.push({ line: ln, epoch: tok[0], time, values });
+      seg.lines.push({ line: ln, epoch: tok[0]!, time, values });
       continue;
     }
   }

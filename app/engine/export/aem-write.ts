@@ -68,10 +68,10 @@ export interface AemOptions {
 
 /** AEM quaternion (Q1, Q2, Q3, QC) from A = inertial to B = body, from qInertialFromBody: the same numbers (see header). */
 export function aemQuaternionFromAttitude(out: Float64Array, qInertialFromBody: ArrayLike<number>): Float64Array {
-  out[0] = qInertialFromBody[0];
-  out[1] = qInertialFromBody[1];
-  out[2] = qInertialFromBody[2];
-  out[3] = qInertialFromBody[3];
+  out[0] = qInertialFromBody[0]!;
+  out[1] = qInertialFromBody[1]!;
+  out[2] = qInertialFromBody[2]!;
+  out[3] = qInertialFromBody[3]!;
   return out;
 }
 
@@ -103,7 +103,7 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   }
 
   const objectName = o.objectName ?? toKvnText(resolved?.vehicle?.name ?? '');
-  const text: Record<string, string | null> = {
+  const text: Record<'originator' | 'objectName' | 'objectId' | 'centerName' | 'refFrameA' | 'refFrameB', string | null> = {
     originator: o.originator ?? 'SLEWSMITH',
     objectName,
     objectId: o.objectId ?? 'UNKNOWN',
@@ -140,8 +140,8 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   const sign = new Float64Array(trace.n);
   let px = 0, py = 0, pz = 0, pw = 0;
   for (let m = 0; m < idx.length; m++) {
-    const k = idx[m];
-    const x = trace.q[4 * k], y = trace.q[4 * k + 1], z = trace.q[4 * k + 2], w = trace.q[4 * k + 3];
+    const k = idx[m]!;
+    const x = trace.q[4 * k]!, y = trace.q[4 * k + 1]!, z = trace.q[4 * k + 2]!, w = trace.q[4 * k + 3]!;
     const s = m === 0 ? (w < 0 ? -1 : 1) : px * x + py * y + pz * z + pw * w < 0 ? -1 : 1;
     sign[k] = s;
     px = s * x; py = s * y; pz = s * z; pw = s * w;
@@ -152,23 +152,23 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   const blocks: { label: string; lines: string[]; first: number; last: number }[] = [];
   const segErrors: Issue[] = [];
   for (let b = 0; b < segs.value.length; b++) {
-    const seg = segs.value[b];
+    const seg = segs.value[b]!;
     const slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
     const lines: string[] = [];
     let lastUnits = -Infinity, firstUnits = NaN;
     for (let m = 0; m < idx.length; m++) {
-      const k = idx[m];
-      const t = trace.t[k];
+      const k = idx[m]!;
+      const t = trace.t[k]!;
       if (t < seg.startS - slack || t > seg.stopS + slack) continue;
       const u = epochUnits(epochMs, t, fracDigits);
       if (u <= lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
       if (Number.isNaN(firstUnits)) firstUnits = u;
       lastUnits = u;
       aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
-      const s = sign[k];
+      const s = sign[k]!;
       const parts = [formatEpochUnits(u, fracDigits)];
-      for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i], qDec));
-      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i] * RAD_TO_DEG, rateSig));
+      for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, qDec));
+      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * RAD_TO_DEG, rateSig));
       lines.push(parts.join(' '));
     }
     if (lines.length === 0) {

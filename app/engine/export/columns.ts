@@ -26,7 +26,7 @@ function vecColumns(prefix: string, suffix: string, unit: string, what: string, 
     unit,
     description: `${what}, body ${c.toUpperCase()}`,
     integer: false,
-    get: (tr: RunTrace, k: number) => tr[channel][3 * k + i],
+    get: (tr: RunTrace, k: number) => tr[channel][3 * k + i]!,
   }));
 }
 
@@ -36,7 +36,7 @@ function quatColumns(prefix: string, what: string, channel: 'q' | 'qRef'): Colum
     unit: '',
     description: `${what}, component ${c}`,
     integer: false,
-    get: (tr: RunTrace, k: number) => tr[channel][4 * k + i],
+    get: (tr: RunTrace, k: number) => tr[channel][4 * k + i]!,
   }));
 }
 
@@ -48,22 +48,22 @@ function wheelColumns(nW: number, key: string, unit: string, what: string, chann
       unit,
       description: `${what}, wheel ${i + 1}`,
       integer: false,
-      get: (tr: RunTrace, k: number) => tr[channel][nW * k + i],
+      get: (tr: RunTrace, k: number) => tr[channel][nW * k + i]!,
     });
   }
   return out;
 }
 
 function scalar(name: string, unit: string, description: string, channel: 'logic' | 'potential' | 'potentialMin' | 'gap' | 'lyapunov'): Column {
-  return { name, unit, description, integer: false, get: (tr, k) => tr[channel][k] };
+  return { name, unit, description, integer: false, get: (tr, k) => tr[channel][k]! };
 }
 
 /** Columns in export order for an array of `nWheels` wheels. */
 export function traceColumns(nWheels: number): Column[] {
   return [
-    { name: 't_s', unit: 's', description: 'time from the scenario epoch', integer: false, get: (tr, k) => tr.t[k] },
-    { name: 'j', unit: 'count', description: 'hybrid jump counter (logic jumps)', integer: true, get: (tr, k) => tr.j[k] },
-    { name: 'segment', unit: 'count', description: 'maneuver segment index (target number, from 0)', integer: true, get: (tr, k) => tr.segment[k] },
+    { name: 't_s', unit: 's', description: 'time from the scenario epoch', integer: false, get: (tr, k) => tr.t[k]! },
+    { name: 'j', unit: 'count', description: 'hybrid jump counter (logic jumps)', integer: true, get: (tr, k) => tr.j[k]! },
+    { name: 'segment', unit: 'count', description: 'maneuver segment index (target number, from 0)', integer: true, get: (tr, k) => tr.segment[k]! },
     ...quatColumns('q', 'attitude qInertialFromBody', 'q'),
     ...vecColumns('omega', '_radps', 'rad/s', 'body rate', 'omega'),
     ...quatColumns('qref', 'reference attitude qInertialFromBody', 'qRef'),
@@ -74,7 +74,7 @@ export function traceColumns(nWheels: number): Column[] {
     ...wheelColumns(nWheels, 'torque_Nm', 'N m', 'delivered motor torque', 'wheelTorque'),
     ...wheelColumns(nWheels, 'h_Nms', 'N m s', 'axial wheel momentum', 'hWheel'),
     scalar('logic', '', 'controller logic value (h in {-1, 1}, synergistic index, 0 for smooth laws)', 'logic'),
-    { name: 'error_angle_deg', unit: 'deg', description: 'rotation angle from the attitude to the reference', integer: false, get: (tr, k) => tr.errorAngle[k] * RAD_TO_DEG },
+    { name: 'error_angle_deg', unit: 'deg', description: 'rotation angle from the attitude to the reference', integer: false, get: (tr, k) => tr.errorAngle[k]! * RAD_TO_DEG },
     scalar('potential', '', 'active potential V_q (0 where the law has none)', 'potential'),
     scalar('potential_min', '', 'minimum of the potential family', 'potentialMin'),
     scalar('synergy_gap', '', 'synergy gap V_q - min_p V_p', 'gap'),
@@ -99,11 +99,11 @@ export function selectSamples(trace: RunTrace, sampleRateHz?: number): Result<In
     return fail([e]);
   }
   const dt = 1 / sampleRateHz;
-  const t0 = trace.t[0];
+  const t0 = trace.t[0]!;
   const keep: number[] = [0];
   let next = t0 + dt;
   for (let k = 1; k < n; k++) {
-    const t = trace.t[k];
+    const t = trace.t[k]!;
     // Relative slack so a sample that sits on the grid up to round-off is taken.
     if (t >= next - 1e-9 * Math.max(1, Math.abs(next))) {
       keep.push(k);

@@ -50,8 +50,8 @@ export function writeCsv(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   lines.push(cols.map((c) => c.name).join(','));
   const row: string[] = new Array(cols.length);
   for (let m = 0; m < idx.length; m++) {
-    const k = idx[m];
-    for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c].get(trace, k));
+    const k = idx[m]!;
+    for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c]!.get(trace, k));
     lines.push(row.join(','));
   }
   return ok(lines.join(eol) + eol);

@@ -92,7 +92,7 @@ export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: Exp
   for (const c of cols) {
     const a = new Array<number>(idx.length);
     for (let m = 0; m < idx.length; m++) {
-      const x = c.get(trace, idx[m]);
+      const x = c.get(trace, idx[m]!);
       a[m] = x === 0 ? 0 : x;
     }
     channels[c.name] = a;

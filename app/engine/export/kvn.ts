@@ -31,7 +31,7 @@ const KVN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[Ee][+-]?\d+)?$/;
 
 /** Count of significant digits in a KVN number's mantissa. */
 export function significantDigits(s: string): number {
-  const mant = s.replace(/^[+-]/, '').split(/[Ee]/)[0].replace('.', '');
+  const mant = s.replace(/^[+-]/, '').split(/[Ee]/)[0]!.replace('.', '');
   const trimmed = mant.replace(/^0+/, '');
   return trimmed === '' ? 1 : trimmed.length;
 }
@@ -86,7 +86,7 @@ export function parseAemEpoch(s: string, allowLeapSecond: boolean): AemEpoch | n
     year = Number(m[1]); month = Number(m[2]); day = Number(m[3]);
     hh = Number(m[4]); mm = Number(m[5]); ss = Number(m[6]); frac = m[7];
     const dim = [31, isLeap(year) ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
-    if (month < 1 || month > 12 || day < 1 || day > dim[month - 1]) return null;
+    if (month < 1 || month > 12 || day < 1 || day > dim[month - 1]!) return null;
   } else {
     m = DOY.exec(s);
     if (!m) return null;

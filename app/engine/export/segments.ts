@@ -24,8 +24,8 @@ export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, give
         errors.push({ path: p, rule: 'interval', message: `${p} must have finite startS ≤ stopS (got ${s.startS}, ${s.stopS})` });
       }
       if (typeof s.label !== 'string') errors.push({ path: `${p}.label`, rule: 'type', message: `${p}.label must be a string` });
-      if (i > 0 && s.startS < given[i - 1].stopS) {
-        errors.push({ path: `${p}.startS`, rule: 'ordered', message: `${p}.startS = ${s.startS} s is before the previous segment's stopS = ${given[i - 1].stopS} s` });
+      if (i > 0 && s.startS < given[i - 1]!.stopS) {
+        errors.push({ path: `${p}.startS`, rule: 'ordered', message: `${p}.startS = ${s.startS} s is before the previous segment's stopS = ${given[i - 1]!.stopS} s` });
       }
     });
     if (given.length === 0) errors.push({ path: 'meta.segments', rule: 'min-items', message: 'meta.segments must list at least one segment' });
@@ -35,8 +35,8 @@ export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, give
   let first = 0;
   for (let k = 1; k <= trace.n; k++) {
     if (k === trace.n || trace.segment[k] !== trace.segment[first]) {
-      const idx = trace.segment[first];
-      out.push({ index: idx, label: segmentLabel(resolved, idx), startS: trace.t[first], stopS: k < trace.n ? trace.t[k] : trace.t[trace.n - 1] });
+      const idx = trace.segment[first]!;
+      out.push({ index: idx, label: segmentLabel(resolved, idx), startS: trace.t[first]!, stopS: k < trace.n ? trace.t[k]! : trace.t[trace.n - 1]! });
       first = k;
     }
   }

@@ -39,7 +39,7 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
   };
 
   // Time for people: 10 significant digits (0.7, not 0.7000000000000001).
-  const tOf = (k: number) => (trace.t && Number.isFinite(trace.t[k]) ? ` (t = ${Number(trace.t[k].toPrecision(10))} s)` : '');
+  const tOf = (k: number) => (trace.t && Number.isFinite(trace.t[k]) ? ` (t = ${Number(trace.t[k]!.toPrecision(10))} s)` : '');
 
   /** Collects per-channel issues up to `cap`, then counts. */
   const capped = (path: string, rule: string) => {
@@ -83,17 +83,17 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
   for (const [name, arr, isOk] of [['j', trace.j, jOk], ['segment', trace.segment, segOk]] as const) {
     if (!isOk) continue;
     const c = capped(`trace.${name}`, 'integer');
-    for (let k = 0; k < n; k++) if (!Number.isInteger(arr[k]) || arr[k] < 0) c.add(k, `sample ${k}${tOf(k)}: trace.${name} must be a whole number ≥ 0 (got ${arr[k]})`);
+    for (let k = 0; k < n; k++) if (!Number.isInteger(arr[k]) || arr[k]! < 0) c.add(k, `sample ${k}${tOf(k)}: trace.${name} must be a whole number ≥ 0 (got ${arr[k]})`);
     c.close();
   }
 
   if (okChannels.has('t') && jOk) {
     const c = capped('trace.t', 'increasing');
     for (let k = 1; k < n; k++) {
-      const t0 = trace.t[k - 1], t1 = trace.t[k];
+      const t0 = trace.t[k - 1]!, t1 = trace.t[k]!;
       if (!Number.isFinite(t0) || !Number.isFinite(t1)) continue;
       if (t1 > t0) continue;
-      if (t1 === t0 && trace.j[k] > trace.j[k - 1]) continue;
+      if (t1 === t0 && trace.j[k]! > trace.j[k - 1]!) continue;
       c.add(k, `sample ${k}: time ${t1} s does not increase from ${t0} s at sample ${k - 1}${t1 === t0 ? ' and no jump happened (j did not increase)' : ''}`);
     }
     c.close();
@@ -104,7 +104,7 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
     const a = trace[name];
     const c = capped(`trace.${name}`, 'unit-norm');
     for (let k = 0; k < n; k++) {
-      const norm = Math.hypot(a[4 * k], a[4 * k + 1], a[4 * k + 2], a[4 * k + 3]);
+      const norm = Math.hypot(a[4 * k]!, a[4 * k + 1]!, a[4 * k + 2]!, a[4 * k + 3]!);
       if (Number.isFinite(norm) && Math.abs(norm - 1) > tol) c.add(k, `sample ${k}${tOf(k)}: trace.${name} has norm ${norm.toPrecision(9)}, not 1 within ${tol}`);
     }
     c.close();

@@ -36,7 +36,7 @@ export class ArcBuffer {
     this.t[k] = t;
     this.j[k] = j;
     const d = this.dim, off = k * d;
-    for (let i = 0; i < d; i++) this.x[off + i] = x[i];
+    for (let i = 0; i < d; i++) this.x[off + i] = x[i]!;
   }
 
   /** Views trimmed to the stored points (no copy). */

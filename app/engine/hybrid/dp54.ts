@@ -181,7 +181,7 @@ export class DormandPrince implements Stepper {
   reset(t: number, x: ArrayLike<number>): void {
     this.t = t;
     const d = this.x;
-    for (let i = 0; i < this.n; i++) d[i] = x[i];
+    for (let i = 0; i < this.n; i++) d[i] = x[i]!;
     this.fsal = false;
   }
 
@@ -202,21 +202,21 @@ export class DormandPrince implements Stepper {
     const n = this.n, x = this.x, k1 = this.k1;
     let d0 = 0, d1 = 0;
     for (let i = 0; i < n; i++) {
-      const sc = this.atol[i] + this.rtol * Math.abs(x[i]);
-      d0 += (x[i] / sc) ** 2;
-      d1 += (k1[i] / sc) ** 2;
+      const sc = this.atol[i]! + this.rtol * Math.abs(x[i]!);
+      d0 += (x[i]! / sc) ** 2;
+      d1 += (k1[i]! / sc) ** 2;
     }
     d0 = Math.sqrt(d0 / n);
     d1 = Math.sqrt(d1 / n);
     let h0 = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 : 0.01 * (d0 / d1);
     h0 = Math.min(h0, this.hMax, span);
-    for (let i = 0; i < n; i++) this.y[i] = x[i] + h0 * k1[i];
+    for (let i = 0; i < n; i++) this.y[i] = x[i]! + h0 * k1[i]!;
     this.f(this.t + h0, this.y, this.k2);
     this.evaluations++;
     let d2 = 0;
     for (let i = 0; i < n; i++) {
-      const sc = this.atol[i] + this.rtol * Math.abs(x[i]);
-      d2 += ((this.k2[i] - k1[i]) / sc) ** 2;
+      const sc = this.atol[i]! + this.rtol * Math.abs(x[i]!);
+      d2 += ((this.k2[i]! - k1[i]!) / sc) ** 2;
     }
     d2 = Math.sqrt(d2 / n) / h0;
     const dm = Math.max(d1, d2);
@@ -251,23 +251,23 @@ export class DormandPrince implements Stepper {
       const hMinEff = Math.max(this.hMin, 16 * EPS * Math.abs(t));
       if (!landing && h < hMinEff) return sawNonFinite ? STEP_NON_FINITE : STEP_UNDERFLOW;
       const tEnd = landing ? tStop : t + h;
-      for (let i = 0; i < n; i++) y[i] = x[i] + h * A21 * k1[i];
+      for (let i = 0; i < n; i++) y[i] = x[i]! + h * A21 * k1[i]!;
       f(t + C2 * h, y, k2);
-      for (let i = 0; i < n; i++) y[i] = x[i] + h * (A31 * k1[i] + A32 * k2[i]);
+      for (let i = 0; i < n; i++) y[i] = x[i]! + h * (A31 * k1[i]! + A32 * k2[i]!);
       f(t + C3 * h, y, k3);
-      for (let i = 0; i < n; i++) y[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
+      for (let i = 0; i < n; i++) y[i] = x[i]! + h * (A41 * k1[i]! + A42 * k2[i]! + A43 * k3[i]!);
       f(t + C4 * h, y, k4);
-      for (let i = 0; i < n; i++) y[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
+      for (let i = 0; i < n; i++) y[i] = x[i]! + h * (A51 * k1[i]! + A52 * k2[i]! + A53 * k3[i]! + A54 * k4[i]!);
       f(t + C5 * h, y, k5);
-      for (let i = 0; i < n; i++) y[i] = x[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
+      for (let i = 0; i < n; i++) y[i] = x[i]! + h * (A61 * k1[i]! + A62 * k2[i]! + A63 * k3[i]! + A64 * k4[i]! + A65 * k5[i]!);
       f(tEnd, y, k6);
-      for (let i = 0; i < n; i++) xNew[i] = x[i] + h * (B1 * k1[i] + B3 * k3[i] + B4 * k4[i] + B5 * k5[i] + B6 * k6[i]);
+      for (let i = 0; i < n; i++) xNew[i] = x[i]! + h * (B1 * k1[i]! + B3 * k3[i]! + B4 * k4[i]! + B5 * k5[i]! + B6 * k6[i]!);
       f(tEnd, xNew, k7);
       this.evaluations += 6;
       let err = 0;
       for (let i = 0; i < n; i++) {
-        const e = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
-        const sc = this.atol[i] + this.rtol * Math.max(Math.abs(x[i]), Math.abs(xNew[i]));
+        const e = h * (E1 * k1[i]! + E3 * k3[i]! + E4 * k4[i]! + E5 * k5[i]! + E6 * k6[i]! + E7 * k7[i]!);
+        const sc = this.atol[i]! + this.rtol * Math.max(Math.abs(x[i]!), Math.abs(xNew[i]!));
         const r = e / sc;
         err += r * r;
         if (!Number.isFinite(xNew[i])) err = NaN;
@@ -322,13 +322,13 @@ export class DormandPrince implements Stepper {
     const y0 = this.xOld, y1 = this.x;
     const f0 = this.k7, f1 = this.k1, k3 = this.k3, k4 = this.k4, k5 = this.k5, k6 = this.k6;
     for (let i = 0; i < n; i++) {
-      const d = y1[i] - y0[i];
-      const b = h * f0[i] - d;
-      this.r1[i] = y0[i];
+      const d = y1[i]! - y0[i]!;
+      const b = h * f0[i]! - d;
+      this.r1[i] = y0[i]!;
       this.r2[i] = d;
       this.r3[i] = b;
-      this.r4[i] = d - h * f1[i] - b;
-      this.r5[i] = h * (D1 * f0[i] + D3 * k3[i] + D4 * k4[i] + D5 * k5[i] + D6 * k6[i] + D7 * f1[i]);
+      this.r4[i] = d - h * f1[i]! - b;
+      this.r5[i] = h * (D1 * f0[i]! + D3 * k3[i]! + D4 * k4[i]! + D5 * k5[i]! + D6 * k6[i]! + D7 * f1[i]!);
     }
     this.denseReady = true;
   }
@@ -338,7 +338,7 @@ export class DormandPrince implements Stepper {
     const th = this.hLast > 0 ? (tq - this.tOld) / this.hLast : 1;
     const th1 = 1 - th;
     for (let i = 0; i < this.n; i++) {
-      out[i] = this.r1[i] + th * (this.r2[i] + th1 * (this.r3[i] + th * (this.r4[i] + th1 * this.r5[i])));
+      out[i] = this.r1[i]! + th * (this.r2[i]! + th1 * (this.r3[i]! + th * (this.r4[i]! + th1 * this.r5[i]!)));
     }
     return out;
   }

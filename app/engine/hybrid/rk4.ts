@@ -37,14 +37,14 @@ export function rk4Step(
   const { k1, k2, k3, k4, tmp } = work;
   if (!k1Known) f(t, x, k1);
   const h2 = 0.5 * h;
-  for (let i = 0; i < n; i++) tmp[i] = x[i] + h2 * k1[i];
+  for (let i = 0; i < n; i++) tmp[i] = x[i]! + h2 * k1[i]!;
   f(t + h2, tmp, k2);
-  for (let i = 0; i < n; i++) tmp[i] = x[i] + h2 * k2[i];
+  for (let i = 0; i < n; i++) tmp[i] = x[i]! + h2 * k2[i]!;
   f(t + h2, tmp, k3);
-  for (let i = 0; i < n; i++) tmp[i] = x[i] + h * k3[i];
+  for (let i = 0; i < n; i++) tmp[i] = x[i]! + h * k3[i]!;
   f(t + h, tmp, k4);
   const h6 = h / 6;
-  for (let i = 0; i < n; i++) out[i] = x[i] + h6 * (k1[i] + 2 * (k2[i] + k3[i]) + k4[i]);
+  for (let i = 0; i < n; i++) out[i] = x[i]! + h6 * (k1[i]! + 2 * (k2[i]! + k3[i]!) + k4[i]!);
   return out;
 }
 
@@ -61,7 +61,7 @@ export function hermiteInterpolate(
   const b0 = (t3 - 2 * t2 + theta) * h;
   const a1 = -2 * t3 + 3 * t2;
   const b1 = (t3 - t2) * h;
-  for (let i = 0; i < out.length; i++) out[i] = a0 * x0[i] + b0 * f0[i] + a1 * x1[i] + b1 * f1[i];
+  for (let i = 0; i < out.length; i++) out[i] = a0 * x0[i]! + b0 * f0[i]! + a1 * x1[i]! + b1 * f1[i]!;
   return out;
 }
 
@@ -117,7 +117,7 @@ export class Rk4Stepper implements Stepper {
   reset(t: number, x: ArrayLike<number>): void {
     this.t = t;
     const d = this.x;
-    for (let i = 0; i < this.n; i++) d[i] = x[i];
+    for (let i = 0; i < this.n; i++) d[i] = x[i]!;
     this.kValid = false;
     this.atEnd = false;
     this.fEndValid = false;

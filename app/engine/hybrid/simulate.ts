@@ -127,7 +127,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       else if (hasGuard && armed && g >= 0 && (preferJump || !inC(t, stepper.x, g))) cause = 'guard';
       if (cause === null) break;
       const M = o.maxJumpsPerInstant;
-      if (ringCount >= M && t - ring[ringIdx] <= o.zenoWindow) {
+      if (ringCount >= M && t - ring[ringIdx]! <= o.zenoWindow) {
         stop('zeno', `more than ${M} jumps within ${fmt(o.zenoWindow)} s up to t = ${fmt(t)} s (j = ${j}): ` +
           `Zeno-like accumulation of jumps; the run stops here`);
         break outer;
@@ -136,7 +136,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       if (++ringIdx === M) ringIdx = 0;
       ringCount++;
       const x = stepper.x;
-      for (let i = 0; i < n; i++) xPlus[i] = x[i];
+      for (let i = 0; i < n; i++) xPlus[i] = x[i]!;
       const r = sys.jump(t, x, xPlus, cause);
       if (!allFinite(xPlus)) {
         stop('non-finite', `the jump map (${cause}) gave a non-finite state at t = ${fmt(t)} s (j = ${j}); ` +

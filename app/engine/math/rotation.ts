@@ -39,10 +39,10 @@ export function qFromValues(x: number, y: number, z: number, w: number): Quat {
 }
 
 export function qCopy(out: Quat, a: ArrayLike<number>): Quat {
-  out[0] = a[0];
-  out[1] = a[1];
-  out[2] = a[2];
-  out[3] = a[3];
+  out[0] = a[0]!;
+  out[1] = a[1]!;
+  out[2] = a[2]!;
+  out[3] = a[3]!;
   return out;
 }
 
@@ -59,8 +59,8 @@ export function qMultiply(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>)
 
 /** out = a* ⊗ b (the relative rotation from a to b), without a temporary. */
 export function qConjMultiply(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>): Quat {
-  const ax = -a[0], ay = -a[1], az = -a[2], aw = a[3];
-  const bx = b[0], by = b[1], bz = b[2], bw = b[3];
+  const ax = -a[0]!, ay = -a[1]!, az = -a[2]!, aw = a[3]!;
+  const bx = b[0]!, by = b[1]!, bz = b[2]!, bw = b[3]!;
   out[0] = ax * bw + aw * bx + ay * bz - az * by;
   out[1] = ay * bw + aw * by + az * bx - ax * bz;
   out[2] = az * bw + aw * bz + ax * by - ay * bx;
@@ -69,19 +69,19 @@ export function qConjMultiply(out: Quat, a: ArrayLike<number>, b: ArrayLike<numb
 }
 
 export function qConjugate(out: Quat, a: ArrayLike<number>): Quat {
-  out[0] = -a[0];
-  out[1] = -a[1];
-  out[2] = -a[2];
-  out[3] = a[3];
+  out[0] = -a[0]!;
+  out[1] = -a[1]!;
+  out[2] = -a[2]!;
+  out[3] = a[3]!;
   return out;
 }
 
 export function qNorm(a: ArrayLike<number>): number {
-  return Math.hypot(a[0], a[1], a[2], a[3]);
+  return Math.hypot(a[0]!, a[1]!, a[2]!, a[3]!);
 }
 
 export function qDot(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2] + a[3] * b[3];
+  return a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!;
 }
 
 /**
@@ -94,10 +94,10 @@ export function qNormalize(out: Quat, a: ArrayLike<number>): boolean {
     qIdentity(out);
     return false;
   }
-  out[0] = a[0] / n;
-  out[1] = a[1] / n;
-  out[2] = a[2] / n;
-  out[3] = a[3] / n;
+  out[0] = a[0]! / n;
+  out[1] = a[1]! / n;
+  out[2] = a[2]! / n;
+  out[3] = a[3]! / n;
   return true;
 }
 
@@ -108,8 +108,8 @@ export function qRotate(out: Vec3, q: ArrayLike<number>, v: ArrayLike<number>): 
 
 /** Inverse rotation: out = q* ⊗ v ⊗ q (inertial → body for an attitude quaternion). */
 export function qRotateInverse(out: Vec3, q: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
-  const x = -q[0], y = -q[1], z = -q[2], w = q[3];
-  const vx = v[0], vy = v[1], vz = v[2];
+  const x = -q[0]!, y = -q[1]!, z = -q[2]!, w = q[3]!;
+  const vx = v[0]!, vy = v[1]!, vz = v[2]!;
   // t = 2 (q_v × v); out = v + w t + q_v × t  (with q_v of the conjugate)
   const tx = 2 * (y * vz - z * vy);
   const ty = 2 * (z * vx - x * vz);
@@ -130,8 +130,8 @@ export function qToMat3(out: Mat3, q: ArrayLike<number>): Mat3 {
  * Shepperd, JGCD 1(3), 1978), sign chosen with w ≥ 0. The input should be orthonormal.
  */
 export function qFromMat3(out: Quat, m: ArrayLike<number>): Quat {
-  const r00 = m[0], r11 = m[4], r22 = m[8];
-  const r10 = m[1], r20 = m[2], r01 = m[3], r21 = m[5], r02 = m[6], r12 = m[7];
+  const r00 = m[0]!, r11 = m[4]!, r22 = m[8]!;
+  const r10 = m[1]!, r20 = m[2]!, r01 = m[3]!, r21 = m[5]!, r02 = m[6]!, r12 = m[7]!;
   const tr = r00 + r11 + r22;
   let x: number, y: number, z: number, w: number;
   if (tr >= r00 && tr >= r11 && tr >= r22) {
@@ -170,12 +170,12 @@ export function qFromMat3(out: Quat, m: ArrayLike<number>): Quat {
 
 /** q = (sin(θ/2) u, cos(θ/2)); `axis` need not be unit but must be non-zero. */
 export function qFromAxisAngle(out: Quat, axis: ArrayLike<number>, angleRad: number): Quat {
-  const n = Math.hypot(axis[0], axis[1], axis[2]);
+  const n = Math.hypot(axis[0]!, axis[1]!, axis[2]!);
   if (!(n > 0)) return qIdentity(out);
   const s = Math.sin(0.5 * angleRad) / n;
-  out[0] = axis[0] * s;
-  out[1] = axis[1] * s;
-  out[2] = axis[2] * s;
+  out[0] = axis[0]! * s;
+  out[1] = axis[1]! * s;
+  out[2] = axis[2]! * s;
   out[3] = Math.cos(0.5 * angleRad);
   return out;
 }
@@ -185,8 +185,8 @@ export function qFromAxisAngle(out: Quat, axis: ArrayLike<number>, angleRad: num
  * For the identity the axis is +X by convention.
  */
 export function qToAxisAngle(axisOut: Vec3, q: ArrayLike<number>): number {
-  const sgn = q[3] < 0 ? -1 : 1;
-  const x = q[0] * sgn, y = q[1] * sgn, z = q[2] * sgn, w = q[3] * sgn;
+  const sgn = q[3]! < 0 ? -1 : 1;
+  const x = q[0]! * sgn, y = q[1]! * sgn, z = q[2]! * sgn, w = q[3]! * sgn;
   const s = Math.hypot(x, y, z);
   if (s < 1e-300) {
     axisOut[0] = 1;
@@ -205,7 +205,7 @@ export function qToAxisAngle(axisOut: Vec3, q: ArrayLike<number>): number {
  * near 0 and π (no unclamped acos).
  */
 export function qAngle(q: ArrayLike<number>): number {
-  return 2 * Math.atan2(Math.hypot(q[0], q[1], q[2]), Math.abs(q[3]));
+  return 2 * Math.atan2(Math.hypot(q[0]!, q[1]!, q[2]!), Math.abs(q[3]!));
 }
 
 /** Shortest rotation angle between two attitudes (from the relative quaternion a* ⊗ b, accurate near 0). */
@@ -221,7 +221,7 @@ export function qError(out: Quat, qDesired: ArrayLike<number>, q: ArrayLike<numb
 
 /** Exponential map: q = exp(½ φ) for a rotation vector φ (rad): axis φ/|φ|, angle |φ|. */
 export function qFromRotationVector(out: Quat, phi: ArrayLike<number>): Quat {
-  const x = phi[0], y = phi[1], z = phi[2];
+  const x = phi[0]!, y = phi[1]!, z = phi[2]!;
   const th = Math.hypot(x, y, z);
   const half = 0.5 * th;
   // sin(θ/2)/θ with a series near zero.
@@ -235,8 +235,8 @@ export function qFromRotationVector(out: Quat, phi: ArrayLike<number>): Quat {
 
 /** Logarithm map: rotation vector of q (shortest, |φ| ≤ π). */
 export function qToRotationVector(out: Vec3, q: ArrayLike<number>): Vec3 {
-  const sgn = q[3] < 0 ? -1 : 1;
-  const x = q[0] * sgn, y = q[1] * sgn, z = q[2] * sgn, w = q[3] * sgn;
+  const sgn = q[3]! < 0 ? -1 : 1;
+  const x = q[0]! * sgn, y = q[1]! * sgn, z = q[2]! * sgn, w = q[3]! * sgn;
   const s = Math.hypot(x, y, z);
   const th = 2 * Math.atan2(s, w);
   const k = s < 1e-12 ? 2 / Math.max(w, 1e-300) : th / s;
@@ -251,9 +251,9 @@ export function qToRotationVector(out: Vec3, q: ArrayLike<number>): Vec3 {
  */
 export function qPropagateBodyRate(out: Quat, q: ArrayLike<number>, omegaBody: ArrayLike<number>, dt: number): Quat {
   const dq = scratchQ;
-  scratchV[0] = omegaBody[0] * dt;
-  scratchV[1] = omegaBody[1] * dt;
-  scratchV[2] = omegaBody[2] * dt;
+  scratchV[0] = omegaBody[0]! * dt;
+  scratchV[1] = omegaBody[1]! * dt;
+  scratchV[2] = omegaBody[2]! * dt;
   qFromRotationVector(dq, scratchV);
   return qMultiply(out, q, dq);
 }
@@ -269,10 +269,10 @@ export function qSlerp(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>, t:
 /** Flip b's sign if needed so that ⟨a, b⟩ ≥ 0 (same attitude, same hemisphere as a). */
 export function qSameHemisphere(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>): Quat {
   const s = qDot(a, b) < 0 ? -1 : 1;
-  out[0] = b[0] * s;
-  out[1] = b[1] * s;
-  out[2] = b[2] * s;
-  out[3] = b[3] * s;
+  out[0] = b[0]! * s;
+  out[1] = b[1]! * s;
+  out[2] = b[2]! * s;
+  out[3] = b[3]! * s;
   return out;
 }
 
@@ -318,9 +318,9 @@ export function qElementary(out: Quat, i: number, angleRad: number): Quat {
 
 /** q = q_i(a1) ⊗ q_j(a2) ⊗ q_k(a3) for the intrinsic sequence "ijk" (R = R_i R_j R_k). */
 export function qFromEuler(out: Quat, seq: EulerSequence, a1: number, a2: number, a3: number): Quat {
-  const e1 = qElementary(qCreate(), axisIndex(seq[0]), a1);
-  const e2 = qElementary(qCreate(), axisIndex(seq[1]), a2);
-  const e3 = qElementary(qCreate(), axisIndex(seq[2]), a3);
+  const e1 = qElementary(qCreate(), axisIndex(seq[0]!), a1);
+  const e2 = qElementary(qCreate(), axisIndex(seq[1]!), a2);
+  const e3 = qElementary(qCreate(), axisIndex(seq[2]!), a3);
   qMultiply(out, e1, e2);
   return qMultiply(out, out, e3);
 }
@@ -339,8 +339,8 @@ function levi(i: number, j: number, k: number): number {
  */
 export function qToEuler(out: Vec3, seq: EulerSequence, q: ArrayLike<number>): Vec3 {
   const m = qToMat3(m3Create(), q);
-  const R = (r: number, c: number) => m[3 * c + r];
-  const i = axisIndex(seq[0]), j = axisIndex(seq[1]), k = axisIndex(seq[2]);
+  const R = (r: number, c: number) => m[3 * c + r]!;
+  const i = axisIndex(seq[0]!), j = axisIndex(seq[1]!), k = axisIndex(seq[2]!);
   let a: number, b: number, c: number;
   if (i !== k) {
     const eps = levi(i, j, k);
@@ -394,22 +394,22 @@ export function qFromTwoVectors(
   // R = [s1 s2 s3][t1 t2 t3]ᵀ, column-major.
   const m = m3Create();
   for (let r = 0; r < 3; r++)
-    for (let c = 0; c < 3; c++) m[3 * c + r] = ti[0][r] * tb[0][c] + ti[1][r] * tb[1][c] + ti[2][r] * tb[2][c];
+    for (let c = 0; c < 3; c++) m[3 * c + r] = ti[0]![r]! * tb[0]![c]! + ti[1]![r]! * tb[1]![c]! + ti[2]![r]! * tb[2]![c]!;
   qFromMat3(out, m);
   return true;
 }
 
 function triad(p: ArrayLike<number>, s: ArrayLike<number>, tol: number): number[][] | null {
-  const np = Math.hypot(p[0], p[1], p[2]);
-  const ns = Math.hypot(s[0], s[1], s[2]);
+  const np = Math.hypot(p[0]!, p[1]!, p[2]!);
+  const ns = Math.hypot(s[0]!, s[1]!, s[2]!);
   if (!(np > 0) || !(ns > 0)) return null;
-  const t1 = [p[0] / np, p[1] / np, p[2] / np];
-  const sx = s[0] / ns, sy = s[1] / ns, sz = s[2] / ns;
-  const c = [t1[1] * sz - t1[2] * sy, t1[2] * sx - t1[0] * sz, t1[0] * sy - t1[1] * sx];
-  const nc = Math.hypot(c[0], c[1], c[2]);
+  const t1 = [p[0]! / np, p[1]! / np, p[2]! / np];
+  const sx = s[0]! / ns, sy = s[1]! / ns, sz = s[2]! / ns;
+  const c = [t1[1]! * sz - t1[2]! * sy, t1[2]! * sx - t1[0]! * sz, t1[0]! * sy - t1[1]! * sx];
+  const nc = Math.hypot(c[0]!, c[1]!, c[2]!);
   if (nc < tol) return null;
-  const t2 = [c[0] / nc, c[1] / nc, c[2] / nc];
-  const t3 = [t1[1] * t2[2] - t1[2] * t2[1], t1[2] * t2[0] - t1[0] * t2[2], t1[0] * t2[1] - t1[1] * t2[0]];
+  const t2 = [c[0]! / nc, c[1]! / nc, c[2]! / nc];
+  const t3 = [t1[1]! * t2[2]! - t1[2]! * t2[1]!, t1[2]! * t2[0]! - t1[0]! * t2[2]!, t1[0]! * t2[1]! - t1[1]! * t2[0]!];
   return [t1, t2, t3];
 }
 
@@ -418,8 +418,8 @@ function triad(p: ArrayLike<number>, s: ArrayLike<number>, tol: number): number[
  * integrator's inner loop does not allocate.
  */
 export function qDerivative(out: ArrayLike<number> & { [i: number]: number }, q: ArrayLike<number>, w: ArrayLike<number>, offset = 0): void {
-  const x = q[0], y = q[1], z = q[2], s = q[3];
-  const wx = w[0], wy = w[1], wz = w[2];
+  const x = q[0]!, y = q[1]!, z = q[2]!, s = q[3]!;
+  const wx = w[0]!, wy = w[1]!, wz = w[2]!;
   out[offset] = 0.5 * (s * wx + y * wz - z * wy);
   out[offset + 1] = 0.5 * (s * wy + z * wx - x * wz);
   out[offset + 2] = 0.5 * (s * wz + x * wy - y * wx);

@@ -74,45 +74,45 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   const w = trace.omega, wr = trace.omegaRef;
   const rateErr = new Float64Array(n);
   for (let k = 0; k < n; k++) {
-    const dx = w[3 * k] - wr[3 * k], dy = w[3 * k + 1] - wr[3 * k + 1], dz = w[3 * k + 2] - wr[3 * k + 2];
+    const dx = w[3 * k]! - wr[3 * k]!, dy = w[3 * k + 1]! - wr[3 * k + 1]!, dz = w[3 * k + 2]! - wr[3 * k + 2]!;
     rateErr[k] = Math.sqrt(dx * dx + dy * dy + dz * dz);
   }
 
   // Settle time: scan backwards for the last sample outside the thresholds.
   let lastBad = -1;
   for (let k = n - 1; k >= 0; k--) {
-    if (!(trace.errorAngle[k] < o.settleAngleRad && rateErr[k] < o.settleRateRadPerS)) {
+    if (!(trace.errorAngle[k]! < o.settleAngleRad && rateErr[k]! < o.settleRateRadPerS)) {
       lastBad = k;
       break;
     }
   }
   const settled = lastBad < n - 1;
-  const settleTimeS = settled ? t[lastBad + 1] : null;
+  const settleTimeS = settled ? t[lastBad + 1]! : null;
 
   // Rotation travelled per segment.
   const segments: SegmentMetrics[] = [];
   const qStart = new Float64Array(4);
   const qTgt = new Float64Array(4);
   const closeSegment = (k0: number, kEnd: number, travelled: number) => {
-    const s = trace.segment[k0];
+    const s = trace.segment[k0]!;
     for (let i = 0; i < 4; i++) {
-      qStart[i] = trace.q[4 * k0 + i];
+      qStart[i] = trace.q[4 * k0 + i]!;
       qTgt[i] = o.segmentTargets[4 * s + i] ?? 0;
     }
     const shortest = qAngleBetween(qStart, qTgt);
-    segments.push({ segment: s, tStart: t[k0], tEnd: t[kEnd], shortestRad: shortest, travelledRad: travelled, unwound: travelled - shortest > Math.PI });
+    segments.push({ segment: s, tStart: t[k0]!, tEnd: t[kEnd]!, shortestRad: shortest, travelledRad: travelled, unwound: travelled - shortest > Math.PI });
   };
   let k0 = 0;
   let travelled = 0;
-  let wPrev = Math.sqrt(w[0] * w[0] + w[1] * w[1] + w[2] * w[2]);
+  let wPrev = Math.sqrt(w[0]! * w[0]! + w[1]! * w[1]! + w[2]! * w[2]!);
   for (let k = 1; k < n; k++) {
-    const wx = w[3 * k], wy = w[3 * k + 1], wz = w[3 * k + 2];
+    const wx = w[3 * k]!, wy = w[3 * k + 1]!, wz = w[3 * k + 2]!;
     const wk = Math.sqrt(wx * wx + wy * wy + wz * wz);
     if (trace.segment[k] !== trace.segment[k0]) {
       closeSegment(k0, k - 1, travelled);
       k0 = k;
       travelled = 0;
-    } else travelled += 0.5 * (wPrev + wk) * (t[k] - t[k - 1]);
+    } else travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
     wPrev = wk;
   }
   closeSegment(k0, n - 1, travelled);
@@ -122,13 +122,13 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   let peakTau = 0, peakH = 0, effort = 0, peakBody = 0, tbPrev = 0;
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < N; i++) {
-      peakTau = Math.max(peakTau, Math.abs(trace.wheelTorque[N * k + i]) / o.maxTorqueNm[i]);
-      peakH = Math.max(peakH, Math.abs(trace.hWheel[N * k + i]) / o.maxMomentumNms[i]);
+      peakTau = Math.max(peakTau, Math.abs(trace.wheelTorque[N * k + i]!) / o.maxTorqueNm[i]!);
+      peakH = Math.max(peakH, Math.abs(trace.hWheel[N * k + i]!) / o.maxMomentumNms[i]!);
     }
-    const bx = tb[3 * k], by = tb[3 * k + 1], bz = tb[3 * k + 2];
+    const bx = tb[3 * k]!, by = tb[3 * k + 1]!, bz = tb[3 * k + 2]!;
     const tbk = Math.sqrt(bx * bx + by * by + bz * bz);
-    peakBody = Math.max(peakBody, Math.abs(tc[3 * k]), Math.abs(tc[3 * k + 1]), Math.abs(tc[3 * k + 2]));
-    if (k > 0) effort += 0.5 * (tbk + tbPrev) * (t[k] - t[k - 1]);
+    peakBody = Math.max(peakBody, Math.abs(tc[3 * k]!), Math.abs(tc[3 * k + 1]!), Math.abs(tc[3 * k + 2]!));
+    if (k > 0) effort += 0.5 * (tbk + tbPrev) * (t[k]! - t[k - 1]!);
     tbPrev = tbk;
   }
   const floor = 0.02 * peakBody;
@@ -136,10 +136,10 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   const lastSign = [0, 0, 0];
   for (let k = 0; k < n; k++) {
     for (let a = 0; a < 3; a++) {
-      const v = trace.torqueCmdBody[3 * k + a];
+      const v = trace.torqueCmdBody[3 * k + a]!;
       if (Math.abs(v) <= floor) continue;
       const s = v > 0 ? 1 : -1;
-      if (lastSign[a] !== 0 && s !== lastSign[a]) eventTimes.push(t[k]);
+      if (lastSign[a] !== 0 && s !== lastSign[a]) eventTimes.push(t[k]!);
       lastSign[a] = s;
     }
   }
@@ -148,7 +148,7 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   eventTimes.sort((a, b) => a - b);
   let maxInWindow = 0;
   for (let lo = 0, hi = 0; hi < eventTimes.length; hi++) {
-    while (eventTimes[hi] - eventTimes[lo] > o.chatterWindowS) lo++;
+    while (eventTimes[hi]! - eventTimes[lo]! > o.chatterWindowS) lo++;
     maxInWindow = Math.max(maxInWindow, hi - lo + 1);
   }
 
@@ -166,8 +166,8 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
     peakWheelTorqueFraction: peakTau,
     peakWheelMomentumFraction: peakH,
     controlEffortNms: effort,
-    finalErrorRad: trace.errorAngle[n - 1],
-    finalRateErrorRadPerS: rateErr[n - 1],
+    finalErrorRad: trace.errorAngle[n - 1]!,
+    finalRateErrorRadPerS: rateErr[n - 1]!,
     segments,
   };
 }

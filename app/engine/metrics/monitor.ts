@@ -32,7 +32,7 @@ export function lyapunovMonitor(trace: RunTrace, jumps: readonly JumpEvent[], o:
   const n = trace.n;
   const W = trace.lyapunov;
   let wMax = 0;
-  for (let k = 0; k < n; k++) wMax = Math.max(wMax, Math.abs(W[k]));
+  for (let k = 0; k < n; k++) wMax = Math.max(wMax, Math.abs(W[k]!));
   const tol = o.relTol * wMax + o.absTol;
 
   // Flow intervals: runs of consecutive samples with the same jump counter and the same segment
@@ -41,14 +41,14 @@ export function lyapunovMonitor(trace: RunTrace, jumps: readonly JumpEvent[], o:
   let riseMin = 0;
   const closeRise = (kEnd: number) => {
     if (riseStart >= 0) {
-      const amount = W[kEnd] - riseMin;
+      const amount = W[kEnd]! - riseMin;
       if (amount > tol) {
         flags.push({
           kind: 'flow-rise',
-          tStart: trace.t[riseStart],
-          tEnd: trace.t[kEnd],
+          tStart: trace.t[riseStart]!,
+          tEnd: trace.t[kEnd]!,
           amount,
-          message: `W rose by ${amount.toPrecision(3)} during a flow from t = ${trace.t[riseStart].toFixed(2)} s to ${trace.t[kEnd].toFixed(2)} s`,
+          message: `W rose by ${amount.toPrecision(3)} during a flow from t = ${trace.t[riseStart]!.toFixed(2)} s to ${trace.t[kEnd]!.toFixed(2)} s`,
         });
       }
     }
@@ -60,10 +60,10 @@ export function lyapunovMonitor(trace: RunTrace, jumps: readonly JumpEvent[], o:
       closeRise(k - 1);
       continue;
     }
-    if (W[k] > W[k - 1]) {
+    if (W[k]! > W[k - 1]!) {
       if (riseStart < 0) {
         riseStart = k - 1;
-        riseMin = W[k - 1];
+        riseMin = W[k - 1]!;
       }
     } else if (riseStart >= 0) {
       closeRise(k - 1);

@@ -119,7 +119,7 @@ export function controllerSpec(c: ResolvedController, v: VehicleModel): Record<s
     eigenaxis: ['k', 'c'],
     synergistic: ['kR', 'kOmega'],
   };
-  const [sn, dn] = names[c.law];
+  const [sn, dn] = names[c.law]!;
   const gains = g.form === 'kp-kd' ? { [sn]: g.kp, [dn]: g.kd } : { omegaN: g.bandwidthRadPerS, zeta: g.dampingRatio };
   const base = { kind: c.law, label: c.label, gains };
   if (c.law === 'eigenaxis') {

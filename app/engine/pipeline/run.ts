@@ -95,22 +95,22 @@ export function directReference(plan: SequencePlan, targets: Float64Array, qInit
   const m = starts.length;
   const table = new Float64Array(4 * (m + 1)); // entry 0: the initial attitude, k + 1: segment k's target
   const segOf = new Int32Array(m + 1);
-  for (let i = 0; i < 4; i++) table[i] = qInitial[i];
+  for (let i = 0; i < 4; i++) table[i] = qInitial[i]!;
   for (let k = 0; k < m; k++) {
-    const tg = plan.timeline[k].target;
-    for (let i = 0; i < 4; i++) table[4 * (k + 1) + i] = targets[4 * tg + i];
+    const tg = plan.timeline[k]!.target;
+    for (let i = 0; i < 4; i++) table[4 * (k + 1) + i] = targets[4 * tg + i]!;
     segOf[k + 1] = Math.max(0, tg);
   }
   return {
     switchTimes: starts,
     at: (t, q, w, wd) => {
       let k = 0;
-      while (k < m && t >= starts[k] - 1e-12) k++;
+      while (k < m && t >= starts[k]! - 1e-12) k++;
       const o = 4 * k;
-      q[0] = table[o]; q[1] = table[o + 1]; q[2] = table[o + 2]; q[3] = table[o + 3];
+      q[0] = table[o]!; q[1] = table[o + 1]!; q[2] = table[o + 2]!; q[3] = table[o + 3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
-      return segOf[k];
+      return segOf[k]!;
     },
   };
 }
@@ -302,8 +302,8 @@ function vehicleSummary(s: ResolvedScenario, v: VehicleModel): VehicleSummary {
   const axes = [0, 1, 2].map((k) => [eig.vectors[3 * k], eig.vectors[3 * k + 1], eig.vectors[3 * k + 2]] as [number, number, number]);
   return {
     name: s.vehicle.name,
-    inertiaKgm2: [0, 1, 2].map((r) => [0, 1, 2].map((c) => v.inertia.J[3 * c + r])),
-    principalMomentsKgm2: [eig.values[0], eig.values[1], eig.values[2]],
+    inertiaKgm2: [0, 1, 2].map((r) => [0, 1, 2].map((c) => v.inertia.J[3 * c + r]!)),
+    principalMomentsKgm2: [eig.values[0]!, eig.values[1]!, eig.values[2]!],
     principalAxes: axes,
     nWheels: v.wheels.n,
     wheelAxes: v.wheels.axes,

@@ -56,18 +56,18 @@ export function slewLoadsAt(
   const c = Math.cos(phi), s = Math.sin(phi), k = (1 - c) * g.eDotH0;
   const e = g.e, h0 = g.h0, x = g.eXh0, Je = g.Je, d = g.eDotH0;
   for (let i = 0; i < 3; i++) {
-    const hb = h0[i] * c - s * x[i] + k * e[i];
+    const hb = h0[i]! * c - s * x[i]! + k * e[i]!;
     // e × H_B = cos φ (e × h0) + sin φ (h0 − (e·h0) e)
-    const eXhb = c * x[i] + s * (h0[i] - d * e[i]);
-    outTau[i] = Je[i] * alpha + omega * eXhb;
-    outH[i] = hb - omega * Je[i];
+    const eXhb = c * x[i]! + s * (h0[i]! - d * e[i]!);
+    outTau[i] = Je[i]! * alpha + omega * eXhb;
+    outH[i] = hb - omega * Je[i]!;
   }
 }
 
 /** H_B after a rotation φ about e (the wheel momentum at rest at that attitude). */
 export function storedMomentumAt(out: Vec3, g: SlewGeometry, phi: number): Vec3 {
   const c = Math.cos(phi), s = Math.sin(phi), k = (1 - c) * g.eDotH0;
-  for (let i = 0; i < 3; i++) out[i] = g.h0[i] * c - s * g.eXh0[i] + k * g.e[i];
+  for (let i = 0; i < 3; i++) out[i] = g.h0[i]! * c - s * g.eXh0[i]! + k * g.e[i]!;
   return out;
 }
 
@@ -79,22 +79,22 @@ const dir = new Float64Array(3);
  * which every caller treats as a violation.
  */
 export function envelopeFraction(v: ArrayLike<number>, capacity: (d: Vec3) => number): number {
-  const n = Math.hypot(v[0], v[1], v[2]);
+  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
   if (n === 0) return 0;
-  dir[0] = v[0] / n;
-  dir[1] = v[1] / n;
-  dir[2] = v[2] / n;
+  dir[0] = v[0]! / n;
+  dir[1] = v[1]! / n;
+  dir[2] = v[2]! / n;
   const c = capacity(dir);
   return c > 0 && Number.isFinite(c) ? n / c : Infinity;
 }
 
 /** Capacity along ±u (min of the two; zonotopes are symmetric but the interface does not say so). */
 export function symmetricCapacity(u: ArrayLike<number>, capacity: (d: Vec3) => number): number {
-  const n = Math.hypot(u[0], u[1], u[2]);
+  const n = Math.hypot(u[0]!, u[1]!, u[2]!);
   if (!(n > 0)) return 0;
-  dir[0] = u[0] / n;
-  dir[1] = u[1] / n;
-  dir[2] = u[2] / n;
+  dir[0] = u[0]! / n;
+  dir[1] = u[1]! / n;
+  dir[2] = u[2]! / n;
   const cp = capacity(dir);
   dir[0] = -dir[0];
   dir[1] = -dir[1];
@@ -160,7 +160,7 @@ export function scanEnvelopeUse(
       const t = j === n ? t1 : t0 + ((t1 - t0) * j) / n;
       profileStateAt(st, p.angleRad, a, p.peakRateRadPerS, tA, tC, t);
       // φ and ω are continuous; α is this phase's value, also at its end points.
-      slewLoadsAt(tauS, hS, g, st[0], st[1], alpha);
+      slewLoadsAt(tauS, hS, g, st[0]!, st[1]!, alpha);
       const ft = envelopeFraction(tauS, limits.torqueCapacity);
       const fh = envelopeFraction(hS, limits.momentumCapacity);
       if (ft > out.torque) out.torque = ft;

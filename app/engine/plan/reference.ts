@@ -18,11 +18,11 @@ const st = new Float64Array(3);
  * first slew (or for an empty timeline, or t NaN).
  */
 export function referenceEntryAt(tab: ReferenceTable, t: number): number {
-  if (tab.n === 0 || !(t >= tab.slewStartS[0])) return -1;
+  if (tab.n === 0 || !(t >= tab.slewStartS[0]!)) return -1;
   let lo = 0, hi = tab.n - 1;
   while (lo < hi) {
     const mid = (lo + hi + 1) >> 1;
-    if (tab.slewStartS[mid] <= t) lo = mid;
+    if (tab.slewStartS[mid]! <= t) lo = mid;
     else hi = mid - 1;
   }
   return lo;
@@ -48,24 +48,24 @@ export function evaluateReference(
     zero3(outOmegaDot);
     return k;
   }
-  profileStateAt(st, tab.angle[k], tab.accel[k], tab.peakRate[k], tab.accelTime[k], tab.coastTime[k], t - tab.slewStartS[k]);
-  const ex = tab.axis[3 * k], ey = tab.axis[3 * k + 1], ez = tab.axis[3 * k + 2];
-  const half = 0.5 * st[0], s = Math.sin(half);
+  profileStateAt(st, tab.angle[k]!, tab.accel[k]!, tab.peakRate[k]!, tab.accelTime[k]!, tab.coastTime[k]!, t - tab.slewStartS[k]!);
+  const ex = tab.axis[3 * k]!, ey = tab.axis[3 * k + 1]!, ez = tab.axis[3 * k + 2]!;
+  const half = 0.5 * st[0]!, s = Math.sin(half);
   const bx = ex * s, by = ey * s, bz = ez * s, bw = Math.cos(half);
   const o = 4 * k, q = tab.q0;
-  const ax = q[o], ay = q[o + 1], az = q[o + 2], aw = q[o + 3];
+  const ax = q[o]!, ay = q[o + 1]!, az = q[o + 2]!, aw = q[o + 3]!;
   // Hamilton product q0 ⊗ exp(½ φ e), scalar last, written out (no subarray view).
   outQ[0] = aw * bx + ax * bw + ay * bz - az * by;
   outQ[1] = aw * by - ax * bz + ay * bw + az * bx;
   outQ[2] = aw * bz + ax * by - ay * bx + az * bw;
   outQ[3] = aw * bw - ax * bx - ay * by - az * bz;
   // "+ 0" turns −0 (zero rate times a negative axis component) into +0: exports must not write −0.
-  outOmega[0] = st[1] * ex + 0;
-  outOmega[1] = st[1] * ey + 0;
-  outOmega[2] = st[1] * ez + 0;
-  outOmegaDot[0] = st[2] * ex + 0;
-  outOmegaDot[1] = st[2] * ey + 0;
-  outOmegaDot[2] = st[2] * ez + 0;
+  outOmega[0] = st[1]! * ex + 0;
+  outOmega[1] = st[1]! * ey + 0;
+  outOmega[2] = st[1]! * ez + 0;
+  outOmegaDot[0] = st[2]! * ex + 0;
+  outOmegaDot[1] = st[2]! * ey + 0;
+  outOmegaDot[2] = st[2]! * ez + 0;
   return k;
 }
 
@@ -84,16 +84,16 @@ export function evaluatePlannedLoads(
   const k = referenceEntryAt(tab, t);
   if (k < 0) {
     zero3(outTorqueBody);
-    outWheelMomentumBody[0] = tab.wheelMomentumInitialBody[0];
-    outWheelMomentumBody[1] = tab.wheelMomentumInitialBody[1];
-    outWheelMomentumBody[2] = tab.wheelMomentumInitialBody[2];
+    outWheelMomentumBody[0] = tab.wheelMomentumInitialBody[0]!;
+    outWheelMomentumBody[1] = tab.wheelMomentumInitialBody[1]!;
+    outWheelMomentumBody[2] = tab.wheelMomentumInitialBody[2]!;
     return k;
   }
-  profileStateAt(st, tab.angle[k], tab.accel[k], tab.peakRate[k], tab.accelTime[k], tab.coastTime[k], t - tab.slewStartS[k]);
-  const phi = st[0], w = st[1], al = st[2];
+  profileStateAt(st, tab.angle[k]!, tab.accel[k]!, tab.peakRate[k]!, tab.accelTime[k]!, tab.coastTime[k]!, t - tab.slewStartS[k]!);
+  const phi = st[0]!, w = st[1]!, al = st[2]!;
   const J = tab.inertia;
-  const ex = tab.axis[3 * k], ey = tab.axis[3 * k + 1], ez = tab.axis[3 * k + 2];
-  const hx = tab.h0[3 * k], hy = tab.h0[3 * k + 1], hz = tab.h0[3 * k + 2];
+  const ex = tab.axis[3 * k]!, ey = tab.axis[3 * k + 1]!, ez = tab.axis[3 * k + 2]!;
+  const hx = tab.h0[3 * k]!, hy = tab.h0[3 * k + 1]!, hz = tab.h0[3 * k + 2]!;
   // H_B = R_a(φ, e)ᵀ h0 (Rodrigues with −φ).
   const c = Math.cos(phi), s = Math.sin(phi);
   const d = ex * hx + ey * hy + ez * hz, kk = (1 - c) * d;
@@ -101,9 +101,9 @@ export function evaluatePlannedLoads(
   const Hx = hx * c - s * cx + kk * ex;
   const Hy = hy * c - s * cy + kk * ey;
   const Hz = hz * c - s * cz + kk * ez;
-  const jex = J[0] * ex + J[3] * ey + J[6] * ez;
-  const jey = J[1] * ex + J[4] * ey + J[7] * ez;
-  const jez = J[2] * ex + J[5] * ey + J[8] * ez;
+  const jex = J[0]! * ex + J[3]! * ey + J[6]! * ez;
+  const jey = J[1]! * ex + J[4]! * ey + J[7]! * ez;
+  const jez = J[2]! * ex + J[5]! * ey + J[8]! * ez;
   outTorqueBody[0] = jex * al + w * (ey * Hz - ez * Hy) + 0;
   outTorqueBody[1] = jey * al + w * (ez * Hx - ex * Hz) + 0;
   outTorqueBody[2] = jez * al + w * (ex * Hy - ey * Hx) + 0;

@@ -111,12 +111,12 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
     }
     if (a >= aTop || T > SCAN_STOP * bestT) break;
   }
-  if (bestK < 0) return { ok: false, reason: explainNoProfile(g, limits, aTop * A_FLOOR, ws[ws.length - 1]) };
+  if (bestK < 0) return { ok: false, reason: explainNoProfile(g, limits, aTop * A_FLOOR, ws[ws.length - 1]!) };
 
   // 4b. Golden-section on ln w between the neighbours of the best scan point.
   if (bestA < aTop || bestK > 0) {
-    let lo = Math.log(ws[bestK] * SCAN_RATIO);
-    let hi = Math.log(bestK > 0 ? ws[bestK - 1] : wHi);
+    let lo = Math.log(ws[bestK]! * SCAN_RATIO);
+    let hi = Math.log(bestK > 0 ? ws[bestK - 1]! : wHi);
     const r = (Math.sqrt(5) - 1) / 2;
     const at = (x: number): [number, number] => {
       const a = maxAccelFor(Math.exp(x), bestA * 0.5);

@@ -59,8 +59,8 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   const axis = new Float64Array(3);
   const angle = qToAxisAngle(axis, rel);
   // qToAxisAngle takes the shorter way (it flips the sign of rel when w < 0): so must qEnd.
-  const sgn = rel[3] < 0 ? -1 : 1;
-  const qEnd = Float64Array.from([q1[0] * sgn, q1[1] * sgn, q1[2] * sgn, q1[3] * sgn]);
+  const sgn = rel[3]! < 0 ? -1 : 1;
+  const qEnd = Float64Array.from([q1[0]! * sgn, q1[1]! * sgn, q1[2]! * sgn, q1[3]! * sgn]);
   const g = makeSlewGeometry(J, axis, h0, angle);
   const hEnd = storedMomentumAt(new Float64Array(3), g, angle);
   const base = {
@@ -74,7 +74,7 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   // Zero stored momentum, allowing for rounding carried through a sequence (|h| ~ 1e-20 N·m·s
   // after several rotations): below 1e-12 of the envelope the closed forms are exact to print.
   const hScale = limits.momentumCapacity(Float64Array.of(1, 0, 0)) + limits.momentumCapacity(Float64Array.of(0, 1, 0)) + limits.momentumCapacity(Float64Array.of(0, 0, 1));
-  const emptySystem = Math.hypot(h0[0], h0[1], h0[2]) <= 1e-12 * hScale;
+  const emptySystem = Math.hypot(h0[0]!, h0[1]!, h0[2]!) <= 1e-12 * hScale;
   const reasons = checkSegment(g, limits, hEnd, emptySystem);
   if (reasons.length) return { ...base, feasible: false, reasons };
 
@@ -88,7 +88,7 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   const slew = limits.slewRateLimitRadPerS;
 
   if (emptySystem) {
-    const mJe = Float64Array.from([-g.Je[0], -g.Je[1], -g.Je[2]]);
+    const mJe = Float64Array.from([-g.Je[0]!, -g.Je[1]!, -g.Je[2]!]);
     const wMom = (limits.momentumMargin * capacityAlong(mJe, limits.momentumCapacity)) / JeNorm;
     const w = Math.min(slew ?? Infinity, wMom);
     const p = restToRestProfile(angle, aHi, w);
@@ -164,7 +164,7 @@ function checkSegment(g: SlewGeometry, limits: PlanLimits, hEnd: Vec3, emptySyst
       out.push(issue('limits.torqueCapacity', 'zero-torque-capacity', 'The torque envelope gives no usable capacity (zero, or not a finite number) along ±Je, the direction this eigenaxis slew must push.'));
     }
     if (emptySystem) {
-      const mJe = Float64Array.from([-g.Je[0], -g.Je[1], -g.Je[2]]);
+      const mJe = Float64Array.from([-g.Je[0]!, -g.Je[1]!, -g.Je[2]!]);
       if (!(capacityAlong(mJe, limits.momentumCapacity) > 0)) {
         out.push(issue('limits.momentumCapacity', 'zero-momentum-capacity', 'The momentum envelope gives no usable capacity (zero, or not a finite number) along −Je, where this slew puts the wheel momentum.'));
       }
@@ -174,9 +174,9 @@ function checkSegment(g: SlewGeometry, limits: PlanLimits, hEnd: Vec3, emptySyst
 }
 
 function capacityAlong(v: ArrayLike<number>, cap: (d: Vec3) => number): number {
-  const n = Math.hypot(v[0], v[1], v[2]);
+  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
   if (!(n > 0)) return 0;
-  const c = cap(Float64Array.from([v[0] / n, v[1] / n, v[2] / n]));
+  const c = cap(Float64Array.from([v[0]! / n, v[1]! / n, v[2]! / n]));
   return c > 0 && Number.isFinite(c) ? c : 0;
 }
 

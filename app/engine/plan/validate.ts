@@ -34,12 +34,12 @@ function finiteArray(list: IssueList, path: string, v: unknown, n: number): Floa
 export function readQuat(list: IssueList, path: string, v: unknown): Quat | null {
   const q = finiteArray(list, path, v, 4);
   if (!q) return null;
-  const n = Math.hypot(q[0], q[1], q[2], q[3]);
+  const n = Math.hypot(q[0]!, q[1]!, q[2]!, q[3]!);
   if (!(Math.abs(n - 1) <= UNIT_NORM_TOL)) {
     list.add(path, 'unit-norm', `${path} must be a unit quaternion (norm ${n}, allowed 1 ± ${UNIT_NORM_TOL})`);
     return null;
   }
-  for (let i = 0; i < 4; i++) q[i] /= n;
+  for (let i = 0; i < 4; i++) q[i]! /= n;
   return q;
 }
 
@@ -52,17 +52,17 @@ export function readInertia(list: IssueList, path: string, v: unknown): Mat3 | n
   const J = finiteArray(list, path, v, 9);
   if (!J) return null;
   let scale = 0;
-  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(J[i]));
+  for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(J[i]!));
   let good = true;
-  for (const [r, c] of [[0, 1], [0, 2], [1, 2]]) {
-    if (Math.abs(J[3 * c + r] - J[3 * r + c]) > 1e-9 * scale) {
+  for (const [r, c] of [[0, 1], [0, 2], [1, 2]] as const) {
+    if (Math.abs(J[3 * c + r]! - J[3 * r + c]!) > 1e-9 * scale) {
       list.add(`${path}[${r}][${c}]`, 'symmetric', `${path} must be symmetric: entry (${r},${c}) = ${J[3 * c + r]} but (${c},${r}) = ${J[3 * r + c]}`);
       good = false;
     }
   }
   if (!good) return null;
   const { values } = symmetricEigen3(J);
-  if (!(values[0] > 1e-12 * Math.max(scale, 1e-300))) {
+  if (!(values[0]! > 1e-12 * Math.max(scale, 1e-300))) {
     list.add(path, 'positive-definite', `${path} must be positive definite (smallest eigenvalue ${values[0]} kg·m²)`);
     return null;
   }

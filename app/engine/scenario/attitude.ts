@@ -33,11 +33,11 @@ export function attitudeForm(spec: AttitudeSpec): AttitudeForm {
 }
 
 function norm3(v: readonly number[]): number {
-  return Math.hypot(v[0], v[1], v[2]);
+  return Math.hypot(v[0]!, v[1]!, v[2]!);
 }
 
 function sinAngle(a: readonly number[], b: readonly number[]): number {
-  const cx = a[1] * b[2] - a[2] * b[1], cy = a[2] * b[0] - a[0] * b[2], cz = a[0] * b[1] - a[1] * b[0];
+  const cx = a[1]! * b[2]! - a[2]! * b[1]!, cy = a[2]! * b[0]! - a[0]! * b[2]!, cz = a[0]! * b[1]! - a[1]! * b[0]!;
   return Math.hypot(cx, cy, cz) / (norm3(a) * norm3(b));
 }
 
@@ -71,15 +71,15 @@ export function resolveAttitude(
     if (Math.abs(n - 1) > SILENT_NORM_DEPARTURE) {
       warnings.push(issue(p, 'normalised', `${p} had norm ${n.toPrecision(12)} and was normalised to 1`));
     }
-    out[0] = q[0] / n;
-    out[1] = q[1] / n;
-    out[2] = q[2] / n;
-    out[3] = q[3] / n;
+    out[0] = q[0]! / n;
+    out[1] = q[1]! / n;
+    out[2] = q[2]! / n;
+    out[3] = q[3]! / n;
     return true;
   }
   if ('euler' in spec) {
     const a = spec.euler.anglesDeg;
-    qFromEuler(out, spec.euler.sequence, a[0] * DEG, a[1] * DEG, a[2] * DEG);
+    qFromEuler(out, spec.euler.sequence, a[0]! * DEG, a[1]! * DEG, a[2]! * DEG);
     return true;
   }
   if ('pointing' in spec) {

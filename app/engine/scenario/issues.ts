@@ -131,8 +131,8 @@ function convertUnion(zi: ZIssue, root: unknown, path: Key[], value: unknown, ou
   const branches = (zi.errors as ZIssue[][] | undefined) ?? [];
   if (keys && isPlainObject(value)) {
     const present = keys.map((k, i) => (k in value ? i : -1)).filter((i) => i >= 0);
-    if (present.length === 1 && branches[present[0]]) {
-      for (const bi of branches[present[0]]) convert(bi, root, path, out);
+    if (present.length === 1 && branches[present[0]!]) {
+      for (const bi of branches[present[0]!]!) convert(bi, root, path, out);
       return;
     }
     const list = keys.map((k) => `"${k}"`).join(', ');

@@ -118,16 +118,16 @@ export interface ResolvedScenario {
 
 /** Unit copy of v; a zero or non-finite v is reported at `path` and gives +X (never NaN). */
 function unit3(v: readonly number[], path: string, errors: Issue[]): Vec3 {
-  const n = Math.hypot(v[0], v[1], v[2]);
+  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
   if (!(n > 0) || !Number.isFinite(n)) {
     errors.push({ path, rule: 'non-zero', message: `${path} must be a non-zero, finite vector` });
     return v3Create(1, 0, 0);
   }
-  return v3Create(v[0] / n, v[1] / n, v[2] / n);
+  return v3Create(v[0]! / n, v[1]! / n, v[2]! / n);
 }
 
 function vec3Scaled(v: readonly number[], k: number): Vec3 {
-  return v3Create(v[0] * k, v[1] * k, v[2] * k);
+  return v3Create(v[0]! * k, v[1]! * k, v[2]! * k);
 }
 
 /**
@@ -196,13 +196,13 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
         const axesRows = c.potentialAxes ?? [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
         const axes = axesRows.map((a, k) => unit3(a, `controllers[${ci}].potentialAxes[${k}]`, errors));
         const V = m3Create();
-        for (let k = 0; k < 3; k++) for (let r = 0; r < 3; r++) V[3 * k + r] = axes[k][r];
+        for (let k = 0; k < 3; k++) for (let r = 0; r < 3; r++) V[3 * k + r] = axes[k]![r]!;
         const lam = c.potentialWeights;
         const A = m3Create();
         for (let r = 0; r < 3; r++)
           for (let col = 0; col < 3; col++) {
             let sum = 0;
-            for (let k = 0; k < 3; k++) sum += lam[k] * axes[k][r] * axes[k][col];
+            for (let k = 0; k < 3; k++) sum += lam[k]! * axes[k]![r]! * axes[k]![col]!;
             A[3 * col + r] = sum;
           }
         const dirs = c.warpDirections

@@ -113,7 +113,7 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   const wheels = WheelsSchema.safeParse(get(raw, 'vehicle', 'wheels'));
   if (wheels.success && wheels.data.layout === 'custom') {
     wheels.data.wheels.forEach((w, i) => {
-      if (!(Math.hypot(w.axis[0], w.axis[1], w.axis[2]) > 0)) {
+      if (!(Math.hypot(w.axis[0]!, w.axis[1]!, w.axis[2]!) > 0)) {
         const p = `vehicle.wheels.wheels[${i}].axis`;
         errors.push(issue(p, 'non-zero', `${p} is the zero vector; a spin axis needs a non-zero length`));
       }
@@ -127,7 +127,7 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     } else if (wheels.success) {
       const lim = wheelMomentumLimitsMNms(wheels.data);
       h0.forEach((h, i) => {
-        if (typeof h === 'number' && Number.isFinite(h) && Math.abs(h) > lim[i]) {
+        if (typeof h === 'number' && Number.isFinite(h) && Math.abs(h) > lim[i]!) {
           const p = `initial.wheelMomentumMNms[${i}]`;
           errors.push(issue(p, 'within-limit', `${p} = ${h} mN·m·s exceeds wheel ${i + 1}'s momentum limit of ${lim[i]} mN·m·s`));
         }
@@ -155,7 +155,7 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
       if (!r.success) return;
       for (const f of ['inertialDirection', 'bodyAxis'] as const) {
         const v = r.data[f];
-        if (v && !(Math.hypot(v[0], v[1], v[2]) > 0)) {
+        if (v && !(Math.hypot(v[0]!, v[1]!, v[2]!) > 0)) {
           const p = `keepOut[${i}].${f}`;
           errors.push(issue(p, 'non-zero', `${p} is the zero vector; a direction needs a non-zero length`));
         }
@@ -212,7 +212,7 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     const wMax = Math.max(...w);
     pairs: for (let a = 0; a < 3; a++)
       for (let b = a + 1; b < 3; b++)
-        if (Math.abs(w[a] - w[b]) <= 1e-9 * wMax) {
+        if (Math.abs(w[a]! - w[b]!) <= 1e-9 * wMax) {
           errors.push(issue(`${p}.potentialWeights`, 'distinct', `${p}.potentialWeights must be distinct (entries ${a} and ${b} are both ${w[a]}); repeated weights give a continuum of critical attitudes`));
           break pairs;
         }
@@ -221,7 +221,7 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
       let worst = 0;
       for (let a = 0; a < 3; a++)
         for (let b = a; b < 3; b++) {
-          const d = ax[a][0] * ax[b][0] + ax[a][1] * ax[b][1] + ax[a][2] * ax[b][2];
+          const d = ax[a]![0]! * ax[b]![0]! + ax[a]![1]! * ax[b]![1]! + ax[a]![2]! * ax[b]![2]!;
           worst = Math.max(worst, Math.abs(d - (a === b ? 1 : 0)));
         }
       if (!(worst <= 1e-6)) {
@@ -229,7 +229,7 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
       }
     }
     ctl.warpDirections?.forEach((u, k) => {
-      if (!(Math.hypot(u[0], u[1], u[2]) > 0)) {
+      if (!(Math.hypot(u[0]!, u[1]!, u[2]!) > 0)) {
         errors.push(issue(`${p}.warpDirections[${k}]`, 'non-zero', `${p}.warpDirections[${k}] is the zero vector; a warping direction needs a non-zero length`));
       }
     });

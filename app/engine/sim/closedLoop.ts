@@ -154,9 +154,9 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   let switchIdx = 0;
 
   const unpack = (x: Float64Array) => {
-    qTrue[0] = x[0]; qTrue[1] = x[1]; qTrue[2] = x[2]; qTrue[3] = x[3];
-    wTrue[0] = x[4]; wTrue[1] = x[5]; wTrue[2] = x[6];
-    for (let i = 0; i < N; i++) hTrue[i] = x[7 + i];
+    qTrue[0] = x[0]!; qTrue[1] = x[1]!; qTrue[2] = x[2]!; qTrue[3] = x[3]!;
+    wTrue[0] = x[4]!; wTrue[1] = x[5]!; wTrue[2] = x[6]!;
+    for (let i = 0; i < N; i++) hTrue[i] = x[7 + i]!;
   };
 
   /** Step past every reference switch at or before t (a jump at t has reached them). */
@@ -166,8 +166,8 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
       return;
     }
     const tol = 1e-12 * Math.max(1, Math.abs(t));
-    while (switchIdx < switches.length && switches[switchIdx] <= t + tol) switchIdx++;
-    const ts = switchIdx < switches.length ? switches[switchIdx] : Infinity;
+    while (switchIdx < switches.length && switches[switchIdx]! <= t + tol) switchIdx++;
+    const ts = switchIdx < switches.length ? switches[switchIdx]! : Infinity;
     sc[SWITCH_T] = ts;
     // Flow evaluations at or after a switch not yet reached by a jump (the last RK4 stage lands
     // on it) read the reference just before it: the old segment, continued from the left.
@@ -176,7 +176,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
 
   /** Reference inside a flow (ideal mode): no latching, old segment until the switch jump. */
   const flowReference = (t: number) => {
-    ref.at(t < sc[SWITCH_T] ? t : sc[SWITCH_LEFT], qRef, wRef, wdRef);
+    ref.at(t < sc[SWITCH_T]! ? t : sc[SWITCH_LEFT]!, qRef, wRef, wdRef);
   };
 
   /** Reference at a jump instant; on a segment change let the law re-latch from `inp`. */
@@ -226,11 +226,11 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     recScalars[PACKED_LYAPUNOV] = diag.lyapunov;
     builder.pushPacked(rec);
     if (settleFor > 0) {
-      const ex = wTrue[0] - wRef[0], ey = wTrue[1] - wRef[1], ez = wTrue[2] - wRef[2];
+      const ex = wTrue[0]! - wRef[0]!, ey = wTrue[1]! - wRef[1]!, ez = wTrue[2]! - wRef[2]!;
       const ok = err < settleAngle && Math.sqrt(ex * ex + ey * ey + ez * ez) < settleRate;
       if (!ok) sc[SETTLED_SINCE] = -1;
-      else if (sc[SETTLED_SINCE] < 0) sc[SETTLED_SINCE] = t;
-      else if (t - sc[SETTLED_SINCE] >= settleFor) stopRequested = true;
+      else if (sc[SETTLED_SINCE]! < 0) sc[SETTLED_SINCE] = t;
+      else if (t - sc[SETTLED_SINCE]! >= settleFor) stopRequested = true;
     }
     if (cfg.shouldStop?.()) stopRequested = true;
   };
@@ -238,20 +238,20 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const applyActuationMode = (t: number) => {
     if (quantum > 0) {
       for (let i = 0; i < N; i++) {
-        const max = cfg.wheels.maxTorqueNm[i];
-        let v = Math.round(wheelHeld[i] / quantum) * quantum;
+        const max = cfg.wheels.maxTorqueNm[i]!;
+        let v = Math.round(wheelHeld[i]! / quantum) * quantum;
         if (Math.abs(v) > max) v = Math.sign(v) * Math.floor(max / quantum) * quantum;
         wheelHeld[i] = v;
       }
     }
     for (let i = 0; i < N; i++) {
       if (pwm) {
-        const full = cfg.wheels.maxTorqueNm[i];
-        const width = Math.min(1, Math.abs(wheelHeld[i]) / full) * Ts;
-        wheelNow[i] = width > 0 ? Math.sign(wheelHeld[i]) * full : 0;
+        const full = cfg.wheels.maxTorqueNm[i]!;
+        const width = Math.min(1, Math.abs(wheelHeld[i]!) / full) * Ts;
+        wheelNow[i] = width > 0 ? Math.sign(wheelHeld[i]!) * full : 0;
         pulseEnd[i] = t + width;
       } else {
-        wheelNow[i] = wheelHeld[i];
+        wheelNow[i] = wheelHeld[i]!;
         pulseEnd[i] = Infinity;
       }
     }
@@ -262,7 +262,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     unpack(x);
     const s = ref.at(t, qRef, wRef, wdRef);
     measure(qMeas, wMeas, cfg.sensors, rng, qTrue, wTrue, qRef);
-    for (let i = 0; i < N; i++) hMeas[i] = hTrue[i];
+    for (let i = 0; i < N; i++) hMeas[i] = hTrue[i]!;
     if (s !== segment) {
       segment = s;
       ctrl.beginSegment?.(input);
@@ -286,7 +286,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
         flowReference(t);
         ctrl.torque(tauCmd, trueInput, logic);
         actuate(0);
-        for (let i = 0; i < N; i++) wheelNow[i] = wheelHeld[i];
+        for (let i = 0; i < N; i++) wheelNow[i] = wheelHeld[i]!;
       }
       gyrostatDerivative(dx, x, cfg.plant, wheelNow, zero3);
     },
@@ -300,8 +300,8 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     nextScheduledJump(t) {
       let next = sampleIndex * Ts;
       if (sampled) {
-        if (pwm) for (let i = 0; i < N; i++) if (pulseEnd[i] > t + 1e-12 && pulseEnd[i] < next) next = pulseEnd[i];
-      } else if (sc[SWITCH_T] < next) next = sc[SWITCH_T];
+        if (pwm) for (let i = 0; i < N; i++) if (pulseEnd[i]! > t + 1e-12 && pulseEnd[i]! < next) next = pulseEnd[i]!;
+      } else if (sc[SWITCH_T]! < next) next = sc[SWITCH_T]!;
       return next;
     },
     jump(t, x) {
@@ -311,7 +311,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
           return null;
         }
         // PWM pulse edge: the wheels whose pulse has ended stop.
-        for (let i = 0; i < N; i++) if (pulseEnd[i] <= t + 1e-12) { wheelNow[i] = 0; pulseEnd[i] = Infinity; }
+        for (let i = 0; i < N; i++) if (pulseEnd[i]! <= t + 1e-12) { wheelNow[i] = 0; pulseEnd[i] = Infinity; }
         return null;
       }
       // Continuous-ideal: an output instant or reference switch (scheduled) or a located logic crossing.
@@ -328,13 +328,13 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
         record(t);
       }
       if (atOutput) sampleIndex++;
-      return jumped ? { what: 'logic', from: before, to: logic, why: jumps[jumps.length - 1].why } : null;
+      return jumped ? { what: 'logic', from: before, to: logic, why: jumps[jumps.length - 1]!.why } : null;
     },
     project(x) {
-      const n2 = x[0] * x[0] + x[1] * x[1] + x[2] * x[2] + x[3] * x[3];
+      const n2 = x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!;
       if (!(n2 > 0) || Math.abs(n2 - 1) < 2e-15) return false;
       const inv = 1 / Math.sqrt(n2);
-      x[0] *= inv; x[1] *= inv; x[2] *= inv; x[3] *= inv;
+      x[0]! *= inv; x[1]! *= inv; x[2]! *= inv; x[3]! *= inv;
       return true;
     },
     stop() {
@@ -343,9 +343,9 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   };
 
   const x0 = new Float64Array(dim);
-  for (let i = 0; i < 4; i++) x0[i] = cfg.q0[i];
-  for (let i = 0; i < 3; i++) x0[4 + i] = cfg.omega0[i];
-  for (let i = 0; i < N; i++) x0[7 + i] = cfg.hWheel0[i];
+  for (let i = 0; i < 4; i++) x0[i] = cfg.q0[i]!;
+  for (let i = 0; i < 3; i++) x0[4 + i] = cfg.omega0[i]!;
+  for (let i = 0; i < N; i++) x0[7 + i] = cfg.hWheel0[i]!;
   qNormalize(qTrue, x0);
   x0.set(qTrue, 0);
 
@@ -382,7 +382,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   // that time (not the last sample's), so the final error is the error at the end.
   const tr = builder.trace;
   const last = arc.outcome.t;
-  if (tr.n === 0 || last > tr.t[tr.n - 1] + 1e-9) {
+  if (tr.n === 0 || last > tr.t[tr.n - 1]! + 1e-9) {
     unpack(arc.finalState);
     segment = ref.at(last, qRef, wRef, wdRef);
     record(last);

@@ -60,21 +60,21 @@ export function measure(
     qFromRotationVector(dq, dtheta);
     qMultiply(qOut, qTrue, dq);
   } else {
-    qOut[0] = qTrue[0];
-    qOut[1] = qTrue[1];
-    qOut[2] = qTrue[2];
-    qOut[3] = qTrue[3];
+    qOut[0] = qTrue[0]!;
+    qOut[1] = qTrue[1]!;
+    qOut[2] = qTrue[2]!;
+    qOut[3] = qTrue[3]!;
   }
   const ebar = model.adversarialEta;
   if (ebar > 0) {
     qConjMultiply(qe, qRef, qOut);
-    if (Math.abs(qe[3]) < ebar) {
-      qe[3] = -qe[3];
+    if (Math.abs(qe[3]!) < ebar) {
+      qe[3] = -qe[3]!;
       qMultiply(qOut, qRef, qe);
       qNormalize(qOut, qOut);
     }
   }
   const sw = model.rateSigmaRadPerS;
   const b = model.rateBiasRadPerS;
-  for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i] + b[i] + (sw > 0 ? sw * rng.normal() : 0);
+  for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + (sw > 0 ? sw * rng.normal() : 0);
 }

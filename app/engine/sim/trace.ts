@@ -135,19 +135,19 @@ export class TraceBuilder {
     const tr = this.trace;
     const N = tr.nWheels;
     for (let i = 0; i < 4; i++) {
-      tr.q[4 * k + i] = s.q[i];
-      tr.qRef[4 * k + i] = s.qRef[i];
+      tr.q[4 * k + i] = s.q[i]!;
+      tr.qRef[4 * k + i] = s.qRef[i]!;
     }
     for (let i = 0; i < 3; i++) {
-      tr.omega[3 * k + i] = s.omega[i];
-      tr.omegaRef[3 * k + i] = s.omegaRef[i];
-      tr.torqueCmdBody[3 * k + i] = s.torqueCmdBody[i];
-      tr.torqueBody[3 * k + i] = s.torqueBody[i];
+      tr.omega[3 * k + i] = s.omega[i]!;
+      tr.omegaRef[3 * k + i] = s.omegaRef[i]!;
+      tr.torqueCmdBody[3 * k + i] = s.torqueCmdBody[i]!;
+      tr.torqueBody[3 * k + i] = s.torqueBody[i]!;
     }
     for (let i = 0; i < N; i++) {
-      tr.hWheel[N * k + i] = s.hWheel[i];
-      tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i];
-      tr.wheelTorque[N * k + i] = s.wheelTorque[i];
+      tr.hWheel[N * k + i] = s.hWheel[i]!;
+      tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i]!;
+      tr.wheelTorque[N * k + i] = s.wheelTorque[i]!;
     }
   }
 
@@ -174,16 +174,16 @@ export class TraceBuilder {
     const tr = this.trace;
     const k = tr.n;
     const x = s.scalars;
-    tr.t[k] = x[PACKED_T];
+    tr.t[k] = x[PACKED_T]!;
     tr.j[k] = s.j;
     tr.segment[k] = s.segment;
     this.writeVectors(k, s);
-    tr.logic[k] = x[PACKED_LOGIC];
-    tr.errorAngle[k] = x[PACKED_ERROR_ANGLE];
-    tr.potential[k] = x[PACKED_POTENTIAL];
-    tr.potentialMin[k] = x[PACKED_POTENTIAL_MIN];
-    tr.gap[k] = x[PACKED_GAP];
-    tr.lyapunov[k] = x[PACKED_LYAPUNOV];
+    tr.logic[k] = x[PACKED_LOGIC]!;
+    tr.errorAngle[k] = x[PACKED_ERROR_ANGLE]!;
+    tr.potential[k] = x[PACKED_POTENTIAL]!;
+    tr.potentialMin[k] = x[PACKED_POTENTIAL_MIN]!;
+    tr.gap[k] = x[PACKED_GAP]!;
+    tr.lyapunov[k] = x[PACKED_LYAPUNOV]!;
     tr.n = k + 1;
   }
 
@@ -209,16 +209,16 @@ export function decimateTrace(tr: RunTrace, every: number): RunTrace {
   const out = allocateTrace(tr.nWheels, m);
   out.n = m;
   for (let i = 0; i < m; i++) {
-    out.j[i] = tr.j[idx[i]];
-    out.segment[i] = tr.segment[idx[i]];
+    out.j[i] = tr.j[idx[i]!]!;
+    out.segment[i] = tr.segment[idx[i]!]!;
   }
   for (const name of TRACE_CHANNELS) {
     const w = channelWidth(name, tr.nWheels);
     const src = tr[name];
     const a = out[name];
     for (let i = 0; i < m; i++) {
-      const o = idx[i] * w;
-      for (let c = 0; c < w; c++) a[i * w + c] = src[o + c];
+      const o = idx[i]! * w;
+      for (let c = 0; c < w; c++) a[i * w + c] = src[o + c]!;
     }
   }
   return out;

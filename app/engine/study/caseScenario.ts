@@ -35,8 +35,8 @@ function checkIndex(index: number, runs: number): Issue[] {
 /** The controller's gains as the study flew them (nominal design), in the file's { kp, kd } form. */
 function explicitGains(c: BuiltController): { kp: number; kd: number } | null {
   const k = c.controller;
-  if (k instanceof QuaternionPd || k instanceof SignSwitch || k instanceof Hysteretic) return { kp: k.kp, kd: k.Kd[0] };
-  if (k instanceof Synergistic) return { kp: k.kR, kd: k.Komega[0] };
+  if (k instanceof QuaternionPd || k instanceof SignSwitch || k instanceof Hysteretic) return { kp: k.kp, kd: k.Kd[0]! };
+  if (k instanceof Synergistic) return { kp: k.kR, kd: k.Komega[0]! };
   if (k instanceof Eigenaxis) return { kp: k.k, kd: k.c };
   return null;
 }
@@ -66,10 +66,10 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
   out.vehicle.inertiaKgm2 = d.inertiaRows;
   out.vehicle.wheels = {
     layout: 'custom',
-    wheels: v.value.kept.map((i, k) => ({
+    wheels: v.value.kept.map((_i, k) => ({
       axis: [v.value.wheels.axes[3 * k], v.value.wheels.axes[3 * k + 1], v.value.wheels.axes[3 * k + 2]],
-      maxTorqueMNm: v.value.wheels.maxTorqueNm[k] * 1e3,
-      maxMomentumMNms: v.value.wheels.maxMomentumNms[k] * 1e3,
+      maxTorqueMNm: v.value.wheels.maxTorqueNm[k]! * 1e3,
+      maxMomentumMNms: v.value.wheels.maxMomentumNms[k]! * 1e3,
       rotorInertiaKgm2: v.value.wheels.rotorInertiaKgm2[k],
     })),
   };
@@ -82,7 +82,7 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
   out.vehicle.actuation = d.actuation === 'quantized' ? { mode: 'quantized', torqueQuantumMNm: (ctx.def.torqueQuantumNm ?? 1e-5) * 1e3 } : { mode: d.actuation };
   out.initial = { attitude: { quaternion: d.q0 }, bodyRateDegPerS: d.omega0RadPerS.map((w) => w * DEG) };
   if (src.initial?.wheelMomentumMNms) out.initial.wheelMomentumMNms = Array.from(v.value.hWheel0, (h) => h * 1e3);
-  out.targets = [{ label: s.targets[0].label, attitude: { quaternion: Array.from(ctx.target) }, holdS: s.targets[0].holdS }];
+  out.targets = [{ label: s.targets[0]!.label, attitude: { quaternion: Array.from(ctx.target) }, holdS: s.targets[0]!.holdS }];
   out.controllers = ctx.controllers.map((bc) => {
     const entry = src.controllers.find((x: Obj) => x.id === bc.id);
     const copy = JSON.parse(JSON.stringify(entry));

@@ -89,9 +89,9 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   const w = p.vehicle.wheels;
   const wheelSpecs: WheelSpec[] = [];
   for (let i = 0; i < w.n; i++) {
-    wheelSpecs.push({ axis: [w.axes[3 * i], w.axes[3 * i + 1], w.axes[3 * i + 2]], maxTorqueNm: w.maxTorqueNm[i], maxMomentumNms: w.maxMomentumNms[i], rotorInertiaKgm2: w.rotorInertiaKgm2[i] });
+    wheelSpecs.push({ axis: [w.axes[3 * i]!, w.axes[3 * i + 1]!, w.axes[3 * i + 2]!], maxTorqueNm: w.maxTorqueNm[i]!, maxMomentumNms: w.maxMomentumNms[i]!, rotorInertiaKgm2: w.rotorInertiaKgm2[i]! });
   }
-  const target = Float64Array.from(s.targets[0].qInertialFromBody);
+  const target = Float64Array.from(s.targets[0]!.qInertialFromBody);
   const nominal: NominalCase = {
     qInitial: s.initial.qInertialFromBody,
     qTarget: target,

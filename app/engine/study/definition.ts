@@ -72,7 +72,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
   });
   const d = st.dispersions ?? {};
   const scale = d.sensors?.attitudeNoiseScale;
-  if (scale && !(scale[0] <= scale[1])) {
+  if (scale && !(scale[0]! <= scale[1]!)) {
     errors.push(issue('study.dispersions.sensors.attitudeNoiseScale', 'min-max', `study.dispersions.sensors.attitudeNoiseScale must be [min, max] with min ≤ max (got [${scale[0]}, ${scale[1]}])`));
   }
   const vehicleQuantum = s.vehicle.actuation.torqueQuantumMNm;
@@ -83,7 +83,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     warnings.push(issue('study.dispersions.wheels.failOneWheelProbability', 'unflyable', 'a triad that loses a wheel cannot produce torque about every axis: every such case is reported as unflyable'));
   }
   const sigma = s.vehicle.sensors.attitudeNoiseArcsec;
-  if (scale && sigma === 0 && scale[1] > 0) {
+  if (scale && sigma === 0 && scale[1]! > 0) {
     warnings.push(issue('study.dispersions.sensors.attitudeNoiseScale', 'no-effect', 'vehicle.sensors.attitudeNoiseArcsec is 0, so scaling it disperses nothing'));
   }
   if (errors.length > before) return null;
@@ -117,7 +117,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
       failOneWheelProbability: d.wheels?.failOneWheelProbability ?? 0,
     },
     sensors: {
-      attitudeNoiseScale: scale ? [scale[0], scale[1]] : [1, 1],
+      attitudeNoiseScale: scale ? [scale[0]!, scale[1]!] : [1, 1],
       rateBiasSigmaRadPerS: (d.sensors?.rateBiasDegPerS ?? 0) * DEG,
       adversarialEta: d.sensors?.adversarialEta ?? 0,
     },

@@ -49,12 +49,12 @@ export function casesCsv(info: StudyInfo, records: readonly CaseRecord[], summar
     const d = rec.draw;
     rec.runs.forEach((r, ci) => {
       const row = [
-        String(d.index), cell(r.controllerId), map[k].outcome[ci], r.status, num(r.settleTimeS), r.unwound ? '1' : '0', r.longWay ? '1' : '0',
+        String(d.index), cell(r.controllerId), map[k]!.outcome[ci], r.status, num(r.settleTimeS), r.unwound ? '1' : '0', r.longWay ? '1' : '0',
         r.chattered ? '1' : '0', num(r.rotationTravelledDeg), num(r.shortestRotationDeg), num(r.extraRotationDeg), String(r.jumps),
         num(r.chatterPerS), num(r.peakWheelTorqueFraction), num(r.peakWheelMomentumFraction), num(r.finalErrorDeg), num(r.endS),
         num(d.errorAngleRad * DEG), num(d.errorAxis[0]), num(d.errorAxis[1]), num(d.errorAxis[2]), num(d.errorEta),
         num(d.q0[0]), num(d.q0[1]), num(d.q0[2]), num(d.q0[3]),
-        num(d.omega0RadPerS[0] * DEG), num(d.omega0RadPerS[1] * DEG), num(d.omega0RadPerS[2] * DEG),
+        num(d.omega0RadPerS[0]! * DEG), num(d.omega0RadPerS[1]! * DEG), num(d.omega0RadPerS[2]! * DEG),
         String(d.inertiaRejections), String(d.failedWheel + 1), num(d.controlRateHz), d.actuation, num(d.attitudeNoiseRad * ARCSEC),
         num(d.adversarialEta), String(d.noiseSeed), cell(r.reason),
       ];

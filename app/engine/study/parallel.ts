@@ -123,10 +123,10 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
   const dispatch = () => {
     ports.forEach((p, w) => {
       if (!alive[w] || busy[w] !== null || cancelled || queue.length === 0) return;
-      const chunk = chunks.indexOf(queue[0]);
+      const chunk = chunks.indexOf(queue[0]!);
       queue = queue.slice(1);
       busy[w] = chunk;
-      p.post({ type: 'run', chunk, indices: chunks[chunk] });
+      p.post({ type: 'run', chunk, indices: chunks[chunk]! });
     });
     if (busy.every((b) => b === null) && (queue.length === 0 || cancelled || !alive.some(Boolean))) {
       if (!alive.some(Boolean) && queue.length > 0 && !cancelled) {
@@ -175,12 +175,12 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
     if (!alive[w]) return;
     alive[w] = false;
     warnings = [...warnings, { path: 'workers', rule: 'crashed', message: `study worker ${w + 1} stopped: ${message.split('\n')[0]}` }];
-    const lost = busy[w];
+    const lost = busy[w]!;
     busy[w] = null;
     if (lost !== null) {
       // Re-run the unfinished part of its chunk elsewhere (finished cases of it are kept).
       const have = new Set(records.map((r) => r.draw.index));
-      const rest = chunks[lost].filter((i) => !have.has(i));
+      const rest = chunks[lost]!.filter((i) => !have.has(i));
       if (rest.length) {
         chunks.push(rest);
         queue = [rest, ...queue];

@@ -84,21 +84,21 @@ export interface CaseVehicle {
 export function buildCaseVehicle(ctx: StudyContext, d: CaseDraw): { ok: true; value: CaseVehicle } | { ok: false; reason: string } {
   if (!d.inertiaRows) return { ok: false, reason: `no physical inertia in ${d.inertiaRejections} draws (dispersion too wide)` };
   const inertia = validateInertia(d.inertiaRows, 'inertia');
-  if (!inertia.ok) return { ok: false, reason: `inertia: ${inertia.errors[0].message}` };
+  if (!inertia.ok) return { ok: false, reason: `inertia: ${inertia.errors[0]!.message}` };
   const kept: number[] = [];
   const specs = ctx.wheelSpecs.flatMap((w, i) => {
     if (i === d.failedWheel) return [];
     kept.push(i);
-    return [{ ...w, maxTorqueNm: w.maxTorqueNm * d.wheelTorqueFactor[i], maxMomentumNms: w.maxMomentumNms * d.wheelMomentumFactor[i] }];
+    return [{ ...w, maxTorqueNm: w.maxTorqueNm * d.wheelTorqueFactor[i]!, maxMomentumNms: w.maxMomentumNms * d.wheelMomentumFactor[i]! }];
   });
   const wheels = makeWheelArray(specs, 'wheels');
   if (!wheels.ok) {
     const lost = d.failedWheel >= 0 ? `after losing wheel ${d.failedWheel + 1}, ` : '';
-    return { ok: false, reason: `${lost}${wheels.errors[0].message}` };
+    return { ok: false, reason: `${lost}${wheels.errors[0]!.message}` };
   }
   const fr = ctx.prepared.scenario.vehicle.wheelFriction;
   const plant = makeGyrostat(inertia.value.J, wheels.value, fr ? { viscousNmsPerRad: fr.viscousNmPerRadPerS, coulombNm: fr.coulombNm } : undefined);
-  if (!plant.ok) return { ok: false, reason: plant.errors[0].message };
+  if (!plant.ok) return { ok: false, reason: plant.errors[0]!.message };
   const h0n = ctx.prepared.scenario.initial.hWheelNms;
   return { ok: true, value: { plant: plant.value, wheels: wheels.value, hWheel0: Float64Array.from(kept.map((i) => h0n[i])), kept } };
 }
@@ -107,7 +107,7 @@ export function buildCaseVehicle(ctx: StudyContext, d: CaseDraw): { ok: true; va
 function fixedTarget(q: Float64Array): ReferenceSource {
   return {
     at: (_t, qo, w, wd) => {
-      qo[0] = q[0]; qo[1] = q[1]; qo[2] = q[2]; qo[3] = q[3];
+      qo[0] = q[0]!; qo[1] = q[1]!; qo[2] = q[2]!; qo[3] = q[3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
       return 0;
@@ -140,11 +140,11 @@ export function caseReference(ctx: StudyContext, d: CaseDraw, v: CaseVehicle): {
   const s = p.scenario;
   const hBody = applyAxes(new Float64Array(3), v.wheels, v.hWheel0);
   const plan = planSequence(
-    { qStart: d.q0, inertia: p.vehicle.plant.Jperp, wheelMomentumBody: hBody, targets: [{ q: ctx.target, holdS: s.targets[0].holdS, label: s.targets[0].label }] },
+    { qStart: d.q0, inertia: p.vehicle.plant.Jperp, wheelMomentumBody: hBody, targets: [{ q: ctx.target, holdS: s.targets[0]!.holdS, label: s.targets[0]!.label }] },
     planLimits(s, p.vehicle),
   );
-  if (!plan.ok) return { ok: false, reason: `no plan: ${plan.errors[0].message}` };
-  const seg = plan.value.segments[0];
+  if (!plan.ok) return { ok: false, reason: `no plan: ${plan.errors[0]!.message}` };
+  const seg = plan.value.segments[0]!;
   if (!seg.feasible) return { ok: false, reason: `no feasible slew on the nominal model: ${seg.reasons.map((r) => r.message).join('; ')}` };
   return { ok: true, ref: profiledReference(plan.value) };
 }
@@ -205,7 +205,7 @@ const qe = new Float64Array(4);
 /** Scalar part of q_target* ⊗ q at trace sample k. */
 function etaAt(q: Float64Array, k: number, target: Float64Array): number {
   qConjMultiply(qe, target, q.subarray(4 * k, 4 * k + 4));
-  return qe[3];
+  return qe[3]!;
 }
 
 /**
@@ -241,9 +241,9 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
   let count = 0;
   for (let k = 0, i = 0; k < M && n > 0; k++) {
     const tk = k * dtGrid;
-    if (tk > tr.t[n - 1] + 1e-9) break;
-    while (i < n - 1 && tr.t[i] < tk - 1e-9) i++;
-    trace[k] = tr.errorAngle[i] * DEG;
+    if (tk > tr.t[n - 1]! + 1e-9) break;
+    while (i < n - 1 && tr.t[i]! < tk - 1e-9) i++;
+    trace[k] = tr.errorAngle[i]! * DEG;
     count = k + 1;
   }
   const finite = (x: number) => (Number.isFinite(x) ? x : 0);
@@ -264,7 +264,7 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
     peakWheelMomentumFraction: finite(m.peakWheelMomentumFraction),
     finalErrorDeg: finite(m.finalErrorRad * DEG),
     finalEta: finite(finalEta),
-    endS: n > 0 ? tr.t[n - 1] : 0,
+    endS: n > 0 ? tr.t[n - 1]! : 0,
     errorTraceDeg: trace,
     traceCount: count,
   };

@@ -121,7 +121,7 @@ function drawAttitude(out: Float64Array, def: StudyDefinition, nom: NominalCase,
   const a = def.attitude;
   const rng = stream(def, index, SLOT.attitude);
   if (a.mode === 'nominal') {
-    for (let i = 0; i < 4; i++) out[i] = nom.qInitial[i];
+    for (let i = 0; i < 4; i++) out[i] = nom.qInitial[i]!;
   } else if (a.mode === 'uniform') {
     qRandomUniform(out, rng);
   } else if (a.mode === 'cone') {
@@ -134,7 +134,7 @@ function drawAttitude(out: Float64Array, def: StudyDefinition, nom: NominalCase,
     qFromAxisAngle(tmpQ, unitVector(tmpAxis, rng), th);
     const sign = rng.next() < 0.5 ? -1 : 1;
     qMultiply(out, nom.qTarget, tmpQ);
-    for (let i = 0; i < 4; i++) out[i] *= sign;
+    for (let i = 0; i < 4; i++) out[i]! *= sign;
   }
   qNormalize(out, out);
 }
@@ -143,7 +143,7 @@ function drawAttitude(out: Float64Array, def: StudyDefinition, nom: NominalCase,
 function drawInertia(def: StudyDefinition, nom: NominalCase, index: number): { rows: number[][] | null; rejections: number } {
   const { momentSigmaFraction: sm, axisMisalignmentSigmaRad: sa } = def.inertia;
   const J = nom.inertia;
-  const rowsOf = (M: ArrayLike<number>) => [0, 1, 2].map((r) => [0, 1, 2].map((c) => 0.5 * (M[3 * c + r] + M[3 * r + c])));
+  const rowsOf = (M: ArrayLike<number>) => [0, 1, 2].map((r) => [0, 1, 2].map((c) => 0.5 * (M[3 * c + r]! + M[3 * r + c]!)));
   if (sm === 0 && sa === 0) return { rows: rowsOf(J), rejections: 0 };
   const rng = stream(def, index, SLOT.inertia);
   const eig = symmetricEigen3(J);
@@ -154,17 +154,17 @@ function drawInertia(def: StudyDefinition, nom: NominalCase, index: number): { r
   const phi = [0, 0, 0];
   let rejections = 0;
   for (let attempt = 0; attempt < MAX_INERTIA_ATTEMPTS; attempt++) {
-    const m = [0, 1, 2].map((i) => eig.values[i] * (1 + sm * rng.normal()));
+    const m = [0, 1, 2].map((i) => eig.values[i]! * (1 + sm * rng.normal()));
     for (let i = 0; i < 3; i++) phi[i] = sa * rng.normal();
-    const ang = Math.hypot(phi[0], phi[1], phi[2]);
-    if (ang > 0) qFromAxisAngle(tmpQ2, [phi[0] / ang, phi[1] / ang, phi[2] / ang], ang);
+    const ang = Math.hypot(phi[0]!, phi[1]!, phi[2]!);
+    if (ang > 0) qFromAxisAngle(tmpQ2, [phi[0]! / ang, phi[1]! / ang, phi[2]! / ang], ang);
     else tmpQ2.set([0, 0, 0, 1]);
     qToMat3(R, tmpQ2);
     for (let c = 0; c < 3; c++)
-      for (let r = 0; r < 3; r++) W[3 * c + r] = R[r] * V[3 * c] + R[3 + r] * V[3 * c + 1] + R[6 + r] * V[3 * c + 2];
+      for (let r = 0; r < 3; r++) W[3 * c + r] = R[r]! * V[3 * c]! + R[3 + r]! * V[3 * c + 1]! + R[6 + r]! * V[3 * c + 2]!;
     // J' = W diag(m) Wᵀ
     for (let c = 0; c < 3; c++)
-      for (let r = 0; r < 3; r++) out[3 * c + r] = W[r] * m[0] * W[c] + W[3 + r] * m[1] * W[3 + c] + W[6 + r] * m[2] * W[6 + c];
+      for (let r = 0; r < 3; r++) out[3 * c + r] = W[r]! * m[0]! * W[c]! + W[3 + r]! * m[1]! * W[3 + c]! + W[6 + r]! * m[2]! * W[6 + c]!;
     const rows = rowsOf(out);
     if (validateInertia(rows, 'inertia').ok) return { rows, rejections };
     rejections++;
@@ -179,7 +179,7 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
 
   const rateRng = stream(def, index, SLOT.rate);
   const s = def.rateSigmaRadPerS;
-  const omega0 = [0, 1, 2].map((i) => nom.omega0[i] + (s > 0 ? s * rateRng.normal() : 0));
+  const omega0 = [0, 1, 2].map((i) => nom.omega0[i]! + (s > 0 ? s * rateRng.normal() : 0));
 
   const inertia = drawInertia(def, nom, index);
 
@@ -200,20 +200,20 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
   const [lo, hi] = def.sensors.attitudeNoiseScale;
   const noiseScale = lo + (hi - lo) * sr.next();
   const bs = def.sensors.rateBiasSigmaRadPerS;
-  const rateBiasRadPerS = [0, 1, 2].map((i) => nom.rateBiasRadPerS[i] + (bs > 0 ? bs * sr.normal() : 0));
+  const rateBiasRadPerS = [0, 1, 2].map((i) => nom.rateBiasRadPerS[i]! + (bs > 0 ? bs * sr.normal() : 0));
 
   const rates = def.controlRateHz;
-  const controlRateHz = rates ? rates[Math.min(rates.length - 1, Math.floor(stream(def, index, SLOT.controlRate).next() * rates.length))] : nom.controlRateHz;
+  const controlRateHz = rates ? rates[Math.min(rates.length - 1, Math.floor(stream(def, index, SLOT.controlRate).next() * rates.length))]! : nom.controlRateHz;
   const acts = def.actuation;
-  const actuation = acts ? acts[Math.min(acts.length - 1, Math.floor(stream(def, index, SLOT.actuation).next() * acts.length))] : nom.actuation;
+  const actuation = acts ? acts[Math.min(acts.length - 1, Math.floor(stream(def, index, SLOT.actuation).next() * acts.length))]! : nom.actuation;
   const noiseSeed = Math.floor(stream(def, index, SLOT.noiseSeed).next() * 4294967296);
 
   // Initial error in the target frame: its axis and angle place the case on the outcome map.
   qConjMultiply(tmpQ, nom.qTarget, q0);
-  const sn = Math.hypot(tmpQ[0], tmpQ[1], tmpQ[2]);
-  const errorAxis = sn > 1e-15 ? [tmpQ[0] / sn, tmpQ[1] / sn, tmpQ[2] / sn] : [1, 0, 0];
-  const errorAngleRad = 2 * Math.atan2(sn, Math.abs(tmpQ[3]));
-  if (tmpQ[3] < 0) for (let i = 0; i < 3; i++) errorAxis[i] = -errorAxis[i];
+  const sn = Math.hypot(tmpQ[0]!, tmpQ[1]!, tmpQ[2]!);
+  const errorAxis = sn > 1e-15 ? [tmpQ[0]! / sn, tmpQ[1]! / sn, tmpQ[2]! / sn] : [1, 0, 0];
+  const errorAngleRad = 2 * Math.atan2(sn, Math.abs(tmpQ[3]!));
+  if (tmpQ[3]! < 0) for (let i = 0; i < 3; i++) errorAxis[i] = -errorAxis[i]!;
 
   return {
     index,
@@ -232,6 +232,6 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
     noiseSeed,
     errorAxis,
     errorAngleRad,
-    errorEta: tmpQ[3],
+    errorEta: tmpQ[3]!,
   };
 }

@@ -122,7 +122,7 @@ function spread(values: number[]): Spread {
   if (values.length === 0) return { median: null, p95: null, max: null };
   const s = [...values].sort((a, b) => a - b);
   const at = (p: number) => {
-    const v = s[Math.min(s.length - 1, Math.max(0, Math.ceil(p * s.length) - 1))];
+    const v = s[Math.min(s.length - 1, Math.max(0, Math.ceil(p * s.length) - 1))]!;
     return Number.isFinite(v) ? v : null;
   };
   return { median: at(0.5), p95: at(0.95), max: at(1) };
@@ -131,14 +131,14 @@ function spread(values: number[]): Spread {
 function histogram(quantity: string, unit: string, edges: number[], values: number[], extraOverflow = 0): Histogram {
   const counts = new Array(edges.length - 1).fill(0);
   let overflow = extraOverflow;
-  const last = edges[edges.length - 1];
+  const last = edges[edges.length - 1]!;
   for (const v of values) {
     if (!(v <= last)) {
       overflow++;
       continue;
     }
     let k = 0;
-    while (k < counts.length - 1 && v >= edges[k + 1]) k++;
+    while (k < counts.length - 1 && v >= edges[k + 1]!) k++;
     counts[k]++;
   }
   return { quantity, unit, edges, counts, overflow };
@@ -171,7 +171,7 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
   const records = sortRecords(recordsIn);
   const def = info.def;
   const controllers = info.controllers.map((c, ci): ControllerSummary => {
-    const runs = records.map((rec) => ({ i: rec.draw.index, r: rec.runs[ci] }));
+    const runs = records.map((rec) => ({ i: rec.draw.index, r: rec.runs[ci]! }));
     const fly = runs.filter((x) => x.r.status !== 'unflyable');
     const count = (f: (r: CaseRun) => boolean) => fly.filter((x) => f(x.r)).length;
     const settled = count((r) => r.status === 'settled');
@@ -242,7 +242,7 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
 export function outcomeMap(recordsIn: readonly CaseRecord[]): MapPoint[] {
   return sortRecords(recordsIn).map((rec) => ({
     index: rec.draw.index,
-    axis: [rec.draw.errorAxis[0], rec.draw.errorAxis[1], rec.draw.errorAxis[2]],
+    axis: [rec.draw.errorAxis[0]!, rec.draw.errorAxis[1]!, rec.draw.errorAxis[2]!],
     angleDeg: (rec.draw.errorAngleRad * 180) / Math.PI,
     eta0: rec.draw.errorEta,
     outcome: rec.runs.map(outcomeOf),

@@ -34,9 +34,9 @@ function finite3(v: ArrayLike<number>): boolean {
 export function allocateMinNorm(out: Float64Array, arr: WheelArray, bodyTorque: ArrayLike<number>): Float64Array {
   const n = arr.n;
   if (!finite3(bodyTorque)) return out.fill(0, 0, n);
-  const x = bodyTorque[0], y = bodyTorque[1], z = bodyTorque[2];
+  const x = bodyTorque[0]!, y = bodyTorque[1]!, z = bodyTorque[2]!;
   const p = arr.pinv;
-  for (let i = 0; i < n; i++) out[i] = -(p[3 * i] * x + p[3 * i + 1] * y + p[3 * i + 2] * z);
+  for (let i = 0; i < n; i++) out[i] = -(p[3 * i]! * x + p[3 * i + 1]! * y + p[3 * i + 2]! * z);
   return out;
 }
 
@@ -77,14 +77,14 @@ function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
   let alpha = 0;
   let firstFree = -1;
   for (let i = 0; i < n; i++) {
-    if (Math.abs(nu[i]) <= 1e-14) continue;
+    if (Math.abs(nu[i]!) <= 1e-14) continue;
     if (firstFree < 0) firstFree = i;
-    const wi = Math.abs(nu[i]) / l[i];
-    const ci = -out[i] / nu[i];
+    const wi = Math.abs(nu[i]!) / l[i]!;
+    const ci = -out[i]! / nu[i]!;
     for (let j = i + 1; j < n; j++) {
-      if (Math.abs(nu[j]) <= 1e-14) continue;
-      const wj = Math.abs(nu[j]) / l[j];
-      const cj = -out[j] / nu[j];
+      if (Math.abs(nu[j]!) <= 1e-14) continue;
+      const wj = Math.abs(nu[j]!) / l[j]!;
+      const cj = -out[j]! / nu[j]!;
       const a = (wi * ci + wj * cj) / (wi + wj);
       // Judge each candidate by its actual peak rather than by the pair value: when two pair
       // values tie to rounding (a wheel with a tiny null component), the argmax pair is ill-defined.
@@ -95,14 +95,14 @@ function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
       }
     }
   }
-  if (bestPeak === Infinity && firstFree >= 0) alpha = -out[firstFree] / nu[firstFree];
-  for (let i = 0; i < n; i++) out[i] += nu[i] * alpha;
+  if (bestPeak === Infinity && firstFree >= 0) alpha = -out[firstFree]! / nu[firstFree]!;
+  for (let i = 0; i < n; i++) out[i]! += nu[i]! * alpha;
   return out;
 }
 
 function peakWith(x: Float64Array, nu: Float64Array, l: Float64Array, n: number, a: number): number {
   let p = 0;
-  for (let i = 0; i < n; i++) p = Math.max(p, Math.abs(x[i] + nu[i] * a) / l[i]);
+  for (let i = 0; i < n; i++) p = Math.max(p, Math.abs(x[i]! + nu[i]! * a) / l[i]!);
   return p;
 }
 
@@ -120,18 +120,18 @@ function minMaxLp(out: Float64Array, arr: WheelArray): Float64Array {
   let t0 = 0;
   let lMax = 0;
   for (let i = 0; i < n; i++) {
-    t0 = Math.max(t0, Math.abs(out[i]) / l[i]);
-    lMax = Math.max(lMax, l[i]);
+    t0 = Math.max(t0, Math.abs(out[i]!) / l[i]!);
+    lMax = Math.max(lMax, l[i]!);
   }
   if (t0 === 0) return out;
   const nv = 2 * k + 1;
   const m = 2 * n;
   for (let i = 0; i < n; i++) {
-    const ai = out[i] / (l[i] * t0);
+    const ai = out[i]! / (l[i]! * t0);
     const rUp = 2 * i * nv;
     const rDn = (2 * i + 1) * nv;
     for (let j = 0; j < k; j++) {
-      const bij = (B[j * n + i] * lMax) / l[i];
+      const bij = (B[j * n + i]! * lMax) / l[i]!;
       lpA[rUp + j] = bij;
       lpA[rUp + k + j] = -bij;
       lpA[rDn + j] = -bij;
@@ -145,12 +145,12 @@ function minMaxLp(out: Float64Array, arr: WheelArray): Float64Array {
   lpC.fill(0, 0, nv);
   lpC[2 * k] = -1;
   if (lpMinimize(lpZ, m, nv, lpA, lpB, lpC) !== 'optimal') return out; // min-norm stays valid
-  for (let i = 0; i < n; i++) xs[i] = out[i];
+  for (let i = 0; i < n; i++) xs[i] = out[i]!;
   for (let j = 0; j < k; j++) {
-    const a = (lpZ[j] - lpZ[k + j]) * lMax * t0;
+    const a = (lpZ[j]! - lpZ[k + j]!) * lMax * t0;
     if (a === 0) continue;
-    for (let i = 0; i < n; i++) xs[i] += B[j * n + i] * a;
+    for (let i = 0; i < n; i++) xs[i]! += B[j * n + i]! * a;
   }
-  for (let i = 0; i < n; i++) out[i] = xs[i];
+  for (let i = 0; i < n; i++) out[i] = xs[i]!;
   return out;
 }

@@ -103,7 +103,7 @@ export function makeWheelArray(specs: unknown, path = 'wheels'): Result<WheelArr
   let svd = null as ReturnType<typeof axisSvd> | null;
   if (n >= 3 && n <= MAX_WHEELS && axisOk.every(Boolean)) {
     svd = axisSvd(axes, n);
-    const [s0, , s2] = svd.sigma;
+    const s0 = svd.sigma[0]!, s2 = svd.sigma[2]!;
     const rank = svd.sigma.reduce((r, s) => r + (s > SPAN_TOLERANCE * s0 ? 1 : 0), 0);
     if (rank < 3) {
       errs.add(
@@ -164,9 +164,9 @@ function readAxis(errs: IssueList, warnings: Issue[], p: string, v: unknown, axe
 function parallelWarnings(warnings: Issue[], path: string, axes: Float64Array, n: number): void {
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) {
-      const cx = axes[3 * i + 1] * axes[3 * j + 2] - axes[3 * i + 2] * axes[3 * j + 1];
-      const cy = axes[3 * i + 2] * axes[3 * j] - axes[3 * i] * axes[3 * j + 2];
-      const cz = axes[3 * i] * axes[3 * j + 1] - axes[3 * i + 1] * axes[3 * j];
+      const cx = axes[3 * i + 1]! * axes[3 * j + 2]! - axes[3 * i + 2]! * axes[3 * j + 1]!;
+      const cy = axes[3 * i + 2]! * axes[3 * j]! - axes[3 * i]! * axes[3 * j + 2]!;
+      const cz = axes[3 * i]! * axes[3 * j + 1]! - axes[3 * i + 1]! * axes[3 * j]!;
       if (Math.hypot(cx, cy, cz) <= 1e-8) {
         warnings.push({
           path: `${path}[${j}].axis`,
@@ -180,9 +180,9 @@ function parallelWarnings(warnings: Issue[], path: string, axes: Float64Array, n
 
 /** out (length n) = G⁺ v: minimum-norm wheel-space image of a body vector (e.g. momentum H → h). */
 export function applyPinv(out: Float64Array, arr: WheelArray, v: ArrayLike<number>): Float64Array {
-  const x = v[0], y = v[1], z = v[2];
+  const x = v[0]!, y = v[1]!, z = v[2]!;
   const p = arr.pinv;
-  for (let i = 0; i < arr.n; i++) out[i] = p[3 * i] * x + p[3 * i + 1] * y + p[3 * i + 2] * z;
+  for (let i = 0; i < arr.n; i++) out[i] = p[3 * i]! * x + p[3 * i + 1]! * y + p[3 * i + 2]! * z;
   return out;
 }
 
@@ -191,10 +191,10 @@ export function applyAxes(out: Float64Array, arr: WheelArray, w: ArrayLike<numbe
   let x = 0, y = 0, z = 0;
   const a = arr.axes;
   for (let i = 0; i < arr.n; i++) {
-    const wi = w[i];
-    x += a[3 * i] * wi;
-    y += a[3 * i + 1] * wi;
-    z += a[3 * i + 2] * wi;
+    const wi = w[i]!;
+    x += a[3 * i]! * wi;
+    y += a[3 * i + 1]! * wi;
+    z += a[3 * i + 2]! * wi;
   }
   out[0] = x;
   out[1] = y;
@@ -205,22 +205,22 @@ export function applyAxes(out: Float64Array, arr: WheelArray, w: ArrayLike<numbe
 /** out (3) = −G τ_w: the body torque the wheel motor torques produce (reaction). */
 export function bodyTorqueFromWheelTorque(out: Float64Array, arr: WheelArray, wheelTorque: ArrayLike<number>): Float64Array {
   applyAxes(out, arr, wheelTorque);
-  out[0] = -out[0];
-  out[1] = -out[1];
-  out[2] = -out[2];
+  out[0] = -out[0]!;
+  out[1] = -out[1]!;
+  out[2] = -out[2]!;
   return out;
 }
 
 /** Largest |τ_w,i| / τ_max,i: 1 means some wheel is exactly at its torque limit. */
 export function peakTorqueRatio(arr: WheelArray, wheelTorque: ArrayLike<number>): number {
   let r = 0;
-  for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(wheelTorque[i]) / arr.maxTorqueNm[i]);
+  for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(wheelTorque[i]!) / arr.maxTorqueNm[i]!);
   return r;
 }
 
 /** Largest |h_i| / h_max,i. */
 export function peakMomentumRatio(arr: WheelArray, hWheel: ArrayLike<number>): number {
   let r = 0;
-  for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(hWheel[i]) / arr.maxMomentumNms[i]);
+  for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(hWheel[i]!) / arr.maxMomentumNms[i]!);
   return r;
 }

@@ -29,16 +29,16 @@ export function momentumEnvelope(arr: WheelArray): Zonotope {
 
 function scaled(arr: WheelArray, lim: Float64Array): Float64Array {
   const g = new Float64Array(3 * arr.n);
-  for (let i = 0; i < arr.n; i++) for (let c = 0; c < 3; c++) g[3 * i + c] = lim[i] * arr.axes[3 * i + c];
+  for (let i = 0; i < arr.n; i++) for (let c = 0; c < 3; c++) g[3 * i + c] = lim[i]! * arr.axes[3 * i + c]!;
   return g;
 }
 
 /** Support function h_Z(d) = max_{x∈Z} dᵀx = Σ_i |v_iᵀ d| (d need not be unit). */
 export function envelopeSupport(z: Zonotope, d: ArrayLike<number>): number {
   const g = z.generators;
-  const dx = d[0], dy = d[1], dz = d[2];
+  const dx = d[0]!, dy = d[1]!, dz = d[2]!;
   let s = 0;
-  for (let i = 0; i < z.n; i++) s += Math.abs(g[3 * i] * dx + g[3 * i + 1] * dy + g[3 * i + 2] * dz);
+  for (let i = 0; i < z.n; i++) s += Math.abs(g[3 * i]! * dx + g[3 * i + 1]! * dy + g[3 * i + 2]! * dz);
   return s;
 }
 
@@ -49,23 +49,23 @@ export function envelopeSupport(z: Zonotope, d: ArrayLike<number>): number {
 export function envelopeCapacity(z: Zonotope, d: ArrayLike<number>): number {
   const f = envelopeBindingFace(z, d);
   if (f < 0) return 0;
-  const dn = Math.hypot(d[0], d[1], d[2]);
-  const nd = (z.faceNormals[3 * f] * d[0] + z.faceNormals[3 * f + 1] * d[1] + z.faceNormals[3 * f + 2] * d[2]) / dn;
-  return z.faceOffsets[f] / nd;
+  const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
+  const nd = (z.faceNormals[3 * f]! * d[0]! + z.faceNormals[3 * f + 1]! * d[1]! + z.faceNormals[3 * f + 2]! * d[2]!) / dn;
+  return z.faceOffsets[f]! / nd;
 }
 
 /** Index of the facet the ray along d leaves through (−1 when undefined, see envelopeCapacity). */
 export function envelopeBindingFace(z: Zonotope, d: ArrayLike<number>): number {
-  const dn = Math.hypot(d[0], d[1], d[2]);
+  const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
   if (!(dn > 0) || !Number.isFinite(dn)) return -1;
-  const ux = d[0] / dn, uy = d[1] / dn, uz = d[2] / dn;
+  const ux = d[0]! / dn, uy = d[1]! / dn, uz = d[2]! / dn;
   const N = z.faceOffsets.length;
   let best = Infinity;
   let face = -1;
   for (let f = 0; f < N; f++) {
-    const nd = z.faceNormals[3 * f] * ux + z.faceNormals[3 * f + 1] * uy + z.faceNormals[3 * f + 2] * uz;
+    const nd = z.faceNormals[3 * f]! * ux + z.faceNormals[3 * f + 1]! * uy + z.faceNormals[3 * f + 2]! * uz;
     if (nd <= 1e-15) continue;
-    const r = z.faceOffsets[f] / nd;
+    const r = z.faceOffsets[f]! / nd;
     if (r < best) {
       best = r;
       face = f;
@@ -78,8 +78,8 @@ export function envelopeBindingFace(z: Zonotope, d: ArrayLike<number>): number {
 export function envelopeContains(z: Zonotope, p: ArrayLike<number>, tol = 0): boolean {
   if (z.faceOffsets.length === 0) return false;
   for (let f = 0; f < z.faceOffsets.length; f++) {
-    const d = z.faceNormals[3 * f] * p[0] + z.faceNormals[3 * f + 1] * p[1] + z.faceNormals[3 * f + 2] * p[2];
-    if (d > z.faceOffsets[f] + tol) return false;
+    const d = z.faceNormals[3 * f]! * p[0]! + z.faceNormals[3 * f + 1]! * p[1]! + z.faceNormals[3 * f + 2]! * p[2]!;
+    if (d > z.faceOffsets[f]! + tol) return false;
   }
   return true;
 }

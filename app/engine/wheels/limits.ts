@@ -117,35 +117,35 @@ function limitCore(
   let anyViolated = false;
   let momViolated = false;
   for (let i = 0; i < n; i++) {
-    const c = cmd[i];
+    const c = cmd[i]!;
     cmdS[i] = c;
     let mLo = -Infinity, mHi = Infinity;
     if (dt > 0) {
-      mLo = (-hMax[i] - h[i]) / dt;
-      mHi = (hMax[i] - h[i]) / dt;
-      if (h[i] > hMax[i]) mHi = 0;
-      if (h[i] < -hMax[i]) mLo = 0;
+      mLo = (-hMax[i]! - h[i]!) / dt;
+      mHi = (hMax[i]! - h[i]!) / dt;
+      if (h[i]! > hMax[i]!) mHi = 0;
+      if (h[i]! < -hMax[i]!) mLo = 0;
     } else {
-      if (h[i] >= hMax[i]) mHi = 0;
-      if (h[i] <= -hMax[i]) mLo = 0;
+      if (h[i]! >= hMax[i]!) mHi = 0;
+      if (h[i]! <= -hMax[i]!) mLo = 0;
     }
-    loMom[i] = mLo > -lT[i] ? 1 : 0;
-    hiMom[i] = mHi < lT[i] ? 1 : 0;
-    lo[i] = Math.max(-lT[i], mLo);
-    hi[i] = Math.min(lT[i], mHi);
+    loMom[i] = mLo > -lT[i]! ? 1 : 0;
+    hiMom[i] = mHi < lT[i]! ? 1 : 0;
+    lo[i] = Math.max(-lT[i]!, mLo);
+    hi[i] = Math.min(lT[i]!, mHi);
     if (c < mLo || c > mHi) momViolated = true;
-    if (c < lo[i] || c > hi[i]) anyViolated = true;
+    if (c < lo[i]! || c > hi[i]!) anyViolated = true;
   }
   if (!anyViolated) {
-    for (let i = 0; i < n; i++) out[i] = cmdS[i];
+    for (let i = 0; i < n; i++) out[i] = cmdS[i]!;
     return setInfo(info, 1, 'none', -1, false);
   }
   // Plain scaling: the largest s with s·c inside every interval.
   let sScale = 1;
   let bind = -1;
   for (let i = 0; i < n; i++) {
-    const c = cmdS[i];
-    const r = c > 0 ? hi[i] / c : c < 0 ? lo[i] / c : Infinity;
+    const c = cmdS[i]!;
+    const r = c > 0 ? hi[i]! / c : c < 0 ? lo[i]! / c : Infinity;
     if (r < sScale) {
       sScale = r;
       bind = i;
@@ -159,7 +159,7 @@ function limitCore(
       const s = Math.min(1, sLp);
       readAlphaFromLp1(arr);
       minDeviationLp(arr, s);
-      for (let i = 0; i < n; i++) out[i] = s * cmdS[i] + nsTerm[i];
+      for (let i = 0; i < n; i++) out[i] = s * cmdS[i]! + nsTerm[i]!;
       // An LP answer outside the intervals by more than rounding (possible on nearly dependent
       // null vectors) is discarded for plain scaling, which is always exactly feasible.
       if (worstExcess(out, arr) <= CLAMP) {
@@ -171,9 +171,9 @@ function limitCore(
       }
     }
   }
-  for (let i = 0; i < n; i++) out[i] = sScale * cmdS[i];
+  for (let i = 0; i < n; i++) out[i] = sScale * cmdS[i]!;
   enforceIntervals(out, arr);
-  const c = bind >= 0 ? cmdS[bind] : 0;
+  const c = bind >= 0 ? cmdS[bind]! : 0;
   const byMomentum = bind >= 0 && (c > 0 ? hiMom[bind] === 1 : loMom[bind] === 1);
   return setInfo(info, sScale, byMomentum ? 'momentum' : 'torque', bind, false);
 }
@@ -186,21 +186,21 @@ function maxScaleLp(arr: WheelArray): number {
   const n = arr.n, k = n - 3, l = arr.maxTorqueNm, B = arr.nullBasis;
   const nv = 2 * k + 1;
   let lMax = 0;
-  for (let i = 0; i < n; i++) lMax = Math.max(lMax, l[i]);
+  for (let i = 0; i < n; i++) lMax = Math.max(lMax, l[i]!);
   for (let i = 0; i < n; i++) {
     const up = 2 * i * nv, dn = (2 * i + 1) * nv;
-    const ci = cmdS[i] / l[i];
+    const ci = cmdS[i]! / l[i]!;
     lpA[up] = ci;
     lpA[dn] = -ci;
     for (let j = 0; j < k; j++) {
-      const b = (B[j * n + i] * lMax) / l[i];
+      const b = (B[j * n + i]! * lMax) / l[i]!;
       lpA[up + 1 + j] = b;
       lpA[up + 1 + k + j] = -b;
       lpA[dn + 1 + j] = -b;
       lpA[dn + 1 + k + j] = b;
     }
-    lpB[2 * i] = hi[i] / l[i];
-    lpB[2 * i + 1] = -lo[i] / l[i];
+    lpB[2 * i] = hi[i]! / l[i]!;
+    lpB[2 * i + 1] = -lo[i]! / l[i]!;
   }
   const last = 2 * n * nv;
   lpA.fill(0, last, last + nv);
@@ -209,18 +209,18 @@ function maxScaleLp(arr: WheelArray): number {
   lpC.fill(0, 0, nv);
   lpC[0] = -1;
   if (lpMinimize(lpZ, 2 * n + 1, nv, lpA, lpB, lpC) !== 'optimal') return 0;
-  return Math.max(0, Math.min(1, lpZ[0]));
+  return Math.max(0, Math.min(1, lpZ[0]!));
 }
 
 /** Null-space term from LP1's solution (lpZ), into nsTerm. */
 function readAlphaFromLp1(arr: WheelArray): void {
   const n = arr.n, k = n - 3, B = arr.nullBasis;
   let lMax = 0;
-  for (let i = 0; i < n; i++) lMax = Math.max(lMax, arr.maxTorqueNm[i]);
+  for (let i = 0; i < n; i++) lMax = Math.max(lMax, arr.maxTorqueNm[i]!);
   nsTerm.fill(0, 0, n);
   for (let j = 0; j < k; j++) {
-    const a = (lpZ[1 + j] - lpZ[1 + k + j]) * lMax;
-    for (let i = 0; i < n; i++) nsTerm[i] += B[j * n + i] * a;
+    const a = (lpZ[1 + j]! - lpZ[1 + k + j]!) * lMax;
+    for (let i = 0; i < n; i++) nsTerm[i]! += B[j * n + i]! * a;
   }
 }
 
@@ -237,14 +237,14 @@ function minDeviationLp(arr: WheelArray, s: number): void {
   const nv = 2 * k + 1;
   let lMax = 0, t1 = 0;
   for (let i = 0; i < n; i++) {
-    lMax = Math.max(lMax, l[i]);
-    t1 = Math.max(t1, Math.abs(nsTerm[i]) / l[i]);
+    lMax = Math.max(lMax, l[i]!);
+    t1 = Math.max(t1, Math.abs(nsTerm[i]!) / l[i]!);
   }
   if (t1 === 0) return; // α₁ = 0 is already the smallest change
   for (let i = 0; i < n; i++) {
     const r0 = 4 * i * nv, r1 = r0 + nv, r2 = r1 + nv, r3 = r2 + nv;
     for (let j = 0; j < k; j++) {
-      const b = (B[j * n + i] * lMax) / l[i];
+      const b = (B[j * n + i]! * lMax) / l[i]!;
       lpA[r0 + j] = b;
       lpA[r0 + k + j] = -b;
       lpA[r1 + j] = -b;
@@ -258,11 +258,11 @@ function minDeviationLp(arr: WheelArray, s: number): void {
     lpA[r1 + 2 * k] = 0;
     lpA[r2 + 2 * k] = 1;
     lpA[r3 + 2 * k] = 1;
-    const base = s * cmdS[i] + nsTerm[i];
-    const d = nsTerm[i] / l[i];
+    const base = s * cmdS[i]! + nsTerm[i]!;
+    const d = nsTerm[i]! / l[i]!;
     // LP1's point is feasible up to rounding; a hair below zero is zero.
-    lpB[4 * i] = Math.max(0, (hi[i] - base) / l[i]);
-    lpB[4 * i + 1] = Math.max(0, (base - lo[i]) / l[i]);
+    lpB[4 * i] = Math.max(0, (hi[i]! - base) / l[i]!);
+    lpB[4 * i + 1] = Math.max(0, (base - lo[i]!) / l[i]!);
     lpB[4 * i + 2] = Math.max(0, t1 - d);
     lpB[4 * i + 3] = Math.max(0, t1 + d);
   }
@@ -270,9 +270,9 @@ function minDeviationLp(arr: WheelArray, s: number): void {
   lpC[2 * k] = -1;
   if (lpMinimize(lpZ, 4 * n, nv, lpA, lpB, lpC) !== 'optimal') return;
   for (let j = 0; j < k; j++) {
-    const a = (lpZ[j] - lpZ[k + j]) * lMax;
+    const a = (lpZ[j]! - lpZ[k + j]!) * lMax;
     if (a === 0) continue;
-    for (let i = 0; i < n; i++) nsTerm[i] += B[j * n + i] * a;
+    for (let i = 0; i < n; i++) nsTerm[i]! += B[j * n + i]! * a;
   }
 }
 
@@ -284,7 +284,7 @@ const CLAMP = 1e-9;
 
 function worstExcess(out: Float64Array, arr: WheelArray): number {
   let w = 0;
-  for (let i = 0; i < arr.n; i++) w = Math.max(w, (out[i] - hi[i]) / arr.maxTorqueNm[i], (lo[i] - out[i]) / arr.maxTorqueNm[i]);
+  for (let i = 0; i < arr.n; i++) w = Math.max(w, (out[i]! - hi[i]!) / arr.maxTorqueNm[i]!, (lo[i]! - out[i]!) / arr.maxTorqueNm[i]!);
   return w;
 }
 
@@ -297,16 +297,16 @@ function enforceIntervals(out: Float64Array, arr: WheelArray): number {
   const n = arr.n;
   let lam = 1;
   for (let i = 0; i < n; i++) {
-    const tiny = CLAMP * arr.maxTorqueNm[i];
-    if (out[i] > hi[i]) {
-      if (out[i] - hi[i] <= tiny) out[i] = hi[i];
-      else lam = Math.min(lam, hi[i] / out[i]);
-    } else if (out[i] < lo[i]) {
-      if (lo[i] - out[i] <= tiny) out[i] = lo[i];
-      else lam = Math.min(lam, lo[i] / out[i]);
+    const tiny = CLAMP * arr.maxTorqueNm[i]!;
+    if (out[i]! > hi[i]!) {
+      if (out[i]! - hi[i]! <= tiny) out[i] = hi[i]!;
+      else lam = Math.min(lam, hi[i]! / out[i]!);
+    } else if (out[i]! < lo[i]!) {
+      if (lo[i]! - out[i]! <= tiny) out[i] = lo[i]!;
+      else lam = Math.min(lam, lo[i]! / out[i]!);
     }
   }
-  if (lam < 1) for (let i = 0; i < n; i++) out[i] *= lam;
+  if (lam < 1) for (let i = 0; i < n; i++) out[i]! *= lam;
   return lam;
 }
 
@@ -314,9 +314,9 @@ function enforceIntervals(out: Float64Array, arr: WheelArray): number {
 function activeWheel(out: Float64Array, arr: WheelArray): number {
   let torqueWheel = -1;
   for (let i = 0; i < arr.n; i++) {
-    const tol = 1e-9 * arr.maxTorqueNm[i];
-    const atHi = Math.abs(out[i] - hi[i]) <= tol;
-    const atLo = Math.abs(out[i] - lo[i]) <= tol;
+    const tol = 1e-9 * arr.maxTorqueNm[i]!;
+    const atHi = Math.abs(out[i]! - hi[i]!) <= tol;
+    const atLo = Math.abs(out[i]! - lo[i]!) <= tol;
     if ((atHi && hiMom[i]) || (atLo && loMom[i])) return i;
     if ((atHi || atLo) && torqueWheel < 0) torqueWheel = i;
   }
@@ -324,8 +324,8 @@ function activeWheel(out: Float64Array, arr: WheelArray): number {
 }
 
 function isMomentumBound(out: Float64Array, i: number, arr: WheelArray): boolean {
-  const tol = 1e-9 * arr.maxTorqueNm[i];
-  return (Math.abs(out[i] - hi[i]) <= tol && hiMom[i] === 1) || (Math.abs(out[i] - lo[i]) <= tol && loMom[i] === 1);
+  const tol = 1e-9 * arr.maxTorqueNm[i]!;
+  return (Math.abs(out[i]! - hi[i]!) <= tol && hiMom[i] === 1) || (Math.abs(out[i]! - lo[i]!) <= tol && loMom[i] === 1);
 }
 
 /**
@@ -342,11 +342,11 @@ export function nullSpaceMomentumBleed(out: Float64Array, arr: WheelArray, hWhee
   for (let j = 0; j < k; j++) {
     let dot = 0, nn = 0;
     for (let i = 0; i < n; i++) {
-      dot += B[j * n + i] * hWheel[i];
-      nn += B[j * n + i] * B[j * n + i];
+      dot += B[j * n + i]! * hWheel[i]!;
+      nn += B[j * n + i]! * B[j * n + i]!;
     }
     const a = (-gain * dot) / nn;
-    for (let i = 0; i < n; i++) out[i] += a * B[j * n + i];
+    for (let i = 0; i < n; i++) out[i]! += a * B[j * n + i]!;
   }
   return out;
 }

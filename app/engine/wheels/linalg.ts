@@ -26,7 +26,7 @@ export interface AxisSvd {
 /** One-sided Jacobi on the rows of G. Allocates its result (construction time only). */
 export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
   const rows = new Float64Array(3 * n);
-  for (let i = 0; i < n; i++) for (let r = 0; r < 3; r++) rows[r * n + i] = axes[3 * i + r];
+  for (let i = 0; i < n; i++) for (let r = 0; r < 3; r++) rows[r * n + i] = axes[3 * i + r]!;
   const q = new Float64Array([1, 0, 0, 0, 1, 0, 0, 0, 1]);
   for (let sweep = 0; sweep < 40; sweep++) {
     let rotated = false;
@@ -34,7 +34,7 @@ export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
       for (let r = p + 1; r < 3; r++) {
         let a = 0, b = 0, g = 0;
         for (let i = 0; i < n; i++) {
-          const x = rows[p * n + i], y = rows[r * n + i];
+          const x = rows[p * n + i]!, y = rows[r * n + i]!;
           a += x * x;
           b += y * y;
           g += x * y;
@@ -46,12 +46,12 @@ export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
         const c = 1 / Math.sqrt(1 + t * t);
         const s = c * t;
         for (let i = 0; i < n; i++) {
-          const x = rows[p * n + i], y = rows[r * n + i];
+          const x = rows[p * n + i]!, y = rows[r * n + i]!;
           rows[p * n + i] = c * x - s * y;
           rows[r * n + i] = s * x + c * y;
         }
         for (let j = 0; j < 3; j++) {
-          const x = q[3 * p + j], y = q[3 * r + j];
+          const x = q[3 * p + j]!, y = q[3 * r + j]!;
           q[3 * p + j] = c * x - s * y;
           q[3 * r + j] = s * x + c * y;
         }
@@ -62,7 +62,7 @@ export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
   const rowNorm = new Float64Array(3);
   for (let r = 0; r < 3; r++) {
     let s = 0;
-    for (let i = 0; i < n; i++) s += rows[r * n + i] * rows[r * n + i];
+    for (let i = 0; i < n; i++) s += rows[r * n + i]! * rows[r * n + i]!;
     rowNorm[r] = Math.sqrt(s);
   }
   const sigma = Float64Array.from(rowNorm).sort().reverse();
@@ -78,7 +78,7 @@ export function pseudoInverseFromSvd(out: Float64Array, svd: AxisSvd, n: number)
   for (let i = 0; i < n; i++) {
     for (let c = 0; c < 3; c++) {
       let s = 0;
-      for (let k = 0; k < 3; k++) s += (rows[k * n + i] * q[3 * k + c]) / (rowNorm[k] * rowNorm[k]);
+      for (let k = 0; k < 3; k++) s += (rows[k * n + i]! * q[3 * k + c]!) / (rowNorm[k]! * rowNorm[k]!);
       out[3 * i + c] = s;
     }
   }
@@ -96,27 +96,27 @@ export function nullSpaceBasis(axes: ArrayLike<number>, n: number): Float64Array
   if (k <= 0) return out;
   // A = Gᵀ, N×3, column-major by column c at [c*n .. c*n+n-1].
   const a = new Float64Array(3 * n);
-  for (let i = 0; i < n; i++) for (let c = 0; c < 3; c++) a[c * n + i] = axes[3 * i + c];
+  for (let i = 0; i < n; i++) for (let c = 0; c < 3; c++) a[c * n + i] = axes[3 * i + c]!;
   const v = new Float64Array(3 * n); // Householder vectors, v_c zero above row c
   const vv = new Float64Array(3);
   for (let c = 0; c < 3; c++) {
     let norm = 0;
-    for (let i = c; i < n; i++) norm += a[c * n + i] * a[c * n + i];
+    for (let i = c; i < n; i++) norm += a[c * n + i]! * a[c * n + i]!;
     norm = Math.sqrt(norm);
     if (norm === 0) continue; // rank-deficient column: identity reflector
-    const x0 = a[c * n + c];
+    const x0 = a[c * n + c]!;
     const alpha = x0 >= 0 ? -norm : norm;
-    for (let i = c; i < n; i++) v[c * n + i] = a[c * n + i];
+    for (let i = c; i < n; i++) v[c * n + i] = a[c * n + i]!;
     v[c * n + c] = x0 - alpha;
     let s = 0;
-    for (let i = c; i < n; i++) s += v[c * n + i] * v[c * n + i];
+    for (let i = c; i < n; i++) s += v[c * n + i]! * v[c * n + i]!;
     vv[c] = s;
     if (s === 0) continue;
     for (let cc = c; cc < 3; cc++) {
       let d = 0;
-      for (let i = c; i < n; i++) d += v[c * n + i] * a[cc * n + i];
+      for (let i = c; i < n; i++) d += v[c * n + i]! * a[cc * n + i]!;
       const f = (2 * d) / s;
-      for (let i = c; i < n; i++) a[cc * n + i] -= f * v[c * n + i];
+      for (let i = c; i < n; i++) a[cc * n + i]! -= f * v[c * n + i]!;
     }
   }
   for (let j = 0; j < k; j++) {
@@ -126,13 +126,13 @@ export function nullSpaceBasis(axes: ArrayLike<number>, n: number): Float64Array
     for (let c = 2; c >= 0; c--) {
       if (vv[c] === 0) continue;
       let d = 0;
-      for (let i = c; i < n; i++) d += v[c * n + i] * col[i];
-      const f = (2 * d) / vv[c];
-      for (let i = c; i < n; i++) col[i] -= f * v[c * n + i];
+      for (let i = c; i < n; i++) d += v[c * n + i]! * col[i]!;
+      const f = (2 * d) / vv[c]!;
+      for (let i = c; i < n; i++) col[i]! -= f * v[c * n + i]!;
     }
     let first = 0;
-    while (first < n && Math.abs(col[first]) <= 1e-12) first++;
-    if (first < n && col[first] < 0) for (let i = 0; i < n; i++) col[i] = -col[i];
+    while (first < n && Math.abs(col[first]!) <= 1e-12) first++;
+    if (first < n && col[first]! < 0) for (let i = 0; i < n; i++) col[i] = -col[i]!;
   }
   return out;
 }

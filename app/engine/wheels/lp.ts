@@ -59,7 +59,7 @@ function solveOnce(
   harris: boolean,
 ): LpStatus {
   let nArt = 0;
-  for (let i = 0; i < m; i++) if (b[i] < 0) nArt++;
+  for (let i = 0; i < m; i++) if (b[i]! < 0) nArt++;
   const width = nv + m + nArt; // columns before the right-hand side
   const stride = width + 1;
   const need = (m + 1) * stride;
@@ -69,7 +69,7 @@ function solveOnce(
   t.fill(0, 0, need);
   if (colMax.length < nv) colMax = new Float64Array(nv);
   colMax.fill(0, 0, nv);
-  for (let i = 0; i < m; i++) for (let j = 0; j < nv; j++) colMax[j] = Math.max(colMax[j], Math.abs(a[i * nv + j]));
+  for (let i = 0; i < m; i++) for (let j = 0; j < nv; j++) colMax[j] = Math.max(colMax[j]!, Math.abs(a[i * nv + j]!));
   let art = nv + m;
   for (let i = 0; i < m; i++) {
     const row = i * stride;
@@ -80,17 +80,17 @@ function solveOnce(
     // binding constraint. A row left with no entries reads 0 ≤ b_i.
     let big = 0;
     for (let j = 0; j < nv; j++) {
-      const v = Math.abs(a[i * nv + j]);
-      if (v >= COLUMN_NOISE * colMax[j]) big = Math.max(big, v);
+      const v = Math.abs(a[i * nv + j]!);
+      if (v >= COLUMN_NOISE * colMax[j]!) big = Math.max(big, v);
     }
-    const f = (b[i] < 0 ? -1 : 1) / (big > 0 ? big : 1);
-    const sign = b[i] < 0 ? -1 : 1;
+    const f = (b[i]! < 0 ? -1 : 1) / (big > 0 ? big : 1);
+    const sign = b[i]! < 0 ? -1 : 1;
     for (let j = 0; j < nv; j++) {
-      const v = a[i * nv + j];
-      t[row + j] = Math.abs(v) >= COLUMN_NOISE * colMax[j] && big > 0 ? f * v : 0;
+      const v = a[i * nv + j]!;
+      t[row + j] = Math.abs(v) >= COLUMN_NOISE * colMax[j]! && big > 0 ? f * v : 0;
     }
     t[row + nv + i] = sign;
-    t[row + width] = f * b[i];
+    t[row + width] = f * b[i]!;
     if (sign < 0) {
       t[row + art] = 1;
       basis[i] = art++;
@@ -104,18 +104,18 @@ function solveOnce(
     // Phase 1: minimise the sum of artificials; reduced costs = 1 − Σ(rows whose basis is artificial).
     for (let j = nv + m; j < width; j++) t[obj + j] = 1;
     for (let i = 0; i < m; i++) {
-      if (basis[i] < nv + m) continue;
-      for (let j = 0; j <= width; j++) t[obj + j] -= t[i * stride + j];
+      if (basis[i]! < nv + m) continue;
+      for (let j = 0; j <= width; j++) t[obj + j]! -= t[i * stride + j]!;
     }
     const s1 = runSimplex(t, m, stride, width, width, iterLeft, harris);
     if (s1 < 0) return fillZero(z, nv, 'iteration-limit');
     iterLeft -= s1;
-    if (-t[obj + width] > EPS_FEAS) return fillZero(z, nv, 'infeasible');
+    if (-t[obj + width]! > EPS_FEAS) return fillZero(z, nv, 'infeasible');
     // Drive zero-level artificials out of the basis where a real column allows it.
     for (let i = 0; i < m; i++) {
-      if (basis[i] < nv + m) continue;
+      if (basis[i]! < nv + m) continue;
       for (let j = 0; j < nv + m; j++) {
-        if (Math.abs(t[i * stride + j]) > 1e-9) {
+        if (Math.abs(t[i * stride + j]!) > 1e-9) {
           pivot(t, m, stride, width, i, j);
           break;
         }
@@ -123,18 +123,18 @@ function solveOnce(
     }
   }
   // Phase 2: reduced costs of the real objective; artificial columns may no longer enter.
-  for (let j = 0; j <= width; j++) t[obj + j] = j < nv ? c[j] : 0;
+  for (let j = 0; j <= width; j++) t[obj + j] = j < nv ? c[j]! : 0;
   for (let i = 0; i < m; i++) {
-    const bi = basis[i];
-    const cb = bi < nv ? c[bi] : 0;
+    const bi = basis[i]!;
+    const cb = bi < nv ? c[bi]! : 0;
     if (cb === 0) continue;
-    for (let j = 0; j <= width; j++) t[obj + j] -= cb * t[i * stride + j];
+    for (let j = 0; j <= width; j++) t[obj + j]! -= cb * t[i * stride + j]!;
   }
   const s2 = runSimplex(t, m, stride, width, nv + m, iterLeft, harris);
   if (s2 === -2) return fillZero(z, nv, 'unbounded');
   if (s2 < 0) return fillZero(z, nv, 'iteration-limit');
   z.fill(0, 0, nv);
-  for (let i = 0; i < m; i++) if (basis[i] < nv) z[basis[i]] = Math.max(0, t[i * stride + width]);
+  for (let i = 0; i < m; i++) if (basis[i]! < nv) z[basis[i]!] = Math.max(0, t[i * stride + width]!);
   return 'optimal';
 }
 
@@ -166,7 +166,7 @@ function runSimplex(
   for (let it = 0; it < maxIter; it++) {
     let q = -1;
     for (let j = 0; j < enterLimit; j++) {
-      if (t[obj + j] < -EPS_COST) {
+      if (t[obj + j]! < -EPS_COST) {
         q = j;
         break;
       }
@@ -176,19 +176,19 @@ function runSimplex(
     if (harris) {
       // Pivots below PIVOT_REL × the column's largest entry are not trusted (rows equilibrated).
       let colBig = 0;
-      for (let i = 0; i < m; i++) colBig = Math.max(colBig, Math.abs(t[i * stride + q]));
+      for (let i = 0; i < m; i++) colBig = Math.max(colBig, Math.abs(t[i * stride + q]!));
       const minPivot = Math.max(EPS_PIVOT, PIVOT_REL * colBig);
       let thetaMax = Infinity;
       for (let i = 0; i < m; i++) {
-        const aiq = t[i * stride + q];
-        if (aiq > minPivot) thetaMax = Math.min(thetaMax, (t[i * stride + width] + HARRIS_TOL) / aiq);
+        const aiq = t[i * stride + q]!;
+        if (aiq > minPivot) thetaMax = Math.min(thetaMax, (t[i * stride + width]! + HARRIS_TOL) / aiq);
       }
       if (thetaMax === Infinity) return -2;
       let bestCoef = 0;
       for (let i = 0; i < m; i++) {
-        const aiq = t[i * stride + q];
-        if (aiq <= minPivot || t[i * stride + width] / aiq > thetaMax) continue;
-        if (aiq > bestCoef * (1 + 1e-12) || (aiq >= bestCoef * (1 - 1e-12) && basis[i] < basis[r])) {
+        const aiq = t[i * stride + q]!;
+        if (aiq <= minPivot || t[i * stride + width]! / aiq > thetaMax) continue;
+        if (aiq > bestCoef * (1 + 1e-12) || (aiq >= bestCoef * (1 - 1e-12) && basis[i]! < basis[r]!)) {
           bestCoef = aiq;
           r = i;
         }
@@ -196,11 +196,11 @@ function runSimplex(
     } else {
       let best = Infinity;
       for (let i = 0; i < m; i++) {
-        const aiq = t[i * stride + q];
+        const aiq = t[i * stride + q]!;
         if (aiq <= EPS_PIVOT) continue;
-        const ratio = t[i * stride + width] / aiq;
+        const ratio = t[i * stride + width]! / aiq;
         const tie = 1e-14 * (1 + Math.abs(best));
-        if (r < 0 || ratio < best - tie || (ratio <= best + tie && basis[i] < basis[r])) {
+        if (r < 0 || ratio < best - tie || (ratio <= best + tie && basis[i]! < basis[r]!)) {
           best = ratio;
           r = i;
         }
@@ -208,7 +208,7 @@ function runSimplex(
     }
     if (r < 0) return -2;
     // Harris may pick a row a hair infeasible; step from zero there, never backwards.
-    if (t[r * stride + width] < 0) t[r * stride + width] = 0;
+    if (t[r * stride + width]! < 0) t[r * stride + width] = 0;
     pivot(t, m, stride, width, r, q);
   }
   return -1;
@@ -216,18 +216,18 @@ function runSimplex(
 
 function pivot(t: Float64Array, m: number, stride: number, width: number, r: number, q: number): void {
   const pr = r * stride;
-  const inv = 1 / t[pr + q];
-  for (let j = 0; j <= width; j++) t[pr + j] *= inv;
+  const inv = 1 / t[pr + q]!;
+  for (let j = 0; j <= width; j++) t[pr + j]! *= inv;
   t[pr + q] = 1;
   for (let i = 0; i <= m; i++) {
     if (i === r) continue;
     const row = i * stride;
-    const f = t[row + q];
+    const f = t[row + q]!;
     if (f === 0) continue;
-    for (let j = 0; j <= width; j++) t[row + j] -= f * t[pr + j];
+    for (let j = 0; j <= width; j++) t[row + j]! -= f * t[pr + j]!;
     t[row + q] = 0;
     // Rounding (and Harris' tolerance) can push a basic value a hair below zero; it is zero.
-    if (i < m && t[row + width] < 0 && t[row + width] > -1e-11) t[row + width] = 0;
+    if (i < m && t[row + width]! < 0 && t[row + width]! > -1e-11) t[row + width] = 0;
   }
   basis[r] = q;
 }

@@ -80,7 +80,7 @@ interface Structure {
 export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope['kind'] = 'custom'): Zonotope {
   let chosen: Structure | null = null;
   let first: Structure | null = null;
-  let tolerance = { parallelRad: TOLERANCES[0][0], planeRad: TOLERANCES[0][1] };
+  let tolerance = { parallelRad: TOLERANCES[0]![0], planeRad: TOLERANCES[0]![1] };
   for (const [parTol, planeTol] of TOLERANCES) {
     const st = buildStructure(generators, n, parTol, planeTol);
     first ??= st;
@@ -96,13 +96,13 @@ export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope
   const vertices = new Float64Array(3 * V);
   const vertexSigns = new Int8Array(V * n);
   for (let v = 0; v < V; v++) {
-    const p = st.patterns[v];
+    const p = st.patterns[v]!;
     let x = 0, y = 0, z = 0;
     for (let i = 0; i < n; i++) {
-      x += p[i] * generators[3 * i];
-      y += p[i] * generators[3 * i + 1];
-      z += p[i] * generators[3 * i + 2];
-      vertexSigns[v * n + i] = p[i];
+      x += p[i]! * generators[3 * i]!;
+      y += p[i]! * generators[3 * i + 1]!;
+      z += p[i]! * generators[3 * i + 2]!;
+      vertexSigns[v * n + i] = p[i]!;
     }
     vertices[3 * v] = x;
     vertices[3 * v + 1] = y;
@@ -113,20 +113,20 @@ export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope
   const faceOffsets = new Float64Array(F);
   let triCount = 0, edgeTwice = 0;
   for (let f = 0; f < F; f++) {
-    const nx = faceNormals[3 * f], ny = faceNormals[3 * f + 1], nz = faceNormals[3 * f + 2];
+    const nx = faceNormals[3 * f]!, ny = faceNormals[3 * f + 1]!, nz = faceNormals[3 * f + 2]!;
     let s = 0;
-    for (let i = 0; i < n; i++) s += Math.abs(generators[3 * i] * nx + generators[3 * i + 1] * ny + generators[3 * i + 2] * nz);
+    for (let i = 0; i < n; i++) s += Math.abs(generators[3 * i]! * nx + generators[3 * i + 1]! * ny + generators[3 * i + 2]! * nz);
     faceOffsets[f] = s;
-    triCount += st.faces[f].length - 2;
-    edgeTwice += st.faces[f].length;
+    triCount += st.faces[f]!.length - 2;
+    edgeTwice += st.faces[f]!.length;
   }
   const triangles = new Uint32Array(3 * triCount);
   let t = 0;
   for (const face of st.faces) {
     for (let j = 1; j + 1 < face.length; j++) {
-      triangles[t++] = face[0];
-      triangles[t++] = face[j];
-      triangles[t++] = face[j + 1];
+      triangles[t++] = face[0]!;
+      triangles[t++] = face[j]!;
+      triangles[t++] = face[j + 1]!;
     }
   }
   return {
@@ -154,7 +154,7 @@ function isClosedSurface(st: Structure): boolean {
   for (const f of st.faces) {
     if (f.length < 3) return false;
     for (let j = 0; j < f.length; j++) {
-      const u = f[j], v = f[(j + 1) % f.length];
+      const u = f[j]!, v = f[(j + 1) % f.length]!;
       const key = u * V + v;
       if (u === v || seen.has(key)) return false;
       seen.add(key);
@@ -173,13 +173,13 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
   const classSign = new Int8Array(n); // g_i = classSign · |g_i| · classDir
   const dir: number[] = [];
   for (let i = 0; i < n; i++) {
-    const x = gen[3 * i], y = gen[3 * i + 1], z = gen[3 * i + 2];
+    const x = gen[3 * i]!, y = gen[3 * i + 1]!, z = gen[3 * i + 2]!;
     const L = Math.hypot(x, y, z);
     if (!(L > 0) || !Number.isFinite(L)) continue;
     const ux = x / L, uy = y / L, uz = z / L;
     let found = -1;
     for (let a = 0; a < dir.length / 3; a++) {
-      const dx = dir[3 * a], dy = dir[3 * a + 1], dz = dir[3 * a + 2];
+      const dx = dir[3 * a]!, dy = dir[3 * a + 1]!, dz = dir[3 * a + 2]!;
       if (Math.hypot(uy * dz - uz * dy, uz * dx - ux * dz, ux * dy - uy * dx) <= parTol) {
         found = a;
         break;
@@ -191,7 +191,7 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
       dir.push(ux, uy, uz);
     }
     classOf[i] = found;
-    classSign[i] = ux * dir[3 * found] + uy * dir[3 * found + 1] + uz * dir[3 * found + 2] >= 0 ? 1 : -1;
+    classSign[i] = ux * dir[3 * found]! + uy * dir[3 * found + 1]! + uz * dir[3 * found + 2]! >= 0 ? 1 : -1;
   }
   const m = dir.length / 3;
 
@@ -205,13 +205,13 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
 
   const vertexOf = (): number => {
     let key = 0;
-    for (let a = 0, w = 1; a < m; a++, w *= 2) if (pattern[a] > 0) key += w;
+    for (let a = 0, w = 1; a < m; a++, w *= 2) if (pattern[a]! > 0) key += w;
     let idx = index.get(key);
     if (idx === undefined) {
       idx = patterns.length;
       index.set(key, idx);
       const p = new Int8Array(n);
-      for (let i = 0; i < n; i++) p[i] = classOf[i] >= 0 ? pattern[classOf[i]] * classSign[i] : 0;
+      for (let i = 0; i < n; i++) p[i] = classOf[i]! >= 0 ? pattern[classOf[i]!]! * classSign[i]! : 0;
       patterns.push(p);
     }
     return idx;
@@ -220,12 +220,12 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
   const addFacet = (nx: number, ny: number, nz: number): void => {
     for (let a = 0; a < m; a++) {
       if (isIn[a]) continue;
-      pattern[a] = dir[3 * a] * nx + dir[3 * a + 1] * ny + dir[3 * a + 2] * nz > 0 ? 1 : -1;
+      pattern[a] = dir[3 * a]! * nx + dir[3 * a + 1]! * ny + dir[3 * a + 2]! * nz > 0 ? 1 : -1;
     }
     // In-plane basis e1 (first in-plane class, projected), e2 = n × e1: (e1, e2, n) right-handed,
     // so increasing angle in (e1, e2) is counter-clockwise seen from outside.
-    const a0 = inPlane[0];
-    let e1x = dir[3 * a0], e1y = dir[3 * a0 + 1], e1z = dir[3 * a0 + 2];
+    const a0 = inPlane[0]!;
+    let e1x = dir[3 * a0]!, e1y = dir[3 * a0 + 1]!, e1z = dir[3 * a0 + 2]!;
     const p0 = e1x * nx + e1y * ny + e1z * nz;
     e1x -= p0 * nx;
     e1y -= p0 * ny;
@@ -237,8 +237,8 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     const e2x = ny * e1z - nz * e1y, e2y = nz * e1x - nx * e1z, e2z = nx * e1y - ny * e1x;
     // Orient each in-plane class into angles [0, π) and sort; the zonogon walk then turns monotonically.
     const order = inPlane.map((a) => {
-      const u = dir[3 * a] * e1x + dir[3 * a + 1] * e1y + dir[3 * a + 2] * e1z;
-      const v = dir[3 * a] * e2x + dir[3 * a + 1] * e2y + dir[3 * a + 2] * e2z;
+      const u = dir[3 * a]! * e1x + dir[3 * a + 1]! * e1y + dir[3 * a + 2]! * e1z;
+      const v = dir[3 * a]! * e2x + dir[3 * a + 1]! * e2y + dir[3 * a + 2]! * e2z;
       let ang = Math.atan2(v, u);
       let flip = 1;
       if (ang < 0 || ang >= Math.PI) {
@@ -254,7 +254,7 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     for (const o of order) pattern[o.a] = -o.flip;
     face.push(vertexOf());
     for (let s = 0; s < 2 * mm - 1; s++) {
-      const o = order[s % mm];
+      const o = order[s % mm]!;
       pattern[o.a] = s < mm ? o.flip : -o.flip;
       face.push(vertexOf());
     }
@@ -264,15 +264,15 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
 
   for (let a = 0; a < m; a++) {
     for (let b = a + 1; b < m; b++) {
-      const cx = dir[3 * a + 1] * dir[3 * b + 2] - dir[3 * a + 2] * dir[3 * b + 1];
-      const cy = dir[3 * a + 2] * dir[3 * b] - dir[3 * a] * dir[3 * b + 2];
-      const cz = dir[3 * a] * dir[3 * b + 1] - dir[3 * a + 1] * dir[3 * b];
+      const cx = dir[3 * a + 1]! * dir[3 * b + 2]! - dir[3 * a + 2]! * dir[3 * b + 1]!;
+      const cy = dir[3 * a + 2]! * dir[3 * b]! - dir[3 * a]! * dir[3 * b + 2]!;
+      const cz = dir[3 * a]! * dir[3 * b + 1]! - dir[3 * a + 1]! * dir[3 * b]!;
       const cn = Math.hypot(cx, cy, cz);
       const nx = cx / cn, ny = cy / cn, nz = cz / cn;
       inPlane.length = 0;
       isIn.fill(0);
       for (let e = 0; e < m; e++) {
-        const d = Math.abs(dir[3 * e] * nx + dir[3 * e + 1] * ny + dir[3 * e + 2] * nz);
+        const d = Math.abs(dir[3 * e]! * nx + dir[3 * e + 1]! * ny + dir[3 * e + 2]! * nz);
         if (e === a || e === b || d <= planeTol) {
           inPlane.push(e);
           isIn[e] = 1;

@@ -66,7 +66,7 @@ function TargetCard({ i, count }: { i: number; count: number }) {
     const list = (app.store.getState().scenario as Obj).targets as Obj[];
     const next = list.slice();
     const [t] = next.splice(i, 1);
-    next.splice(i + d, 0, t);
+    next.splice(i + d, 0, t!);
     app.store.edit('targets', next, { label: `Move target ${i + 1}`, coalesceKey: null });
   };
   const remove = () => {

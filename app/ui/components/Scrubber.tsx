@@ -46,9 +46,9 @@ export function Scrubber() {
         if (r && r.trace.n > 0) {
           const k = sampleIndexAt(r.trace.t, r.trace.n, t);
           if (jText.current) jText.current.textContent = String(r.trace.j[k]);
-          const seg = r.trace.segment[k];
+          const seg = r.trace.segment[k]!;
           const label = output?.plan.segments[seg]?.label ?? '';
-          if (extra.current) extra.current.textContent = `error ${(r.trace.errorAngle[k] * RAD_TO_DEG).toFixed(3)}° · ${label}`;
+          if (extra.current) extra.current.textContent = `error ${(r.trace.errorAngle[k]! * RAD_TO_DEG).toFixed(3)}° · ${label}`;
         } else {
           if (jText.current) jText.current.textContent = '—';
           if (extra.current) extra.current.textContent = '';

@@ -62,7 +62,7 @@ export function WheelsEditor() {
       let axes: number[][];
       if (output && current && output.vehicle.nWheels > 0) {
         axes = [];
-        for (let i = 0; i < output.vehicle.nWheels; i++) axes.push([0, 1, 2].map((k) => round(output.vehicle.wheelAxes[3 * i + k])));
+        for (let i = 0; i < output.vehicle.nWheels; i++) axes.push([0, 1, 2].map((k) => round(output.vehicle.wheelAxes[3 * i + k]!)));
       } else axes = presetAxes(wheels);
       value = { layout: 'custom', wheels: axes.map((axis) => ({ axis, ...l })) };
     }

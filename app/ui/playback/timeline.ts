@@ -6,12 +6,12 @@
 /** Index of the last sample with t[k] ≤ time (0 when time is before the first sample). */
 export function sampleIndexAt(t: ArrayLike<number>, n: number, time: number): number {
   if (n <= 0) return -1;
-  if (!(time >= t[0])) return 0;
+  if (!(time >= t[0]!)) return 0;
   let lo = 0;
   let hi = n - 1;
   while (lo < hi) {
     const mid = (lo + hi + 1) >> 1;
-    if (t[mid] <= time) lo = mid;
+    if (t[mid]! <= time) lo = mid;
     else hi = mid - 1;
   }
   return lo;
@@ -23,11 +23,11 @@ export function stepSample(t: ArrayLike<number>, n: number, time: number, direct
   const k = sampleIndexAt(t, n, time);
   if (direction > 0) {
     // A time between samples steps to the next sample, not two ahead.
-    const next = t[k] > time ? k : k + 1;
-    return t[Math.min(n - 1, next)];
+    const next = t[k]! > time ? k : k + 1;
+    return t[Math.min(n - 1, next)]!;
   }
-  const prev = t[k] < time ? k : k - 1;
-  return t[Math.max(0, prev)];
+  const prev = t[k]! < time ? k : k - 1;
+  return t[Math.max(0, prev)]!;
 }
 
 /** Time of the next (or previous) jump strictly after (before) `time`; null when there is none. */
@@ -38,6 +38,6 @@ export function stepJump(jumpTimes: readonly number[], time: number, direction: 
     for (const tj of jumpTimes) if (tj > time + eps) return tj;
     return null;
   }
-  for (let i = jumpTimes.length - 1; i >= 0; i--) if (jumpTimes[i] < time - eps) return jumpTimes[i];
+  for (let i = jumpTimes.length - 1; i >= 0; i--) if (jumpTimes[i]! < time - eps) return jumpTimes[i]!;
   return null;
 }

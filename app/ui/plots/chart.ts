@@ -55,8 +55,8 @@ function drawMarkers(spec: () => PlotSpec) {
     if (!s.jumpTimes?.length && !s.intervals?.length) return;
     const ctx = u.ctx;
     const { left, top, width, height } = u.bbox;
-    const xMin = u.scales.x.min ?? -Infinity;
-    const xMax = u.scales.x.max ?? Infinity;
+    const xMin = u.scales.x!.min ?? -Infinity;
+    const xMax = u.scales.x!.max ?? Infinity;
     ctx.save();
     ctx.beginPath();
     ctx.rect(left, top, width, height);
@@ -142,7 +142,7 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
           // Share the x zoom with every other chart of the group.
           if (key !== 'x' || group.syncing) return;
           group.syncing = true;
-          const { min, max } = u.scales.x;
+          const { min, max } = u.scales.x!;
           for (const other of group.charts) if (other !== u && min !== undefined && max !== undefined) other.setScale('x', { min, max });
           group.syncing = false;
         },

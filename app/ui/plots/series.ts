@@ -54,7 +54,7 @@ const LIMIT_COLOR = '#7a8594';
 /** Channel `c` of a sample-major array with `stride` values per sample, scaled. */
 export function channel(src: ArrayLike<number>, n: number, stride: number, c: number, scale = 1): Float64Array {
   const out = new Float64Array(n);
-  for (let k = 0; k < n; k++) out[k] = src[k * stride + c] * scale;
+  for (let k = 0; k < n; k++) out[k] = src[k * stride + c]! * scale;
   return out;
 }
 
@@ -69,12 +69,12 @@ function times(run: ControllerRun): Float64Array {
 /** Log axes cannot show zero or negatives: those samples become gaps. */
 function positiveOrNull(a: ArrayLike<number>): (number | null)[] {
   const out = new Array<number | null>(a.length);
-  for (let i = 0; i < a.length; i++) out[i] = a[i] > 0 ? a[i] : null;
+  for (let i = 0; i < a.length; i++) out[i] = a[i]! > 0 ? a[i]! : null;
   return out;
 }
 
 function sameTimes(runs: readonly ControllerRun[]): boolean {
-  const a = runs[0].trace;
+  const a = runs[0]!.trace;
   return runs.every((r) => {
     const b = r.trace;
     if (b.n !== a.n) return false;
@@ -92,7 +92,7 @@ export function alignRuns(
   pick: (r: ControllerRun) => ArrayLike<number | null>,
   join: (tables: Series[][]) => Series[],
 ): Series[] {
-  if (runs.length === 1 || sameTimes(runs)) return [times(runs[0]), ...runs.map(pick)];
+  if (runs.length === 1 || sameTimes(runs)) return [times(runs[0]!), ...runs.map(pick)];
   return join(runs.map((r) => [times(r), pick(r)]));
 }
 
@@ -102,7 +102,7 @@ export function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, joi
     title: 'Attitude error angle',
     yLabel: 'error angle (deg)',
     log,
-    series: runs.map((r, i) => ({ label: `${r.label} (${r.mode})`, color: PALETTE[i % PALETTE.length] })),
+    series: runs.map((r, i) => ({ label: `${r.label} (${r.mode})`, color: PALETTE[i % PALETTE.length]! })),
     data: [],
   };
   if (runs.length === 0) return { ...spec, empty: 'No run selected' };
@@ -124,8 +124,8 @@ export function bodyRatePlot(run: ControllerRun): PlotSpec {
     title: `Body rate — ${run.label}`,
     yLabel: 'ω body (deg/s)',
     series: [
-      ...['ωx', 'ωy', 'ωz'].map((label, i) => ({ label, color: AXIS_COLORS[i] })),
-      ...['ωx ref', 'ωy ref', 'ωz ref'].map((label, i) => ({ label, color: AXIS_COLORS[i], dash: [4, 3], width: 1 })),
+      ...['ωx', 'ωy', 'ωz'].map((label, i) => ({ label, color: AXIS_COLORS[i]! })),
+      ...['ωx ref', 'ωy ref', 'ωz ref'].map((label, i) => ({ label, color: AXIS_COLORS[i]!, dash: [4, 3], width: 1 })),
     ],
     data: [
       times(run),
@@ -138,7 +138,7 @@ export function bodyRatePlot(run: ControllerRun): PlotSpec {
 /** Distinct per-wheel limits, for the ± limit lines. */
 function distinct(values: ArrayLike<number>): number[] {
   const out: number[] = [];
-  for (let i = 0; i < values.length; i++) if (!out.some((v) => Math.abs(v - values[i]) <= 1e-12 * Math.abs(v))) out.push(values[i]);
+  for (let i = 0; i < values.length; i++) if (!out.some((v) => Math.abs(v - values[i]!) <= 1e-12 * Math.abs(v))) out.push(values[i]!);
   return out;
 }
 
@@ -148,7 +148,7 @@ function wheelPlot(run: ControllerRun, src: Float64Array, limits: Float64Array, 
   const series: SeriesSpec[] = [];
   const data: Series[] = [times(run)];
   for (let w = 0; w < N; w++) {
-    series.push({ label: `${sym}${w + 1}`, color: PALETTE[w % PALETTE.length] });
+    series.push({ label: `${sym}${w + 1}`, color: PALETTE[w % PALETTE.length]! });
     data.push(channel(src, n, N, w, TO_MILLI));
   }
   for (const lim of distinct(limits)) {
@@ -174,7 +174,7 @@ export function logicPlot(run: ControllerRun): PlotSpec {
     id: 'logic',
     title: `Logic value — ${run.label}`,
     yLabel: run.logicKind === 'index' ? 'potential index q' : 'h',
-    series: [{ label: run.logicKind === 'index' ? 'q' : 'h', color: PALETTE[3], stepped: true }],
+    series: [{ label: run.logicKind === 'index' ? 'q' : 'h', color: PALETTE[3]!, stepped: true }],
     data: [times(run), run.trace.logic.subarray(0, run.trace.n)],
     jumpTimes: run.jumps.map((j) => j.t),
   };
@@ -189,8 +189,8 @@ export function potentialPlot(run: ControllerRun): PlotSpec {
     title: `Active potential vs family minimum — ${run.label}`,
     yLabel: 'potential (—)',
     series: [
-      { label: 'V_q (active)', color: PALETTE[0] },
-      { label: 'min_p V_p', color: PALETTE[2], dash: [5, 3] },
+      { label: 'V_q (active)', color: PALETTE[0]! },
+      { label: 'min_p V_p', color: PALETTE[2]!, dash: [5, 3] },
     ],
     data: [times(run), run.trace.potential.subarray(0, n), run.trace.potentialMin.subarray(0, n)],
     bands: [{ upper: 1, lower: 2, color: 'rgba(44, 90, 160, 0.15)' }],
@@ -205,7 +205,7 @@ export function lyapunovPlot(run: ControllerRun): PlotSpec {
     id: 'lyapunov',
     title: `Lyapunov value W — ${run.label}`,
     yLabel: 'W (—)',
-    series: [{ label: 'W', color: PALETTE[4] }],
+    series: [{ label: 'W', color: PALETTE[4]! }],
     data: [times(run), run.trace.lyapunov.subarray(0, run.trace.n)],
     jumpTimes: run.jumps.map((j) => j.t),
     intervals: run.monitor.map((f) => ({ t0: f.tStart, t1: f.tEnd, label: f.message })),
@@ -216,15 +216,15 @@ export function lyapunovPlot(run: ControllerRun): PlotSpec {
 export function hybridTimePlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   const j = new Float64Array(n);
-  for (let k = 0; k < n; k++) j[k] = run.trace.j[k];
+  for (let k = 0; k < n; k++) j[k] = run.trace.j[k]!;
   const base: PlotSpec = {
     id: 'hybrid-time',
     title: `Hybrid time domain (t, j) — ${run.label}`,
     yLabel: 'W (—)',
     y2Label: 'jump counter j',
     series: [
-      { label: 'W', color: PALETTE[4] },
-      { label: 'j', color: PALETTE[3], stepped: true, scale: 'j', width: 2 },
+      { label: 'W', color: PALETTE[4]! },
+      { label: 'j', color: PALETTE[3]!, stepped: true, scale: 'j', width: 2 },
     ],
     data: [times(run), run.trace.lyapunov.subarray(0, n), j],
     jumpTimes: run.jumps.map((x) => x.t),

@@ -139,7 +139,7 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     editMany(changes, opts = {}) {
       if (changes.length === 0) return;
       const all = changes.map(([p, v]) => [typeof p === 'string' ? parsePath(p) : p, v] as const);
-      const tokens = all[0][0];
+      const tokens = all[0]![0];
       const key = opts.coalesceKey === undefined ? all.map(([t]) => formatPath(t)).join('+') : opts.coalesceKey;
       base.setState((s) => {
         let next = s.scenario;
@@ -217,7 +217,7 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
         const keys = output.runs.map((r) => r.key);
         // Keep the user's selection where those runs still exist; otherwise show the first run.
         let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
-        if (selected.length === 0 && keys.length > 0) selected = [keys[0]];
+        if (selected.length === 0 && keys.length > 0) selected = [keys[0]!];
         return { output, outputScenario: forScenario, selectedRunKeys: selected };
       });
     },

@@ -11,7 +11,7 @@ export function parsePath(path: string): PathToken[] {
   let m: RegExpExecArray | null;
   while ((m = re.exec(path)) !== null) {
     if (m[2] !== undefined) out.push(Number(m[2]));
-    else out.push(m[1]);
+    else out.push(m[1]!);
   }
   return out;
 }
@@ -40,7 +40,7 @@ export function getIn(root: unknown, tokens: readonly PathToken[]): unknown {
  */
 export function setIn(root: unknown, tokens: readonly PathToken[], value: unknown): unknown {
   if (tokens.length === 0) return value;
-  const [head, ...rest] = tokens;
+  const [head, ...rest] = tokens as readonly [PathToken, ...PathToken[]];
   const container =
     root !== null && typeof root === 'object' ? root : typeof head === 'number' ? [] : {};
   const child = (container as Record<string | number, unknown>)[head];

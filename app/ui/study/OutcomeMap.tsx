@@ -71,7 +71,7 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
     const d = down.current;
     if (d && Math.hypot(d.x - p.x, d.y - p.y) > 3) return; // a drag turned the view
     const i = view.current?.pick(p.x, p.y) ?? -1;
-    if (i >= 0) void session.openCase(geometry.caseIndex[i], info.controllers[ci].id);
+    if (i >= 0) void session.openCase(geometry.caseIndex[i]!, info.controllers[ci]!.id);
   };
 
   const h = hover && hover.i < geometry.count ? hover : null;
@@ -106,7 +106,7 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
         {failure && <div className="overlay-msg">{failure}</div>}
         {h && (
           <div className="map-tip" style={{ left: h.x + 12, top: h.y + 8 }} data-testid="map-tip">
-            case {geometry.caseIndex[h.i]} · {fmt(geometry.angleDeg[h.i], 4)}° · {OUTCOME_TEXT[geometry.outcome[h.i]]}
+            case {geometry.caseIndex[h.i]} · {fmt(geometry.angleDeg[h.i], 4)}° · {OUTCOME_TEXT[geometry.outcome[h.i]!]}
             {geometry.settleTimeS[h.i] !== null && ` in ${fmt(geometry.settleTimeS[h.i], 3)} s`}
             {geometry.far[h.i] ? ' · η₀ < 0' : ''}
             <div className="muted">click to open as a run</div>

@@ -68,7 +68,7 @@ function ControllerChoice() {
     <div className="study-controllers" data-testid="study-controllers">
       <div className="sub-head">Controllers flown on every case</div>
       {controllers.map((c, i) => {
-        const id = ids[i];
+        const id = ids[i]!;
         return (
           <label key={`${id}-${i}`} className="check study-check">
             <input type="checkbox" checked={isOn(id)} disabled={isOn(id) && onCount <= 1} onChange={(e) => toggle(id, e.target.checked)} data-testid={`study-ctl-${id}`} />

@@ -92,7 +92,7 @@ function StudyBar() {
       </button>
       <span className="study-title">Robustness study</span>
       {!active ? (
-        <button className="primary" onClick={() => void session.start()} disabled={blockers.length > 0} data-testid="study-run" title={blockers.length ? blockers[0].message : 'Run every case of the study block'}>
+        <button className="primary" onClick={() => void session.start()} disabled={blockers.length > 0} data-testid="study-run" title={blockers.length ? blockers[0]!.message : 'Run every case of the study block'}>
           Run study
         </button>
       ) : (

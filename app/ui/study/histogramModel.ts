@@ -161,7 +161,7 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
   let maxCount = 0;
   for (const h of hists) for (const c of [...h.counts, h.overflow]) maxCount = Math.max(maxCount, c);
   const ticks = countTicks(maxCount);
-  const top = ticks[ticks.length - 1];
+  const top = ticks[ticks.length - 1]!;
   const yOf = (v: number) => plot.bottom - (v / top) * (plot.bottom - plot.top);
   const slotX = (k: number) => plot.left + (k < nBins ? k : nBins + gap) * slotW;
   /** Boundary k of the regular bins (k = nBins is the right end of the last bin, before the gap). */
@@ -175,12 +175,12 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
       const y = yOf(count);
       const range =
         k === nBins
-          ? `${q.overflowLabel(edgeText(edges[nBins], q))}${q.key === 'settleTimeS' ? ' (not settled)' : ` ${q.unit}`}`
+          ? `${q.overflowLabel(edgeText(edges[nBins]!, q))}${q.key === 'settleTimeS' ? ' (not settled)' : ` ${q.unit}`}`
           : q.integerBins
             ? k === nBins - 1
-              ? `${edgeText(edges[k], q)}–${edgeText(edges[k + 1], q)}` // the last bin is closed: it holds both
-              : edgeText(edges[k], q)
-            : `[${edgeText(edges[k], q)}, ${edgeText(edges[k + 1], q)}${k === nBins - 1 ? ']' : ')'} ${q.unit}`;
+              ? `${edgeText(edges[k]!, q)}–${edgeText(edges[k + 1]!, q)}` // the last bin is closed: it holds both
+              : edgeText(edges[k]!, q)
+            : `[${edgeText(edges[k]!, q)}, ${edgeText(edges[k + 1]!, q)}${k === nBins - 1 ? ']' : ')'} ${q.unit}`;
       bars.push({ controller: c, bin: k, count, x, y, w: Math.max(0.5, barW - 0.4), h: plot.bottom - y, title: `${names[c] ?? `controller ${c + 1}`}: ${count} run${count === 1 ? '' : 's'} in ${range}` });
     });
   });
@@ -190,12 +190,12 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
     const stride = labelStride(nBins + 1, 10);
     for (let k = 0; k < nBins; k += stride) {
       const last = k === nBins - 1;
-      xLabels.push({ x: slotX(k) + slotW / 2, text: last ? `${edgeText(edges[k], q)}–${edgeText(edges[k + 1], q)}` : edgeText(edges[k], q) });
+      xLabels.push({ x: slotX(k) + slotW / 2, text: last ? `${edgeText(edges[k]!, q)}–${edgeText(edges[k + 1]!, q)}` : edgeText(edges[k]!, q) });
     }
   } else {
     const stride = labelStride(edges.length, 6);
-    for (let k = 0; k < edges.length; k += stride) xLabels.push({ x: edgeX(k), text: edgeText(edges[k], q) });
-    if ((edges.length - 1) % stride !== 0) xLabels.push({ x: edgeX(nBins), text: edgeText(edges[nBins], q) });
+    for (let k = 0; k < edges.length; k += stride) xLabels.push({ x: edgeX(k), text: edgeText(edges[k]!, q) });
+    if ((edges.length - 1) % stride !== 0) xLabels.push({ x: edgeX(nBins), text: edgeText(edges[nBins]!, q) });
   }
   return {
     width: size.width,
@@ -204,7 +204,7 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
     bars,
     yTicks: ticks.map((value) => ({ value, y: yOf(value) })),
     xLabels,
-    overflow: { x: slotX(nBins) + slotW / 2, text: q.overflowLabel(edgeText(edges[nBins], q)) },
+    overflow: { x: slotX(nBins) + slotW / 2, text: q.overflowLabel(edgeText(edges[nBins]!, q)) },
     separatorX: plot.left + (nBins + gap / 2) * slotW,
     maxCount,
     totals: hists.map((h) => h.counts.reduce((s, c) => s + c, 0) + h.overflow),

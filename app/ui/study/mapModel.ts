@@ -56,8 +56,8 @@ export function settleRamp(f: number): [number, number, number] {
   const x = Math.min(1, Math.max(0, Number.isFinite(f) ? f : 1)) * (RAMP.length - 1);
   const k = Math.min(RAMP.length - 2, Math.floor(x));
   const t = x - k;
-  const a = RAMP[k];
-  const b = RAMP[k + 1];
+  const a = RAMP[k]!;
+  const b = RAMP[k + 1]!;
   return [(a[0] + t * (b[0] - a[0])) / 255, (a[1] + t * (b[1] - a[1])) / 255, (a[2] + t * (b[2] - a[2])) / 255];
 }
 
@@ -67,7 +67,7 @@ export function hexToRgb(hex: string): [number, number, number] {
 }
 
 export function rgbCss(c: readonly number[]): string {
-  return `rgb(${Math.round(c[0] * 255)}, ${Math.round(c[1] * 255)}, ${Math.round(c[2] * 255)})`;
+  return `rgb(${Math.round(c[0]! * 255)}, ${Math.round(c[1]! * 255)}, ${Math.round(c[2]! * 255)})`;
 }
 
 export interface MapGeometry {

@@ -48,7 +48,7 @@ const POINT_PX = 11;
 /** Circle, latitude and meridian lines of radius r as line-segment pairs. */
 function sphereLines(r: number, latStepDeg: number, lonStepDeg: number, segments = 96): Float32Array {
   const out: number[] = [];
-  const push = (a: number[], b: number[]) => out.push(a[0], a[1], a[2], b[0], b[1], b[2]);
+  const push = (a: number[], b: number[]) => out.push(a[0]!, a[1]!, a[2]!, b[0]!, b[1]!, b[2]!);
   for (let lat = -90 + latStepDeg; lat < 90 - 1e-9; lat += latStepDeg) {
     const phi = (lat * Math.PI) / 180;
     const z = r * Math.sin(phi);
@@ -169,7 +169,7 @@ export function createOutcomeMapView(canvas: HTMLCanvasElement, opts: { width: n
     idx.forEach((i, k) => {
       pos.set(g.positions.subarray(3 * i, 3 * i + 3), 3 * k);
       // Vertex colours are linear in three.js: convert from the model's sRGB.
-      colour.setRGB(g.colours[3 * i], g.colours[3 * i + 1], g.colours[3 * i + 2], SRGBColorSpace);
+      colour.setRGB(g.colours[3 * i]!, g.colours[3 * i + 1]!, g.colours[3 * i + 2]!, SRGBColorSpace);
       col[3 * k] = colour.r;
       col[3 * k + 1] = colour.g;
       col[3 * k + 2] = colour.b;
@@ -211,7 +211,7 @@ export function createOutcomeMapView(canvas: HTMLCanvasElement, opts: { width: n
       let best = -1;
       let bestD = radiusPx * radiusPx;
       for (let i = 0; i < data.count; i++) {
-        v.set(data.positions[3 * i], data.positions[3 * i + 1], data.positions[3 * i + 2]).project(camera);
+        v.set(data.positions[3 * i]!, data.positions[3 * i + 1]!, data.positions[3 * i + 2]).project(camera);
         const d = (((v.x + 1) / 2) * width - x) ** 2 + (((1 - v.y) / 2) * height - y) ** 2;
         if (d < bestD) {
           best = i;
