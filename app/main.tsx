@@ -13,7 +13,8 @@ if (!container) throw new Error('index.html has no #root element');
 
 const app = createAppController({
   bridge: getBridge(),
-  spawnWorker: () => new Worker(new URL('./ui/worker/pipeline.worker.ts', import.meta.url), { type: 'module', name: 'pipeline' }) as unknown as WorkerLike,
+  spawnWorker: () =>
+    new Worker(new URL('./ui/worker/pipeline.worker.ts', import.meta.url), { type: 'module', name: 'pipeline' }) as unknown as WorkerLike,
   fallbackScenario: demo,
   fallbackName: 'lumen6-imaging.scenario.json',
 });

@@ -15,7 +15,14 @@ import { buildMenuTemplate } from './menu';
 import type { ScenarioValidator } from './payloads';
 import { createAppProtocolHandler } from './protocol';
 import { createRecentFiles } from './recent-files';
-import { appIndexUrl, hardenSession, hardenWebContents, mainWindowOptions, type HardenableContents, type HardenableSession } from './security';
+import {
+  appIndexUrl,
+  hardenSession,
+  hardenWebContents,
+  mainWindowOptions,
+  type HardenableContents,
+  type HardenableSession,
+} from './security';
 
 export interface ElectronModules {
   app: E.App;
@@ -71,7 +78,10 @@ export function startDesktopApp(e: ElectronModules, options: DesktopOptions): vo
 
   void app.whenReady().then(() => {
     const rendererDir = path.resolve(options.mainDir, cfg.output.rendererFromMain);
-    e.protocol.handle(cfg.protocol.scheme, createAppProtocolHandler({ rootDir: rendererDir, csp: contentSecurityPolicy, readFile: (p) => fsp.readFile(p) }));
+    e.protocol.handle(
+      cfg.protocol.scheme,
+      createAppProtocolHandler({ rootDir: rendererDir, csp: contentSecurityPolicy, readFile: (p) => fsp.readFile(p) }),
+    );
     hardenSession(e.session.defaultSession as unknown as HardenableSession, contentSecurityPolicy, log);
 
     const send = (command: MenuCommand) => win?.webContents.send(EventChannels.command, command);

@@ -11,7 +11,13 @@ import type { ExportRequest, ExportResult, FileRef, MenuCommand, NewResult, Open
 import { issue } from '../app/engine/errors';
 import { electronConfig } from '../electron.config';
 import { writeFileAtomic, type AtomicFs } from './atomic-write';
-import { checkScenarioForSave, parseScenarioText, UNTITLED_SCENARIO, withJsonExtension, type ScenarioValidator } from '../app/bridge/checks';
+import {
+  checkScenarioForSave,
+  parseScenarioText,
+  UNTITLED_SCENARIO,
+  withJsonExtension,
+  type ScenarioValidator,
+} from '../app/bridge/checks';
 import type { RecentFiles } from './recent-files';
 
 export interface Dialogs {
@@ -119,8 +125,7 @@ export class DocumentService {
 
   /** `filePath` came from the renderer: it must be on the recent list. */
   async openRecent(filePath: string): Promise<OpenResult> {
-    if (!(await this.deps.recent.has(filePath)))
-      return { status: 'failed', message: `${filePath} is not on the recent-files list` };
+    if (!(await this.deps.recent.has(filePath))) return { status: 'failed', message: `${filePath} is not on the recent-files list` };
     if (!(await this.confirmDiscard('open another scenario'))) return { status: 'cancelled' };
     const r = await this.openPath(filePath, false);
     if (r.status === 'failed') await this.deps.recent.remove(filePath);
@@ -153,7 +158,12 @@ export class DocumentService {
 
   async exportFile(request: ExportRequest): Promise<ExportResult> {
     const ext = path.extname(request.suggestedName).slice(1).toLowerCase();
-    const filters = ext ? [{ name: EXPORT_FILTER_NAMES[ext] ?? ext.toUpperCase(), extensions: [ext] }, { name: 'All files', extensions: ['*'] }] : [];
+    const filters = ext
+      ? [
+          { name: EXPORT_FILTER_NAMES[ext] ?? ext.toUpperCase(), extensions: [ext] },
+          { name: 'All files', extensions: ['*'] },
+        ]
+      : [];
     const r = await this.deps.dialogs.showSaveDialog({
       title: 'Export',
       defaultPath: path.join(this.lastExportDir ?? this.deps.documentsDir, request.suggestedName),
@@ -217,7 +227,12 @@ export class DocumentService {
       const st = await this.deps.fs.stat(filePath);
       if (!st.isFile()) return { status: 'failed', message: `${filePath} is not a file` };
       if (st.size > this.limits.scenarioBytes)
-        return { status: 'invalid', file, errors: [issue('', 'max-size', `the file is ${st.size} bytes; a scenario is at most ${this.limits.scenarioBytes}`)], warnings: [] };
+        return {
+          status: 'invalid',
+          file,
+          errors: [issue('', 'max-size', `the file is ${st.size} bytes; a scenario is at most ${this.limits.scenarioBytes}`)],
+          warnings: [],
+        };
       text = await this.deps.fs.readFile(filePath, 'utf8');
     } catch (e) {
       return { status: 'failed', message: `Could not read ${filePath}: ${message(e)}` };

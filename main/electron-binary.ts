@@ -31,7 +31,9 @@ export function locateElectronBinary(electronDir: string, fs: BinaryFs, env: Rec
   const override = env.ELECTRON_OVERRIDE_DIST_PATH;
   if (override) {
     const p = path.join(override, relative || 'electron');
-    return fs.existsSync(p) ? { ok: true, path: p } : { ok: false, message: missingBinaryMessage(`ELECTRON_OVERRIDE_DIST_PATH has no ${p}`) };
+    return fs.existsSync(p)
+      ? { ok: true, path: p }
+      : { ok: false, message: missingBinaryMessage(`ELECTRON_OVERRIDE_DIST_PATH has no ${p}`) };
   }
   if (!relative) return { ok: false, message: missingBinaryMessage('node_modules/electron/path.txt is missing') };
   const p = path.join(electronDir, 'dist', relative);

@@ -73,7 +73,11 @@ export function createRecentFiles(deps: RecentFilesDeps): RecentFiles {
 
   async function persist(files: RecentFile[]): Promise<void> {
     cache = files;
-    const body = JSON.stringify({ format: FORMAT, version: VERSION, files: files.map(({ path: p, openedAt }) => ({ path: p, openedAt })) }, null, 2);
+    const body = JSON.stringify(
+      { format: FORMAT, version: VERSION, files: files.map(({ path: p, openedAt }) => ({ path: p, openedAt })) },
+      null,
+      2,
+    );
     const r = await writeFileAtomic(deps.fs, deps.file, body + '\n');
     // The list still works for this session when the disk refuses; say so and carry on.
     if (!r.ok) log(`recent files not saved: ${r.message}`);

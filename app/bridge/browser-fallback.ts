@@ -7,7 +7,15 @@
  * Pages never see paths, so every FileRef has `path: null` and there is no recent-files list.
  */
 import type { AppInfo, ExportResult, MenuCommand, OpenResult, SaveResult, SlewsmithBridge } from './api';
-import { checkExportRequest, checkFileName, checkScenarioForSave, parseScenarioText, UNTITLED_SCENARIO, withJsonExtension, type ScenarioValidator } from './checks';
+import {
+  checkExportRequest,
+  checkFileName,
+  checkScenarioForSave,
+  parseScenarioText,
+  UNTITLED_SCENARIO,
+  withJsonExtension,
+  type ScenarioValidator,
+} from './checks';
 import { commandForChord } from './commands';
 
 export interface BrowserBridgeOptions {
@@ -118,7 +126,14 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       const file = await pickFile();
       if (!file) return { status: 'cancelled' };
       if (file.size > o.limits.scenarioBytes)
-        return { status: 'invalid', file: { path: null, name: file.name }, errors: [{ path: '', rule: 'max-size', message: `the file is ${file.size} bytes; a scenario is at most ${o.limits.scenarioBytes}` }], warnings: [] };
+        return {
+          status: 'invalid',
+          file: { path: null, name: file.name },
+          errors: [
+            { path: '', rule: 'max-size', message: `the file is ${file.size} bytes; a scenario is at most ${o.limits.scenarioBytes}` },
+          ],
+          warnings: [],
+        };
       try {
         return await openText(file.name, await file.text(), false);
       } catch (e) {
@@ -170,7 +185,13 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       return [];
     },
     async appInfo(): Promise<AppInfo> {
-      return { name: 'Slewsmith', version: o.version, shell: 'browser', platform: win.navigator.platform, versions: { userAgent: win.navigator.userAgent } };
+      return {
+        name: 'Slewsmith',
+        version: o.version,
+        shell: 'browser',
+        platform: win.navigator.platform,
+        versions: { userAgent: win.navigator.userAgent },
+      };
     },
     setDirty(d) {
       dirty = d === true;

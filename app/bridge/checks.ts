@@ -23,6 +23,7 @@ export function checkFileName(v: unknown, at: string): Issue[] {
   if (v.trim().length === 0 || v.length > MAX_FILE_NAME_CHARS)
     out.push(issue(at, 'length', `${at} must have 1 to ${MAX_FILE_NAME_CHARS} characters`));
   if (/[/\\]/.test(v)) out.push(issue(at, 'bare-name', `${at} must be a file name without folders`));
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what this rejects
   if (/[\u0000-\u001f\u007f<>:"|?*]/.test(v)) out.push(issue(at, 'characters', `${at} contains a character not allowed in file names`));
   if (/^\.+$/.test(v)) out.push(issue(at, 'bare-name', `${at} must name a file`));
   if (WINDOWS_RESERVED.test(v)) out.push(issue(at, 'reserved', `${at} is a reserved device name on Windows`));
@@ -60,7 +61,8 @@ export function checkExportRequest(v: unknown, maxBytes: number): Result<ExportR
   const r = v as Record<string, unknown>;
   const errors: Issue[] = [];
   for (const key of Object.keys(r)) {
-    if (key !== 'suggestedName' && key !== 'content') errors.push(issue(key, 'unknown-field', `${key} is not a field of an export request`));
+    if (key !== 'suggestedName' && key !== 'content')
+      errors.push(issue(key, 'unknown-field', `${key} is not a field of an export request`));
   }
   errors.push(...checkFileName(r.suggestedName, 'suggestedName'));
   const content = r.content;
@@ -86,10 +88,19 @@ export function checkScenarioForSave(v: unknown, validate: ScenarioValidator, ma
   try {
     text = JSON.stringify(v, null, 2) + '\n';
   } catch (e) {
-    return { ok: false, errors: [issue('', 'serialisable', `the scenario cannot be written as JSON: ${(e as Error).message}`)], warnings: r.warnings };
+    return {
+      ok: false,
+      errors: [issue('', 'serialisable', `the scenario cannot be written as JSON: ${(e as Error).message}`)],
+      warnings: r.warnings,
+    };
   }
   const n = utf8ByteLength(text);
-  if (n > maxBytes) return { ok: false, errors: [issue('', 'max-size', `the scenario file would be ${n} bytes; at most ${maxBytes} are allowed`)], warnings: r.warnings };
+  if (n > maxBytes)
+    return {
+      ok: false,
+      errors: [issue('', 'max-size', `the scenario file would be ${n} bytes; at most ${maxBytes} are allowed`)],
+      warnings: r.warnings,
+    };
   return { ok: true, value: { text }, warnings: r.warnings };
 }
 

@@ -15,9 +15,7 @@ export interface Issue {
   message: string;
 }
 
-export type Result<T> =
-  | { ok: true; value: T; warnings: Issue[] }
-  | { ok: false; errors: Issue[]; warnings: Issue[] };
+export type Result<T> = { ok: true; value: T; warnings: Issue[] } | { ok: false; errors: Issue[]; warnings: Issue[] };
 
 export function ok<T>(value: T, warnings: Issue[] = []): Result<T> {
   return { ok: true, value, warnings };

@@ -83,7 +83,11 @@ export function createAppController(o: AppControllerOptions): AppController {
       if (src.scenario !== s.scenario || src.excluded !== s.excludedControllerIds) return; // stale
       if (result.ok) {
         store.setOutput(result.value, src.scenario);
-        store.setPipeline({ status: 'done', errors: [], message: `${result.value.runs.length} run(s) in ${Math.round(result.value.elapsedMs)} ms` });
+        store.setPipeline({
+          status: 'done',
+          errors: [],
+          message: `${result.value.runs.length} run(s) in ${Math.round(result.value.elapsedMs)} ms`,
+        });
         clock.setRange(0, runEnd(result.value));
       } else {
         store.setPipeline({ status: 'invalid', errors: result.errors, message: 'The engine rejected the scenario' });
@@ -137,7 +141,10 @@ export function createAppController(o: AppControllerOptions): AppController {
   }
 
   function issuesText(list: readonly Issue[]): string {
-    const first = list.slice(0, 3).map((i) => `${i.path}: ${i.message}`).join('; ');
+    const first = list
+      .slice(0, 3)
+      .map((i) => `${i.path}: ${i.message}`)
+      .join('; ');
     return list.length > 3 ? `${first}; … (${list.length} problems)` : first;
   }
 

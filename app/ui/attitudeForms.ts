@@ -8,9 +8,9 @@ import type { Issue } from '../engine/errors';
 import { qConjMultiply, qCreate, qRotate, qToAxisAngle, qToEuler, type EulerSequence, type Quat } from '../engine/math/rotation';
 import { resolveAttitude } from '../engine/scenario/attitude';
 import { AttitudeSchema, type AttitudeForm } from '../engine/scenario/schema';
+import { DEG_PER_RAD } from '../engine/units';
 
 type Obj = Record<string, unknown>;
-const RAD = 180 / Math.PI;
 
 /** Round for the file: 12 significant digits, and tiny values to 0 (keeps files readable). */
 export function tidy(v: number): number {
@@ -58,19 +58,26 @@ export function attitudeInForm(q: Quat, form: AttitudeForm, previous: Quat | nul
       return { quaternion: [q[0]!, q[1]!, q[2]!, q[3]!].map(tidy) };
     case 'euler': {
       const a = qToEuler(new Float64Array(3), sequence, q);
-      return { euler: { sequence, anglesDeg: [a[0]!, a[1]!, a[2]!].map((x) => tidy(x * RAD)) } };
+      return { euler: { sequence, anglesDeg: [a[0]!, a[1]!, a[2]!].map((x) => tidy(x * DEG_PER_RAD)) } };
     }
     case 'pointing': {
       const z = qRotate(new Float64Array(3), q, [0, 0, 1]);
       const x = qRotate(new Float64Array(3), q, [1, 0, 0]);
-      return { pointing: { bodyAxis: [0, 0, 1], inertialDirection: [...z].map(tidy), bodySecondary: [1, 0, 0], inertialSecondary: [...x].map(tidy) } };
+      return {
+        pointing: {
+          bodyAxis: [0, 0, 1],
+          inertialDirection: [...z].map(tidy),
+          bodySecondary: [1, 0, 0],
+          inertialSecondary: [...x].map(tidy),
+        },
+      };
     }
     case 'relative': {
       if (!previous) return null;
       const rel = qConjMultiply(qCreate(), previous, q);
       const axis = new Float64Array(3);
       const angle = qToAxisAngle(axis, rel);
-      return { relative: { axis: [...axis].map(tidy), angleDeg: tidy(angle * RAD) } };
+      return { relative: { axis: [...axis].map(tidy), angleDeg: tidy(angle * DEG_PER_RAD) } };
     }
   }
 }

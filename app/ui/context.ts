@@ -46,10 +46,7 @@ export function useWarnings(): Issue[] {
 export function useIssuesAt(path: string): { errors: Issue[]; warnings: Issue[] } {
   const all = useAllIssues();
   const warn = useWarnings();
-  return useMemo(
-    () => ({ errors: all.filter((i) => i.path === path), warnings: warn.filter((i) => i.path === path) }),
-    [all, warn, path],
-  );
+  return useMemo(() => ({ errors: all.filter((i) => i.path === path), warnings: warn.filter((i) => i.path === path) }), [all, warn, path]);
 }
 
 /** Issues at `prefix` or below it that no field of the section shows (listed at the section). */

@@ -12,9 +12,19 @@ import { exportRun as engineExportRun, type ExportFormat } from '../engine/expor
 export type { ExportFormat } from '../engine/export/runExport';
 
 export const EXPORT_FORMATS: { value: ExportFormat; label: string; ext: string; note: string }[] = [
-  { value: 'csv', label: 'CSV', ext: 'csv', note: 'One row per sample: attitude, rates, wheel momenta and torques, logic and jump counter, with units.' },
+  {
+    value: 'csv',
+    label: 'CSV',
+    ext: 'csv',
+    note: 'One row per sample: attitude, rates, wheel momenta and torques, logic and jump counter, with units.',
+  },
   { value: 'json', label: 'JSON', ext: 'json', note: 'The run with its metrics, jumps and plan, for scripts.' },
-  { value: 'aem', label: 'CCSDS AEM', ext: 'aem', note: 'Attitude Ephemeris Message (KVN) of the attitude quaternion, one segment per maneuver segment.' },
+  {
+    value: 'aem',
+    label: 'CCSDS AEM',
+    ext: 'aem',
+    note: 'Attitude Ephemeris Message (KVN) of the attitude quaternion, one segment per maneuver segment.',
+  },
 ];
 
 export interface ExportChoice {

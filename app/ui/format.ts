@@ -2,8 +2,6 @@
  * Display units and number formatting (design.md: SI inside the engine; the UI shows degrees,
  * deg/s, mN·m, mN·m·s, converted here at the edge and nowhere else).
  */
-export const RAD_TO_DEG = 180 / Math.PI;
-export const TO_MILLI = 1e3;
 
 export const UNITS = {
   angle: 'deg',

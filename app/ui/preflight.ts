@@ -13,7 +13,6 @@ import { dedupeIssues } from '../engine/errors';
 
 export const INERTIA_PATH = 'vehicle.inertiaKgm2';
 
-
 function isMatrix3(v: unknown): v is unknown[][] {
   return Array.isArray(v) && v.length === 3 && v.every((r) => Array.isArray(r) && r.length === 3);
 }

@@ -59,8 +59,14 @@ export function slerpFlat(
   o1: number,
   alpha: number,
 ): void {
-  const ax = arr0[o0]!, ay = arr0[o0 + 1]!, az = arr0[o0 + 2]!, aw = arr0[o0 + 3]!;
-  let bx = arr1[o1]!, by = arr1[o1 + 1]!, bz = arr1[o1 + 2]!, bw = arr1[o1 + 3]!;
+  const ax = arr0[o0]!,
+    ay = arr0[o0 + 1]!,
+    az = arr0[o0 + 2]!,
+    aw = arr0[o0 + 3]!;
+  let bx = arr1[o1]!,
+    by = arr1[o1 + 1]!,
+    bz = arr1[o1 + 2]!,
+    bw = arr1[o1 + 3]!;
   if (ax * bx + ay * by + az * bz + aw * bw < 0) {
     bx = -bx;
     by = -by;
@@ -80,7 +86,10 @@ export function slerpFlat(
     s0 = 1 - alpha;
     s1 = alpha;
   }
-  let x = ax * s0 + bx * s1, y = ay * s0 + by * s1, z = az * s0 + bz * s1, w = aw * s0 + bw * s1;
+  let x = ax * s0 + bx * s1,
+    y = ay * s0 + by * s1,
+    z = az * s0 + bz * s1,
+    w = aw * s0 + bw * s1;
   const n = Math.hypot(x, y, z, w);
   if (n > 0) {
     x /= n;
@@ -103,13 +112,7 @@ const slerpScratch = new Float64Array(4);
  * Pose a body-frame object from samples i and i+1 (or any two sample indices) of a sample-major
  * quaternion channel, interpolated by `alpha` ∈ [0, 1] with `slerpFlat`. Allocation-free.
  */
-export function setObjectAttitudeInterpolated(
-  obj: Object3D,
-  q: ArrayLike<number>,
-  i0: number,
-  i1: number,
-  alpha: number,
-): Object3D {
+export function setObjectAttitudeInterpolated(obj: Object3D, q: ArrayLike<number>, i0: number, i1: number, alpha: number): Object3D {
   slerpFlat(slerpScratch, 0, q, 4 * i0, q, 4 * i1, alpha);
   return setObjectAttitude(obj, slerpScratch, 0);
 }

@@ -64,7 +64,13 @@ export class Viewport {
   constructor(kit: Kit, bus: BusModel, runs: ViewRun[], options: ViewOptions, overlay: boolean) {
     this.common = new CommonContent(kit);
     this.scene.add(this.common.group);
-    this.insetTriad = new Triad(kit, { length: SIZES.insetTriad, suffix: 'B', radius: 0.01, opacity: 0.8, labelHeight: SIZES.insetLabelHeight });
+    this.insetTriad = new Triad(kit, {
+      length: SIZES.insetTriad,
+      suffix: 'B',
+      radius: 0.01,
+      opacity: 0.8,
+      labelHeight: SIZES.insetLabelHeight,
+    });
     this.momentumScene.add(this.insetTriad);
     const scale = runs.length ? envelopeDisplayScale(runs[0]!.momentumEnvelope) : 1;
     runs.forEach((run, index) => {
@@ -86,7 +92,13 @@ export class Viewport {
         this.hud.push({ obj: lab, row: index, baseScaleX: lab.scale.x, baseScaleY: lab.scale.y });
         this.hudScene.add(lab);
       });
-      const title = kit.labels('wheel momentum, body axes', { color: '#9aa7b4', anchorX: 0, anchorY: 1, heightFraction: 0.03, screenSpace: true });
+      const title = kit.labels('wheel momentum, body axes', {
+        color: '#9aa7b4',
+        anchorX: 0,
+        anchorY: 1,
+        heightFraction: 0.03,
+        screenSpace: true,
+      });
       this.hud.push({ obj: title, row: -1, baseScaleX: title.scale.x, baseScaleY: title.scale.y });
       this.hudScene.add(title);
     }

@@ -101,7 +101,17 @@ export function parseBusModel(json: unknown): Result<BusModel> {
         const okL = list.positive(`${path}.length`, p.length);
         const axis = vec3(list, `${path}.axis`, p.axis, true);
         if (okR && okL && axis && center && color)
-          parts.push({ name: pname, shape: 'cylinder', radius: p.radius as number, length: p.length as number, axis, center, color, metalness, roughness });
+          parts.push({
+            name: pname,
+            shape: 'cylinder',
+            radius: p.radius as number,
+            length: p.length as number,
+            axis,
+            center,
+            color,
+            metalness,
+            roughness,
+          });
       } else {
         list.add(`${path}.shape`, 'enum', `${path}.shape must be "box" or "cylinder" (got ${describe(p.shape)})`);
       }

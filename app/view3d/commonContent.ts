@@ -22,6 +22,7 @@ import { cssHex, disposeTree, Triad } from './primitives';
 import { COLORS, SIZES } from './style';
 import { unitAxis } from './trailMath';
 import type { KeepOutCone } from './types';
+import { RAD_PER_DEG } from '../engine/units';
 
 /** Wire sphere as line segments: 12 meridians and parallels at ±30°, ±60° and the equator. */
 export function wireSpherePositions(radius: number, seg = 72): Float32Array {
@@ -30,7 +31,8 @@ export function wireSpherePositions(radius: number, seg = 72): Float32Array {
   for (let m = 0; m < 12; m++) {
     const lon = (m * Math.PI) / 6;
     for (let s = 0; s < seg / 2; s++) {
-      const l0 = -Math.PI / 2 + (Math.PI * s) / (seg / 2), l1 = -Math.PI / 2 + (Math.PI * (s + 1)) / (seg / 2);
+      const l0 = -Math.PI / 2 + (Math.PI * s) / (seg / 2),
+        l1 = -Math.PI / 2 + (Math.PI * (s + 1)) / (seg / 2);
       push(
         [radius * Math.cos(l0) * Math.cos(lon), radius * Math.cos(l0) * Math.sin(lon), radius * Math.sin(l0)],
         [radius * Math.cos(l1) * Math.cos(lon), radius * Math.cos(l1) * Math.sin(lon), radius * Math.sin(l1)],
@@ -38,9 +40,12 @@ export function wireSpherePositions(radius: number, seg = 72): Float32Array {
     }
   }
   for (const latDeg of [-60, -30, 0, 30, 60]) {
-    const lat = (latDeg * Math.PI) / 180, r = radius * Math.cos(lat), z = radius * Math.sin(lat);
+    const lat = latDeg * RAD_PER_DEG,
+      r = radius * Math.cos(lat),
+      z = radius * Math.sin(lat);
     for (let s = 0; s < seg; s++) {
-      const a0 = (2 * Math.PI * s) / seg, a1 = (2 * Math.PI * (s + 1)) / seg;
+      const a0 = (2 * Math.PI * s) / seg,
+        a1 = (2 * Math.PI * (s + 1)) / seg;
       push([r * Math.cos(a0), r * Math.sin(a0), z], [r * Math.cos(a1), r * Math.sin(a1), z]);
     }
   }
@@ -51,10 +56,19 @@ export function wireSpherePositions(radius: number, seg = 72): Float32Array {
  * A keep-out cone: apex at the origin, axis `dir` (unit), half angle α, out to `radius`, as a
  * triangle fan (positions 3·(1+seg), the apex first) and its rim circle on the sphere.
  */
-export function keepOutConePositions(dir: ArrayLike<number>, halfAngleRad: number, radius: number, seg = 48): { fan: Float32Array; rim: Float32Array } {
+export function keepOutConePositions(
+  dir: ArrayLike<number>,
+  halfAngleRad: number,
+  radius: number,
+  seg = 48,
+): { fan: Float32Array; rim: Float32Array } {
   // Orthonormal e1, e2 ⊥ dir.
-  const dx = dir[0]!, dy = dir[1]!, dz = dir[2]!;
-  let ex = Math.abs(dx) < 0.9 ? 1 : 0, ey = ex ? 0 : 1, ez = 0;
+  const dx = dir[0]!,
+    dy = dir[1]!,
+    dz = dir[2]!;
+  let ex = Math.abs(dx) < 0.9 ? 1 : 0,
+    ey = ex ? 0 : 1,
+    ez = 0;
   const d = ex * dx + ey * dy;
   ex -= d * dx;
   ey -= d * dy;
@@ -63,11 +77,16 @@ export function keepOutConePositions(dir: ArrayLike<number>, halfAngleRad: numbe
   ex /= ne;
   ey /= ne;
   ez /= ne;
-  const fx = dy * ez - dz * ey, fy = dz * ex - dx * ez, fz = dx * ey - dy * ex;
-  const ca = Math.cos(halfAngleRad), sa = Math.sin(halfAngleRad);
+  const fx = dy * ez - dz * ey,
+    fy = dz * ex - dx * ez,
+    fz = dx * ey - dy * ex;
+  const ca = Math.cos(halfAngleRad),
+    sa = Math.sin(halfAngleRad);
   const rim = new Float32Array(3 * seg);
   for (let s = 0; s < seg; s++) {
-    const ph = (2 * Math.PI * s) / seg, c = Math.cos(ph), sn = Math.sin(ph);
+    const ph = (2 * Math.PI * s) / seg,
+      c = Math.cos(ph),
+      sn = Math.sin(ph);
     rim[3 * s] = radius * (ca * dx + sa * (c * ex + sn * fx));
     rim[3 * s + 1] = radius * (ca * dy + sa * (c * ey + sn * fy));
     rim[3 * s + 2] = radius * (ca * dz + sa * (c * ez + sn * fz));
@@ -121,7 +140,10 @@ export class CommonContent {
       const idx: number[] = [];
       for (let s = 0; s < seg; s++) idx.push(0, 1 + s, 1 + ((s + 1) % seg));
       fg.setIndex(idx);
-      const surface = new Mesh(fg, new MeshBasicMaterial({ color: COLORS.keepOut, transparent: true, opacity: 0.1, side: DoubleSide, depthWrite: false }));
+      const surface = new Mesh(
+        fg,
+        new MeshBasicMaterial({ color: COLORS.keepOut, transparent: true, opacity: 0.1, side: DoubleSide, depthWrite: false }),
+      );
       surface.name = `keep-out:${c.label}`;
       const rg = new BufferGeometry();
       rg.setAttribute('position', new BufferAttribute(rim, 3));

@@ -72,11 +72,7 @@ export function buildEnvelopeObject(env: MomentumEnvelopeMesh, scale: number): E
  * f = |H| / capacity(H/|H|). 0 when H = 0; +∞ when H ≠ 0 and the capacity is not a positive
  * finite number (no margin can be claimed). `dirScratch` receives H/|H|.
  */
-export function momentumFraction(
-  H: ArrayLike<number>,
-  capacity: (dirBody: Float64Array) => number,
-  dirScratch: Float64Array,
-): number {
+export function momentumFraction(H: ArrayLike<number>, capacity: (dirBody: Float64Array) => number, dirScratch: Float64Array): number {
   const n = Math.hypot(H[0]!, H[1]!, H[2]!);
   if (!(n > 0)) return 0;
   dirScratch[0] = H[0]! / n;

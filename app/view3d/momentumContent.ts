@@ -80,14 +80,22 @@ export class MomentumContent {
 
   /** Pose every arrow for the sample cursor (wheel momenta linearly interpolated). No allocation. */
   update(c: SampleCursor): void {
-    const tr = this.run.trace, nW = tr.nWheels, ax = this.run.wheelAxes, h = this.h, H = this.H;
+    const tr = this.run.trace,
+      nW = tr.nWheels,
+      ax = this.run.wheelAxes,
+      h = this.h,
+      H = this.H;
     if (c.i < 0) return;
-    const b0 = nW * c.i, b1 = nW * c.i1, al = c.alpha;
+    const b0 = nW * c.i,
+      b1 = nW * c.i1,
+      al = c.alpha;
     H[0] = H[1] = H[2] = 0;
     for (let i = 0; i < nW; i++) {
       const hi = (1 - al) * tr.hWheel[b0 + i]! + al * tr.hWheel[b1 + i]!;
       h[i] = hi;
-      const x = ax[3 * i]!, y = ax[3 * i + 1]!, z = ax[3 * i + 2]!;
+      const x = ax[3 * i]!,
+        y = ax[3 * i + 1]!,
+        z = ax[3 * i + 2]!;
       H[0] += hi * x;
       H[1] += hi * y;
       H[2] += hi * z;

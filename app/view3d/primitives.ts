@@ -6,16 +6,16 @@ import {
   ConeGeometry,
   CylinderGeometry,
   Group,
-  Material,
+  type Material,
   Mesh,
   MeshBasicMaterial,
-  Object3D,
+  type Object3D,
   OctahedronGeometry,
   SphereGeometry,
   Texture,
   Vector3,
+  type BufferGeometry,
 } from 'three';
-import type { BufferGeometry } from 'three';
 import type { LabelFactory } from './labels';
 import { COLORS } from './style';
 
@@ -137,7 +137,12 @@ export class Triad extends Group {
     }
     if (kit.labels && style.tag) {
       // Row pitch 1.15 label heights: one row clears the X axis label (heightFraction 0.045).
-      const lab = kit.labels(style.tag, { color: style.tagColor ?? COLORS.label, anchorX: 0, anchorY: 0.5 + 1.15 * (style.tagRow ?? 0), heightFraction: 0.036 });
+      const lab = kit.labels(style.tag, {
+        color: style.tagColor ?? COLORS.label,
+        anchorX: 0,
+        anchorY: 0.5 + 1.15 * (style.tagRow ?? 0),
+        heightFraction: 0.036,
+      });
       lab.position.set(style.length * 1.1, 0, style.length * 0.12);
       this.add(lab);
     }

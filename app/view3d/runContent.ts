@@ -160,7 +160,8 @@ export class RunContent {
 
   /** Apply display options (not per frame: may recompute the trail for a new boresight axis). */
   applyOptions(o: ViewOptions): void {
-    const a = this.trail.axis, b = o.boresightBody;
+    const a = this.trail.axis,
+      b = o.boresightBody;
     if (a[0] !== b[0] || a[1] !== b[1] || a[2] !== b[2]) this.trail.setAxis(b);
     this.trail.setKeepOut(o.showKeepOut ? o.keepOut : NO_KEEP_OUT);
     this.trail.setVisibility(o.showTrail, o.showJumpMarkers, o.showGreatCircle, o.showKeepOut);

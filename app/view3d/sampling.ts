@@ -38,7 +38,8 @@ export function locateSample(t: ArrayLike<number>, n: number, time: number, curs
       i = i + 1;
     } else {
       // Largest i with t[i] ≤ time; invariant t[lo] ≤ time < t[hi].
-      let lo = 0, hi = n - 1;
+      let lo = 0,
+        hi = n - 1;
       while (hi - lo > 1) {
         const mid = (lo + hi) >> 1;
         if (t[mid]! <= time) lo = mid;
@@ -61,20 +62,18 @@ function setCursor(c: SampleCursor, i: number, n: number, alpha: number): Sample
  * Linear interpolation of a sample-major channel with `stride` values per sample:
  * out[oo + k] = (1−α) a[stride·i + k] + α a[stride·i1 + k], k < stride.
  */
-export function lerpChannel(
-  out: { [i: number]: number },
-  oo: number,
-  a: ArrayLike<number>,
-  stride: number,
-  c: SampleCursor,
-): void {
-  const b0 = stride * c.i, b1 = stride * c.i1, al = c.alpha, be = 1 - al;
+export function lerpChannel(out: { [i: number]: number }, oo: number, a: ArrayLike<number>, stride: number, c: SampleCursor): void {
+  const b0 = stride * c.i,
+    b1 = stride * c.i1,
+    al = c.alpha,
+    be = 1 - al;
   for (let k = 0; k < stride; k++) out[oo + k] = be * a[b0 + k]! + al * a[b1 + k]!;
 }
 
 /** Number of entries of a time-sorted list with `.t ≤ time` (binary search). */
 export function countUpTo(times: ArrayLike<number>, m: number, time: number): number {
-  let lo = 0, hi = m;
+  let lo = 0,
+    hi = m;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
     if (times[mid]! <= time) lo = mid + 1;

@@ -18,7 +18,9 @@ const sr = new Float64Array(3);
 
 /** Normalise a body axis; a zero or non-finite axis gives false and leaves `out` as is. */
 export function unitAxis(out: Float64Array, axis: ArrayLike<number>): boolean {
-  const x = axis[0]!, y = axis[1]!, z = axis[2]!;
+  const x = axis[0]!,
+    y = axis[1]!,
+    z = axis[2]!;
   const n = Math.hypot(x, y, z);
   if (!(n > 0) || !Number.isFinite(n)) return false;
   out[0] = x / n;
@@ -93,9 +95,19 @@ export function jumpMarkerDirections(out: Float64Array, jumps: readonly ViewJump
  * For antipodal ends every great circle is shortest; we rotate about X_I with its component along
  * a removed (Y_I when a is near X_I), a fixed, documented choice. Returns θ (rad).
  */
-export function greatCircleArc(out: { [i: number]: number }, oo: number, a: ArrayLike<number>, b: ArrayLike<number>, count: number): number {
-  const ax = a[0]!, ay = a[1]!, az = a[2]!;
-  let kx = ay * b[2]! - az * b[1]!, ky = az * b[0]! - ax * b[2]!, kz = ax * b[1]! - ay * b[0]!;
+export function greatCircleArc(
+  out: { [i: number]: number },
+  oo: number,
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  count: number,
+): number {
+  const ax = a[0]!,
+    ay = a[1]!,
+    az = a[2]!;
+  let kx = ay * b[2]! - az * b[1]!,
+    ky = az * b[0]! - ax * b[2]!,
+    kz = ax * b[1]! - ay * b[0]!;
   const s = Math.hypot(kx, ky, kz);
   const c = ax * b[0]! + ay * b[1]! + az * b[2]!;
   const theta = Math.atan2(s, c);
@@ -104,7 +116,8 @@ export function greatCircleArc(out: { [i: number]: number }, oo: number, a: Arra
     ky /= s;
     kz /= s;
   } else {
-    const ex = Math.abs(ax) < 0.9 ? 1 : 0, ey = ex ? 0 : 1;
+    const ex = Math.abs(ax) < 0.9 ? 1 : 0,
+      ey = ex ? 0 : 1;
     const d = ex * ax + ey * ay;
     kx = ex - d * ax;
     ky = ey - d * ay;
@@ -115,10 +128,13 @@ export function greatCircleArc(out: { [i: number]: number }, oo: number, a: Arra
     kz /= nk;
   }
   // p(φ) = a cos φ + (k × a) sin φ  (k ⊥ a)
-  const px = ky * az - kz * ay, py = kz * ax - kx * az, pz = kx * ay - ky * ax;
+  const px = ky * az - kz * ay,
+    py = kz * ax - kx * az,
+    pz = kx * ay - ky * ax;
   for (let m = 0; m < count; m++) {
     const phi = (theta * m) / (count - 1);
-    const cp = Math.cos(phi), sp = Math.sin(phi);
+    const cp = Math.cos(phi),
+      sp = Math.sin(phi);
     out[oo + 3 * m] = ax * cp + px * sp;
     out[oo + 3 * m + 1] = ay * cp + py * sp;
     out[oo + 3 * m + 2] = az * cp + pz * sp;
@@ -128,7 +144,8 @@ export function greatCircleArc(out: { [i: number]: number }, oo: number, a: Arra
 
 /** Index of the first sample with t ≥ time (n when none). */
 export function firstSampleAtOrAfter(t: ArrayLike<number>, n: number, time: number): number {
-  let lo = 0, hi = n;
+  let lo = 0,
+    hi = n;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
     if (t[mid]! < time) lo = mid + 1;

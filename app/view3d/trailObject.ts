@@ -132,7 +132,12 @@ export class TrailObject {
     this.jumpMarkers.frustumCulled = false;
     this.jumpMarkers.name = 'jump-markers';
 
-    this.arcMaterial = new LineBasicMaterial({ color: COLORS.greatCircle, transparent: true, opacity: 0.55 * style.opacity, depthWrite: false });
+    this.arcMaterial = new LineBasicMaterial({
+      color: COLORS.greatCircle,
+      transparent: true,
+      opacity: 0.55 * style.opacity,
+      depthWrite: false,
+    });
     this.arcEndMaterial = new MeshBasicMaterial({ color: COLORS.greatCircle, transparent: true, opacity: 0.8 * style.opacity });
 
     this.group.add(this.line, this.head, this.jumpMarkers, this.arcGroup, this.entryGroup);
@@ -142,7 +147,8 @@ export class TrailObject {
   /** Recompute everything that depends on the body axis (not a per-frame call). */
   setAxis(axisBody: ArrayLike<number>): void {
     if (!unitAxis(this.axis, axisBody)) return;
-    const tr = this.run.trace, R = this.style.sphereRadius;
+    const tr = this.run.trace,
+      R = this.style.sphereRadius;
     boresightPath(this.path, tr.q, tr.n, this.axis);
     (this.line.geometry.getAttribute('position') as BufferAttribute).needsUpdate = true;
     this.line.geometry.computeBoundingSphere();
@@ -163,8 +169,10 @@ export class TrailObject {
     for (const a of this.arcs) if (a) a.geometry.dispose();
     this.arcGroup.clear();
     this.arcs.length = 0;
-    const tr = this.run.trace, R = this.style.sphereRadius;
-    const mat = this.arcMaterial, endMat = this.arcEndMaterial;
+    const tr = this.run.trace,
+      R = this.style.sphereRadius;
+    const mat = this.arcMaterial,
+      endMat = this.arcEndMaterial;
     for (const tg of this.run.targets) {
       const k0 = firstSampleAtOrAfter(tr.t, tr.n, tg.tStart);
       if (k0 >= tr.n) {
@@ -239,7 +247,11 @@ export class TrailObject {
     }
     this.group.visible = true;
     this.line.geometry.setDrawRange(0, c.i + 1);
-    const p = this.path, hp = this.headPos, hc = this.headCol, col = this.colors, i3 = 3 * c.i;
+    const p = this.path,
+      hp = this.headPos,
+      hc = this.headCol,
+      col = this.colors,
+      i3 = 3 * c.i;
     qRotate(sDir, qNow, this.axis);
     hp[0] = p[i3]!;
     hp[1] = p[i3 + 1]!;

@@ -75,7 +75,9 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
   renderer.setSize(width, height, false);
 
   // Scratch for the 'match-main' inset camera (no allocation per frame).
-  const sDir = new Float64Array(3), sUp = new Float64Array(3), sOut = new Float64Array(3);
+  const sDir = new Float64Array(3),
+    sUp = new Float64Array(3),
+    sOut = new Float64Array(3);
   const sCamUp = new Vector3();
 
   function poseInset(qBody: Float64Array | null, mode: ViewOptions['momentumCamera']): void {

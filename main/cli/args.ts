@@ -17,7 +17,10 @@ export interface ParsedArgs {
   flags: Set<string>;
 }
 
-export function parseArgs(argv: readonly string[], specs: readonly OptionSpec[]): { ok: true; args: ParsedArgs } | { ok: false; message: string } {
+export function parseArgs(
+  argv: readonly string[],
+  specs: readonly OptionSpec[],
+): { ok: true; args: ParsedArgs } | { ok: false; message: string } {
   const byName = new Map(specs.map((s) => [s.name, s]));
   const out: ParsedArgs = { positional: [], values: {}, lists: {}, flags: new Set() };
   for (let i = 0; i < argv.length; i++) {
@@ -35,11 +38,18 @@ export function parseArgs(argv: readonly string[], specs: readonly OptionSpec[])
       out.flags.add(name);
       continue;
     }
-    let value: string | undefined = eq > 0 ? a.slice(eq + 1) : argv[i + 1];
+    const value: string | undefined = eq > 0 ? a.slice(eq + 1) : argv[i + 1];
     if (eq < 0) i++;
-    if (value === undefined || (eq < 0 && value.startsWith('--'))) return { ok: false, message: `--${name} needs a value (${spec.valueName ?? 'value'})` };
+    if (value === undefined || (eq < 0 && value.startsWith('--')))
+      return { ok: false, message: `--${name} needs a value (${spec.valueName ?? 'value'})` };
     if (spec.kind === 'value') out.values[name] = value;
-    else (out.lists[name] ??= []).push(...value.split(',').map((v) => v.trim()).filter(Boolean));
+    else
+      (out.lists[name] ??= []).push(
+        ...value
+          .split(',')
+          .map((v) => v.trim())
+          .filter(Boolean),
+      );
   }
   return { ok: true, args: out };
 }

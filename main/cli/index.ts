@@ -17,20 +17,17 @@ import path from 'node:path';
 import { parseArgs, optionHelp, type OptionSpec, type ParsedArgs } from './args';
 import { comparisonCsv, comparisonTable, planTable } from './format';
 import { writeFileAtomicNode } from './fs';
-import { formatIssues, type Issue } from '../../app/engine/errors';
 import { prepareScenario, runPipeline, planSummary } from '../../app/engine/pipeline/run';
 import { scenarioJsonSchema } from '../../app/engine/scenario/schema';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 import { exportRun, EXPORT_FORMATS, type ExportFormat } from '../../app/engine/export/runExport';
 import { runStudyCli } from './study';
+import { printIssues, type CliIo } from './io';
 
 export const TOOL_NAME = 'Slewsmith';
 export const TOOL_VERSION = '0.1.0';
 
-export interface CliIo {
-  out: (s: string) => void;
-  err: (s: string) => void;
-}
+export type { CliIo } from './io';
 
 type Command = {
   summary: string;
@@ -40,7 +37,12 @@ type Command = {
 };
 
 const HELP: OptionSpec = { name: 'help', kind: 'flag', help: 'show this help' };
-const CONTROLLER: OptionSpec = { name: 'controller', kind: 'list', valueName: 'id[,id]', help: 'only these controller ids (default: all in the file)' };
+const CONTROLLER: OptionSpec = {
+  name: 'controller',
+  kind: 'list',
+  valueName: 'id[,id]',
+  help: 'only these controller ids (default: all in the file)',
+};
 const MODE: OptionSpec = { name: 'mode', kind: 'value', valueName: 'profiled|direct|both', help: 'override the scenario simulation.mode' };
 const JSON_OUT: OptionSpec = { name: 'json', kind: 'flag', help: 'print JSON instead of a table' };
 
@@ -62,11 +64,6 @@ async function readScenario(file: string | undefined, io: CliIo): Promise<unknow
     io.err(`error: ${file} is not valid JSON: ${(e as Error).message}`);
     return null;
   }
-}
-
-function printIssues(io: CliIo, title: string, issues: readonly Issue[]): void {
-  io.err(`${title} (${issues.length} problem${issues.length === 1 ? '' : 's'}):`);
-  io.err(formatIssues(issues).split('\n').map((l) => `  ${l}`).join('\n'));
 }
 
 function modesOf(a: ParsedArgs, io: CliIo): ('profiled' | 'direct')[] | undefined | null {
@@ -93,7 +90,9 @@ const commands: Record<string, Command> = {
       }
       for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
       const s = p.value.scenario;
-      io.out(`${a.positional[0]}: valid. "${s.name}", ${s.vehicle.wheelCount} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`);
+      io.out(
+        `${a.positional[0]}: valid. "${s.name}", ${s.vehicle.wheelCount} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
+      );
       return 0;
     },
   },
@@ -118,7 +117,14 @@ const commands: Record<string, Command> = {
   compare: {
     summary: 'simulate every controller and print the metrics table',
     usage: 'slewsmith compare <scenario.json> [--controller id,...] [--mode profiled|direct|both] [--csv FILE] [--json-file FILE] [--json]',
-    options: [HELP, CONTROLLER, MODE, JSON_OUT, { name: 'csv', kind: 'value', valueName: 'file', help: 'also write the table as CSV' }, { name: 'json-file', kind: 'value', valueName: 'file', help: 'also write the table as JSON' }],
+    options: [
+      HELP,
+      CONTROLLER,
+      MODE,
+      JSON_OUT,
+      { name: 'csv', kind: 'value', valueName: 'file', help: 'also write the table as CSV' },
+      { name: 'json-file', kind: 'value', valueName: 'file', help: 'also write the table as JSON' },
+    ],
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);
       if (json === null) return 2;
@@ -131,9 +137,17 @@ const commands: Record<string, Command> = {
       }
       const o = r.value;
       if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, comparison: o.comparison, best: o.best }, null, 2));
-      else io.out(`Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)\n\n${comparisonTable(o.comparison, o.best)}\n\n${CAUTION_TEXT}`);
+      else
+        io.out(
+          `Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)\n\n${comparisonTable(o.comparison, o.best)}\n\n${CAUTION_TEXT}`,
+        );
       if (a.values.csv) await writeOrFail(a.values.csv, comparisonCsv(o.comparison, CAUTION_TEXT), io);
-      if (a.values['json-file']) await writeOrFail(a.values['json-file'], JSON.stringify({ caution: CAUTION_TEXT, comparison: o.comparison, best: o.best }, null, 2) + '\n', io);
+      if (a.values['json-file'])
+        await writeOrFail(
+          a.values['json-file'],
+          JSON.stringify({ caution: CAUTION_TEXT, comparison: o.comparison, best: o.best }, null, 2) + '\n',
+          io,
+        );
       const failed = o.runs.filter((x) => x.outcome.status !== 'completed');
       for (const f of failed) io.err(`run ${f.key} ended early: ${f.outcome.message}`);
       return o.plan.feasible && failed.length === 0 ? 0 : 1;
@@ -143,7 +157,9 @@ const commands: Record<string, Command> = {
     summary: 'simulate controllers and write the command timeline exports (CSV, JSON, CCSDS AEM)',
     usage: 'slewsmith fly <scenario.json> [--out DIR] [--format csv,json,aem] [--controller id,...] [--mode ...] [--rate HZ]',
     options: [
-      HELP, CONTROLLER, MODE,
+      HELP,
+      CONTROLLER,
+      MODE,
       { name: 'out', kind: 'value', valueName: 'dir', help: 'output folder (default: ./slewsmith-out)' },
       { name: 'format', kind: 'list', valueName: 'csv,json,aem', help: 'which exports (default: all three)' },
       { name: 'rate', kind: 'value', valueName: 'Hz', help: 'export sample rate (default: every control sample)' },
@@ -164,7 +180,11 @@ const commands: Record<string, Command> = {
         io.err(`error: --rate must be a positive number of samples per second (got "${a.values.rate}")`);
         return 2;
       }
-      const r = runPipeline(json, { controllers: a.lists.controller, modes, onProgress: (d, n, l) => io.err(`[${d}/${n}] simulated ${l}`) });
+      const r = runPipeline(json, {
+        controllers: a.lists.controller,
+        modes,
+        onProgress: (d, n, l) => io.err(`[${d}/${n}] simulated ${l}`),
+      });
       if (!r.ok) {
         printIssues(io, `${a.positional[0]} is not valid`, r.errors);
         return 2;
@@ -177,7 +197,11 @@ const commands: Record<string, Command> = {
       let status = r.value.plan.feasible ? 0 : 1;
       for (const run of r.value.runs) {
         for (const f of formats) {
-          const text = exportRun(f, run, r.value, loaded.value.scenario, { toolName: TOOL_NAME, toolVersion: TOOL_VERSION, sampleRateHz: rate });
+          const text = exportRun(f, run, r.value, loaded.value.scenario, {
+            toolName: TOOL_NAME,
+            toolVersion: TOOL_VERSION,
+            sampleRateHz: rate,
+          });
           const file = path.join(outDir, `${base}.${run.controllerId}.${run.mode}.${f === 'aem' ? 'aem' : f}`);
           if (!text.ok) {
             printIssues(io, `export ${file} refused`, text.errors);
@@ -219,12 +243,16 @@ const commands: Record<string, Command> = {
           continue;
         }
         io.out(`${c.label} [${c.id}]: ${k.summary}`);
-        io.out(`  δ* = ${k.deltaStar.toFixed(6)} (±${k.deltaStarTolerance.toExponential(1)}), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${k.recommendedDelta.toFixed(4)}`);
+        io.out(
+          `  δ* = ${k.deltaStar.toFixed(6)} (±${k.deltaStarTolerance.toExponential(1)}), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${k.recommendedDelta.toFixed(4)}`,
+        );
         io.out(`  diffeomorphism margin min(1 + gᵀu) = ${k.diffeomorphismMargin.toFixed(6)}`);
         const rows = k.criticalPoints.filter((cp) => cp.target > 0);
         io.out('  undesired critical points (member q, Φ critical point i, warp angle θ*, V at the point, gap μ, jump to):');
         for (const cp of rows)
-          io.out(`    q=${cp.member} i=${cp.target}  θ*=${cp.warpAngle.toFixed(6)}  V=(${cp.potentials.map((v) => v.toFixed(6)).join(', ')})  μ=${cp.gap.toFixed(6)}  → ${cp.jumpTo}`);
+          io.out(
+            `    q=${cp.member} i=${cp.target}  θ*=${cp.warpAngle.toFixed(6)}  V=(${cp.potentials.map((v) => v.toFixed(6)).join(', ')})  μ=${cp.gap.toFixed(6)}  → ${cp.jumpTo}`,
+          );
         for (const w of k.warnings) io.err(`warning: ${w.message}`);
       }
       return status;
@@ -234,13 +262,19 @@ const commands: Record<string, Command> = {
     summary: 'seeded Monte Carlo robustness study (the scenario\'s "study" block) in worker threads',
     usage: 'slewsmith study <scenario.json> [--runs N] [--workers K] [--seed S] [--controller id,...] [--out DIR] [--json] [--case INDEX]',
     options: [
-      HELP, CONTROLLER,
-      { name: 'runs', kind: 'value', valueName: 'N', help: 'number of dispersed cases (default: the file\'s study.runs)' },
+      HELP,
+      CONTROLLER,
+      { name: 'runs', kind: 'value', valueName: 'N', help: "number of dispersed cases (default: the file's study.runs)" },
       { name: 'workers', kind: 'value', valueName: 'K', help: 'worker threads (default: CPU count)' },
-      { name: 'seed', kind: 'value', valueName: 'S', help: 'study seed (default: the file\'s study.seed)' },
+      { name: 'seed', kind: 'value', valueName: 'S', help: "study seed (default: the file's study.seed)" },
       { name: 'out', kind: 'value', valueName: 'dir', help: 'write cases.csv and summary.json there' },
       JSON_OUT,
-      { name: 'case', kind: 'value', valueName: 'index', help: 'write that case as a normal scenario file (into --out, else to stdout) instead of running the study' },
+      {
+        name: 'case',
+        kind: 'value',
+        valueName: 'index',
+        help: 'write that case as a normal scenario file (into --out, else to stdout) instead of running the study',
+      },
     ],
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);

@@ -12,11 +12,10 @@ import os from 'node:os';
 import path from 'node:path';
 import { mkdir } from 'node:fs/promises';
 import type { ParsedArgs } from './args';
-import type { CliIo } from './index';
+import { printIssues, type CliIo } from './io';
 import { table } from './format';
 import { writeFileAtomicNode } from './fs';
-import { formatIssues, type Issue } from '../../app/engine/errors';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { StudyOverrides } from '../../app/engine/study/context';
 import { startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
 import type { StudyProgress } from '../../app/engine/study/runner';
@@ -24,6 +23,7 @@ import type { ControllerSummary, StudyInfo, StudySummary } from '../../app/engin
 import { casesCsv, summaryJson } from '../../app/engine/study/export';
 import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
 import { studyCaseScenario } from '../../app/engine/study/caseScenario';
+import { DEG_PER_RAD } from '../../app/engine/units';
 
 const WORKER_URL = new URL('./study-worker.mjs', import.meta.url);
 
@@ -81,7 +81,21 @@ export function studyTable(s: StudySummary): string {
     c.worst.map((w) => String(w.index)).join(' '),
   ]);
   return table(
-    ['controller', 'runs', 'settled', 'unwound', 'long way', 'chatter', 'settle med s', 'settle p95 s', 'jumps med', 'chatter med /s', 'peak h p95', 'peak τ p95', 'worst cases'],
+    [
+      'controller',
+      'runs',
+      'settled',
+      'unwound',
+      'long way',
+      'chatter',
+      'settle med s',
+      'settle p95 s',
+      'jumps med',
+      'chatter med /s',
+      'peak h p95',
+      'peak τ p95',
+      'worst cases',
+    ],
     rows,
   );
 }
@@ -90,15 +104,28 @@ function describeStudy(info: StudyInfo, s: StudySummary): string {
   const d = info.def;
   const parts: string[] = [];
   const a = d.attitude;
-  parts.push(a.mode === 'nominal' ? 'nominal start' : a.mode === 'uniform' ? 'start uniform over SO(3)' : a.mode === 'cone' ? `start within ${((a.maxAngleRad * 180) / Math.PI).toFixed(1)}° of nominal` : `start within ${((a.withinRad * 180) / Math.PI).toFixed(1)}° of a 180° error, both hemispheres`);
-  if (d.rateSigmaRadPerS > 0) parts.push(`rate 1σ ${((d.rateSigmaRadPerS * 180) / Math.PI).toPrecision(3)}°/s`);
-  if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0) parts.push(`inertia 1σ ${pct(d.inertia.momentSigmaFraction)}, axes 1σ ${((d.inertia.axisMisalignmentSigmaRad * 180) / Math.PI).toPrecision(3)}°`);
+  parts.push(
+    a.mode === 'nominal'
+      ? 'nominal start'
+      : a.mode === 'uniform'
+        ? 'start uniform over SO(3)'
+        : a.mode === 'cone'
+          ? `start within ${(a.maxAngleRad * DEG_PER_RAD).toFixed(1)}° of nominal`
+          : `start within ${(a.withinRad * DEG_PER_RAD).toFixed(1)}° of a 180° error, both hemispheres`,
+  );
+  if (d.rateSigmaRadPerS > 0) parts.push(`rate 1σ ${(d.rateSigmaRadPerS * DEG_PER_RAD).toPrecision(3)}°/s`);
+  if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0)
+    parts.push(
+      `inertia 1σ ${pct(d.inertia.momentSigmaFraction)}, axes 1σ ${(d.inertia.axisMisalignmentSigmaRad * DEG_PER_RAD).toPrecision(3)}°`,
+    );
   const w = d.wheels;
-  if (w.torqueDegradationMax > 0 || w.momentumDegradationMax > 0) parts.push(`wheels lose up to ${pct(w.torqueDegradationMax)} torque, ${pct(w.momentumDegradationMax)} momentum`);
+  if (w.torqueDegradationMax > 0 || w.momentumDegradationMax > 0)
+    parts.push(`wheels lose up to ${pct(w.torqueDegradationMax)} torque, ${pct(w.momentumDegradationMax)} momentum`);
   if (w.failOneWheelProbability > 0) parts.push(`one wheel lost with p = ${w.failOneWheelProbability}`);
   const [lo, hi] = d.sensors.attitudeNoiseScale;
   if (lo !== 1 || hi !== 1) parts.push(`attitude noise ×[${lo}, ${hi}]`);
-  if (d.sensors.rateBiasSigmaRadPerS > 0) parts.push(`extra rate bias 1σ ${((d.sensors.rateBiasSigmaRadPerS * 180) / Math.PI).toPrecision(3)}°/s`);
+  if (d.sensors.rateBiasSigmaRadPerS > 0)
+    parts.push(`extra rate bias 1σ ${(d.sensors.rateBiasSigmaRadPerS * DEG_PER_RAD).toPrecision(3)}°/s`);
   if (d.sensors.adversarialEta > 0) parts.push(`worst-case noise ē = ${d.sensors.adversarialEta}`);
   if (d.controlRateHz) parts.push(`rate from {${d.controlRateHz.join(', ')}} Hz`);
   if (d.actuation) parts.push(`actuation from {${d.actuation.join(', ')}}`);
@@ -110,11 +137,6 @@ function describeStudy(info: StudyInfo, s: StudySummary): string {
 function progressLine(p: StudyProgress): string {
   const left = p.remainingMs === null ? '' : `, ~${(p.remainingMs / 1000).toFixed(1)} s left`;
   return `study: ${p.done}/${p.total} cases (${((100 * p.done) / Math.max(1, p.total)).toFixed(0)}%), ${p.notSettled} run${p.notSettled === 1 ? '' : 's'} not settled, ${p.unflyable} unflyable, ${(p.elapsedMs / 1000).toFixed(1)} s${left}`;
-}
-
-function printIssues(io: CliIo, title: string, issues: readonly Issue[]): void {
-  io.err(`${title} (${issues.length} problem${issues.length === 1 ? '' : 's'}):`);
-  io.err(formatIssues(issues).split('\n').map((l) => `  ${l}`).join('\n'));
 }
 
 export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Promise<number> {
@@ -138,23 +160,25 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   const threads = Array.from({ length: nWorkers }, () => threadPort());
   const cancelFlag = new SharedArrayBuffer(4);
   let lastPrint = 0;
-  let info: StudyInfo | null = null;
-  const study = startStudyParallel(json, threads.map((t) => t.port), {
-    overrides,
-    cancelFlag,
-    onReady: (i, warnings) => {
-      info = i;
-      for (const w of warnings) io.err(`warning: ${w.path}: ${w.message}`);
-      io.err(`study: ${i.def.runs} cases × ${i.controllers.length} controllers on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`);
+  const study = startStudyParallel(
+    json,
+    threads.map((t) => t.port),
+    {
+      overrides,
+      cancelFlag,
+      onReady: (i, warnings) => {
+        for (const w of warnings) io.err(`warning: ${w.path}: ${w.message}`);
+        io.err(`study: ${i.def.runs} cases × ${i.controllers.length} controllers on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`);
+      },
+      onProgress: (p) => {
+        const now = Date.now();
+        if (now - lastPrint >= 1000 || p.done === p.total) {
+          lastPrint = now;
+          io.err(progressLine(p));
+        }
+      },
     },
-    onProgress: (p) => {
-      const now = Date.now();
-      if (now - lastPrint >= 1000 || p.done === p.total) {
-        lastPrint = now;
-        io.err(progressLine(p));
-      }
-    },
-  });
+  );
   let interrupted = false;
   const onSigint = () => {
     if (interrupted) return;
@@ -178,12 +202,13 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   }
   const o = r.value;
   for (const w of o.warnings) if (w.path === 'workers') io.err(`warning: ${w.message}`);
-  info = info ?? o.info;
 
   if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.records).trimEnd());
   else {
     io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}\n`);
-    io.out(`settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (write one as a scenario with --case INDEX).`);
+    io.out(
+      `settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (write one as a scenario with --case INDEX).`,
+    );
     io.out(`\n${CAUTION_TEXT}`);
   }
   const outDir = a.values.out;

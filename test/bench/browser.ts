@@ -121,16 +121,32 @@ async function waitForDone(page: Page): Promise<void> {
 
 /** `skip3d`: the 3D view's render() does nothing (isolates the software-GL frames; see editToPlots). */
 async function coldStart(browser: Browser, url: string, loads: number, skip3d: boolean): Promise<void> {
-  const painted: number[] = [], done: number[] = [], dcl: number[] = [], engine: number[] = [], post: number[] = [], reply: number[] = [];
+  const painted: number[] = [],
+    done: number[] = [],
+    dcl: number[] = [],
+    engine: number[] = [],
+    post: number[] = [],
+    reply: number[] = [];
   for (let k = 0; k < loads; k++) {
     const { context, page } = await newPage(browser, skip3d);
     await page.goto(url, { waitUntil: 'load' });
-    await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, { timeout: 120_000 });
+    await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, {
+      timeout: 120_000,
+    });
     const m = await page.evaluate(() => {
       const b = (window as unknown as { __bench: { done: number; painted: number; firstPost: number; firstReply: number } }).__bench;
       const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
-      const out = (window as unknown as { __slewsmith: { store: { getState(): { output: { elapsedMs: number } } } } }).__slewsmith.store.getState().output;
-      return { painted: b.painted, done: b.done, dcl: nav.domContentLoadedEventEnd, engine: out.elapsedMs, post: b.firstPost, reply: b.firstReply };
+      const out = (
+        window as unknown as { __slewsmith: { store: { getState(): { output: { elapsedMs: number } } } } }
+      ).__slewsmith.store.getState().output;
+      return {
+        painted: b.painted,
+        done: b.done,
+        dcl: nav.domContentLoadedEventEnd,
+        engine: out.elapsedMs,
+        post: b.firstPost,
+        reply: b.firstReply,
+      };
     });
     painted.push(m.painted);
     done.push(m.done);
@@ -168,7 +184,8 @@ interface EditTimes {
 async function armEdit(page: Page): Promise<void> {
   await page.evaluate(() => {
     type St = { pipeline: { status: string }; output: { elapsedMs: number } | null };
-    const app = (window as unknown as { __slewsmith: { store: { getState(): St; subscribe(l: (s: St, p: St) => void): () => void } } }).__slewsmith;
+    const app = (window as unknown as { __slewsmith: { store: { getState(): St; subscribe(l: (s: St, p: St) => void): () => void } } })
+      .__slewsmith;
     const store = app.store;
     const canvasOf = () => document.querySelector<HTMLCanvasElement>('.plot-card[data-plot="error-angle"] canvas');
     const checksum = (c: HTMLCanvasElement | null) => {
@@ -182,10 +199,21 @@ async function armEdit(page: Page): Promise<void> {
     const sum0 = checksum(canvasOf());
     const view = (window as unknown as { __bench: { view: { setRunsMs: number; renderMs: number; renders: number } } }).__bench.view;
     const view0 = { ...view };
-    const rec = { input: NaN, running: NaN, done: NaN, commit: NaN, painted: NaN, elapsed: NaN, setRunsMs: NaN, renderMs: NaN, renders: NaN };
+    const rec = {
+      input: NaN,
+      running: NaN,
+      done: NaN,
+      commit: NaN,
+      painted: NaN,
+      elapsed: NaN,
+      setRunsMs: NaN,
+      renderMs: NaN,
+      renders: NaN,
+    };
     const status = document.querySelector('[data-testid=run-status]')!;
     const mo = new MutationObserver(() => {
-      if (!Number.isNaN(rec.done) && Number.isNaN(rec.commit) && status.getAttribute('data-status') === 'done') rec.commit = performance.now();
+      if (!Number.isNaN(rec.done) && Number.isNaN(rec.commit) && status.getAttribute('data-status') === 'done')
+        rec.commit = performance.now();
     });
     mo.observe(status, { attributes: true, attributeFilter: ['data-status'] });
     const w = window as unknown as { __benchEdit: Promise<typeof rec> };
@@ -232,7 +260,9 @@ async function editToPlots(browser: Browser, url: string, edits: number, skip3d:
   const { context, page } = await newPage(browser);
   await page.goto(url, { waitUntil: 'load' });
   await waitForDone(page);
-  await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, { timeout: 120_000 });
+  await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, {
+    timeout: 120_000,
+  });
   await page.evaluate((skip) => ((window as unknown as { __benchSkipRender: boolean }).__benchSkipRender = skip), skip3d);
   const jxx = page.getByLabel('Jxx', { exact: true });
   const times: EditTimes[] = [];
@@ -254,7 +284,9 @@ async function editToPlots(browser: Browser, url: string, edits: number, skip3d:
   const view = times.map((t) => t.renderMs);
   const renders = times.map((t) => t.renders);
   const what = skip3d ? 'same, 3D view render() skipped' : 'edit (Jxx) → error-angle plot updated, demo with 3 controllers × 2 modes';
-  console.log(`   ${what}: median ${ms(median(total))} (max ${ms(Math.max(...total))}, ${edits} edits)${skip3d ? '' : '   [target ≤ 50 ms]'}`);
+  console.log(
+    `   ${what}: median ${ms(median(total))} (max ${ms(Math.max(...total))}, ${edits} edits)${skip3d ? '' : '   [target ≤ 50 ms]'}`,
+  );
   console.log(
     `     phases (medians): debounce of the runner ${ms(median(debounce))}; worker round trip ${ms(median(worker))} ` +
       `(engine pipeline ${ms(median(engine))}, messaging and transfer ${ms(median(worker.map((w, i) => w - engine[i]!)))}); ` +
@@ -285,23 +317,37 @@ async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<
   const measure = (keys: string[]) =>
     page.evaluate(async (keys) => {
       type Run = { key: string; trace: { n: number; t: Float64Array } };
-      const app = (window as unknown as {
-        __slewsmith: { store: { getState(): { output: { runs: Run[] } }; selectRuns(k: string[]): void }; clock: { pause(): void } };
-      }).__slewsmith;
+      const app = (
+        window as unknown as {
+          __slewsmith: { store: { getState(): { output: { runs: Run[] } }; selectRuns(k: string[]): void }; clock: { pause(): void } };
+        }
+      ).__slewsmith;
       app.clock.pause();
       app.store.selectRuns(keys);
       const raf = () => new Promise<number>((r) => requestAnimationFrame(r));
       await raf();
       await raf();
-      const v = (window as unknown as { __slewsmithView: { setTime(t: number): void; render(): void; stats: { lastUpdateMs: number }; model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView;
+      const v = (
+        window as unknown as {
+          __slewsmithView: {
+            setTime(t: number): void;
+            render(): void;
+            stats: { lastUpdateMs: number };
+            model: { viewports: { runs: unknown[] }[] };
+          };
+        }
+      ).__slewsmithView;
       const runs = app.store.getState().output.runs.filter((r) => keys.includes(r.key));
       const n = Math.min(...runs.map((r) => r.trace.n));
       const tr = runs[0]!.trace;
       const tEnd = tr.t[tr.n - 1]!;
       let seed = 12345;
-      const rand = () => ((seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 4294967296);
-      const set: number[] = [], ren: number[] = [], stat: number[] = [];
-      const frames = 240, warm = 30;
+      const rand = () => (seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 4294967296;
+      const set: number[] = [],
+        ren: number[] = [],
+        stat: number[] = [];
+      const frames = 240,
+        warm = 30;
       for (let k = 0; k < warm + frames; k++) {
         await raf();
         const j = k - warm;
@@ -348,11 +394,15 @@ export async function benchBrowser(): Promise<void> {
     // A production build in a child process (NODE_ENV=production; see test/e2e/global-setup.ts),
     // into a temporary folder so a concurrent e2e run's dist/renderer is left alone.
     const t0 = performance.now();
-    const built = spawnSync(path.join(root, 'node_modules/.bin/vite'), ['build', '--logLevel', 'error', '--outDir', outDir, '--emptyOutDir'], {
-      cwd: root,
-      env: { ...process.env, NODE_ENV: 'production' },
-      encoding: 'utf8',
-    });
+    const built = spawnSync(
+      path.join(root, 'node_modules/.bin/vite'),
+      ['build', '--logLevel', 'error', '--outDir', outDir, '--emptyOutDir'],
+      {
+        cwd: root,
+        env: { ...process.env, NODE_ENV: 'production' },
+        encoding: 'utf8',
+      },
+    );
     if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}${built.stdout}`);
     console.log(`   renderer built in ${ms(performance.now() - t0)} (vite build, production)`);
     const server = await preview({

@@ -30,18 +30,25 @@ export async function benchControl(): Promise<void> {
   const refined = best(3, () => (last = flowSetGradientCheck(fam, 0.2, { samples: 1_000_000, seed: 1 })));
   console.log(`   same with the local refinement of each member's minimum: ${refined.toFixed(0)} ms`);
   console.log(
-    `     min ‖b_q‖ sampled / refined: ${last.perMember.map((m) => `q${m.member} ${m.minGradientNorm.toFixed(4)} / ${m.refinedMinGradientNorm?.toFixed(4) ?? "n/a"}`).join(', ')}`,
+    `     min ‖b_q‖ sampled / refined: ${last.perMember.map((m) => `q${m.member} ${m.minGradientNorm.toFixed(4)} / ${m.refinedMinGradientNorm?.toFixed(4) ?? 'n/a'}`).join(', ')}`,
   );
   let cert = certifySynergistic({ family: fam, delta: 0.2 });
   const tc = best(3, () => {
     clearCertificateCache(); // time the computation, not the cache
     cert = certifySynergistic({ family: fam, delta: 0.2 });
   });
-  console.log(`   certificate (diffeomorphism, critical points, 450-start completeness, 20 000-sample flow set): ${tc.toFixed(0)} ms; δ* = ${cert.deltaStar.toFixed(6)}`);
+  console.log(
+    `   certificate (diffeomorphism, critical points, 450-start completeness, 20 000-sample flow set): ${tc.toFixed(0)} ms; δ* = ${cert.deltaStar.toFixed(6)}`,
+  );
 
-  const plant: PlantModel = { Jperp: Float64Array.of(0.11, 0.002, -0.001, 0.002, 0.12, 0.0015, -0.001, 0.0015, 0.08), nWheels: 4, axes: new Float64Array(12) };
+  const plant: PlantModel = {
+    Jperp: Float64Array.of(0.11, 0.002, -0.001, 0.002, 0.12, 0.0015, -0.001, 0.0015, 0.08),
+    nWheels: 4,
+    axes: new Float64Array(12),
+  };
   // pyramid, elevation β with sin β = 1/√3 (methods §6)
-  const cb = Math.sqrt(2 / 3), sb = 1 / Math.sqrt(3);
+  const cb = Math.sqrt(2 / 3),
+    sb = 1 / Math.sqrt(3);
   plant.axes.set([cb, 0, sb, 0, cb, sb, -cb, 0, sb, 0, -cb, sb]);
   const specs: Record<string, unknown>[] = [
     { kind: 'quaternion-pd', gains: { omegaN: 0.1, zeta: 0.9 } },

@@ -18,10 +18,11 @@ import { gyrostatDerivative } from '../../app/engine/body/gyrostat';
 import { simulateHybrid } from '../../app/engine/hybrid/index';
 import type { IntegratorOptions } from '../../app/engine/hybrid/index';
 import { pyra4, pyra4InitialState, testWheelTorque, zohWheelSystem, zohWheelSystemCompact } from '../reference/dynamics-fixtures';
+import type * as OdexModule from 'odex';
 
 // tsconfig maps the bare name 'odex' to its type declaration (test/types/odex.d.ts), and tsx
 // applies that mapping at run time too; so load the package's CommonJS file by its own path.
-const { Solver } = createRequire(import.meta.url)('odex/src/odex.js') as typeof import('odex');
+const { Solver } = createRequire(import.meta.url)('odex/src/odex.js') as typeof OdexModule;
 
 const T_END = 600;
 const TS = 0.1;
@@ -67,7 +68,8 @@ function runOdex(tol: number): { y: number[]; steps: number } {
   s.maxSteps = 100000;
   s.initialStepSize = TS;
   const held = new Float64Array(4);
-  const xs = new Float64Array(g.dim), dx = new Float64Array(g.dim);
+  const xs = new Float64Array(g.dim),
+    dx = new Float64Array(g.dim);
   const ext = new Float64Array(3);
   const f = (_t: number, y: number[]): number[] => {
     for (let i = 0; i < g.dim; i++) xs[i] = y[i]!;
@@ -114,7 +116,9 @@ export async function benchEngine(): Promise<void> {
     const integ: IntegratorOptions = { kind: 'rk4', dt: TS };
     timeIt(() => runOurs(integ, true), 20);
     const times = timeIt(() => runOurs(integ, true), 60);
-    console.log(`   (held torques carried as 4 extra states: median ${median(times).toFixed(2)} ms, min ${Math.min(...times).toFixed(2)} ms)`);
+    console.log(
+      `   (held torques carried as 4 extra states: median ${median(times).toFixed(2)} ms, min ${Math.min(...times).toFixed(2)} ms)`,
+    );
   }
   for (const stepsPerSample of [1, 2, 3]) {
     const integ: IntegratorOptions = { kind: 'rk4', dt: TS / stepsPerSample };
@@ -123,9 +127,11 @@ export async function benchEngine(): Promise<void> {
     const times = timeIt(() => runOurs(integ), 60);
     const med = median(times);
     const nSteps = N_SAMPLES * stepsPerSample;
-    console.log(`   RK4 ${stepsPerSample} step/sample (${nSteps} steps, ${N_SAMPLES} ZOH jumps): median ${med.toFixed(2)} ms ` +
-      `(min ${Math.min(...times).toFixed(2)} ms), ${(nSteps / (med / 1000) / 1e6).toFixed(2)} M RK4 steps/s, ` +
-      `end-state error ${errRk4.toExponential(2)}`);
+    console.log(
+      `   RK4 ${stepsPerSample} step/sample (${nSteps} steps, ${N_SAMPLES} ZOH jumps): median ${med.toFixed(2)} ms ` +
+        `(min ${Math.min(...times).toFixed(2)} ms), ${(nSteps / (med / 1000) / 1e6).toFixed(2)} M RK4 steps/s, ` +
+        `end-state error ${errRk4.toExponential(2)}`,
+    );
 
     // Loosest odex tolerance (half-decade grid) that is at least as accurate at the end.
     let chosen = NaN;
@@ -149,8 +155,10 @@ export async function benchEngine(): Promise<void> {
     timeIt(() => runOdex(chosen), 2);
     const oTimes = timeIt(() => runOdex(chosen), 7);
     const oMed = median(oTimes);
-    console.log(`   odex at tol ${chosen.toExponential(1)} (end-state error ${chosenErr.toExponential(2)}, ${chosenSteps} steps): ` +
-      `median ${oMed.toFixed(1)} ms → RK4 fast path is ${(oMed / med).toFixed(1)}× faster`);
+    console.log(
+      `   odex at tol ${chosen.toExponential(1)} (end-state error ${chosenErr.toExponential(2)}, ${chosenSteps} steps): ` +
+        `median ${oMed.toFixed(1)} ms → RK4 fast path is ${(oMed / med).toFixed(1)}× faster`,
+    );
   }
 }
 

@@ -34,7 +34,8 @@ function median(v: number[]): number {
  */
 async function withGcTime<T>(f: () => T): Promise<{ value: T; gcMs: number; ms: number }> {
   let gcMs = 0;
-  let t0 = 0, t1 = 0;
+  let t0 = 0,
+    t1 = 0;
   const obs = new PerformanceObserver((list) => {
     for (const e of list.getEntries()) if (e.startTime >= t0 && e.startTime <= t1) gcMs += e.duration;
   });
@@ -116,7 +117,9 @@ export async function benchPipeline(): Promise<void> {
   for (let i = 0; i < 3; i++) runPipeline(json);
 
   const REPS = 9;
-  const pipe: number[] = [], pipeGc: number[] = [], prepMs: number[] = [];
+  const pipe: number[] = [],
+    pipeGc: number[] = [],
+    prepMs: number[] = [];
   let samples = 0;
   for (let i = 0; i < REPS; i++) {
     const r = await withGcTime(() => runPipeline(json));
@@ -128,8 +131,10 @@ export async function benchPipeline(): Promise<void> {
     prepareScenario(json);
     prepMs.push(performance.now() - t0);
   }
-  console.log(`   runPipeline(demo), 3 controllers × (profiled, direct): median ${median(pipe).toFixed(1)} ms over ${REPS} ` +
-    `(GC ${median(pipeGc).toFixed(1)} ms); prepareScenario alone ${median(prepMs).toFixed(1)} ms; ${samples} trace samples in all`);
+  console.log(
+    `   runPipeline(demo), 3 controllers × (profiled, direct): median ${median(pipe).toFixed(1)} ms over ${REPS} ` +
+      `(GC ${median(pipeGc).toFixed(1)} ms); prepareScenario alone ${median(prepMs).toFixed(1)} ms; ${samples} trace samples in all`,
+  );
 
   for (const c of p.controllers) {
     for (const mode of ['profiled', 'direct'] as const) {
@@ -141,13 +146,16 @@ export async function benchPipeline(): Promise<void> {
         ts.push(performance.now() - t0);
       }
       const m = median(ts);
-      console.log(`   runOne ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, ${p.scenario.simulation.rk4StepsPerSample} RK4 step(s) each)`);
+      console.log(
+        `   runOne ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, ${p.scenario.simulation.rk4StepsPerSample} RK4 step(s) each)`,
+      );
     }
   }
 
   const cfg = longRunConfig(p);
   for (let i = 0; i < 2; i++) runClosedLoop(cfg);
-  const long: number[] = [], longGc: number[] = [];
+  const long: number[] = [],
+    longGc: number[] = [];
   let nLong = 0;
   for (let i = 0; i < REPS; i++) {
     const r = await withGcTime(() => runClosedLoop(cfg));
@@ -158,10 +166,12 @@ export async function benchPipeline(): Promise<void> {
   }
   const mLong = median(long);
   const bytes = await allocatedBytes(() => runClosedLoop(cfg));
-  console.log(`   600 s closed loop (10 Hz, 1 RK4 step per sample, hysteretic, noise on): median ${mLong.toFixed(1)} ms ` +
-    `(GC ${median(longGc).toFixed(2)} ms), ${((1000 * mLong) / nLong).toFixed(2)} µs per sample, ` +
-    `~${(bytes / nLong).toFixed(0)} B of JS heap allocated per sample (${(bytes / 1e6).toFixed(2)} MB per run; the trace's ` +
-    `typed-array storage lives outside the JS heap and is not counted)`);
+  console.log(
+    `   600 s closed loop (10 Hz, 1 RK4 step per sample, hysteretic, noise on): median ${mLong.toFixed(1)} ms ` +
+      `(GC ${median(longGc).toFixed(2)} ms), ${((1000 * mLong) / nLong).toFixed(2)} µs per sample, ` +
+      `~${(bytes / nLong).toFixed(0)} B of JS heap allocated per sample (${(bytes / 1e6).toFixed(2)} MB per run; the trace's ` +
+      `typed-array storage lives outside the JS heap and is not counted)`,
+  );
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1]!).href) await benchPipeline();

@@ -20,20 +20,28 @@ function stats(ms: number[]): string {
 export async function benchPlan(): Promise<void> {
   // Invented Lumen-6-like body; cube envelopes of an orthogonal triad (2 mN·m, 6 mN·m·s).
   const J = [0.11, 0.002, -0.001, 0.002, 0.12, 0.0015, -0.001, 0.0015, 0.08];
-  const limits: PlanLimits = { torqueCapacity: cubeCapacity(0.002), momentumCapacity: cubeCapacity(0.006), torqueMargin: 0.8, momentumMargin: 0.8 };
+  const limits: PlanLimits = {
+    torqueCapacity: cubeCapacity(0.002),
+    momentumCapacity: cubeCapacity(0.006),
+    torqueMargin: 0.8,
+    momentumMargin: 0.8,
+  };
   const rng = makeRng(42, 0);
   for (const stored of [false, true]) {
     const ms: number[] = [];
     let infeasible = 0;
     for (let k = 0; k < 100; k++) {
-      const q0 = qRandomUniform(qCreate(), rng), q1 = qRandomUniform(qCreate(), rng);
+      const q0 = qRandomUniform(qCreate(), rng),
+        q1 = qRandomUniform(qCreate(), rng);
       const h = stored ? [rng.normal() * 0.0008, rng.normal() * 0.0008, rng.normal() * 0.0008] : [0, 0, 0];
       const t0 = performance.now();
       const r = planSegment({ qStart: q0, qTarget: q1, inertia: J, wheelMomentumBody: h }, limits);
       ms.push(performance.now() - t0);
       if (r.ok && !r.value.feasible) infeasible++;
     }
-    console.log(`   planSegment, ${stored ? 'stored momentum (sampled search)' : 'H = 0 (closed form)'}: ${stats(ms)}; ${infeasible} infeasible`);
+    console.log(
+      `   planSegment, ${stored ? 'stored momentum (sampled search)' : 'H = 0 (closed form)'}: ${stats(ms)}; ${infeasible} infeasible`,
+    );
   }
   const seq = planSequence(
     {
@@ -45,8 +53,11 @@ export async function benchPlan(): Promise<void> {
     limits,
   );
   if (seq.ok) {
-    const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
-    const n = 1_000_000, T = seq.value.totalS;
+    const q = new Float64Array(4),
+      w = new Float64Array(3),
+      wd = new Float64Array(3);
+    const n = 1_000_000,
+      T = seq.value.totalS;
     const t0 = performance.now();
     for (let i = 0; i < n; i++) evaluateReference(seq.value, (T * i) / n, q, w, wd);
     const dt = performance.now() - t0;

@@ -37,7 +37,9 @@ export async function benchStudy(): Promise<void> {
   const cases = SLEWS / nLaws;
 
   const load = () => os.loadavg()[0]!.toFixed(1);
-  console.log(`   machine: ${os.cpus().length} cores, 1-min load average ${load()} at start (other jobs on the machine inflate every figure)`);
+  console.log(
+    `   machine: ${os.cpus().length} cores, 1-min load average ${load()} at start (other jobs on the machine inflate every figure)`,
+  );
 
   // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop), median of 9.
   const single = JSON.parse(JSON.stringify(json));
@@ -58,7 +60,9 @@ export async function benchStudy(): Promise<void> {
     singles.push(performance.now() - t);
   }
   const singleMs = median(singles);
-  console.log(`   single run (pipeline runOne, hysteretic, ${samples} samples = 600 s at 10 Hz, no early stop): ${ms(singleMs)} (median of 9)`);
+  console.log(
+    `   single run (pipeline runOne, hysteretic, ${samples} samples = 600 s at 10 Hz, no early stop): ${ms(singleMs)} (median of 9)`,
+  );
 
   // 2. In-thread cost per case over every 20th case of the study (a fair sample of its mix).
   const c = makeStudyContext(json);
@@ -66,10 +70,15 @@ export async function benchStudy(): Promise<void> {
   const ctx = c.value;
   const probe = Array.from({ length: 100 }, (_, k) => 20 * k);
   for (let i = 0; i < 3; i++) runCase(ctx, probe[i]!); // warm up
-  let t0 = performance.now();
+  const t0 = performance.now();
   for (const i of probe) runCase(ctx, i);
   const perCase = (performance.now() - t0) / probe.length;
-  let tDraw = 0, tFly = 0, tMetrics = 0, simS = 0, nRuns = 0, nSamples = 0;
+  let tDraw = 0,
+    tFly = 0,
+    tMetrics = 0,
+    simS = 0,
+    nRuns = 0,
+    nSamples = 0;
   for (const i of probe.slice(0, 30)) {
     let a = performance.now();
     const d = drawCase(ctx.def, ctx.nominal, i);
@@ -83,8 +92,12 @@ export async function benchStudy(): Promise<void> {
       tFly += performance.now() - a;
       a = performance.now();
       computeMetrics(f.res.trace, f.res.jumps, {
-        settleAngleRad: 1e-3, settleRateRadPerS: 1e-4, chatterWindowS: 10, maxTorqueNm: v.value.wheels.maxTorqueNm,
-        maxMomentumNms: v.value.wheels.maxMomentumNms, segmentTargets: ctx.target,
+        settleAngleRad: 1e-3,
+        settleRateRadPerS: 1e-4,
+        chatterWindowS: 10,
+        maxTorqueNm: v.value.wheels.maxTorqueNm,
+        maxMomentumNms: v.value.wheels.maxMomentumNms,
+        segmentTargets: ctx.target,
       });
       tMetrics += performance.now() - a;
       simS += f.res.trace.t[f.res.trace.n - 1]!;
@@ -93,22 +106,31 @@ export async function benchStudy(): Promise<void> {
     }
   }
   const perSlew = perCase / nLaws;
-  console.log(`   in one thread: ${ms(perCase)} per case (${nLaws} laws) = ${ms(perSlew)} per slew; early stop leaves ${(simS / nRuns).toFixed(0)} of 600 simulated s per slew on average`);
-  const flyPer = tFly / nRuns, metPer = tMetrics / nRuns;
+  console.log(
+    `   in one thread: ${ms(perCase)} per case (${nLaws} laws) = ${ms(perSlew)} per slew; early stop leaves ${(simS / nRuns).toFixed(0)} of 600 simulated s per slew on average`,
+  );
+  const flyPer = tFly / nRuns,
+    metPer = tMetrics / nRuns;
   const samplesPer = nSamples / nRuns; // the study draws 5 or 10 Hz per case
-  console.log(`   per slew: closed loop ${ms(flyPer - metPer)} (≈ ${((1e3 * (flyPer - metPer)) / samplesPer).toFixed(1)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / 30 / nLaws)}`);
+  console.log(
+    `   per slew: closed loop ${ms(flyPer - metPer)} (≈ ${((1e3 * (flyPer - metPer)) / samplesPer).toFixed(1)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / 30 / nLaws)}`,
+  );
 
   // 3. Two worker threads, 10,000 slews.
   const threads = [threadPort(), threadPort()];
   const cpu0 = process.cpuUsage();
   const tStart = performance.now();
   let tReady = 0;
-  const study = startStudyParallel(json, threads.map((t) => t.port), {
-    chunkSize: 8,
-    onReady: () => {
-      if (!tReady) tReady = performance.now();
+  const study = startStudyParallel(
+    json,
+    threads.map((t) => t.port),
+    {
+      chunkSize: 8,
+      onReady: () => {
+        if (!tReady) tReady = performance.now();
+      },
     },
-  });
+  );
   const r = await study.result;
   const wall = performance.now() - tStart;
   const cpu = process.cpuUsage(cpu0);
@@ -116,13 +138,23 @@ export async function benchStudy(): Promise<void> {
   if (!r.ok) throw new Error('parallel study refused');
   const compute = wall - (tReady - tStart);
   const ideal = (perCase * cases) / 2;
-  console.log(`   2 worker threads, ${cases} cases × ${nLaws} laws = ${SLEWS} slews: ${(wall / 1e3).toFixed(1)} s wall (target ≤ 10 s), of which ${((tReady - tStart) / 1e3).toFixed(1)} s worker start-up (tsx + study context)`);
-  console.log(`   parallel efficiency = in-thread estimate / 2 / parallel compute time = ${(ideal / 1e3).toFixed(1)} s / ${(compute / 1e3).toFixed(1)} s = ${((100 * ideal) / compute).toFixed(0)} %; CPU used ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s of ${((2 * wall) / 1e3).toFixed(1)} s available on 2 cores; load average ${load()} at the end`);
+  console.log(
+    `   2 worker threads, ${cases} cases × ${nLaws} laws = ${SLEWS} slews: ${(wall / 1e3).toFixed(1)} s wall (target ≤ 10 s), of which ${((tReady - tStart) / 1e3).toFixed(1)} s worker start-up (tsx + study context)`,
+  );
+  console.log(
+    `   parallel efficiency = in-thread estimate / 2 / parallel compute time = ${(ideal / 1e3).toFixed(1)} s / ${(compute / 1e3).toFixed(1)} s = ${((100 * ideal) / compute).toFixed(0)} %; CPU used ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s of ${((2 * wall) / 1e3).toFixed(1)} s available on 2 cores; load average ${load()} at the end`,
+  );
   const cpuS = (cpu.user + cpu.system) / 1e6;
-  console.log(`   CPU per slew in the parallel run: ${((1e3 * cpuS) / SLEWS).toFixed(2)} ms → on 2 otherwise idle cores about ${(cpuS / 2 + (tReady - tStart) / 1e3).toFixed(1)} s for the ${SLEWS} slews (CPU / 2 + start-up)`);
-  console.log(`   single 600 s run / study slew (early stop): ${(singleMs / perSlew).toFixed(1)}×; ${(compute / SLEWS).toFixed(2)} ms wall per slew in the parallel run`);
+  console.log(
+    `   CPU per slew in the parallel run: ${((1e3 * cpuS) / SLEWS).toFixed(2)} ms → on 2 otherwise idle cores about ${(cpuS / 2 + (tReady - tStart) / 1e3).toFixed(1)} s for the ${SLEWS} slews (CPU / 2 + start-up)`,
+  );
+  console.log(
+    `   single 600 s run / study slew (early stop): ${(singleMs / perSlew).toFixed(1)}×; ${(compute / SLEWS).toFixed(2)} ms wall per slew in the parallel run`,
+  );
   const sm = r.value.summary;
-  console.log(`   study outcome: ${sm.casesDone} cases; settled share per law: ${sm.controllers.map((x) => `${x.controllerId} ${(100 * x.settledShare).toFixed(1)} %`).join(', ')}`);
+  console.log(
+    `   study outcome: ${sm.casesDone} cases; settled share per law: ${sm.controllers.map((x) => `${x.controllerId} ${(100 * x.settledShare).toFixed(1)} %`).join(', ')}`,
+  );
 }
 
 function median(xs: number[]): number {

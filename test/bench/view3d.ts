@@ -72,7 +72,8 @@ export async function benchView3d(): Promise<void> {
     // Warm-up, then two access patterns: playback (small forward steps) and random scrubbing.
     for (let k = 0; k < 2000; k++) scene.setTime(rng.next() * tEnd);
     const m = 5000;
-    const play = new Float64Array(m), scrub = new Float64Array(m);
+    const play = new Float64Array(m),
+      scrub = new Float64Array(m);
     for (let k = 0; k < m; k++) {
       scene.setTime((k * 0.0167 * 10) % tEnd);
       play[k] = scene.stats.lastUpdateMs;

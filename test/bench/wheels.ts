@@ -47,13 +47,17 @@ export async function benchWheels(): Promise<void> {
     const n = arr.n;
     const tau = Array.from({ length: N }, () => [rng.normal() * 0.002, rng.normal() * 0.002, rng.normal() * 0.002]);
     // Momenta with about a third of the wheels at or past their limit, so the LP path runs.
-    const h = Array.from({ length: N }, () => Array.from({ length: n }, () => (rng.next() < 0.3 ? 1.05 : rng.next()) * 0.006 * (rng.next() < 0.5 ? -1 : 1)));
-    const out = new Float64Array(n), cmd = new Float64Array(n);
+    const h = Array.from({ length: N }, () =>
+      Array.from({ length: n }, () => (rng.next() < 0.3 ? 1.05 : rng.next()) * 0.006 * (rng.next() < 0.5 ? -1 : 1)),
+    );
+    const out = new Float64Array(n),
+      cmd = new Float64Array(n);
     const info = createLimitInfo();
     console.log(` ${name} (${n} wheels)`);
     perCall('allocateMinNorm', 200_000, (k) => allocateMinNorm(out, arr, tau[k % N]!));
     perCall('allocateMinMax', 50_000, (k) => allocateMinMax(out, arr, tau[k % N]!));
-    let nullSpace = 0, scaled = 0;
+    let nullSpace = 0,
+      scaled = 0;
     perCall('limitWheelTorque (instantaneous, saturated wheels)', 20_000, (k) => {
       allocateMinMax(cmd, arr, tau[k % N]!);
       limitWheelTorque(out, arr, cmd, h[k % N]!, info);

@@ -74,7 +74,9 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
 
   it('loads the demo scenario under the caution strip and runs it', async () => {
     const strip = page.getByTestId('caution-strip');
-    expect(await strip.textContent()).toContain('Planning aid, not flight software — verify in your own simulations and reviews before any flight use.');
+    expect(await strip.textContent()).toContain(
+      'Planning aid, not flight software — verify in your own simulations and reviews before any flight use.',
+    );
     expect((await strip.boundingBox())?.y).toBe(0);
     expect(await page.getByTestId('document-name').textContent()).toContain('Lumen-6 imaging pass');
     expect(await page.getByTestId('plan-summary').textContent()).toContain('Image 1');
@@ -91,7 +93,8 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
 
   it('draws every plot with data, the hybrid ones once a hybrid run is the detailed one', async () => {
     let painted = await paintedPlots(page);
-    for (const id of ['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'lyapunov']) expect(painted[id], id).toBeGreaterThan(200);
+    for (const id of ['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'lyapunov'])
+      expect(painted[id], id).toBeGreaterThan(200);
     // The first run is the smooth PD law: no logic variable, said in words rather than an empty chart.
     expect(await page.getByTestId('plot-logic').textContent()).toMatch(/smooth law/);
 
@@ -157,7 +160,9 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
   it('compares the two controllers left ticked', async () => {
     await page.getByTestId('compare-hysteretic').uncheck();
     await waitForRun(page);
-    await expect.poll(async () => (await runColumns(page)).sort()).toEqual(['pd:direct', 'pd:profiled', 'synergistic:direct', 'synergistic:profiled']);
+    await expect
+      .poll(async () => (await runColumns(page)).sort())
+      .toEqual(['pd:direct', 'pd:profiled', 'synergistic:direct', 'synergistic:profiled']);
     const labels = await page.locator('[data-testid=comparison] th[data-run] .run-name').allTextContents();
     expect(labels.some((l) => l.includes('Quaternion PD'))).toBe(true);
     expect(labels.some((l) => l.includes('Synergistic'))).toBe(true);
@@ -294,7 +299,11 @@ describe.skipIf(skipBrowser)('files through the browser bridge (Chromium)', () =
     await expect.poll(() => page.getByTestId('document-name').textContent()).toContain(expected.name);
     await waitForRun(page);
     const runs = await runColumns(page);
-    for (const c of expected.controllers) expect(runs.some((k) => k.startsWith(`${c.id}:`)), c.id).toBe(true);
+    for (const c of expected.controllers)
+      expect(
+        runs.some((k) => k.startsWith(`${c.id}:`)),
+        c.id,
+      ).toBe(true);
     // A freshly opened document has no history.
     expect(await page.getByTestId('cmd-undo').isDisabled()).toBe(true);
     await shot(page, 'opened-tern12');

@@ -48,7 +48,9 @@ describe.skipIf(skipBrowser)('browser fallback bridge (Chromium)', () => {
     w = await watchedPage(browser);
     page = w.page;
     const html = `<!doctype html><html><head><meta charset="utf-8"><meta http-equiv="Content-Security-Policy" content="${contentSecurityPolicy}"><title>bridge</title></head><body><input id="field"><script type="module" src="./bridge.js"></script></body></html>`;
-    await page.route(appUrl('__bridge__/index.html'), (r) => r.fulfill({ body: html, contentType: 'text/html', headers: { 'Content-Security-Policy': contentSecurityPolicy } }));
+    await page.route(appUrl('__bridge__/index.html'), (r) =>
+      r.fulfill({ body: html, contentType: 'text/html', headers: { 'Content-Security-Policy': contentSecurityPolicy } }),
+    );
     await page.route(appUrl('__bridge__/bridge.js'), (r) => r.fulfill({ body: code, contentType: 'text/javascript' }));
     await page.goto(appUrl('__bridge__/index.html'));
     await page.locator('body[data-ready="yes"]').waitFor();
@@ -118,17 +120,23 @@ describe.skipIf(skipBrowser)('browser fallback bridge (Chromium)', () => {
 
   it('exports text and bytes as downloads with the suggested name; bad requests download nothing', async () => {
     const dl = page.waitForEvent('download');
-    const r = await page.evaluate(() => (window as unknown as W).__bridge.exportFile({ suggestedName: 'lumen6.csv', content: 't,angle\n0,1.5\n' }));
+    const r = await page.evaluate(() =>
+      (window as unknown as W).__bridge.exportFile({ suggestedName: 'lumen6.csv', content: 't,angle\n0,1.5\n' }),
+    );
     expect(r).toEqual({ status: 'exported', file: { path: null, name: 'lumen6.csv' } });
     const d = await dl;
     expect(d.suggestedFilename()).toBe('lumen6.csv');
     expect(await downloadText(d)).toBe('t,angle\n0,1.5\n');
 
     const dl2 = page.waitForEvent('download');
-    await page.evaluate(() => (window as unknown as W).__bridge.exportFile({ suggestedName: 'b.bin', content: new Uint8Array([0, 255, 7]) }));
+    await page.evaluate(() =>
+      (window as unknown as W).__bridge.exportFile({ suggestedName: 'b.bin', content: new Uint8Array([0, 255, 7]) }),
+    );
     expect([...fs.readFileSync((await (await dl2).path())!)]).toEqual([0, 255, 7]);
 
-    const bad = await page.evaluate(() => (window as unknown as W).__bridge.exportFile({ suggestedName: '../x.csv', content: 'y'.repeat(2000) }));
+    const bad = await page.evaluate(() =>
+      (window as unknown as W).__bridge.exportFile({ suggestedName: '../x.csv', content: 'y'.repeat(2000) }),
+    );
     expect(bad.status).toBe('invalid');
     if (bad.status === 'invalid') expect(bad.errors.map((e) => e.rule).sort()).toEqual(['bare-name', 'max-size']);
   });

@@ -87,7 +87,8 @@ describe.skipIf(skipBrowser)('renderer smoke (Chromium)', () => {
     // tag both carry the CSP, so two reports each (eval: script-src, inline: script-src-elem).
     await w.page.waitForFunction(() => (window as unknown as { __slewsmithCsp: unknown[] }).__slewsmithCsp.length >= 6);
     const v = await w.cspViolations();
-    const count = (directive: string, blockedURI: string) => v.filter((x) => x.directive === directive && x.blockedURI === blockedURI).length;
+    const count = (directive: string, blockedURI: string) =>
+      v.filter((x) => x.directive === directive && x.blockedURI === blockedURI).length;
     expect(count('script-src', 'eval')).toBe(4);
     expect(count('script-src-elem', 'inline')).toBe(2);
     expect(v).toHaveLength(6);

@@ -35,7 +35,11 @@ async function waitForRun(page: Page): Promise<void> {
 
 const phase = (page: Page) => page.getByTestId('study-phase').getAttribute('data-phase');
 const scenarioStudy = (page: Page) =>
-  page.evaluate(() => (window as unknown as { __slewsmith: { store: { getState(): { scenario: { study?: unknown } } } } }).__slewsmith.store.getState().scenario.study);
+  page.evaluate(
+    () =>
+      (window as unknown as { __slewsmith: { store: { getState(): { scenario: { study?: unknown } } } } }).__slewsmith.store.getState()
+        .scenario.study,
+  );
 
 async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
   const [d] = await Promise.all([page.waitForEvent('download'), page.getByTestId(testId).click()]);
@@ -49,16 +53,24 @@ function csvData(text: string): { head: string[]; rows: string[][] } {
 
 /** Per histogram: data-totals (runs drawn per controller) and the sum of the bar counts per controller. */
 async function histograms(page: Page) {
-  return page.getByTestId('study-histograms').locator('figure').evaluateAll((figs) =>
-    figs.map((f) => {
-      const sums: Record<string, number> = {};
-      for (const r of Array.from(f.querySelectorAll('rect.bar'))) {
-        const c = r.getAttribute('data-controller') ?? '?';
-        sums[c] = (sums[c] ?? 0) + Number(r.getAttribute('data-count'));
-      }
-      return { id: f.getAttribute('data-testid'), totals: f.getAttribute('data-totals'), bars: f.querySelectorAll('rect.bar').length, sums };
-    }),
-  );
+  return page
+    .getByTestId('study-histograms')
+    .locator('figure')
+    .evaluateAll((figs) =>
+      figs.map((f) => {
+        const sums: Record<string, number> = {};
+        for (const r of Array.from(f.querySelectorAll('rect.bar'))) {
+          const c = r.getAttribute('data-controller') ?? '?';
+          sums[c] = (sums[c] ?? 0) + Number(r.getAttribute('data-count'));
+        }
+        return {
+          id: f.getAttribute('data-testid'),
+          totals: f.getAttribute('data-totals'),
+          bars: f.querySelectorAll('rect.bar').length,
+          sums,
+        };
+      }),
+    );
 }
 
 /** The map canvas as RGBA bytes (the renderer keeps its drawing buffer for this). */
@@ -116,7 +128,9 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     expect(await page.getByTestId('study-run').isDisabled()).toBe(true);
     expect(await page.getByTestId('study-blockers').locator('[data-path="study.dispersions.sensors.adversarialEta"]').count()).toBe(1);
     await page.locator('input[data-path="study.dispersions.sensors.adversarialEta"]').fill('');
-    await expect.poll(() => scenarioStudy(page)).toEqual({ runs: 24, seed: 20300314, dispersions: { initialAttitude: { mode: 'uniform' } } });
+    await expect
+      .poll(() => scenarioStudy(page))
+      .toEqual({ runs: 24, seed: 20300314, dispersions: { initialAttitude: { mode: 'uniform' } } });
     expect(await page.getByTestId('study-run').isDisabled()).toBe(false);
   });
 
@@ -130,7 +144,8 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
 
     // The demo's three controllers, one row each in the shares table.
     expect(await page.getByTestId('study-shares').locator('tbody tr').count()).toBe(3);
-    for (const id of ['pd', 'hysteretic', 'synergistic']) expect(await page.getByTestId(`share-unsettled-${id}`).textContent()).toMatch(/%$/);
+    for (const id of ['pd', 'hysteretic', 'synergistic'])
+      expect(await page.getByTestId(`share-unsettled-${id}`).textContent()).toMatch(/%$/);
 
     const hs = await histograms(page);
     expect(hs.map((h) => h.id)).toEqual([
@@ -160,7 +175,9 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     await page.waitForTimeout(200);
     const after = await mapPixels(page);
     let changed = 0;
-    for (let i = 0; i < after.length; i += 4) if (Math.abs(after[i]! - before[i]!) + Math.abs(after[i + 1]! - before[i + 1]!) + Math.abs(after[i + 2]! - before[i + 2]!) > 60) changed++;
+    for (let i = 0; i < after.length; i += 4)
+      if (Math.abs(after[i]! - before[i]!) + Math.abs(after[i + 1]! - before[i + 1]!) + Math.abs(after[i + 2]! - before[i + 2]!) > 60)
+        changed++;
     expect(changed).toBeGreaterThan(24 * 20);
     await page.getByTestId('map-colour').selectOption('settle');
     // Results widened (setup hidden): map and worst cases, then the histograms.
@@ -214,7 +231,9 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     expect(await page.getByTestId('study-workspace').count()).toBe(0);
     await expect.poll(() => page.getByTestId('document-name').textContent()).toContain(`study case ${index}`);
     await waitForRun(page);
-    const runs = await page.locator('[data-testid=comparison] th[data-run]').evaluateAll((ths) => ths.map((t) => (t as HTMLElement).dataset.run));
+    const runs = await page
+      .locator('[data-testid=comparison] th[data-run]')
+      .evaluateAll((ths) => ths.map((t) => (t as HTMLElement).dataset.run));
     expect(runs).toEqual(['hysteretic:direct']);
     expect(await page.getByTestId('compare-pd').isChecked()).toBe(false);
     expect(await page.getByTestId('compare-hysteretic').isChecked()).toBe(true);
@@ -222,12 +241,17 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     // The error-angle plot draws the case's run (coloured pixels on its canvas).
     await page.getByTestId('plot-error-angle').locator('canvas').first().waitFor();
     await page.waitForTimeout(300);
-    const painted = await page.getByTestId('plot-error-angle').locator('canvas').first().evaluate((c: HTMLCanvasElement) => {
-      const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
-      let n = 0;
-      for (let i = 0; i < d.length; i += 4) if (d[i + 3]! > 128 && Math.max(d[i]!, d[i + 1]!, d[i + 2]!) - Math.min(d[i]!, d[i + 1]!, d[i + 2]!) > 60) n++;
-      return n;
-    });
+    const painted = await page
+      .getByTestId('plot-error-angle')
+      .locator('canvas')
+      .first()
+      .evaluate((c: HTMLCanvasElement) => {
+        const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
+        let n = 0;
+        for (let i = 0; i < d.length; i += 4)
+          if (d[i + 3]! > 128 && Math.max(d[i]!, d[i + 1]!, d[i + 2]!) - Math.min(d[i]!, d[i + 1]!, d[i + 2]!) > 60) n++;
+        return n;
+      });
     expect(painted).toBeGreaterThan(200);
     // Back in the study view the results are still there, marked as for another scenario.
     await page.getByTestId('cmd-study').click();
@@ -249,7 +273,9 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     await page.getByTestId('study-workers').selectOption('auto');
     await page.getByTestId('study-run').click();
     const bar = page.getByTestId('study-progress');
-    await expect.poll(async () => Number(await bar.getAttribute('data-done')), { timeout: 120_000, interval: 100 }).toBeGreaterThanOrEqual(16);
+    await expect
+      .poll(async () => Number(await bar.getAttribute('data-done')), { timeout: 120_000, interval: 100 })
+      .toBeGreaterThanOrEqual(16);
     expect(await phase(page)).toBe('running');
     await page.waitForTimeout(300); // let the live results catch up for the picture
     await shot(page, 'study-running');

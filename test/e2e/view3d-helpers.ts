@@ -57,11 +57,14 @@ export async function snapshot(page: Page, name: string, probes: Record<string, 
       const near: Record<string, number> = Object.fromEntries(cols.map(([key]) => [key, 0]));
       let painted = 0;
       for (let i = 0; i < d.length; i += 4) {
-        const r = d[i]!, g = d[i + 1]!, b = d[i + 2]!;
+        const r = d[i]!,
+          g = d[i + 1]!,
+          b = d[i + 2]!;
         let bg = false;
         for (const [br, bgc, bb] of backgrounds) if (Math.abs(r - br) <= 8 && Math.abs(g - bgc) <= 8 && Math.abs(b - bb) <= 8) bg = true;
         if (!bg) painted++;
-        for (const [key, cr, cg, cb] of cols) if (Math.abs(r - cr) <= tol && Math.abs(g - cg) <= tol && Math.abs(b - cb) <= tol) near[key]!++;
+        for (const [key, cr, cg, cb] of cols)
+          if (Math.abs(r - cr) <= tol && Math.abs(g - cg) <= tol && Math.abs(b - cb) <= tol) near[key]!++;
       }
       return { width: k.width, height: k.height, painted, near };
     },
@@ -82,15 +85,19 @@ export async function pixelDiff(page: Page, a: string, b: string, box?: Box, tol
   return page.evaluate(
     ({ a, b, box, tol }) => {
       const shots = (window as unknown as { __v3dShots: Record<string, { w: number; h: number; d: Uint8ClampedArray }> }).__v3dShots;
-      const A = shots[a], B = shots[b];
+      const A = shots[a],
+        B = shots[b];
       if (!A || !B || A.w !== B.w || A.h !== B.h) throw new Error(`snapshots ${a} and ${b} missing or of different sizes`);
-      const x0 = Math.max(0, Math.floor(box?.x0 ?? 0)), x1 = Math.min(A.w, Math.ceil(box?.x1 ?? A.w));
-      const y0 = Math.max(0, Math.floor(box?.y0 ?? 0)), y1 = Math.min(A.h, Math.ceil(box?.y1 ?? A.h));
+      const x0 = Math.max(0, Math.floor(box?.x0 ?? 0)),
+        x1 = Math.min(A.w, Math.ceil(box?.x1 ?? A.w));
+      const y0 = Math.max(0, Math.floor(box?.y0 ?? 0)),
+        y1 = Math.min(A.h, Math.ceil(box?.y1 ?? A.h));
       let n = 0;
       for (let y = y0; y < y1; y++)
         for (let x = x0; x < x1; x++) {
           const i = 4 * (y * A.w + x);
-          if (Math.abs(A.d[i]! - B.d[i]!) > tol || Math.abs(A.d[i + 1]! - B.d[i + 1]!) > tol || Math.abs(A.d[i + 2]! - B.d[i + 2]!) > tol) n++;
+          if (Math.abs(A.d[i]! - B.d[i]!) > tol || Math.abs(A.d[i + 1]! - B.d[i + 1]!) > tol || Math.abs(A.d[i + 2]! - B.d[i + 2]!) > tol)
+            n++;
         }
       return n;
     },
@@ -146,7 +153,8 @@ export async function projectWorldPoint(page: Page, point: [number, number, numb
 /** Sets the playback time through the app's clock (as the scrubber does) and waits for the view to render it. */
 export async function setTime(page: Page, t: number): Promise<number> {
   const now = await page.evaluate((t) => {
-    const clock = (window as unknown as { __slewsmith: { clock: { pause(): void; setTime(t: number): void; t: number } } }).__slewsmith.clock;
+    const clock = (window as unknown as { __slewsmith: { clock: { pause(): void; setTime(t: number): void; t: number } } }).__slewsmith
+      .clock;
     clock.pause();
     clock.setTime(t);
     return clock.t;
@@ -164,7 +172,9 @@ export async function colourNear(page: Page, name: string, x: number, y: number,
   return page.evaluate(
     ({ name, x, y, radius, hex, tol }) => {
       const S = (window as unknown as { __v3dShots: Record<string, { w: number; h: number; d: Uint8ClampedArray }> }).__v3dShots[name]!;
-      const cr = (hex >> 16) & 255, cg = (hex >> 8) & 255, cb = hex & 255;
+      const cr = (hex >> 16) & 255,
+        cg = (hex >> 8) & 255,
+        cb = hex & 255;
       let n = 0;
       for (let py = Math.max(0, Math.round(y - radius)); py <= Math.min(S.h - 1, Math.round(y + radius)); py++)
         for (let px = Math.max(0, Math.round(x - radius)); px <= Math.min(S.w - 1, Math.round(x + radius)); px++) {

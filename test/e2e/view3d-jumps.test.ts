@@ -80,7 +80,14 @@ interface RunInfo {
 
 async function runsInfo(page: Page): Promise<RunInfo[]> {
   return page.evaluate(() => {
-    type Run = { key: string; label: string; mode: string; logicKind: string; jumps: { t: number }[]; trace: { n: number; t: Float64Array; q: Float64Array } };
+    type Run = {
+      key: string;
+      label: string;
+      mode: string;
+      logicKind: string;
+      jumps: { t: number }[];
+      trace: { n: number; t: Float64Array; q: Float64Array };
+    };
     const st = (window as unknown as { __slewsmith: { store: { getState(): { output: { runs: Run[] } } } } }).__slewsmith.store.getState();
     return st.output.runs.map((r) => ({
       key: r.key,
@@ -97,7 +104,8 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
   });
 }
 
-const rotate = (q: number[], v: number[]): number[] => new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0]!, v[1]!, v[2]!]) as number[];
+const rotate = (q: number[], v: number[]): number[] =>
+  new Quaternion(q[3], q[0], q[1], q[2]).rotateVector([v[0]!, v[1]!, v[2]!]) as number[];
 const angle = (a: number[], b: number[]) => {
   const d = (a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!) / (Math.hypot(a[0]!, a[1]!, a[2]!) * Math.hypot(b[0]!, b[1]!, b[2]!));
   return Math.acos(Math.min(1, Math.max(-1, d)));
@@ -108,7 +116,9 @@ async function showOnly(page: Page, keys: string[], all: string[]): Promise<void
   for (const k of keys) await page.getByTestId(`show-${k}`).check();
   for (const k of all) if (!keys.includes(k)) await page.getByTestId(`show-${k}`).uncheck();
   await page.waitForFunction(
-    (n) => (window as unknown as { __slewsmithView: { model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView.model.viewports[0]?.runs.length === n,
+    (n) =>
+      (window as unknown as { __slewsmithView: { model: { viewports: { runs: unknown[] }[] } } }).__slewsmithView.model.viewports[0]?.runs
+        .length === n,
     keys.length,
   );
   await frames(page);
@@ -159,7 +169,12 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
     await setTime(page, tMax);
     const drawn = await markers(page);
     expect(drawn).toHaveLength(runs.length);
-    const boresight = await page.evaluate(() => Array.from((window as unknown as { __slewsmithView: { model: { options: { boresightBody: Float64Array } } } }).__slewsmithView.model.options.boresightBody));
+    const boresight = await page.evaluate(() =>
+      Array.from(
+        (window as unknown as { __slewsmithView: { model: { options: { boresightBody: Float64Array } } } }).__slewsmithView.model.options
+          .boresightBody,
+      ),
+    );
     for (const r of runs) {
       const d = drawn.find((x) => x.label === r.label);
       expect(d, r.label).toBeDefined();
@@ -167,7 +182,8 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
       // Each marker sits on the sphere, between the boresight directions of the samples around its jump.
       d!.positions.forEach((p, k) => {
         expect(Math.hypot(p[0], p[1], p[2])).toBeCloseTo(SPHERE_RADIUS, 6);
-        const b0 = rotate(r.brackets[k]!.qI, boresight), b1 = rotate(r.brackets[k]!.qI1, boresight);
+        const b0 = rotate(r.brackets[k]!.qI, boresight),
+          b1 = rotate(r.brackets[k]!.qI1, boresight);
         const step = angle(b0, b1);
         expect(angle(p, b0)).toBeLessThanOrEqual(step + 1e-6);
         expect(angle(p, b1)).toBeLessThanOrEqual(step + 1e-6);
@@ -181,7 +197,11 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
 
   it('shows a hybrid run’s marker only once the time passes its jump', async () => {
     const hyst = byLaw('hyst');
-    await showOnly(page, [hyst.key], runs.map((r) => r.key));
+    await showOnly(
+      page,
+      [hyst.key],
+      runs.map((r) => r.key),
+    );
     const tj = hyst.jumps[0]!;
     await setTime(page, tj - 0.05);
     expect((await markers(page))[0]!.count).toBe(0);

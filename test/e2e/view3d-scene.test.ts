@@ -36,7 +36,14 @@ interface TraceProbe {
 async function bracket(page: Page): Promise<TraceProbe> {
   return page.evaluate(() => {
     type Trace = { n: number; t: Float64Array; q: Float64Array };
-    const s = (window as unknown as { __slewsmith: { store: { getState(): { output: { runs: { key: string; trace: Trace }[] }; selectedRunKeys: string[] } }; clock: { t: number } } }).__slewsmith;
+    const s = (
+      window as unknown as {
+        __slewsmith: {
+          store: { getState(): { output: { runs: { key: string; trace: Trace }[] }; selectedRunKeys: string[] } };
+          clock: { t: number };
+        };
+      }
+    ).__slewsmith;
     const st = s.store.getState();
     const run = st.output.runs.find((r) => r.key === st.selectedRunKeys[0])!;
     const tr = run.trace;
@@ -44,7 +51,15 @@ async function bracket(page: Page): Promise<TraceProbe> {
     let i = 0;
     while (i + 1 < tr.n && tr.t[i + 1]! <= t) i++;
     const i1 = Math.min(i + 1, tr.n - 1);
-    return { key: run.key, t, i, tI: tr.t[i]!, tI1: tr.t[i1]!, qI: Array.from(tr.q.subarray(4 * i, 4 * i + 4)), qI1: Array.from(tr.q.subarray(4 * i1, 4 * i1 + 4)) };
+    return {
+      key: run.key,
+      t,
+      i,
+      tI: tr.t[i]!,
+      tI1: tr.t[i1]!,
+      qI: Array.from(tr.q.subarray(4 * i, 4 * i + 4)),
+      qI1: Array.from(tr.q.subarray(4 * i1, 4 * i1 + 4)),
+    };
   });
 }
 
@@ -139,7 +154,8 @@ describe.skipIf(skipBrowser)('3D attitude view on the demo (Chromium, WebGL read
     ] as const) {
       expect(probe.tI).toBeLessThanOrEqual(probe.t);
       const drawn = [0, 1, 2].map((k) => tip.world[k]! - origin.world[k]!);
-      const x0 = bodyXInertial(probe.qI), x1 = bodyXInertial(probe.qI1);
+      const x0 = bodyXInertial(probe.qI),
+        x1 = bodyXInertial(probe.qI1);
       const step = angle(x0, x1);
       expect(angle(drawn, x0)).toBeLessThanOrEqual(step + 1e-5);
       expect(angle(drawn, x1)).toBeLessThanOrEqual(step + 1e-5);
@@ -148,7 +164,11 @@ describe.skipIf(skipBrowser)('3D attitude view on the demo (Chromium, WebGL read
 
   it('saves screenshots of the scene at the start, mid-slew and end', async () => {
     const seg = await page.evaluate(() => {
-      const st = (window as unknown as { __slewsmith: { store: { getState(): { output: { plan: { segments: { tStart: number; slewTimeS: number }[] } } } } } }).__slewsmith.store.getState();
+      const st = (
+        window as unknown as {
+          __slewsmith: { store: { getState(): { output: { plan: { segments: { tStart: number; slewTimeS: number }[] } } } } };
+        }
+      ).__slewsmith.store.getState();
       return st.output.plan.segments[0]!;
     });
     const tMax = await page.evaluate(() => (window as unknown as { __slewsmith: { clock: { tMax: number } } }).__slewsmith.clock.tMax);

@@ -28,47 +28,63 @@ function checkResultShape(rows: unknown): void {
 
 describe('validateInertia on garbage (fast-check)', () => {
   it('anything at all', () => {
-    fc.assert(fc.property(fc.anything(), (v) => checkResultShape(v)), { numRuns: 500 });
+    fc.assert(
+      fc.property(fc.anything(), (v) => checkResultShape(v)),
+      { numRuns: 500 },
+    );
   });
 
   it('3×3-ish arrays of arbitrary doubles, NaN and infinities included', () => {
     const entry = fc.oneof(fc.double(), fc.constantFrom(NaN, Infinity, -Infinity, 0, -0, 1e-320), fc.anything());
     const row = fc.array(entry, { minLength: 0, maxLength: 4 });
-    fc.assert(fc.property(fc.array(row, { minLength: 0, maxLength: 4 }), (rows) => checkResultShape(rows)), { numRuns: 1000 });
+    fc.assert(
+      fc.property(fc.array(row, { minLength: 0, maxLength: 4 }), (rows) => checkResultShape(rows)),
+      { numRuns: 1000 },
+    );
   });
 
   it('finite 3×3 arrays: valid or rejected with a named rule, never NaN', () => {
     const entry = fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e6, max: 1e6 });
-    fc.assert(fc.property(fc.array(fc.array(entry, { minLength: 3, maxLength: 3 }), { minLength: 3, maxLength: 3 }), (rows) => {
-      checkResultShape(rows);
-      const r = validateInertia(rows);
-      if (!r.ok) for (const i of r.errors) expect(['symmetric', 'positive-definite', 'triangle-inequality', 'range']).toContain(i.rule);
-    }), { numRuns: 1000 });
+    fc.assert(
+      fc.property(fc.array(fc.array(entry, { minLength: 3, maxLength: 3 }), { minLength: 3, maxLength: 3 }), (rows) => {
+        checkResultShape(rows);
+        const r = validateInertia(rows);
+        if (!r.ok) for (const i of r.errors) expect(['symmetric', 'positive-definite', 'triangle-inequality', 'range']).toContain(i.rule);
+      }),
+      { numRuns: 1000 },
+    );
   });
 });
 
 describe('validateInertia on physical inertias', () => {
   it('R diag(J1,J2,J3) Rᵀ with J1 + J2 ≥ J3 is accepted and the moments recovered', () => {
-    fc.assert(fc.property(
-      fc.integer({ min: 0, max: 2 ** 31 - 1 }),
-      fc.double({ min: 0.01, max: 10, noNaN: true }),
-      fc.double({ min: 0.01, max: 10, noNaN: true }),
-      fc.double({ min: 0, max: 1, noNaN: true }),
-      (seed, a, b, u) => {
-        // J3 anywhere in [|a − b|, a + b] keeps all three triangle inequalities.
-        const c = Math.abs(a - b) + u * (a + b - Math.abs(a - b));
-        if (!(c > 1e-3)) return;
-        const q = qRandomUniform(new Float64Array(4), makeRng(seed));
-        const R = qToMat3(new Float64Array(9), q);
-        const J = m3Multiply(new Float64Array(9), m3Multiply(new Float64Array(9), R, m3Diag(a, b, c)), m3Transpose(new Float64Array(9), R));
-        // symmetrise the rounding of the product
-        const rows = m3ToRows(J).map((row, r) => row.map((v, k) => (r <= k ? v : m3ToRows(J)[k]![r])));
-        const res = validateInertia(rows);
-        expect(res.ok).toBe(true);
-        if (!res.ok) return;
-        const sorted = [a, b, c].sort((x, y) => x - y);
-        for (let i = 0; i < 3; i++) expect(Math.abs(res.value.moments[i]! - sorted[i]!)).toBeLessThan(1e-12 * (a + b + c));
-      },
-    ), { numRuns: 300 });
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 0, max: 2 ** 31 - 1 }),
+        fc.double({ min: 0.01, max: 10, noNaN: true }),
+        fc.double({ min: 0.01, max: 10, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (seed, a, b, u) => {
+          // J3 anywhere in [|a − b|, a + b] keeps all three triangle inequalities.
+          const c = Math.abs(a - b) + u * (a + b - Math.abs(a - b));
+          if (!(c > 1e-3)) return;
+          const q = qRandomUniform(new Float64Array(4), makeRng(seed));
+          const R = qToMat3(new Float64Array(9), q);
+          const J = m3Multiply(
+            new Float64Array(9),
+            m3Multiply(new Float64Array(9), R, m3Diag(a, b, c)),
+            m3Transpose(new Float64Array(9), R),
+          );
+          // symmetrise the rounding of the product
+          const rows = m3ToRows(J).map((row, r) => row.map((v, k) => (r <= k ? v : m3ToRows(J)[k]![r])));
+          const res = validateInertia(rows);
+          expect(res.ok).toBe(true);
+          if (!res.ok) return;
+          const sorted = [a, b, c].sort((x, y) => x - y);
+          for (let i = 0; i < 3; i++) expect(Math.abs(res.value.moments[i]! - sorted[i]!)).toBeLessThan(1e-12 * (a + b + c));
+        },
+      ),
+      { numRuns: 300 },
+    );
   });
 });

@@ -19,7 +19,15 @@ import { qRandomUniform, qCreate } from '../../app/engine/math/rotation';
 import type { PlanLimits } from '../../app/engine/plan/types';
 
 const D = Math.PI / 180;
-const RULES = new Set(['stored-momentum-start', 'stored-momentum-end', 'stored-momentum-path', 'gyroscopic-torque', 'zero-torque-capacity', 'zero-momentum-capacity', 'no-feasible-profile']);
+const RULES = new Set([
+  'stored-momentum-start',
+  'stored-momentum-end',
+  'stored-momentum-path',
+  'gyroscopic-torque',
+  'zero-torque-capacity',
+  'zero-momentum-capacity',
+  'no-feasible-profile',
+]);
 
 function makeCase(seed: number) {
   const rng = makeRng(seed, 3);
@@ -28,10 +36,13 @@ function makeCase(seed: number) {
   const m = Math.min(...d);
   const p: [number, number, number] = [u(-0.1, 0.1) * m, u(-0.1, 0.1) * m, u(-0.1, 0.1) * m]; // diagonally dominant ⇒ SPD
   const J = [d[0], p[0], p[1], p[0], d[1], p[2], p[1], p[2], d[2]];
-  const lt = u(0.001, 0.005), lh = u(0.005, 0.03);
-  const mt = u(0.3, 1), mh = u(0.3, 1);
+  const lt = u(0.001, 0.005),
+    lh = u(0.005, 0.03);
+  const mt = u(0.3, 1),
+    mh = u(0.3, 1);
   const slew = rng.next() < 0.5 ? undefined : u(0.5, 5) * D;
-  const q0 = qRandomUniform(qCreate(), rng), q1 = qRandomUniform(qCreate(), rng);
+  const q0 = qRandomUniform(qCreate(), rng),
+    q1 = qRandomUniform(qCreate(), rng);
   let h0 = [0, 0, 0];
   if (rng.next() < 0.6) {
     const v = [rng.normal(), rng.normal(), rng.normal()];
@@ -39,7 +50,13 @@ function makeCase(seed: number) {
     const mag = u(0, 1.4) * mh * lh; // up to 1.4 × the usable cube along an axis: some cases infeasible
     h0 = v.map((x) => (x / n) * mag);
   }
-  const limits: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh), torqueMargin: mt, momentumMargin: mh, slewRateLimitRadPerS: slew };
+  const limits: PlanLimits = {
+    torqueCapacity: cubeCapacity(lt),
+    momentumCapacity: cubeCapacity(lh),
+    torqueMargin: mt,
+    momentumMargin: mh,
+    slewRateLimitRadPerS: slew,
+  };
   return { J, lt, lh, mt, mh, slew, q0, q1, h0, limits, rng };
 }
 
@@ -48,7 +65,9 @@ const cubeGauge = (v: ArrayLike<number>, l: number) => Math.max(Math.abs(v[0]!),
 
 describe('planned profiles stay inside margin · envelope (property)', () => {
   it('random cases: resampled torque, momentum and rate within limits; H = 0 times equal the closed form', () => {
-    let nFeasible = 0, nSearch = 0, nInfeasible = 0;
+    let nFeasible = 0,
+      nSearch = 0,
+      nInfeasible = 0;
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 2 ** 31 - 1 }), (seed) => {
         const c = makeCase(seed);
@@ -75,7 +94,8 @@ describe('planned profiles stay inside margin · envelope (property)', () => {
           // a = m_τ l_τ / max|(Je)_i| (per-axis box), w = min(slew, m_h l_h / max|(Je)_i|).
           const Je = mulJ(c.J, v.axisBody);
           const mx = Math.max(...Je.map(Math.abs));
-          const a = (c.mt * c.lt) / mx, w = Math.min(c.slew ?? Infinity, (c.mh * c.lh) / mx);
+          const a = (c.mt * c.lt) / mx,
+            w = Math.min(c.slew ?? Infinity, (c.mh * c.lh) / mx);
           const th = v.angleRad;
           const T = th <= (w * w) / a ? 2 * Math.sqrt(th / a) : th / w + w / a;
           expect(Math.abs(v.durationS - T)).toBeLessThan(1e-9 * Math.max(1, T));
@@ -89,15 +109,25 @@ describe('planned profiles stay inside margin · envelope (property)', () => {
         const times: number[] = [0, v.durationS * (1 - 1e-12)];
         for (const s of v.switchTimesS) times.push(s * (1 - 1e-12), s);
         for (let k = 0; k < 3000; k++) times.push(c.rng.next() * v.durationS);
-        const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
-        const tau = new Float64Array(3), h = new Float64Array(3);
-        let worstT = 0, worstH = 0, worstW = 0;
+        const q = new Float64Array(4),
+          w = new Float64Array(3),
+          wd = new Float64Array(3);
+        const tau = new Float64Array(3),
+          h = new Float64Array(3);
+        let worstT = 0,
+          worstH = 0,
+          worstW = 0;
         for (const t of times) {
           evaluateReference(plan, t, q, w, wd);
           evaluatePlannedLoads(plan, t, tau, h);
-          const Jw = mulJ(c.J, w), Jwd = mulJ(c.J, wd);
+          const Jw = mulJ(c.J, w),
+            Jwd = mulJ(c.J, wd);
           const H = [Jw[0]! + h[0]!, Jw[1]! + h[1]!, Jw[2]! + h[2]!];
-          const T3 = [Jwd[0]! + w[1]! * H[2]! - w[2]! * H[1]!, Jwd[1]! + w[2]! * H[0]! - w[0]! * H[2]!, Jwd[2]! + w[0]! * H[1]! - w[1]! * H[0]!];
+          const T3 = [
+            Jwd[0]! + w[1]! * H[2]! - w[2]! * H[1]!,
+            Jwd[1]! + w[2]! * H[0]! - w[0]! * H[2]!,
+            Jwd[2]! + w[0]! * H[1]! - w[1]! * H[0]!,
+          ];
           worstT = Math.max(worstT, cubeGauge(T3, c.lt));
           worstH = Math.max(worstH, cubeGauge(h, c.lh));
           worstW = Math.max(worstW, Math.hypot(w[0]!, w[1]!, w[2]!));

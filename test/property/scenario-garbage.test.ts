@@ -52,11 +52,21 @@ function checkResult(input: unknown): void {
 describe('garbage in, issues out', () => {
   it('random values are rejected with issues, never a throw', () => {
     fc.assert(
-      fc.property(fc.anything({ withNullPrototype: true, withBigInt: true, withDate: true, withMap: true, withTypedArray: true, withSparseArray: true }), (x) => {
-        const r = validateScenario(x);
-        expect(r.ok).toBe(false);
-        if (!r.ok) expect(r.errors.length).toBeGreaterThan(0);
-      }),
+      fc.property(
+        fc.anything({
+          withNullPrototype: true,
+          withBigInt: true,
+          withDate: true,
+          withMap: true,
+          withTypedArray: true,
+          withSparseArray: true,
+        }),
+        (x) => {
+          const r = validateScenario(x);
+          expect(r.ok).toBe(false);
+          if (!r.ok) expect(r.errors.length).toBeGreaterThan(0);
+        },
+      ),
       { numRuns: 500, seed: 1 },
     );
   });
@@ -76,7 +86,10 @@ describe('garbage in, issues out', () => {
       fc.assert(
         fc.property(
           fc.integer({ min: 0, max: paths.length - 1 }),
-          fc.oneof(fc.jsonValue(), fc.constantFrom(Number.NaN, Infinity, -0, 0, -1, 1e308, '', [], {}, null, undefined, [0, 0, 0], [0, 0, 0, 0])),
+          fc.oneof(
+            fc.jsonValue(),
+            fc.constantFrom(Number.NaN, Infinity, -0, 0, -1, 1e308, '', [], {}, null, undefined, [0, 0, 0], [0, 0, 0, 0]),
+          ),
           (k, garbage) => {
             checkResult(setAt(loadExample(name), paths[k]!, garbage));
           },

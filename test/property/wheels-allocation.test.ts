@@ -47,7 +47,11 @@ const arrayArb = (minN: number, maxN: number) =>
     .map((s) => makeWheelArray(s))
     .filter((r) => r.ok && r.value.singularValues[2]! > 0.05 * r.value.singularValues[0]!)
     .map((r) => (r as { value: WheelArray }).value);
-const vec3 = fc.tuple(fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }));
+const vec3 = fc.tuple(
+  fc.double({ min: -3, max: 3, noNaN: true }),
+  fc.double({ min: -3, max: 3, noNaN: true }),
+  fc.double({ min: -3, max: 3, noNaN: true }),
+);
 
 const body = (arr: WheelArray, w: ArrayLike<number>) => bodyTorqueFromWheelTorque(new Float64Array(3), arr, w);
 
@@ -58,12 +62,14 @@ describe('allocation', () => {
         const a = allocateMinNorm(new Float64Array(arr.n), arr, tau);
         const b = allocateMinMax(new Float64Array(arr.n), arr, tau);
         const tn = Math.hypot(...tau);
-        const ba = body(arr, a), bb = body(arr, b);
+        const ba = body(arr, a),
+          bb = body(arr, b);
         for (let r = 0; r < 3; r++) {
           expect(Math.abs(ba[r]! - tau[r]!)).toBeLessThanOrEqual(1e-12 * (1 + tn));
           expect(Math.abs(bb[r]! - tau[r]!)).toBeLessThanOrEqual(1e-11 * (1 + tn));
         }
-        const pa = peakTorqueRatio(arr, a), pb = peakTorqueRatio(arr, b);
+        const pa = peakTorqueRatio(arr, a),
+          pb = peakTorqueRatio(arr, b);
         expect(pb).toBeLessThanOrEqual(pa * (1 + 1e-12) + 1e-15);
         if (tn > 1e-9) {
           const z = torqueEnvelope(arr);
@@ -105,16 +111,14 @@ const hFactor = fc.oneof(
  * treats an excess below 1e-10 τ_max as rounding, so denormal-size commands would make the exact
  * optimum of the enumeration below and the limiter's answer differ by design.)
  */
-const cmdFactor = fc.oneof(
-  fc.constant(0),
-  fc.double({ min: 1e-6, max: 3, noNaN: true }),
-  fc.double({ min: -3, max: -1e-6, noNaN: true }),
-);
+const cmdFactor = fc.oneof(fc.constant(0), fc.double({ min: 1e-6, max: 3, noNaN: true }), fc.double({ min: -3, max: -1e-6, noNaN: true }));
 
 /** The admissible interval of wheel i, written independently of limits.ts from the stated rules. */
 function interval(arr: WheelArray, i: number, h: number, dt: number): [number, number] {
-  const l = arr.maxTorqueNm[i]!, hm = arr.maxMomentumNms[i]!;
-  let lo = -l, hi = l;
+  const l = arr.maxTorqueNm[i]!,
+    hm = arr.maxMomentumNms[i]!;
+  let lo = -l,
+    hi = l;
   if (dt === 0) {
     if (h >= hm) hi = 0;
     if (h <= -hm) lo = 0;
@@ -141,10 +145,12 @@ function bruteMaxScale(arr: WheelArray, c: number[], iv: [number, number][]): nu
   let best = 0;
   for (let p = 0; p < rows.length; p++) {
     for (let q = p + 1; q < rows.length; q++) {
-      const [a1, b1, r1] = rows[p]!, [a2, b2, r2] = rows[q]!;
+      const [a1, b1, r1] = rows[p]!,
+        [a2, b2, r2] = rows[q]!;
       const det = a1 * b2 - a2 * b1;
       if (Math.abs(det) <= 1e-12 * (Math.abs(a1) + Math.abs(b1)) * (Math.abs(a2) + Math.abs(b2))) continue;
-      const s = (r1 * b2 - r2 * b1) / det, al = (a1 * r2 - a2 * r1) / det;
+      const s = (r1 * b2 - r2 * b1) / det,
+        al = (a1 * r2 - a2 * r1) / det;
       // Tolerance relative to each row's own size: commands and intervals can both be tiny.
       if (rows.every(([a, b, r]) => a * s + b * al <= r + 1e-9 * (Math.abs(a * s) + Math.abs(b * al) + Math.abs(r)) + 1e-300)) {
         best = Math.max(best, s);
@@ -176,7 +182,8 @@ describe('limitWheelTorque', () => {
         const s = info.scale;
         expect(s).toBeGreaterThanOrEqual(0);
         expect(s).toBeLessThanOrEqual(1);
-        const req = body(arr, wc), got = body(arr, out);
+        const req = body(arr, wc),
+          got = body(arr, out);
         const rn = Math.hypot(...req);
         // The limiter sets a wheel within 1e-9 τ_max of its bound onto it (LP rounding, limits.ts).
         const slack = 1e-9 * arr.maxTorqueNm.reduce((a, b) => a + b, 0);

@@ -46,9 +46,19 @@ const randomArray = fc
   .map((r) => (r as { value: WheelArray }).value);
 
 const LATTICE = [
-  [1, 0, 0], [0, 1, 0], [0, 0, 1],
-  [1, 1, 0], [1, -1, 0], [1, 0, 1], [1, 0, -1], [0, 1, 1], [0, 1, -1],
-  [1, 1, 1], [1, 1, -1], [1, -1, 1], [-1, 1, 1],
+  [1, 0, 0],
+  [0, 1, 0],
+  [0, 0, 1],
+  [1, 1, 0],
+  [1, -1, 0],
+  [1, 0, 1],
+  [1, 0, -1],
+  [0, 1, 1],
+  [0, 1, -1],
+  [1, 1, 1],
+  [1, 1, -1],
+  [1, -1, 1],
+  [-1, 1, 1],
 ];
 const latticeWheel = fc.record({ d: fc.integer({ min: 0, max: 12 }), sign: fc.constantFrom(1, -1), l: limit });
 const latticeArray = fc
@@ -81,7 +91,9 @@ function check(cond: boolean, what: string): void {
 
 /** Checks every structural property; shared by the random and the lattice arrays. */
 function checkStructure(z: Zonotope): void {
-  const V = z.vertices.length / 3, F = z.faces.length, E = z.edgeCount;
+  const V = z.vertices.length / 3,
+    F = z.faces.length,
+    E = z.edgeCount;
   check(z.consistent, 'surface not closed/consistent');
   check(V - E + F === 2, `Euler: V ${V} − E ${E} + F ${F} ≠ 2`);
   const S = scaleOf(z);
@@ -128,8 +140,11 @@ function checkStructure(z: Zonotope): void {
     for (let j = 1; j + 1 < f.length; j++) triFace.push(k);
   });
   for (let t = 0; t < z.triangles.length / 3; t++) {
-    const a = at(z.vertices, z.triangles[3 * t]!), b = at(z.vertices, z.triangles[3 * t + 1]!), c = at(z.vertices, z.triangles[3 * t + 2]!);
-    const ab = [b[0]! - a[0]!, b[1]! - a[1]!, b[2]! - a[2]!], ac = [c[0]! - a[0]!, c[1]! - a[1]!, c[2]! - a[2]!];
+    const a = at(z.vertices, z.triangles[3 * t]!),
+      b = at(z.vertices, z.triangles[3 * t + 1]!),
+      c = at(z.vertices, z.triangles[3 * t + 2]!);
+    const ab = [b[0]! - a[0]!, b[1]! - a[1]!, b[2]! - a[2]!],
+      ac = [c[0]! - a[0]!, c[1]! - a[1]!, c[2]! - a[2]!];
     const cr = [ab[1]! * ac[2]! - ab[2]! * ac[1]!, ab[2]! * ac[0]! - ab[0]! * ac[2]!, ab[0]! * ac[1]! - ab[1]! * ac[0]!];
     check(dot(cr, at(z.faceNormals, triFace[t]!)) >= -G * S, `triangle ${t} faces inwards`);
     vol += dot(a, [b[1]! * c[2]! - b[2]! * c[1]!, b[2]! * c[0]! - b[0]! * c[2]!, b[0]! * c[1]! - b[1]! * c[0]!]) / 6;
@@ -138,8 +153,12 @@ function checkStructure(z: Zonotope): void {
   for (let i = 0; i < z.n; i++)
     for (let j = i + 1; j < z.n; j++)
       for (let k = j + 1; k < z.n; k++) {
-        const gi = at(z.generators, i), gj = at(z.generators, j), gk = at(z.generators, k);
-        shephard += Math.abs(dot(gi, [gj[1]! * gk[2]! - gj[2]! * gk[1]!, gj[2]! * gk[0]! - gj[0]! * gk[2]!, gj[0]! * gk[1]! - gj[1]! * gk[0]!]));
+        const gi = at(z.generators, i),
+          gj = at(z.generators, j),
+          gk = at(z.generators, k);
+        shephard += Math.abs(
+          dot(gi, [gj[1]! * gk[2]! - gj[2]! * gk[1]!, gj[2]! * gk[0]! - gj[0]! * gk[2]!, gj[0]! * gk[1]! - gj[1]! * gk[0]!]),
+        );
       }
   // Relative 1e-10, plus the merge tolerance on the scale S³ (a nearly flat set has a tiny volume).
   const volTol = 1e-10 * 8 * shephard + 10 * z.n * z.tolerance.parallelRad * S * S * S;
@@ -162,7 +181,8 @@ describe('zonotope structure', () => {
         const planes = new Map<string, number>();
         for (let a = 0; a < dirs.length; a++)
           for (let b = a + 1; b < dirs.length; b++) {
-            const u = LATTICE[dirs[a]!]!, w = LATTICE[dirs[b]!]!;
+            const u = LATTICE[dirs[a]!]!,
+              w = LATTICE[dirs[b]!]!;
             let c = [u[1]! * w[2]! - u[2]! * w[1]!, u[2]! * w[0]! - u[0]! * w[2]!, u[0]! * w[1]! - u[1]! * w[0]!];
             const g = c.reduce((x, y) => gcd(x, Math.abs(y)), 0);
             c = c.map((x) => x / g);
@@ -187,23 +207,40 @@ function gcd(a: number, b: number): number {
 describe('capacity', () => {
   it('capacity·d̂ lies on the boundary: on its binding facet, inside within rounding, outside after a 1e-9 step', () => {
     fc.assert(
-      fc.property(fc.oneof(randomArray, latticeArray.map((x) => x.arr)), fc.tuple(unit, unit, unit), (arr, d) => {
-        const dn = Math.hypot(...d);
-        fc.pre(dn > 1e-3);
-        const z = momentumEnvelope(arr);
-        const S = scaleOf(z);
-        const r = envelopeCapacity(z, d);
-        expect(r).toBeGreaterThan(0);
-        const p = d.map((x) => (x / dn) * r);
-        expect(envelopeContains(z, p, 1e-12 * S)).toBe(true);
-        expect(envelopeContains(z, p.map((x) => x * (1 + 1e-9)))).toBe(false);
-        const f = envelopeBindingFace(z, d);
-        const nf = at(z.faceNormals, f);
-        expect(dot(nf, p)).toBeCloseTo(envelopeSupport(z, nf), 10);
-        // Support in the direction itself is at least the capacity (p ∈ Z), with equality
-        // exactly when d̂ is a facet normal.
-        expect(envelopeSupport(z, d.map((x) => x / dn))).toBeGreaterThanOrEqual(r - 10 * z.tolerance.parallelRad * S);
-      }),
+      fc.property(
+        fc.oneof(
+          randomArray,
+          latticeArray.map((x) => x.arr),
+        ),
+        fc.tuple(unit, unit, unit),
+        (arr, d) => {
+          const dn = Math.hypot(...d);
+          fc.pre(dn > 1e-3);
+          const z = momentumEnvelope(arr);
+          const S = scaleOf(z);
+          const r = envelopeCapacity(z, d);
+          expect(r).toBeGreaterThan(0);
+          const p = d.map((x) => (x / dn) * r);
+          expect(envelopeContains(z, p, 1e-12 * S)).toBe(true);
+          expect(
+            envelopeContains(
+              z,
+              p.map((x) => x * (1 + 1e-9)),
+            ),
+          ).toBe(false);
+          const f = envelopeBindingFace(z, d);
+          const nf = at(z.faceNormals, f);
+          expect(dot(nf, p)).toBeCloseTo(envelopeSupport(z, nf), 10);
+          // Support in the direction itself is at least the capacity (p ∈ Z), with equality
+          // exactly when d̂ is a facet normal.
+          expect(
+            envelopeSupport(
+              z,
+              d.map((x) => x / dn),
+            ),
+          ).toBeGreaterThanOrEqual(r - 10 * z.tolerance.parallelRad * S);
+        },
+      ),
       { numRuns: RUNS },
     );
   });

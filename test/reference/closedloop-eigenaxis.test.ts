@@ -19,7 +19,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { gainsFromBandwidth } from '../../app/engine/control/gains';
-import { DEG, fly, law, sampleAt, triadVehicle } from './closedloop-fixtures';
+import { fly, law, sampleAt, triadVehicle } from './closedloop-fixtures';
+import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
 
 const veh = triadVehicle([10, 15, 20], 1e-9, 1, 10);
 const axis = [1 / 3, 2 / 3, 2 / 3];
@@ -31,21 +32,35 @@ const spec = { kind: 'eigenaxis', gains: { omegaN: 0.3, zeta: 0.9 }, maxRateRadP
 function summary(hWheel0: number[], timing: 'continuous-ideal' | 'sampled', rateHz: number, minAngleRad = 1e-6) {
   const r = fly({ vehicle: veh, controller: law(spec, veh), q0, hWheel0, tEnd: 60, timing, controlRateHz: rateHz, rk4StepsPerSample: 1 });
   const tr = r.trace;
-  let peakRate = 0, deviation = 0;
+  let peakRate = 0,
+    deviation = 0;
   const peakTau = [0, 0, 0];
   for (let k = 0; k < tr.n; k++) {
-    const wx = tr.omega[3 * k]!, wy = tr.omega[3 * k + 1]!, wz = tr.omega[3 * k + 2]!;
+    const wx = tr.omega[3 * k]!,
+      wy = tr.omega[3 * k + 1]!,
+      wz = tr.omega[3 * k + 2]!;
     peakRate = Math.max(peakRate, Math.hypot(wx, wy, wz));
     for (let i = 0; i < 3; i++) peakTau[i] = Math.max(peakTau[i]!, Math.abs(tr.torqueBody[3 * k + i]!));
     // target = identity, so the error quaternion is q itself: its vector part must stay on the axis
-    const ex = tr.q[4 * k]!, ey = tr.q[4 * k + 1]!, ez = tr.q[4 * k + 2]!;
+    const ex = tr.q[4 * k]!,
+      ey = tr.q[4 * k + 1]!,
+      ez = tr.q[4 * k + 2]!;
     const n = Math.hypot(ex, ey, ez);
     if (n > Math.sin(0.5 * minAngleRad)) {
-      const cx = ey * axis[2]! - ez * axis[1]!, cy = ez * axis[0]! - ex * axis[2]!, cz = ex * axis[1]! - ey * axis[0]!;
+      const cx = ey * axis[2]! - ez * axis[1]!,
+        cy = ez * axis[0]! - ex * axis[2]!,
+        cz = ex * axis[1]! - ey * axis[0]!;
       deviation = Math.max(deviation, Math.hypot(cx, cy, cz) / n);
     }
   }
-  return { r, peakRate, deviation, peakTau, at20Deg: tr.errorAngle[sampleAt(r, 20)]! * DEG, finalDeg: tr.errorAngle[tr.n - 1]! * DEG };
+  return {
+    r,
+    peakRate,
+    deviation,
+    peakTau,
+    at20Deg: tr.errorAngle[sampleAt(r, 20)]! * DEG_PER_RAD,
+    finalDeg: tr.errorAngle[tr.n - 1]! * DEG_PER_RAD,
+  };
 }
 
 describe('eigenaxis check case of methods §2c through runClosedLoop', () => {
@@ -86,7 +101,7 @@ describe('eigenaxis check case of methods §2c through runClosedLoop', () => {
   it('sampled at 10 Hz (ZOH) with stored momentum: close to the ideal run, not identical', () => {
     const ideal = summary([0.3, -0.2, 0.1], 'continuous-ideal', 100);
     // the axis is judged while more than 1° is left: near the end the error direction is arbitrary
-    const zoh = summary([0.3, -0.2, 0.1], 'sampled', 10, 1 / DEG);
+    const zoh = summary([0.3, -0.2, 0.1], 'sampled', 10, 1 * RAD_PER_DEG);
     expect(zoh.peakRate).toBeLessThan(0.05 * 1.01);
     expect(Math.abs(zoh.at20Deg - ideal.at20Deg)).toBeLessThan(0.5);
     expect(zoh.deviation).toBeLessThan(1e-2);

@@ -18,7 +18,11 @@ import { describe, expect, it } from 'vitest';
 import type { ReferenceSource } from '../../app/engine/sim/closedLoop';
 import { fly, fixedReference, law, pyramidVehicle, type Vehicle } from './closedloop-fixtures';
 
-const Jrows = [[1.2, 0.05, -0.02], [0.05, 0.9, 0.03], [-0.02, 0.03, 1.5]];
+const Jrows = [
+  [1.2, 0.05, -0.02],
+  [0.05, 0.9, 0.03],
+  [-0.02, 0.03, 1.5],
+];
 const veh = pyramidVehicle(Jrows, 5, 50, 2e-3);
 const h0 = [0.2, -0.1, 0.15, 0.05]; // stored wheel momentum, N·m·s
 
@@ -34,18 +38,39 @@ function rot(q: ArrayLike<number>, o: number): number[][] {
 
 /** ω_e = ω − R_eᵀ ω_d with R_e = R_dᵀ R, i.e. R_eᵀω_d = Rᵀ R_d ω_d. */
 function omegaE(tr: ReturnType<typeof fly>['trace'], k: number): number[] {
-  const R = rot(tr.q, 4 * k), Rd = rot(tr.qRef, 4 * k);
+  const R = rot(tr.q, 4 * k),
+    Rd = rot(tr.qRef, 4 * k);
   const wd = [tr.omegaRef[3 * k], tr.omegaRef[3 * k + 1], tr.omegaRef[3 * k + 2]];
   const inertial = [0, 1, 2].map((i) => Rd[i]![0]! * wd[0]! + Rd[i]![1]! * wd[1]! + Rd[i]![2]! * wd[2]!);
   return [0, 1, 2].map((i) => tr.omega[3 * k + i]! - (R[0]![i]! * inertial[0]! + R[1]![i]! * inertial[1]! + R[2]![i]! * inertial[2]!));
 }
 
 /** Largest |central difference of W − (−ω_eᵀKω_e)| over interior flow samples, and the peak |Ẇ|. */
-function identityError(v: Vehicle, spec: Record<string, unknown>, K: number[][], reference: ReferenceSource, q0: number[], omega0: number[]) {
-  const r = fly({ vehicle: v, controller: law(spec, v), reference, q0, omega0, hWheel0: h0, tEnd: 30, timing: 'continuous-ideal', controlRateHz: 100, rk4StepsPerSample: 2 });
+function identityError(
+  v: Vehicle,
+  spec: Record<string, unknown>,
+  K: number[][],
+  reference: ReferenceSource,
+  q0: number[],
+  omega0: number[],
+) {
+  const r = fly({
+    vehicle: v,
+    controller: law(spec, v),
+    reference,
+    q0,
+    omega0,
+    hWheel0: h0,
+    tEnd: 30,
+    timing: 'continuous-ideal',
+    controlRateHz: 100,
+    rk4StepsPerSample: 2,
+  });
   expect(r.outcome.status).toBe('completed');
   const tr = r.trace;
-  let worst = 0, peak = 0, used = 0;
+  let worst = 0,
+    peak = 0,
+    used = 0;
   for (let k = 2; k < tr.n - 2; k++) {
     const h = tr.t[k + 1]! - tr.t[k]!;
     let uniform = tr.j[k - 2] === tr.j[k + 2] && tr.segment[k - 2] === tr.segment[k + 2];
@@ -62,7 +87,8 @@ function identityError(v: Vehicle, spec: Record<string, unknown>, K: number[][],
     used++;
   }
   // the wheels never limited the torque (else the identity would not hold)
-  for (let i = 0; i < 3 * tr.n; i++) expect(Math.abs(tr.torqueBody[i]! - tr.torqueCmdBody[i]!)).toBeLessThanOrEqual(1e-12 + 1e-12 * Math.abs(tr.torqueCmdBody[i]!));
+  for (let i = 0; i < 3 * tr.n; i++)
+    expect(Math.abs(tr.torqueBody[i]! - tr.torqueCmdBody[i]!)).toBeLessThanOrEqual(1e-12 + 1e-12 * Math.abs(tr.torqueCmdBody[i]!));
   return { worst, peak, used, jumps: r.jumps.length };
 }
 
@@ -71,9 +97,14 @@ function movingReference(): ReferenceSource {
   const e = [0.6, 0, 0.8];
   return {
     at: (t, q, w, wd) => {
-      const phi = 0.4 * (1 - Math.cos(0.25 * t)), dphi = 0.1 * Math.sin(0.25 * t), ddphi = 0.025 * Math.cos(0.25 * t);
+      const phi = 0.4 * (1 - Math.cos(0.25 * t)),
+        dphi = 0.1 * Math.sin(0.25 * t),
+        ddphi = 0.025 * Math.cos(0.25 * t);
       const s = Math.sin(0.5 * phi);
-      q[0] = e[0]! * s; q[1] = e[1]! * s; q[2] = e[2]! * s; q[3] = Math.cos(0.5 * phi);
+      q[0] = e[0]! * s;
+      q[1] = e[1]! * s;
+      q[2] = e[2]! * s;
+      q[3] = Math.cos(0.5 * phi);
       for (let i = 0; i < 3; i++) {
         w[i] = dphi * e[i]!;
         wd[i] = ddphi * e[i]!;
@@ -84,19 +115,35 @@ function movingReference(): ReferenceSource {
 }
 
 const q0 = (() => {
-  const a = [0.3, -0.5, 0.81], n = Math.hypot(...a), th = 2.2;
+  const a = [0.3, -0.5, 0.81],
+    n = Math.hypot(...a),
+    th = 2.2;
   return [...a.map((x) => (x / n) * Math.sin(th / 2)), Math.cos(th / 2)];
 })();
 const omega0 = [0.05, -0.12, 0.08];
 
-const KD = [[0.6, 0, 0], [0, 0.9, 0], [0, 0, 1.2]];
-const KW = [[1.0, 0.1, 0], [0.1, 0.8, -0.05], [0, -0.05, 1.1]];
+const KD = [
+  [0.6, 0, 0],
+  [0, 0.9, 0],
+  [0, 0, 1.2],
+];
+const KW = [
+  [1.0, 0.1, 0],
+  [0.1, 0.8, -0.05],
+  [0, -0.05, 1.1],
+];
 const PD = { kind: 'quaternion-pd', gains: { kp: 0.5, kd: [0.6, 0.9, 1.2] } };
 const SYN = { kind: 'synergistic', gains: { kR: 0.3, kOmega: KW }, potential: { eigenvalues: [1, 2, 3] }, warpGain: 0.15, hysteresis: 0.2 };
 
 describe('dW/dt = −ω_eᵀKω_e on flows (ideal continuous mode)', () => {
-  for (const [name, spec, K] of [['PD (K_d diagonal)', PD, KD], ['synergistic (K_ω full)', SYN, KW]] as const) {
-    for (const [mode, ref] of [['regulation', fixedReference], ['tracking a moving reference', movingReference]] as const) {
+  for (const [name, spec, K] of [
+    ['PD (K_d diagonal)', PD, KD],
+    ['synergistic (K_ω full)', SYN, KW],
+  ] as const) {
+    for (const [mode, ref] of [
+      ['regulation', fixedReference],
+      ['tracking a moving reference', movingReference],
+    ] as const) {
       it(`${name}, ${mode}`, () => {
         const r = identityError(veh, spec, K as number[][], ref(), q0, omega0);
         expect(r.used).toBeGreaterThan(2500);

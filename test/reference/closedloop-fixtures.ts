@@ -33,13 +33,26 @@ export function vehicle(Jrows: number[][], specs: WheelSpec[]): Vehicle {
  * diag(J): the inertia the controllers and the check values use.
  */
 export function triadVehicle(Jdiag: [number, number, number], js = 1e-9, maxTorqueNm = 1e6, maxMomentumNms = 1e6): Vehicle {
-  const J = [[Jdiag[0] + js, 0, 0], [0, Jdiag[1] + js, 0], [0, 0, Jdiag[2] + js]];
+  const J = [
+    [Jdiag[0] + js, 0, 0],
+    [0, Jdiag[1] + js, 0],
+    [0, 0, Jdiag[2] + js],
+  ];
   return vehicle(J, orthogonalTriad({ maxTorqueNm, maxMomentumNms, rotorInertiaKgm2: js }));
 }
 
 /** Four-wheel pyramid on cube diagonals (cant arccos(1/√3), azimuths 45° + 90°k). */
 export function pyramidVehicle(Jrows: number[][], maxTorqueNm: number, maxMomentumNms: number, js = 1e-4): Vehicle {
-  return vehicle(Jrows, pyramid({ cantAngleRad: Math.acos(1 / Math.sqrt(3)), azimuthOffsetRad: Math.PI / 4, maxTorqueNm, maxMomentumNms, rotorInertiaKgm2: js }));
+  return vehicle(
+    Jrows,
+    pyramid({
+      cantAngleRad: Math.acos(1 / Math.sqrt(3)),
+      azimuthOffsetRad: Math.PI / 4,
+      maxTorqueNm,
+      maxMomentumNms,
+      rotorInertiaKgm2: js,
+    }),
+  );
 }
 
 export function law(spec: Record<string, unknown>, v: Vehicle): AttitudeController {
@@ -53,7 +66,10 @@ export function fixedReference(q: ArrayLike<number> = [0, 0, 0, 1]): ReferenceSo
   const q0 = Float64Array.from(q);
   return {
     at: (_t, qo, w, wd) => {
-      qo[0] = q0[0]!; qo[1] = q0[1]!; qo[2] = q0[2]!; qo[3] = q0[3]!;
+      qo[0] = q0[0]!;
+      qo[1] = q0[1]!;
+      qo[2] = q0[2]!;
+      qo[3] = q0[3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
       return 0;
@@ -83,7 +99,12 @@ export function fly(s: RunSpec): ClosedLoopResult {
   });
 }
 
-export function metricsOf(r: ClosedLoopResult, v: Vehicle, target: ArrayLike<number> = [0, 0, 0, 1], settle = { angle: 0.01, rate: 0.001 }): RunMetrics {
+export function metricsOf(
+  r: ClosedLoopResult,
+  v: Vehicle,
+  target: ArrayLike<number> = [0, 0, 0, 1],
+  settle = { angle: 0.01, rate: 0.001 },
+): RunMetrics {
   return computeMetrics(r.trace, r.jumps, {
     settleAngleRad: settle.angle,
     settleRateRadPerS: settle.rate,
@@ -94,11 +115,10 @@ export function metricsOf(r: ClosedLoopResult, v: Vehicle, target: ArrayLike<num
   });
 }
 
-export const DEG = 180 / Math.PI;
-
 /** Scalar part η of q_ref* ⊗ q at trace sample k (sign as it comes, continuous along a run). */
 export function etaAt(r: ClosedLoopResult, k: number): number {
-  const q = r.trace.q, d = r.trace.qRef;
+  const q = r.trace.q,
+    d = r.trace.qRef;
   // (q_d* ⊗ q)_w = d_w q_w + d·q (Hamilton, [x, y, z, w])
   return d[4 * k + 3]! * q[4 * k + 3]! + d[4 * k]! * q[4 * k]! + d[4 * k + 1]! * q[4 * k + 1]! + d[4 * k + 2]! * q[4 * k + 2]!;
 }

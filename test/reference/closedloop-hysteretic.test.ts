@@ -20,7 +20,8 @@
  *    sign-switch, hysteretic and synergistic laws turn the short 16.2°.
  */
 import { describe, expect, it } from 'vitest';
-import { DEG, etaAt, fly, law, metricsOf, triadVehicle } from './closedloop-fixtures';
+import { etaAt, fly, law, metricsOf, triadVehicle } from './closedloop-fixtures';
+import { DEG_PER_RAD } from '../../app/engine/units';
 
 const s14 = Math.sqrt(14);
 const v = [1 / s14, 2 / s14, 3 / s14];
@@ -44,8 +45,16 @@ function firstJumpTime(withWheels: boolean, delta: number): number {
     const H = [Jd[0] * wx + (withWheels ? h1 : 0), Jd[1] * wy + (withWheels ? h2 : 0), Jd[2] * wz + (withWheels ? h3 : 0)];
     const cr = [wy * H[2]! - wz * H[1]!, wz * H[0]! - wx * H[2]!, wx * H[1]! - wy * H[0]!];
     return [
-      0.5 * (s * wx + b * wz - c * wy), 0.5 * (s * wy + c * wx - a * wz), 0.5 * (s * wz + a * wy - b * wx), -0.5 * (a * wx + b * wy + c * wz),
-      (tau[0]! - cr[0]!) / Jd[0], (tau[1]! - cr[1]!) / Jd[1], (tau[2]! - cr[2]!) / Jd[2], -tau[0]!, -tau[1]!, -tau[2]!,
+      0.5 * (s * wx + b * wz - c * wy),
+      0.5 * (s * wy + c * wx - a * wz),
+      0.5 * (s * wz + a * wy - b * wx),
+      -0.5 * (a * wx + b * wy + c * wz),
+      (tau[0]! - cr[0]!) / Jd[0],
+      (tau[1]! - cr[1]!) / Jd[1],
+      (tau[2]! - cr[2]!) / Jd[2],
+      -tau[0]!,
+      -tau[1]!,
+      -tau[2]!,
     ];
   };
   let x = [...q0, ...w0, 0, 0, 0];
@@ -71,12 +80,20 @@ describe('MST 2011 example 2 through runClosedLoop', () => {
   const run = (delta: number, timing: 'continuous-ideal' | 'sampled') => {
     const key = `${delta}:${timing}`;
     if (!cache.has(key)) {
-      cache.set(key, fly({
-        vehicle: veh, controller: law(spec(delta), veh), q0, omega0: w0, tEnd: 70, timing,
-        // ideal: 10 RK4 steps of 1 ms per 100 Hz output sample; sampled: 1 kHz ZOH, 1 step per sample
-        controlRateHz: timing === 'sampled' ? 1000 : 100,
-        rk4StepsPerSample: timing === 'sampled' ? 1 : 10,
-      }));
+      cache.set(
+        key,
+        fly({
+          vehicle: veh,
+          controller: law(spec(delta), veh),
+          q0,
+          omega0: w0,
+          tEnd: 70,
+          timing,
+          // ideal: 10 RK4 steps of 1 ms per 100 Hz output sample; sampled: 1 kHz ZOH, 1 step per sample
+          controlRateHz: timing === 'sampled' ? 1000 : 100,
+          rk4StepsPerSample: timing === 'sampled' ? 1 : 10,
+        }),
+      );
     }
     return cache.get(key)!;
   };
@@ -84,10 +101,10 @@ describe('MST 2011 example 2 through runClosedLoop', () => {
   const tGyro = firstJumpTime(true, 0.4);
 
   it('test-local references: rigid body 1.1404 s, wheel-actuated body 1.1417 s (both "near 1.141 s")', () => {
-    expect(tRigid).toBeGreaterThan(1.1400);
-    expect(tRigid).toBeLessThan(1.1410);
-    expect(tGyro).toBeGreaterThan(1.1410);
-    expect(tGyro).toBeLessThan(1.1420);
+    expect(tRigid).toBeGreaterThan(1.14);
+    expect(tRigid).toBeLessThan(1.141);
+    expect(tGyro).toBeGreaterThan(1.141);
+    expect(tGyro).toBeLessThan(1.142);
     // Tiny rotors do not make the wheel-actuated body rigid: the stored momentum shifts the jump by ~1.3 ms.
     expect(tGyro - tRigid).toBeGreaterThan(5e-4);
   });
@@ -142,19 +159,27 @@ describe('unwinding of quaternion PD vs laws that take the short way (Bhat & Ber
   const veh = triadVehicle([10, 15, 20]);
   const s = Math.sqrt(1 - 0.99 * 0.99);
   const q0 = [0, 0, s, -0.99];
-  const longDeg = 360 - 2 * Math.acos(0.99) * DEG; // 343.78°
-  const shortDeg = 2 * Math.acos(0.99) * DEG; // 16.22°
+  const longDeg = 360 - 2 * Math.acos(0.99) * DEG_PER_RAD; // 343.78°
+  const shortDeg = 2 * Math.acos(0.99) * DEG_PER_RAD; // 16.22°
   const gains = { omegaN: 0.3, zeta: 1.2 }; // over-damped near the target: no overshoot to add travel
   const go = (spec: Record<string, unknown>) => {
-    const r = fly({ vehicle: veh, controller: law(spec, veh), q0, tEnd: 150, timing: 'continuous-ideal', controlRateHz: 10, rk4StepsPerSample: 10 });
+    const r = fly({
+      vehicle: veh,
+      controller: law(spec, veh),
+      q0,
+      tEnd: 150,
+      timing: 'continuous-ideal',
+      controlRateHz: 10,
+      rk4StepsPerSample: 10,
+    });
     return { r, m: metricsOf(r, veh) };
   };
 
   it('PD travels about 344° and is flagged as unwound', () => {
     const { r, m } = go({ kind: 'quaternion-pd', gains });
     expect(longDeg).toBeCloseTo(343.78, 2);
-    expect(Math.abs(m.rotationTravelledRad * DEG - longDeg)).toBeLessThan(0.3);
-    expect(m.shortestRotationRad * DEG).toBeCloseTo(shortDeg, 6);
+    expect(Math.abs(m.rotationTravelledRad * DEG_PER_RAD - longDeg)).toBeLessThan(0.3);
+    expect(m.shortestRotationRad * DEG_PER_RAD).toBeCloseTo(shortDeg, 6);
     expect(m.unwound).toBe(true);
     expect(etaAt(r, r.trace.n - 1)).toBeGreaterThan(0.9999);
   });
@@ -169,12 +194,12 @@ describe('unwinding of quaternion PD vs laws that take the short way (Bhat & Ber
     for (const spec of specs) {
       const { m } = go(spec);
       expect(m.unwound).toBe(false);
-      expect(m.finalErrorRad * DEG).toBeLessThan(0.05);
+      expect(m.finalErrorRad * DEG_PER_RAD).toBeLessThan(0.05);
       if (spec.kind === 'synergistic') {
         // warped potentials do not turn exactly about the eigenaxis, but stay close to it
-        expect(m.rotationTravelledRad * DEG).toBeLessThan(shortDeg * 1.2);
-        expect(m.rotationTravelledRad * DEG).toBeGreaterThan(shortDeg - 0.3);
-      } else expect(Math.abs(m.rotationTravelledRad * DEG - shortDeg)).toBeLessThan(0.3);
+        expect(m.rotationTravelledRad * DEG_PER_RAD).toBeLessThan(shortDeg * 1.2);
+        expect(m.rotationTravelledRad * DEG_PER_RAD).toBeGreaterThan(shortDeg - 0.3);
+      } else expect(Math.abs(m.rotationTravelledRad * DEG_PER_RAD - shortDeg)).toBeLessThan(0.3);
     }
   });
 });

@@ -22,9 +22,18 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { SensorModel } from '../../app/engine/sim/sensors';
-import { DEG, etaAt, fly, law, metricsOf, pyramidVehicle } from './closedloop-fixtures';
+import { etaAt, fly, law, metricsOf, pyramidVehicle } from './closedloop-fixtures';
+import { DEG_PER_RAD } from '../../app/engine/units';
 
-const veh = pyramidVehicle([[2, 0, 0], [0, 3, 0], [0, 0, 4]], 1, 10);
+const veh = pyramidVehicle(
+  [
+    [2, 0, 0],
+    [0, 3, 0],
+    [0, 0, 4],
+  ],
+  1,
+  10,
+);
 const gains = { omegaN: 0.05, zeta: 0.9 };
 const axis = [1, 1, 1].map((x) => x / Math.sqrt(3));
 const q0 = [axis[0]!, axis[1]!, axis[2]!, 0]; // η = 0: exactly 180° from the identity target
@@ -35,12 +44,19 @@ const SYN = { kind: 'synergistic', gains, potential: { eigenvalues: [1, 2, 3] },
 
 const SIGMA = 0.02;
 const random = (): SensorModel => ({ attitudeSigmaRad: SIGMA, rateSigmaRadPerS: 0, rateBiasRadPerS: [0, 0, 0], adversarialEta: 0 });
-const worstCase = (ebar: number): SensorModel => ({ attitudeSigmaRad: 0, rateSigmaRadPerS: 0, rateBiasRadPerS: [0, 0, 0], adversarialEta: ebar });
+const worstCase = (ebar: number): SensorModel => ({
+  attitudeSigmaRad: 0,
+  rateSigmaRadPerS: 0,
+  rateBiasRadPerS: [0, 0, 0],
+  adversarialEta: ebar,
+});
 
 /** Sign reversals of the commanded torque along the start axis while the TRUE |η| < band. */
 function reversalsInBand(r: ReturnType<typeof fly>, band: number): { reversals: number; samples: number } {
   const tc = r.trace.torqueCmdBody;
-  let reversals = 0, samples = 0, last = 0;
+  let reversals = 0,
+    samples = 0,
+    last = 0;
   for (let k = 0; k < r.trace.n; k++) {
     if (Math.abs(etaAt(r, k)) >= band) continue;
     samples++;
@@ -59,7 +75,7 @@ describe('random attitude noise near a 180° error (10 Hz)', () => {
 
   it('the sign law reverses its torque many times while |η| is below the noise level; it still gets out and converges', () => {
     const counts = runs(SIGN).map((r) => {
-      expect(metricsOf(r, veh).finalErrorRad * DEG).toBeLessThan(0.5);
+      expect(metricsOf(r, veh).finalErrorRad * DEG_PER_RAD).toBeLessThan(0.5);
       return reversalsInBand(r, 1.5 * SIGMA).reversals;
     });
     for (const c of counts) expect(c).toBeGreaterThanOrEqual(5);
@@ -73,7 +89,7 @@ describe('random attitude noise near a 180° error (10 Hz)', () => {
         const band = reversalsInBand(r, 1.5 * SIGMA);
         expect(band.samples).toBeGreaterThan(10); // it did spend time in the band
         expect(band.reversals).toBeLessThanOrEqual(2);
-        expect(metricsOf(r, veh).finalErrorRad * DEG).toBeLessThan(0.5);
+        expect(metricsOf(r, veh).finalErrorRad * DEG_PER_RAD).toBeLessThan(0.5);
       }
     }
   });
@@ -92,7 +108,7 @@ describe('worst-case bounded noise ē = 0.1 (adversarialEta)', () => {
     expect(r.outcome.status).toBe('completed');
     expect(r.trace.t[r.trace.n - 1]).toBeCloseTo(300, 6);
     // |η| < ē ⇔ error angle > 2 arccos ē = 168.5°; it never got below that
-    expect(minError(r) * DEG).toBeGreaterThan(2 * Math.acos(EBAR) * DEG);
+    expect(minError(r) * DEG_PER_RAD).toBeGreaterThan(2 * Math.acos(EBAR) * DEG_PER_RAD);
     expect(m.settled).toBe(false);
     expect(m.chatterPerS).toBeGreaterThan(2);
   });
@@ -100,7 +116,7 @@ describe('worst-case bounded noise ē = 0.1 (adversarialEta)', () => {
   it('the hysteretic law with δ = 0.2 > ē is not fooled and converges (no jump needed)', () => {
     const { r, m } = go(HYST(0.2));
     expect(r.jumps.length).toBeLessThanOrEqual(1);
-    expect(m.finalErrorRad * DEG).toBeLessThan(0.01);
+    expect(m.finalErrorRad * DEG_PER_RAD).toBeLessThan(0.01);
     expect(m.chatterPerS).toBeLessThan(1);
   });
 
@@ -108,13 +124,13 @@ describe('worst-case bounded noise ē = 0.1 (adversarialEta)', () => {
     const { r, m } = go(SYN);
     expect(r.jumps.length).toBeLessThanOrEqual(2);
     // its bandwidth gains are matched at the slowest axis, so it is still closing in at 300 s
-    expect(m.finalErrorRad * DEG).toBeLessThan(0.1);
+    expect(m.finalErrorRad * DEG_PER_RAD).toBeLessThan(0.1);
   });
 
   it('counter-check: a hysteretic law with δ = 0.05 < ē is switched back and forth and stays near 180°', () => {
     const { r, m } = go(HYST(0.05));
     expect(r.jumps.length).toBeGreaterThan(10);
-    expect(minError(r) * DEG).toBeGreaterThan(2 * Math.acos(EBAR) * DEG);
+    expect(minError(r) * DEG_PER_RAD).toBeGreaterThan(2 * Math.acos(EBAR) * DEG_PER_RAD);
     expect(m.settled).toBe(false);
   });
 });

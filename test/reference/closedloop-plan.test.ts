@@ -25,7 +25,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { symmetricEigen3 } from '../../app/engine/math/mat3';
 import { prepareScenario, runOne } from '../../app/engine/pipeline/run';
-import { DEG } from './closedloop-fixtures';
+import { DEG_PER_RAD } from '../../app/engine/units';
 
 const json = JSON.parse(readFileSync(new URL('../../assets/lumen6-imaging.scenario.json', import.meta.url), 'utf8')) as unknown;
 const prep = prepareScenario(json);
@@ -88,7 +88,7 @@ describe('demo: the profiled closed loop arrives where and when the plan says', 
         expect(tr.errorAngle[kHold]).toBeLessThan(X.hold);
       });
       // the X of this demo, for the record in the header comment
-      expect(X.hold * DEG).toBeLessThan(0.2);
+      expect(X.hold * DEG_PER_RAD).toBeLessThan(0.2);
     });
   }
 });

@@ -29,11 +29,25 @@ import { makeRng } from '../../app/engine/math/prng';
 import { qRandomUniform } from '../../app/engine/math/rotation';
 import { lyapunovMonitor } from '../../app/engine/metrics/monitor';
 import type { SensorModel } from '../../app/engine/sim/sensors';
-import { DEG, fly, law, pyramidVehicle } from './closedloop-fixtures';
+import { fly, law, pyramidVehicle } from './closedloop-fixtures';
+import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
 
-const veh = pyramidVehicle([[1, 0, 0], [0, 1.2, 0], [0, 0, 0.8]], 5, 50);
+const veh = pyramidVehicle(
+  [
+    [1, 0, 0],
+    [0, 1.2, 0],
+    [0, 0, 0.8],
+  ],
+  5,
+  50,
+);
 const spec = (initialLogic: number | 'auto') => ({
-  kind: 'synergistic', gains: { omegaN: 1, zeta: 0.9 }, potential: { eigenvalues: [1, 2, 3] }, warpGain: 0.15, hysteresis: 0.2, initialLogic,
+  kind: 'synergistic',
+  gains: { omegaN: 1, zeta: 0.9 },
+  potential: { eigenvalues: [1, 2, 3] },
+  warpGain: 0.15,
+  hysteresis: 0.2,
+  initialLogic,
 });
 const auto = law(spec('auto'), veh);
 const byMember = [1, 2, 3].map((m) => law(spec(m), veh));
@@ -49,7 +63,14 @@ const starts: { q: number[]; ctrl: AttitudeController; critical: boolean }[] = [
 }
 
 const NOISE: SensorModel = { attitudeSigmaRad: 1e-3, rateSigmaRadPerS: 1e-4, rateBiasRadPerS: [5e-5, -3e-5, 2e-5], adversarialEta: 0 };
-const common = { tEnd: 40, controlRateHz: 10, rk4StepsPerSample: 1, stopWhenSettledForS: 2, settleAngleRad: 0.5 / DEG, settleRateRadPerS: 1e-3 };
+const common = {
+  tEnd: 40,
+  controlRateHz: 10,
+  rk4StepsPerSample: 1,
+  stopWhenSettledForS: 2,
+  settleAngleRad: 0.5 * RAD_PER_DEG,
+  settleRateRadPerS: 1e-3,
+};
 
 describe('synergistic law: global convergence from 1000 uniform attitudes and every undesired critical point', () => {
   it('the certificate is the one of methods §4.3 and lists 9 undesired critical points, each with gap > δ', () => {
@@ -60,12 +81,15 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
   });
 
   it('ideal continuous mode, no noise: every run settles, W never rises on a flow, every jump drops W by ≥ k_R δ', () => {
-    let flags = 0, jumps = 0, worstDeg = 0, longest = 0;
+    let flags = 0,
+      jumps = 0,
+      worstDeg = 0,
+      longest = 0;
     for (const s of starts) {
       const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common });
       const tr = r.trace;
       expect(r.outcome.status).toBe('completed');
-      worstDeg = Math.max(worstDeg, tr.errorAngle[tr.n - 1]! * DEG);
+      worstDeg = Math.max(worstDeg, tr.errorAngle[tr.n - 1]! * DEG_PER_RAD);
       longest = Math.max(longest, tr.t[tr.n - 1]!);
       // W values are O(1) here; a rise above 1e-6 of the run's largest W would be a real rise, not rounding
       flags += lyapunovMonitor(tr, r.jumps, { jumpDecrease: s.ctrl.jumpDecrease, relTol: 1e-6, absTol: 1e-12 }).length;
@@ -84,19 +108,38 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
 
   it('critical-point starts jump to the member the certificate names', () => {
     for (const p of critical) {
-      const r = fly({ vehicle: veh, controller: byMember[p.member - 1]!, q0: p.attitude, timing: 'continuous-ideal', ...common, tEnd: 0.5 });
+      const r = fly({
+        vehicle: veh,
+        controller: byMember[p.member - 1]!,
+        q0: p.attitude,
+        timing: 'continuous-ideal',
+        ...common,
+        tEnd: 0.5,
+      });
       expect(r.jumps[0]!.from).toBe(p.member);
       expect(r.jumps[0]!.to).toBe(p.jumpTo);
-      expect(r.jumps[0]!.lyapunovBefore! - r.jumps[0]!.lyapunovAfter!).toBeCloseTo(auto.jumpDecrease / 0.2 * p.gap, 9);
+      expect(r.jumps[0]!.lyapunovBefore! - r.jumps[0]!.lyapunovAfter!).toBeCloseTo((auto.jumpDecrease / 0.2) * p.gap, 9);
     }
   });
 
   it('sampled 10 Hz with sensor noise: every run ends within 1° of the target', () => {
     let worstDeg = 0;
     starts.forEach((s, i) => {
-      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'sampled', sensors: NOISE, seed: 99, stream: i, ...common, stopWhenSettledForS: 2, settleAngleRad: 1 / DEG, settleRateRadPerS: 2e-3 });
+      const r = fly({
+        vehicle: veh,
+        controller: s.ctrl,
+        q0: s.q,
+        timing: 'sampled',
+        sensors: NOISE,
+        seed: 99,
+        stream: i,
+        ...common,
+        stopWhenSettledForS: 2,
+        settleAngleRad: 1 * RAD_PER_DEG,
+        settleRateRadPerS: 2e-3,
+      });
       expect(r.outcome.status).toBe('completed');
-      worstDeg = Math.max(worstDeg, r.trace.errorAngle[r.trace.n - 1]! * DEG);
+      worstDeg = Math.max(worstDeg, r.trace.errorAngle[r.trace.n - 1]! * DEG_PER_RAD);
     });
     expect(worstDeg).toBeLessThan(1);
   });

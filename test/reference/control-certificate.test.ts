@@ -95,7 +95,17 @@ describe('methods §4.3: A = diag(1,2,3), k = 0.15, warp along the eigenvectors'
   });
 
   it('scaling (A, k) → (cA, k/c) multiplies the gap by c (methods §4.2)', () => {
-    const c = certifySynergistic({ family: makeWarpFamily(diag123.map((v) => 2.5 * v), 0.15 / 2.5, eig), delta: 0.2 }, { flowSetSamples: 0 });
+    const c = certifySynergistic(
+      {
+        family: makeWarpFamily(
+          diag123.map((v) => 2.5 * v),
+          0.15 / 2.5,
+          eig,
+        ),
+        delta: 0.2,
+      },
+      { flowSetSamples: 0 },
+    );
     expect(c.deltaStar).toBeCloseTo(2.5 * cert.deltaStar, 9);
   });
 });
@@ -131,13 +141,20 @@ describe('refusals', () => {
   });
 
   it('makeController refuses an uncertified family with the field path, unless told to build anyway', () => {
-    const plant = plantOf([[1, 0, 0], [0, 1, 0], [0, 0, 1]]);
+    const plant = plantOf([
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+    ]);
     const spec = {
       kind: 'synergistic',
       gains: { kR: 1, kOmega: 1 },
       potential: { eigenvalues: [1, 2, 3] },
       warpGain: 0.15,
-      warpDirections: [[1, 0, 0], [-1, 0, 0]],
+      warpDirections: [
+        [1, 0, 0],
+        [-1, 0, 0],
+      ],
       hysteresis: 0.2,
     };
     const r = makeController(spec, plant, 'controllers[0]');

@@ -11,7 +11,11 @@ import type { AttitudeController } from '../../app/engine/control/types';
 import { qFromAxisAngle, qCreate } from '../../app/engine/math/rotation';
 import { initialState, inputAt, makeDerivative, makeInput, plantOf, REGULATION, rk4Step } from './control-rk4';
 
-const J = [[10, 0, 0], [0, 15, 0], [0, 0, 20]];
+const J = [
+  [10, 0, 0],
+  [0, 15, 0],
+  [0, 0, 20],
+];
 const axis = [1 / 3, 2 / 3, 2 / 3];
 
 function build(extra: Record<string, unknown> = {}): AttitudeController {
@@ -27,7 +31,7 @@ function startQ(): number[] {
 describe('eigenaxis law, methods §2c check case', () => {
   it('saturation limits from the initial error direction: L = (0.05, 0.1, 0.1)', () => {
     // L_i = (c/k) ω_max |ε_i(0)|/‖ε(0)‖ with c/k = 0.54/0.18 = 3 (hand computation from §2c).
-    const L = eigenaxisLimits(new Float64Array(3), 0.18, 0.54, 0.05, [Math.SQRT1_2 / 3, Math.SQRT1_2 * 2 / 3, Math.SQRT1_2 * 2 / 3]);
+    const L = eigenaxisLimits(new Float64Array(3), 0.18, 0.54, 0.05, [Math.SQRT1_2 / 3, (Math.SQRT1_2 * 2) / 3, (Math.SQRT1_2 * 2) / 3]);
     expect(L[0]).toBeCloseTo(0.05, 12);
     expect(L[1]).toBeCloseTo(0.1, 12);
     expect(L[2]).toBeCloseTo(0.1, 12);
@@ -59,7 +63,10 @@ describe('eigenaxis law, methods §2c check case', () => {
     const f = makeDerivative({ ctrl, plant, J }, { logic: 0 });
     const inp = makeInput();
     const tau = new Float64Array(3);
-    let peakRate = 0, axisDev = 0, axisDev20 = 0, angleAt20 = NaN;
+    let peakRate = 0,
+      axisDev = 0,
+      axisDev20 = 0,
+      angleAt20 = NaN;
     const peakTau = [0, 0, 0];
     const dt = 0.01;
     const angle = () => 2 * Math.atan2(Math.hypot(x[0]!, x[1]!, x[2]!), Math.abs(x[3]!));
@@ -79,7 +86,8 @@ describe('eigenaxis law, methods §2c check case', () => {
       // deviation of ε and ω from the initial axis (sin of the angle between them)
       const e = [x[0]!, x[1]!, x[2]!];
       const ne = Math.hypot(...e);
-      const cx = (a: number[]) => Math.hypot(a[1]! * axis[2]! - a[2]! * axis[1]!, a[2]! * axis[0]! - a[0]! * axis[2]!, a[0]! * axis[1]! - a[1]! * axis[0]!);
+      const cx = (a: number[]) =>
+        Math.hypot(a[1]! * axis[2]! - a[2]! * axis[1]!, a[2]! * axis[0]! - a[0]! * axis[2]!, a[0]! * axis[1]! - a[1]! * axis[0]!);
       axisDev = Math.max(axisDev, cx(e) / ne, nw > 0 ? cx(w) / nw : 0);
     }
     return { peakRate, axisDev, axisDev20, peakTau, angleLeft: angleAt20, angleEnd: angle() };
@@ -121,7 +129,10 @@ describe('eigenaxis law, methods §2c check case', () => {
   });
 
   it('warns when the rest-start peak torque can exceed the limit', () => {
-    const r = makeController({ kind: 'eigenaxis', gains: { omegaN: 0.3, zeta: 0.9 }, maxRateRadPerS: 0.05, torqueLimitNm: 0.2 }, plantOf(J));
+    const r = makeController(
+      { kind: 'eigenaxis', gains: { omegaN: 0.3, zeta: 0.9 }, maxRateRadPerS: 0.05, torqueLimitNm: 0.2 },
+      plantOf(J),
+    );
     expect(r.ok).toBe(true);
     expect(r.warnings.map((w) => w.rule)).toContain('torque-margin');
   });

@@ -16,7 +16,11 @@ import { qCreate, qFromAxisAngle, qRandomUniform } from '../../app/engine/math/r
 import type { Reference } from './control-rk4';
 import { initialState, inputAt, makeDerivative, makeInput, omegaError, plantOf, rk4Step } from './control-rk4';
 
-const J = [[1.2, 0.1, -0.05], [0.1, 0.9, 0.02], [-0.05, 0.02, 1.5]];
+const J = [
+  [1.2, 0.1, -0.05],
+  [0.1, 0.9, 0.02],
+  [-0.05, 0.02, 1.5],
+];
 const plant = plantOf(J);
 const ref: Reference = {
   rate(t, w, wd) {
@@ -28,7 +32,11 @@ const ref: Reference = {
     wd[2] = 0;
   },
 };
-const Kd = [[0.6, 0.1, 0], [0.1, 0.5, 0], [0, 0, 0.7]];
+const Kd = [
+  [0.6, 0.1, 0],
+  [0.1, 0.5, 0],
+  [0, 0, 0.7],
+];
 const synergy = { potential: { eigenvalues: [1, 2, 3] }, warpGain: 0.15 };
 
 function build(spec: Record<string, unknown>): AttitudeController {
@@ -46,7 +54,9 @@ function flow(ctrl: AttitudeController, K: number[][], logic: number, T = 3, dt 
   const f = makeDerivative({ ctrl, plant, J, ref, K }, { logic });
   const inp = makeInput();
   const d = makeDiagnostics();
-  const W: number[] = [], D: number[] = [], diss: number[] = [];
+  const W: number[] = [],
+    D: number[] = [],
+    diss: number[] = [];
   let maxGuard = -Infinity;
   const steps = Math.round(T / dt);
   for (let k = 0; k <= steps; k++) {
@@ -96,14 +106,19 @@ describe('dW/dt = −ω_eᵀKω_e along tracking flows of the gyrostat', () => {
   it('eigenaxis (unsaturated), W = 2k(1 − sη) + ½‖ω_e‖², K = cI', () => {
     const c = build({ kind: 'eigenaxis', gains: { k: 0.3, c: 0.5 }, maxRateRadPerS: 100 });
     c.initialLogic(inputAt(makeInput(), initialState(q0, [0, 0, 0], [0, 0, 0], qd0), 0, ref));
-    const cI = [[0.5, 0, 0], [0, 0.5, 0], [0, 0, 0.5]];
+    const cI = [
+      [0.5, 0, 0],
+      [0, 0.5, 0],
+      [0, 0, 0.5],
+    ];
     checkFlow(flow(c, cI, 0));
   });
 });
 
 describe('W decreases at jumps', () => {
   it('hysteretic: ΔW = 4k_p(−hη), exactly 4k_pδ on the jump-set boundary', () => {
-    const kp = 0.8, delta = 0.3;
+    const kp = 0.8,
+      delta = 0.3;
     const c = build({ kind: 'hysteretic', gains: { kp, kd: Kd }, hysteresis: delta });
     const d = makeDiagnostics();
     for (const eta of [delta, 0.5, 0.95]) {
@@ -134,7 +149,8 @@ describe('W decreases at jumps', () => {
       for (let logic = 1; logic <= 3; logic++) {
         if (c.jumpGuard(inp, logic) < 0) continue;
         const dg = c.diagnostics(d, inp, logic);
-        const before = dg.lyapunov, mu = dg.gap;
+        const before = dg.lyapunov,
+          mu = dg.gap;
         const j = c.updateLogic(inp, logic);
         const after = c.diagnostics(d, inp, j.logic).lyapunov;
         expect(before - after).toBeCloseTo(kR * mu, 12);

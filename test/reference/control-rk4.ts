@@ -53,7 +53,10 @@ export function inputAt(inp: ControlInput, x: ArrayLike<number>, t: number, ref:
 
 function quatDot(out: Float64Array, o: number, q: ArrayLike<number>, w: ArrayLike<number>): void {
   // ½ q ⊗ (ω, 0), q = [x, y, z, w]
-  const x = q[0]!, y = q[1]!, z = q[2]!, s = q[3]!;
+  const x = q[0]!,
+    y = q[1]!,
+    z = q[2]!,
+    s = q[3]!;
   out[o] = 0.5 * (s * w[0]! + y * w[2]! - z * w[1]!);
   out[o + 1] = 0.5 * (s * w[1]! + z * w[0]! - x * w[2]!);
   out[o + 2] = 0.5 * (s * w[2]! + x * w[1]! - y * w[0]!);
@@ -64,7 +67,8 @@ type Quat4 = [number, number, number, number];
 
 /** ω_e = ω − R_eᵀω_d with q_e = q_d* ⊗ q, computed here by matrices (independent of tracking.ts). */
 export function omegaError(x: ArrayLike<number>, wRef: ArrayLike<number>): number[] {
-  const q: Quat4 = [x[0]!, x[1]!, x[2]!, x[3]!], qd: Quat4 = [x[10]!, x[11]!, x[12]!, x[13]!];
+  const q: Quat4 = [x[0]!, x[1]!, x[2]!, x[3]!],
+    qd: Quat4 = [x[10]!, x[11]!, x[12]!, x[13]!];
   const R = (p: Quat4) => {
     const [a, b, c, d] = p; // x y z w
     return [
@@ -73,7 +77,8 @@ export function omegaError(x: ArrayLike<number>, wRef: ArrayLike<number>): numbe
       [2 * (a * c - d * b), 2 * (b * c + d * a), d * d - a * a - b * b + c * c],
     ];
   };
-  const Rb = R(q), Rd = R(qd);
+  const Rb = R(q),
+    Rd = R(qd);
   // R_e = R_dᵀ R ; R_eᵀ ω_d = Rᵀ R_d ω_d
   const v = [0, 1, 2].map((i) => Rd[i]![0]! * wRef[0]! + Rd[i]![1]! * wRef[1]! + Rd[i]![2]! * wRef[2]!);
   const wr = [0, 1, 2].map((i) => Rb[0]![i]! * v[0]! + Rb[1]![i]! * v[1]! + Rb[2]![i]! * v[2]!);
@@ -126,7 +131,9 @@ export function makeDerivative(o: LoopOptions, logicRef: { logic: number }) {
 
 function solve3(M: number[][], b: number[]): number[] {
   const det = (m: number[][]) =>
-    m[0]![0]! * (m[1]![1]! * m[2]![2]! - m[1]![2]! * m[2]![1]!) - m[0]![1]! * (m[1]![0]! * m[2]![2]! - m[1]![2]! * m[2]![0]!) + m[0]![2]! * (m[1]![0]! * m[2]![1]! - m[1]![1]! * m[2]![0]!);
+    m[0]![0]! * (m[1]![1]! * m[2]![2]! - m[1]![2]! * m[2]![1]!) -
+    m[0]![1]! * (m[1]![0]! * m[2]![2]! - m[1]![2]! * m[2]![0]!) +
+    m[0]![2]! * (m[1]![0]! * m[2]![1]! - m[1]![1]! * m[2]![0]!);
   const d = det(M);
   return [0, 1, 2].map((c) => det(M.map((row, r) => row.map((v, k) => (k === c ? b[r]! : v)))) / d);
 }
@@ -134,7 +141,11 @@ function solve3(M: number[][], b: number[]): number[] {
 /** One classical RK4 step of size dt (allocates: test code). Quaternions renormalised after. */
 export function rk4Step(f: (t: number, x: Float64Array, dx: Float64Array) => void, t: number, x: Float64Array, dt: number): Float64Array {
   const n = x.length;
-  const k1 = new Float64Array(n), k2 = new Float64Array(n), k3 = new Float64Array(n), k4 = new Float64Array(n), y = new Float64Array(n);
+  const k1 = new Float64Array(n),
+    k2 = new Float64Array(n),
+    k3 = new Float64Array(n),
+    k4 = new Float64Array(n),
+    y = new Float64Array(n);
   f(t, x, k1);
   for (let i = 0; i < n; i++) y[i] = x[i]! + 0.5 * dt * k1[i]!;
   f(t + 0.5 * dt, y, k2);

@@ -10,10 +10,15 @@ import type { HybridSystem } from '../../app/engine/hybrid/index';
 import { m3Diag, m3FromRows } from '../../app/engine/math/mat3';
 import { qNormalize } from '../../app/engine/math/rotation';
 
-export const PYRA4_INERTIA_ROWS = [[0.11, 0.002, -0.001], [0.002, 0.12, 0.0015], [-0.001, 0.0015, 0.08]];
+export const PYRA4_INERTIA_ROWS = [
+  [0.11, 0.002, -0.001],
+  [0.002, 0.12, 0.0015],
+  [-0.001, 0.0015, 0.08],
+];
 
 export function pyramidAxes(): Float64Array {
-  const sb = 1 / Math.sqrt(3), cb = Math.sqrt(2 / 3);
+  const sb = 1 / Math.sqrt(3),
+    cb = Math.sqrt(2 / 3);
   const axes = new Float64Array(12);
   for (let i = 0; i < 4; i++) {
     const phi = (i * Math.PI) / 2;
@@ -25,9 +30,15 @@ export function pyramidAxes(): Float64Array {
 }
 
 export function pyra4(friction?: WheelFrictionInput): Gyrostat {
-  const r = makeGyrostat(m3FromRows(PYRA4_INERTIA_ROWS), {
-    n: 4, axes: pyramidAxes(), rotorInertiaKgm2: new Float64Array([1.4e-5, 1.5e-5, 1.45e-5, 1.55e-5]),
-  }, friction);
+  const r = makeGyrostat(
+    m3FromRows(PYRA4_INERTIA_ROWS),
+    {
+      n: 4,
+      axes: pyramidAxes(),
+      rotorInertiaKgm2: new Float64Array([1.4e-5, 1.5e-5, 1.45e-5, 1.55e-5]),
+    },
+    friction,
+  );
   if (!r.ok) throw new Error(JSON.stringify(r.errors));
   return r.value;
 }
@@ -77,7 +88,8 @@ export function wheelDrivenFlow(g: Gyrostat): HybridSystem & { f: (t: number, x:
  * the arc shows them; their derivative is zero.
  */
 export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
-  const n = g.n, dim = g.dim + n;
+  const n = g.n,
+    dim = g.dim + n;
   const held = new Float64Array(n);
   let nextK = 0; // one system object per run: the sample counter lives here
   return {
@@ -99,7 +111,10 @@ export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
     },
     project(x) {
       const s = 1 / Math.sqrt(x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!);
-      x[0]! *= s; x[1]! *= s; x[2]! *= s; x[3]! *= s;
+      x[0]! *= s;
+      x[1]! *= s;
+      x[2]! *= s;
+      x[3]! *= s;
       return false; // RK4 evaluates its first stage afresh every step, so nothing is stale
     },
   };
@@ -111,7 +126,11 @@ export function zohWheelSystem(g: Gyrostat, Ts: number): HybridSystem {
  * `torqueAt(out, k)` gives the held torques of sample k (default: testWheelTorque at k·Ts).
  */
 export function zohWheelSystemCompact(
-  g: Gyrostat, Ts: number, torqueAt: (out: Float64Array, k: number) => void = (out, k) => { testWheelTorque(out, k * Ts); },
+  g: Gyrostat,
+  Ts: number,
+  torqueAt: (out: Float64Array, k: number) => void = (out, k) => {
+    testWheelTorque(out, k * Ts);
+  },
 ): HybridSystem {
   const held = new Float64Array(g.n);
   let nextK = 0;
@@ -131,7 +150,10 @@ export function zohWheelSystemCompact(
     },
     project(x) {
       const s = 1 / Math.sqrt(x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!);
-      x[0]! *= s; x[1]! *= s; x[2]! *= s; x[3]! *= s;
+      x[0]! *= s;
+      x[1]! *= s;
+      x[2]! *= s;
+      x[3]! *= s;
       return false;
     },
   };

@@ -18,7 +18,12 @@ const ZERO4 = new Float64Array(4);
 const ZERO3 = new Float64Array(3);
 
 /** Largest relative deviation of R·H from its initial value over every recorded step. */
-function momentumDrift(g: Gyrostat, sys: HybridSystem, x0: Float64Array, opts: Partial<HybridOptions>): { drift: number; energies: number[] } {
+function momentumDrift(
+  g: Gyrostat,
+  sys: HybridSystem,
+  x0: Float64Array,
+  opts: Partial<HybridOptions>,
+): { drift: number; energies: number[] } {
   const H0 = totalMomentumInertial(new Float64Array(3), x0, g);
   const n0 = Math.hypot(H0[0]!, H0[1]!, H0[2]!);
   const H = new Float64Array(3);
@@ -28,7 +33,8 @@ function momentumDrift(g: Gyrostat, sys: HybridSystem, x0: Float64Array, opts: P
     tEnd: 600,
     integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 },
     record: {
-      every: 'step', store: false,
+      every: 'step',
+      store: false,
       onRecord: (_t, _j, x) => {
         totalMomentumInertial(H, x, g);
         drift = Math.max(drift, Math.hypot(H[0]! - H0[0]!, H[1]! - H0[1]!, H[2]! - H0[2]!) / n0);
@@ -76,7 +82,9 @@ describe('DP54 against odex on the same 600 s wheel-driven run (references §6)'
     const sys = wheelDrivenFlow(g);
     const x0 = pyra4InitialState();
     const ours = simulateHybrid(sys, x0, {
-      tEnd: 600, integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 }, record: { every: 'interval', dt: 60 },
+      tEnd: 600,
+      integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 },
+      record: { every: 'interval', dt: 60 },
     });
     expect(ours.ok).toBe(true);
     if (!ours.ok) return;
@@ -84,12 +92,21 @@ describe('DP54 against odex on the same 600 s wheel-driven run (references §6)'
     solver.absoluteTolerance = solver.relativeTolerance = 1e-12;
     solver.maxSteps = 1e6;
     solver.denseOutput = true;
-    const xs = new Float64Array(11), dx = new Float64Array(11);
+    const xs = new Float64Array(11),
+      dx = new Float64Array(11);
     const theirs: number[][] = [];
     const res = solver.solve(
-      (t: number, y: number[]) => { for (let i = 0; i < 11; i++) xs[i] = y[i]!; sys.f(t, xs, dx); return Array.from(dx); },
-      0, Array.from(x0), 600,
-      solver.grid(60, (_t: number, y: number[]) => { theirs.push(y.slice()); }),
+      (t: number, y: number[]) => {
+        for (let i = 0; i < 11; i++) xs[i] = y[i]!;
+        sys.f(t, xs, dx);
+        return Array.from(dx);
+      },
+      0,
+      Array.from(x0),
+      600,
+      solver.grid(60, (_t: number, y: number[]) => {
+        theirs.push(y.slice());
+      }),
     );
     expect(res.outcome).toBe(0); // Converged
     expect(theirs.length).toBe(11);

@@ -21,7 +21,11 @@ type SnCnDnAm = [number, number, number, number];
 function run(I: [number, number, number], w0: number[], opts: Partial<HybridOptions>): HybridArc {
   const g = rigidBody(...I);
   const x0 = new Float64Array([0, 0, 0, 1, w0[0]!, w0[1]!, w0[2]!]);
-  const r = simulateHybrid(wheelDrivenFlow(g), x0, { tEnd: 1, integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 }, ...opts } as HybridOptions);
+  const r = simulateHybrid(wheelDrivenFlow(g), x0, {
+    tEnd: 1,
+    integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 },
+    ...opts,
+  } as HybridOptions);
   if (!r.ok) throw new Error(JSON.stringify(r.errors));
   expect(r.value.outcome.status).toBe('completed');
   return r.value;
@@ -34,7 +38,10 @@ function omegaAt(arc: HybridArc, k: number): number[] {
 describe('axisymmetric body, I = (0.1, 0.1, 0.2), ω0 = (0.1, 0, 0.5) (references §4)', () => {
   const omegaClosed = (t: number) => [0.1 * Math.cos(0.5 * t), 0.1 * Math.sin(0.5 * t), 0.5];
 
-  for (const integrator of [{ kind: 'dp54', rtol: 1e-12, atol: 1e-14 }, { kind: 'rk4', dt: 0.01 }] as const) {
+  for (const integrator of [
+    { kind: 'dp54', rtol: 1e-12, atol: 1e-14 },
+    { kind: 'rk4', dt: 0.01 },
+  ] as const) {
     it(`${integrator.kind}: ω(2 s) = (0.0540302, 0.0841471, 0.5) and the closed form over 20 s`, () => {
       const arc = run([0.1, 0.1, 0.2], [0.1, 0, 0.5], { tEnd: 20, integrator, record: { every: 'interval', dt: 0.5 } });
       // point k is t = 0.5 k (the start is point 0)
@@ -115,16 +122,20 @@ describe('asymmetric body, case A: I = (0.10, 0.15, 0.20), ω0 = (0.3, 0, 0.4) (
     const g = rigidBody(0.1, 0.15, 0.2);
     const x0 = new Float64Array([0, 0, 0, 1, 0.3, 0, 0.4]);
     const r = simulateHybrid(wheelDrivenFlow(g), x0, {
-      tEnd: 1e4, integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 }, record: 'none',
+      tEnd: 1e4,
+      integrator: { kind: 'dp54', rtol: 1e-12, atol: 1e-14 },
+      record: 'none',
     });
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     const xe = r.value.finalState;
     expect(r.value.outcome).toMatchObject({ status: 'completed', t: 1e4 });
     const dT = Math.abs(kineticEnergy(xe, g) / kineticEnergy(x0, g) - 1);
-    const Hb0 = totalMomentumBody(new Float64Array(3), x0, g), Hb1 = totalMomentumBody(new Float64Array(3), xe, g);
+    const Hb0 = totalMomentumBody(new Float64Array(3), x0, g),
+      Hb1 = totalMomentumBody(new Float64Array(3), xe, g);
     const dHabs = Math.abs(Math.hypot(Hb1[0]!, Hb1[1]!, Hb1[2]!) / Math.hypot(Hb0[0]!, Hb0[1]!, Hb0[2]!) - 1);
-    const Hi0 = totalMomentumInertial(new Float64Array(3), x0, g), Hi1 = totalMomentumInertial(new Float64Array(3), xe, g);
+    const Hi0 = totalMomentumInertial(new Float64Array(3), x0, g),
+      Hi1 = totalMomentumInertial(new Float64Array(3), xe, g);
     const dHvec = Math.hypot(Hi1[0]! - Hi0[0]!, Hi1[1]! - Hi0[1]!, Hi1[2]! - Hi0[2]!) / Math.hypot(Hi0[0]!, Hi0[1]!, Hi0[2]!);
     // measured: about 3e-11, 1.2e-11 and 2e-11
     expect(dT).toBeLessThan(1e-9);
@@ -146,10 +157,19 @@ describe('intermediate-axis instability, I = (0.10, 0.15, 0.20), ω_s = 0.5 abou
   });
 
   it('about the major and minor axes perturbations stay small (oscillate)', () => {
-    for (const w0 of [[1e-6, 0, 0.5], [0.5, 1e-6, 0]]) {
+    for (const w0 of [
+      [1e-6, 0, 0.5],
+      [0.5, 1e-6, 0],
+    ]) {
       let peak = 0;
       run([0.1, 0.15, 0.2], w0, {
-        tEnd: 100, record: { every: 'step', onRecord: (_t, _j, x) => { peak = Math.max(peak, Math.abs(x[5]!), Math.abs(w0[2] === 0.5 ? x[4]! : x[6]!)); } },
+        tEnd: 100,
+        record: {
+          every: 'step',
+          onRecord: (_t, _j, x) => {
+            peak = Math.max(peak, Math.abs(x[5]!), Math.abs(w0[2] === 0.5 ? x[4]! : x[6]!));
+          },
+        },
       });
       expect(peak).toBeLessThan(1e-5);
     }

@@ -45,7 +45,11 @@ describe('AEM quaternion = qInertialFromBody (CCSDS 504.0-B-2 Annex F2)', () => 
     const Q = aemQuaternionFromAttitude(new Float64Array(4), q);
     expect(Array.from(Q).map((x) => +x.toFixed(4))).toEqual([0, 0, 0.7071, 0.7071]);
     const M = mBA(Q).map((r) => r.map((x) => Math.round(x * 1e12) / 1e12 + 0));
-    expect(M).toEqual([[0, 1, 0], [-1, 0, 0], [0, 0, 1]]);
+    expect(M).toEqual([
+      [0, 1, 0],
+      [-1, 0, 0],
+      [0, 0, 1],
+    ]);
     expect(mul(mBA(Q), [1, 0, 0]).map((x) => Math.round(x * 1e12) / 1e12 + 0)).toEqual([0, -1, 0]);
   });
 

@@ -44,7 +44,11 @@ function currentPins(): Pins {
     for (const run of out.value.runs) {
       const hashes: Record<string, string> = {};
       for (const f of EXPORT_FORMATS) {
-        const text = exportRun(f, run, out.value, resolved.value, { toolName: 'Slewsmith', toolVersion: '0.1.0', creationDateUtc: '2030-01-01T00:00:00Z' });
+        const text = exportRun(f, run, out.value, resolved.value, {
+          toolName: 'Slewsmith',
+          toolVersion: '0.1.0',
+          creationDateUtc: '2030-01-01T00:00:00Z',
+        });
         if (!text.ok) throw new Error(`${name} ${run.key} ${f} refused`);
         hashes[f] = sha(text.value);
       }

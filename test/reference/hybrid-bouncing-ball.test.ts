@@ -16,7 +16,10 @@ const GAMMA = 9.81;
 function ball(e: number, withFlowSet: boolean): HybridSystem {
   const sys: HybridSystem = {
     dim: 2,
-    flow: (_t, x, d) => { d[0] = x[1]!; d[1] = -GAMMA; },
+    flow: (_t, x, d) => {
+      d[0] = x[1]!;
+      d[1] = -GAMMA;
+    },
     // D = {x1 ≤ 0 and x2 ≤ 0} = {g ≥ 0}; on C ∩ {x1 ≥ 0} it is the paper's D = {x1 = 0, x2 ≤ 0}.
     jumpGuard: (_t, x) => Math.min(-x[0]!, -x[1]!),
     jump: (_t, x, xp) => {
@@ -55,7 +58,8 @@ describe('bouncing ball (Goebel, Sanfelice & Teel 2009)', () => {
   for (const [name, integrator] of integrators) {
     for (const withFlowSet of [false, true]) {
       it(`${name}${withFlowSet ? ', C = {x1 ≥ 0}' : ''}: impact times match the closed form; Zeno reported near t∞`, () => {
-        const e = 0.5, h0 = 1;
+        const e = 0.5,
+          h0 = 1;
         const t1 = Math.sqrt((2 * h0) / GAMMA);
         const tInf = (t1 * (1 + e)) / (1 - e);
         const r = simulateHybrid(ball(e, withFlowSet), [h0, 0], { tEnd: 5, integrator, record: 'step' });
@@ -93,7 +97,12 @@ describe('bouncing ball (Goebel, Sanfelice & Teel 2009)', () => {
 
   it('with jMax the run completes after that many impacts instead', () => {
     const t1 = Math.sqrt(2 / GAMMA);
-    const r = simulateHybrid(ball(0.5, false), [1, 0], { tEnd: 5, jMax: 3, integrator: { kind: 'dp54', rtol: 1e-10, atol: 1e-12 }, record: 'none' });
+    const r = simulateHybrid(ball(0.5, false), [1, 0], {
+      tEnd: 5,
+      jMax: 3,
+      integrator: { kind: 'dp54', rtol: 1e-10, atol: 1e-12 },
+      record: 'none',
+    });
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.value.outcome).toMatchObject({ status: 'completed', j: 3 });

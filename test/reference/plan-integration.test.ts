@@ -20,7 +20,8 @@ import type { PlanLimits, SequencePlan } from '../../app/engine/plan/types';
 
 const D = Math.PI / 180;
 const axisAngle = (ax: number[], th: number) => {
-  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!), s = Math.sin(th / 2) / n;
+  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!),
+    s = Math.sin(th / 2) / n;
   return [ax[0]! * s, ax[1]! * s, ax[2]! * s, Math.cos(th / 2)];
 };
 /** Hamilton product, scalar last, written here independently of the engine. */
@@ -70,7 +71,12 @@ const cases: Case[] = [
     qTarget: axisAngle([1, 2, 2], 2.0),
     J: [0.11, 0.002, -0.001, 0.002, 0.12, 0.0015, -0.001, 0.0015, 0.08],
     h0: [0.0025, -0.0015, 0.001],
-    limits: { torqueCapacity: boxCapacity([0.002, 0.002, 0.0025]), momentumCapacity: cubeCapacity(0.006), torqueMargin: 0.8, momentumMargin: 0.85 },
+    limits: {
+      torqueCapacity: boxCapacity([0.002, 0.002, 0.0025]),
+      momentumCapacity: cubeCapacity(0.006),
+      torqueMargin: 0.8,
+      momentumMargin: 0.85,
+    },
   },
 ];
 
@@ -95,7 +101,9 @@ function clampInto(t: number, a: number, b: number): number {
 describe.each(cases)('reference kinematics: $name', (c) => {
   const s = planCase(c);
   const plan = s.timeline[0]!.plan;
-  const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
+  const q = new Float64Array(4),
+    w = new Float64Array(3),
+    wd = new Float64Array(3);
 
   it('RK4 of q̇ = ½ q ⊗ ω_ref(t) reaches the target to 1e-9', () => {
     let y = Array.from(plan.qStart);
@@ -106,15 +114,31 @@ describe.each(cases)('reference kinematics: $name', (c) => {
     };
     const f = (t: number, qq: number[], a: number, b: number) => qmul(qq, rate(t, a, b)).map((x) => 0.5 * x);
     for (let k = 0; k + 1 < bk.length; k++) {
-      const a = bk[k]!, b = bk[k + 1]!;
+      const a = bk[k]!,
+        b = bk[k + 1]!;
       const n = Math.max(1, Math.ceil((b - a) / 0.02));
       const h = (b - a) / n;
       for (let i = 0; i < n; i++) {
         const t = a + i * h;
         const k1 = f(t, y, a, b);
-        const k2 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k1[j]!), a, b);
-        const k3 = f(t + h / 2, y.map((v, j) => v + (h / 2) * k2[j]!), a, b);
-        const k4 = f(t + h, y.map((v, j) => v + h * k3[j]!), a, b);
+        const k2 = f(
+          t + h / 2,
+          y.map((v, j) => v + (h / 2) * k1[j]!),
+          a,
+          b,
+        );
+        const k3 = f(
+          t + h / 2,
+          y.map((v, j) => v + (h / 2) * k2[j]!),
+          a,
+          b,
+        );
+        const k4 = f(
+          t + h,
+          y.map((v, j) => v + h * k3[j]!),
+          a,
+          b,
+        );
         y = y.map((v, j) => v + (h / 6) * (k1[j]! + 2 * k2[j]! + 2 * k3[j]! + k4[j]!));
       }
     }
@@ -127,7 +151,10 @@ describe.each(cases)('reference kinematics: $name', (c) => {
 
   it('finite differences: ω = 2 vec(q* ⊗ q̇) and ω̇ = dω/dt', () => {
     const h = 1e-4;
-    const qp = new Float64Array(4), qm = new Float64Array(4), wp = new Float64Array(3), wm = new Float64Array(3);
+    const qp = new Float64Array(4),
+      qm = new Float64Array(4),
+      wp = new Float64Array(3),
+      wm = new Float64Array(3);
     const bk = breaks(s);
     const scale = plan.peakRateRadPerS;
     for (let k = 1; k < 60; k++) {
@@ -155,15 +182,22 @@ describe.each(cases)('reference kinematics: $name', (c) => {
  */
 function flyOpenLoop(c: Case, s: SequencePlan, torque: (t: number, out: Float64Array) => void) {
   const J = c.J;
-  const Jinv = (inv([[J[0]!, J[3]!, J[6]!], [J[1]!, J[4]!, J[7]!], [J[2]!, J[5]!, J[8]!]]) as number[][]);
+  const Jinv = inv([
+    [J[0]!, J[3]!, J[6]!],
+    [J[1]!, J[4]!, J[7]!],
+    [J[2]!, J[5]!, J[8]!],
+  ]) as number[][];
   const tau = new Float64Array(3);
   let y = [...s.timeline[0]!.plan.qStart, 0, 0, 0, ...c.h0];
   const bk = breaks(s);
   for (let k = 0; k + 1 < bk.length; k++) {
-    const a = bk[k]!, b = bk[k + 1]!;
+    const a = bk[k]!,
+      b = bk[k + 1]!;
     const f = (t: number, x: number[]) => {
       torque(clampInto(t, a, b), tau);
-      const q = x.slice(0, 4), om = x.slice(4, 7), hw = x.slice(7, 10);
+      const q = x.slice(0, 4),
+        om = x.slice(4, 7),
+        hw = x.slice(7, 10);
       const H = [0, 1, 2].map((r) => J[r]! * om[0]! + J[3 + r]! * om[1]! + J[6 + r]! * om[2]! + hw[r]!);
       const g = [om[1]! * H[2]! - om[2]! * H[1]!, om[2]! * H[0]! - om[0]! * H[2]!, om[0]! * H[1]! - om[1]! * H[0]!];
       const rhs = [0, 1, 2].map((i) => tau[i]! - g[i]!);
@@ -196,7 +230,10 @@ describe.each(cases)('open-loop dynamics with odex: $name', (c) => {
 
   if (c.h0.some((x) => x !== 0)) {
     it('negative control: without the gyroscopic term (τ = J e α only) the body misses', () => {
-      const h = new Float64Array(3), q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
+      const h = new Float64Array(3),
+        q = new Float64Array(4),
+        w = new Float64Array(3),
+        wd = new Float64Array(3);
       const end = flyOpenLoop(c, s, (t, out) => {
         evaluateReference(s, t, q, w, wd);
         evaluatePlannedLoads(s, t, out, h);

@@ -28,13 +28,22 @@ import {
 } from '../../app/engine/math/rotation';
 
 const unitQuat = fc
-  .tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }))
+  .tuple(
+    fc.double({ min: -1, max: 1, noNaN: true }),
+    fc.double({ min: -1, max: 1, noNaN: true }),
+    fc.double({ min: -1, max: 1, noNaN: true }),
+    fc.double({ min: -1, max: 1, noNaN: true }),
+  )
   .filter(([a, b, c, d]) => Math.hypot(a, b, c, d) > 0.1)
   .map(([a, b, c, d]) => {
     const n = Math.hypot(a, b, c, d);
     return qFromValues(a / n, b / n, c / n, d / n);
   });
-const vec = fc.tuple(fc.double({ min: -10, max: 10, noNaN: true }), fc.double({ min: -10, max: 10, noNaN: true }), fc.double({ min: -10, max: 10, noNaN: true }));
+const vec = fc.tuple(
+  fc.double({ min: -10, max: 10, noNaN: true }),
+  fc.double({ min: -10, max: 10, noNaN: true }),
+  fc.double({ min: -10, max: 10, noNaN: true }),
+);
 
 /** Our [x, y, z, w] to the library's scalar-first object. */
 const lib = (q: ArrayLike<number>) => new Quaternion(q[3], q[0], q[1], q[2]);
@@ -87,16 +96,23 @@ describe('quaternion algebra vs npm `quaternion` 2.2.0 (independent implementati
 
   it('exponential and logarithm maps match the library exp/log', () => {
     fc.assert(
-      fc.property(fc.tuple(fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true })), (phi) => {
-        if (Math.hypot(...phi) > Math.PI - 1e-3) return;
-        const ours = qFromRotationVector(new Float64Array(4), phi);
-        // exp of the pure quaternion (0, phi/2)
-        const theirs = new Quaternion(0, phi[0] / 2, phi[1] / 2, phi[2] / 2).exp();
-        expect(ours[3]).toBeCloseTo(theirs.w, 13);
-        for (let i = 0; i < 3; i++) expect(ours[i]).toBeCloseTo([theirs.x, theirs.y, theirs.z][i]!, 13);
-        const log = qToRotationVector(new Float64Array(3), ours);
-        for (let i = 0; i < 3; i++) expect(log[i]).toBeCloseTo(phi[i]!, 11);
-      }),
+      fc.property(
+        fc.tuple(
+          fc.double({ min: -3, max: 3, noNaN: true }),
+          fc.double({ min: -3, max: 3, noNaN: true }),
+          fc.double({ min: -3, max: 3, noNaN: true }),
+        ),
+        (phi) => {
+          if (Math.hypot(...phi) > Math.PI - 1e-3) return;
+          const ours = qFromRotationVector(new Float64Array(4), phi);
+          // exp of the pure quaternion (0, phi/2)
+          const theirs = new Quaternion(0, phi[0] / 2, phi[1] / 2, phi[2] / 2).exp();
+          expect(ours[3]).toBeCloseTo(theirs.w, 13);
+          for (let i = 0; i < 3; i++) expect(ours[i]).toBeCloseTo([theirs.x, theirs.y, theirs.z][i]!, 13);
+          const log = qToRotationVector(new Float64Array(3), ours);
+          for (let i = 0; i < 3; i++) expect(log[i]).toBeCloseTo(phi[i]!, 11);
+        },
+      ),
       { numRuns: 1000 },
     );
   });
@@ -147,45 +163,69 @@ describe('CCSDS 504.0-B-2 Annex F2 quaternion examples', () => {
 
 describe('Euler sequences (all 12, intrinsic) against elementary rotations and mathjs expm', () => {
   const elem = (axis: number, a: number): number[][] => {
-    const c = Math.cos(a), s = Math.sin(a);
-    if (axis === 0) return [[1, 0, 0], [0, c, -s], [0, s, c]];
-    if (axis === 1) return [[c, 0, s], [0, 1, 0], [-s, 0, c]];
-    return [[c, -s, 0], [s, c, 0], [0, 0, 1]];
+    const c = Math.cos(a),
+      s = Math.sin(a);
+    if (axis === 0)
+      return [
+        [1, 0, 0],
+        [0, c, -s],
+        [0, s, c],
+      ];
+    if (axis === 1)
+      return [
+        [c, 0, s],
+        [0, 1, 0],
+        [-s, 0, c],
+      ];
+    return [
+      [c, -s, 0],
+      [s, c, 0],
+      [0, 0, 1],
+    ];
   };
   const idx = (ch: string) => (ch === 'X' ? 0 : ch === 'Y' ? 1 : 2);
   const hat = (axis: number, a: number) => {
     const v = [0, 0, 0];
     v[axis] = a;
-    return [[0, -v[2]!, v[1]!], [v[2]!, 0, -v[0]!], [-v[1]!, v[0]!, 0]];
+    return [
+      [0, -v[2]!, v[1]!],
+      [v[2]!, 0, -v[0]!],
+      [-v[1]!, v[0]!, 0],
+    ];
   };
 
   for (const seq of EULER_SEQUENCES) {
     it(`${seq}: R = R_i(a) R_j(b) R_k(c) and angles round-trip`, () => {
       fc.assert(
-        fc.property(fc.double({ min: -3.1, max: 3.1, noNaN: true }), fc.double({ min: -1.5, max: 1.5, noNaN: true }), fc.double({ min: -3.1, max: 3.1, noNaN: true }), (a, b0, c) => {
-          const proper = seq[0] === seq[2];
-          const b = proper ? Math.abs(b0) * 2 + 0.01 : b0; // proper: (0, π); Tait–Bryan: (−π/2, π/2)
-          const q = qFromEuler(new Float64Array(4), seq, a, b, c);
-          const m = qToMat3(new Float64Array(9), q);
-          const Rm = math.multiply(math.multiply(elem(idx(seq[0]!), a), elem(idx(seq[1]!), b)), elem(idx(seq[2]!), c)) as number[][];
-          const Re = math.multiply(
-            math.multiply(math.expm(math.matrix(hat(idx(seq[0]!), a))), math.expm(math.matrix(hat(idx(seq[1]!), b)))),
-            math.expm(math.matrix(hat(idx(seq[2]!), c))),
-          ) as math.Matrix;
-          const ReA = Re.toArray() as number[][];
-          for (let r = 0; r < 3; r++)
-            for (let k = 0; k < 3; k++) {
-              expect(m[3 * k + r]).toBeCloseTo(Rm[r]![k]!, 12);
-              expect(m[3 * k + r]).toBeCloseTo(ReA[r]![k]!, 11);
-            }
-          const e = qToEuler(new Float64Array(3), seq, q);
-          const q2 = qFromEuler(new Float64Array(4), seq, e[0]!, e[1]!, e[2]!);
-          const d = Math.abs(q[0]! * q2[0]! + q[1]! * q2[1]! + q[2]! * q2[2]! + q[3]! * q2[3]!);
-          expect(d).toBeCloseTo(1, 12);
-          expect(e[0]).toBeCloseTo(a, 9);
-          expect(e[1]).toBeCloseTo(b, 9);
-          expect(e[2]).toBeCloseTo(c, 9);
-        }),
+        fc.property(
+          fc.double({ min: -3.1, max: 3.1, noNaN: true }),
+          fc.double({ min: -1.5, max: 1.5, noNaN: true }),
+          fc.double({ min: -3.1, max: 3.1, noNaN: true }),
+          (a, b0, c) => {
+            const proper = seq[0] === seq[2];
+            const b = proper ? Math.abs(b0) * 2 + 0.01 : b0; // proper: (0, π); Tait–Bryan: (−π/2, π/2)
+            const q = qFromEuler(new Float64Array(4), seq, a, b, c);
+            const m = qToMat3(new Float64Array(9), q);
+            const Rm = math.multiply(math.multiply(elem(idx(seq[0]!), a), elem(idx(seq[1]!), b)), elem(idx(seq[2]!), c)) as number[][];
+            const Re = math.multiply(
+              math.multiply(math.expm(math.matrix(hat(idx(seq[0]!), a))), math.expm(math.matrix(hat(idx(seq[1]!), b)))),
+              math.expm(math.matrix(hat(idx(seq[2]!), c))),
+            ) as math.Matrix;
+            const ReA = Re.toArray() as number[][];
+            for (let r = 0; r < 3; r++)
+              for (let k = 0; k < 3; k++) {
+                expect(m[3 * k + r]).toBeCloseTo(Rm[r]![k]!, 12);
+                expect(m[3 * k + r]).toBeCloseTo(ReA[r]![k]!, 11);
+              }
+            const e = qToEuler(new Float64Array(3), seq, q);
+            const q2 = qFromEuler(new Float64Array(4), seq, e[0]!, e[1]!, e[2]!);
+            const d = Math.abs(q[0]! * q2[0]! + q[1]! * q2[1]! + q[2]! * q2[2]! + q[3]! * q2[3]!);
+            expect(d).toBeCloseTo(1, 12);
+            expect(e[0]).toBeCloseTo(a, 9);
+            expect(e[1]).toBeCloseTo(b, 9);
+            expect(e[2]).toBeCloseTo(c, 9);
+          },
+        ),
         { numRuns: 200 },
       );
     });

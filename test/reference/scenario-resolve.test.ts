@@ -23,8 +23,7 @@ import { makeRng } from '../../app/engine/math/prng';
 import { loadScenario } from '../../app/engine/scenario/resolve';
 import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
 import { loadExample } from '../unit/scenario-fixtures';
-
-const DEG = Math.PI / 180;
+import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
 
 function resolved(json: unknown): ResolvedScenario {
   const r = loadScenario(json);
@@ -57,13 +56,17 @@ describe('Euler targets', () => {
     fc.assert(
       fc.property(
         fc.constantFrom(...EULER_SEQUENCES),
-        fc.tuple(fc.double({ min: -360, max: 360, noNaN: true }), fc.double({ min: -360, max: 360, noNaN: true }), fc.double({ min: -360, max: 360, noNaN: true })),
+        fc.tuple(
+          fc.double({ min: -360, max: 360, noNaN: true }),
+          fc.double({ min: -360, max: 360, noNaN: true }),
+          fc.double({ min: -360, max: 360, noNaN: true }),
+        ),
         (seq, angles) => {
           const s = loadExample('tern12-reversal');
           s.initial.attitude = { euler: { sequence: seq, anglesDeg: angles } };
           s.targets[0].attitude = { euler: { sequence: seq, anglesDeg: angles } };
           const r = resolved(s);
-          const ref = Quaternion.fromEuler(angles[0] * DEG, angles[1] * DEG, angles[2] * DEG, seq);
+          const ref = Quaternion.fromEuler(angles[0] * RAD_PER_DEG, angles[1] * RAD_PER_DEG, angles[2] * RAD_PER_DEG, seq);
           expectSameAttitude(r.initial.qInertialFromBody, ref);
           expectSameAttitude(r.targets[0]!.qInertialFromBody, ref);
         },
@@ -84,8 +87,15 @@ describe('Euler targets', () => {
 describe('pointing targets', () => {
   const rng = makeRng(11, 3);
   const gauss = (): V3 => [rng.normal(), rng.normal(), rng.normal()];
-  const unit = (v: number[]) => { const n = Math.hypot(...v); return v.map((x) => x / n); };
-  const angle = (a: number[], b: number[]) => Math.atan2(Math.hypot(a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!), a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!);
+  const unit = (v: number[]) => {
+    const n = Math.hypot(...v);
+    return v.map((x) => x / n);
+  };
+  const angle = (a: number[], b: number[]) =>
+    Math.atan2(
+      Math.hypot(a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!),
+      a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!,
+    );
   const sinA = (a: number[], b: number[]) => Math.sin(angle(a, b));
 
   it('R·b = r exactly and the secondary misalignment is the least possible', () => {
@@ -129,18 +139,18 @@ describe('relative targets', () => {
     const r = resolved(s);
     const q1 = r.targets[0]!.qInertialFromBody;
     const prev = new Quaternion(q1[3], q1[0], q1[1], q1[2]);
-    const k2 = prev.mul(Quaternion.fromAxisAngle([1, 0, 0], -14 * DEG));
-    const k3 = k2.mul(Quaternion.fromAxisAngle([0.3, -2, 0.5], 33 * DEG));
+    const k2 = prev.mul(Quaternion.fromAxisAngle([1, 0, 0], -14 * RAD_PER_DEG));
+    const k3 = k2.mul(Quaternion.fromAxisAngle([0.3, -2, 0.5], 33 * RAD_PER_DEG));
     expectSameAttitude(r.targets[1]!.qInertialFromBody, k2, 1e-14);
     expectSameAttitude(r.targets[2]!.qInertialFromBody, k3, 1e-14);
-    expect(qAngleBetween(r.targets[1]!.qInertialFromBody, r.targets[0]!.qInertialFromBody)).toBeCloseTo(14 * DEG, 12);
+    expect(qAngleBetween(r.targets[1]!.qInertialFromBody, r.targets[0]!.qInertialFromBody)).toBeCloseTo(14 * RAD_PER_DEG, 12);
   });
 
   it('the first target composes on the initial attitude (Tern-12 reversal is 175°)', () => {
     const r = resolved(loadExample('tern12-reversal'));
-    expect(qAngleBetween(r.initial.qInertialFromBody, r.targets[0]!.qInertialFromBody) / DEG).toBeCloseTo(175, 10);
+    expect(qAngleBetween(r.initial.qInertialFromBody, r.targets[0]!.qInertialFromBody) * DEG_PER_RAD).toBeCloseTo(175, 10);
     const q0 = r.initial.qInertialFromBody;
-    const ref = new Quaternion(q0[3], q0[0], q0[1], q0[2]).mul(Quaternion.fromAxisAngle([0.15, 0.2, 0.97], 175 * DEG));
+    const ref = new Quaternion(q0[3], q0[0], q0[1], q0[2]).mul(Quaternion.fromAxisAngle([0.15, 0.2, 0.97], 175 * RAD_PER_DEG));
     expectSameAttitude(r.targets[0]!.qInertialFromBody, ref, 1e-14);
   });
 });
@@ -158,15 +168,15 @@ describe('SI conversion and the example vehicles', () => {
     // Cant on cube diagonals: cos β = 1/√3 (references: Markley et al., JGCD 33(5), 2010 geometry).
     expect(Math.cos(v.wheels.cantAngleRad)).toBeCloseTo(1 / Math.sqrt(3), 11);
     expect(v.wheels.azimuthOffsetRad).toBeCloseTo(Math.PI / 4, 15);
-    expect(v.sensors.attitudeNoiseRad).toBeCloseTo((10 / 3600) * DEG, 18);
-    expect(v.sensors.rateBiasRadPerS[0]).toBeCloseTo(0.0011 * DEG, 18);
+    expect(v.sensors.attitudeNoiseRad).toBeCloseTo((10 / 3600) * RAD_PER_DEG, 18);
+    expect(v.sensors.rateBiasRadPerS[0]).toBeCloseTo(0.0011 * RAD_PER_DEG, 18);
     expect(v.controlPeriodS).toBe(0.1);
     expect(v.wheelFriction!.coulombNm).toBeCloseTo(1e-6, 18);
     expect(Array.from(r.initial.hWheelNms)).toEqual([0.0005, -0.0005, 0.0005, -0.0005]);
-    expect(r.initial.omegaBody[1]).toBeCloseTo(-0.01 * DEG, 18);
-    expect(r.planning.slewRateLimitRadPerS).toBeCloseTo(3 * DEG, 15);
-    expect(r.simulation.settleAngleRad).toBeCloseTo(0.1 * DEG, 15);
-    expect(r.keepOut[0]!.halfAngleRad).toBeCloseTo(40 * DEG, 15);
+    expect(r.initial.omegaBody[1]).toBeCloseTo(-0.01 * RAD_PER_DEG, 18);
+    expect(r.planning.slewRateLimitRadPerS).toBeCloseTo(3 * RAD_PER_DEG, 15);
+    expect(r.simulation.settleAngleRad).toBeCloseTo(0.1 * RAD_PER_DEG, 15);
+    expect(r.keepOut[0]!.halfAngleRad).toBeCloseTo(40 * RAD_PER_DEG, 15);
     expect(Math.hypot(...r.keepOut[0]!.inertialDirection)).toBeCloseTo(1, 15);
     expect(r.epochUnixMs).toBe(Date.UTC(2030, 2, 14, 10, 0, 0));
   });
@@ -199,7 +209,11 @@ describe('SI conversion and the example vehicles', () => {
       // Default and explicit axes agree: A = diag(λ) in the error-frame axes.
       expect(m3Get(syn.potentialMatrix, 1, 1)).toBeCloseTo(2 * c, 15);
       expect(m3Get(syn.potentialMatrix, 0, 2)).toBe(0);
-      expect(syn.warpDirections.map((u) => Array.from(u))).toEqual([[1, 0, 0], [0, 1, 0], [0, 0, 1]]);
+      expect(syn.warpDirections.map((u) => Array.from(u))).toEqual([
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ]);
     }
   });
 

@@ -16,12 +16,12 @@ import { describe, expect, it } from 'vitest';
 import Quaternion from 'quaternion';
 import { erf } from 'mathjs';
 import { drawCase, type NominalCase } from '../../app/engine/study/sample';
-import type { StudyDefinition } from '../../app/engine/study/definition';
+import type { StudyDefinition } from '../../app/engine/scenario/study';
 import { validateInertia } from '../../app/engine/body/inertia';
 import { symmetricEigen3, m3FromRows } from '../../app/engine/math/mat3';
+import { RAD_PER_DEG } from '../../app/engine/units';
 
 const KS_001 = (n: number) => 1.9495 / Math.sqrt(n);
-const DEG = Math.PI / 180;
 
 function ks(samples: number[], cdf: (x: number) => number): number {
   const s = [...samples].sort((a, b) => a - b);
@@ -35,12 +35,21 @@ function ks(samples: number[], cdf: (x: number) => number): number {
 
 function def(over: Partial<StudyDefinition> = {}): StudyDefinition {
   return {
-    runs: 1, seed: 99, controllers: null, durationS: 600, mode: 'direct', stopAfterSettledForS: 20, worstCases: 5,
-    attitude: { mode: 'nominal' }, rateSigmaRadPerS: 0,
+    runs: 1,
+    seed: 99,
+    controllers: null,
+    durationS: 600,
+    mode: 'direct',
+    stopAfterSettledForS: 20,
+    worstCases: 5,
+    attitude: { mode: 'nominal' },
+    rateSigmaRadPerS: 0,
     inertia: { momentSigmaFraction: 0, axisMisalignmentSigmaRad: 0 },
     wheels: { torqueDegradationMax: 0, momentumDegradationMax: 0, failOneWheelProbability: 0 },
     sensors: { attitudeNoiseScale: [1, 1], rateBiasSigmaRadPerS: 0, adversarialEta: 0 },
-    controlRateHz: null, actuation: null, torqueQuantumNm: null,
+    controlRateHz: null,
+    actuation: null,
+    torqueQuantumNm: null,
     ...over,
   };
 }
@@ -48,9 +57,22 @@ function def(over: Partial<StudyDefinition> = {}): StudyDefinition {
 // Nominal start and target: arbitrary unit quaternions ([x, y, z, w]).
 const qStart = [0.1, -0.3, 0.2, Math.sqrt(1 - 0.14)];
 const qTarget = [0.5, 0.5, -0.5, 0.5];
-const nominal = (inertiaRows = [[0.1, 0.001, 0], [0.001, 0.12, 0], [0, 0, 0.08]]): NominalCase => ({
-  qInitial: qStart, qTarget, omega0: [0, 0, 0], inertia: m3FromRows(inertiaRows), nWheels: 4,
-  attitudeNoiseRad: 1e-5, rateBiasRadPerS: [0, 0, 0], controlRateHz: 10, actuation: 'hold',
+const nominal = (
+  inertiaRows = [
+    [0.1, 0.001, 0],
+    [0.001, 0.12, 0],
+    [0, 0, 0.08],
+  ],
+): NominalCase => ({
+  qInitial: qStart,
+  qTarget,
+  omega0: [0, 0, 0],
+  inertia: m3FromRows(inertiaRows),
+  nWheels: 4,
+  attitudeNoiseRad: 1e-5,
+  rateBiasRadPerS: [0, 0, 0],
+  controlRateHz: 10,
+  actuation: 'hold',
 });
 
 /** Quaternion package wants (w, x, y, z). */
@@ -58,7 +80,8 @@ const Q = (q: readonly number[]) => new Quaternion(q[3], q[0], q[1], q[2]);
 /** Rotation taking a to b: a* b, as (angle in [0, π], unit axis). */
 function relative(a: readonly number[], b: readonly number[]): { angle: number; axis: number[]; w: number } {
   const r = Q(a).conjugate().mul(Q(b));
-  const w = r.w, v = [r.x, r.y, r.z];
+  const w = r.w,
+    v = [r.x, r.y, r.z];
   const s = Math.hypot(v[0]!, v[1]!, v[2]!);
   const sg = w < 0 ? -1 : 1;
   return { angle: 2 * Math.atan2(s, Math.abs(w)), axis: v.map((x) => (sg * x) / s), w };
@@ -75,25 +98,50 @@ describe('initial attitude dispersions', () => {
   });
 
   it('cone: angle from the nominal start follows the Haar law restricted to [0, α]; axis uniform', () => {
-    const alpha = 40 * DEG;
+    const alpha = 40 * RAD_PER_DEG;
     const d = def({ attitude: { mode: 'cone', maxAngleRad: alpha } });
     const rel = Array.from({ length: N }, (_, i) => relative(qStart, drawCase(d, nominal(), i).q0));
     expect(Math.max(...rel.map((r) => r.angle))).toBeLessThanOrEqual(alpha + 1e-12);
-    expect(ks(rel.map((r) => r.angle), (t) => F(t) / F(alpha))).toBeLessThan(KS_001(N));
-    expect(ks(rel.map((r) => r.axis[2]!), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
+    expect(
+      ks(
+        rel.map((r) => r.angle),
+        (t) => F(t) / F(alpha),
+      ),
+    ).toBeLessThan(KS_001(N));
+    expect(
+      ks(
+        rel.map((r) => r.axis[2]!),
+        (z) => (z + 1) / 2,
+      ),
+    ).toBeLessThan(KS_001(N));
     // Power: the naive "uniform angle" law is rejected by the same test.
-    expect(ks(rel.map((r) => r.angle), (t) => t / alpha)).toBeGreaterThan(KS_001(N));
+    expect(
+      ks(
+        rel.map((r) => r.angle),
+        (t) => t / alpha,
+      ),
+    ).toBeGreaterThan(KS_001(N));
   });
 
   it('near-reversal: error angle in [180° − w, 180°] with the restricted Haar law, both hemispheres, axis uniform', () => {
-    const w = 8 * DEG;
+    const w = 8 * RAD_PER_DEG;
     const d = def({ attitude: { mode: 'near-reversal', withinRad: w } });
     const draws = Array.from({ length: N }, (_, i) => drawCase(d, nominal(), i));
     const rel = draws.map((c) => relative(qTarget, c.q0));
     const a = Math.PI - w;
     expect(Math.min(...rel.map((r) => r.angle))).toBeGreaterThanOrEqual(a - 1e-12);
-    expect(ks(rel.map((r) => r.angle), (t) => (F(t) - F(a)) / (F(Math.PI) - F(a)))).toBeLessThan(KS_001(N));
-    expect(ks(rel.map((r) => r.axis[2]!), (z) => (z + 1) / 2)).toBeLessThan(KS_001(N));
+    expect(
+      ks(
+        rel.map((r) => r.angle),
+        (t) => (F(t) - F(a)) / (F(Math.PI) - F(a)),
+      ),
+    ).toBeLessThan(KS_001(N));
+    expect(
+      ks(
+        rel.map((r) => r.axis[2]!),
+        (z) => (z + 1) / 2,
+      ),
+    ).toBeLessThan(KS_001(N));
     // Hemisphere: the sign of the error's scalar part is a fair coin (within 4σ of a binomial).
     const neg = rel.filter((r) => r.w < 0).length;
     expect(Math.abs(neg - N / 2)).toBeLessThan(4 * Math.sqrt(N / 4));
@@ -108,7 +156,11 @@ describe('initial attitude dispersions', () => {
 
 describe('a case depends only on (seed, index); dispersions do not disturb each other', () => {
   it('the same case twice is identical; another seed differs', () => {
-    const d = def({ attitude: { mode: 'uniform' }, rateSigmaRadPerS: 0.01, sensors: { attitudeNoiseScale: [0.5, 2], rateBiasSigmaRadPerS: 1e-4, adversarialEta: 0 } });
+    const d = def({
+      attitude: { mode: 'uniform' },
+      rateSigmaRadPerS: 0.01,
+      sensors: { attitudeNoiseScale: [0.5, 2], rateBiasSigmaRadPerS: 1e-4, adversarialEta: 0 },
+    });
     expect(drawCase(d, nominal(), 17)).toEqual(drawCase(d, nominal(), 17));
     expect(drawCase({ ...d, seed: 100 }, nominal(), 17).q0).not.toEqual(drawCase(d, nominal(), 17).q0);
   });
@@ -123,7 +175,8 @@ describe('a case depends only on (seed, index); dispersions do not disturb each 
       controlRateHz: [2, 5, 10],
     });
     for (let i = 0; i < 20; i++) {
-      const a = drawCase(base, nominal(), i), b = drawCase(more, nominal(), i);
+      const a = drawCase(base, nominal(), i),
+        b = drawCase(more, nominal(), i);
       expect(b.q0).toEqual(a.q0);
       expect(b.noiseSeed).toBe(a.noiseSeed);
       expect(b.attitudeNoiseRad).toBe(a.attitudeNoiseRad);
@@ -135,7 +188,11 @@ describe('inertia dispersion keeps only physical samples and counts the rejectio
   it('diag(1, 1, 1.8) with σ = 10 %: every kept sample is physical; the rejection rate matches Φ(−0.2/(σ√5.24))', () => {
     const sigma = 0.1;
     const d = def({ inertia: { momentSigmaFraction: sigma, axisMisalignmentSigmaRad: 0 } });
-    const nom = nominal([[1, 0, 0], [0, 1, 0], [0, 0, 1.8]]);
+    const nom = nominal([
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1.8],
+    ]);
     const cases = 3000;
     let rejections = 0;
     for (let i = 0; i < cases; i++) {
@@ -153,8 +210,12 @@ describe('inertia dispersion keeps only physical samples and counts the rejectio
   });
 
   it('axis misalignment alone turns the principal axes and keeps the principal moments', () => {
-    const d = def({ inertia: { momentSigmaFraction: 0, axisMisalignmentSigmaRad: 5 * DEG } });
-    const rows = [[0.1, 0.001, 0], [0.001, 0.12, 0], [0, 0, 0.08]];
+    const d = def({ inertia: { momentSigmaFraction: 0, axisMisalignmentSigmaRad: 5 * RAD_PER_DEG } });
+    const rows = [
+      [0.1, 0.001, 0],
+      [0.001, 0.12, 0],
+      [0, 0, 0.08],
+    ];
     const m0 = symmetricEigen3(m3FromRows(rows)).values;
     for (let i = 0; i < 30; i++) {
       const c = drawCase(d, nominal(rows), i);
@@ -169,12 +230,16 @@ describe('inertia dispersion keeps only physical samples and counts the rejectio
   it('moment dispersion: sample mean and spread of each principal moment match J_i and σJ_i', () => {
     const sigma = 0.05;
     const d = def({ inertia: { momentSigmaFraction: sigma, axisMisalignmentSigmaRad: 0 } });
-    const nom = nominal([[0.1, 0, 0], [0, 0.12, 0], [0, 0, 0.08]]);
+    const nom = nominal([
+      [0.1, 0, 0],
+      [0, 0.12, 0],
+      [0, 0, 0.08],
+    ]);
     const n = 2000;
     const xs = Array.from({ length: n }, (_, i) => drawCase(d, nom, i).inertiaRows![1]![1]!);
     const mean = xs.reduce((a, b) => a + b, 0) / n;
     const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1));
-    expect(Math.abs(mean - 0.12)).toBeLessThan(4 * (sigma * 0.12) / Math.sqrt(n));
+    expect(Math.abs(mean - 0.12)).toBeLessThan((4 * (sigma * 0.12)) / Math.sqrt(n));
     expect(Math.abs(sd / (sigma * 0.12) - 1)).toBeLessThan(4 / Math.sqrt(2 * n));
   });
 });
@@ -199,7 +264,11 @@ describe('wheel, sensor and rate dispersions', () => {
   });
 
   it('control rate and actuation are picked from their lists; noise scale within [min, max]', () => {
-    const d = def({ controlRateHz: [2, 5, 10], actuation: ['hold', 'pwm'], sensors: { attitudeNoiseScale: [0.5, 3], rateBiasSigmaRadPerS: 0, adversarialEta: 0.1 } });
+    const d = def({
+      controlRateHz: [2, 5, 10],
+      actuation: ['hold', 'pwm'],
+      sensors: { attitudeNoiseScale: [0.5, 3], rateBiasSigmaRadPerS: 0, adversarialEta: 0.1 },
+    });
     const seen = new Set<string>();
     for (let i = 0; i < 300; i++) {
       const c = drawCase(d, nominal(), i);

@@ -111,7 +111,11 @@ describe('cube-diagonal pyramid (cant arccos(1/√3), azimuth offset 45°)', () 
     const pin = applyPinv(new Float64Array(4), arr, Hb);
     [1.5, 0.5, -0.5, 0.5].forEach((v, i) => expect(pin[i]! / h).toBeCloseTo(v, 13));
     // allocateMinMax solves Gτ_w = −τ_c, so ask for τ_c = −H to distribute H itself.
-    const fix = allocateMinMax(new Float64Array(4), arr, Hb.map((x) => -x));
+    const fix = allocateMinMax(
+      new Float64Array(4),
+      arr,
+      Hb.map((x) => -x),
+    );
     [1, 1, -1, 1].forEach((v, i) => expect(fix[i]! / h).toBeCloseTo(v, 13));
     expect(peakTorqueRatio(arr, fix)).toBeCloseTo(1, 13);
   });
@@ -134,7 +138,8 @@ describe('pseudo-inverse and null basis against mathjs', () => {
         const G = [0, 1, 2].map((row) => [...Array(n).keys()].map((i) => arr.axes[3 * i + row]!));
         const P = math.pinv(G) as number[][];
         const scale = Math.max(...P.flat().map(Math.abs));
-        for (let i = 0; i < n; i++) for (let c = 0; c < 3; c++) expect(Math.abs(arr.pinv[3 * i + c]! - P[i]![c]!)).toBeLessThan(1e-10 * scale);
+        for (let i = 0; i < n; i++)
+          for (let c = 0; c < 3; c++) expect(Math.abs(arr.pinv[3 * i + c]! - P[i]![c]!)).toBeLessThan(1e-10 * scale);
         const k = n - 3;
         expect(arr.nullBasis.length).toBe(k * n);
         for (let a = 0; a < k; a++) {
@@ -199,7 +204,13 @@ describe('min-max allocation against an independent LP and against the envelope 
         const tauC = [rng.normal(), rng.normal(), rng.normal()];
         const out = allocateMinMax(new Float64Array(n), arr, tauC);
         const peak = peakTorqueRatio(arr, out);
-        expect(peak).toBeCloseTo(bruteMinMax(arr, tauC.map((x) => -x)), 9);
+        expect(peak).toBeCloseTo(
+          bruteMinMax(
+            arr,
+            tauC.map((x) => -x),
+          ),
+          9,
+        );
         // min max_i |τ_i|/l_i for −Gτ = τ_c equals |τ_c| / (capacity of the torque zonotope along τ_c).
         expect(peak).toBeCloseTo(Math.hypot(...tauC) / envelopeCapacity(torqueEnvelope(arr), tauC), 9);
         if (n === 4) {

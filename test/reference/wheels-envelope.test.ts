@@ -88,20 +88,41 @@ describe('cube-diagonal pyramid (cant arccos(1/√3) from +Z, azimuth offset 45�
 
   it('momentum capacity 4/√3 h = 2.3094 h along each body axis', () => {
     // Markley et al. JGCD 2010 geometry; value as computed by LP for the reference notes.
-    for (const d of [[1, 0, 0], [0, 1, 0], [0, 0, 1], [-1, 0, 0], [0, 0, -1]]) {
+    for (const d of [
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+      [-1, 0, 0],
+      [0, 0, -1],
+    ]) {
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(4 / Math.sqrt(3), 12);
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(2.3094, 4);
     }
   });
 
   it('capacity 2.0 h along a wheel axis', () => {
-    for (const w of [[1, 1, 1], [-1, 1, 1], [-1, -1, 1], [1, -1, 1]]) {
-      expect(envelopeCapacity(zh, w.map((x) => x * s3)) / H).toBeCloseTo(2, 12);
+    for (const w of [
+      [1, 1, 1],
+      [-1, 1, 1],
+      [-1, -1, 1],
+      [1, -1, 1],
+    ]) {
+      expect(
+        envelopeCapacity(
+          zh,
+          w.map((x) => x * s3),
+        ) / H,
+      ).toBeCloseTo(2, 12);
     }
   });
 
   it('worst capacity 4/√6 h = 1.6330 h on face normals such as (1,1,0)/√2; every facet is at that distance', () => {
-    for (const d of [[1, 1, 0], [1, 0, 1], [0, 1, -1], [-1, 1, 0]]) {
+    for (const d of [
+      [1, 1, 0],
+      [1, 0, 1],
+      [0, 1, -1],
+      [-1, 1, 0],
+    ]) {
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(4 / Math.sqrt(6), 12);
       expect(envelopeCapacity(zh, d) / H).toBeCloseTo(1.633, 4);
     }
@@ -199,7 +220,12 @@ describe('capacity against an independent LP (basic-solution enumeration with ma
           const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
           const p = d.map((x) => (x / dn) * ref);
           expect(envelopeContains(z, p, 1e-12)).toBe(true);
-          expect(envelopeContains(z, p.map((x) => x * (1 + 1e-9)))).toBe(false);
+          expect(
+            envelopeContains(
+              z,
+              p.map((x) => x * (1 + 1e-9)),
+            ),
+          ).toBe(false);
         }
       }
     });

@@ -6,7 +6,13 @@
  */
 declare module 'odex' {
   export type Derivative = (x: number, y: number[]) => number[];
-  export type OutputFunction = (nr: number, xold: number, x: number, y: number[], dense?: (c: number, x: number) => number) => boolean | void;
+  export type OutputFunction = (
+    nr: number,
+    xold: number,
+    x: number,
+    y: number[],
+    dense?: (c: number, x: number) => number,
+  ) => boolean | void;
   export interface SolverResult {
     y: number[];
     outcome: number;

@@ -9,8 +9,13 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import Quaternion from 'quaternion';
 import {
-  gyrostatDerivative, kineticEnergy, makeGyrostat, totalMomentumBody, totalMomentumInertial,
-  wheelMomentumFromRelativeSpeed, wheelRelativeSpeed,
+  gyrostatDerivative,
+  kineticEnergy,
+  makeGyrostat,
+  totalMomentumBody,
+  totalMomentumInertial,
+  wheelMomentumFromRelativeSpeed,
+  wheelRelativeSpeed,
 } from '../../app/engine/body/gyrostat';
 import type { Gyrostat, WheelGeometry } from '../../app/engine/body/gyrostat';
 import { m3Diag, m3FromRows } from '../../app/engine/math/mat3';
@@ -20,7 +25,8 @@ import type { Issue } from '../../app/engine/errors';
 
 /** Pyramid with sin β = 1/√3 (methods §6): g_i = (cosβ cosφ_i, cosβ sinφ_i, sinβ). */
 function pyramid(js: number[]): WheelGeometry {
-  const sb = 1 / Math.sqrt(3), cb = Math.sqrt(2 / 3);
+  const sb = 1 / Math.sqrt(3),
+    cb = Math.sqrt(2 / 3);
   const axes = new Float64Array(12);
   for (let i = 0; i < 4; i++) {
     const phi = (i * Math.PI) / 2;
@@ -31,7 +37,11 @@ function pyramid(js: number[]): WheelGeometry {
   return { n: 4, axes, rotorInertiaKgm2: new Float64Array(js) };
 }
 
-const J6 = m3FromRows([[0.11, 0.002, -0.001], [0.002, 0.12, 0.0015], [-0.001, 0.0015, 0.08]]);
+const J6 = m3FromRows([
+  [0.11, 0.002, -0.001],
+  [0.002, 0.12, 0.0015],
+  [-0.001, 0.0015, 0.08],
+]);
 
 function mk(J = J6, w = pyramid([2e-5, 2.5e-5, 3e-5, 3.5e-5]), fr?: Parameters<typeof makeGyrostat>[2]): Gyrostat {
   const r = makeGyrostat(J, w, fr);
@@ -71,7 +81,9 @@ describe('makeGyrostat', () => {
 
   it('reports every bad wheel and friction field together', () => {
     const w: WheelGeometry = {
-      n: 3, axes: new Float64Array([1, 0, 0, 0, 1, 0, 0, 0.5, 0.5]), rotorInertiaKgm2: new Float64Array([1e-5, -1, NaN]),
+      n: 3,
+      axes: new Float64Array([1, 0, 0, 0, 1, 0, 0, 0.5, 0.5]),
+      rotorInertiaKgm2: new Float64Array([1e-5, -1, NaN]),
     };
     const e = errs(J6, w, { viscousNmsPerRad: new Float64Array([0, -1, 0]), coulombNm: Infinity, coulombSmoothingRadPerS: 0 });
     expect(e.map((i) => `${i.path}:${i.rule}`)).toEqual([
@@ -85,12 +97,23 @@ describe('makeGyrostat', () => {
   });
 
   it('rejects wrong array lengths, a bad n and an indefinite J', () => {
-    expect(errs(J6, { n: 2, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) }).map((i) => i.path))
-      .toEqual(['wheels.axes', 'wheels.rotorInertiaKgm2']);
+    expect(errs(J6, { n: 2, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) }).map((i) => i.path)).toEqual([
+      'wheels.axes',
+      'wheels.rotorInertiaKgm2',
+    ]);
     expect(errs(J6, { n: 1.5, axes: new Float64Array(3), rotorInertiaKgm2: new Float64Array(1) })[0]!.path).toBe('wheels.n');
     const none: WheelGeometry = { n: 0, axes: new Float64Array(0), rotorInertiaKgm2: new Float64Array(0) };
     expect(errs(m3Diag(1, 1, -1), none).map((i) => i.rule)).toContain('positive-definite');
-    expect(errs(m3FromRows([[1, 0.5, 0], [0, 1, 0], [0, 0, 1]]), none).map((i) => i.rule)).toContain('symmetric');
+    expect(
+      errs(
+        m3FromRows([
+          [1, 0.5, 0],
+          [0, 1, 0],
+          [0, 0, 1],
+        ]),
+        none,
+      ).map((i) => i.rule),
+    ).toContain('symmetric');
   });
 });
 
@@ -134,44 +157,50 @@ describe('gyrostatDerivative', () => {
 
   it('Ḣ + ω × H = τ_ext at random states, with and without friction (Euler’s law, methods §6)', () => {
     for (const g of [mk(), gFr]) {
-      fc.assert(fc.property(stateArb, ({ seed, w, h, tau, ext }) => {
-        const x = new Float64Array(11);
-        x.set(qRandomUniform(new Float64Array(4), makeRng(seed)), 0);
-        x.set(w, 4);
-        x.set(h, 7);
-        const dx = new Float64Array(11);
-        gyrostatDerivative(dx, x, g, tau, ext);
-        // Ḣ = J⊥ ω̇ + G ḣ (G and J⊥ constant in body axes)
-        const dH = totalMomentumBody(new Float64Array(3), [0, 0, 0, 1, dx[4]!, dx[5]!, dx[6]!, dx[7]!, dx[8]!, dx[9]!, dx[10]!], g);
-        const H = totalMomentumBody(new Float64Array(3), x, g);
-        const c = [w[1]! * H[2]! - w[2]! * H[1]!, w[2]! * H[0]! - w[0]! * H[2]!, w[0]! * H[1]! - w[1]! * H[0]!];
-        for (let k = 0; k < 3; k++) expect(dH[k]! + c[k]! - ext[k]!).toBeCloseTo(0, 15);
-      }), { numRuns: 200 });
+      fc.assert(
+        fc.property(stateArb, ({ seed, w, h, tau, ext }) => {
+          const x = new Float64Array(11);
+          x.set(qRandomUniform(new Float64Array(4), makeRng(seed)), 0);
+          x.set(w, 4);
+          x.set(h, 7);
+          const dx = new Float64Array(11);
+          gyrostatDerivative(dx, x, g, tau, ext);
+          // Ḣ = J⊥ ω̇ + G ḣ (G and J⊥ constant in body axes)
+          const dH = totalMomentumBody(new Float64Array(3), [0, 0, 0, 1, dx[4]!, dx[5]!, dx[6]!, dx[7]!, dx[8]!, dx[9]!, dx[10]!], g);
+          const H = totalMomentumBody(new Float64Array(3), x, g);
+          const c = [w[1]! * H[2]! - w[2]! * H[1]!, w[2]! * H[0]! - w[0]! * H[2]!, w[0]! * H[1]! - w[1]! * H[0]!];
+          for (let k = 0; k < 3; k++) expect(dH[k]! + c[k]! - ext[k]!).toBeCloseTo(0, 15);
+        }),
+        { numRuns: 200 },
+      );
     }
   });
 
   it('power balance dT/dt = Σ τ_i Ω_i + ωᵀτ_ext; friction only removes energy', () => {
-    fc.assert(fc.property(stateArb, ({ seed, w, h, tau, ext }) => {
-      const x = new Float64Array(11);
-      x.set(qRandomUniform(new Float64Array(4), makeRng(seed)), 0);
-      x.set(w, 4);
-      x.set(h, 7);
-      const Om = wheelRelativeSpeed(new Float64Array(4), x, gFr);
-      const dx = new Float64Array(11);
-      gyrostatDerivative(dx, x, gFr, tau, ext);
-      // dT/dt = ωᵀ J⊥ ω̇ + Σ h_i ḣ_i / J_s,i
-      let dT = 0;
-      for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) dT += w[r]! * gFr.Jperp[3 * c + r]! * dx[4 + c]!;
-      for (let i = 0; i < 4; i++) dT += (h[i]! * dx[7 + i]!) / gFr.Js[i]!;
-      let motor = w[0]! * ext[0]! + w[1]! * ext[1]! + w[2]! * ext[2]!;
-      let friction = 0;
-      for (let i = 0; i < 4; i++) {
-        motor += tau[i]! * Om[i]!;
-        friction += (dx[7 + i]! - tau[i]!) * Om[i]!;
-      }
-      expect(friction).toBeLessThanOrEqual(0);
-      expect(dT - motor - friction).toBeCloseTo(0, 12);
-    }), { numRuns: 200 });
+    fc.assert(
+      fc.property(stateArb, ({ seed, w, h, tau, ext }) => {
+        const x = new Float64Array(11);
+        x.set(qRandomUniform(new Float64Array(4), makeRng(seed)), 0);
+        x.set(w, 4);
+        x.set(h, 7);
+        const Om = wheelRelativeSpeed(new Float64Array(4), x, gFr);
+        const dx = new Float64Array(11);
+        gyrostatDerivative(dx, x, gFr, tau, ext);
+        // dT/dt = ωᵀ J⊥ ω̇ + Σ h_i ḣ_i / J_s,i
+        let dT = 0;
+        for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) dT += w[r]! * gFr.Jperp[3 * c + r]! * dx[4 + c]!;
+        for (let i = 0; i < 4; i++) dT += (h[i]! * dx[7 + i]!) / gFr.Js[i]!;
+        let motor = w[0]! * ext[0]! + w[1]! * ext[1]! + w[2]! * ext[2]!;
+        let friction = 0;
+        for (let i = 0; i < 4; i++) {
+          motor += tau[i]! * Om[i]!;
+          friction += (dx[7 + i]! - tau[i]!) * Om[i]!;
+        }
+        expect(friction).toBeLessThanOrEqual(0);
+        expect(dT - motor - friction).toBeCloseTo(0, 12);
+      }),
+      { numRuns: 200 },
+    );
   });
 
   it('friction torque opposes the relative spin: −cΩ − τ_c tanh(Ω/Ω_s)', () => {

@@ -17,7 +17,11 @@ function errorsOf(rows: unknown, path?: string): Issue[] {
 
 describe('validateInertia: accepted matrices', () => {
   it('Lumen-6 style inertia with small products: column-major, symmetric, moments ascending, proper axes', () => {
-    const rows = [[0.11, 0.002, -0.001], [0.002, 0.12, 0.0015], [-0.001, 0.0015, 0.08]];
+    const rows = [
+      [0.11, 0.002, -0.001],
+      [0.002, 0.12, 0.0015],
+      [-0.001, 0.0015, 0.08],
+    ];
     const r = validateInertia(rows);
     expect(r.ok).toBe(true);
     if (!r.ok) return;
@@ -42,7 +46,11 @@ describe('validateInertia: accepted matrices', () => {
   });
 
   it('[[2,1,0],[1,2,0],[0,0,3]] has principal moments 1, 3, 3 (hand algebra)', () => {
-    const r = validateInertia([[2, 1, 0], [1, 2, 0], [0, 0, 3]]);
+    const r = validateInertia([
+      [2, 1, 0],
+      [1, 2, 0],
+      [0, 0, 3],
+    ]);
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.value.moments[0]).toBeCloseTo(1, 14);
@@ -53,11 +61,21 @@ describe('validateInertia: accepted matrices', () => {
   it('accepts typed-array rows and the thin-disk limit J1 + J2 = J3', () => {
     expect(validateInertia([new Float64Array([1, 0, 0]), new Float64Array([0, 1, 0]), new Float64Array([0, 0, 2])]).ok).toBe(true);
     // within the 1e-9 relative triangle tolerance
-    expect(validateInertia([[1, 0, 0], [0, 1, 0], [0, 0, 2 * (1 + 1e-10)]]).ok).toBe(true);
+    expect(
+      validateInertia([
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 2 * (1 + 1e-10)],
+      ]).ok,
+    ).toBe(true);
   });
 
   it('accepts an asymmetry below 1e-6 of the largest entry and returns the exactly symmetric part', () => {
-    const r = validateInertia([[1, 1e-8, 0], [0, 1, 0], [0, 0, 1.5]]);
+    const r = validateInertia([
+      [1, 1e-8, 0],
+      [0, 1, 0],
+      [0, 0, 1.5],
+    ]);
     expect(r.ok).toBe(true);
     if (r.ok) expect(r.value.J[3]).toBe(r.value.J[1]);
   });
@@ -66,67 +84,140 @@ describe('validateInertia: accepted matrices', () => {
 describe('validateInertia: each rule with its path', () => {
   it('shape: not an array, wrong row count, wrong row length', () => {
     expect(errorsOf(42)).toEqual([expect.objectContaining({ path: 'inertia', rule: 'shape' })]);
-    expect(errorsOf([[1, 0, 0], [0, 1, 0]])).toEqual([expect.objectContaining({ path: 'inertia', rule: 'shape' })]);
-    const e = errorsOf([[1, 0, 0], [0, 1], [0, 0, 1]]);
+    expect(
+      errorsOf([
+        [1, 0, 0],
+        [0, 1, 0],
+      ]),
+    ).toEqual([expect.objectContaining({ path: 'inertia', rule: 'shape' })]);
+    const e = errorsOf([
+      [1, 0, 0],
+      [0, 1],
+      [0, 0, 1],
+    ]);
     expect(e).toEqual([expect.objectContaining({ path: 'inertia[1]', rule: 'shape' })]);
     expect(errorsOf([[1, 0, 0], 'row', [0, 0, 1]])).toEqual([expect.objectContaining({ path: 'inertia[1]', rule: 'shape' })]);
   });
 
   it('finite: NaN, Infinity, strings and null entries each named', () => {
-    const e = errorsOf([[1, 0, NaN], [0, Infinity, 0], ['0', 0, null]]);
+    const e = errorsOf([
+      [1, 0, NaN],
+      [0, Infinity, 0],
+      ['0', 0, null],
+    ]);
     expect(e.map((i) => `${i.path}:${i.rule}`)).toEqual([
-      'inertia[0][2]:finite', 'inertia[1][1]:finite', 'inertia[2][0]:finite', 'inertia[2][2]:finite',
+      'inertia[0][2]:finite',
+      'inertia[1][1]:finite',
+      'inertia[2][0]:finite',
+      'inertia[2][2]:finite',
     ]);
   });
 
   it('symmetric: the offending pair is named in the message', () => {
-    const e = errorsOf([[1, 0.01, 0], [0.02, 1, 0], [0, 0, 1.5]]);
+    const e = errorsOf([
+      [1, 0.01, 0],
+      [0.02, 1, 0],
+      [0, 0, 1.5],
+    ]);
     expect(e).toHaveLength(1);
     expect(e[0]).toMatchObject({ path: 'inertia[0][1]', rule: 'symmetric' });
     expect(e[0]!.message).toContain('inertia[1][0]');
   });
 
   it('positive-definite: the message names the smallest eigenvalue', () => {
-    const e = errorsOf([[1, 0, 0], [0, 2, 0], [0, 0, 0]]);
+    const e = errorsOf([
+      [1, 0, 0],
+      [0, 2, 0],
+      [0, 0, 0],
+    ]);
     expect(e.map((i) => i.rule)).toContain('positive-definite');
     const pd = e.find((i) => i.rule === 'positive-definite')!;
     expect(pd.path).toBe('inertia');
     expect(pd.message).toMatch(/smallest eigenvalue is 0 /);
-    const neg = errorsOf([[2, 0, 0], [0, 3, 0], [0, 0, -0.5]]).find((i) => i.rule === 'positive-definite')!;
+    const neg = errorsOf([
+      [2, 0, 0],
+      [0, 3, 0],
+      [0, 0, -0.5],
+    ]).find((i) => i.rule === 'positive-definite')!;
     expect(neg.message).toContain('-0.5');
   });
 
   it('triangle-inequality: diag(1, 1, 3) and diag(1, 1, 2·(1 + 1e-8))', () => {
-    const e = errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, 3]]);
+    const e = errorsOf([
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 3],
+    ]);
     expect(e).toEqual([expect.objectContaining({ path: 'inertia', rule: 'triangle-inequality' })]);
-    expect(errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, 2 * (1 + 1e-8)]])[0]!.rule).toBe('triangle-inequality');
+    expect(
+      errorsOf([
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 2 * (1 + 1e-8)],
+      ])[0]!.rule,
+    ).toBe('triangle-inequality');
     // any ordering: the large moment on the first axis
-    expect(errorsOf([[5, 0, 0], [0, 1, 0], [0, 0, 2]])[0]!.rule).toBe('triangle-inequality');
+    expect(
+      errorsOf([
+        [5, 0, 0],
+        [0, 1, 0],
+        [0, 0, 2],
+      ])[0]!.rule,
+    ).toBe('triangle-inequality');
   });
 
   it('all problems together: asymmetry and the triangle inequality of the symmetric part', () => {
     // symmetric part [[1,.25,0],[.25,1,0],[0,0,3]]: moments 0.75, 1.25, 3 → 0.75 + 1.25 < 3
-    const e = errorsOf([[1, 0.5, 0], [0, 1, 0], [0, 0, 3]]);
+    const e = errorsOf([
+      [1, 0.5, 0],
+      [0, 1, 0],
+      [0, 0, 3],
+    ]);
     expect(e.map((i) => `${i.path}:${i.rule}`)).toEqual(['inertia[0][1]:symmetric', 'inertia:triangle-inequality']);
   });
 
   it('all problems together: shape and finiteness in several rows, under a custom path', () => {
-    const e = errorsOf([[1, NaN, 0], [0, 1, 0, 7], [0, 'x', 1], [9, 9, 9]], 'vehicle.inertia');
+    const e = errorsOf(
+      [
+        [1, NaN, 0],
+        [0, 1, 0, 7],
+        [0, 'x', 1],
+        [9, 9, 9],
+      ],
+      'vehicle.inertia',
+    );
     expect(e.map((i) => `${i.path}:${i.rule}`)).toEqual([
-      'vehicle.inertia:shape', 'vehicle.inertia[0][1]:finite', 'vehicle.inertia[1]:shape', 'vehicle.inertia[2][1]:finite',
+      'vehicle.inertia:shape',
+      'vehicle.inertia[0][1]:finite',
+      'vehicle.inertia[1]:shape',
+      'vehicle.inertia[2][1]:finite',
     ]);
   });
 
   it('indefinite matrices get both positive-definite and triangle-inequality', () => {
-    const rules = errorsOf([[1, 0, 0], [0, 1, 0], [0, 0, -1]]).map((i) => i.rule).sort();
+    const rules = errorsOf([
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, -1],
+    ])
+      .map((i) => i.rule)
+      .sort();
     expect(rules).toEqual(['positive-definite', 'triangle-inequality']);
   });
 
   it('huge entries: analysed after scaling, no overflow', () => {
-    const r = validateInertia([[1e300, 0, 0], [0, 1e300, 0], [0, 0, 1.5e300]]);
+    const r = validateInertia([
+      [1e300, 0, 0],
+      [0, 1e300, 0],
+      [0, 0, 1.5e300],
+    ]);
     expect(r.ok).toBe(true);
     if (r.ok) expect(r.value.moments[2]).toBeCloseTo(1.5e300, -285);
-    const big = validateInertia([[1.7e308, 1.7e308, 0], [1.7e308, 1.7e308, 0], [0, 0, 1.7e308]]);
+    const big = validateInertia([
+      [1.7e308, 1.7e308, 0],
+      [1.7e308, 1.7e308, 0],
+      [0, 0, 1.7e308],
+    ]);
     expect(big.ok).toBe(false);
   });
 });

@@ -9,7 +9,7 @@ import { mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } fro
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { parseAem } from '../../app/engine/export/aem-read';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 
 const root = path.resolve(__dirname, '../..');
 const bin = path.join(root, 'bin/slewsmith.mjs');
@@ -18,7 +18,7 @@ const asset = (name: string) => path.join(root, 'assets', name);
 function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
   return new Promise((resolve) => {
     execFile(process.execPath, [bin, ...args], { cwd: root, maxBuffer: 64 << 20 }, (err, stdout, stderr) => {
-      const code = err ? ((err as NodeJS.ErrnoException & { code?: number }).code as unknown as number) ?? 1 : 0;
+      const code = err ? (((err as NodeJS.ErrnoException & { code?: number }).code as unknown as number) ?? 1) : 0;
       resolve({ code: typeof code === 'number' ? code : 1, stdout, stderr });
     });
   });
@@ -70,7 +70,9 @@ describe('slewsmith CLI', () => {
   it('plan: wheels already holding more momentum than the envelope → infeasible, exit 1', async () => {
     const json = JSON.parse(readFileSync(asset('kestrel60-momentum.scenario.json'), 'utf8'));
     // Every wheel at 99.9 % of its own limit: beyond the planning margin before the slew starts.
-    json.initial.wheelMomentumMNms = json.vehicle.wheels.wheels.map((w: { maxMomentumMNms: number }, i: number) => (i % 2 ? -0.999 : 0.999) * w.maxMomentumMNms);
+    json.initial.wheelMomentumMNms = json.vehicle.wheels.wheels.map(
+      (w: { maxMomentumMNms: number }, i: number) => (i % 2 ? -0.999 : 0.999) * w.maxMomentumMNms,
+    );
     const f = path.join(dir, 'full.scenario.json');
     writeFileSync(f, JSON.stringify(json));
     const r = await cli(['plan', f]);
@@ -93,7 +95,11 @@ describe('slewsmith CLI', () => {
     const r = await cli(['fly', asset('lumen6-imaging.scenario.json'), '--controller', 'hysteretic', '--mode', 'profiled', '--out', out]);
     expect(r.code).toBe(0);
     const files = readdirSync(out);
-    expect(files.sort()).toEqual(['lumen6-imaging.hysteretic.profiled.aem', 'lumen6-imaging.hysteretic.profiled.csv', 'lumen6-imaging.hysteretic.profiled.json']);
+    expect(files.sort()).toEqual([
+      'lumen6-imaging.hysteretic.profiled.aem',
+      'lumen6-imaging.hysteretic.profiled.csv',
+      'lumen6-imaging.hysteretic.profiled.json',
+    ]);
     const aem = readFileSync(path.join(out, files[0]!), 'utf8');
     const doc = parseAem(aem);
     expect(doc.ok).toBe(true);
@@ -114,7 +120,10 @@ describe('slewsmith CLI', () => {
     expect(ok.stdout).toMatch(/δ\* = 0\.0312/);
     const json = JSON.parse(readFileSync(asset('lumen6-imaging.scenario.json'), 'utf8'));
     const syn = json.controllers.find((c: { law: string }) => c.law === 'synergistic');
-    syn.warpDirections = [[1, 0, 0], [-1, 0, 0]]; // methods note §4.2: opposite directions give δ* = 0
+    syn.warpDirections = [
+      [1, 0, 0],
+      [-1, 0, 0],
+    ]; // methods note §4.2: opposite directions give δ* = 0
     const f = path.join(dir, 'zero-gap.scenario.json');
     writeFileSync(f, JSON.stringify(json));
     const bad = await cli(['certify', f]);

@@ -22,13 +22,20 @@
 import { describe, expect, it } from 'vitest';
 import type { Actuation } from '../../app/engine/sim/closedLoop';
 import type { RunTrace } from '../../app/engine/sim/types';
-import { DEG, fly, law, metricsOf, pyramidVehicle } from '../reference/closedloop-fixtures';
+import { fly, law, metricsOf, pyramidVehicle } from '../reference/closedloop-fixtures';
+import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
 
-const J = [[0.11, 0.0012, -0.0008], [0.0012, 0.12, 0.0005], [-0.0008, 0.0005, 0.08]];
+const J = [
+  [0.11, 0.0012, -0.0008],
+  [0.0012, 0.12, 0.0005],
+  [-0.0008, 0.0005, 0.08],
+];
 const TAU_MAX = 2e-3;
 
 function slewStart(angleDeg: number): number[] {
-  const a = [0.3, -0.8, 0.52], n = Math.hypot(...a), th = angleDeg / DEG;
+  const a = [0.3, -0.8, 0.52],
+    n = Math.hypot(...a),
+    th = angleDeg * RAD_PER_DEG;
   return [...a.map((x) => (x / n) * Math.sin(th / 2)), Math.cos(th / 2)];
 }
 
@@ -38,7 +45,8 @@ function impulseMismatch(tr: RunTrace): number {
   let worst = 0;
   for (let k = 0; k + 1 < tr.n; k++) {
     const dt = tr.t[k + 1]! - tr.t[k]!;
-    for (let i = 0; i < N; i++) worst = Math.max(worst, Math.abs(tr.hWheel[N * (k + 1) + i]! - tr.hWheel[N * k + i]! - tr.wheelTorque[N * k + i]! * dt));
+    for (let i = 0; i < N; i++)
+      worst = Math.max(worst, Math.abs(tr.hWheel[N * (k + 1) + i]! - tr.hWheel[N * k + i]! - tr.wheelTorque[N * k + i]! * dt));
   }
   return worst;
 }
@@ -47,18 +55,32 @@ describe("pulsed actuation: 'hold', 'pwm' and 'quantized' on the same 60° slew"
   const veh = pyramidVehicle(J, TAU_MAX, 6e-3, 9e-6);
   const spec = { kind: 'hysteretic', gains: { omegaN: 0.2, zeta: 0.9 }, hysteresis: 0.2 };
   const QUANTUM = 2e-5;
-  const modes: [string, Actuation][] = [['hold', { mode: 'hold' }], ['pwm', { mode: 'pwm' }], ['quantized', { mode: 'quantized', quantumNm: QUANTUM }]];
+  const modes: [string, Actuation][] = [
+    ['hold', { mode: 'hold' }],
+    ['pwm', { mode: 'pwm' }],
+    ['quantized', { mode: 'quantized', quantumNm: QUANTUM }],
+  ];
   const results = modes.map(([name, actuation]) => {
-    const r = fly({ vehicle: veh, controller: law(spec, veh), q0: slewStart(60), tEnd: 120, rk4StepsPerSample: 4, actuation, allocation: 'min-max' });
-    return { name, r, m: metricsOf(r, veh, [0, 0, 0, 1], { angle: 0.1 / DEG, rate: 0.02 / DEG }) };
+    const r = fly({
+      vehicle: veh,
+      controller: law(spec, veh),
+      q0: slewStart(60),
+      tEnd: 120,
+      rk4StepsPerSample: 4,
+      actuation,
+      allocation: 'min-max',
+    });
+    return { name, r, m: metricsOf(r, veh, [0, 0, 0, 1], { angle: 0.1 * RAD_PER_DEG, rate: 0.02 * RAD_PER_DEG }) };
   });
   const by = (name: string) => results.find((x) => x.name === name)!;
 
   it('prints the comparison', () => {
-    const rows = results.map(({ name, r, m }) =>
-      `  ${name.padEnd(10)} settle ${m.settleTimeS === null ? '   never' : `${m.settleTimeS.toFixed(1).padStart(6)} s`}` +
-      `  final ${(m.finalErrorRad * DEG).toExponential(2)}°  effort ${(m.controlEffortNms * 1e3).toFixed(4)} mN·m·s` +
-      `  peak |τ| ${m.peakWheelTorqueFraction.toFixed(3)}  peak |h| ${m.peakWheelMomentumFraction.toFixed(3)}  impulse error ${impulseMismatch(r.trace).toExponential(1)} N·m·s`);
+    const rows = results.map(
+      ({ name, r, m }) =>
+        `  ${name.padEnd(10)} settle ${m.settleTimeS === null ? '   never' : `${m.settleTimeS.toFixed(1).padStart(6)} s`}` +
+        `  final ${(m.finalErrorRad * DEG_PER_RAD).toExponential(2)}°  effort ${(m.controlEffortNms * 1e3).toFixed(4)} mN·m·s` +
+        `  peak |τ| ${m.peakWheelTorqueFraction.toFixed(3)}  peak |h| ${m.peakWheelMomentumFraction.toFixed(3)}  impulse error ${impulseMismatch(r.trace).toExponential(1)} N·m·s`,
+    );
     console.log(`60° slew, Test-6U, 10 Hz, hysteretic law (ω_n 0.2 rad/s):\n${rows.join('\n')}`);
     for (const { r } of results) expect(r.outcome.status).toBe('completed');
   });
@@ -70,18 +92,20 @@ describe("pulsed actuation: 'hold', 'pwm' and 'quantized' on the same 60° slew"
   });
 
   it('PWM really pulses: same impulses, different path (the attitude differs from hold within a period)', () => {
-    const a = by('hold').r.trace, b = by('pwm').r.trace;
+    const a = by('hold').r.trace,
+      b = by('pwm').r.trace;
     let diff = 0;
     for (let i = 0; i < 4 * Math.min(a.n, b.n); i++) diff = Math.max(diff, Math.abs(a.q[i]! - b.q[i]!));
     expect(diff).toBeGreaterThan(1e-7);
   });
 
   it('PWM settles within a few control periods of hold, with the same final accuracy', () => {
-    const h = by('hold').m, p = by('pwm').m;
+    const h = by('hold').m,
+      p = by('pwm').m;
     expect(h.settleTimeS).not.toBeNull();
     expect(p.settleTimeS).not.toBeNull();
     expect(Math.abs(p.settleTimeS! - h.settleTimeS!)).toBeLessThanOrEqual(0.5); // 5 periods
-    expect(p.finalErrorRad * DEG).toBeLessThan(1e-3);
+    expect(p.finalErrorRad * DEG_PER_RAD).toBeLessThan(1e-3);
     expect(Math.abs(p.controlEffortNms - h.controlEffortNms)).toBeLessThan(0.01 * h.controlEffortNms);
   });
 
@@ -94,17 +118,20 @@ describe("pulsed actuation: 'hold', 'pwm' and 'quantized' on the same 60° slew"
       expect(Math.abs(tr.wheelTorque[i]!)).toBeLessThanOrEqual(TAU_MAX);
     }
     const kp = 2 * 0.12 * 0.2 * 0.2; // bandwidth gains: k_p = 2 J_max ω_n² (control/gains.ts)
-    const deadBandDeg = (QUANTUM / kp) * DEG;
-    expect(m.finalErrorRad * DEG).toBeLessThan(3 * deadBandDeg);
+    const deadBandDeg = (QUANTUM / kp) * DEG_PER_RAD;
+    expect(m.finalErrorRad * DEG_PER_RAD).toBeLessThan(3 * deadBandDeg);
     // ... and it is a real effect: hold ends far inside it
-    expect(by('hold').m.finalErrorRad * DEG).toBeLessThan(0.01 * deadBandDeg);
+    expect(by('hold').m.finalErrorRad * DEG_PER_RAD).toBeLessThan(0.01 * deadBandDeg);
   });
 });
 
 /** Check every sample: delivered body torque = s × request, 0 ≤ s ≤ 1; limits never exceeded. */
 function checkLimits(tr: RunTrace, tauMax: number, hMax: number) {
   const N = tr.nWheels;
-  let minScale = 1, worstPerp = 0, worstTau = 0, worstH = 0;
+  let minScale = 1,
+    worstPerp = 0,
+    worstTau = 0,
+    worstH = 0;
   for (let k = 0; k < tr.n; k++) {
     const c = [0, 1, 2].map((i) => tr.torqueCmdBody[3 * k + i]);
     const d = [0, 1, 2].map((i) => tr.torqueBody[3 * k + i]);
@@ -142,7 +169,15 @@ describe('wheel limits keep the torque direction and are never exceeded', () => 
     it(`momentum-limited (${allocation}): the slew fills the wheels, which stop at h_max`, () => {
       const hMax = 2e-3;
       const veh = pyramidVehicle(J, TAU_MAX, hMax, 9e-6);
-      const r = fly({ vehicle: veh, controller: law(strong, veh), q0: slewStart(120), hWheel0: [1e-3, -1e-3, 1e-3, -1e-3], tEnd: 150, rk4StepsPerSample: 4, allocation });
+      const r = fly({
+        vehicle: veh,
+        controller: law(strong, veh),
+        q0: slewStart(120),
+        hWheel0: [1e-3, -1e-3, 1e-3, -1e-3],
+        tEnd: 150,
+        rk4StepsPerSample: 4,
+        allocation,
+      });
       const c = checkLimits(r.trace, TAU_MAX, hMax);
       expect(c.worstH).toBeGreaterThan(0.999); // some wheel reached its momentum limit
       expect(c.worstH).toBeLessThanOrEqual(1 + 1e-12);
@@ -150,7 +185,7 @@ describe('wheel limits keep the torque direction and are never exceeded', () => 
       expect(c.worstPerp).toBeLessThan(1e-12);
       expect(c.worstTau).toBeLessThanOrEqual(1 + 1e-12);
       // the law still gets there once the body has turned (the momentum leaves the saturated wheels)
-      expect(metricsOf(r, veh).finalErrorRad * DEG).toBeLessThan(0.01);
+      expect(metricsOf(r, veh).finalErrorRad * DEG_PER_RAD).toBeLessThan(0.01);
     });
   }
 });

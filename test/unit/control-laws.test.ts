@@ -14,8 +14,16 @@ import { makeDiagnostics } from '../../app/engine/control/types';
 import { qCreate, qFromAxisAngle } from '../../app/engine/math/rotation';
 import { initialState, inputAt, makeDerivative, makeInput, plantOf, REGULATION, rk4Step } from '../reference/control-rk4';
 
-const Jd123 = [[1, 0, 0], [0, 2, 0], [0, 0, 3]];
-const I3 = [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+const Jd123 = [
+  [1, 0, 0],
+  [0, 2, 0],
+  [0, 0, 3],
+];
+const I3 = [
+  [1, 0, 0],
+  [0, 1, 0],
+  [0, 0, 1],
+];
 
 function ctl(spec: Record<string, unknown>, J = Jd123): AttitudeController {
   const r = makeController(spec, plantOf(J));
@@ -82,7 +90,17 @@ describe('quaternion PD', () => {
   });
 
   it('matrix damping gain acts as K_d ω_e', () => {
-    const m = ctl({ kind: 'quaternion-pd', gains: { kp: 2, kd: [[2, 1, 0], [1, 3, 0], [0, 0, 1]] } });
+    const m = ctl({
+      kind: 'quaternion-pd',
+      gains: {
+        kp: 2,
+        kd: [
+          [2, 1, 0],
+          [1, 3, 0],
+          [0, 0, 1],
+        ],
+      },
+    });
     // −K_d(0.1, 0.2, 0) = −(0.4, 0.7, 0), plus −2ε
     expectVec(m.torque(tau, input(q60z, [0.1, 0.2, 0]), 0), [-0.4, -0.7, -1]);
   });
@@ -192,9 +210,19 @@ describe('spec validation', () => {
       {
         kind: 'synergistic',
         gains: { kR: -1, kOmega: [1, 0, 2] },
-        potential: { eigenvalues: [1, 1, 3], axes: [[1, 0, 0], [0, 1, 0], [0, 0, 2]] },
+        potential: {
+          eigenvalues: [1, 1, 3],
+          axes: [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 2],
+          ],
+        },
         warpGain: 0,
-        warpDirections: [[1, 0, 0], [0, 1.1, 0]],
+        warpDirections: [
+          [1, 0, 0],
+          [0, 1.1, 0],
+        ],
         hysteresis: -0.1,
         initialLogic: 5,
       },
@@ -225,7 +253,10 @@ describe('spec validation', () => {
     expect(bad(null)).toEqual(['controller:required']);
     expect(bad({ kind: 'bang-bang' })).toEqual(['controller.kind:one-of']);
     expect(bad({ kind: 'quaternion-pd', gains: { kp: 1, kd: 1, omegaN: 1 } })).toEqual(['controller.gains:exclusive']);
-    expect(bad({ kind: 'quaternion-pd', gains: { omegaN: 0, zeta: 'x' } })).toEqual(['controller.gains.omegaN:positive', 'controller.gains.zeta:finite']);
+    expect(bad({ kind: 'quaternion-pd', gains: { omegaN: 0, zeta: 'x' } })).toEqual([
+      'controller.gains.omegaN:positive',
+      'controller.gains.zeta:finite',
+    ]);
     expect(bad({ kind: 'hysteretic', gains: { kp: 1, kd: 1 }, hysteresis: -1, initialLogic: 0 })).toEqual([
       'controller.hysteresis:non-negative',
       'controller.initialLogic:one-of',
@@ -234,7 +265,11 @@ describe('spec validation', () => {
       'controller.maxRateRadPerS:finite',
       'controller.torqueLimitNm[1]:positive',
     ]);
-    const skew = plantOf([[1, 0.5, 0], [0, 1, 0], [0, 0, 1]]);
+    const skew = plantOf([
+      [1, 0.5, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+    ]);
     expect(bad({ kind: 'quaternion-pd', gains: { kp: 1, kd: 1 } }, skew)).toEqual(['plant.Jperp[0][1]:symmetric']);
     const badAxes = { ...plant, axes: Float64Array.of(1, 0, 0, 0, 2, 0, 0, 0, 1) };
     expect(bad({ kind: 'quaternion-pd', gains: { kp: 1, kd: 1 } }, badAxes)).toEqual(['plant.axes[1]:unit-norm']);
@@ -253,7 +288,11 @@ describe('spec validation', () => {
 });
 
 describe('gains from natural frequency and damping', () => {
-  const J = [[10, 0, 0], [0, 15, 0], [0, 0, 20]];
+  const J = [
+    [10, 0, 0],
+    [0, 15, 0],
+    [0, 0, 20],
+  ];
   it('k_p = 2Jω_n², k_d = 2ζω_nJ on the largest moment; eigenaxis k = 2ω_n², c = 2ζω_n (methods §2c)', () => {
     const g = gainsFromBandwidth(plantOf(J).Jperp, 0.3, 0.9, Math.PI / 2);
     expect(g.inertiaRef).toBeCloseTo(20, 12);
@@ -271,7 +310,9 @@ describe('gains from natural frequency and damping', () => {
     const th0 = 1e-3;
     let x = initialState([0, 0, Math.sin(th0 / 2), Math.cos(th0 / 2)], [0, 0, 0]);
     const f = makeDerivative({ ctrl, plant: plantOf(J), J }, { logic: ctrl.initialLogic(inputAt(makeInput(), x, 0, REGULATION)) });
-    const wn = 0.3, z = 0.9, wd = wn * Math.sqrt(1 - z * z);
+    const wn = 0.3,
+      z = 0.9,
+      wd = wn * Math.sqrt(1 - z * z);
     const dt = 0.01;
     let worst = 0;
     for (let k = 1; k <= 1500; k++) {
@@ -298,7 +339,13 @@ describe('gains from natural frequency and damping', () => {
     // e₃ is the axis of Ā's smallest eigenvalue, and J's largest moment: the response matches the closed form.
     // The warp angle kΦ is second order in the error angle, so at θ0 = 1e-3 it is invisible here.
     expect(
-      smallAngle({ kind: 'synergistic', gains: { omegaN: 0.3, zeta: 0.9 }, potential: { eigenvalues: [1, 2, 3] }, warpGain: 0.15, hysteresis: 0.2 }),
+      smallAngle({
+        kind: 'synergistic',
+        gains: { omegaN: 0.3, zeta: 0.9 },
+        potential: { eigenvalues: [1, 2, 3] },
+        warpGain: 0.15,
+        hysteresis: 0.2,
+      }),
     ).toBeLessThan(1e-6);
   });
 });

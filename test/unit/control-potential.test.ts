@@ -125,7 +125,10 @@ describe('warped family, methods §4.3 test point', () => {
 describe('body-frame gradient b_q = 2Θ_qᵀψ(AΓ_q)', () => {
   it('equals finite differences of V_q along Ṙ = Rω^× (random A, directions, attitudes)', () => {
     const rng = makeRng(5, 0);
-    const q = qCreate(), qp = qCreate(), qm = qCreate(), dq = qCreate();
+    const q = qCreate(),
+      qp = qCreate(),
+      qm = qCreate(),
+      dq = qCreate();
     const b = new Float64Array(3);
     const h = 1e-6;
     let worst = 0;
@@ -143,8 +146,22 @@ describe('body-frame gradient b_q = 2Θ_qᵀψ(AΓ_q)', () => {
       const w = [rng.normal(), rng.normal(), rng.normal()];
       const Vat = (qq: Float64Array, p: number) => evaluateFamily(ws, fam, qq).V[p]!;
       for (let p = 0; p < 3; p++) {
-        qMultiply(qp, q, qFromRotationVector(dq, w.map((x) => x * h)));
-        qMultiply(qm, q, qFromRotationVector(dq, w.map((x) => -x * h)));
+        qMultiply(
+          qp,
+          q,
+          qFromRotationVector(
+            dq,
+            w.map((x) => x * h),
+          ),
+        );
+        qMultiply(
+          qm,
+          q,
+          qFromRotationVector(
+            dq,
+            w.map((x) => -x * h),
+          ),
+        );
         const fd = (Vat(qp, p) - Vat(qm, p)) / (2 * h);
         evaluateFamily(ws, fam, q);
         memberGradient(b, fam, ws, p);

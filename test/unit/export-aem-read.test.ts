@@ -95,7 +95,15 @@ describe('parseAem: the §1.9 example', () => {
     leap[at(leap, 'START_TIME')] = 'START_TIME = 2030-03-14T23:59:59.000';
     leap[at(leap, 'STOP_TIME')] = 'STOP_TIME = 2030-03-15T00:00:31.000';
     const d = at(leap, '2030-03-14T10:00:00.000');
-    const times = ['2030-03-14T23:59:59.000', '2030-03-14T23:59:60.500', '2030-03-15T00:00:00.000', '2030-03-15T00:00:10', '2030-03-15T00:00:20', '2030-03-15T00:00:25', '2030-03-15T00:00:30'];
+    const times = [
+      '2030-03-14T23:59:59.000',
+      '2030-03-14T23:59:60.500',
+      '2030-03-15T00:00:00.000',
+      '2030-03-15T00:00:10',
+      '2030-03-15T00:00:20',
+      '2030-03-15T00:00:25',
+      '2030-03-15T00:00:30',
+    ];
     for (let i = 0; i < 7; i++) leap[d + i] = leap[d + i]!.replace(/^\S+/, times[i]!);
     expect(issues(join(leap))).toEqual([]);
   });
@@ -112,7 +120,8 @@ describe('parseAem: malformed files, with line numbers', () => {
 
   it('metadata keywords out of the standard order', () => {
     const l = lines();
-    const a = at(l, 'REF_FRAME_A'), b = at(l, 'REF_FRAME_B');
+    const a = at(l, 'REF_FRAME_A'),
+      b = at(l, 'REF_FRAME_B');
     [l[a], l[b]] = [l[b]!, l[a]!];
     expect(issues(join(l))).toEqual([`line ${b + 1} keyword-order`]);
   });
@@ -187,8 +196,17 @@ describe('parseAem: malformed files, with line numbers', () => {
 
     // Two segments: the second starts before the first one's stop.
     const base = lines();
-    const seg2 = base.slice(at(base, 'META_START')).map((x) => x.replace('START_TIME = 2030-03-14T10:00:00.000', 'START_TIME = 2030-03-14T10:00:20.000\nUSEABLE_START_TIME = 2030-03-14T10:00:20.000'));
-    const seg2Lines = join(seg2).split('\n').filter((x) => !/^2030-03-14T10:00:(00|01|03|18)/.test(x));
+    const seg2 = base
+      .slice(at(base, 'META_START'))
+      .map((x) =>
+        x.replace(
+          'START_TIME = 2030-03-14T10:00:00.000',
+          'START_TIME = 2030-03-14T10:00:20.000\nUSEABLE_START_TIME = 2030-03-14T10:00:20.000',
+        ),
+      );
+    const seg2Lines = join(seg2)
+      .split('\n')
+      .filter((x) => !/^2030-03-14T10:00:(00|01|03|18)/.test(x));
     const two = [...base, ...seg2Lines];
     const stop2 = two.lastIndexOf('META_STOP') + 1;
     expect(issues(join(two))).toEqual([`line ${stop2} useable`]);

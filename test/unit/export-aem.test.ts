@@ -13,7 +13,7 @@ import type { AemOptions } from '../../app/engine/export/aem-write';
 import { parseAem } from '../../app/engine/export/aem-read';
 import { AEM_META_KEYS } from '../../app/engine/export/aem-keywords';
 import { significantDigits } from '../../app/engine/export/kvn';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 import { loadScenario } from '../../app/engine/scenario/resolve';
 import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
 import { loadExample } from './scenario-fixtures';
@@ -27,7 +27,8 @@ function scenario(name: 'lumen6-imaging' | 'kestrel60-momentum' = 'lumen6-imagin
   return r.value;
 }
 const q0 = [0.1, -0.2, 0.3, Math.sqrt(0.86)];
-const lumenTrace = () => makeTrace({ n: 301, dt: 0.1, nWheels: 4, q0, omega: [0.004, -0.011, 0.019], segmentStarts: [8, 17.5, 25], jumpsAfter: [50, 120] });
+const lumenTrace = () =>
+  makeTrace({ n: 301, dt: 0.1, nWheels: 4, q0, omega: [0.004, -0.011, 0.019], segmentStarts: [8, 17.5, 25], jumpsAfter: [50, 120] });
 
 function write(tr = lumenTrace(), s = scenario(), o: AemOptions = OPTS): string {
   const r = writeAem(tr, s, META, o);
@@ -42,7 +43,10 @@ describe('AEM writer: layout and keywords', () => {
   it('header: version, the caution as a COMMENT right after it, then CREATION_DATE, ORIGINATOR, MESSAGE_ID', () => {
     expect(lines[0]).toBe('CCSDS_AEM_VERS = 2.0');
     expect(lines[1]).toBe(`COMMENT ${CAUTION_TEXT}`);
-    const keys = lines.slice(0, lines.indexOf('META_START')).filter((l) => l && !l.startsWith('COMMENT')).map((l) => l.split(' = ')[0]);
+    const keys = lines
+      .slice(0, lines.indexOf('META_START'))
+      .filter((l) => l && !l.startsWith('COMMENT'))
+      .map((l) => l.split(' = ')[0]);
     expect(keys).toEqual(['CCSDS_AEM_VERS', 'CREATION_DATE', 'ORIGINATOR', 'MESSAGE_ID']);
     expect(text).toContain('CREATION_DATE = 2030-03-13T08:00:00.000\n');
     expect(text).toContain('MESSAGE_ID = LUMEN-6-20300313T080000\n');
@@ -107,7 +111,8 @@ describe('AEM writer: layout and keywords', () => {
     const all = doc.value.segments.flatMap((g) => g.lines);
     // 301 instants, 4 segments: the 3 boundary instants appear in two blocks; jumps add none.
     expect(all).toHaveLength(301 + 3);
-    for (const g of doc.value.segments) for (let i = 1; i < g.lines.length; i++) expect(g.lines[i]!.time.unixS).toBeGreaterThan(g.lines[i - 1]!.time.unixS);
+    for (const g of doc.value.segments)
+      for (let i = 1; i < g.lines.length; i++) expect(g.lines[i]!.time.unixS).toBeGreaterThan(g.lines[i - 1]!.time.unixS);
   });
 });
 
@@ -144,7 +149,8 @@ describe('AEM writer: values', () => {
     const lines = doc.value.segments.flatMap((g) => g.lines);
     expect(lines[0]!.values[3]).toBeGreaterThan(0);
     for (let i = 1; i < lines.length; i++) {
-      const a = lines[i - 1]!.values, b = lines[i]!.values;
+      const a = lines[i - 1]!.values,
+        b = lines[i]!.values;
       expect(a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!).toBeGreaterThan(0);
     }
     expect(lines.at(-1)!.values[3]).toBeLessThan(0); // cos(100°) < 0: not forced positive
@@ -152,7 +158,18 @@ describe('AEM writer: values', () => {
 
   it('−0 prints as plain zero, small rates in d.ddd…E±n form; options set digits and frames', () => {
     const tr = makeTrace({ n: 5, dt: 1, nWheels: 4, q0: [0, 0, 0, 1], omega: [-0, 1e-30, 0] });
-    const text = write(tr, scenario(), { ...OPTS, quaternionDecimals: 6, rateSignificantDigits: 5, epochFractionDigits: 0, refFrameA: 'ICRF', refFrameB: 'SC_BODY_2', centerName: null, objectId: '2030-999A', originator: 'EXAMPLE', messageId: 'RUN-0001' });
+    const text = write(tr, scenario(), {
+      ...OPTS,
+      quaternionDecimals: 6,
+      rateSignificantDigits: 5,
+      epochFractionDigits: 0,
+      refFrameA: 'ICRF',
+      refFrameB: 'SC_BODY_2',
+      centerName: null,
+      objectId: '2030-999A',
+      originator: 'EXAMPLE',
+      messageId: 'RUN-0001',
+    });
     expect(text).toContain('\n2030-03-14T10:00:00 0.000000 0.000000 0.000000 1.000000 0.0 5.7296E-29 0.0\n');
     expect(text).toContain('REF_FRAME_A = ICRF\n');
     expect(text).toContain('ANGVEL_FRAME = SC_BODY_2\n');
@@ -167,7 +184,17 @@ describe('AEM writer: values', () => {
     expect(text).not.toMatch(/[^\r]\n/);
     const doc = parseAem(text);
     if (!doc.ok) throw new Error('parse');
-    expect(doc.value.segments[0]!.lines.map((l) => l.epoch.slice(17))).toEqual(['00.000', '01.000', '02.000', '03.000', '04.000', '05.000', '06.000', '07.000', '08.000']);
+    expect(doc.value.segments[0]!.lines.map((l) => l.epoch.slice(17))).toEqual([
+      '00.000',
+      '01.000',
+      '02.000',
+      '03.000',
+      '04.000',
+      '05.000',
+      '06.000',
+      '07.000',
+      '08.000',
+    ]);
   });
 
   it('bad options are reported together, and nothing is written', () => {
@@ -189,7 +216,18 @@ describe('AEM writer: values', () => {
   });
 
   it('given segments must hold samples', () => {
-    const r = writeAem(lumenTrace(), scenario(), { ...META, segments: [{ index: 0, label: 'early', startS: 0, stopS: 5 }, { index: 1, label: 'none', startS: 100, stopS: 200 }] }, OPTS);
+    const r = writeAem(
+      lumenTrace(),
+      scenario(),
+      {
+        ...META,
+        segments: [
+          { index: 0, label: 'early', startS: 0, stopS: 5 },
+          { index: 1, label: 'none', startS: 100, stopS: 200 },
+        ],
+      },
+      OPTS,
+    );
     expect(r.ok ? [] : r.errors.map((e) => `${e.path} ${e.rule}`)).toEqual(['segments[1] empty-segment']);
   });
 

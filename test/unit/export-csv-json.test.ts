@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { writeCsv } from '../../app/engine/export/csv';
 import { writeJson } from '../../app/engine/export/json';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 import { loadScenario } from '../../app/engine/scenario/resolve';
 import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
 import { loadExample } from './scenario-fixtures';
@@ -50,8 +50,29 @@ describe('CSV export', () => {
   });
 
   it('column names carry units, per wheel columns for all four wheels', () => {
-    expect(csv.header.slice(0, 10)).toEqual(['t_s', 'j', 'segment', 'q_x', 'q_y', 'q_z', 'q_w', 'omega_x_radps', 'omega_y_radps', 'omega_z_radps']);
-    for (const name of ['qref_w', 'omegaref_z_radps', 'torque_cmd_x_Nm', 'torque_y_Nm', 'wheel4_torque_cmd_Nm', 'wheel1_torque_Nm', 'wheel3_h_Nms', 'logic', 'error_angle_deg']) {
+    expect(csv.header.slice(0, 10)).toEqual([
+      't_s',
+      'j',
+      'segment',
+      'q_x',
+      'q_y',
+      'q_z',
+      'q_w',
+      'omega_x_radps',
+      'omega_y_radps',
+      'omega_z_radps',
+    ]);
+    for (const name of [
+      'qref_w',
+      'omegaref_z_radps',
+      'torque_cmd_x_Nm',
+      'torque_y_Nm',
+      'wheel4_torque_cmd_Nm',
+      'wheel1_torque_Nm',
+      'wheel3_h_Nms',
+      'logic',
+      'error_angle_deg',
+    ]) {
       expect(csv.header).toContain(name);
     }
     expect(csv.header.filter((h) => /^wheel\d_h_Nms$/.test(h))).toHaveLength(4);

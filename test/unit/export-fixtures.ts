@@ -89,4 +89,9 @@ export function makeTrace(spec: TraceSpec): RunTrace {
   return tr;
 }
 
-export const META = { toolName: 'Slewsmith', toolVersion: '0.1.0-test', controllerLabel: 'Hysteretic (delta 0.2)', controllerId: 'hysteretic' };
+export const META = {
+  toolName: 'Slewsmith',
+  toolVersion: '0.1.0-test',
+  controllerLabel: 'Hysteretic (delta 0.2)',
+  controllerId: 'hysteretic',
+};

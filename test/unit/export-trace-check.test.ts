@@ -67,7 +67,11 @@ describe('writers never write from a bad trace', () => {
   it('CSV, JSON and AEM all fail with the same issues and no text', () => {
     const tr = base();
     tr.q[4 * 5] = Number.NaN;
-    for (const r of [writeCsv(tr, scenario, META), writeJson(tr, scenario, META), writeAem(tr, scenario, META, { creationDateUtc: '2030-03-13T08:00:00Z' })]) {
+    for (const r of [
+      writeCsv(tr, scenario, META),
+      writeJson(tr, scenario, META),
+      writeAem(tr, scenario, META, { creationDateUtc: '2030-03-13T08:00:00Z' }),
+    ]) {
       expect(r.ok).toBe(false);
       expect('value' in r).toBe(false);
       if (!r.ok) expect(r.errors.map((e) => `${e.path} ${e.rule}`)).toEqual(['trace.q[5] finite']);

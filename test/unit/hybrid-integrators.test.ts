@@ -10,19 +10,34 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
-  DormandPrince, Rk4Stepper, STEP_OK, equalStepCount, hermiteInterpolate, makeDormandPrince, makeRk4Work, rk4Step,
-  STEP_NON_FINITE, STEP_UNDERFLOW,
+  DormandPrince,
+  Rk4Stepper,
+  STEP_OK,
+  equalStepCount,
+  hermiteInterpolate,
+  makeDormandPrince,
+  makeRk4Work,
+  rk4Step,
+  STEP_NON_FINITE,
+  STEP_UNDERFLOW,
 } from '../../app/engine/hybrid/index';
 import type { FlowFn } from '../../app/engine/hybrid/index';
 
-const linear = (lam: number): FlowFn => (_t, x, d) => { d[0] = lam * x[0]!; };
-const harmonic: FlowFn = (_t, x, d) => { d[0] = x[1]!; d[1] = -x[0]!; };
+const linear =
+  (lam: number): FlowFn =>
+  (_t, x, d) => {
+    d[0] = lam * x[0]!;
+  };
+const harmonic: FlowFn = (_t, x, d) => {
+  d[0] = x[1]!;
+  d[1] = -x[0]!;
+};
 
 describe('rk4Step', () => {
   it('one step on y′ = λy is the degree-4 Taylor polynomial of e^(hλ)', () => {
     for (const z of [0.3, -1.2, 2]) {
       const out = rk4Step(new Float64Array(1), linear(z), 0, new Float64Array([1]), 1, makeRk4Work(1));
-      expect(out[0]).toBeCloseTo(1 + z + z * z / 2 + z ** 3 / 6 + z ** 4 / 24, 15);
+      expect(out[0]).toBeCloseTo(1 + z + (z * z) / 2 + z ** 3 / 6 + z ** 4 / 24, 15);
     }
   });
 
@@ -45,7 +60,10 @@ describe('rk4Step', () => {
     const s = new Rk4Stepper(1, linear(1), 0.1);
     s.reset(0, [1]);
     let n = 0;
-    while (s.t < 0.25) { s.advance(0.25); n++; }
+    while (s.t < 0.25) {
+      s.advance(0.25);
+      n++;
+    }
     expect(n).toBe(3);
     expect(s.t).toBe(0.25);
   });
@@ -65,7 +83,13 @@ describe('rk4Step', () => {
   });
 
   it('runTo stops at the last finite state when the flow blows up (y′ = y², y(0) = 1)', () => {
-    const s = new Rk4Stepper(1, (_t, x, d) => { d[0] = x[0]! * x[0]!; }, 0.01);
+    const s = new Rk4Stepper(
+      1,
+      (_t, x, d) => {
+        d[0] = x[0]! * x[0]!;
+      },
+      0.01,
+    );
     s.reset(0, [1]);
     const r = s.runTo(2, 1e9);
     expect(r.status).toBe(STEP_NON_FINITE);
@@ -93,7 +117,7 @@ describe('DormandPrince', () => {
       const s = new DormandPrince(1, linear(Math.sign(z)), { rtol: 0.5, atol: 100, hInit: Math.abs(z) });
       s.reset(0, [1]);
       expect(s.advance(Math.abs(z))).toBe(STEP_OK);
-      const R = 1 + z + z * z / 2 + z ** 3 / 6 + z ** 4 / 24 + z ** 5 / 120 + z ** 6 / 600;
+      const R = 1 + z + (z * z) / 2 + z ** 3 / 6 + z ** 4 / 24 + z ** 5 / 120 + z ** 6 / 600;
       expect(Math.abs(s.x[0]! - R)).toBeLessThan(1e-14 * Math.abs(R));
       expect(s.evaluations).toBe(7);
       // a second step reuses the last stage
@@ -139,7 +163,13 @@ describe('DormandPrince', () => {
       expect(s.t).toBe(20);
       // global error accumulates over ~3 periods: allow 100× the local tolerance
       expect(Math.abs(s.x[0]! - Math.sin(20))).toBeLessThan(100 * tol);
-      const gsn = new DormandPrince(1, (t, x, d) => { d[0] = -2 * t * x[0]!; }, { rtol: tol, atol: tol * 1e-3 });
+      const gsn = new DormandPrince(
+        1,
+        (t, x, d) => {
+          d[0] = -2 * t * x[0]!;
+        },
+        { rtol: tol, atol: tol * 1e-3 },
+      );
       gsn.reset(0, [1]);
       gsn.integrateTo(2);
       expect(Math.abs(gsn.x[0]! - Math.exp(-4))).toBeLessThan(100 * tol * Math.exp(-4) + 1e-3 * tol);
@@ -147,7 +177,13 @@ describe('DormandPrince', () => {
   });
 
   it('y′ = y² (blow-up at t = 1) ends in underflow or non-finite at t ≈ 1, state finite', () => {
-    const s = new DormandPrince(1, (_t, x, d) => { d[0] = x[0]! * x[0]!; }, { rtol: 1e-8, atol: 1e-8 });
+    const s = new DormandPrince(
+      1,
+      (_t, x, d) => {
+        d[0] = x[0]! * x[0]!;
+      },
+      { rtol: 1e-8, atol: 1e-8 },
+    );
     s.reset(0, [1]);
     const st = s.integrateTo(2);
     expect([STEP_UNDERFLOW, STEP_NON_FINITE]).toContain(st);

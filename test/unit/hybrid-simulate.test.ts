@@ -25,7 +25,10 @@ function sampled(Ts: number, report = true): HybridSystem & { sampleTimes: numbe
   return {
     dim: 2,
     sampleTimes,
-    flow: (_t, x, d) => { d[0] = x[0]!; d[1] = 0; },
+    flow: (_t, x, d) => {
+      d[0] = x[0]!;
+      d[1] = 0;
+    },
     nextScheduledJump: () => nextK * Ts,
     jump: (t, x, xp, cause) => {
       expect(cause).toBe('scheduled');
@@ -76,9 +79,16 @@ describe('guard jumps', () => {
   /** ẋ = 1; jump set {x ≥ level}; jump x⁺ = x − 1 and count in x[1]. */
   const sawtooth = (level: number): HybridSystem => ({
     dim: 2,
-    flow: (_t, _x, d) => { d[0] = 1; d[1] = 0; },
+    flow: (_t, _x, d) => {
+      d[0] = 1;
+      d[1] = 0;
+    },
     jumpGuard: (_t, x) => x[0]! - level,
-    jump: (_t, x, xp) => { xp[0] = x[0]! - 1; xp[1] = x[1]! + 1; return { what: 'reset', from: x[1]!, to: xp[1]!, why: `x ≥ ${level}` }; },
+    jump: (_t, x, xp) => {
+      xp[0] = x[0]! - 1;
+      xp[1] = x[1]! + 1;
+      return { what: 'reset', from: x[1]!, to: xp[1]!, why: `x ≥ ${level}` };
+    },
   });
 
   it('crossings are located to eventTimeTol with both integrators (x = t − k hits 0.75 at t = 0.75 + k)', () => {
@@ -94,9 +104,15 @@ describe('guard jumps', () => {
     // D = {x ≥ 1 and c ≤ 2.5}: at x = 1 (t = 0.5) the counter c jumps 0 → 1 → 2 → 3 at one instant
     const sys: HybridSystem = {
       dim: 2,
-      flow: (_t, _x, d) => { d[0] = 1; d[1] = 0; },
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+        d[1] = 0;
+      },
       jumpGuard: (_t, x) => Math.min(x[0]! - 1, 2.5 - x[1]!),
-      jump: (_t, x, xp) => { xp[1] = x[1]! + 1; return { what: 'count', from: x[1]!, to: xp[1]!, why: 'x ≥ 1' }; },
+      jump: (_t, x, xp) => {
+        xp[1] = x[1]! + 1;
+        return { what: 'count', from: x[1]!, to: xp[1]!, why: 'x ≥ 1' };
+      },
     };
     const arc = sim(sys, [0.5, 0], { tEnd: 0.6, integrator: DP });
     expect(arc.events.length).toBe(3);
@@ -109,7 +125,14 @@ describe('guard jumps', () => {
   });
 
   it('a guard that never turns negative again is reported as Zeno, not a hang', () => {
-    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0]! - 0.3, jump: (_t, x, xp) => ({ what: 'stuck', from: x[0]!, to: xp[0]!, why: 'x⁺ = x' }) };
+    const sys: HybridSystem = {
+      dim: 1,
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
+      jumpGuard: (_t, x) => x[0]! - 0.3,
+      jump: (_t, x, xp) => ({ what: 'stuck', from: x[0]!, to: xp[0]!, why: 'x⁺ = x' }),
+    };
     const arc = sim(sys, [0], { tEnd: 1 });
     expect(arc.outcome.status).toBe('zeno');
     expect(arc.outcome.t).toBeCloseTo(0.3, 10);
@@ -118,10 +141,16 @@ describe('guard jumps', () => {
 
   it("x ∈ C ∩ D: 'jump' (default) jumps at once, 'flow' flows until x leaves C", () => {
     const base = (both?: 'jump' | 'flow'): HybridSystem => ({
-      dim: 1, both,
-      flow: (_t, _x, d) => { d[0] = 1; },
+      dim: 1,
+      both,
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
       jumpGuard: (_t, x) => x[0]!, // C = {x ≤ 0}, D = {x ≥ 0}; x0 = 0 is in both
-      jump: (_t, x, xp) => { xp[0] = -1; return { what: 'back', from: x[0]!, to: -1, why: 'x ≥ 0' }; },
+      jump: (_t, x, xp) => {
+        xp[0] = -1;
+        return { what: 'back', from: x[0]!, to: -1, why: 'x ≥ 0' };
+      },
     });
     const a = sim(base(), [0], { tEnd: 0.5, jMax: 1 });
     expect(a.events[0]!.t).toBe(0);
@@ -136,9 +165,14 @@ describe('guard jumps', () => {
     // ẋ = 1, D = {|x − 0.5| ≤ 0.01}; one RK4 step covers [0, 1], both ends outside D
     const sys: HybridSystem = {
       dim: 1,
-      flow: (_t, _x, d) => { d[0] = 1; },
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
       jumpGuard: (_t, x) => 1e-4 - (x[0]! - 0.5) ** 2,
-      jump: (_t, x, xp) => { xp[0] = x[0]! + 10; return { what: 'hit', from: x[0]!, to: xp[0]!, why: 'in the window' }; },
+      jump: (_t, x, xp) => {
+        xp[0] = x[0]! + 10;
+        return { what: 'hit', from: x[0]!, to: xp[0]!, why: 'in the window' };
+      },
     };
     const miss = sim(sys, [0], { tEnd: 1, integrator: { kind: 'rk4', dt: 1 } });
     expect(miss.events.length).toBe(0);
@@ -151,10 +185,15 @@ describe('guard jumps', () => {
     let calls = 0;
     const sys: HybridSystem = {
       dim: 1,
-      flow: (_t, _x, d) => { d[0] = 1; },
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
       jumpGuard: (_t, x) => x[0]! - 0.2,
       inFlowSet: (_t, x) => x[0]! <= 0.6,
-      jump: () => { calls++; return null; },
+      jump: () => {
+        calls++;
+        return null;
+      },
     };
     const arc = sim(sys, [0], { tEnd: 1 });
     expect(calls).toBe(1);
@@ -165,7 +204,14 @@ describe('guard jumps', () => {
 
   it('leaving an explicit flow set without reaching D ends the run as blocked at the exit time', () => {
     for (const integrator of [RK4, DP]) {
-      const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 2; }, inFlowSet: (_t, x) => x[0]! <= 1, jump: () => null };
+      const sys: HybridSystem = {
+        dim: 1,
+        flow: (_t, _x, d) => {
+          d[0] = 2;
+        },
+        inFlowSet: (_t, x) => x[0]! <= 1,
+        jump: () => null,
+      };
       const arc = sim(sys, [0], { tEnd: 3, integrator });
       expect(arc.outcome.status).toBe('blocked');
       expect(arc.outcome.t).toBeCloseTo(0.5, 10);
@@ -178,7 +224,13 @@ describe('guard jumps', () => {
 describe('outcomes other than completed', () => {
   it('non-finite flow: stops at the last finite state, before the bad time', () => {
     for (const integrator of [RK4, DP, { kind: 'rk4', dt: 0.1 } as IntegratorOptions]) {
-      const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = t > 0.5 ? NaN : x[0]!; }, jump: () => null };
+      const sys: HybridSystem = {
+        dim: 1,
+        flow: (t, x, d) => {
+          d[0] = t > 0.5 ? NaN : x[0]!;
+        },
+        jump: () => null,
+      };
       const arc = sim(sys, [1], { tEnd: 1, integrator, record: 'none' });
       expect(arc.outcome.status).toBe('non-finite');
       expect(arc.outcome.t).toBeLessThanOrEqual(0.5);
@@ -190,8 +242,15 @@ describe('outcomes other than completed', () => {
 
   it('non-finite jump map: the arc ends before that jump', () => {
     const sys: HybridSystem = {
-      dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => x[0]! - 0.4,
-      jump: (_t, _x, xp) => { xp[0] = Infinity; return { what: 'bad', from: 0, to: 0, why: '' }; },
+      dim: 1,
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
+      jumpGuard: (_t, x) => x[0]! - 0.4,
+      jump: (_t, _x, xp) => {
+        xp[0] = Infinity;
+        return { what: 'bad', from: 0, to: 0, why: '' };
+      },
     };
     const arc = sim(sys, [0], { tEnd: 1 });
     expect(arc.outcome).toMatchObject({ status: 'non-finite', j: 0 });
@@ -200,21 +259,46 @@ describe('outcomes other than completed', () => {
   });
 
   it('a guard returning NaN is reported', () => {
-    const sys: HybridSystem = { dim: 1, flow: (_t, _x, d) => { d[0] = 1; }, jumpGuard: (_t, x) => (x[0]! > 0.3 ? NaN : -1), jump: () => null };
+    const sys: HybridSystem = {
+      dim: 1,
+      flow: (_t, _x, d) => {
+        d[0] = 1;
+      },
+      jumpGuard: (_t, x) => (x[0]! > 0.3 ? NaN : -1),
+      jump: () => null,
+    };
     expect(sim(sys, [0], { tEnd: 1 }).outcome.status).toBe('non-finite');
   });
 
   it('step-underflow when the error control needs steps below hMin', () => {
     // stiff: ẋ = −1e6 (x − cos t); explicit DP54 must take steps ~ 3e-6 for stability
-    const sys: HybridSystem = { dim: 1, flow: (t, x, d) => { d[0] = -1e6 * (x[0]! - Math.cos(t)); }, jump: () => null };
+    const sys: HybridSystem = {
+      dim: 1,
+      flow: (t, x, d) => {
+        d[0] = -1e6 * (x[0]! - Math.cos(t));
+      },
+      jump: () => null,
+    };
     const arc = sim(sys, [0], { tEnd: 1, integrator: { kind: 'dp54', rtol: 1e-6, atol: 1e-9, hMin: 1e-3, hInit: 1e-3 } });
     expect(arc.outcome.status).toBe('step-underflow');
     expect(arc.outcome.t).toBeLessThan(1);
   });
 
   it('max-steps on both paths', () => {
-    expect(sim(sampled(0.1, false), [1, 0], { integrator: RK4, maxSteps: 10, record: 'none' }).outcome).toMatchObject({ status: 'max-steps' });
-    const a = sim({ dim: 1, flow: (_t, x, d) => { d[0] = x[0]!; }, jump: () => null }, [1], { integrator: { kind: 'rk4', dt: 0.01 }, maxSteps: 10 });
+    expect(sim(sampled(0.1, false), [1, 0], { integrator: RK4, maxSteps: 10, record: 'none' }).outcome).toMatchObject({
+      status: 'max-steps',
+    });
+    const a = sim(
+      {
+        dim: 1,
+        flow: (_t, x, d) => {
+          d[0] = x[0]!;
+        },
+        jump: () => null,
+      },
+      [1],
+      { integrator: { kind: 'rk4', dt: 0.01 }, maxSteps: 10 },
+    );
     expect(a.outcome.status).toBe('max-steps');
     expect(a.outcome.t).toBeCloseTo(0.1, 12);
   });
@@ -231,7 +315,13 @@ describe('outcomes other than completed', () => {
 });
 
 describe('recording', () => {
-  const expo: HybridSystem = { dim: 1, flow: (_t, x, d) => { d[0] = x[0]!; }, jump: () => null };
+  const expo: HybridSystem = {
+    dim: 1,
+    flow: (_t, x, d) => {
+      d[0] = x[0]!;
+    },
+    jump: () => null,
+  };
 
   it("'interval' samples t0 + k·dt from the dense output (eᵗ to the integrator's accuracy)", () => {
     for (const integrator of [RK4, DP]) {
@@ -248,7 +338,16 @@ describe('recording', () => {
     const arc = sim(expo, [1], { integrator: { kind: 'rk4', dt: 0.1 }, record: 'step' });
     expect(arc.count).toBe(11);
     const seen: number[] = [];
-    const s = sim(expo, [1], { integrator: { kind: 'rk4', dt: 0.1 }, record: { every: 'step', store: false, onRecord: (t) => { seen.push(t); } } });
+    const s = sim(expo, [1], {
+      integrator: { kind: 'rk4', dt: 0.1 },
+      record: {
+        every: 'step',
+        store: false,
+        onRecord: (t) => {
+          seen.push(t);
+        },
+      },
+    });
     expect(s.count).toBe(0);
     expect(seen.length).toBe(11);
     expect(seen[10]).toBe(1);
@@ -256,13 +355,28 @@ describe('recording', () => {
 });
 
 describe('validation: every bad option a named issue, all at once', () => {
-  const ok: HybridSystem = { dim: 2, flow: (_t, _x, d) => { d[0] = 0; d[1] = 0; }, jump: () => null };
+  const ok: HybridSystem = {
+    dim: 2,
+    flow: (_t, _x, d) => {
+      d[0] = 0;
+      d[1] = 0;
+    },
+    jump: () => null,
+  };
 
   it('top-level and integrator options', () => {
     const r = simulateHybrid(ok, [0, 0], {
-      t0: NaN, tEnd: -1, jMax: 0, integrator: { kind: 'dp54', rtol: 2, atol: -1, hMax: 0 },
-      maxJumpsPerInstant: 0.5, eventTimeTol: 0, zenoWindow: -1, eventScan: 100, maxSteps: 0,
-      record: { every: 'sometimes' as never, dt: 1, store: 'yes' as never }, extra: 1,
+      t0: NaN,
+      tEnd: -1,
+      jMax: 0,
+      integrator: { kind: 'dp54', rtol: 2, atol: -1, hMax: 0 },
+      maxJumpsPerInstant: 0.5,
+      eventTimeTol: 0,
+      zenoWindow: -1,
+      eventScan: 100,
+      maxSteps: 0,
+      record: { every: 'sometimes' as never, dt: 1, store: 'yes' as never },
+      extra: 1,
     } as unknown as HybridOptions);
     expect(r.ok).toBe(false);
     if (r.ok) return;
@@ -286,7 +400,11 @@ describe('validation: every bad option a named issue, all at once', () => {
 
   it('rk4 options, tEnd order, record interval without dt, unknown integrator', () => {
     const a = simulateHybrid(ok, [0, 0], { tEnd: 1, integrator: { kind: 'rk4', dt: 0, rtol: 1 } as never, record: { every: 'interval' } });
-    expect(a.ok ? [] : a.errors.map((e) => `${e.path}:${e.rule}`)).toEqual(['integrator.rtol:unknown-option', 'integrator.dt:positive', 'record.dt:positive']);
+    expect(a.ok ? [] : a.errors.map((e) => `${e.path}:${e.rule}`)).toEqual([
+      'integrator.rtol:unknown-option',
+      'integrator.dt:positive',
+      'record.dt:positive',
+    ]);
     const b = simulateHybrid(ok, [0, 0], { t0: 2, tEnd: 1, integrator: { kind: 'euler' } as never });
     expect(b.ok ? [] : b.errors.map((e) => `${e.path}:${e.rule}`)).toEqual(['tEnd:order', 'integrator.kind:one-of']);
     const c = simulateHybrid(ok, [0, 0], undefined as never);
@@ -294,9 +412,17 @@ describe('validation: every bad option a named issue, all at once', () => {
   });
 
   it('system and initial state', () => {
-    const r = simulateHybrid({ dim: 2, flow: 3, jump: undefined, jumpGuard: 'x', both: 'maybe' } as never, [0, NaN, 1] as never, { tEnd: 1, integrator: RK4 });
+    const r = simulateHybrid({ dim: 2, flow: 3, jump: undefined, jumpGuard: 'x', both: 'maybe' } as never, [0, NaN, 1] as never, {
+      tEnd: 1,
+      integrator: RK4,
+    });
     expect(r.ok ? [] : r.errors.map((e) => `${e.path}:${e.rule}`)).toEqual([
-      'system.flow:function', 'system.jump:function', 'system.jumpGuard:function', 'system.both:one-of', 'x0:shape', 'x0[1]:finite',
+      'system.flow:function',
+      'system.jump:function',
+      'system.jumpGuard:function',
+      'system.both:one-of',
+      'x0:shape',
+      'x0[1]:finite',
     ]);
   });
 });

@@ -81,7 +81,12 @@ function fakeElectron() {
   let menuTemplate: MenuItemConstructorOptions[] = [];
   const messageAnswers: number[] = [];
   type PermissionHandler = null | ((c: unknown, p: string, cb: (g: boolean) => void) => void);
-  const session: { permission: PermissionHandler; setPermissionRequestHandler(h: PermissionHandler): void; setPermissionCheckHandler(): void; webRequest: { onHeadersReceived(): void } } = {
+  const session: {
+    permission: PermissionHandler;
+    setPermissionRequestHandler(h: PermissionHandler): void;
+    setPermissionCheckHandler(): void;
+    webRequest: { onHeadersReceived(): void };
+  } = {
     permission: null,
     setPermissionRequestHandler(h) {
       session.permission = h;
@@ -126,7 +131,16 @@ function fakeElectron() {
     },
     BrowserWindow: FakeWindow,
   };
-  return { e: e as unknown as ElectronModules, calls, appListeners, ipc, session, messageAnswers, protocol: () => protocolHandler!, menu: () => menuTemplate };
+  return {
+    e: e as unknown as ElectronModules,
+    calls,
+    appListeners,
+    ipc,
+    session,
+    messageAnswers,
+    protocol: () => protocolHandler!,
+    menu: () => menuTemplate,
+  };
 }
 
 async function started(argv: string[] = ['electron', 'main.cjs']) {
@@ -139,7 +153,9 @@ async function started(argv: string[] = ['electron', 'main.cjs']) {
 describe('desktop wiring', () => {
   it('registers the privileged app scheme and turns the sandbox on before ready', async () => {
     const f = await started();
-    expect(f.calls[0]).toBe('privileged [{"scheme":"app","privileges":{"standard":true,"secure":true,"supportFetchAPI":true,"corsEnabled":true}}]');
+    expect(f.calls[0]).toBe(
+      'privileged [{"scheme":"app","privileges":{"standard":true,"secure":true,"supportFetchAPI":true,"corsEnabled":true}}]',
+    );
     expect(f.calls[1]).toBe('enableSandbox');
   });
 

@@ -9,7 +9,12 @@ import { build, type Rolldown } from 'vite';
 import { describe, expect, it } from 'vitest';
 
 async function bundle(mode: 'main' | 'preload'): Promise<Rolldown.OutputChunk[]> {
-  const out = await build({ configFile: path.resolve('main/vite.electron.config.ts'), mode, logLevel: 'error', build: { write: false, sourcemap: false } });
+  const out = await build({
+    configFile: path.resolve('main/vite.electron.config.ts'),
+    mode,
+    logLevel: 'error',
+    build: { write: false, sourcemap: false },
+  });
   const outputs = Array.isArray(out) ? out : [out];
   const chunks: Rolldown.OutputChunk[] = [];
   for (const o of outputs) if ('output' in o) for (const c of o.output) if (c.type === 'chunk') chunks.push(c);

@@ -47,7 +47,13 @@ describe('open', () => {
     const p = await writeScenario('lumen.scenario.json');
     dialogs.openAnswers.push({ canceled: false, filePaths: [p] });
     const r = await docs.openScenario();
-    expect(r).toEqual({ status: 'opened', file: { path: p, name: 'lumen.scenario.json' }, scenario: GOOD_SCENARIO, warnings: [], template: false });
+    expect(r).toEqual({
+      status: 'opened',
+      file: { path: p, name: 'lumen.scenario.json' },
+      scenario: GOOD_SCENARIO,
+      warnings: [],
+      template: false,
+    });
     expect(docs.current).toEqual({ path: p, name: 'lumen.scenario.json', dirty: false });
     expect((await recent.list()).map((f) => f.path)).toEqual([p]);
     expect(titles.at(-1)).toBe('lumen.scenario.json — Slewsmith');
@@ -71,7 +77,16 @@ describe('open', () => {
     const fs = failingFs(null);
     const dialogs = scriptedDialogs();
     const recent = createRecentFiles({ fs, file: path.join(dir, 'recent.json'), max: 10 });
-    const docs = new DocumentService({ fs, dialogs, validateScenario: fakeValidator, recent, documentsDir: dir, sendCommand: () => {}, closeWindow: () => {}, limits: { scenarioBytes: 10, exportBytes: 10 } });
+    const docs = new DocumentService({
+      fs,
+      dialogs,
+      validateScenario: fakeValidator,
+      recent,
+      documentsDir: dir,
+      sendCommand: () => {},
+      closeWindow: () => {},
+      limits: { scenarioBytes: 10, exportBytes: 10 },
+    });
     const p = await writeScenario('big.json');
     dialogs.openAnswers.push({ canceled: false, filePaths: [p] });
     const r = await docs.openScenario();

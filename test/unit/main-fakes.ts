@@ -108,7 +108,8 @@ export function fakeValidator(json: unknown): Result<unknown> {
   const o = json as Record<string, unknown>;
   const errors = [];
   if (o.format !== 'slewsmith-scenario') errors.push(issue('format', 'format', 'format must be slewsmith-scenario'));
-  if (typeof o.durationS !== 'number' || !Number.isFinite(o.durationS)) errors.push(issue('durationS', 'finite', 'durationS must be finite'));
+  if (typeof o.durationS !== 'number' || !Number.isFinite(o.durationS))
+    errors.push(issue('durationS', 'finite', 'durationS must be finite'));
   return errors.length ? fail(errors) : ok(json);
 }
 

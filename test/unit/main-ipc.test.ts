@@ -24,7 +24,15 @@ function setup() {
   const sent: string[] = [];
   const logs: string[] = [];
   const recent = createRecentFiles({ fs, file: path.join(dir, 'recent.json'), max: 10 });
-  const documents = new DocumentService({ fs, dialogs, validateScenario: fakeValidator, recent, documentsDir: dir, sendCommand: (c) => sent.push(c), closeWindow: () => sent.push('closed') });
+  const documents = new DocumentService({
+    fs,
+    dialogs,
+    validateScenario: fakeValidator,
+    recent,
+    documentsDir: dir,
+    sendCommand: (c) => sent.push(c),
+    closeWindow: () => sent.push('closed'),
+  });
   const ipc = recordingIpc();
   registerIpc(ipc, {
     documents,
@@ -103,7 +111,10 @@ describe('payload checks', () => {
     await expect(invoke(OWN_FRAME, InvokeChannels.openRecent, '/a\0b.json')).rejects.toThrow(/NUL/);
     const secret = path.join(dir, 'secret.json');
     await fsp.writeFile(secret, JSON.stringify(GOOD_SCENARIO));
-    expect(await invoke(OWN_FRAME, InvokeChannels.openRecent, secret)).toEqual({ status: 'failed', message: `${secret} is not on the recent-files list` });
+    expect(await invoke(OWN_FRAME, InvokeChannels.openRecent, secret)).toEqual({
+      status: 'failed',
+      message: `${secret} is not on the recent-files list`,
+    });
     expect(fs.calls.filter((c) => c.startsWith('readFile') && !c.includes('recent'))).toEqual([]);
     expect(dialogs.log).toEqual([]);
   });
@@ -135,15 +146,25 @@ describe('payload checks', () => {
     const { invoke, dialogs } = setup();
     await expect(invoke(OWN_FRAME, InvokeChannels.exportFile, 'a.csv')).rejects.toThrow(/must be an object/);
     await expect(invoke(OWN_FRAME, InvokeChannels.exportFile, null)).rejects.toThrow(/must be an object/);
-    const r = (await invoke(OWN_FRAME, InvokeChannels.exportFile, { suggestedName: '../../.bashrc', content: 'x'.repeat(1001), mode: 0o777 })) as { status: string; errors: { path: string; rule: string }[] };
+    const r = (await invoke(OWN_FRAME, InvokeChannels.exportFile, {
+      suggestedName: '../../.bashrc',
+      content: 'x'.repeat(1001),
+      mode: 0o777,
+    })) as { status: string; errors: { path: string; rule: string }[] };
     expect(r.status).toBe('invalid');
-    expect(r.errors.map((e) => `${e.path}:${e.rule}`).sort()).toEqual(['content:max-size', 'mode:unknown-field', 'suggestedName:bare-name']);
+    expect(r.errors.map((e) => `${e.path}:${e.rule}`).sort()).toEqual([
+      'content:max-size',
+      'mode:unknown-field',
+      'suggestedName:bare-name',
+    ]);
     const names = ['', 'a/b.csv', 'a\\b.csv', 'CON.txt', 'nul', 'a\u0007.csv', 'a.csv.', '..', 'x'.repeat(201)];
     for (const suggestedName of names) {
       const rr = (await invoke(OWN_FRAME, InvokeChannels.exportFile, { suggestedName, content: 'x' })) as { status: string };
       expect(rr.status, JSON.stringify(suggestedName)).toBe('invalid');
     }
-    const bad = (await invoke(OWN_FRAME, InvokeChannels.exportFile, { suggestedName: 'a.csv', content: { length: 3 } })) as { errors: { rule: string }[] };
+    const bad = (await invoke(OWN_FRAME, InvokeChannels.exportFile, { suggestedName: 'a.csv', content: { length: 3 } })) as {
+      errors: { rule: string }[];
+    };
     expect(bad.errors).toEqual([{ path: 'content', rule: 'type', message: 'content must be a string or a Uint8Array' }]);
     expect(dialogs.log).toEqual([]);
   });

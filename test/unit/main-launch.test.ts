@@ -25,12 +25,19 @@ const E = '/repo/node_modules/electron';
 
 describe('locateElectronBinary', () => {
   it('finds dist/<path.txt> when installed', () => {
-    const r = locateElectronBinary(E, fakeFs({ [`${E}/package.json`]: '{}', [`${E}/path.txt`]: 'electron', [`${E}/dist/electron`]: '' }), {});
+    const r = locateElectronBinary(
+      E,
+      fakeFs({ [`${E}/package.json`]: '{}', [`${E}/path.txt`]: 'electron', [`${E}/dist/electron`]: '' }),
+      {},
+    );
     expect(r).toEqual({ ok: true, path: `${E}/dist/electron` });
   });
 
   it('says in one line how to fetch the binary when path.txt or the executable is missing', () => {
-    const cases: Record<string, string>[] = [{ [`${E}/package.json`]: '{}' }, { [`${E}/package.json`]: '{}', [`${E}/path.txt`]: 'electron' }];
+    const cases: Record<string, string>[] = [
+      { [`${E}/package.json`]: '{}' },
+      { [`${E}/package.json`]: '{}', [`${E}/path.txt`]: 'electron' },
+    ];
     for (const files of cases) {
       const r = locateElectronBinary(E, fakeFs(files), {});
       expect(r.ok).toBe(false);
@@ -48,14 +55,21 @@ describe('locateElectronBinary', () => {
 
   it('honours ELECTRON_OVERRIDE_DIST_PATH as electron/index.js does', () => {
     const files = { [`${E}/package.json`]: '{}', '/opt/electron/electron': '' };
-    expect(locateElectronBinary(E, fakeFs(files), { ELECTRON_OVERRIDE_DIST_PATH: '/opt/electron' })).toEqual({ ok: true, path: '/opt/electron/electron' });
+    expect(locateElectronBinary(E, fakeFs(files), { ELECTRON_OVERRIDE_DIST_PATH: '/opt/electron' })).toEqual({
+      ok: true,
+      path: '/opt/electron/electron',
+    });
     const r = locateElectronBinary(E, fakeFs(files), { ELECTRON_OVERRIDE_DIST_PATH: '/nowhere' });
     expect(r.ok).toBe(false);
   });
 
   it('the fetch command names a script the installed electron package really ships', () => {
     const dir = path.resolve('node_modules/electron');
-    const pkg = JSON.parse(fs.readFileSync(path.join(dir, 'package.json'), 'utf8')) as { version: string; bin: Record<string, string>; scripts?: Record<string, string> };
+    const pkg = JSON.parse(fs.readFileSync(path.join(dir, 'package.json'), 'utf8')) as {
+      version: string;
+      bin: Record<string, string>;
+      scripts?: Record<string, string>;
+    };
     expect(pkg.bin['install-electron']).toBe('install.js');
     expect(fs.existsSync(path.resolve(FETCH_COMMAND.split(' ')[1]!))).toBe(true);
     // No postinstall: the binary really is fetched lazily (toolchain note, electron >= 42).
@@ -89,7 +103,10 @@ describe('npm start without the binary', () => {
 describe('parseLaunchArgs', () => {
   const cwd = '/repo';
   it('reads --demo (as a template) and a plain .json path (as a file) after the app path', () => {
-    expect(parseLaunchArgs(['electron', 'dist/main/main.cjs', '--demo=assets/d.json'], false, cwd)).toEqual({ kind: 'template', path: '/repo/assets/d.json' });
+    expect(parseLaunchArgs(['electron', 'dist/main/main.cjs', '--demo=assets/d.json'], false, cwd)).toEqual({
+      kind: 'template',
+      path: '/repo/assets/d.json',
+    });
     expect(parseLaunchArgs(['electron', '.', '--demo', '/abs/d.json'], false, cwd)).toEqual({ kind: 'template', path: '/abs/d.json' });
     expect(parseLaunchArgs(['slewsmith', 'plans/x.json'], true, cwd)).toEqual({ kind: 'file', path: '/repo/plans/x.json' });
     expect(parseLaunchArgs(['electron', '.', '--demo=d.json', 'mine.json'], false, cwd)).toEqual({ kind: 'file', path: '/repo/mine.json' });

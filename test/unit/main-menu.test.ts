@@ -72,7 +72,8 @@ it('macOS gets the application menu first; other platforms keep Quit in File', (
 });
 
 it('adds the developer tools toggle only when asked', () => {
-  const roles = (developer: boolean) => flattenMenu(buildMenuTemplate({ platform: 'linux', send: () => {}, quit: () => {}, developer })).map((i) => i.role);
+  const roles = (developer: boolean) =>
+    flattenMenu(buildMenuTemplate({ platform: 'linux', send: () => {}, quit: () => {}, developer })).map((i) => i.role);
   expect(roles(false)).not.toContain('toggleDevTools');
   expect(roles(true)).toContain('toggleDevTools');
 });

@@ -7,15 +7,20 @@ import { commandForChord } from '../../app/bridge/commands';
 describe('utf8ByteLength', () => {
   it("agrees with Node's Buffer.byteLength on any string, lone surrogates included", () => {
     // Reference: Node's own UTF-8 encoder (lone surrogates become U+FFFD, 3 bytes).
-    fc.assert(fc.property(fc.string({ unit: 'binary' }), (s) => utf8ByteLength(s) === Buffer.byteLength(s, 'utf8')), { numRuns: 2000 });
-    for (const s of ['', 'a', 'é', '€', '😀', '\ud800', '\udc00x', 'a\ud83d']) expect(utf8ByteLength(s), JSON.stringify(s)).toBe(Buffer.byteLength(s, 'utf8'));
+    fc.assert(
+      fc.property(fc.string({ unit: 'binary' }), (s) => utf8ByteLength(s) === Buffer.byteLength(s, 'utf8')),
+      { numRuns: 2000 },
+    );
+    for (const s of ['', 'a', 'é', '€', '😀', '\ud800', '\udc00x', 'a\ud83d'])
+      expect(utf8ByteLength(s), JSON.stringify(s)).toBe(Buffer.byteLength(s, 'utf8'));
     expect(contentByteLength(new Uint8Array(7))).toBe(7);
   });
 });
 
 describe('checkFileName', () => {
   it('accepts ordinary export names', () => {
-    for (const n of ['lumen6-slew1.aem', 'run 3 (hybrid).csv', 'plan.v2.json', 'ünïcode-名前.csv']) expect(checkFileName(n, 'n'), n).toEqual([]);
+    for (const n of ['lumen6-slew1.aem', 'run 3 (hybrid).csv', 'plan.v2.json', 'ünïcode-名前.csv'])
+      expect(checkFileName(n, 'n'), n).toEqual([]);
   });
   it('rejects folders, control and reserved characters, device names, dots and empties', () => {
     const rules = (n: unknown) => checkFileName(n, 'n').map((i) => i.rule);
@@ -35,7 +40,14 @@ describe('checkFileName', () => {
 });
 
 describe('commandForChord', () => {
-  const chord = (key: string, mods: Partial<{ ctrlKey: boolean; metaKey: boolean; shiftKey: boolean; altKey: boolean }>) => ({ key, ctrlKey: false, metaKey: false, shiftKey: false, altKey: false, ...mods });
+  const chord = (key: string, mods: Partial<{ ctrlKey: boolean; metaKey: boolean; shiftKey: boolean; altKey: boolean }>) => ({
+    key,
+    ctrlKey: false,
+    metaKey: false,
+    shiftKey: false,
+    altKey: false,
+    ...mods,
+  });
   it('maps Ctrl chords off macOS and Cmd chords on macOS', () => {
     expect(commandForChord(chord('s', { ctrlKey: true }), false)).toBe('save');
     expect(commandForChord(chord('S', { ctrlKey: true, shiftKey: true }), false)).toBe('save-as');

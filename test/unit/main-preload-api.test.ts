@@ -35,7 +35,20 @@ describe('desktop bridge', () => {
   it('exposes only the named operations', () => {
     const b = createDesktopBridge(fakeIpc().ipc);
     expect(Object.keys(b).sort()).toEqual(
-      ['appInfo', 'exportFile', 'initialScenario', 'newScenario', 'onCommand', 'openRecent', 'openScenario', 'recentFiles', 'saveScenario', 'saveScenarioAs', 'setDirty', 'shell'].sort(),
+      [
+        'appInfo',
+        'exportFile',
+        'initialScenario',
+        'newScenario',
+        'onCommand',
+        'openRecent',
+        'openScenario',
+        'recentFiles',
+        'saveScenario',
+        'saveScenarioAs',
+        'setDirty',
+        'shell',
+      ].sort(),
     );
     for (const k of ['send', 'invoke', 'on', 'ipcRenderer', 'removeListener']) expect(b).not.toHaveProperty(k);
     expect(b.shell).toBe('desktop');

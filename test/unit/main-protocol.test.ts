@@ -62,7 +62,8 @@ describe('createAppProtocolHandler', () => {
   });
   afterAll(() => fsp.rm(dir, { recursive: true, force: true }));
 
-  const handler = () => createAppProtocolHandler({ rootDir: path.join(dir, 'renderer'), csp: contentSecurityPolicy, readFile: (p) => fsp.readFile(p) });
+  const handler = () =>
+    createAppProtocolHandler({ rootDir: path.join(dir, 'renderer'), csp: contentSecurityPolicy, readFile: (p) => fsp.readFile(p) });
 
   it('serves the index with CSP, content type and nosniff', async () => {
     const res = await handler()({ url: 'app://slewsmith/index.html', method: 'GET' });

@@ -6,7 +6,16 @@
  */
 import { describe, expect, it, vi } from 'vitest';
 import { contentSecurityPolicy, cspDirectives, electronConfig } from '../../electron.config';
-import { appIndexUrl, hardenSession, hardenWebContents, isAppUrl, mainWindowOptions, secureWebPreferences, withCspHeader, type HardenableContents } from '../../main/security';
+import {
+  appIndexUrl,
+  hardenSession,
+  hardenWebContents,
+  isAppUrl,
+  mainWindowOptions,
+  secureWebPreferences,
+  withCspHeader,
+  type HardenableContents,
+} from '../../main/security';
 
 describe('window options', () => {
   const o = mainWindowOptions('/app/dist/main/preload.cjs');
@@ -36,7 +45,8 @@ describe('window options', () => {
 
   it('sets nothing that would weaken the defaults', () => {
     const keys = Object.keys(secureWebPreferences('/p'));
-    for (const k of ['enableBlinkFeatures', 'additionalArguments', 'disableBlinkFeatures', 'partition', 'devTools'] as const) expect(keys).not.toContain(k);
+    for (const k of ['enableBlinkFeatures', 'additionalArguments', 'disableBlinkFeatures', 'partition', 'devTools'] as const)
+      expect(keys).not.toContain(k);
   });
 });
 
@@ -45,7 +55,16 @@ describe('app URL check', () => {
     expect(appIndexUrl()).toBe('app://slewsmith/index.html');
     expect(isAppUrl(appIndexUrl())).toBe(true);
     expect(isAppUrl('app://slewsmith/assets/index-abc.js')).toBe(true);
-    for (const u of ['app://other/index.html', 'file:///index.html', 'https://slewsmith/index.html', 'http://127.0.0.1/', 'app://slewsmith.evil/', 'javascript:alert(1)', 'not a url', ''])
+    for (const u of [
+      'app://other/index.html',
+      'file:///index.html',
+      'https://slewsmith/index.html',
+      'http://127.0.0.1/',
+      'app://slewsmith.evil/',
+      'javascript:alert(1)',
+      'not a url',
+      '',
+    ])
       expect(isAppUrl(u), u).toBe(false);
   });
 });
@@ -85,7 +104,8 @@ describe('web contents hardening', () => {
     const e = { preventDefault: vi.fn() };
     f.handlers.get('will-attach-webview')!(e);
     expect(e.preventDefault).toHaveBeenCalledOnce();
-    for (const url of ['https://example.org/', 'app://slewsmith/index.html', 'about:blank']) expect(f.open(url)).toEqual({ action: 'deny' });
+    for (const url of ['https://example.org/', 'app://slewsmith/index.html', 'about:blank'])
+      expect(f.open(url)).toEqual({ action: 'deny' });
   });
 });
 
@@ -134,8 +154,13 @@ describe('session hardening', () => {
     const s = fakeSession();
     hardenSession(s, contentSecurityPolicy);
     const cb = vi.fn();
-    s.headers!({ responseHeaders: { 'content-security-policy': ["default-src *; script-src 'unsafe-eval'"], 'Content-Type': ['text/html'] } }, cb);
-    expect(cb).toHaveBeenCalledWith({ responseHeaders: { 'Content-Type': ['text/html'], 'Content-Security-Policy': [contentSecurityPolicy] } });
+    s.headers!(
+      { responseHeaders: { 'content-security-policy': ["default-src *; script-src 'unsafe-eval'"], 'Content-Type': ['text/html'] } },
+      cb,
+    );
+    expect(cb).toHaveBeenCalledWith({
+      responseHeaders: { 'Content-Type': ['text/html'], 'Content-Security-Policy': [contentSecurityPolicy] },
+    });
     expect(withCspHeader(undefined, 'x')).toEqual({ 'Content-Security-Policy': ['x'] });
   });
 });

@@ -23,9 +23,24 @@ function rotationTrace(rate: (t: number) => number, T: number, dt: number, targe
     const t = k * dt;
     const w = rate(t);
     b.push({
-      t, j: 0, segment: 0, q, omega: [0, 0, w], hWheel: [0.00005 * t, -0.002], qRef: target, omegaRef: zero3,
-      torqueCmdBody: [torque(t), 0, 0], torqueBody: [torque(t), 0, 0], wheelTorqueCmd: [0, 0], wheelTorque: [0.0005, 0],
-      logic: 0, errorAngle: qAngleBetween(q, target), potential: 0, potentialMin: 0, gap: 0, lyapunov: 1 / (1 + t),
+      t,
+      j: 0,
+      segment: 0,
+      q,
+      omega: [0, 0, w],
+      hWheel: [0.00005 * t, -0.002],
+      qRef: target,
+      omegaRef: zero3,
+      torqueCmdBody: [torque(t), 0, 0],
+      torqueBody: [torque(t), 0, 0],
+      wheelTorqueCmd: [0, 0],
+      wheelTorque: [0.0005, 0],
+      logic: 0,
+      errorAngle: qAngleBetween(q, target),
+      potential: 0,
+      potentialMin: 0,
+      gap: 0,
+      lyapunov: 1 / (1 + t),
     });
     // exact propagation for the piecewise-constant midpoint rate
     q = qPropagateBodyRate(new Float64Array(4), q, [0, 0, rate(t + dt / 2)], dt);
@@ -71,7 +86,13 @@ describe('run metrics', () => {
   it('chatter counts torque sign reversals and jumps per second in the worst window', () => {
     const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.0);
     // torque alternating sign every sample (dt 0.1) for 20 s: 10 reversals per second
-    const tr = rotationTrace(() => 0, 20, 0.1, target, (t) => (Math.round(t * 10) % 2 === 0 ? 1e-4 : -1e-4));
+    const tr = rotationTrace(
+      () => 0,
+      20,
+      0.1,
+      target,
+      (t) => (Math.round(t * 10) % 2 === 0 ? 1e-4 : -1e-4),
+    );
     const jumps: JumpEvent[] = [{ t: 3, j: 1, what: 'logic', from: 1, to: -1, why: 'test' }];
     const m = computeMetrics(tr, jumps, opts(target));
     expect(m.torqueReversals).toBe(200);
@@ -94,7 +115,8 @@ describe('Lyapunov monitor', () => {
     const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.1);
     const tr = rotationTrace(() => 0, 10, 0.1, target);
     // W decreasing except a bump between t = 4 and 5
-    for (let k = 0; k < tr.n; k++) tr.lyapunov[k] = 10 - tr.t[k]! + (tr.t[k]! > 4 && tr.t[k]! <= 5 ? 2 * (tr.t[k]! - 4) : tr.t[k]! > 5 ? 2 : 0);
+    for (let k = 0; k < tr.n; k++)
+      tr.lyapunov[k] = 10 - tr.t[k]! + (tr.t[k]! > 4 && tr.t[k]! <= 5 ? 2 * (tr.t[k]! - 4) : tr.t[k]! > 5 ? 2 : 0);
     const jumps: JumpEvent[] = [
       { t: 7, j: 1, what: 'logic', from: 1, to: 2, why: 'gap', lyapunovBefore: 3, lyapunovAfter: 2.5 },
       { t: 8, j: 2, what: 'logic', from: 2, to: 1, why: 'gap', lyapunovBefore: 3, lyapunovAfter: 1 },
@@ -123,7 +145,8 @@ describe('sensor models', () => {
     const sigma = 10 / 206264.806; // 10 arcsec
     const model = { ...PERFECT_SENSORS, attitudeSigmaRad: sigma };
     const q = qFromAxisAngle(new Float64Array(4), [0.3, 0.1, 0.9], 1.0);
-    const qm = new Float64Array(4), wm = new Float64Array(3);
+    const qm = new Float64Array(4),
+      wm = new Float64Array(3);
     let sum = 0;
     const N = 20000;
     for (let i = 0; i < N; i++) {
@@ -137,9 +160,12 @@ describe('sensor models', () => {
   it('rate bias is added and white noise has the requested σ', () => {
     const rng = makeRng(5);
     const model = { ...PERFECT_SENSORS, rateSigmaRadPerS: 1e-4, rateBiasRadPerS: [1e-3, 0, -2e-3] };
-    const qm = new Float64Array(4), wm = new Float64Array(3);
+    const qm = new Float64Array(4),
+      wm = new Float64Array(3);
     const q = new Float64Array([0, 0, 0, 1]);
-    let s0 = 0, s2 = 0, sq = 0;
+    let s0 = 0,
+      s2 = 0,
+      sq = 0;
     const N = 20000;
     for (let i = 0; i < N; i++) {
       measure(qm, wm, model, rng, q, [0.01, 0.02, 0.03], q);
@@ -156,7 +182,9 @@ describe('sensor models', () => {
     const rng = makeRng(1);
     const model = { ...PERFECT_SENSORS, adversarialEta: 0.1 };
     const qRef = new Float64Array([0, 0, 0, 1]);
-    const qm = new Float64Array(4), wm = new Float64Array(3), e = new Float64Array(4);
+    const qm = new Float64Array(4),
+      wm = new Float64Array(3),
+      e = new Float64Array(4);
     const near = qFromAxisAngle(new Float64Array(4), [0, 1, 0], Math.PI - 0.1); // η = cos(π/2 − 0.05) ≈ 0.05
     measure(qm, wm, model, rng, near, [0, 0, 0], qRef);
     qConjMultiply(e, qRef, qm);

@@ -40,7 +40,8 @@ describe('boxCapacity', () => {
     for (let i = 0; i < 200; i++) {
       const d = v(rng.normal(), rng.normal(), rng.normal());
       const inside = (r: number) => Math.abs(r * d[0]!) <= l[0]! && Math.abs(r * d[1]!) <= l[1]! && Math.abs(r * d[2]!) <= l[2]!;
-      let lo = 0, hi = 10;
+      let lo = 0,
+        hi = 10;
       for (let k = 0; k < 200; k++) {
         const mid = 0.5 * (lo + hi);
         if (inside(mid)) lo = mid;

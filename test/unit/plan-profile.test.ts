@@ -11,9 +11,13 @@ const D = Math.PI / 180;
 
 describe('restToRestProfile closed forms', () => {
   it('bang-coast-bang: 90° about an axis, 1 deg/s², 3 deg/s cap ⇒ 3 s + 27 s + 3 s = 33 s', () => {
-    const th = 90 * D, a = 1 * D, w = 3 * D;
+    const th = 90 * D,
+      a = 1 * D,
+      w = 3 * D;
     // Closed form: t_a = w/a, coast = θ/w − w/a, T = θ/w + w/a (θ > θ* = w²/a).
-    const tA = w / a, tC = th / w - w / a, T = th / w + w / a;
+    const tA = w / a,
+      tC = th / w - w / a,
+      T = th / w + w / a;
     expect(tA).toBeCloseTo(3, 12);
     expect(tC).toBeCloseTo(27, 12);
     const p = restToRestProfile(th, a, w);
@@ -30,7 +34,8 @@ describe('restToRestProfile closed forms', () => {
   });
 
   it('bang-bang when θ ≤ θ* = w²/a: T = 2√(θ/a), switch at T/2, peak √(θ a)', () => {
-    const a = 1 * D, w = 3 * D;
+    const a = 1 * D,
+      w = 3 * D;
     const th = 8 * D; // θ* = 9°
     const T = 2 * Math.sqrt(th / a);
     const p = restToRestProfile(th, a, w);
@@ -80,7 +85,9 @@ describe('profileAt', () => {
 
   it('is continuous in φ and ω, right-continuous in α, and consistent by finite differences', () => {
     for (const p of [restToRestProfile(1.3, 0.02, 0.05), restToRestProfile(0.4, 0.02, 1)]) {
-      const out = new Float64Array(3), lo = new Float64Array(3), hi = new Float64Array(3);
+      const out = new Float64Array(3),
+        lo = new Float64Array(3),
+        hi = new Float64Array(3);
       for (const ts of profileSwitchTimes(p)) {
         profileAt(lo, p, ts - 1e-9);
         profileAt(hi, p, ts + 1e-9);

@@ -19,7 +19,8 @@ import type { Result } from '../../app/engine/errors';
 const D = Math.PI / 180;
 const diag = (a: number, b: number, c: number) => [a, 0, 0, 0, b, 0, 0, 0, c];
 const axisAngle = (ax: number[], th: number) => {
-  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!), s = Math.sin(th / 2) / n;
+  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!),
+    s = Math.sin(th / 2) / n;
   return [ax[0]! * s, ax[1]! * s, ax[2]! * s, Math.cos(th / 2)];
 };
 const I4 = [0, 0, 0, 1];
@@ -46,9 +47,16 @@ describe('zero stored momentum: closed forms', () => {
   const lh3 = (3 * D * 12) / 0.9;
 
   it('90° about z, 1 deg/s², 3 deg/s cap ⇒ 3 s + 27 s + 3 s = 33 s, momentum binds', () => {
-    const lim: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh3), torqueMargin: 0.8, momentumMargin: 0.9 };
+    const lim: PlanLimits = {
+      torqueCapacity: cubeCapacity(lt),
+      momentumCapacity: cubeCapacity(lh3),
+      torqueMargin: 0.8,
+      momentumMargin: 0.9,
+    };
     const p = feasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 90 * D), inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
-    const th = 90 * D, a = 1 * D, w = 3 * D;
+    const th = 90 * D,
+      a = 1 * D,
+      w = 3 * D;
     expect(Math.abs(p.durationS - (th / w + w / a))).toBeLessThan(1e-9);
     expect(Math.abs(p.durationS - 33)).toBeLessThan(1e-9);
     expect(Math.abs(p.switchTimesS[0]! - 3)).toBeLessThan(1e-9);
@@ -63,7 +71,13 @@ describe('zero stored momentum: closed forms', () => {
 
   it('slew-rate limit below the momentum cap binds: same 33 s with 3 deg/s limit and a 4 deg/s envelope', () => {
     const lh4 = (4 * D * 12) / 0.9;
-    const lim: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh4), torqueMargin: 0.8, momentumMargin: 0.9, slewRateLimitRadPerS: 3 * D };
+    const lim: PlanLimits = {
+      torqueCapacity: cubeCapacity(lt),
+      momentumCapacity: cubeCapacity(lh4),
+      torqueMargin: 0.8,
+      momentumMargin: 0.9,
+      slewRateLimitRadPerS: 3 * D,
+    };
     const p = feasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 90 * D), inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     expect(Math.abs(p.durationS - 33)).toBeLessThan(1e-9);
     expect(p.binding).toBe('slew-rate');
@@ -72,7 +86,12 @@ describe('zero stored momentum: closed forms', () => {
   });
 
   it('a short slew is bang-bang and torque binds: T = 2√(θ/a)', () => {
-    const lim: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh3), torqueMargin: 0.8, momentumMargin: 0.9 };
+    const lim: PlanLimits = {
+      torqueCapacity: cubeCapacity(lt),
+      momentumCapacity: cubeCapacity(lh3),
+      torqueMargin: 0.8,
+      momentumMargin: 0.9,
+    };
     const p = feasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 8 * D), inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     expect(Math.abs(p.durationS - 2 * Math.sqrt((8 * D) / (1 * D)))).toBeLessThan(1e-9);
     expect(p.profile.kind).toBe('bang-bang');
@@ -92,12 +111,21 @@ describe('zero stored momentum: closed forms', () => {
   });
 
   it('takes the shortest rotation: a 270° target about +z is flown as 90° about −z', () => {
-    const lim: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh3), torqueMargin: 0.8, momentumMargin: 0.9 };
+    const lim: PlanLimits = {
+      torqueCapacity: cubeCapacity(lt),
+      momentumCapacity: cubeCapacity(lh3),
+      torqueMargin: 0.8,
+      momentumMargin: 0.9,
+    };
     const q1 = axisAngle([0, 0, 1], 270 * D); // w = cos 135° < 0
     const p = feasible(planSegment({ qStart: I4, qTarget: q1, inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     expect(Math.abs(p.angleRad - 90 * D)).toBeLessThan(1e-12);
     expect(Math.abs(p.axisBody[2]! + 1)).toBeLessThan(1e-12);
-    expect(Array.from(p.qEnd).map((x, i) => Math.abs(x + q1[i]!)).every((d) => d < 1e-15)).toBe(true);
+    expect(
+      Array.from(p.qEnd)
+        .map((x, i) => Math.abs(x + q1[i]!))
+        .every((d) => d < 1e-15),
+    ).toBe(true);
     expect(Math.abs(p.durationS - 33)).toBeLessThan(1e-9);
   });
 });
@@ -112,7 +140,8 @@ describe('non-principal axis: the wheels push along Je (references §2)', () => 
   const eJe = e[0]! * Je[0]! + e[1]! * Je[1]! + e[2]! * Je[2]!;
 
   it('norm-bounded torque: a = m c / |Je| (not m c / eᵀJe); T = 2√(θ/a)', () => {
-    const c = 0.002, m = 0.7;
+    const c = 0.002,
+      m = 0.7;
     const lim: PlanLimits = { torqueCapacity: sphere(c), momentumCapacity: sphere(10), torqueMargin: m, momentumMargin: 1 };
     const p = feasible(planSegment({ qStart: I4, qTarget: axisAngle(e, th), inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     const T = 2 * Math.sqrt((th * JeNorm) / (m * c));
@@ -125,7 +154,8 @@ describe('non-principal axis: the wheels push along Je (references §2)', () => 
   });
 
   it('per-axis (box) torque limit: a = m l / max_i |(Je)_i|, derived from |(Je)_i a| ≤ m l', () => {
-    const l = 0.002, m = 0.9;
+    const l = 0.002,
+      m = 0.9;
     const lim: PlanLimits = { torqueCapacity: cubeCapacity(l), momentumCapacity: sphere(10), torqueMargin: m, momentumMargin: 1 };
     const p = feasible(planSegment({ qStart: I4, qTarget: axisAngle(e, th), inertia: J, wheelMomentumBody: [0, 0, 0] }, lim));
     const a = (m * l) / Math.max(...Je.map(Math.abs));
@@ -142,7 +172,8 @@ describe('non-principal axis: the wheels push along Je (references §2)', () => 
     const a = 0.002 / JeNorm;
     expect(Math.abs(p.durationS - (th / w + w / a))).toBeLessThan(1e-9);
     expect(p.binding).toBe('momentum');
-    const tau = new Float64Array(3), h = new Float64Array(3);
+    const tau = new Float64Array(3),
+      h = new Float64Array(3);
     evaluatePlannedLoads(r.value, 1e-3, tau, h);
     const cr = [tau[1]! * Je[2]! - tau[2]! * Je[1]!, tau[2]! * Je[0]! - tau[0]! * Je[2]!, tau[0]! * Je[1]! - tau[1]! * Je[0]!];
     expect(Math.hypot(cr[0]!, cr[1]!, cr[2]!) / (Math.hypot(tau[0]!, tau[1]!, tau[2]!) * JeNorm)).toBeLessThan(1e-12);
@@ -158,8 +189,14 @@ describe('stored momentum', () => {
   const J = diag(8, 10, 12);
   const th = 120 * D;
   const guard = 1e-3; // search band below the margins (search.ts SEARCH_GUARD)
-  const lim: PlanLimits = { torqueCapacity: cubeCapacity(0.05), momentumCapacity: cubeCapacity(0.5), torqueMargin: 0.8, momentumMargin: 0.9 };
-  const plan = (h: number[], l: PlanLimits = lim) => planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], th), inertia: J, wheelMomentumBody: h }, l);
+  const lim: PlanLimits = {
+    torqueCapacity: cubeCapacity(0.05),
+    momentumCapacity: cubeCapacity(0.5),
+    torqueMargin: 0.8,
+    momentumMargin: 0.9,
+  };
+  const plan = (h: number[], l: PlanLimits = lim) =>
+    planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], th), inertia: J, wheelMomentumBody: h }, l);
 
   it('momentum along −e (the way the slew loads the wheels) lowers the rate cap to (0.45 − k)/J', () => {
     const base = feasible(plan([0, 0, 0]));
@@ -210,7 +247,9 @@ describe('stored momentum', () => {
     expect(slow.peakRateRadPerS).toBeLessThanOrEqual(0.5 * D);
     expect(slow.peakRateRadPerS).toBeGreaterThan(0.5 * D * (1 - 1e-2));
     // A short slew with ample momentum room is bang-bang and torque-bound.
-    const short = feasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 2 * D), inertia: J, wheelMomentumBody: [0, 0, 0.05] }, lim));
+    const short = feasible(
+      planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], 2 * D), inertia: J, wheelMomentumBody: [0, 0, 0.05] }, lim),
+    );
     expect(short.profile.kind).toBe('bang-bang');
     expect(short.binding).toBe('torque');
   });
@@ -262,7 +301,13 @@ describe('input validation', () => {
   it('lists every problem with its path and rule, and never throws', () => {
     const r = planSegment(
       { qStart: [0, 0, 0, 2], qTarget: [0, NaN, 0, 1], inertia: [1, 0.5, 0, 0, 1, 0, 0, 0, 1], wheelMomentumBody: [0, 0] },
-      { torqueCapacity: 3 as unknown as PlanLimits['torqueCapacity'], momentumCapacity: () => 1, torqueMargin: 1.5, momentumMargin: 0, slewRateLimitRadPerS: -1 },
+      {
+        torqueCapacity: 3 as unknown as PlanLimits['torqueCapacity'],
+        momentumCapacity: () => 1,
+        torqueMargin: 1.5,
+        momentumMargin: 0,
+        slewRateLimitRadPerS: -1,
+      },
     );
     expect(r.ok).toBe(false);
     if (r.ok) return;
@@ -283,7 +328,10 @@ describe('input validation', () => {
   });
 
   it('rejects an indefinite inertia', () => {
-    const r = planSegment({ qStart: I4, qTarget: I4, inertia: diag(1, -1, 1), wheelMomentumBody: [0, 0, 0] }, { torqueCapacity: sphere(1), momentumCapacity: sphere(1), torqueMargin: 1, momentumMargin: 1 });
+    const r = planSegment(
+      { qStart: I4, qTarget: I4, inertia: diag(1, -1, 1), wheelMomentumBody: [0, 0, 0] },
+      { torqueCapacity: sphere(1), momentumCapacity: sphere(1), torqueMargin: 1, momentumMargin: 1 },
+    );
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.errors.map((e) => e.rule)).toEqual(['positive-definite']);
   });

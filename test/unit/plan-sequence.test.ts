@@ -17,12 +17,19 @@ import type { PlanLimits, SequencePlan } from '../../app/engine/plan/types';
 
 const D = Math.PI / 180;
 const axisAngle = (ax: number[], th: number) => {
-  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!), s = Math.sin(th / 2) / n;
+  const n = Math.hypot(ax[0]!, ax[1]!, ax[2]!),
+    s = Math.sin(th / 2) / n;
   return [ax[0]! * s, ax[1]! * s, ax[2]! * s, Math.cos(th / 2)];
 };
 // Lumen-6-like invented vehicle: inertia about diag(0.11, 0.12, 0.08) kg·m² with small products.
 const J = [0.11, 0.002, -0.001, 0.002, 0.12, 0.0015, -0.001, 0.0015, 0.08];
-const lim: PlanLimits = { torqueCapacity: cubeCapacity(0.002), momentumCapacity: cubeCapacity(0.006), torqueMargin: 0.8, momentumMargin: 0.8, slewRateLimitRadPerS: 2 * D };
+const lim: PlanLimits = {
+  torqueCapacity: cubeCapacity(0.002),
+  momentumCapacity: cubeCapacity(0.006),
+  torqueMargin: 0.8,
+  momentumMargin: 0.8,
+  slewRateLimitRadPerS: 2 * D,
+};
 const q0 = axisAngle([0.2, -0.5, 1], 0.4);
 const targets = [
   { q: axisAngle([1, 0, 0], 60 * D), holdS: 30, label: 'image A' },
@@ -43,7 +50,8 @@ describe('planSequence timeline', () => {
     const s = plan([0, 0, 0]);
     expect(s.feasible).toBe(true);
     expect(s.timeline.length).toBe(3);
-    let t = 0, prev = q0;
+    let t = 0,
+      prev = q0;
     s.timeline.forEach((e, k) => {
       const alone = planSegment({ qStart: prev, qTarget: targets[k]!.q, inertia: J, wheelMomentumBody: [0, 0, 0] }, lim);
       if (!alone.ok || !alone.value.feasible) throw new Error('segment');
@@ -127,7 +135,9 @@ describe('planSequence timeline', () => {
     if (bad.feasible) throw new Error('expected infeasible');
     expect(bad.reasons[0]!.rule).toBe('zero-torque-capacity');
     expect(s.totalS).toBe(s.timeline[0]!.holdEndS);
-    const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
+    const q = new Float64Array(4),
+      w = new Float64Array(3),
+      wd = new Float64Array(3);
     evaluateReference(s, s.totalS + 100, q, w, wd);
     const qa = tg[0]!.q;
     expect(Math.abs(Math.abs(q[0]! * qa[0]! + q[1]! * qa[1]! + q[2]! * qa[2]! + q[3]! * qa[3]!) - 1)).toBeLessThan(1e-15);
@@ -136,19 +146,31 @@ describe('planSequence timeline', () => {
 
   it('reports every bad field of the input at once', () => {
     const r = planSequence(
-      { qStart: [0, 0, 0, 1], inertia: J, wheelMomentumBody: [0, 0, 0], targets: [{ q: [1, 1, 0, 0], holdS: 1 }, { q: [0, 0, 0, 1], holdS: -2 }, null as never] },
+      {
+        qStart: [0, 0, 0, 1],
+        inertia: J,
+        wheelMomentumBody: [0, 0, 0],
+        targets: [{ q: [1, 1, 0, 0], holdS: 1 }, { q: [0, 0, 0, 1], holdS: -2 }, null as never],
+      },
       lim,
     );
     expect(r.ok).toBe(false);
     if (r.ok) return;
-    expect(r.errors.map((e) => `${e.path}:${e.rule}`)).toEqual(['targets[0].q:unit-norm', 'targets[1].holdS:non-negative', 'targets[2]:type']);
+    expect(r.errors.map((e) => `${e.path}:${e.rule}`)).toEqual([
+      'targets[0].q:unit-norm',
+      'targets[1].holdS:non-negative',
+      'targets[2]:type',
+    ]);
   });
 });
 
 describe('evaluateReference over a sequence', () => {
   const s = plan([0, 0, 0]);
-  const q = new Float64Array(4), w = new Float64Array(3), wd = new Float64Array(3);
-  const near = (a: ArrayLike<number>, b: ArrayLike<number>) => Math.abs(Math.abs(a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!) - 1);
+  const q = new Float64Array(4),
+    w = new Float64Array(3),
+    wd = new Float64Array(3);
+  const near = (a: ArrayLike<number>, b: ArrayLike<number>) =>
+    Math.abs(Math.abs(a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!) - 1);
 
   it('holds the start before 0, each target during its hold, the last target after the end', () => {
     expect(evaluateReference(s, -5, q, w, wd)).toBe(-1);
@@ -188,7 +210,10 @@ describe('evaluateReference over a sequence', () => {
 
   it('planned loads: τ = J ω̇ + ω × (Jω + h_w) and ḣ_w = −τ (finite differences), zero torque in holds', () => {
     const sh = plan([0.0008, -0.0005, 0.0011]);
-    const tau = new Float64Array(3), h = new Float64Array(3), hp = new Float64Array(3), hm = new Float64Array(3);
+    const tau = new Float64Array(3),
+      h = new Float64Array(3),
+      hp = new Float64Array(3),
+      hm = new Float64Array(3);
     const Jm = (v: ArrayLike<number>) => [0, 1, 2].map((r) => J[r]! * v[0]! + J[3 + r]! * v[1]! + J[6 + r]! * v[2]!);
     const e = sh.timeline[1]!;
     const sw = e.plan.switchTimesS.map((x) => x + e.slewStartS);
@@ -197,7 +222,8 @@ describe('evaluateReference over a sequence', () => {
       if (sw.some((x) => Math.abs(x - t) < 1e-3)) continue;
       evaluateReference(sh, t, q, w, wd);
       evaluatePlannedLoads(sh, t, tau, h);
-      const Jw = Jm(w), Jwd = Jm(wd);
+      const Jw = Jm(w),
+        Jwd = Jm(wd);
       const H = [Jw[0]! + h[0]!, Jw[1]! + h[1]!, Jw[2]! + h[2]!];
       const g = [w[1]! * H[2]! - w[2]! * H[1]!, w[2]! * H[0]! - w[0]! * H[2]!, w[0]! * H[1]! - w[1]! * H[0]!];
       for (let i = 0; i < 3; i++) expect(Math.abs(tau[i]! - (Jwd[i]! + g[i]!))).toBeLessThan(1e-15);

@@ -14,21 +14,52 @@ type S = Record<string, any>;
 
 function typeOk(t: string, v: unknown): boolean {
   switch (t) {
-    case 'object': return v !== null && typeof v === 'object' && !Array.isArray(v);
-    case 'array': return Array.isArray(v);
-    case 'string': return typeof v === 'string';
-    case 'number': return typeof v === 'number' && Number.isFinite(v);
-    case 'integer': return typeof v === 'number' && Number.isInteger(v);
-    case 'boolean': return typeof v === 'boolean';
-    case 'null': return v === null;
-    default: throw new Error(`checker does not know type ${t}`);
+    case 'object':
+      return v !== null && typeof v === 'object' && !Array.isArray(v);
+    case 'array':
+      return Array.isArray(v);
+    case 'string':
+      return typeof v === 'string';
+    case 'number':
+      return typeof v === 'number' && Number.isFinite(v);
+    case 'integer':
+      return typeof v === 'number' && Number.isInteger(v);
+    case 'boolean':
+      return typeof v === 'boolean';
+    case 'null':
+      return v === null;
+    default:
+      throw new Error(`checker does not know type ${t}`);
   }
 }
 
 /** Returns the list of problems (empty when v satisfies s). */
 function check(s: S, v: unknown, path = '$'): string[] {
   const out: string[] = [];
-  const known = new Set(['$schema', 'title', 'description', 'type', 'required', 'properties', 'additionalProperties', 'items', 'minItems', 'maxItems', 'enum', 'const', 'anyOf', 'oneOf', 'minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum', 'minLength', 'maxLength', 'pattern', 'format']);
+  const known = new Set([
+    '$schema',
+    'title',
+    'description',
+    'type',
+    'required',
+    'properties',
+    'additionalProperties',
+    'items',
+    'minItems',
+    'maxItems',
+    'enum',
+    'const',
+    'anyOf',
+    'oneOf',
+    'minimum',
+    'maximum',
+    'exclusiveMinimum',
+    'exclusiveMaximum',
+    'minLength',
+    'maxLength',
+    'pattern',
+    'format',
+  ]);
   for (const k of Object.keys(s)) if (!known.has(k)) throw new Error(`checker does not implement keyword ${k} at ${path}`);
   if (s.type && !typeOk(s.type, v)) return [`${path}: expected ${s.type}`];
   if (s.const !== undefined && v !== s.const) out.push(`${path}: expected const ${JSON.stringify(s.const)}`);
@@ -72,7 +103,19 @@ describe('scenarioJsonSchema', () => {
     expect(JSON.parse(JSON.stringify(schema))).toEqual(schema);
     expect(schema.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
     expect([...(schema.required as string[])].sort()).toEqual(
-      ['controllers', 'description', 'epochUtc', 'format', 'initial', 'name', 'planning', 'simulation', 'targets', 'vehicle', 'version'].sort(),
+      [
+        'controllers',
+        'description',
+        'epochUtc',
+        'format',
+        'initial',
+        'name',
+        'planning',
+        'simulation',
+        'targets',
+        'vehicle',
+        'version',
+      ].sort(),
     );
     const props = schema.properties as S;
     expect(props.format.const).toBe('slewsmith-scenario');
@@ -104,7 +147,8 @@ describe('scenarioJsonSchema', () => {
   it('every numeric field carries its unit in the key or says it in its description', () => {
     const unitSuffix = /(Deg|DegPerS|MNm|MNms|MNmPerRadPerS|Kgm2|S|Hz|Arcsec|RadPerS)$/;
     const missing: string[] = [];
-    const isNumeric = (s: S): boolean => s.type === 'number' || s.type === 'integer' || (s.type === 'array' && s.items && isNumeric(s.items));
+    const isNumeric = (s: S): boolean =>
+      s.type === 'number' || s.type === 'integer' || (s.type === 'array' && s.items && isNumeric(s.items));
     const walk = (s: S, path: string) => {
       for (const [k, p] of Object.entries((s.properties ?? {}) as Record<string, S>)) {
         if (isNumeric(p) && !unitSuffix.test(k) && !p.description && !p.const) missing.push(`${path}.${k}`);

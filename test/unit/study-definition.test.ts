@@ -20,13 +20,22 @@ describe('study block: structure', () => {
   it('a full block resolves to SI with every field', () => {
     const r = loadScenario(
       testVehicleScenario({
-        runs: 10, seed: 3, controllers: ['pd', 'syn'], durationS: 120, mode: 'profiled', stopAfterSettledForS: 0, worstCases: 3,
+        runs: 10,
+        seed: 3,
+        controllers: ['pd', 'syn'],
+        durationS: 120,
+        mode: 'profiled',
+        stopAfterSettledForS: 0,
+        worstCases: 3,
         dispersions: {
-          initialAttitude: { mode: 'cone', maxAngleDeg: 30 }, initialRateDegPerS: 0.1,
+          initialAttitude: { mode: 'cone', maxAngleDeg: 30 },
+          initialRateDegPerS: 0.1,
           inertia: { momentSigmaFraction: 0.05, axisMisalignmentDeg: 2 },
           wheels: { torqueDegradationMax: 0.1, momentumDegradationMax: 0.2, failOneWheelProbability: 0.3 },
           sensors: { attitudeNoiseScale: [0.5, 2], rateBiasDegPerS: 0.001, adversarialEta: 0.05 },
-          controlRateHz: [5, 10], actuation: ['hold', 'quantized'], torqueQuantumMNm: 0.01,
+          controlRateHz: [5, 10],
+          actuation: ['hold', 'quantized'],
+          torqueQuantumMNm: 0.01,
         },
       }),
     );
@@ -70,26 +79,42 @@ describe('study block: structure', () => {
   it('structural problems are all reported together, each with its path', () => {
     const errs = errorsOf(
       testVehicleScenario({
-        runs: 0, seed: 1.5, durationS: -1, mode: 'sideways', extra: 1,
+        runs: 0,
+        seed: 1.5,
+        durationS: -1,
+        mode: 'sideways',
+        extra: 1,
         dispersions: {
-          initialAttitude: { mode: 'cone' }, inertia: { momentSigmaFraction: 0.9 },
-          wheels: { failOneWheelProbability: 2 }, sensors: { attitudeNoiseScale: [1] }, actuation: ['coast'],
+          initialAttitude: { mode: 'cone' },
+          inertia: { momentSigmaFraction: 0.9 },
+          wheels: { failOneWheelProbability: 2 },
+          sensors: { attitudeNoiseScale: [1] },
+          actuation: ['coast'],
         },
       }),
     );
     const paths = errs.map((e) => e.split('|')[0]);
     for (const p of [
-      'study.runs', 'study.seed', 'study.durationS', 'study.mode', 'study.dispersions.initialAttitude.maxAngleDeg',
-      'study.dispersions.inertia.momentSigmaFraction', 'study.dispersions.wheels.failOneWheelProbability',
-      'study.dispersions.sensors.attitudeNoiseScale', 'study.dispersions.actuation[0]',
-    ]) expect(paths).toContain(p);
+      'study.runs',
+      'study.seed',
+      'study.durationS',
+      'study.mode',
+      'study.dispersions.initialAttitude.maxAngleDeg',
+      'study.dispersions.inertia.momentSigmaFraction',
+      'study.dispersions.wheels.failOneWheelProbability',
+      'study.dispersions.sensors.attitudeNoiseScale',
+      'study.dispersions.actuation[0]',
+    ])
+      expect(paths).toContain(p);
     expect(errs.some((e) => e.startsWith('study') && e.includes('extra'))).toBe(true);
   });
 
   it('cross-field rules: unknown or repeated controller ids, min > max, quantized without a quantum', () => {
     const errs = errorsOf(
       testVehicleScenario({
-        runs: 3, seed: 1, controllers: ['pd', 'ghost', 'pd'],
+        runs: 3,
+        seed: 1,
+        controllers: ['pd', 'ghost', 'pd'],
         dispersions: { sensors: { attitudeNoiseScale: [3, 1] }, actuation: ['quantized'] },
       }),
     );

@@ -14,7 +14,11 @@ export function testVehicleScenario(study: Record<string, unknown>): Record<stri
     epochUtc: '2030-01-01T00:00:00Z',
     vehicle: {
       name: 'Test-6',
-      inertiaKgm2: [[0.04, 0.0005, 0], [0.0005, 0.045, 0.0003], [0, 0.0003, 0.03]],
+      inertiaKgm2: [
+        [0.04, 0.0005, 0],
+        [0.0005, 0.045, 0.0003],
+        [0, 0.0003, 0.03],
+      ],
       wheels: { layout: 'triad', maxTorqueMNm: 6, maxMomentumMNms: 20, rotorInertiaKgm2: 1e-5 },
       sensors: { attitudeNoiseArcsec: 10, rateNoiseDegPerS: 0.002, rateBiasDegPerS: [0, 0, 0] },
       controlRateHz: 10,
@@ -38,8 +42,15 @@ export function testVehicleScenario(study: Record<string, unknown>): Record<stri
       },
     ],
     planning: { torqueMargin: 0.9, momentumMargin: 0.9, slewRateLimitDegPerS: 5, profile: 'bang-coast-bang' },
-    simulation: { mode: 'direct', timing: 'sampled', settleAngleDeg: 0.2, settleRateDegPerS: 0.05, tailS: 0, seed: 1, rk4StepsPerSample: 1 },
+    simulation: {
+      mode: 'direct',
+      timing: 'sampled',
+      settleAngleDeg: 0.2,
+      settleRateDegPerS: 0.05,
+      tailS: 0,
+      seed: 1,
+      rk4StepsPerSample: 1,
+    },
     study,
   };
 }
-

@@ -16,7 +16,7 @@ import { runCli } from '../../main/cli/index';
 import { startStudyParallel, inThreadPort } from '../../app/engine/study/parallel';
 import { runStudy } from '../../app/engine/study/runner';
 import type { CaseRecord } from '../../app/engine/study/runCase';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
+import { CAUTION_TEXT } from '../../app/engine/caution';
 import { validateScenario } from '../../app/engine/scenario/validate';
 import { testVehicleScenario } from './study-fixtures';
 
@@ -38,7 +38,8 @@ const study = {
 const json = testVehicleScenario(study);
 
 /** Plain-data view of records (typed arrays to arrays) for deep equality. */
-const plain = (rs: CaseRecord[]) => rs.map((r) => ({ draw: r.draw, runs: r.runs.map((x) => ({ ...x, errorTraceDeg: Array.from(x.errorTraceDeg) })) }));
+const plain = (rs: CaseRecord[]) =>
+  rs.map((r) => ({ draw: r.draw, runs: r.runs.map((x) => ({ ...x, errorTraceDeg: Array.from(x.errorTraceDeg) })) }));
 
 const threads: ReturnType<typeof threadPort>[] = [];
 function ports(n: number) {
@@ -87,10 +88,16 @@ describe('parallel study in worker threads', () => {
     const paths = r.errors.map((e) => e.path);
     expect(paths).toContain('study.runs');
     // Cross-field rules are checked once the structure is valid: fix runs and see them.
-    const r2 = await startStudyParallel(testVehicleScenario({ ...study, controllers: ['nope'], dispersions: { sensors: { attitudeNoiseScale: [2, 1] } } }), ports(1)).result;
+    const r2 = await startStudyParallel(
+      testVehicleScenario({ ...study, controllers: ['nope'], dispersions: { sensors: { attitudeNoiseScale: [2, 1] } } }),
+      ports(1),
+    ).result;
     expect(r2.ok).toBe(false);
     if (r2.ok) return;
-    expect(r2.errors.map((e) => `${e.path}|${e.rule}`).sort()).toEqual(['study.controllers[0]|unknown-id', 'study.dispersions.sensors.attitudeNoiseScale|min-max']);
+    expect(r2.errors.map((e) => `${e.path}|${e.rule}`).sort()).toEqual([
+      'study.controllers[0]|unknown-id',
+      'study.dispersions.sensors.attitudeNoiseScale|min-max',
+    ]);
   }, 60_000);
 });
 
@@ -135,7 +142,12 @@ describe('slewsmith study (CLI)', () => {
   }, 60_000);
 
   it('refuses bad options and a bad study block with exit 2', async () => {
-    for (const args of [['--runs', '0'], ['--workers', 'two'], ['--seed', '-1'], ['--controller', 'nope']]) {
+    for (const args of [
+      ['--runs', '0'],
+      ['--workers', 'two'],
+      ['--seed', '-1'],
+      ['--controller', 'nope'],
+    ]) {
       const c = io();
       expect(await runCli(['study', file, ...args], c.io)).toBe(2);
       expect(c.err.join('\n')).toMatch(/runs|workers|seed|nope/);

@@ -15,31 +15,77 @@ import { rerunStudyCase, studyCaseScenario } from '../../app/engine/study/caseSc
 import { runStudy } from '../../app/engine/study/runner';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import { validateScenario } from '../../app/engine/scenario/validate';
-import { CAUTION_TEXT } from '../../app/engine/export/caution';
-import type { StudyDefinition } from '../../app/engine/study/definition';
+import { CAUTION_TEXT } from '../../app/engine/caution';
+import type { StudyDefinition } from '../../app/engine/scenario/study';
 import { testVehicleScenario } from './study-fixtures';
 
 const def: StudyDefinition = {
-  runs: 6, seed: 1, controllers: null, durationS: 100, mode: 'direct', stopAfterSettledForS: 10, worstCases: 3,
-  attitude: { mode: 'uniform' }, rateSigmaRadPerS: 0, inertia: { momentSigmaFraction: 0, axisMisalignmentSigmaRad: 0 },
+  runs: 6,
+  seed: 1,
+  controllers: null,
+  durationS: 100,
+  mode: 'direct',
+  stopAfterSettledForS: 10,
+  worstCases: 3,
+  attitude: { mode: 'uniform' },
+  rateSigmaRadPerS: 0,
+  inertia: { momentSigmaFraction: 0, axisMisalignmentSigmaRad: 0 },
   wheels: { torqueDegradationMax: 0, momentumDegradationMax: 0, failOneWheelProbability: 0 },
-  sensors: { attitudeNoiseScale: [1, 1], rateBiasSigmaRadPerS: 0, adversarialEta: 0 }, controlRateHz: null, actuation: null, torqueQuantumNm: null,
+  sensors: { attitudeNoiseScale: [1, 1], rateBiasSigmaRadPerS: 0, adversarialEta: 0 },
+  controlRateHz: null,
+  actuation: null,
+  torqueQuantumNm: null,
 };
 const info: StudyInfo = { scenarioName: 'hand-made', def, controllers: [{ id: 'a', label: 'A', law: 'hysteretic' }] };
 
 function run(over: Partial<CaseRun>): CaseRun {
   return {
-    controllerId: 'a', status: 'settled', reason: '', settleTimeS: 10, rotationTravelledDeg: 90, shortestRotationDeg: 90, extraRotationDeg: 0,
-    unwound: false, longWay: false, jumps: 0, chatterPerS: 0.2, chattered: false, peakWheelTorqueFraction: 0.5, peakWheelMomentumFraction: 0.3,
-    finalErrorDeg: 0.01, finalEta: 1, endS: 20, errorTraceDeg: new Float32Array(TRACE_SAMPLES), traceCount: 0, ...over,
+    controllerId: 'a',
+    status: 'settled',
+    reason: '',
+    settleTimeS: 10,
+    rotationTravelledDeg: 90,
+    shortestRotationDeg: 90,
+    extraRotationDeg: 0,
+    unwound: false,
+    longWay: false,
+    jumps: 0,
+    chatterPerS: 0.2,
+    chattered: false,
+    peakWheelTorqueFraction: 0.5,
+    peakWheelMomentumFraction: 0.3,
+    finalErrorDeg: 0.01,
+    finalEta: 1,
+    endS: 20,
+    errorTraceDeg: new Float32Array(TRACE_SAMPLES),
+    traceCount: 0,
+    ...over,
   };
 }
 function rec(index: number, r: CaseRun): CaseRecord {
   return {
     draw: {
-      index, q0: [0, 0, 0, 1], omega0RadPerS: [0, 0, 0], inertiaRows: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], inertiaRejections: index, wheelTorqueFactor: [1],
-      wheelMomentumFactor: [1], failedWheel: -1, attitudeNoiseRad: 0, rateBiasRadPerS: [0, 0, 0], adversarialEta: 0, controlRateHz: 10, actuation: 'hold',
-      noiseSeed: 7, errorAxis: [0, 0, 1], errorAngleRad: index / 10, errorEta: Math.cos(index / 20),
+      index,
+      q0: [0, 0, 0, 1],
+      omega0RadPerS: [0, 0, 0],
+      inertiaRows: [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+      inertiaRejections: index,
+      wheelTorqueFactor: [1],
+      wheelMomentumFactor: [1],
+      failedWheel: -1,
+      attitudeNoiseRad: 0,
+      rateBiasRadPerS: [0, 0, 0],
+      adversarialEta: 0,
+      controlRateHz: 10,
+      actuation: 'hold',
+      noiseSeed: 7,
+      errorAxis: [0, 0, 1],
+      errorAngleRad: index / 10,
+      errorEta: Math.cos(index / 20),
     },
     runs: [r],
   };
@@ -114,12 +160,18 @@ describe('summarizeStudy on a hand-made record set', () => {
 
 describe('reopening a case', () => {
   const study = {
-    runs: 4, seed: 77, durationS: 150, stopAfterSettledForS: 10, controllers: ['pd', 'hyst', 'syn'],
+    runs: 4,
+    seed: 77,
+    durationS: 150,
+    stopAfterSettledForS: 10,
+    controllers: ['pd', 'hyst', 'syn'],
     dispersions: {
-      initialAttitude: { mode: 'cone', maxAngleDeg: 120 }, initialRateDegPerS: 0.05,
+      initialAttitude: { mode: 'cone', maxAngleDeg: 120 },
+      initialRateDegPerS: 0.05,
       inertia: { momentSigmaFraction: 0.08, axisMisalignmentDeg: 3 },
       wheels: { torqueDegradationMax: 0.3, momentumDegradationMax: 0.3 },
-      sensors: { attitudeNoiseScale: [1, 5], rateBiasDegPerS: 0.001 }, controlRateHz: [5, 10],
+      sensors: { attitudeNoiseScale: [1, 5], rateBiasDegPerS: 0.001 },
+      controlRateHz: [5, 10],
     },
   };
   const json = testVehicleScenario(study);
@@ -166,7 +218,16 @@ describe('reopening a case', () => {
   });
 
   it('profiled mode: each case tracks the slew planned on the nominal model and runs its full duration (no early stop)', () => {
-    const pr = runStudy(testVehicleScenario({ runs: 2, seed: 5, durationS: 200, mode: 'profiled', controllers: ['hyst'], dispersions: { initialAttitude: { mode: 'cone', maxAngleDeg: 60 } } }));
+    const pr = runStudy(
+      testVehicleScenario({
+        runs: 2,
+        seed: 5,
+        durationS: 200,
+        mode: 'profiled',
+        controllers: ['hyst'],
+        dispersions: { initialAttitude: { mode: 'cone', maxAngleDeg: 60 } },
+      }),
+    );
     if (!pr.ok) throw new Error(JSON.stringify(pr.errors));
     for (const r of pr.value.records) {
       expect(r.runs[0]!.endS).toBeCloseTo(200, 6);

@@ -57,11 +57,18 @@ function setup() {
   InlineWorker.hold = false;
   InlineWorker.held = [];
   const fb = fakeBridge();
-  const app = createAppController({ bridge: fb.bridge, spawnWorker: () => new InlineWorker(), fallbackScenario: demo, fallbackName: 'demo.json', debounceMs: 10 });
+  const app = createAppController({
+    bridge: fb.bridge,
+    spawnWorker: () => new InlineWorker(),
+    fallbackScenario: demo,
+    fallbackName: 'demo.json',
+    debounceMs: 10,
+  });
   return { app, ...fb };
 }
 
-const done = (app: ReturnType<typeof setup>['app']) => vi.waitFor(() => expect(app.store.getState().pipeline.status).toBe('done'), { timeout: 20_000 });
+const done = (app: ReturnType<typeof setup>['app']) =>
+  vi.waitFor(() => expect(app.store.getState().pipeline.status).toBe('done'), { timeout: 20_000 });
 
 describe('app controller', () => {
   it('runs the starting document and sets the playback range from the runs', async () => {
@@ -118,7 +125,16 @@ describe('app controller', () => {
     const { app } = setup();
     await done(app);
     app.store.setExcluded(['hysteretic']);
-    await vi.waitFor(() => expect(app.store.getState().output?.runs.map((r) => r.controllerId).sort()).toEqual(['pd', 'synergistic']), { timeout: 20_000 });
+    await vi.waitFor(
+      () =>
+        expect(
+          app.store
+            .getState()
+            .output?.runs.map((r) => r.controllerId)
+            .sort(),
+        ).toEqual(['pd', 'synergistic']),
+      { timeout: 20_000 },
+    );
     expect(InlineWorker.posted.at(-1)?.options).toEqual({ controllers: ['pd', 'synergistic'] });
     app.store.setExcluded(['hysteretic', 'pd', 'synergistic']);
     expect(app.blockers().map((b) => b.rule)).toEqual(['compare-none']);

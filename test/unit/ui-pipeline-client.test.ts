@@ -18,7 +18,9 @@ class FakeWorker implements WorkerLike {
     this.terminated = true;
   }
   reply(id: number, value: string) {
-    this.onmessage?.({ data: { type: 'result', id, result: { ok: true, value: value as never, warnings: [] } } } as unknown as MessageEvent<RunReply>);
+    this.onmessage?.({
+      data: { type: 'result', id, result: { ok: true, value: value as never, warnings: [] } },
+    } as unknown as MessageEvent<RunReply>);
   }
 }
 
@@ -48,10 +50,11 @@ function setup() {
   });
   const advance = (ms: number) => {
     clock += ms;
-    for (const t of timers) if (t.live && t.at <= clock) {
-      t.live = false;
-      t.fn();
-    }
+    for (const t of timers)
+      if (t.live && t.at <= clock) {
+        t.live = false;
+        t.fn();
+      }
   };
   return { runner, workers, results, crashes, advance };
 }

@@ -46,7 +46,11 @@ describe('playback clock', () => {
     c.onFrame((t) => seen.push(t));
     c.onTick((_t, moved) => ticks.push(moved));
     let cb: ((now: number) => void) | null = null;
-    const stop = startFrameLoop(c, (f) => ((cb = f), 1), () => (cb = null));
+    const stop = startFrameLoop(
+      c,
+      (f) => ((cb = f), 1),
+      () => (cb = null),
+    );
     cb!(0); // first frame: listeners get the initial time
     cb!(16); // paused: nothing moves
     c.setTime(4);

@@ -9,8 +9,8 @@ import { runPipeline } from '../../app/engine/pipeline/run';
 import type { PipelineOutput } from '../../app/engine/pipeline/types';
 import { alignRuns, buildPlots, channel, type Series } from '../../app/ui/plots/series';
 import demo from '../../assets/lumen6-imaging.scenario.json';
+import { DEG_PER_RAD } from '../../app/engine/units';
 
-const DEG = 180 / Math.PI;
 // A stand-in for uPlot.join with the same contract (union of x, null where a table has no sample).
 function join(tables: Series[][]): Series[] {
   const xs = [...new Set(tables.flatMap((t) => Array.from(t[0] as ArrayLike<number>)))].sort((a, b) => a - b);
@@ -39,7 +39,16 @@ describe('plot series from a demo run', () => {
 
   it('builds the eight plots for the detailed run, in display units', () => {
     const plots = buildPlots(out, ['synergistic:profiled', 'pd:profiled'], { logError: false }, join);
-    expect(plots.map((p) => p.id)).toEqual(['error-angle', 'body-rate', 'wheel-momentum', 'wheel-torque', 'logic', 'potential', 'lyapunov', 'hybrid-time']);
+    expect(plots.map((p) => p.id)).toEqual([
+      'error-angle',
+      'body-rate',
+      'wheel-momentum',
+      'wheel-torque',
+      'logic',
+      'potential',
+      'lyapunov',
+      'hybrid-time',
+    ]);
     const syn = out.runs.find((r) => r.key === 'synergistic:profiled')!;
     const pd = out.runs.find((r) => r.key === 'pd:profiled')!;
     const n = syn.trace.n;
@@ -55,9 +64,9 @@ describe('plot series from a demo run', () => {
     const k = Math.floor(n / 3);
     const tk = syn.trace.t[k]!;
     const row = Array.from(ea.data[0] as ArrayLike<number>).indexOf(tk);
-    expect(ea.data[1]![row]).toBeCloseTo(syn.trace.errorAngle[k]! * DEG, 12);
+    expect(ea.data[1]![row]).toBeCloseTo(syn.trace.errorAngle[k]! * DEG_PER_RAD, 12);
     // Body rate: ω_y of sample k, rad/s → deg/s.
-    expect(byId['body-rate']!.data[2]![k]).toBeCloseTo(syn.trace.omega[3 * k + 1]! * DEG, 12);
+    expect(byId['body-rate']!.data[2]![k]).toBeCloseTo(syn.trace.omega[3 * k + 1]! * DEG_PER_RAD, 12);
     // Wheel momentum: wheel 3 of sample k, N·m·s → mN·m·s; then the ± limit lines.
     const N = syn.trace.nWheels;
     const wm = byId['wheel-momentum']!;
@@ -93,7 +102,8 @@ describe('plot series from a demo run', () => {
   });
 
   it('aligns runs with different sample times on the union of times', () => {
-    const a = out.runs[0]!, b = out.runs[1]!;
+    const a = out.runs[0]!,
+      b = out.runs[1]!;
     const shifted = { ...b, trace: { ...b.trace, t: b.trace.t.map((x) => x + 0.05) } };
     const data = alignRuns([a, shifted], (r) => r.trace.errorAngle.subarray(0, r.trace.n), join);
     expect(data[0]!.length).toBe(a.trace.n + b.trace.n);

@@ -19,11 +19,14 @@ function validate(s: unknown): ValidationState {
 
 function setup() {
   let clock = 0;
-  const store = createAppStore({ a: { x: 1, y: [1, 2, 3] }, b: { keep: true } }, {
-    validate,
-    now: () => clock,
-    coalesceMs: 1000,
-  });
+  const store = createAppStore(
+    { a: { x: 1, y: [1, 2, 3] }, b: { keep: true } },
+    {
+      validate,
+      now: () => clock,
+      coalesceMs: 1000,
+    },
+  );
   return { store, advance: (ms: number) => (clock += ms) };
 }
 
@@ -121,13 +124,34 @@ describe('app store undo/redo', () => {
   });
 
   it('sets several values as one step (a symmetric matrix entry and its mirror)', () => {
-    const store = createAppStore({ a: { x: 0 }, m: [[1, 0], [0, 1]] }, { validate, coalesceMs: 1000, now: () => 0 });
-    store.editMany([['m[0][1]', 0.5], ['m[1][0]', 0.5]]);
-    store.editMany([['m[0][1]', 0.25], ['m[1][0]', 0.25]]);
-    expect(getIn(store.getState().scenario, ['m'])).toEqual([[1, 0.25], [0.25, 1]]);
+    const store = createAppStore(
+      {
+        a: { x: 0 },
+        m: [
+          [1, 0],
+          [0, 1],
+        ],
+      },
+      { validate, coalesceMs: 1000, now: () => 0 },
+    );
+    store.editMany([
+      ['m[0][1]', 0.5],
+      ['m[1][0]', 0.5],
+    ]);
+    store.editMany([
+      ['m[0][1]', 0.25],
+      ['m[1][0]', 0.25],
+    ]);
+    expect(getIn(store.getState().scenario, ['m'])).toEqual([
+      [1, 0.25],
+      [0.25, 1],
+    ]);
     expect(store.getState().undoStack).toHaveLength(1);
     store.undo();
-    expect(getIn(store.getState().scenario, ['m'])).toEqual([[1, 0], [0, 1]]);
+    expect(getIn(store.getState().scenario, ['m'])).toEqual([
+      [1, 0],
+      [0, 1],
+    ]);
   });
 
   it('caps the history', () => {

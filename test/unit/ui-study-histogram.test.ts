@@ -66,15 +66,26 @@ describe('histogram layout on a real study', () => {
     const r = result();
     for (const q of QUANTITIES) {
       const hists = r.summary.controllers.map((c) => c.histograms[q.key]);
-      const L = layoutHistogram(hists, r.summary.controllers.map((c) => c.label), q, SIZE);
+      const L = layoutHistogram(
+        hists,
+        r.summary.controllers.map((c) => c.label),
+        q,
+        SIZE,
+      );
       r.summary.controllers.forEach((c, ci) => {
         const bars = L.bars.filter((b) => b.controller === ci);
         expect(bars.length, q.key).toBe(hists[ci]!.counts.length + 1);
-        expect(bars.reduce((s, b) => s + b.count, 0), `${q.key} ${c.controllerId}`).toBe(c.flyable);
+        expect(
+          bars.reduce((s, b) => s + b.count, 0),
+          `${q.key} ${c.controllerId}`,
+        ).toBe(c.flyable);
         expect(L.totals[ci]).toBe(c.flyable);
         const raw = r.records.map((rec) => rec.runs[ci]!).filter((x) => x.status !== 'unflyable');
         const hand = binByHand(raw.map(VALUE[q.key]!), hists[ci]!.edges);
-        expect(bars.map((b) => b.count), `${q.key} ${c.controllerId}`).toEqual([...hand.counts, hand.overflow]);
+        expect(
+          bars.map((b) => b.count),
+          `${q.key} ${c.controllerId}`,
+        ).toEqual([...hand.counts, hand.overflow]);
       });
     }
   });
@@ -82,7 +93,12 @@ describe('histogram layout on a real study', () => {
   it('bar heights are proportional to counts on a 0-based axis whose top holds the tallest bar', () => {
     const r = result();
     for (const q of QUANTITIES) {
-      const L = layoutHistogram(r.summary.controllers.map((c) => c.histograms[q.key]), ['a', 'b', 'c'], q, SIZE);
+      const L = layoutHistogram(
+        r.summary.controllers.map((c) => c.histograms[q.key]),
+        ['a', 'b', 'c'],
+        q,
+        SIZE,
+      );
       const top = L.yTicks[L.yTicks.length - 1]!;
       expect(L.yTicks[0]).toEqual({ value: 0, y: L.plot.bottom });
       expect(top.value).toBeGreaterThanOrEqual(L.maxCount);
@@ -109,23 +125,45 @@ describe('histogram layout on a real study', () => {
   it('labels the edges in display units without overlaps', () => {
     const r = result();
     const settle = QUANTITIES.find((q) => q.key === 'settleTimeS')!;
-    const L = layoutHistogram(r.summary.controllers.map((c) => c.histograms.settleTimeS), [], settle, SIZE);
+    const L = layoutHistogram(
+      r.summary.controllers.map((c) => c.histograms.settleTimeS),
+      [],
+      settle,
+      SIZE,
+    );
     // 20 bins over the 90 s case length, every 4th edge labelled.
     expect(L.xLabels.map((l) => l.text)).toEqual(['0', '18', '36', '54', '72', '90']);
     expect(L.overflow.text).toBe('never');
     const mom = QUANTITIES.find((q) => q.key === 'peakWheelMomentumFraction')!;
-    const M = layoutHistogram(r.summary.controllers.map((c) => c.histograms.peakWheelMomentumFraction), [], mom, SIZE);
+    const M = layoutHistogram(
+      r.summary.controllers.map((c) => c.histograms.peakWheelMomentumFraction),
+      [],
+      mom,
+      SIZE,
+    );
     expect(M.xLabels.map((l) => l.text)).toEqual(['0', '20', '40', '60', '80', '100']);
     expect(M.overflow.text).toBe('>100');
     const jumps = QUANTITIES.find((q) => q.key === 'jumps')!;
-    const J = layoutHistogram(r.summary.controllers.map((c) => c.histograms.jumps), [], jumps, SIZE);
+    const J = layoutHistogram(
+      r.summary.controllers.map((c) => c.histograms.jumps),
+      [],
+      jumps,
+      SIZE,
+    );
     expect(J.xLabels.map((l) => l.text)).toEqual(['0', '2', '4', '6', '8']);
     for (const q of QUANTITIES) {
-      const A = layoutHistogram(r.summary.controllers.map((c) => c.histograms[q.key]), [], q, SIZE);
+      const A = layoutHistogram(
+        r.summary.controllers.map((c) => c.histograms[q.key]),
+        [],
+        q,
+        SIZE,
+      );
       const labels = [...A.xLabels, A.overflow].sort((a, b) => a.x - b.x);
       const halfW = (t: string) => (t.length * 0.6 * 9.5) / 2;
       for (let k = 1; k < labels.length; k++) {
-        expect(labels[k]!.x - labels[k - 1]!.x, `${q.key}: "${labels[k - 1]!.text}" vs "${labels[k]!.text}"`).toBeGreaterThan(halfW(labels[k]!.text) + halfW(labels[k - 1]!.text));
+        expect(labels[k]!.x - labels[k - 1]!.x, `${q.key}: "${labels[k - 1]!.text}" vs "${labels[k]!.text}"`).toBeGreaterThan(
+          halfW(labels[k]!.text) + halfW(labels[k - 1]!.text),
+        );
       }
     }
   });
@@ -133,7 +171,12 @@ describe('histogram layout on a real study', () => {
   it('tooltips say which controller, how many runs and the bin range with its unit', () => {
     const r = result();
     const q = QUANTITIES.find((x) => x.key === 'finalErrorDeg')!;
-    const L = layoutHistogram(r.summary.controllers.map((c) => c.histograms[q.key]), ['PD', 'Sign', 'Syn'], q, SIZE);
+    const L = layoutHistogram(
+      r.summary.controllers.map((c) => c.histograms[q.key]),
+      ['PD', 'Sign', 'Syn'],
+      q,
+      SIZE,
+    );
     const b = L.bars.find((x) => x.controller === 1 && x.bin === 2)!;
     expect(b.title).toBe(`Sign: ${b.count} run${b.count === 1 ? '' : 's'} in [0.03, 0.1) deg`);
     const last = L.bars.find((x) => x.controller === 0 && x.bin === 8)!;

@@ -84,7 +84,10 @@ describe('outcome map geometry', () => {
     const points = outcomeMap(r.records);
     for (const ci of [0, 1]) {
       const g = mapGeometry(points, ci, 'settle');
-      const settled = r.records.map((rec) => rec.runs[ci]!).filter((x) => x.status === 'settled').map((x) => x.settleTimeS!);
+      const settled = r.records
+        .map((rec) => rec.runs[ci]!)
+        .filter((x) => x.status === 'settled')
+        .map((x) => x.settleTimeS!);
       expect(settled.length).toBeGreaterThan(1);
       expect(g.settleMinS).toBe(Math.min(...settled));
       expect(g.settleMaxS).toBe(Math.max(g.settleMinS + 1, Math.max(...settled)));
@@ -92,7 +95,10 @@ describe('outcome map geometry', () => {
         const col = Array.from(g.colours.subarray(3 * i, 3 * i + 3));
         const o = g.outcome[i]!;
         const t = g.settleTimeS[i]!;
-        const expected = ['settled', 'unwound', 'chattered'].includes(o) && t !== null ? settleRamp((t - g.settleMinS) / (g.settleMaxS - g.settleMinS)) : hexToRgb(OUTCOME_COLOURS[o]);
+        const expected =
+          ['settled', 'unwound', 'chattered'].includes(o) && t !== null
+            ? settleRamp((t - g.settleMinS) / (g.settleMaxS - g.settleMinS))
+            : hexToRgb(OUTCOME_COLOURS[o]);
         for (let k = 0; k < 3; k++) expect(col[k]).toBeCloseTo(expected[k]!, 6);
         expect(o).toBe(points[i]!.outcome[ci]);
       }

@@ -57,7 +57,8 @@ class InThreadWorker implements StudyWorkerLike {
     this.received.push(m);
     setTimeout(() => {
       if (this.dead) return;
-      if (m.type === 'case-scenario') this.emit({ type: 'case-scenario', id: m.id, result: studyCaseScenario(m.json, m.overrides, m.index) });
+      if (m.type === 'case-scenario')
+        this.emit({ type: 'case-scenario', id: m.id, result: studyCaseScenario(m.json, m.overrides, m.index) });
       else if (m.type === 'close') this.dead = true;
       else if (m.type === 'run' && this.hang) return;
       else this.handle(m);
@@ -108,7 +109,14 @@ async function exportsOf(session: StudySession, exported: ExportRequest[]) {
 function csvRows(text: string): Record<string, string>[] {
   const lines = text.split('\n').filter((l) => l !== '' && !l.startsWith('#'));
   const head = lines[0]!.split(',');
-  return lines.slice(1).map((l) => Object.fromEntries(l.split(',').slice(0, head.length - 1).map((v, i) => [head[i], v])));
+  return lines.slice(1).map((l) =>
+    Object.fromEntries(
+      l
+        .split(',')
+        .slice(0, head.length - 1)
+        .map((v, i) => [head[i], v]),
+    ),
+  );
 }
 
 describe('study session: results do not depend on the number of workers', () => {
@@ -150,7 +158,9 @@ describe('study session: results do not depend on the number of workers', () => 
     const keys = new Set(rows.map((r) => `${r.case}:${r.controller}`));
     expect(keys.size).toBe(rows.length);
     // The share the view shows (summary) against a count of the CSV rows by hand.
-    const summary = JSON.parse(outs[0]!.json).summary as { controllers: { controllerId: string; notSettledShare: number; flyable: number }[] };
+    const summary = JSON.parse(outs[0]!.json).summary as {
+      controllers: { controllerId: string; notSettledShare: number; flyable: number }[];
+    };
     for (const c of summary.controllers) {
       const mine = rows.filter((r) => r.controller === c.controllerId && r.status !== 'unflyable');
       const bad = mine.filter((r) => r.status === 'unsettled' || r.status === 'failed').length;

@@ -131,7 +131,8 @@ describe('slerp between two samples (shorter arc)', () => {
     const out = new Float64Array(4);
     const eng = new Float64Array(4);
     for (let k = 0; k < 300; k++) {
-      const a = randomAttitude(), b = randomAttitude();
+      const a = randomAttitude(),
+        b = randomAttitude();
       const al = rng.next();
       slerpFlat(out, 0, a, 0, b, 0, al);
       qSlerp(eng, a, b, al);
@@ -142,7 +143,8 @@ describe('slerp between two samples (shorter arc)', () => {
   });
 
   it('takes the shorter arc: q and −q for the second sample give the same attitude path', () => {
-    const o1 = new Float64Array(4), o2 = new Float64Array(4);
+    const o1 = new Float64Array(4),
+      o2 = new Float64Array(4);
     const a = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0);
     const b = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.6);
     const negB = b.map((x) => -x);
@@ -211,7 +213,9 @@ describe('engine mat3 (column-major) → three Matrix3 / Matrix4', () => {
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) m[3 * c + r] = r * 10 + c;
     const m4 = matrix4FromMat3(new Matrix4(), m);
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) expect(m4.elements[4 * c + r]).toBe(r * 10 + c);
-    expect([m4.elements[3], m4.elements[7], m4.elements[11], m4.elements[12], m4.elements[13], m4.elements[14], m4.elements[15]]).toEqual([0, 0, 0, 0, 0, 0, 1]);
+    expect([m4.elements[3], m4.elements[7], m4.elements[11], m4.elements[12], m4.elements[13], m4.elements[14], m4.elements[15]]).toEqual([
+      0, 0, 0, 0, 0, 0, 1,
+    ]);
     const m3 = matrix3FromMat3(new Matrix3(), m);
     // three's Matrix3.set() takes ROW-major arguments: build the same matrix that way and compare.
     const viaSet = new Matrix3().set(0, 1, 2, 10, 11, 12, 20, 21, 22);

@@ -59,17 +59,29 @@ function drawnTriangles(mesh: Mesh): Float64Array {
 function rayDistance(tris: Float64Array, d: ArrayLike<number>): number {
   let best = Infinity;
   for (let k = 0; k < tris.length; k += 9) {
-    const ax = tris[k]!, ay = tris[k + 1]!, az = tris[k + 2]!;
-    const e1x = tris[k + 3]! - ax, e1y = tris[k + 4]! - ay, e1z = tris[k + 5]! - az;
-    const e2x = tris[k + 6]! - ax, e2y = tris[k + 7]! - ay, e2z = tris[k + 8]! - az;
-    const px = d[1]! * e2z - d[2]! * e2y, py = d[2]! * e2x - d[0]! * e2z, pz = d[0]! * e2y - d[1]! * e2x;
+    const ax = tris[k]!,
+      ay = tris[k + 1]!,
+      az = tris[k + 2]!;
+    const e1x = tris[k + 3]! - ax,
+      e1y = tris[k + 4]! - ay,
+      e1z = tris[k + 5]! - az;
+    const e2x = tris[k + 6]! - ax,
+      e2y = tris[k + 7]! - ay,
+      e2z = tris[k + 8]! - az;
+    const px = d[1]! * e2z - d[2]! * e2y,
+      py = d[2]! * e2x - d[0]! * e2z,
+      pz = d[0]! * e2y - d[1]! * e2x;
     const det = e1x * px + e1y * py + e1z * pz;
     if (Math.abs(det) < 1e-14) continue;
     const inv = 1 / det;
-    const tx = -ax, ty = -ay, tz = -az; // ray origin 0
+    const tx = -ax,
+      ty = -ay,
+      tz = -az; // ray origin 0
     const u = (tx * px + ty * py + tz * pz) * inv;
     if (u < -1e-9 || u > 1 + 1e-9) continue;
-    const qx = ty * e1z - tz * e1y, qy = tz * e1x - tx * e1z, qz = tx * e1y - ty * e1x;
+    const qx = ty * e1z - tz * e1y,
+      qy = tz * e1x - tx * e1z,
+      qz = tx * e1y - ty * e1x;
     const v = (d[0]! * qx + d[1]! * qy + d[2]! * qz) * inv;
     if (v < -1e-9 || u + v > 1 + 1e-9) continue;
     const t = (e2x * qx + e2y * qy + e2z * qz) * inv;
@@ -89,7 +101,12 @@ function checkDrawnEnvelope(env: MomentumEnvelopeMesh, capacity: (d: Float64Arra
   let worstV = 0;
   for (let k = 0; k < pos.count; k++) {
     v.fromBufferAttribute(pos, k).applyMatrix4(obj.mesh.matrixWorld).divideScalar(scale);
-    worstV = Math.max(worstV, Math.abs(v.x - env.vertices[3 * k]!), Math.abs(v.y - env.vertices[3 * k + 1]!), Math.abs(v.z - env.vertices[3 * k + 2]!));
+    worstV = Math.max(
+      worstV,
+      Math.abs(v.x - env.vertices[3 * k]!),
+      Math.abs(v.y - env.vertices[3 * k + 1]!),
+      Math.abs(v.z - env.vertices[3 * k + 2]!),
+    );
   }
   const vmax = Math.max(...Array.from(env.vertices, Math.abs));
   expect(worstV / vmax).toBeLessThan(1e-6); // Float32 storage
@@ -131,7 +148,14 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
     const { tris, scale } = checkDrawnEnvelope(env, capF);
     const along = (d: number[]) => {
       const n = Math.hypot(d[0]!, d[1]!, d[2]!);
-      return rayDistance(tris, d.map((x) => x / n)) / scale / h;
+      return (
+        rayDistance(
+          tris,
+          d.map((x) => x / n),
+        ) /
+        scale /
+        h
+      );
     };
     expect(along([1, 0, 0])).toBeCloseTo(2.3094, 4);
     expect(along([0, 0, 1])).toBeCloseTo(2.3094, 4);
@@ -150,7 +174,10 @@ describe('drawn envelope = input mesh, its surface = the capacity function', () 
     expect(rayDistance(tris, [Math.SQRT1_2, Math.SQRT1_2, 0]) / scale / h).toBeCloseTo(1.633, 4);
     const tri = unwrap(makeWheelArray(orthogonalTriad(limits)));
     const zt = momentumEnvelope(tri);
-    checkDrawnEnvelope({ vertices: zt.vertices, triangles: zt.triangles }, (d) => h / Math.max(Math.abs(d[0]!), Math.abs(d[1]!), Math.abs(d[2]!)));
+    checkDrawnEnvelope(
+      { vertices: zt.vertices, triangles: zt.triangles },
+      (d) => h / Math.max(Math.abs(d[0]!), Math.abs(d[1]!), Math.abs(d[2]!)),
+    );
   });
 
   it('the display scale puts the farthest vertex at the inset radius', () => {
@@ -177,7 +204,14 @@ describe('total momentum warning colour', () => {
     expect(MOMENTUM_AMBER_FRACTION).toBe(0.7);
     expect(MOMENTUM_RED_FRACTION).toBe(0.9);
     expect([0, 0.69, 0.7, 0.89, 0.9, 1.2, Infinity, Number.NaN].map(momentumLevel)).toEqual([
-      'normal', 'normal', 'amber', 'amber', 'red', 'red', 'red', 'normal',
+      'normal',
+      'normal',
+      'amber',
+      'amber',
+      'red',
+      'red',
+      'red',
+      'normal',
     ]);
   });
 
@@ -204,7 +238,12 @@ describe('total momentum warning colour', () => {
     }
     expect(levels).toEqual(['normal', 'amber', 'red', 'normal']);
     const hex = (x: number) => new Color().setHex(x).getHex();
-    expect(colors).toEqual([hex(MOMENTUM_COLORS.normal), hex(MOMENTUM_COLORS.amber), hex(MOMENTUM_COLORS.red), hex(MOMENTUM_COLORS.normal)]);
+    expect(colors).toEqual([
+      hex(MOMENTUM_COLORS.normal),
+      hex(MOMENTUM_COLORS.amber),
+      hex(MOMENTUM_COLORS.red),
+      hex(MOMENTUM_COLORS.normal),
+    ]);
     // Last sample: wheel 1 at −0.3 h_max → its arrow points along −X_B with length 0.3 h_max × scale.
     const a = mc.wheelArrows[0]!;
     expect(a.direction.x).toBeCloseTo(-1, 14);
@@ -214,11 +253,19 @@ describe('total momentum warning colour', () => {
   });
 
   it('in the scene, the inset uses the first run’s scale for every overlaid run and draws one envelope', () => {
-    const spec = { n: 50, dt: 1, q0: [0, 0, 0, 1], omegaBody: [0, 0.01, 0] as [number, number, number], jumpSamples: [], logicKind: 'none' as const };
+    const spec = {
+      n: 50,
+      dt: 1,
+      q0: [0, 0, 0, 1],
+      omegaBody: [0, 0.01, 0] as [number, number, number],
+      jumpSamples: [],
+      logicKind: 'none' as const,
+    };
     const scene = new AttitudeScene();
     scene.setRuns([syntheticViewRun(spec, 'A'), syntheticViewRun(spec, 'B')], 'overlay');
     const shown = scene.viewports[0]!.runs;
-    const a = shown[0]!, b = shown[1]!;
+    const a = shown[0]!,
+      b = shown[1]!;
     expect(a.momentum.scale).toBe(b.momentum.scale);
     expect(a.momentum.envelope).not.toBeNull();
     expect(b.momentum.envelope).toBeNull();

@@ -102,7 +102,8 @@ export function testZonotope(axes: ArrayLike<number>, hmax: ArrayLike<number>): 
   const tris: number[] = [];
   for (let i = 0; i < nW; i++)
     for (let j = i + 1; j < nW; j++) {
-      const ai = a(i), aj = a(j);
+      const ai = a(i),
+        aj = a(j);
       const nrm = [ai[1]! * aj[2]! - ai[2]! * aj[1]!, ai[2]! * aj[0]! - ai[0]! * aj[2]!, ai[0]! * aj[1]! - ai[1]! * aj[0]!];
       for (const s of [1, -1]) {
         const c = [0, 0, 0];
@@ -137,9 +138,13 @@ export function testZonotopeCapacity(axes: ArrayLike<number>, hmax: ArrayLike<nu
   const normals: number[][] = [];
   for (let i = 0; i < nW; i++)
     for (let j = i + 1; j < nW; j++) {
-      const ai = [axes[3 * i], axes[3 * i + 1], axes[3 * i + 2]], aj = [axes[3 * j], axes[3 * j + 1], axes[3 * j + 2]];
+      const ai = [axes[3 * i], axes[3 * i + 1], axes[3 * i + 2]],
+        aj = [axes[3 * j], axes[3 * j + 1], axes[3 * j + 2]];
       const nr = [ai[1]! * aj[2]! - ai[2]! * aj[1]!, ai[2]! * aj[0]! - ai[0]! * aj[2]!, ai[0]! * aj[1]! - ai[1]! * aj[0]!];
-      normals.push(nr, nr.map((x) => -x));
+      normals.push(
+        nr,
+        nr.map((x) => -x),
+      );
     }
   return (d) => {
     let best = Infinity;
@@ -147,7 +152,8 @@ export function testZonotopeCapacity(axes: ArrayLike<number>, hmax: ArrayLike<nu
       const nd = nr[0]! * d[0]! + nr[1]! * d[1]! + nr[2]! * d[2]!;
       if (nd <= 1e-15) continue;
       let sup = 0;
-      for (let k = 0; k < nW; k++) sup += hmax[k]! * Math.abs(nr[0]! * axes[3 * k]! + nr[1]! * axes[3 * k + 1]! + nr[2]! * axes[3 * k + 2]!);
+      for (let k = 0; k < nW; k++)
+        sup += hmax[k]! * Math.abs(nr[0]! * axes[3 * k]! + nr[1]! * axes[3 * k + 1]! + nr[2]! * axes[3 * k + 2]!);
       best = Math.min(best, sup / nd);
     }
     return best;

@@ -8,7 +8,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { BufferGeometry, Material, Mesh, Vector3 } from 'three';
+import { type BufferGeometry, type Material, type Mesh, Vector3 } from 'three';
 import { AttitudeScene } from '../../app/view3d/attitudeScene';
 import { buildBusGroup, parseBusModel } from '../../app/view3d/busModel';
 import { keepOutConePositions, wireSpherePositions } from '../../app/view3d/commonContent';
@@ -40,7 +40,16 @@ describe('bus model file', () => {
       boresightBody: [0, 0, 0],
       parts: [
         { name: '', shape: 'box', size: [1, -1, 1], center: [0, 0], color: 'red' },
-        { name: 'tube', shape: 'cylinder', radius: 0, length: Number.NaN, axis: [0, 0, 0], center: [0, 0, 0], color: '#ffffff', metalness: 2 },
+        {
+          name: 'tube',
+          shape: 'cylinder',
+          radius: 0,
+          length: Number.NaN,
+          axis: [0, 0, 0],
+          center: [0, 0, 0],
+          color: '#ffffff',
+          metalness: 2,
+        },
         { name: 'blob', shape: 'sphere', center: [0, 0, 0], color: '#000000' },
         42,
       ],
@@ -112,8 +121,9 @@ describe('layouts', () => {
     const s = new AttitudeScene({ options: { overlayOpacity: 0.4 } });
     s.setRuns(runs(), 'overlay');
     const shown = s.viewports[0]!.runs;
-    const a = shown[0]!, b = shown[1]!;
-    const mat = (r: typeof a) => ((r.bus.children[0] as Mesh).material as Material);
+    const a = shown[0]!,
+      b = shown[1]!;
+    const mat = (r: typeof a) => (r.bus.children[0] as Mesh).material as Material;
     expect(mat(a).transparent).toBe(false);
     expect(mat(b).opacity).toBe(0.4);
     expect(mat(b).transparent).toBe(true);
@@ -159,9 +169,29 @@ describe('options', () => {
     s.setRuns([syntheticViewRun(spec)], 'single');
     const v = s.viewports[0]!;
     const rc = v.runs[0]!;
-    s.setOptions({ showInertialTriad: false, showSphere: false, showBody: false, showBodyTriad: false, showReference: false, showTrail: false, showJumpMarkers: false, showMomentum: false });
-    expect([v.common.inertialTriad.visible, v.common.sphere.visible, rc.bus.visible, rc.bodyTriad.visible, rc.referenceGhost!.visible]).toEqual([false, false, false, false, false]);
-    expect([rc.trail.line.visible, rc.trail.head.visible, rc.trail.jumpMarkers.visible, rc.momentum.group.visible]).toEqual([false, false, false, false]);
+    s.setOptions({
+      showInertialTriad: false,
+      showSphere: false,
+      showBody: false,
+      showBodyTriad: false,
+      showReference: false,
+      showTrail: false,
+      showJumpMarkers: false,
+      showMomentum: false,
+    });
+    expect([
+      v.common.inertialTriad.visible,
+      v.common.sphere.visible,
+      rc.bus.visible,
+      rc.bodyTriad.visible,
+      rc.referenceGhost!.visible,
+    ]).toEqual([false, false, false, false, false]);
+    expect([rc.trail.line.visible, rc.trail.head.visible, rc.trail.jumpMarkers.visible, rc.momentum.group.visible]).toEqual([
+      false,
+      false,
+      false,
+      false,
+    ]);
     s.setOptions({ showTrail: true, showMomentum: true });
     expect([rc.trail.line.visible, rc.momentum.group.visible]).toEqual([true, true]);
     s.dispose();
@@ -179,7 +209,9 @@ describe('shared geometry', () => {
     const alpha = 0.4;
     const { fan, rim } = keepOutConePositions(d, alpha, 2, 24);
     for (let s = 0; s < 24; s++) {
-      const x = rim[3 * s]!, y = rim[3 * s + 1]!, z = rim[3 * s + 2]!;
+      const x = rim[3 * s]!,
+        y = rim[3 * s + 1]!,
+        z = rim[3 * s + 2]!;
       expect(Math.hypot(x, y, z)).toBeCloseTo(2, 5);
       expect(Math.acos((x * d[0]! + y * d[1]! + z * d[2]!) / 2)).toBeCloseTo(alpha, 5);
     }

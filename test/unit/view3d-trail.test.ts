@@ -77,7 +77,8 @@ describe('trail geometry', () => {
   it('setTime reveals samples 0..i by drawRange and the head reaches the interpolated direction', () => {
     const run = syntheticViewRun(spec);
     const { scene, rc } = build(run);
-    const q = new Float64Array(4), e = new Float64Array(3);
+    const q = new Float64Array(4),
+      e = new Float64Array(3);
     const tt = run.trace.t;
     for (const t of [0, 3.14159, 25.05, 59.85, tt[spec.n - 1]!, 1e9]) {
       scene.setTime(t);
@@ -97,7 +98,8 @@ describe('trail geometry', () => {
 describe('trail colouring by the logic value', () => {
   it('sign logic: h = +1 before the first jump, −1 after it, back to +1 after the second', () => {
     const { scene, rc } = build(syntheticViewRun(spec));
-    const pos = rgb(LOGIC_SIGN_POS), neg = rgb(LOGIC_SIGN_NEG);
+    const pos = rgb(LOGIC_SIGN_POS),
+      neg = rgb(LOGIC_SIGN_NEG);
     const col = (k: number) => Array.from(rc.trail.colors.subarray(3 * k, 3 * k + 3));
     const close = (a: number[], b: number[]) => a.every((x, i) => Math.abs(x - b[i]!) < 1e-7);
     expect(close(col(0), pos)).toBe(true);
@@ -127,7 +129,9 @@ describe('jump markers', () => {
   it('sit at the boresight direction at each jump, and appear once their time has passed', () => {
     const run = syntheticViewRun(spec);
     const { scene, rc } = build(run);
-    const m = new Matrix4(), p = new Vector3(), e = new Float64Array(3);
+    const m = new Matrix4(),
+      p = new Vector3(),
+      e = new Float64Array(3);
     expect(rc.trail.jumpMarkers.instanceMatrix.count).toBe(3);
     run.jumps.forEach((_jp, k) => {
       rc.trail.jumpMarkers.getMatrixAt(k, m);
@@ -148,7 +152,9 @@ describe('jump markers', () => {
     const run = syntheticViewRun(spec);
     run.jumps = [{ t: 12.34, j: 1, from: 1, to: -1 }];
     const { scene, rc } = build(run);
-    const m = new Matrix4(), p = new Vector3(), e = new Float64Array(3);
+    const m = new Matrix4(),
+      p = new Vector3(),
+      e = new Float64Array(3);
     rc.trail.jumpMarkers.getMatrixAt(0, m);
     p.setFromMatrixPosition(m).divideScalar(R);
     qRotate(e, syntheticAttitude(new Float64Array(4), spec, 12.34), [0, 0, 1]);
@@ -159,7 +165,8 @@ describe('jump markers', () => {
 
 describe('great-circle comparison arc', () => {
   it('runs from the start to the end along the shorter great circle', () => {
-    const a = [1, 0, 0], b = [0, Math.cos(0.3), Math.sin(0.3)];
+    const a = [1, 0, 0],
+      b = [0, Math.cos(0.3), Math.sin(0.3)];
     const N = 33;
     const pts = new Float64Array(3 * N);
     const th = greatCircleArc(pts, 0, a, b, N);
@@ -167,7 +174,9 @@ describe('great-circle comparison arc', () => {
     const n = [a[1]! * b[2]! - a[2]! * b[1]!, a[2]! * b[0]! - a[0]! * b[2]!, a[0]! * b[1]! - a[1]! * b[0]!];
     let len = 0;
     for (let m = 0; m < N; m++) {
-      const x = pts[3 * m]!, y = pts[3 * m + 1]!, z = pts[3 * m + 2]!;
+      const x = pts[3 * m]!,
+        y = pts[3 * m + 1]!,
+        z = pts[3 * m + 2]!;
       expect(Math.hypot(x, y, z)).toBeCloseTo(1, 14);
       expect(x * n[0]! + y * n[1]! + z * n[2]!).toBeCloseTo(0, 14);
       if (m > 0) len += 2 * Math.asin(0.5 * Math.hypot(x - pts[3 * m - 3]!, y - pts[3 * m - 2]!, z - pts[3 * m - 1]!));
@@ -187,7 +196,14 @@ describe('great-circle comparison arc', () => {
 
   it('in the scene: one arc per target from the segment’s first boresight to the target boresight; only the active one shows', () => {
     // Unwinding picture: the body turns 300° about Z_I (the long way) to a target 60° away.
-    const s2: SyntheticRunSpec = { n: 301, dt: 1, q0: [0, 0, 0, 1], omegaBody: [0, 0, (300 * Math.PI) / 180 / 300], jumpSamples: [], logicKind: 'none' };
+    const s2: SyntheticRunSpec = {
+      n: 301,
+      dt: 1,
+      q0: [0, 0, 0, 1],
+      omegaBody: [0, 0, (300 * Math.PI) / 180 / 300],
+      jumpSamples: [],
+      logicKind: 'none',
+    };
     const run = syntheticViewRun(s2, 'unwinding', [
       { tStart: 0, tEnd: 300, q: qFromAxisAngle(new Float64Array(4), [0, 0, 1], (-60 * Math.PI) / 180), label: 'goal' },
     ]);
@@ -200,10 +216,13 @@ describe('great-circle comparison arc', () => {
     expect(pos.getX(last)).toBeCloseTo(Math.cos(-Math.PI / 3), 6);
     expect(pos.getY(last)).toBeCloseTo(Math.sin(-Math.PI / 3), 6);
     // The arc is the 60° way; the trail travelled 300°.
-    let arcLen = 0, trailLen = 0;
-    for (let m = 1; m <= last; m++) arcLen += Math.hypot(pos.getX(m) - pos.getX(m - 1), pos.getY(m) - pos.getY(m - 1), pos.getZ(m) - pos.getZ(m - 1));
+    let arcLen = 0,
+      trailLen = 0;
+    for (let m = 1; m <= last; m++)
+      arcLen += Math.hypot(pos.getX(m) - pos.getX(m - 1), pos.getY(m) - pos.getY(m - 1), pos.getZ(m) - pos.getZ(m - 1));
     const p = rc.trail.path;
-    for (let k = 1; k < run.trace.n; k++) trailLen += Math.hypot(p[3 * k]! - p[3 * k - 3]!, p[3 * k + 1]! - p[3 * k - 2]!, p[3 * k + 2]! - p[3 * k - 1]!);
+    for (let k = 1; k < run.trace.n; k++)
+      trailLen += Math.hypot(p[3 * k]! - p[3 * k - 3]!, p[3 * k + 1]! - p[3 * k - 2]!, p[3 * k + 2]! - p[3 * k - 1]!);
     expect(arcLen).toBeCloseTo(Math.PI / 3, 3);
     expect(trailLen).toBeCloseTo((300 * Math.PI) / 180, 3);
     scene.setTime(10);
@@ -217,7 +236,8 @@ describe('great-circle comparison arc', () => {
 describe('keep-out cones', () => {
   // X_B swept about Z_I at ω: direction (cos ωt, sin ωt, 0). A cone about +Y_I with half angle α
   // is entered when ωt first exceeds π/2 − α, i.e. at the first sample k with k·ω·dt > π/2 − α.
-  const w = 0.01, dt = 1;
+  const w = 0.01,
+    dt = 1;
   const s3: SyntheticRunSpec = { n: 700, dt, q0: [0, 0, 0, 1], omegaBody: [0, 0, w], jumpSamples: [], logicKind: 'none' };
   const alpha = 0.25;
   const kEnter = Math.floor((Math.PI / 2 - alpha) / (w * dt)) + 1;
@@ -241,7 +261,8 @@ describe('keep-out cones', () => {
       ],
     });
     expect(Array.from(rc.trail.entrySamples)).toEqual([kEnter, kEnter2]);
-    const m = new Matrix4(), p = new Vector3();
+    const m = new Matrix4(),
+      p = new Vector3();
     rc.trail.entryMarkers!.getMatrixAt(0, m);
     p.setFromMatrixPosition(m).divideScalar(R);
     expect(p.x).toBeCloseTo(Math.cos(w * kEnter * dt), 6);

@@ -20,7 +20,8 @@ import {
 } from '../../app/engine/wheels';
 import type { WheelArray, WheelSpec } from '../../app/engine/wheels';
 
-const TAU = 0.002, H = 0.006;
+const TAU = 0.002,
+  H = 0.006;
 const lim = { maxTorqueNm: TAU, maxMomentumNms: H, rotorInertiaKgm2: 2e-5 };
 function build(specs: WheelSpec[]): WheelArray {
   const r = makeWheelArray(specs);
@@ -82,7 +83,8 @@ describe('momentum limit, instantaneous rule', () => {
     expect(info.scale).toBe(1);
     expect(info.nullSpaceUsed).toBe(true);
     expect(out[0]).toBeLessThanOrEqual(0);
-    const want = body(pyr, cmd), got = body(pyr, out);
+    const want = body(pyr, cmd),
+      got = body(pyr, out);
     for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r]!, 16);
     for (let i = 0; i < 4; i++) expect(Math.abs(out[i]!)).toBeLessThanOrEqual(TAU);
     // Smallest change: with ν ∝ (1,−1,1,−1)/2 the fix moves wheel 0 exactly to 0 (α = −2 cmd₀).
@@ -133,7 +135,8 @@ describe('momentum limit, predictive over a step', () => {
     const info = limitWheelTorqueStep(out, pyr, cmd, h, dt);
     expect(info.reason).toBe('momentum-null-space');
     expect(h[0]! + out[0]! * dt).toBeLessThanOrEqual(H);
-    const want = body(pyr, cmd), got = body(pyr, out);
+    const want = body(pyr, cmd),
+      got = body(pyr, out);
     for (let r = 0; r < 3; r++) expect(got[r]).toBeCloseTo(want[r]!, 16);
   });
 });

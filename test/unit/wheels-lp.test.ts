@@ -17,7 +17,8 @@ import { lpMinimize } from '../../app/engine/wheels/lp';
 
 /** Brute force: min cᵀz over vertices of {Az ≤ b, z ≥ 0}; null if no vertex is feasible. */
 function bruteLp(A: number[][], b: number[], c: number[]): number | null {
-  const m = A.length, nv = c.length;
+  const m = A.length,
+    nv = c.length;
   // All constraints as rows: A z ≤ b and −z ≤ 0.
   const rows = [...A, ...[...Array(nv).keys()].map((j) => c.map((_, k) => (k === j ? -1 : 0)))];
   const rhs = [...b, ...new Array(nv).fill(0)];
@@ -26,7 +27,12 @@ function bruteLp(A: number[][], b: number[], c: number[]): number | null {
     if (picked.length === nv) {
       const M = picked.map((r) => rows[r]!);
       if (Math.abs(math.det(M)) < 1e-10) return;
-      const z = (math.lusolve(M, picked.map((r) => rhs[r])) as number[][]).map((r) => r[0]!);
+      const z = (
+        math.lusolve(
+          M,
+          picked.map((r) => rhs[r]),
+        ) as number[][]
+      ).map((r) => r[0]!);
       for (let r = 0; r < m + nv; r++) if (math.dot(rows[r]!, z) > rhs[r] + 1e-9) return;
       const v = math.dot(c, z);
       if (best === null || v < best) best = v;
@@ -72,7 +78,15 @@ describe('lpMinimize on textbook problems', () => {
     expect(bruteLp(A, [0, 0, 1], c)).toBeCloseTo(-1, 10);
   });
   it('phase 1: x + y ≥ 2 (as −x − y ≤ −2), x ≤ 3, y ≤ 3, minimise x + 2y → 2 at (2, 0)', () => {
-    const r = solve([[-1, -1], [1, 0], [0, 1]], [-2, 3, 3], [1, 2]);
+    const r = solve(
+      [
+        [-1, -1],
+        [1, 0],
+        [0, 1],
+      ],
+      [-2, 3, 3],
+      [1, 2],
+    );
     expect(r.status).toBe('optimal');
     expect(r.value).toBeCloseTo(2, 12);
     expect(r.z[0]).toBeCloseTo(2, 12);
@@ -88,16 +102,14 @@ describe('lpMinimize on textbook problems', () => {
 describe('lpMinimize against vertex enumeration (fast-check, 1,000 random bounded LPs)', () => {
   it('same optimal value, or both infeasible', () => {
     const coef = fc.integer({ min: -4, max: 4 });
-    const arb = fc
-      .record({ nv: fc.integer({ min: 1, max: 3 }), m: fc.integer({ min: 1, max: 5 }) })
-      .chain(({ nv, m }) =>
-        fc.record({
-          A: fc.array(fc.array(coef, { minLength: nv, maxLength: nv }), { minLength: m, maxLength: m }),
-          b: fc.array(fc.integer({ min: -3, max: 6 }), { minLength: m, maxLength: m }),
-          c: fc.array(coef, { minLength: nv, maxLength: nv }),
-          nv: fc.constant(nv),
-        }),
-      );
+    const arb = fc.record({ nv: fc.integer({ min: 1, max: 3 }), m: fc.integer({ min: 1, max: 5 }) }).chain(({ nv, m }) =>
+      fc.record({
+        A: fc.array(fc.array(coef, { minLength: nv, maxLength: nv }), { minLength: m, maxLength: m }),
+        b: fc.array(fc.integer({ min: -3, max: 6 }), { minLength: m, maxLength: m }),
+        c: fc.array(coef, { minLength: nv, maxLength: nv }),
+        nv: fc.constant(nv),
+      }),
+    );
     fc.assert(
       fc.property(arb, ({ A, b, c, nv }) => {
         // A box z ≤ 5 keeps every problem bounded so that vertex enumeration is a complete answer.

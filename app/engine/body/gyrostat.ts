@@ -69,9 +69,7 @@ export const GYRO_H = 7;
 const UNIT_TOL = 1e-6;
 const DEFAULT_COULOMB_SMOOTHING = 0.5;
 
-function perWheel(
-  v: Float64Array | number | undefined, n: number, path: string, errors: Issue[],
-): Float64Array {
+function perWheel(v: Float64Array | number | undefined, n: number, path: string, errors: Issue[]): Float64Array {
   const out = new Float64Array(n);
   if (v === undefined) return out;
   if (typeof v === 'number') {
@@ -117,7 +115,9 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
     errors.push(issue('wheels.axes', 'shape', `wheels.axes must be a Float64Array of length 3n = ${3 * n}`));
   } else {
     for (let i = 0; i < n; i++) {
-      const x = wheels.axes[3 * i]!, y = wheels.axes[3 * i + 1]!, z = wheels.axes[3 * i + 2]!;
+      const x = wheels.axes[3 * i]!,
+        y = wheels.axes[3 * i + 1]!,
+        z = wheels.axes[3 * i + 2]!;
       const len = Math.hypot(x, y, z);
       if (!Number.isFinite(len) || Math.abs(len - 1) > UNIT_TOL) {
         errors.push(issue(`wheels.axes[${i}]`, 'unit-norm', `wheels.axes[${i}] must be a unit vector (length ${len})`));
@@ -134,7 +134,9 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
     for (let i = 0; i < n; i++) {
       const v = wheels.rotorInertiaKgm2[i]!;
       if (!Number.isFinite(v) || v <= 0) {
-        errors.push(issue(`wheels.rotorInertiaKgm2[${i}]`, 'positive', `wheels.rotorInertiaKgm2[${i}] must be a finite number > 0 (got ${v})`));
+        errors.push(
+          issue(`wheels.rotorInertiaKgm2[${i}]`, 'positive', `wheels.rotorInertiaKgm2[${i}] must be a finite number > 0 (got ${v})`),
+        );
       } else Js[i] = v;
     }
   }
@@ -148,7 +150,11 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
 
   const Jc = new Float64Array(J);
   const scale = Math.max(...Array.from(Jc, Math.abs));
-  for (const [r, c] of [[0, 1], [0, 2], [1, 2]] as const) {
+  for (const [r, c] of [
+    [0, 1],
+    [0, 2],
+    [1, 2],
+  ] as const) {
     if (Math.abs(Jc[3 * c + r]! - Jc[3 * r + c]!) > 1e-6 * scale) {
       errors.push(issue(`inertia[${r}][${c}]`, 'symmetric', `inertia[${r}][${c}] and inertia[${c}][${r}] differ`));
     }
@@ -160,16 +166,20 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
   }
   const Jperp = new Float64Array(Jc);
   for (let i = 0; i < n; i++) {
-    for (let r = 0; r < 3; r++)
-      for (let c = 0; c < 3; c++) Jperp[3 * c + r]! -= Js[i]! * axes[3 * i + r]! * axes[3 * i + c]!;
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) Jperp[3 * c + r]! -= Js[i]! * axes[3 * i + r]! * axes[3 * i + c]!;
   }
   const evp = v3Create();
   symmetricEigen3(Jperp, evp, m3Create());
   const JperpInv = m3Create();
   if (!(evp[0]! > 1e-12 * ev[2]!) || !m3Invert(JperpInv, Jperp)) {
-    errors.push(issue('wheels.rotorInertiaKgm2', 'transverse-inertia-positive-definite',
-      `J − G·J_s·Gᵀ (the inertia the body shows once the rotors spin freely) must be positive definite; ` +
-      `its smallest eigenvalue is ${evp[0]} kg·m²: the rotor inertias are too large for the whole-spacecraft inertia`));
+    errors.push(
+      issue(
+        'wheels.rotorInertiaKgm2',
+        'transverse-inertia-positive-definite',
+        `J − G·J_s·Gᵀ (the inertia the body shows once the rotors spin freely) must be positive definite; ` +
+          `its smallest eigenvalue is ${evp[0]} kg·m²: the rotor inertias are too large for the whole-spacecraft inertia`,
+      ),
+    );
   }
   if (errors.length) return fail(errors);
   let active = false;
@@ -177,7 +187,13 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
   const JsInv = new Float64Array(n);
   for (let i = 0; i < n; i++) JsInv[i] = 1 / Js[i]!;
   return ok({
-    J: Jc, Jperp, JperpInv, n, axes, Js, JsInv,
+    J: Jc,
+    Jperp,
+    JperpInv,
+    n,
+    axes,
+    Js,
+    JsInv,
     friction: { viscousNmsPerRad: viscous, coulombNm: coulomb, coulombSmoothingRadPerS: smoothing, active },
     dim: 7 + n,
   });
@@ -190,11 +206,19 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
  * Ω_i = h_i/J_s,i − g_iᵀω: −c_i Ω_i − τ_c,i tanh(Ω_i/Ω_s). No allocation.
  */
 export function gyrostatDerivative(
-  dx: Float64Array, x: ArrayLike<number>, g: Gyrostat,
-  wheelMotorTorque: ArrayLike<number>, extTorque: ArrayLike<number>,
+  dx: Float64Array,
+  x: ArrayLike<number>,
+  g: Gyrostat,
+  wheelMotorTorque: ArrayLike<number>,
+  extTorque: ArrayLike<number>,
 ): void {
-  const qx = x[0]!, qy = x[1]!, qz = x[2]!, qw = x[3]!;
-  const wx = x[4]!, wy = x[5]!, wz = x[6]!;
+  const qx = x[0]!,
+    qy = x[1]!,
+    qz = x[2]!,
+    qw = x[3]!;
+  const wx = x[4]!,
+    wy = x[5]!,
+    wz = x[6]!;
   // q̇ = ½ q ⊗ (ω, 0), scalar-last Hamilton product.
   dx[0] = 0.5 * (qw * wx + qy * wz - qz * wy);
   dx[1] = 0.5 * (qw * wy + qz * wx - qx * wz);
@@ -204,12 +228,17 @@ export function gyrostatDerivative(
   let Hx = P[0]! * wx + P[3]! * wy + P[6]! * wz;
   let Hy = P[1]! * wx + P[4]! * wy + P[7]! * wz;
   let Hz = P[2]! * wx + P[5]! * wy + P[8]! * wz;
-  let bx = extTorque[0]!, by = extTorque[1]!, bz = extTorque[2]!;
-  const ax = g.axes, n = g.n;
+  let bx = extTorque[0]!,
+    by = extTorque[1]!,
+    bz = extTorque[2]!;
+  const ax = g.axes,
+    n = g.n;
   const fr = g.friction;
   const active = fr.active;
   for (let i = 0; i < n; i++) {
-    const gx = ax[3 * i]!, gy = ax[3 * i + 1]!, gz = ax[3 * i + 2]!;
+    const gx = ax[3 * i]!,
+      gy = ax[3 * i + 1]!,
+      gz = ax[3 * i + 2]!;
     const h = x[7 + i]!;
     Hx += gx * h;
     Hy += gy * h;
@@ -236,7 +265,9 @@ export function gyrostatDerivative(
 
 /** Total angular momentum in body axes, H = J_⊥ ω + G h, N·m·s. */
 export function totalMomentumBody(out: Vec3, x: ArrayLike<number>, g: Gyrostat): Vec3 {
-  const wx = x[4]!, wy = x[5]!, wz = x[6]!;
+  const wx = x[4]!,
+    wy = x[5]!,
+    wz = x[6]!;
   const P = g.Jperp;
   let Hx = P[0]! * wx + P[3]! * wy + P[6]! * wz;
   let Hy = P[1]! * wx + P[4]! * wy + P[7]! * wz;
@@ -260,8 +291,13 @@ export function totalMomentumBody(out: Vec3, x: ArrayLike<number>, g: Gyrostat):
 export function totalMomentumInertial(out: Vec3, x: ArrayLike<number>, g: Gyrostat): Vec3 {
   totalMomentumBody(out, x, g);
   const nq = Math.hypot(x[0]!, x[1]!, x[2]!, x[3]!);
-  const qx = x[0]! / nq, qy = x[1]! / nq, qz = x[2]! / nq, qw = x[3]! / nq;
-  const vx = out[0]!, vy = out[1]!, vz = out[2]!;
+  const qx = x[0]! / nq,
+    qy = x[1]! / nq,
+    qz = x[2]! / nq,
+    qw = x[3]! / nq;
+  const vx = out[0]!,
+    vy = out[1]!,
+    vz = out[2]!;
   // v' = v + 2w (q_v × v) + 2 q_v × (q_v × v)
   const tx = 2 * (qy * vz - qz * vy);
   const ty = 2 * (qz * vx - qx * vz);
@@ -277,7 +313,9 @@ export function totalMomentumInertial(out: Vec3, x: ArrayLike<number>, g: Gyrost
  * ½ J_s (g·ω + Ω)² = h²/(2 J_s); its transverse part is inside J_⊥.)
  */
 export function kineticEnergy(x: ArrayLike<number>, g: Gyrostat): number {
-  const wx = x[4]!, wy = x[5]!, wz = x[6]!;
+  const wx = x[4]!,
+    wy = x[5]!,
+    wz = x[6]!;
   const P = g.Jperp;
   const Hx = P[0]! * wx + P[3]! * wy + P[6]! * wz;
   const Hy = P[1]! * wx + P[4]! * wy + P[7]! * wz;
@@ -289,7 +327,9 @@ export function kineticEnergy(x: ArrayLike<number>, g: Gyrostat): number {
 
 /** Wheel spin relative to the body, Ω_i = h_i / J_s,i − g_iᵀ ω, rad/s (n values). */
 export function wheelRelativeSpeed(out: Float64Array, x: ArrayLike<number>, g: Gyrostat): Float64Array {
-  const wx = x[4]!, wy = x[5]!, wz = x[6]!;
+  const wx = x[4]!,
+    wy = x[5]!,
+    wz = x[6]!;
   for (let i = 0; i < g.n; i++) {
     out[i] = x[7 + i]! * g.JsInv[i]! - (g.axes[3 * i]! * wx + g.axes[3 * i + 1]! * wy + g.axes[3 * i + 2]! * wz);
   }
@@ -298,7 +338,10 @@ export function wheelRelativeSpeed(out: Float64Array, x: ArrayLike<number>, g: G
 
 /** Absolute axial momentum from a relative wheel speed: h_i = J_s,i (g_iᵀ ω + Ω_i). */
 export function wheelMomentumFromRelativeSpeed(
-  out: Float64Array, omegaBody: ArrayLike<number>, relSpeed: ArrayLike<number>, g: Gyrostat,
+  out: Float64Array,
+  omegaBody: ArrayLike<number>,
+  relSpeed: ArrayLike<number>,
+  g: Gyrostat,
 ): Float64Array {
   for (let i = 0; i < g.n; i++) {
     const gw = g.axes[3 * i]! * omegaBody[0]! + g.axes[3 * i + 1]! * omegaBody[1]! + g.axes[3 * i + 2]! * omegaBody[2]!;

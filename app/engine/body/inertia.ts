@@ -79,14 +79,24 @@ export function validateInertia(rows: unknown, path = 'inertia'): Result<Inertia
   let scale = 0;
   for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(a[i]!));
   const symTol = INERTIA_SYMMETRY_TOL * scale;
-  for (const [r, c] of [[0, 1], [0, 2], [1, 2]] as const) {
-    const x = a[3 * r + c]!, y = a[3 * c + r]!;
+  for (const [r, c] of [
+    [0, 1],
+    [0, 2],
+    [1, 2],
+  ] as const) {
+    const x = a[3 * r + c]!,
+      y = a[3 * c + r]!;
     // Compare halves to avoid overflow of x − y near the largest doubles.
     if (Math.abs(0.5 * x - 0.5 * y) > 0.5 * symTol) {
       const ep = `${path}[${r}][${c}]`;
-      errors.push(issue(ep, 'symmetric',
-        `${ep} = ${x} but ${path}[${c}][${r}] = ${y}; an inertia matrix must be symmetric ` +
-        `(entries may differ by at most ${INERTIA_SYMMETRY_TOL} of the largest entry)`));
+      errors.push(
+        issue(
+          ep,
+          'symmetric',
+          `${ep} = ${x} but ${path}[${c}][${r}] = ${y}; an inertia matrix must be symmetric ` +
+            `(entries may differ by at most ${INERTIA_SYMMETRY_TOL} of the largest entry)`,
+        ),
+      );
     }
   }
 
@@ -109,19 +119,31 @@ export function validateInertia(rows: unknown, path = 'inertia'): Result<Inertia
     errors.push(issue(path, 'range', `${path} has entries too large to analyse (largest |entry| ${scale})`));
     return fail(errors);
   }
-  const m1 = moments[0]!, m2 = moments[1]!, m3 = moments[2]!;
+  const m1 = moments[0]!,
+    m2 = moments[1]!,
+    m3 = moments[2]!;
   // Six significant digits in messages: enough to see the problem, short enough to read.
   const f = (x: number) => String(Number(x.toPrecision(6)));
   const big = Math.max(Math.abs(m1), Math.abs(m3));
   if (!(m1 > INERTIA_PD_TOL * big)) {
-    errors.push(issue(path, 'positive-definite',
-      `${path} must be positive definite; its smallest eigenvalue is ${f(m1)} kg·m² ` +
-      `(principal moments ${f(m1)}, ${f(m2)}, ${f(m3)})`));
+    errors.push(
+      issue(
+        path,
+        'positive-definite',
+        `${path} must be positive definite; its smallest eigenvalue is ${f(m1)} kg·m² ` +
+          `(principal moments ${f(m1)}, ${f(m2)}, ${f(m3)})`,
+      ),
+    );
   }
   if (m1 + m2 - m3 < -INERTIA_TRIANGLE_TOL * big) {
-    errors.push(issue(path, 'triangle-inequality',
-      `${path}: principal moments ${f(m1)}, ${f(m2)}, ${f(m3)} break the triangle inequality ` +
-      `(J1 + J2 = ${f(m1 + m2)} < J3 = ${f(m3)}); no rigid mass distribution has them`));
+    errors.push(
+      issue(
+        path,
+        'triangle-inequality',
+        `${path}: principal moments ${f(m1)}, ${f(m2)}, ${f(m3)} break the triangle inequality ` +
+          `(J1 + J2 = ${f(m1 + m2)} < J3 = ${f(m3)}); no rigid mass distribution has them`,
+      ),
+    );
   }
   if (errors.length) return fail(errors);
   return ok({ J, moments, axes });

@@ -99,9 +99,12 @@ const TARGET_NAMES = ['I', 'R_a(π, v₁)', 'R_a(π, v₂)', 'R_a(π, v₃)'];
 
 /** Quaternion of P_target ⊗ (−sin(θ/2) u, cos(θ/2)); P_0 = identity, P_i = (v_i, 0). */
 function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number, theta: number): Float64Array {
-  const s = -Math.sin(0.5 * theta), c = Math.cos(0.5 * theta);
+  const s = -Math.sin(0.5 * theta),
+    c = Math.cos(0.5 * theta);
   const U = fam.directions;
-  const wx = s * U[3 * p]!, wy = s * U[3 * p + 1]!, wz = s * U[3 * p + 2]!;
+  const wx = s * U[3 * p]!,
+    wy = s * U[3 * p + 1]!,
+    wz = s * U[3 * p + 2]!;
   if (target === 0) {
     out[0] = wx;
     out[1] = wy;
@@ -109,8 +112,11 @@ function preimage(out: Float64Array, fam: WarpFamily, target: number, p: number,
     out[3] = c;
     return out;
   }
-  const E = fam.eigenvectors, i = target - 1;
-  const px = E[3 * i]!, py = E[3 * i + 1]!, pz = E[3 * i + 2]!;
+  const E = fam.eigenvectors,
+    i = target - 1;
+  const px = E[3 * i]!,
+    py = E[3 * i + 1]!,
+    pz = E[3 * i + 2]!;
   // (p, 0) ⊗ (w, c) = (c p + p × w, −p·w)
   out[0] = c * px + (py * wz - pz * wy);
   out[1] = c * py + (pz * wx - px * wz);
@@ -242,7 +248,10 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   const starts = Math.max(0, Math.floor(options.completenessStarts ?? 150));
   const completeness = { starts: starts * n, converged: 0, unmatched: 0 };
   const rng = makeRng(seed, 3);
-  const qs = new Float64Array(4), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3);
+  const qs = new Float64Array(4),
+    dq = new Float64Array(4),
+    qt = new Float64Array(4),
+    xv = new Float64Array(3);
   for (let p = 0; p < n; p++) {
     const known = points.filter((c) => c.member === p + 1).map((c) => Float64Array.from(c.attitude));
     for (let s = 0; s < starts; s++) {
@@ -254,11 +263,16 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
         qMultiply(qt, qs, qFromRotationVector(dq, xv));
         return qt;
       };
-      const res = solve3((x) => {
-        evaluateFamily(ws, fam, at(x));
-        memberGradient(b, fam, ws, p);
-        return [b[0]!, b[1]!, b[2]!];
-      }, [0, 0, 0], 1e-11 * scale, 60);
+      const res = solve3(
+        (x) => {
+          evaluateFamily(ws, fam, at(x));
+          memberGradient(b, fam, ws, p);
+          return [b[0]!, b[1]!, b[2]!];
+        },
+        [0, 0, 0],
+        1e-11 * scale,
+        60,
+      );
       if (!res.converged) continue;
       completeness.converged++;
       const qc = at(res.x);
@@ -307,7 +321,10 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   }
 
   const flowSamples = Math.max(0, Math.floor(options.flowSetSamples ?? 20_000));
-  const flowSet = certified && flowSamples > 0 && delta > 0 && Number.isFinite(delta) ? flowSetGradientCheck(fam, delta, { samples: flowSamples, seed }) : null;
+  const flowSet =
+    certified && flowSamples > 0 && delta > 0 && Number.isFinite(delta)
+      ? flowSetGradientCheck(fam, delta, { samples: flowSamples, seed })
+      : null;
   // With δ < δ* the flow set holds no critical point but I: a vanishing sampled/refined gradient
   // there would contradict the certificate (a numerical failure worth a loud warning).
   if (flowSet && admissible && !(flowSet.minGradientNorm > 1e-9 * scale))
@@ -321,7 +338,10 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
     ? admissible
       ? `Certified: synergy gap δ* = ${fmt(deltaStar)} (±${deltaTol.toExponential(1)}); δ = ${delta} is admissible with margin ${fmt(deltaStar - delta)} (${Math.round((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
       : `Family certified with synergy gap δ* = ${fmt(deltaStar)}, but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${fmt(0.8 * deltaStar)}).`
-    : `Refused: ${issues.map((i) => i.rule).filter((r, k, a) => a.indexOf(r) === k).join(', ')} — ${issues[0]!.message}.`;
+    : `Refused: ${issues
+        .map((i) => i.rule)
+        .filter((r, k, a) => a.indexOf(r) === k)
+        .join(', ')} — ${issues[0]!.message}.`;
   return {
     certified,
     admissible,

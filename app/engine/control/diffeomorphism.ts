@@ -23,7 +23,10 @@ export function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: nu
     pts.set(q, 4 * s);
   }
   const out: number[] = [];
-  const qs = new Float64Array(4), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3);
+  const qs = new Float64Array(4),
+    dq = new Float64Array(4),
+    qt = new Float64Array(4),
+    xv = new Float64Array(3);
   const vals = new Float64Array(N);
   const order = new Uint32Array(N);
   for (let p = 0; p < n; p++) {
@@ -47,13 +50,19 @@ export function diffeomorphismMargins(fam: WarpFamily, samples: number, seed: nu
     }
     for (const z of seeds) {
       qs.set(z);
-      const m = nelderMead((x) => {
-        xv[0] = x[0]!;
-        xv[1] = x[1]!;
-        xv[2] = x[2]!;
-        qMultiply(qt, qs, qFromRotationVector(dq, xv));
-        return warpJacobianDet(fam, qt, p);
-      }, [0, 0, 0], 0.05, 1e-13, 1000);
+      const m = nelderMead(
+        (x) => {
+          xv[0] = x[0]!;
+          xv[1] = x[1]!;
+          xv[2] = x[2]!;
+          qMultiply(qt, qs, qFromRotationVector(dq, xv));
+          return warpJacobianDet(fam, qt, p);
+        },
+        [0, 0, 0],
+        0.05,
+        1e-13,
+        1000,
+      );
       best = Math.min(best, m.fx);
     }
     out.push(best);

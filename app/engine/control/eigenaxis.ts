@@ -105,7 +105,10 @@ export class Eigenaxis implements AttitudeController {
   torque(out: Vec3, input: ControlInput): Vec3 {
     if (!this.latched) this.latch(input);
     const st = computeTracking(this.st, this.plant, input);
-    const s = this.liftSign, L = this.L, k = this.k, c = this.c;
+    const s = this.liftSign,
+      L = this.L,
+      k = this.k,
+      c = this.c;
     const a = this.a;
     for (let i = 0; i < 3; i++) {
       const e = s * st.qe[i]!;

@@ -109,7 +109,11 @@ export function flowSetGradientCheck(fam: WarpFamily, delta: number, options: Fl
  * plus a steep linear penalty outside the set; the answer is the best FEASIBLE point evaluated.
  */
 function refineMinimum(fam: WarpFamily, ws: FamilyWorkspace, p: number, start: Float64Array, delta: number, etaMax: number): number {
-  const q0 = Float64Array.from(start), dq = new Float64Array(4), qt = new Float64Array(4), xv = new Float64Array(3), b = new Float64Array(3);
+  const q0 = Float64Array.from(start),
+    dq = new Float64Array(4),
+    qt = new Float64Array(4),
+    xv = new Float64Array(3),
+    b = new Float64Array(3);
   let bestFeasible = Infinity;
   const f = (x: number[]) => {
     xv[0] = x[0]!;

@@ -78,7 +78,9 @@ export function synergisticGainsFromBandwidth(
   const kR = (jRef * omegaN * omegaN) / (2 * abarMin);
   const kOmega = 2 * zeta * omegaN * jRef;
   const ws = makeFamilyWorkspace(fam);
-  const q = new Float64Array(4), b = new Float64Array(3), ax = new Float64Array(3);
+  const q = new Float64Array(4),
+    b = new Float64Array(3),
+    ax = new Float64Array(3);
   let worst = 0;
   for (let i = 0; i < 3; i++) {
     ax[0] = fam.eigenvectors[3 * i]!;

@@ -50,7 +50,9 @@ export function makeController(spec: unknown, plant: PlantModel, path = 'control
   const warnings: Issue[] = [...parsed.warnings];
   const s = parsed.spec;
   if (!s || errors.length > 0) return fail(errors, warnings);
-  const label = s.label ?? (s.kind === 'hysteretic' || s.kind === 'synergistic' ? `${DEFAULT_LABELS[s.kind]} (δ = ${s.hysteresis})` : DEFAULT_LABELS[s.kind]);
+  const label =
+    s.label ??
+    (s.kind === 'hysteretic' || s.kind === 'synergistic' ? `${DEFAULT_LABELS[s.kind]} (δ = ${s.hysteresis})` : DEFAULT_LABELS[s.kind]);
   const J = plant.Jperp;
 
   if (s.kind === 'synergistic') {

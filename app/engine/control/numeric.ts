@@ -17,11 +17,15 @@ export interface RootResult {
  * secant and bisection with the safeguards of the original zero routine).
  */
 export function brentRoot(f: (x: number) => number, a: number, b: number, xtol = 1e-15, maxIter = 200): RootResult {
-  let fa = f(a), fb = f(b);
+  let fa = f(a),
+    fb = f(b);
   if (fa === 0) return { x: a, fx: 0, iterations: 0, converged: true };
   if (fb === 0) return { x: b, fx: 0, iterations: 0, converged: true };
   if (!(fa * fb < 0)) return { x: NaN, fx: NaN, iterations: 0, converged: false };
-  let c = a, fc = fa, d = b - a, e = d;
+  let c = a,
+    fc = fa,
+    d = b - a,
+    e = d;
   for (let it = 1; it <= maxIter; it++) {
     if (fb * fc > 0) {
       c = a;
@@ -46,7 +50,8 @@ export function brentRoot(f: (x: number) => number, a: number, b: number, xtol =
         p = 2 * m * s;
         q = 1 - s;
       } else {
-        const qq = fa / fc, r = fb / fc;
+        const qq = fa / fc,
+          r = fb / fc;
         p = s * (2 * m * qq * (qq - r) - (b - a) * (r - 1));
         q = (qq - 1) * (r - 1) * (s - 1);
       }
@@ -160,12 +165,18 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
   let lambda = 1e-3;
   let it = 0;
   for (; it < maxIter && nrm > tol; it++) {
-    const J: number[][] = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+    const J: number[][] = [
+      [0, 0, 0],
+      [0, 0, 0],
+      [0, 0, 0],
+    ];
     for (let j = 0; j < 3; j++) {
-      const xp = x.slice(), xm = x.slice();
+      const xp = x.slice(),
+        xm = x.slice();
       xp[j]! += fdStep;
       xm[j]! -= fdStep;
-      const rp = r(xp), rm = r(xm);
+      const rp = r(xp),
+        rm = r(xm);
       for (let i = 0; i < 3; i++) J[i]![j] = (rp[i]! - rm[i]!) / (2 * fdStep);
     }
     // (JᵀJ + λ diag(JᵀJ)) dx = −Jᵀr
@@ -174,7 +185,10 @@ export function solve3(r: (x: number[]) => number[], x0: number[], tol = 1e-13, 
     let accepted = false;
     for (let tries = 0; tries < 12 && !accepted; tries++) {
       const M = JtJ.map((row, a) => row.map((v, b) => (a === b ? v * (1 + lambda) + 1e-300 : v)));
-      const dx = solveLinear3(M, Jtr.map((v) => -v));
+      const dx = solveLinear3(
+        M,
+        Jtr.map((v) => -v),
+      );
       if (!dx) {
         lambda *= 10;
         continue;
@@ -223,7 +237,8 @@ function solveLinear3(M: number[][], b: number[]): number[] | null {
  */
 export function scalarRoots(f: (t: number) => number, lo: number, hi: number, n: number, xtol: number): number[] {
   const roots: number[] = [];
-  const xs: number[] = [], fs: number[] = [];
+  const xs: number[] = [],
+    fs: number[] = [];
   for (let i = 0; i <= n; i++) {
     const x = lo + ((hi - lo) * i) / n;
     xs.push(x);

@@ -41,8 +41,7 @@ export interface WarpFamily {
  */
 export function makeWarpFamily(A: ArrayLike<number>, k: number, directions: ArrayLike<number>): WarpFamily {
   const a = new Float64Array(9);
-  for (let r = 0; r < 3; r++)
-    for (let c = 0; c < 3; c++) a[3 * c + r] = 0.5 * (A[3 * c + r]! + A[3 * r + c]!);
+  for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) a[3 * c + r] = 0.5 * (A[3 * c + r]! + A[3 * r + c]!);
   const tr = a[0]! + a[4]! + a[8]!;
   const abar = new Float64Array(9);
   for (let i = 0; i < 9; i++) abar[i] = -0.5 * a[i]!;
@@ -72,7 +71,9 @@ export function phiMax(fam: WarpFamily): number {
 /** Φ(R(q)) = 4 εᵀĀε. */
 export function phiQuat(fam: WarpFamily, q: ArrayLike<number>): number {
   const B = fam.Abar;
-  const x = q[0]!, y = q[1]!, z = q[2]!;
+  const x = q[0]!,
+    y = q[1]!,
+    z = q[2]!;
   const bx = B[0]! * x + B[3]! * y + B[6]! * z;
   const by = B[1]! * x + B[4]! * y + B[7]! * z;
   const bz = B[2]! * x + B[5]! * y + B[8]! * z;
@@ -81,8 +82,12 @@ export function phiQuat(fam: WarpFamily, q: ArrayLike<number>): number {
 
 /** out = ψ(A R(q)) = 2η Āε + ε × Aε. */
 export function psiAQuat(out: Vec3, fam: WarpFamily, q: ArrayLike<number>): Vec3 {
-  const B = fam.Abar, A = fam.A;
-  const x = q[0]!, y = q[1]!, z = q[2]!, w = q[3]!;
+  const B = fam.Abar,
+    A = fam.A;
+  const x = q[0]!,
+    y = q[1]!,
+    z = q[2]!,
+    w = q[3]!;
   const bx = B[0]! * x + B[3]! * y + B[6]! * z;
   const by = B[1]! * x + B[4]! * y + B[7]! * z;
   const bz = B[2]! * x + B[5]! * y + B[8]! * z;
@@ -151,13 +156,17 @@ export function argminMember(V: ArrayLike<number>, n: number): number {
 
 /** Evaluate Φ, the warp and every V_p at attitude q (unit). Returns ws. */
 export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLike<number>): FamilyWorkspace {
-  const x = q[0]!, y = q[1]!, z = q[2]!, w = q[3]!;
+  const x = q[0]!,
+    y = q[1]!,
+    z = q[2]!,
+    w = q[3]!;
   ws.q[0] = x;
   ws.q[1] = y;
   ws.q[2] = z;
   ws.q[3] = w;
   // Φ = 4εᵀĀε and ψ(AR) = 2ηĀε + ε × Aε share Āε.
-  const B = fam.Abar, A = fam.A;
+  const B = fam.Abar,
+    A = fam.A;
   const bx = B[0]! * x + B[3]! * y + B[6]! * z;
   const by = B[1]! * x + B[4]! * y + B[7]! * z;
   const bz = B[2]! * x + B[5]! * y + B[8]! * z;
@@ -171,15 +180,20 @@ export function evaluateFamily(ws: FamilyWorkspace, fam: WarpFamily, q: ArrayLik
   const theta = fam.k * phi;
   ws.phi = phi;
   ws.theta = theta;
-  const ch = Math.cos(0.5 * theta), sh = Math.sin(0.5 * theta);
+  const ch = Math.cos(0.5 * theta),
+    sh = Math.sin(0.5 * theta);
   // full-angle cosine and sine from the half angle (two fewer transcendental calls)
   ws.cosTheta = 1 - 2 * sh * sh;
   ws.sinTheta = 2 * sh * ch;
-  const U = fam.directions, G = ws.gamma, V = ws.V;
+  const U = fam.directions,
+    G = ws.gamma,
+    V = ws.V;
   const n = fam.members;
   for (let p = 0; p < n; p++) {
     // Γ_p = q ⊗ (sh u_p, ch)
-    const ux = sh * U[3 * p]!, uy = sh * U[3 * p + 1]!, uz = sh * U[3 * p + 2]!;
+    const ux = sh * U[3 * p]!,
+      uy = sh * U[3 * p + 1]!,
+      uz = sh * U[3 * p + 2]!;
     const gx = w * ux + ch * x + (y * uz - z * uy);
     const gy = w * uy + ch * y + (z * ux - x * uz);
     const gz = w * uz + ch * z + (x * uy - y * ux);
@@ -207,9 +221,13 @@ const sPsiR = new Float64Array(3);
  */
 export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, p: number): Vec3 {
   const G = ws.gamma;
-  const gq0 = G[4 * p]!, gq1 = G[4 * p + 1]!, gq2 = G[4 * p + 2]!, gq3 = G[4 * p + 3]!;
+  const gq0 = G[4 * p]!,
+    gq1 = G[4 * p + 1]!,
+    gq2 = G[4 * p + 2]!,
+    gq3 = G[4 * p + 3]!;
   // ψ(AΓ_p) from the warped quaternion
-  const B = fam.Abar, A = fam.A;
+  const B = fam.Abar,
+    A = fam.A;
   const bx = B[0]! * gq0 + B[3]! * gq1 + B[6]! * gq2;
   const by = B[1]! * gq0 + B[4]! * gq1 + B[7]! * gq2;
   const bz = B[2]! * gq0 + B[5]! * gq1 + B[8]! * gq2;
@@ -220,8 +238,11 @@ export function memberGradient(out: Vec3, fam: WarpFamily, ws: FamilyWorkspace, 
   const py = 2 * gq3 * by + (gq2 * ax - gq0 * az);
   const pz = 2 * gq3 * bz + (gq0 * ay - gq1 * ax);
   const U = fam.directions;
-  const ux = U[3 * p]!, uy = U[3 * p + 1]!, uz = U[3 * p + 2]!;
-  const c = ws.cosTheta, s = ws.sinTheta;
+  const ux = U[3 * p]!,
+    uy = U[3 * p + 1]!,
+    uz = U[3 * p + 2]!;
+  const c = ws.cosTheta,
+    s = ws.sinTheta;
   // R_a(θ, u) v = c v + s (u × v) + (1 − c)(u·v) u   (Rodrigues)
   const ud = ux * px + uy * py + uz * pz;
   const rx = c * px + s * (uy * pz - uz * py) + (1 - c) * ud * ux;
@@ -252,4 +273,3 @@ export function eigenvector(out: Vec3, fam: WarpFamily, i: number): Vec3 {
   out[2] = fam.eigenvectors[3 * i + 2]!;
   return out;
 }
-

@@ -43,7 +43,9 @@ abstract class QuaternionLawBase implements AttitudeController {
   torque(out: Vec3, input: ControlInput, logic: number): Vec3 {
     const st = computeTracking(this.st, this.plant, input);
     const s = this.sign(st.qe[3]!, logic) * this.kp;
-    const ex = st.qe[0]!, ey = st.qe[1]!, ez = st.qe[2]!;
+    const ex = st.qe[0]!,
+      ey = st.qe[1]!,
+      ez = st.qe[2]!;
     feedforwardPassive(out, st, this.plant);
     out[0]! -= s * ex;
     out[1]! -= s * ey;

@@ -91,7 +91,11 @@ function parseGainMatrix(L: IssueList, path: string, v: unknown): Mat3 | null {
     if (!checkSymmetricPd(L, path, M)) return null;
     return M;
   }
-  L.add(path, 'gain-shape', `${path} must be a positive number, a positive diagonal [x, y, z] or a symmetric positive definite 3×3 matrix (got ${describe(v)})`);
+  L.add(
+    path,
+    'gain-shape',
+    `${path} must be a positive number, a positive diagonal [x, y, z] or a symmetric positive definite 3×3 matrix (got ${describe(v)})`,
+  );
   return null;
 }
 
@@ -125,7 +129,8 @@ function parseGains(L: IssueList, path: string, kind: ControllerKind, v: unknown
     return null;
   }
   for (const key of Object.keys(v))
-    if (![sName, dName, 'omegaN', 'zeta'].includes(key)) L.add(`${path}.${key}`, 'unknown-field', `${path}.${key} is not a gain of this law`);
+    if (![sName, dName, 'omegaN', 'zeta'].includes(key))
+      L.add(`${path}.${key}`, 'unknown-field', `${path}.${key} is not a gain of this law`);
   if (band) {
     const a = L.positive(`${path}.omegaN`, v.omegaN);
     const b = L.positive(`${path}.zeta`, v.zeta);
@@ -133,7 +138,12 @@ function parseGains(L: IssueList, path: string, kind: ControllerKind, v: unknown
   }
   const s = L.positive(`${path}.${sName}`, v[sName]);
   // The eigenaxis damping c is a scalar of the inertia-normalised loop.
-  const d = kind === 'eigenaxis' ? (L.positive(`${path}.${dName}`, v[dName]) ? diagOf(v[dName] as number) : null) : parseGainMatrix(L, `${path}.${dName}`, v[dName]);
+  const d =
+    kind === 'eigenaxis'
+      ? L.positive(`${path}.${dName}`, v[dName])
+        ? diagOf(v[dName] as number)
+        : null
+      : parseGainMatrix(L, `${path}.${dName}`, v[dName]);
   return s && d ? { mode: 'explicit', stiffness: v[sName] as number, damping: d } : null;
 }
 
@@ -169,7 +179,8 @@ function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
     if (key !== 'eigenvalues' && key !== 'axes') L.add(`${path}.${key}`, 'unknown-field', `${path}.${key} is not a field of the potential`);
   const ev = v.eigenvalues;
   let lam: number[] | null = null;
-  if (!isNumArray(ev, 3)) L.add(`${path}.eigenvalues`, 'vector3', `${path}.eigenvalues must be an array of 3 numbers (got ${describe(ev)})`);
+  if (!isNumArray(ev, 3))
+    L.add(`${path}.eigenvalues`, 'vector3', `${path}.eigenvalues must be an array of 3 numbers (got ${describe(ev)})`);
   else {
     let good = true;
     ev.forEach((x, i) => (good = L.positive(`${path}.eigenvalues[${i}]`, x) && good));
@@ -177,12 +188,20 @@ function parsePotential(L: IssueList, path: string, v: unknown): Mat3 | null {
       lam = ev.slice();
       const s = [...lam].sort((a, b) => a - b);
       if (s[1]! - s[0]! <= 1e-6 * s[2]! || s[2]! - s[1]! <= 1e-6 * s[2]!) {
-        L.add(`${path}.eigenvalues`, 'distinct', `${path}.eigenvalues must be distinct (got ${lam.join(', ')}): repeated eigenvalues give continua of critical points (methods §1.2)`);
+        L.add(
+          `${path}.eigenvalues`,
+          'distinct',
+          `${path}.eigenvalues must be distinct (got ${lam.join(', ')}): repeated eigenvalues give continua of critical points (methods §1.2)`,
+        );
         lam = null;
       }
     }
   }
-  let axes: number[][] = [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+  let axes: number[][] = [
+    [1, 0, 0],
+    [0, 1, 0],
+    [0, 0, 1],
+  ];
   if (v.axes !== undefined) {
     if (!isNumArray(v.axes, 3)) {
       L.add(`${path}.axes`, 'axes', `${path}.axes must be three unit vectors (got ${describe(v.axes)})`);
@@ -223,10 +242,12 @@ export function parseControllerSpec(spec: unknown, path: string): { spec: Resolv
   }
   const k = kind as ControllerKind;
   for (const key of Object.keys(spec))
-    if (!KNOWN[k].includes(key)) W.push({ path: `${path}.${key}`, rule: 'unknown-field', message: `${path}.${key} is not used by a ${k} controller and was ignored` });
+    if (!KNOWN[k].includes(key))
+      W.push({ path: `${path}.${key}`, rule: 'unknown-field', message: `${path}.${key} is not used by a ${k} controller and was ignored` });
   let label: string | null = null;
   if (spec.label !== undefined) {
-    if (typeof spec.label !== 'string' || spec.label.trim() === '') L.add(`${path}.label`, 'string', `${path}.label must be a non-empty string`);
+    if (typeof spec.label !== 'string' || spec.label.trim() === '')
+      L.add(`${path}.label`, 'string', `${path}.label must be a non-empty string`);
     else label = spec.label;
   }
   const gains = parseGains(L, `${path}.gains`, k, spec.gains);
@@ -250,8 +271,18 @@ export function parseControllerSpec(spec: unknown, path: string): { spec: Resolv
       if (d < 0) L.add(`${path}.hysteresis`, 'non-negative', `${path}.hysteresis must be ≥ 0 (got ${d})`);
       else {
         out.hysteresis = d;
-        if (d === 0) W.push({ path: `${path}.hysteresis`, rule: 'no-hysteresis', message: `${path}.hysteresis = 0 makes the law a memoryless sign switch: measurement noise can make it chatter near η = 0` });
-        if (d >= 1) W.push({ path: `${path}.hysteresis`, rule: 'no-jumps', message: `${path}.hysteresis = ${d} ≥ 1: |η| ≤ 1 so no jump can occur and the law is the continuous PD, which unwinds` });
+        if (d === 0)
+          W.push({
+            path: `${path}.hysteresis`,
+            rule: 'no-hysteresis',
+            message: `${path}.hysteresis = 0 makes the law a memoryless sign switch: measurement noise can make it chatter near η = 0`,
+          });
+        if (d >= 1)
+          W.push({
+            path: `${path}.hysteresis`,
+            rule: 'no-jumps',
+            message: `${path}.hysteresis = ${d} ≥ 1: |η| ≤ 1 so no jump can occur and the law is the continuous PD, which unwinds`,
+          });
       }
     }
     const il = spec.initialLogic;
@@ -270,7 +301,8 @@ export function parseControllerSpec(spec: unknown, path: string): { spec: Resolv
         let good = true;
         tl.forEach((x, i) => (good = L.positive(`${path}.torqueLimitNm[${i}]`, x) && good));
         if (good) out.torqueLimit = Float64Array.from(tl);
-      } else L.add(`${path}.torqueLimitNm`, 'vector3', `${path}.torqueLimitNm must be a positive number or [x, y, z] (got ${describe(tl)})`);
+      } else
+        L.add(`${path}.torqueLimitNm`, 'vector3', `${path}.torqueLimitNm must be a positive number or [x, y, z] (got ${describe(tl)})`);
     }
   }
 
@@ -279,7 +311,8 @@ export function parseControllerSpec(spec: unknown, path: string): { spec: Resolv
     if (L.positive(`${path}.warpGain`, spec.warpGain)) out.warpGain = spec.warpGain as number;
     const wd = spec.warpDirections;
     if (wd !== undefined) {
-      if (!Array.isArray(wd) || wd.length < 2) L.add(`${path}.warpDirections`, 'min-members', `${path}.warpDirections must list at least 2 unit vectors (got ${describe(wd)})`);
+      if (!Array.isArray(wd) || wd.length < 2)
+        L.add(`${path}.warpDirections`, 'min-members', `${path}.warpDirections must list at least 2 unit vectors (got ${describe(wd)})`);
       else {
         const dirs = wd.map((u, i) => parseUnit(L, `${path}.warpDirections[${i}]`, u));
         if (dirs.every((u) => u !== null)) out.warpDirections = Float64Array.from((dirs as number[][]).flat());
@@ -294,9 +327,11 @@ export function parseControllerSpec(spec: unknown, path: string): { spec: Resolv
     const il = spec.initialLogic;
     if (il === undefined || il === 'auto') out.initialLogic = 0;
     else if (typeof il === 'number' && Number.isInteger(il) && il >= 1 && il <= members) out.initialLogic = il;
-    else L.add(`${path}.initialLogic`, 'one-of', `${path}.initialLogic must be 'auto' or a member index 1..${members} (got ${describe(il)})`);
+    else
+      L.add(`${path}.initialLogic`, 'one-of', `${path}.initialLogic must be 'auto' or a member index 1..${members} (got ${describe(il)})`);
     if (spec.requireCertificate !== undefined) {
-      if (typeof spec.requireCertificate !== 'boolean') L.add(`${path}.requireCertificate`, 'boolean', `${path}.requireCertificate must be true or false`);
+      if (typeof spec.requireCertificate !== 'boolean')
+        L.add(`${path}.requireCertificate`, 'boolean', `${path}.requireCertificate must be true or false`);
       else out.requireCertificate = spec.requireCertificate;
     }
   }
@@ -317,7 +352,8 @@ export function checkPlant(plant: unknown, path = 'plant'): Issue[] {
     for (let i = 0; i < 9; i++) good = L.finite(`${path}.Jperp[${i % 3}][${Math.floor(i / 3)}]`, p.Jperp[i]) && good;
     if (good) checkSymmetricPd(L, `${path}.Jperp`, p.Jperp);
   }
-  if (!Number.isInteger(p.nWheels) || p.nWheels < 0) L.add(`${path}.nWheels`, 'integer', `${path}.nWheels must be a non-negative integer (got ${describe(p.nWheels)})`);
+  if (!Number.isInteger(p.nWheels) || p.nWheels < 0)
+    L.add(`${path}.nWheels`, 'integer', `${path}.nWheels must be a non-negative integer (got ${describe(p.nWheels)})`);
   else if (!(p.axes instanceof Float64Array) || p.axes.length !== 3 * p.nWheels)
     L.add(`${path}.axes`, 'length', `${path}.axes must be a Float64Array of 3·nWheels = ${3 * p.nWheels} numbers`);
   else

@@ -58,8 +58,11 @@ export function computeTracking(st: TrackingState, plant: PlantModel, input: Con
   st.omegaE[0] = w[0]! - st.omegaR[0]!;
   st.omegaE[1] = w[1]! - st.omegaR[1]!;
   st.omegaE[2] = w[2]! - st.omegaR[2]!;
-  let gx = 0, gy = 0, gz = 0;
-  const ax = plant.axes, h = input.hWheel;
+  let gx = 0,
+    gy = 0,
+    gz = 0;
+  const ax = plant.axes,
+    h = input.hWheel;
   for (let i = 0; i < plant.nWheels; i++) {
     gx += ax[3 * i]! * h[i]!;
     gy += ax[3 * i + 1]! * h[i]!;
@@ -94,7 +97,9 @@ export function feedforwardCancel(out: Vec3, st: TrackingState, plant: PlantMode
   st.t1[1]! += st.gh[1]!;
   st.t1[2]! += st.gh[2]!;
   v3Cross(st.t2, omega, st.t1);
-  const ox = st.t2[0]!, oy = st.t2[1]!, oz = st.t2[2]!;
+  const ox = st.t2[0]!,
+    oy = st.t2[1]!,
+    oz = st.t2[2]!;
   v3Cross(st.t1, st.omegaE, st.omegaR);
   st.t1[0] = st.accelR[0]! - st.t1[0]!;
   st.t1[1] = st.accelR[1]! - st.t1[1]!;

@@ -44,7 +44,8 @@ const EPOCH_KEYS = new Set(['START_TIME', 'USEABLE_START_TIME', 'USEABLE_STOP_TI
 
 export function parseAem(text: string): Result<AemDocument> {
   const errors: Issue[] = [];
-  const err = (line: number, rule: string, message: string) => errors.push({ path: `line ${line}`, rule, message: `line ${line}: ${message}` });
+  const err = (line: number, rule: string, message: string) =>
+    errors.push({ path: `line ${line}`, rule, message: `line ${line}: ${message}` });
   if (typeof text !== 'string') return fail([{ path: '', rule: 'type', message: 'an AEM must be given as text' }]);
 
   const doc: AemDocument = { version: '', header: {}, comments: [], segments: [] };
@@ -52,29 +53,37 @@ export function parseAem(text: string): Result<AemDocument> {
   let lastHeaderIdx = 0;
   let seg: AemSegment | null = null;
   let lastMetaIdx = -1;
-  let segStart: AemEpoch | null = null, segStop: AemEpoch | null = null, timeSystem = '';
+  let segStart: AemEpoch | null = null,
+    segStop: AemEpoch | null = null,
+    timeSystem = '';
   let prevUseableStop: AemEpoch | null = null;
   let width: number | null = null;
   const rawLines = text.split(/\r\n|\n\r|\r|\n/);
 
   const closeHeader = (line: number) => {
-    for (const k of AEM_HEADER_KEYS) if (k.mandatory && !(k.key in doc.header)) err(line, 'missing-keyword', `header keyword ${k.key} is missing before META_START`);
+    for (const k of AEM_HEADER_KEYS)
+      if (k.mandatory && !(k.key in doc.header)) err(line, 'missing-keyword', `header keyword ${k.key} is missing before META_START`);
   };
 
   const closeMeta = (line: number, s: AemSegment) => {
     const md = s.metadata;
-    for (const k of AEM_META_KEYS) if (k.mandatory && !(k.key in md)) err(line, 'missing-keyword', `metadata keyword ${k.key} is missing (segment starting at line ${s.line})`);
+    for (const k of AEM_META_KEYS)
+      if (k.mandatory && !(k.key in md))
+        err(line, 'missing-keyword', `metadata keyword ${k.key} is missing (segment starting at line ${s.line})`);
     const type = md.ATTITUDE_TYPE;
     width = null;
     if (type !== undefined) {
-      if (!(type in AEM_ATTITUDE_TYPES)) err(line, 'attitude-type', `ATTITUDE_TYPE "${type}" is not one of ${Object.keys(AEM_ATTITUDE_TYPES).join(', ')}`);
+      if (!(type in AEM_ATTITUDE_TYPES))
+        err(line, 'attitude-type', `ATTITUDE_TYPE "${type}" is not one of ${Object.keys(AEM_ATTITUDE_TYPES).join(', ')}`);
       else width = AEM_ATTITUDE_TYPES[type]!;
-      if (type.startsWith('EULER_ANGLE') && md.EULER_ROT_SEQ === undefined) err(line, 'missing-keyword', `EULER_ROT_SEQ is required with ATTITUDE_TYPE ${type}`);
+      if (type.startsWith('EULER_ANGLE') && md.EULER_ROT_SEQ === undefined)
+        err(line, 'missing-keyword', `EULER_ROT_SEQ is required with ATTITUDE_TYPE ${type}`);
     }
     if (md.INTERPOLATION_METHOD !== undefined) {
       const d = md.INTERPOLATION_DEGREE;
       if (d === undefined) err(line, 'missing-keyword', 'INTERPOLATION_DEGREE is required when INTERPOLATION_METHOD is given');
-      else if (!/^\d+$/.test(d) || Number(d) < 1) err(line, 'interpolation-degree', `INTERPOLATION_DEGREE must be a positive whole number (got "${d}")`);
+      else if (!/^\d+$/.test(d) || Number(d) < 1)
+        err(line, 'interpolation-degree', `INTERPOLATION_DEGREE must be a positive whole number (got "${d}")`);
     }
     timeSystem = md.TIME_SYSTEM ?? '';
     const t: Partial<Record<string, AemEpoch>> = {};
@@ -92,7 +101,11 @@ export function parseAem(text: string): Result<AemDocument> {
     }
     const useStart = t.USEABLE_START_TIME ?? t.START_TIME;
     if (prevUseableStop && useStart && compareEpochs(useStart, prevUseableStop) < 0) {
-      err(line, 'useable', 'this segment\'s USEABLE_START_TIME (or START_TIME) is before the previous segment\'s USEABLE_STOP_TIME (or STOP_TIME)');
+      err(
+        line,
+        'useable',
+        "this segment's USEABLE_START_TIME (or START_TIME) is before the previous segment's USEABLE_STOP_TIME (or STOP_TIME)",
+      );
     }
     prevUseableStop = t.USEABLE_STOP_TIME ?? t.STOP_TIME ?? prevUseableStop;
   };
@@ -135,12 +148,25 @@ export function parseAem(text: string): Result<AemDocument> {
         lastMetaIdx = -1;
         continue;
       }
-      if (!kvm) { err(ln, 'syntax', `expected "KEYWORD = value" in the header (got "${s.slice(0, 40)}")`); continue; }
-      const key = kvm[1]!, value = kvm[2]!;
-      if (key !== key.toUpperCase()) { err(ln, 'key-case', `keyword "${key}" must be upper case`); continue; }
+      if (!kvm) {
+        err(ln, 'syntax', `expected "KEYWORD = value" in the header (got "${s.slice(0, 40)}")`);
+        continue;
+      }
+      const key = kvm[1]!,
+        value = kvm[2]!;
+      if (key !== key.toUpperCase()) {
+        err(ln, 'key-case', `keyword "${key}" must be upper case`);
+        continue;
+      }
       const idx = HEADER_INDEX.get(key);
-      if (idx === undefined) { err(ln, 'unknown-keyword', `${key} is not an AEM header keyword`); continue; }
-      if (key in doc.header) { err(ln, 'duplicate', `${key} appears twice`); continue; }
+      if (idx === undefined) {
+        err(ln, 'unknown-keyword', `${key} is not an AEM header keyword`);
+        continue;
+      }
+      if (key in doc.header) {
+        err(ln, 'duplicate', `${key} appears twice`);
+        continue;
+      }
       if (idx < lastHeaderIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_HEADER_KEYS[lastHeaderIdx]!.key}`);
       lastHeaderIdx = Math.max(lastHeaderIdx, idx);
       if (value === '') err(ln, 'empty-value', `${key} has no value`);
@@ -170,17 +196,35 @@ export function parseAem(text: string): Result<AemDocument> {
         state = 'after-meta';
         continue;
       }
-      if (bare === 'DATA_START' || bare === 'META_START') { err(ln, 'structure', `${bare} before META_STOP`); continue; }
-      if (!kvm) { err(ln, 'syntax', `expected "KEYWORD = value" in the metadata (got "${s.slice(0, 40)}")`); continue; }
-      const key = kvm[1]!, value = kvm[2]!;
-      if (key !== key.toUpperCase()) { err(ln, 'key-case', `keyword "${key}" must be upper case`); continue; }
+      if (bare === 'DATA_START' || bare === 'META_START') {
+        err(ln, 'structure', `${bare} before META_STOP`);
+        continue;
+      }
+      if (!kvm) {
+        err(ln, 'syntax', `expected "KEYWORD = value" in the metadata (got "${s.slice(0, 40)}")`);
+        continue;
+      }
+      const key = kvm[1]!,
+        value = kvm[2]!;
+      if (key !== key.toUpperCase()) {
+        err(ln, 'key-case', `keyword "${key}" must be upper case`);
+        continue;
+      }
       const idx = META_INDEX.get(key);
-      if (idx === undefined) { err(ln, 'unknown-keyword', `${key} is not an AEM metadata keyword`); continue; }
-      if (key in seg.metadata) { err(ln, 'duplicate', `${key} appears twice in this metadata block`); continue; }
-      if (idx < lastMetaIdx) err(ln, 'keyword-order', `${key} must come before ${AEM_META_KEYS[lastMetaIdx]!.key} (CCSDS 504.0-B-2 Table 4-3 order)`);
+      if (idx === undefined) {
+        err(ln, 'unknown-keyword', `${key} is not an AEM metadata keyword`);
+        continue;
+      }
+      if (key in seg.metadata) {
+        err(ln, 'duplicate', `${key} appears twice in this metadata block`);
+        continue;
+      }
+      if (idx < lastMetaIdx)
+        err(ln, 'keyword-order', `${key} must come before ${AEM_META_KEYS[lastMetaIdx]!.key} (CCSDS 504.0-B-2 Table 4-3 order)`);
       lastMetaIdx = Math.max(lastMetaIdx, idx);
       if (value === '') err(ln, 'empty-value', `${key} has no value`);
-      if (!EPOCH_KEYS.has(key) && /[a-z]/.test(value) && /[A-Z]/.test(value)) err(ln, 'text-case', `${key} value "${value}" mixes upper and lower case`);
+      if (!EPOCH_KEYS.has(key) && /[a-z]/.test(value) && /[A-Z]/.test(value))
+        err(ln, 'text-case', `${key} value "${value}" mixes upper and lower case`);
       seg.metadata[key] = value;
       continue;
     }
@@ -194,7 +238,8 @@ export function parseAem(text: string): Result<AemDocument> {
 
     if (state === 'data' && seg) {
       if (isComment) {
-        if (seg.lines.length > 0) err(ln, 'comment-placement', 'comments may not sit between data lines; put them directly after DATA_START');
+        if (seg.lines.length > 0)
+          err(ln, 'comment-placement', 'comments may not sit between data lines; put them directly after DATA_START');
         else seg.dataComments.push(comment);
         continue;
       }
@@ -205,21 +250,33 @@ export function parseAem(text: string): Result<AemDocument> {
         state = 'between';
         continue;
       }
-      if (kvm || bare === 'META_START' || bare === 'DATA_START' || bare === 'META_STOP') { err(ln, 'structure', `"${s.slice(0, 40)}" inside a data block (missing DATA_STOP?)`); continue; }
+      if (kvm || bare === 'META_START' || bare === 'DATA_START' || bare === 'META_STOP') {
+        err(ln, 'structure', `"${s.slice(0, 40)}" inside a data block (missing DATA_STOP?)`);
+        continue;
+      }
       const tok = s.split(/\s+/);
       const time = parseAemEpoch(tok[0]!, timeSystem === 'UTC');
-      if (!time) { err(ln, 'epoch', `"${tok[0]}" is not an epoch of the form YYYY-MM-DDThh:mm:ss[.d…d][Z]`); continue; }
+      if (!time) {
+        err(ln, 'epoch', `"${tok[0]}" is not an epoch of the form YYYY-MM-DDThh:mm:ss[.d…d][Z]`);
+        continue;
+      }
       const values: number[] = [];
       let bad = false;
       for (let k = 1; k < tok.length; k++) {
         const r = parseKvnNumber(tok[k]!);
-        if ('reason' in r) { err(ln, 'number', `value ${k}: ${r.reason}`); bad = true; }
-        else values.push(r.value);
+        if ('reason' in r) {
+          err(ln, 'number', `value ${k}: ${r.reason}`);
+          bad = true;
+        } else values.push(r.value);
       }
       if (bad) continue;
-      if (width !== null && values.length !== width) { err(ln, 'columns', `${values.length} values after the epoch; ATTITUDE_TYPE ${seg.metadata.ATTITUDE_TYPE} has ${width}`); continue; }
+      if (width !== null && values.length !== width) {
+        err(ln, 'columns', `${values.length} values after the epoch; ATTITUDE_TYPE ${seg.metadata.ATTITUDE_TYPE} has ${width}`);
+        continue;
+      }
       const prev = seg.lines[seg.lines.length - 1];
-      if (prev && compareEpochs(time, prev.time) <= 0) err(ln, 'time-order', `epoch ${tok[0]} does not increase from ${prev.epoch} (line ${prev.line})`);
+      if (prev && compareEpochs(time, prev.time) <= 0)
+        err(ln, 'time-order', `epoch ${tok[0]} does not increase from ${prev.epoch} (line ${prev.line})`);
       if ((segStart && compareEpochs(time, segStart) < 0) || (segStop && compareEpochs(time, segStop) > 0)) {
         err(ln, 'time-range', `epoch ${tok[0]} lies outside START_TIME…STOP_TIME of its segment`);
       }
@@ -233,7 +290,12 @@ export function parseAem(text: string): Result<AemDocument> {
   else if (state === 'header') {
     closeHeader(endLine);
     err(endLine, 'eof', 'the file ends before the first META_START; an AEM needs at least one segment');
-  } else if (state !== 'between') err(endLine, 'eof', `the file ends inside a ${state === 'data' ? 'data' : 'metadata'} block (missing ${state === 'data' ? 'DATA_STOP' : state === 'meta' ? 'META_STOP' : 'DATA_START'})`);
+  } else if (state !== 'between')
+    err(
+      endLine,
+      'eof',
+      `the file ends inside a ${state === 'data' ? 'data' : 'metadata'} block (missing ${state === 'data' ? 'DATA_STOP' : state === 'meta' ? 'META_STOP' : 'DATA_START'})`,
+    );
 
   return errors.length ? fail(errors) : ok(doc);
 }

@@ -27,14 +27,13 @@ import { epochUnits, formatEpochUnits, parseIsoUtcMs } from '../scenario/utc';
 import type { RunTrace } from '../sim/types';
 import { AEM_VERSION, KVN_MAX_LINE } from './aem-keywords';
 import { parseAem } from './aem-read';
-import { CAUTION_TEXT } from './caution';
+import { CAUTION_TEXT } from '../caution';
 import { selectSamples } from './columns';
 import { isKvnText, kvnFixed, kvnSignificant, toKvnText } from './kvn';
 import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
 import type { ExportMeta } from './types';
-
-const RAD_TO_DEG = 180 / Math.PI;
+import { DEG_PER_RAD } from '../units';
 
 export interface AemOptions {
   /** When the message is created, ISO 8601 UTC `YYYY-MM-DDThh:mm:ss[.sss]Z` (passed in so output is reproducible). */
@@ -90,14 +89,33 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   const o = options ?? ({} as AemOptions);
   const creationMs = parseIsoUtcMs(o.creationDateUtc);
   if (creationMs === null) {
-    errors.push({ path: 'options.creationDateUtc', rule: 'format', message: `options.creationDateUtc must be an ISO 8601 UTC time like 2030-03-13T08:00:00Z (got ${JSON.stringify(o.creationDateUtc)})` });
+    errors.push({
+      path: 'options.creationDateUtc',
+      rule: 'format',
+      message: `options.creationDateUtc must be an ISO 8601 UTC time like 2030-03-13T08:00:00Z (got ${JSON.stringify(o.creationDateUtc)})`,
+    });
   }
   const fracDigits = o.epochFractionDigits ?? 3;
   const qDec = o.quaternionDecimals ?? 10;
   const rateSig = o.rateSignificantDigits ?? 12;
-  if (!intIn(fracDigits, 0, 6)) errors.push({ path: 'options.epochFractionDigits', rule: 'range', message: 'options.epochFractionDigits must be a whole number from 0 to 6' });
-  if (!intIn(qDec, 1, 15)) errors.push({ path: 'options.quaternionDecimals', rule: 'range', message: 'options.quaternionDecimals must be a whole number from 1 to 15 (16 significant digits at most)' });
-  if (!intIn(rateSig, 1, 16)) errors.push({ path: 'options.rateSignificantDigits', rule: 'range', message: 'options.rateSignificantDigits must be a whole number from 1 to 16' });
+  if (!intIn(fracDigits, 0, 6))
+    errors.push({
+      path: 'options.epochFractionDigits',
+      rule: 'range',
+      message: 'options.epochFractionDigits must be a whole number from 0 to 6',
+    });
+  if (!intIn(qDec, 1, 15))
+    errors.push({
+      path: 'options.quaternionDecimals',
+      rule: 'range',
+      message: 'options.quaternionDecimals must be a whole number from 1 to 15 (16 significant digits at most)',
+    });
+  if (!intIn(rateSig, 1, 16))
+    errors.push({
+      path: 'options.rateSignificantDigits',
+      rule: 'range',
+      message: 'options.rateSignificantDigits must be a whole number from 1 to 16',
+    });
   if (o.lineEnding !== undefined && o.lineEnding !== '\n' && o.lineEnding !== '\r\n') {
     errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
   }
@@ -114,7 +132,11 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   for (const [k, v] of Object.entries(text)) {
     if (v === null && k === 'centerName') continue;
     if (typeof v !== 'string' || !isKvnText(v)) {
-      errors.push({ path: `options.${k}`, rule: 'kvn-text', message: `options.${k} must be printable ASCII letters, digits, "_", "-", ".", all upper or all lower case (got ${JSON.stringify(v)})` });
+      errors.push({
+        path: `options.${k}`,
+        rule: 'kvn-text',
+        message: `options.${k} must be printable ASCII letters, digits, "_", "-", ".", all upper or all lower case (got ${JSON.stringify(v)})`,
+      });
     }
   }
   if (o.messageId !== undefined && !isKvnText(o.messageId)) {
@@ -122,10 +144,18 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   }
   if (o.interpolation) {
     if (!['LINEAR', 'HERMITE', 'LAGRANGE'].includes(o.interpolation.method)) {
-      errors.push({ path: 'options.interpolation.method', rule: 'one-of', message: 'options.interpolation.method must be LINEAR, HERMITE or LAGRANGE' });
+      errors.push({
+        path: 'options.interpolation.method',
+        rule: 'one-of',
+        message: 'options.interpolation.method must be LINEAR, HERMITE or LAGRANGE',
+      });
     }
     if (!intIn(o.interpolation.degree, 1, 32)) {
-      errors.push({ path: 'options.interpolation.degree', rule: 'range', message: 'options.interpolation.degree must be a whole number from 1 to 32' });
+      errors.push({
+        path: 'options.interpolation.degree',
+        rule: 'range',
+        message: 'options.interpolation.degree must be a whole number from 1 to 32',
+      });
     }
   }
   if (errors.length) return fail(errors);
@@ -138,13 +168,22 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
 
   // One hemisphere throughout: sign per selected sample, in time order.
   const sign = new Float64Array(trace.n);
-  let px = 0, py = 0, pz = 0, pw = 0;
+  let px = 0,
+    py = 0,
+    pz = 0,
+    pw = 0;
   for (let m = 0; m < idx.length; m++) {
     const k = idx[m]!;
-    const x = trace.q[4 * k]!, y = trace.q[4 * k + 1]!, z = trace.q[4 * k + 2]!, w = trace.q[4 * k + 3]!;
+    const x = trace.q[4 * k]!,
+      y = trace.q[4 * k + 1]!,
+      z = trace.q[4 * k + 2]!,
+      w = trace.q[4 * k + 3]!;
     const s = m === 0 ? (w < 0 ? -1 : 1) : px * x + py * y + pz * z + pw * w < 0 ? -1 : 1;
     sign[k] = s;
-    px = s * x; py = s * y; pz = s * z; pw = s * w;
+    px = s * x;
+    py = s * y;
+    pz = s * z;
+    pw = s * w;
   }
 
   const epochMs = resolved.epochUnixMs;
@@ -155,7 +194,8 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
     const seg = segs.value[b]!;
     const slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
     const lines: string[] = [];
-    let lastUnits = -Infinity, firstUnits = NaN;
+    let lastUnits = -Infinity,
+      firstUnits = NaN;
     for (let m = 0; m < idx.length; m++) {
       const k = idx[m]!;
       const t = trace.t[k]!;
@@ -168,11 +208,15 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
       const s = sign[k]!;
       const parts = [formatEpochUnits(u, fracDigits)];
       for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, qDec));
-      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * RAD_TO_DEG, rateSig));
+      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, rateSig));
       lines.push(parts.join(' '));
     }
     if (lines.length === 0) {
-      segErrors.push({ path: `segments[${b}]`, rule: 'empty-segment', message: `segment ${b} ("${seg.label}", ${seg.startS}–${seg.stopS} s) holds no samples to write` });
+      segErrors.push({
+        path: `segments[${b}]`,
+        rule: 'empty-segment',
+        message: `segment ${b} ("${seg.label}", ${seg.startS}–${seg.stopS} s) holds no samples to write`,
+      });
       continue;
     }
     blocks.push({ label: seg.label, lines, first: firstUnits, last: lastUnits });
@@ -185,8 +229,12 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   kv('CCSDS_AEM_VERS', AEM_VERSION);
   out.push(`COMMENT ${commentText(CAUTION_TEXT)}`);
-  out.push(`COMMENT ${commentText(`Written by ${meta.toolName} ${meta.toolVersion}: scenario "${resolved.name}", controller "${meta.controllerLabel}"`)}`);
-  out.push(`COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`);
+  out.push(
+    `COMMENT ${commentText(`Written by ${meta.toolName} ${meta.toolVersion}: scenario "${resolved.name}", controller "${meta.controllerLabel}"`)}`,
+  );
+  out.push(
+    `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,
+  );
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);
@@ -223,7 +271,13 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
 
   const check = parseAem(textOut);
   if (!check.ok) {
-    return fail(check.errors.map((e) => ({ path: `aem.${e.path}`, rule: 'internal', message: `the written AEM failed its own read-back check: ${e.message}` })));
+    return fail(
+      check.errors.map((e) => ({
+        path: `aem.${e.path}`,
+        rule: 'internal',
+        message: `the written AEM failed its own read-back check: ${e.message}`,
+      })),
+    );
   }
   return ok(textOut);
 }

@@ -6,6 +6,7 @@
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { RunTrace } from '../sim/types';
+import { DEG_PER_RAD } from '../units';
 
 export interface Column {
   name: string;
@@ -16,11 +17,16 @@ export interface Column {
   get(trace: RunTrace, k: number): number;
 }
 
-const RAD_TO_DEG = 180 / Math.PI;
 const XYZ = ['x', 'y', 'z'] as const;
 const XYZW = ['x', 'y', 'z', 'w'] as const;
 
-function vecColumns(prefix: string, suffix: string, unit: string, what: string, channel: 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody'): Column[] {
+function vecColumns(
+  prefix: string,
+  suffix: string,
+  unit: string,
+  what: string,
+  channel: 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody',
+): Column[] {
   return XYZ.map((c, i) => ({
     name: `${prefix}_${c}${suffix}`,
     unit,
@@ -54,7 +60,12 @@ function wheelColumns(nW: number, key: string, unit: string, what: string, chann
   return out;
 }
 
-function scalar(name: string, unit: string, description: string, channel: 'logic' | 'potential' | 'potentialMin' | 'gap' | 'lyapunov'): Column {
+function scalar(
+  name: string,
+  unit: string,
+  description: string,
+  channel: 'logic' | 'potential' | 'potentialMin' | 'gap' | 'lyapunov',
+): Column {
   return { name, unit, description, integer: false, get: (tr, k) => tr[channel][k]! };
 }
 
@@ -63,7 +74,13 @@ export function traceColumns(nWheels: number): Column[] {
   return [
     { name: 't_s', unit: 's', description: 'time from the scenario epoch', integer: false, get: (tr, k) => tr.t[k]! },
     { name: 'j', unit: 'count', description: 'hybrid jump counter (logic jumps)', integer: true, get: (tr, k) => tr.j[k]! },
-    { name: 'segment', unit: 'count', description: 'maneuver segment index (target number, from 0)', integer: true, get: (tr, k) => tr.segment[k]! },
+    {
+      name: 'segment',
+      unit: 'count',
+      description: 'maneuver segment index (target number, from 0)',
+      integer: true,
+      get: (tr, k) => tr.segment[k]!,
+    },
     ...quatColumns('q', 'attitude qInertialFromBody', 'q'),
     ...vecColumns('omega', '_radps', 'rad/s', 'body rate', 'omega'),
     ...quatColumns('qref', 'reference attitude qInertialFromBody', 'qRef'),
@@ -74,7 +91,13 @@ export function traceColumns(nWheels: number): Column[] {
     ...wheelColumns(nWheels, 'torque_Nm', 'N m', 'delivered motor torque', 'wheelTorque'),
     ...wheelColumns(nWheels, 'h_Nms', 'N m s', 'axial wheel momentum', 'hWheel'),
     scalar('logic', '', 'controller logic value (h in {-1, 1}, synergistic index, 0 for smooth laws)', 'logic'),
-    { name: 'error_angle_deg', unit: 'deg', description: 'rotation angle from the attitude to the reference', integer: false, get: (tr, k) => tr.errorAngle[k]! * RAD_TO_DEG },
+    {
+      name: 'error_angle_deg',
+      unit: 'deg',
+      description: 'rotation angle from the attitude to the reference',
+      integer: false,
+      get: (tr, k) => tr.errorAngle[k]! * DEG_PER_RAD,
+    },
     scalar('potential', '', 'active potential V_q (0 where the law has none)', 'potential'),
     scalar('potential_min', '', 'minimum of the potential family', 'potentialMin'),
     scalar('synergy_gap', '', 'synergy gap V_q - min_p V_p', 'gap'),
@@ -95,7 +118,11 @@ export function selectSamples(trace: RunTrace, sampleRateHz?: number): Result<In
   const n = trace.n;
   if (sampleRateHz === undefined) return ok(Int32Array.from({ length: n }, (_, k) => k));
   if (typeof sampleRateHz !== 'number' || !Number.isFinite(sampleRateHz) || sampleRateHz <= 0) {
-    const e: Issue = { path: 'options.sampleRateHz', rule: 'positive', message: `options.sampleRateHz must be a finite number > 0 (got ${String(sampleRateHz)})` };
+    const e: Issue = {
+      path: 'options.sampleRateHz',
+      rule: 'positive',
+      message: `options.sampleRateHz must be a finite number > 0 (got ${String(sampleRateHz)})`,
+    };
     return fail([e]);
   }
   const dt = 1 / sampleRateHz;

@@ -7,7 +7,7 @@ import type { Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { ResolvedScenario } from '../scenario/resolve';
 import type { RunTrace } from '../sim/types';
-import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from './caution';
+import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { formatNumber, selectSamples, traceColumns } from './columns';
 import { checkExportInputs, oneLine } from './prepare';
 import type { ExportMeta } from './types';

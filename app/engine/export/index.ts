@@ -1,5 +1,5 @@
 /** Public surface of the export module: trace check, CSV / JSON / CCSDS AEM writers, AEM reader. */
-export { CAUTION_TEXT, QUATERNION_CONVENTION, FRAME_CONVENTION, TIME_CONVENTION } from './caution';
+export { CAUTION_TEXT, QUATERNION_CONVENTION, FRAME_CONVENTION, TIME_CONVENTION } from '../caution';
 export type { ExportMeta, ExportSegment } from './types';
 export { validateTraceForExport } from './trace-check';
 export type { TraceCheckOptions } from './trace-check';

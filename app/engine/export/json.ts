@@ -8,7 +8,7 @@ import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { ResolvedScenario } from '../scenario/resolve';
 import type { RunTrace } from '../sim/types';
-import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from './caution';
+import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { selectSamples, traceColumns } from './columns';
 import { exportSegments } from './segments';
 import { checkExportInputs } from './prepare';
@@ -58,7 +58,11 @@ export function toJsonSafe(v: unknown, path: string, errors: Issue[], seen: Set<
   } else {
     const proto = Object.getPrototypeOf(v);
     if (proto !== Object.prototype && proto !== null) {
-      errors.push({ path, rule: 'json-type', message: `${path} is a ${proto?.constructor?.name ?? 'non-plain'} object; pass plain objects and arrays` });
+      errors.push({
+        path,
+        rule: 'json-type',
+        message: `${path} is a ${proto?.constructor?.name ?? 'non-plain'} object; pass plain objects and arrays`,
+      });
       seen.delete(v);
       return null;
     }
@@ -77,7 +81,11 @@ export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: Exp
   const errors = checkExportInputs(trace, resolved, meta);
   const indent = options.indent ?? 0;
   if (!Number.isInteger(indent) || indent < 0 || indent > 8) {
-    errors.push({ path: 'options.indent', rule: 'range', message: `options.indent must be a whole number from 0 to 8 (got ${String(indent)})` });
+    errors.push({
+      path: 'options.indent',
+      rule: 'range',
+      message: `options.indent must be a whole number from 0 to 8 (got ${String(indent)})`,
+    });
   }
   if (errors.length) return fail(errors);
   const sel = selectSamples(trace, options.sampleRateHz);
@@ -116,7 +124,12 @@ export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: Exp
     scenario: resolved.source,
     resolved: {
       initialQInertialFromBody: Array.from(resolved.initial.qInertialFromBody),
-      targets: resolved.targets.map((t) => ({ label: t.label, form: t.form, qInertialFromBody: Array.from(t.qInertialFromBody), holdS: t.holdS })),
+      targets: resolved.targets.map((t) => ({
+        label: t.label,
+        form: t.form,
+        qInertialFromBody: Array.from(t.qInertialFromBody),
+        holdS: t.holdS,
+      })),
     },
     segments: segs.value,
     jumpEvents: meta.jumpEvents ?? [],

@@ -58,7 +58,10 @@ export function isKvnText(s: string): boolean {
 
 /** Upper-case a free name into a KVN text value: other characters become `_`. */
 export function toKvnText(s: string): string {
-  const t = s.toUpperCase().replace(/[^A-Z0-9_\-.]+/g, '_').replace(/^_+|_+$/g, '');
+  const t = s
+    .toUpperCase()
+    .replace(/[^A-Z0-9_\-.]+/g, '_')
+    .replace(/^_+|_+$/g, '');
   return t === '' ? 'UNNAMED' : t;
 }
 
@@ -83,8 +86,13 @@ export function parseAemEpoch(s: string, allowLeapSecond: boolean): AemEpoch | n
   let year: number, month: number, day: number, hh: number, mm: number, ss: number, frac: string | undefined;
   let m = CAL.exec(s);
   if (m) {
-    year = Number(m[1]); month = Number(m[2]); day = Number(m[3]);
-    hh = Number(m[4]); mm = Number(m[5]); ss = Number(m[6]); frac = m[7];
+    year = Number(m[1]);
+    month = Number(m[2]);
+    day = Number(m[3]);
+    hh = Number(m[4]);
+    mm = Number(m[5]);
+    ss = Number(m[6]);
+    frac = m[7];
     const dim = [31, isLeap(year) ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
     if (month < 1 || month > 12 || day < 1 || day > dim[month - 1]!) return null;
   } else {
@@ -93,7 +101,10 @@ export function parseAemEpoch(s: string, allowLeapSecond: boolean): AemEpoch | n
     year = Number(m[1]);
     const doy = Number(m[2]);
     if (doy < 1 || doy > (isLeap(year) ? 366 : 365)) return null;
-    hh = Number(m[3]); mm = Number(m[4]); ss = Number(m[5]); frac = m[6];
+    hh = Number(m[3]);
+    mm = Number(m[4]);
+    ss = Number(m[5]);
+    frac = m[6];
     month = 1;
     day = doy;
   }

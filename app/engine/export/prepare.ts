@@ -13,11 +13,16 @@ export function checkExportInputs(trace: RunTrace, resolved: ResolvedScenario, m
   const t = validateTraceForExport(trace);
   if (!t.ok) errors.push(...t.errors);
   else if (trace.nWheels !== resolved.vehicle.wheelCount) {
-    errors.push({ path: 'trace.nWheels', rule: 'wheel-count', message: `trace.nWheels = ${trace.nWheels} but the scenario's vehicle has ${resolved.vehicle.wheelCount} wheels` });
+    errors.push({
+      path: 'trace.nWheels',
+      rule: 'wheel-count',
+      message: `trace.nWheels = ${trace.nWheels} but the scenario's vehicle has ${resolved.vehicle.wheelCount} wheels`,
+    });
   }
   for (const k of ['toolName', 'toolVersion', 'controllerLabel'] as const) {
     const v = meta?.[k];
-    if (typeof v !== 'string' || v.trim() === '') errors.push({ path: `meta.${k}`, rule: 'required', message: `meta.${k} must be a non-empty string` });
+    if (typeof v !== 'string' || v.trim() === '')
+      errors.push({ path: `meta.${k}`, rule: 'required', message: `meta.${k} must be a non-empty string` });
   }
   if (meta?.controllerId !== undefined && typeof meta.controllerId !== 'string') {
     errors.push({ path: 'meta.controllerId', rule: 'type', message: 'meta.controllerId must be a string when given' });
@@ -27,5 +32,6 @@ export function checkExportInputs(trace: RunTrace, resolved: ResolvedScenario, m
 
 /** One line of free text: no line breaks, no control characters. */
 export function oneLine(s: string): string {
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what this removes
   return s.replace(/[\u0000-\u001f\u007f]+/g, ' ').trim();
 }

@@ -25,10 +25,15 @@ export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, give
       }
       if (typeof s.label !== 'string') errors.push({ path: `${p}.label`, rule: 'type', message: `${p}.label must be a string` });
       if (i > 0 && s.startS < given[i - 1]!.stopS) {
-        errors.push({ path: `${p}.startS`, rule: 'ordered', message: `${p}.startS = ${s.startS} s is before the previous segment's stopS = ${given[i - 1]!.stopS} s` });
+        errors.push({
+          path: `${p}.startS`,
+          rule: 'ordered',
+          message: `${p}.startS = ${s.startS} s is before the previous segment's stopS = ${given[i - 1]!.stopS} s`,
+        });
       }
     });
-    if (given.length === 0) errors.push({ path: 'meta.segments', rule: 'min-items', message: 'meta.segments must list at least one segment' });
+    if (given.length === 0)
+      errors.push({ path: 'meta.segments', rule: 'min-items', message: 'meta.segments must list at least one segment' });
     return errors.length ? fail(errors) : ok(given.map((s) => ({ ...s })));
   }
   const out: ExportSegment[] = [];
@@ -36,7 +41,12 @@ export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, give
   for (let k = 1; k <= trace.n; k++) {
     if (k === trace.n || trace.segment[k] !== trace.segment[first]) {
       const idx = trace.segment[first]!;
-      out.push({ index: idx, label: segmentLabel(resolved, idx), startS: trace.t[first]!, stopS: k < trace.n ? trace.t[k]! : trace.t[trace.n - 1]! });
+      out.push({
+        index: idx,
+        label: segmentLabel(resolved, idx),
+        startS: trace.t[first]!,
+        stopS: k < trace.n ? trace.t[k]! : trace.t[trace.n - 1]!,
+      });
       first = k;
     }
   }

@@ -24,7 +24,13 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
   const n = trace?.n;
   const nW = trace?.nWheels;
   if (!Number.isInteger(n) || n < 1) {
-    return fail([{ path: 'trace.n', rule: 'min-samples', message: `trace.n must be a whole number ≥ 1 (got ${String(n)}); there is nothing to export` }]);
+    return fail([
+      {
+        path: 'trace.n',
+        rule: 'min-samples',
+        message: `trace.n must be a whole number ≥ 1 (got ${String(n)}); there is nothing to export`,
+      },
+    ]);
   }
   if (!Number.isInteger(nW) || nW < 0) {
     return fail([{ path: 'trace.nWheels', rule: 'integer', message: `trace.nWheels must be a whole number ≥ 0 (got ${String(nW)})` }]);
@@ -32,7 +38,11 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
 
   const lengthOk = (name: string, arr: ArrayLike<number> | undefined, need: number): boolean => {
     if (!arr || typeof arr.length !== 'number' || arr.length < need) {
-      errors.push({ path: `trace.${name}`, rule: 'length', message: `trace.${name} must hold ${need} values for ${n} samples (has ${arr ? arr.length : 'none'})` });
+      errors.push({
+        path: `trace.${name}`,
+        rule: 'length',
+        message: `trace.${name} must hold ${need} values for ${n} samples (has ${arr ? arr.length : 'none'})`,
+      });
       return false;
     }
     return true;
@@ -80,21 +90,30 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
     c.close();
   }
 
-  for (const [name, arr, isOk] of [['j', trace.j, jOk], ['segment', trace.segment, segOk]] as const) {
+  for (const [name, arr, isOk] of [
+    ['j', trace.j, jOk],
+    ['segment', trace.segment, segOk],
+  ] as const) {
     if (!isOk) continue;
     const c = capped(`trace.${name}`, 'integer');
-    for (let k = 0; k < n; k++) if (!Number.isInteger(arr[k]) || arr[k]! < 0) c.add(k, `sample ${k}${tOf(k)}: trace.${name} must be a whole number ≥ 0 (got ${arr[k]})`);
+    for (let k = 0; k < n; k++)
+      if (!Number.isInteger(arr[k]) || arr[k]! < 0)
+        c.add(k, `sample ${k}${tOf(k)}: trace.${name} must be a whole number ≥ 0 (got ${arr[k]})`);
     c.close();
   }
 
   if (okChannels.has('t') && jOk) {
     const c = capped('trace.t', 'increasing');
     for (let k = 1; k < n; k++) {
-      const t0 = trace.t[k - 1]!, t1 = trace.t[k]!;
+      const t0 = trace.t[k - 1]!,
+        t1 = trace.t[k]!;
       if (!Number.isFinite(t0) || !Number.isFinite(t1)) continue;
       if (t1 > t0) continue;
       if (t1 === t0 && trace.j[k]! > trace.j[k - 1]!) continue;
-      c.add(k, `sample ${k}: time ${t1} s does not increase from ${t0} s at sample ${k - 1}${t1 === t0 ? ' and no jump happened (j did not increase)' : ''}`);
+      c.add(
+        k,
+        `sample ${k}: time ${t1} s does not increase from ${t0} s at sample ${k - 1}${t1 === t0 ? ' and no jump happened (j did not increase)' : ''}`,
+      );
     }
     c.close();
   }
@@ -105,7 +124,8 @@ export function validateTraceForExport(trace: RunTrace, options: TraceCheckOptio
     const c = capped(`trace.${name}`, 'unit-norm');
     for (let k = 0; k < n; k++) {
       const norm = Math.hypot(a[4 * k]!, a[4 * k + 1]!, a[4 * k + 2]!, a[4 * k + 3]!);
-      if (Number.isFinite(norm) && Math.abs(norm - 1) > tol) c.add(k, `sample ${k}${tOf(k)}: trace.${name} has norm ${norm.toPrecision(9)}, not 1 within ${tol}`);
+      if (Number.isFinite(norm) && Math.abs(norm - 1) > tol)
+        c.add(k, `sample ${k}${tOf(k)}: trace.${name} has norm ${norm.toPrecision(9)}, not 1 within ${tol}`);
     }
     c.close();
   }

@@ -35,7 +35,8 @@ export class ArcBuffer {
     const k = this.count++;
     this.t[k] = t;
     this.j[k] = j;
-    const d = this.dim, off = k * d;
+    const d = this.dim,
+      off = k * d;
     for (let i = 0; i < d; i++) this.x[off + i] = x[i]!;
   }
 

@@ -23,18 +23,44 @@ import type { FlowFn, Stepper, StepStatus } from './types';
 import { STEP_NON_FINITE, STEP_OK, STEP_UNDERFLOW } from './types';
 
 // Butcher tableau (Dormand & Prince 1980, Table 2 "RK5(4)7M").
-const C2 = 1 / 5, C3 = 3 / 10, C4 = 4 / 5, C5 = 8 / 9;
+const C2 = 1 / 5,
+  C3 = 3 / 10,
+  C4 = 4 / 5,
+  C5 = 8 / 9;
 const A21 = 1 / 5;
-const A31 = 3 / 40, A32 = 9 / 40;
-const A41 = 44 / 45, A42 = -56 / 15, A43 = 32 / 9;
-const A51 = 19372 / 6561, A52 = -25360 / 2187, A53 = 64448 / 6561, A54 = -212 / 729;
-const A61 = 9017 / 3168, A62 = -355 / 33, A63 = 46732 / 5247, A64 = 49 / 176, A65 = -5103 / 18656;
-const B1 = 35 / 384, B3 = 500 / 1113, B4 = 125 / 192, B5 = -2187 / 6784, B6 = 11 / 84;
+const A31 = 3 / 40,
+  A32 = 9 / 40;
+const A41 = 44 / 45,
+  A42 = -56 / 15,
+  A43 = 32 / 9;
+const A51 = 19372 / 6561,
+  A52 = -25360 / 2187,
+  A53 = 64448 / 6561,
+  A54 = -212 / 729;
+const A61 = 9017 / 3168,
+  A62 = -355 / 33,
+  A63 = 46732 / 5247,
+  A64 = 49 / 176,
+  A65 = -5103 / 18656;
+const B1 = 35 / 384,
+  B3 = 500 / 1113,
+  B4 = 125 / 192,
+  B5 = -2187 / 6784,
+  B6 = 11 / 84;
 // e = b(5th) − b*(4th), with b* = (5179/57600, 0, 7571/16695, 393/640, −92097/339200, 187/2100, 1/40).
-const E1 = 71 / 57600, E3 = -71 / 16695, E4 = 71 / 1920, E5 = -17253 / 339200, E6 = 22 / 525, E7 = -1 / 40;
+const E1 = 71 / 57600,
+  E3 = -71 / 16695,
+  E4 = 71 / 1920,
+  E5 = -17253 / 339200,
+  E6 = 22 / 525,
+  E7 = -1 / 40;
 // Continuous extension (HNW I §II.6, dense output of DOPRI5).
-const D1 = -12715105075 / 11282082432, D3 = 87487479700 / 32700410799, D4 = -10690763975 / 1880347072,
-  D5 = 701980252875 / 199316789632, D6 = -1453857185 / 822651844, D7 = 69997945 / 29380423;
+const D1 = -12715105075 / 11282082432,
+  D3 = 87487479700 / 32700410799,
+  D4 = -10690763975 / 1880347072,
+  D5 = 701980252875 / 199316789632,
+  D6 = -1453857185 / 822651844,
+  D7 = 69997945 / 29380423;
 
 const SAFETY = 0.9;
 const FAC_MIN = 0.2;
@@ -69,7 +95,8 @@ export function validateDp54Options(o: Record<string, unknown>, n: number, path 
   }
   const atol = o.atol;
   if (typeof atol === 'number') {
-    if (!Number.isFinite(atol) || atol < 0) out.push(issue(`${path}.atol`, 'non-negative', `${path}.atol must be a finite number ≥ 0 (got ${atol})`));
+    if (!Number.isFinite(atol) || atol < 0)
+      out.push(issue(`${path}.atol`, 'non-negative', `${path}.atol must be a finite number ≥ 0 (got ${atol})`));
   } else if (Array.isArray(atol) || ArrayBuffer.isView(atol)) {
     const a = atol as ArrayLike<unknown>;
     if (a.length !== n) out.push(issue(`${path}.atol`, 'shape', `${path}.atol must have one entry per state (${n}), got ${a.length}`));
@@ -87,7 +114,9 @@ export function validateDp54Options(o: Record<string, unknown>, n: number, path 
     if (v === undefined) continue;
     const allowInf = k === 'hMax';
     if (!isNum(v) || v < 0 || (k !== 'hMin' && v === 0) || (!allowInf && !Number.isFinite(v))) {
-      out.push(issue(`${path}.${k}`, 'positive', `${path}.${k} must be a ${k === 'hMin' ? 'finite number ≥ 0' : 'number > 0'} (got ${String(v)})`));
+      out.push(
+        issue(`${path}.${k}`, 'positive', `${path}.${k} must be a ${k === 'hMin' ? 'finite number ≥ 0' : 'number > 0'} (got ${String(v)})`),
+      );
     }
   }
   const hMin = isNum(o.hMin) ? o.hMin : 0;
@@ -199,8 +228,11 @@ export class DormandPrince implements Stepper {
 
   /** Starting step, HNW I §II.4 (uses k2 and y as scratch; k1 must hold f(t, x)). */
   private initialStep(span: number): number {
-    const n = this.n, x = this.x, k1 = this.k1;
-    let d0 = 0, d1 = 0;
+    const n = this.n,
+      x = this.x,
+      k1 = this.k1;
+    let d0 = 0,
+      d1 = 0;
     for (let i = 0; i < n; i++) {
       const sc = this.atol[i]! + this.rtol * Math.abs(x[i]!);
       d0 += (x[i]! / sc) ** 2;
@@ -226,7 +258,8 @@ export class DormandPrince implements Stepper {
   }
 
   advance(tStop: number): StepStatus {
-    const n = this.n, f = this.f;
+    const n = this.n,
+      f = this.f;
     const x = this.x;
     if (!this.fsal) {
       f(this.t, x, this.k1);
@@ -234,8 +267,15 @@ export class DormandPrince implements Stepper {
       if (!allFinite(this.k1)) return STEP_NON_FINITE;
       this.fsal = true;
     }
-    const k1 = this.k1, k2 = this.k2, k3 = this.k3, k4 = this.k4, k5 = this.k5, k6 = this.k6, k7 = this.k7;
-    const y = this.y, xNew = this.xNew;
+    const k1 = this.k1,
+      k2 = this.k2,
+      k3 = this.k3,
+      k4 = this.k4,
+      k5 = this.k5,
+      k6 = this.k6,
+      k7 = this.k7;
+    const y = this.y,
+      xNew = this.xNew;
     if (Number.isNaN(this.hNext)) this.hNext = this.hInit > 0 ? this.hInit : this.initialStep(tStop - this.t);
     let rejectedNow = false;
     let sawNonFinite = false;
@@ -318,9 +358,16 @@ export class DormandPrince implements Stepper {
 
   private prepareDense(): void {
     // After accept: k7 holds the step's first stage, k1 its last (f at the new point).
-    const n = this.n, h = this.hLast;
-    const y0 = this.xOld, y1 = this.x;
-    const f0 = this.k7, f1 = this.k1, k3 = this.k3, k4 = this.k4, k5 = this.k5, k6 = this.k6;
+    const n = this.n,
+      h = this.hLast;
+    const y0 = this.xOld,
+      y1 = this.x;
+    const f0 = this.k7,
+      f1 = this.k1,
+      k3 = this.k3,
+      k4 = this.k4,
+      k5 = this.k5,
+      k6 = this.k6;
     for (let i = 0; i < n; i++) {
       const d = y1[i]! - y0[i]!;
       const b = h * f0[i]! - d;

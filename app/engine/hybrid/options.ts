@@ -66,7 +66,18 @@ export interface ResolvedOptions {
   record: { every: RecordEvery; dt: number; store: boolean; onRecord?: RecordOptions['onRecord'] };
 }
 
-const TOP_KEYS = ['t0', 'tEnd', 'jMax', 'integrator', 'maxJumpsPerInstant', 'eventTimeTol', 'zenoWindow', 'eventScan', 'maxSteps', 'record'];
+const TOP_KEYS = [
+  't0',
+  'tEnd',
+  'jMax',
+  'integrator',
+  'maxJumpsPerInstant',
+  'eventTimeTol',
+  'zenoWindow',
+  'eventScan',
+  'maxSteps',
+  'record',
+];
 const RK4_KEYS = ['kind', 'dt'];
 const DP54_KEYS = ['kind', 'rtol', 'atol', 'hInit', 'hMin', 'hMax'];
 const RECORD_KEYS = ['every', 'dt', 'store', 'onRecord'];
@@ -79,7 +90,13 @@ function isObject(v: unknown): v is Record<string, unknown> {
 function unknownKeys(o: Record<string, unknown>, allowed: string[], path: string, out: Issue[]): void {
   for (const k of Object.keys(o)) {
     if (!allowed.includes(k)) {
-      out.push(issue(path ? `${path}.${k}` : k, 'unknown-option', `${path ? path + '.' : ''}${k} is not an option (allowed: ${allowed.join(', ')})`));
+      out.push(
+        issue(
+          path ? `${path}.${k}` : k,
+          'unknown-option',
+          `${path ? path + '.' : ''}${k} is not an option (allowed: ${allowed.join(', ')})`,
+        ),
+      );
     }
   }
 }
@@ -104,10 +121,17 @@ export function validateHybridOptions(opts: unknown, dim: number): Result<Resolv
   }
   const integ = opts.integrator;
   if (!isObject(integ)) {
-    e.push(issue('integrator', 'required', `integrator must be { kind: 'rk4', dt } or { kind: 'dp54', rtol, atol, ... } (got ${describe(integ)})`));
+    e.push(
+      issue(
+        'integrator',
+        'required',
+        `integrator must be { kind: 'rk4', dt } or { kind: 'dp54', rtol, atol, ... } (got ${describe(integ)})`,
+      ),
+    );
   } else if (integ.kind === 'rk4') {
     unknownKeys(integ, RK4_KEYS, 'integrator', e);
-    if (!finiteNum(integ.dt) || integ.dt <= 0) e.push(issue('integrator.dt', 'positive', `integrator.dt must be a finite number > 0 (got ${describe(integ.dt)})`));
+    if (!finiteNum(integ.dt) || integ.dt <= 0)
+      e.push(issue('integrator.dt', 'positive', `integrator.dt must be a finite number > 0 (got ${describe(integ.dt)})`));
   } else if (integ.kind === 'dp54') {
     unknownKeys(integ, DP54_KEYS, 'integrator', e);
     e.push(...validateDp54Options(integ, dim, 'integrator'));
@@ -115,16 +139,20 @@ export function validateHybridOptions(opts: unknown, dim: number): Result<Resolv
     e.push(issue('integrator.kind', 'one-of', `integrator.kind must be 'rk4' or 'dp54' (got ${describe(integ.kind)})`));
   }
   const mj = opts.maxJumpsPerInstant === undefined ? 50 : opts.maxJumpsPerInstant;
-  if (!Number.isInteger(mj) || (mj as number) < 1) e.push(issue('maxJumpsPerInstant', 'integer', `maxJumpsPerInstant must be an integer ≥ 1 (got ${describe(mj)})`));
+  if (!Number.isInteger(mj) || (mj as number) < 1)
+    e.push(issue('maxJumpsPerInstant', 'integer', `maxJumpsPerInstant must be an integer ≥ 1 (got ${describe(mj)})`));
   const scale = Math.max(1, finiteNum(t0) ? Math.abs(t0) : 1, finiteNum(tEnd) ? Math.abs(tEnd) : 1);
   const ett = opts.eventTimeTol === undefined ? 1e-12 * scale : opts.eventTimeTol;
-  if (!finiteNum(ett) || ett <= 0) e.push(issue('eventTimeTol', 'positive', `eventTimeTol must be a finite number > 0 (got ${describe(ett)})`));
+  if (!finiteNum(ett) || ett <= 0)
+    e.push(issue('eventTimeTol', 'positive', `eventTimeTol must be a finite number > 0 (got ${describe(ett)})`));
   const zw = opts.zenoWindow === undefined ? 1e4 * (finiteNum(ett) ? ett : 1e-12) : opts.zenoWindow;
   if (!finiteNum(zw) || zw <= 0) e.push(issue('zenoWindow', 'positive', `zenoWindow must be a finite number > 0 (got ${describe(zw)})`));
   const scan = opts.eventScan === undefined ? 0 : opts.eventScan;
-  if (!Number.isInteger(scan) || (scan as number) < 0 || (scan as number) > 64) e.push(issue('eventScan', 'integer', `eventScan must be an integer in [0, 64] (got ${describe(scan)})`));
+  if (!Number.isInteger(scan) || (scan as number) < 0 || (scan as number) > 64)
+    e.push(issue('eventScan', 'integer', `eventScan must be an integer in [0, 64] (got ${describe(scan)})`));
   const ms = opts.maxSteps === undefined ? 1e7 : opts.maxSteps;
-  if (!Number.isInteger(ms) || (ms as number) < 1) e.push(issue('maxSteps', 'integer', `maxSteps must be an integer ≥ 1 (got ${describe(ms)})`));
+  if (!Number.isInteger(ms) || (ms as number) < 1)
+    e.push(issue('maxSteps', 'integer', `maxSteps must be an integer ≥ 1 (got ${describe(ms)})`));
   let rec: ResolvedOptions['record'] = { every: 'step', dt: NaN, store: true };
   if (opts.record !== undefined) {
     const r = typeof opts.record === 'string' ? { every: opts.record } : opts.record;
@@ -132,16 +160,23 @@ export function validateHybridOptions(opts: unknown, dim: number): Result<Resolv
     else {
       unknownKeys(r, RECORD_KEYS, 'record', e);
       const every = r.every === undefined ? 'step' : r.every;
-      if (!RECORD_EVERY.includes(every as RecordEvery)) e.push(issue('record.every', 'one-of', `record.every must be one of ${RECORD_EVERY.join(', ')} (got ${describe(every)})`));
+      if (!RECORD_EVERY.includes(every as RecordEvery))
+        e.push(issue('record.every', 'one-of', `record.every must be one of ${RECORD_EVERY.join(', ')} (got ${describe(every)})`));
       const dt = r.dt;
       if (every === 'interval') {
-        if (!finiteNum(dt) || dt <= 0) e.push(issue('record.dt', 'positive', `record.dt must be a finite number > 0 when record.every is 'interval' (got ${describe(dt)})`));
+        if (!finiteNum(dt) || dt <= 0)
+          e.push(
+            issue('record.dt', 'positive', `record.dt must be a finite number > 0 when record.every is 'interval' (got ${describe(dt)})`),
+          );
       } else if (dt !== undefined) {
         e.push(issue('record.dt', 'unused', `record.dt is only used when record.every is 'interval'`));
       }
-      if (r.store !== undefined && typeof r.store !== 'boolean') e.push(issue('record.store', 'boolean', 'record.store must be true or false'));
-      if (r.onRecord !== undefined && typeof r.onRecord !== 'function') e.push(issue('record.onRecord', 'function', 'record.onRecord must be a function'));
-      if (r.store === false && r.onRecord === undefined) e.push(issue('record.store', 'pointless', 'record.store is false but no record.onRecord is given: nothing would be recorded'));
+      if (r.store !== undefined && typeof r.store !== 'boolean')
+        e.push(issue('record.store', 'boolean', 'record.store must be true or false'));
+      if (r.onRecord !== undefined && typeof r.onRecord !== 'function')
+        e.push(issue('record.onRecord', 'function', 'record.onRecord must be a function'));
+      if (r.store === false && r.onRecord === undefined)
+        e.push(issue('record.store', 'pointless', 'record.store is false but no record.onRecord is given: nothing would be recorded'));
       rec = {
         every: every as RecordEvery,
         dt: typeof dt === 'number' ? dt : NaN,
@@ -152,9 +187,16 @@ export function validateHybridOptions(opts: unknown, dim: number): Result<Resolv
   }
   if (e.length) return fail(e);
   return ok({
-    t0: t0 as number, tEnd: tEnd as number, jMax: jMax as number, integrator: integ as unknown as IntegratorOptions,
-    maxJumpsPerInstant: mj as number, eventTimeTol: ett as number, zenoWindow: zw as number,
-    eventScan: scan as number, maxSteps: ms as number, record: rec,
+    t0: t0 as number,
+    tEnd: tEnd as number,
+    jMax: jMax as number,
+    integrator: integ as unknown as IntegratorOptions,
+    maxJumpsPerInstant: mj as number,
+    eventTimeTol: ett as number,
+    zenoWindow: zw as number,
+    eventScan: scan as number,
+    maxSteps: ms as number,
+    record: rec,
   });
 }
 
@@ -168,9 +210,11 @@ export function validateHybridSystem(sys: unknown, x0: unknown): Issue[] {
   if (typeof s.flow !== 'function') e.push(issue('system.flow', 'function', 'system.flow must be a function'));
   if (typeof s.jump !== 'function') e.push(issue('system.jump', 'function', 'system.jump must be a function'));
   for (const k of ['jumpGuard', 'inFlowSet', 'nextScheduledJump', 'project', 'stop'] as const) {
-    if (s[k] !== undefined && typeof s[k] !== 'function') e.push(issue(`system.${k}`, 'function', `system.${k} must be a function when given`));
+    if (s[k] !== undefined && typeof s[k] !== 'function')
+      e.push(issue(`system.${k}`, 'function', `system.${k} must be a function when given`));
   }
-  if (s.both !== undefined && s.both !== 'jump' && s.both !== 'flow') e.push(issue('system.both', 'one-of', `system.both must be 'jump' or 'flow' (got ${describe(s.both)})`));
+  if (s.both !== undefined && s.both !== 'jump' && s.both !== 'flow')
+    e.push(issue('system.both', 'one-of', `system.both must be 'jump' or 'flow' (got ${describe(s.both)})`));
   if (!(Array.isArray(x0) || ArrayBuffer.isView(x0))) {
     e.push(issue('x0', 'shape', `x0 must be an array of ${dimOk ? s.dim : 'dim'} numbers (got ${describe(x0)})`));
     return e;
@@ -179,7 +223,8 @@ export function validateHybridSystem(sys: unknown, x0: unknown): Issue[] {
   if (dimOk && xa.length !== s.dim) e.push(issue('x0', 'shape', `x0 must have system.dim = ${s.dim} entries (got ${xa.length})`));
   for (let i = 0; i < xa.length; i++) {
     const v = xa[i];
-    if (typeof v !== 'number' || !Number.isFinite(v)) e.push(issue(`x0[${i}]`, 'finite', `x0[${i}] must be a finite number (got ${describe(v)})`));
+    if (typeof v !== 'number' || !Number.isFinite(v))
+      e.push(issue(`x0[${i}]`, 'finite', `x0[${i}] must be a finite number (got ${describe(v)})`));
   }
   return e;
 }

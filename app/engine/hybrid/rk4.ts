@@ -21,8 +21,11 @@ export interface Rk4Work {
 
 export function makeRk4Work(n: number): Rk4Work {
   return {
-    k1: new Float64Array(n), k2: new Float64Array(n), k3: new Float64Array(n),
-    k4: new Float64Array(n), tmp: new Float64Array(n),
+    k1: new Float64Array(n),
+    k2: new Float64Array(n),
+    k3: new Float64Array(n),
+    k4: new Float64Array(n),
+    tmp: new Float64Array(n),
   };
 }
 
@@ -30,9 +33,7 @@ export function makeRk4Work(n: number): Rk4Work {
  * out = one RK4 step of length h from (t, x). `work.k1` must hold f(t, x) when `k1Known`;
  * otherwise it is evaluated (and left there). `out` must not alias `x`. Returns out.
  */
-export function rk4Step(
-  out: Float64Array, f: FlowFn, t: number, x: Float64Array, h: number, work: Rk4Work, k1Known = false,
-): Float64Array {
+export function rk4Step(out: Float64Array, f: FlowFn, t: number, x: Float64Array, h: number, work: Rk4Work, k1Known = false): Float64Array {
   const n = x.length;
   const { k1, k2, k3, k4, tmp } = work;
   if (!k1Known) f(t, x, k1);
@@ -53,10 +54,16 @@ export function rk4Step(
  * and end derivatives f0, f1 (per component). Exact for cubics.
  */
 export function hermiteInterpolate(
-  out: Float64Array, theta: number, h: number,
-  x0: ArrayLike<number>, f0: ArrayLike<number>, x1: ArrayLike<number>, f1: ArrayLike<number>,
+  out: Float64Array,
+  theta: number,
+  h: number,
+  x0: ArrayLike<number>,
+  f0: ArrayLike<number>,
+  x1: ArrayLike<number>,
+  f1: ArrayLike<number>,
 ): Float64Array {
-  const t2 = theta * theta, t3 = t2 * theta;
+  const t2 = theta * theta,
+    t3 = t2 * theta;
   const a0 = 2 * t3 - 3 * t2 + 1;
   const b0 = (t3 - 2 * t2 + theta) * h;
   const a1 = -2 * t3 + 3 * t2;

@@ -22,12 +22,20 @@ export interface RootResult {
 const res: RootResult = { t: NaN, g: NaN, iterations: 0 };
 
 export function locateCrossing(
-  g: (t: number) => number, a: number, ga: number, b: number, gb: number, tol: number, maxIter = 200,
+  g: (t: number) => number,
+  a: number,
+  ga: number,
+  b: number,
+  gb: number,
+  tol: number,
+  maxIter = 200,
 ): RootResult {
   let iter = 0;
   let side = 0;
   // Bracket widths 1, 2 and 3 iterations back: bisect when three iterations did not halve it.
-  let w1 = Infinity, w2 = Infinity, w3 = Infinity;
+  let w1 = Infinity,
+    w2 = Infinity,
+    w3 = Infinity;
   const half = 0.5 * tol;
   while (b - a > tol && iter < maxIter) {
     const width = b - a;
@@ -74,7 +82,13 @@ export function locateCrossing(
  * Bisection for the first time a predicate turns false: `holds(a)` is true, `holds(b)` false;
  * returns a time t with holds(t) false and a true point within tol before it.
  */
-export function locateExit(holds: (t: number) => boolean, a: number, b: number, tol: number, maxIter = 200): { t: number; iterations: number } {
+export function locateExit(
+  holds: (t: number) => boolean,
+  a: number,
+  b: number,
+  tol: number,
+  maxIter = 200,
+): { t: number; iterations: number } {
   let iter = 0;
   while (b - a > tol && iter < maxIter) {
     const c = a + 0.5 * (b - a);

@@ -30,14 +30,13 @@
  */
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
-import type { JumpEvent } from '../sim/types';
 import { ArcBuffer } from './arc';
 import { DormandPrince } from './dp54';
 import type { HybridOptions } from './options';
 import { validateHybridOptions, validateHybridSystem } from './options';
 import { Rk4Stepper } from './rk4';
 import { locateCrossing, locateExit } from './roots';
-import type { HybridArc, HybridStatus, HybridSystem, JumpCause, Stepper } from './types';
+import type { HybridArc, HybridStatus, HybridSystem, JumpCause, JumpEvent, Stepper } from './types';
 import { STEP_NON_FINITE, STEP_OK, STEP_UNDERFLOW } from './types';
 
 function allFinite(x: Float64Array): boolean {
@@ -57,9 +56,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
   const o = optR.value;
   const n = sys.dim;
   const integ = o.integrator;
-  const stepper: Stepper = integ.kind === 'rk4'
-    ? new Rk4Stepper(n, sys.flow, integ.dt)
-    : new DormandPrince(n, sys.flow, integ);
+  const stepper: Stepper = integ.kind === 'rk4' ? new Rk4Stepper(n, sys.flow, integ.dt) : new DormandPrince(n, sys.flow, integ);
   const rk4 = stepper instanceof Rk4Stepper ? stepper : null;
 
   const hasGuard = typeof sys.jumpGuard === 'function';
@@ -77,8 +74,11 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
   let xPlus: Float64Array = new Float64Array(n);
   const scratch = new Float64Array(n);
   const ring = new Float64Array(o.maxJumpsPerInstant);
-  let ringCount = 0, ringIdx = 0;
-  let rootIterations = 0, jumps = 0, silentJumps = 0;
+  let ringCount = 0,
+    ringIdx = 0;
+  let rootIterations = 0,
+    jumps = 0,
+    silentJumps = 0;
 
   let t = o.t0;
   let j = 0;
@@ -97,8 +97,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
     status = s;
     message = m;
   };
-  const inC = (tq: number, xq: Float64Array, gq: number): boolean =>
-    hasFlowSet ? sys.inFlowSet!(tq, xq) : hasGuard ? gq <= 0 : true;
+  const inC = (tq: number, xq: Float64Array, gq: number): boolean => (hasFlowSet ? sys.inFlowSet!(tq, xq) : hasGuard ? gq <= 0 : true);
   const guardAt = (tq: number): number => {
     rootIterations++;
     return sys.jumpGuard!(tq, stepper.dense(scratch, tq));
@@ -128,8 +127,11 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       if (cause === null) break;
       const M = o.maxJumpsPerInstant;
       if (ringCount >= M && t - ring[ringIdx]! <= o.zenoWindow) {
-        stop('zeno', `more than ${M} jumps within ${fmt(o.zenoWindow)} s up to t = ${fmt(t)} s (j = ${j}): ` +
-          `Zeno-like accumulation of jumps; the run stops here`);
+        stop(
+          'zeno',
+          `more than ${M} jumps within ${fmt(o.zenoWindow)} s up to t = ${fmt(t)} s (j = ${j}): ` +
+            `Zeno-like accumulation of jumps; the run stops here`,
+        );
         break outer;
       }
       ring[ringIdx] = t;
@@ -139,8 +141,11 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       for (let i = 0; i < n; i++) xPlus[i] = x[i]!;
       const r = sys.jump(t, x, xPlus, cause);
       if (!allFinite(xPlus)) {
-        stop('non-finite', `the jump map (${cause}) gave a non-finite state at t = ${fmt(t)} s (j = ${j}); ` +
-          `the arc ends at the last finite state, before that jump`);
+        stop(
+          'non-finite',
+          `the jump map (${cause}) gave a non-finite state at t = ${fmt(t)} s (j = ${j}); ` +
+            `the arc ends at the last finite state, before that jump`,
+        );
         break outer;
       }
       jumps++;
@@ -174,7 +179,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
           break outer;
         }
       }
-      if ((hasStop && sys.stop!() === true)) {
+      if (hasStop && sys.stop!() === true) {
         stop('cancelled', `the system asked to stop after the jump at t = ${fmt(t)} s (j = ${j})`);
         break outer;
       }
@@ -189,8 +194,11 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
     }
     // ---- 2. can the solution flow?
     if ((hasFlowSet || g > 0) && !inC(t, stepper.x, g)) {
-      stop('blocked', `the state left the flow set at t = ${fmt(t)} s (j = ${j}) without a jump being possible ` +
-        `(${hasGuard && g >= 0 ? 'the jump map declined' : 'not in the jump set'}); the solution ends here`);
+      stop(
+        'blocked',
+        `the state left the flow set at t = ${fmt(t)} s (j = ${j}) without a jump being possible ` +
+          `(${hasGuard && g >= 0 ? 'the jump map declined' : 'not in the jump set'}); the solution ends here`,
+      );
       break;
     }
     // ---- 3. flow
@@ -205,26 +213,32 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       t = stepper.t;
       recordedCurrent = false;
       if (res.status !== STEP_OK) {
-        stop('non-finite', `the flow gave a non-finite state in the RK4 step from t = ${fmt(t)} s (j = ${j}); ` +
-          `the arc ends at the last finite state`);
+        stop(
+          'non-finite',
+          `the flow gave a non-finite state in the RK4 step from t = ${fmt(t)} s (j = ${j}); ` + `the arc ends at the last finite state`,
+        );
         break;
       }
       if (t < tStop) {
         stop('max-steps', `used maxSteps = ${o.maxSteps} step attempts by t = ${fmt(t)} s (j = ${j})`);
         break;
       }
-      if ((hasStop && sys.stop!() === true)) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
+      if (hasStop && sys.stop!() === true) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
       continue;
     }
     const tPrev = stepper.t;
     const st = stepper.advance(tStop);
     if (st !== STEP_OK) {
       if (st === STEP_UNDERFLOW) {
-        stop('step-underflow', `the step size the error control asks for fell below the minimum at t = ${fmt(t)} s ` +
-          `(j = ${j}); the arc ends there`);
+        stop(
+          'step-underflow',
+          `the step size the error control asks for fell below the minimum at t = ${fmt(t)} s ` + `(j = ${j}); the arc ends there`,
+        );
       } else if (st === STEP_NON_FINITE) {
-        stop('non-finite', `the flow map gave a non-finite value in the step from t = ${fmt(t)} s (j = ${j}); ` +
-          `the arc ends at the last finite state`);
+        stop(
+          'non-finite',
+          `the flow map gave a non-finite value in the step from t = ${fmt(t)} s (j = ${j}); ` + `the arc ends at the last finite state`,
+        );
       }
       break;
     }
@@ -242,7 +256,10 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
         break;
       }
       if (armed && g < 0) {
-        let a = tPrev, ga = g, b = NaN, gb = NaN;
+        let a = tPrev,
+          ga = g,
+          b = NaN,
+          gb = NaN;
         for (let s = 1; s <= o.eventScan; s++) {
           const ts = tPrev + (s / (o.eventScan + 1)) * (tNew - tPrev);
           const gs = guardAt(ts);
@@ -302,7 +319,7 @@ export function simulateHybrid(sys: HybridSystem, x0: ArrayLike<number>, options
       if (g < 0) armed = true;
     }
     if (recordEnd) record(t, j, stepper.x, true);
-    if ((hasStop && sys.stop!() === true)) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
+    if (hasStop && sys.stop!() === true) stop('cancelled', `the system asked to stop at t = ${fmt(t)} s (j = ${j})`);
   }
 
   if (status === null) stop('cancelled', `onRecord asked to stop at t = ${fmt(t)} s (j = ${j})`);

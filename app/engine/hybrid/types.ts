@@ -6,7 +6,6 @@
  * Modeling, Stability, and Robustness", Princeton University Press, 2012: flow ẋ = F(x) on the
  * flow set C, jump x⁺ = G(x) from the jump set D, solutions on hybrid time (t, j).
  */
-import type { JumpEvent, RunStatus } from '../sim/types';
 
 /** Flow map: write ẋ = F(t, x) into `dxdt`. Must not keep or modify `x`. */
 export type FlowFn = (t: number, x: Float64Array, dxdt: Float64Array) => void;
@@ -67,8 +66,24 @@ export interface HybridSystem {
   stop?(): boolean;
 }
 
-/** Adds 'blocked' (x left C ∪ D: the maximal solution ends there) to the run statuses. */
-export type HybridStatus = RunStatus | 'blocked';
+/** How a hybrid solution ended; 'blocked': x left C ∪ D and no jump was possible (the maximal solution ends there). */
+export type HybridStatus = 'completed' | 'zeno' | 'step-underflow' | 'non-finite' | 'max-steps' | 'cancelled' | 'blocked';
+
+/** One reported jump of a hybrid arc (the closed loop reports logic jumps with these). */
+export interface JumpEvent {
+  t: number;
+  /** Jump counter after the jump. */
+  j: number;
+  /** What jumped: 'logic' (controller logic variable), 'sample' is not recorded as an event. */
+  what: string;
+  from: number;
+  to: number;
+  /** Why, e.g. `h·η = -0.41 ≤ -δ` or `synergy gap 0.31 ≥ δ = 0.2`. */
+  why: string;
+  /** Lyapunov value W just before and just after the jump, at the same instant (when known). */
+  lyapunovBefore?: number;
+  lyapunovAfter?: number;
+}
 
 export interface HybridOutcome {
   status: HybridStatus;

@@ -53,8 +53,12 @@ export function m3Diag(d0: number, d1: number, d2: number, out: Mat3 = m3Create(
 }
 
 export function m3Transpose(out: Mat3, a: ArrayLike<number>): Mat3 {
-  const a01 = a[1]!, a02 = a[2]!, a12 = a[5]!;
-  const a10 = a[3]!, a20 = a[6]!, a21 = a[7]!;
+  const a01 = a[1]!,
+    a02 = a[2]!,
+    a12 = a[5]!;
+  const a10 = a[3]!,
+    a20 = a[6]!,
+    a21 = a[7]!;
   out[0] = a[0]!;
   out[4] = a[4]!;
   out[8] = a[8]!;
@@ -68,8 +72,24 @@ export function m3Transpose(out: Mat3, a: ArrayLike<number>): Mat3 {
 }
 
 export function m3Multiply(out: Mat3, a: ArrayLike<number>, b: ArrayLike<number>): Mat3 {
-  const a00 = a[0]!, a10 = a[1]!, a20 = a[2]!, a01 = a[3]!, a11 = a[4]!, a21 = a[5]!, a02 = a[6]!, a12 = a[7]!, a22 = a[8]!;
-  const b00 = b[0]!, b10 = b[1]!, b20 = b[2]!, b01 = b[3]!, b11 = b[4]!, b21 = b[5]!, b02 = b[6]!, b12 = b[7]!, b22 = b[8]!;
+  const a00 = a[0]!,
+    a10 = a[1]!,
+    a20 = a[2]!,
+    a01 = a[3]!,
+    a11 = a[4]!,
+    a21 = a[5]!,
+    a02 = a[6]!,
+    a12 = a[7]!,
+    a22 = a[8]!;
+  const b00 = b[0]!,
+    b10 = b[1]!,
+    b20 = b[2]!,
+    b01 = b[3]!,
+    b11 = b[4]!,
+    b21 = b[5]!,
+    b02 = b[6]!,
+    b12 = b[7]!,
+    b22 = b[8]!;
   out[0] = a00 * b00 + a01 * b10 + a02 * b20;
   out[1] = a10 * b00 + a11 * b10 + a12 * b20;
   out[2] = a20 * b00 + a21 * b10 + a22 * b20;
@@ -84,7 +104,9 @@ export function m3Multiply(out: Mat3, a: ArrayLike<number>, b: ArrayLike<number>
 
 /** out = M v. */
 export function m3MulVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
-  const x = v[0]!, y = v[1]!, z = v[2]!;
+  const x = v[0]!,
+    y = v[1]!,
+    z = v[2]!;
   out[0] = m[0]! * x + m[3]! * y + m[6]! * z;
   out[1] = m[1]! * x + m[4]! * y + m[7]! * z;
   out[2] = m[2]! * x + m[5]! * y + m[8]! * z;
@@ -93,7 +115,9 @@ export function m3MulVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<number>):
 
 /** out = Mᵀ v. */
 export function m3MulTransposeVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
-  const x = v[0]!, y = v[1]!, z = v[2]!;
+  const x = v[0]!,
+    y = v[1]!,
+    z = v[2]!;
   out[0] = m[0]! * x + m[1]! * y + m[2]! * z;
   out[1] = m[3]! * x + m[4]! * y + m[5]! * z;
   out[2] = m[6]! * x + m[7]! * y + m[8]! * z;
@@ -101,7 +125,15 @@ export function m3MulTransposeVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<
 }
 
 export function m3Determinant(a: ArrayLike<number>): number {
-  const a00 = a[0]!, a10 = a[1]!, a20 = a[2]!, a01 = a[3]!, a11 = a[4]!, a21 = a[5]!, a02 = a[6]!, a12 = a[7]!, a22 = a[8]!;
+  const a00 = a[0]!,
+    a10 = a[1]!,
+    a20 = a[2]!,
+    a01 = a[3]!,
+    a11 = a[4]!,
+    a21 = a[5]!,
+    a02 = a[6]!,
+    a12 = a[7]!,
+    a22 = a[8]!;
   return a00 * (a11 * a22 - a12 * a21) - a01 * (a10 * a22 - a12 * a20) + a02 * (a10 * a21 - a11 * a20);
 }
 
@@ -110,7 +142,15 @@ export function m3Determinant(a: ArrayLike<number>): number {
  * `tiny` times the cube of the largest entry — never a silent null or Infinity.
  */
 export function m3Invert(out: Mat3, a: ArrayLike<number>, tiny = 1e-14): boolean {
-  const a00 = a[0]!, a10 = a[1]!, a20 = a[2]!, a01 = a[3]!, a11 = a[4]!, a21 = a[5]!, a02 = a[6]!, a12 = a[7]!, a22 = a[8]!;
+  const a00 = a[0]!,
+    a10 = a[1]!,
+    a20 = a[2]!,
+    a01 = a[3]!,
+    a11 = a[4]!,
+    a21 = a[5]!,
+    a02 = a[6]!,
+    a12 = a[7]!,
+    a22 = a[8]!;
   const c00 = a11 * a22 - a12 * a21;
   const c01 = -(a10 * a22 - a12 * a20);
   const c02 = a10 * a21 - a11 * a20;
@@ -134,7 +174,9 @@ export function m3Invert(out: Mat3, a: ArrayLike<number>, tiny = 1e-14): boolean
 
 /** Skew (hat) matrix: hat(a) b = a × b. */
 export function m3Hat(out: Mat3, a: ArrayLike<number>): Mat3 {
-  const x = a[0]!, y = a[1]!, z = a[2]!;
+  const x = a[0]!,
+    y = a[1]!,
+    z = a[2]!;
   out[0] = 0;
   out[1] = z;
   out[2] = -y;
@@ -164,7 +206,12 @@ export function m3Trace(m: ArrayLike<number>): number {
 }
 
 export function v3Cross(out: Vec3, a: ArrayLike<number>, b: ArrayLike<number>): Vec3 {
-  const ax = a[0]!, ay = a[1]!, az = a[2]!, bx = b[0]!, by = b[1]!, bz = b[2]!;
+  const ax = a[0]!,
+    ay = a[1]!,
+    az = a[2]!,
+    bx = b[0]!,
+    by = b[1]!,
+    bz = b[2]!;
   out[0] = ay * bz - az * by;
   out[1] = az * bx - ax * bz;
   out[2] = ax * by - ay * bx;
@@ -226,17 +273,20 @@ export function symmetricEigen3(
         const c = 1 / Math.sqrt(t * t + 1);
         const s = t * c;
         for (let k = 0; k < 3; k++) {
-          const akp = A[k]![p]!, akq = A[k]![q]!;
+          const akp = A[k]![p]!,
+            akq = A[k]![q]!;
           A[k]![p] = c * akp - s * akq;
           A[k]![q] = s * akp + c * akq;
         }
         for (let k = 0; k < 3; k++) {
-          const apk = A[p]![k]!, aqk = A[q]![k]!;
+          const apk = A[p]![k]!,
+            aqk = A[q]![k]!;
           A[p]![k] = c * apk - s * aqk;
           A[q]![k] = s * apk + c * aqk;
         }
         for (let k = 0; k < 3; k++) {
-          const vkp = V[k]![p]!, vkq = V[k]![q]!;
+          const vkp = V[k]![p]!,
+            vkq = V[k]![q]!;
           V[k]![p] = c * vkp - s * vkq;
           V[k]![q] = s * vkp + c * vkq;
         }

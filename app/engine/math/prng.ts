@@ -49,7 +49,10 @@ export class Xoshiro128 implements Rng {
 
   nextUint32(): number {
     const s = this.s;
-    const a = s[0]!, b = s[1]!, c = s[2]!, d = s[3]!;
+    const a = s[0]!,
+      b = s[1]!,
+      c = s[2]!,
+      d = s[3]!;
     const result = Math.imul(rotl(Math.imul(b, 5) >>> 0, 7), 9) >>> 0;
     const t = (b << 9) >>> 0;
     const c1 = (c ^ a) >>> 0;

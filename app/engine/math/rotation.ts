@@ -59,8 +59,14 @@ export function qMultiply(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>)
 
 /** out = a* ⊗ b (the relative rotation from a to b), without a temporary. */
 export function qConjMultiply(out: Quat, a: ArrayLike<number>, b: ArrayLike<number>): Quat {
-  const ax = -a[0]!, ay = -a[1]!, az = -a[2]!, aw = a[3]!;
-  const bx = b[0]!, by = b[1]!, bz = b[2]!, bw = b[3]!;
+  const ax = -a[0]!,
+    ay = -a[1]!,
+    az = -a[2]!,
+    aw = a[3]!;
+  const bx = b[0]!,
+    by = b[1]!,
+    bz = b[2]!,
+    bw = b[3]!;
   out[0] = ax * bw + aw * bx + ay * bz - az * by;
   out[1] = ay * bw + aw * by + az * bx - ax * bz;
   out[2] = az * bw + aw * bz + ax * by - ay * bx;
@@ -108,8 +114,13 @@ export function qRotate(out: Vec3, q: ArrayLike<number>, v: ArrayLike<number>): 
 
 /** Inverse rotation: out = q* ⊗ v ⊗ q (inertial → body for an attitude quaternion). */
 export function qRotateInverse(out: Vec3, q: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
-  const x = -q[0]!, y = -q[1]!, z = -q[2]!, w = q[3]!;
-  const vx = v[0]!, vy = v[1]!, vz = v[2]!;
+  const x = -q[0]!,
+    y = -q[1]!,
+    z = -q[2]!,
+    w = q[3]!;
+  const vx = v[0]!,
+    vy = v[1]!,
+    vz = v[2]!;
   // t = 2 (q_v × v); out = v + w t + q_v × t  (with q_v of the conjugate)
   const tx = 2 * (y * vz - z * vy);
   const ty = 2 * (z * vx - x * vz);
@@ -130,8 +141,15 @@ export function qToMat3(out: Mat3, q: ArrayLike<number>): Mat3 {
  * Shepperd, JGCD 1(3), 1978), sign chosen with w ≥ 0. The input should be orthonormal.
  */
 export function qFromMat3(out: Quat, m: ArrayLike<number>): Quat {
-  const r00 = m[0]!, r11 = m[4]!, r22 = m[8]!;
-  const r10 = m[1]!, r20 = m[2]!, r01 = m[3]!, r21 = m[5]!, r02 = m[6]!, r12 = m[7]!;
+  const r00 = m[0]!,
+    r11 = m[4]!,
+    r22 = m[8]!;
+  const r10 = m[1]!,
+    r20 = m[2]!,
+    r01 = m[3]!,
+    r21 = m[5]!,
+    r02 = m[6]!,
+    r12 = m[7]!;
   const tr = r00 + r11 + r22;
   let x: number, y: number, z: number, w: number;
   if (tr >= r00 && tr >= r11 && tr >= r22) {
@@ -186,7 +204,10 @@ export function qFromAxisAngle(out: Quat, axis: ArrayLike<number>, angleRad: num
  */
 export function qToAxisAngle(axisOut: Vec3, q: ArrayLike<number>): number {
   const sgn = q[3]! < 0 ? -1 : 1;
-  const x = q[0]! * sgn, y = q[1]! * sgn, z = q[2]! * sgn, w = q[3]! * sgn;
+  const x = q[0]! * sgn,
+    y = q[1]! * sgn,
+    z = q[2]! * sgn,
+    w = q[3]! * sgn;
   const s = Math.hypot(x, y, z);
   if (s < 1e-300) {
     axisOut[0] = 1;
@@ -221,7 +242,9 @@ export function qError(out: Quat, qDesired: ArrayLike<number>, q: ArrayLike<numb
 
 /** Exponential map: q = exp(½ φ) for a rotation vector φ (rad): axis φ/|φ|, angle |φ|. */
 export function qFromRotationVector(out: Quat, phi: ArrayLike<number>): Quat {
-  const x = phi[0]!, y = phi[1]!, z = phi[2]!;
+  const x = phi[0]!,
+    y = phi[1]!,
+    z = phi[2]!;
   const th = Math.hypot(x, y, z);
   const half = 0.5 * th;
   // sin(θ/2)/θ with a series near zero.
@@ -236,7 +259,10 @@ export function qFromRotationVector(out: Quat, phi: ArrayLike<number>): Quat {
 /** Logarithm map: rotation vector of q (shortest, |φ| ≤ π). */
 export function qToRotationVector(out: Vec3, q: ArrayLike<number>): Vec3 {
   const sgn = q[3]! < 0 ? -1 : 1;
-  const x = q[0]! * sgn, y = q[1]! * sgn, z = q[2]! * sgn, w = q[3]! * sgn;
+  const x = q[0]! * sgn,
+    y = q[1]! * sgn,
+    z = q[2]! * sgn,
+    w = q[3]! * sgn;
   const s = Math.hypot(x, y, z);
   const th = 2 * Math.atan2(s, w);
   const k = s < 1e-12 ? 2 / Math.max(w, 1e-300) : th / s;
@@ -282,8 +308,11 @@ export function qSameHemisphere(out: Quat, a: ArrayLike<number>, b: ArrayLike<nu
  * q = (√(1−u1) sin 2πu2, √(1−u1) cos 2πu2, √u1 sin 2πu3, √u1 cos 2πu3) as [x, y, z, w].
  */
 export function qRandomUniform(out: Quat, rng: Rng): Quat {
-  const u1 = rng.next(), u2 = rng.next(), u3 = rng.next();
-  const a = Math.sqrt(1 - u1), b = Math.sqrt(u1);
+  const u1 = rng.next(),
+    u2 = rng.next(),
+    u3 = rng.next();
+  const a = Math.sqrt(1 - u1),
+    b = Math.sqrt(u1);
   out[0] = a * Math.sin(2 * Math.PI * u2);
   out[1] = a * Math.cos(2 * Math.PI * u2);
   out[2] = b * Math.sin(2 * Math.PI * u3);
@@ -295,8 +324,18 @@ export function qRandomUniform(out: Quat, rng: Rng): Quat {
 // Euler sequences (intrinsic; all 12)
 
 export const EULER_SEQUENCES = [
-  'XYZ', 'XZY', 'YXZ', 'YZX', 'ZXY', 'ZYX', // Tait–Bryan
-  'XYX', 'XZX', 'YXY', 'YZY', 'ZXZ', 'ZYZ', // proper Euler
+  'XYZ',
+  'XZY',
+  'YXZ',
+  'YZX',
+  'ZXY',
+  'ZYX', // Tait–Bryan
+  'XYX',
+  'XZX',
+  'YXY',
+  'YZY',
+  'ZXZ',
+  'ZYZ', // proper Euler
 ] as const;
 export type EulerSequence = (typeof EULER_SEQUENCES)[number];
 
@@ -327,7 +366,7 @@ export function qFromEuler(out: Quat, seq: EulerSequence, a1: number, a2: number
 
 /** Levi-Civita symbol ε_ijk for distinct 0-based indices. */
 function levi(i: number, j: number, k: number): number {
-  return (i - j) * (j - k) * (k - i) / 2;
+  return ((i - j) * (j - k) * (k - i)) / 2;
 }
 
 /**
@@ -340,7 +379,9 @@ function levi(i: number, j: number, k: number): number {
 export function qToEuler(out: Vec3, seq: EulerSequence, q: ArrayLike<number>): Vec3 {
   const m = qToMat3(m3Create(), q);
   const R = (r: number, c: number) => m[3 * c + r]!;
-  const i = axisIndex(seq[0]!), j = axisIndex(seq[1]!), k = axisIndex(seq[2]!);
+  const i = axisIndex(seq[0]!),
+    j = axisIndex(seq[1]!),
+    k = axisIndex(seq[2]!);
   let a: number, b: number, c: number;
   if (i !== k) {
     const eps = levi(i, j, k);
@@ -404,7 +445,9 @@ function triad(p: ArrayLike<number>, s: ArrayLike<number>, tol: number): number[
   const ns = Math.hypot(s[0]!, s[1]!, s[2]!);
   if (!(np > 0) || !(ns > 0)) return null;
   const t1 = [p[0]! / np, p[1]! / np, p[2]! / np];
-  const sx = s[0]! / ns, sy = s[1]! / ns, sz = s[2]! / ns;
+  const sx = s[0]! / ns,
+    sy = s[1]! / ns,
+    sz = s[2]! / ns;
   const c = [t1[1]! * sz - t1[2]! * sy, t1[2]! * sx - t1[0]! * sz, t1[0]! * sy - t1[1]! * sx];
   const nc = Math.hypot(c[0]!, c[1]!, c[2]!);
   if (nc < tol) return null;
@@ -417,9 +460,19 @@ function triad(p: ArrayLike<number>, s: ArrayLike<number>, tol: number): number[
  * Quaternion kinematics: out = ½ q ⊗ (ω, 0), ω in body axes (methods §1.1). Written out so the
  * integrator's inner loop does not allocate.
  */
-export function qDerivative(out: ArrayLike<number> & { [i: number]: number }, q: ArrayLike<number>, w: ArrayLike<number>, offset = 0): void {
-  const x = q[0]!, y = q[1]!, z = q[2]!, s = q[3]!;
-  const wx = w[0]!, wy = w[1]!, wz = w[2]!;
+export function qDerivative(
+  out: ArrayLike<number> & { [i: number]: number },
+  q: ArrayLike<number>,
+  w: ArrayLike<number>,
+  offset = 0,
+): void {
+  const x = q[0]!,
+    y = q[1]!,
+    z = q[2]!,
+    s = q[3]!;
+  const wx = w[0]!,
+    wy = w[1]!,
+    wz = w[2]!;
   out[offset] = 0.5 * (s * wx + y * wz - z * wy);
   out[offset + 1] = 0.5 * (s * wy + z * wx - x * wz);
   out[offset + 2] = 0.5 * (s * wz + x * wy - y * wx);

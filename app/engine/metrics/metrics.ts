@@ -61,9 +61,20 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   const t = trace.t;
   if (n === 0) {
     return {
-      settleTimeS: null, settled: false, rotationTravelledRad: 0, shortestRotationRad: 0, unwound: false, jumps: 0,
-      chatterPerS: 0, torqueReversals: 0, peakWheelTorqueFraction: 0, peakWheelMomentumFraction: 0,
-      controlEffortNms: 0, finalErrorRad: 0, finalRateErrorRadPerS: 0, segments: [],
+      settleTimeS: null,
+      settled: false,
+      rotationTravelledRad: 0,
+      shortestRotationRad: 0,
+      unwound: false,
+      jumps: 0,
+      chatterPerS: 0,
+      torqueReversals: 0,
+      peakWheelTorqueFraction: 0,
+      peakWheelMomentumFraction: 0,
+      controlEffortNms: 0,
+      finalErrorRad: 0,
+      finalRateErrorRadPerS: 0,
+      segments: [],
     };
   }
 
@@ -71,10 +82,13 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   // of body components, which equals the body-frame rate error when the attitude error is small
   // (where settling is judged). (Math.sqrt of a sum rather than Math.hypot: hypot is not inlined
   // and returns a boxed number per call.)
-  const w = trace.omega, wr = trace.omegaRef;
+  const w = trace.omega,
+    wr = trace.omegaRef;
   const rateErr = new Float64Array(n);
   for (let k = 0; k < n; k++) {
-    const dx = w[3 * k]! - wr[3 * k]!, dy = w[3 * k + 1]! - wr[3 * k + 1]!, dz = w[3 * k + 2]! - wr[3 * k + 2]!;
+    const dx = w[3 * k]! - wr[3 * k]!,
+      dy = w[3 * k + 1]! - wr[3 * k + 1]!,
+      dz = w[3 * k + 2]! - wr[3 * k + 2]!;
     rateErr[k] = Math.sqrt(dx * dx + dy * dy + dz * dz);
   }
 
@@ -100,13 +114,22 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
       qTgt[i] = o.segmentTargets[4 * s + i] ?? 0;
     }
     const shortest = qAngleBetween(qStart, qTgt);
-    segments.push({ segment: s, tStart: t[k0]!, tEnd: t[kEnd]!, shortestRad: shortest, travelledRad: travelled, unwound: travelled - shortest > Math.PI });
+    segments.push({
+      segment: s,
+      tStart: t[k0]!,
+      tEnd: t[kEnd]!,
+      shortestRad: shortest,
+      travelledRad: travelled,
+      unwound: travelled - shortest > Math.PI,
+    });
   };
   let k0 = 0;
   let travelled = 0;
   let wPrev = Math.sqrt(w[0]! * w[0]! + w[1]! * w[1]! + w[2]! * w[2]!);
   for (let k = 1; k < n; k++) {
-    const wx = w[3 * k]!, wy = w[3 * k + 1]!, wz = w[3 * k + 2]!;
+    const wx = w[3 * k]!,
+      wy = w[3 * k + 1]!,
+      wz = w[3 * k + 2]!;
     const wk = Math.sqrt(wx * wx + wy * wy + wz * wz);
     if (trace.segment[k] !== trace.segment[k0]) {
       closeSegment(k0, k - 1, travelled);
@@ -118,14 +141,21 @@ export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: 
   closeSegment(k0, n - 1, travelled);
 
   // Peaks, effort, torque reversals.
-  const tb = trace.torqueBody, tc = trace.torqueCmdBody;
-  let peakTau = 0, peakH = 0, effort = 0, peakBody = 0, tbPrev = 0;
+  const tb = trace.torqueBody,
+    tc = trace.torqueCmdBody;
+  let peakTau = 0,
+    peakH = 0,
+    effort = 0,
+    peakBody = 0,
+    tbPrev = 0;
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < N; i++) {
       peakTau = Math.max(peakTau, Math.abs(trace.wheelTorque[N * k + i]!) / o.maxTorqueNm[i]!);
       peakH = Math.max(peakH, Math.abs(trace.hWheel[N * k + i]!) / o.maxMomentumNms[i]!);
     }
-    const bx = tb[3 * k]!, by = tb[3 * k + 1]!, bz = tb[3 * k + 2]!;
+    const bx = tb[3 * k]!,
+      by = tb[3 * k + 1]!,
+      bz = tb[3 * k + 2]!;
     const tbk = Math.sqrt(bx * bx + by * by + bz * bz);
     peakBody = Math.max(peakBody, Math.abs(tc[3 * k]!), Math.abs(tc[3 * k + 1]!), Math.abs(tc[3 * k + 2]!));
     if (k > 0) effort += 0.5 * (tbk + tbPrev) * (t[k]! - t[k - 1]!);

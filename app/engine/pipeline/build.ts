@@ -46,7 +46,12 @@ function wheelSpecs(s: ResolvedScenario): WheelSpec[] {
     });
   }
   if (w.layout === 'triad') return orthogonalTriad(w);
-  return w.wheels.map((x) => ({ axis: Array.from(x.axis), maxTorqueNm: x.maxTorqueNm, maxMomentumNms: x.maxMomentumNms, rotorInertiaKgm2: x.rotorInertiaKgm2 }));
+  return w.wheels.map((x) => ({
+    axis: Array.from(x.axis),
+    maxTorqueNm: x.maxTorqueNm,
+    maxMomentumNms: x.maxMomentumNms,
+    rotorInertiaKgm2: x.rotorInertiaKgm2,
+  }));
 }
 
 /** Prefix issue paths from a sub-builder with the scenario field they came from. */
@@ -58,7 +63,10 @@ function rebase(issues: readonly Issue[], from: string, to: string): Issue[] {
   }));
 }
 
-export function buildVehicle(s: ResolvedScenario, overrides?: { wheelSpecs?: WheelSpec[]; inertiaRows?: number[][] }): Result<VehicleModel> {
+export function buildVehicle(
+  s: ResolvedScenario,
+  overrides?: { wheelSpecs?: WheelSpec[]; inertiaRows?: number[][] },
+): Result<VehicleModel> {
   const errors: Issue[] = [];
   const warnings: Issue[] = [];
   const rows = overrides?.inertiaRows ?? m3ToRows(s.vehicle.inertiaKgm2);
@@ -78,7 +86,13 @@ export function buildVehicle(s: ResolvedScenario, overrides?: { wheelSpecs?: Whe
     wheels.value,
     fr ? { viscousNmsPerRad: fr.viscousNmPerRadPerS, coulombNm: fr.coulombNm } : undefined,
   );
-  if (!plant.ok) return fail(rebase(plant.errors, 'wheels', 'vehicle.wheels').map((i) => (i.path.startsWith('vehicle.wheels.inertia') ? { ...i, path: 'vehicle.inertiaKgm2' } : i)), warnings);
+  if (!plant.ok)
+    return fail(
+      rebase(plant.errors, 'wheels', 'vehicle.wheels').map((i) =>
+        i.path.startsWith('vehicle.wheels.inertia') ? { ...i, path: 'vehicle.inertiaKgm2' } : i,
+      ),
+      warnings,
+    );
   const torqueZ = torqueEnvelope(wheels.value);
   const momentumZ = momentumEnvelope(wheels.value);
   return ok(
@@ -157,7 +171,14 @@ export function buildControllers(s: ResolvedScenario, v: VehicleModel, only?: re
     warnings.push(...r.warnings);
     out.push({ id: c.id, label: c.label, law: c.law, controller: r.value, gainNote: gainNote(c, v) });
   });
-  if (only) for (const id of only) if (!s.controllers.some((c) => c.id === id)) errors.push({ path: 'controllers', rule: 'unknown-id', message: `no controller with id "${id}" in the scenario (have: ${s.controllers.map((c) => c.id).join(', ')})` });
+  if (only)
+    for (const id of only)
+      if (!s.controllers.some((c) => c.id === id))
+        errors.push({
+          path: 'controllers',
+          rule: 'unknown-id',
+          message: `no controller with id "${id}" in the scenario (have: ${s.controllers.map((c) => c.id).join(', ')})`,
+        });
   return errors.length ? fail(errors, warnings) : ok(out, warnings);
 }
 
@@ -165,7 +186,8 @@ function gainNote(c: ResolvedController, v: VehicleModel): string {
   const g = c.gains;
   if (g.form === 'bandwidth' && c.law !== 'synergistic') {
     const b = gainsFromBandwidth(v.plant.Jperp, g.bandwidthRadPerS, g.dampingRatio);
-    if (c.law === 'eigenaxis') return `k = ${b.kEigen.toPrecision(3)} s⁻², c = ${b.cEigen.toPrecision(3)} s⁻¹ (ω_n ${g.bandwidthRadPerS} rad/s, ζ ${g.dampingRatio})`;
+    if (c.law === 'eigenaxis')
+      return `k = ${b.kEigen.toPrecision(3)} s⁻², c = ${b.cEigen.toPrecision(3)} s⁻¹ (ω_n ${g.bandwidthRadPerS} rad/s, ζ ${g.dampingRatio})`;
     return `k_p = ${b.kp.toPrecision(3)} N·m, k_d = ${b.kd.toPrecision(3)} N·m·s; asks ${(b.torqueAtErrorNm * 1e3).toPrecision(3)} mN·m at a 90° error`;
   }
   if (g.form === 'kp-kd') {

@@ -27,6 +27,7 @@ import type {
   RunMode,
   VehicleSummary,
 } from './types';
+import { DEG_PER_RAD } from '../units';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -70,7 +71,13 @@ export function prepareScenario(json: unknown, only?: readonly string[]): Result
   const errors: Issue[] = [];
   if (!ctrls.ok) errors.push(...ctrls.errors);
   else warnings.push(...ctrls.warnings);
-  if (!plan.ok) errors.push(...plan.errors.map((e) => ({ ...e, path: e.path.startsWith('targets') || e.path.startsWith('qStart') ? e.path : `planning.${e.path}` })));
+  if (!plan.ok)
+    errors.push(
+      ...plan.errors.map((e) => ({
+        ...e,
+        path: e.path.startsWith('targets') || e.path.startsWith('qStart') ? e.path : `planning.${e.path}`,
+      })),
+    );
   if (errors.length || !ctrls.ok || !plan.ok) return fail(errors, warnings);
   return ok({ scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, warnings }, warnings);
 }
@@ -107,7 +114,10 @@ export function directReference(plan: SequencePlan, targets: Float64Array, qInit
       let k = 0;
       while (k < m && t >= starts[k]! - 1e-12) k++;
       const o = 4 * k;
-      q[0] = table[o]!; q[1] = table[o + 1]!; q[2] = table[o + 2]!; q[3] = table[o + 3]!;
+      q[0] = table[o]!;
+      q[1] = table[o + 1]!;
+      q[2] = table[o + 2]!;
+      q[3] = table[o + 3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
       return segOf[k]!;
@@ -231,8 +241,6 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
   );
 }
 
-const DEG = 180 / Math.PI;
-
 export function comparisonRow(r: ControllerRun): ComparisonRow {
   const m = r.metrics;
   return {
@@ -242,15 +250,15 @@ export function comparisonRow(r: ControllerRun): ComparisonRow {
     mode: r.mode,
     status: r.outcome.status,
     settleTimeS: m.settleTimeS,
-    rotationTravelledDeg: m.rotationTravelledRad * DEG,
-    shortestRotationDeg: m.shortestRotationRad * DEG,
+    rotationTravelledDeg: m.rotationTravelledRad * DEG_PER_RAD,
+    shortestRotationDeg: m.shortestRotationRad * DEG_PER_RAD,
     unwound: m.unwound,
     jumps: m.jumps,
     chatterPerS: m.chatterPerS,
     peakWheelTorqueFraction: m.peakWheelTorqueFraction,
     peakWheelMomentumFraction: m.peakWheelMomentumFraction,
     controlEffortNms: m.controlEffortNms,
-    finalErrorDeg: m.finalErrorRad * DEG,
+    finalErrorDeg: m.finalErrorRad * DEG_PER_RAD,
     monitorFlags: r.monitor.length,
   };
 }
@@ -258,8 +266,15 @@ export function comparisonRow(r: ControllerRun): ComparisonRow {
 /** Lowest value wins in each numeric column; settle time: unsettled rows never win. */
 export function bestMarks(rows: readonly ComparisonRow[]): BestMarks {
   const cols: (keyof ComparisonRow)[] = [
-    'settleTimeS', 'rotationTravelledDeg', 'jumps', 'chatterPerS', 'peakWheelTorqueFraction',
-    'peakWheelMomentumFraction', 'controlEffortNms', 'finalErrorDeg', 'monitorFlags',
+    'settleTimeS',
+    'rotationTravelledDeg',
+    'jumps',
+    'chatterPerS',
+    'peakWheelTorqueFraction',
+    'peakWheelMomentumFraction',
+    'controlEffortNms',
+    'finalErrorDeg',
+    'monitorFlags',
   ];
   const best: BestMarks = {};
   for (const col of cols) {
@@ -333,17 +348,38 @@ export function planSummary(plan: SequencePlan, s: ResolvedScenario): PlanSummar
       const tEnd = tl ? tl.holdEndS : tStart + seg.durationS + holdS;
       tCursor = tEnd;
       return {
-        index: i, label, tStart, slewTimeS: seg.durationS, holdS, tEnd, angleRad: seg.angleRad,
+        index: i,
+        label,
+        tStart,
+        slewTimeS: seg.durationS,
+        holdS,
+        tEnd,
+        angleRad: seg.angleRad,
         axisBody: [seg.axisBody[0], seg.axisBody[1], seg.axisBody[2]] as [number, number, number],
-        feasible: true, binding: seg.binding, peakRateRadPerS: seg.peakRateRadPerS, accelRadPerS2: seg.profile.accelRadPerS2,
-        peakTorqueFraction: seg.peakTorqueFraction, peakMomentumFraction: seg.peakMomentumFraction,
+        feasible: true,
+        binding: seg.binding,
+        peakRateRadPerS: seg.peakRateRadPerS,
+        accelRadPerS2: seg.profile.accelRadPerS2,
+        peakTorqueFraction: seg.peakTorqueFraction,
+        peakMomentumFraction: seg.peakMomentumFraction,
         reason: seg.summary,
       };
     }
     return {
-      index: i, label, tStart: tCursor, slewTimeS: 0, holdS, tEnd: tCursor, angleRad: seg.angleRad,
+      index: i,
+      label,
+      tStart: tCursor,
+      slewTimeS: 0,
+      holdS,
+      tEnd: tCursor,
+      angleRad: seg.angleRad,
       axisBody: [seg.axisBody[0], seg.axisBody[1], seg.axisBody[2]] as [number, number, number],
-      feasible: false, binding: 'none' as const, peakRateRadPerS: 0, accelRadPerS2: 0, peakTorqueFraction: 0, peakMomentumFraction: 0,
+      feasible: false,
+      binding: 'none' as const,
+      peakRateRadPerS: 0,
+      accelRadPerS2: 0,
+      peakTorqueFraction: 0,
+      peakMomentumFraction: 0,
       reason: seg.reasons.map((r) => r.message).join('; '),
     };
   });

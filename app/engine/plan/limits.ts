@@ -13,10 +13,14 @@ import type { Vec3 } from '../math/mat3';
  * box surface along d. A zero d gives 0.
  */
 export function boxCapacity(halfWidths: ArrayLike<number>): (d: Vec3) => number {
-  const l0 = halfWidths[0]!, l1 = halfWidths[1]!, l2 = halfWidths[2]!;
+  const l0 = halfWidths[0]!,
+    l1 = halfWidths[1]!,
+    l2 = halfWidths[2]!;
   return (d: Vec3): number => {
     let r = Infinity;
-    const a0 = Math.abs(d[0]!), a1 = Math.abs(d[1]!), a2 = Math.abs(d[2]!);
+    const a0 = Math.abs(d[0]!),
+      a1 = Math.abs(d[1]!),
+      a2 = Math.abs(d[2]!);
     if (a0 > 0) r = Math.min(r, l0 / a0);
     if (a1 > 0) r = Math.min(r, l1 / a1);
     if (a2 > 0) r = Math.min(r, l2 / a2);

@@ -45,16 +45,15 @@ export function makeSlewGeometry(J: Mat3, e: ArrayLike<number>, h0: ArrayLike<nu
  * Body torque τ and wheel momentum h_w at angle φ, rate ω_s and acceleration α (formulas in the
  * header). Allocation-free; outTau and outH must not alias each other.
  */
-export function slewLoadsAt(
-  outTau: Vec3,
-  outH: Vec3,
-  g: SlewGeometry,
-  phi: number,
-  omega: number,
-  alpha: number,
-): void {
-  const c = Math.cos(phi), s = Math.sin(phi), k = (1 - c) * g.eDotH0;
-  const e = g.e, h0 = g.h0, x = g.eXh0, Je = g.Je, d = g.eDotH0;
+export function slewLoadsAt(outTau: Vec3, outH: Vec3, g: SlewGeometry, phi: number, omega: number, alpha: number): void {
+  const c = Math.cos(phi),
+    s = Math.sin(phi),
+    k = (1 - c) * g.eDotH0;
+  const e = g.e,
+    h0 = g.h0,
+    x = g.eXh0,
+    Je = g.Je,
+    d = g.eDotH0;
   for (let i = 0; i < 3; i++) {
     const hb = h0[i]! * c - s * x[i]! + k * e[i]!;
     // e × H_B = cos φ (e × h0) + sin φ (h0 − (e·h0) e)
@@ -66,7 +65,9 @@ export function slewLoadsAt(
 
 /** H_B after a rotation φ about e (the wheel momentum at rest at that attitude). */
 export function storedMomentumAt(out: Vec3, g: SlewGeometry, phi: number): Vec3 {
-  const c = Math.cos(phi), s = Math.sin(phi), k = (1 - c) * g.eDotH0;
+  const c = Math.cos(phi),
+    s = Math.sin(phi),
+    k = (1 - c) * g.eDotH0;
   for (let i = 0; i < 3; i++) out[i] = g.h0[i]! * c - s * g.eXh0[i]! + k * g.e[i]!;
   return out;
 }
@@ -144,9 +145,11 @@ export function scanEnvelopeUse(
 ): EnvelopeUse {
   out.torque = 0;
   out.momentum = 0;
-  const tA = p.accelTimeS, tC = p.coastTimeS;
+  const tA = p.accelTimeS,
+    tC = p.coastTimeS;
   const a = p.accelRadPerS2;
-  const bangAngle = 0.5 * a * tA * tA, coastAngle = p.peakRateRadPerS * tC;
+  const bangAngle = 0.5 * a * tA * tA,
+    coastAngle = p.peakRateRadPerS * tC;
   // Phase boundaries and accelerations: [0, tA] +a, [tA, tA + tC] 0, [tA + tC, T] −a.
   for (let ph = 0; ph < 3; ph++) {
     if (ph === 1 && !(tC > 0)) continue;

@@ -14,18 +14,36 @@ import type { RestToRestProfile } from './types';
  * guarantees finite positive a and w (or w = Infinity).
  */
 export function restToRestProfile(angleRad: number, accelRadPerS2: number, rateCapRadPerS: number): RestToRestProfile {
-  const th = angleRad, a = accelRadPerS2, w = rateCapRadPerS;
+  const th = angleRad,
+    a = accelRadPerS2,
+    w = rateCapRadPerS;
   if (!(th > 0)) {
     return { kind: 'rest', angleRad: 0, accelRadPerS2: 0, peakRateRadPerS: 0, accelTimeS: 0, coastTimeS: 0, durationS: 0 };
   }
   const tBang = Math.sqrt(th / a);
   // Compare rates rather than θ with w²/a, so w = Infinity needs no special case.
   if (a * tBang <= w) {
-    return { kind: 'bang-bang', angleRad: th, accelRadPerS2: a, peakRateRadPerS: a * tBang, accelTimeS: tBang, coastTimeS: 0, durationS: 2 * tBang };
+    return {
+      kind: 'bang-bang',
+      angleRad: th,
+      accelRadPerS2: a,
+      peakRateRadPerS: a * tBang,
+      accelTimeS: tBang,
+      coastTimeS: 0,
+      durationS: 2 * tBang,
+    };
   }
   const tA = w / a;
   const tC = th / w - tA;
-  return { kind: 'bang-coast-bang', angleRad: th, accelRadPerS2: a, peakRateRadPerS: w, accelTimeS: tA, coastTimeS: tC, durationS: tA + tC + tA };
+  return {
+    kind: 'bang-coast-bang',
+    angleRad: th,
+    accelRadPerS2: a,
+    peakRateRadPerS: w,
+    accelTimeS: tA,
+    coastTimeS: tC,
+    durationS: tA + tC + tA,
+  };
 }
 
 /** Switch times from the segment start. */
@@ -58,7 +76,9 @@ export function profileStateAt(
   coastTimeS: number,
   s: number,
 ): Float64Array {
-  const tA = accelTimeS, tDec = tA + coastTimeS, T = tDec + tA;
+  const tA = accelTimeS,
+    tDec = tA + coastTimeS,
+    T = tDec + tA;
   if (!(s >= 0)) {
     out[0] = 0;
     out[1] = 0;

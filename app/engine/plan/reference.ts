@@ -19,7 +19,8 @@ const st = new Float64Array(3);
  */
 export function referenceEntryAt(tab: ReferenceTable, t: number): number {
   if (tab.n === 0 || !(t >= tab.slewStartS[0]!)) return -1;
-  let lo = 0, hi = tab.n - 1;
+  let lo = 0,
+    hi = tab.n - 1;
   while (lo < hi) {
     const mid = (lo + hi + 1) >> 1;
     if (tab.slewStartS[mid]! <= t) lo = mid;
@@ -33,13 +34,7 @@ export function referenceEntryAt(tab: ReferenceTable, t: number): number {
  * plan start). Returns the active timeline entry (−1 before the first slew). NaN t is treated as
  * before the start, so no NaN leaves.
  */
-export function evaluateReference(
-  plan: { reference: ReferenceTable },
-  t: number,
-  outQ: Quat,
-  outOmega: Vec3,
-  outOmegaDot: Vec3,
-): number {
+export function evaluateReference(plan: { reference: ReferenceTable }, t: number, outQ: Quat, outOmega: Vec3, outOmegaDot: Vec3): number {
   const tab = plan.reference;
   const k = referenceEntryAt(tab, t);
   if (k < 0) {
@@ -49,11 +44,21 @@ export function evaluateReference(
     return k;
   }
   profileStateAt(st, tab.angle[k]!, tab.accel[k]!, tab.peakRate[k]!, tab.accelTime[k]!, tab.coastTime[k]!, t - tab.slewStartS[k]!);
-  const ex = tab.axis[3 * k]!, ey = tab.axis[3 * k + 1]!, ez = tab.axis[3 * k + 2]!;
-  const half = 0.5 * st[0]!, s = Math.sin(half);
-  const bx = ex * s, by = ey * s, bz = ez * s, bw = Math.cos(half);
-  const o = 4 * k, q = tab.q0;
-  const ax = q[o]!, ay = q[o + 1]!, az = q[o + 2]!, aw = q[o + 3]!;
+  const ex = tab.axis[3 * k]!,
+    ey = tab.axis[3 * k + 1]!,
+    ez = tab.axis[3 * k + 2]!;
+  const half = 0.5 * st[0]!,
+    s = Math.sin(half);
+  const bx = ex * s,
+    by = ey * s,
+    bz = ez * s,
+    bw = Math.cos(half);
+  const o = 4 * k,
+    q = tab.q0;
+  const ax = q[o]!,
+    ay = q[o + 1]!,
+    az = q[o + 2]!,
+    aw = q[o + 3]!;
   // Hamilton product q0 ⊗ exp(½ φ e), scalar last, written out (no subarray view).
   outQ[0] = aw * bx + ax * bw + ay * bz - az * by;
   outQ[1] = aw * by - ax * bz + ay * bw + az * bx;
@@ -90,14 +95,24 @@ export function evaluatePlannedLoads(
     return k;
   }
   profileStateAt(st, tab.angle[k]!, tab.accel[k]!, tab.peakRate[k]!, tab.accelTime[k]!, tab.coastTime[k]!, t - tab.slewStartS[k]!);
-  const phi = st[0]!, w = st[1]!, al = st[2]!;
+  const phi = st[0]!,
+    w = st[1]!,
+    al = st[2]!;
   const J = tab.inertia;
-  const ex = tab.axis[3 * k]!, ey = tab.axis[3 * k + 1]!, ez = tab.axis[3 * k + 2]!;
-  const hx = tab.h0[3 * k]!, hy = tab.h0[3 * k + 1]!, hz = tab.h0[3 * k + 2]!;
+  const ex = tab.axis[3 * k]!,
+    ey = tab.axis[3 * k + 1]!,
+    ez = tab.axis[3 * k + 2]!;
+  const hx = tab.h0[3 * k]!,
+    hy = tab.h0[3 * k + 1]!,
+    hz = tab.h0[3 * k + 2]!;
   // H_B = R_a(φ, e)ᵀ h0 (Rodrigues with −φ).
-  const c = Math.cos(phi), s = Math.sin(phi);
-  const d = ex * hx + ey * hy + ez * hz, kk = (1 - c) * d;
-  const cx = ey * hz - ez * hy, cy = ez * hx - ex * hz, cz = ex * hy - ey * hx;
+  const c = Math.cos(phi),
+    s = Math.sin(phi);
+  const d = ex * hx + ey * hy + ez * hz,
+    kk = (1 - c) * d;
+  const cx = ey * hz - ez * hy,
+    cy = ez * hx - ex * hz,
+    cz = ex * hy - ey * hx;
   const Hx = hx * c - s * cx + kk * ex;
   const Hy = hy * c - s * cy + kk * ey;
   const Hz = hz * c - s * cz + kk * ez;

@@ -36,8 +36,7 @@ const A_FLOOR = 1e-6;
 const MAX_BISECTIONS = 40;
 
 export type SearchOutcome =
-  | { ok: true; profile: RestToRestProfile; binding: BindingLimit; use: EnvelopeUse }
-  | { ok: false; reason: Issue };
+  { ok: true; profile: RestToRestProfile; binding: BindingLimit; use: EnvelopeUse } | { ok: false; reason: Issue };
 
 export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number): SearchOutcome {
   const th = g.angleRad;
@@ -72,7 +71,8 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
   /** Which margin the sampled profile (a, w) crosses first, or null when it is feasible. */
   const violated = (a: number, w: number): BindingLimit | null => {
     if (feasible(a, w)) return null;
-    const overT = use.torque / tStop, overH = use.momentum / hStop;
+    const overT = use.torque / tStop,
+      overH = use.momentum / hStop;
     return overH > 1 && overH >= overT ? 'momentum' : 'torque';
   };
 
@@ -95,7 +95,11 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
   const timeOf = (a: number, w: number): number => (a > 0 ? restToRestProfile(th, a, w).durationS : Infinity);
 
   // 4a. Scan the rate cap downwards. Once a*(w) reaches aTop no slower cap can win.
-  let bestK = -1, bestT = Infinity, bestA = 0, bestW = 0, prevA = 0;
+  let bestK = -1,
+    bestT = Infinity,
+    bestA = 0,
+    bestW = 0,
+    prevA = 0;
   const ws: number[] = [];
   for (let k = 0; k < SCAN_COUNT; k++) {
     const w = wHi * Math.pow(SCAN_RATIO, k);
@@ -122,7 +126,8 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
       const a = maxAccelFor(Math.exp(x), bestA * 0.5);
       return [timeOf(a, Math.exp(x)), a];
     };
-    let x1 = hi - r * (hi - lo), x2 = lo + r * (hi - lo);
+    let x1 = hi - r * (hi - lo),
+      x2 = lo + r * (hi - lo);
     let [f1, a1] = at(x1);
     let [f2, a2] = at(x2);
     for (let i = 0; i < GOLDEN_STEPS; i++) {
@@ -142,14 +147,16 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
         [f2, a2] = at(x2);
       }
     }
-    if (f1 < bestT) [bestT, bestA, bestW] = [f1, a1, Math.exp(x1)];
-    if (f2 < bestT) [bestT, bestA, bestW] = [f2, a2, Math.exp(x2)];
+    // The better golden point (ties: the first), if it beats the scan.
+    const [fG, aG, xG] = f2 < f1 ? [f2, a2, x2] : [f1, a1, x1];
+    if (fG < bestT) [bestA, bestW] = [aG, Math.exp(xG)];
   }
 
   // 5. Dense verification against half the guard band; shrink on a missed peak.
   const vt = limits.torqueMargin * (1 - SEARCH_GUARD / 2);
   const vh = limits.momentumMargin * (1 - SEARCH_GUARD / 2);
-  let a = bestA, w = bestW;
+  let a = bestA,
+    w = bestW;
   for (let tries = 0; tries < 12; tries++) {
     if (feasible(a, w, VERIFY_SAMPLING, vt, vh)) {
       const profile = restToRestProfile(th, a, w);
@@ -161,7 +168,11 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
   }
   return {
     ok: false,
-    reason: issue('segment', 'no-feasible-profile', 'No rest-to-rest eigenaxis profile passed the dense check of the torque and momentum margins.'),
+    reason: issue(
+      'segment',
+      'no-feasible-profile',
+      'No rest-to-rest eigenaxis profile passed the dense check of the torque and momentum margins.',
+    ),
   };
 }
 

@@ -15,14 +15,7 @@ import { fail, IssueList, issue, ok, type Issue, type Result } from '../errors';
 import type { Mat3, Vec3 } from '../math/mat3';
 import { v3Norm } from '../math/mat3';
 import { qConjMultiply, qToAxisAngle, type Quat } from '../math/rotation';
-import {
-  envelopeFraction,
-  makeSlewGeometry,
-  scanEnvelopeUse,
-  storedMomentumAt,
-  symmetricCapacity,
-  type SlewGeometry,
-} from './loads';
+import { envelopeFraction, makeSlewGeometry, scanEnvelopeUse, storedMomentumAt, symmetricCapacity, type SlewGeometry } from './loads';
 import { profileSwitchTimes, restToRestProfile } from './profile';
 import { pct, searchProfile, SEARCH_GUARD, VERIFY_SAMPLING } from './search';
 import type { BindingLimit, PlanLimits, RestToRestProfile, SegmentPlan, SegmentVerdict } from './types';
@@ -73,7 +66,10 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   };
   // Zero stored momentum, allowing for rounding carried through a sequence (|h| ~ 1e-20 N·m·s
   // after several rotations): below 1e-12 of the envelope the closed forms are exact to print.
-  const hScale = limits.momentumCapacity(Float64Array.of(1, 0, 0)) + limits.momentumCapacity(Float64Array.of(0, 1, 0)) + limits.momentumCapacity(Float64Array.of(0, 0, 1));
+  const hScale =
+    limits.momentumCapacity(Float64Array.of(1, 0, 0)) +
+    limits.momentumCapacity(Float64Array.of(0, 1, 0)) +
+    limits.momentumCapacity(Float64Array.of(0, 0, 1));
   const emptySystem = Math.hypot(h0[0]!, h0[1]!, h0[2]!) <= 1e-12 * hScale;
   const reasons = checkSegment(g, limits, hEnd, emptySystem);
   if (reasons.length) return { ...base, feasible: false, reasons };
@@ -117,7 +113,20 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   return finish(base, g, limits, p, found.binding, 'sampled-search', why);
 }
 
-type Base = Omit<SegmentPlan, 'feasible' | 'profile' | 'durationS' | 'switchTimesS' | 'peakRateRadPerS' | 'binding' | 'peakTorqueFraction' | 'peakMomentumFraction' | 'slewRateFraction' | 'method' | 'summary'>;
+type Base = Omit<
+  SegmentPlan,
+  | 'feasible'
+  | 'profile'
+  | 'durationS'
+  | 'switchTimesS'
+  | 'peakRateRadPerS'
+  | 'binding'
+  | 'peakTorqueFraction'
+  | 'peakMomentumFraction'
+  | 'slewRateFraction'
+  | 'method'
+  | 'summary'
+>;
 
 function finish(
   base: Base,
@@ -153,20 +162,44 @@ function checkSegment(g: SlewGeometry, limits: PlanLimits, hEnd: Vec3, emptySyst
   // The start and end are at rest, so the wheels hold exactly h0 and H_B(θ) there.
   const f0 = envelopeFraction(g.h0, limits.momentumCapacity);
   if (f0 >= m) {
-    out.push(issue('wheelMomentumBody', 'stored-momentum-start', `The wheels already hold ${pct(f0)} of the momentum envelope along their momentum direction at the start; the margin allows ${pct(m)}.`));
+    out.push(
+      issue(
+        'wheelMomentumBody',
+        'stored-momentum-start',
+        `The wheels already hold ${pct(f0)} of the momentum envelope along their momentum direction at the start; the margin allows ${pct(m)}.`,
+      ),
+    );
   }
   if (g.angleRad > 0) {
     const f1 = envelopeFraction(hEnd, limits.momentumCapacity);
     if (f1 >= m) {
-      out.push(issue('qTarget', 'stored-momentum-end', `At the target attitude the stored momentum would use ${pct(f1)} of the momentum envelope along its direction; the margin allows ${pct(m)}.`));
+      out.push(
+        issue(
+          'qTarget',
+          'stored-momentum-end',
+          `At the target attitude the stored momentum would use ${pct(f1)} of the momentum envelope along its direction; the margin allows ${pct(m)}.`,
+        ),
+      );
     }
     if (!(symmetricCapacity(g.Je, limits.torqueCapacity) > 0)) {
-      out.push(issue('limits.torqueCapacity', 'zero-torque-capacity', 'The torque envelope gives no usable capacity (zero, or not a finite number) along ±Je, the direction this eigenaxis slew must push.'));
+      out.push(
+        issue(
+          'limits.torqueCapacity',
+          'zero-torque-capacity',
+          'The torque envelope gives no usable capacity (zero, or not a finite number) along ±Je, the direction this eigenaxis slew must push.',
+        ),
+      );
     }
     if (emptySystem) {
       const mJe = Float64Array.from([-g.Je[0]!, -g.Je[1]!, -g.Je[2]!]);
       if (!(capacityAlong(mJe, limits.momentumCapacity) > 0)) {
-        out.push(issue('limits.momentumCapacity', 'zero-momentum-capacity', 'The momentum envelope gives no usable capacity (zero, or not a finite number) along −Je, where this slew puts the wheel momentum.'));
+        out.push(
+          issue(
+            'limits.momentumCapacity',
+            'zero-momentum-capacity',
+            'The momentum envelope gives no usable capacity (zero, or not a finite number) along −Je, where this slew puts the wheel momentum.',
+          ),
+        );
       }
     }
   }

@@ -72,7 +72,14 @@ export function planSequence(input: SequenceInput, limits: PlanLimits): Result<S
     if (v.feasible && firstInfeasible < 0) {
       const slewEnd = t + v.durationS;
       const holdEnd = slewEnd + targets[k].holdS;
-      timeline.push({ target: k, label: targets[k].label ?? `target ${k + 1}`, slewStartS: t, slewEndS: slewEnd, holdEndS: holdEnd, plan: v });
+      timeline.push({
+        target: k,
+        label: targets[k].label ?? `target ${k + 1}`,
+        slewStartS: t,
+        slewEndS: slewEnd,
+        holdEndS: holdEnd,
+        plan: v,
+      });
       t = holdEnd;
     }
     qPrev = v.qEnd;
@@ -88,7 +95,12 @@ export function planSequence(input: SequenceInput, limits: PlanLimits): Result<S
 }
 
 /** Flatten a timeline for allocation-free evaluation (reference.ts). */
-export function buildReferenceTable(J: Mat3, qInitial: Quat, hInitial: ArrayLike<number>, timeline: readonly TimelineEntry[]): ReferenceTable {
+export function buildReferenceTable(
+  J: Mat3,
+  qInitial: Quat,
+  hInitial: ArrayLike<number>,
+  timeline: readonly TimelineEntry[],
+): ReferenceTable {
   const n = timeline.length;
   const tab: ReferenceTable = {
     n,

@@ -2,7 +2,7 @@
  * Input checks shared by the segment and sequence planners. Every problem is collected with its
  * field path and rule; nothing throws.
  */
-import { IssueList, describe } from '../errors';
+import { type IssueList, describe } from '../errors';
 import type { Mat3, Vec3 } from '../math/mat3';
 import { symmetricEigen3 } from '../math/mat3';
 import type { Quat } from '../math/rotation';
@@ -54,9 +54,17 @@ export function readInertia(list: IssueList, path: string, v: unknown): Mat3 | n
   let scale = 0;
   for (let i = 0; i < 9; i++) scale = Math.max(scale, Math.abs(J[i]!));
   let good = true;
-  for (const [r, c] of [[0, 1], [0, 2], [1, 2]] as const) {
+  for (const [r, c] of [
+    [0, 1],
+    [0, 2],
+    [1, 2],
+  ] as const) {
     if (Math.abs(J[3 * c + r]! - J[3 * r + c]!) > 1e-9 * scale) {
-      list.add(`${path}[${r}][${c}]`, 'symmetric', `${path} must be symmetric: entry (${r},${c}) = ${J[3 * c + r]} but (${c},${r}) = ${J[3 * r + c]}`);
+      list.add(
+        `${path}[${r}][${c}]`,
+        'symmetric',
+        `${path} must be symmetric: entry (${r},${c}) = ${J[3 * c + r]} but (${c},${r}) = ${J[3 * r + c]}`,
+      );
       good = false;
     }
   }

@@ -14,9 +14,7 @@ import { issue } from '../errors';
 import type { Quat } from '../math/rotation';
 import { qCopy, qCreate, qFromAxisAngle, qFromEuler, qFromTwoVectors, qMultiply, qNorm } from '../math/rotation';
 import type { AttitudeForm, AttitudeSpec } from './schema';
-
-export const DEG = Math.PI / 180;
-export const ARCSEC = DEG / 3600;
+import { RAD_PER_DEG } from '../units';
 
 /** A quaternion within this of unit norm is normalised (with a warning); beyond it, rejected. */
 export const QUATERNION_NORM_TOLERANCE = 1e-6;
@@ -37,7 +35,9 @@ function norm3(v: readonly number[]): number {
 }
 
 function sinAngle(a: readonly number[], b: readonly number[]): number {
-  const cx = a[1]! * b[2]! - a[2]! * b[1]!, cy = a[2]! * b[0]! - a[0]! * b[2]!, cz = a[0]! * b[1]! - a[1]! * b[0]!;
+  const cx = a[1]! * b[2]! - a[2]! * b[1]!,
+    cy = a[2]! * b[0]! - a[0]! * b[2]!,
+    cz = a[0]! * b[1]! - a[1]! * b[0]!;
   return Math.hypot(cx, cy, cz) / (norm3(a) * norm3(b));
 }
 
@@ -61,11 +61,23 @@ export function resolveAttitude(
     const q = spec.quaternion;
     const n = qNorm(q);
     if (n === 0) {
-      errors.push(issue(p, 'non-zero', `${p} is the zero quaternion, which is not a rotation; give a unit quaternion [x, y, z, w] (identity: [0, 0, 0, 1])`));
+      errors.push(
+        issue(
+          p,
+          'non-zero',
+          `${p} is the zero quaternion, which is not a rotation; give a unit quaternion [x, y, z, w] (identity: [0, 0, 0, 1])`,
+        ),
+      );
       return false;
     }
     if (Math.abs(n - 1) > QUATERNION_NORM_TOLERANCE) {
-      errors.push(issue(p, 'unit-norm', `${p} has norm ${n.toPrecision(9)}; an attitude quaternion must have unit norm (within ${QUATERNION_NORM_TOLERANCE})`));
+      errors.push(
+        issue(
+          p,
+          'unit-norm',
+          `${p} has norm ${n.toPrecision(9)}; an attitude quaternion must have unit norm (within ${QUATERNION_NORM_TOLERANCE})`,
+        ),
+      );
       return false;
     }
     if (Math.abs(n - 1) > SILENT_NORM_DEPARTURE) {
@@ -79,7 +91,7 @@ export function resolveAttitude(
   }
   if ('euler' in spec) {
     const a = spec.euler.anglesDeg;
-    qFromEuler(out, spec.euler.sequence, a[0]! * DEG, a[1]! * DEG, a[2]! * DEG);
+    qFromEuler(out, spec.euler.sequence, a[0]! * RAD_PER_DEG, a[1]! * RAD_PER_DEG, a[2]! * RAD_PER_DEG);
     return true;
   }
   if ('pointing' in spec) {
@@ -94,11 +106,23 @@ export function resolveAttitude(
     }
     if (!good) return false;
     if (sinAngle(pt.bodyAxis, pt.bodySecondary) < PARALLEL_TOL) {
-      errors.push(issue(`${base}.bodySecondary`, 'not-parallel', `${base}.bodySecondary is parallel to ${base}.bodyAxis, so it cannot fix the rotation about that axis; choose a secondary axis at an angle to it`));
+      errors.push(
+        issue(
+          `${base}.bodySecondary`,
+          'not-parallel',
+          `${base}.bodySecondary is parallel to ${base}.bodyAxis, so it cannot fix the rotation about that axis; choose a secondary axis at an angle to it`,
+        ),
+      );
       good = false;
     }
     if (sinAngle(pt.inertialDirection, pt.inertialSecondary) < PARALLEL_TOL) {
-      errors.push(issue(`${base}.inertialSecondary`, 'not-parallel', `${base}.inertialSecondary is parallel to ${base}.inertialDirection, so it cannot fix the rotation about that direction; choose a secondary direction at an angle to it`));
+      errors.push(
+        issue(
+          `${base}.inertialSecondary`,
+          'not-parallel',
+          `${base}.inertialSecondary is parallel to ${base}.inertialDirection, so it cannot fix the rotation about that direction; choose a secondary direction at an angle to it`,
+        ),
+      );
       good = false;
     }
     if (!good) return false;
@@ -111,7 +135,13 @@ export function resolveAttitude(
   const rel = spec.relative;
   const p = `${path}.relative`;
   if (isInitial) {
-    errors.push(issue(p, 'no-previous', `${p}: the initial attitude has no previous attitude to be relative to; use a quaternion, Euler or pointing attitude`));
+    errors.push(
+      issue(
+        p,
+        'no-previous',
+        `${p}: the initial attitude has no previous attitude to be relative to; use a quaternion, Euler or pointing attitude`,
+      ),
+    );
     return false;
   }
   if (!(norm3(rel.axis) > 0)) {
@@ -119,7 +149,7 @@ export function resolveAttitude(
     return false;
   }
   if (previous === null) return false;
-  const qRel = qFromAxisAngle(qCreate(), rel.axis, rel.angleDeg * DEG);
+  const qRel = qFromAxisAngle(qCreate(), rel.axis, rel.angleDeg * RAD_PER_DEG);
   const prev = qCopy(qCreate(), previous);
   qMultiply(out, prev, qRel);
   return true;

@@ -10,7 +10,17 @@ export {
   CONTROL_LAWS,
   scenarioJsonSchema,
 } from './schema';
-export type { Scenario, AttitudeSpec, AttitudeForm, ControllerSpec, ControlLaw, GainsSpec, KeepOutSpec, TargetSpec, WheelsSpec } from './schema';
+export type {
+  Scenario,
+  AttitudeSpec,
+  AttitudeForm,
+  ControllerSpec,
+  ControlLaw,
+  GainsSpec,
+  KeepOutSpec,
+  TargetSpec,
+  WheelsSpec,
+} from './schema';
 export { validateScenario, wheelCount } from './validate';
 export { resolveScenario, loadScenario } from './resolve';
 export type { ResolvedScenario, ResolvedController, ResolvedGains, ResolvedTarget, ResolvedWheels } from './resolve';

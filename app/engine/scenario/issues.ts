@@ -147,7 +147,11 @@ function convertUnion(zi: ZIssue, root: unknown, path: Key[], value: unknown, ou
     return;
   }
   if (keys) {
-    out.push({ path: p, rule: value === undefined ? 'required' : 'type', message: `${p} must be an object with one of the keys ${keys.join(', ')} (got ${describe(value)})` });
+    out.push({
+      path: p,
+      rule: value === undefined ? 'required' : 'type',
+      message: `${p} must be an object with one of the keys ${keys.join(', ')} (got ${describe(value)})`,
+    });
     return;
   }
   out.push({ path: p, rule: 'one-form', message: `${p} does not match any allowed form` });

@@ -12,13 +12,12 @@ import type { Mat3, Vec3 } from '../math/mat3';
 import { m3Create, m3FromRows, v3Create } from '../math/mat3';
 import type { Quat } from '../math/rotation';
 import { qCreate } from '../math/rotation';
-import { ARCSEC, DEG, attitudeForm, resolveAttitude } from './attitude';
+import { attitudeForm, resolveAttitude } from './attitude';
 import type { AttitudeForm, ControlLaw, Scenario } from './schema';
 import { validateScenario, wheelCount } from './validate';
 import { parseIsoUtcMs } from './utc';
-import { resolveStudy, type StudyDefinition } from '../study/definition';
-
-const MILLI = 1e-3;
+import { resolveStudy, type StudyDefinition } from './study';
+import { RAD_PER_ARCSEC, RAD_PER_DEG, SI_PER_MILLI } from '../units';
 
 export type ResolvedWheels =
   | {
@@ -39,8 +38,7 @@ export type ResolvedWheels =
     };
 
 export type ResolvedGains =
-  | { form: 'kp-kd'; kp: number; kd: number }
-  | { form: 'bandwidth'; bandwidthRadPerS: number; dampingRatio: number };
+  { form: 'kp-kd'; kp: number; kd: number } | { form: 'bandwidth'; bandwidthRadPerS: number; dampingRatio: number };
 
 interface ControllerCommon {
   id: string;
@@ -139,7 +137,12 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
   const warnings: Issue[] = [];
 
   const epochUnixMs = parseIsoUtcMs(s.epochUtc);
-  if (epochUnixMs === null) errors.push({ path: 'epochUtc', rule: 'calendar', message: `epochUtc ${JSON.stringify(s.epochUtc)} is not a valid ISO 8601 UTC instant` });
+  if (epochUnixMs === null)
+    errors.push({
+      path: 'epochUtc',
+      rule: 'calendar',
+      message: `epochUtc ${JSON.stringify(s.epochUtc)} is not a valid ISO 8601 UTC instant`,
+    });
 
   const qInit = qCreate();
   const initOk = resolveAttitude(qInit, s.initial.attitude, null, 'initial.attitude', errors, warnings, true);
@@ -158,27 +161,42 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
     wheels = {
       layout: 'pyramid',
       count: 4,
-      cantAngleRad: w.cantAngleDeg * DEG,
-      azimuthOffsetRad: w.azimuthOffsetDeg * DEG,
-      maxTorqueNm: w.maxTorqueMNm * MILLI,
-      maxMomentumNms: w.maxMomentumMNms * MILLI,
+      cantAngleRad: w.cantAngleDeg * RAD_PER_DEG,
+      azimuthOffsetRad: w.azimuthOffsetDeg * RAD_PER_DEG,
+      maxTorqueNm: w.maxTorqueMNm * SI_PER_MILLI,
+      maxMomentumNms: w.maxMomentumMNms * SI_PER_MILLI,
       rotorInertiaKgm2: w.rotorInertiaKgm2,
     };
   } else if (w.layout === 'triad') {
-    wheels = { layout: 'triad', count: 3, maxTorqueNm: w.maxTorqueMNm * MILLI, maxMomentumNms: w.maxMomentumMNms * MILLI, rotorInertiaKgm2: w.rotorInertiaKgm2 };
+    wheels = {
+      layout: 'triad',
+      count: 3,
+      maxTorqueNm: w.maxTorqueMNm * SI_PER_MILLI,
+      maxMomentumNms: w.maxMomentumMNms * SI_PER_MILLI,
+      rotorInertiaKgm2: w.rotorInertiaKgm2,
+    };
   } else {
     wheels = {
       layout: 'custom',
       count: nW,
-      wheels: w.wheels.map((x, i) => ({ axis: unit3(x.axis, `vehicle.wheels.wheels[${i}].axis`, errors), maxTorqueNm: x.maxTorqueMNm * MILLI, maxMomentumNms: x.maxMomentumMNms * MILLI, rotorInertiaKgm2: x.rotorInertiaKgm2 })),
+      wheels: w.wheels.map((x, i) => ({
+        axis: unit3(x.axis, `vehicle.wheels.wheels[${i}].axis`, errors),
+        maxTorqueNm: x.maxTorqueMNm * SI_PER_MILLI,
+        maxMomentumNms: x.maxMomentumMNms * SI_PER_MILLI,
+        rotorInertiaKgm2: x.rotorInertiaKgm2,
+      })),
     };
   }
 
   const h0 = new Float64Array(nW);
   if (s.initial.wheelMomentumMNms) {
     if (s.initial.wheelMomentumMNms.length !== nW) {
-      errors.push({ path: 'initial.wheelMomentumMNms', rule: 'count', message: `initial.wheelMomentumMNms must have one value per wheel (${nW})` });
-    } else s.initial.wheelMomentumMNms.forEach((h, i) => (h0[i] = h * MILLI));
+      errors.push({
+        path: 'initial.wheelMomentumMNms',
+        rule: 'count',
+        message: `initial.wheelMomentumMNms must have one value per wheel (${nW})`,
+      });
+    } else s.initial.wheelMomentumMNms.forEach((h, i) => (h0[i] = h * SI_PER_MILLI));
   }
 
   const controllers = s.controllers.map((c, ci): ResolvedController => {
@@ -189,11 +207,15 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
     const base = { id: c.id, label: c.label, gains };
     switch (c.law) {
       case 'eigenaxis':
-        return { ...base, law: c.law, maxRateRadPerS: c.maxRateDegPerS * DEG };
+        return { ...base, law: c.law, maxRateRadPerS: c.maxRateDegPerS * RAD_PER_DEG };
       case 'hysteretic':
         return { ...base, law: c.law, hysteresis: c.hysteresis };
       case 'synergistic': {
-        const axesRows = c.potentialAxes ?? [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+        const axesRows = c.potentialAxes ?? [
+          [1, 0, 0],
+          [0, 1, 0],
+          [0, 0, 1],
+        ];
         const axes = axesRows.map((a, k) => unit3(a, `controllers[${ci}].potentialAxes[${k}]`, errors));
         const V = m3Create();
         for (let k = 0; k < 3; k++) for (let r = 0; r < 3; r++) V[3 * k + r] = axes[k]![r]!;
@@ -228,7 +250,7 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
     label: k.label,
     bodyAxis: unit3(k.bodyAxis ?? [0, 0, 1], `keepOut[${i}].bodyAxis`, errors),
     inertialDirection: unit3(k.inertialDirection, `keepOut[${i}].inertialDirection`, errors),
-    halfAngleRad: k.halfAngleDeg * DEG,
+    halfAngleRad: k.halfAngleDeg * RAD_PER_DEG,
   }));
 
   const study = s.study ? resolveStudy(s.study, s, errors, warnings) : null;
@@ -247,24 +269,24 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
       wheels,
       wheelCount: nW,
       wheelFriction: v.wheelFriction
-        ? { viscousNmPerRadPerS: v.wheelFriction.viscousMNmPerRadPerS * MILLI, coulombNm: v.wheelFriction.coulombMNm * MILLI }
+        ? { viscousNmPerRadPerS: v.wheelFriction.viscousMNmPerRadPerS * SI_PER_MILLI, coulombNm: v.wheelFriction.coulombMNm * SI_PER_MILLI }
         : null,
       sensors: {
-        attitudeNoiseRad: v.sensors.attitudeNoiseArcsec * ARCSEC,
-        rateNoiseRadPerS: v.sensors.rateNoiseDegPerS * DEG,
-        rateBiasRadPerS: vec3Scaled(v.sensors.rateBiasDegPerS, DEG),
+        attitudeNoiseRad: v.sensors.attitudeNoiseArcsec * RAD_PER_ARCSEC,
+        rateNoiseRadPerS: v.sensors.rateNoiseDegPerS * RAD_PER_DEG,
+        rateBiasRadPerS: vec3Scaled(v.sensors.rateBiasDegPerS, RAD_PER_DEG),
       },
       controlRateHz: v.controlRateHz,
       controlPeriodS: 1 / v.controlRateHz,
       actuation: {
         mode: v.actuation.mode,
-        torqueQuantumNm: v.actuation.torqueQuantumMNm !== undefined ? v.actuation.torqueQuantumMNm * MILLI : null,
+        torqueQuantumNm: v.actuation.torqueQuantumMNm !== undefined ? v.actuation.torqueQuantumMNm * SI_PER_MILLI : null,
       },
     },
     initial: {
       form: attitudeForm(s.initial.attitude),
       qInertialFromBody: qInit,
-      omegaBody: vec3Scaled(s.initial.bodyRateDegPerS, DEG),
+      omegaBody: vec3Scaled(s.initial.bodyRateDegPerS, RAD_PER_DEG),
       hWheelNms: h0,
     },
     targets,
@@ -272,14 +294,14 @@ export function resolveScenario(s: Scenario): Result<ResolvedScenario> {
     planning: {
       torqueMargin: s.planning.torqueMargin,
       momentumMargin: s.planning.momentumMargin,
-      slewRateLimitRadPerS: s.planning.slewRateLimitDegPerS * DEG,
+      slewRateLimitRadPerS: s.planning.slewRateLimitDegPerS * RAD_PER_DEG,
       profile: s.planning.profile,
     },
     simulation: {
       mode: s.simulation.mode,
       timing: s.simulation.timing,
-      settleAngleRad: s.simulation.settleAngleDeg * DEG,
-      settleRateRadPerS: s.simulation.settleRateDegPerS * DEG,
+      settleAngleRad: s.simulation.settleAngleDeg * RAD_PER_DEG,
+      settleRateRadPerS: s.simulation.settleRateDegPerS * RAD_PER_DEG,
       tailS: s.simulation.tailS,
       seed: s.simulation.seed,
       rk4StepsPerSample: s.simulation.rk4StepsPerSample,

@@ -67,7 +67,7 @@ export const PointingAttitudeSchema = z.strictObject({
 export const RelativeAttitudeSchema = z.strictObject({
   relative: z
     .strictObject({
-      axis: vec3("Rotation axis in the body frame of the previous attitude (any non-zero length)."),
+      axis: vec3('Rotation axis in the body frame of the previous attitude (any non-zero length).'),
       angleDeg: num().describe('Right-handed rotation angle about axis, degrees.'),
     })
     .describe(
@@ -100,7 +100,9 @@ export const PyramidWheelsSchema = z.strictObject({
     .number()
     .gt(0)
     .lt(90)
-    .describe('Angle between each wheel spin axis and the body +Z symmetry axis, degrees (arccos(1/√3) = 54.7356° puts the axes on cube diagonals).'),
+    .describe(
+      'Angle between each wheel spin axis and the body +Z symmetry axis, degrees (arccos(1/√3) = 54.7356° puts the axes on cube diagonals).',
+    ),
   azimuthOffsetDeg: z
     .number()
     .min(-360)
@@ -153,7 +155,9 @@ export const VehicleSchema = z.strictObject({
   inertiaKgm2: z
     .array(z.array(num()).length(3))
     .length(3)
-    .describe('Whole-spacecraft inertia tensor about the centre of mass, body axes, kg·m², rows of a symmetric 3×3 matrix (products of inertia enter with their sign in the tensor).'),
+    .describe(
+      'Whole-spacecraft inertia tensor about the centre of mass, body axes, kg·m², rows of a symmetric 3×3 matrix (products of inertia enter with their sign in the tensor).',
+    ),
   wheels: WheelsSchema,
   wheelFriction: WheelFrictionSchema.optional(),
   sensors: SensorsSchema,
@@ -202,7 +206,12 @@ export const GainsSchema = z
   .describe('Either explicit gains { kp, kd } or a bandwidth and damping ratio { bandwidthRadPerS, dampingRatio }.');
 
 const controllerBase = {
-  id: z.string().min(1).max(64).regex(/^[A-Za-z0-9_.-]+$/).describe('Unique key: letters, digits, "_", ".", "-".'),
+  id: z
+    .string()
+    .min(1)
+    .max(64)
+    .regex(/^[A-Za-z0-9_.-]+$/)
+    .describe('Unique key: letters, digits, "_", ".", "-".'),
   label: label().describe('Name shown in the comparison table and exports.'),
   gains: GainsSchema,
 };
@@ -306,21 +315,48 @@ export const StudyAttitudeDispersionSchema = z
       maxAngleDeg: z.number().gt(0).max(180).describe('Largest rotation away from the nominal initial attitude, degrees.'),
     }),
     z.strictObject({
-      mode: z.literal('near-reversal').describe('Error to the first target within withinDeg of 180°; the quaternion sign (hemisphere) is drawn at random.'),
+      mode: z
+        .literal('near-reversal')
+        .describe('Error to the first target within withinDeg of 180°; the quaternion sign (hemisphere) is drawn at random.'),
       withinDeg: z.number().gt(0).max(90).describe('Largest distance of the initial error angle from 180°, degrees.'),
     }),
   ])
   .describe('How the initial attitude is dispersed.');
 
 export const StudyInertiaDispersionSchema = z.strictObject({
-  momentSigmaFraction: z.number().min(0).max(0.5).optional().describe('1σ relative error of each principal moment (Gaussian), dimensionless fraction.'),
-  axisMisalignmentDeg: z.number().min(0).max(45).optional().describe('1σ per axis of a small random rotation of the principal axes, degrees.'),
+  momentSigmaFraction: z
+    .number()
+    .min(0)
+    .max(0.5)
+    .optional()
+    .describe('1σ relative error of each principal moment (Gaussian), dimensionless fraction.'),
+  axisMisalignmentDeg: z
+    .number()
+    .min(0)
+    .max(45)
+    .optional()
+    .describe('1σ per axis of a small random rotation of the principal axes, degrees.'),
 });
 
 export const StudyWheelDispersionSchema = z.strictObject({
-  torqueDegradationMax: z.number().min(0).lt(1).optional().describe('Each wheel loses a fraction of its torque limit drawn uniformly in [0, this], dimensionless.'),
-  momentumDegradationMax: z.number().min(0).lt(1).optional().describe('Each wheel loses a fraction of its momentum limit drawn uniformly in [0, this], dimensionless.'),
-  failOneWheelProbability: z.number().min(0).max(1).optional().describe('Probability that one wheel (chosen at random) is lost for the whole case, dimensionless.'),
+  torqueDegradationMax: z
+    .number()
+    .min(0)
+    .lt(1)
+    .optional()
+    .describe('Each wheel loses a fraction of its torque limit drawn uniformly in [0, this], dimensionless.'),
+  momentumDegradationMax: z
+    .number()
+    .min(0)
+    .lt(1)
+    .optional()
+    .describe('Each wheel loses a fraction of its momentum limit drawn uniformly in [0, this], dimensionless.'),
+  failOneWheelProbability: z
+    .number()
+    .min(0)
+    .max(1)
+    .optional()
+    .describe('Probability that one wheel (chosen at random) is lost for the whole case, dimensionless.'),
 });
 
 export const StudySensorDispersionSchema = z.strictObject({
@@ -335,7 +371,9 @@ export const StudySensorDispersionSchema = z.strictObject({
     .min(0)
     .lt(1)
     .optional()
-    .describe('Worst-case bounded noise level ē on the error quaternion scalar part (measured η reflected when |η| < ē), dimensionless; 0 = off.'),
+    .describe(
+      'Worst-case bounded noise level ē on the error quaternion scalar part (measured η reflected when |η| < ē), dimensionless; 0 = off.',
+    ),
 });
 
 export const StudyDispersionsSchema = z.strictObject({
@@ -344,25 +382,44 @@ export const StudyDispersionsSchema = z.strictObject({
   inertia: StudyInertiaDispersionSchema.optional(),
   wheels: StudyWheelDispersionSchema.optional(),
   sensors: StudySensorDispersionSchema.optional(),
-  controlRateHz: z.array(z.number().positive().max(1000)).min(1).max(20).optional().describe('Control rates to pick from uniformly per case, Hz.'),
-  actuation: z.array(z.enum(['hold', 'pwm', 'quantized'])).min(1).max(3).optional().describe('Actuation modes to pick from uniformly per case.'),
+  controlRateHz: z
+    .array(z.number().positive().max(1000))
+    .min(1)
+    .max(20)
+    .optional()
+    .describe('Control rates to pick from uniformly per case, Hz.'),
+  actuation: z
+    .array(z.enum(['hold', 'pwm', 'quantized']))
+    .min(1)
+    .max(3)
+    .optional()
+    .describe('Actuation modes to pick from uniformly per case.'),
   torqueQuantumMNm: positive().optional().describe('Torque quantum for cases drawn as "quantized" when the vehicle has none, mN·m.'),
 });
 
 export const StudySchema = z
   .strictObject({
     runs: z.number().int().min(1).max(1000000).describe('Number of dispersed cases; every selected controller flies every case.'),
-    seed: z.number().int().min(0).max(4294967295).describe('Study seed (unsigned 32-bit integer); a case depends only on (seed, case index).'),
+    seed: z
+      .number()
+      .int()
+      .min(0)
+      .max(4294967295)
+      .describe('Study seed (unsigned 32-bit integer); a case depends only on (seed, case index).'),
     controllers: z.array(z.string().min(1).max(64)).min(1).max(20).optional().describe('Controller ids to compare (default: all).'),
     durationS: positive().max(100000).optional().describe('Simulated time per case, s (default 600).'),
     mode: z
       .enum(['direct', 'profiled'])
       .optional()
-      .describe('direct (default): regulate to the first target from the dispersed start; profiled: track the slew planned on the nominal model from that start.'),
+      .describe(
+        'direct (default): regulate to the first target from the dispersed start; profiled: track the slew planned on the nominal model from that start.',
+      ),
     stopAfterSettledForS: nonNegative()
       .max(100000)
       .optional()
-      .describe('End a direct-mode case early once it has stayed settled this long, s (default 20; 0 = always run durationS). Profiled cases always run durationS.'),
+      .describe(
+        'End a direct-mode case early once it has stayed settled this long, s (default 20; 0 = always run durationS). Profiled cases always run durationS.',
+      ),
     worstCases: z.number().int().min(1).max(100).optional().describe('Worst cases listed per controller (default 5).'),
     dispersions: StudyDispersionsSchema.optional(),
   })

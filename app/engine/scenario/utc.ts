@@ -23,8 +23,12 @@ export function parseIsoUtcMs(s: unknown): number | null {
   if (typeof s !== 'string') return null;
   const m = ISO_UTC.exec(s);
   if (!m) return null;
-  const year = Number(m[1]), month = Number(m[2]), day = Number(m[3]);
-  const hh = Number(m[4]), mm = Number(m[5]), ss = Number(m[6]);
+  const year = Number(m[1]),
+    month = Number(m[2]),
+    day = Number(m[3]);
+  const hh = Number(m[4]),
+    mm = Number(m[5]),
+    ss = Number(m[6]);
   const ms = m[7] ? Number(m[7].padEnd(3, '0')) : 0;
   if (year < 1 || month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return null;
   if (hh > 23 || mm > 59 || ss > 59) return null;

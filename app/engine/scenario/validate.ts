@@ -5,7 +5,7 @@
  * broken field does not hide problems elsewhere.
  */
 import type { Issue, Result } from '../errors';
-import { describe, fail, issue, ok } from '../errors';
+import { dedupeIssues, describe, fail, issue, ok } from '../errors';
 import { qCreate } from '../math/rotation';
 import type { Quat } from '../math/rotation';
 import { resolveAttitude } from './attitude';
@@ -23,7 +23,6 @@ import {
 } from './schema';
 import type { Scenario, WheelsSpec } from './schema';
 import { parseIsoUtcMs } from './utc';
-import { dedupeIssues } from '../errors';
 
 type Obj = Record<string, unknown>;
 
@@ -78,10 +77,22 @@ function checkFormatAndVersion(json: unknown): Issue[] {
     return [issue('version', 'required', `version is missing; this Slewsmith reads scenario files of version ${SCENARIO_VERSION}`)];
   }
   if (typeof v !== 'number' || !Number.isInteger(v) || v < 1) {
-    return [issue('version', 'version', `version must be a whole number ≥ 1 (got ${describe(v)}); this Slewsmith reads version ${SCENARIO_VERSION}`)];
+    return [
+      issue(
+        'version',
+        'version',
+        `version must be a whole number ≥ 1 (got ${describe(v)}); this Slewsmith reads version ${SCENARIO_VERSION}`,
+      ),
+    ];
   }
   if (v > SCENARIO_VERSION) {
-    return [issue('version', 'version-newer', `version ${v} is newer than this Slewsmith reads (${SCENARIO_VERSION}); open the file with a newer Slewsmith`)];
+    return [
+      issue(
+        'version',
+        'version-newer',
+        `version ${v} is newer than this Slewsmith reads (${SCENARIO_VERSION}); open the file with a newer Slewsmith`,
+      ),
+    ];
   }
   return [];
 }
@@ -100,7 +111,6 @@ export function validateScenario(json: unknown): Result<Scenario> {
   if (errors.length || !parsed.success) return fail(dedupeIssues(errors), warnings);
   return ok(parsed.data, warnings);
 }
-
 
 function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   // Epoch: the regex passes 2030-02-30T…; the calendar check does not.
@@ -123,7 +133,13 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   const n = rawWheelCount(get(raw, 'vehicle', 'wheels'));
   if (n !== null && Array.isArray(h0)) {
     if (h0.length !== n) {
-      errors.push(issue('initial.wheelMomentumMNms', 'count', `initial.wheelMomentumMNms has ${h0.length} value${h0.length === 1 ? '' : 's'} but the vehicle has ${n} wheels (one value per wheel)`));
+      errors.push(
+        issue(
+          'initial.wheelMomentumMNms',
+          'count',
+          `initial.wheelMomentumMNms has ${h0.length} value${h0.length === 1 ? '' : 's'} but the vehicle has ${n} wheels (one value per wheel)`,
+        ),
+      );
     } else if (wheels.success) {
       const lim = wheelMomentumLimitsMNms(wheels.data);
       h0.forEach((h, i) => {
@@ -139,9 +155,21 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   const act = ActuationSchema.safeParse(get(raw, 'vehicle', 'actuation'));
   if (act.success) {
     if (act.data.mode === 'quantized' && act.data.torqueQuantumMNm === undefined) {
-      errors.push(issue('vehicle.actuation.torqueQuantumMNm', 'required-for-mode', 'vehicle.actuation.torqueQuantumMNm is required when vehicle.actuation.mode is "quantized"'));
+      errors.push(
+        issue(
+          'vehicle.actuation.torqueQuantumMNm',
+          'required-for-mode',
+          'vehicle.actuation.torqueQuantumMNm is required when vehicle.actuation.mode is "quantized"',
+        ),
+      );
     } else if (act.data.mode !== 'quantized' && act.data.torqueQuantumMNm !== undefined) {
-      warnings.push(issue('vehicle.actuation.torqueQuantumMNm', 'ignored', `vehicle.actuation.torqueQuantumMNm is ignored when mode is "${act.data.mode}"`));
+      warnings.push(
+        issue(
+          'vehicle.actuation.torqueQuantumMNm',
+          'ignored',
+          `vehicle.actuation.torqueQuantumMNm is ignored when mode is "${act.data.mode}"`,
+        ),
+      );
     }
   }
 
@@ -195,7 +223,14 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     if (typeof id === 'string') {
       const k = firstIndex.get(id);
       if (k === undefined) firstIndex.set(id, i);
-      else errors.push(issue(`controllers[${i}].id`, 'unique', `controllers[${i}].id "${id}" is already used by controllers[${k}]; controller ids must be unique`));
+      else
+        errors.push(
+          issue(
+            `controllers[${i}].id`,
+            'unique',
+            `controllers[${i}].id "${id}" is already used by controllers[${k}]; controller ids must be unique`,
+          ),
+        );
     }
     const r = ControllerSchema.safeParse(c);
     if (!r.success) return;
@@ -203,7 +238,13 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     if ('bandwidthRadPerS' in ctl.gains && typeof rate === 'number' && rate > 0) {
       const nyquistFraction = ctl.gains.bandwidthRadPerS / (2 * Math.PI * rate);
       if (nyquistFraction > 0.1) {
-        warnings.push(issue(`controllers[${i}].gains.bandwidthRadPerS`, 'sample-rate', `controllers[${i}].gains.bandwidthRadPerS = ${ctl.gains.bandwidthRadPerS} rad/s is more than a tenth of the ${rate} Hz control rate; sampled behaviour will differ from the continuous design`));
+        warnings.push(
+          issue(
+            `controllers[${i}].gains.bandwidthRadPerS`,
+            'sample-rate',
+            `controllers[${i}].gains.bandwidthRadPerS = ${ctl.gains.bandwidthRadPerS} rad/s is more than a tenth of the ${rate} Hz control rate; sampled behaviour will differ from the continuous design`,
+          ),
+        );
       }
     }
     if (ctl.law !== 'synergistic') return;
@@ -213,7 +254,13 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     pairs: for (let a = 0; a < 3; a++)
       for (let b = a + 1; b < 3; b++)
         if (Math.abs(w[a]! - w[b]!) <= 1e-9 * wMax) {
-          errors.push(issue(`${p}.potentialWeights`, 'distinct', `${p}.potentialWeights must be distinct (entries ${a} and ${b} are both ${w[a]}); repeated weights give a continuum of critical attitudes`));
+          errors.push(
+            issue(
+              `${p}.potentialWeights`,
+              'distinct',
+              `${p}.potentialWeights must be distinct (entries ${a} and ${b} are both ${w[a]}); repeated weights give a continuum of critical attitudes`,
+            ),
+          );
           break pairs;
         }
     if (ctl.potentialAxes) {
@@ -225,12 +272,24 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
           worst = Math.max(worst, Math.abs(d - (a === b ? 1 : 0)));
         }
       if (!(worst <= 1e-6)) {
-        errors.push(issue(`${p}.potentialAxes`, 'orthonormal', `${p}.potentialAxes must be three orthonormal vectors (within 1e-6; largest departure ${worst.toPrecision(3)})`));
+        errors.push(
+          issue(
+            `${p}.potentialAxes`,
+            'orthonormal',
+            `${p}.potentialAxes must be three orthonormal vectors (within 1e-6; largest departure ${worst.toPrecision(3)})`,
+          ),
+        );
       }
     }
     ctl.warpDirections?.forEach((u, k) => {
       if (!(Math.hypot(u[0]!, u[1]!, u[2]!) > 0)) {
-        errors.push(issue(`${p}.warpDirections[${k}]`, 'non-zero', `${p}.warpDirections[${k}] is the zero vector; a warping direction needs a non-zero length`));
+        errors.push(
+          issue(
+            `${p}.warpDirections[${k}]`,
+            'non-zero',
+            `${p}.warpDirections[${k}] is the zero vector; a warping direction needs a non-zero length`,
+          ),
+        );
       }
     });
   });

@@ -27,18 +27,25 @@ import type { Gyrostat } from '../body/gyrostat';
 import { gyrostatDerivative } from '../body/gyrostat';
 import type { WheelArray } from '../wheels/array';
 import { allocateMinMax, allocateMinNorm } from '../wheels/allocation';
-import { limitWheelTorque } from '../wheels/limits';
+import { createLimitInfo, limitWheelTorque } from '../wheels/limits';
 import { bodyTorqueFromWheelTorque } from '../wheels/array';
 import { simulateHybrid } from '../hybrid/simulate';
-import { createLimitInfo } from '../wheels/limits';
 import type { HybridSystem } from '../hybrid/types';
 import { qNormalize } from '../math/rotation';
 import { makeRng } from '../math/prng';
 import type { SensorModel } from './sensors';
 import { measure } from './sensors';
 import {
-  PACKED_ERROR_ANGLE, PACKED_GAP, PACKED_LOGIC, PACKED_LYAPUNOV, PACKED_POTENTIAL, PACKED_POTENTIAL_MIN, PACKED_SCALARS, PACKED_T,
-  TraceBuilder, type PackedSample,
+  PACKED_ERROR_ANGLE,
+  PACKED_GAP,
+  PACKED_LOGIC,
+  PACKED_LYAPUNOV,
+  PACKED_POTENTIAL,
+  PACKED_POTENTIAL_MIN,
+  PACKED_SCALARS,
+  PACKED_T,
+  TraceBuilder,
+  type PackedSample,
 } from './trace';
 import type { JumpEvent, RunOutcome, RunTrace } from './types';
 
@@ -116,9 +123,15 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const jumps: JumpEvent[] = [];
 
   // Scratch, allocated once per run.
-  const qRef = new Float64Array(4), wRef = new Float64Array(3), wdRef = new Float64Array(3);
-  const qTrue = new Float64Array(4), wTrue = new Float64Array(3), hTrue = new Float64Array(N);
-  const qMeas = new Float64Array(4), wMeas = new Float64Array(3), hMeas = new Float64Array(N);
+  const qRef = new Float64Array(4),
+    wRef = new Float64Array(3),
+    wdRef = new Float64Array(3);
+  const qTrue = new Float64Array(4),
+    wTrue = new Float64Array(3),
+    hTrue = new Float64Array(N);
+  const qMeas = new Float64Array(4),
+    wMeas = new Float64Array(3),
+    hMeas = new Float64Array(N);
   const input: ControlInput = { q: qMeas, omega: wMeas, hWheel: hMeas, qRef, omegaRef: wRef, omegaDotRef: wdRef };
   const trueInput: ControlInput = { q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef, omegaDotRef: wdRef };
   const diag: ControlDiagnostics = { errorAngle: 0, eta: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0 };
@@ -132,8 +145,18 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   const limitInfo = createLimitInfo();
   // One sample record, refilled at every sample (its arrays are the scratch above; numbers in `scalars`).
   const rec: PackedSample = {
-    j: 0, segment: 0, scalars: new Float64Array(PACKED_SCALARS), q: qTrue, omega: wTrue, hWheel: hTrue, qRef, omegaRef: wRef,
-    torqueCmdBody: tauCmd, torqueBody: tauBody, wheelTorqueCmd: wheelCmd, wheelTorque: wheelHeld,
+    j: 0,
+    segment: 0,
+    scalars: new Float64Array(PACKED_SCALARS),
+    q: qTrue,
+    omega: wTrue,
+    hWheel: hTrue,
+    qRef,
+    omegaRef: wRef,
+    torqueCmdBody: tauCmd,
+    torqueBody: tauBody,
+    wheelTorqueCmd: wheelCmd,
+    wheelTorque: wheelHeld,
   };
   const recScalars = rec.scalars;
   const sc = new Float64Array(3);
@@ -154,8 +177,13 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   let switchIdx = 0;
 
   const unpack = (x: Float64Array) => {
-    qTrue[0] = x[0]!; qTrue[1] = x[1]!; qTrue[2] = x[2]!; qTrue[3] = x[3]!;
-    wTrue[0] = x[4]!; wTrue[1] = x[5]!; wTrue[2] = x[6]!;
+    qTrue[0] = x[0]!;
+    qTrue[1] = x[1]!;
+    qTrue[2] = x[2]!;
+    qTrue[3] = x[3]!;
+    wTrue[0] = x[4]!;
+    wTrue[1] = x[5]!;
+    wTrue[2] = x[6]!;
     for (let i = 0; i < N; i++) hTrue[i] = x[7 + i]!;
   };
 
@@ -198,7 +226,16 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     const wBefore = diag.lyapunov;
     ctrl.diagnostics(diag, trueInput, r.logic);
     logicJumps++;
-    jumps.push({ t, j: logicJumps, what: 'logic', from: logic, to: r.logic, why: r.why, lyapunovBefore: wBefore, lyapunovAfter: diag.lyapunov });
+    jumps.push({
+      t,
+      j: logicJumps,
+      what: 'logic',
+      from: logic,
+      to: r.logic,
+      why: r.why,
+      lyapunovBefore: wBefore,
+      lyapunovAfter: diag.lyapunov,
+    });
     logic = r.logic;
     return true;
   };
@@ -226,7 +263,9 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
     recScalars[PACKED_LYAPUNOV] = diag.lyapunov;
     builder.pushPacked(rec);
     if (settleFor > 0) {
-      const ex = wTrue[0]! - wRef[0]!, ey = wTrue[1]! - wRef[1]!, ez = wTrue[2]! - wRef[2]!;
+      const ex = wTrue[0]! - wRef[0]!,
+        ey = wTrue[1]! - wRef[1]!,
+        ez = wTrue[2]! - wRef[2]!;
       const ok = err < settleAngle && Math.sqrt(ex * ex + ey * ey + ez * ez) < settleRate;
       if (!ok) sc[SETTLED_SINCE] = -1;
       else if (sc[SETTLED_SINCE]! < 0) sc[SETTLED_SINCE] = t;
@@ -311,7 +350,11 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
           return null;
         }
         // PWM pulse edge: the wheels whose pulse has ended stop.
-        for (let i = 0; i < N; i++) if (pulseEnd[i]! <= t + 1e-12) { wheelNow[i] = 0; pulseEnd[i] = Infinity; }
+        for (let i = 0; i < N; i++)
+          if (pulseEnd[i]! <= t + 1e-12) {
+            wheelNow[i] = 0;
+            pulseEnd[i] = Infinity;
+          }
         return null;
       }
       // Continuous-ideal: an output instant or reference switch (scheduled) or a located logic crossing.
@@ -334,7 +377,10 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
       const n2 = x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!;
       if (!(n2 > 0) || Math.abs(n2 - 1) < 2e-15) return false;
       const inv = 1 / Math.sqrt(n2);
-      x[0]! *= inv; x[1]! *= inv; x[2]! *= inv; x[3]! *= inv;
+      x[0]! *= inv;
+      x[1]! *= inv;
+      x[2]! *= inv;
+      x[3]! *= inv;
       return true;
     },
     stop() {

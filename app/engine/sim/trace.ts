@@ -90,16 +90,29 @@ export interface PackedSample {
  * optimized code thrown away between runs).
  */
 function allocateTrace(nWheels: number, capacity: number): RunTrace {
-  const c = capacity, N = nWheels;
+  const c = capacity,
+    N = nWheels;
   return {
-    n: 0, nWheels: N,
-    t: new Float64Array(c), j: new Int32Array(c), segment: new Int32Array(c),
-    q: new Float64Array(4 * c), omega: new Float64Array(3 * c), hWheel: new Float64Array(N * c),
-    qRef: new Float64Array(4 * c), omegaRef: new Float64Array(3 * c),
-    torqueCmdBody: new Float64Array(3 * c), torqueBody: new Float64Array(3 * c),
-    wheelTorqueCmd: new Float64Array(N * c), wheelTorque: new Float64Array(N * c),
-    logic: new Float64Array(c), errorAngle: new Float64Array(c), potential: new Float64Array(c),
-    potentialMin: new Float64Array(c), gap: new Float64Array(c), lyapunov: new Float64Array(c),
+    n: 0,
+    nWheels: N,
+    t: new Float64Array(c),
+    j: new Int32Array(c),
+    segment: new Int32Array(c),
+    q: new Float64Array(4 * c),
+    omega: new Float64Array(3 * c),
+    hWheel: new Float64Array(N * c),
+    qRef: new Float64Array(4 * c),
+    omegaRef: new Float64Array(3 * c),
+    torqueCmdBody: new Float64Array(3 * c),
+    torqueBody: new Float64Array(3 * c),
+    wheelTorqueCmd: new Float64Array(N * c),
+    wheelTorque: new Float64Array(N * c),
+    logic: new Float64Array(c),
+    errorAngle: new Float64Array(c),
+    potential: new Float64Array(c),
+    potentialMin: new Float64Array(c),
+    gap: new Float64Array(c),
+    lyapunov: new Float64Array(c),
   };
 }
 
@@ -131,7 +144,13 @@ export class TraceBuilder {
   }
 
   /** The per-sample vector channels, shared by push and pushPacked. */
-  private writeVectors(k: number, s: Pick<TraceSample, 'q' | 'qRef' | 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody' | 'hWheel' | 'wheelTorqueCmd' | 'wheelTorque'>): void {
+  private writeVectors(
+    k: number,
+    s: Pick<
+      TraceSample,
+      'q' | 'qRef' | 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody' | 'hWheel' | 'wheelTorqueCmd' | 'wheelTorque'
+    >,
+  ): void {
     const tr = this.trace;
     const N = tr.nWheels;
     for (let i = 0; i < 4; i++) {

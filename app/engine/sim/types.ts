@@ -7,6 +7,10 @@
  * at each located jump. Time in seconds from the scenario's start epoch; SI units throughout.
  */
 
+import type { JumpEvent } from '../hybrid/types';
+
+export type { JumpEvent };
+
 export type RunStatus = 'completed' | 'zeno' | 'step-underflow' | 'non-finite' | 'max-steps' | 'cancelled';
 
 export interface RunOutcome {
@@ -16,21 +20,6 @@ export interface RunOutcome {
   /** Hybrid time where the run ended. */
   t: number;
   j: number;
-}
-
-export interface JumpEvent {
-  t: number;
-  /** Jump counter after the jump. */
-  j: number;
-  /** What jumped: 'logic' (controller logic variable), 'sample' is not recorded as an event. */
-  what: string;
-  from: number;
-  to: number;
-  /** Why, e.g. `h·η = -0.41 ≤ -δ` or `synergy gap 0.31 ≥ δ = 0.2`. */
-  why: string;
-  /** Lyapunov value W just before and just after the jump, at the same instant (when known). */
-  lyapunovBefore?: number;
-  lyapunovAfter?: number;
 }
 
 export interface RunTrace {

@@ -21,9 +21,7 @@ import { makeStudyContext } from './context';
 import type { CaseDraw } from './sample';
 import { drawCase } from './sample';
 import { buildCaseVehicle, caseReference, flyCase, monitorOf } from './runCase';
-
-const DEG = 180 / Math.PI;
-const ARCSEC = 3600 * DEG;
+import { ARCSEC_PER_RAD, DEG_PER_RAD } from '../units';
 
 function checkIndex(index: number, runs: number): Issue[] {
   if (!Number.isInteger(index) || index < 0 || index >= runs) {
@@ -41,6 +39,7 @@ function explicitGains(c: BuiltController): { kp: number; kd: number } | null {
   return null;
 }
 
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- loose editing of a scenario JSON copy (to be replaced by scenario/toScenarioFile)
 type Obj = Record<string, any>;
 
 /**
@@ -75,12 +74,13 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
   };
   out.vehicle.sensors = {
     ...out.vehicle.sensors,
-    attitudeNoiseArcsec: d.attitudeNoiseRad * ARCSEC,
-    rateBiasDegPerS: d.rateBiasRadPerS.map((b) => b * DEG),
+    attitudeNoiseArcsec: d.attitudeNoiseRad * ARCSEC_PER_RAD,
+    rateBiasDegPerS: d.rateBiasRadPerS.map((b) => b * DEG_PER_RAD),
   };
   out.vehicle.controlRateHz = d.controlRateHz;
-  out.vehicle.actuation = d.actuation === 'quantized' ? { mode: 'quantized', torqueQuantumMNm: (ctx.def.torqueQuantumNm ?? 1e-5) * 1e3 } : { mode: d.actuation };
-  out.initial = { attitude: { quaternion: d.q0 }, bodyRateDegPerS: d.omega0RadPerS.map((w) => w * DEG) };
+  out.vehicle.actuation =
+    d.actuation === 'quantized' ? { mode: 'quantized', torqueQuantumMNm: (ctx.def.torqueQuantumNm ?? 1e-5) * 1e3 } : { mode: d.actuation };
+  out.initial = { attitude: { quaternion: d.q0 }, bodyRateDegPerS: d.omega0RadPerS.map((w) => w * DEG_PER_RAD) };
   if (src.initial?.wheelMomentumMNms) out.initial.wheelMomentumMNms = Array.from(v.value.hWheel0, (h) => h * 1e3);
   out.targets = [{ label: s.targets[0]!.label, attitude: { quaternion: Array.from(ctx.target) }, holdS: s.targets[0]!.holdS }];
   out.controllers = ctx.controllers.map((bc) => {
@@ -92,12 +92,20 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
   });
   out.simulation = { ...out.simulation, mode: ctx.def.mode, seed: d.noiseSeed };
 
-  if (d.adversarialEta > 0) notes.push(`the study's worst-case noise level ē = ${d.adversarialEta} (a scenario file has no field for it: this run has random noise only)`);
-  if (ctx.controllers.some((bc) => bc.law === 'eigenaxis')) notes.push('the eigenaxis law here models the case inertia; in the study it keeps the nominal one');
+  if (d.adversarialEta > 0)
+    notes.push(
+      `the study's worst-case noise level ē = ${d.adversarialEta} (a scenario file has no field for it: this run has random noise only)`,
+    );
+  if (ctx.controllers.some((bc) => bc.law === 'eigenaxis'))
+    notes.push('the eigenaxis law here models the case inertia; in the study it keeps the nominal one');
   if (ctx.def.mode === 'profiled') notes.push('the slew is planned here on the case vehicle; in the study on the nominal one');
   if (d.failedWheel >= 0) notes.push(`wheel ${d.failedWheel + 1} of the nominal array is lost in this case and left out`);
   notes.push(`the study stopped a case once settled for ${ctx.def.stopAfterSettledForS} s; this run goes on to the end`);
-  out.description = `Case ${index} of the robustness study of "${s.name}" (seed ${ctx.def.seed}), as a normal scenario. Bandwidth gains are written as the explicit gains the study flew (tuned on the nominal vehicle). Differences from the study run: ${notes.join('; ')}.`.slice(0, 4000);
+  out.description =
+    `Case ${index} of the robustness study of "${s.name}" (seed ${ctx.def.seed}), as a normal scenario. Bandwidth gains are written as the explicit gains the study flew (tuned on the nominal vehicle). Differences from the study run: ${notes.join('; ')}.`.slice(
+      0,
+      4000,
+    );
 
   // Run length: the pipeline runs max(plan, 1) + tailS; aim at the study's duration.
   out.simulation.tailS = 0;
@@ -107,7 +115,13 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
   return ok(out, p.warnings);
 }
 
-const LOGIC: Record<string, LogicKind> = { 'quaternion-pd': 'none', 'sign-switch': 'sign', eigenaxis: 'none', hysteretic: 'sign', synergistic: 'index' };
+const LOGIC: Record<string, LogicKind> = {
+  'quaternion-pd': 'none',
+  'sign-switch': 'sign',
+  eigenaxis: 'none',
+  hysteretic: 'sign',
+  synergistic: 'index',
+};
 
 export interface StudyCaseRerun {
   draw: CaseDraw;
@@ -115,13 +129,22 @@ export interface StudyCaseRerun {
 }
 
 /** The exact study run of case `index` (all study controllers, or only `controllerId`). */
-export function rerunStudyCase(json: unknown, study: StudyOverrides | undefined, index: number, controllerId?: string): Result<StudyCaseRerun> {
+export function rerunStudyCase(
+  json: unknown,
+  study: StudyOverrides | undefined,
+  index: number,
+  controllerId?: string,
+): Result<StudyCaseRerun> {
   const c = makeStudyContext(json, study ?? {});
   if (!c.ok) return fail(c.errors, c.warnings);
   const ctx = c.value;
   const bad = checkIndex(index, ctx.def.runs);
   if (controllerId !== undefined && !ctx.controllers.some((x) => x.id === controllerId)) {
-    bad.push({ path: 'controller', rule: 'unknown-id', message: `the study has no controller "${controllerId}" (have: ${ctx.controllers.map((x) => x.id).join(', ')})` });
+    bad.push({
+      path: 'controller',
+      rule: 'unknown-id',
+      message: `the study has no controller "${controllerId}" (have: ${ctx.controllers.map((x) => x.id).join(', ')})`,
+    });
   }
   if (bad.length) return fail(bad);
   const d = drawCase(ctx.def, ctx.nominal, index);

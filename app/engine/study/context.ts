@@ -16,8 +16,8 @@ import type { Prepared } from '../pipeline/run';
 import { prepareScenario } from '../pipeline/run';
 import type { BuiltController } from '../pipeline/build';
 import type { WheelSpec } from '../wheels/array';
-import type { ActuationMode, StudyDefinition } from './definition';
-import { defaultStudySpec } from './definition';
+import type { ActuationMode, StudyDefinition } from '../scenario/study';
+import { defaultStudySpec } from '../scenario/study';
 import type { NominalCase } from './sample';
 import { MAX_CASE_INDEX } from './sample';
 
@@ -80,7 +80,14 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   const def = p.scenario.study;
   if (!def) return fail([issue('study', 'required', 'the scenario has no study block')], p.warnings);
   const warnings = [...p.warnings];
-  if (eff.defaulted) warnings.push(issue('study', 'defaulted', `the scenario has no "study" block: running ${def.runs} cases with seed ${def.seed} and no dispersions except the noise realisation`));
+  if (eff.defaulted)
+    warnings.push(
+      issue(
+        'study',
+        'defaulted',
+        `the scenario has no "study" block: running ${def.runs} cases with seed ${def.seed} and no dispersions except the noise realisation`,
+      ),
+    );
   if (def.runs - 1 > MAX_CASE_INDEX) return fail([issue('study.runs', 'max', `study.runs may be at most ${MAX_CASE_INDEX + 1}`)], warnings);
 
   const s = p.scenario;
@@ -89,7 +96,12 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   const w = p.vehicle.wheels;
   const wheelSpecs: WheelSpec[] = [];
   for (let i = 0; i < w.n; i++) {
-    wheelSpecs.push({ axis: [w.axes[3 * i]!, w.axes[3 * i + 1]!, w.axes[3 * i + 2]!], maxTorqueNm: w.maxTorqueNm[i]!, maxMomentumNms: w.maxMomentumNms[i]!, rotorInertiaKgm2: w.rotorInertiaKgm2[i]! });
+    wheelSpecs.push({
+      axis: [w.axes[3 * i]!, w.axes[3 * i + 1]!, w.axes[3 * i + 2]!],
+      maxTorqueNm: w.maxTorqueNm[i]!,
+      maxMomentumNms: w.maxMomentumNms[i]!,
+      rotorInertiaKgm2: w.rotorInertiaKgm2[i]!,
+    });
   }
   const target = Float64Array.from(s.targets[0]!.qInertialFromBody);
   const nominal: NominalCase = {

@@ -3,14 +3,12 @@
  * caution and the conventions) and the summary (JSON). Both list cases in case-index order, so
  * the files are the same whatever the number of workers.
  */
-import { CAUTION_TEXT, QUATERNION_CONVENTION } from '../export/caution';
+import { CAUTION_TEXT, QUATERNION_CONVENTION } from '../caution';
 import type { CaseRecord } from './runCase';
 import { CHATTER_THRESHOLD_PER_S } from './runCase';
 import type { MapPoint, StudyInfo, StudySummary } from './summary';
 import { outcomeMap, sortRecords } from './summary';
-
-const DEG = 180 / Math.PI;
-const ARCSEC = 3600 * DEG;
+import { ARCSEC_PER_RAD, DEG_PER_RAD } from '../units';
 
 /** Shortest round-trip number text; null/undefined → empty cell. */
 function num(v: number | null | undefined): string {
@@ -24,12 +22,43 @@ function cell(s: string): string {
 }
 
 export const CASE_COLUMNS = [
-  'case', 'controller', 'outcome', 'status', 'settle_time_s', 'unwound', 'long_way', 'chattered', 'rotation_travelled_deg',
-  'shortest_rotation_deg', 'extra_rotation_deg', 'jumps', 'chatter_per_s', 'peak_wheel_torque_fraction',
-  'peak_wheel_momentum_fraction', 'final_error_deg', 'end_s', 'initial_error_angle_deg', 'initial_error_axis_x',
-  'initial_error_axis_y', 'initial_error_axis_z', 'initial_eta', 'q0_x', 'q0_y', 'q0_z', 'q0_w', 'initial_rate_x_deg_per_s',
-  'initial_rate_y_deg_per_s', 'initial_rate_z_deg_per_s', 'inertia_rejections', 'failed_wheel', 'control_rate_hz', 'actuation',
-  'attitude_noise_arcsec', 'adversarial_eta', 'noise_seed', 'reason',
+  'case',
+  'controller',
+  'outcome',
+  'status',
+  'settle_time_s',
+  'unwound',
+  'long_way',
+  'chattered',
+  'rotation_travelled_deg',
+  'shortest_rotation_deg',
+  'extra_rotation_deg',
+  'jumps',
+  'chatter_per_s',
+  'peak_wheel_torque_fraction',
+  'peak_wheel_momentum_fraction',
+  'final_error_deg',
+  'end_s',
+  'initial_error_angle_deg',
+  'initial_error_axis_x',
+  'initial_error_axis_y',
+  'initial_error_axis_z',
+  'initial_eta',
+  'q0_x',
+  'q0_y',
+  'q0_z',
+  'q0_w',
+  'initial_rate_x_deg_per_s',
+  'initial_rate_y_deg_per_s',
+  'initial_rate_z_deg_per_s',
+  'inertia_rejections',
+  'failed_wheel',
+  'control_rate_hz',
+  'actuation',
+  'attitude_noise_arcsec',
+  'adversarial_eta',
+  'noise_seed',
+  'reason',
 ] as const;
 
 export function casesCsv(info: StudyInfo, records: readonly CaseRecord[], summary: StudySummary): string {
@@ -49,14 +78,43 @@ export function casesCsv(info: StudyInfo, records: readonly CaseRecord[], summar
     const d = rec.draw;
     rec.runs.forEach((r, ci) => {
       const row = [
-        String(d.index), cell(r.controllerId), map[k]!.outcome[ci], r.status, num(r.settleTimeS), r.unwound ? '1' : '0', r.longWay ? '1' : '0',
-        r.chattered ? '1' : '0', num(r.rotationTravelledDeg), num(r.shortestRotationDeg), num(r.extraRotationDeg), String(r.jumps),
-        num(r.chatterPerS), num(r.peakWheelTorqueFraction), num(r.peakWheelMomentumFraction), num(r.finalErrorDeg), num(r.endS),
-        num(d.errorAngleRad * DEG), num(d.errorAxis[0]), num(d.errorAxis[1]), num(d.errorAxis[2]), num(d.errorEta),
-        num(d.q0[0]), num(d.q0[1]), num(d.q0[2]), num(d.q0[3]),
-        num(d.omega0RadPerS[0]! * DEG), num(d.omega0RadPerS[1]! * DEG), num(d.omega0RadPerS[2]! * DEG),
-        String(d.inertiaRejections), String(d.failedWheel + 1), num(d.controlRateHz), d.actuation, num(d.attitudeNoiseRad * ARCSEC),
-        num(d.adversarialEta), String(d.noiseSeed), cell(r.reason),
+        String(d.index),
+        cell(r.controllerId),
+        map[k]!.outcome[ci],
+        r.status,
+        num(r.settleTimeS),
+        r.unwound ? '1' : '0',
+        r.longWay ? '1' : '0',
+        r.chattered ? '1' : '0',
+        num(r.rotationTravelledDeg),
+        num(r.shortestRotationDeg),
+        num(r.extraRotationDeg),
+        String(r.jumps),
+        num(r.chatterPerS),
+        num(r.peakWheelTorqueFraction),
+        num(r.peakWheelMomentumFraction),
+        num(r.finalErrorDeg),
+        num(r.endS),
+        num(d.errorAngleRad * DEG_PER_RAD),
+        num(d.errorAxis[0]),
+        num(d.errorAxis[1]),
+        num(d.errorAxis[2]),
+        num(d.errorEta),
+        num(d.q0[0]),
+        num(d.q0[1]),
+        num(d.q0[2]),
+        num(d.q0[3]),
+        num(d.omega0RadPerS[0]! * DEG_PER_RAD),
+        num(d.omega0RadPerS[1]! * DEG_PER_RAD),
+        num(d.omega0RadPerS[2]! * DEG_PER_RAD),
+        String(d.inertiaRejections),
+        String(d.failedWheel + 1),
+        num(d.controlRateHz),
+        d.actuation,
+        num(d.attitudeNoiseRad * ARCSEC_PER_RAD),
+        num(d.adversarialEta),
+        String(d.noiseSeed),
+        cell(r.reason),
       ];
       lines.push(row.join(','));
     });

@@ -10,8 +10,8 @@
  *   studyCaseScenario(json, overrides, index)                 one case as a normal scenario file
  *   rerunStudyCase(json, overrides, index, controllerId?)     one case re-flown with full traces
  */
-export type { StudyDefinition, AttitudeDispersion, ActuationMode } from './definition';
-export { defaultStudySpec, DEFAULT_DURATION_S, DEFAULT_SETTLED_FOR_S, DEFAULT_WORST_CASES } from './definition';
+export type { StudyDefinition, AttitudeDispersion, ActuationMode } from '../scenario/study';
+export { defaultStudySpec, DEFAULT_DURATION_S, DEFAULT_SETTLED_FOR_S, DEFAULT_WORST_CASES } from '../scenario/study';
 export type { CaseDraw, NominalCase } from './sample';
 export { drawCase, haarAngleBetween, MAX_CASE_INDEX, MAX_INERTIA_ATTEMPTS, SLOT } from './sample';
 export type { StudyContext, StudyOverrides } from './context';

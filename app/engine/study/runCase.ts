@@ -19,6 +19,7 @@ import type { Gyrostat } from '../body/gyrostat';
 import type { StudyContext } from './context';
 import type { CaseDraw } from './sample';
 import { drawCase } from './sample';
+import { DEG_PER_RAD } from '../units';
 
 /** Samples of the decimated error-angle trace kept for every run (fixed grid over durationS). */
 export const TRACE_SAMPLES = 120;
@@ -70,8 +71,6 @@ export interface CaseRecord {
   runs: CaseRun[];
 }
 
-const DEG = 180 / Math.PI;
-
 /** The case's truth vehicle, or why it cannot fly. */
 export interface CaseVehicle {
   plant: Gyrostat;
@@ -97,7 +96,11 @@ export function buildCaseVehicle(ctx: StudyContext, d: CaseDraw): { ok: true; va
     return { ok: false, reason: `${lost}${wheels.errors[0]!.message}` };
   }
   const fr = ctx.prepared.scenario.vehicle.wheelFriction;
-  const plant = makeGyrostat(inertia.value.J, wheels.value, fr ? { viscousNmsPerRad: fr.viscousNmPerRadPerS, coulombNm: fr.coulombNm } : undefined);
+  const plant = makeGyrostat(
+    inertia.value.J,
+    wheels.value,
+    fr ? { viscousNmsPerRad: fr.viscousNmPerRadPerS, coulombNm: fr.coulombNm } : undefined,
+  );
   if (!plant.ok) return { ok: false, reason: plant.errors[0]!.message };
   const h0n = ctx.prepared.scenario.initial.hWheelNms;
   return { ok: true, value: { plant: plant.value, wheels: wheels.value, hWheel0: Float64Array.from(kept.map((i) => h0n[i])), kept } };
@@ -107,7 +110,10 @@ export function buildCaseVehicle(ctx: StudyContext, d: CaseDraw): { ok: true; va
 function fixedTarget(q: Float64Array): ReferenceSource {
   return {
     at: (_t, qo, w, wd) => {
-      qo[0] = q[0]!; qo[1] = q[1]!; qo[2] = q[2]!; qo[3] = q[3]!;
+      qo[0] = q[0]!;
+      qo[1] = q[1]!;
+      qo[2] = q[2]!;
+      qo[3] = q[3]!;
       w[0] = w[1] = w[2] = 0;
       wd[0] = wd[1] = wd[2] = 0;
       return 0;
@@ -134,13 +140,22 @@ interface Flown {
 }
 
 /** The reference of a case, or why it has none (profiled mode with an infeasible plan). */
-export function caseReference(ctx: StudyContext, d: CaseDraw, v: CaseVehicle): { ok: true; ref: ReferenceSource } | { ok: false; reason: string } {
+export function caseReference(
+  ctx: StudyContext,
+  d: CaseDraw,
+  v: CaseVehicle,
+): { ok: true; ref: ReferenceSource } | { ok: false; reason: string } {
   if (ctx.def.mode === 'direct') return { ok: true, ref: fixedTarget(ctx.target) };
   const p = ctx.prepared;
   const s = p.scenario;
   const hBody = applyAxes(new Float64Array(3), v.wheels, v.hWheel0);
   const plan = planSequence(
-    { qStart: d.q0, inertia: p.vehicle.plant.Jperp, wheelMomentumBody: hBody, targets: [{ q: ctx.target, holdS: s.targets[0]!.holdS, label: s.targets[0]!.label }] },
+    {
+      qStart: d.q0,
+      inertia: p.vehicle.plant.Jperp,
+      wheelMomentumBody: hBody,
+      targets: [{ q: ctx.target, holdS: s.targets[0]!.holdS, label: s.targets[0]!.label }],
+    },
     planLimits(s, p.vehicle),
   );
   if (!plan.ok) return { ok: false, reason: `no plan: ${plan.errors[0]!.message}` };
@@ -155,7 +170,14 @@ function actuationOf(ctx: StudyContext, d: CaseDraw): Actuation {
 }
 
 /** Fly one controller on a built case (full run result; used by runCase and the exact re-run). */
-export function flyCase(ctx: StudyContext, d: CaseDraw, v: CaseVehicle, ref: ReferenceSource, c: BuiltController, shouldStop?: () => boolean): Flown {
+export function flyCase(
+  ctx: StudyContext,
+  d: CaseDraw,
+  v: CaseVehicle,
+  ref: ReferenceSource,
+  c: BuiltController,
+  shouldStop?: () => boolean,
+): Flown {
   const s = ctx.prepared.scenario;
   usePlantModel(ctx, v);
   try {
@@ -243,7 +265,7 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
     const tk = k * dtGrid;
     if (tk > tr.t[n - 1]! + 1e-9) break;
     while (i < n - 1 && tr.t[i]! < tk - 1e-9) i++;
-    trace[k] = tr.errorAngle[i]! * DEG;
+    trace[k] = tr.errorAngle[i]! * DEG_PER_RAD;
     count = k + 1;
   }
   const finite = (x: number) => (Number.isFinite(x) ? x : 0);
@@ -252,9 +274,9 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
     status,
     reason: status === 'failed' ? f.res.outcome.message : '',
     settleTimeS: m.settleTimeS,
-    rotationTravelledDeg: finite(m.rotationTravelledRad * DEG),
-    shortestRotationDeg: finite(m.shortestRotationRad * DEG),
-    extraRotationDeg: finite((m.rotationTravelledRad - m.shortestRotationRad) * DEG),
+    rotationTravelledDeg: finite(m.rotationTravelledRad * DEG_PER_RAD),
+    shortestRotationDeg: finite(m.shortestRotationRad * DEG_PER_RAD),
+    extraRotationDeg: finite((m.rotationTravelledRad - m.shortestRotationRad) * DEG_PER_RAD),
     unwound: m.unwound || (farLift && !SO3_LAWS.has(c.law) && Math.abs(d.errorEta) >= d.adversarialEta),
     longWay: farLift,
     jumps: m.jumps,
@@ -262,7 +284,7 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
     chattered: m.chatterPerS >= CHATTER_THRESHOLD_PER_S,
     peakWheelTorqueFraction: finite(m.peakWheelTorqueFraction),
     peakWheelMomentumFraction: finite(m.peakWheelMomentumFraction),
-    finalErrorDeg: finite(m.finalErrorRad * DEG),
+    finalErrorDeg: finite(m.finalErrorRad * DEG_PER_RAD),
     finalEta: finite(finalEta),
     endS: n > 0 ? tr.t[n - 1]! : 0,
     errorTraceDeg: trace,
@@ -272,9 +294,25 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
 
 function unflyableRun(c: BuiltController, reason: string): CaseRun {
   return {
-    controllerId: c.id, status: 'unflyable', reason, settleTimeS: null, rotationTravelledDeg: 0, shortestRotationDeg: 0,
-    extraRotationDeg: 0, unwound: false, longWay: false, jumps: 0, chatterPerS: 0, chattered: false, peakWheelTorqueFraction: 0,
-    peakWheelMomentumFraction: 0, finalErrorDeg: 0, finalEta: 0, endS: 0, errorTraceDeg: new Float32Array(TRACE_SAMPLES), traceCount: 0,
+    controllerId: c.id,
+    status: 'unflyable',
+    reason,
+    settleTimeS: null,
+    rotationTravelledDeg: 0,
+    shortestRotationDeg: 0,
+    extraRotationDeg: 0,
+    unwound: false,
+    longWay: false,
+    jumps: 0,
+    chatterPerS: 0,
+    chattered: false,
+    peakWheelTorqueFraction: 0,
+    peakWheelMomentumFraction: 0,
+    finalErrorDeg: 0,
+    finalEta: 0,
+    endS: 0,
+    errorTraceDeg: new Float32Array(TRACE_SAMPLES),
+    traceCount: 0,
   };
 }
 

@@ -43,7 +43,12 @@ export function studyInfo(ctx: StudyContext): StudyInfo {
  * Run the given case indices in order; `onCase` sees each finished case. Stops between (and
  * inside) cases when `shouldStop` returns true; an interrupted case is dropped.
  */
-export function runStudyChunk(ctx: StudyContext, indices: readonly number[], onCase: (r: CaseRecord) => void, shouldStop?: () => boolean): number {
+export function runStudyChunk(
+  ctx: StudyContext,
+  indices: readonly number[],
+  onCase: (r: CaseRecord) => void,
+  shouldStop?: () => boolean,
+): number {
   let n = 0;
   for (const i of indices) {
     if (shouldStop?.()) break;

@@ -21,7 +21,7 @@ import { makeRng } from '../math/prng';
 import { m3Create, symmetricEigen3 } from '../math/mat3';
 import { qConjMultiply, qFromAxisAngle, qMultiply, qNormalize, qRandomUniform, qToMat3 } from '../math/rotation';
 import { validateInertia } from '../body/inertia';
-import type { ActuationMode, StudyDefinition } from './definition';
+import type { ActuationMode, StudyDefinition } from '../scenario/study';
 
 /** Random-stream slot of each dispersion within a case (stream = 16·index + slot). */
 export const SLOT = {
@@ -104,7 +104,8 @@ function unitVector(out: number[], rng: Rng): number[] {
 export function haarAngleBetween(rng: Rng, lo: number, hi: number): number {
   const F = (t: number) => t - Math.sin(t);
   const target = F(lo) + rng.next() * (F(hi) - F(lo));
-  let a = lo, b = hi;
+  let a = lo,
+    b = hi;
   for (let k = 0; k < 60 && b - a > 0; k++) {
     const m = 0.5 * (a + b);
     if (F(m) < target) a = m;
@@ -203,9 +204,13 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
   const rateBiasRadPerS = [0, 1, 2].map((i) => nom.rateBiasRadPerS[i]! + (bs > 0 ? bs * sr.normal() : 0));
 
   const rates = def.controlRateHz;
-  const controlRateHz = rates ? rates[Math.min(rates.length - 1, Math.floor(stream(def, index, SLOT.controlRate).next() * rates.length))]! : nom.controlRateHz;
+  const controlRateHz = rates
+    ? rates[Math.min(rates.length - 1, Math.floor(stream(def, index, SLOT.controlRate).next() * rates.length))]!
+    : nom.controlRateHz;
   const acts = def.actuation;
-  const actuation = acts ? acts[Math.min(acts.length - 1, Math.floor(stream(def, index, SLOT.actuation).next() * acts.length))]! : nom.actuation;
+  const actuation = acts
+    ? acts[Math.min(acts.length - 1, Math.floor(stream(def, index, SLOT.actuation).next() * acts.length))]!
+    : nom.actuation;
   const noiseSeed = Math.floor(stream(def, index, SLOT.noiseSeed).next() * 4294967296);
 
   // Initial error in the target frame: its axis and angle place the case on the outcome map.

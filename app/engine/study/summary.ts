@@ -17,7 +17,8 @@
  * a settle-time quantile that falls on runs that never settled is null ("not within durationS").
  */
 import type { CaseRecord, CaseRun } from './runCase';
-import type { StudyDefinition } from './definition';
+import type { StudyDefinition } from '../scenario/study';
+import { DEG_PER_RAD } from '../units';
 
 export interface Histogram {
   quantity: string;
@@ -181,9 +182,18 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
     const share = (k: number) => (n > 0 ? k / n : 0);
     const settleTimes = fly.map((x) => (x.r.status === 'settled' && x.r.settleTimeS !== null ? x.r.settleTimeS : Infinity));
     const of = (f: (r: CaseRun) => number) => fly.map((x) => f(x.r));
-    const worst = [...fly].sort(worstOrder).slice(0, def.worstCases).map(({ i, r }) => ({
-      index: i, status: r.status, settleTimeS: r.settleTimeS, finalErrorDeg: r.finalErrorDeg, unwound: r.unwound, chattered: r.chattered, reason: r.reason,
-    }));
+    const worst = [...fly]
+      .sort(worstOrder)
+      .slice(0, def.worstCases)
+      .map(({ i, r }) => ({
+        index: i,
+        status: r.status,
+        settleTimeS: r.settleTimeS,
+        finalErrorDeg: r.finalErrorDeg,
+        unwound: r.unwound,
+        chattered: r.chattered,
+        reason: r.reason,
+      }));
     return {
       controllerId: c.id,
       label: c.label,
@@ -209,13 +219,49 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
       finalErrorDeg: spread(of((r) => r.finalErrorDeg)),
       extraRotationDeg: spread(of((r) => r.extraRotationDeg)),
       histograms: {
-        settleTimeS: histogram('settle time', 's', range(20, def.durationS / 20), settleTimes.filter(Number.isFinite), settleTimes.filter((t) => !Number.isFinite(t)).length),
-        rotationTravelledDeg: histogram('rotation travelled', 'deg', range(24, 15), of((r) => r.rotationTravelledDeg)),
-        jumps: histogram('logic jumps', 'count', range(10, 1), of((r) => r.jumps)),
-        chatterPerS: histogram('chatter', 'events/s', [0, 0.1, 0.2, 0.5, 1, 2, 5], of((r) => r.chatterPerS)),
-        peakWheelMomentumFraction: histogram('peak wheel momentum', 'fraction of limit', range(20, 0.05), of((r) => r.peakWheelMomentumFraction)),
-        peakWheelTorqueFraction: histogram('peak wheel torque', 'fraction of limit', range(20, 0.05), of((r) => r.peakWheelTorqueFraction)),
-        finalErrorDeg: histogram('final error', 'deg', [0, 0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 90], of((r) => r.finalErrorDeg)),
+        settleTimeS: histogram(
+          'settle time',
+          's',
+          range(20, def.durationS / 20),
+          settleTimes.filter(Number.isFinite),
+          settleTimes.filter((t) => !Number.isFinite(t)).length,
+        ),
+        rotationTravelledDeg: histogram(
+          'rotation travelled',
+          'deg',
+          range(24, 15),
+          of((r) => r.rotationTravelledDeg),
+        ),
+        jumps: histogram(
+          'logic jumps',
+          'count',
+          range(10, 1),
+          of((r) => r.jumps),
+        ),
+        chatterPerS: histogram(
+          'chatter',
+          'events/s',
+          [0, 0.1, 0.2, 0.5, 1, 2, 5],
+          of((r) => r.chatterPerS),
+        ),
+        peakWheelMomentumFraction: histogram(
+          'peak wheel momentum',
+          'fraction of limit',
+          range(20, 0.05),
+          of((r) => r.peakWheelMomentumFraction),
+        ),
+        peakWheelTorqueFraction: histogram(
+          'peak wheel torque',
+          'fraction of limit',
+          range(20, 0.05),
+          of((r) => r.peakWheelTorqueFraction),
+        ),
+        finalErrorDeg: histogram(
+          'final error',
+          'deg',
+          [0, 0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 90],
+          of((r) => r.finalErrorDeg),
+        ),
       },
       worst,
     };
@@ -243,7 +289,7 @@ export function outcomeMap(recordsIn: readonly CaseRecord[]): MapPoint[] {
   return sortRecords(recordsIn).map((rec) => ({
     index: rec.draw.index,
     axis: [rec.draw.errorAxis[0]!, rec.draw.errorAxis[1]!, rec.draw.errorAxis[2]!],
-    angleDeg: (rec.draw.errorAngleRad * 180) / Math.PI,
+    angleDeg: rec.draw.errorAngleRad * DEG_PER_RAD,
     eta0: rec.draw.errorEta,
     outcome: rec.runs.map(outcomeOf),
     settleTimeS: rec.runs.map((r) => r.settleTimeS),

@@ -34,7 +34,9 @@ function finite3(v: ArrayLike<number>): boolean {
 export function allocateMinNorm(out: Float64Array, arr: WheelArray, bodyTorque: ArrayLike<number>): Float64Array {
   const n = arr.n;
   if (!finite3(bodyTorque)) return out.fill(0, 0, n);
-  const x = bodyTorque[0]!, y = bodyTorque[1]!, z = bodyTorque[2]!;
+  const x = bodyTorque[0]!,
+    y = bodyTorque[1]!,
+    z = bodyTorque[2]!;
   const p = arr.pinv;
   for (let i = 0; i < n; i++) out[i] = -(p[3 * i]! * x + p[3 * i + 1]! * y + p[3 * i + 2]! * z);
   return out;

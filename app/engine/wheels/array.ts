@@ -74,11 +74,7 @@ export function makeWheelArray(specs: unknown, path = 'wheels'): Result<WheelArr
     errs.add(path, 'min-wheels', `${path} needs at least 3 wheels to give torque about every axis (got ${n})`);
   }
   if (n > MAX_WHEELS) {
-    errs.add(
-      path,
-      'max-wheels',
-      `${path} may hold at most ${MAX_WHEELS} wheels (got ${n}); only the first ${INSPECT_LIMIT} are checked`,
-    );
+    errs.add(path, 'max-wheels', `${path} may hold at most ${MAX_WHEELS} wheels (got ${n}); only the first ${INSPECT_LIMIT} are checked`);
   }
   const m = Math.min(n, INSPECT_LIMIT);
   const axes = new Float64Array(3 * m);
@@ -103,7 +99,8 @@ export function makeWheelArray(specs: unknown, path = 'wheels'): Result<WheelArr
   let svd = null as ReturnType<typeof axisSvd> | null;
   if (n >= 3 && n <= MAX_WHEELS && axisOk.every(Boolean)) {
     svd = axisSvd(axes, n);
-    const s0 = svd.sigma[0]!, s2 = svd.sigma[2]!;
+    const s0 = svd.sigma[0]!,
+      s2 = svd.sigma[2]!;
     const rank = svd.sigma.reduce((r, s) => r + (s > SPAN_TOLERANCE * s0 ? 1 : 0), 0);
     if (rank < 3) {
       errs.add(
@@ -124,10 +121,7 @@ export function makeWheelArray(specs: unknown, path = 'wheels'): Result<WheelArr
   if (!errs.empty || svd === null) return fail(errs.items, warnings);
   const pinv = pseudoInverseFromSvd(new Float64Array(3 * n), svd, n);
   const nullBasis = nullSpaceBasis(axes, n);
-  return ok(
-    { n, axes, maxTorqueNm, maxMomentumNms, rotorInertiaKgm2, pinv, nullBasis, singularValues: svd.sigma },
-    warnings,
-  );
+  return ok({ n, axes, maxTorqueNm, maxMomentumNms, rotorInertiaKgm2, pinv, nullBasis, singularValues: svd.sigma }, warnings);
 }
 
 function readAxis(errs: IssueList, warnings: Issue[], p: string, v: unknown, axes: Float64Array, i: number): boolean {
@@ -140,7 +134,9 @@ function readAxis(errs: IssueList, warnings: Issue[], p: string, v: unknown, axe
   let finite = true;
   for (let c = 0; c < 3; c++) finite = errs.finite(`${p}[${c}]`, arr[c]) && finite;
   if (!finite) return false;
-  const x = arr[0] as number, y = arr[1] as number, z = arr[2] as number;
+  const x = arr[0] as number,
+    y = arr[1] as number,
+    z = arr[2] as number;
   const norm = Math.hypot(x, y, z);
   if (norm === 0) {
     errs.add(p, 'nonzero-axis', `${p} is the zero vector; a spin axis needs a direction`);
@@ -180,7 +176,9 @@ function parallelWarnings(warnings: Issue[], path: string, axes: Float64Array, n
 
 /** out (length n) = G⁺ v: minimum-norm wheel-space image of a body vector (e.g. momentum H → h). */
 export function applyPinv(out: Float64Array, arr: WheelArray, v: ArrayLike<number>): Float64Array {
-  const x = v[0]!, y = v[1]!, z = v[2]!;
+  const x = v[0]!,
+    y = v[1]!,
+    z = v[2]!;
   const p = arr.pinv;
   for (let i = 0; i < arr.n; i++) out[i] = p[3 * i]! * x + p[3 * i + 1]! * y + p[3 * i + 2]! * z;
   return out;
@@ -188,7 +186,9 @@ export function applyPinv(out: Float64Array, arr: WheelArray, v: ArrayLike<numbe
 
 /** out (3) = G w: body-frame sum of wheel quantities (e.g. stored momentum G h). */
 export function applyAxes(out: Float64Array, arr: WheelArray, w: ArrayLike<number>): Float64Array {
-  let x = 0, y = 0, z = 0;
+  let x = 0,
+    y = 0,
+    z = 0;
   const a = arr.axes;
   for (let i = 0; i < arr.n; i++) {
     const wi = w[i]!;

@@ -36,7 +36,9 @@ function scaled(arr: WheelArray, lim: Float64Array): Float64Array {
 /** Support function h_Z(d) = max_{x∈Z} dᵀx = Σ_i |v_iᵀ d| (d need not be unit). */
 export function envelopeSupport(z: Zonotope, d: ArrayLike<number>): number {
   const g = z.generators;
-  const dx = d[0]!, dy = d[1]!, dz = d[2]!;
+  const dx = d[0]!,
+    dy = d[1]!,
+    dz = d[2]!;
   let s = 0;
   for (let i = 0; i < z.n; i++) s += Math.abs(g[3 * i]! * dx + g[3 * i + 1]! * dy + g[3 * i + 2]! * dz);
   return s;
@@ -58,7 +60,9 @@ export function envelopeCapacity(z: Zonotope, d: ArrayLike<number>): number {
 export function envelopeBindingFace(z: Zonotope, d: ArrayLike<number>): number {
   const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
   if (!(dn > 0) || !Number.isFinite(dn)) return -1;
-  const ux = d[0]! / dn, uy = d[1]! / dn, uz = d[2]! / dn;
+  const ux = d[0]! / dn,
+    uy = d[1]! / dn,
+    uz = d[2]! / dn;
   const N = z.faceOffsets.length;
   let best = Infinity;
   let face = -1;

@@ -113,13 +113,15 @@ function limitCore(
   const n = arr.n;
   if (!(dt >= 0) || !Number.isFinite(dt)) return invalid(out, n, info);
   for (let i = 0; i < n; i++) if (!Number.isFinite(cmd[i]) || !Number.isFinite(h[i])) return invalid(out, n, info);
-  const lT = arr.maxTorqueNm, hMax = arr.maxMomentumNms;
+  const lT = arr.maxTorqueNm,
+    hMax = arr.maxMomentumNms;
   let anyViolated = false;
   let momViolated = false;
   for (let i = 0; i < n; i++) {
     const c = cmd[i]!;
     cmdS[i] = c;
-    let mLo = -Infinity, mHi = Infinity;
+    let mLo = -Infinity,
+      mHi = Infinity;
     if (dt > 0) {
       mLo = (-hMax[i]! - h[i]!) / dt;
       mHi = (hMax[i]! - h[i]!) / dt;
@@ -183,12 +185,16 @@ function limitCore(
  * α = L(α⁺ − α⁻) with L = max τ_max. Leaves the optimum in lpZ; returns s (0 on failure).
  */
 function maxScaleLp(arr: WheelArray): number {
-  const n = arr.n, k = n - 3, l = arr.maxTorqueNm, B = arr.nullBasis;
+  const n = arr.n,
+    k = n - 3,
+    l = arr.maxTorqueNm,
+    B = arr.nullBasis;
   const nv = 2 * k + 1;
   let lMax = 0;
   for (let i = 0; i < n; i++) lMax = Math.max(lMax, l[i]!);
   for (let i = 0; i < n; i++) {
-    const up = 2 * i * nv, dn = (2 * i + 1) * nv;
+    const up = 2 * i * nv,
+      dn = (2 * i + 1) * nv;
     const ci = cmdS[i]! / l[i]!;
     lpA[up] = ci;
     lpA[dn] = -ci;
@@ -214,7 +220,9 @@ function maxScaleLp(arr: WheelArray): number {
 
 /** Null-space term from LP1's solution (lpZ), into nsTerm. */
 function readAlphaFromLp1(arr: WheelArray): void {
-  const n = arr.n, k = n - 3, B = arr.nullBasis;
+  const n = arr.n,
+    k = n - 3,
+    B = arr.nullBasis;
   let lMax = 0;
   for (let i = 0; i < n; i++) lMax = Math.max(lMax, arr.maxTorqueNm[i]!);
   nsTerm.fill(0, 0, n);
@@ -233,16 +241,23 @@ function readAlphaFromLp1(arr: WheelArray): void {
  * Adds Bδ to nsTerm on success; leaves nsTerm (= Bα₁) when the LP fails.
  */
 function minDeviationLp(arr: WheelArray, s: number): void {
-  const n = arr.n, k = n - 3, l = arr.maxTorqueNm, B = arr.nullBasis;
+  const n = arr.n,
+    k = n - 3,
+    l = arr.maxTorqueNm,
+    B = arr.nullBasis;
   const nv = 2 * k + 1;
-  let lMax = 0, t1 = 0;
+  let lMax = 0,
+    t1 = 0;
   for (let i = 0; i < n; i++) {
     lMax = Math.max(lMax, l[i]!);
     t1 = Math.max(t1, Math.abs(nsTerm[i]!) / l[i]!);
   }
   if (t1 === 0) return; // α₁ = 0 is already the smallest change
   for (let i = 0; i < n; i++) {
-    const r0 = 4 * i * nv, r1 = r0 + nv, r2 = r1 + nv, r3 = r2 + nv;
+    const r0 = 4 * i * nv,
+      r1 = r0 + nv,
+      r2 = r1 + nv,
+      r3 = r2 + nv;
     for (let j = 0; j < k; j++) {
       const b = (B[j * n + i]! * lMax) / l[i]!;
       lpA[r0 + j] = b;
@@ -335,12 +350,15 @@ function isMomentumBound(out: Float64Array, i: number, arr: WheelArray): boolean
  * k (1/s). Zero for three wheels or non-finite input.
  */
 export function nullSpaceMomentumBleed(out: Float64Array, arr: WheelArray, hWheel: ArrayLike<number>, gain: number): Float64Array {
-  const n = arr.n, k = n - 3, B = arr.nullBasis;
+  const n = arr.n,
+    k = n - 3,
+    B = arr.nullBasis;
   out.fill(0, 0, n);
   if (!Number.isFinite(gain)) return out;
   for (let i = 0; i < n; i++) if (!Number.isFinite(hWheel[i])) return out;
   for (let j = 0; j < k; j++) {
-    let dot = 0, nn = 0;
+    let dot = 0,
+      nn = 0;
     for (let i = 0; i < n; i++) {
       dot += B[j * n + i]! * hWheel[i]!;
       nn += B[j * n + i]! * B[j * n + i]!;

@@ -32,9 +32,12 @@ export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
     let rotated = false;
     for (let p = 0; p < 2; p++) {
       for (let r = p + 1; r < 3; r++) {
-        let a = 0, b = 0, g = 0;
+        let a = 0,
+          b = 0,
+          g = 0;
         for (let i = 0; i < n; i++) {
-          const x = rows[p * n + i]!, y = rows[r * n + i]!;
+          const x = rows[p * n + i]!,
+            y = rows[r * n + i]!;
           a += x * x;
           b += y * y;
           g += x * y;
@@ -46,12 +49,14 @@ export function axisSvd(axes: ArrayLike<number>, n: number): AxisSvd {
         const c = 1 / Math.sqrt(1 + t * t);
         const s = c * t;
         for (let i = 0; i < n; i++) {
-          const x = rows[p * n + i]!, y = rows[r * n + i]!;
+          const x = rows[p * n + i]!,
+            y = rows[r * n + i]!;
           rows[p * n + i] = c * x - s * y;
           rows[r * n + i] = s * x + c * y;
         }
         for (let j = 0; j < 3; j++) {
-          const x = q[3 * p + j]!, y = q[3 * r + j]!;
+          const x = q[3 * p + j]!,
+            y = q[3 * r + j]!;
           q[3 * p + j] = c * x - s * y;
           q[3 * r + j] = s * x + c * y;
         }

@@ -43,7 +43,8 @@ export function pyramid(opts: PyramidOptions): WheelSpec[] {
   const count = Number.isFinite(raw) ? Math.max(0, Math.min(MAX_WHEELS + 1, Math.trunc(raw))) : 0;
   const beta = opts.cantAngleRad;
   const phi0 = opts.azimuthOffsetRad ?? 0;
-  const sb = Math.sin(beta), cb = Math.cos(beta);
+  const sb = Math.sin(beta),
+    cb = Math.cos(beta);
   const out: WheelSpec[] = [];
   for (let i = 0; i < count; i++) {
     const phi = phi0 + (2 * Math.PI * i) / count;

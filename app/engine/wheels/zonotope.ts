@@ -97,7 +97,9 @@ export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope
   const vertexSigns = new Int8Array(V * n);
   for (let v = 0; v < V; v++) {
     const p = st.patterns[v]!;
-    let x = 0, y = 0, z = 0;
+    let x = 0,
+      y = 0,
+      z = 0;
     for (let i = 0; i < n; i++) {
       x += p[i]! * generators[3 * i]!;
       y += p[i]! * generators[3 * i + 1]!;
@@ -111,9 +113,12 @@ export function makeZonotope(generators: Float64Array, n: number, kind: Zonotope
   const F = st.faces.length;
   const faceNormals = Float64Array.from(st.normals);
   const faceOffsets = new Float64Array(F);
-  let triCount = 0, edgeTwice = 0;
+  let triCount = 0,
+    edgeTwice = 0;
   for (let f = 0; f < F; f++) {
-    const nx = faceNormals[3 * f]!, ny = faceNormals[3 * f + 1]!, nz = faceNormals[3 * f + 2]!;
+    const nx = faceNormals[3 * f]!,
+      ny = faceNormals[3 * f + 1]!,
+      nz = faceNormals[3 * f + 2]!;
     let s = 0;
     for (let i = 0; i < n; i++) s += Math.abs(generators[3 * i]! * nx + generators[3 * i + 1]! * ny + generators[3 * i + 2]! * nz);
     faceOffsets[f] = s;
@@ -154,14 +159,16 @@ function isClosedSurface(st: Structure): boolean {
   for (const f of st.faces) {
     if (f.length < 3) return false;
     for (let j = 0; j < f.length; j++) {
-      const u = f[j]!, v = f[(j + 1) % f.length]!;
+      const u = f[j]!,
+        v = f[(j + 1) % f.length]!;
       const key = u * V + v;
       if (u === v || seen.has(key)) return false;
       seen.add(key);
     }
   }
   for (const key of seen) {
-    const u = Math.floor(key / V), v = key % V;
+    const u = Math.floor(key / V),
+      v = key % V;
     if (!seen.has(v * V + u)) return false;
   }
   return V - seen.size / 2 + F === 2;
@@ -173,13 +180,19 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
   const classSign = new Int8Array(n); // g_i = classSign · |g_i| · classDir
   const dir: number[] = [];
   for (let i = 0; i < n; i++) {
-    const x = gen[3 * i]!, y = gen[3 * i + 1]!, z = gen[3 * i + 2]!;
+    const x = gen[3 * i]!,
+      y = gen[3 * i + 1]!,
+      z = gen[3 * i + 2]!;
     const L = Math.hypot(x, y, z);
     if (!(L > 0) || !Number.isFinite(L)) continue;
-    const ux = x / L, uy = y / L, uz = z / L;
+    const ux = x / L,
+      uy = y / L,
+      uz = z / L;
     let found = -1;
     for (let a = 0; a < dir.length / 3; a++) {
-      const dx = dir[3 * a]!, dy = dir[3 * a + 1]!, dz = dir[3 * a + 2]!;
+      const dx = dir[3 * a]!,
+        dy = dir[3 * a + 1]!,
+        dz = dir[3 * a + 2]!;
       if (Math.hypot(uy * dz - uz * dy, uz * dx - ux * dz, ux * dy - uy * dx) <= parTol) {
         found = a;
         break;
@@ -225,7 +238,9 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     // In-plane basis e1 (first in-plane class, projected), e2 = n × e1: (e1, e2, n) right-handed,
     // so increasing angle in (e1, e2) is counter-clockwise seen from outside.
     const a0 = inPlane[0]!;
-    let e1x = dir[3 * a0]!, e1y = dir[3 * a0 + 1]!, e1z = dir[3 * a0 + 2]!;
+    let e1x = dir[3 * a0]!,
+      e1y = dir[3 * a0 + 1]!,
+      e1z = dir[3 * a0 + 2]!;
     const p0 = e1x * nx + e1y * ny + e1z * nz;
     e1x -= p0 * nx;
     e1y -= p0 * ny;
@@ -234,7 +249,9 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     e1x /= e1n;
     e1y /= e1n;
     e1z /= e1n;
-    const e2x = ny * e1z - nz * e1y, e2y = nz * e1x - nx * e1z, e2z = nx * e1y - ny * e1x;
+    const e2x = ny * e1z - nz * e1y,
+      e2y = nz * e1x - nx * e1z,
+      e2z = nx * e1y - ny * e1x;
     // Orient each in-plane class into angles [0, π) and sort; the zonogon walk then turns monotonically.
     const order = inPlane.map((a) => {
       const u = dir[3 * a]! * e1x + dir[3 * a + 1]! * e1y + dir[3 * a + 2]! * e1z;
@@ -268,7 +285,9 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
       const cy = dir[3 * a + 2]! * dir[3 * b]! - dir[3 * a]! * dir[3 * b + 2]!;
       const cz = dir[3 * a]! * dir[3 * b + 1]! - dir[3 * a + 1]! * dir[3 * b]!;
       const cn = Math.hypot(cx, cy, cz);
-      const nx = cx / cn, ny = cy / cn, nz = cz / cn;
+      const nx = cx / cn,
+        ny = cy / cn,
+        nz = cz / cn;
       inPlane.length = 0;
       isIn.fill(0);
       for (let e = 0; e < m; e++) {

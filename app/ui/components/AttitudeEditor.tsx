@@ -24,7 +24,10 @@ export function AttitudeEditor({ path, chainIndex, allowRelative }: { path: stri
     if (form === 'quaternion') return [base, ...[0, 1, 2, 3].map((k) => `${base}[${k}]`)];
     if (form === 'euler') return [`${base}.sequence`, `${base}.anglesDeg`, ...[0, 1, 2].map((k) => `${base}.anglesDeg[${k}]`)];
     if (form === 'pointing')
-      return ['bodyAxis', 'inertialDirection', 'bodySecondary', 'inertialSecondary'].flatMap((f) => [`${base}.${f}`, ...[0, 1, 2].map((k) => `${base}.${f}[${k}]`)]);
+      return ['bodyAxis', 'inertialDirection', 'bodySecondary', 'inertialSecondary'].flatMap((f) => [
+        `${base}.${f}`,
+        ...[0, 1, 2].map((k) => `${base}.${f}[${k}]`),
+      ]);
     return [`${base}.angleDeg`, `${base}.axis`, ...[0, 1, 2].map((k) => `${base}.axis[${k}]`)];
   }, [path, form]);
   const other = useIssuesUnder(path, shown);
@@ -39,7 +42,12 @@ export function AttitudeEditor({ path, chainIndex, allowRelative }: { path: stri
 
   return (
     <div className="attitude">
-      <SelectField label="Form" value={form} choices={allowRelative ? FORMS : FORMS.filter((f) => f.value !== 'relative')} onChoose={(f) => choose(f)} />
+      <SelectField
+        label="Form"
+        value={form}
+        choices={allowRelative ? FORMS : FORMS.filter((f) => f.value !== 'relative')}
+        onChoose={(f) => choose(f)}
+      />
       {form === 'quaternion' && (
         <div className="field stacked">
           <div className="stacked-field">
@@ -49,7 +57,13 @@ export function AttitudeEditor({ path, chainIndex, allowRelative }: { path: stri
                 className="small"
                 title={`Normalise (|q| = ${Number.isFinite(qn) ? qn.toPrecision(8) : '—'})`}
                 disabled={!(qn > 0) || Math.abs(qn - 1) < 1e-12}
-                onClick={() => app.store.edit(`${path}.quaternion`, (q as number[]).map((x) => tidy(x / qn)), { label: 'Normalise quaternion', coalesceKey: null })}
+                onClick={() =>
+                  app.store.edit(
+                    `${path}.quaternion`,
+                    (q as number[]).map((x) => tidy(x / qn)),
+                    { label: 'Normalise quaternion', coalesceKey: null },
+                  )
+                }
               >
                 |q|=1
               </button>
@@ -77,15 +91,30 @@ export function AttitudeEditor({ path, chainIndex, allowRelative }: { path: stri
       )}
       {form === 'pointing' && (
         <>
-          <VectorField path={`${path}.pointing.bodyAxis`} label="Body axis" stacked title="Body axis pointed exactly along the inertial direction" />
+          <VectorField
+            path={`${path}.pointing.bodyAxis`}
+            label="Body axis"
+            stacked
+            title="Body axis pointed exactly along the inertial direction"
+          />
           <VectorField path={`${path}.pointing.inertialDirection`} label="→ along inertial direction" stacked />
-          <VectorField path={`${path}.pointing.bodySecondary`} label="Body secondary axis" stacked title="Kept as close as possible to the inertial secondary" />
+          <VectorField
+            path={`${path}.pointing.bodySecondary`}
+            label="Body secondary axis"
+            stacked
+            title="Kept as close as possible to the inertial secondary"
+          />
           <VectorField path={`${path}.pointing.inertialSecondary`} label="→ towards inertial secondary" stacked />
         </>
       )}
       {form === 'relative' && (
         <>
-          <VectorField path={`${path}.relative.axis`} label="Axis (previous body frame)" stacked title="Rotation axis in the previous attitude's body frame" />
+          <VectorField
+            path={`${path}.relative.axis`}
+            label="Axis (previous body frame)"
+            stacked
+            title="Rotation axis in the previous attitude's body frame"
+          />
           <NumberField path={`${path}.relative.angleDeg`} label="Angle" unit="deg" step={5} />
         </>
       )}

@@ -112,7 +112,13 @@ function RecentMenu() {
 function CmdButton({ c, label, disabled }: { c: MenuCommand; label: string; disabled?: boolean }) {
   const app = useApp();
   return (
-    <button className="toolbar-button" onClick={() => app.command(c)} disabled={disabled} title={`${label} (${shortcut(c)})`} data-testid={`cmd-${c}`}>
+    <button
+      className="toolbar-button"
+      onClick={() => app.command(c)}
+      disabled={disabled}
+      title={`${label} (${shortcut(c)})`}
+      data-testid={`cmd-${c}`}
+    >
       {label}
     </button>
   );
@@ -137,10 +143,22 @@ export function TopBar() {
         <CmdButton c="save" label="Save" />
         <CmdButton c="save-as" label="Save as…" />
         <span className="sep" />
-        <button className="toolbar-button" disabled={!undo} onClick={() => app.command('undo')} title={undo ? `Undo ${undo.label} (${shortcut('undo')})` : 'Nothing to undo'} data-testid="cmd-undo">
+        <button
+          className="toolbar-button"
+          disabled={!undo}
+          onClick={() => app.command('undo')}
+          title={undo ? `Undo ${undo.label} (${shortcut('undo')})` : 'Nothing to undo'}
+          data-testid="cmd-undo"
+        >
           Undo
         </button>
-        <button className="toolbar-button" disabled={!redo} onClick={() => app.command('redo')} title={redo ? `Redo ${redo.label} (${shortcut('redo')})` : 'Nothing to redo'} data-testid="cmd-redo">
+        <button
+          className="toolbar-button"
+          disabled={!redo}
+          onClick={() => app.command('redo')}
+          title={redo ? `Redo ${redo.label} (${shortcut('redo')})` : 'Nothing to redo'}
+          data-testid="cmd-redo"
+        >
           Redo
         </button>
         <span className="sep" />
@@ -154,7 +172,12 @@ export function TopBar() {
       {keys && <Shortcuts onClose={() => setKeys(false)} />}
       <span className="doc" data-testid="document-name">
         {typeof name === 'string' ? name : ''} <span className="muted">— {fileName}</span>
-        {dirty && <span className="dirty" title="Unsaved changes" data-testid="dirty-marker"> ●</span>}
+        {dirty && (
+          <span className="dirty" title="Unsaved changes" data-testid="dirty-marker">
+            {' '}
+            ●
+          </span>
+        )}
       </span>
       <span className="shell muted" data-testid="shell-status">
         {app.bridge.shell} shell · {fileName}

@@ -45,7 +45,11 @@ export function CertificateBadge({ id, compared, base }: { id: string; compared:
     );
   if (!cert) return <div className="cert none">Certificate: waiting for a run…</div>;
   return (
-    <div className={`cert ${cert.admissible ? 'ok' : 'bad'} ${current ? '' : 'stale'}`} data-testid={`certificate-${id}`} title={cert.message}>
+    <div
+      className={`cert ${cert.admissible ? 'ok' : 'bad'} ${current ? '' : 'stale'}`}
+      data-testid={`certificate-${id}`}
+      title={cert.message}
+    >
       <span className="cert-verdict">{cert.admissible ? 'admissible' : 'NOT admissible'}</span>
       <span>δ* = {fmt(cert.deltaStar, 4)}</span>
       <span>δ = {fmt(cert.delta, 4)}</span>
@@ -98,21 +102,52 @@ function SynergisticExtras({ base }: { base: string }) {
     <>
       <VectorField path={`${base}.potentialWeights`} label="Weights λ" unit="—" names={['1', '2', '3']} />
       <NumberField path={`${base}.warpGain`} label="Warp gain k" unit="rad" step={0.05} />
-      <NumberField path={`${base}.hysteresis`} label="Switching δ" unit="—" step={0.005} title="Switching margin δ on the synergy gap, in potential units; must be below the certified gap δ*" />
+      <NumberField
+        path={`${base}.hysteresis`}
+        label="Switching δ"
+        unit="—"
+        step={0.005}
+        title="Switching margin δ on the synergy gap, in potential units; must be below the certified gap δ*"
+      />
       <label className="check">
         <input
           type="checkbox"
           checked={axes !== undefined}
-          onChange={(e) => app.store.edit(`${base}.potentialAxes`, e.target.checked ? [[1, 0, 0], [0, 1, 0], [0, 0, 1]] : undefined, { label: 'Potential axes', coalesceKey: null })}
+          onChange={(e) =>
+            app.store.edit(
+              `${base}.potentialAxes`,
+              e.target.checked
+                ? [
+                    [1, 0, 0],
+                    [0, 1, 0],
+                    [0, 0, 1],
+                  ]
+                : undefined,
+              { label: 'Potential axes', coalesceKey: null },
+            )
+          }
         />{' '}
         potential axes (else body x, y, z)
       </label>
-      {Array.isArray(axes) && [0, 1, 2].map((k) => <VectorField key={k} path={`${base}.potentialAxes[${k}]`} label={`Axis of λ${k + 1}`} stacked />)}
+      {Array.isArray(axes) &&
+        [0, 1, 2].map((k) => <VectorField key={k} path={`${base}.potentialAxes[${k}]`} label={`Axis of λ${k + 1}`} stacked />)}
       <label className="check">
         <input
           type="checkbox"
           checked={Array.isArray(dirs)}
-          onChange={(e) => app.store.edit(`${base}.warpDirections`, e.target.checked ? [[1, 0, 0], [0, 1, 0], [0, 0, 1]] : undefined, { label: 'Warp directions', coalesceKey: null })}
+          onChange={(e) =>
+            app.store.edit(
+              `${base}.warpDirections`,
+              e.target.checked
+                ? [
+                    [1, 0, 0],
+                    [0, 1, 0],
+                    [0, 0, 1],
+                  ]
+                : undefined,
+              { label: 'Warp directions', coalesceKey: null },
+            )
+          }
         />{' '}
         warp directions (else the potential axes)
       </label>
@@ -125,13 +160,25 @@ function SynergisticExtras({ base }: { base: string }) {
                 className="icon"
                 title={`Remove u${k + 1}`}
                 disabled={dirs.length <= 2}
-                onClick={() => app.store.edit(`${base}.warpDirections`, dirs.filter((__, i) => i !== k), { label: 'Remove warp direction', coalesceKey: null })}
+                onClick={() =>
+                  app.store.edit(
+                    `${base}.warpDirections`,
+                    dirs.filter((__, i) => i !== k),
+                    { label: 'Remove warp direction', coalesceKey: null },
+                  )
+                }
               >
                 ×
               </button>
             </div>
           ))}
-          <button className="small" disabled={dirs.length >= 12} onClick={() => app.store.edit(`${base}.warpDirections`, [...dirs, [1, 1, 0]], { label: 'Add warp direction', coalesceKey: null })}>
+          <button
+            className="small"
+            disabled={dirs.length >= 12}
+            onClick={() =>
+              app.store.edit(`${base}.warpDirections`, [...dirs, [1, 1, 0]], { label: 'Add warp direction', coalesceKey: null })
+            }
+          >
             + direction
           </button>
         </>
@@ -159,7 +206,11 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
   };
   const remove = () => {
     const list = (app.store.getState().scenario as Obj).controllers as Obj[];
-    app.store.edit('controllers', list.filter((_, k) => k !== i), { label: `Remove controller ${id}`, coalesceKey: null });
+    app.store.edit(
+      'controllers',
+      list.filter((_, k) => k !== i),
+      { label: `Remove controller ${id}`, coalesceKey: null },
+    );
   };
 
   return (
@@ -182,10 +233,23 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
       </summary>
       <TextField path={`${base}.label`} label="Label" />
       <TextField path={`${base}.id`} label="Id" />
-      <SelectField label="Law" value={law} choices={CONTROL_LAWS.map((l) => ({ value: l, label: LAW_LABELS[l] ?? l }))} onChoose={chooseLaw} />
+      <SelectField
+        label="Law"
+        value={law}
+        choices={CONTROL_LAWS.map((l) => ({ value: l, label: LAW_LABELS[l] ?? l }))}
+        onChoose={chooseLaw}
+      />
       <GainsEditor base={base} />
       {law === 'eigenaxis' && <NumberField path={`${base}.maxRateDegPerS`} label="Slew-rate limit" unit="deg/s" step={0.5} />}
-      {law === 'hysteretic' && <NumberField path={`${base}.hysteresis`} label="Hysteresis δ" unit="—" step={0.05} title="Hysteresis half-width δ on h·η (0 < δ < 1)" />}
+      {law === 'hysteretic' && (
+        <NumberField
+          path={`${base}.hysteresis`}
+          label="Hysteresis δ"
+          unit="—"
+          step={0.05}
+          title="Hysteresis half-width δ on h·η (0 < δ < 1)"
+        />
+      )}
       {law === 'synergistic' && (
         <>
           <SynergisticExtras base={base} />
@@ -200,7 +264,9 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
 
 export function ControllersPanel() {
   const app = useApp();
-  const count = useAppState((s) => (Array.isArray((s.scenario as Obj)?.controllers) ? ((s.scenario as Obj).controllers as unknown[]).length : 0));
+  const count = useAppState((s) =>
+    Array.isArray((s.scenario as Obj)?.controllers) ? ((s.scenario as Obj).controllers as unknown[]).length : 0,
+  );
   const add = () => {
     const list = ((app.store.getState().scenario as Obj).controllers as Obj[]) ?? [];
     let n = list.length + 1;

@@ -66,7 +66,14 @@ export function ExportDialog() {
             <legend>Format</legend>
             {EXPORT_FORMATS.map((f) => (
               <label key={f.value} className="radio">
-                <input type="radio" name="export-format" value={f.value} checked={format === f.value} onChange={() => setFormat(f.value)} data-testid={`format-${f.value}`} />
+                <input
+                  type="radio"
+                  name="export-format"
+                  value={f.value}
+                  checked={format === f.value}
+                  onChange={() => setFormat(f.value)}
+                  data-testid={`format-${f.value}`}
+                />
                 <strong>{f.label}</strong> <span className="muted">{f.note}</span>
               </label>
             ))}
@@ -87,7 +94,16 @@ export function ExportDialog() {
           <div className="field-row">
             <span className="field-label">Sample rate</span>
             <span className="field-control">
-              <input className={`num ${rateBad ? 'invalid' : ''}`} type="text" inputMode="decimal" placeholder="every sample" value={rateText} onChange={(e) => setRateText(e.target.value)} aria-label="export sample rate" data-testid="export-rate" />
+              <input
+                className={`num ${rateBad ? 'invalid' : ''}`}
+                type="text"
+                inputMode="decimal"
+                placeholder="every sample"
+                value={rateText}
+                onChange={(e) => setRateText(e.target.value)}
+                aria-label="export sample rate"
+                data-testid="export-rate"
+              />
             </span>
             <span className="field-unit">Hz</span>
           </div>

@@ -30,7 +30,10 @@ function InitialEditor() {
           type="checkbox"
           checked={Array.isArray(h0)}
           onChange={(e) =>
-            app.store.edit('initial.wheelMomentumMNms', e.target.checked ? new Array(n).fill(0) : undefined, { label: 'Initial wheel momentum', coalesceKey: null })
+            app.store.edit('initial.wheelMomentumMNms', e.target.checked ? new Array(n).fill(0) : undefined, {
+              label: 'Initial wheel momentum',
+              coalesceKey: null,
+            })
           }
         />{' '}
         initial wheel momentum (else zero)
@@ -71,7 +74,11 @@ function TargetCard({ i, count }: { i: number; count: number }) {
   };
   const remove = () => {
     const list = (app.store.getState().scenario as Obj).targets as Obj[];
-    app.store.edit('targets', list.filter((_, k) => k !== i), { label: `Remove target ${i + 1}`, coalesceKey: null });
+    app.store.edit(
+      'targets',
+      list.filter((_, k) => k !== i),
+      { label: `Remove target ${i + 1}`, coalesceKey: null },
+    );
   };
   return (
     <details className={`target ${issues.length ? 'has-issues' : ''}`} open={count <= 4} data-testid={`target-${i}`}>
@@ -83,9 +90,15 @@ function TargetCard({ i, count }: { i: number; count: number }) {
           {seg && !seg.feasible ? ' · infeasible' : ''}
         </span>
         <span className="target-buttons">
-          <button className="icon" title="Move up" disabled={i === 0} onClick={(e) => (e.preventDefault(), move(-1))}>↑</button>
-          <button className="icon" title="Move down" disabled={i === count - 1} onClick={(e) => (e.preventDefault(), move(1))}>↓</button>
-          <button className="icon" title="Remove target" disabled={count <= 1} onClick={(e) => (e.preventDefault(), remove())}>×</button>
+          <button className="icon" title="Move up" disabled={i === 0} onClick={(e) => (e.preventDefault(), move(-1))}>
+            ↑
+          </button>
+          <button className="icon" title="Move down" disabled={i === count - 1} onClick={(e) => (e.preventDefault(), move(1))}>
+            ↓
+          </button>
+          <button className="icon" title="Remove target" disabled={count <= 1} onClick={(e) => (e.preventDefault(), remove())}>
+            ×
+          </button>
         </span>
       </summary>
       <TextField path={`targets[${i}].label`} label="Label" />
@@ -102,10 +115,14 @@ export function ManeuverPanel() {
   const add = () => {
     const list = ((app.store.getState().scenario as Obj).targets as Obj[]) ?? [];
     const holdS = (list[list.length - 1]?.holdS as number) ?? 30;
-    app.store.edit('targets', [...list, { label: `Target ${list.length + 1}`, attitude: { relative: { axis: [0, 0, 1], angleDeg: 30 } }, holdS }], {
-      label: 'Add target',
-      coalesceKey: null,
-    });
+    app.store.edit(
+      'targets',
+      [...list, { label: `Target ${list.length + 1}`, attitude: { relative: { axis: [0, 0, 1], angleDeg: 30 } }, holdS }],
+      {
+        label: 'Add target',
+        coalesceKey: null,
+      },
+    );
   };
   return (
     <Section title="Maneuver" testId="maneuver-panel">

@@ -7,12 +7,15 @@ import { useMemo, useState } from 'react';
 import type { ComparisonRow, PipelineOutput } from '../../engine/pipeline/types';
 import { useApp, useAllIssues, useAppState } from '../context';
 import { fmt, pct } from '../format';
+import { DEG_PER_RAD } from '../../engine/units';
 
 export function RunStatus() {
   const app = useApp();
   const pipeline = useAppState((s) => s.pipeline);
   const issues = useAllIssues();
   const excluded = useAppState((s) => s.excludedControllerIds);
+  // app.blockers() reads the store; recompute when what it reads changes.
+  // eslint-disable-next-line react-hooks/exhaustive-deps
   const blockers = useMemo(() => app.blockers(), [app, issues, excluded, pipeline]);
   const blocked = blockers.length > 0;
   const warnings = useAppState((s) => (s.outputScenario === s.scenario ? s.output?.warnings : undefined));
@@ -29,7 +32,13 @@ export function RunStatus() {
   return (
     <div className={`run-status ${blocked ? 'blocked' : ''}`} data-testid="run-status" data-status={pipeline.status}>
       <div className="run-line">
-        <button className="primary" data-testid="run-button" disabled={blocked} onClick={() => app.command('run')} title="Re-plan and re-simulate now (Ctrl/Cmd+R); edits do this automatically">
+        <button
+          className="primary"
+          data-testid="run-button"
+          disabled={blocked}
+          onClick={() => app.command('run')}
+          title="Re-plan and re-simulate now (Ctrl/Cmd+R); edits do this automatically"
+        >
           Run
         </button>
         <span className={`status-text ${pipeline.status}`}>{label}</span>
@@ -83,8 +92,15 @@ export function PlanSummary() {
           <tr>
             <th>#</th>
             <th>target</th>
-            <th title="Slew angle, deg">angle<br />deg</th>
-            <th title="Slew time, s">slew<br />s</th>
+            <th title="Slew angle, deg">
+              angle
+              <br />
+              deg
+            </th>
+            <th title="Slew time, s">
+              slew
+              <br />s
+            </th>
             <th>binds</th>
             <th title="Peak torque as a fraction of the envelope">τ</th>
             <th title="Peak momentum as a fraction of the envelope">h</th>
@@ -98,7 +114,7 @@ export function PlanSummary() {
                 {g.label}
                 {!g.feasible && <div className="issue error">{g.reason}</div>}
               </td>
-              <td className="num">{fmt((g.angleRad * 180) / Math.PI, 4)}</td>
+              <td className="num">{fmt(g.angleRad * DEG_PER_RAD, 4)}</td>
               <td className="num">{fmt(g.slewTimeS, 4)}</td>
               <td>{BINDING_TEXT[g.binding] ?? g.binding}</td>
               <td className="num">{pct(g.peakTorqueFraction)}</td>
@@ -164,7 +180,12 @@ export function ComparisonTable() {
     <div className={`comparison ${current ? '' : 'stale'} ${wide ? 'wide' : ''}`} data-testid="comparison">
       <div className="panel-head">
         Comparison <span className="muted">· ★ best per metric · tick runs to plot</span>
-        <button className="small push-right" onClick={() => setWide(!wide)} title={wide ? 'Back to the side column' : 'Show every run side by side over the plots'} data-testid="comparison-wide">
+        <button
+          className="small push-right"
+          onClick={() => setWide(!wide)}
+          title={wide ? 'Back to the side column' : 'Show every run side by side over the plots'}
+          data-testid="comparison-wide"
+        >
           {wide ? 'narrow' : 'widen'}
         </button>
       </div>
@@ -175,13 +196,25 @@ export function ComparisonTable() {
               <th>metric</th>
               {rows.map((r) => (
                 <th key={r.key} className={`run-col ${selected[0] === r.key ? 'detail' : ''}`} data-run={r.key}>
-                  <label className="check" title={`${r.label} (${r.mode}) — ${selected[0] === r.key ? 'shown in the detail plots' : 'tick to show in plots and 3D'}`}>
-                    <input type="checkbox" checked={selected.includes(r.key)} onChange={(e) => toggle(r.key, e.target.checked)} data-testid={`show-${r.key}`} />
+                  <label
+                    className="check"
+                    title={`${r.label} (${r.mode}) — ${selected[0] === r.key ? 'shown in the detail plots' : 'tick to show in plots and 3D'}`}
+                  >
+                    <input
+                      type="checkbox"
+                      checked={selected.includes(r.key)}
+                      onChange={(e) => toggle(r.key, e.target.checked)}
+                      data-testid={`show-${r.key}`}
+                    />
                     <span className="run-name">{r.label}</span>
                   </label>
                   <div className="run-mode muted">{r.mode}</div>
                   {selected.includes(r.key) && selected[0] !== r.key && (
-                    <button className="link" onClick={() => app.store.selectRuns([r.key, ...selected.filter((k) => k !== r.key)])} title="Show this run in the detail plots">
+                    <button
+                      className="link"
+                      onClick={() => app.store.selectRuns([r.key, ...selected.filter((k) => k !== r.key)])}
+                      title="Show this run in the detail plots"
+                    >
                       detail
                     </button>
                   )}
@@ -199,9 +232,18 @@ export function ComparisonTable() {
                     {m.unit && <span className="unit"> {m.unit}</span>}
                   </th>
                   {rows.map((r) => (
-                    <td key={r.key} className={`num ${best === r.key ? 'best' : ''} ${m.key === 'status' && r.status !== 'completed' ? 'bad' : ''}`} data-best={best === r.key ? 'true' : undefined}>
+                    <td
+                      key={r.key}
+                      className={`num ${best === r.key ? 'best' : ''} ${m.key === 'status' && r.status !== 'completed' ? 'bad' : ''}`}
+                      data-best={best === r.key ? 'true' : undefined}
+                    >
                       {m.show(r)}
-                      {best === r.key && <span className="star" aria-label="best"> ★</span>}
+                      {best === r.key && (
+                        <span className="star" aria-label="best">
+                          {' '}
+                          ★
+                        </span>
+                      )}
                     </td>
                   ))}
                 </tr>

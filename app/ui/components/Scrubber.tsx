@@ -9,13 +9,18 @@ import { useApp, useAppState } from '../context';
 import { SPEEDS } from '../playback/clock';
 import { sampleIndexAt, stepJump, stepSample } from '../playback/timeline';
 import { useStoreSlice } from '../store/hooks';
-import { RAD_TO_DEG } from '../format';
+import { DEG_PER_RAD } from '../../engine/units';
 
 function isEditable(t: EventTarget | null): boolean {
   const el = t as HTMLElement | null;
   if (!el || typeof el.tagName !== 'string') return false;
   const tag = el.tagName.toLowerCase();
-  return (tag === 'input' && (el as HTMLInputElement).type !== 'range' && (el as HTMLInputElement).type !== 'checkbox') || tag === 'textarea' || tag === 'select' || el.isContentEditable;
+  return (
+    (tag === 'input' && (el as HTMLInputElement).type !== 'range' && (el as HTMLInputElement).type !== 'checkbox') ||
+    tag === 'textarea' ||
+    tag === 'select' ||
+    el.isContentEditable
+  );
 }
 
 export function Scrubber() {
@@ -48,7 +53,7 @@ export function Scrubber() {
           if (jText.current) jText.current.textContent = String(r.trace.j[k]);
           const seg = r.trace.segment[k]!;
           const label = output?.plan.segments[seg]?.label ?? '';
-          if (extra.current) extra.current.textContent = `error ${(r.trace.errorAngle[k]! * RAD_TO_DEG).toFixed(3)}° · ${label}`;
+          if (extra.current) extra.current.textContent = `error ${(r.trace.errorAngle[k]! * DEG_PER_RAD).toFixed(3)}° · ${label}`;
         } else {
           if (jText.current) jText.current.textContent = '—';
           if (extra.current) extra.current.textContent = '';
@@ -94,13 +99,26 @@ export function Scrubber() {
   return (
     <footer className="scrubber" data-testid="scrubber">
       <div className="transport">
-        <button className="icon" title="Previous jump (Shift+←)" disabled={disabled || jumpTimes.length === 0} onClick={() => step('jump', -1)}>◀ jump</button>
-        <button className="icon" title="Previous sample (←)" disabled={disabled} onClick={() => step('sample', -1)}>◀︎</button>
+        <button
+          className="icon"
+          title="Previous jump (Shift+←)"
+          disabled={disabled || jumpTimes.length === 0}
+          onClick={() => step('jump', -1)}
+        >
+          ◀ jump
+        </button>
+        <button className="icon" title="Previous sample (←)" disabled={disabled} onClick={() => step('sample', -1)}>
+          ◀︎
+        </button>
         <button className="play" title="Play / pause (Space)" disabled={disabled} onClick={() => clock.toggle()} data-testid="play">
           {playing ? 'Pause' : 'Play'}
         </button>
-        <button className="icon" title="Next sample (→)" disabled={disabled} onClick={() => step('sample', 1)}>▶︎</button>
-        <button className="icon" title="Next jump (Shift+→)" disabled={disabled || jumpTimes.length === 0} onClick={() => step('jump', 1)}>jump ▶</button>
+        <button className="icon" title="Next sample (→)" disabled={disabled} onClick={() => step('sample', 1)}>
+          ▶︎
+        </button>
+        <button className="icon" title="Next jump (Shift+→)" disabled={disabled || jumpTimes.length === 0} onClick={() => step('jump', 1)}>
+          jump ▶
+        </button>
       </div>
       <label className="speed" title="Simulated seconds per second">
         speed
@@ -129,7 +147,14 @@ export function Scrubber() {
         }}
       />
       <span className="readout" data-testid="readout">
-        t = <span ref={tText} className="mono t" data-testid="readout-t">0.00</span> s&nbsp;&nbsp; j = <span ref={jText} className="mono j" data-testid="readout-j">—</span>
+        t ={' '}
+        <span ref={tText} className="mono t" data-testid="readout-t">
+          0.00
+        </span>{' '}
+        s&nbsp;&nbsp; j ={' '}
+        <span ref={jText} className="mono j" data-testid="readout-j">
+          —
+        </span>
         <span className="muted"> / {tMax.toFixed(1)} s</span>
       </span>
       <span ref={extra} className="readout-extra muted" />

@@ -38,7 +38,8 @@ function InertiaEditor() {
         )}
       </div>
       <label className="check">
-        <input type="checkbox" checked={symmetric} onChange={(e) => setSymmetric(e.target.checked)} /> keep symmetric (edit J_rc and J_cr together)
+        <input type="checkbox" checked={symmetric} onChange={(e) => setSymmetric(e.target.checked)} /> keep symmetric (edit J_rc and J_cr
+        together)
       </label>
       <IssueText errors={issues} />
       {output && (
@@ -120,8 +121,18 @@ export function VehiclePanel() {
       <WheelsEditor />
       <FrictionEditor />
       <div className="sub-head">Sensors and control</div>
-      <NumberField path="vehicle.sensors.attitudeNoiseArcsec" label="Attitude noise σ" unit="arcsec" title="Attitude measurement noise, 1σ per axis" />
-      <NumberField path="vehicle.sensors.rateNoiseDegPerS" label="Rate noise σ" unit="deg/s" title="Rate measurement noise, 1σ per axis per sample" />
+      <NumberField
+        path="vehicle.sensors.attitudeNoiseArcsec"
+        label="Attitude noise σ"
+        unit="arcsec"
+        title="Attitude measurement noise, 1σ per axis"
+      />
+      <NumberField
+        path="vehicle.sensors.rateNoiseDegPerS"
+        label="Rate noise σ"
+        unit="deg/s"
+        title="Rate measurement noise, 1σ per axis per sample"
+      />
       <VectorField path="vehicle.sensors.rateBiasDegPerS" label="Rate bias" unit="deg/s" />
       <NumberField path="vehicle.controlRateHz" label="Control rate" unit="Hz" step={1} />
       <ActuationEditor />

@@ -5,14 +5,15 @@
  */
 import { pyramid, orthogonalTriad } from '../../engine/wheels/presets';
 import { useApp, useAppState, useIssuesUnder, useScenarioValue } from '../context';
-import { fmt, TO_MILLI } from '../format';
+import { fmt } from '../format';
+import { DEG_PER_RAD, MILLI_PER_SI, RAD_PER_DEG } from '../../engine/units';
 import { IssueText, NumberField, NumberInput, SelectField } from './fields';
 
 type Obj = Record<string, unknown>;
 const P = 'vehicle.wheels';
 const NONE: string[] = [];
 const FIELD_PATHS = ['cantAngleDeg', 'azimuthOffsetDeg', 'maxTorqueMNm', 'maxMomentumMNms', 'rotorInertiaKgm2'].map((k) => `${P}.${k}`);
-const CUBE_DIAGONAL_CANT_DEG = (Math.acos(1 / Math.sqrt(3)) * 180) / Math.PI;
+const CUBE_DIAGONAL_CANT_DEG = Math.acos(1 / Math.sqrt(3)) * DEG_PER_RAD;
 
 interface Limits {
   maxTorqueMNm: unknown;
@@ -34,10 +35,19 @@ const round = (v: number) => Number(v.toPrecision(12));
 
 function presetAxes(w: Obj): number[][] {
   const l = limitsOf(w);
-  const limits = { maxTorqueNm: num(l.maxTorqueMNm, 2) / 1e3, maxMomentumNms: num(l.maxMomentumMNms, 6) / 1e3, rotorInertiaKgm2: num(l.rotorInertiaKgm2, 2e-5) };
+  const limits = {
+    maxTorqueNm: num(l.maxTorqueMNm, 2) / 1e3,
+    maxMomentumNms: num(l.maxMomentumMNms, 6) / 1e3,
+    rotorInertiaKgm2: num(l.rotorInertiaKgm2, 2e-5),
+  };
   const specs =
     w.layout === 'pyramid'
-      ? pyramid({ ...limits, count: 4, cantAngleRad: (num(w.cantAngleDeg, CUBE_DIAGONAL_CANT_DEG) * Math.PI) / 180, azimuthOffsetRad: (num(w.azimuthOffsetDeg, 0) * Math.PI) / 180 })
+      ? pyramid({
+          ...limits,
+          count: 4,
+          cantAngleRad: num(w.cantAngleDeg, CUBE_DIAGONAL_CANT_DEG) * RAD_PER_DEG,
+          azimuthOffsetRad: num(w.azimuthOffsetDeg, 0) * RAD_PER_DEG,
+        })
       : orthogonalTriad(limits);
   return specs.map((s) => s.axis.map(round));
 }
@@ -55,7 +65,8 @@ export function WheelsEditor() {
     if (next === layout) return;
     const l = limitsOf(wheels);
     let value: Obj;
-    if (next === 'pyramid') value = { layout: 'pyramid', count: 4, cantAngleDeg: round(CUBE_DIAGONAL_CANT_DEG), azimuthOffsetDeg: 45, ...l };
+    if (next === 'pyramid')
+      value = { layout: 'pyramid', count: 4, cantAngleDeg: round(CUBE_DIAGONAL_CANT_DEG), azimuthOffsetDeg: 45, ...l };
     else if (next === 'triad') value = { layout: 'triad', ...l };
     else {
       // Keep the geometry the user had: the engine's resolved axes from the last run when current.
@@ -66,7 +77,10 @@ export function WheelsEditor() {
       } else axes = presetAxes(wheels);
       value = { layout: 'custom', wheels: axes.map((axis) => ({ axis, ...l })) };
     }
-    app.store.replace({ ...(app.store.getState().scenario as Obj), vehicle: { ...((app.store.getState().scenario as Obj).vehicle as Obj), wheels: value } }, `Wheel layout: ${next}`);
+    app.store.replace(
+      { ...(app.store.getState().scenario as Obj), vehicle: { ...((app.store.getState().scenario as Obj).vehicle as Obj), wheels: value } },
+      `Wheel layout: ${next}`,
+    );
   }
 
   const list = Array.isArray(wheels.wheels) ? (wheels.wheels as Obj[]) : [];
@@ -85,14 +99,32 @@ export function WheelsEditor() {
       />
       {layout === 'pyramid' && (
         <>
-          <NumberField path={`${P}.cantAngleDeg`} label="Cant from +Z" unit="deg" step={0.5} title="Angle of each spin axis from the body +Z axis; 54.7356° puts the axes on cube diagonals" />
-          <NumberField path={`${P}.azimuthOffsetDeg`} label="Azimuth, wheel 1" unit="deg" step={5} title="Azimuth of wheel 1 about +Z from +X; the others follow every 90°" />
+          <NumberField
+            path={`${P}.cantAngleDeg`}
+            label="Cant from +Z"
+            unit="deg"
+            step={0.5}
+            title="Angle of each spin axis from the body +Z axis; 54.7356° puts the axes on cube diagonals"
+          />
+          <NumberField
+            path={`${P}.azimuthOffsetDeg`}
+            label="Azimuth, wheel 1"
+            unit="deg"
+            step={5}
+            title="Azimuth of wheel 1 about +Z from +X; the others follow every 90°"
+          />
         </>
       )}
       {layout !== 'custom' && (
         <>
           <NumberField path={`${P}.maxTorqueMNm`} label="Max torque" unit="mN·m" step={0.1} title="Largest motor torque of each wheel" />
-          <NumberField path={`${P}.maxMomentumMNms`} label="Max momentum" unit="mN·m·s" step={0.5} title="Largest stored momentum of each wheel" />
+          <NumberField
+            path={`${P}.maxMomentumMNms`}
+            label="Max momentum"
+            unit="mN·m·s"
+            step={0.5}
+            title="Largest stored momentum of each wheel"
+          />
           <NumberField path={`${P}.rotorInertiaKgm2`} label="Rotor inertia" unit="kg·m²" title="Rotor axial inertia of each wheel" />
         </>
       )}
@@ -120,7 +152,13 @@ export function WheelsEditor() {
                       className="icon"
                       title={`Remove wheel ${i + 1}`}
                       disabled={list.length <= 3}
-                      onClick={() => app.store.edit(`${P}.wheels`, list.filter((__, k) => k !== i), { label: `Remove wheel ${i + 1}`, coalesceKey: null })}
+                      onClick={() =>
+                        app.store.edit(
+                          `${P}.wheels`,
+                          list.filter((__, k) => k !== i),
+                          { label: `Remove wheel ${i + 1}`, coalesceKey: null },
+                        )
+                      }
                     >
                       ×
                     </button>
@@ -142,9 +180,19 @@ export function WheelsEditor() {
               {list.map((_, i) => (
                 <tr key={i}>
                   <td>{i + 1}</td>
-                  <td><NumberInput path={`${P}.wheels[${i}].maxTorqueMNm`} ariaLabel={`wheel ${i + 1} max torque`} showIssues={false} /></td>
-                  <td><NumberInput path={`${P}.wheels[${i}].maxMomentumMNms`} ariaLabel={`wheel ${i + 1} max momentum`} showIssues={false} /></td>
-                  <td><NumberInput path={`${P}.wheels[${i}].rotorInertiaKgm2`} ariaLabel={`wheel ${i + 1} rotor inertia`} showIssues={false} /></td>
+                  <td>
+                    <NumberInput path={`${P}.wheels[${i}].maxTorqueMNm`} ariaLabel={`wheel ${i + 1} max torque`} showIssues={false} />
+                  </td>
+                  <td>
+                    <NumberInput path={`${P}.wheels[${i}].maxMomentumMNms`} ariaLabel={`wheel ${i + 1} max momentum`} showIssues={false} />
+                  </td>
+                  <td>
+                    <NumberInput
+                      path={`${P}.wheels[${i}].rotorInertiaKgm2`}
+                      ariaLabel={`wheel ${i + 1} rotor inertia`}
+                      showIssues={false}
+                    />
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -164,8 +212,8 @@ export function WheelsEditor() {
       <IssueText errors={other} />
       {output && (
         <div className={`derived ${current ? '' : 'stale'}`} data-testid="wheel-capacity">
-          Worst-direction capacity: torque {fmt(output.vehicle.worstTorqueCapacityNm * TO_MILLI, 3)} mN·m, momentum{' '}
-          {fmt(output.vehicle.worstMomentumCapacityNms * TO_MILLI, 3)} mN·m·s
+          Worst-direction capacity: torque {fmt(output.vehicle.worstTorqueCapacityNm * MILLI_PER_SI, 3)} mN·m, momentum{' '}
+          {fmt(output.vehicle.worstMomentumCapacityNms * MILLI_PER_SI, 3)} mN·m·s
         </div>
       )}
     </div>

@@ -45,7 +45,16 @@ interface NumberInputProps {
 }
 
 /** A bare number input bound to `path`. */
-export function NumberInput({ path, ariaLabel, title, step, className, showIssues = true, mirrorPath, groupInvalid = false }: NumberInputProps) {
+export function NumberInput({
+  path,
+  ariaLabel,
+  title,
+  step,
+  className,
+  showIssues = true,
+  mirrorPath,
+  groupInvalid = false,
+}: NumberInputProps) {
   const app = useApp();
   const value = useScenarioValue(path);
   const { errors, warnings } = useIssuesAt(path);
@@ -64,7 +73,14 @@ export function NumberInput({ path, ariaLabel, title, step, className, showIssue
   const invalid = errors.length > 0 || groupInvalid;
   const write = (v: unknown) => {
     committed.current = v;
-    if (mirrorPath) app.store.editMany([[path, v], [mirrorPath, v]], { coalesceKey: path });
+    if (mirrorPath)
+      app.store.editMany(
+        [
+          [path, v],
+          [mirrorPath, v],
+        ],
+        { coalesceKey: path },
+      );
     else app.store.edit(path, v);
   };
   return (
@@ -132,7 +148,14 @@ export function NumberField(props: { path: string; label: string; unit?: string;
  * Three numbers (a vector). `stacked` puts the inputs on their own full-width line under the
  * label, for vectors whose components need more digits than a narrow column shows.
  */
-export function VectorField(props: { path: string; label: string; unit?: string; title?: string; names?: [string, string, string]; stacked?: boolean }) {
+export function VectorField(props: {
+  path: string;
+  label: string;
+  unit?: string;
+  title?: string;
+  names?: [string, string, string];
+  stacked?: boolean;
+}) {
   const names = props.names ?? ['x', 'y', 'z'];
   const own = useIssuesAt(props.path);
   const e0 = useIssuesAt(`${props.path}[0]`);

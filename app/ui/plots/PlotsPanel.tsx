@@ -15,7 +15,13 @@ const join = (tables: Series[][]) => uPlot.join(tables as uPlot.AlignedData[]) a
 
 export function fileSlug(s: unknown): string {
   const base = typeof s === 'string' && s.trim() ? s : 'slewsmith';
-  return base.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'slewsmith';
+  return (
+    base
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-+|-+$/g, '')
+      .slice(0, 60) || 'slewsmith'
+  );
 }
 
 function PlotCard({ spec, group, extra }: { spec: PlotSpec; group: ChartGroup; extra?: React.ReactNode }) {

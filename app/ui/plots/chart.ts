@@ -46,7 +46,9 @@ function logTickLabels(_u: uPlot, vals: number[]): string[] {
 
 /** Structure key: charts are rebuilt when this changes, and only fed new data otherwise. */
 export function structureKey(spec: PlotSpec): string {
-  return [spec.id, spec.log ? 'log' : 'lin', spec.y2Label ?? '', ...spec.series.map((s) => `${s.label}|${s.color}|${s.scale ?? 'y'}`)].join(';');
+  return [spec.id, spec.log ? 'log' : 'lin', spec.y2Label ?? '', ...spec.series.map((s) => `${s.label}|${s.color}|${s.scale ?? 'y'}`)].join(
+    ';',
+  );
 }
 
 function drawMarkers(spec: () => PlotSpec) {
@@ -105,9 +107,32 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
   const hasJ = spec.series.some((s) => s.scale === 'j');
   const axes: uPlot.Axis[] = [
     { label: 't (s)', stroke: AXIS_STROKE, font: FONT, labelFont: FONT, grid: GRID, ticks: GRID, size: 34, labelSize: 16 },
-    { label: spec.yLabel, stroke: AXIS_STROKE, font: FONT, labelFont: FONT, grid: GRID, ticks: GRID, scale: 'y', size: 58, labelSize: 16, values: spec.log ? logTickLabels : (_u, vals) => vals.map((v) => fmt(v, 3)) },
+    {
+      label: spec.yLabel,
+      stroke: AXIS_STROKE,
+      font: FONT,
+      labelFont: FONT,
+      grid: GRID,
+      ticks: GRID,
+      scale: 'y',
+      size: 58,
+      labelSize: 16,
+      values: spec.log ? logTickLabels : (_u, vals) => vals.map((v) => fmt(v, 3)),
+    },
   ];
-  if (hasJ) axes.push({ label: spec.y2Label, stroke: AXIS_STROKE, font: FONT, labelFont: FONT, scale: 'j', side: 1, grid: { show: false }, size: 40, labelSize: 16, values: (_u, vals) => vals.map((v) => (Number.isInteger(v) ? String(v) : '')) });
+  if (hasJ)
+    axes.push({
+      label: spec.y2Label,
+      stroke: AXIS_STROKE,
+      font: FONT,
+      labelFont: FONT,
+      scale: 'j',
+      side: 1,
+      grid: { show: false },
+      size: 40,
+      labelSize: 16,
+      values: (_u, vals) => vals.map((v) => (Number.isInteger(v) ? String(v) : '')),
+    });
   return {
     width,
     height,
@@ -115,7 +140,9 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
     scales: {
       x: { time: false },
       y: spec.log ? { distr: 3, log: 10 } : { auto: true },
-      ...(hasJ ? { j: { auto: true, range: (_u: uPlot, min: number, max: number) => [Math.min(0, min) - 0.5, max + 0.5] as uPlot.Range.MinMax } } : {}),
+      ...(hasJ
+        ? { j: { auto: true, range: (_u: uPlot, min: number, max: number) => [Math.min(0, min) - 0.5, max + 0.5] as uPlot.Range.MinMax } }
+        : {}),
     },
     series: [
       { label: 't (s)', value: (_u, v) => (v === null || v === undefined ? '—' : `${v.toFixed(2)}`) },
@@ -159,7 +186,11 @@ export function createChart(
   onScrub: (t: number) => void,
 ): ChartHandle {
   let spec = initial;
-  const plot = new uPlot(buildOptions(spec, size.width, size.height, group, () => spec), spec.data as uPlot.AlignedData, target);
+  const plot = new uPlot(
+    buildOptions(spec, size.width, size.height, group, () => spec),
+    spec.data as uPlot.AlignedData,
+    target,
+  );
   group.charts.add(plot);
 
   const playhead = document.createElement('div');

@@ -4,7 +4,7 @@
  * mN·m·s); every value comes from the run trace. Pure data, no DOM, so tests can check it.
  */
 import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types';
-import { RAD_TO_DEG, TO_MILLI } from '../format';
+import { DEG_PER_RAD, MILLI_PER_SI } from '../../engine/units';
 
 export type Series = ArrayLike<number | null>;
 
@@ -48,7 +48,20 @@ export interface PlotSpec {
 }
 
 export const AXIS_COLORS = ['#c0392b', '#27864a', '#2c5aa0'];
-export const PALETTE = ['#2c5aa0', '#c0392b', '#27864a', '#8e44ad', '#d35400', '#16817a', '#7f6a00', '#b03a75', '#4f5d75', '#6a994e', '#9c6644', '#1d3557'];
+export const PALETTE = [
+  '#2c5aa0',
+  '#c0392b',
+  '#27864a',
+  '#8e44ad',
+  '#d35400',
+  '#16817a',
+  '#7f6a00',
+  '#b03a75',
+  '#4f5d75',
+  '#6a994e',
+  '#9c6644',
+  '#1d3557',
+];
 const LIMIT_COLOR = '#7a8594';
 
 /** Channel `c` of a sample-major array with `stride` values per sample, scaled. */
@@ -109,7 +122,7 @@ export function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, joi
   spec.data = alignRuns(
     runs,
     (r) => {
-      const deg = scaled(r.trace.errorAngle, r.trace.n, RAD_TO_DEG);
+      const deg = scaled(r.trace.errorAngle, r.trace.n, DEG_PER_RAD);
       return log ? positiveOrNull(deg) : deg;
     },
     join,
@@ -129,8 +142,8 @@ export function bodyRatePlot(run: ControllerRun): PlotSpec {
     ],
     data: [
       times(run),
-      ...[0, 1, 2].map((c) => channel(run.trace.omega, n, 3, c, RAD_TO_DEG)),
-      ...[0, 1, 2].map((c) => channel(run.trace.omegaRef, n, 3, c, RAD_TO_DEG)),
+      ...[0, 1, 2].map((c) => channel(run.trace.omega, n, 3, c, DEG_PER_RAD)),
+      ...[0, 1, 2].map((c) => channel(run.trace.omegaRef, n, 3, c, DEG_PER_RAD)),
     ],
   };
 }
@@ -142,17 +155,25 @@ function distinct(values: ArrayLike<number>): number[] {
   return out;
 }
 
-function wheelPlot(run: ControllerRun, src: Float64Array, limits: Float64Array, id: string, title: string, yLabel: string, sym: string): PlotSpec {
+function wheelPlot(
+  run: ControllerRun,
+  src: Float64Array,
+  limits: Float64Array,
+  id: string,
+  title: string,
+  yLabel: string,
+  sym: string,
+): PlotSpec {
   const n = run.trace.n;
   const N = run.trace.nWheels;
   const series: SeriesSpec[] = [];
   const data: Series[] = [times(run)];
   for (let w = 0; w < N; w++) {
     series.push({ label: `${sym}${w + 1}`, color: PALETTE[w % PALETTE.length]! });
-    data.push(channel(src, n, N, w, TO_MILLI));
+    data.push(channel(src, n, N, w, MILLI_PER_SI));
   }
   for (const lim of distinct(limits)) {
-    const v = lim * TO_MILLI;
+    const v = lim * MILLI_PER_SI;
     series.push({ label: `+${sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
     data.push(new Float64Array(n).fill(v));
     series.push({ label: `−${sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
@@ -238,11 +259,24 @@ export interface PlotSetOptions {
 }
 
 /** Every plot for the selected runs; the first selected run is the detailed one. */
-export function buildPlots(out: PipelineOutput, selected: readonly string[], o: PlotSetOptions, join: (t: Series[][]) => Series[]): PlotSpec[] {
+export function buildPlots(
+  out: PipelineOutput,
+  selected: readonly string[],
+  o: PlotSetOptions,
+  join: (t: Series[][]) => Series[],
+): PlotSpec[] {
   const runs = selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
   const detail = runs[0];
   const plots = [errorAnglePlot(runs, o.logError, join)];
   if (!detail) return plots;
-  plots.push(bodyRatePlot(detail), wheelMomentumPlot(detail, out), wheelTorquePlot(detail, out), logicPlot(detail), potentialPlot(detail), lyapunovPlot(detail), hybridTimePlot(detail));
+  plots.push(
+    bodyRatePlot(detail),
+    wheelMomentumPlot(detail, out),
+    wheelTorquePlot(detail, out),
+    logicPlot(detail),
+    potentialPlot(detail),
+    lyapunovPlot(detail),
+    hybridTimePlot(detail),
+  );
   return plots;
 }

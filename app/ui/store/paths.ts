@@ -41,8 +41,7 @@ export function getIn(root: unknown, tokens: readonly PathToken[]): unknown {
 export function setIn(root: unknown, tokens: readonly PathToken[], value: unknown): unknown {
   if (tokens.length === 0) return value;
   const [head, ...rest] = tokens as readonly [PathToken, ...PathToken[]];
-  const container =
-    root !== null && typeof root === 'object' ? root : typeof head === 'number' ? [] : {};
+  const container = root !== null && typeof root === 'object' ? root : typeof head === 'number' ? [] : {};
   const child = (container as Record<string | number, unknown>)[head];
   const next = setIn(child, rest, value);
   if (Array.isArray(container)) {

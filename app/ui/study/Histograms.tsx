@@ -16,7 +16,13 @@ function HistogramChart({ summary, q }: { summary: StudySummary; q: QuantitySpec
   const L = layoutHistogram(hists, names, q, { width: W, height: H, left: 40, bottom: 34, top: 8, right: 8 });
   const { plot } = L;
   return (
-    <figure className="study-hist" data-testid={`hist-${q.key}`} data-max-count={L.maxCount} data-totals={L.totals.join(',')} title={q.help}>
+    <figure
+      className="study-hist"
+      data-testid={`hist-${q.key}`}
+      data-max-count={L.maxCount}
+      data-totals={L.totals.join(',')}
+      title={q.help}
+    >
       <figcaption>
         {q.title} <span className="unit">({q.unit})</span>
       </figcaption>
@@ -31,7 +37,17 @@ function HistogramChart({ summary, q }: { summary: StudySummary; q: QuantitySpec
         ))}
         {L.bars.map((b) =>
           b.count > 0 ? (
-            <rect key={`${b.controller}-${b.bin}`} className="bar" x={b.x} y={b.y} width={b.w} height={b.h} fill={PALETTE[b.controller % PALETTE.length]} data-count={b.count} data-controller={b.controller}>
+            <rect
+              key={`${b.controller}-${b.bin}`}
+              className="bar"
+              x={b.x}
+              y={b.y}
+              width={b.w}
+              height={b.h}
+              fill={PALETTE[b.controller % PALETTE.length]}
+              data-count={b.count}
+              data-controller={b.controller}
+            >
               <title>{b.title}</title>
             </rect>
           ) : null,
@@ -50,7 +66,13 @@ function HistogramChart({ summary, q }: { summary: StudySummary; q: QuantitySpec
         <text x={(plot.left + plot.right) / 2} y={H - 4} className="axis-title" textAnchor="middle">
           {q.title.toLowerCase()} ({q.unit})
         </text>
-        <text x={10} y={(plot.top + plot.bottom) / 2} className="axis-title" textAnchor="middle" transform={`rotate(-90 10 ${(plot.top + plot.bottom) / 2})`}>
+        <text
+          x={10}
+          y={(plot.top + plot.bottom) / 2}
+          className="axis-title"
+          textAnchor="middle"
+          transform={`rotate(-90 10 ${(plot.top + plot.bottom) / 2})`}
+        >
           runs
         </text>
       </svg>

@@ -79,7 +79,12 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
     <div className="study-map" data-testid="study-map" data-points={geometry.count} data-drawn={drawn}>
       <div className="study-card-head">
         Outcome over initial attitudes
-        <select aria-label="controller shown on the map" value={ci} onChange={(e) => setController(Number(e.target.value))} data-testid="map-controller">
+        <select
+          aria-label="controller shown on the map"
+          value={ci}
+          onChange={(e) => setController(Number(e.target.value))}
+          data-testid="map-controller"
+        >
           {info.controllers.map((c, i) => (
             <option key={c.id} value={i}>
               {c.label}
@@ -139,8 +144,9 @@ export function OutcomeMap({ info, points }: { info: StudyInfo; points: MapPoint
         </span>
       </div>
       <div className="map-caption">
-        One point per case: its initial error rotation q_target* ⊗ q0, in the direction of the rotation axis (target axes X<sub>T</sub>, Y<sub>T</sub>, Z<sub>T</sub>) at a distance
-        from the centre of angle / 180° (the wire sphere is 180°, the inner circles 90°). Drag to turn, click a point to open that case.
+        One point per case: its initial error rotation q_target* ⊗ q0, in the direction of the rotation axis (target axes X<sub>T</sub>, Y
+        <sub>T</sub>, Z<sub>T</sub>) at a distance from the centre of angle / 180° (the wire sphere is 180°, the inner circles 90°). Drag to
+        turn, click a point to open that case.
       </div>
     </div>
   );

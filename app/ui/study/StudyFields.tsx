@@ -46,7 +46,14 @@ export function editStudy(store: AppStore, path: string, value: unknown, label?:
 }
 
 /** An optional number: empty text removes the key; the placeholder says what "empty" means. */
-export function OptNumberField(props: { path: string; label: string; unit?: string; placeholder?: string; title?: string; testId?: string }) {
+export function OptNumberField(props: {
+  path: string;
+  label: string;
+  unit?: string;
+  placeholder?: string;
+  title?: string;
+  testId?: string;
+}) {
   const app = useApp();
   const value = useScenarioValue(props.path);
   const { errors, warnings } = useIssuesAt(props.path);
@@ -145,7 +152,11 @@ export function RangeField(props: { path: string; label: string; unit?: string; 
       editStudy(app.store, props.path, undefined);
       return;
     }
-    editStudy(app.store, props.path, texts.map((x, i) => (x.trim() === '' ? props.defaults[i] : parseNumberText(x))));
+    editStudy(
+      app.store,
+      props.path,
+      texts.map((x, i) => (x.trim() === '' ? props.defaults[i] : parseNumberText(x))),
+    );
   };
   const invalid = own.errors.length + e0.errors.length + e1.errors.length > 0;
   return (

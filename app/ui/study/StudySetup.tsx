@@ -61,7 +61,12 @@ function ControllerChoice() {
   const toggle = (id: string, on: boolean) => {
     const next = ids.filter((x) => (x === id ? on : isOn(x)));
     // Every controller ticked is the default (no list in the file).
-    editStudy(app.store, 'study.controllers', next.length === ids.length && ids.every((x) => next.includes(x)) ? undefined : next, 'Study controllers');
+    editStudy(
+      app.store,
+      'study.controllers',
+      next.length === ids.length && ids.every((x) => next.includes(x)) ? undefined : next,
+      'Study controllers',
+    );
   };
   const onCount = ids.filter(isOn).length;
   return (
@@ -71,7 +76,13 @@ function ControllerChoice() {
         const id = ids[i]!;
         return (
           <label key={`${id}-${i}`} className="check study-check">
-            <input type="checkbox" checked={isOn(id)} disabled={isOn(id) && onCount <= 1} onChange={(e) => toggle(id, e.target.checked)} data-testid={`study-ctl-${id}`} />
+            <input
+              type="checkbox"
+              checked={isOn(id)}
+              disabled={isOn(id) && onCount <= 1}
+              onChange={(e) => toggle(id, e.target.checked)}
+              data-testid={`study-ctl-${id}`}
+            />
             {String(c.label ?? id)} <span className="muted">{String(c.law ?? '')}</span>
           </label>
         );
@@ -91,15 +102,30 @@ function AttitudeDispersion() {
   const a = useScenarioValue('study.dispersions.initialAttitude') as Obj | undefined;
   const mode = typeof a?.mode === 'string' ? a.mode : 'none';
   const choose = (m: string) => {
-    const v = m === 'none' ? undefined : m === 'uniform' ? { mode: 'uniform' } : m === 'cone' ? { mode: 'cone', maxAngleDeg: 30 } : { mode: 'near-reversal', withinDeg: 10 };
+    const v =
+      m === 'none'
+        ? undefined
+        : m === 'uniform'
+          ? { mode: 'uniform' }
+          : m === 'cone'
+            ? { mode: 'cone', maxAngleDeg: 30 }
+            : { mode: 'near-reversal', withinDeg: 10 };
     editStudy(app.store, 'study.dispersions.initialAttitude', v, 'Study start attitudes');
   };
   const issues = useIssuesUnder('study.dispersions.initialAttitude', SHOWN);
   return (
     <>
-      <SelectField label="Start attitude" value={mode} choices={ATTITUDE_MODES} onChoose={choose} title="How the initial attitude of each case is drawn" />
+      <SelectField
+        label="Start attitude"
+        value={mode}
+        choices={ATTITUDE_MODES}
+        onChoose={choose}
+        title="How the initial attitude of each case is drawn"
+      />
       {mode === 'cone' && <NumberField path="study.dispersions.initialAttitude.maxAngleDeg" label="Cone radius" unit="deg" step={5} />}
-      {mode === 'near-reversal' && <NumberField path="study.dispersions.initialAttitude.withinDeg" label="Off 180° by ≤" unit="deg" step={1} />}
+      {mode === 'near-reversal' && (
+        <NumberField path="study.dispersions.initialAttitude.withinDeg" label="Off 180° by ≤" unit="deg" step={1} />
+      )}
       <IssueText errors={issues} />
     </>
   );
@@ -121,7 +147,8 @@ function ActuationChoice() {
         <span className="field-control">
           {ACTUATION.map((m) => (
             <label key={m.value} className="check study-inline">
-              <input type="checkbox" checked={(list ?? []).includes(m.value)} onChange={(e) => toggle(m.value, e.target.checked)} /> {m.label}
+              <input type="checkbox" checked={(list ?? []).includes(m.value)} onChange={(e) => toggle(m.value, e.target.checked)} />{' '}
+              {m.label}
             </label>
           ))}
         </span>
@@ -138,14 +165,20 @@ export function StudySetup() {
   const study = useScenarioValue('study');
   const rest = useIssuesUnder('study', SHOWN);
   // Those under the controller list, the start attitude and the actuation modes are shown there.
-  const restOwn = rest.filter((i) => !['study.controllers', 'study.dispersions.initialAttitude', 'study.dispersions.actuation'].some((p) => i.path === p || i.path.startsWith(`${p}.`) || i.path.startsWith(`${p}[`)));
+  const restOwn = rest.filter(
+    (i) =>
+      !['study.controllers', 'study.dispersions.initialAttitude', 'study.dispersions.actuation'].some(
+        (p) => i.path === p || i.path.startsWith(`${p}.`) || i.path.startsWith(`${p}[`),
+      ),
+  );
   if (study === undefined) {
     return (
       <div className="study-setup-empty" data-testid="study-no-block">
         <p>This scenario has no study block yet.</p>
         <p className="muted">
-          The default block flies every controller on 100 cases drawn from the scenario&apos;s seed, starting from attitudes spread uniformly over all
-          rotations, with the vehicle&apos;s sensor noise drawn afresh per case. Add it, then edit it here; it is saved with the scenario and can be undone.
+          The default block flies every controller on 100 cases drawn from the scenario&apos;s seed, starting from attitudes spread
+          uniformly over all rotations, with the vehicle&apos;s sensor noise drawn afresh per case. Add it, then edit it here; it is saved
+          with the scenario and can be undone.
         </p>
         <button className="primary" onClick={() => session.addDefaultStudy()} data-testid="study-add-default">
           Add the default study block
@@ -157,8 +190,19 @@ export function StudySetup() {
     <div className="study-setup-form" data-testid="study-setup">
       <div className="sub-head">Cases</div>
       <NumberField path="study.runs" label="Cases" unit="" step={10} title="Dispersed cases; every ticked controller flies every case" />
-      <NumberField path="study.seed" label="Seed" unit="" title="A case depends only on (seed, case index): the same seed gives the same cases" />
-      <OptNumberField path="study.durationS" label="Case length" unit="s" placeholder={String(DEFAULT_DURATION_S)} title="Simulated time per case" />
+      <NumberField
+        path="study.seed"
+        label="Seed"
+        unit=""
+        title="A case depends only on (seed, case index): the same seed gives the same cases"
+      />
+      <OptNumberField
+        path="study.durationS"
+        label="Case length"
+        unit="s"
+        placeholder={String(DEFAULT_DURATION_S)}
+        title="Simulated time per case"
+      />
       <SelectField
         label="Reference"
         title="direct: regulate to the first target from the dispersed start; profiled: track the slew planned on the nominal model from that start"
@@ -170,28 +214,106 @@ export function StudySetup() {
           { value: 'profiled', label: 'profiled' },
         ]}
       />
-      <OptNumberField path="study.stopAfterSettledForS" label="Stop when settled" unit="s" placeholder={String(DEFAULT_SETTLED_FOR_S)} title="End a case once it has stayed settled this long (0 = always run the full length)" />
-      <OptNumberField path="study.worstCases" label="Worst cases" unit="" placeholder={String(DEFAULT_WORST_CASES)} title="Worst cases listed per controller" />
+      <OptNumberField
+        path="study.stopAfterSettledForS"
+        label="Stop when settled"
+        unit="s"
+        placeholder={String(DEFAULT_SETTLED_FOR_S)}
+        title="End a case once it has stayed settled this long (0 = always run the full length)"
+      />
+      <OptNumberField
+        path="study.worstCases"
+        label="Worst cases"
+        unit=""
+        placeholder={String(DEFAULT_WORST_CASES)}
+        title="Worst cases listed per controller"
+      />
       <ControllerChoice />
 
       <div className="sub-head">Start</div>
       <AttitudeDispersion />
-      <OptNumberField path="study.dispersions.initialRateDegPerS" label="Start rate 1σ" unit="deg/s" placeholder="0" title="1σ per body axis of the initial rate added to the nominal one" />
+      <OptNumberField
+        path="study.dispersions.initialRateDegPerS"
+        label="Start rate 1σ"
+        unit="deg/s"
+        placeholder="0"
+        title="1σ per body axis of the initial rate added to the nominal one"
+      />
 
       <div className="sub-head">Vehicle uncertainty</div>
-      <OptNumberField path="study.dispersions.inertia.momentSigmaFraction" label="Moments 1σ" unit="fraction" placeholder="0" title="1σ relative error of each principal moment of inertia" />
-      <OptNumberField path="study.dispersions.inertia.axisMisalignmentDeg" label="Axes 1σ" unit="deg" placeholder="0" title="1σ per axis of a small rotation of the principal axes" />
-      <OptNumberField path="study.dispersions.wheels.torqueDegradationMax" label="Torque loss ≤" unit="fraction" placeholder="0" title="Each wheel loses a fraction of its torque limit drawn uniformly in [0, this]" />
-      <OptNumberField path="study.dispersions.wheels.momentumDegradationMax" label="Momentum loss ≤" unit="fraction" placeholder="0" title="Each wheel loses a fraction of its momentum limit drawn uniformly in [0, this]" />
-      <OptNumberField path="study.dispersions.wheels.failOneWheelProbability" label="Lose a wheel" unit="prob." placeholder="0" title="Probability that one wheel, chosen at random, is lost for the whole case" />
+      <OptNumberField
+        path="study.dispersions.inertia.momentSigmaFraction"
+        label="Moments 1σ"
+        unit="fraction"
+        placeholder="0"
+        title="1σ relative error of each principal moment of inertia"
+      />
+      <OptNumberField
+        path="study.dispersions.inertia.axisMisalignmentDeg"
+        label="Axes 1σ"
+        unit="deg"
+        placeholder="0"
+        title="1σ per axis of a small rotation of the principal axes"
+      />
+      <OptNumberField
+        path="study.dispersions.wheels.torqueDegradationMax"
+        label="Torque loss ≤"
+        unit="fraction"
+        placeholder="0"
+        title="Each wheel loses a fraction of its torque limit drawn uniformly in [0, this]"
+      />
+      <OptNumberField
+        path="study.dispersions.wheels.momentumDegradationMax"
+        label="Momentum loss ≤"
+        unit="fraction"
+        placeholder="0"
+        title="Each wheel loses a fraction of its momentum limit drawn uniformly in [0, this]"
+      />
+      <OptNumberField
+        path="study.dispersions.wheels.failOneWheelProbability"
+        label="Lose a wheel"
+        unit="prob."
+        placeholder="0"
+        title="Probability that one wheel, chosen at random, is lost for the whole case"
+      />
 
       <div className="sub-head">Sensors and sampling</div>
-      <RangeField path="study.dispersions.sensors.attitudeNoiseScale" label="Noise × [min, max]" unit="×" defaults={[1, 1]} title="Factor on the vehicle's attitude noise, drawn uniformly per case" />
-      <OptNumberField path="study.dispersions.sensors.rateBiasDegPerS" label="Extra rate bias 1σ" unit="deg/s" placeholder="0" title="1σ per axis of an extra constant gyro bias" />
-      <OptNumberField path="study.dispersions.sensors.adversarialEta" label="Worst-case noise ē" unit="—" placeholder="0" title="Bounded worst-case noise on the error quaternion scalar part: the measured η is reflected when |η| < ē (0 = off)" />
-      <NumberListField path="study.dispersions.controlRateHz" label="Control rates" unit="Hz" placeholder="vehicle's" title="Control rates drawn uniformly per case, e.g. 5, 10" />
+      <RangeField
+        path="study.dispersions.sensors.attitudeNoiseScale"
+        label="Noise × [min, max]"
+        unit="×"
+        defaults={[1, 1]}
+        title="Factor on the vehicle's attitude noise, drawn uniformly per case"
+      />
+      <OptNumberField
+        path="study.dispersions.sensors.rateBiasDegPerS"
+        label="Extra rate bias 1σ"
+        unit="deg/s"
+        placeholder="0"
+        title="1σ per axis of an extra constant gyro bias"
+      />
+      <OptNumberField
+        path="study.dispersions.sensors.adversarialEta"
+        label="Worst-case noise ē"
+        unit="—"
+        placeholder="0"
+        title="Bounded worst-case noise on the error quaternion scalar part: the measured η is reflected when |η| < ē (0 = off)"
+      />
+      <NumberListField
+        path="study.dispersions.controlRateHz"
+        label="Control rates"
+        unit="Hz"
+        placeholder="vehicle's"
+        title="Control rates drawn uniformly per case, e.g. 5, 10"
+      />
       <ActuationChoice />
-      <OptNumberField path="study.dispersions.torqueQuantumMNm" label="Torque quantum" unit="mN·m" placeholder="vehicle's" title="Torque quantum of cases drawn as quantized when the vehicle has none" />
+      <OptNumberField
+        path="study.dispersions.torqueQuantumMNm"
+        label="Torque quantum"
+        unit="mN·m"
+        placeholder="vehicle's"
+        title="Torque quantum of cases drawn as quantized when the vehicle has none"
+      />
       <IssueText errors={restOwn} />
     </div>
   );

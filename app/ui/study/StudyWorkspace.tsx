@@ -63,7 +63,8 @@ function ProgressBar() {
       </div>
       <span className="study-progress-text" data-testid="study-progress-text">
         {done} / {total} cases
-        {nC > 0 && ` × ${nC} controller${nC === 1 ? '' : 's'}`} · <span className={p && p.notSettled > 0 ? 'bad' : ''}>{p?.notSettled ?? 0} runs not settled</span>
+        {nC > 0 && ` × ${nC} controller${nC === 1 ? '' : 's'}`} ·{' '}
+        <span className={p && p.notSettled > 0 ? 'bad' : ''}>{p?.notSettled ?? 0} runs not settled</span>
         {p && p.unflyable > 0 && ` · ${p.unflyable} unflyable`}
         {active && ` · ${seconds(p?.remainingMs ?? null)} left`}
         {p && ` · ${seconds(p.elapsedMs)} elapsed`} · {workers} worker{workers === 1 ? '' : 's'}
@@ -82,27 +83,51 @@ function StudyBar() {
   const validation = useAppState((s) => s.validation);
   const pipeline = useAppState((s) => s.pipeline);
   const scenario = useAppState((s) => s.scenario);
+  // session.blockers() reads the store; recompute when what it reads changes.
+  // eslint-disable-next-line react-hooks/exhaustive-deps
   const blockers = useMemo(() => session.blockers(), [session, validation, pipeline, scenario]);
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
   const n = session.workerCount(typeof runs === 'number' ? runs : 1);
   return (
     <div className="study-bar">
-      <button className="small" onClick={() => session.setSetupOpen(!setupOpen)} data-testid="study-setup-toggle" title={setupOpen ? 'Hide the setup to widen the results' : 'Show the study setup'}>
+      <button
+        className="small"
+        onClick={() => session.setSetupOpen(!setupOpen)}
+        data-testid="study-setup-toggle"
+        title={setupOpen ? 'Hide the setup to widen the results' : 'Show the study setup'}
+      >
         {setupOpen ? '◂ setup' : '▸ setup'}
       </button>
       <span className="study-title">Robustness study</span>
       {!active ? (
-        <button className="primary" onClick={() => void session.start()} disabled={blockers.length > 0} data-testid="study-run" title={blockers.length ? blockers[0]!.message : 'Run every case of the study block'}>
+        <button
+          className="primary"
+          onClick={() => void session.start()}
+          disabled={blockers.length > 0}
+          data-testid="study-run"
+          title={blockers.length ? blockers[0]!.message : 'Run every case of the study block'}
+        >
           Run study
         </button>
       ) : (
-        <button className="primary danger" onClick={() => session.cancel()} disabled={phase === 'cancelling'} data-testid="study-cancel" title="Stop handing out cases; the finished ones are kept">
+        <button
+          className="primary danger"
+          onClick={() => session.cancel()}
+          disabled={phase === 'cancelling'}
+          data-testid="study-cancel"
+          title="Stop handing out cases; the finished ones are kept"
+        >
           Cancel
         </button>
       )}
       <label className="study-workers" title="Web Workers the cases are split across (results do not depend on it)">
         workers
-        <select value={String(choice)} disabled={active} onChange={(e) => session.setWorkerChoice((e.target.value === 'auto' ? 'auto' : Number(e.target.value)) as WorkerChoice)} data-testid="study-workers">
+        <select
+          value={String(choice)}
+          disabled={active}
+          onChange={(e) => session.setWorkerChoice((e.target.value === 'auto' ? 'auto' : Number(e.target.value)) as WorkerChoice)}
+          data-testid="study-workers"
+        >
           <option value="auto">auto ({n})</option>
           {[1, 2, 3, 4].map((k) => (
             <option key={k} value={k}>
@@ -115,10 +140,22 @@ function StudyBar() {
         {PHASE_TEXT[phase]}
       </span>
       <span className="push-right" />
-      <button className="small" disabled={!hasResults || active} onClick={() => void session.exportCases()} data-testid="study-export-csv" title="Per-case table: one row per case and controller">
+      <button
+        className="small"
+        disabled={!hasResults || active}
+        onClick={() => void session.exportCases()}
+        data-testid="study-export-csv"
+        title="Per-case table: one row per case and controller"
+      >
         Cases CSV
       </button>
-      <button className="small" disabled={!hasResults || active} onClick={() => void session.exportSummary()} data-testid="study-export-json" title="Definition, per-controller summary and the outcome map">
+      <button
+        className="small"
+        disabled={!hasResults || active}
+        onClick={() => void session.exportSummary()}
+        data-testid="study-export-json"
+        title="Definition, per-controller summary and the outcome map"
+      >
         Summary JSON
       </button>
       <button className="small" onClick={() => session.setOpen(false)} data-testid="study-close" title="Back to the 3D view and plots">
@@ -128,7 +165,8 @@ function StudyBar() {
   );
 }
 
-const settleText = (v: number | null, c: ControllerSummary, s: StudySummary) => (v === null ? (c.settled > 0 ? `>${s.durationS}` : '—') : fmt(v, 3));
+const settleText = (v: number | null, c: ControllerSummary, s: StudySummary) =>
+  v === null ? (c.settled > 0 ? `>${s.durationS}` : '—') : fmt(v, 3);
 
 function SharesTable({ summary }: { summary: StudySummary }) {
   return (
@@ -141,10 +179,23 @@ function SharesTable({ summary }: { summary: StudySummary }) {
           <th title="Share that unwound: driven to the far quaternion lift or an extra full turn">unwound</th>
           <th title="Share that ended on the far lift (turned through the 180° error attitude)">long way</th>
           <th title="Share with ≥ 1 logic jump or torque reversal per second in the busiest 10 s">chatter</th>
-          <th title="Settle time median / 95th percentile, s">settle s<br />med / p95</th>
-          <th title="95th percentile of the final error angle, deg">final err<br />p95 deg</th>
-          <th title="95th percentile of the peak wheel momentum, % of the case limit">peak h<br />p95</th>
-          <th title="95th percentile of the peak wheel torque, % of the case limit">peak τ<br />p95</th>
+          <th title="Settle time median / 95th percentile, s">
+            settle s<br />
+            med / p95
+          </th>
+          <th title="95th percentile of the final error angle, deg">
+            final err
+            <br />
+            p95 deg
+          </th>
+          <th title="95th percentile of the peak wheel momentum, % of the case limit">
+            peak h<br />
+            p95
+          </th>
+          <th title="95th percentile of the peak wheel torque, % of the case limit">
+            peak τ<br />
+            p95
+          </th>
         </tr>
       </thead>
       <tbody>
@@ -183,7 +234,9 @@ function WorstCases({ summary }: { summary: StudySummary }) {
   const active = useStudyState((s) => s.phase === 'starting' || s.phase === 'running' || s.phase === 'cancelling');
   return (
     <div className="study-worst" data-testid="study-worst">
-      <div className="study-card-head">Worst cases <span className="muted">· open one as a normal run</span></div>
+      <div className="study-card-head">
+        Worst cases <span className="muted">· open one as a normal run</span>
+      </div>
       {summary.controllers.map((c, i) => (
         <div key={c.controllerId} className="worst-block" data-controller={c.controllerId}>
           <div className="worst-head">
@@ -205,7 +258,13 @@ function WorstCases({ summary }: { summary: StudySummary }) {
                     <td className="num">{w.settleTimeS === null ? '—' : `${fmt(w.settleTimeS, 3)} s`}</td>
                     <td className="num">{fmt(w.finalErrorDeg, 3)}°</td>
                     <td>
-                      <button className="small" disabled={opening !== null || active} onClick={() => void session.openCase(w.index, c.controllerId)} data-testid={`open-case-${c.controllerId}-${w.index}`} title={`Open case ${w.index} as a new untitled scenario with ${c.label} ticked`}>
+                      <button
+                        className="small"
+                        disabled={opening !== null || active}
+                        onClick={() => void session.openCase(w.index, c.controllerId)}
+                        data-testid={`open-case-${c.controllerId}-${w.index}`}
+                        title={`Open case ${w.index} as a new untitled scenario with ${c.label} ticked`}
+                      >
                         {opening === key ? 'opening…' : 'open'}
                       </button>
                     </td>
@@ -236,7 +295,12 @@ function Results() {
   const pipeline = useAppState((s) => s.pipeline);
   const scenarioNow = useAppState((s) => s.scenario);
   // A missing block is offered in the setup; anything else that stops a run is listed here.
-  const blockers = useMemo(() => session.blockers().filter((b) => !(b.path === 'study' && b.rule === 'required')), [session, validation, pipeline, scenarioNow]);
+  // session.blockers() reads the store; recompute when what it reads changes.
+  const blockers = useMemo(
+    () => session.blockers().filter((b) => !(b.path === 'study' && b.rule === 'required')),
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [session, validation, pipeline, scenarioNow],
+  );
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
   return (
     <div className="study-results" data-testid="study-results">
@@ -282,7 +346,8 @@ function Results() {
         <>
           {!current && (
             <div className="study-stale" data-testid="study-stale">
-              These results are for {info.scenarioName === nameNow ? 'an earlier version of this scenario' : `“${info.scenarioName}”`}; run the study again for the current one.
+              These results are for {info.scenarioName === nameNow ? 'an earlier version of this scenario' : `“${info.scenarioName}”`}; run
+              the study again for the current one.
             </div>
           )}
           <div className="study-head-line">

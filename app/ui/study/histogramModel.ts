@@ -43,7 +43,15 @@ export const QUANTITIES: readonly QuantitySpec[] = [
     overflowLabel: (e) => `>${e}`,
     help: 'Total rotation the body travelled; far above the initial error angle means the slew went the long way or unwound',
   },
-  { key: 'jumps', title: 'Logic jumps', unit: 'count', scale: 1, integerBins: true, overflowLabel: (e) => `≥${Number(e) + 1}`, help: 'Jumps of the hybrid logic variable over the case' },
+  {
+    key: 'jumps',
+    title: 'Logic jumps',
+    unit: 'count',
+    scale: 1,
+    integerBins: true,
+    overflowLabel: (e) => `≥${Number(e) + 1}`,
+    help: 'Jumps of the hybrid logic variable over the case',
+  },
   {
     key: 'chatterPerS',
     title: 'Chatter',
@@ -68,7 +76,14 @@ export const QUANTITIES: readonly QuantitySpec[] = [
     overflowLabel: (e) => `>${e}`,
     help: "Largest wheel torque over the case as a share of that case's (degraded) wheel limit",
   },
-  { key: 'finalErrorDeg', title: 'Final error', unit: 'deg', scale: 1, overflowLabel: (e) => `>${e}`, help: 'Error angle at the end of the case' },
+  {
+    key: 'finalErrorDeg',
+    title: 'Final error',
+    unit: 'deg',
+    scale: 1,
+    overflowLabel: (e) => `>${e}`,
+    help: 'Error angle at the end of the case',
+  },
 ];
 
 export interface BarRect {
@@ -181,7 +196,16 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
               ? `${edgeText(edges[k]!, q)}–${edgeText(edges[k + 1]!, q)}` // the last bin is closed: it holds both
               : edgeText(edges[k]!, q)
             : `[${edgeText(edges[k]!, q)}, ${edgeText(edges[k + 1]!, q)}${k === nBins - 1 ? ']' : ')'} ${q.unit}`;
-      bars.push({ controller: c, bin: k, count, x, y, w: Math.max(0.5, barW - 0.4), h: plot.bottom - y, title: `${names[c] ?? `controller ${c + 1}`}: ${count} run${count === 1 ? '' : 's'} in ${range}` });
+      bars.push({
+        controller: c,
+        bin: k,
+        count,
+        x,
+        y,
+        w: Math.max(0.5, barW - 0.4),
+        h: plot.bottom - y,
+        title: `${names[c] ?? `controller ${c + 1}`}: ${count} run${count === 1 ? '' : 's'} in ${range}`,
+      });
     });
   });
 
@@ -190,7 +214,10 @@ export function layoutHistogram(hists: readonly Histogram[], names: readonly str
     const stride = labelStride(nBins + 1, 10);
     for (let k = 0; k < nBins; k += stride) {
       const last = k === nBins - 1;
-      xLabels.push({ x: slotX(k) + slotW / 2, text: last ? `${edgeText(edges[k]!, q)}–${edgeText(edges[k + 1]!, q)}` : edgeText(edges[k]!, q) });
+      xLabels.push({
+        x: slotX(k) + slotW / 2,
+        text: last ? `${edgeText(edges[k]!, q)}–${edgeText(edges[k + 1]!, q)}` : edgeText(edges[k]!, q),
+      });
     }
   } else {
     const stride = labelStride(edges.length, 6);

@@ -132,7 +132,10 @@ export function mapGeometry(points: readonly MapPoint[], controller: number, mod
     outcome.push(o);
     settleTimeS.push(t);
     counts[o]++;
-    const c = mode === 'settle' && settledKind(o) && t !== null ? settleRamp((t - settleMinS) / (settleMaxS - settleMinS)) : hexToRgb(OUTCOME_COLOURS[o]);
+    const c =
+      mode === 'settle' && settledKind(o) && t !== null
+        ? settleRamp((t - settleMinS) / (settleMaxS - settleMinS))
+        : hexToRgb(OUTCOME_COLOURS[o]);
     colours[3 * i] = c[0];
     colours[3 * i + 1] = c[1];
     colours[3 * i + 2] = c[2];

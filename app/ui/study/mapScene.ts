@@ -27,6 +27,7 @@ import { canvasLabelFactory } from '../../view3d/labels';
 import { Triad, createKit, disposeKit, disposeTree } from '../../view3d/primitives';
 import { CAMERA_FOV_DEG } from '../../view3d/style';
 import type { MapGeometry } from './mapModel';
+import { RAD_PER_DEG } from '../../engine/units';
 
 export interface OutcomeMapView {
   readonly renderer: WebGLRenderer;
@@ -50,7 +51,7 @@ function sphereLines(r: number, latStepDeg: number, lonStepDeg: number, segments
   const out: number[] = [];
   const push = (a: number[], b: number[]) => out.push(a[0]!, a[1]!, a[2]!, b[0]!, b[1]!, b[2]!);
   for (let lat = -90 + latStepDeg; lat < 90 - 1e-9; lat += latStepDeg) {
-    const phi = (lat * Math.PI) / 180;
+    const phi = lat * RAD_PER_DEG;
     const z = r * Math.sin(phi);
     const rr = r * Math.cos(phi);
     for (let k = 0; k < segments; k++) {
@@ -60,7 +61,7 @@ function sphereLines(r: number, latStepDeg: number, lonStepDeg: number, segments
     }
   }
   for (let lon = 0; lon < 180 - 1e-9; lon += lonStepDeg) {
-    const l = (lon * Math.PI) / 180;
+    const l = lon * RAD_PER_DEG;
     for (let k = 0; k < segments; k++) {
       const a0 = (2 * Math.PI * k) / segments;
       const a1 = (2 * Math.PI * (k + 1)) / segments;
@@ -112,7 +113,10 @@ function spriteTexture(hollow: boolean): CanvasTexture | null {
   return t;
 }
 
-export function createOutcomeMapView(canvas: HTMLCanvasElement, opts: { width: number; height: number; preserveDrawingBuffer?: boolean }): OutcomeMapView {
+export function createOutcomeMapView(
+  canvas: HTMLCanvasElement,
+  opts: { width: number; height: number; preserveDrawingBuffer?: boolean },
+): OutcomeMapView {
   const renderer = new WebGLRenderer({ canvas, antialias: true, preserveDrawingBuffer: opts.preserveDrawingBuffer ?? false });
   const pr = typeof window !== 'undefined' ? window.devicePixelRatio || 1 : 1;
   renderer.setPixelRatio(pr);
@@ -151,8 +155,28 @@ export function createOutcomeMapView(canvas: HTMLCanvasElement, opts: { width: n
   }
   scene.add(frame);
 
-  const filled = new Points(new BufferGeometry(), new PointsMaterial({ size: POINT_PX * pr, sizeAttenuation: false, vertexColors: true, map: spriteTexture(false), alphaTest: 0.5, transparent: false }));
-  const hollow = new Points(new BufferGeometry(), new PointsMaterial({ size: (POINT_PX + 1) * pr, sizeAttenuation: false, vertexColors: true, map: spriteTexture(true), alphaTest: 0.5, transparent: false }));
+  const filled = new Points(
+    new BufferGeometry(),
+    new PointsMaterial({
+      size: POINT_PX * pr,
+      sizeAttenuation: false,
+      vertexColors: true,
+      map: spriteTexture(false),
+      alphaTest: 0.5,
+      transparent: false,
+    }),
+  );
+  const hollow = new Points(
+    new BufferGeometry(),
+    new PointsMaterial({
+      size: (POINT_PX + 1) * pr,
+      sizeAttenuation: false,
+      vertexColors: true,
+      map: spriteTexture(true),
+      alphaTest: 0.5,
+      transparent: false,
+    }),
+  );
   filled.renderOrder = hollow.renderOrder = 2;
   scene.add(filled, hollow);
 

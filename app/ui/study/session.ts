@@ -126,7 +126,13 @@ export function defaultStudyBlock(scenario: unknown): Obj {
 /** File-name stem from a scenario name. */
 export function studySlug(name: unknown): string {
   const base = typeof name === 'string' && name.trim() ? name : 'slewsmith';
-  return base.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'slewsmith';
+  return (
+    base
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-+|-+$/g, '')
+      .slice(0, 80) || 'slewsmith'
+  );
 }
 
 const HARD_STOP_MESSAGE = 'stopped by Cancel';
@@ -261,7 +267,8 @@ export function createStudySession(o: StudySessionOptions): StudySession {
     }
     const runs = Number(((scenario as Obj).study as Obj).runs);
     const n = workerCount(runs);
-    const shared = (o.sharedCancel ?? (typeof crossOriginIsolated !== 'undefined' && crossOriginIsolated)) && typeof SharedArrayBuffer !== 'undefined';
+    const shared =
+      (o.sharedCancel ?? (typeof crossOriginIsolated !== 'undefined' && crossOriginIsolated)) && typeof SharedArrayBuffer !== 'undefined';
     const r: Running = {
       id: ++seq,
       study: null as unknown as ParallelStudy,
@@ -382,7 +389,8 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       w.onmessage = (ev) => {
         const m = ev.data;
         if (m.type === 'case-scenario' && m.id === id) done(m.result);
-        else if (m.type === 'case-scenario-crash' && m.id === id) done({ ok: false, errors: [{ path: 'workers', rule: 'crashed', message: m.message }], warnings: [] });
+        else if (m.type === 'case-scenario-crash' && m.id === id)
+          done({ ok: false, errors: [{ path: 'workers', rule: 'crashed', message: m.message }], warnings: [] });
       };
       w.onerror = (ev) => {
         ev.preventDefault?.();
@@ -406,7 +414,9 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       const n = await app.bridge.newScenario();
       if (n.status !== 'created') return;
       const json = r.value;
-      const ids = Array.isArray(json.controllers) ? (json.controllers as Obj[]).map((c) => c.id).filter((id): id is string => typeof id === 'string') : [];
+      const ids = Array.isArray(json.controllers)
+        ? (json.controllers as Obj[]).map((c) => c.id).filter((id): id is string => typeof id === 'string')
+        : [];
       const name = isObj(s.scenario) ? s.scenario.name : undefined;
       app.store.load(json, `${studySlug(name)}-case-${index}.scenario.json`, true);
       app.store.setExcluded(ids.filter((id) => id !== controllerId));

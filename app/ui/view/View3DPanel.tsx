@@ -31,7 +31,10 @@ export function View3DPanel() {
   const output = useAppState((s) => s.output);
   const selected = useAppState((s) => s.selectedRunKeys);
   const scenario = useAppState((s) => s.outputScenario);
-  const runs = useMemo(() => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []), [output, selected]);
+  const runs = useMemo(
+    () => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []),
+    [output, selected],
+  );
 
   // Mount once.
   useEffect(() => {
@@ -106,10 +109,21 @@ export function View3DPanel() {
       <div className="view3d-bar">
         {TOGGLES.map((t) => (
           <label key={t.key} className="check">
-            <input type="checkbox" checked={toggles[t.key] ?? true} onChange={(e) => setToggles({ ...toggles, [t.key]: e.target.checked })} /> {t.label}
+            <input
+              type="checkbox"
+              checked={toggles[t.key] ?? true}
+              onChange={(e) => setToggles({ ...toggles, [t.key]: e.target.checked })}
+            />{' '}
+            {t.label}
           </label>
         ))}
-        <select value={layout} onChange={(e) => setLayout(e.target.value as ViewLayout)} aria-label="layout of several runs" disabled={runs.length < 2} title="How several selected runs are shown">
+        <select
+          value={layout}
+          onChange={(e) => setLayout(e.target.value as ViewLayout)}
+          aria-label="layout of several runs"
+          disabled={runs.length < 2}
+          title="How several selected runs are shown"
+        >
           <option value="overlay">overlay</option>
           <option value="side-by-side">side by side</option>
         </select>

@@ -7,6 +7,7 @@ import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types'
 import { makeWheelArray } from '../../engine/wheels/array';
 import { envelopeCapacity, momentumEnvelope } from '../../engine/wheels/envelope';
 import type { KeepOutCone, ViewRun, ViewTarget } from '../../view3d/types';
+import { RAD_PER_DEG } from '../../engine/units';
 
 type Obj = Record<string, unknown>;
 
@@ -63,6 +64,6 @@ export function keepOutCones(scenario: unknown): KeepOutCone[] {
     .map((k) => ({
       label: String(k.label ?? ''),
       dirInertial: k.inertialDirection as number[],
-      halfAngleRad: Math.min(Math.PI / 2, ((k.halfAngleDeg as number) * Math.PI) / 180),
+      halfAngleRad: Math.min(Math.PI / 2, (k.halfAngleDeg as number) * RAD_PER_DEG),
     }));
 }

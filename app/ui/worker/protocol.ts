@@ -10,9 +10,7 @@ export interface RunRequest {
   options: Record<string, unknown>;
 }
 
-export type RunReply =
-  | { type: 'result'; id: number; result: Result<PipelineOutput> }
-  | { type: 'crash'; id: number; message: string };
+export type RunReply = { type: 'result'; id: number; result: Result<PipelineOutput> } | { type: 'crash'; id: number; message: string };
 
 /** The typed-array buffers of an output, each once, for a zero-copy transfer. */
 export function transferables(out: PipelineOutput): ArrayBuffer[] {

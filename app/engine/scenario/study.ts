@@ -8,18 +8,13 @@
  */
 import type { Issue } from '../errors';
 import { issue } from '../errors';
-import type { Scenario, StudySpec } from '../scenario/schema';
-
-const DEG = Math.PI / 180;
-const ARCSEC = DEG / 3600;
+import type { Scenario, StudySpec } from './schema';
+import { RAD_PER_DEG } from '../units';
 
 export type ActuationMode = 'hold' | 'pwm' | 'quantized';
 
 export type AttitudeDispersion =
-  | { mode: 'nominal' }
-  | { mode: 'uniform' }
-  | { mode: 'cone'; maxAngleRad: number }
-  | { mode: 'near-reversal'; withinRad: number };
+  { mode: 'nominal' } | { mode: 'uniform' } | { mode: 'cone'; maxAngleRad: number } | { mode: 'near-reversal'; withinRad: number };
 
 export interface StudyDefinition {
   runs: number;
@@ -67,24 +62,56 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
   const before = errors.length;
   const ids = s.controllers.map((c) => c.id);
   st.controllers?.forEach((id, i) => {
-    if (!ids.includes(id)) errors.push(issue(`study.controllers[${i}]`, 'unknown-id', `study.controllers[${i}] "${id}" is not a controller of this scenario (have: ${ids.join(', ')})`));
-    else if (st.controllers!.indexOf(id) !== i) errors.push(issue(`study.controllers[${i}]`, 'unique', `study.controllers[${i}] "${id}" is listed twice`));
+    if (!ids.includes(id))
+      errors.push(
+        issue(
+          `study.controllers[${i}]`,
+          'unknown-id',
+          `study.controllers[${i}] "${id}" is not a controller of this scenario (have: ${ids.join(', ')})`,
+        ),
+      );
+    else if (st.controllers!.indexOf(id) !== i)
+      errors.push(issue(`study.controllers[${i}]`, 'unique', `study.controllers[${i}] "${id}" is listed twice`));
   });
   const d = st.dispersions ?? {};
   const scale = d.sensors?.attitudeNoiseScale;
   if (scale && !(scale[0]! <= scale[1]!)) {
-    errors.push(issue('study.dispersions.sensors.attitudeNoiseScale', 'min-max', `study.dispersions.sensors.attitudeNoiseScale must be [min, max] with min ≤ max (got [${scale[0]}, ${scale[1]}])`));
+    errors.push(
+      issue(
+        'study.dispersions.sensors.attitudeNoiseScale',
+        'min-max',
+        `study.dispersions.sensors.attitudeNoiseScale must be [min, max] with min ≤ max (got [${scale[0]}, ${scale[1]}])`,
+      ),
+    );
   }
   const vehicleQuantum = s.vehicle.actuation.torqueQuantumMNm;
   if (d.actuation?.includes('quantized') && vehicleQuantum === undefined && d.torqueQuantumMNm === undefined) {
-    errors.push(issue('study.dispersions.torqueQuantumMNm', 'required-for-mode', 'study.dispersions.torqueQuantumMNm is required when study.dispersions.actuation lists "quantized" and vehicle.actuation has no torqueQuantumMNm'));
+    errors.push(
+      issue(
+        'study.dispersions.torqueQuantumMNm',
+        'required-for-mode',
+        'study.dispersions.torqueQuantumMNm is required when study.dispersions.actuation lists "quantized" and vehicle.actuation has no torqueQuantumMNm',
+      ),
+    );
   }
   if (d.wheels?.failOneWheelProbability && s.vehicle.wheels.layout === 'triad') {
-    warnings.push(issue('study.dispersions.wheels.failOneWheelProbability', 'unflyable', 'a triad that loses a wheel cannot produce torque about every axis: every such case is reported as unflyable'));
+    warnings.push(
+      issue(
+        'study.dispersions.wheels.failOneWheelProbability',
+        'unflyable',
+        'a triad that loses a wheel cannot produce torque about every axis: every such case is reported as unflyable',
+      ),
+    );
   }
   const sigma = s.vehicle.sensors.attitudeNoiseArcsec;
   if (scale && sigma === 0 && scale[1]! > 0) {
-    warnings.push(issue('study.dispersions.sensors.attitudeNoiseScale', 'no-effect', 'vehicle.sensors.attitudeNoiseArcsec is 0, so scaling it disperses nothing'));
+    warnings.push(
+      issue(
+        'study.dispersions.sensors.attitudeNoiseScale',
+        'no-effect',
+        'vehicle.sensors.attitudeNoiseArcsec is 0, so scaling it disperses nothing',
+      ),
+    );
   }
   if (errors.length > before) return null;
 
@@ -94,8 +121,8 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     : a.mode === 'uniform'
       ? { mode: 'uniform' }
       : a.mode === 'cone'
-        ? { mode: 'cone', maxAngleRad: a.maxAngleDeg * DEG }
-        : { mode: 'near-reversal', withinRad: a.withinDeg * DEG };
+        ? { mode: 'cone', maxAngleRad: a.maxAngleDeg * RAD_PER_DEG }
+        : { mode: 'near-reversal', withinRad: a.withinDeg * RAD_PER_DEG };
   const quantum = d.torqueQuantumMNm ?? vehicleQuantum;
   return {
     runs: st.runs,
@@ -106,10 +133,10 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     stopAfterSettledForS: st.stopAfterSettledForS ?? DEFAULT_SETTLED_FOR_S,
     worstCases: st.worstCases ?? DEFAULT_WORST_CASES,
     attitude,
-    rateSigmaRadPerS: (d.initialRateDegPerS ?? 0) * DEG,
+    rateSigmaRadPerS: (d.initialRateDegPerS ?? 0) * RAD_PER_DEG,
     inertia: {
       momentSigmaFraction: d.inertia?.momentSigmaFraction ?? 0,
-      axisMisalignmentSigmaRad: (d.inertia?.axisMisalignmentDeg ?? 0) * DEG,
+      axisMisalignmentSigmaRad: (d.inertia?.axisMisalignmentDeg ?? 0) * RAD_PER_DEG,
     },
     wheels: {
       torqueDegradationMax: d.wheels?.torqueDegradationMax ?? 0,
@@ -118,7 +145,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     },
     sensors: {
       attitudeNoiseScale: scale ? [scale[0]!, scale[1]!] : [1, 1],
-      rateBiasSigmaRadPerS: (d.sensors?.rateBiasDegPerS ?? 0) * DEG,
+      rateBiasSigmaRadPerS: (d.sensors?.rateBiasDegPerS ?? 0) * RAD_PER_DEG,
       adversarialEta: d.sensors?.adversarialEta ?? 0,
     },
     controlRateHz: d.controlRateHz ? [...d.controlRateHz] : null,
@@ -126,6 +153,3 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     torqueQuantumNm: quantum !== undefined ? quantum * 1e-3 : null,
   };
 }
-
-/** Arcseconds → rad, exported for the case builder (attitude noise is quoted in arcsec). */
-export const ARCSEC_RAD = ARCSEC;
