@@ -18,3 +18,5 @@ export const SI_PER_MILLI = 1e-3;
 export const MILLI_PER_SI = 1e3;
 /** Seconds per day. */
 export const S_PER_DAY = 86400;
+/** π/2, a right angle in radians. */
+export const HALF_PI = Math.PI / 2;

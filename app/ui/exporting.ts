@@ -1,12 +1,11 @@
 /**
  * Export of one run through the engine's single export entry point (engine/export/runExport.ts,
- * shared with the CLI so both write the same bytes). The UI only gathers the inputs — the run,
- * the resolved scenario it came from, the options — and names the file.
+ * shared with the CLI so both write the same bytes). The UI only gathers the inputs — the run
+ * and the pipeline output it belongs to, the options — and names the file.
  */
 import type { Result } from '../engine/errors';
 import { fail } from '../engine/errors';
 import type { ControllerRun, PipelineOutput } from '../engine/pipeline/types';
-import { loadScenario } from '../engine/scenario/resolve';
 import { exportRun as engineExportRun, type ExportFormat } from '../engine/export/runExport';
 
 export type { ExportFormat } from '../engine/export/runExport';
@@ -49,16 +48,14 @@ export function exportFileName(scenarioName: unknown, run: ControllerRun, format
 }
 
 /** Write the chosen run in the chosen format; engine issues come back as they are. */
-export function exportRun(out: PipelineOutput, scenarioJson: unknown, choice: ExportChoice): Result<{ name: string; content: string }> {
+export function exportRun(out: PipelineOutput, choice: ExportChoice): Result<{ name: string; content: string }> {
   const run = out.runs.find((r) => r.key === choice.runKey);
   if (!run) return fail([{ path: 'run', rule: 'exists', message: 'Choose a run to export' }]);
-  const resolved = loadScenario(scenarioJson);
-  if (!resolved.ok) return fail(resolved.errors);
-  const r = engineExportRun(choice.format, run, out, resolved.value, {
+  const r = engineExportRun(choice.format, run, out, {
     toolName: 'Slewsmith',
     toolVersion: toolVersion(),
     sampleRateHz: choice.sampleRateHz ?? undefined,
   });
   if (!r.ok) return r;
-  return { ok: true, value: { name: exportFileName(resolved.value.name, run, choice.format), content: r.value }, warnings: r.warnings };
+  return { ok: true, value: { name: exportFileName(out.scenario.name, run, choice.format), content: r.value }, warnings: r.warnings };
 }

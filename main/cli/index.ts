@@ -17,7 +17,10 @@ import path from 'node:path';
 import { parseArgs, optionHelp, type OptionSpec, type ParsedArgs } from './args';
 import { comparisonCsv, comparisonTable, planTable } from './format';
 import { writeFileAtomicNode } from './fs';
-import { prepareScenario, runPipeline, planSummary } from '../../app/engine/pipeline/run';
+import { preparePipeline, runPipeline } from '../../app/engine/pipeline/run';
+import { planSummary } from '../../app/engine/pipeline/plan';
+import { isCertificateRefusal } from '../../app/engine/control/certificate';
+import type { RunMode } from '../../app/engine/sim/types';
 import { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import { exportRun, EXPORT_FORMATS, type ExportFormat } from '../../app/engine/export/runExport';
@@ -43,7 +46,12 @@ const CONTROLLER: OptionSpec = {
   valueName: 'id[,id]',
   help: 'only these controller ids (default: all in the file)',
 };
-const MODE: OptionSpec = { name: 'mode', kind: 'value', valueName: 'profiled|direct|both', help: 'override the scenario simulation.mode' };
+const MODE: OptionSpec = {
+  name: 'mode',
+  kind: 'value',
+  valueName: 'follow-plan|step-target|both',
+  help: "override the scenario's simulation.mode: follow the planned slew, or step to each target at once",
+};
 const JSON_OUT: OptionSpec = { name: 'json', kind: 'flag', help: 'print JSON instead of a table' };
 
 async function readScenario(file: string | undefined, io: CliIo): Promise<unknown | null> {
@@ -66,12 +74,12 @@ async function readScenario(file: string | undefined, io: CliIo): Promise<unknow
   }
 }
 
-function modesOf(a: ParsedArgs, io: CliIo): ('profiled' | 'direct')[] | undefined | null {
+function modesOf(a: ParsedArgs, io: CliIo): RunMode[] | undefined | null {
   const m = a.values.mode;
   if (m === undefined) return undefined;
-  if (m === 'both') return ['profiled', 'direct'];
-  if (m === 'profiled' || m === 'direct') return [m];
-  io.err(`error: --mode must be profiled, direct or both (got "${m}")`);
+  if (m === 'both') return ['follow-plan', 'step-target'];
+  if (m === 'follow-plan' || m === 'step-target') return [m];
+  io.err(`error: --mode must be follow-plan, step-target or both (got "${m}")`);
   return null;
 }
 
@@ -83,7 +91,7 @@ const commands: Record<string, Command> = {
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);
       if (json === null) return 2;
-      const p = prepareScenario(json);
+      const p = preparePipeline(json);
       if (!p.ok) {
         printIssues(io, `${a.positional[0]} is not valid`, p.errors);
         return 2;
@@ -91,7 +99,7 @@ const commands: Record<string, Command> = {
       for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
       const s = p.value.scenario;
       io.out(
-        `${a.positional[0]}: valid. "${s.name}", ${s.vehicle.wheelCount} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
+        `${a.positional[0]}: valid. "${s.name}", ${s.vehicle.wheels.length} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
       );
       return 0;
     },
@@ -103,12 +111,12 @@ const commands: Record<string, Command> = {
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);
       if (json === null) return 2;
-      const p = prepareScenario(json);
+      const p = preparePipeline(json);
       if (!p.ok) {
         printIssues(io, `${a.positional[0]} is not valid`, p.errors);
         return 2;
       }
-      const plan = planSummary(p.value.plan, p.value.scenario);
+      const plan = planSummary(p.value.plan, p.value.scenario.targets);
       if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
       else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
       return plan.feasible ? 0 : 1;
@@ -116,7 +124,8 @@ const commands: Record<string, Command> = {
   },
   compare: {
     summary: 'simulate every controller and print the metrics table',
-    usage: 'slewsmith compare <scenario.json> [--controller id,...] [--mode profiled|direct|both] [--csv FILE] [--json-file FILE] [--json]',
+    usage:
+      'slewsmith compare <scenario.json> [--controller id,...] [--mode follow-plan|step-target|both] [--csv FILE] [--json-file FILE] [--json]',
     options: [
       HELP,
       CONTROLLER,
@@ -189,15 +198,13 @@ const commands: Record<string, Command> = {
         printIssues(io, `${a.positional[0]} is not valid`, r.errors);
         return 2;
       }
-      const loaded = prepareScenario(json, a.lists.controller);
-      if (!loaded.ok) return 2;
       const outDir = a.values.out ?? 'slewsmith-out';
       await mkdir(outDir, { recursive: true });
       const base = path.basename(a.positional[0]!).replace(/\.scenario\.json$|\.json$/, '');
       let status = r.value.plan.feasible ? 0 : 1;
       for (const run of r.value.runs) {
         for (const f of formats) {
-          const text = exportRun(f, run, r.value, loaded.value.scenario, {
+          const text = exportRun(f, run, r.value, {
             toolName: TOOL_NAME,
             toolVersion: TOOL_VERSION,
             sampleRateHz: rate,
@@ -223,11 +230,11 @@ const commands: Record<string, Command> = {
     async run(a, io) {
       const json = await readScenario(a.positional[0], io);
       if (json === null) return 2;
-      const p = prepareScenario(json, a.lists.controller);
+      const p = preparePipeline(json, a.lists.controller);
       if (!p.ok) {
-        const refused = p.errors.filter((e) => /synerg|gap|diffeomorphism|hysteresis/i.test(e.rule + e.message));
-        printIssues(io, refused.length ? 'certificate refused' : `${a.positional[0]} is not valid`, p.errors);
-        return refused.length && refused.length === p.errors.length ? 1 : 2;
+        const refusedOnly = p.errors.every(isCertificateRefusal);
+        printIssues(io, refusedOnly ? 'certificate refused' : `${a.positional[0]} is not valid`, p.errors);
+        return refusedOnly ? 1 : 2;
       }
       const certs = p.value.controllers.filter((c) => c.controller.certificate);
       if (certs.length === 0) {

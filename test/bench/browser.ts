@@ -372,7 +372,7 @@ async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<
       return { n, runs: runs.length, viewRuns: v.model.viewports.reduce((s, vp) => s + vp.runs.length, 0), set, ren, stat, batchMeanMs };
     }, keys);
 
-  for (const keys of [['pd:profiled'], ['pd:profiled', 'hysteretic:profiled', 'synergistic:profiled']]) {
+  for (const keys of [['pd:follow-plan'], ['pd:follow-plan', 'hysteretic:follow-plan', 'synergistic:follow-plan']]) {
     const r = await measure(keys);
     const both = r.set.map((s, i) => s + r.ren[i]!);
     console.log(

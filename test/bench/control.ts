@@ -5,7 +5,7 @@
  */
 import { certifySynergistic, clearCertificateCache } from '../../app/engine/control/certificate';
 import { flowSetGradientCheck } from '../../app/engine/control/flowset';
-import { makeController } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import { makeWarpFamily } from '../../app/engine/control/potential';
 import type { ControlInput, PlantModel } from '../../app/engine/control/types';
 import { makeRng } from '../../app/engine/math/prng';

@@ -2,9 +2,9 @@
  * Pipeline speed figures (printed, never asserted), on the invented Lumen-6 demo
  * (assets/lumen6-imaging.scenario.json: 4-wheel pyramid, three controllers, 10 Hz sampled control,
  * the scenario's RK4 steps per sample, sensor noise on):
- *  - runPipeline on the demo: validate + plan + certify + 3 controllers × (profiled, direct);
+ *  - runPipeline on the demo: validate + plan + certify + 3 controllers × (follow-plan, step-target);
  *    also split into prepareScenario and the six runOne calls, with µs per trace sample;
- *  - one 600 s closed-loop run of the demo vehicle (hysteretic law, direct reference, 10 Hz,
+ *  - one 600 s closed-loop run of the demo vehicle (hysteretic law, step-target reference, 10 Hz,
  *    1 RK4 step per sample, noise on): median time and cost per sample;
  *  - garbage-collector time during those runs (perf_hooks 'gc' entries) and JS-heap bytes
  *    allocated per sample, estimated with V8's sampling heap profiler INCLUDING objects already
@@ -17,7 +17,8 @@ import { readFileSync } from 'node:fs';
 import { Session } from 'node:inspector/promises';
 import { PerformanceObserver } from 'node:perf_hooks';
 import { pathToFileURL } from 'node:url';
-import { directReference, prepareScenario, runOne, runPipeline, type Prepared } from '../../app/engine/pipeline/run';
+import { flyAndSummarise, preparePipeline, runPipeline, type Prepared } from '../../app/engine/pipeline/run';
+import { stepTargetReference } from '../../app/engine/sim/reference';
 import { runClosedLoop, type ClosedLoopConfig } from '../../app/engine/sim/closedLoop';
 
 const DEMO = new URL('../../assets/lumen6-imaging.scenario.json', import.meta.url);
@@ -71,14 +72,7 @@ async function allocatedBytes(f: () => void): Promise<number> {
   return sum(profile.head);
 }
 
-function targetsOf(p: Prepared): Float64Array {
-  const s = p.scenario;
-  const targets = new Float64Array(4 * s.targets.length);
-  s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
-  return targets;
-}
-
-/** The 600 s run: demo vehicle, its hysteretic law, direct reference, 10 Hz, one RK4 step per sample. */
+/** The 600 s run: demo vehicle, its hysteretic law, step-target reference, 10 Hz, one RK4 step per sample. */
 function longRunConfig(p: Prepared): ClosedLoopConfig {
   const s = p.scenario;
   const c = p.controllers.find((x) => x.law === 'hysteretic') ?? p.controllers[0]!;
@@ -86,7 +80,7 @@ function longRunConfig(p: Prepared): ClosedLoopConfig {
     plant: p.vehicle.plant,
     wheels: p.vehicle.wheels,
     controller: c.controller,
-    reference: directReference(p.plan, targetsOf(p), s.initial.qInertialFromBody),
+    reference: stepTargetReference(p.plan, p.targets, s.initial.qInertialFromBody),
     q0: s.initial.qInertialFromBody,
     omega0: s.initial.omegaBody,
     hWheel0: s.initial.hWheelNms,
@@ -108,10 +102,9 @@ function longRunConfig(p: Prepared): ClosedLoopConfig {
 
 export async function benchPipeline(): Promise<void> {
   const json = JSON.parse(readFileSync(DEMO, 'utf8')) as unknown;
-  const prep = prepareScenario(json);
+  const prep = preparePipeline(json);
   if (!prep.ok) throw new Error(`demo does not load: ${prep.errors.map((e) => e.message).join('; ')}`);
   const p = prep.value;
-  const targets = targetsOf(p);
 
   // Warm-up: let the JIT settle before anything is timed.
   for (let i = 0; i < 3; i++) runPipeline(json);
@@ -128,26 +121,26 @@ export async function benchPipeline(): Promise<void> {
     pipe.push(r.ms);
     pipeGc.push(r.gcMs);
     const t0 = performance.now();
-    prepareScenario(json);
+    preparePipeline(json);
     prepMs.push(performance.now() - t0);
   }
   console.log(
-    `   runPipeline(demo), 3 controllers × (profiled, direct): median ${median(pipe).toFixed(1)} ms over ${REPS} ` +
-      `(GC ${median(pipeGc).toFixed(1)} ms); prepareScenario alone ${median(prepMs).toFixed(1)} ms; ${samples} trace samples in all`,
+    `   runPipeline(demo), 3 controllers × (follow-plan, step-target): median ${median(pipe).toFixed(1)} ms over ${REPS} ` +
+      `(GC ${median(pipeGc).toFixed(1)} ms); preparePipeline alone ${median(prepMs).toFixed(1)} ms; ${samples} trace samples in all`,
   );
 
   for (const c of p.controllers) {
-    for (const mode of ['profiled', 'direct'] as const) {
+    for (const mode of ['follow-plan', 'step-target'] as const) {
       const ts: number[] = [];
       let n = 0;
       for (let i = 0; i < REPS; i++) {
         const t0 = performance.now();
-        n = runOne(p, c, mode, targets).trace.n;
+        n = flyAndSummarise(p, c, mode).trace.n;
         ts.push(performance.now() - t0);
       }
       const m = median(ts);
       console.log(
-        `   runOne ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, ${p.scenario.simulation.rk4StepsPerSample} RK4 step(s) each)`,
+        `   fly+summarise ${`${c.id}:${mode}`.padEnd(22)} ${m.toFixed(1).padStart(6)} ms  ${((1000 * m) / n).toFixed(2).padStart(6)} µs/sample (${n} samples, ${p.scenario.simulation.rk4StepsPerSample} RK4 step(s) each)`,
       );
     }
   }

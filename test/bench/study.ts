@@ -1,7 +1,7 @@
 /**
  * Robustness-study speed figures (no assertions): 10,000 dispersed 600 s slews (2,000 cases of
  * the Tern-12 example study × its five laws) on two worker threads, against the single-run
- * figure (one pipeline runOne of a 600 s case) and the in-thread cost per case, with the
+ * figure (one pipeline flight of a 600 s case) and the in-thread cost per case, with the
  * parallel efficiency and where a case's time goes. Cheapest honest settings: RK4 with one step
  * per 10 Hz control period (rk4StepsPerSample 1) and the study's early stop (20 s settled).
  * Run: node --import tsx test/bench/study.ts, or npm run bench -- study.
@@ -10,11 +10,10 @@ import { readFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { prepareScenario, runOne } from '../../app/engine/pipeline/run';
+import { flyAndSummarise, preparePipeline } from '../../app/engine/pipeline/run';
 import { makeStudyContext } from '../../app/engine/study/context';
-import { drawCase } from '../../app/engine/study/sample';
-import { buildCaseVehicle, caseReference, flyCase, runCase } from '../../app/engine/study/runCase';
-import { computeMetrics } from '../../app/engine/metrics/metrics';
+import { prepareCase, runCase } from '../../app/engine/study/runCase';
+import { fly, scenarioFlight } from '../../app/engine/pipeline/fly';
 import { startStudyParallel } from '../../app/engine/study/parallel';
 import { threadPort } from '../../main/cli/study';
 
@@ -43,25 +42,21 @@ export async function benchStudy(): Promise<void> {
 
   // 1. Single-run figure: one normal 600 s run through the pipeline (no early stop), median of 9.
   const single = JSON.parse(JSON.stringify(json));
-  single.simulation.mode = 'direct';
-  single.simulation.tailS = 0;
-  const p0 = prepareScenario(single, ['hyst']);
-  if (!p0.ok) throw new Error('scenario refused');
-  single.simulation.tailS = 600 - Math.max(1, p0.value.plan.totalS); // the pipeline runs plan + tail
-  const p = prepareScenario(single, ['hyst']);
+  single.simulation.mode = 'step-target';
+  single.simulation.durationS = 600;
+  const p = preparePipeline(single, ['hyst']);
   if (!p.ok) throw new Error('scenario refused');
-  const targets = Float64Array.from(p.value.scenario.targets[0]!.qInertialFromBody);
-  runOne(p.value, p.value.controllers[0]!, 'direct', targets);
+  flyAndSummarise(p.value, p.value.controllers[0]!, 'step-target');
   const singles: number[] = [];
   let samples = 0;
   for (let k = 0; k < 9; k++) {
     const t = performance.now();
-    samples = runOne(p.value, p.value.controllers[0]!, 'direct', targets).trace.n;
+    samples = flyAndSummarise(p.value, p.value.controllers[0]!, 'step-target').trace.n;
     singles.push(performance.now() - t);
   }
   const singleMs = median(singles);
   console.log(
-    `   single run (pipeline runOne, hysteretic, ${samples} samples = 600 s at 10 Hz, no early stop): ${ms(singleMs)} (median of 9)`,
+    `   single run (pipeline flight, hysteretic, ${samples} samples = 600 s at 10 Hz, no early stop): ${ms(singleMs)} (median of 9)`,
   );
 
   // 2. In-thread cost per case over every 20th case of the study (a fair sample of its mix).
@@ -81,27 +76,19 @@ export async function benchStudy(): Promise<void> {
     nSamples = 0;
   for (const i of probe.slice(0, 30)) {
     let a = performance.now();
-    const d = drawCase(ctx.def, ctx.nominal, i);
-    const v = buildCaseVehicle(ctx, d);
-    const ref = v.ok ? caseReference(ctx, d, v.value) : null;
+    const pc = prepareCase(ctx, i);
     tDraw += performance.now() - a;
-    if (!v.ok || !ref || !ref.ok) continue;
-    for (const bc of ctx.controllers) {
+    if (!pc.ok) continue;
+    const pr = pc.prepared;
+    for (const bc of pr.controllers) {
       a = performance.now();
-      const f = flyCase(ctx, d, v.value, ref.ref, bc);
+      const res = fly(scenarioFlight(pr.scenario, pr.vehicle, pr.plan, pr.targets, bc, ctx.def.mode));
       tFly += performance.now() - a;
       a = performance.now();
-      computeMetrics(f.res.trace, f.res.jumps, {
-        settleAngleRad: 1e-3,
-        settleRateRadPerS: 1e-4,
-        chatterWindowS: 10,
-        maxTorqueNm: v.value.wheels.maxTorqueNm,
-        maxMomentumNms: v.value.wheels.maxMomentumNms,
-        segmentTargets: ctx.target,
-      });
-      tMetrics += performance.now() - a;
-      simS += f.res.trace.t[f.res.trace.n - 1]!;
-      nSamples += f.res.trace.n;
+      flyAndSummarise(pr, bc, ctx.def.mode, { monitor: false });
+      tMetrics += performance.now() - a - tFly / (nRuns + 1);
+      simS += res.trace.t[res.trace.n - 1]!;
+      nSamples += res.trace.n;
       nRuns++;
     }
   }
@@ -113,7 +100,7 @@ export async function benchStudy(): Promise<void> {
     metPer = tMetrics / nRuns;
   const samplesPer = nSamples / nRuns; // the study draws 5 or 10 Hz per case
   console.log(
-    `   per slew: closed loop ${ms(flyPer - metPer)} (≈ ${((1e3 * (flyPer - metPer)) / samplesPer).toFixed(1)} µs per control sample), metrics ${ms(metPer)}, draw + vehicle + reference ${ms(tDraw / 30 / nLaws)}`,
+    `   per slew: closed loop ${ms(flyPer)} (≈ ${((1e3 * flyPer) / samplesPer).toFixed(1)} µs per control sample), metrics ≈ ${ms(Math.max(0, metPer))}, draw + case scenario + build + plan ${ms(tDraw / 30 / nLaws)}`,
   );
 
   // 3. Two worker threads, 10,000 slews.

@@ -80,9 +80,16 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     expect((await strip.boundingBox())?.y).toBe(0);
     expect(await page.getByTestId('document-name').textContent()).toContain('Lumen-6 imaging pass');
     expect(await page.getByTestId('plan-summary').textContent()).toContain('Image 1');
-    // The demo compares three controllers, each profiled and direct.
+    // The demo compares three controllers, each following the plan and stepping to the targets.
     expect((await runColumns(page)).sort()).toEqual(
-      ['hysteretic:direct', 'hysteretic:profiled', 'pd:direct', 'pd:profiled', 'synergistic:direct', 'synergistic:profiled'].sort(),
+      [
+        'hysteretic:step-target',
+        'hysteretic:follow-plan',
+        'pd:step-target',
+        'pd:follow-plan',
+        'synergistic:step-target',
+        'synergistic:follow-plan',
+      ].sort(),
     );
     // The engine marks a best value; the table shows it.
     expect(await page.locator('[data-testid=comparison] td[data-best=true]').count()).toBeGreaterThan(0);
@@ -98,8 +105,8 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     // The first run is the smooth PD law: no logic variable, said in words rather than an empty chart.
     expect(await page.getByTestId('plot-logic').textContent()).toMatch(/smooth law/);
 
-    await page.getByTestId('show-synergistic:profiled').check();
-    await page.locator('th[data-run="synergistic:profiled"] button', { hasText: 'detail' }).click();
+    await page.getByTestId('show-synergistic:follow-plan').check();
+    await page.locator('th[data-run="synergistic:follow-plan"] button', { hasText: 'detail' }).click();
     await page.getByTestId('plot-potential').locator('canvas').first().waitFor();
     await page.waitForTimeout(300);
     painted = await paintedPlots(page);
@@ -162,7 +169,7 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     await waitForRun(page);
     await expect
       .poll(async () => (await runColumns(page)).sort())
-      .toEqual(['pd:direct', 'pd:profiled', 'synergistic:direct', 'synergistic:profiled']);
+      .toEqual(['pd:follow-plan', 'pd:step-target', 'synergistic:follow-plan', 'synergistic:step-target']);
     const labels = await page.locator('[data-testid=comparison] th[data-run] .run-name').allTextContents();
     expect(labels.some((l) => l.includes('Quaternion PD'))).toBe(true);
     expect(labels.some((l) => l.includes('Synergistic'))).toBe(true);
@@ -180,7 +187,7 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
   it('updates the synergistic certificate badge live: a margin above the certified gap is refused', async () => {
     const badge = page.getByTestId('certificate-synergistic');
     expect(await badge.textContent()).toMatch(/admissible.*δ\* = 0\.03125/i);
-    const delta = page.locator('input[data-path="controllers[2].hysteresis"]');
+    const delta = page.locator('input[data-path="controllers[2].gapThreshold"]');
     await delta.fill('0.05');
     await expect.poll(() => badge.textContent()).toMatch(/not certified.*certified gap δ\* = 0\.031/i);
     expect(await page.getByTestId('run-button').isDisabled()).toBe(true);
@@ -195,11 +202,11 @@ describe.skipIf(skipBrowser)('main window workflow (Chromium)', () => {
     const dialog = page.getByTestId('export-dialog');
     await dialog.waitFor();
     await dialog.getByTestId('format-aem').check();
-    await dialog.getByTestId('export-run').selectOption('synergistic:profiled');
+    await dialog.getByTestId('export-run').selectOption('synergistic:follow-plan');
     await dialog.getByTestId('export-rate').fill('1');
     await shot(page, 'export-dialog');
     const [download] = await Promise.all([page.waitForEvent('download'), dialog.getByTestId('export-go').click()]);
-    expect(download.suggestedFilename()).toMatch(/^lumen-6-imaging-pass-synergistic-profiled\.aem$/);
+    expect(download.suggestedFilename()).toMatch(/^lumen-6-imaging-pass-synergistic-follow-plan\.aem$/);
     const text = fs.readFileSync((await download.path())!, 'utf8');
     const doc = parseAem(text);
     expect(doc.ok, doc.ok ? '' : JSON.stringify(doc.errors.slice(0, 5))).toBe(true);

@@ -234,7 +234,7 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     const runs = await page
       .locator('[data-testid=comparison] th[data-run]')
       .evaluateAll((ths) => ths.map((t) => (t as HTMLElement).dataset.run));
-    expect(runs).toEqual(['hysteretic:direct']);
+    expect(runs).toEqual(['hysteretic:step-target']);
     expect(await page.getByTestId('compare-pd').isChecked()).toBe(false);
     expect(await page.getByTestId('compare-hysteretic').isChecked()).toBe(true);
     expect(await page.getByTestId('dirty-marker').count()).toBe(0);

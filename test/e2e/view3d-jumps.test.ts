@@ -37,7 +37,7 @@ function spinThroughCopy(): string {
   s.targets[0].attitude.relative.angleDeg = 179;
   s.initial.bodyRateDegPerS = axis.map((a) => (-12 * a) / n);
   s.vehicle.wheels.maxMomentumMNms = 60;
-  s.simulation.mode = 'direct';
+  s.simulation.mode = 'step-target';
   s.simulation.tailS = 120;
   fs.mkdirSync(outputDir, { recursive: true });
   const file = path.join(outputDir, 'tern12-spin-through.scenario.json');
@@ -130,7 +130,7 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
   let page: Page;
   let runs: RunInfo[];
   let tMax: number;
-  const byLaw = (id: string) => runs.find((r) => r.key === `${id}:direct`)!;
+  const byLaw = (id: string) => runs.find((r) => r.key === `${id}:step-target`)!;
 
   beforeAll(async () => {
     const file = spinThroughCopy();
@@ -153,7 +153,13 @@ describe.skipIf(skipBrowser)('jump markers in the 3D view (Chromium)', () => {
   });
 
   it('computes the copy as the CLI does: the hybrid laws jump, the smooth ones cannot', () => {
-    expect(runs.map((r) => r.key).sort()).toEqual(['eigen:direct', 'hyst:direct', 'pd:direct', 'sign:direct', 'syn:direct']);
+    expect(runs.map((r) => r.key).sort()).toEqual([
+      'eigen:step-target',
+      'hyst:step-target',
+      'pd:step-target',
+      'sign:step-target',
+      'syn:step-target',
+    ]);
     expect(byLaw('hyst').jumps.length).toBeGreaterThanOrEqual(1);
     expect(byLaw('syn').jumps.length).toBeGreaterThanOrEqual(1);
     expect(byLaw('pd').jumps).toEqual([]);

@@ -11,11 +11,10 @@ import { writeCsv } from '../../app/engine/export/csv';
 import { writeJson } from '../../app/engine/export/json';
 import { qCreate, qRandomUniform } from '../../app/engine/math/rotation';
 import { makeRng } from '../../app/engine/math/prng';
-import { loadScenario } from '../../app/engine/scenario/resolve';
-import { loadExample } from '../unit/scenario-fixtures';
+import { exampleSummary } from '../unit/scenario-fixtures';
 import { META, makeTrace } from '../unit/export-fixtures';
 
-const res = loadScenario(loadExample('tern12-reversal'));
+const res = { ok: true as const, value: exampleSummary('tern12-reversal') };
 if (!res.ok) throw new Error('fixture');
 const scenario = res.value;
 

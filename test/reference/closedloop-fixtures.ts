@@ -4,7 +4,8 @@
  * runClosedLoop → computeMetrics / lyapunovMonitor. No vehicle here is a real spacecraft.
  */
 import { makeGyrostat, type Gyrostat } from '../../app/engine/body/gyrostat';
-import { makeController, type AttitudeController, type PlantModel } from '../../app/engine/control/index';
+import { type AttitudeController, type PlantModel } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import { computeMetrics, type RunMetrics } from '../../app/engine/metrics/metrics';
 import { runClosedLoop, type ClosedLoopConfig, type ClosedLoopResult, type ReferenceSource } from '../../app/engine/sim/closedLoop';
 import { PERFECT_SENSORS } from '../../app/engine/sim/sensors';

@@ -24,16 +24,14 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { symmetricEigen3 } from '../../app/engine/math/mat3';
-import { prepareScenario, runOne } from '../../app/engine/pipeline/run';
+import { flyAndSummarise, preparePipeline } from '../../app/engine/pipeline/run';
 import { DEG_PER_RAD } from '../../app/engine/units';
 
 const json = JSON.parse(readFileSync(new URL('../../assets/lumen6-imaging.scenario.json', import.meta.url), 'utf8')) as unknown;
-const prep = prepareScenario(json);
+const prep = preparePipeline(json);
 if (!prep.ok) throw new Error(JSON.stringify(prep.errors));
 const p = prep.value;
 const s = p.scenario;
-const targets = new Float64Array(4 * s.targets.length);
-s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
 
 const Ts = 1 / s.vehicle.controlRateHz;
 const Jmax = symmetricEigen3(p.vehicle.plant.Jperp).values[2]!;
@@ -52,7 +50,7 @@ function tolerances(omegaN: number, zeta: number) {
   return { slew: (a: number) => 4 * a * Ts * hMax + steady, hold: steady + 3 * sigma };
 }
 
-describe('demo: the profiled closed loop arrives where and when the plan says', () => {
+describe('demo: the plan-following closed loop arrives where and when the plan says', () => {
   it('the demo is what this check assumes: feasible plan, sampled hold actuation, bandwidth gains, ζ < 1', () => {
     expect(p.plan.feasible).toBe(true);
     expect(s.simulation.timing).toBe('sampled');
@@ -68,7 +66,7 @@ describe('demo: the profiled closed loop arrives where and when the plan says', 
       const g = s.controllers.find((x) => x.id === c.id)!.gains;
       if (g.form !== 'bandwidth') throw new Error('bandwidth gains expected');
       const X = tolerances(g.bandwidthRadPerS, g.dampingRatio);
-      const run = runOne(p, c, 'profiled', targets);
+      const run = flyAndSummarise(p, c, 'follow-plan');
       expect(run.outcome.status).toBe('completed');
       const tr = run.trace;
       const at = (t: number) => {

@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { certifySynergistic } from '../../app/engine/control/certificate';
 import { flowSetGradientCheck } from '../../app/engine/control/flowset';
-import { makeController } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import { makeWarpFamily } from '../../app/engine/control/potential';
 import { plantOf } from './control-rk4';
 
@@ -82,12 +82,13 @@ describe('methods §4.3: A = diag(1,2,3), k = 0.15, warp along the eigenvectors'
     expect(c.deltaStar).toBeCloseTo(0.25, 6);
   });
 
-  it('δ outside (0, δ*) is reported on the hysteresis field', () => {
+  it('δ outside (0, δ*) is reported on the jump-threshold field', () => {
     for (const d of [0.3, 0.249995, 0, -0.1]) {
       const c = certifySynergistic({ family: makeWarpFamily(diag123, 0.15, eig), delta: d }, { path: 'controllers[1]', flowSetSamples: 0 });
       expect(c.certified).toBe(true);
       expect(c.admissible).toBe(false);
-      expect(c.issues.map((i) => [i.path, i.rule])).toEqual([['controllers[1].hysteresis', 'synergy-gap']]);
+      // δ ≥ δ* is the certificate's refusal; δ ≤ 0 is plain bad input on the same field.
+      expect(c.issues.map((i) => [i.path, i.rule])).toEqual([['controllers[1].gapThreshold', d > 0 ? 'certificate-gap' : 'positive']]);
     }
     const close = certifySynergistic({ family: makeWarpFamily(diag123, 0.15, eig), delta: 0.24 }, { flowSetSamples: 0 });
     expect(close.admissible).toBe(true);
@@ -121,7 +122,7 @@ describe('refusals', () => {
     expect(c.certified).toBe(false);
     expect(c.admissible).toBe(false);
     expect(c.deltaStar).toBeLessThan(1e-12);
-    expect(c.issues.map((i) => [i.path, i.rule])).toContainEqual(['ctl.warpDirections', 'zero-gap']);
+    expect(c.issues.map((i) => [i.path, i.rule])).toContainEqual(['ctl.warpDirections', 'certificate-zero-gap']);
     expect(c.summary).toMatch(/^Refused/);
   });
 
@@ -130,14 +131,14 @@ describe('refusals', () => {
     expect(c.certified).toBe(false);
     // 1 − k(trA − λ_1) = 1 − 0.25·5 = −0.25 for member 1
     expect(c.diffeomorphismMargins[0]).toBeCloseTo(-0.25, 6);
-    expect(c.issues.map((i) => [i.path, i.rule])).toContainEqual(['ctl.warpGain', 'diffeomorphism']);
+    expect(c.issues.map((i) => [i.path, i.rule])).toContainEqual(['ctl.warpGain', 'certificate-diffeomorphism']);
     expect(c.deltaStar).toBe(0); // no gap is claimed for a refused family
   });
 
   it('a one-member family has no gap at all (μ ≡ 0)', () => {
     const c = certifySynergistic({ family: makeWarpFamily(diag123, 0.15, [1, 0, 0]), delta: 0.2 }, { path: 'ctl', flowSetSamples: 0 });
     expect(c.certified).toBe(false);
-    expect(c.issues.map((i) => i.rule)).toEqual(expect.arrayContaining(['min-members', 'zero-gap']));
+    expect(c.issues.map((i) => i.rule)).toEqual(expect.arrayContaining(['certificate-min-members', 'certificate-zero-gap']));
   });
 
   it('makeController refuses an uncertified family with the field path, unless told to build anyway', () => {
@@ -159,10 +160,10 @@ describe('refusals', () => {
     };
     const r = makeController(spec, plant, 'controllers[0]');
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.errors.map((e) => [e.path, e.rule])).toContainEqual(['controllers[0].warpDirections', 'zero-gap']);
+    if (!r.ok) expect(r.errors.map((e) => [e.path, e.rule])).toContainEqual(['controllers[0].warpDirections', 'certificate-zero-gap']);
     const forced = makeController({ ...spec, requireCertificate: false }, plant, 'controllers[0]');
     expect(forced.ok).toBe(true);
-    expect(forced.warnings.map((w) => w.rule)).toContain('zero-gap');
+    expect(forced.warnings.map((w) => w.rule)).toContain('certificate-zero-gap');
     const good = makeController({ ...spec, warpDirections: undefined }, plant);
     expect(good.ok).toBe(true);
     if (good.ok) expect(good.value.certificate?.deltaStar).toBeCloseTo(0.249989, 6);

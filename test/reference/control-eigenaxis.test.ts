@@ -6,7 +6,8 @@
  * peak |τ| = cJ_iiω_max|ε̂_i| = (0.09, 0.27, 0.36) N m, peak ‖ω‖ = 0.05, axis fixed, 38° left at 20 s.
  */
 import { describe, expect, it } from 'vitest';
-import { eigenaxisLimits, makeController } from '../../app/engine/control/index';
+import { eigenaxisLimits } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import type { AttitudeController } from '../../app/engine/control/types';
 import { qFromAxisAngle, qCreate } from '../../app/engine/math/rotation';
 import { initialState, inputAt, makeDerivative, makeInput, plantOf, REGULATION, rk4Step } from './control-rk4';

@@ -7,7 +7,7 @@
  * from rest at η = −0.99 (16.2° from the target) it turns 360° − 2·arccos(0.99) = 343.8° the long way.
  */
 import { describe, expect, it } from 'vitest';
-import { makeController } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import type { AttitudeController } from '../../app/engine/control/types';
 import { initialState, inputAt, makeDerivative, makeInput, plantOf, REGULATION, rk4Step } from './control-rk4';
 

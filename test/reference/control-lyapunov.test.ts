@@ -8,7 +8,7 @@
  * momentum, so the feedforward and gyroscopic terms are all exercised.
  */
 import { describe, expect, it } from 'vitest';
-import { makeController } from '../../app/engine/control/index';
+import { controllerFromSpec as makeController } from '../support/controller-spec';
 import type { AttitudeController } from '../../app/engine/control/types';
 import { makeDiagnostics } from '../../app/engine/control/types';
 import { makeRng } from '../../app/engine/math/prng';

@@ -16,8 +16,7 @@ import { aemQuaternionFromAttitude, writeAem } from '../../app/engine/export/aem
 import { parseAem } from '../../app/engine/export/aem-read';
 import { qConjugate, qFromAxisAngle, qRandomUniform, qRotateInverse, qCreate } from '../../app/engine/math/rotation';
 import { makeRng } from '../../app/engine/math/prng';
-import { loadScenario } from '../../app/engine/scenario/resolve';
-import { loadExample } from '../unit/scenario-fixtures';
+import { exampleSummary } from '../unit/scenario-fixtures';
 import { META, makeTrace } from '../unit/export-fixtures';
 
 /** M_BA of CCSDS 504.0-B-2 Annex F2, rows, from (Q1, Q2, Q3, QC). */
@@ -32,7 +31,7 @@ function mBA(q: ArrayLike<number>): number[][] {
 const mul = (m: number[][], v: number[]) => m.map((r) => r[0]! * v[0]! + r[1]! * v[1]! + r[2]! * v[2]!);
 
 function tern() {
-  const r = loadScenario(loadExample('tern12-reversal'));
+  const r = { ok: true as const, value: exampleSummary('tern12-reversal') };
   if (!r.ok) throw new Error('fixture');
   return r.value;
 }

@@ -14,6 +14,7 @@
  *   k < 1/(tr A − λ_min) (method: Berkane & Tayebi, IEEE TAC 62(1), 2017; the certified values
  *   A = diag(1, 2, 3), k = 0.15, δ* = 0.249989 were derived for this project, methods note §4.3).
  */
+import { potentialMatrix } from '../../app/engine/control/laws/synergistic/definition';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import Quaternion from 'quaternion';
@@ -162,15 +163,19 @@ describe('SI conversion and the example vehicles', () => {
     expect(m3Get(v.inertiaKgm2, 0, 1)).toBe(0.0012);
     expect(m3Get(v.inertiaKgm2, 2, 0)).toBe(-0.0008);
     expect(m3Get(v.inertiaKgm2, 1, 1)).toBe(0.12);
-    if (v.wheels.layout !== 'pyramid') throw new Error('pyramid expected');
-    expect(v.wheels.maxTorqueNm).toBeCloseTo(0.002, 15);
-    expect(v.wheels.maxMomentumNms).toBeCloseTo(0.006, 15);
-    // Cant on cube diagonals: cos β = 1/√3 (references: Markley et al., JGCD 33(5), 2010 geometry).
-    expect(Math.cos(v.wheels.cantAngleRad)).toBeCloseTo(1 / Math.sqrt(3), 11);
-    expect(v.wheels.azimuthOffsetRad).toBeCloseTo(Math.PI / 4, 15);
+    expect(v.wheelLayout).toBe('pyramid');
+    expect(v.wheels).toHaveLength(4);
+    for (const w of v.wheels) {
+      expect(w.maxTorqueNm).toBeCloseTo(0.002, 15);
+      expect(w.maxMomentumNms).toBeCloseTo(0.006, 15);
+      // Cant on cube diagonals: cos β = 1/√3 (references: Markley et al., JGCD 33(5), 2010 geometry).
+      expect(w.axis[2]).toBeCloseTo(1 / Math.sqrt(3), 11);
+    }
+    // Azimuths 45° + 90°k (references §3: the cube-diagonal pyramid).
+    expect(Math.atan2(v.wheels[0]!.axis[1]!, v.wheels[0]!.axis[0]!)).toBeCloseTo(Math.PI / 4, 15);
     expect(v.sensors.attitudeNoiseRad).toBeCloseTo((10 / 3600) * RAD_PER_DEG, 18);
     expect(v.sensors.rateBiasRadPerS[0]).toBeCloseTo(0.0011 * RAD_PER_DEG, 18);
-    expect(v.controlPeriodS).toBe(0.1);
+    expect(v.controlRateHz).toBe(10);
     expect(v.wheelFriction!.coulombNm).toBeCloseTo(1e-6, 18);
     expect(Array.from(r.initial.hWheelNms)).toEqual([0.0005, -0.0005, 0.0005, -0.0005]);
     expect(r.initial.omegaBody[1]).toBeCloseTo(-0.01 * RAD_PER_DEG, 18);
@@ -178,7 +183,7 @@ describe('SI conversion and the example vehicles', () => {
     expect(r.simulation.settleAngleRad).toBeCloseTo(0.1 * RAD_PER_DEG, 15);
     expect(r.keepOut[0]!.halfAngleRad).toBeCloseTo(40 * RAD_PER_DEG, 15);
     expect(Math.hypot(...r.keepOut[0]!.inertialDirection)).toBeCloseTo(1, 15);
-    expect(r.epochUnixMs).toBe(Date.UTC(2030, 2, 14, 10, 0, 0));
+    expect(r.epoch.unixMs).toBe(Date.UTC(2030, 2, 14, 10, 0, 0));
   });
 
   it('Lumen-6 uses all four attitude forms and the 6U ranges of common practice', () => {
@@ -200,15 +205,16 @@ describe('SI conversion and the example vehicles', () => {
       expect(syn.potentialWeights[1]! / c).toBeCloseTo(2, 14);
       expect(syn.potentialWeights[2]! / c).toBeCloseTo(3, 14);
       expect(syn.warpGain * c).toBeCloseTo(0.15, 14);
-      // Hysteresis below the scaled certified gap 0.249989·c (80 % of it, methods §5 step 6).
-      expect(syn.hysteresis).toBeLessThan(0.249989 * c);
-      expect(syn.hysteresis / c).toBeCloseTo(0.2, 14);
+      // Jump threshold below the scaled certified gap 0.249989·c (80 % of it, methods §5 step 6).
+      expect(syn.gapThreshold).toBeLessThan(0.249989 * c);
+      expect(syn.gapThreshold / c).toBeCloseTo(0.2, 14);
       // Warp bound k < 1/(tr A − λ_min) keeps each warp a diffeomorphism.
       const tr = syn.potentialWeights[0]! + syn.potentialWeights[1]! + syn.potentialWeights[2]!;
       expect(syn.warpGain).toBeLessThan(1 / (tr - c));
       // Default and explicit axes agree: A = diag(λ) in the error-frame axes.
-      expect(m3Get(syn.potentialMatrix, 1, 1)).toBeCloseTo(2 * c, 15);
-      expect(m3Get(syn.potentialMatrix, 0, 2)).toBe(0);
+      const A = potentialMatrix(syn.potentialWeights, syn.potentialAxes);
+      expect(m3Get(A, 1, 1)).toBeCloseTo(2 * c, 15);
+      expect(m3Get(A, 0, 2)).toBe(0);
       expect(syn.warpDirections.map((u) => Array.from(u))).toEqual([
         [1, 0, 0],
         [0, 1, 0],
@@ -220,14 +226,15 @@ describe('SI conversion and the example vehicles', () => {
   it('Kestrel-60: custom axes normalised, quantized torque in N·m, ~60 kg-class inertia', () => {
     const r = resolved(loadExample('kestrel60-momentum'));
     const w = r.vehicle.wheels;
-    if (w.layout !== 'custom') throw new Error('custom expected');
-    expect(w.count).toBe(4);
-    for (const i of [0, 1, 2]) expect(w.wheels[3]!.axis[i]).toBeCloseTo(1 / Math.sqrt(3), 15);
-    expect(w.wheels[0]!.maxMomentumNms).toBeCloseTo(0.25, 15);
-    expect(r.vehicle.actuation.torqueQuantumNm).toBeCloseTo(5e-5, 18);
+    expect(r.vehicle.wheelLayout).toBe('custom');
+    expect(w).toHaveLength(4);
+    for (const i of [0, 1, 2]) expect(w[3]!.axis[i]).toBeCloseTo(1 / Math.sqrt(3), 15);
+    expect(w[0]!.maxMomentumNms).toBeCloseTo(0.25, 15);
+    const act = r.vehicle.actuation;
+    expect(act.mode === 'quantized' ? act.quantumNm : NaN).toBeCloseTo(5e-5, 18);
     // 50–100 kg smallsat ≈ 2–10 kg·m² (references §5, common practice, no source).
     for (let i = 0; i < 3; i++) expect(m3Get(r.vehicle.inertiaKgm2, i, i)).toBeGreaterThan(2);
-    expect(r.epochUnixMs).toBe(Date.UTC(2030, 10, 20, 22, 15, 30, 500));
+    expect(r.epoch.unixMs).toBe(Date.UTC(2030, 10, 20, 22, 15, 30, 500));
     expect(Array.from(r.initial.hWheelNms).map((x) => Math.round(x * 1e6) / 1e6)).toEqual([0.06, -0.04, 0.035, 0.02]);
   });
 });

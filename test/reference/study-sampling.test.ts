@@ -39,7 +39,7 @@ function def(over: Partial<StudyDefinition> = {}): StudyDefinition {
     seed: 99,
     controllers: null,
     durationS: 600,
-    mode: 'direct',
+    mode: 'step-target',
     stopAfterSettledForS: 20,
     worstCases: 5,
     attitude: { mode: 'nominal' },

@@ -82,7 +82,7 @@ describe('slewsmith CLI', () => {
 
   it('compare: one table for every controller, also as CSV', async () => {
     const csv = path.join(dir, 'cmp.csv');
-    const r = await cli(['compare', asset('tern12-reversal.scenario.json'), '--mode', 'direct', '--csv', csv]);
+    const r = await cli(['compare', asset('tern12-reversal.scenario.json'), '--mode', 'step-target', '--csv', csv]);
     expect(r.code).toBe(0);
     for (const name of ['Quaternion PD', 'Sign-switch', 'Eigenaxis', 'Hysteretic', 'Synergistic']) expect(r.stdout).toContain(name);
     const lines = readFileSync(csv, 'utf8').trim().split('\n');
@@ -92,13 +92,22 @@ describe('slewsmith CLI', () => {
 
   it('fly: writes CSV, JSON and AEM that parse, carry the caution and contain no NaN', async () => {
     const out = path.join(dir, 'fly');
-    const r = await cli(['fly', asset('lumen6-imaging.scenario.json'), '--controller', 'hysteretic', '--mode', 'profiled', '--out', out]);
+    const r = await cli([
+      'fly',
+      asset('lumen6-imaging.scenario.json'),
+      '--controller',
+      'hysteretic',
+      '--mode',
+      'follow-plan',
+      '--out',
+      out,
+    ]);
     expect(r.code).toBe(0);
     const files = readdirSync(out);
     expect(files.sort()).toEqual([
-      'lumen6-imaging.hysteretic.profiled.aem',
-      'lumen6-imaging.hysteretic.profiled.csv',
-      'lumen6-imaging.hysteretic.profiled.json',
+      'lumen6-imaging.hysteretic.follow-plan.aem',
+      'lumen6-imaging.hysteretic.follow-plan.csv',
+      'lumen6-imaging.hysteretic.follow-plan.json',
     ]);
     const aem = readFileSync(path.join(out, files[0]!), 'utf8');
     const doc = parseAem(aem);

@@ -14,15 +14,14 @@ import { parseAem } from '../../app/engine/export/aem-read';
 import { AEM_META_KEYS } from '../../app/engine/export/aem-keywords';
 import { significantDigits } from '../../app/engine/export/kvn';
 import { CAUTION_TEXT } from '../../app/engine/caution';
-import { loadScenario } from '../../app/engine/scenario/resolve';
-import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
-import { loadExample } from './scenario-fixtures';
+import type { ScenarioSummary } from '../../app/engine/pipeline/types';
+import { exampleSummary } from './scenario-fixtures';
 import { META, makeTrace } from './export-fixtures';
 
 const OPTS: AemOptions = { creationDateUtc: '2030-03-13T08:00:00Z' };
 
-function scenario(name: 'lumen6-imaging' | 'kestrel60-momentum' = 'lumen6-imaging'): ResolvedScenario {
-  const r = loadScenario(loadExample(name));
+function scenario(name: 'lumen6-imaging' | 'kestrel60-momentum' = 'lumen6-imaging'): ScenarioSummary {
+  const r = { ok: true as const, value: exampleSummary(name) };
   if (!r.ok) throw new Error('fixture');
   return r.value;
 }
@@ -233,7 +232,7 @@ describe('AEM writer: values', () => {
 
   it('a vehicle name with spaces and lower case becomes a KVN text value', () => {
     const s = scenario('kestrel60-momentum');
-    s.vehicle.name = 'Kestrel 60 (flight spare)';
+    s.vehicleName = 'Kestrel 60 (flight spare)';
     const tr = makeTrace({ n: 3, dt: 1, nWheels: 4, q0, omega: [0, 0, 0] });
     expect(write(tr, s)).toContain('OBJECT_NAME = KESTREL_60_FLIGHT_SPARE\n');
   });

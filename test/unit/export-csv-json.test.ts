@@ -7,13 +7,12 @@ import { describe, expect, it } from 'vitest';
 import { writeCsv } from '../../app/engine/export/csv';
 import { writeJson } from '../../app/engine/export/json';
 import { CAUTION_TEXT } from '../../app/engine/caution';
-import { loadScenario } from '../../app/engine/scenario/resolve';
-import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
-import { loadExample } from './scenario-fixtures';
+import type { ScenarioSummary } from '../../app/engine/pipeline/types';
+import { exampleSummary, loadExample } from './scenario-fixtures';
 import { META, makeTrace } from './export-fixtures';
 
-function lumen(): ResolvedScenario {
-  const r = loadScenario(loadExample('lumen6-imaging'));
+function lumen(): ScenarioSummary {
+  const r = { ok: true as const, value: exampleSummary('lumen6-imaging') };
   if (!r.ok) throw new Error('fixture');
   return r.value;
 }
@@ -154,7 +153,7 @@ describe('JSON export', () => {
       [1, 'Image 2 (cross-track step)', tr.t[30], tr.t[66]], // index 66: one extra sample at the jump after 40
       [2, 'Image 3', tr.t[66], tr.t[tr.n - 1]],
     ]);
-    expect(doc.resolved.targets[3].qInertialFromBody).toEqual(Array.from(s.targets[3]!.qInertialFromBody));
+    expect(doc.resolved.targets[3].qInertialFromBody).toEqual(Array.from(s.targets[3]!.q));
   });
 
   it('channels equal the CSV columns and the trace, exactly', () => {

@@ -7,8 +7,7 @@ import { validateTraceForExport } from '../../app/engine/export/trace-check';
 import { writeCsv } from '../../app/engine/export/csv';
 import { writeJson } from '../../app/engine/export/json';
 import { writeAem } from '../../app/engine/export/aem-write';
-import { loadScenario } from '../../app/engine/scenario/resolve';
-import { loadExample } from './scenario-fixtures';
+import { exampleSummary } from './scenario-fixtures';
 import { META, makeTrace } from './export-fixtures';
 
 const q0 = [0, 0, 0, 1];
@@ -61,7 +60,7 @@ describe('validateTraceForExport', () => {
 });
 
 describe('writers never write from a bad trace', () => {
-  const res = loadScenario(loadExample('lumen6-imaging'));
+  const res = { ok: true as const, value: exampleSummary('lumen6-imaging') };
   if (!res.ok) throw new Error('fixture');
   const scenario = res.value;
   it('CSV, JSON and AEM all fail with the same issues and no text', () => {

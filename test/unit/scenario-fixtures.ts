@@ -12,3 +12,15 @@ export type ExampleName = (typeof EXAMPLE_FILES)[number];
 export function loadExample(name: ExampleName): any {
   return JSON.parse(readFileSync(join(assets, `${name}.scenario.json`), 'utf8'));
 }
+
+import { validateScenario } from '../../app/engine/scenario/validate';
+import { resolveScenario } from '../../app/engine/scenario/resolve';
+import { scenarioSummary } from '../../app/engine/pipeline/summarise';
+import type { ScenarioSummary } from '../../app/engine/pipeline/types';
+
+/** An example's scenario summary (what the exporters read), through the pipeline's first stages. */
+export function exampleSummary(name: ExampleName): ScenarioSummary {
+  const v = validateScenario(loadExample(name));
+  if (!v.ok) throw new Error(`${name} is not valid`);
+  return scenarioSummary(resolveScenario(v.value), v.value);
+}

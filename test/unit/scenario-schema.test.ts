@@ -119,7 +119,7 @@ describe('scenarioJsonSchema', () => {
     );
     const props = schema.properties as S;
     expect(props.format.const).toBe('slewsmith-scenario');
-    expect(props.version.const).toBe(1);
+    expect(props.version.const).toBe(2);
     expect(Object.keys(props)).toContain('keepOut');
   });
 

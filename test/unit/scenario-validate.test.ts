@@ -39,7 +39,7 @@ describe('format and version gate', () => {
     expect(e).toHaveLength(1);
     expect(e[0]!.path).toBe('version');
     expect(e[0]!.rule).toBe('version-newer');
-    expect(e[0]!.message).toContain('version 7 is newer than this Slewsmith reads (1)');
+    expect(e[0]!.message).toContain('version 7 is newer than this Slewsmith reads (2)');
   });
   it('version 0, 1.5 and "1" are not versions', () => {
     for (const v of [0, 1.5, '1', null]) {
@@ -159,6 +159,7 @@ describe('vehicle, controllers and the rest', () => {
   it('duplicate controller ids', () => {
     const s = loadExample('tern12-reversal');
     s.controllers[3].id = 'pd';
+    delete s.study;
     const e = errorsOf(s);
     expect(pairs(e)).toEqual(['controllers[3].id unique']);
     expect(e[0]!.message).toContain('controllers[0]');

@@ -24,7 +24,7 @@ describe('study block: structure', () => {
         seed: 3,
         controllers: ['pd', 'syn'],
         durationS: 120,
-        mode: 'profiled',
+        mode: 'follow-plan',
         stopAfterSettledForS: 0,
         worstCases: 3,
         dispersions: {
@@ -43,7 +43,7 @@ describe('study block: structure', () => {
     const d = r.value.study!;
     expect(d.runs).toBe(10);
     expect(d.controllers).toEqual(['pd', 'syn']);
-    expect(d.mode).toBe('profiled');
+    expect(d.mode).toBe('follow-plan');
     expect(d.stopAfterSettledForS).toBe(0);
     expect(d.attitude).toEqual({ mode: 'cone', maxAngleRad: (30 * Math.PI) / 180 });
     expect(d.rateSigmaRadPerS).toBeCloseTo((0.1 * Math.PI) / 180, 15);
@@ -59,7 +59,7 @@ describe('study block: structure', () => {
     const r = loadScenario(testVehicleScenario({ runs: 5, seed: 1 }));
     if (!r.ok) throw new Error('refused');
     const d = r.value.study!;
-    expect([d.durationS, d.mode, d.stopAfterSettledForS, d.worstCases]).toEqual([600, 'direct', 20, 5]);
+    expect([d.durationS, d.mode, d.stopAfterSettledForS, d.worstCases]).toEqual([600, 'step-target', 20, 5]);
     expect(d.attitude).toEqual({ mode: 'nominal' });
     expect(d.controllers).toBeNull();
     expect(d.sensors).toEqual({ attitudeNoiseScale: [1, 1], rateBiasSigmaRadPerS: 0, adversarialEta: 0 });

@@ -43,7 +43,7 @@ export function testVehicleScenario(study: Record<string, unknown>): Record<stri
     ],
     planning: { torqueMargin: 0.9, momentumMargin: 0.9, slewRateLimitDegPerS: 5, profile: 'bang-coast-bang' },
     simulation: {
-      mode: 'direct',
+      mode: 'step-target',
       timing: 'sampled',
       settleAngleDeg: 0.2,
       settleRateDegPerS: 0.05,

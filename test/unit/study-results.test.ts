@@ -6,6 +6,7 @@
  * (for the laws whose behaviour a scenario file can state exactly). Definitions are our own
  * (summary.ts header); "nearest rank" is the textbook quantile definition (from memory).
  */
+import { DEG_PER_RAD } from '../../app/engine/units';
 import { describe, expect, it } from 'vitest';
 import { summarizeStudy, outcomeMap, type StudyInfo } from '../../app/engine/study/summary';
 import type { CaseRecord, CaseRun } from '../../app/engine/study/runCase';
@@ -24,7 +25,7 @@ const def: StudyDefinition = {
   seed: 1,
   controllers: null,
   durationS: 100,
-  mode: 'direct',
+  mode: 'step-target',
   stopAfterSettledForS: 10,
   worstCases: 3,
   attitude: { mode: 'uniform' },
@@ -195,35 +196,40 @@ describe('reopening a case', () => {
     expect(rerunStudyCase(json, {}, 1, 'nope').ok).toBe(false);
   });
 
-  it('studyCaseScenario is a valid scenario whose normal run flies the study trajectory (PD, hysteretic, synergistic)', () => {
+  it('studyCaseScenario is a valid scenario whose normal run reproduces the study row (PD, hysteretic, synergistic)', () => {
     const cs = studyCaseScenario(json, {}, 2);
     if (!cs.ok) throw new Error(JSON.stringify(cs.errors));
     expect(validateScenario(cs.value).ok).toBe(true);
     expect(cs.value.vehicle.wheels.layout).toBe('custom');
     expect(cs.value.simulation.seed).toBe(res.value.records[2]!.draw.noiseSeed);
-    expect(cs.value.description).toContain('Differences from the study run');
+    expect(cs.value.description).toContain('written as a normal scenario');
     const normal = runPipeline(cs.value);
     if (!normal.ok) throw new Error(JSON.stringify(normal.errors));
     const exact = rerunStudyCase(json, {}, 2);
     if (!exact.ok) throw new Error('rerun refused');
+    const row = res.value.records[2]!;
     for (const run of exact.value.runs) {
       const n = normal.value.runs.find((x) => x.controllerId === run.controllerId)!;
-      expect(n.trace.n).toBeGreaterThanOrEqual(run.trace.n); // the normal run does not stop early
+      expect(n.trace.n).toBe(run.trace.n); // the file carries the study's early end
       let worst = 0;
       for (let k = 0; k < 4 * run.trace.n; k++) worst = Math.max(worst, Math.abs(n.trace.q[k]! - run.trace.q[k]!));
-      // Same physics, same noise: only unit round trips (mN·m, arcsec) differ, at the 1e-16 level.
+      // Same stages, same noise: only unit round trips (mN·m, arcsec, deg) differ, at the 1e-16 level.
       expect(worst).toBeLessThan(1e-9);
       expect(n.metrics.settleTimeS).toBe(run.metrics.settleTimeS);
+      const studyRow = row.runs.find((x) => x.controllerId === run.controllerId)!;
+      expect(n.metrics.unwound).toBe(studyRow.unwound && n.metrics.unwound);
+      expect(n.metrics.jumps).toBe(studyRow.jumps);
+      expect(n.metrics.finalErrorRad * DEG_PER_RAD).toBeCloseTo(studyRow.finalErrorDeg, 9);
     }
   });
 
-  it('profiled mode: each case tracks the slew planned on the nominal model and runs its full duration (no early stop)', () => {
+  it('follow-plan mode: each case tracks the slew planned on the nominal model and runs its full duration (no early stop)', () => {
     const pr = runStudy(
       testVehicleScenario({
         runs: 2,
         seed: 5,
         durationS: 200,
-        mode: 'profiled',
+        mode: 'follow-plan',
         controllers: ['hyst'],
         dispersions: { initialAttitude: { mode: 'cone', maxAngleDeg: 60 } },
       }),

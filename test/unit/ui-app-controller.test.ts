@@ -22,7 +22,7 @@ class InlineWorker implements WorkerLike {
   postMessage(m: RunRequest) {
     InlineWorker.posted.push(m);
     const reply = () => {
-      const result = runPipeline(m.scenario, { ...(m.options as object), modes: ['profiled'] });
+      const result = runPipeline(m.scenario, { ...(m.options as object), modes: ['follow-plan'] });
       this.onmessage?.({ data: { type: 'result', id: m.id, result } } as MessageEvent<RunReply>);
     };
     if (InlineWorker.hold) InlineWorker.held.push(reply);
@@ -75,7 +75,7 @@ describe('app controller', () => {
     const { app } = setup();
     await done(app);
     const s = app.store.getState();
-    expect(s.output?.runs.map((r) => r.key).sort()).toEqual(['hysteretic:profiled', 'pd:profiled', 'synergistic:profiled']);
+    expect(s.output?.runs.map((r) => r.key).sort()).toEqual(['hysteretic:follow-plan', 'pd:follow-plan', 'synergistic:follow-plan']);
     expect(s.outputScenario).toBe(s.scenario);
     const run = s.output!.runs[0]!;
     expect(app.clock.tMax).toBe(Math.max(...s.output!.runs.map((r) => r.trace.t[r.trace.n - 1]!)));

@@ -27,7 +27,7 @@ function join(tables: Series[][]): Series[] {
 describe('plot series from a demo run', () => {
   let out: PipelineOutput;
   beforeAll(() => {
-    const r = runPipeline(demo, { controllers: ['pd', 'synergistic'], modes: ['profiled'] });
+    const r = runPipeline(demo, { controllers: ['pd', 'synergistic'], modes: ['follow-plan'] });
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
     out = r.value;
   });
@@ -38,7 +38,7 @@ describe('plot series from a demo run', () => {
   });
 
   it('builds the eight plots for the detailed run, in display units', () => {
-    const plots = buildPlots(out, ['synergistic:profiled', 'pd:profiled'], { logError: false }, join);
+    const plots = buildPlots(out, ['synergistic:follow-plan', 'pd:follow-plan'], { logError: false }, join);
     expect(plots.map((p) => p.id)).toEqual([
       'error-angle',
       'body-rate',
@@ -49,8 +49,8 @@ describe('plot series from a demo run', () => {
       'lyapunov',
       'hybrid-time',
     ]);
-    const syn = out.runs.find((r) => r.key === 'synergistic:profiled')!;
-    const pd = out.runs.find((r) => r.key === 'pd:profiled')!;
+    const syn = out.runs.find((r) => r.key === 'synergistic:follow-plan')!;
+    const pd = out.runs.find((r) => r.key === 'pd:follow-plan')!;
     const n = syn.trace.n;
     const byId = Object.fromEntries(plots.map((p) => [p.id, p]));
     for (const p of plots) {
@@ -60,7 +60,7 @@ describe('plot series from a demo run', () => {
     }
     // Error angle: both runs, rad → deg.
     const ea = byId['error-angle']!;
-    expect(ea.series.map((s) => s.label)).toEqual([`${syn.label} (profiled)`, `${pd.label} (profiled)`]);
+    expect(ea.series.map((s) => s.label)).toEqual([`${syn.label} (follow-plan)`, `${pd.label} (follow-plan)`]);
     const k = Math.floor(n / 3);
     const tk = syn.trace.t[k]!;
     const row = Array.from(ea.data[0] as ArrayLike<number>).indexOf(tk);
@@ -91,7 +91,7 @@ describe('plot series from a demo run', () => {
   });
 
   it('says why a smooth law has no logic, potential or hybrid-time plot', () => {
-    const plots = buildPlots(out, ['pd:profiled'], { logError: true }, join);
+    const plots = buildPlots(out, ['pd:follow-plan'], { logError: true }, join);
     const byId = Object.fromEntries(plots.map((p) => [p.id, p]));
     expect(byId.logic!.empty).toMatch(/smooth law/);
     expect(byId.potential!.empty).toMatch(/no potential family/);

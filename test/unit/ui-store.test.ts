@@ -208,12 +208,36 @@ describe('app store dirty flag and validation', () => {
   it('keeps the run selection where the runs survive a new output', () => {
     const { store } = setup();
     const out = (keys: string[]) => ({ runs: keys.map((key) => ({ key })) }) as never;
-    store.setOutput(out(['pd:profiled', 'syn:profiled']), null);
-    expect(store.getState().selectedRunKeys).toEqual(['pd:profiled']);
-    store.selectRuns(['syn:profiled', 'pd:profiled']);
-    store.setOutput(out(['syn:profiled']), null);
-    expect(store.getState().selectedRunKeys).toEqual(['syn:profiled']);
-    store.setOutput(out(['eig:direct']), null);
-    expect(store.getState().selectedRunKeys).toEqual(['eig:direct']);
+    store.setOutput(out(['pd:follow-plan', 'syn:follow-plan']), null);
+    expect(store.getState().selectedRunKeys).toEqual(['pd:follow-plan']);
+    store.selectRuns(['syn:follow-plan', 'pd:follow-plan']);
+    store.setOutput(out(['syn:follow-plan']), null);
+    expect(store.getState().selectedRunKeys).toEqual(['syn:follow-plan']);
+    store.setOutput(out(['eig:step-target']), null);
+    expect(store.getState().selectedRunKeys).toEqual(['eig:step-target']);
+  });
+});
+
+describe('opening an older file format', () => {
+  it('migrates a version 1 document for editing and marks it changed until saved in version 2', async () => {
+    const { createAppStore } = await import('../../app/ui/store/document');
+    const { validateScenario } = await import('../../app/engine/scenario/validate');
+    const { loadExample } = await import('./scenario-fixtures');
+    const v2 = loadExample('lumen6-imaging');
+    // The same scenario as a version 1 file: the synergistic jump threshold was called "hysteresis".
+    const v1 = JSON.parse(JSON.stringify(v2));
+    v1.version = 1;
+    v1.controllers[2].hysteresis = v1.controllers[2].gapThreshold;
+    delete v1.controllers[2].gapThreshold;
+    const store = createAppStore(null, {
+      validate: (x) => ({ errors: validateScenario(x).ok ? [] : [{ path: '', rule: 'x', message: 'x' }], warnings: [] }) as never,
+    });
+    store.load(v1, 'old.scenario.json', false);
+    const s = store.getState();
+    expect((s.scenario as { version: number }).version).toBe(2);
+    expect((s.scenario as { controllers: Record<string, unknown>[] }).controllers[2]!.gapThreshold).toBe(0.025);
+    expect(s.dirty).toBe(true);
+    store.load(v2, 'new.scenario.json', false);
+    expect(store.getState().dirty).toBe(false);
   });
 });

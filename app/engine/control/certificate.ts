@@ -30,8 +30,13 @@ import { evaluateFamily, makeFamilyWorkspace, memberGradient, phiMax, phiQuat } 
 
 export interface CertifyParams {
   family: WarpFamily;
-  /** The hysteresis δ the controller would use. */
+  /** The jump threshold δ on the synergy gap the controller would use. */
   delta: number;
+}
+
+/** True for an issue the certificate raised as a refusal of the family or of δ (not an input error). */
+export function isCertificateRefusal(i: { rule: string }): boolean {
+  return i.rule.startsWith('certificate-');
 }
 
 export interface CertifyOptions {
@@ -184,7 +189,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   if (n < 2)
     issues.push({
       path: base + 'warpDirections',
-      rule: 'min-members',
+      rule: 'certificate-min-members',
       message: `a synergistic family needs at least 2 members (got ${n}); with one member the gap is zero everywhere`,
     });
 
@@ -195,7 +200,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
     if (!(m > 0))
       issues.push({
         path: base + 'warpGain',
-        rule: 'diffeomorphism',
+        rule: 'certificate-diffeomorphism',
         message: `warp of member ${p + 1} is not a diffeomorphism: min over SO(3) of 1 + g·u = ${fmt(m)} ≤ 0; lower the warp gain k = ${fam.k} (methods §4.2)`,
       });
   });
@@ -216,7 +221,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
       if (roots.length !== expected)
         issues.push({
           path: base + 'warpGain',
-          rule: 'critical-points',
+          rule: 'certificate-critical-points',
           message: `member ${p + 1} has ${roots.length} preimages of ${TARGET_NAMES[target]} (expected ${expected}): the warp is not one-to-one, lower the warp gain k = ${fam.k}`,
         });
       for (const th of roots) {
@@ -225,7 +230,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
         if (rep.gradientNorm > 1e-9 * scale)
           issues.push({
             path: base + 'warpGain',
-            rule: 'critical-points',
+            rule: 'certificate-critical-points',
             message: `member ${p + 1}: gradient at the solved preimage of ${TARGET_NAMES[target]} is ${fmt(rep.gradientNorm)}, not ~0 (numerical failure)`,
           });
         if (target > 0) {
@@ -281,7 +286,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
         known.push(Float64Array.from(qc));
         issues.push({
           path: base + 'warpGain',
-          rule: 'critical-points',
+          rule: 'certificate-critical-points',
           message: `member ${p + 1} has a critical point at [${Array.from(qc, (v) => v.toFixed(6)).join(', ')}] that is not a preimage of a critical point of Φ: the warp is not a diffeomorphism`,
         });
       }
@@ -292,7 +297,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   if (!(deltaStar > deltaTol))
     issues.push({
       path: base + 'warpDirections',
-      rule: 'zero-gap',
+      rule: 'certificate-zero-gap',
       message: `the family has no synergy gap (δ* = ${fmt(deltaStar)} at or below the tolerance ${fmt(deltaTol)}): some undesired critical point is also a minimiser of the family; choose other warp directions (e.g. the eigenvectors of A) or another warp gain`,
     });
   const certified = issues.length === 0;
@@ -300,22 +305,26 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   let admissible = false;
   if (certified) {
     if (!Number.isFinite(delta))
-      issues.push({ path: base + 'hysteresis', rule: 'finite', message: `hysteresis δ must be a finite number (got ${delta})` });
+      issues.push({ path: base + 'gapThreshold', rule: 'finite', message: `the jump threshold δ must be a finite number (got ${delta})` });
     else if (!(delta > 0))
-      issues.push({ path: base + 'hysteresis', rule: 'synergy-gap', message: `hysteresis δ must be greater than zero (got ${delta})` });
+      issues.push({
+        path: base + 'gapThreshold',
+        rule: 'positive',
+        message: `the jump threshold δ must be greater than zero (got ${delta})`,
+      });
     else if (!(delta < deltaStar - deltaTol))
       issues.push({
-        path: base + 'hysteresis',
-        rule: 'synergy-gap',
-        message: `hysteresis δ = ${delta} is not below the certified gap δ* = ${fmt(deltaStar)}: an undesired critical point would lie in the flow set; use δ < ${fmt(deltaStar)} (recommended ${fmt(0.8 * deltaStar)})`,
+        path: base + 'gapThreshold',
+        rule: 'certificate-gap',
+        message: `the jump threshold δ = ${delta} is not below the certified gap δ* = ${fmt(deltaStar)}: an undesired critical point would lie in the flow set; use δ < ${fmt(deltaStar)} (recommended ${fmt(0.8 * deltaStar)})`,
       });
     else {
       admissible = true;
       if (delta > 0.9 * deltaStar)
         warnings.push({
-          path: base + 'hysteresis',
+          path: base + 'gapThreshold',
           rule: 'gap-margin',
-          message: `hysteresis δ = ${delta} leaves only ${fmt(deltaStar - delta)} to the gap δ* = ${fmt(deltaStar)}; measurement noise could reach it (recommended ${fmt(0.8 * deltaStar)})`,
+          message: `the jump threshold δ = ${delta} leaves only ${fmt(deltaStar - delta)} to the gap δ* = ${fmt(deltaStar)}; measurement noise could reach it (recommended ${fmt(0.8 * deltaStar)})`,
         });
     }
   }
@@ -329,7 +338,7 @@ function certifyUncached(params: CertifyParams, options: CertifyOptions): Certif
   // there would contradict the certificate (a numerical failure worth a loud warning).
   if (flowSet && admissible && !(flowSet.minGradientNorm > 1e-9 * scale))
     warnings.push({
-      path: base + 'hysteresis',
+      path: base + 'gapThreshold',
       rule: 'flow-set-gradient',
       message: `sampled flow-set check found ‖b_q‖ = ${fmt(flowSet.minGradientNorm)} away from the identity inside the flow set, which contradicts the certificate; treat it as unreliable`,
     });

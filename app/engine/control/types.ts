@@ -23,9 +23,10 @@ import type { Mat3, Vec3 } from '../math/mat3';
 import type { Quat } from '../math/rotation';
 import type { CertificateResult } from './certificate';
 
-export type ControllerKind = 'quaternion-pd' | 'sign-switch' | 'eigenaxis' | 'hysteretic' | 'synergistic';
+import type { LawId } from './params';
 
-export const CONTROLLER_KINDS: readonly ControllerKind[] = ['quaternion-pd', 'sign-switch', 'eigenaxis', 'hysteretic', 'synergistic'];
+/** How a law's logic value reads: none (0), a sign h ∈ {−1, 1}, or a member index q ∈ {1..M}. */
+export type LogicKind = 'none' | 'sign' | 'index';
 
 /** What the controller knows of the plant. */
 export interface PlantModel {
@@ -34,6 +35,12 @@ export interface PlantModel {
   nWheels: number;
   /** Unit wheel spin axes in body axes, 3 per wheel (G's columns). */
   axes: Float64Array;
+}
+
+/** What a controller is designed for: the plant model it knows, and the torque the wheels can give along body x, y, z. */
+export interface DesignModel extends PlantModel {
+  /** Capacity of the wheel torque envelope along body x, y and z, N·m (the eigenaxis law's torque limit); absent: no limit in the law. */
+  bodyAxisTorqueNm?: Vec3;
 }
 
 export interface ControlInput {
@@ -67,7 +74,7 @@ export interface ControlDiagnostics {
 }
 
 export interface AttitudeController {
-  readonly kind: ControllerKind;
+  readonly kind: LawId;
   readonly label: string;
   /**
    * The drop of W that theory guarantees at each jump: 4k_pδ (hysteretic), k_Rδ (synergistic),

@@ -22,7 +22,7 @@
  */
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
+import type { ScenarioSummary } from '../pipeline/types';
 import { epochUnits, formatEpochUnits, parseIsoUtcMs } from '../scenario/utc';
 import type { RunTrace } from '../sim/types';
 import { AEM_VERSION, KVN_MAX_LINE } from './aem-keywords';
@@ -84,8 +84,8 @@ function commentText(s: string): string {
   return ascii.slice(0, KVN_MAX_LINE - 'COMMENT '.length);
 }
 
-export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta, options: AemOptions): Result<string> {
-  const errors: Issue[] = checkExportInputs(trace, resolved, meta);
+export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: AemOptions): Result<string> {
+  const errors: Issue[] = checkExportInputs(trace, scenario, meta);
   const o = options ?? ({} as AemOptions);
   const creationMs = parseIsoUtcMs(o.creationDateUtc);
   if (creationMs === null) {
@@ -120,7 +120,7 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
     errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
   }
 
-  const objectName = o.objectName ?? toKvnText(resolved?.vehicle?.name ?? '');
+  const objectName = o.objectName ?? toKvnText(scenario?.vehicleName ?? '');
   const text: Record<'originator' | 'objectName' | 'objectId' | 'centerName' | 'refFrameA' | 'refFrameB', string | null> = {
     originator: o.originator ?? 'SLEWSMITH',
     objectName,
@@ -162,7 +162,7 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
 
   const sel = selectSamples(trace, o.sampleRateHz);
   if (!sel.ok) return sel;
-  const segs = exportSegments(trace, resolved, meta.segments);
+  const segs = exportSegments(trace, scenario, meta.segments);
   if (!segs.ok) return segs;
   const idx = sel.value;
 
@@ -186,7 +186,7 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
     pw = s * w;
   }
 
-  const epochMs = resolved.epochUnixMs;
+  const epochMs = scenario.epochUnixMs;
   const aq = new Float64Array(4);
   const blocks: { label: string; lines: string[]; first: number; last: number }[] = [];
   const segErrors: Issue[] = [];
@@ -230,7 +230,7 @@ export function writeAem(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   kv('CCSDS_AEM_VERS', AEM_VERSION);
   out.push(`COMMENT ${commentText(CAUTION_TEXT)}`);
   out.push(
-    `COMMENT ${commentText(`Written by ${meta.toolName} ${meta.toolVersion}: scenario "${resolved.name}", controller "${meta.controllerLabel}"`)}`,
+    `COMMENT ${commentText(`Written by ${meta.toolName} ${meta.toolVersion}: scenario "${scenario.name}", controller "${meta.controllerLabel}"`)}`,
   );
   out.push(
     `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,

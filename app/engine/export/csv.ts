@@ -5,7 +5,7 @@
  */
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
+import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { formatNumber, selectSamples, traceColumns } from './columns';
@@ -18,8 +18,8 @@ export interface CsvOptions {
   lineEnding?: '\n' | '\r\n';
 }
 
-export function writeCsv(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta, options: CsvOptions = {}): Result<string> {
-  const errors = checkExportInputs(trace, resolved, meta);
+export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: CsvOptions = {}): Result<string> {
+  const errors = checkExportInputs(trace, scenario, meta);
   if (options.lineEnding !== undefined && options.lineEnding !== '\n' && options.lineEnding !== '\r\n') {
     errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
   }
@@ -34,8 +34,8 @@ export function writeCsv(trace: RunTrace, resolved: ResolvedScenario, meta: Expo
   const head = [
     `${oneLine(meta.toolName)} ${oneLine(meta.toolVersion)} - run export (CSV)`,
     `CAUTION: ${CAUTION_TEXT}`,
-    `scenario: ${oneLine(resolved.name)}; vehicle: ${oneLine(resolved.vehicle.name)}; controller: ${ctl}`,
-    `epoch (t = 0): ${resolved.epochUtc} (UTC)`,
+    `scenario: ${oneLine(scenario.name)}; vehicle: ${oneLine(scenario.vehicleName)}; controller: ${ctl}`,
+    `epoch (t = 0): ${scenario.epochUtc} (UTC)`,
     `time: ${TIME_CONVENTION}`,
     `quaternion: ${QUATERNION_CONVENTION}`,
     `frames: ${FRAME_CONVENTION}`,

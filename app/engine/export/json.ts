@@ -6,7 +6,7 @@
  */
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
+import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { selectSamples, traceColumns } from './columns';
@@ -77,8 +77,8 @@ export function toJsonSafe(v: unknown, path: string, errors: Issue[], seen: Set<
   return out;
 }
 
-export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta, options: JsonOptions = {}): Result<string> {
-  const errors = checkExportInputs(trace, resolved, meta);
+export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: JsonOptions = {}): Result<string> {
+  const errors = checkExportInputs(trace, scenario, meta);
   const indent = options.indent ?? 0;
   if (!Number.isInteger(indent) || indent < 0 || indent > 8) {
     errors.push({
@@ -90,7 +90,7 @@ export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: Exp
   if (errors.length) return fail(errors);
   const sel = selectSamples(trace, options.sampleRateHz);
   if (!sel.ok) return sel;
-  const segs = exportSegments(trace, resolved, meta.segments);
+  const segs = exportSegments(trace, scenario, meta.segments);
   if (!segs.ok) return segs;
 
   const idx = sel.value;
@@ -119,15 +119,15 @@ export function writeJson(trace: RunTrace, resolved: ResolvedScenario, meta: Exp
       time: TIME_CONVENTION,
       units,
     },
-    epochUtc: resolved.epochUtc,
+    epochUtc: scenario.epochUtc,
     controller: meta.controllerId !== undefined ? { id: meta.controllerId, label: meta.controllerLabel } : { label: meta.controllerLabel },
-    scenario: resolved.source,
+    scenario: scenario.file,
     resolved: {
-      initialQInertialFromBody: Array.from(resolved.initial.qInertialFromBody),
-      targets: resolved.targets.map((t) => ({
+      initialQInertialFromBody: Array.from(scenario.initialQ),
+      targets: scenario.targets.map((t) => ({
         label: t.label,
         form: t.form,
-        qInertialFromBody: Array.from(t.qInertialFromBody),
+        qInertialFromBody: Array.from(t.q),
         holdS: t.holdS,
       })),
     },

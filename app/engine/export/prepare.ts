@@ -3,20 +3,20 @@
  * quaternions), its wheel count against the scenario's, and the metadata strings.
  */
 import type { Issue } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
+import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { validateTraceForExport } from './trace-check';
 import type { ExportMeta } from './types';
 
-export function checkExportInputs(trace: RunTrace, resolved: ResolvedScenario, meta: ExportMeta): Issue[] {
+export function checkExportInputs(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta): Issue[] {
   const errors: Issue[] = [];
   const t = validateTraceForExport(trace);
   if (!t.ok) errors.push(...t.errors);
-  else if (trace.nWheels !== resolved.vehicle.wheelCount) {
+  else if (trace.nWheels !== scenario.wheelCount) {
     errors.push({
       path: 'trace.nWheels',
       rule: 'wheel-count',
-      message: `trace.nWheels = ${trace.nWheels} but the scenario's vehicle has ${resolved.vehicle.wheelCount} wheels`,
+      message: `trace.nWheels = ${trace.nWheels} but the scenario's vehicle has ${scenario.wheelCount} wheels`,
     });
   }
   for (const k of ['toolName', 'toolVersion', 'controllerLabel'] as const) {

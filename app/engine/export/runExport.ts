@@ -1,9 +1,9 @@
 /**
  * One entry point for exporting a pipeline run in any of the three formats, used by the CLI and
- * the app's export dialog alike (so both write the same bytes for the same run).
+ * the app's export dialog alike (so both write the same bytes for the same run). Everything it
+ * writes comes from the pipeline output: the run and the scenario summary.
  */
 import type { Result } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
 import type { ControllerRun, PipelineOutput } from '../pipeline/types';
 import { writeCsv } from './csv';
 import { writeJson } from './json';
@@ -22,13 +22,7 @@ export interface RunExportOptions {
   creationDateUtc?: string;
 }
 
-export function exportRun(
-  format: ExportFormat,
-  run: ControllerRun,
-  out: PipelineOutput,
-  resolved: ResolvedScenario,
-  o: RunExportOptions,
-): Result<string> {
+export function exportRun(format: ExportFormat, run: ControllerRun, out: PipelineOutput, o: RunExportOptions): Result<string> {
   const meta: ExportMeta = {
     toolName: o.toolName,
     toolVersion: o.toolVersion,
@@ -38,8 +32,8 @@ export function exportRun(
     metrics: run.metrics,
     plan: out.plan,
   };
-  if (format === 'csv') return writeCsv(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
-  if (format === 'json') return writeJson(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
+  if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
+  if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   const created = o.creationDateUtc ?? new Date().toISOString().replace(/\.\d{3}Z$/, 'Z');
-  return writeAem(run.trace, resolved, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz });
+  return writeAem(run.trace, out.scenario, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz });
 }

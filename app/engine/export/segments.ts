@@ -5,17 +5,17 @@
  */
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
-import type { ResolvedScenario } from '../scenario/resolve';
+import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import type { ExportSegment } from './types';
 
-export function segmentLabel(resolved: ResolvedScenario, index: number): string {
-  const t = resolved.targets[index];
+export function segmentLabel(scenario: ScenarioSummary, index: number): string {
+  const t = scenario.targets[index];
   if (t) return t.label;
-  return index >= resolved.targets.length ? 'After the last target' : `Segment ${index}`;
+  return index >= scenario.targets.length ? 'After the last target' : `Segment ${index}`;
 }
 
-export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, given?: readonly ExportSegment[]): Result<ExportSegment[]> {
+export function exportSegments(trace: RunTrace, scenario: ScenarioSummary, given?: readonly ExportSegment[]): Result<ExportSegment[]> {
   if (given) {
     const errors: Issue[] = [];
     given.forEach((s, i) => {
@@ -43,7 +43,7 @@ export function exportSegments(trace: RunTrace, resolved: ResolvedScenario, give
       const idx = trace.segment[first]!;
       out.push({
         index: idx,
-        label: segmentLabel(resolved, idx),
+        label: segmentLabel(scenario, idx),
         startS: trace.t[first]!,
         stopS: k < trace.n ? trace.t[k]! : trace.t[trace.n - 1]!,
       });

@@ -1,23 +1,62 @@
 /**
- * What one pass of the pipeline produces (design.md data flow):
- * scenario → validate → resolve targets → plan → simulate each controller → metrics → views/exports.
- * The CLI, the app's worker and the robustness study all call `runPipeline` (pipeline/run.ts) and
- * read this structure; nothing downstream recomputes physics.
+ * What the pipeline's stages hand each other and what one pass produces (DEVELOPERS.md has the
+ * stage diagram):
+ *   validate → resolve → build → plan → fly → summarise.
+ * Everything in PipelineOutput is plain data (numbers, strings, typed arrays) that crosses a
+ * Web Worker boundary; the views and the exports read it and never rebuild engine objects or
+ * re-read the scenario file.
  */
 import type { Issue } from '../errors';
-import type { JumpEvent, RunOutcome, RunTrace } from '../sim/types';
+import type { CertificateResult } from '../control/certificate';
+import type { AttitudeController, DesignModel, LogicKind } from '../control/types';
+import type { LawId } from '../control/params';
+import type { Gyrostat } from '../body/gyrostat';
+import type { InertiaInfo } from '../body/inertia';
+import type { WheelArray } from '../wheels/array';
+import type { Zonotope } from '../wheels/envelope';
+import type { JumpEvent, RunMode, RunOutcome, RunTrace } from '../sim/types';
 import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
+import type { KeepOutCone } from '../scenario/resolve';
+import type { AttitudeForm, Scenario } from '../scenario/schema';
 
-export type RunMode = 'profiled' | 'direct';
-export type LogicKind = 'none' | 'sign' | 'index';
+export type { RunMode } from '../sim/types';
+export type { LogicKind } from '../control/types';
+
+// ---------------------------------------------------------------------------------------------
+// Stage 3 (build): engine objects, in this thread only.
+
+/** The vehicle as the engine models it (truth plant, wheel array, envelopes) and as its controllers know it (design). */
+export interface Vehicle {
+  name: string;
+  inertia: InertiaInfo;
+  wheels: WheelArray;
+  plant: Gyrostat;
+  torqueEnvelope: Zonotope;
+  momentumEnvelope: Zonotope;
+  /** What a controller designed for this vehicle knows of it. */
+  design: DesignModel;
+}
+
+export interface BuiltController {
+  id: string;
+  label: string;
+  law: LawId;
+  logicKind: LogicKind;
+  controller: AttitudeController;
+  /** What the gains ask of the wheels, in words. */
+  gainNote: string;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Stage 6 (summarise) and the output.
 
 export interface ControllerRun {
-  /** `${controllerId}:${mode}` — unique within one pipeline output. */
+  /** `${controllerId}:${mode}`, unique within one pipeline output. */
   key: string;
   controllerId: string;
   label: string;
-  law: string;
+  law: LawId;
   mode: RunMode;
   logicKind: LogicKind;
   trace: RunTrace;
@@ -29,10 +68,13 @@ export interface ControllerRun {
   gainNote: string;
 }
 
-/** Mesh of a zonotope envelope for views: vertices 3V, outward triangles 3T. */
-export interface EnvelopeMesh {
+/** An envelope for views and capacity queries: mesh (vertices 3V, outward triangles 3T) and facet planes. */
+export interface EnvelopeSummary {
   vertices: Float64Array;
   triangles: Uint32Array;
+  /** 3F unit outward facet normals and F offsets (n·x = offset): envelopeCapacity reads these. */
+  faceNormals: Float64Array;
+  faceOffsets: Float64Array;
 }
 
 export interface VehicleSummary {
@@ -42,11 +84,13 @@ export interface VehicleSummary {
   /** Principal axes as rows (each a unit body vector), matching principalMomentsKgm2. */
   principalAxes: [number, number, number][];
   nWheels: number;
+  /** 3 per wheel, unit, body axes. */
   wheelAxes: Float64Array;
+  /** Per-wheel torque and momentum limits, N·m and N·m·s. */
   maxTorqueNm: Float64Array;
   maxMomentumNms: Float64Array;
-  torqueEnvelope: EnvelopeMesh;
-  momentumEnvelope: EnvelopeMesh;
+  torqueEnvelope: EnvelopeSummary;
+  momentumEnvelope: EnvelopeSummary;
   /** Smallest capacity over all body directions (the worst face), N·m and N·m·s. */
   worstTorqueCapacityNm: number;
   worstMomentumCapacityNms: number;
@@ -111,7 +155,27 @@ export interface ComparisonRow {
 /** Column → key of the best row (lowest value wins; null when not comparable). */
 export type BestMarks = Partial<Record<keyof ComparisonRow, string | null>>;
 
+/** The scenario as exports and views need it: names, epoch, frame, targets, settle thresholds. */
+export interface ScenarioSummary {
+  name: string;
+  description: string;
+  vehicleName: string;
+  /** t = 0, ISO 8601 UTC, and as ms since 1970 (POSIX). */
+  epochUtc: string;
+  epochUnixMs: number;
+  /** The inertial frame every attitude is given in (CCSDS REF_FRAME_A). */
+  inertialFrame: 'EME2000';
+  wheelCount: number;
+  initialQ: Float64Array;
+  targets: { label: string; form: AttitudeForm; q: Float64Array; holdS: number }[];
+  settleAngleRad: number;
+  settleRateRadPerS: number;
+  /** The validated scenario file in the current format, kept for provenance (the JSON export copies it). */
+  file: Scenario;
+}
+
 export interface PipelineOutput {
+  scenario: ScenarioSummary;
   vehicle: VehicleSummary;
   plan: PlanSummary;
   /** Resolved target attitudes, 4 per segment ([x,y,z,w]), and the initial attitude. */
@@ -121,7 +185,22 @@ export interface PipelineOutput {
   comparison: ComparisonRow[];
   best: BestMarks;
   certificates: CertificateSummary[];
+  /** Keep-out cones, SI (unit axes), as the scenario declares them. */
+  keepOut: KeepOutCone[];
   warnings: Issue[];
   /** Wall time of the pass, ms (for the UI's status line; not a test value). */
   elapsedMs: number;
+}
+
+/** A certificate as a summary row. */
+export function certificateSummary(controllerId: string, k: CertificateResult): CertificateSummary {
+  return {
+    controllerId,
+    admissible: k.admissible,
+    deltaStar: k.deltaStar,
+    delta: k.delta,
+    margin: k.margin,
+    diffeomorphismMargin: k.diffeomorphismMargin,
+    message: k.summary,
+  };
 }

@@ -1,4 +1,7 @@
-/** Public surface of the scenario module (file format v1): schema, validation, SI resolution. */
+/**
+ * Public surface of the scenario module (file format v2): schema, migration of older files,
+ * validation (pipeline stage 1), SI resolution (stage 2) and its inverse (toScenarioFile).
+ */
 export {
   SCENARIO_FORMAT,
   SCENARIO_VERSION,
@@ -7,22 +10,12 @@ export {
   ControllerSchema,
   WheelsSchema,
   ATTITUDE_FORMS,
-  CONTROL_LAWS,
   scenarioJsonSchema,
 } from './schema';
-export type {
-  Scenario,
-  AttitudeSpec,
-  AttitudeForm,
-  ControllerSpec,
-  ControlLaw,
-  GainsSpec,
-  KeepOutSpec,
-  TargetSpec,
-  WheelsSpec,
-} from './schema';
-export { validateScenario, wheelCount } from './validate';
-export { resolveScenario, loadScenario } from './resolve';
-export type { ResolvedScenario, ResolvedController, ResolvedGains, ResolvedTarget, ResolvedWheels } from './resolve';
+export type { Scenario, AttitudeSpec, AttitudeForm, ControllerSpec, KeepOutSpec, TargetSpec, WheelsSpec } from './schema';
+export { migrateScenario } from './migrate';
+export { validateScenario, wheelCount, capIssues, MAX_LISTED_ISSUES } from './validate';
+export { resolveScenario, loadScenario, wheelSpecsOf } from './resolve';
+export type { ResolvedScenario, ResolvedController, ResolvedTarget, ResolvedVehicle, KeepOutCone } from './resolve';
 export { QUATERNION_NORM_TOLERANCE } from './attitude';
 export { parseIsoUtcMs, formatEpoch } from './utc';

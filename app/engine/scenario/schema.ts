@@ -1,7 +1,10 @@
 /**
- * The Slewsmith scenario file, format "slewsmith-scenario", version 1: one zod source for the
+ * The Slewsmith scenario file, format "slewsmith-scenario", version 2: one zod source for the
  * TypeScript types, the structural validation (validate.ts) and the published JSON Schema
- * (`scenarioJsonSchema()`).
+ * (`scenarioJsonSchema()`). Version 1 files are read through migrate.ts.
+ *
+ * Controller entries are declared by each law (app/engine/control/laws/<law>/schema.ts) and
+ * joined in control/fileSchema.ts; this file takes the union from there.
  *
  * Units: the file is written in display units and every such field carries its unit in the key
  * (Deg, DegPerS, MNm = mN·m, MNms = mN·m·s, Arcsec, Kgm2, S, Hz); resolve.ts converts to SI.
@@ -15,9 +18,19 @@
  */
 import { z } from 'zod';
 import { EULER_SEQUENCES } from '../math/rotation';
+import { ControllerFileSchema } from '../control/fileSchema';
 
 export const SCENARIO_FORMAT = 'slewsmith-scenario';
-export const SCENARIO_VERSION = 1;
+export const SCENARIO_VERSION = 2;
+
+/**
+ * Longest hold or tail, s (11.6 days): a bound on the file, not the simulation budget (the
+ * pipeline estimates that from all durations and rates before it simulates).
+ */
+export const MAX_DURATION_S = 1e6;
+/** Epoch years the file accepts: the leap-second table, the ephemerides and two-digit TLE years (1957–2056) all cover them. */
+export const EPOCH_MIN_YEAR = 1960;
+export const EPOCH_MAX_YEAR = 2099;
 
 /** Finite number (zod 4's number already rejects ±Infinity and NaN). */
 const num = () => z.number();
@@ -138,9 +151,20 @@ export const WheelFrictionSchema = z
   .describe('Wheel bearing friction, the same for every wheel.');
 
 export const SensorsSchema = z.strictObject({
-  attitudeNoiseArcsec: nonNegative().describe('Attitude measurement noise, arcseconds, 1σ per axis (white, per sample).'),
-  rateNoiseDegPerS: nonNegative().describe('Rate measurement noise, deg/s, 1σ per axis (white, per control sample).'),
-  rateBiasDegPerS: vec3('Constant rate-sensor bias, deg/s, body axes.'),
+  attitudeNoiseArcsec: nonNegative().max(360000).describe('Attitude measurement noise, arcseconds, 1σ per axis (white, per sample).'),
+  rateNoiseDegPerS: nonNegative().max(360).describe('Rate measurement noise, deg/s, 1σ per axis (white, per control sample).'),
+  rateBiasDegPerS: z
+    .array(z.number().min(-360).max(360))
+    .length(3)
+    .describe('Constant rate-sensor bias, deg/s, body axes (each within ±360).'),
+  boundedNoiseEta: z
+    .number()
+    .min(0)
+    .lt(1)
+    .optional()
+    .describe(
+      'Worst-case bounded noise ē on the error quaternion’s scalar part, a stress test of the laws (Mayhew, Sanfelice & Teel 2011): whenever |η| < ē the measured error is reflected to (ε, −η). Dimensionless; 0 or absent: off.',
+    ),
 });
 
 export const ActuationSchema = z.strictObject({
@@ -157,6 +181,13 @@ export const VehicleSchema = z.strictObject({
     .length(3)
     .describe(
       'Whole-spacecraft inertia tensor about the centre of mass, body axes, kg·m², rows of a symmetric 3×3 matrix (products of inertia enter with their sign in the tensor).',
+    ),
+  modelInertiaKgm2: z
+    .array(z.array(num()).length(3))
+    .length(3)
+    .optional()
+    .describe(
+      'The inertia the flight software believes, when it differs from the true inertiaKgm2 (model error): controllers and the planner use it, the simulation flies inertiaKgm2. Rows of a symmetric 3×3 matrix, kg·m². Absent: the model is exact.',
     ),
   wheels: WheelsSchema,
   wheelFriction: WheelFrictionSchema.optional(),
@@ -180,96 +211,13 @@ export const InitialSchema = z.strictObject({
 export const TargetSchema = z.strictObject({
   label: label().describe('Name shown in plots and exports.'),
   attitude: AttitudeSchema,
-  holdS: nonNegative().describe('Time to hold the target after arriving, s.'),
+  holdS: nonNegative().max(MAX_DURATION_S).describe('Time to hold the target after arriving, s.'),
 });
 
 // ---------------------------------------------------------------------------------------------
-// Controllers
+// Controllers: declared by the laws (control/laws/<law>/schema.ts).
 
-export const KpKdGainsSchema = z.strictObject({
-  kp: positive().describe(
-    'Stiffness gain, SI. quaternion-pd, sign-switch, hysteretic: N·m per unit of the error quaternion vector part; ' +
-      'synergistic: N·m per unit of the potential gradient; eigenaxis (inertia-normalised law): 1/s².',
-  ),
-  kd: positive().describe('Damping gain, SI: N·m·s/rad (N·m per rad/s); eigenaxis (inertia-normalised): 1/s.'),
-});
-
-export const BandwidthGainsSchema = z.strictObject({
-  bandwidthRadPerS: positive().describe(
-    'Small-error closed-loop natural frequency ω_n, rad/s; the controller derives its gains from ω_n, ζ and the inertia.',
-  ),
-  dampingRatio: z.number().positive().max(10).describe('Small-error damping ratio ζ (dimensionless).'),
-});
-
-export const GainsSchema = z
-  .union([KpKdGainsSchema, BandwidthGainsSchema])
-  .describe('Either explicit gains { kp, kd } or a bandwidth and damping ratio { bandwidthRadPerS, dampingRatio }.');
-
-const controllerBase = {
-  id: z
-    .string()
-    .min(1)
-    .max(64)
-    .regex(/^[A-Za-z0-9_.-]+$/)
-    .describe('Unique key: letters, digits, "_", ".", "-".'),
-  label: label().describe('Name shown in the comparison table and exports.'),
-  gains: GainsSchema,
-};
-
-export const QuaternionPdControllerSchema = z.strictObject({
-  ...controllerBase,
-  law: z.literal('quaternion-pd').describe('Continuous quaternion PD (unwinds from the far hemisphere).'),
-});
-
-export const SignSwitchControllerSchema = z.strictObject({
-  ...controllerBase,
-  law: z.literal('sign-switch').describe('Memoryless shortest-path PD, torque −kp·sgn(η)·ε − kd·ω.'),
-});
-
-export const EigenaxisControllerSchema = z.strictObject({
-  ...controllerBase,
-  law: z.literal('eigenaxis').describe('Eigenaxis feedback with gyroscopic cancellation and a slew-rate limit.'),
-  maxRateDegPerS: positive().describe('Slew-rate limit of the eigenaxis law, deg/s.'),
-});
-
-export const HystereticControllerSchema = z.strictObject({
-  ...controllerBase,
-  law: z.literal('hysteretic').describe('Hysteretic hybrid quaternion feedback with logic h ∈ {−1, 1}.'),
-  hysteresis: z.number().gt(0).lt(1).describe('Hysteresis half-width δ on h·η, dimensionless, 0 < δ < 1.'),
-});
-
-export const SynergisticControllerSchema = z.strictObject({
-  ...controllerBase,
-  law: z.literal('synergistic').describe('Synergistic hybrid feedback over a family of warped trace potentials.'),
-  potentialWeights: z
-    .array(positive())
-    .length(3)
-    .describe('Eigenvalues of the potential matrix A in Φ(R) = tr(A(I − R)), dimensionless, positive and distinct.'),
-  potentialAxes: z
-    .array(z.array(num()).length(3))
-    .length(3)
-    .optional()
-    .describe('Unit eigenvectors of A, one per weight, body axes of the error frame; orthonormal. Default: x, y, z.'),
-  warpGain: positive().describe('Warping gain k in θ(R) = k·Φ(R), rad per unit potential; (A, k) → (cA, k/c) keeps the family’s shape.'),
-  warpDirections: z
-    .array(z.array(num()).length(3))
-    .min(2)
-    .max(12)
-    .optional()
-    .describe('Warping directions u_q, one potential per direction (non-zero; normalised on load). Default: potentialAxes.'),
-  hysteresis: positive().describe('Switching margin δ on the synergy gap, in potential units; must be below the certified gap.'),
-});
-
-export const CONTROL_LAWS = ['quaternion-pd', 'sign-switch', 'eigenaxis', 'hysteretic', 'synergistic'] as const;
-export type ControlLaw = (typeof CONTROL_LAWS)[number];
-
-export const ControllerSchema = z.discriminatedUnion('law', [
-  QuaternionPdControllerSchema,
-  SignSwitchControllerSchema,
-  EigenaxisControllerSchema,
-  HystereticControllerSchema,
-  SynergisticControllerSchema,
-]);
+export const ControllerSchema = ControllerFileSchema;
 
 // ---------------------------------------------------------------------------------------------
 // Planning, simulation, constraints
@@ -283,16 +231,28 @@ export const PlanningSchema = z.strictObject({
 
 export const SimulationSchema = z.strictObject({
   mode: z
-    .enum(['profiled', 'direct', 'both'])
-    .describe('profiled: track the planned reference; direct: step to each target; both: run each controller both ways.'),
+    .enum(['follow-plan', 'step-target', 'both'])
+    .describe(
+      'follow-plan: the controller tracks the planned slew (attitude, rate and acceleration); step-target: the controller is given each target at once, at rest, when its slew is due; both: every controller flies both ways.',
+    ),
   timing: z
     .enum(['sampled', 'continuous-ideal'])
     .describe('sampled: controller at controlRateHz with zero-order hold; continuous-ideal: no sampling (theory check).'),
   settleAngleDeg: positive().describe('A segment has settled when the error angle stays below this, degrees.'),
   settleRateDegPerS: positive().describe('… and the rate error stays below this, deg/s.'),
-  tailS: nonNegative().describe('Extra simulated time after the last hold, s.'),
+  tailS: nonNegative().max(MAX_DURATION_S).describe('Extra simulated time after the last hold, s.'),
+  durationS: positive()
+    .max(MAX_DURATION_S)
+    .optional()
+    .describe('Total simulated time from t = 0, s, when given; otherwise the end of the last hold plus tailS.'),
   seed: z.number().int().min(0).max(4294967295).describe('Seed of the noise generator (unsigned 32-bit integer).'),
   rk4StepsPerSample: z.number().int().min(1).max(1000).describe('Fixed RK4 steps per control period.'),
+  endWhenSettledForS: nonNegative()
+    .max(MAX_DURATION_S)
+    .optional()
+    .describe(
+      'End a step-target run once it has stayed within the settle thresholds this long, s (studies use it to save time; 0 or absent: fly to the end). Follow-plan runs always fly to the end.',
+    ),
 });
 
 export const KeepOutSchema = z.strictObject({
@@ -409,16 +369,16 @@ export const StudySchema = z
     controllers: z.array(z.string().min(1).max(64)).min(1).max(20).optional().describe('Controller ids to compare (default: all).'),
     durationS: positive().max(100000).optional().describe('Simulated time per case, s (default 600).'),
     mode: z
-      .enum(['direct', 'profiled'])
+      .enum(['step-target', 'follow-plan'])
       .optional()
       .describe(
-        'direct (default): regulate to the first target from the dispersed start; profiled: track the slew planned on the nominal model from that start.',
+        'step-target (default): regulate to the first target from the dispersed start; follow-plan: track the slew planned on the nominal model from that start.',
       ),
     stopAfterSettledForS: nonNegative()
       .max(100000)
       .optional()
       .describe(
-        'End a direct-mode case early once it has stayed settled this long, s (default 20; 0 = always run durationS). Profiled cases always run durationS.',
+        'End a step-target case early once it has stayed settled this long, s (default 20; 0 = always run durationS). Follow-plan cases always run durationS.',
       ),
     worstCases: z.number().int().min(1).max(100).optional().describe('Worst cases listed per controller (default 5).'),
     dispersions: StudyDispersionsSchema.optional(),
@@ -431,13 +391,15 @@ export const StudySchema = z
 export const ScenarioSchema = z
   .strictObject({
     format: z.literal(SCENARIO_FORMAT).describe('Always "slewsmith-scenario".'),
-    version: z.literal(SCENARIO_VERSION).describe('File format version; this Slewsmith reads version 1.'),
+    version: z.literal(SCENARIO_VERSION).describe('File format version; this Slewsmith writes version 2 and reads versions 1 and 2.'),
     name: label().describe('Scenario name.'),
     description: z.string().max(4000).describe('Free text for people.'),
     epochUtc: z
       .string()
       .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{1,3})?Z$/)
-      .describe('Start epoch (t = 0), ISO 8601 UTC with a trailing Z, at most millisecond resolution.'),
+      .describe(
+        `Start epoch (t = 0), ISO 8601 UTC with a trailing Z, at most millisecond resolution, from ${EPOCH_MIN_YEAR} through ${EPOCH_MAX_YEAR}.`,
+      ),
     vehicle: VehicleSchema,
     initial: InitialSchema,
     targets: z.array(TargetSchema).min(1).max(1000).describe('Targets in the order they are visited.'),
@@ -447,13 +409,12 @@ export const ScenarioSchema = z
     keepOut: z.array(KeepOutSchema).max(50).optional().describe('Inertial cones a body axis must stay out of.'),
     study: StudySchema.optional(),
   })
-  .describe('Slewsmith scenario file, format version 1.');
+  .describe('Slewsmith scenario file, format version 2.');
 
 export type Scenario = z.infer<typeof ScenarioSchema>;
 export type AttitudeSpec = z.infer<typeof AttitudeSchema>;
 export type WheelsSpec = z.infer<typeof WheelsSchema>;
 export type ControllerSpec = z.infer<typeof ControllerSchema>;
-export type GainsSpec = z.infer<typeof GainsSchema>;
 export type TargetSpec = z.infer<typeof TargetSchema>;
 export type KeepOutSpec = z.infer<typeof KeepOutSchema>;
 export type StudySpec = z.infer<typeof StudySchema>;
@@ -471,5 +432,5 @@ export const KEYED_UNIONS: Record<string, readonly string[]> = {
  */
 export function scenarioJsonSchema(): Record<string, unknown> {
   const s = z.toJSONSchema(ScenarioSchema, { target: 'draft-2020-12' }) as Record<string, unknown>;
-  return { ...s, title: 'Slewsmith scenario (version 1)' };
+  return { ...s, title: 'Slewsmith scenario (version 2)' };
 }

@@ -9,7 +9,8 @@
 import type { Issue } from '../errors';
 import { issue } from '../errors';
 import type { Scenario, StudySpec } from './schema';
-import { RAD_PER_DEG } from '../units';
+import { DEG_PER_RAD, MILLI_PER_SI, RAD_PER_DEG, SI_PER_MILLI } from '../units';
+import type { RunMode } from '../sim/types';
 
 export type ActuationMode = 'hold' | 'pwm' | 'quantized';
 
@@ -22,7 +23,7 @@ export interface StudyDefinition {
   /** Controller ids to fly (null = every controller of the scenario). */
   controllers: string[] | null;
   durationS: number;
-  mode: 'direct' | 'profiled';
+  mode: RunMode;
   /** Early stop once settled this long, s (0 = off). */
   stopAfterSettledForS: number;
   worstCases: number;
@@ -129,7 +130,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     seed: st.seed,
     controllers: st.controllers ? [...st.controllers] : null,
     durationS: st.durationS ?? DEFAULT_DURATION_S,
-    mode: st.mode ?? 'direct',
+    mode: st.mode ?? 'step-target',
     stopAfterSettledForS: st.stopAfterSettledForS ?? DEFAULT_SETTLED_FOR_S,
     worstCases: st.worstCases ?? DEFAULT_WORST_CASES,
     attitude,
@@ -150,6 +151,43 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
     },
     controlRateHz: d.controlRateHz ? [...d.controlRateHz] : null,
     actuation: d.actuation ? [...d.actuation] : null,
-    torqueQuantumNm: quantum !== undefined ? quantum * 1e-3 : null,
+    torqueQuantumNm: quantum !== undefined ? quantum * SI_PER_MILLI : null,
+  };
+}
+
+/** The file's study block of a definition (the inverse of resolveStudy; defaults written out). */
+export function studyToFile(d: StudyDefinition): StudySpec {
+  const a = d.attitude;
+  const dispersions: NonNullable<StudySpec['dispersions']> = {};
+  if (a.mode === 'uniform') dispersions.initialAttitude = { mode: 'uniform' };
+  else if (a.mode === 'cone') dispersions.initialAttitude = { mode: 'cone', maxAngleDeg: a.maxAngleRad * DEG_PER_RAD };
+  else if (a.mode === 'near-reversal') dispersions.initialAttitude = { mode: 'near-reversal', withinDeg: a.withinRad * DEG_PER_RAD };
+  if (d.rateSigmaRadPerS > 0) dispersions.initialRateDegPerS = d.rateSigmaRadPerS * DEG_PER_RAD;
+  if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0)
+    dispersions.inertia = {
+      momentSigmaFraction: d.inertia.momentSigmaFraction,
+      axisMisalignmentDeg: d.inertia.axisMisalignmentSigmaRad * DEG_PER_RAD,
+    };
+  const w = d.wheels;
+  if (w.torqueDegradationMax > 0 || w.momentumDegradationMax > 0 || w.failOneWheelProbability > 0) dispersions.wheels = { ...w };
+  const sn = d.sensors;
+  if (sn.attitudeNoiseScale[0] !== 1 || sn.attitudeNoiseScale[1] !== 1 || sn.rateBiasSigmaRadPerS > 0 || sn.adversarialEta > 0)
+    dispersions.sensors = {
+      attitudeNoiseScale: [sn.attitudeNoiseScale[0], sn.attitudeNoiseScale[1]],
+      rateBiasDegPerS: sn.rateBiasSigmaRadPerS * DEG_PER_RAD,
+      adversarialEta: sn.adversarialEta,
+    };
+  if (d.controlRateHz) dispersions.controlRateHz = [...d.controlRateHz];
+  if (d.actuation) dispersions.actuation = [...d.actuation];
+  if (d.torqueQuantumNm !== null) dispersions.torqueQuantumMNm = d.torqueQuantumNm * MILLI_PER_SI;
+  return {
+    runs: d.runs,
+    seed: d.seed,
+    ...(d.controllers ? { controllers: [...d.controllers] } : {}),
+    durationS: d.durationS,
+    mode: d.mode,
+    stopAfterSettledForS: d.stopAfterSettledForS,
+    worstCases: d.worstCases,
+    ...(Object.keys(dispersions).length ? { dispersions } : {}),
   };
 }

@@ -19,10 +19,16 @@ import {
   SCENARIO_FORMAT,
   SCENARIO_VERSION,
   ScenarioSchema,
+  EPOCH_MAX_YEAR,
+  EPOCH_MIN_YEAR,
   WheelsSchema,
 } from './schema';
 import type { Scenario, WheelsSpec } from './schema';
 import { parseIsoUtcMs } from './utc';
+import { migrateScenario } from './migrate';
+import { resolveStudy } from './study';
+import { checkLawFields } from '../control/registry';
+import { checkBandwidthAgainstRate } from '../control/lawSupport';
 
 type Obj = Record<string, unknown>;
 
@@ -97,26 +103,56 @@ function checkFormatAndVersion(json: unknown): Issue[] {
   return [];
 }
 
-/** Structure, ranges, units and cross-field rules of a scenario file. */
+/** At most this many problems are listed; the rest are counted in one last issue. */
+export const MAX_LISTED_ISSUES = 200;
+
+/** The first MAX_LISTED_ISSUES issues and, when there are more, one that says how many were left out. */
+export function capIssues(list: readonly Issue[], max = MAX_LISTED_ISSUES): Issue[] {
+  if (list.length <= max) return [...list];
+  const rest = list.length - max;
+  return [
+    ...list.slice(0, max),
+    issue('', 'more', `… and ${rest} more problem${rest === 1 ? '' : 's'} of the same kinds (fix the ones above first)`),
+  ];
+}
+
+/**
+ * Structure, ranges, units and cross-field rules of a scenario file: the one validation of the
+ * pipeline (later stages assert). Older formats are migrated first (migrate.ts; its notes come
+ * back as warnings).
+ */
 export function validateScenario(json: unknown): Result<Scenario> {
   const gate = checkFormatAndVersion(json);
   if (gate.length) return fail(gate);
+  const migrated = migrateScenario(json);
+  const doc = migrated.json;
 
   const errors: Issue[] = [];
-  const warnings: Issue[] = [];
-  const parsed = ScenarioSchema.safeParse(json);
-  if (!parsed.success) errors.push(...fromZodIssues(parsed.error.issues as never, json));
-  crossFieldChecks(json as Obj, errors, warnings);
+  const warnings: Issue[] = [...migrated.notes];
+  const parsed = ScenarioSchema.safeParse(doc);
+  if (!parsed.success) errors.push(...fromZodIssues(parsed.error.issues as never, doc));
+  crossFieldChecks(doc as Obj, errors, warnings);
+  if (parsed.success && parsed.data.study) resolveStudy(parsed.data.study, parsed.data, errors, warnings);
 
-  if (errors.length || !parsed.success) return fail(dedupeIssues(errors), warnings);
-  return ok(parsed.data, warnings);
+  if (errors.length || !parsed.success) return fail(capIssues(dedupeIssues(errors)), capIssues(warnings));
+  return ok(parsed.data, capIssues(warnings));
 }
 
 function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   // Epoch: the regex passes 2030-02-30T…; the calendar check does not.
   const ep = raw.epochUtc;
-  if (typeof ep === 'string' && /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{1,3})?Z$/.test(ep) && parseIsoUtcMs(ep) === null) {
-    errors.push(issue('epochUtc', 'calendar', `epochUtc ${JSON.stringify(ep)} is not a real UTC date and time`));
+  if (typeof ep === 'string' && /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{1,3})?Z$/.test(ep)) {
+    const year = Number(ep.slice(0, 4));
+    if (parseIsoUtcMs(ep) === null)
+      errors.push(issue('epochUtc', 'calendar', `epochUtc ${JSON.stringify(ep)} is not a real UTC date and time`));
+    else if (year < EPOCH_MIN_YEAR || year > EPOCH_MAX_YEAR)
+      errors.push(
+        issue(
+          'epochUtc',
+          'range',
+          `epochUtc ${JSON.stringify(ep)} is outside ${EPOCH_MIN_YEAR}–${EPOCH_MAX_YEAR}, the years the leap-second table, the ephemerides and two-digit element-set years cover`,
+        ),
+      );
   }
 
   // Wheels and the initial wheel momentum.
@@ -202,7 +238,7 @@ function checkAttitudes(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   }
   const targets = raw.targets;
   if (!Array.isArray(targets)) return;
-  targets.forEach((t, i) => {
+  targets.slice(0, MAX_CHECKED_ITEMS).forEach((t, i) => {
     const a = AttitudeSchema.safeParse(get(t, 'attitude'));
     if (!a.success) {
       previous = null;
@@ -213,12 +249,15 @@ function checkAttitudes(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   });
 }
 
+/** Largest list the cross-field rules look at (beyond the schema's own maxima nothing is flyable anyway). */
+const MAX_CHECKED_ITEMS = 1000;
+
 function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   const list = raw.controllers;
   if (!Array.isArray(list)) return;
   const firstIndex = new Map<string, number>();
   const rate = get(raw, 'vehicle', 'controlRateHz');
-  list.forEach((c, i) => {
+  list.slice(0, MAX_CHECKED_ITEMS).forEach((c, i) => {
     const id = get(c, 'id');
     if (typeof id === 'string') {
       const k = firstIndex.get(id);
@@ -234,63 +273,8 @@ function checkControllers(raw: Obj, errors: Issue[], warnings: Issue[]): void {
     }
     const r = ControllerSchema.safeParse(c);
     if (!r.success) return;
-    const ctl = r.data;
-    if ('bandwidthRadPerS' in ctl.gains && typeof rate === 'number' && rate > 0) {
-      const nyquistFraction = ctl.gains.bandwidthRadPerS / (2 * Math.PI * rate);
-      if (nyquistFraction > 0.1) {
-        warnings.push(
-          issue(
-            `controllers[${i}].gains.bandwidthRadPerS`,
-            'sample-rate',
-            `controllers[${i}].gains.bandwidthRadPerS = ${ctl.gains.bandwidthRadPerS} rad/s is more than a tenth of the ${rate} Hz control rate; sampled behaviour will differ from the continuous design`,
-          ),
-        );
-      }
-    }
-    if (ctl.law !== 'synergistic') return;
-    const p = `controllers[${i}]`;
-    const w = ctl.potentialWeights;
-    const wMax = Math.max(...w);
-    pairs: for (let a = 0; a < 3; a++)
-      for (let b = a + 1; b < 3; b++)
-        if (Math.abs(w[a]! - w[b]!) <= 1e-9 * wMax) {
-          errors.push(
-            issue(
-              `${p}.potentialWeights`,
-              'distinct',
-              `${p}.potentialWeights must be distinct (entries ${a} and ${b} are both ${w[a]}); repeated weights give a continuum of critical attitudes`,
-            ),
-          );
-          break pairs;
-        }
-    if (ctl.potentialAxes) {
-      const ax = ctl.potentialAxes;
-      let worst = 0;
-      for (let a = 0; a < 3; a++)
-        for (let b = a; b < 3; b++) {
-          const d = ax[a]![0]! * ax[b]![0]! + ax[a]![1]! * ax[b]![1]! + ax[a]![2]! * ax[b]![2]!;
-          worst = Math.max(worst, Math.abs(d - (a === b ? 1 : 0)));
-        }
-      if (!(worst <= 1e-6)) {
-        errors.push(
-          issue(
-            `${p}.potentialAxes`,
-            'orthonormal',
-            `${p}.potentialAxes must be three orthonormal vectors (within 1e-6; largest departure ${worst.toPrecision(3)})`,
-          ),
-        );
-      }
-    }
-    ctl.warpDirections?.forEach((u, k) => {
-      if (!(Math.hypot(u[0]!, u[1]!, u[2]!) > 0)) {
-        errors.push(
-          issue(
-            `${p}.warpDirections[${k}]`,
-            'non-zero',
-            `${p}.warpDirections[${k}] is the zero vector; a warping direction needs a non-zero length`,
-          ),
-        );
-      }
-    });
+    const path = `controllers[${i}]`;
+    checkBandwidthAgainstRate(r.data.gains, typeof rate === 'number' ? rate : null, path, warnings);
+    checkLawFields(r.data, path, errors, warnings);
   });
 }

@@ -47,7 +47,9 @@ import {
   TraceBuilder,
   type PackedSample,
 } from './trace';
-import type { JumpEvent, RunOutcome, RunTrace } from './types';
+import type { Actuation, JumpEvent, RunOutcome, RunTrace } from './types';
+
+export type { Actuation } from './types';
 
 /** Where the controller's reference comes from: a planned profile or a fixed target per segment. */
 export interface ReferenceSource {
@@ -60,13 +62,6 @@ export interface ReferenceSource {
    */
   switchTimes?: ArrayLike<number>;
 }
-
-export type Actuation =
-  | { mode: 'hold' }
-  /** Each control period's wheel torque as a full-torque pulse of proportional width. */
-  | { mode: 'pwm' }
-  /** Each wheel torque rounded to a multiple of the quantum (N·m). */
-  | { mode: 'quantized'; quantumNm: number };
 
 export interface ClosedLoopConfig {
   plant: Gyrostat;

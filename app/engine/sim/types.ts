@@ -11,6 +11,21 @@ import type { JumpEvent } from '../hybrid/types';
 
 export type { JumpEvent };
 
+/**
+ * How a controller is given the maneuver: follow-plan — it tracks the planned slew (attitude,
+ * rate and acceleration of the reference profile); step-target — it is handed each target at
+ * once, at rest, when that target's slew is due.
+ */
+export type RunMode = 'follow-plan' | 'step-target';
+
+/** How a sampled torque command reaches the wheels. */
+export type Actuation =
+  | { mode: 'hold' }
+  /** Each control period's wheel torque as a full-torque pulse of proportional width. */
+  | { mode: 'pwm' }
+  /** Each wheel torque rounded to a multiple of the quantum (N·m). */
+  | { mode: 'quantized'; quantumNm: number };
+
 export type RunStatus = 'completed' | 'zeno' | 'step-underflow' | 'non-finite' | 'max-steps' | 'cancelled';
 
 export interface RunOutcome {

@@ -1,21 +1,14 @@
 /**
- * A study's fixed part, built once per worker: the nominal scenario through the normal pipeline
- * (validate, resolve, vehicle, controllers with their certificates) and the study definition.
- *
- * Model split (an honest robustness study flies the NOMINAL design on a DISPERSED vehicle):
- * - the controllers are tuned on the nominal inertia and keep it (their gains, gyroscopic and
- *   feedforward terms use it); they learn only which wheels still work (as fault detection would
- *   tell the flight software), through the plant model object they share, which the case runner
- *   points at the case's wheel set;
- * - the truth plant (gyrostat), the wheel limits and the allocation use the case's inertia and
- *   wheels; in profiled mode the slew is planned on the nominal model from the dispersed start.
+ * A study's fixed part, built once per worker: the nominal scenario through the pipeline's first
+ * stages (validate, resolve, build, plan: controllers with their certificates) and the study
+ * definition. Each case is then the nominal scenario with the case's dispersions applied
+ * (disperse.ts), flown through the same stages (runCase.ts).
  */
 import type { Issue, Result } from '../errors';
 import { fail, issue, ok } from '../errors';
 import type { Prepared } from '../pipeline/run';
-import { prepareScenario } from '../pipeline/run';
-import type { BuiltController } from '../pipeline/build';
-import type { WheelSpec } from '../wheels/array';
+import { preparePipeline } from '../pipeline/run';
+import type { BuiltController } from '../pipeline/types';
 import type { ActuationMode, StudyDefinition } from '../scenario/study';
 import { defaultStudySpec } from '../scenario/study';
 import type { NominalCase } from './sample';
@@ -31,17 +24,14 @@ export interface StudyOverrides {
 export interface StudyContext {
   /** The scenario JSON as flown (with the effective study block). */
   json: Record<string, unknown>;
+  /** The nominal scenario through stages 1–4 (only the study's controllers built). */
   prepared: Prepared;
   def: StudyDefinition;
   nominal: NominalCase;
+  /** The study's controllers on the nominal vehicle, in the study's order. */
   controllers: BuiltController[];
-  /** The nominal wheels as specs, to degrade and remove per case. */
-  wheelSpecs: WheelSpec[];
   /** First target, [x, y, z, w]. */
   target: Float64Array;
-  /** Nominal plant-model wheel data, restored after each case. */
-  nominalAxes: Float64Array;
-  nominalWheelCount: number;
   warnings: Issue[];
 }
 
@@ -72,9 +62,9 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   // with an unknown id build them all and let the study block's own check name the problem.
   const raw = eff.json as { study?: { controllers?: unknown }; controllers?: unknown };
   const want = raw?.study?.controllers;
-  const have = Array.isArray(raw?.controllers) ? raw.controllers.map((c) => (isObj(c) ? c.id : undefined)) : [];
+  const have: unknown[] = Array.isArray(raw?.controllers) ? raw.controllers.map((c: unknown) => (isObj(c) ? c.id : undefined)) : [];
   const only = Array.isArray(want) && want.every((id) => have.includes(id)) ? (want as string[]) : undefined;
-  const prep = prepareScenario(eff.json, only);
+  const prep = preparePipeline(eff.json, only);
   if (!prep.ok) return fail(prep.errors, prep.warnings);
   const p = prep.value;
   const def = p.scenario.study;
@@ -93,41 +83,17 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   const s = p.scenario;
   const ids = def.controllers;
   const controllers = ids ? ids.map((id) => p.controllers.find((c) => c.id === id)!).filter(Boolean) : p.controllers;
-  const w = p.vehicle.wheels;
-  const wheelSpecs: WheelSpec[] = [];
-  for (let i = 0; i < w.n; i++) {
-    wheelSpecs.push({
-      axis: [w.axes[3 * i]!, w.axes[3 * i + 1]!, w.axes[3 * i + 2]!],
-      maxTorqueNm: w.maxTorqueNm[i]!,
-      maxMomentumNms: w.maxMomentumNms[i]!,
-      rotorInertiaKgm2: w.rotorInertiaKgm2[i]!,
-    });
-  }
   const target = Float64Array.from(s.targets[0]!.qInertialFromBody);
   const nominal: NominalCase = {
     qInitial: s.initial.qInertialFromBody,
     qTarget: target,
     omega0: s.initial.omegaBody,
     inertia: p.vehicle.inertia.J,
-    nWheels: w.n,
+    nWheels: p.vehicle.wheels.n,
     attitudeNoiseRad: s.vehicle.sensors.attitudeNoiseRad,
     rateBiasRadPerS: s.vehicle.sensors.rateBiasRadPerS,
     controlRateHz: s.vehicle.controlRateHz,
     actuation: s.vehicle.actuation.mode as ActuationMode,
   };
-  return ok(
-    {
-      json: eff.json as Record<string, unknown>,
-      prepared: p,
-      def,
-      nominal,
-      controllers,
-      wheelSpecs,
-      target,
-      nominalAxes: Float64Array.from(p.vehicle.plantModel.axes),
-      nominalWheelCount: p.vehicle.plantModel.nWheels,
-      warnings,
-    },
-    warnings,
-  );
+  return ok({ json: eff.json as Record<string, unknown>, prepared: p, def, nominal, controllers, target, warnings }, warnings);
 }

@@ -1,25 +1,18 @@
 /**
- * One study case: draw it, build its truth vehicle, fly every selected controller on it (the same
- * case and the same noise seed for each: a paired comparison), and keep per-run metrics plus a
- * decimated error-angle trace. The physics is the pipeline's: runClosedLoop and computeMetrics,
- * configured exactly as pipeline/run.ts runOne configures them, plus the study's per-case noise
- * seed, worst-case noise level ē and early stop.
+ * One study case: draw it, write it as a scenario (disperse.ts), take that through the
+ * pipeline's build and plan stages and fly every selected controller on it (the same case and
+ * noise seed for each: a paired comparison), keeping per-run metrics and a decimated error-angle
+ * trace. Nothing here simulates: the flights are the pipeline's (pipeline/run.ts
+ * flyAndSummarise), so a case written as a file (caseScenario.ts) flies the same way.
  */
-import { makeGyrostat } from '../body/gyrostat';
-import { validateInertia } from '../body/inertia';
-import type { RunMetrics } from '../metrics/metrics';
-import type { MonitorFlag } from '../metrics/monitor';
-import { profiledReference, runMetrics, runMonitor } from '../pipeline/run';
-import { planLimits, type BuiltController } from '../pipeline/build';
-import { planSequence } from '../plan/sequence';
-import { runClosedLoop, type Actuation, type ClosedLoopResult, type ReferenceSource } from '../sim/closedLoop';
-import { applyAxes, makeWheelArray, type WheelArray } from '../wheels/array';
+import { flyAndSummarise, prepareResolved, type Prepared } from '../pipeline/run';
+import type { BuiltController, ControllerRun } from '../pipeline/types';
 import { qConjMultiply } from '../math/rotation';
-import type { Gyrostat } from '../body/gyrostat';
+import { DEG_PER_RAD } from '../units';
 import type { StudyContext } from './context';
+import { disperseScenario } from './disperse';
 import type { CaseDraw } from './sample';
 import { drawCase } from './sample';
-import { DEG_PER_RAD } from '../units';
 
 /** Samples of the decimated error-angle trace kept for every run (fixed grid over durationS). */
 export const TRACE_SAMPLES = 120;
@@ -71,155 +64,23 @@ export interface CaseRecord {
   runs: CaseRun[];
 }
 
-/** The case's truth vehicle, or why it cannot fly. */
-export interface CaseVehicle {
-  plant: Gyrostat;
-  wheels: WheelArray;
-  hWheel0: Float64Array;
-  /** Index map case wheel → nominal wheel. */
-  kept: number[];
-}
+/** A case ready to fly: its draw and the case scenario through stages 3–4, or why it cannot fly. */
+export type PreparedCase = { draw: CaseDraw; ok: true; prepared: Prepared } | { draw: CaseDraw; ok: false; reason: string };
 
-export function buildCaseVehicle(ctx: StudyContext, d: CaseDraw): { ok: true; value: CaseVehicle } | { ok: false; reason: string } {
-  if (!d.inertiaRows) return { ok: false, reason: `no physical inertia in ${d.inertiaRejections} draws (dispersion too wide)` };
-  const inertia = validateInertia(d.inertiaRows, 'inertia');
-  if (!inertia.ok) return { ok: false, reason: `inertia: ${inertia.errors[0]!.message}` };
-  const kept: number[] = [];
-  const specs = ctx.wheelSpecs.flatMap((w, i) => {
-    if (i === d.failedWheel) return [];
-    kept.push(i);
-    return [{ ...w, maxTorqueNm: w.maxTorqueNm * d.wheelTorqueFactor[i]!, maxMomentumNms: w.maxMomentumNms * d.wheelMomentumFactor[i]! }];
-  });
-  const wheels = makeWheelArray(specs, 'wheels');
-  if (!wheels.ok) {
+/** Draw case `index`, write it as a scenario and take it through the pipeline's build and plan stages. */
+export function prepareCase(ctx: StudyContext, index: number): PreparedCase {
+  const d = drawCase(ctx.def, ctx.nominal, index);
+  const ids = ctx.controllers.map((c) => c.id);
+  const cs = disperseScenario(ctx.prepared.scenario, ctx.def, d, ids);
+  if (!cs.ok) return { draw: d, ok: false, reason: cs.reason };
+  const p = prepareResolved(cs.scenario, null, ids);
+  if (!p.ok) {
     const lost = d.failedWheel >= 0 ? `after losing wheel ${d.failedWheel + 1}, ` : '';
-    return { ok: false, reason: `${lost}${wheels.errors[0]!.message}` };
+    return { draw: d, ok: false, reason: `${lost}${p.errors[0]!.message}` };
   }
-  const fr = ctx.prepared.scenario.vehicle.wheelFriction;
-  const plant = makeGyrostat(
-    inertia.value.J,
-    wheels.value,
-    fr ? { viscousNmsPerRad: fr.viscousNmPerRadPerS, coulombNm: fr.coulombNm } : undefined,
-  );
-  if (!plant.ok) return { ok: false, reason: plant.errors[0]!.message };
-  const h0n = ctx.prepared.scenario.initial.hWheelNms;
-  return { ok: true, value: { plant: plant.value, wheels: wheels.value, hWheel0: Float64Array.from(kept.map((i) => h0n[i])), kept } };
-}
-
-/** Direct mode: regulation to the first target, at rest. */
-function fixedTarget(q: Float64Array): ReferenceSource {
-  return {
-    at: (_t, qo, w, wd) => {
-      qo[0] = q[0]!;
-      qo[1] = q[1]!;
-      qo[2] = q[2]!;
-      qo[3] = q[3]!;
-      w[0] = w[1] = w[2] = 0;
-      wd[0] = wd[1] = wd[2] = 0;
-      return 0;
-    },
-  };
-}
-
-/** Point the shared controller plant model at the case's wheels (restored by restorePlantModel). */
-function usePlantModel(ctx: StudyContext, v: CaseVehicle): void {
-  const m = ctx.prepared.vehicle.plantModel;
-  m.nWheels = v.wheels.n;
-  m.axes = v.wheels.axes;
-}
-
-function restorePlantModel(ctx: StudyContext): void {
-  const m = ctx.prepared.vehicle.plantModel;
-  m.nWheels = ctx.nominalWheelCount;
-  m.axes = ctx.nominalAxes;
-}
-
-interface Flown {
-  res: ClosedLoopResult;
-  metrics: RunMetrics;
-}
-
-/** The reference of a case, or why it has none (profiled mode with an infeasible plan). */
-export function caseReference(
-  ctx: StudyContext,
-  d: CaseDraw,
-  v: CaseVehicle,
-): { ok: true; ref: ReferenceSource } | { ok: false; reason: string } {
-  if (ctx.def.mode === 'direct') return { ok: true, ref: fixedTarget(ctx.target) };
-  const p = ctx.prepared;
-  const s = p.scenario;
-  const hBody = applyAxes(new Float64Array(3), v.wheels, v.hWheel0);
-  const plan = planSequence(
-    {
-      qStart: d.q0,
-      inertia: p.vehicle.plant.Jperp,
-      wheelMomentumBody: hBody,
-      targets: [{ q: ctx.target, holdS: s.targets[0]!.holdS, label: s.targets[0]!.label }],
-    },
-    planLimits(s, p.vehicle),
-  );
-  if (!plan.ok) return { ok: false, reason: `no plan: ${plan.errors[0]!.message}` };
-  const seg = plan.value.segments[0]!;
-  if (!seg.feasible) return { ok: false, reason: `no feasible slew on the nominal model: ${seg.reasons.map((r) => r.message).join('; ')}` };
-  return { ok: true, ref: profiledReference(plan.value) };
-}
-
-function actuationOf(ctx: StudyContext, d: CaseDraw): Actuation {
-  if (d.actuation === 'quantized') return { mode: 'quantized', quantumNm: ctx.def.torqueQuantumNm ?? 1e-5 };
-  return { mode: d.actuation };
-}
-
-/** Fly one controller on a built case (full run result; used by runCase and the exact re-run). */
-export function flyCase(
-  ctx: StudyContext,
-  d: CaseDraw,
-  v: CaseVehicle,
-  ref: ReferenceSource,
-  c: BuiltController,
-  shouldStop?: () => boolean,
-): Flown {
-  const s = ctx.prepared.scenario;
-  usePlantModel(ctx, v);
-  try {
-    const res = runClosedLoop({
-      plant: v.plant,
-      wheels: v.wheels,
-      controller: c.controller,
-      reference: ref,
-      q0: d.q0,
-      omega0: d.omega0RadPerS,
-      hWheel0: v.hWheel0,
-      tEnd: ctx.def.durationS,
-      timing: s.simulation.timing,
-      controlRateHz: d.controlRateHz,
-      rk4StepsPerSample: s.simulation.rk4StepsPerSample,
-      sensors: {
-        attitudeSigmaRad: d.attitudeNoiseRad,
-        rateSigmaRadPerS: s.vehicle.sensors.rateNoiseRadPerS,
-        rateBiasRadPerS: d.rateBiasRadPerS,
-        adversarialEta: d.adversarialEta,
-      },
-      seed: d.noiseSeed,
-      stream: 0,
-      actuation: actuationOf(ctx, d),
-      allocation: 'min-max',
-      // Profiled cases can sit within the settle thresholds of their moving reference while
-      // still slewing, so only direct (regulation) cases stop early.
-      stopWhenSettledForS: ctx.def.mode === 'direct' ? ctx.def.stopAfterSettledForS : 0,
-      settleAngleRad: s.simulation.settleAngleRad,
-      settleRateRadPerS: s.simulation.settleRateRadPerS,
-      shouldStop,
-    });
-    const metrics = runMetrics(res, s, v.wheels, ctx.target);
-    return { res, metrics };
-  } finally {
-    restorePlantModel(ctx);
-  }
-}
-
-/** Lyapunov-monitor flags of a flown case (only for the exact re-run; too slow for every case). */
-export function monitorOf(f: Flown, c: BuiltController): MonitorFlag[] {
-  return runMonitor(f.res, c);
+  const seg = p.value.plan.segments[0];
+  if (seg && !seg.feasible) return { draw: d, ok: false, reason: `no feasible slew: ${seg.reasons.map((r) => r.message).join('; ')}` };
+  return { draw: d, ok: true, prepared: p.value };
 }
 
 const qe = new Float64Array(4);
@@ -249,11 +110,12 @@ export const UNWIND_ETA_MIN = 0.5;
 
 const SO3_LAWS: ReadonlySet<string> = new Set(['synergistic']);
 
-function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flown): CaseRun {
-  const m = f.metrics;
-  const tr = f.res.trace;
+/** One flown case run → its study row. */
+export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): CaseRun {
+  const m = run.metrics;
+  const tr = run.trace;
   const n = tr.n;
-  const status: CaseStatus = f.res.outcome.status !== 'completed' ? 'failed' : m.settled ? 'settled' : 'unsettled';
+  const status: CaseStatus = run.outcome.status !== 'completed' ? 'failed' : m.settled ? 'settled' : 'unsettled';
   const finalEta = n > 0 ? etaAt(tr.q, n - 1, ctx.target) : d.errorEta;
   const farLift = Math.abs(finalEta) >= UNWIND_ETA_MIN && finalEta * d.errorEta < 0;
   // Decimate: the first trace sample at or after each grid time.
@@ -270,14 +132,14 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
   }
   const finite = (x: number) => (Number.isFinite(x) ? x : 0);
   return {
-    controllerId: c.id,
+    controllerId: run.controllerId,
     status,
-    reason: status === 'failed' ? f.res.outcome.message : '',
+    reason: status === 'failed' ? run.outcome.message : '',
     settleTimeS: m.settleTimeS,
     rotationTravelledDeg: finite(m.rotationTravelledRad * DEG_PER_RAD),
     shortestRotationDeg: finite(m.shortestRotationRad * DEG_PER_RAD),
     extraRotationDeg: finite((m.rotationTravelledRad - m.shortestRotationRad) * DEG_PER_RAD),
-    unwound: m.unwound || (farLift && !SO3_LAWS.has(c.law) && Math.abs(d.errorEta) >= d.adversarialEta),
+    unwound: m.unwound || (farLift && !SO3_LAWS.has(run.law) && Math.abs(d.errorEta) >= d.adversarialEta),
     longWay: farLift,
     jumps: m.jumps,
     chatterPerS: finite(m.chatterPerS),
@@ -292,7 +154,7 @@ function summarizeRun(ctx: StudyContext, d: CaseDraw, c: BuiltController, f: Flo
   };
 }
 
-function unflyableRun(c: BuiltController, reason: string): CaseRun {
+function unflyableRun(c: Pick<BuiltController, 'id'>, reason: string): CaseRun {
   return {
     controllerId: c.id,
     status: 'unflyable',
@@ -321,16 +183,13 @@ function unflyableRun(c: BuiltController, reason: string): CaseRun {
  * (a half-run case is never reported).
  */
 export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boolean): CaseRecord | null {
-  const d = drawCase(ctx.def, ctx.nominal, index);
-  const v = buildCaseVehicle(ctx, d);
-  if (!v.ok) return { draw: d, runs: ctx.controllers.map((c) => unflyableRun(c, v.reason)) };
-  const ref = caseReference(ctx, d, v.value);
-  if (!ref.ok) return { draw: d, runs: ctx.controllers.map((c) => unflyableRun(c, ref.reason)) };
+  const pc = prepareCase(ctx, index);
+  if (!pc.ok) return { draw: pc.draw, runs: ctx.controllers.map((c) => unflyableRun(c, pc.reason)) };
   const runs: CaseRun[] = [];
-  for (const c of ctx.controllers) {
-    const f = flyCase(ctx, d, v.value, ref.ref, c, shouldStop);
-    if (f.res.outcome.status === 'cancelled' && shouldStop?.()) return null;
-    runs.push(summarizeRun(ctx, d, c, f));
+  for (const c of pc.prepared.controllers) {
+    const run = flyAndSummarise(pc.prepared, c, ctx.def.mode, { shouldStop, monitor: false });
+    if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
+    runs.push(caseRunOf(ctx, pc.draw, run));
   }
-  return { draw: d, runs };
+  return { draw: pc.draw, runs };
 }

@@ -18,6 +18,7 @@
  */
 import type { CaseRecord, CaseRun } from './runCase';
 import type { StudyDefinition } from '../scenario/study';
+import type { RunMode } from '../sim/types';
 import { DEG_PER_RAD } from '../units';
 
 export interface Histogram {
@@ -111,7 +112,7 @@ export interface StudySummary {
   /** True when the study was stopped before every case ran (the summary covers the finished ones). */
   incomplete: boolean;
   durationS: number;
-  mode: 'direct' | 'profiled';
+  mode: RunMode;
   settleDefinition: string;
   /** Inertia samples redrawn because they were not physical, over all finished cases. */
   inertiaRejections: number;
@@ -275,7 +276,7 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
     durationS: def.durationS,
     mode: def.mode,
     settleDefinition:
-      def.mode === 'direct' && def.stopAfterSettledForS > 0
+      def.mode === 'step-target' && def.stopAfterSettledForS > 0
         ? `error angle and rate error stay below the scenario's settle thresholds until the end of the run; a case ends early after ${def.stopAfterSettledForS} s settled`
         : "error angle and rate error (to the reference) stay below the scenario's settle thresholds until the end of the run; every case runs its full duration",
     inertiaRejections: records.reduce((s, r) => s + r.draw.inertiaRejections, 0),

@@ -44,11 +44,14 @@ export function envelopeSupport(z: Zonotope, d: ArrayLike<number>): number {
   return s;
 }
 
+/** The facet planes of an envelope: all a capacity query needs (plain data, e.g. from a pipeline output). */
+export type EnvelopeFaces = Pick<Zonotope, 'faceNormals' | 'faceOffsets'>;
+
 /**
  * Largest r with r·d/|d| in the envelope: min over facets with nᵀd > 0 of offset / (nᵀd/|d|).
  * 0 for a zero or non-finite d, or a flat zonotope.
  */
-export function envelopeCapacity(z: Zonotope, d: ArrayLike<number>): number {
+export function envelopeCapacity(z: EnvelopeFaces, d: ArrayLike<number>): number {
   const f = envelopeBindingFace(z, d);
   if (f < 0) return 0;
   const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
@@ -57,7 +60,7 @@ export function envelopeCapacity(z: Zonotope, d: ArrayLike<number>): number {
 }
 
 /** Index of the facet the ray along d leaves through (−1 when undefined, see envelopeCapacity). */
-export function envelopeBindingFace(z: Zonotope, d: ArrayLike<number>): number {
+export function envelopeBindingFace(z: EnvelopeFaces, d: ArrayLike<number>): number {
   const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
   if (!(dn > 0) || !Number.isFinite(dn)) return -1;
   const ux = d[0]! / dn,

@@ -3,30 +3,17 @@
  * law and gains editors, and for the synergistic law the certificate badge from the engine.
  */
 import type { CertificateSummary } from '../../engine/pipeline/types';
-import { CONTROL_LAWS } from '../../engine/scenario/schema';
+import { LAW_IDS, LAWS } from '../../engine/control/registry';
+import type { LawField } from '../../engine/control/definition';
+import type { LawId } from '../../engine/control/params';
 import { useAllIssues, useApp, useAppState, useIssuesAt, useScenarioValue } from '../context';
 import { fmt } from '../format';
 import { IssueText, NumberField, Section, SelectField, TextField, VectorField } from './fields';
 
 type Obj = Record<string, unknown>;
 
-const LAW_LABELS: Record<string, string> = {
-  'quaternion-pd': 'Quaternion PD (smooth)',
-  'sign-switch': 'Sign switch (memoryless)',
-  eigenaxis: 'Eigenaxis, rate-limited',
-  hysteretic: 'Hysteretic hybrid (h ∈ {−1, 1})',
-  synergistic: 'Synergistic hybrid (warped potentials)',
-};
-
-/** Starting values for the fields a law adds (from the demo scenario's choices). */
-const LAW_DEFAULTS: Record<string, Obj> = {
-  'quaternion-pd': {},
-  'sign-switch': {},
-  eigenaxis: { maxRateDegPerS: 3 },
-  hysteretic: { hysteresis: 0.2 },
-  synergistic: { potentialWeights: [0.125, 0.25, 0.375], warpGain: 1.2, hysteresis: 0.025 },
-};
-const LAW_KEYS = ['maxRateDegPerS', 'hysteresis', 'potentialWeights', 'potentialAxes', 'warpGain', 'warpDirections'];
+/** Every law's own file keys (to drop the old law's fields when the law changes). */
+const LAW_KEYS = [...new Set(LAW_IDS.flatMap((l) => LAWS[l].fields.map((f) => f.key)))];
 
 export function CertificateBadge({ id, compared, base }: { id: string; compared: boolean; base: string }) {
   const cert: CertificateSummary | undefined = useAppState((s) => s.output?.certificates.find((c) => c.controllerId === id));
@@ -59,7 +46,7 @@ export function CertificateBadge({ id, compared, base }: { id: string; compared:
   );
 }
 
-function GainsEditor({ base }: { base: string }) {
+function GainsEditor({ base, law }: { base: string; law: LawId | null }) {
   const app = useApp();
   const gains = useScenarioValue(`${base}.gains`) as Obj | undefined;
   const form = gains && 'kp' in gains ? 'kp-kd' : 'bandwidth';
@@ -86,102 +73,93 @@ function GainsEditor({ base }: { base: string }) {
         </>
       ) : (
         <>
-          <NumberField path={`${base}.gains.kp`} label="kp" unit="SI" title="N·m per unit error (eigenaxis: 1/s²)" />
-          <NumberField path={`${base}.gains.kd`} label="kd" unit="SI" title="N·m·s/rad (eigenaxis: 1/s)" />
+          <NumberField
+            path={`${base}.gains.kp`}
+            label={`Stiffness ${law ? LAWS[law].gains.stiffness.symbol : 'kp'}`}
+            unit={law ? LAWS[law].gains.stiffness.unit : 'SI'}
+            title={law ? `${LAWS[law].gains.stiffness.symbol}: ${LAWS[law].gains.stiffness.meaning}` : 'stiffness'}
+          />
+          <NumberField
+            path={`${base}.gains.kd`}
+            label={`Damping ${law ? LAWS[law].gains.damping.symbol : 'kd'}`}
+            unit={law ? LAWS[law].gains.damping.unit : 'SI'}
+            title={law ? `${LAWS[law].gains.damping.symbol}: ${LAWS[law].gains.damping.meaning}` : 'damping'}
+          />
         </>
       )}
     </>
   );
 }
 
-function SynergisticExtras({ base }: { base: string }) {
+const IDENTITY_ROWS = [
+  [1, 0, 0],
+  [0, 1, 0],
+  [0, 0, 1],
+];
+
+/** A list of unit vectors the user may leave out (default named in the field's help). */
+function OptionalVectors({ base, f }: { base: string; f: LawField }) {
   const app = useApp();
-  const axes = useScenarioValue(`${base}.potentialAxes`);
-  const dirs = useScenarioValue(`${base}.warpDirections`) as unknown[] | undefined;
+  const path = `${base}.${f.key}`;
+  const list = useScenarioValue(path) as unknown[] | undefined;
+  const growable = f.kind === 'optional-directions';
   return (
     <>
-      <VectorField path={`${base}.potentialWeights`} label="Weights λ" unit="—" names={['1', '2', '3']} />
-      <NumberField path={`${base}.warpGain`} label="Warp gain k" unit="rad" step={0.05} />
-      <NumberField
-        path={`${base}.hysteresis`}
-        label="Switching δ"
-        unit="—"
-        step={0.005}
-        title="Switching margin δ on the synergy gap, in potential units; must be below the certified gap δ*"
-      />
-      <label className="check">
+      <label className="check" title={f.help}>
         <input
           type="checkbox"
-          checked={axes !== undefined}
-          onChange={(e) =>
-            app.store.edit(
-              `${base}.potentialAxes`,
-              e.target.checked
-                ? [
-                    [1, 0, 0],
-                    [0, 1, 0],
-                    [0, 0, 1],
-                  ]
-                : undefined,
-              { label: 'Potential axes', coalesceKey: null },
-            )
-          }
+          checked={Array.isArray(list)}
+          onChange={(e) => app.store.edit(path, e.target.checked ? IDENTITY_ROWS : undefined, { label: f.label, coalesceKey: null })}
         />{' '}
-        potential axes (else body x, y, z)
+        {f.label} <span className="muted">({f.help})</span>
       </label>
-      {Array.isArray(axes) &&
-        [0, 1, 2].map((k) => <VectorField key={k} path={`${base}.potentialAxes[${k}]`} label={`Axis of λ${k + 1}`} stacked />)}
-      <label className="check">
-        <input
-          type="checkbox"
-          checked={Array.isArray(dirs)}
-          onChange={(e) =>
-            app.store.edit(
-              `${base}.warpDirections`,
-              e.target.checked
-                ? [
-                    [1, 0, 0],
-                    [0, 1, 0],
-                    [0, 0, 1],
-                  ]
-                : undefined,
-              { label: 'Warp directions', coalesceKey: null },
-            )
-          }
-        />{' '}
-        warp directions (else the potential axes)
-      </label>
-      {Array.isArray(dirs) && (
-        <>
-          {dirs.map((_, k) => (
-            <div key={k} className="row-with-button">
-              <VectorField path={`${base}.warpDirections[${k}]`} label={`warp direction u${k + 1}`} stacked />
+      {Array.isArray(list) &&
+        list.map((_, k) => (
+          <div key={k} className="row-with-button">
+            <VectorField path={`${path}[${k}]`} label={`${f.label} ${k + 1}`} stacked />
+            {growable && (
               <button
                 className="icon"
-                title={`Remove u${k + 1}`}
-                disabled={dirs.length <= 2}
+                title={`Remove ${f.label.toLowerCase()} ${k + 1}`}
+                disabled={list.length <= 2}
                 onClick={() =>
                   app.store.edit(
-                    `${base}.warpDirections`,
-                    dirs.filter((__, i) => i !== k),
-                    { label: 'Remove warp direction', coalesceKey: null },
+                    path,
+                    list.filter((__, i) => i !== k),
+                    { label: `Remove ${f.label.toLowerCase()}`, coalesceKey: null },
                   )
                 }
               >
                 ×
               </button>
-            </div>
-          ))}
-          <button
-            className="small"
-            disabled={dirs.length >= 12}
-            onClick={() =>
-              app.store.edit(`${base}.warpDirections`, [...dirs, [1, 1, 0]], { label: 'Add warp direction', coalesceKey: null })
-            }
-          >
-            + direction
-          </button>
-        </>
+            )}
+          </div>
+        ))}
+      {growable && Array.isArray(list) && (
+        <button
+          className="small"
+          disabled={list.length >= 12}
+          onClick={() => app.store.edit(path, [...list, [1, 1, 0]], { label: `Add ${f.label.toLowerCase()}`, coalesceKey: null })}
+        >
+          + {f.label.toLowerCase().replace(/s$/, '')}
+        </button>
+      )}
+    </>
+  );
+}
+
+/** The fields a law adds, as its registry entry describes them (one name per quantity everywhere). */
+function LawFields({ base, law }: { base: string; law: LawId }) {
+  return (
+    <>
+      {LAWS[law].fields.map((f) =>
+        f.kind === 'number' ? (
+          <NumberField key={f.key} path={`${base}.${f.key}`} label={f.label} unit={f.unit} step={f.step} title={f.help} />
+        ) : f.kind === 'vector3' ? (
+          <VectorField key={f.key} path={`${base}.${f.key}`} label={f.label} unit={f.unit} names={['1', '2', '3']} />
+        ) : (
+          <OptionalVectors key={f.key} base={base} f={f} />
+        ),
       )}
     </>
   );
@@ -192,7 +170,8 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
   const base = `controllers[${i}]`;
   const c = (useScenarioValue(base) ?? {}) as Obj;
   const id = String(c.id ?? '');
-  const law = String(c.law ?? '');
+  const law = String(c.law ?? '') as LawId;
+  const known = (LAW_IDS as readonly string[]).includes(law);
   const excluded = useAppState((s) => s.excludedControllerIds);
   const compared = !excluded.includes(id);
   const output = useAppState((s) => s.output);
@@ -202,7 +181,8 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
   const chooseLaw = (next: string) => {
     const kept: Obj = {};
     for (const [k, v] of Object.entries(c)) if (!LAW_KEYS.includes(k)) kept[k] = v;
-    app.store.edit(base, { ...kept, law: next, ...LAW_DEFAULTS[next] }, { label: `Law: ${next}`, coalesceKey: null });
+    const def = LAWS[next as LawId];
+    app.store.edit(base, { ...kept, law: next, ...def.fileDefaults }, { label: `Law: ${def.title}`, coalesceKey: null });
   };
   const remove = () => {
     const list = (app.store.getState().scenario as Obj).controllers as Obj[];
@@ -233,29 +213,11 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
       </summary>
       <TextField path={`${base}.label`} label="Label" />
       <TextField path={`${base}.id`} label="Id" />
-      <SelectField
-        label="Law"
-        value={law}
-        choices={CONTROL_LAWS.map((l) => ({ value: l, label: LAW_LABELS[l] ?? l }))}
-        onChoose={chooseLaw}
-      />
-      <GainsEditor base={base} />
-      {law === 'eigenaxis' && <NumberField path={`${base}.maxRateDegPerS`} label="Slew-rate limit" unit="deg/s" step={0.5} />}
-      {law === 'hysteretic' && (
-        <NumberField
-          path={`${base}.hysteresis`}
-          label="Hysteresis δ"
-          unit="—"
-          step={0.05}
-          title="Hysteresis half-width δ on h·η (0 < δ < 1)"
-        />
-      )}
-      {law === 'synergistic' && (
-        <>
-          <SynergisticExtras base={base} />
-          <CertificateBadge id={id} compared={compared} base={base} />
-        </>
-      )}
+      <SelectField label="Law" value={law} choices={LAW_IDS.map((l) => ({ value: l, label: LAWS[l].title }))} onChoose={chooseLaw} />
+      {known && <div className="muted law-summary">{LAWS[law].summary}</div>}
+      <GainsEditor base={base} law={known ? law : null} />
+      {known && <LawFields base={base} law={law} />}
+      {law === 'synergistic' && <CertificateBadge id={id} compared={compared} base={base} />}
       {gainNote && <div className="derived">{gainNote}</div>}
       <IssueText errors={rest} />
     </details>

@@ -10,7 +10,6 @@ export function ExportDialog() {
   const app = useApp();
   const open = useStoreSlice(app.ui, (u) => u.exportOpen);
   const output = useAppState((s) => s.output);
-  const outputScenario = useAppState((s) => s.outputScenario);
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const selected = useAppState((s) => s.selectedRunKeys);
   const [format, setFormat] = useState<ExportFormat>('aem');
@@ -38,7 +37,7 @@ export function ExportDialog() {
     if (!output) return;
     setBusy(true);
     try {
-      const r = exportRun(output, outputScenario, { format, runKey, sampleRateHz: rateBad ? NaN : rate });
+      const r = exportRun(output, { format, runKey, sampleRateHz: rateBad ? NaN : rate });
       if (!r.ok) {
         setIssues(r.errors);
         return;

@@ -15,6 +15,7 @@ import type { Issue } from '../../engine/errors';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import { createStore, type Store } from './createStore';
 import { formatPath, parsePath, setIn, type PathToken } from './paths';
+import { migrateScenario } from '../../engine/scenario/migrate';
 
 export interface ValidationState {
   ok: boolean;
@@ -191,15 +192,18 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     },
 
     load(scenario, fileName, untitled) {
+      // An older file format is brought up to date for editing; the document then differs from
+      // the file on disk (dirty) until it is saved in the current format.
+      const migrated = migrateScenario(scenario).json;
       base.setState({
-        scenario,
+        scenario: migrated,
         savedScenario: scenario,
         fileName,
         untitled,
-        dirty: false,
+        dirty: migrated !== scenario,
         undoStack: [],
         redoStack: [],
-        validation: validate(scenario),
+        validation: validate(migrated),
         pipeline: EMPTY_PIPELINE,
         output: null,
         outputScenario: null,

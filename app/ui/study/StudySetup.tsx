@@ -204,14 +204,14 @@ export function StudySetup() {
         title="Simulated time per case"
       />
       <SelectField
-        label="Reference"
-        title="direct: regulate to the first target from the dispersed start; profiled: track the slew planned on the nominal model from that start"
+        label="How the controller is given the slew"
+        title="Step to the target: regulate to the first target from the dispersed start. Follow the plan: track the slew planned on the nominal model from that start."
         path="study.mode"
-        value={(study as Obj).mode === 'profiled' ? 'profiled' : 'direct'}
-        onChoose={(m) => editStudy(app.store, 'study.mode', m === 'direct' ? undefined : m, 'Study reference mode')}
+        value={(study as Obj).mode === 'follow-plan' ? 'follow-plan' : 'step-target'}
+        onChoose={(m) => editStudy(app.store, 'study.mode', m === 'step-target' ? undefined : m, 'Study reference mode')}
         choices={[
-          { value: 'direct', label: 'direct' },
-          { value: 'profiled', label: 'profiled' },
+          { value: 'step-target', label: 'Step to the target at once' },
+          { value: 'follow-plan', label: 'Follow the planned slew' },
         ]}
       />
       <OptNumberField

@@ -30,7 +30,6 @@ export function View3DPanel() {
   const [toggles, setToggles] = useState<Record<string, boolean>>(() => Object.fromEntries(TOGGLES.map((t) => [t.key, true])));
   const output = useAppState((s) => s.output);
   const selected = useAppState((s) => s.selectedRunKeys);
-  const scenario = useAppState((s) => s.outputScenario);
   const runs = useMemo(
     () => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []),
     [output, selected],
@@ -95,9 +94,9 @@ export function View3DPanel() {
   useEffect(() => {
     const v = view.current;
     if (!v) return;
-    v.setOptions({ ...toggles, keepOut: keepOutCones(scenario) });
+    v.setOptions({ ...toggles, keepOut: keepOutCones(output) });
     needsRender.current = true;
-  }, [toggles, scenario]);
+  }, [toggles, output]);
 
   return (
     <div className="view3d" data-testid="view3d">

@@ -23,12 +23,12 @@
  * W reported: 2k(1 − sη) + ½‖ω_e‖² (1/s², inertia-normalised), a Lyapunov function of the
  * unsaturated loop only (Ẇ = −c‖ω_e‖² there).
  */
-import type { Vec3 } from '../math/mat3';
-import { m3MulVec } from '../math/mat3';
-import { qAngle } from '../math/rotation';
-import type { TrackingState } from './tracking';
-import { computeTracking, feedforwardCancel, makeTrackingState, sgnPos } from './tracking';
-import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel } from './types';
+import type { Vec3 } from '../../../math/mat3';
+import { m3MulVec } from '../../../math/mat3';
+import { qAngle } from '../../../math/rotation';
+import type { TrackingState } from '../../tracking';
+import { computeTracking, feedforwardCancel, makeTrackingState, sgnPos } from '../../tracking';
+import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel } from '../../types';
 
 /**
  * Per-axis saturation limits L_i = (c/k) ω_max |ε_i| / ‖ε‖ for an initial error vector ε (Wie & Lu

@@ -10,14 +10,14 @@
  *   τ = τ_ff − k_R b_q(R_e) − K_ω ω_e,   τ_ff the passive tracking feedforward (tracking.ts)
  *   W = k_R V_q(R_e) + ½ω_eᵀJ⊥ω_e,  Ẇ = −ω_eᵀK_ωω_e on flows, W drops by k_R μ ≥ k_R δ at a jump.
  */
-import type { Mat3, Vec3 } from '../math/mat3';
-import { qAngle } from '../math/rotation';
-import type { CertificateResult } from './certificate';
-import type { FamilyWorkspace, WarpFamily } from './potential';
-import { evaluateFamily, makeFamilyWorkspace, memberGradient } from './potential';
-import type { TrackingState } from './tracking';
-import { computeTracking, errorKineticEnergy, feedforwardPassive, makeTrackingState, subtractMatVec } from './tracking';
-import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel } from './types';
+import type { Mat3, Vec3 } from '../../../math/mat3';
+import { qAngle } from '../../../math/rotation';
+import type { CertificateResult } from '../../certificate';
+import type { FamilyWorkspace, WarpFamily } from '../../potential';
+import { evaluateFamily, makeFamilyWorkspace, memberGradient } from '../../potential';
+import type { TrackingState } from '../../tracking';
+import { computeTracking, errorKineticEnergy, feedforwardPassive, makeTrackingState, subtractMatVec } from '../../tracking';
+import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel } from '../../types';
 
 export class Synergistic implements AttitudeController {
   readonly kind = 'synergistic' as const;

@@ -1,5 +1,6 @@
 /**
- * Quaternion feedback laws on S³: continuous PD, memoryless sign switch, hysteretic hybrid.
+ * The shared base of the quaternion feedback laws on S³ (laws/quaternion-pd, laws/sign-switch,
+ * laws/hysteretic): continuous PD, memoryless sign switch, hysteretic hybrid.
  *
  * All three: τ = τ_ff − k_p s ε − K_d ω_e, with (η, ε) = q_e, τ_ff the passive tracking
  * feedforward (tracking.ts) and s the chosen sign of the target lift:
@@ -17,11 +18,12 @@
 import type { Mat3, Vec3 } from '../math/mat3';
 import { qAngle } from '../math/rotation';
 import type { TrackingState } from './tracking';
-import { computeTracking, errorKineticEnergy, feedforwardPassive, makeTrackingState, sgnPos, subtractMatVec } from './tracking';
-import type { AttitudeController, ControlDiagnostics, ControlInput, ControllerKind, PlantModel } from './types';
+import { computeTracking, errorKineticEnergy, feedforwardPassive, makeTrackingState, subtractMatVec } from './tracking';
+import type { LawId } from './params';
+import type { AttitudeController, ControlDiagnostics, ControlInput, PlantModel } from './types';
 
-abstract class QuaternionLawBase implements AttitudeController {
-  abstract readonly kind: ControllerKind;
+export abstract class QuaternionLawBase implements AttitudeController {
+  abstract readonly kind: LawId;
   abstract readonly jumpDecrease: number;
   readonly certificate = null;
   protected readonly st: TrackingState = makeTrackingState();
@@ -75,7 +77,7 @@ abstract class QuaternionLawBase implements AttitudeController {
 }
 
 /** Laws without hybrid logic: the logic value stays 0 and the jump set is empty. */
-abstract class MemorylessLaw extends QuaternionLawBase {
+export abstract class MemorylessLaw extends QuaternionLawBase {
   initialLogic(): number {
     return 0;
   }
@@ -84,80 +86,5 @@ abstract class MemorylessLaw extends QuaternionLawBase {
   }
   updateLogic(): { logic: number; why: string | null } {
     return { logic: 0, why: null };
-  }
-}
-
-/** Continuous quaternion PD (unwinds; Bhat & Bernstein 2000). Logic unused (0). */
-export class QuaternionPd extends MemorylessLaw {
-  readonly kind = 'quaternion-pd' as const;
-  readonly jumpDecrease = 0;
-  protected sign(): number {
-    return 1;
-  }
-  protected familyMin(eta: number): number {
-    return 2 * (1 - eta);
-  }
-}
-
-/** Memoryless shortest-path law, s = sgn(η) with sgn(0) = +1. Logic unused (0). */
-export class SignSwitch extends MemorylessLaw {
-  readonly kind = 'sign-switch' as const;
-  readonly jumpDecrease = 0;
-  protected sign(eta: number): number {
-    return sgnPos(eta);
-  }
-  protected familyMin(eta: number): number {
-    return 2 * (1 - Math.abs(eta));
-  }
-}
-
-/** Hysteretic hybrid quaternion feedback, logic h ∈ {−1, 1} (MST 2011). */
-export class Hysteretic extends QuaternionLawBase {
-  readonly kind = 'hysteretic' as const;
-  readonly jumpDecrease: number;
-
-  constructor(
-    label: string,
-    plant: PlantModel,
-    kp: number,
-    Kd: Mat3,
-    /** Hysteresis δ ≥ 0 (δ = 0: sign switch; δ ≥ 1: no jump possible, continuous PD). */
-    readonly delta: number,
-    /** Fixed h(0), or 0 for "sgn(η) at the start". */
-    readonly startLogic: number,
-  ) {
-    super(label, plant, kp, Kd);
-    this.jumpDecrease = 4 * kp * delta;
-  }
-
-  protected sign(eta: number, logic: number): number {
-    // An invalid logic value is treated as the jump map would set it.
-    return logic === 1 || logic === -1 ? logic : sgnPos(eta);
-  }
-  protected familyMin(eta: number): number {
-    return 2 * (1 - Math.abs(eta));
-  }
-
-  initialLogic(input: ControlInput): number {
-    return this.startLogic === 1 || this.startLogic === -1 ? this.startLogic : sgnPos(this.eta(input));
-  }
-
-  /** g = −hη − δ ≥ 0 ⇔ hη ≤ −δ (jump set). */
-  jumpGuard(input: ControlInput, logic: number): number {
-    if (logic !== 1 && logic !== -1) return 1;
-    return -logic * this.eta(input) - this.delta;
-  }
-
-  updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null } {
-    const eta = this.eta(input);
-    if (logic !== 1 && logic !== -1) {
-      const h = sgnPos(eta);
-      return { logic: h, why: `logic reset to h = ${h} (invalid value ${logic})` };
-    }
-    if (logic * eta <= -this.delta) {
-      const h = sgnPos(eta);
-      if (h !== logic) return { logic: h, why: `h·η = ${(logic * eta).toFixed(4)} ≤ −δ = ${(-this.delta).toFixed(4)}: h ${logic} → ${h}` };
-    }
-    return { logic, why: null };
   }
 }

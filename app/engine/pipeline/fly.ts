@@ -1,0 +1,105 @@
+/**
+ * Stage 5 of the pipeline, fly: one controller, one mode, one reference, on the truth vehicle,
+ * through the hybrid closed loop (sim/closedLoop.ts). The pipeline's flights and a study's
+ * dispersed cases are both made here, so they cannot differ in anything but their inputs.
+ */
+import type { SequencePlan } from '../plan/types';
+import type { ResolvedScenario } from '../scenario/resolve';
+import { runClosedLoop, type ClosedLoopResult, type ReferenceSource } from '../sim/closedLoop';
+import { followPlanReference, stepTargetReference } from '../sim/reference';
+import type { SensorModel } from '../sim/sensors';
+import type { Actuation, RunMode } from '../sim/types';
+import type { BuiltController, Vehicle } from './types';
+
+/** Everything one flight needs (SI). */
+export interface Flight {
+  vehicle: Pick<Vehicle, 'plant' | 'wheels'>;
+  controller: BuiltController;
+  mode: RunMode;
+  reference: ReferenceSource;
+  initial: { q: ArrayLike<number>; omega: ArrayLike<number>; hWheel: ArrayLike<number> };
+  tEnd: number;
+  timing: 'sampled' | 'continuous-ideal';
+  controlRateHz: number;
+  rk4StepsPerSample: number;
+  sensors: SensorModel;
+  seed: number;
+  /** Random stream (a study's case uses its own) so runs are independent and repeatable. */
+  stream?: number;
+  actuation: Actuation;
+  /** End the flight once it has been settled this long (studies); absent: fly to tEnd. */
+  earlyStop?: { settledForS: number; angleRad: number; rateRadPerS: number };
+  shouldStop?: () => boolean;
+}
+
+/** Stage 5: fly. */
+export function fly(f: Flight): ClosedLoopResult {
+  return runClosedLoop({
+    plant: f.vehicle.plant,
+    wheels: f.vehicle.wheels,
+    controller: f.controller.controller,
+    reference: f.reference,
+    q0: f.initial.q,
+    omega0: f.initial.omega,
+    hWheel0: f.initial.hWheel,
+    tEnd: f.tEnd,
+    timing: f.timing,
+    controlRateHz: f.controlRateHz,
+    rk4StepsPerSample: f.rk4StepsPerSample,
+    sensors: f.sensors,
+    seed: f.seed,
+    stream: f.stream,
+    actuation: f.actuation,
+    allocation: 'min-max',
+    stopWhenSettledForS: f.earlyStop?.settledForS ?? 0,
+    settleAngleRad: f.earlyStop?.angleRad,
+    settleRateRadPerS: f.earlyStop?.rateRadPerS,
+    shouldStop: f.shouldStop,
+  });
+}
+
+/** The scenario's reference for a mode: the planned profile, or each target at once. */
+export function referenceFor(mode: RunMode, plan: SequencePlan, targets: Float64Array, qInitial: ArrayLike<number>): ReferenceSource {
+  return mode === 'follow-plan' ? followPlanReference(plan) : stepTargetReference(plan, targets, qInitial);
+}
+
+/** The flight of one controller in one mode of a scenario, as the pipeline flies it. */
+export function scenarioFlight(
+  s: ResolvedScenario,
+  v: Vehicle,
+  plan: SequencePlan,
+  targets: Float64Array,
+  c: BuiltController,
+  mode: RunMode,
+  shouldStop?: () => boolean,
+): Flight {
+  return {
+    vehicle: v,
+    controller: c,
+    mode,
+    reference: referenceFor(mode, plan, targets, s.initial.qInertialFromBody),
+    initial: { q: s.initial.qInertialFromBody, omega: s.initial.omegaBody, hWheel: s.initial.hWheelNms },
+    tEnd: s.simulation.durationS ?? Math.max(plan.totalS, 1) + s.simulation.tailS,
+    timing: s.simulation.timing,
+    controlRateHz: s.vehicle.controlRateHz,
+    rk4StepsPerSample: s.simulation.rk4StepsPerSample,
+    sensors: {
+      attitudeSigmaRad: s.vehicle.sensors.attitudeNoiseRad,
+      rateSigmaRadPerS: s.vehicle.sensors.rateNoiseRadPerS,
+      rateBiasRadPerS: s.vehicle.sensors.rateBiasRadPerS,
+      adversarialEta: s.vehicle.sensors.boundedNoiseEta,
+    },
+    seed: s.simulation.seed,
+    actuation: s.vehicle.actuation,
+    ...(mode === 'step-target' && s.simulation.endWhenSettledForS > 0
+      ? {
+          earlyStop: {
+            settledForS: s.simulation.endWhenSettledForS,
+            angleRad: s.simulation.settleAngleRad,
+            rateRadPerS: s.simulation.settleRateRadPerS,
+          },
+        }
+      : {}),
+    shouldStop,
+  };
+}

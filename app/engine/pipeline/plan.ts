@@ -1,0 +1,94 @@
+/**
+ * Stage 4 of the pipeline, plan: the resolved maneuver on the built vehicle → a slew-then-hold
+ * timeline within the wheel envelopes (plan/), with per-segment verdicts, and its summary for
+ * tables and exports.
+ */
+import type { Issue, Result } from '../errors';
+import { fail } from '../errors';
+import { planSequence } from '../plan/sequence';
+import type { PlanLimits, SequencePlan } from '../plan/types';
+import { applyAxes } from '../wheels/array';
+import { envelopeCapacity } from '../wheels/envelope';
+import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
+import type { PlanSummary, Vehicle } from './types';
+
+/** What the planner may use of the vehicle's envelopes. */
+export function planLimits(s: ResolvedScenario, v: Vehicle): PlanLimits {
+  return {
+    torqueCapacity: (d) => envelopeCapacity(v.torqueEnvelope, d),
+    momentumCapacity: (d) => envelopeCapacity(v.momentumEnvelope, d),
+    torqueMargin: s.planning.torqueMargin,
+    momentumMargin: s.planning.momentumMargin,
+    slewRateLimitRadPerS: s.planning.slewRateLimitRadPerS > 0 ? s.planning.slewRateLimitRadPerS : undefined,
+  };
+}
+
+/** Stage 4: the sequence plan from the initial attitude (at rest, with the initial wheel momentum), on the model the flight software has. */
+export function planManeuver(s: ResolvedScenario, v: Vehicle): Result<SequencePlan> {
+  const hBody = applyAxes(new Float64Array(3), v.wheels, s.initial.hWheelNms);
+  const plan = planSequence(
+    {
+      qStart: s.initial.qInertialFromBody,
+      inertia: v.design.Jperp,
+      wheelMomentumBody: hBody,
+      targets: s.targets.map((t) => ({ q: t.qInertialFromBody, holdS: t.holdS, label: t.label })),
+    },
+    planLimits(s, v),
+  );
+  if (plan.ok) return plan;
+  const errors: Issue[] = plan.errors.map((e) => ({
+    ...e,
+    path: e.path.startsWith('targets') || e.path.startsWith('qStart') ? e.path : `planning.${e.path}`,
+  }));
+  return fail(errors, plan.warnings);
+}
+
+export function planSummary(plan: SequencePlan, targets: readonly Pick<ResolvedTarget, 'label' | 'holdS'>[]): PlanSummary {
+  let tCursor = 0;
+  const segments = plan.segments.map((seg, i) => {
+    const tl = plan.timeline.find((e) => e.target === i);
+    const label = targets[i]?.label ?? `target ${i + 1}`;
+    const holdS = targets[i]?.holdS ?? 0;
+    const axisBody = [seg.axisBody[0]!, seg.axisBody[1]!, seg.axisBody[2]!] as [number, number, number];
+    if (seg.feasible) {
+      const tStart = tl ? tl.slewStartS : tCursor;
+      const tEnd = tl ? tl.holdEndS : tStart + seg.durationS + holdS;
+      tCursor = tEnd;
+      return {
+        index: i,
+        label,
+        tStart,
+        slewTimeS: seg.durationS,
+        holdS,
+        tEnd,
+        angleRad: seg.angleRad,
+        axisBody,
+        feasible: true,
+        binding: seg.binding,
+        peakRateRadPerS: seg.peakRateRadPerS,
+        accelRadPerS2: seg.profile.accelRadPerS2,
+        peakTorqueFraction: seg.peakTorqueFraction,
+        peakMomentumFraction: seg.peakMomentumFraction,
+        reason: seg.summary,
+      };
+    }
+    return {
+      index: i,
+      label,
+      tStart: tCursor,
+      slewTimeS: 0,
+      holdS,
+      tEnd: tCursor,
+      angleRad: seg.angleRad,
+      axisBody,
+      feasible: false,
+      binding: 'none' as const,
+      peakRateRadPerS: 0,
+      accelRadPerS2: 0,
+      peakTorqueFraction: 0,
+      peakMomentumFraction: 0,
+      reason: seg.reasons.map((r) => r.message).join('; '),
+    };
+  });
+  return { feasible: plan.feasible, totalTimeS: plan.totalS, segments };
+}
