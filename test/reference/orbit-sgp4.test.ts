@@ -70,7 +70,7 @@ describe('mean elements → SGP4', () => {
     epochUtcIso: '2026-03-20T12:00:00Z',
     eccentricity: 0.0012,
     inclinationDeg: 97.4,
-    raanDeg: 80,
+    raanDeg: 337.5,
     argPerigeeDeg: 90,
     meanAnomalyDeg: 270,
     bstarPerEarthRadii: 5e-5,
