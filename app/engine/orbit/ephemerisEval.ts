@@ -6,7 +6,8 @@
  *   (conical shadow, sky.ts). Goal ≤ 2 µs per call (test/bench/orbit.ts).
  * - `orbitStateAt`: r, v, a and jerk for pointing-target derivatives.
  * - `sunStateAt` / `moonStateAt`: geocentric positions and velocities.
- * - `siteStateAt`: a ground site's position, velocity and acceleration in EME2000.
+ * - `siteStateAt`: a ground site's position, velocity and acceleration in EME2000;
+ *   `earthFixedDirectionAt`: an Earth-fixed direction (e.g. a site's local up) and its rate.
  * Times outside [startS, endS] give NaN (no extrapolation).
  */
 import type { Vec3 } from '../math/mat3';
@@ -260,6 +261,37 @@ export function siteStateAt(outR: Vec3, outV: Vec3 | null, outA: Vec3 | null, ep
     outA[0] = -w2 * (f[0]! * x + f[3]! * y);
     outA[1] = -w2 * (f[1]! * x + f[4]! * y);
     outA[2] = -w2 * (f[2]! * x + f[5]! * y);
+  }
+  return true;
+}
+
+/**
+ * An Earth-fixed direction (e.g. a site's geodetic up) in EME2000 at plan time t, and its rate
+ * (ω⊕ ẑ × u in TEME, then M; may be null), with the same θ and M as siteStateAt.
+ */
+export function earthFixedDirectionAt(out: Vec3, outRate: Vec3 | null, eph: Ephemeris, dirEcef: ArrayLike<number>, t: number): boolean {
+  const k = orbitCell(eph, t);
+  if (k < 0) {
+    nanFill(out, outRate);
+    return false;
+  }
+  const o = k * ORBIT_STRIDE + 9;
+  const s = (t - eph.startS) / eph.orbitStepS - k;
+  const theta = eph.orbit[o]! + s * (eph.orbit[o + ORBIT_STRIDE]! - eph.orbit[o]!);
+  const c = Math.cos(theta),
+    sn = Math.sin(theta);
+  const x = c * dirEcef[0]! - sn * dirEcef[1]!,
+    y = sn * dirEcef[0]! + c * dirEcef[1]!,
+    z = dirEcef[2]!;
+  const f = frameMatrixAt(frame, eph, t);
+  out[0] = f[0]! * x + f[3]! * y + f[6]! * z;
+  out[1] = f[1]! * x + f[4]! * y + f[7]! * z;
+  out[2] = f[2]! * x + f[5]! * y + f[8]! * z;
+  if (outRate) {
+    const w = EARTH_ROTATION_RATE_RAD_S;
+    outRate[0] = w * (-f[0]! * y + f[3]! * x);
+    outRate[1] = w * (-f[1]! * y + f[4]! * x);
+    outRate[2] = w * (-f[2]! * y + f[5]! * x);
   }
   return true;
 }
