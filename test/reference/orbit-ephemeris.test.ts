@@ -21,7 +21,8 @@ import { moonPositionEme2000, sunPositionEme2000, conicalShadow, createShadowInf
 import { makeSite, siteEme2000 } from '../../app/engine/orbit/sites';
 import { makeRng } from '../../app/engine/math/prng';
 import { RAD_PER_DEG } from '../../app/engine/units';
-import { DEMO_TLE_SSO, VALLADO_00005 } from './orbit-fixtures';
+import { DEMO_TLE_LEO, DEMO_TLE_SSO, VALLADO_00005, editColumns } from './orbit-fixtures';
+import { parseUtcIso, utcLabelFromTai } from '../../app/engine/time';
 
 function orbitOf(text: string): Sgp4Orbit {
   const o = orbitFromTle(text);
@@ -189,5 +190,27 @@ describe('ephemeris samples and sites', () => {
     expect(!bad.ok && bad.errors.map((e) => e.rule)).toEqual(['span', 'positive']);
     const far = buildEphemeris(orbit, orbit.epochTaiS, 20 * 86400, 20 * 86400 + 600);
     expect(far.ok && far.warnings.map((w) => w.rule)).toEqual(['far-from-epoch']);
+  });
+});
+
+describe('ephemeris across the 2016-12-31 leap second', () => {
+  it('the spacecraft moves continuously through 23:59:60 (elapsed-time SGP4; Bulletin C 52 leap second)', () => {
+    const [l1, l2] = DEMO_TLE_LEO.split('\n') as [string, string];
+    const o2 = orbitFromTle(`${editColumns(l1, 19, 32, '16366.50000000')}\n${l2}`); // invented, epoch 2016-12-31T12:00Z
+    const ep = parseUtcIso('2016-12-31T23:50:00Z');
+    if (!o2.ok || !ep.ok) throw new Error('fixture');
+    const e = buildEphemeris(o2.value, ep.value.taiS, 0, 1200);
+    if (!e.ok) throw new Error('ephemeris');
+    expect(utcLabelFromTai(ep.value.taiS + 600.5, 1)).toBe('2016-12-31T23:59:60.5');
+    const ra = new Float64Array(3),
+      rb = new Float64Array(3),
+      vm = new Float64Array(3);
+    for (const t of [598, 599.5, 600, 600.5, 601, 602]) {
+      orbitStateAt(ra, null, null, null, e.value, t - 0.25);
+      orbitStateAt(rb, null, null, null, e.value, t + 0.25);
+      orbitStateAt(null, vm, null, null, e.value, t);
+      // Half a second of motion: |Δr| = |v|·0.5 s to 1 mm (no one-second jump of ~7.6 km).
+      expect(Math.abs(dist(ra, rb) - 0.5 * Math.hypot(vm[0]!, vm[1]!, vm[2]!))).toBeLessThan(1e-3);
+    }
   });
 });

@@ -8,7 +8,7 @@
  *   a TLE to satellite.js twoline2satrec directly (npm reference library).
  */
 import { describe, expect, it } from 'vitest';
-import { sgp4, twoline2satrec } from 'satellite.js';
+import { propagate, sgp4, twoline2satrec } from 'satellite.js';
 import { orbitFromTle } from '../../app/engine/orbit/tle';
 import { orbitFromElements } from '../../app/engine/orbit/elements';
 import {
@@ -18,7 +18,7 @@ import {
   sgp4Teme,
 } from '../../app/engine/orbit/propagate';
 import { parseUtcIso } from '../../app/engine/time';
-import { DEMO_TLE_SSO, VALLADO_00005 } from './orbit-fixtures';
+import { DEMO_TLE_LEO, DEMO_TLE_SSO, VALLADO_00005, editColumns } from './orbit-fixtures';
 
 const r = new Float64Array(3),
   v = new Float64Array(3);
@@ -142,5 +142,26 @@ describe('mean elements → SGP4', () => {
     expect(fine.ok && fine.warnings.map((w) => w.rule)).toEqual(['epoch-rounded']);
     const leap = orbitFromElements({ ...base, meanMotionRevPerDay: 15.2, epochUtcIso: '2016-12-31T23:59:60.5Z' });
     expect(!leap.ok && leap.errors.map((e) => e.rule)).toEqual(['leap-second']);
+  });
+});
+
+describe('SGP4 time argument across a leap second', () => {
+  it('counts elapsed SI seconds: 20 s after 2016-12-31T23:59:50Z is satellite.js propagate() at 00:00:10 UTC', () => {
+    // Invented element set with epoch 2016 day 366.5 (2016-12-31T12:00Z).
+    const [l1, l2] = DEMO_TLE_LEO.split('\n') as [string, string];
+    const o = orbitFromTle(`${editColumns(l1, 19, 32, '16366.50000000')}\n${l2}`);
+    if (!o.ok) throw new Error(JSON.stringify(o.errors));
+    const ep = parseUtcIso('2016-12-31T23:59:50Z');
+    if (!ep.ok) throw new Error('epoch');
+    expect(sgp4Teme(r, v, o.value, ep.value.taiS + 20)).toBe(0);
+    // The plan label of t = 20 s is 2017-01-01T00:00:09 (23:59:60 was counted). satellite.js's
+    // Date-based propagate counts UTC days without leap seconds, so the same physical instant is
+    // its 00:00:10 (elapsed time since the element epoch 12 h earlier includes the leap second).
+    // (propagate differences double Julian dates, ~40 µs resolution ≈ 0.3 m of motion: 1 m bound.)
+    const pv = propagate(o.value.satrec, new Date(Date.UTC(2017, 0, 1, 0, 0, 10)))!;
+    expect(Math.abs(r[0]! - pv.position.x * 1000)).toBeLessThan(1);
+    expect(Math.abs(r[1]! - pv.position.y * 1000)).toBeLessThan(1);
+    const pv9 = propagate(o.value.satrec, new Date(Date.UTC(2017, 0, 1, 0, 0, 9)))!;
+    expect(Math.abs(r[0]! - pv9.position.x * 1000)).toBeGreaterThan(100); // one second of motion ≈ 7.6 km
   });
 });

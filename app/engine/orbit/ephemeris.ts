@@ -23,6 +23,11 @@
  * central-difference node slopes (Catmull–Rom); θ and M are linear between nodes (θ is linear in
  * time up to 1e-13 rad over a node interval; M turns by ~1e-9 rad per body interval).
  * Plan time t counts elapsed SI seconds from the plan epoch: taiS = epochTaiS + t (time/scales.ts).
+ * The spacecraft state is continuous through a leap second (SGP4 runs on elapsed time). θ follows
+ * UT1 taken as UTC, which is held during the inserted second: the node interval containing it holds
+ * one second less of Earth rotation, so inside that interval alone a site's interpolated position
+ * and its analytic velocity (ω⊕ × r) disagree by ~1/30 of the rotation speed (30 s nodes).
+ * Both stay within the stated UT1 error (< 1 s of Earth rotation).
  */
 import { fail, issue, ok, type Issue, type Result } from '../errors';
 import { checkPropagationSpan, sgp4ErrorText, sgp4Teme, type Sgp4Orbit } from './propagate';

@@ -11,7 +11,8 @@
  *   (as POSIX time and Julian dates of UTC count): u = taiS − (TAI − UTC). During an inserted
  *   leap second u is held at the following 0 h (the day count has no room for 23:59:60).
  * - UT1 IS TAKEN AS UTC: UT1 ≈ u. UTC is kept within |UT1 − UTC| < 0.9 s (ITU-R TF.460), so
- *   this is the error bound of every Earth-rotation quantity: Greenwich sidereal time (GMST,
+ *   this is the error bound of every Earth-rotation quantity (inside an inserted leap second, where
+ *   u is held, the error stays below 1 s): Greenwich sidereal time (GMST,
  *   satellite.js gstime) and therefore Earth-fixed ↔ inertial conversions (ground-site
  *   positions in EME2000 and Earth-fixed spacecraft positions err by ≤ 0.9 s of Earth rotation,
  *   ≤ 0.42 km at the equator, i.e. up to about 0.02° in azimuth/elevation of a spacecraft 1000 km
