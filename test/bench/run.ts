@@ -13,6 +13,7 @@ const benches: Bench[] = [
   { file: './pipeline.ts', fn: 'benchPipeline', title: 'Scenario pipeline (plan + closed-loop runs)' },
   { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
   { file: './study.ts', fn: 'benchStudy', title: 'Robustness study in worker threads' },
+  { file: './campaign.ts', fn: 'benchCampaign', title: 'Campaign statistics: add, and merge 1,000 shard files' },
   { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
 ];
 
