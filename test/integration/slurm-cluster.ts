@@ -38,6 +38,7 @@ import {
   writeFileSync,
   chownSync,
   chmodSync,
+  rmdirSync,
 } from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
@@ -237,6 +238,11 @@ async function stopRecord(r: ClusterRecord, keepDir: boolean): Promise<void> {
   if (r.pids.munged) await stopPid(r.pids.munged, (c) => c.includes('munged') && mentions(c));
   rmSync(path.join(REGISTRY, `${r.id}.json`), { force: true });
   if (!keepDir) rmSync(r.dir, { recursive: true, force: true });
+  try {
+    rmdirSync(REGISTRY); // only when no other cluster is recorded
+  } catch {
+    /* not empty, or gone */
+  }
 }
 
 /**
