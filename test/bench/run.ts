@@ -14,6 +14,7 @@ const benches: Bench[] = [
   { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
   { file: './study.ts', fn: 'benchStudy', title: 'Robustness study in worker threads' },
   { file: './orbit.ts', fn: 'benchOrbit', title: 'Orbit: one day of ephemeris, windows, per-sample evaluation' },
+  { file: './campaign.ts', fn: 'benchCampaign', title: 'Campaign statistics: add, and merge 1,000 shard files' },
   { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
 ];
 
