@@ -27,6 +27,12 @@ export type ControllerKind = 'quaternion-pd' | 'sign-switch' | 'eigenaxis' | 'hy
 
 export const CONTROLLER_KINDS: readonly ControllerKind[] = ['quaternion-pd', 'sign-switch', 'eigenaxis', 'hysteretic', 'synergistic'];
 
+/**
+ * Pointing-only (reduced-attitude) laws of control/sphere/: one body axis on one inertial
+ * direction, roll free. Not in CONTROLLER_KINDS (the scenario schema does not offer them yet).
+ */
+export type ReducedControllerKind = 'reduced-pd' | 'reduced-synergistic';
+
 /** What the controller knows of the plant. */
 export interface PlantModel {
   /** J⊥ = J_tot − G J_s Gᵀ, kg·m² (methods §6), column-major 3×3. */
@@ -67,7 +73,7 @@ export interface ControlDiagnostics {
 }
 
 export interface AttitudeController {
-  readonly kind: ControllerKind;
+  readonly kind: ControllerKind | ReducedControllerKind;
   readonly label: string;
   /**
    * The drop of W that theory guarantees at each jump: 4k_pδ (hysteretic), k_Rδ (synergistic),
