@@ -13,8 +13,9 @@
  * ⊥ b, k = 0.5, certified δ* = 1.5 sin²θ* = 0.8249 (sphere-certificate.test.ts); δ = 0.4. Gains
  * from ω_n = 1 rad/s, ζ = 0.9.
  * Starts at rest: 1000 directions uniform on S² (normalised Gaussian, seeded) with a uniform
- * random roll about b, plus every undesired critical point y_q* of every member with the logic
- * set to that member (an equilibrium of the flow: only the jump gets it out).
+ * random roll about b — half with the logic at the argmin, half at a fixed member, so that some
+ * runs must jump — plus every undesired critical point y_q* of every member with the logic set
+ * to that member (an equilibrium of the flow: only the jump gets it out).
  * Runs: up to 40 s, stopped once the pointing error stays under the settle angle for 2 s.
  *  (a) ideal continuous mode, no noise: every run settles (< 0.5°) before 40 s; the Lyapunov
  *      monitor flags no rise of W on a flow and no jump short of k_p δ; critical starts jump at
@@ -67,7 +68,8 @@ const starts: { y0: V3; q: number[]; ctrl: ReducedSynergistic; critical: number 
   const rng = makeRng(20250602, 0);
   for (let i = 0; i < 1000; i++) {
     const y0 = uniformDirection(rng);
-    starts.push({ y0, q: attitudeSeeing(y0, b, 2 * Math.PI * rng.next()), ctrl: auto, critical: 0 });
+    // half start at the argmin member, half at a fixed member (which may have to jump at once)
+    starts.push({ y0, q: attitudeSeeing(y0, b, 2 * Math.PI * rng.next()), ctrl: i % 2 ? auto : byMember[(i / 2) % 3]!, critical: 0 });
   }
   for (const p of critical)
     starts.push({ y0: p.direction, q: attitudeSeeing(p.direction, b, 0.3 * p.member), ctrl: byMember[p.member - 1]!, critical: p.member });
@@ -131,7 +133,8 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
 
   it('(a) ideal continuous mode, no noise: every run settles; W never rises on a flow; every jump drops W by ≥ k_p δ', () => {
     let flags = 0,
-      longest = 0;
+      longest = 0,
+      jumps = 0;
     const res: { err: number }[] = [];
     for (const s of starts) {
       const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common });
@@ -140,6 +143,7 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
       res.push({ err: tr.errorAngle[tr.n - 1]! });
       longest = Math.max(longest, tr.t[tr.n - 1]!);
       flags += lyapunovMonitor(tr, r.jumps, { jumpDecrease: s.ctrl.jumpDecrease, relTol: 1e-6, absTol: 1e-12 }).length;
+      jumps += r.jumps.length;
       if (s.critical) {
         const cp = critical.find((p) => p.member === s.critical)!;
         expect(tr.errorAngle[0]! * DEG_PER_RAD).toBeCloseTo(cp.pointingAngleRad * DEG_PER_RAD, 6);
@@ -152,6 +156,7 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
     expect(finalErrorsDeg(res)).toBeLessThan(0.5);
     expect(longest).toBeLessThan(40);
     expect(flags).toBe(0);
+    expect(jumps).toBeGreaterThan(critical.length + 100); // the fixed-logic starts do exercise the jump map (176 here)
   });
 
   it('(b) ideal continuous mode with bounded random noise (2 mrad): every run ends within 1°', () => {
