@@ -28,6 +28,12 @@ import type { LawId } from './params';
 /** How a law's logic value reads: none (0), a sign h ∈ {−1, 1}, or a member index q ∈ {1..M}. */
 export type LogicKind = 'none' | 'sign' | 'index';
 
+/**
+ * Pointing-only (reduced-attitude) laws of control/sphere/: one body axis on one inertial
+ * direction, roll free.
+ */
+export type ReducedControllerKind = 'reduced-pd' | 'reduced-synergistic';
+
 /** What the controller knows of the plant. */
 export interface PlantModel {
   /** J⊥ = J_tot − G J_s Gᵀ, kg·m² (methods §6), column-major 3×3. */
@@ -74,7 +80,7 @@ export interface ControlDiagnostics {
 }
 
 export interface AttitudeController {
-  readonly kind: LawId;
+  readonly kind: LawId | ReducedControllerKind;
   readonly label: string;
   /**
    * The drop of W that theory guarantees at each jump: 4k_pδ (hysteretic), k_Rδ (synergistic),
