@@ -8,7 +8,7 @@ const KD = 0.0216;
 export function testVehicleScenario(study: Record<string, unknown>): Record<string, unknown> {
   return {
     format: 'slewsmith-scenario',
-    version: 1,
+    version: 2,
     name: 'Study test vehicle',
     description: 'Invented test vehicle for the robustness-study checks.',
     epochUtc: '2030-01-01T00:00:00Z',
@@ -38,7 +38,7 @@ export function testVehicleScenario(study: Record<string, unknown>): Record<stri
         // The certified family of methods §4.3 scaled by c = 1/8: A = c·diag(1, 2, 3), k = 0.15/c, δ = 0.2c.
         potentialWeights: [0.125, 0.25, 0.375],
         warpGain: 1.2,
-        hysteresis: 0.025,
+        gapThreshold: 0.025,
       },
     ],
     planning: { torqueMargin: 0.9, momentumMargin: 0.9, slewRateLimitDegPerS: 5, profile: 'bang-coast-bang' },
