@@ -103,7 +103,7 @@ export function sourceAtInterval(out: Float64Array, o: number, src: PreparedSour
 }
 
 /** Arc angle below which sin and cos come from their Taylor series (rad). */
-const SMALL_ARC = 0.25;
+export const SMALL_ARC = 0.25;
 
 /** Source direction at time t into out (unit); returns the angular radius at t (rad). */
 export function sourceAt(out: Float64Array, src: PreparedSource, t: number): number {
