@@ -125,6 +125,7 @@ describe('shortest boresight path around one keep-out cone', () => {
       inertia: J,
       wheelMomentumBody: [0, 0, 0],
       constraints: [sun],
+      search: 'axis' as const,
       ...(gridLevel !== undefined ? { gridLevel } : {}),
     });
     it(`d = ${dDeg}°, ρ = ${rhoDeg}°: L = ${stated}° (formula), path never shorter and within 1 % at the default grid`, () => {

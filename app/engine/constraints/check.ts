@@ -18,12 +18,13 @@
 import { fail, IssueList, ok, type Issue, type Result } from '../errors';
 import { fillFixed, rotateBlock, sourceBlock } from './blocks';
 import { finishTrack, makeTrack, scanBlock, startTrack } from './scan';
+import { canSkip, coarseMinimum, rotationBoundPrefix, sourceRateBound } from './skip';
 import type { AttitudeConstraint, AttitudeHistory, HistoryCheck, PreparedConstraint } from './types';
 import { prepareConstraints } from './validate';
 import { readHistory } from './history';
 
 /** Samples per block of the check. */
-export const BLOCK = 1024;
+export const BLOCK = 256;
 
 export interface CheckOptions {
   /** Also return the margin series of each constraint (one acos per sample and constraint). */
@@ -111,18 +112,34 @@ export function checkPreparedHistory(
       sources.set(c.sourceIndex, { src: c.source, dir: new Float64Array(3 * BLOCK), rad: new Float64Array(BLOCK), j: 0 });
   }
   for (const s of sources.values()) if (s.src.timesS.length < 2) fillFixed(s.dir, s.rad, s.src);
-  for (const tr of tracks) startTrack(tr, t, q);
+  const phi = rotationBoundPrefix(q, n);
+  for (const tr of tracks) {
+    startTrack(tr, t, q);
+    tr.rate = sourceRateBound(tr.c.source);
+    tr.knownMin = coarseMinimum(tr, t, q);
+  }
+  const skip = new Uint8Array(tracks.length),
+    axisNeeded = new Uint8Array(axes.length);
   for (let b0 = 0; b0 < n; b0 += BLOCK) {
     const b1 = Math.min(n, b0 + BLOCK);
     let needed = false;
-    for (const tr of tracks) if (tr.i0 < b1 && tr.i1 > b0) needed = true;
+    axisNeeded.fill(0);
+    tracks.forEach((tr, k) => {
+      skip[k] = canSkip(tr, phi, t, q, b0, b1) ? 1 : 0;
+      if (!skip[k]) needed = true;
+      if (!skip[k]) axisNeeded[tr.axis] = 1;
+    });
     if (!needed) continue;
-    axes.forEach((ax, k) => rotateBlock(axisBuf[k]!, q, b0, b1, ax));
-    for (const s of sources.values()) if (s.src.timesS.length >= 2) s.j = sourceBlock(s.dir, s.rad, s.src, t, b0, b1, s.j);
-    for (const tr of tracks) {
+    rotateBlock(axisBuf, q, b0, b1, axes, axisNeeded);
+    for (const [index, s] of sources) {
+      if (s.src.timesS.length < 2 || tracks.every((tr, k) => skip[k] || tr.c.sourceIndex !== index)) continue;
+      s.j = sourceBlock(s.dir, s.rad, s.src, t, b0, b1, s.j);
+    }
+    tracks.forEach((tr, k) => {
+      if (skip[k]) return;
       const s = sources.get(tr.c.sourceIndex)!;
       scanBlock(tr, axisBuf[tr.axis]!, s.dir, s.rad, t, q, b0, b1);
-    }
+    });
   }
   const results = tracks.map((tr) => finishTrack(tr, t, q));
   let minimum = NaN;

@@ -118,3 +118,23 @@ export function shortestArc(out: Float64Array, a: ArrayLike<number>, b: ArrayLik
   out[3] = w / n;
   return out;
 }
+
+/**
+ * Greedy shortening of a chain of attitudes: from each kept attitude, jump to the farthest later
+ * one whose eigenaxis rotation keeps every cone clear (consecutive ones are clear by assumption).
+ */
+export function shortcutChain(
+  chain: readonly Float64Array[],
+  axes: readonly Float64Array[],
+  cones: readonly PlanningCone[],
+): Float64Array[] {
+  const out = [chain[0]!];
+  let i = 0;
+  while (i < chain.length - 1) {
+    let j = chain.length - 1;
+    while (j > i + 1 && !rotationEdgeClear(chain[i]!, chain[j]!, axes, cones)) j--;
+    out.push(chain[j]!);
+    i = j;
+  }
+  return out;
+}

@@ -3,9 +3,10 @@
  * level times, with every new vertex pushed out to the sphere (class I geodesic polyhedron of
  * frequency 2^level: V = 10·4^L + 2 vertices, E = 30·4^L edges, F = 20·4^L faces).
  *
- * Spacing (edge angles, measured by gridSpacing): level 3 ≈ 7.9°, 4 ≈ 4.0°, 5 ≈ 2.0°, 6 ≈ 1.0°
- * on average (63.4° / 2^L), the longest edges about 1.2 × the mean.
- * DEFAULT_GRID_LEVEL = 5 (10,242 nodes, mean spacing ≈ 2°) is the single-axis planner's default.
+ * Spacing (mean edge angle, measured on the built grids; the grid reports min, mean and max):
+ * level 2 ≈ 17.2°, 3 ≈ 8.6°, 4 ≈ 4.3°, 5 ≈ 2.16°, 6 ≈ 1.08° — about 69° / 2^L (level 0 is the
+ * icosahedron's 63.4°; subdivided edges near its vertices come out shorter, near face centres longer).
+ * DEFAULT_GRID_LEVEL = 5 (10,242 nodes, mean spacing ≈ 2.2°) is the single-axis planner's default.
  *
  * Grids are built once per level and kept (a pure cache); the arrays must not be modified.
  */

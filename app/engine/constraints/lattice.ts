@@ -22,7 +22,7 @@
  */
 import { qMultiply } from '../math/rotation';
 import type { PlanningCone } from './cone';
-import { rotationAngle, rotationEdgeClear, rotateInto, shortestArc } from './edge';
+import { rotationAngle, rotationEdgeClear, rotateInto, shortcutChain, shortestArc } from './edge';
 import { type GeodesicGrid, nodesWithin } from './geodesic';
 import { MinHeap } from './heap';
 
@@ -113,7 +113,7 @@ export function searchLattice(p: LatticeProblem): LatticeResult {
   const chain: Float64Array[] = [];
   for (let v = G; v >= 0; v = parent[v]!) chain.push(attitude(new Float64Array(4), v));
   chain.reverse();
-  return { found: true, attitudes: shortcut(chain, axes, cones), expanded };
+  return { found: true, attitudes: shortcutChain(chain, axes, cones), expanded };
 }
 
 /** Q_i = shortestArc(u0 → d_i) ⊗ q0 for every grid node, 4 numbers each. */
@@ -137,17 +137,4 @@ function rollOffset(grid: GeodesicGrid, frames: Float64Array, b: Float64Array, i
   const conj = Float64Array.of(-qj[0]!, -qj[1]!, -qj[2]!, qj[3]!);
   const pq = qMultiply(new Float64Array(4), conj, moved);
   return 2 * Math.atan2(pq[0]! * b[0]! + pq[1]! * b[1]! + pq[2]! * b[2]!, pq[3]!);
-}
-
-/** Greedy shortening of a chain of attitudes with clear eigenaxis rotations. */
-function shortcut(chain: Float64Array[], axes: readonly Float64Array[], cones: readonly PlanningCone[]): Float64Array[] {
-  const out = [chain[0]!];
-  let i = 0;
-  while (i < chain.length - 1) {
-    let j = chain.length - 1;
-    while (j > i + 1 && !rotationEdgeClear(chain[i]!, chain[j]!, axes, cones)) j--;
-    out.push(chain[j]!);
-    i = j;
-  }
-  return out;
 }

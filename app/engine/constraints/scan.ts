@@ -32,17 +32,31 @@ export interface Track {
   openEdgeMargin: number;
   intervals: ViolationInterval[];
   series: Float64Array | undefined;
+  /** Skipping (skip.ts): source rate bound (rad/s), coarse minimum, cached margin at bestI. */
+  rate: number;
+  knownMin: number;
+  bestMarginI: number;
+  bestMargin: number;
+}
+
+/** First index whose time passes the (monotone) test, or t.length; binary search. */
+function firstIndex(t: Float64Array, pass: (x: number) => boolean): number {
+  let lo = 0,
+    hi = t.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (pass(t[mid]!)) hi = mid;
+    else lo = mid + 1;
+  }
+  return lo;
 }
 
 export function makeTrack(c: PreparedConstraint, axis: number, t: Float64Array, series: boolean): Track {
   const n = t.length;
   const a = Math.max(c.windowStartS, t[0]!),
     b = Math.min(c.windowEndS, t[n - 1]!);
-  let i0 = 0;
-  while (i0 < n && t[i0]! < a) i0++;
-  let i1 = i0;
-  while (i1 < n && t[i1]! <= b) i1++;
-  if (!(a <= b)) i1 = i0;
+  const i0 = firstIndex(t, (x) => x >= a),
+    i1 = a <= b ? firstIndex(t, (x) => x > b) : i0;
   const sign = c.kind === 'keep-out' ? 1 : -1;
   // Threshold angles beyond π: a keep-out is then violated everywhere, a keep-in nowhere.
   const thr = thresholdAngle(c, c.source.radiusRad[0]!);
@@ -68,11 +82,15 @@ export function makeTrack(c: PreparedConstraint, axis: number, t: Float64Array, 
     openEdgeMargin: Infinity,
     intervals: [],
     series: series ? new Float64Array(n).fill(NaN) : undefined,
+    rate: 0,
+    knownMin: Infinity,
+    bestMarginI: -1,
+    bestMargin: Infinity,
   };
 }
 
 function marginAt(tr: Track, t: Float64Array, q: Float64Array, i: number): number {
-  return attitudeMargin(q.subarray(4 * i, 4 * i + 4), tr.c, t[i]!);
+  return attitudeMargin(q, tr.c, t[i]!, 4 * i);
 }
 
 /** Margin at time x between samples i−1 and i, interpolated linearly. */

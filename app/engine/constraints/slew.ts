@@ -10,11 +10,13 @@
  * 2. Start or target inside a cone (margin < 0, frozen directions): verdict, no search.
  * 3. The shortest eigenaxis slew clear of every cone (exact closed-form test): returned as the
  *    one leg, unchanged.
- * 4. Cones on one body axis: search that axis's path on the sphere (axisSearch.ts), legs along
- *    the arcs and a final roll about the axis (legs.ts); with no path at gridLevel the grid is
- *    refined level by level up to maxGridLevel before "no path at this resolution" is said. Cones on several axes: the same
- *    single-axis path is tried for the primary axis and kept only if every leg clears every cone
- *    on every axis; otherwise the (direction, roll) lattice search (lattice.ts).
+ * 4. Two searches (search: 'auto'), the faster-flying result kept:
+ *    - single axis: the primary axis's path on the sphere (axisSearch.ts), legs along its arcs and
+ *      a final roll about the axis (legs.ts), or that chain with legs merged where the exact test
+ *      allows; with no path at gridLevel the grid is refined up to maxGridLevel first. With cones
+ *      on other axes too it is kept only if every leg clears every cone on every axis;
+ *    - whole attitude: the (direction, roll) lattice (lattice.ts), every edge tested against every
+ *      cone on every axis.
  * 5. Legs timed by planCheckedSegment; the legs are sampled (no step turns the body more than
  *    CHECK_STEP, see checkStepRad) and checked by check.ts, giving minimumMarginRad.
  * Search cones carry a clearance of PLAN_CLEARANCE_RAD beyond their margin, so that rounding in
@@ -29,7 +31,7 @@ import { DEG_PER_RAD, RAD_PER_DEG } from '../units';
 import { searchAxisPath } from './axisSearch';
 import { checkPreparedHistory } from './check';
 import { makeCone, type PlanningCone } from './cone';
-import { MAX_AXES, rotationEdgeClear } from './edge';
+import { MAX_AXES, rotationEdgeClear, shortcutChain } from './edge';
 import { DEFAULT_GRID_LEVEL, geodesicGrid, MAX_GRID_LEVEL } from './geodesic';
 import { DEFAULT_LATTICE_LEVEL, DEFAULT_ROLL_BINS, searchLattice } from './lattice';
 import { axisDirection, axisTravel, chainFromWaypoints, pruneChain, sampleLegs, timeChain, type TimedLeg } from './legs';
@@ -65,8 +67,11 @@ export interface ConstrainedSlewInput {
   rollBins?: number;
   /** The lattice's primary axis (body, non-zero); default the axis of the first constraint in force. */
   primaryAxisBody?: ArrayLike<number>;
-  /** 'lattice' skips the single-axis attempt when cones sit on several axes. Default 'auto'. */
-  search?: 'auto' | 'lattice';
+  /**
+   * 'auto' (default): both searches, the faster-flying path kept; 'axis': the single-axis path
+   * only (legs along its arcs, then the roll); 'lattice': the whole-attitude lattice only.
+   */
+  search?: 'auto' | 'axis' | 'lattice';
 }
 
 export interface ConstrainedSlewPlan {
@@ -136,50 +141,73 @@ export function planConstrainedSlew(input: ConstrainedSlewInput, limits: PlanLim
       });
     }
   }
-  const level = input.gridLevel ?? DEFAULT_GRID_LEVEL;
-  let chain: Float64Array[] | null = null;
-  let search: ConstrainedSlewPlan['search'] = 'direct';
   const notes: string[] = [];
-  if (rotationEdgeClear(s.q0, s.q1, s.axes, s.cones)) chain = [s.q0, s.q1];
-  let usedLevel = level;
-  if (!chain && !(input.search === 'lattice' && s.axes.length > 1)) {
-    const b = s.axes[s.primary]!;
-    const mine = s.cones.filter((c) => c.axis === s.primary);
-    let r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level));
-    // No path at this level: refine the grid, up to maxGridLevel, before saying so.
-    const top = input.maxGridLevel ?? Math.min(MAX_GRID_LEVEL, level + 1);
-    while (!r.found && r.reason === 'no-path' && usedLevel < top) {
-      usedLevel++;
-      r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(usedLevel));
-    }
-    if (r.found) {
-      const c = chainFromWaypoints(s.q0, s.q1, r.waypoints);
-      if (chainClear(c, s)) {
-        chain = c;
-        search = 'axis';
-      } else notes.push('The single-axis path of the primary axis crosses a cone on another axis: whole-attitude lattice search used.');
-    } else if (s.axes.length === 1 || r.reason !== 'no-path') {
-      return ok(noPath('axis', usedLevel, r.expanded));
-    }
+  if (rotationEdgeClear(s.q0, s.q1, s.axes, s.cones))
+    return ok(finish(s, [s.q0, s.q1], 'direct', limits, input.gridLevel ?? DEFAULT_GRID_LEVEL, undefined, notes));
+  const mode = input.search ?? 'auto';
+  const axis = mode === 'lattice' ? null : axisCandidate(input, s, limits, notes);
+  if (axis && !axis.found && (mode === 'axis' || axis.verdict)) return ok(axis.verdict ?? noPath('axis', axis.level, axis.expanded));
+  const lattice = mode === 'axis' ? null : latticeCandidate(input, s);
+  const fromAxis = axis?.found ? axis : null;
+  if (!fromAxis && !lattice?.found) {
+    const l = lattice!;
+    return ok(noPath('lattice', l.level, l.expanded, l.rollBins));
   }
-  let rollBins: number | undefined;
-  if (!chain) {
-    usedLevel = input.latticeGridLevel ?? DEFAULT_LATTICE_LEVEL;
-    rollBins = input.rollBins ?? DEFAULT_ROLL_BINS;
-    const r = searchLattice({
-      q0: s.q0,
-      q1: s.q1,
-      axes: s.axes,
-      primary: s.primary,
-      cones: s.cones,
-      grid: geodesicGrid(usedLevel),
-      rollBins,
-    });
-    if (!r.found) return ok(noPath('lattice', usedLevel, r.expanded, rollBins));
-    chain = pruneChain(r.attitudes);
-    search = 'lattice';
+  // Both found: fly the faster (rest-to-rest legs pay a stop each).
+  if (fromAxis && lattice?.found) {
+    const ta = timeChain(fromAxis.chain, s.J, s.h0, limits),
+      tl = timeChain(lattice.chain, s.J, s.h0, limits);
+    if (tl.ok && (!ta.ok || tl.totalS < ta.totalS)) {
+      notes.push(
+        `The whole-attitude lattice path (${lattice.chain.length - 1} legs) flies faster than the single-axis path (${fromAxis.chain.length - 1} legs, ${ta.ok ? ta.totalS.toFixed(1) + ' s' : 'infeasible'}).`,
+      );
+      return ok(finish(s, lattice.chain, 'lattice', limits, lattice.level, lattice.rollBins, notes));
+    }
+    return ok(finish(s, fromAxis.chain, 'axis', limits, fromAxis.level, undefined, notes));
   }
-  return ok(finish(s, chain, search, limits, usedLevel, rollBins, notes));
+  if (fromAxis) return ok(finish(s, fromAxis.chain, 'axis', limits, fromAxis.level, undefined, notes));
+  const l = lattice as { chain: Float64Array[]; level: number; rollBins: number };
+  return ok(finish(s, l.chain, 'lattice', limits, l.level, l.rollBins, notes));
+}
+
+type AxisCandidate =
+  | { found: true; chain: Float64Array[]; level: number }
+  | { found: false; level: number; expanded: number; verdict?: ConstrainedSlewVerdict };
+
+/**
+ * The single-axis path of the primary axis (refining the grid up to maxGridLevel when it finds
+ * none), as an attitude chain kept only if every leg clears every cone on every axis. `verdict`
+ * is set when no other search can help (a blocked endpoint, or cones on one axis only).
+ */
+function axisCandidate(input: ConstrainedSlewInput, s: Setup, limits: PlanLimits, notes: string[]): AxisCandidate {
+  const b = s.axes[s.primary]!;
+  const mine = s.cones.filter((c) => c.axis === s.primary);
+  let level = input.gridLevel ?? DEFAULT_GRID_LEVEL;
+  let r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level));
+  const top = input.maxGridLevel ?? Math.min(MAX_GRID_LEVEL, level + 1);
+  while (!r.found && r.reason === 'no-path' && level < top) {
+    level++;
+    r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level));
+  }
+  if (!r.found) {
+    const final = s.axes.length === 1 || r.reason !== 'no-path';
+    return { found: false, level, expanded: r.expanded, ...(final ? { verdict: noPath('axis', level, r.expanded) } : {}) };
+  }
+  const c = chainFromWaypoints(s.q0, s.q1, r.waypoints);
+  if (!chainClear(c, s)) {
+    notes.push('The single-axis path of the primary axis crosses a cone on another axis.');
+    return { found: false, level, expanded: r.expanded };
+  }
+  return { found: true, chain: faster([c, shortcutChain(c, s.axes, s.cones)], s, limits, notes), level };
+}
+
+function latticeCandidate(input: ConstrainedSlewInput, s: Setup) {
+  const level = input.latticeGridLevel ?? DEFAULT_LATTICE_LEVEL;
+  const rollBins = input.rollBins ?? DEFAULT_ROLL_BINS;
+  const r = searchLattice({ q0: s.q0, q1: s.q1, axes: s.axes, primary: s.primary, cones: s.cones, grid: geodesicGrid(level), rollBins });
+  return r.found
+    ? { found: true as const, chain: pruneChain(r.attitudes), level, rollBins }
+    : { found: false as const, level, rollBins, expanded: r.expanded };
 }
 
 function noPath(search: 'axis' | 'lattice', level: number, expanded: number, rollBins?: number): ConstrainedSlewVerdict {
@@ -198,6 +226,26 @@ function noPath(search: 'axis' | 'lattice', level: number, expanded: number, rol
 /** The constraint with its window opened to the whole slew (constraints in force throughout). */
 function openWindow(c: PreparedConstraint): PreparedConstraint {
   return { ...c, windowStartS: -Infinity, windowEndS: Infinity };
+}
+
+/**
+ * The faster of the waypoint chain (arcs, then the roll about b) and its shortcut (legs merged
+ * where the exact test allows, e.g. the roll folded into the last arc): rest-to-rest legs pay a
+ * stop each, so fewer legs usually fly faster even when the axis travels a little further.
+ */
+function faster(chains: Float64Array[][], s: Setup, limits: PlanLimits, notes: string[]): Float64Array[] {
+  const arc = chains[0]!,
+    cut = chains[1]!;
+  if (cut.length >= arc.length) return arc;
+  const ta = timeChain(arc, s.J, s.h0, limits),
+    tc = timeChain(cut, s.J, s.h0, limits);
+  if (tc.ok && (!ta.ok || tc.totalS < ta.totalS)) {
+    notes.push(
+      `Legs merged where every cone stays clear: ${cut.length - 1} legs instead of ${arc.length - 1} (arcs and a final roll), faster to fly.`,
+    );
+    return cut;
+  }
+  return arc;
 }
 
 function chainClear(chain: readonly Float64Array[], s: Setup): boolean {
@@ -281,8 +329,9 @@ function readInput(input: ConstrainedSlewInput, limits: PlanLimits): Result<Setu
   intOption(list, 'maxGridLevel', input?.maxGridLevel, input?.gridLevel ?? DEFAULT_GRID_LEVEL, MAX_GRID_LEVEL);
   intOption(list, 'latticeGridLevel', input?.latticeGridLevel, 0, 5);
   intOption(list, 'rollBins', input?.rollBins, 4, 360);
-  if (input?.search !== undefined && input.search !== 'auto' && input.search !== 'lattice')
-    list.add('search', 'enum', "search must be 'auto' or 'lattice'");
+  if (input?.search !== undefined && !['auto', 'axis', 'lattice'].includes(input.search)) {
+    list.add('search', 'enum', "search must be 'auto', 'axis' or 'lattice'");
+  }
   let primaryAxis: Float64Array | null = null;
   if (input?.primaryAxisBody !== undefined) {
     const v = readVec3(list, 'primaryAxisBody', input.primaryAxisBody);

@@ -135,15 +135,15 @@ export function marginFromAngle(c: PreparedConstraint, angleRad: number, radiusR
 const sDir = new Float64Array(3);
 
 /**
- * Exact margin (rad) of attitude q (qInertialFromBody, normalised here) against constraint c at
- * time t; windows are NOT applied here. A zero quaternion gives NaN.
+ * Exact margin (rad) of attitude q[offset..offset+3] (qInertialFromBody, normalised here) against
+ * constraint c at time t; windows are NOT applied here. A zero quaternion gives NaN.
  */
-export function attitudeMargin(q: ArrayLike<number>, c: PreparedConstraint, t: number): number {
+export function attitudeMargin(q: ArrayLike<number>, c: PreparedConstraint, t: number, offset = 0): number {
   const r = sourceAt(sDir, c.source, t);
-  const x = q[0]!,
-    y = q[1]!,
-    z = q[2]!,
-    w = q[3]!;
+  const x = q[offset]!,
+    y = q[offset + 1]!,
+    z = q[offset + 2]!,
+    w = q[offset + 3]!;
   const n2 = x * x + y * y + z * z + w * w;
   const b = c.axisBody;
   // v = R(q) b for q of any non-zero norm: R = I + (2/|q|²)(w [q_v]× + [q_v]×²).
