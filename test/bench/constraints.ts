@@ -187,7 +187,7 @@ function benchSlew(multiAxis: boolean): void {
       ? `${v.search} search, ${v.legs.length} legs, ${v.totalTimeS.toFixed(1)} s vs ${v.unconstrainedTimeS.toFixed(1)} s unconstrained, min margin ${(v.minimumMarginRad / D).toFixed(3)} deg`
       : JSON.stringify(v && v.status);
   console.log(
-    `   constrained slew, ${multiAxis ? 'three tracker cones + a camera cone on a second axis (lattice)' : 'three tracker cones, default grid'}: min ${s.min.toFixed(1)} ms, median ${s.median.toFixed(1)} ms${multiAxis ? '' : ' (goal <= 100 ms)'}; first call ${cold.toFixed(0)} ms incl. grid build; ${what}`,
+    `   constrained slew, ${multiAxis ? 'three tracker cones + a camera cone on a second axis (lattice)' : 'three tracker cones, default grid'}: min ${s.min.toFixed(1)} ms, median ${s.median.toFixed(1)} ms${multiAxis ? '' : ' (goal <= 100 ms)'}; first call ${cold.toFixed(0)} ms (builds any grid not yet cached); ${what}`,
   );
 }
 
