@@ -280,6 +280,43 @@ describe('verdicts', () => {
     expect(r.ok && r.value.status).toBe('endpoint-violation');
     expect(r.ok && r.value.status === 'endpoint-violation' && r.value.which).toBe('target');
   });
+  it('freezes moving directions at the slew start for the search; the final check uses them moving', () => {
+    // A Sun moving along the equator from azimuth 90° at −4°/s (invented, sampled every 5 s): at
+    // t = 0 it is 30° from the nearest point of the direct slew's path (azimuths −60° … 60°), so
+    // the frozen search keeps the direct slew, but by mid-slew it sits on the path (hand geometry).
+    const times: number[] = [],
+      dirs: number[] = [];
+    for (let k = 0; k <= 40; k++) {
+      times.push(5 * k);
+      dirs.push(Math.cos((90 - 20 * k) * D), Math.sin((90 - 20 * k) * D), 0);
+    }
+    const p = planned(
+      planConstrainedSlew(
+        {
+          qStart: boresightAt(-60 * D),
+          qTarget: boresightAt(60 * D),
+          inertia: J,
+          wheelMomentumBody: [0, 0, 0],
+          constraints: [
+            {
+              name: 'moving Sun',
+              kind: 'keep-out',
+              bodyAxis: [0, 0, 1],
+              halfAngleRad: 20 * D,
+              marginRad: 0,
+              source: { kind: 'sampled', timesS: times, directions: dirs, interpolation: 'great-circle' },
+            },
+          ],
+        },
+        limits,
+      ),
+    );
+    expect(p.search).toBe('direct');
+    expect(p.frozenAtS).toBe(0);
+    expect(p.check.clear).toBe(false);
+    expect(p.minimumMarginRad).toBeLessThan(0);
+    expect(p.notes.join(' ')).toContain('moving directions');
+  });
   it('lists bad options with the other input errors', () => {
     const r = planConstrainedSlew(
       {

@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { prepareConstraints, targetKeepInViolations } from '../../app/engine/constraints/validate';
+import { checkAttitudeHistory } from '../../app/engine/constraints/check';
 import type { AttitudeConstraint } from '../../app/engine/constraints/types';
 
 const D = Math.PI / 180;
@@ -98,5 +99,20 @@ describe('targetKeepInViolations', () => {
     expect(issues.map((i) => i.rule)).toEqual(['keep-in-violated']);
     expect(issues[0]!.message).toContain('antenna');
     expect(issues[0]!.message).toContain('70.000°');
+  });
+});
+
+describe('history validation', () => {
+  it('reports times that do not increase, zero quaternions and a wrong length, with the constraint issues', () => {
+    const r = checkAttitudeHistory({ timesS: [0, 1, 1], qInertialFromBody: [0, 0, 0, 1, 0, 0, 0, 0, 0, 0, 0, 1] }, [
+      { ...good(), marginRad: -1 },
+    ]);
+    expect(r.ok ? [] : r.errors.map((e) => `${e.path}:${e.rule}`)).toEqual([
+      'history.qInertialFromBody[1]:quaternion',
+      'history.timesS[2]:increasing',
+      'constraints[0].marginRad:non-negative',
+    ]);
+    const short = checkAttitudeHistory({ timesS: [0, 1], qInertialFromBody: [0, 0, 0, 1] }, [good()]);
+    expect(short.ok ? [] : short.errors.map((e) => e.rule)).toEqual(['length']);
   });
 });
