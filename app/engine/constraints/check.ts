@@ -18,7 +18,7 @@
 import { fail, IssueList, ok, type Issue, type Result } from '../errors';
 import { fillFixed, rotateBlock, sourceBlock } from './blocks';
 import { finishTrack, makeTrack, scanBlock, startTrack } from './scan';
-import { canSkip, coarseMinimum, rotationBoundPrefix, sourceRateBound } from './skip';
+import { blockRotationBounds, canSkip, coarseMinimum, sourceRateBound } from './skip';
 import type { AttitudeConstraint, AttitudeHistory, HistoryCheck, PreparedConstraint } from './types';
 import { prepareConstraints } from './validate';
 import { readHistory } from './history';
@@ -106,40 +106,47 @@ export function checkPreparedHistory(
   const axes: Float64Array[] = [];
   const tracks = cs.map((c) => makeTrack(c, axisIndex(axes, c.axisBody), t, options.series === true));
   const axisBuf = axes.map(() => new Float64Array(3 * BLOCK));
-  const sources = new Map<number, { src: PreparedConstraint['source']; dir: Float64Array; rad: Float64Array; j: number }>();
-  for (const c of cs) {
-    if (!sources.has(c.sourceIndex))
-      sources.set(c.sourceIndex, { src: c.source, dir: new Float64Array(3 * BLOCK), rad: new Float64Array(BLOCK), j: 0 });
-  }
-  for (const s of sources.values()) if (s.src.timesS.length < 2) fillFixed(s.dir, s.rad, s.src);
-  const phi = rotationBoundPrefix(q, n);
+  // Distinct sources, indexed by sourceIndex (0 … m−1 by construction in prepareConstraints).
+  const m = cs.reduce((a, c) => Math.max(a, c.sourceIndex + 1), 0);
+  const src: (PreparedConstraint['source'] | undefined)[] = new Array(m);
+  for (const c of cs) src[c.sourceIndex] = c.source;
+  const dirBuf = src.map(() => new Float64Array(3 * BLOCK)),
+    radBuf = src.map(() => new Float64Array(BLOCK)),
+    cursor = new Int32Array(m);
+  src.forEach((s, k) => s && s.timesS.length < 2 && fillFixed(dirBuf[k]!, radBuf[k]!, s));
+  const turn = blockRotationBounds(q, n, BLOCK);
   for (const tr of tracks) {
     startTrack(tr, t, q);
     tr.rate = sourceRateBound(tr.c.source);
     tr.knownMin = coarseMinimum(tr, t, q);
   }
-  const skip = new Uint8Array(tracks.length),
-    axisNeeded = new Uint8Array(axes.length);
-  for (let b0 = 0; b0 < n; b0 += BLOCK) {
+  const T = tracks.length;
+  const skip = new Uint8Array(T),
+    axisNeeded = new Uint8Array(axes.length),
+    srcNeeded = new Uint8Array(m);
+  for (let b0 = 0, blk = 0; b0 < n; b0 += BLOCK, blk++) {
     const b1 = Math.min(n, b0 + BLOCK);
     let needed = false;
     axisNeeded.fill(0);
-    tracks.forEach((tr, k) => {
-      skip[k] = canSkip(tr, phi, t, q, b0, b1) ? 1 : 0;
-      if (!skip[k]) needed = true;
-      if (!skip[k]) axisNeeded[tr.axis] = 1;
-    });
+    srcNeeded.fill(0);
+    for (let k = 0; k < T; k++) {
+      const tr = tracks[k]!;
+      skip[k] = canSkip(tr, turn[blk]!, t, q, b0, b1) ? 1 : 0;
+      if (skip[k]) continue;
+      needed = true;
+      axisNeeded[tr.axis] = 1;
+      srcNeeded[tr.c.sourceIndex] = 1;
+    }
     if (!needed) continue;
     rotateBlock(axisBuf, q, b0, b1, axes, axisNeeded);
-    for (const [index, s] of sources) {
-      if (s.src.timesS.length < 2 || tracks.every((tr, k) => skip[k] || tr.c.sourceIndex !== index)) continue;
-      s.j = sourceBlock(s.dir, s.rad, s.src, t, b0, b1, s.j);
+    for (let k = 0; k < m; k++) {
+      const s = src[k];
+      if (s && srcNeeded[k] && s.timesS.length >= 2) cursor[k] = sourceBlock(dirBuf[k]!, radBuf[k]!, s, t, b0, b1, cursor[k]!);
     }
-    tracks.forEach((tr, k) => {
-      if (skip[k]) return;
-      const s = sources.get(tr.c.sourceIndex)!;
-      scanBlock(tr, axisBuf[tr.axis]!, s.dir, s.rad, t, q, b0, b1);
-    });
+    for (let k = 0; k < T; k++) {
+      const tr = tracks[k]!;
+      if (!skip[k]) scanBlock(tr, axisBuf[tr.axis]!, dirBuf[tr.c.sourceIndex]!, radBuf[tr.c.sourceIndex]!, t, q, b0, b1);
+    }
   }
   const results = tracks.map((tr) => finishTrack(tr, t, q));
   let minimum = NaN;
