@@ -3,9 +3,10 @@
  * cones, on a geodesic grid (geodesic.ts), then smoothed into a few waypoint directions.
  *
  * Method family: discretised-sphere constrained attitude path planning with a graph search,
- * after Kjellberg & Lightsey, "Discretized constrained attitude pathfinding and control for
- * satellites", JGCD 36(5), 2013, and "Discretized quaternion constrained attitude pathfinding",
- * JGCD 39(3), 2016 (titles and venues from memory). Here:
+ * after Kjellberg & Lightsey, "Discretized Constrained Attitude Pathfinding and Control for
+ * Satellites", JGCD 36(5):1301–1309, 2013, and "Discretized Quaternion Constrained Attitude
+ * Pathfinding", JGCD 39(3):713–718, 2016; A* after Hart, Nilsson & Raphael, IEEE Trans. SSC 4(2),
+ * 1968. Here:
  * - A* over grid nodes, edge cost = great-circle angle, heuristic = great-circle angle to the
  *   goal (admissible and consistent: it is a metric on the sphere).
  * - An edge is usable when its whole arc is clear of every cone — tested exactly in closed form
@@ -15,7 +16,10 @@
  *   node whose arc is clear), then relaxation: each corner in turn takes compass steps that
  *   shorten its two arcs while both stay clear, and drops out when its neighbours see each
  *   other. Waypoints thus leave the grid nodes; the grid decides the homotopy (which side of
- *   each cone) and the number of corners, the relaxation their places.
+ *   each cone) and the number of corners, the relaxation their places. The result is the
+ *   shortest path with that many corners; it does not creep along a cone's rim (that would take
+ *   many rest-to-rest legs, each a full stop), so around one cone it stays a fixed fraction
+ *   longer than the true shortest path however fine the grid (0.45 % and 0.64 % in the tests).
  * "No path" means none at this grid's resolution: a corridor narrower than about a grid spacing
  * may be missed, and a finer level may find it.
  */
@@ -31,7 +35,7 @@ export type AxisSearchResult =
 /** Arcs longer than π − this are treated as ambiguous (no unique great circle) and refused. */
 const ANTIPODAL_GUARD = 1e-6;
 
-/** Angle between unit vectors stored at offsets (rad). */
+/** Angle between unit vectors (rad, [0, π]). */
 export function angleBetween(a: ArrayLike<number>, b: ArrayLike<number>): number {
   const cx = a[1]! * b[2]! - a[2]! * b[1]!,
     cy = a[2]! * b[0]! - a[0]! * b[2]!,

@@ -4,8 +4,9 @@
  * checked exactly against every cone on every axis (edge.ts; no sampling, so no resolution to
  * choose for the edge test).
  *
- * Method family: discretised constrained attitude pathfinding (Kjellberg & Lightsey, JGCD 36(5),
- * 2013 and JGCD 39(3), 2016, from memory), here with the sphere grid crossed with roll bins.
+ * Method family: discretised constrained attitude pathfinding (Kjellberg & Lightsey, JGCD
+ * 36(5):1301–1309, 2013, and JGCD 39(3):713–718, 2016 — the latter searches a discretised
+ * attitude space), here as the sphere grid crossed with roll bins; A* (Hart, Nilsson & Raphael, 1968).
  *
  * Lattice: node (i, r) is the attitude Q_i ⊗ rot(b, r Δψ), Δψ = 2π / rollBins, where Q_i =
  * shortestArc(u0 → d_i) ⊗ q0 carries the start's b direction u0 to grid direction d_i. Edges:
