@@ -140,6 +140,21 @@ describe('shortest boresight path around one keep-out cone', () => {
       expect(p.totalTimeS).toBeGreaterThan(p.unconstrainedTimeS);
       expect(p.extraTimeS).toBeCloseTo(p.totalTimeS - p.unconstrainedTimeS, 12);
     });
+    it(`d = ${dDeg}°, ρ = ${rhoDeg}°: with grid-resolved smoothing the planner's path converges toward L over levels 3, 4, 5`, () => {
+      const errs: number[] = [];
+      for (const level of [3, 4, 5]) {
+        const p = planned(planConstrainedSlew({ ...input(level), smoothing: 'grid-resolved' }, limits));
+        expect(p.search).toBe('axis');
+        expect(p.pathAngleRad).toBeGreaterThanOrEqual(L);
+        expect(p.minimumMarginRad).toBeGreaterThanOrEqual(0);
+        errs.push(p.pathAngleRad / L - 1);
+      }
+      expect(errs[0]!).toBeLessThan(0.01);
+      // Each level halves the spacing; the excess falls by more than half each time.
+      expect(errs[1]!).toBeLessThan(0.5 * errs[0]!);
+      expect(errs[2]!).toBeLessThan(0.5 * errs[1]!);
+      expect(errs[2]!).toBeLessThan(1e-4);
+    });
     it(`d = ${dDeg}°, ρ = ${rhoDeg}°: at levels 3, 4 and 5 the path is the shortest one-corner path L1, L < L1 < 1.01 L`, () => {
       // One corner P on the symmetry plane at angle β from the cone centre, both arcs tangent to
       // the cone (derived here): distance from c to the great circle S–P equals ρ gives

@@ -72,6 +72,7 @@ export function searchAxisPath(
   goal: Float64Array,
   cones: readonly PlanningCone[],
   grid: GeodesicGrid,
+  resolveCorners = false,
 ): AxisSearchResult {
   const clearAt = (x: number, y: number, z: number) => cones.every((c) => pointClear(c, x, y, z));
   if (!clearAt(start[0]!, start[1]!, start[2]!)) return { found: false, reason: 'start-blocked', expanded: 0 };
@@ -83,7 +84,8 @@ export function searchAxisPath(
   const { path, expanded, cost } = astar(start, goal, cones, grid);
   if (!path) return { found: false, reason: 'no-path', expanded };
   const pulled = stringPull(path, cones);
-  const relaxed = relax(pulled, cones);
+  let relaxed = relax(pulled, cones);
+  if (resolveCorners) relaxed = splitCorners(relaxed, cones, 2 * grid.meanSpacingRad);
   let len = 0;
   for (let k = 1; k < relaxed.length; k++) len += angleBetween(relaxed[k - 1]!, relaxed[k]!);
   return { found: true, waypoints: relaxed, pathAngleRad: len, gridPathAngleRad: cost, expanded };
@@ -199,6 +201,68 @@ function relax(wp: Float64Array[], cones: readonly PlanningCone[]): Float64Array
     if (gain < 1e-13) break;
   }
   return w;
+}
+
+/**
+ * Grid-resolved smoothing (opt-in): every corner that turns the path by more than maxTurnRad is
+ * cut into two corners on its arcs (as near the old corner as keeps the new arc between them
+ * clear), and the corners are relaxed again; rounds repeat until no corner turns that much. With
+ * maxTurnRad tied to the grid spacing, the path follows a cone's rim ever more closely as the
+ * grid is refined — at the price of one rest-to-rest leg per corner.
+ */
+function splitCorners(wp: Float64Array[], cones: readonly PlanningCone[], maxTurnRad: number): Float64Array[] {
+  let w = wp;
+  for (let round = 0; round < 24; round++) {
+    const out = [w[0]!];
+    let split = false;
+    for (let k = 1; k < w.length - 1; k++) {
+      const a = w[k - 1]!,
+        p = w[k]!,
+        c = w[k + 1]!;
+      if (turnAngle(a, p, c) <= maxTurnRad) {
+        out.push(p);
+        continue;
+      }
+      let f = 0.5 * Math.min(angleBetween(a, p), angleBetween(p, c));
+      let cut: Float64Array[] | null = null;
+      for (let it = 0; it < 30 && !cut; it++, f *= 0.5) {
+        const p1 = towards(p, a, f),
+          p2 = towards(p, c, f);
+        if (arcV(p1, p2, cones)) cut = [p1, p2];
+      }
+      if (cut) {
+        out.push(...cut);
+        split = true;
+      } else out.push(p);
+    }
+    out.push(w[w.length - 1]!);
+    if (!split) return w;
+    w = relax(out, cones);
+  }
+  return w;
+}
+
+/** Angle the path turns at p between the arcs a→p and p→c (rad). */
+function turnAngle(a: Float64Array, p: Float64Array, c: Float64Array): number {
+  const ta = new Float64Array(3),
+    tc = new Float64Array(3),
+    scratch = new Float64Array(3);
+  if (!tangentBasis(ta, scratch, p, a) || !tangentBasis(tc, scratch, p, c)) return 0;
+  // Incoming direction is −ta (from a toward p); the turn is the angle between −ta and tc.
+  ta[0] = -ta[0]!;
+  ta[1] = -ta[1]!;
+  ta[2] = -ta[2]!;
+  return angleBetween(ta, tc);
+}
+
+/** The point at angle f from p along the great circle toward q. */
+function towards(p: Float64Array, q: Float64Array, f: number): Float64Array {
+  const u = new Float64Array(3),
+    v = new Float64Array(3);
+  if (!tangentBasis(u, v, p, q)) return Float64Array.from(p);
+  const c = Math.cos(f),
+    s = Math.sin(f);
+  return Float64Array.of(p[0]! * c + u[0]! * s, p[1]! * c + u[1]! * s, p[2]! * c + u[2]! * s);
 }
 
 /** Eight compass directions in the tangent plane, toward the arc first. */

@@ -63,6 +63,12 @@ export interface ConstrainedSlewInput {
   maxGridLevel?: number;
   /** Grid level of the lattice search (0 … 5), default 3 (≈ 8.6°). */
   latticeGridLevel?: number;
+  /**
+   * Single-axis smoothing: 'fewest-legs' (default) keeps the fewest corners (each leg is a
+   * rest-to-rest stop); 'grid-resolved' also splits every corner turning by more than two grid
+   * spacings, so the axis path approaches the true shortest path as the grid is refined.
+   */
+  smoothing?: 'fewest-legs' | 'grid-resolved';
   /** Roll bins of the lattice (4 … 360), default 36 (10°). */
   rollBins?: number;
   /** The lattice's primary axis (body, non-zero); default the axis of the first constraint in force. */
@@ -183,11 +189,12 @@ function axisCandidate(input: ConstrainedSlewInput, s: Setup, limits: PlanLimits
   const b = s.axes[s.primary]!;
   const mine = s.cones.filter((c) => c.axis === s.primary);
   let level = input.gridLevel ?? DEFAULT_GRID_LEVEL;
-  let r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level));
+  const resolved = input.smoothing === 'grid-resolved';
+  let r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level), resolved);
   const top = input.maxGridLevel ?? Math.min(MAX_GRID_LEVEL, level + 1);
   while (!r.found && r.reason === 'no-path' && level < top) {
     level++;
-    r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level));
+    r = searchAxisPath(axisDirection(s.q0, b), axisDirection(s.q1, b), mine, geodesicGrid(level), resolved);
   }
   if (!r.found) {
     const final = s.axes.length === 1 || r.reason !== 'no-path';
@@ -198,7 +205,7 @@ function axisCandidate(input: ConstrainedSlewInput, s: Setup, limits: PlanLimits
     notes.push('The single-axis path of the primary axis crosses a cone on another axis.');
     return { found: false, level, expanded: r.expanded };
   }
-  return { found: true, chain: faster([c, shortcutChain(c, s.axes, s.cones)], s, limits, notes), level };
+  return { found: true, chain: resolved ? c : faster([c, shortcutChain(c, s.axes, s.cones)], s, limits, notes), level };
 }
 
 function latticeCandidate(input: ConstrainedSlewInput, s: Setup) {
@@ -329,6 +336,9 @@ function readInput(input: ConstrainedSlewInput, limits: PlanLimits): Result<Setu
   intOption(list, 'maxGridLevel', input?.maxGridLevel, input?.gridLevel ?? DEFAULT_GRID_LEVEL, MAX_GRID_LEVEL);
   intOption(list, 'latticeGridLevel', input?.latticeGridLevel, 0, 5);
   intOption(list, 'rollBins', input?.rollBins, 4, 360);
+  if (input?.smoothing !== undefined && input.smoothing !== 'fewest-legs' && input.smoothing !== 'grid-resolved') {
+    list.add('smoothing', 'enum', "smoothing must be 'fewest-legs' or 'grid-resolved'");
+  }
   if (input?.search !== undefined && !['auto', 'axis', 'lattice'].includes(input.search)) {
     list.add('search', 'enum', "search must be 'auto', 'axis' or 'lattice'");
   }
