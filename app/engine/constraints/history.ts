@@ -40,7 +40,8 @@ export function readHistory(list: IssueList, h: AttitudeHistory | undefined): { 
     badQ = 0;
   for (let i = 0; i < n; i++) {
     const ti = t[i]!;
-    if (!Number.isFinite(ti) || (i > 0 && !(ti > t[i - 1]!))) {
+    // ti − ti is NaN for NaN and ±Infinity; NaN also fails every comparison.
+    if (ti - ti !== 0 || (i > 0 && !(ti > t[i - 1]!))) {
       if (badT++ < MAX_REPORTED)
         list.add(`history.timesS[${i}]`, 'increasing', `history.timesS[${i}] must be finite and after the previous time (got ${ti})`);
     }
@@ -49,7 +50,7 @@ export function readHistory(list: IssueList, h: AttitudeHistory | undefined): { 
       z = q[4 * i + 2]!,
       w = q[4 * i + 3]!;
     const n2 = x * x + y * y + z * z + w * w;
-    if (!(n2 > 1e-24) || !Number.isFinite(n2)) {
+    if (!(n2 > 1e-24 && n2 < Infinity)) {
       if (badQ++ < MAX_REPORTED)
         list.add(`history.qInertialFromBody[${i}]`, 'quaternion', `sample ${i} is not a finite non-zero quaternion`);
     }
