@@ -3,6 +3,7 @@
  * against ten constraints, and a constrained slew around three cones at the default grid.
  * Run: node --import tsx test/bench/constraints.ts, or through run.ts.
  */
+import { cpus, loadavg } from 'node:os';
 import { checkAttitudeHistory } from '../../app/engine/constraints/check';
 import { planConstrainedSlew, type ConstrainedSlewInput } from '../../app/engine/constraints/slew';
 import type { AttitudeConstraint, SampledDirectionSource } from '../../app/engine/constraints/types';
@@ -197,18 +198,22 @@ export async function benchConstraints(): Promise<void> {
   const h = dayHistory();
   const cs = dayConstraints();
   for (const series of [false, true]) {
-    const ms: number[] = [];
+    const ms: number[] = [],
+      cpu: number[] = [];
     let last = null as ReturnType<typeof checkAttitudeHistory> | null;
     for (let k = 0; k < (series ? 5 : 15); k++) {
-      const t0 = performance.now();
+      const c0 = process.cpuUsage(),
+        t0 = performance.now();
       last = checkAttitudeHistory(h, cs, { series });
       ms.push(performance.now() - t0);
+      const c = process.cpuUsage(c0);
+      cpu.push((c.user + c.system) / 1000);
     }
     const s = stats(ms);
     const v = last && last.ok ? last.value : null;
     const nInt = v ? v.constraints.reduce((a, c) => a + c.intervals.length, 0) : -1;
     console.log(
-      `   check 24 h at 10 Hz (864,000 samples) x 10 constraints${series ? ', with margin series' : ''}: min ${s.min.toFixed(1)} ms, median ${s.median.toFixed(1)} ms (goal <= 50 ms); ${nInt} violation intervals`,
+      `   check 24 h at 10 Hz (864,000 samples) x 10 constraints${series ? ', with margin series' : ''}: min ${s.min.toFixed(1)} ms, median ${s.median.toFixed(1)} ms (goal <= 50 ms); process CPU min ${stats(cpu).min.toFixed(1)} ms; load average ${loadavg()[0]!.toFixed(1)} on ${cpus().length} cores; ${nInt} violation intervals`,
     );
   }
 }
