@@ -332,6 +332,30 @@ describe('verdicts', () => {
     expect(p.minimumMarginRad).toBeLessThan(0);
     expect(p.notes.join(' ')).toContain('moving directions');
   });
+  it('says so when the start is clear but within the planner clearance of a cone edge', () => {
+    const rho = 0.3;
+    const r = planConstrainedSlew(
+      {
+        qStart: boresightAt(-(rho + 5e-7)),
+        qTarget: boresightAt(1),
+        inertia: J,
+        wheelMomentumBody: [0, 0, 0],
+        constraints: [
+          {
+            name: 'Sun',
+            kind: 'keep-out',
+            bodyAxis: [0, 0, 1],
+            halfAngleRad: rho,
+            marginRad: 0,
+            source: { kind: 'fixed', direction: [1, 0, 0] },
+          },
+        ],
+      },
+      limits,
+    );
+    if (!r.ok || r.value.status !== 'no-path') throw new Error(JSON.stringify(r));
+    expect(r.value.message).toContain('start direction');
+  });
   it('lists bad options with the other input errors', () => {
     const r = planConstrainedSlew(
       {

@@ -198,7 +198,12 @@ function axisCandidate(input: ConstrainedSlewInput, s: Setup, limits: PlanLimits
   }
   if (!r.found) {
     const final = s.axes.length === 1 || r.reason !== 'no-path';
-    return { found: false, level, expanded: r.expanded, ...(final ? { verdict: noPath('axis', level, r.expanded) } : {}) };
+    const v = noPath('axis', level, r.expanded);
+    if (r.reason !== 'no-path' && v.status === 'no-path') {
+      const which = r.reason === 'start-blocked' ? 'start' : 'target';
+      v.message = `The ${which} direction of the primary axis lies within the planner's clearance (${PLAN_CLEARANCE_RAD} rad) of a cone's edge: no path can leave or reach it.`;
+    }
+    return { found: false, level, expanded: r.expanded, ...(final ? { verdict: v } : {}) };
   }
   const c = chainFromWaypoints(s.q0, s.q1, r.waypoints);
   if (!chainClear(c, s)) {
