@@ -181,5 +181,11 @@ describe('cones on two body axes', () => {
     expect(Math.min(...m)).toBeGreaterThanOrEqual(-1e-9);
     expect(p.minimumMarginRad).toBeGreaterThanOrEqual(0);
     expect(p.rollBins).toBe(36);
+    // Asked for the single-axis path only, the planner says why it has none.
+    const only = planConstrainedSlew(
+      { qStart: q0, qTarget: q1, inertia: J, wheelMomentumBody: [0, 0, 0], constraints: cs, search: 'axis' },
+      limits,
+    );
+    expect(only.ok && only.value.status === 'no-path' && only.value.message).toContain('another body axis');
   });
 });

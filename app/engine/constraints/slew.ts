@@ -66,7 +66,8 @@ export interface ConstrainedSlewInput {
   /**
    * Single-axis smoothing: 'fewest-legs' (default) keeps the fewest corners (each leg is a
    * rest-to-rest stop); 'grid-resolved' also splits every corner turning by more than two grid
-   * spacings, so the axis path approaches the true shortest path as the grid is refined.
+   * spacings, so the axis path approaches the true shortest path as the grid is refined. With
+   * search 'auto' the faster of that path and the lattice path is still the one returned.
    */
   smoothing?: 'fewest-legs' | 'grid-resolved';
   /** Roll bins of the lattice (4 … 360), default 36 (10°). */
@@ -152,7 +153,13 @@ export function planConstrainedSlew(input: ConstrainedSlewInput, limits: PlanLim
     return ok(finish(s, [s.q0, s.q1], 'direct', limits, input.gridLevel ?? DEFAULT_GRID_LEVEL, undefined, notes));
   const mode = input.search ?? 'auto';
   const axis = mode === 'lattice' ? null : axisCandidate(input, s, limits, notes);
-  if (axis && !axis.found && (mode === 'axis' || axis.verdict)) return ok(axis.verdict ?? noPath('axis', axis.level, axis.expanded));
+  if (axis && !axis.found && axis.verdict) return ok(axis.verdict);
+  if (axis && !axis.found && mode === 'axis') {
+    const v = noPath('axis', axis.level, axis.expanded);
+    if (v.status === 'no-path')
+      v.message = "The single-axis path crosses a cone on another body axis; search 'auto' or 'lattice' plans the whole attitude.";
+    return ok(v);
+  }
   const lattice = mode === 'axis' ? null : latticeCandidate(input, s);
   const fromAxis = axis?.found ? axis : null;
   if (!fromAxis && !lattice?.found) {
