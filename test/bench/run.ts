@@ -10,6 +10,7 @@ const benches: Bench[] = [
   { file: './control.ts', fn: 'benchControl', title: 'Synergistic flow-set check over uniform attitudes' },
   { file: './wheels.ts', fn: 'benchWheels', title: 'Wheel allocation, limiting, envelopes' },
   { file: './plan.ts', fn: 'benchPlan', title: 'Slew planner' },
+  { file: './constraints.ts', fn: 'benchConstraints', title: 'Attitude constraints: constrained slew and history check' },
   { file: './pipeline.ts', fn: 'benchPipeline', title: 'Scenario pipeline (plan + closed-loop runs)' },
   { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
   { file: './study.ts', fn: 'benchStudy', title: 'Robustness study in worker threads' },

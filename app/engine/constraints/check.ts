@@ -1,0 +1,162 @@
+/**
+ * Check an attitude history (or a planned reference) against attitude constraints: per constraint
+ * the smallest margin and when, the violation intervals with crossing times, and optionally the
+ * margin series (margins and intervals: types.ts header).
+ *
+ * The margin between samples is taken as the linear interpolation of the sample margins: a
+ * crossing between samples i−1 and i is at t_{i−1} + Δt · m_{i−1} / (m_{i−1} − m_i), and a
+ * window edge between samples gets the interpolated margin there. Only the window counts.
+ *
+ * Speed: the history is processed in blocks of BLOCK samples. Per block, each distinct body axis
+ * is rotated into inertial axes once and each distinct source is interpolated once; per
+ * constraint the inner loop compares the cosine of the angle with the cosine of the threshold
+ * (no acos), so a constant-radius constraint costs a dot product per sample. Exact margins
+ * (atan2 form, source.ts) are computed only at crossings, window edges and extremes. A source
+ * whose radius varies in time, or a request for the series, takes one acos per sample. Scratch
+ * blocks are made per call; nothing is allocated per sample.
+ */
+import { fail, IssueList, ok, type Issue, type Result } from '../errors';
+import { fillFixed, rotateBlock, sourceBlock } from './blocks';
+import { finishTrack, makeTrack, scanBlock, startTrack } from './scan';
+import { blockRotationBounds, canSkip, coarseMinimum, sourceRateBound } from './skip';
+import type { AttitudeConstraint, AttitudeHistory, HistoryCheck, PreparedConstraint } from './types';
+import { prepareConstraints } from './validate';
+import { readHistory } from './history';
+
+/** Samples per block of the check. */
+export const BLOCK = 256;
+
+export interface CheckOptions {
+  /** Also return the margin series of each constraint (one acos per sample and constraint). */
+  series?: boolean;
+}
+
+/** Validate the history and constraints, then check. Bad input: every problem listed. */
+export function checkAttitudeHistory(
+  history: AttitudeHistory,
+  constraints: readonly AttitudeConstraint[],
+  options: CheckOptions = {},
+): Result<HistoryCheck> {
+  const list = new IssueList();
+  const h = readHistory(list, history);
+  const prep = prepareConstraints(constraints);
+  if (!prep.ok) list.items.push(...prep.errors);
+  if (!list.empty || !h || !prep.ok) return fail(list.items);
+  const warnings = spanWarnings(h.t, prep.value);
+  return ok(checkPreparedHistory(h.t, h.q, prep.value, options), warnings);
+}
+
+/**
+ * Check a planned reference: `attitudeAt(t, outQ)` writes qInertialFromBody at time t; it is
+ * sampled at t0S, t0S + stepS, … and at t1S.
+ */
+export function checkReference(
+  attitudeAt: (t: number, outQ: Float64Array) => void,
+  t0S: number,
+  t1S: number,
+  stepS: number,
+  constraints: readonly AttitudeConstraint[],
+  options: CheckOptions = {},
+): Result<HistoryCheck> {
+  if (!(Number.isFinite(t0S) && Number.isFinite(t1S) && t1S >= t0S && stepS > 0 && Number.isFinite(stepS))) {
+    return fail([{ path: 'reference', rule: 'sampling', message: 'checkReference needs finite t0S ≤ t1S and a step > 0 s' }]);
+  }
+  const m = Math.ceil((t1S - t0S) / stepS - 1e-9);
+  const n = m + 1;
+  const t = new Float64Array(n),
+    q = new Float64Array(4 * n),
+    qi = new Float64Array(4);
+  for (let i = 0; i < n; i++) {
+    t[i] = i === m ? t1S : t0S + i * stepS;
+    attitudeAt(t[i]!, qi);
+    q.set(qi, 4 * i);
+  }
+  return checkAttitudeHistory({ timesS: t, qInertialFromBody: q }, constraints, options);
+}
+
+/** Warnings where the history runs outside a sampled source's span (its end direction is held). */
+function spanWarnings(t: Float64Array, cs: readonly PreparedConstraint[]): Issue[] {
+  const out: Issue[] = [];
+  const seen = new Set<number>();
+  const t0 = t[0]!,
+    t1 = t[t.length - 1]!;
+  cs.forEach((c, k) => {
+    const T = c.source.timesS;
+    if (T.length < 2 || seen.has(c.sourceIndex)) return;
+    seen.add(c.sourceIndex);
+    if (t0 < T[0]! || t1 > T[T.length - 1]!) {
+      out.push({
+        path: `constraints[${k}].source.timesS`,
+        rule: 'source-span',
+        message: `The history (${t0} s to ${t1} s) runs outside the source samples of "${c.name}" (${T[0]} s to ${T[T.length - 1]} s); the end direction is held there.`,
+      });
+    }
+  });
+  return out;
+}
+
+/** The check on validated data (q of any non-zero norm, 4 per sample). */
+export function checkPreparedHistory(
+  t: Float64Array,
+  q: Float64Array,
+  cs: readonly PreparedConstraint[],
+  options: CheckOptions = {},
+): HistoryCheck {
+  const n = t.length;
+  const axes: Float64Array[] = [];
+  const tracks = cs.map((c) => makeTrack(c, axisIndex(axes, c.axisBody), t, options.series === true));
+  const axisBuf = axes.map(() => new Float64Array(3 * BLOCK));
+  // Distinct sources, indexed by sourceIndex (0 … m−1 by construction in prepareConstraints).
+  const m = cs.reduce((a, c) => Math.max(a, c.sourceIndex + 1), 0);
+  const src: (PreparedConstraint['source'] | undefined)[] = new Array(m);
+  for (const c of cs) src[c.sourceIndex] = c.source;
+  const dirBuf = src.map(() => new Float64Array(3 * BLOCK)),
+    radBuf = src.map(() => new Float64Array(BLOCK)),
+    cursor = new Int32Array(m);
+  src.forEach((s, k) => s && s.timesS.length < 2 && fillFixed(dirBuf[k]!, radBuf[k]!, s));
+  const turn = blockRotationBounds(q, n, BLOCK);
+  for (const tr of tracks) {
+    startTrack(tr, t, q);
+    tr.rate = sourceRateBound(tr.c.source);
+    tr.knownMin = coarseMinimum(tr, t, q);
+  }
+  const T = tracks.length;
+  const skip = new Uint8Array(T),
+    axisNeeded = new Uint8Array(axes.length),
+    srcNeeded = new Uint8Array(m);
+  for (let b0 = 0, blk = 0; b0 < n; b0 += BLOCK, blk++) {
+    const b1 = Math.min(n, b0 + BLOCK);
+    let needed = false;
+    axisNeeded.fill(0);
+    srcNeeded.fill(0);
+    for (let k = 0; k < T; k++) {
+      const tr = tracks[k]!;
+      skip[k] = canSkip(tr, turn[blk]!, t, q, b0, b1) ? 1 : 0;
+      if (skip[k]) continue;
+      needed = true;
+      axisNeeded[tr.axis] = 1;
+      srcNeeded[tr.c.sourceIndex] = 1;
+    }
+    if (!needed) continue;
+    rotateBlock(axisBuf, q, b0, b1, axes, axisNeeded);
+    for (let k = 0; k < m; k++) {
+      const s = src[k];
+      if (s && srcNeeded[k] && s.timesS.length >= 2) cursor[k] = sourceBlock(dirBuf[k]!, radBuf[k]!, s, t, b0, b1, cursor[k]!);
+    }
+    for (let k = 0; k < T; k++) {
+      const tr = tracks[k]!;
+      if (!skip[k]) scanBlock(tr, axisBuf[tr.axis]!, dirBuf[tr.c.sourceIndex]!, radBuf[tr.c.sourceIndex]!, t, q, b0, b1);
+    }
+  }
+  const results = tracks.map((tr) => finishTrack(tr, t, q));
+  let minimum = NaN;
+  for (const r of results) if (!(r.minMarginRad >= minimum)) minimum = Number.isNaN(r.minMarginRad) ? minimum : r.minMarginRad;
+  return { constraints: results, minimumMarginRad: minimum, clear: results.every((r) => r.intervals.length === 0) };
+}
+
+function axisIndex(axes: Float64Array[], a: Float64Array): number {
+  const k = axes.findIndex((b) => b[0] === a[0] && b[1] === a[1] && b[2] === a[2]);
+  if (k >= 0) return k;
+  axes.push(a);
+  return axes.length - 1;
+}
