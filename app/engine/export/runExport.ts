@@ -20,6 +20,8 @@ export interface RunExportOptions {
   sampleRateHz?: number;
   /** AEM CREATION_DATE; default now (UTC, whole seconds). */
   creationDateUtc?: string;
+  /** AEM MESSAGE_ID; default the writer's (object name and creation date). */
+  messageId?: string;
 }
 
 export function exportRun(
@@ -41,5 +43,5 @@ export function exportRun(
   if (format === 'csv') return writeCsv(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return writeJson(run.trace, resolved, meta, { sampleRateHz: o.sampleRateHz });
   const created = o.creationDateUtc ?? new Date().toISOString().replace(/\.\d{3}Z$/, 'Z');
-  return writeAem(run.trace, resolved, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz });
+  return writeAem(run.trace, resolved, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz, messageId: o.messageId });
 }
