@@ -10,6 +10,9 @@
  *   leading UTF-8 byte-order mark is accepted and dropped. On failure the message names the byte
  *   offset of the first ill-formed sequence (rule `utf-8`);
  * - syntax: JSON (rule `json-syntax`);
+ * - nesting: at most MAX_SCENARIO_DEPTH levels of arrays and objects (rule `max-depth`). A real
+ *   scenario nests about 6 deep; JSON.parse copes with 50 000 levels, but recursive walks
+ *   downstream (JSON.stringify, structured clone, validators) overflow the stack on such input;
  * - document: a JSON object; null, arrays, numbers, strings and booleans are named for what they
  *   are (rule `json-type`).
  */
@@ -95,10 +98,48 @@ export function describeJsonValue(v: unknown): string {
   return 'a JSON object';
 }
 
+export const MAX_SCENARIO_DEPTH = 64;
+
+/**
+ * Deepest nesting of arrays and objects in JSON text, counted in one pass over the characters
+ * (brackets inside strings do not count); stops counting once past `limit`.
+ */
+export function jsonNestingDepth(text: string, limit = Infinity): number {
+  let depth = 0;
+  let max = 0;
+  let inString = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (inString) {
+      if (c === 0x5c)
+        i++; // backslash: skip the escaped character
+      else if (c === 0x22) inString = false;
+    } else if (c === 0x22) inString = true;
+    else if (c === 0x5b || c === 0x7b) {
+      depth++;
+      if (depth > max) max = depth;
+      if (max > limit) return max;
+    } else if (c === 0x5d || c === 0x7d) depth--;
+  }
+  return max;
+}
+
 /** Parses a scenario file's text; anything but a JSON object is refused and named. */
 export function parseScenarioDocument(text: string): Result<ScenarioDocument> {
   if (text.trim() === '')
     return { ok: false, errors: [issue('', 'json-syntax', 'the file is empty; a scenario is a JSON object')], warnings: [] };
+  if (jsonNestingDepth(text, MAX_SCENARIO_DEPTH) > MAX_SCENARIO_DEPTH)
+    return {
+      ok: false,
+      errors: [
+        issue(
+          '',
+          'max-depth',
+          `the file nests arrays and objects more than ${MAX_SCENARIO_DEPTH} levels deep; a scenario needs fewer than 10`,
+        ),
+      ],
+      warnings: [],
+    };
   let json: unknown;
   try {
     json = JSON.parse(text);

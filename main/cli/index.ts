@@ -16,16 +16,16 @@
  * SLEWSMITH_DEBUG=1), status 1.
  */
 import { parseArgs, optionHelp, type OptionSpec, type ParsedArgs } from './args';
-import { planTable } from './format';
-import { prepareScenario, planSummary } from '../../app/engine/pipeline/run';
-import { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 import { CAUTION_TEXT } from '../../app/engine/caution';
-import { runStudyCli } from './study';
-import { oneLine, printIssues, type CliContext, type CliIo } from './io';
+import { oneLine, type CliContext, type CliIo } from './io';
 import { readScenario } from './input';
-import { runCertify } from './certify';
-import { runCompare, runFly } from './fly';
-import { inlineComputer } from './compute';
+import type { Computer } from './compute';
+
+/**
+ * The commands' work, loaded on first use: the engine takes most of a second to load, which
+ * `--help`, `--version`, a bad option or an unreadable file should not wait for.
+ */
+const work = () => import('./commands');
 
 export const TOOL_NAME = 'Slewsmith';
 export const TOOL_VERSION = '0.1.0';
@@ -56,38 +56,18 @@ const commands: Record<string, Command> = {
     summary: 'validate a scenario file (schema, physics, controllers, certificate)',
     usage: 'slewsmith check <scenario.json>',
     options: [HELP],
-    async run(a, { io }) {
-      const doc = await readScenario(a.positional[0], io);
-      if (doc === null) return 2;
-      const p = prepareScenario(doc.json);
-      if (!p.ok) {
-        printIssues(io, `${a.positional[0]} is not valid`, p.errors);
-        return 2;
-      }
-      for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
-      const s = p.value.scenario;
-      io.out(
-        `${a.positional[0]}: valid. "${s.name}", ${s.vehicle.wheelCount} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
-      );
-      return 0;
+    async run(a, ctx) {
+      const doc = await readScenario(a.positional[0], ctx.io);
+      return doc === null ? 2 : (await work()).runCheck(a.positional[0]!, doc.json, ctx);
     },
   },
   plan: {
     summary: 'print the slew plan: per segment time, binding limit, envelope use, feasibility',
     usage: 'slewsmith plan <scenario.json> [--json]',
     options: [HELP, JSON_OUT],
-    async run(a, { io }) {
-      const doc = await readScenario(a.positional[0], io);
-      if (doc === null) return 2;
-      const p = prepareScenario(doc.json);
-      if (!p.ok) {
-        printIssues(io, `${a.positional[0]} is not valid`, p.errors);
-        return 2;
-      }
-      const plan = planSummary(p.value.plan, p.value.scenario);
-      if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
-      else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
-      return plan.feasible ? 0 : 1;
+    async run(a, ctx) {
+      const doc = await readScenario(a.positional[0], ctx.io);
+      return doc === null ? 2 : (await work()).runPlan(a.positional[0]!, doc.json, a, ctx);
     },
   },
   compare: {
@@ -103,8 +83,7 @@ const commands: Record<string, Command> = {
     ],
     async run(a, ctx) {
       const doc = await readScenario(a.positional[0], ctx.io);
-      if (doc === null) return 2;
-      return runCompare(a.positional[0]!, doc, a, ctx);
+      return doc === null ? 2 : (await work()).runCompare(a.positional[0]!, doc, a, ctx);
     },
   },
   fly: {
@@ -144,8 +123,7 @@ const commands: Record<string, Command> = {
     ],
     async run(a, ctx) {
       const doc = await readScenario(a.positional[0], ctx.io);
-      if (doc === null) return 2;
-      return runFly(a.positional[0]!, doc, a, ctx, { name: TOOL_NAME, version: TOOL_VERSION });
+      return doc === null ? 2 : (await work()).runFly(a.positional[0]!, doc, a, ctx, { name: TOOL_NAME, version: TOOL_VERSION });
     },
   },
   certify: {
@@ -154,8 +132,7 @@ const commands: Record<string, Command> = {
     options: [HELP, CONTROLLER, JSON_OUT],
     async run(a, ctx) {
       const doc = await readScenario(a.positional[0], ctx.io);
-      if (doc === null) return 2;
-      return runCertify(a.positional[0]!, doc.json, a, ctx);
+      return doc === null ? 2 : (await work()).runCertify(a.positional[0]!, doc.json, a, ctx);
     },
   },
   study: {
@@ -178,8 +155,7 @@ const commands: Record<string, Command> = {
     ],
     async run(a, { io }) {
       const doc = await readScenario(a.positional[0], io);
-      if (doc === null) return 2;
-      return runStudyCli(doc.json, a, io);
+      return doc === null ? 2 : (await work()).runStudyCli(doc.json, a, io);
     },
   },
   schema: {
@@ -187,7 +163,7 @@ const commands: Record<string, Command> = {
     usage: 'slewsmith schema',
     options: [HELP],
     async run(_a, { io }) {
-      io.out(JSON.stringify(scenarioJsonSchema(), null, 2));
+      io.out(JSON.stringify((await work()).scenarioJsonSchema(), null, 2));
       return 0;
     },
   },
@@ -213,12 +189,14 @@ function mainHelp(): string {
   ].join('\n');
 }
 
+const inlineCompute: Computer = async (job, progress, signal) => (await import('./compute')).inlineComputer(job, progress, signal);
+
 /** What a caller may leave out: the in-process defaults (inline simulation, no signal wiring). */
 function withDefaults(io: CliIo, given: Partial<Omit<CliContext, 'io'>>): CliContext {
   return {
     io,
     env: given.env ?? process.env,
-    compute: given.compute ?? inlineComputer,
+    compute: given.compute ?? inlineCompute,
     onInterrupt: given.onInterrupt ?? (() => () => {}),
   };
 }

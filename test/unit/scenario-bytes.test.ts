@@ -14,6 +14,8 @@ import {
   checkScenarioSize,
   decodeUtf8Strict,
   firstInvalidUtf8Offset,
+  jsonNestingDepth,
+  MAX_SCENARIO_DEPTH,
   parseScenarioDocument,
   scenarioDocumentFromBytes,
 } from '../../app/bridge/scenario-bytes';
@@ -110,6 +112,17 @@ describe('parseScenarioDocument', () => {
   it('says an empty file is empty, and passes an object with its text', () => {
     expect(!parseScenarioDocument(' \n').ok && parseScenarioDocument(' \n')).toMatchObject({ errors: [{ rule: 'json-syntax' }] });
     expect(parseScenarioDocument('{"a": 1}')).toEqual({ ok: true, value: { json: { a: 1 }, text: '{"a": 1}' }, warnings: [] });
+  });
+
+  it('refuses nesting deeper than MAX_SCENARIO_DEPTH before parsing (downstream walks would overflow the stack)', () => {
+    expect(jsonNestingDepth('{"a": [1, {"b": "[[[{{{"}], "c": {}}')).toBe(3);
+    expect(jsonNestingDepth('["\\"", ["x"]]')).toBe(2);
+    const ok = `{"a": ${'['.repeat(MAX_SCENARIO_DEPTH - 1)}${']'.repeat(MAX_SCENARIO_DEPTH - 1)}}`;
+    expect(parseScenarioDocument(ok).ok).toBe(true);
+    const deep = `{"a": ${'['.repeat(50_000)}0${']'.repeat(50_000)}}`;
+    expect(parseScenarioDocument(deep)).toMatchObject({ ok: false, errors: [{ rule: 'max-depth' }] });
+    // The reason for the rule: JSON.parse copes, JSON.stringify (used downstream) does not.
+    expect(() => JSON.stringify(JSON.parse(deep))).toThrow(RangeError);
   });
 
   it('keeps a "__proto__" key as plain data (JSON.parse defines an own property)', () => {
