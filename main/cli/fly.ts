@@ -29,11 +29,15 @@ export function modesOf(a: ParsedArgs, ctx: CliContext): RunMode[] | undefined |
   return null;
 }
 
-/** Runs the job with Ctrl-C wired to `stop`; null when interrupted. */
-async function simulate(job: ComputeJob, ctx: CliContext, stop: AbortController): Promise<ComputeResult | null> {
+/**
+ * Runs `fn` with Ctrl-C wired to an abort signal for its whole length (simulation and writes), so
+ * no gap is left where Node's default handler would end the process without the message.
+ */
+async function interruptible<T>(ctx: CliContext, fn: (stop: AbortController) => Promise<T>): Promise<T> {
+  const stop = new AbortController();
   const off = ctx.onInterrupt(() => stop.abort());
   try {
-    return await ctx.compute(job, (line) => ctx.io.err(line), stop.signal);
+    return await fn(stop);
   } finally {
     off();
   }
@@ -51,19 +55,14 @@ function refused(file: string, r: Exclude<ComputeResult, { kind: 'ran' }>, ctx: 
   return 2;
 }
 
-/** Writes one file with Ctrl-C able to drop it; returns 'ok', 'failed' or 'interrupted'. */
+/** Writes one file that Ctrl-C can drop whole; returns 'ok', 'failed' or 'interrupted'. */
 async function writeOne(file: string, text: string, ctx: CliContext, stop: AbortController): Promise<'ok' | 'failed' | 'interrupted'> {
   if (stop.signal.aborted) return 'interrupted';
-  const off = ctx.onInterrupt(() => stop.abort());
-  try {
-    const w = await writeTextAtomic(file, text, stop.signal);
-    if (w.ok) return 'ok';
-    if (w.interrupted) return 'interrupted';
-    ctx.io.err(`error: could not write ${file}: ${w.message}`);
-    return 'failed';
-  } finally {
-    off();
-  }
+  const w = await writeTextAtomic(file, text, stop.signal);
+  if (w.ok) return 'ok';
+  if (w.interrupted) return 'interrupted';
+  ctx.io.err(`error: could not write ${file}: ${w.message}`);
+  return 'failed';
 }
 
 export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedArgs, ctx: CliContext): Promise<number> {
@@ -79,22 +78,24 @@ export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedA
       return 2;
     }
   }
-  const stop = new AbortController();
-  const r = await simulate({ command: 'compare', text: doc.text, controllers: a.lists.controller, modes }, ctx, stop);
-  if (r === null) return interrupted(ctx, 'compare', 0);
-  if (r.kind !== 'ran') return refused(file, r, ctx);
-  if (a.flags.has('json')) ctx.io.out(r.json);
-  else ctx.io.out(`${r.headline}\n\n${r.table}\n\n${CAUTION_TEXT}`);
-  let written = 0;
-  let failed = false;
-  for (const [option, target] of targets) {
-    const w = await writeOne(target, option === '--csv' ? r.csv : r.json + '\n', ctx, stop);
-    if (w === 'interrupted') return interrupted(ctx, 'compare', written);
-    if (w === 'failed') failed = true;
-    else written++;
-  }
-  for (const f of r.failedRuns) ctx.io.err(`run ${f.key} ended early: ${f.message}`);
-  return r.feasible && r.failedRuns.length === 0 && !failed ? 0 : 1;
+  return interruptible(ctx, async (stop) => {
+    const job: ComputeJob = { command: 'compare', text: doc.text, controllers: a.lists.controller, modes };
+    const r = await ctx.compute(job, (line) => ctx.io.err(line), stop.signal);
+    if (r === null) return interrupted(ctx, 'compare', 0);
+    if (r.kind !== 'ran') return refused(file, r, ctx);
+    if (a.flags.has('json')) ctx.io.out(r.json);
+    else ctx.io.out(`${r.headline}\n\n${r.table}\n\n${CAUTION_TEXT}`);
+    let written = 0;
+    let failed = false;
+    for (const [option, target] of targets) {
+      const w = await writeOne(target, option === '--csv' ? r.csv : r.json + '\n', ctx, stop);
+      if (w === 'interrupted') return interrupted(ctx, 'compare', written);
+      if (w === 'failed') failed = true;
+      else written++;
+    }
+    for (const f of r.failedRuns) ctx.io.err(`run ${f.key} ended early: ${f.message}`);
+    return r.feasible && r.failedRuns.length === 0 && !failed ? 0 : 1;
+  });
 }
 
 export async function runFly(
@@ -136,31 +137,32 @@ export async function runFly(
     modes,
     exports: { formats, base, toolName: tool.name, toolVersion: tool.version, sampleRateHz, ...stamp.value },
   };
-  const stop = new AbortController();
-  const r = await simulate(job, ctx, stop);
-  if (r === null) return interrupted(ctx, 'fly', 0);
-  if (r.kind !== 'ran') return refused(file, r, ctx);
-  let status = r.feasible ? 0 : 1;
-  let written = 0;
-  for (const f of r.files) {
-    const target = path.join(outDir, f.name);
-    if (f.text === undefined) {
-      printIssues(ctx.io, `export ${target} refused`, f.errors ?? []);
-      if (sampleRateHz !== undefined && f.errors?.some((e) => e.rule === 'empty-segment'))
-        ctx.io.err(
-          `  (with --rate ${sampleRateHz} Hz a segment shorter than ${(1 / sampleRateHz).toPrecision(3)} s gets no sample; raise --rate)`,
-        );
-      status = 1;
-      continue;
+  return interruptible(ctx, async (stop) => {
+    const r = await ctx.compute(job, (line) => ctx.io.err(line), stop.signal);
+    if (r === null) return interrupted(ctx, 'fly', 0);
+    if (r.kind !== 'ran') return refused(file, r, ctx);
+    let status = r.feasible ? 0 : 1;
+    let written = 0;
+    for (const f of r.files) {
+      const target = path.join(outDir, f.name);
+      if (f.text === undefined) {
+        printIssues(ctx.io, `export ${target} refused`, f.errors ?? []);
+        if (sampleRateHz !== undefined && f.errors?.some((e) => e.rule === 'empty-segment'))
+          ctx.io.err(
+            `  (with --rate ${sampleRateHz} Hz a segment shorter than ${(1 / sampleRateHz).toPrecision(3)} s gets no sample; raise --rate)`,
+          );
+        status = 1;
+        continue;
+      }
+      const w = await writeOne(target, f.text, ctx, stop);
+      if (w === 'interrupted') return interrupted(ctx, 'fly', written);
+      if (w === 'failed') status = 1;
+      else {
+        written++;
+        ctx.io.out(`wrote ${target}`);
+      }
     }
-    const w = await writeOne(target, f.text, ctx, stop);
-    if (w === 'interrupted') return interrupted(ctx, 'fly', written);
-    if (w === 'failed') status = 1;
-    else {
-      written++;
-      ctx.io.out(`wrote ${target}`);
-    }
-  }
-  ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
-  return status;
+    ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
+    return status;
+  });
 }

@@ -8,6 +8,7 @@
 import fsp from 'node:fs/promises';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../main/cli/index';
 import { MAX_LISTED_ISSUES } from '../../main/cli/io';
 import type { Computer } from '../../main/cli/compute';
 import { asset, runInProcess as cli, STACK_TRACE } from './cli-harness';
@@ -192,20 +193,63 @@ describe('unexpected failures', () => {
 describe('interrupts (in-process)', () => {
   it('Ctrl-C during the simulation stops with 130 and writes nothing', async () => {
     let fire: (() => void) | null = null;
+    let started!: () => void;
+    const simulating = new Promise<void>((r) => (started = r));
+    // A simulation that runs until it is aborted, and says when it has begun.
     const waitsForAbort: Computer = (_job, _progress, signal) =>
-      new Promise((resolve) => signal?.addEventListener('abort', () => resolve(null), { once: true }));
+      new Promise((resolve) => {
+        signal?.addEventListener('abort', () => resolve(null), { once: true });
+        started();
+      });
     const out = path.join(dir, 'interrupted');
     const run = cli(['fly', asset('lumen6-imaging.scenario.json'), '--out', out], {
       compute: waitsForAbort,
       onInterrupt: (h) => ((fire = h), () => (fire = null)),
     });
-    await new Promise((r) => setTimeout(r, 50));
+    await simulating;
     expect(fire).not.toBeNull();
     fire!();
     const r = await run;
     expect(r.code).toBe(130);
     expect(r.stderr).toContain('slewsmith fly: interrupted; 0 files written, none left half-written');
     expect(await fsp.readdir(out)).toEqual([]);
+    expect(fire).toBeNull();
+  });
+});
+
+describe('interrupts while writing (in-process)', () => {
+  const big = 'x'.repeat(6 << 20) + '\n';
+  const twoFiles: Computer = async () => ({
+    kind: 'ran',
+    feasible: true,
+    headline: '',
+    table: '',
+    csv: '',
+    json: '',
+    failedRuns: [],
+    files: [
+      { name: 'first.csv', text: big },
+      { name: 'second.csv', text: big },
+    ],
+  });
+
+  it('Ctrl-C after the first file: that one complete, the second not written, no temp file, status 130', async () => {
+    const out = path.join(dir, 'interrupted-writing');
+    let fire: (() => void) | null = null;
+    const errLines: string[] = [];
+    const code = await runCli(
+      ['fly', asset('lumen6-imaging.scenario.json'), '--out', out],
+      {
+        // The "wrote …" line of the first file is the moment the user presses Ctrl-C.
+        out: (line) => line.startsWith('wrote ') && fire?.(),
+        err: (line) => errLines.push(line),
+      },
+      { env: {}, compute: twoFiles, onInterrupt: (h) => ((fire = h), () => (fire = null)) },
+    );
+    expect(code).toBe(130);
+    expect(errLines).toContain('slewsmith fly: interrupted; 1 file written, none left half-written');
+    expect(await fsp.readdir(out)).toEqual(['first.csv']);
+    expect((await fsp.stat(path.join(out, 'first.csv'))).size).toBe(big.length);
     expect(fire).toBeNull();
   });
 });
