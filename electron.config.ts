@@ -53,6 +53,9 @@ export const electronConfig = {
 
   recentFiles: { fileName: 'recent-files.json', max: 10 },
 
+  /** Folders the app wrote to, swept for stale temporary files at the next start (main/temp-files.ts). */
+  tempFiles: { foldersFileName: 'write-folders.json', maxFolders: 20 },
+
   limits: {
     /** A scenario file is a few kB; anything this large is not one of ours. */
     scenarioBytes: 20 * 1024 * 1024,

@@ -4,7 +4,9 @@
  * serves that folder on 127.0.0.1.
  *
  * The production index gets the CSP from electron.config.ts as a <meta> tag (the dev server leaves
- * it out: React's fast refresh needs an inline script there). A copy of the demo scenario is
+ * it out: React's fast refresh needs an inline script there). The Web Worker entries import
+ * app/no-eval.ts first, like the page does; test/unit/renderer-bundles.test.ts checks the built
+ * workers for it and that no source map is emitted. A copy of the demo scenario is
  * emitted beside the page so the browser build can open it without a file system.
  */
 import fs from 'node:fs';
@@ -65,7 +67,9 @@ export default defineConfig({
     outDir: path.join(root, electronConfig.output.rendererDir),
     emptyOutDir: true,
     target: 'es2022',
-    sourcemap: true,
+    // Not shipped: maps would publish the sources next to the app. SLEWSMITH_SOURCEMAP=1 builds
+    // them for debugging a production bundle; no test needs them.
+    sourcemap: process.env.SLEWSMITH_SOURCEMAP === '1',
     // Inlined data: URLs are allowed for images and fonts only; keep scripts and styles as files.
     assetsInlineLimit: 0,
   },

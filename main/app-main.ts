@@ -6,7 +6,7 @@ import type * as E from 'electron';
 import path from 'node:path';
 import fsp from 'node:fs/promises';
 import { EventChannels } from '../app/bridge/channels';
-import type { MenuCommand } from '../app/bridge/api';
+import type { UiCommand } from '../app/bridge/api';
 import { contentSecurityPolicy, electronConfig } from '../electron.config';
 import { DocumentService, windowTitle, type DocumentState } from './documents';
 import { registerIpc, type IpcMainLike } from './ipc';
@@ -15,6 +15,7 @@ import { buildMenuTemplate } from './menu';
 import type { ScenarioValidator } from './payloads';
 import { createAppProtocolHandler } from './protocol';
 import { createRecentFiles } from './recent-files';
+import { createWriteFolders, sweepWriteFolders } from './temp-files';
 import {
   appIndexUrl,
   hardenSession,
@@ -84,15 +85,29 @@ export function startDesktopApp(e: ElectronModules, options: DesktopOptions): vo
     );
     hardenSession(e.session.defaultSession as unknown as HardenableSession, contentSecurityPolicy, log);
 
-    const send = (command: MenuCommand) => win?.webContents.send(EventChannels.command, command);
+    const send = (command: UiCommand) => win?.webContents.send(EventChannels.command, command);
+    const userData = app.getPath('userData');
     const recent = createRecentFiles({
       fs: fsp,
-      file: path.join(app.getPath('userData'), cfg.recentFiles.fileName),
+      file: path.join(userData, cfg.recentFiles.fileName),
       max: cfg.recentFiles.max,
       log,
     });
+    // Temporary files a killed write left in the folders we wrote to (and our data folder).
+    const writeFolders = createWriteFolders({
+      fs: fsp,
+      file: path.join(userData, cfg.tempFiles.foldersFileName),
+      max: cfg.tempFiles.maxFolders,
+    });
+    void writeFolders
+      .list()
+      .then((folders) => sweepWriteFolders(fsp, [userData, ...folders]))
+      .then((removed) => {
+        for (const f of removed) log(`removed a stale temporary file: ${f}`);
+      });
     let allowClose = false;
     const documents = new DocumentService({
+      noteWriteFolder: (dir) => writeFolders.note(dir),
       fs: fsp,
       validateScenario: options.validateScenario,
       recent,

@@ -31,25 +31,39 @@ export function tempPathFor(target: string, unique: string): string {
   return path.join(path.dirname(target), `.${path.basename(target)}.${unique}.tmp`);
 }
 
-function errorCode(e: unknown): string | undefined {
+/**
+ * The names of our own temporary files, `.<target>.slewsmith-<pid>-<ms, base 36>-<n>.tmp`, and
+ * nothing else: the start-up sweep (main/temp-files.ts) removes only names of this form.
+ */
+export const OWN_TEMP_NAME = /^\..+\.slewsmith-(\d+)-([0-9a-z]+)-(\d+)\.tmp$/;
+
+/** A fresh temp path for `target` in our naming pattern. */
+export function newTempPath(target: string): string {
+  counter = (counter + 1) % 1_000_000;
+  return tempPathFor(target, `slewsmith-${process.pid}-${Date.now().toString(36)}-${counter}`);
+}
+
+export function errorCode(e: unknown): string | undefined {
   const code = (e as { code?: unknown } | null)?.code;
   return typeof code === 'string' ? code : undefined;
 }
 
-function errorMessage(e: unknown): string {
+export function errorMessage(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
 }
 
-export async function writeFileAtomic(fs: AtomicFs, target: string, data: string | Uint8Array): Promise<WriteOutcome> {
-  // Keep the existing file's permissions; new files get rw-r--r-- (before umask).
-  let mode = 0o644;
+/** The existing file's permissions (kept on replace), or rw-r--r-- (before umask) for a new file. */
+export async function modeFor(fs: Pick<AtomicFs, 'stat'>, target: string): Promise<number> {
   try {
-    mode = (await fs.stat(target)).mode & 0o777;
+    return (await fs.stat(target)).mode & 0o777;
   } catch {
-    // No existing file: default mode.
+    return 0o644;
   }
-  counter = (counter + 1) % 1_000_000;
-  const tmp = tempPathFor(target, `${process.pid}-${Date.now().toString(36)}-${counter}`);
+}
+
+export async function writeFileAtomic(fs: AtomicFs, target: string, data: string | Uint8Array): Promise<WriteOutcome> {
+  const mode = await modeFor(fs, target);
+  const tmp = newTempPath(target);
   let handle: AtomicFileHandle | null = null;
   let step = 'create the temporary file';
   try {
@@ -78,7 +92,10 @@ export async function writeFileAtomic(fs: AtomicFs, target: string, data: string
  * Makes the rename itself durable. Best effort: Windows cannot open a folder this way, and the file
  * is already complete and in place at this point.
  */
-async function syncDirectory(fs: AtomicFs, dir: string): Promise<void> {
+export async function syncDirectory(
+  fs: { open(filePath: string, flags: string): Promise<Pick<AtomicFileHandle, 'sync' | 'close'>> },
+  dir: string,
+): Promise<void> {
   try {
     const h = await fs.open(dir, 'r');
     try {

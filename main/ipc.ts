@@ -85,6 +85,7 @@ export function registerIpc(ipc: IpcMainLike, deps: IpcDeps): void {
   // Scenario content is checked inside the service (validator + size), giving `invalid` results.
   handle(InvokeChannels.saveScenario, 1, ([scenario]) => docs.saveScenario(scenario));
   handle(InvokeChannels.saveScenarioAs, 1, ([scenario]) => docs.saveScenarioAs(scenario));
+  handle(InvokeChannels.saveBeforeClose, 1, ([scenario]) => docs.saveBeforeClose(scenario));
   handle(InvokeChannels.exportFile, 1, ([request]) => {
     if (typeof request !== 'object' || request === null || Array.isArray(request))
       throw malformed(InvokeChannels.exportFile, [issue('', 'type', 'the export request must be an object')]);

@@ -7,7 +7,7 @@
  */
 import type { SlewsmithBridge } from '../app/bridge/api';
 import { EventChannels, InvokeChannels, NotifyChannels } from '../app/bridge/channels';
-import { isMenuCommand } from '../app/bridge/commands';
+import { isUiCommand } from '../app/bridge/commands';
 
 export interface IpcRendererLike {
   invoke(channel: string, ...args: unknown[]): Promise<unknown>;
@@ -27,13 +27,14 @@ export function createDesktopBridge(ipc: IpcRendererLike): SlewsmithBridge {
     newScenario: () => call(InvokeChannels.newScenario),
     saveScenario: (scenario) => call(InvokeChannels.saveScenario, scenario),
     saveScenarioAs: (scenario) => call(InvokeChannels.saveScenarioAs, scenario),
+    saveBeforeClose: (scenario) => call(InvokeChannels.saveBeforeClose, scenario),
     exportFile: (request) => call(InvokeChannels.exportFile, { suggestedName: request?.suggestedName, content: request?.content }),
     recentFiles: () => call(InvokeChannels.recentFiles),
     appInfo: () => call(InvokeChannels.appInfo),
     setDirty: (dirty) => ipc.send(NotifyChannels.setDirty, dirty === true),
     onCommand: (listener) => {
       const wrapped = (_event: unknown, command: unknown) => {
-        if (isMenuCommand(command)) listener(command);
+        if (isUiCommand(command)) listener(command);
       };
       ipc.on(EventChannels.command, wrapped);
       return () => {

@@ -30,7 +30,8 @@ export default defineConfig(({ mode }) => {
       emptyOutDir: false,
       target: 'node22',
       minify: false,
-      sourcemap: true,
+      // Not shipped (as for the renderer); SLEWSMITH_SOURCEMAP=1 builds them for debugging.
+      sourcemap: process.env.SLEWSMITH_SOURCEMAP === '1',
       copyPublicDir: false,
       rolldownOptions: {
         external: ['electron', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)],

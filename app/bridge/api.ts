@@ -12,9 +12,9 @@
  * user through native dialogs. The only path the renderer may pass is one from `recentFiles()`.
  */
 import type { Issue } from '../engine/errors';
-import type { MenuCommand } from './commands';
+import type { UiCommand } from './commands';
 
-export type { MenuCommand } from './commands';
+export type { MenuCommand, UiCommand } from './commands';
 export type { Issue } from '../engine/errors';
 
 export type ShellKind = 'desktop' | 'browser';
@@ -96,12 +96,17 @@ export interface SlewsmithBridge {
   /** Writes to the current document's path, or asks for one when there is none. */
   saveScenario(scenario: unknown): Promise<SaveResult>;
   saveScenarioAs(scenario: unknown): Promise<SaveResult>;
+  /**
+   * The answer to the shell's 'save-before-close' command: saves like `saveScenario`, and the
+   * shell closes the window when it succeeds. Every other save leaves the window open.
+   */
+  saveBeforeClose(scenario: unknown): Promise<SaveResult>;
   /** Asks where to write (suggesting `suggestedName`) and writes `content` there. */
   exportFile(request: ExportRequest): Promise<ExportResult>;
   recentFiles(): Promise<RecentFile[]>;
   appInfo(): Promise<AppInfo>;
   /** Tell the shell whether there are unsaved edits; it guards close and open with this. */
   setDirty(dirty: boolean): void;
-  /** Menu items and shortcuts; returns an unsubscribe function. */
-  onCommand(listener: (command: MenuCommand) => void): () => void;
+  /** Menu items, shortcuts and the shell's own requests; returns an unsubscribe function. */
+  onCommand(listener: (command: UiCommand) => void): () => void;
 }

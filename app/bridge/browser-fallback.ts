@@ -6,17 +6,18 @@
  *
  * Pages never see paths, so every FileRef has `path: null` and there is no recent-files list.
  */
-import type { AppInfo, ExportResult, MenuCommand, OpenResult, SaveResult, SlewsmithBridge } from './api';
+import type { AppInfo, ExportResult, OpenResult, SaveResult, SlewsmithBridge, UiCommand } from './api';
 import {
   checkExportRequest,
   checkFileName,
   checkScenarioForSave,
-  parseScenarioText,
+  parseScenarioBytes,
   UNTITLED_SCENARIO,
   withJsonExtension,
   type ScenarioValidator,
 } from './checks';
 import { commandForChord } from './commands';
+import { checkScenarioSize } from './scenario-bytes';
 
 export interface BrowserBridgeOptions {
   validateScenario: ScenarioValidator;
@@ -39,7 +40,7 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
   const doc = win.document;
   let name = UNTITLED_SCENARIO;
   let dirty = false;
-  let demoText: Promise<string | null> | null = null;
+  let demoBytes: Promise<Uint8Array | null> | null = null;
 
   // The page's own unsaved-changes guard: the browser shows its standard leave-page question.
   win.addEventListener('beforeunload', (event) => {
@@ -85,9 +86,10 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
     });
   }
 
-  async function openText(fileName: string, text: string, template: boolean): Promise<OpenResult> {
+  /** Bytes, not File.text(): text() would turn invalid UTF-8 into replacement characters. */
+  async function openBytes(fileName: string, bytes: Uint8Array, template: boolean): Promise<OpenResult> {
     const file = { path: null, name: fileName };
-    const v = parseScenarioText(text, o.validateScenario);
+    const v = parseScenarioBytes(bytes, o.validateScenario, o.limits.scenarioBytes);
     if (!v.ok) return { status: 'invalid', file, errors: v.errors, warnings: v.warnings };
     name = fileName;
     dirty = false;
@@ -104,7 +106,7 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
   }
 
   const isMac = /Mac|iPhone|iPad/.test(win.navigator.platform);
-  const listeners = new Set<(command: MenuCommand) => void>();
+  const listeners = new Set<(command: UiCommand) => void>();
   win.addEventListener(
     'keydown',
     (event) => {
@@ -125,17 +127,11 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       if (!confirmDiscard('open another scenario')) return { status: 'cancelled' };
       const file = await pickFile();
       if (!file) return { status: 'cancelled' };
-      if (file.size > o.limits.scenarioBytes)
-        return {
-          status: 'invalid',
-          file: { path: null, name: file.name },
-          errors: [
-            { path: '', rule: 'max-size', message: `the file is ${file.size} bytes; a scenario is at most ${o.limits.scenarioBytes}` },
-          ],
-          warnings: [],
-        };
+      // Refuse an oversized file before reading it into memory.
+      const tooBig = checkScenarioSize(file.size, o.limits.scenarioBytes);
+      if (tooBig.length) return { status: 'invalid', file: { path: null, name: file.name }, errors: tooBig, warnings: [] };
       try {
-        return await openText(file.name, await file.text(), false);
+        return await openBytes(file.name, new Uint8Array(await file.arrayBuffer()), false);
       } catch (e) {
         return { status: 'failed', message: `Could not read ${file.name}: ${(e as Error).message}` };
       }
@@ -147,13 +143,13 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       const demoUrl = o.demoUrl;
       if (!demoUrl) return { status: 'none' };
       // Fetched once; each call reopens it (see the interface).
-      demoText ??= win
+      demoBytes ??= win
         .fetch(new URL(demoUrl, doc.baseURI))
-        .then((res) => (res.ok ? res.text() : null))
+        .then(async (res) => (res.ok ? new Uint8Array(await res.arrayBuffer()) : null))
         .catch(() => null);
-      const text = await demoText;
-      if (text === null) return { status: 'none' };
-      return openText(demoUrl.split('/').pop() ?? UNTITLED_SCENARIO, text, true);
+      const bytes = await demoBytes;
+      if (bytes === null) return { status: 'none' };
+      return openBytes(demoUrl.split('/').pop() ?? UNTITLED_SCENARIO, bytes, true);
     },
     async newScenario() {
       if (!confirmDiscard('start a new scenario')) return { status: 'cancelled' };
@@ -162,6 +158,10 @@ export function createBrowserBridge(o: BrowserBridgeOptions): SlewsmithBridge {
       return { status: 'created' };
     },
     async saveScenario(scenario) {
+      return save(scenario, name);
+    },
+    // The page's close guard is the browser's own (beforeunload); this only mirrors the desktop API.
+    async saveBeforeClose(scenario) {
       return save(scenario, name);
     },
     async saveScenarioAs(scenario) {

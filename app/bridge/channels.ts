@@ -12,6 +12,7 @@ export const InvokeChannels = {
   newScenario: 'slewsmith:scenario/new',
   saveScenario: 'slewsmith:scenario/save',
   saveScenarioAs: 'slewsmith:scenario/save-as',
+  saveBeforeClose: 'slewsmith:scenario/save-before-close',
   exportFile: 'slewsmith:export/file',
   recentFiles: 'slewsmith:recent/list',
   appInfo: 'slewsmith:app/info',
@@ -23,7 +24,7 @@ export const NotifyChannels = {
 } as const;
 
 export const EventChannels = {
-  /** A menu item or accelerator fired; the payload is a MenuCommand name. */
+  /** A menu item or accelerator fired, or the shell asks for something; the payload is a UiCommand name. */
   command: 'slewsmith:menu/command',
 } as const;
 

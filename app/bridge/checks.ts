@@ -6,6 +6,7 @@
  */
 import { issue, type Issue, type Result } from '../engine/errors';
 import type { ExportRequest } from './api';
+import { parseScenarioDocument, scenarioDocumentFromBytes } from './scenario-bytes';
 
 /** Checks a scenario's JSON; the real one is validateScenario from app/engine/scenario. */
 export type ScenarioValidator = (json: unknown) => Result<unknown>;
@@ -106,12 +107,19 @@ export function checkScenarioForSave(v: unknown, validate: ScenarioValidator, ma
 
 /** Parses and validates a scenario file's text; every outcome is a result. */
 export function parseScenarioText(text: string, validate: ScenarioValidator): Result<unknown> {
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    return { ok: false, errors: [issue('', 'json-syntax', `the file is not valid JSON: ${(e as Error).message}`)], warnings: [] };
-  }
+  const doc = parseScenarioDocument(text);
+  if (!doc.ok) return doc;
+  return validated(doc.value.json, validate);
+}
+
+/** A scenario file's bytes (size, UTF-8, JSON object), then the validator; every outcome is a result. */
+export function parseScenarioBytes(bytes: Uint8Array, validate: ScenarioValidator, maxBytes: number): Result<unknown> {
+  const doc = scenarioDocumentFromBytes(bytes, maxBytes);
+  if (!doc.ok) return doc;
+  return validated(doc.value.json, validate);
+}
+
+function validated(json: unknown, validate: ScenarioValidator): Result<unknown> {
   const v = validate(json);
   return v.ok ? { ok: true, value: json, warnings: v.warnings } : v;
 }

@@ -23,6 +23,19 @@ export function isMenuCommand(v: unknown): v is MenuCommand {
   return typeof v === 'string' && (MENU_COMMANDS as readonly string[]).includes(v);
 }
 
+/**
+ * Commands only the shell sends, never a menu item: 'save-before-close' asks the UI to save for a
+ * waiting close (it answers with `saveBeforeClose`, so an ordinary Save can never close the window).
+ */
+export const SHELL_COMMANDS = ['save-before-close'] as const;
+export type ShellCommand = (typeof SHELL_COMMANDS)[number];
+/** Everything the UI's command listener can receive. */
+export type UiCommand = MenuCommand | ShellCommand;
+
+export function isUiCommand(v: unknown): v is UiCommand {
+  return isMenuCommand(v) || (typeof v === 'string' && (SHELL_COMMANDS as readonly string[]).includes(v));
+}
+
 export interface KeyChord {
   key: string;
   ctrlKey: boolean;

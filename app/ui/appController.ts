@@ -6,7 +6,7 @@
  */
 import type { Issue } from '../engine/errors';
 import type { PipelineOutput } from '../engine/pipeline/types';
-import type { MenuCommand, OpenResult, SlewsmithBridge } from '../bridge/api';
+import type { OpenResult, SaveResult, SlewsmithBridge, UiCommand } from '../bridge/api';
 import { createStore, type Store } from './store/createStore';
 import { createAppStore, type AppStore } from './store/document';
 import { createClock, type PlaybackClock } from './playback/clock';
@@ -24,7 +24,7 @@ export interface AppController {
   clock: PlaybackClock;
   ui: Store<UiFlags>;
   bridge: SlewsmithBridge;
-  command(c: MenuCommand): void;
+  command(c: UiCommand): void;
   /** Open a file from the shell's recent list (desktop only). */
   openRecent(path: string): void;
   /** Ids of the scenario's controllers being compared (sent as runPipeline's `controllers`). */
@@ -159,15 +159,32 @@ export function createAppController(o: AppControllerOptions): AppController {
     else if (r.status === 'failed') notify(r.message, 'error');
   }
 
-  async function save(as: boolean) {
+  /**
+   * Every save ends in a notice. A rejected bridge call (a refused message, a scenario the IPC
+   * cannot clone, a crash in the shell) is a failed save like any other: the document stays dirty.
+   * `forClose` answers the shell's close-with-save, which closes the window only on success.
+   */
+  async function save(as: boolean, forClose = false) {
     const s = store.getState();
-    const r = as || s.untitled ? await bridge.saveScenarioAs(s.scenario) : await bridge.saveScenario(s.scenario);
+    let r: SaveResult;
+    try {
+      // Main knows the document's path: for an untitled one, saveBeforeClose asks where to write.
+      if (forClose) r = await bridge.saveBeforeClose(s.scenario);
+      else r = as || s.untitled ? await bridge.saveScenarioAs(s.scenario) : await bridge.saveScenario(s.scenario);
+    } catch (e) {
+      r = { status: 'failed', message: e instanceof Error ? e.message : String(e) };
+    }
     if (r.status === 'saved') {
       // Only the snapshot that was sent counts as saved, even if edits happened meanwhile.
       if (store.getState().scenario === s.scenario) store.markSaved(r.file.name);
       notify(`Saved ${r.file.name}`);
     } else if (r.status === 'invalid') notify(`Not saved: ${issuesText(r.errors)}`, 'error');
     else if (r.status === 'failed') notify(`Not saved: ${r.message}`, 'error');
+  }
+
+  /** A rejected open/new is reported, never dropped. */
+  function reportFailure(what: string) {
+    return (e: unknown) => notify(`${what} failed: ${e instanceof Error ? e.message : String(e)}`, 'error');
   }
 
   async function newDocument() {
@@ -179,7 +196,7 @@ export function createAppController(o: AppControllerOptions): AppController {
     request(true);
   }
 
-  function command(c: MenuCommand) {
+  function command(c: UiCommand) {
     switch (c) {
       case 'undo':
         store.undo();
@@ -191,16 +208,19 @@ export function createAppController(o: AppControllerOptions): AppController {
         request(true);
         break;
       case 'new':
-        void newDocument();
+        void newDocument().catch(reportFailure('New'));
         break;
       case 'open':
-        void bridge.openScenario().then(applyOpen);
+        void bridge.openScenario().then(applyOpen, reportFailure('Open'));
         break;
       case 'save':
         void save(false);
         break;
       case 'save-as':
         void save(true);
+        break;
+      case 'save-before-close':
+        void save(false, true);
         break;
       case 'export':
         ui.setState({ exportOpen: true });
@@ -210,10 +230,16 @@ export function createAppController(o: AppControllerOptions): AppController {
 
   const offCommand = bridge.onCommand(command);
   // The shell's document (the demo under `npm start`), else keep the bundled fallback.
-  void bridge.initialScenario().then((r) => {
-    if (r.status === 'none') request(true);
-    else applyOpen(r);
-  });
+  void bridge.initialScenario().then(
+    (r) => {
+      if (r.status === 'none') request(true);
+      else applyOpen(r);
+    },
+    (e: unknown) => {
+      reportFailure('Opening the first scenario')(e);
+      request(true);
+    },
+  );
 
   return {
     store,
@@ -222,7 +248,7 @@ export function createAppController(o: AppControllerOptions): AppController {
     bridge,
     command,
     openRecent(path) {
-      void bridge.openRecent(path).then(applyOpen);
+      void bridge.openRecent(path).then(applyOpen, reportFailure('Open'));
     },
     comparedIds,
     blockers,

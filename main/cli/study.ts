@@ -10,11 +10,12 @@
 import { Worker } from 'node:worker_threads';
 import os from 'node:os';
 import path from 'node:path';
-import { mkdir } from 'node:fs/promises';
 import type { ParsedArgs } from './args';
 import { printIssues, type CliIo } from './io';
 import { table } from './format';
 import { writeFileAtomicNode } from './fs';
+import { numberOptions, STUDY_LIMITS } from './options';
+import { prepareOutputFolder } from './output';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { StudyOverrides } from '../../app/engine/study/context';
 import { startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
@@ -48,16 +49,6 @@ export function threadPort(): { port: StudyWorkerPort; worker: Worker } {
     },
   };
   return { port, worker };
-}
-
-function parseCount(v: string | undefined, name: string, lo: number, hi: number, errors: string[]): number | undefined {
-  if (v === undefined) return undefined;
-  const n = Number(v);
-  if (!/^\s*\d+\s*$/.test(v) || !Number.isInteger(n) || n < lo || n > hi) {
-    errors.push(`--${name} must be a whole number from ${lo} to ${hi} (got "${v}")`);
-    return undefined;
-  }
-  return n;
 }
 
 const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
@@ -140,20 +131,27 @@ function progressLine(p: StudyProgress): string {
 }
 
 export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Promise<number> {
-  const bad: string[] = [];
-  const runs = parseCount(a.values.runs, 'runs', 1, 1_000_000, bad);
-  const seed = parseCount(a.values.seed, 'seed', 0, 4294967295, bad);
-  const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
-  const workersAsked = parseCount(a.values.workers, 'workers', 1, 64, bad);
-  if (bad.length) {
-    for (const b of bad) io.err(`error: ${b}`);
+  const n = numberOptions(a.values, STUDY_LIMITS);
+  if (!n.ok) {
+    for (const b of n.messages) io.err(`error: ${b}`);
     return 2;
   }
+  const { runs, seed, workers: workersAsked } = n.values;
+  const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
   const overrides: StudyOverrides = {};
   if (runs !== undefined) overrides.runs = runs;
   if (seed !== undefined) overrides.seed = seed;
   if (a.lists.controller) overrides.controllers = a.lists.controller;
-  if (a.values.case !== undefined) return writeCase(json, overrides, a, io);
+  // Make and probe the output folder before any work: a bad --out fails at once.
+  const outDir = a.values.out;
+  if (outDir !== undefined) {
+    const ready = await prepareOutputFolder(outDir, '--out');
+    if (!ready.ok) {
+      io.err(`error: ${ready.message}`);
+      return 2;
+    }
+  }
+  if (n.values.case !== undefined) return writeCase(json, overrides, n.values.case, outDir, io);
 
   // Never more workers than cases (the file's runs are known only after validation: cap later).
   const nWorkers = Math.max(1, Math.min(workersAsked ?? cores, runs ?? Infinity));
@@ -211,9 +209,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     );
     io.out(`\n${CAUTION_TEXT}`);
   }
-  const outDir = a.values.out;
   if (outDir) {
-    await mkdir(outDir, { recursive: true });
     const files: [string, string][] = [
       [path.join(outDir, 'cases.csv'), casesCsv(o.info, o.records, o.summary)],
       [path.join(outDir, 'summary.json'), summaryJson(o.info, o.summary, o.records)],
@@ -235,25 +231,18 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
 }
 
 /** `--case N`: one case as a normal scenario file. */
-async function writeCase(json: unknown, overrides: StudyOverrides, a: ParsedArgs, io: CliIo): Promise<number> {
-  const bad: string[] = [];
-  const index = parseCount(a.values.case, 'case', 0, 0x0fffffff, bad);
-  if (index === undefined) {
-    for (const b of bad) io.err(`error: ${b}`);
-    return 2;
-  }
+async function writeCase(json: unknown, overrides: StudyOverrides, index: number, outDir: string | undefined, io: CliIo): Promise<number> {
   const r = studyCaseScenario(json, overrides, index);
   if (!r.ok) {
     printIssues(io, `case ${index} cannot be written`, r.errors);
     return 2;
   }
   const text = JSON.stringify(r.value, null, 2) + '\n';
-  if (!a.values.out) {
+  if (!outDir) {
     io.out(text.trimEnd());
     return 0;
   }
-  await mkdir(a.values.out, { recursive: true });
-  const file = path.join(a.values.out, `study-case-${index}.scenario.json`);
+  const file = path.join(outDir, `study-case-${index}.scenario.json`);
   const w = await writeFileAtomicNode(file, text);
   if (!w.ok) {
     io.err(`error: could not write ${file}: ${w.message}`);

@@ -209,17 +209,45 @@ describe('close guard', () => {
     docs.setDirty(true);
     dialogs.messageAnswers.push(0);
     expect(await docs.requestClose()).toBe('keep');
-    expect(events).toEqual(['command save']);
+    expect(events).toEqual(['command save-before-close']);
     // The renderer answers the command with a save; the user cancels the dialog: stay open.
     dialogs.saveAnswers.push({ canceled: true });
-    await docs.saveScenario(GOOD_SCENARIO);
-    expect(events).toEqual(['command save']);
+    await docs.saveBeforeClose(GOOD_SCENARIO);
+    expect(events).toEqual(['command save-before-close']);
     // Second attempt, saved this time: the window closes.
     dialogs.messageAnswers.push(0);
     await docs.requestClose();
     dialogs.saveAnswers.push({ canceled: false, filePath: path.join(dir, 'final.json') });
+    expect((await docs.saveBeforeClose(GOOD_SCENARIO)).status).toBe('saved');
+    expect(events).toEqual(['command save-before-close', 'command save-before-close', 'close']);
+  });
+
+  it('a close-with-save that never completes does not make the next ordinary Save close the window', async () => {
+    const { docs, dialogs, events } = setup();
+    const p = await writeScenario('work.json');
+    dialogs.openAnswers.push({ canceled: false, filePaths: [p] });
+    await docs.openScenario();
+    docs.setDirty(true);
+    dialogs.messageAnswers.push(0); // Save
+    expect(await docs.requestClose()).toBe('keep');
+    // The renderer never answers (its save failed before reaching main). Later the user saves.
     expect((await docs.saveScenario(GOOD_SCENARIO)).status).toBe('saved');
-    expect(events).toEqual(['command save', 'command save', 'close']);
+    expect(events).toEqual(['command save-before-close']);
+    // A save-before-close that throws inside main ends the waiting close too.
+    docs.setDirty(true);
+    dialogs.messageAnswers.push(0);
+    await docs.requestClose();
+    const throwing = { ...GOOD_SCENARIO };
+    Object.defineProperty(throwing, 'format', {
+      enumerable: true,
+      get() {
+        throw new Error('getter blew up');
+      },
+    });
+    await expect(docs.saveBeforeClose(throwing)).rejects.toThrow('getter blew up');
+    expect((await docs.saveScenario(GOOD_SCENARIO)).status).toBe('saved');
+    expect((await docs.saveBeforeClose(GOOD_SCENARIO)).status).toBe('saved');
+    expect(events).toEqual(['command save-before-close', 'command save-before-close']);
   });
 });
 

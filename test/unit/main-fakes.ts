@@ -9,18 +9,21 @@ import { fail, issue, ok, type Result } from '../../app/engine/errors';
 import type { AtomicFileHandle } from '../../main/atomic-write';
 import type { Dialogs, DocumentFs } from '../../main/documents';
 import type { IpcMainLike, SenderEvent } from '../../main/ipc';
+import type { RecentFilesFs } from '../../main/recent-files';
 
 export type FsStep = 'open' | 'writeFile' | 'sync' | 'close' | 'rename';
 
 /** node:fs/promises, except that `failAt` throws an EIO-like error (only for files, not folders). */
-export function failingFs(failAt: FsStep | null, calls: string[] = []): DocumentFs & { calls: string[] } {
+export function failingFs(failAt: FsStep | null, calls: string[] = []): DocumentFs & RecentFilesFs & { calls: string[] } {
   const boom = (step: string) => Object.assign(new Error(`injected failure at ${step}`), { code: 'EIO' });
+  // Bytes for the scenario reader, text for the recent-files list.
+  const readFile = ((p: string, enc?: 'utf8') => {
+    calls.push(`readFile ${path.basename(p)}`);
+    return enc ? fsp.readFile(p, enc) : fsp.readFile(p);
+  }) as DocumentFs['readFile'] & RecentFilesFs['readFile'];
   return {
     calls,
-    readFile: (p, enc) => {
-      calls.push(`readFile ${path.basename(p)}`);
-      return fsp.readFile(p, enc);
-    },
+    readFile,
     stat: (p) => fsp.stat(p),
     unlink: (p) => {
       calls.push(`unlink ${path.basename(p)}`);

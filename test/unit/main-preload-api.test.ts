@@ -44,6 +44,7 @@ describe('desktop bridge', () => {
         'openRecent',
         'openScenario',
         'recentFiles',
+        'saveBeforeClose',
         'saveScenario',
         'saveScenarioAs',
         'setDirty',
@@ -64,6 +65,7 @@ describe('desktop bridge', () => {
     await b.newScenario();
     await loose.saveScenario({ s: 1 }, 'smuggled');
     await b.saveScenarioAs({ s: 2 });
+    await b.saveBeforeClose({ s: 3 });
     await b.exportFile({ suggestedName: 'a.csv', content: 'x', extra: 'dropped' } as never);
     await b.recentFiles();
     await b.appInfo();
@@ -76,6 +78,7 @@ describe('desktop bridge', () => {
       { kind: 'invoke', channel: InvokeChannels.newScenario, args: [] },
       { kind: 'invoke', channel: InvokeChannels.saveScenario, args: [{ s: 1 }] },
       { kind: 'invoke', channel: InvokeChannels.saveScenarioAs, args: [{ s: 2 }] },
+      { kind: 'invoke', channel: InvokeChannels.saveBeforeClose, args: [{ s: 3 }] },
       { kind: 'invoke', channel: InvokeChannels.exportFile, args: [{ suggestedName: 'a.csv', content: 'x' }] },
       { kind: 'invoke', channel: InvokeChannels.recentFiles, args: [] },
       { kind: 'invoke', channel: InvokeChannels.appInfo, args: [] },
@@ -92,10 +95,11 @@ describe('desktop bridge', () => {
     f.emit(EventChannels.command, 'save');
     f.emit(EventChannels.command, 'format-disk');
     f.emit(EventChannels.command, 42);
-    expect(got).toEqual([['save']]);
+    f.emit(EventChannels.command, 'save-before-close');
+    expect(got).toEqual([['save'], ['save-before-close']]);
     off();
     f.emit(EventChannels.command, 'run');
-    expect(got).toEqual([['save']]);
+    expect(got).toEqual([['save'], ['save-before-close']]);
     expect(f.listeners.get(EventChannels.command)?.size).toBe(0);
   });
 

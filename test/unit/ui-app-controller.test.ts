@@ -6,7 +6,7 @@
  */
 import { describe, expect, it, vi } from 'vitest';
 import { runPipeline } from '../../app/engine/pipeline/run';
-import type { MenuCommand, SlewsmithBridge } from '../../app/bridge/api';
+import type { SlewsmithBridge, UiCommand } from '../../app/bridge/api';
 import { createAppController } from '../../app/ui/appController';
 import type { WorkerLike } from '../../app/ui/worker/client';
 import type { RunReply, RunRequest } from '../../app/ui/worker/protocol';
@@ -32,7 +32,7 @@ class InlineWorker implements WorkerLike {
 }
 
 function fakeBridge() {
-  const listeners = new Set<(c: MenuCommand) => void>();
+  const listeners = new Set<(c: UiCommand) => void>();
   const dirty: boolean[] = [];
   const saved: unknown[] = [];
   const bridge: SlewsmithBridge = {
@@ -43,13 +43,14 @@ function fakeBridge() {
     newScenario: async () => ({ status: 'created' }),
     saveScenario: async (s) => (saved.push(s), { status: 'saved', file: { path: null, name: 'a.json' } }),
     saveScenarioAs: async (s) => (saved.push(s), { status: 'saved', file: { path: null, name: 'b.json' } }),
+    saveBeforeClose: async (s) => (saved.push(s), { status: 'saved', file: { path: null, name: 'c.json' } }),
     exportFile: async (r) => ({ status: 'exported', file: { path: null, name: r.suggestedName } }),
     recentFiles: async () => [],
     appInfo: async () => ({ name: 'Slewsmith', version: '0', shell: 'browser', platform: 'test', versions: {} }),
     setDirty: (d) => void dirty.push(d),
     onCommand: (l) => (listeners.add(l), () => listeners.delete(l)),
   };
-  return { bridge, dirty, saved, send: (c: MenuCommand) => listeners.forEach((l) => l(c)) };
+  return { bridge, dirty, saved, send: (c: UiCommand) => listeners.forEach((l) => l(c)) };
 }
 
 function setup() {
@@ -162,6 +163,44 @@ describe('app controller', () => {
     await vi.waitFor(() => expect(app.store.getState().fileName).toBe('a.json'));
     send('export');
     expect(app.ui.getState().exportOpen).toBe(true);
+    app.dispose();
+  });
+
+  it('a save whose bridge call rejects shows an error notice and keeps the document dirty (no unhandled rejection)', async () => {
+    const { app, send, bridge, dirty } = setup();
+    await done(app);
+    const unhandled: unknown[] = [];
+    const onUnhandled = (e: unknown) => unhandled.push(e);
+    process.on('unhandledRejection', onUnhandled);
+    // What a refused IPC message or an uncloneable scenario looks like from the renderer.
+    bridge.saveScenarioAs = async () => {
+      throw new Error("Error invoking remote method 'slewsmith:scenario/save-as': refused");
+    };
+    bridge.openScenario = async () => {
+      throw new Error('open refused');
+    };
+    app.store.edit('vehicle.controlRateHz', 5);
+    send('save');
+    await vi.waitFor(() => expect(app.ui.getState().notice?.kind).toBe('error'));
+    expect(app.ui.getState().notice?.text).toMatch(/^Not saved: .*refused/);
+    expect(app.store.getState().dirty).toBe(true);
+    expect(dirty.at(-1)).toBe(true);
+    send('open');
+    await vi.waitFor(() => expect(app.ui.getState().notice?.text).toBe('Open failed: open refused'));
+    await new Promise((r) => setTimeout(r, 20));
+    process.off('unhandledRejection', onUnhandled);
+    expect(unhandled).toEqual([]);
+    app.dispose();
+  });
+
+  it("answers the shell's save-before-close with saveBeforeClose, never with an ordinary save", async () => {
+    const { app, send, saved } = setup();
+    await done(app);
+    app.store.edit('vehicle.controlRateHz', 6);
+    send('save-before-close');
+    await vi.waitFor(() => expect(app.store.getState().fileName).toBe('c.json'));
+    expect(saved).toHaveLength(1);
+    expect(app.store.getState().dirty).toBe(false);
     app.dispose();
   });
 });

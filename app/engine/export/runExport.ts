@@ -20,6 +20,8 @@ export interface RunExportOptions {
   sampleRateHz?: number;
   /** AEM CREATION_DATE; default now (UTC, whole seconds). */
   creationDateUtc?: string;
+  /** AEM MESSAGE_ID; default the writer's (object name and creation date). */
+  messageId?: string;
 }
 
 export function exportRun(format: ExportFormat, run: ControllerRun, out: PipelineOutput, o: RunExportOptions): Result<string> {
@@ -35,5 +37,5 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
   if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   const created = o.creationDateUtc ?? new Date().toISOString().replace(/\.\d{3}Z$/, 'Z');
-  return writeAem(run.trace, out.scenario, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz });
+  return writeAem(run.trace, out.scenario, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz, messageId: o.messageId });
 }

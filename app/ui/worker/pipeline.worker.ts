@@ -3,6 +3,8 @@
  * Runs the engine's pipeline off the UI thread. One request at a time; the client (client.ts)
  * keeps only the newest request waiting and discards replies that are no longer wanted.
  */
+// First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
+import '../../no-eval';
 import { runPipeline } from '../../engine/pipeline/run';
 import type { RunReply, RunRequest } from './protocol';
 import { transferables } from './protocol';

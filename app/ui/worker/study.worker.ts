@@ -4,6 +4,8 @@
  * context once and runs the chunks of cases it is sent), plus the one-off "case as a scenario"
  * request the study view uses to open a worst case as a normal run.
  */
+// First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
+import '../../no-eval';
 import { createStudyWorker, studyCaseScenario } from '../../engine/study';
 import type { FromStudyWorker, ToStudyWorker } from '../study/protocol';
 

@@ -1,0 +1,92 @@
+/**
+ * `slewsmith certify`: the synergy-gap certificate of each selected synergistic controller.
+ *
+ * Exit status by what failed, never by the wording of a message:
+ * - 2, invalid input: the scenario does not validate, the vehicle cannot be built, a controller's
+ *   own specification is refused (a hysteresis ≤ 0 or ≥ 1 is a bad number, not a certificate
+ *   verdict), an unknown --controller id, or no synergistic controller to certify;
+ * - 1, certificate refused: only what the certificate itself reports (`certified` or `admissible`
+ *   false in its result). Each controller is built with `requireCertificate: false` so that its
+ *   certificate is always computed and returned rather than turned into build errors.
+ */
+import { loadScenario } from '../../app/engine/scenario/resolve';
+import { buildVehicle } from '../../app/engine/pipeline/build';
+import { buildController } from '../../app/engine/control/registry';
+import type { CertificateResult } from '../../app/engine/control/certificate';
+import type { Issue } from '../../app/engine/errors';
+import type { ParsedArgs } from './args';
+import { printIssues, type CliContext } from './io';
+
+interface Certified {
+  id: string;
+  label: string;
+  certificate: CertificateResult;
+}
+
+function print(c: Certified, json: boolean, ctx: CliContext): void {
+  const { io } = ctx;
+  const k = c.certificate;
+  if (json) {
+    io.out(JSON.stringify({ controller: c.id, ...k }, null, 2));
+    return;
+  }
+  io.out(`${c.label} [${c.id}]: ${k.summary}`);
+  io.out(
+    `  δ* = ${k.deltaStar.toFixed(6)} (±${k.deltaStarTolerance.toExponential(1)}), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${k.recommendedDelta.toFixed(4)}`,
+  );
+  io.out(`  diffeomorphism margin min(1 + gᵀu) = ${k.diffeomorphismMargin.toFixed(6)}`);
+  const rows = k.criticalPoints.filter((cp) => cp.target > 0);
+  io.out('  undesired critical points (member q, Φ critical point i, warp angle θ*, V at the point, gap μ, jump to):');
+  for (const cp of rows)
+    io.out(
+      `    q=${cp.member} i=${cp.target}  θ*=${cp.warpAngle.toFixed(6)}  V=(${cp.potentials.map((v) => v.toFixed(6)).join(', ')})  μ=${cp.gap.toFixed(6)}  → ${cp.jumpTo}`,
+    );
+  for (const w of k.warnings) io.err(`warning: ${w.message}`);
+}
+
+export async function runCertify(file: string, json: unknown, a: ParsedArgs, ctx: CliContext): Promise<number> {
+  const { io } = ctx;
+  const invalid = (errors: readonly Issue[]) => {
+    printIssues(io, `${file} is not valid (invalid input, not a certificate verdict)`, errors);
+    return 2;
+  };
+  const loaded = loadScenario(json);
+  if (!loaded.ok) return invalid(loaded.errors);
+  const s = loaded.value;
+  const vehicle = buildVehicle(s.vehicle);
+  if (!vehicle.ok) return invalid(vehicle.errors);
+  const only = a.lists.controller;
+  const unknown = (only ?? []).filter((id) => !s.controllers.some((c) => c.id === id));
+  if (unknown.length)
+    return invalid(
+      unknown.map((id) => ({
+        path: 'controllers',
+        rule: 'unknown-id',
+        message: `no controller with id "${id}" in the scenario (have: ${s.controllers.map((c) => c.id).join(', ')})`,
+      })),
+    );
+  const errors: Issue[] = [];
+  const certified: Certified[] = [];
+  s.controllers.forEach((c, i) => {
+    if (only && !only.includes(c.id)) return;
+    const built = buildController({ ...c, requireCertificate: false }, vehicle.value.design, `controllers[${i}]`);
+    if (!built.ok) errors.push(...built.errors);
+    else if (built.value.certificate) certified.push({ id: c.id, label: c.label, certificate: built.value.certificate });
+  });
+  if (errors.length) return invalid(errors);
+  if (certified.length === 0) {
+    io.err('error: no synergistic controller in the selection: nothing to certify');
+    return 2;
+  }
+  let status = 0;
+  for (const c of certified) {
+    print(c, a.flags.has('json'), ctx);
+    const k = c.certificate;
+    if (!k.certified || !k.admissible) {
+      status = 1;
+      if (k.issues.length) printIssues(io, `certificate refused for ${c.label} [${c.id}]`, k.issues);
+      else io.err(`certificate refused for ${c.label} [${c.id}]`);
+    }
+  }
+  return status;
+}

@@ -1,0 +1,41 @@
+/**
+ * The work of the commands that need the engine, loaded by index.ts on first use (see `work`
+ * there). check and plan live here; the others have their own modules and are re-exported.
+ */
+import { preparePipeline } from '../../app/engine/pipeline/run';
+import { planSummary } from '../../app/engine/pipeline/plan';
+import { CAUTION_TEXT } from '../../app/engine/caution';
+import type { ParsedArgs } from './args';
+import { planTable } from './format';
+import { printIssues, type CliContext } from './io';
+
+export { scenarioJsonSchema } from '../../app/engine/scenario/schema';
+export { runCertify } from './certify';
+export { runCompare, runFly } from './fly';
+export { runStudyCli } from './study';
+
+export async function runCheck(file: string, json: unknown, { io }: CliContext): Promise<number> {
+  const p = preparePipeline(json);
+  if (!p.ok) {
+    printIssues(io, `${file} is not valid`, p.errors);
+    return 2;
+  }
+  for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
+  const s = p.value.scenario;
+  io.out(
+    `${file}: valid. "${s.name}", ${s.vehicle.wheels.length} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
+  );
+  return 0;
+}
+
+export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }: CliContext): Promise<number> {
+  const p = preparePipeline(json);
+  if (!p.ok) {
+    printIssues(io, `${file} is not valid`, p.errors);
+    return 2;
+  }
+  const plan = planSummary(p.value.plan, p.value.scenario.targets);
+  if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
+  else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
+  return plan.feasible ? 0 : 1;
+}

@@ -1,0 +1,7 @@
+// Entry of the fly/compare simulation thread. Worker threads start without the parent's TypeScript
+// loader, so register tsx here (resolved from this file, whatever the working directory) and then
+// load the TypeScript worker.
+import { register } from 'tsx/esm/api';
+
+register();
+await import('./compute-worker.ts');
