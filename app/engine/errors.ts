@@ -13,6 +13,8 @@ export interface Issue {
   rule: string;
   /** A sentence for a person: names the field, the rule and, where useful, the value found. */
   message: string;
+  /** Only on the summary issue of a capped list (rule 'more'): how many problems it stands for. */
+  count?: number;
 }
 
 export type Result<T> = { ok: true; value: T; warnings: Issue[] } | { ok: false; errors: Issue[]; warnings: Issue[] };

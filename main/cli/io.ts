@@ -25,12 +25,16 @@ export interface CliContext {
 export const MAX_LISTED_ISSUES = 40;
 
 /** A titled, indented list of problems on stderr, each with its field path and rule. */
-export function printIssues(io: CliIo, title: string, issues: readonly Issue[]): void {
-  io.err(`${title} (${issues.length} problem${issues.length === 1 ? '' : 's'}):`);
+export function printIssues(io: CliIo, title: string, all: readonly Issue[]): void {
+  // The engine caps long lists with one summary issue that counts the rest.
+  const summary = all.at(-1)?.rule === 'more' ? all.at(-1)! : null;
+  const issues = summary ? all.slice(0, -1) : all;
+  const total = issues.length + (summary?.count ?? 0);
+  io.err(`${title} (${total} problem${total === 1 ? '' : 's'}):`);
   const shown = issues.slice(0, MAX_LISTED_ISSUES);
   // One line per problem, however long or multi-line a message is.
   const lines = formatIssues(shown.map((i) => ({ ...i, path: oneLine(i.path, 200), message: oneLine(i.message, 400) }))).split('\n');
-  const rest = issues.length - shown.length;
+  const rest = total - shown.length;
   if (rest > 0) lines.push(`… and ${rest} more problem${rest === 1 ? '' : 's'}`);
   io.err(lines.map((l) => `  ${l}`).join('\n'));
 }

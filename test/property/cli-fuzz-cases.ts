@@ -126,7 +126,7 @@ export function scenarioArb(bases: Record<string, string>) {
 /** Values each option is given: the first ones are good, the rest bad; `benign` cases use good ones only. */
 const OPTION_VALUES: Record<string, string[]> = {
   rate: ['0.5', '2', '10', '0.001', 'Infinity', '1e-320', 'abc', '-1', '0', '11', '1e308', 'NaN', ''],
-  mode: ['profiled', 'direct', 'both', 'sideways'],
+  mode: ['follow-plan', 'step-target', 'both', 'sideways'],
   format: ['csv', 'aem', 'json,aem', 'xml', ''],
   controller: ['pd', 'hysteretic', 'synergistic', 'nope', 'pd,nope', ''],
   out: ['@OUT@', '@OUT@/nested/deeper', '@TMP@/existing-file', '/proc/fuzz/out', ''],
@@ -215,7 +215,7 @@ export const argsArb = (clean: boolean) =>
       // Keep simulations short: one fast controller unless the case picked its own; study writes one case only.
       if (r.command === 'fly' || r.command === 'compare') {
         if (!names.includes('controller')) args.push('--controller', 'pd');
-        if (!names.includes('mode')) args.push('--mode', 'profiled');
+        if (!names.includes('mode')) args.push('--mode', 'follow-plan');
         if (r.command === 'fly' && !names.includes('out')) args.push('--out', '@OUT@');
       }
       if (r.command === 'study' && !names.includes('case')) args.push('--case', '1');

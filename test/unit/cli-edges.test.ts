@@ -89,10 +89,10 @@ describe('input files', () => {
 describe('certify exit status: by what the certificate reports, not by message text', () => {
   it('an invalid hysteresis is invalid input (2); a hysteresis above the certified gap is a refusal (1)', async () => {
     const cases: [string, (j: Record<string, any>) => void, number, RegExp][] = [
-      ['syn-neg', (j) => (j.controllers[2].hysteresis = -0.1), 2, /invalid input/],
-      ['syn-zero', (j) => (j.controllers[2].hysteresis = 0), 2, /invalid input/],
+      ['syn-neg', (j) => (j.controllers[2].gapThreshold = -0.1), 2, /invalid input/],
+      ['syn-zero', (j) => (j.controllers[2].gapThreshold = 0), 2, /invalid input/],
       ['hyst-big', (j) => (j.controllers[1].hysteresis = 3), 2, /invalid input/],
-      ['syn-above-gap', (j) => (j.controllers[2].hysteresis = 0.5), 1, /certificate refused/],
+      ['syn-above-gap', (j) => (j.controllers[2].gapThreshold = 0.5), 1, /certificate refused/],
     ];
     for (const [name, edit, code, message] of cases) {
       const r = await cli(['certify', await mutated(`${name}.json`, edit)]);
@@ -113,7 +113,7 @@ describe('option values', () => {
       '--controller',
       'pd',
       '--mode',
-      'profiled',
+      'follow-plan',
       '--out',
       path.join(dir, 'fly'),
       ...extra,
@@ -256,10 +256,19 @@ describe('interrupts while writing (in-process)', () => {
 
 describe('reproducible exports', () => {
   const flyAem = async (out: string, extra: string[], env: Record<string, string> = {}) => {
-    const args = ['fly', asset('lumen6-imaging.scenario.json'), '--controller', 'hysteretic', '--mode', 'direct', '--format', 'aem,csv'];
+    const args = [
+      'fly',
+      asset('lumen6-imaging.scenario.json'),
+      '--controller',
+      'hysteretic',
+      '--mode',
+      'step-target',
+      '--format',
+      'aem,csv',
+    ];
     const r = await cli([...args, '--out', path.join(dir, out), ...extra], { env });
     expect(r.code, r.stderr).toBe(0);
-    const read = (ext: string) => fsp.readFile(path.join(dir, out, `lumen6-imaging.hysteretic.direct.${ext}`));
+    const read = (ext: string) => fsp.readFile(path.join(dir, out, `lumen6-imaging.hysteretic.step-target.${ext}`));
     return { aem: await read('aem'), csv: await read('csv') };
   };
 

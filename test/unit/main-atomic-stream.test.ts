@@ -160,7 +160,7 @@ describe('sweepStaleTempFiles', () => {
 
 describe('killed in the middle of a large streamed write (SIGKILL)', () => {
   it('leaves the target as the complete old file, and the next CLI start removes the temp file', async () => {
-    const target = path.join(dir, 'lumen6-imaging.pd.profiled.csv');
+    const target = path.join(dir, 'lumen6-imaging.pd.follow-plan.csv');
     await fsp.writeFile(target, OLD);
     const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'test/unit/fixtures/stream-writer-child.ts'), target], {
       cwd: root,
@@ -190,7 +190,7 @@ describe('killed in the middle of a large streamed write (SIGKILL)', () => {
         '--controller',
         'pd',
         '--mode',
-        'profiled',
+        'follow-plan',
         '--format',
         'csv',
         '--out',

@@ -112,7 +112,10 @@ export function capIssues(list: readonly Issue[], max = MAX_LISTED_ISSUES): Issu
   const rest = list.length - max;
   return [
     ...list.slice(0, max),
-    issue('', 'more', `… and ${rest} more problem${rest === 1 ? '' : 's'} of the same kinds (fix the ones above first)`),
+    {
+      ...issue('', 'more', `… and ${rest} more problem${rest === 1 ? '' : 's'} of the same kinds (fix the ones above first)`),
+      count: rest,
+    },
   ];
 }
 
