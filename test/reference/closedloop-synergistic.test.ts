@@ -31,6 +31,7 @@ import { lyapunovMonitor } from '../../app/engine/metrics/monitor';
 import type { SensorModel } from '../../app/engine/sim/sensors';
 import { fly, law, pyramidVehicle } from './closedloop-fixtures';
 import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
+import { SettleWatch } from '../../app/engine/metrics/settle';
 
 const veh = pyramidVehicle(
   [
@@ -63,14 +64,13 @@ const starts: { q: number[]; ctrl: AttitudeController; critical: boolean }[] = [
 }
 
 const NOISE: SensorModel = { attitudeSigmaRad: 1e-3, rateSigmaRadPerS: 1e-4, rateBiasRadPerS: [5e-5, -3e-5, 2e-5], adversarialEta: 0 };
-const common = {
+/** Shared run settings; each run gets its own stop rule (it keeps state): settled 2 s within the thresholds. */
+const common = (angleRad = 0.5 * RAD_PER_DEG, rateRadPerS = 1e-3) => ({
   tEnd: 40,
   controlRateHz: 10,
   rk4StepsPerSample: 1,
-  stopWhenSettledForS: 2,
-  settleAngleRad: 0.5 * RAD_PER_DEG,
-  settleRateRadPerS: 1e-3,
-};
+  stopRule: new SettleWatch(angleRad, rateRadPerS, 2),
+});
 
 describe('synergistic law: global convergence from 1000 uniform attitudes and every undesired critical point', () => {
   it('the certificate is the one of methods §4.3 and lists 9 undesired critical points, each with gap > δ', () => {
@@ -86,7 +86,7 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
       worstDeg = 0,
       longest = 0;
     for (const s of starts) {
-      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common });
+      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common() });
       const tr = r.trace;
       expect(r.outcome.status).toBe('completed');
       worstDeg = Math.max(worstDeg, tr.errorAngle[tr.n - 1]! * DEG_PER_RAD);
@@ -113,7 +113,7 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
         controller: byMember[p.member - 1]!,
         q0: p.attitude,
         timing: 'continuous-ideal',
-        ...common,
+        ...common(),
         tEnd: 0.5,
       });
       expect(r.jumps[0]!.from).toBe(p.member);
@@ -133,10 +133,7 @@ describe('synergistic law: global convergence from 1000 uniform attitudes and ev
         sensors: NOISE,
         seed: 99,
         stream: i,
-        ...common,
-        stopWhenSettledForS: 2,
-        settleAngleRad: 1 * RAD_PER_DEG,
-        settleRateRadPerS: 2e-3,
+        ...common(1 * RAD_PER_DEG, 2e-3),
       });
       expect(r.outcome.status).toBe('completed');
       worstDeg = Math.max(worstDeg, r.trace.errorAngle[r.trace.n - 1]! * DEG_PER_RAD);

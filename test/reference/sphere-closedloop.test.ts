@@ -37,6 +37,7 @@ import type { SensorModel } from '../../app/engine/sim/sensors';
 import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';
 import { fixedReference, fly, pyramidVehicle } from './closedloop-fixtures';
 import { angle, attitudeSeeing, seenDirection, uniformDirection, withMeasurement, type V3 } from './sphere-fixtures';
+import { SettleWatch } from '../../app/engine/metrics/settle';
 
 const veh = pyramidVehicle(
   [
@@ -75,15 +76,14 @@ const starts: { y0: V3; q: number[]; ctrl: ReducedSynergistic; critical: number 
     starts.push({ y0: p.direction, q: attitudeSeeing(p.direction, b, 0.3 * p.member), ctrl: byMember[p.member - 1]!, critical: p.member });
 }
 
-const common = {
+/** Shared run settings; each run gets its own stop rule (it keeps state): settled 2 s within the thresholds. */
+const common = (angleRad = 0.5 * RAD_PER_DEG, rateRadPerS = 1e-3) => ({
   tEnd: 40,
   controlRateHz: 10,
   rk4StepsPerSample: 1,
-  stopWhenSettledForS: 2,
-  settleAngleRad: 0.5 * RAD_PER_DEG,
-  settleRateRadPerS: 1e-3,
-};
-const noisySettle = { settleAngleRad: 1 * RAD_PER_DEG, settleRateRadPerS: 2e-3 };
+  stopRule: new SettleWatch(angleRad, rateRadPerS, 2),
+});
+const noisySettle = { angleRad: 1 * RAD_PER_DEG, rateRadPerS: 2e-3 };
 const NOISE: SensorModel = { attitudeSigmaRad: 1e-3, rateSigmaRadPerS: 1e-4, rateBiasRadPerS: [5e-5, -3e-5, 2e-5], adversarialEta: 0 };
 
 /** Bounded random-phase noise n(t) (|n_i| ≤ amp), applied as q ⊗ exp(½n); the clock comes from the reference calls. */
@@ -137,7 +137,7 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
       jumps = 0;
     const res: { err: number }[] = [];
     for (const s of starts) {
-      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common });
+      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'continuous-ideal', ...common() });
       const tr = r.trace;
       expect(r.outcome.status).toBe('completed');
       res.push({ err: tr.errorAngle[tr.n - 1]! });
@@ -163,7 +163,14 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
     const res: { err: number }[] = [];
     starts.forEach((s, i) => {
       const { controller, reference } = noisyLaw(s.ctrl, 1000 + i, 2e-3);
-      const r = fly({ vehicle: veh, controller, reference, q0: s.q, timing: 'continuous-ideal', ...common, ...noisySettle });
+      const r = fly({
+        vehicle: veh,
+        controller,
+        reference,
+        q0: s.q,
+        timing: 'continuous-ideal',
+        ...common(noisySettle.angleRad, noisySettle.rateRadPerS),
+      });
       expect(r.outcome.status).toBe('completed');
       res.push({ err: r.trace.errorAngle[r.trace.n - 1]! });
       if (s.critical) expect(r.jumps.length).toBeGreaterThanOrEqual(1);
@@ -174,7 +181,7 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
   it('(c) sampled 10 Hz, no noise: every run settles under 0.5°', () => {
     const res: { err: number }[] = [];
     for (const s of starts) {
-      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'sampled', ...common });
+      const r = fly({ vehicle: veh, controller: s.ctrl, q0: s.q, timing: 'sampled', ...common() });
       expect(r.outcome.status).toBe('completed');
       res.push({ err: r.trace.errorAngle[r.trace.n - 1]! });
       if (s.critical) expect(r.jumps[0]!.t).toBe(0);
@@ -193,8 +200,7 @@ describe('synergistic pointing law: global convergence from 1000 uniform directi
         sensors: NOISE,
         seed: 99,
         stream: i,
-        ...common,
-        ...noisySettle,
+        ...common(noisySettle.angleRad, noisySettle.rateRadPerS),
       });
       expect(r.outcome.status).toBe('completed');
       res.push({ err: r.trace.errorAngle[r.trace.n - 1]! });

@@ -10,6 +10,7 @@ import { followPlanReference, stepTargetReference } from '../sim/reference';
 import type { SensorModel } from '../sim/sensors';
 import type { Actuation, RunMode } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
+import { SettleWatch } from '../metrics/settle';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
@@ -51,9 +52,7 @@ export function fly(f: Flight): ClosedLoopResult {
     stream: f.stream,
     actuation: f.actuation,
     allocation: 'min-max',
-    stopWhenSettledForS: f.earlyStop?.settledForS ?? 0,
-    settleAngleRad: f.earlyStop?.angleRad,
-    settleRateRadPerS: f.earlyStop?.rateRadPerS,
+    stopRule: f.earlyStop ? new SettleWatch(f.earlyStop.angleRad, f.earlyStop.rateRadPerS, f.earlyStop.settledForS) : undefined,
     shouldStop: f.shouldStop,
   });
 }

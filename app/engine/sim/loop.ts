@@ -1,0 +1,220 @@
+/**
+ * The loop state the sampled and the ideal closed loops share (sampled.ts, ideal.ts): the true and
+ * measured state, the reference, the controller's logic value and its jumps, the wheel commands,
+ * the trace, and the three steps every sample or located jump takes — logic update, wheel
+ * actuation within limits, and recording.
+ *
+ * Conventions (closedLoop.ts header): plant state x = [q(4), ω(3), h(N)]; the run's jump counter j
+ * counts LOGIC jumps only. Nothing here allocates per sample (buffers made once per run; doubles
+ * that change per sample sit in typed arrays, which V8 does not box).
+ */
+import type { AttitudeController, ControlDiagnostics, ControlInput } from '../control/types';
+import { allocateMinMax, allocateMinNorm } from '../wheels/allocation';
+import { bodyTorqueFromWheelTorque } from '../wheels/array';
+import { createLimitInfo, limitWheelTorque } from '../wheels/limits';
+import { makeRng, type Rng } from '../math/prng';
+import type { ClosedLoopConfig, ReferenceSource, StopRule } from './closedLoop';
+import {
+  PACKED_ERROR_ANGLE,
+  PACKED_GAP,
+  PACKED_LOGIC,
+  PACKED_LYAPUNOV,
+  PACKED_POTENTIAL,
+  PACKED_POTENTIAL_MIN,
+  PACKED_SCALARS,
+  PACKED_T,
+  TraceBuilder,
+  type PackedSample,
+} from './trace';
+import type { JumpEvent } from './types';
+
+/** Samples a trace starts with; it grows by doubling, so a long run is never allocated up front. */
+const INITIAL_TRACE_CAPACITY = 4096;
+
+export class LoopCore {
+  readonly N: number;
+  readonly Ts: number;
+  readonly ctrl: AttitudeController;
+  readonly ref: ReferenceSource;
+  readonly rng: Rng;
+  readonly builder: TraceBuilder;
+  readonly jumps: JumpEvent[] = [];
+  readonly maxPerInstant: number;
+  readonly stopRule: StopRule | null;
+
+  readonly qRef = new Float64Array(4);
+  readonly wRef = new Float64Array(3);
+  readonly wdRef = new Float64Array(3);
+  readonly qTrue = new Float64Array(4);
+  readonly wTrue = new Float64Array(3);
+  readonly hTrue: Float64Array;
+  readonly qMeas = new Float64Array(4);
+  readonly wMeas = new Float64Array(3);
+  readonly hMeas: Float64Array;
+  /** What the law sees (measured) and the true state with the same reference. */
+  readonly input: ControlInput;
+  readonly trueInput: ControlInput;
+  readonly diag: ControlDiagnostics = { errorAngle: 0, eta: 0, potential: 0, potentialMin: 0, gap: 0, lyapunov: 0 };
+  /** Body torque request and delivered body torque, N·m. */
+  readonly tauCmd = new Float64Array(3);
+  readonly tauBody = new Float64Array(3);
+  /** Wheel torques: allocation output, delivered average over the period, applied right now. */
+  readonly wheelCmd: Float64Array;
+  readonly wheelHeld: Float64Array;
+  readonly wheelNow: Float64Array;
+  private readonly limitInfo = createLimitInfo();
+  private readonly rec: PackedSample;
+
+  logic = NaN;
+  logicJumps = 0;
+  segment = -1;
+  stopRequested = false;
+
+  constructor(readonly cfg: ClosedLoopConfig) {
+    const N = cfg.wheels.n;
+    this.N = N;
+    this.Ts = 1 / cfg.controlRateHz;
+    this.ctrl = cfg.controller;
+    this.ref = cfg.reference;
+    this.rng = makeRng(cfg.seed, cfg.stream ?? 0);
+    this.maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
+    this.stopRule = cfg.stopRule ?? null;
+    this.hTrue = new Float64Array(N);
+    this.hMeas = new Float64Array(N);
+    this.wheelCmd = new Float64Array(N);
+    this.wheelHeld = new Float64Array(N);
+    this.wheelNow = new Float64Array(N);
+    this.input = { q: this.qMeas, omega: this.wMeas, hWheel: this.hMeas, qRef: this.qRef, omegaRef: this.wRef, omegaDotRef: this.wdRef };
+    this.trueInput = {
+      q: this.qTrue,
+      omega: this.wTrue,
+      hWheel: this.hTrue,
+      qRef: this.qRef,
+      omegaRef: this.wRef,
+      omegaDotRef: this.wdRef,
+    };
+    const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
+    this.builder = new TraceBuilder(N, Math.min(samples, INITIAL_TRACE_CAPACITY));
+    this.rec = {
+      j: 0,
+      segment: 0,
+      scalars: new Float64Array(PACKED_SCALARS),
+      q: this.qTrue,
+      omega: this.wTrue,
+      hWheel: this.hTrue,
+      qRef: this.qRef,
+      omegaRef: this.wRef,
+      torqueCmdBody: this.tauCmd,
+      torqueBody: this.tauBody,
+      wheelTorqueCmd: this.wheelCmd,
+      wheelTorque: this.wheelHeld,
+    };
+  }
+
+  /** Copy the plant state x into the true-state buffers. */
+  unpack(x: Float64Array): void {
+    const q = this.qTrue,
+      w = this.wTrue,
+      h = this.hTrue;
+    q[0] = x[0]!;
+    q[1] = x[1]!;
+    q[2] = x[2]!;
+    q[3] = x[3]!;
+    w[0] = x[4]!;
+    w[1] = x[5]!;
+    w[2] = x[6]!;
+    for (let i = 0; i < this.N; i++) h[i] = x[7 + i]!;
+  }
+
+  /** One logic update (with its event record) for `inp`; true when the logic jumped. */
+  logicStep(t: number, inp: ControlInput): boolean {
+    const ctrl = this.ctrl;
+    // Outside the jump set the jump map cannot apply (control/types.ts contract): skip the call.
+    if (!(ctrl.jumpGuard(inp, this.logic) >= 0)) return false;
+    const r = ctrl.updateLogic(inp, this.logic);
+    if (r.why === null || r.logic === this.logic) return false;
+    ctrl.diagnostics(this.diag, this.trueInput, this.logic);
+    const wBefore = this.diag.lyapunov;
+    ctrl.diagnostics(this.diag, this.trueInput, r.logic);
+    this.logicJumps++;
+    this.jumps.push({
+      t,
+      j: this.logicJumps,
+      what: 'logic',
+      from: this.logic,
+      to: r.logic,
+      why: r.why,
+      lyapunovBefore: wBefore,
+      lyapunovAfter: this.diag.lyapunov,
+    });
+    this.logic = r.logic;
+    return true;
+  }
+
+  /** Logic updates at one instant until the logic settles (at most maxPerInstant); true when any jumped. */
+  logicSteps(t: number, inp: ControlInput): boolean {
+    let jumped = false;
+    for (let k = 0; k < this.maxPerInstant && this.logicStep(t, inp); k++) jumped = true;
+    return jumped;
+  }
+
+  /** Body torque request → wheel torques within limits (direction preserved), predicted over dtPredict. */
+  actuate(dtPredict: number): void {
+    const cfg = this.cfg;
+    if (cfg.allocation === 'min-max' && this.N > 3) allocateMinMax(this.wheelCmd, cfg.wheels, this.tauCmd);
+    else allocateMinNorm(this.wheelCmd, cfg.wheels, this.tauCmd);
+    limitWheelTorque(this.wheelHeld, cfg.wheels, this.wheelCmd, this.hTrue, dtPredict, this.limitInfo);
+  }
+
+  /** Append the current (true) state as a trace sample at t, and ask the stop rule and the caller whether to stop. */
+  record(t: number): void {
+    const diag = this.diag;
+    // Diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (control/types.ts).
+    this.ctrl.diagnostics(diag, this.trueInput, this.logic);
+    bodyTorqueFromWheelTorque(this.tauBody, this.cfg.wheels, this.wheelHeld);
+    const rec = this.rec;
+    const x = rec.scalars;
+    rec.j = this.logicJumps;
+    rec.segment = this.segment < 0 ? 0 : this.segment;
+    x[PACKED_T] = t;
+    x[PACKED_LOGIC] = this.logic;
+    x[PACKED_ERROR_ANGLE] = diag.errorAngle;
+    x[PACKED_POTENTIAL] = diag.potential;
+    x[PACKED_POTENTIAL_MIN] = diag.potentialMin;
+    x[PACKED_GAP] = diag.gap;
+    x[PACKED_LYAPUNOV] = diag.lyapunov;
+    this.builder.pushPacked(rec);
+    const rule = this.stopRule;
+    if (rule) {
+      const w = this.wTrue,
+        wr = this.wRef;
+      const ex = w[0]! - wr[0]!,
+        ey = w[1]! - wr[1]!,
+        ez = w[2]! - wr[2]!;
+      if (rule.update(t, diag.errorAngle, Math.sqrt(ex * ex + ey * ey + ez * ez))) this.stopRequested = true;
+    }
+    if (this.cfg.shouldStop?.()) this.stopRequested = true;
+  }
+}
+
+/** Renormalise the quaternion block of x after a step (true when it changed). */
+export function projectQuaternion(x: Float64Array): boolean {
+  const n2 = x[0]! * x[0]! + x[1]! * x[1]! + x[2]! * x[2]! + x[3]! * x[3]!;
+  if (!(n2 > 0) || Math.abs(n2 - 1) < 2e-15) return false;
+  const inv = 1 / Math.sqrt(n2);
+  x[0]! *= inv;
+  x[1]! *= inv;
+  x[2]! *= inv;
+  x[3]! *= inv;
+  return true;
+}
+
+export function allFinite(x: ArrayLike<number>): boolean {
+  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) return false;
+  return true;
+}
+
+/** Seconds for messages (12 significant digits). */
+export function fmtS(v: number): string {
+  return Number.isFinite(v) ? String(Number(v.toPrecision(12))) : String(v);
+}

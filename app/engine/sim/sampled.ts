@@ -1,0 +1,95 @@
+/**
+ * The sampled-data closed loop (zero-order hold): a fixed-step loop of its own, without the
+ * general hybrid simulator's event machinery. It is the same hybrid system as methods §7
+ * describes — a timer makes every controller update a scheduled jump — solved directly: at each
+ * sample instant k·Ts the sensors are read, the logic may switch, the torque is computed,
+ * allocated, limited and handed to the wheel actuation model (actuation.ts); between instants the
+ * plant flows with RK4 in equal steps that land exactly on the next instant (or a PWM pulse end).
+ *
+ * Step policy (as hybrid/rk4.ts): between two stops the loop takes m = ⌈span/dt⌉ equal steps,
+ * dt = Ts / rk4StepsPerSample, and renormalises the quaternion after each step. A run that reaches
+ * a non-finite state stops at the last finite one and says where.
+ */
+import { gyrostatDerivative } from '../body/gyrostat';
+import { equalStepCount, makeRk4Work, rk4Step } from '../hybrid/rk4';
+import type { FlowFn } from '../hybrid/types';
+import { makeActuator } from './actuation';
+import type { LoopEnd } from './closedLoop';
+import { allFinite, fmtS, type LoopCore, projectQuaternion } from './loop';
+import { measure } from './sensors';
+
+const DUE_TOLERANCE = 1e-9;
+
+export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
+  const cfg = core.cfg;
+  const Ts = core.Ts;
+  const actuator = makeActuator(cfg.actuation, cfg.wheels, Ts);
+  const zero3 = new Float64Array(3);
+  const flow: FlowFn = (_t, x, dx) => gyrostatDerivative(dx, x, cfg.plant, core.wheelNow, zero3);
+  let sampleIndex = 0;
+
+  /** One controller sample at t: measure, switch, compute, allocate, hold. */
+  const sample = (t: number, x: Float64Array) => {
+    core.unpack(x);
+    const s = core.ref.at(t, core.qRef, core.wRef, core.wdRef);
+    measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef);
+    core.hMeas.set(core.hTrue);
+    if (s !== core.segment) {
+      core.segment = s;
+      core.ctrl.beginSegment?.(core.input);
+    }
+    if (Number.isNaN(core.logic)) core.logic = core.ctrl.initialLogic(core.input);
+    core.logicSteps(t, core.input);
+    core.ctrl.torque(core.tauCmd, core.input, core.logic);
+    core.actuate(Ts);
+    actuator.start(t, core.wheelHeld, core.wheelNow);
+    core.record(t);
+    sampleIndex++;
+  };
+
+  const nextStop = (t: number) => Math.min(sampleIndex * Ts, actuator.nextEdge(t));
+
+  let x = Float64Array.from(x0);
+  let xNew = new Float64Array(x.length);
+  const work = makeRk4Work(x.length);
+  const dt = Ts / Math.max(1, Math.round(cfg.rk4StepsPerSample));
+  const tEnd = cfg.tEnd;
+  let t = 0;
+  sample(0, x);
+  let tSched = nextStop(t);
+  for (;;) {
+    // 1. What is due at this instant: a sample, or a pulse end.
+    while (t < tEnd && tSched <= t) {
+      const due = sampleIndex * Ts;
+      if (Math.abs(t - due) <= DUE_TOLERANCE * Math.max(1, Math.abs(due))) sample(due, x);
+      else actuator.edge(t, core.wheelNow);
+      tSched = nextStop(t);
+      if (core.stopRequested) return { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
+    }
+    if (t >= tEnd) return { status: 'completed', message: `reached the end time ${fmtS(tEnd)} s`, t, x };
+    // 2. Flow to the next stop in equal RK4 steps.
+    const tStop = Math.min(tSched, tEnd);
+    const t0 = t;
+    const span = tStop - t0;
+    const m = equalStepCount(span, dt);
+    const h = span / m;
+    for (let i = 0; i < m; i++) {
+      const ti = t0 + i * h;
+      flow(ti, x, work.k1);
+      rk4Step(xNew, flow, ti, x, h, work, true);
+      if (!allFinite(xNew))
+        return {
+          status: 'non-finite',
+          message: `the state became non-finite in the RK4 step from t = ${fmtS(ti)} s; the run ends at the last finite state`,
+          t: ti,
+          x,
+        };
+      const swap = x;
+      x = xNew;
+      xNew = swap;
+      t = i === m - 1 ? tStop : t0 + (i + 1) * h;
+      projectQuaternion(x);
+    }
+    if (core.stopRequested) return { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
+  }
+}
