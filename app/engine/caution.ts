@@ -9,7 +9,9 @@ export const CAUTION_TEXT =
 export const QUATERNION_CONVENTION =
   'Hamilton quaternion, components in the order [x, y, z, w] (scalar last); q = qInertialFromBody rotates body-frame vectors into the inertial frame: v_I = q v_B q*';
 
-export const FRAME_CONVENTION =
-  "inertial = the scenario's inertial frame (directions given in the scenario file); body = spacecraft body axes; body rates, torques and the reference rate are in body axes";
+/** The one inertial frame of every attitude and direction (CCSDS REF_FRAME_A; orbit/frames.ts). */
+export const INERTIAL_FRAME = 'EME2000';
+
+export const FRAME_CONVENTION = `inertial = ${INERTIAL_FRAME} (mean equator and equinox of J2000; the frame the scenario's directions are given in); body = spacecraft body axes; body rates, torques and the reference rate are in body axes`;
 
 export const TIME_CONVENTION = 't_s = seconds from the scenario epoch (UTC); j = hybrid jump counter (logic jumps)';

@@ -2,7 +2,8 @@
  * Text tables for the terminal and CSV/JSON renderings of the plan and the comparison.
  */
 import type { ComparisonRow, PlanSummary, BestMarks } from '../../app/engine/pipeline/types';
-import { DEG_PER_RAD } from '../../app/engine/units';
+import { DEG_PER_RAD, MILLI_PER_SI } from '../../app/engine/units';
+import { COMPARISON_COLUMNS } from '../../app/engine/pipeline/comparison';
 
 export function table(headers: string[], rows: string[][]): string {
   const widths = headers.map((h, c) => Math.max(h.length, ...rows.map((r) => (r[c] ?? '').length)));
@@ -38,59 +39,69 @@ function pct(x: number): string {
   return `${(100 * x).toFixed(1)}%`;
 }
 
-const COLUMNS: { key: keyof ComparisonRow; head: string; fmt: (r: ComparisonRow) => string }[] = [
-  { key: 'settleTimeS', head: 'settle s', fmt: (r) => (r.settleTimeS === null ? 'never' : r.settleTimeS.toFixed(1)) },
-  { key: 'rotationTravelledDeg', head: 'travel deg', fmt: (r) => r.rotationTravelledDeg.toFixed(1) },
-  { key: 'shortestRotationDeg', head: 'shortest deg', fmt: (r) => r.shortestRotationDeg.toFixed(1) },
-  { key: 'unwound', head: 'unwound', fmt: (r) => (r.unwound ? 'YES' : 'no') },
-  { key: 'jumps', head: 'jumps', fmt: (r) => String(r.jumps) },
-  { key: 'chatterPerS', head: 'chatter /s', fmt: (r) => r.chatterPerS.toFixed(2) },
-  { key: 'peakWheelTorqueFraction', head: 'peak torque', fmt: (r) => pct(r.peakWheelTorqueFraction) },
-  { key: 'peakWheelMomentumFraction', head: 'peak mom.', fmt: (r) => pct(r.peakWheelMomentumFraction) },
-  { key: 'controlEffortNms', head: 'effort mN·m·s', fmt: (r) => (r.controlEffortNms * 1e3).toFixed(2) },
-  { key: 'finalErrorDeg', head: 'final err deg', fmt: (r) => r.finalErrorDeg.toPrecision(3) },
-  { key: 'monitorFlags', head: 'W flags', fmt: (r) => String(r.monitorFlags) },
-];
+/** Text of one comparison cell (the table's units are in its headings). */
+const CELL: Partial<Record<keyof ComparisonRow, (r: ComparisonRow) => string>> = {
+  settleTimeS: (r) => (r.settleTimeS === null ? 'never' : r.settleTimeS.toFixed(1)),
+  trackingErrorPeakDeg: (r) => r.trackingErrorPeakDeg.toPrecision(3),
+  trackingErrorRmsDeg: (r) => r.trackingErrorRmsDeg.toPrecision(3),
+  rotationTravelledDeg: (r) => r.rotationTravelledDeg.toFixed(1),
+  shortestRotationDeg: (r) => r.shortestRotationDeg.toFixed(1),
+  unwound: (r) => (r.unwound ? 'YES' : 'no'),
+  jumps: (r) => String(r.jumps),
+  chatterPerS: (r) => r.chatterPerS.toFixed(2),
+  peakWheelTorqueFraction: (r) => pct(r.peakWheelTorqueFraction),
+  peakWheelMomentumFraction: (r) => pct(r.peakWheelMomentumFraction),
+  controlEffortNms: (r) => (r.controlEffortNms * MILLI_PER_SI).toFixed(2),
+  finalErrorDeg: (r) => r.finalErrorDeg.toPrecision(3),
+  monitorViolations: (r) => String(r.monitorViolations),
+};
+
+const TABLE_COLUMNS = COMPARISON_COLUMNS.filter((c) => c.key !== 'status');
 
 export function comparisonTable(rows: readonly ComparisonRow[], best: BestMarks): string {
-  const body = rows.map((r) => [`${r.label} [${r.mode}]`, r.status, ...COLUMNS.map((c) => c.fmt(r) + (best[c.key] === r.key ? '*' : ''))]);
-  return `${table(['controller [mode]', 'run', ...COLUMNS.map((c) => c.head)], body)}\n(* best in column)`;
+  const body = rows.map((r) => [
+    `${r.label} [${r.mode}]`,
+    r.status,
+    ...TABLE_COLUMNS.map((c) => (CELL[c.key]?.(r) ?? String(r[c.key])) + (best[c.key] === r.key ? '*' : '')),
+  ]);
+  const heads = TABLE_COLUMNS.map((c) => (c.unit && c.unit !== '%' ? `${c.label} ${c.unit}` : c.label));
+  return `${table(['controller [mode]', 'outcome', ...heads], body)}\n(* best in column: lowest value among the settled runs, no mark on a tie)`;
 }
 
+/** What each column means and where that comes from (compare --help). */
+export function comparisonDefinitions(): string {
+  return COMPARISON_COLUMNS.map((c) => `  ${c.label}${c.unit ? ` [${c.unit}]` : ''}: ${c.definition} (${c.source})`).join('\n');
+}
+
+/** CSV column names, SI and units in the names. */
+const CSV_NAMES: Partial<Record<keyof ComparisonRow, string>> = {
+  controllerId: 'controller_id',
+  label: 'label',
+  mode: 'mode',
+  verdict: 'verdict',
+  status: 'outcome',
+  settleTimeS: 'settle_time_s',
+  trackingErrorPeakDeg: 'tracking_error_peak_deg',
+  trackingErrorRmsDeg: 'tracking_error_rms_deg',
+  rotationTravelledDeg: 'rotation_travelled_deg',
+  shortestRotationDeg: 'shortest_rotation_deg',
+  unwound: 'unwound',
+  jumps: 'jumps',
+  chatterPerS: 'chatter_per_s',
+  peakWheelTorqueFraction: 'peak_wheel_torque_fraction',
+  peakWheelMomentumFraction: 'peak_wheel_momentum_fraction',
+  controlEffortNms: 'control_effort_Nms',
+  finalErrorDeg: 'final_error_deg',
+  monitorViolations: 'lyapunov_violations',
+};
+
 export function comparisonCsv(rows: readonly ComparisonRow[], caution: string): string {
-  const keys: (keyof ComparisonRow)[] = [
-    'controllerId',
-    'label',
-    'mode',
-    'status',
-    'settleTimeS',
-    'rotationTravelledDeg',
-    'shortestRotationDeg',
-    'unwound',
-    'jumps',
-    'chatterPerS',
-    'peakWheelTorqueFraction',
-    'peakWheelMomentumFraction',
-    'controlEffortNms',
-    'finalErrorDeg',
-    'monitorFlags',
-  ];
-  const units: Record<string, string> = {
-    settleTimeS: 'settle_time_s',
-    rotationTravelledDeg: 'rotation_travelled_deg',
-    shortestRotationDeg: 'shortest_rotation_deg',
-    chatterPerS: 'chatter_per_s',
-    peakWheelTorqueFraction: 'peak_wheel_torque_fraction',
-    peakWheelMomentumFraction: 'peak_wheel_momentum_fraction',
-    controlEffortNms: 'control_effort_Nms',
-    finalErrorDeg: 'final_error_deg',
-    monitorFlags: 'lyapunov_monitor_flags',
-  };
+  const cols: (keyof ComparisonRow)[] = ['controllerId', 'label', 'mode', 'verdict', ...COMPARISON_COLUMNS.map((c) => c.key)];
   const esc = (v: unknown) => {
     const s = v === null ? '' : String(v);
     return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
   };
-  return (
-    [`# ${caution}`, keys.map((k) => units[k] ?? k).join(','), ...rows.map((r) => keys.map((k) => esc(r[k])).join(','))].join('\n') + '\n'
-  );
+  // SI in the CSV: effort in N·m·s, fractions as fractions, angles in degrees as the names say.
+  const header = cols.map((k) => CSV_NAMES[k] ?? k);
+  return [`# ${caution}`, header.join(','), ...rows.map((r) => cols.map((k) => esc(r[k])).join(','))].join('\n') + '\n';
 }

@@ -24,6 +24,7 @@ import { describe, expect, it } from 'vitest';
 import type { SensorModel } from '../../app/engine/sim/sensors';
 import { etaAt, fly, law, metricsOf, pyramidVehicle } from './closedloop-fixtures';
 import { DEG_PER_RAD } from '../../app/engine/units';
+import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
 
 const veh = pyramidVehicle(
   [
@@ -110,7 +111,9 @@ describe('worst-case bounded noise ē = 0.1 (adversarialEta)', () => {
     // |η| < ē ⇔ error angle > 2 arccos ē = 168.5°; it never got below that
     expect(minError(r) * DEG_PER_RAD).toBeGreaterThan(2 * Math.acos(EBAR) * DEG_PER_RAD);
     expect(m.settled).toBe(false);
-    expect(m.chatterPerS).toBeGreaterThan(2);
+    // Torque direction reverses at most every few samples while held (metrics/chatter.ts): clearly
+    // above the study's chatter threshold.
+    expect(m.chatterPerS).toBeGreaterThan(CHATTER_THRESHOLD_PER_S);
   });
 
   it('the hysteretic law with δ = 0.2 > ē is not fooled and converges (no jump needed)', () => {

@@ -67,7 +67,8 @@ describe('CSV export', () => {
       'torque_cmd_x_Nm',
       'torque_y_Nm',
       'wheel4_torque_cmd_Nm',
-      'wheel1_torque_Nm',
+      'wheel1_torque_motor_Nm',
+      'wheel2_torque_net_Nm',
       'wheel3_h_Nms',
       'logic',
       'error_angle_deg',
@@ -89,7 +90,8 @@ describe('CSV export', () => {
       for (let i = 0; i < 4; i++) expect(row[col('q_x') + i]).toBe(tr.q[4 * k + i]);
       expect(row[col('omega_z_radps')]).toBe(tr.omega[3 * k + 2]);
       expect(row[col('wheel2_h_Nms')]).toBe(tr.hWheel[4 * k + 1]);
-      expect(row[col('wheel3_torque_Nm')]).toBe(tr.wheelTorque[4 * k + 2]);
+      expect(row[col('wheel3_torque_motor_Nm')]).toBe(tr.wheelTorque[4 * k + 2]);
+      expect(row[col('wheel3_torque_net_Nm')]).toBe(tr.wheelTorqueNet[4 * k + 2]);
       expect(row[col('error_angle_deg')]).toBe(tr.errorAngle[k]! * (180 / Math.PI));
     }
     // The jump: same t, j + 1, logic flipped.

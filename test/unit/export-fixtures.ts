@@ -39,6 +39,7 @@ export function makeTrace(spec: TraceSpec): RunTrace {
     torqueBody: new Float64Array(3 * total),
     wheelTorqueCmd: new Float64Array(nW * total),
     wheelTorque: new Float64Array(nW * total),
+    wheelTorqueNet: new Float64Array(nW * total),
     logic: new Float64Array(total),
     errorAngle: new Float64Array(total),
     potential: new Float64Array(total),
@@ -66,6 +67,7 @@ export function makeTrace(spec: TraceSpec): RunTrace {
     for (let w = 0; w < nW; w++) {
       tr.wheelTorqueCmd[nW * m + w] = 1e-3 * Math.cos(0.2 * t + w);
       tr.wheelTorque[nW * m + w] = 0.95e-3 * Math.cos(0.2 * t + w);
+      tr.wheelTorqueNet[nW * m + w] = 0.9e-3 * Math.cos(0.2 * t + w);
       tr.hWheel[nW * m + w] = 2e-3 * Math.sin(0.05 * t + w) + (i === 0 && w === 0 ? -0 : 0);
     }
     tr.logic[m] = logic;

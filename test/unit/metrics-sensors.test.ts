@@ -35,6 +35,7 @@ function rotationTrace(rate: (t: number) => number, T: number, dt: number, targe
       torqueBody: [torque(t), 0, 0],
       wheelTorqueCmd: [0, 0],
       wheelTorque: [0.0005, 0],
+      wheelTorqueNet: [0.0005, 0],
       logic: 0,
       errorAngle: qAngleBetween(q, target),
       potential: 0,
@@ -83,7 +84,7 @@ describe('run metrics', () => {
     expect(m.peakWheelTorqueFraction).toBeCloseTo(0.5, 12);
   });
 
-  it('chatter counts torque sign reversals and jumps per second in the worst window', () => {
+  it('chatter counts reversals of the torque direction per second in the worst window (jumps are counted apart)', () => {
     const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.0);
     // torque alternating sign every sample (dt 0.1) for 20 s: 10 reversals per second
     const tr = rotationTrace(
@@ -96,9 +97,38 @@ describe('run metrics', () => {
     const jumps: JumpEvent[] = [{ t: 3, j: 1, what: 'logic', from: 1, to: -1, why: 'test' }];
     const m = computeMetrics(tr, jumps, opts(target));
     expect(m.torqueReversals).toBe(200);
-    expect(m.chatterPerS).toBeCloseTo(10.2, 6); // a closed 10 s window holds 101 reversals (0.1 s apart) plus the jump
+    expect(m.chatterPerS).toBeCloseTo(10.1, 6); // a closed 10 s window holds 101 reversals, 0.1 s apart
     expect(m.jumps).toBe(1);
     expect(m.controlEffortNms).toBeCloseTo(2e-3, 9);
+  });
+
+  it('chatter ignores torques below the floor, counts a three-axis flip once, and skips the plan’s own switches', () => {
+    const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 0.0);
+    // Negligible torques (1e-300 N·m) flipping sign every sample: nothing to count.
+    const tiny = rotationTrace(
+      () => 0,
+      20,
+      0.1,
+      target,
+      (t) => (Math.round(t * 10) % 2 === 0 ? 1e-300 : -1e-300),
+    );
+    expect(computeMetrics(tiny, [], opts(target)).chatterPerS).toBe(0);
+    // One reversal of a torque along (1, 1, 1): one event, not three.
+    const flip = rotationTrace(
+      () => 0,
+      20,
+      0.1,
+      target,
+      (t) => (t < 10 ? 1e-4 : -1e-4),
+    );
+    for (let k = 0; k < flip.n; k++) flip.torqueCmdBody.fill(flip.torqueCmdBody[3 * k]!, 3 * k, 3 * k + 3);
+    const m1 = computeMetrics(flip, [], opts(target));
+    expect(m1.torqueReversals).toBe(1);
+    expect(m1.chatterPerS).toBeCloseTo(0.1, 12);
+    // The same reversal at a planned switch of the reference (t = 10 s) belongs to the plan.
+    const m2 = computeMetrics(flip, [], { ...opts(target), plannedSwitchTimes: [10] });
+    expect(m2.torqueReversals).toBe(0);
+    expect(m2.chatterPerS).toBe(0);
   });
 
   it('decimation keeps the last sample and every k-th', () => {

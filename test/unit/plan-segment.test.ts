@@ -297,6 +297,71 @@ describe('stored momentum', () => {
   });
 });
 
+describe('profile family "bang-bang": never coasts, a rate cap lowers the acceleration', () => {
+  // Rest-to-rest with no coast (standard kinematics, sources in the header): peak rate √(θ a),
+  // T = 2√(θ/a); under a rate cap w the acceleration becomes w²/θ and T = 2θ/w.
+  const J = diag(8, 10, 12);
+  const lt = (1 * D * 12) / 0.8; // a = 1 deg/s² about z at margin 0.8
+  const lh3 = (3 * D * 12) / 0.9; // w = 3 deg/s about z at margin 0.9
+  const lim: PlanLimits = { torqueCapacity: cubeCapacity(lt), momentumCapacity: cubeCapacity(lh3), torqueMargin: 0.8, momentumMargin: 0.9 };
+  const seg = (deg: number, l: PlanLimits, h = [0, 0, 0]) =>
+    feasible(planSegment({ qStart: I4, qTarget: axisAngle([0, 0, 1], deg * D), inertia: J, wheelMomentumBody: h }, l));
+
+  it('90° about z with a 3 deg/s momentum cap: a = w²/θ = 0.1 deg/s², T = 2θ/w = 60 s (bang-coast-bang takes 33 s)', () => {
+    const p = seg(90, { ...lim, family: 'bang-bang' });
+    expect(p.profile.kind).toBe('bang-bang');
+    expect(p.profile.coastTimeS).toBe(0);
+    expect(Math.abs(p.durationS - 60)).toBeLessThan(1e-9);
+    expect(Math.abs(p.profile.accelRadPerS2 - 0.1 * D)).toBeLessThan(1e-15);
+    expect(p.binding).toBe('momentum');
+    expect(p.peakMomentumFraction).toBeLessThanOrEqual(0.9 * (1 + 1e-12));
+    expect(seg(90, lim).durationS).toBeCloseTo(33, 9);
+  });
+
+  it('a slew-rate limit below the momentum cap binds instead: T = 2θ/w_slew', () => {
+    const p = seg(90, { ...lim, family: 'bang-bang', slewRateLimitRadPerS: 2 * D });
+    expect(p.binding).toBe('slew-rate');
+    expect(Math.abs(p.durationS - (2 * 90) / 2)).toBeLessThan(1e-9);
+  });
+
+  it('a slew short enough never to reach the cap is the same in both families (torque-bound)', () => {
+    const a = seg(4, { ...lim, family: 'bang-bang' });
+    const b = seg(4, lim);
+    expect(a.binding).toBe('torque');
+    expect(a.durationS).toBe(b.durationS);
+    expect(Math.abs(a.durationS - 2 * Math.sqrt((4 * D) / (1 * D)))).toBeLessThan(1e-9);
+  });
+
+  it('with stored momentum along −e: the search finds a ≈ w²/θ with w = (h_usable − k)/J, no coast', () => {
+    const l: PlanLimits = {
+      torqueCapacity: cubeCapacity(0.05),
+      momentumCapacity: cubeCapacity(0.5),
+      torqueMargin: 0.8,
+      momentumMargin: 0.9,
+    };
+    const k = 0.15;
+    const th = 120 * D;
+    const p = seg(120, { ...l, family: 'bang-bang' }, [0, 0, -k]);
+    const w = (0.45 - k) / 12;
+    expect(p.profile.coastTimeS).toBe(0);
+    expect(p.method).toBe('sampled-search');
+    expect(p.binding).toBe('momentum');
+    expect(p.peakRateRadPerS).toBeLessThanOrEqual(w * (1 + 1e-12));
+    expect(p.peakRateRadPerS).toBeGreaterThan(w * (1 - 3e-3));
+    expect(Math.abs(p.durationS - (2 * th) / p.peakRateRadPerS)).toBeLessThan(1e-9 * p.durationS);
+    expect(p.peakMomentumFraction).toBeLessThanOrEqual(0.9);
+  });
+
+  it('an unknown family is refused, naming it', () => {
+    const r = planSegment(
+      { qStart: I4, qTarget: axisAngle([0, 0, 1], 10 * D), inertia: J, wheelMomentumBody: [0, 0, 0] },
+      { ...lim, family: 'triangle' as never },
+    );
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors[0]!.path).toBe('limits.family');
+  });
+});
+
 describe('input validation', () => {
   it('lists every problem with its path and rule, and never throws', () => {
     const r = planSegment(

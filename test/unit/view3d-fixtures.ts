@@ -48,6 +48,7 @@ export function syntheticTrace(spec: SyntheticRunSpec, nWheels = 3): RunTrace {
     torqueBody: f(3),
     wheelTorqueCmd: f(nWheels),
     wheelTorque: f(nWheels),
+    wheelTorqueNet: f(nWheels),
     logic: f(1),
     errorAngle: f(1),
     potential: f(1),

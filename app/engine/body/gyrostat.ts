@@ -263,6 +263,27 @@ export function gyrostatDerivative(
   dx[6] = M[2]! * rx + M[5]! * ry + M[8]! * rz;
 }
 
+/**
+ * Bearing friction on each rotor at state x (the torque gyrostatDerivative subtracts from the
+ * motor torque, so ḣ_i = τ_motor,i − out_i), N·m. Zeros when the gyrostat has no friction.
+ */
+export function wheelFrictionTorque(out: Float64Array, x: ArrayLike<number>, g: Gyrostat): Float64Array {
+  const fr = g.friction;
+  const wx = x[4]!,
+    wy = x[5]!,
+    wz = x[6]!;
+  const ax = g.axes;
+  for (let i = 0; i < g.n; i++) {
+    if (!fr.active) {
+      out[i] = 0;
+      continue;
+    }
+    const rel = x[7 + i]! * g.JsInv[i]! - (ax[3 * i]! * wx + ax[3 * i + 1]! * wy + ax[3 * i + 2]! * wz);
+    out[i] = fr.viscousNmsPerRad[i]! * rel + fr.coulombNm[i]! * Math.tanh(rel / fr.coulombSmoothingRadPerS);
+  }
+  return out;
+}
+
 /** Total angular momentum in body axes, H = J_⊥ ω + G h, N·m·s. */
 export function totalMomentumBody(out: Vec3, x: ArrayLike<number>, g: Gyrostat): Vec3 {
   const wx = x[4]!,

@@ -51,6 +51,8 @@ export interface LawDefinition<L extends LawId> {
   /** Where the law is published (cited beside the code too). */
   readonly source: string;
   readonly logicKind: LogicKind;
+  /** True when the law acts on the quaternion and so picks one of ±q (unwinding is about that choice). */
+  readonly liftDependent: boolean;
   readonly gains: { stiffness: GainMeaning; damping: GainMeaning };
   readonly fields: readonly LawField[];
   /** The law's own fields for a new controller of this law (display units). */

@@ -46,7 +46,13 @@ function quatColumns(prefix: string, what: string, channel: 'q' | 'qRef'): Colum
   }));
 }
 
-function wheelColumns(nW: number, key: string, unit: string, what: string, channel: 'wheelTorqueCmd' | 'wheelTorque' | 'hWheel'): Column[] {
+function wheelColumns(
+  nW: number,
+  key: string,
+  unit: string,
+  what: string,
+  channel: 'wheelTorqueCmd' | 'wheelTorque' | 'wheelTorqueNet' | 'hWheel',
+): Column[] {
   const out: Column[] = [];
   for (let i = 0; i < nW; i++) {
     out.push({
@@ -87,8 +93,15 @@ export function traceColumns(nWheels: number): Column[] {
     ...vecColumns('omegaref', '_radps', 'rad/s', 'reference body rate', 'omegaRef'),
     ...vecColumns('torque_cmd', '_Nm', 'N m', 'commanded body torque', 'torqueCmdBody'),
     ...vecColumns('torque', '_Nm', 'N m', 'delivered body torque', 'torqueBody'),
-    ...wheelColumns(nWheels, 'torque_cmd_Nm', 'N m', 'commanded motor torque', 'wheelTorqueCmd'),
-    ...wheelColumns(nWheels, 'torque_Nm', 'N m', 'delivered motor torque', 'wheelTorque'),
+    ...wheelColumns(nWheels, 'torque_cmd_Nm', 'N m', 'commanded motor torque (allocation, before the wheel limits)', 'wheelTorqueCmd'),
+    ...wheelColumns(nWheels, 'torque_motor_Nm', 'N m', 'delivered motor torque (after the limits; the period average)', 'wheelTorque'),
+    ...wheelColumns(
+      nWheels,
+      'torque_net_Nm',
+      'N m',
+      'net rotor torque: delivered motor torque minus bearing friction (= dh/dt)',
+      'wheelTorqueNet',
+    ),
     ...wheelColumns(nWheels, 'h_Nms', 'N m s', 'axial wheel momentum', 'hWheel'),
     scalar('logic', '', 'controller logic value (h in {-1, 1}, synergistic index, 0 for smooth laws)', 'logic'),
     {

@@ -18,6 +18,19 @@ export interface CsvOptions {
   lineEnding?: '\n' | '\r\n';
 }
 
+/** "1: axis (x, y, z), 2 mN m, 6 mN m s; 2: …" in SI. */
+export function wheelLimitsText(w: NonNullable<ExportMeta['wheels']>): string {
+  const n = w.maxTorqueNm.length;
+  const parts: string[] = [];
+  for (let i = 0; i < n; i++) {
+    const a = [0, 1, 2].map((c) => formatNumber(w.axes[3 * i + c]!)).join(' ');
+    parts.push(
+      `${i + 1}: axis [${a}], torque ${formatNumber(w.maxTorqueNm[i]!)} N m, momentum ${formatNumber(w.maxMomentumNms[i]!)} N m s`,
+    );
+  }
+  return parts.join('; ');
+}
+
 export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: CsvOptions = {}): Result<string> {
   const errors = checkExportInputs(trace, scenario, meta);
   if (options.lineEnding !== undefined && options.lineEnding !== '\n' && options.lineEnding !== '\r\n') {
@@ -41,6 +54,7 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
     `frames: ${FRAME_CONVENTION}`,
     'units: SI (s, rad/s, N m, N m s) as each column name says; quaternions dimensionless; error_angle_deg in degrees',
     `wheels: ${trace.nWheels}, numbered 1..${trace.nWheels} in the order of the scenario's wheel list`,
+    ...(meta.wheels ? [`wheel limits: ${wheelLimitsText(meta.wheels)}`] : []),
     options.sampleRateHz !== undefined
       ? `samples: ${idx.length} of ${trace.n} (decimated to about ${options.sampleRateHz} Hz; the last sample always kept)`
       : `samples: ${trace.n}`,

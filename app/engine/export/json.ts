@@ -120,6 +120,7 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
       units,
     },
     epochUtc: scenario.epochUtc,
+    inertialFrame: scenario.inertialFrame,
     controller: meta.controllerId !== undefined ? { id: meta.controllerId, label: meta.controllerLabel } : { label: meta.controllerLabel },
     scenario: scenario.file,
     resolved: {
@@ -132,6 +133,13 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
       })),
     },
     segments: segs.value,
+    wheels: meta.wheels
+      ? {
+          axes: Array.from(meta.wheels.axes),
+          maxTorqueNm: Array.from(meta.wheels.maxTorqueNm),
+          maxMomentumNms: Array.from(meta.wheels.maxMomentumNms),
+        }
+      : undefined,
     jumpEvents: meta.jumpEvents ?? [],
     plan: meta.plan,
     metrics: meta.metrics,

@@ -33,6 +33,7 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
     jumpEvents: run.jumps,
     metrics: run.metrics,
     plan: out.plan,
+    wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
   };
   if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });

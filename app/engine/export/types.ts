@@ -23,4 +23,6 @@ export interface ExportMeta {
   jumpEvents?: readonly JumpEvent[];
   metrics?: unknown;
   plan?: unknown;
+  /** The wheels the run flew: unit axes (3 per wheel, body) and per-wheel limits, SI. */
+  wheels?: { axes: ArrayLike<number>; maxTorqueNm: ArrayLike<number>; maxMomentumNms: ArrayLike<number> };
 }

@@ -1,23 +1,25 @@
 /**
- * Run metrics: the numbers an attitude engineer compares controllers by. Computed from the stored
- * trace only, so the CLI, the app and the robustness study all report the same thing.
- *
- * Definitions (common practice, no single source; stated here so every output can quote them):
- * - settle time: the earliest sample time after which the error angle stays below
- *   `settleAngleRad` AND the rate error |ω − ω_ref| stays below `settleRateRadPerS` until the end
- *   of the run (null when the run never settles).
- * - rotation travelled: Σ ‖ω‖ Δt (trapezoidal) per maneuver segment, compared with the shortest
- *   rotation from the attitude at the segment's start to its target. A segment "unwinds" when it
- *   travels more than π beyond the shortest rotation (the extra full turn of Bhat & Bernstein,
- *   Systems & Control Letters 39(1), 2000).
- * - chatter: the largest number of logic jumps plus body-torque sign reversals (any axis, ignoring
- *   torques below 2 % of the run's peak) inside any sliding window of `chatterWindowS`, divided by
- *   the window — events per second.
- * - peak wheel torque / momentum: max over wheels and samples of |τ_i| / τ_max,i and |h_i| / h_max,i.
- * - control effort: ∫ ‖τ_body‖ dt of the delivered torque (trapezoidal), N·m·s.
+ * Run metrics: the numbers an attitude engineer compares controllers by, each with ONE meaning
+ * for the CLI, the app, the study and the exports (the definitions live beside their code and
+ * are quoted by the UI's metric help):
+ * - settling, rotation travelled and unwinding per segment, against each segment's target
+ *   (segments.ts); the run settles when every segment does, and its settle time is the longest;
+ * - tracking error: peak and RMS of the angle between the attitude and the reference (the planned
+ *   profile while following the plan; the target when stepping to it), over the whole run;
+ * - chatter: reversals of the commanded torque direction per second in the busiest window,
+ *   planned switches excluded (chatter.ts);
+ * - wheel peaks, saturation and control effort (wheels.ts);
+ * - jumps: logic jumps of a hybrid law;
+ * - final error: the angle to the last segment's target at the end of the run.
+ * Computed from the stored trace only.
  */
 import type { JumpEvent, RunTrace } from '../sim/types';
-import { qAngleBetween } from '../math/rotation';
+import { CHATTER_FLOOR_FRACTION, chatterOf } from './chatter';
+import { segmentMetrics, type SegmentMetrics } from './segments';
+import { wheelUse, type WheelPeak, type WheelSaturation } from './wheels';
+
+export type { SegmentMetrics } from './segments';
+export type { WheelPeak, WheelSaturation } from './wheels';
 
 export interface MetricOptions {
   settleAngleRad: number;
@@ -25,179 +27,106 @@ export interface MetricOptions {
   chatterWindowS: number;
   maxTorqueNm: ArrayLike<number>;
   maxMomentumNms: ArrayLike<number>;
-  /** Target attitude of each segment, 4 per segment ([x,y,z,w]). */
+  /** Target attitude of each segment, 4 per segment index ([x, y, z, w]). */
   segmentTargets: Float64Array;
-}
-
-export interface SegmentMetrics {
-  segment: number;
-  tStart: number;
-  tEnd: number;
-  shortestRad: number;
-  travelledRad: number;
-  unwound: boolean;
+  /** Planned switch instants of the reference (s); torque reversals there belong to the plan. */
+  plannedSwitchTimes?: ArrayLike<number>;
+  /** Chatter floor, N·m (default CHATTER_FLOOR_FRACTION of the smallest wheel torque limit). */
+  chatterFloorNm?: number;
+  /** Worst-case bounded noise ē of the run, for the unwinding test (default 0). */
+  boundedNoiseEta?: number;
+  /** Whether the law acts on the quaternion, picking a lift (default true; segments.ts). */
+  liftDependent?: boolean;
 }
 
 export interface RunMetrics {
+  /** Longest segment settle time, s (null when any segment does not settle). */
   settleTimeS: number | null;
   settled: boolean;
+  trackingErrorPeakRad: number;
+  trackingErrorRmsRad: number;
   rotationTravelledRad: number;
   shortestRotationRad: number;
+  longWay: boolean;
   unwound: boolean;
   jumps: number;
   chatterPerS: number;
+  /** Commanded-torque direction reversals outside the plan's own switches. */
   torqueReversals: number;
   peakWheelTorqueFraction: number;
   peakWheelMomentumFraction: number;
+  peakTorque: WheelPeak;
+  peakMomentum: WheelPeak;
+  saturation: WheelSaturation[];
   controlEffortNms: number;
   finalErrorRad: number;
-  finalRateErrorRadPerS: number;
+  finalRateRadPerS: number;
   segments: SegmentMetrics[];
 }
 
-export function computeMetrics(trace: RunTrace, jumps: readonly JumpEvent[], o: MetricOptions): RunMetrics {
-  const n = trace.n;
-  const N = trace.nWheels;
-  const t = trace.t;
-  if (n === 0) {
-    return {
-      settleTimeS: null,
-      settled: false,
-      rotationTravelledRad: 0,
-      shortestRotationRad: 0,
-      unwound: false,
-      jumps: 0,
-      chatterPerS: 0,
-      torqueReversals: 0,
-      peakWheelTorqueFraction: 0,
-      peakWheelMomentumFraction: 0,
-      controlEffortNms: 0,
-      finalErrorRad: 0,
-      finalRateErrorRadPerS: 0,
-      segments: [],
-    };
-  }
-
-  // Rate error per sample: ω − R_eᵀ ω_ref ≈ ω − ω_ref near the reference; use the plain difference
-  // of body components, which equals the body-frame rate error when the attitude error is small
-  // (where settling is judged). (Math.sqrt of a sum rather than Math.hypot: hypot is not inlined
-  // and returns a boxed number per call.)
-  const w = trace.omega,
-    wr = trace.omegaRef;
-  const rateErr = new Float64Array(n);
-  for (let k = 0; k < n; k++) {
-    const dx = w[3 * k]! - wr[3 * k]!,
-      dy = w[3 * k + 1]! - wr[3 * k + 1]!,
-      dz = w[3 * k + 2]! - wr[3 * k + 2]!;
-    rateErr[k] = Math.sqrt(dx * dx + dy * dy + dz * dz);
-  }
-
-  // Settle time: scan backwards for the last sample outside the thresholds.
-  let lastBad = -1;
-  for (let k = n - 1; k >= 0; k--) {
-    if (!(trace.errorAngle[k]! < o.settleAngleRad && rateErr[k]! < o.settleRateRadPerS)) {
-      lastBad = k;
-      break;
+function trackingError(tr: RunTrace): { peak: number; rms: number } {
+  let peak = 0,
+    sum = 0,
+    span = 0;
+  for (let k = 0; k < tr.n; k++) {
+    const e = tr.errorAngle[k]!;
+    if (e > peak) peak = e;
+    if (k > 0) {
+      const dt = tr.t[k]! - tr.t[k - 1]!;
+      const p = tr.errorAngle[k - 1]!;
+      sum += 0.5 * (p * p + e * e) * dt;
+      span += dt;
     }
   }
-  const settled = lastBad < n - 1;
-  const settleTimeS = settled ? t[lastBad + 1]! : null;
+  return { peak, rms: span > 0 ? Math.sqrt(sum / span) : peak };
+}
 
-  // Rotation travelled per segment.
-  const segments: SegmentMetrics[] = [];
-  const qStart = new Float64Array(4);
-  const qTgt = new Float64Array(4);
-  const closeSegment = (k0: number, kEnd: number, travelled: number) => {
-    const s = trace.segment[k0]!;
-    for (let i = 0; i < 4; i++) {
-      qStart[i] = trace.q[4 * k0 + i]!;
-      qTgt[i] = o.segmentTargets[4 * s + i] ?? 0;
-    }
-    const shortest = qAngleBetween(qStart, qTgt);
-    segments.push({
-      segment: s,
-      tStart: t[k0]!,
-      tEnd: t[kEnd]!,
-      shortestRad: shortest,
-      travelledRad: travelled,
-      unwound: travelled - shortest > Math.PI,
-    });
-  };
-  let k0 = 0;
-  let travelled = 0;
-  let wPrev = Math.sqrt(w[0]! * w[0]! + w[1]! * w[1]! + w[2]! * w[2]!);
-  for (let k = 1; k < n; k++) {
-    const wx = w[3 * k]!,
-      wy = w[3 * k + 1]!,
-      wz = w[3 * k + 2]!;
-    const wk = Math.sqrt(wx * wx + wy * wy + wz * wz);
-    if (trace.segment[k] !== trace.segment[k0]) {
-      closeSegment(k0, k - 1, travelled);
-      k0 = k;
-      travelled = 0;
-    } else travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
-    wPrev = wk;
-  }
-  closeSegment(k0, n - 1, travelled);
+function smallest(a: ArrayLike<number>): number {
+  let m = Infinity;
+  for (let i = 0; i < a.length; i++) m = Math.min(m, a[i]!);
+  return Number.isFinite(m) ? m : 0;
+}
 
-  // Peaks, effort, torque reversals.
-  const tb = trace.torqueBody,
-    tc = trace.torqueCmdBody;
-  let peakTau = 0,
-    peakH = 0,
-    effort = 0,
-    peakBody = 0,
-    tbPrev = 0;
-  for (let k = 0; k < n; k++) {
-    for (let i = 0; i < N; i++) {
-      peakTau = Math.max(peakTau, Math.abs(trace.wheelTorque[N * k + i]!) / o.maxTorqueNm[i]!);
-      peakH = Math.max(peakH, Math.abs(trace.hWheel[N * k + i]!) / o.maxMomentumNms[i]!);
-    }
-    const bx = tb[3 * k]!,
-      by = tb[3 * k + 1]!,
-      bz = tb[3 * k + 2]!;
-    const tbk = Math.sqrt(bx * bx + by * by + bz * bz);
-    peakBody = Math.max(peakBody, Math.abs(tc[3 * k]!), Math.abs(tc[3 * k + 1]!), Math.abs(tc[3 * k + 2]!));
-    if (k > 0) effort += 0.5 * (tbk + tbPrev) * (t[k]! - t[k - 1]!);
-    tbPrev = tbk;
-  }
-  const floor = 0.02 * peakBody;
-  const eventTimes: number[] = [];
-  const lastSign = [0, 0, 0];
-  for (let k = 0; k < n; k++) {
-    for (let a = 0; a < 3; a++) {
-      const v = trace.torqueCmdBody[3 * k + a]!;
-      if (Math.abs(v) <= floor) continue;
-      const s = v > 0 ? 1 : -1;
-      if (lastSign[a] !== 0 && s !== lastSign[a]) eventTimes.push(t[k]!);
-      lastSign[a] = s;
-    }
-  }
-  const torqueReversals = eventTimes.length;
-  for (const j of jumps) eventTimes.push(j.t);
-  eventTimes.sort((a, b) => a - b);
-  let maxInWindow = 0;
-  for (let lo = 0, hi = 0; hi < eventTimes.length; hi++) {
-    while (eventTimes[hi]! - eventTimes[lo]! > o.chatterWindowS) lo++;
-    maxInWindow = Math.max(maxInWindow, hi - lo + 1);
-  }
-
-  const shortestRotationRad = segments.reduce((s, g) => s + g.shortestRad, 0);
-  const rotationTravelledRad = segments.reduce((s, g) => s + g.travelledRad, 0);
+export function computeMetrics(tr: RunTrace, jumps: readonly JumpEvent[], o: MetricOptions): RunMetrics {
+  const segments = segmentMetrics(tr, {
+    settleAngleRad: o.settleAngleRad,
+    settleRateRadPerS: o.settleRateRadPerS,
+    segmentTargets: o.segmentTargets,
+    boundedNoiseEta: o.boundedNoiseEta ?? 0,
+    liftDependent: o.liftDependent ?? true,
+  });
+  const settled = segments.length > 0 && segments.every((s) => s.settleTimeS !== null);
+  const chatter = chatterOf(tr, {
+    windowS: o.chatterWindowS,
+    floorNm: o.chatterFloorNm ?? CHATTER_FLOOR_FRACTION * smallest(o.maxTorqueNm),
+    plannedSwitchTimes: o.plannedSwitchTimes ?? [],
+  });
+  const wheels = wheelUse(tr, o.maxTorqueNm, o.maxMomentumNms);
+  const tracking = trackingError(tr);
+  const last = segments[segments.length - 1];
+  const n = tr.n;
+  const w = tr.omega;
+  const finalRate = n > 0 ? Math.hypot(w[3 * n - 3]!, w[3 * n - 2]!, w[3 * n - 1]!) : 0;
   return {
-    settleTimeS,
+    settleTimeS: settled ? Math.max(...segments.map((s) => s.settleTimeS!)) : null,
     settled,
-    rotationTravelledRad,
-    shortestRotationRad,
+    trackingErrorPeakRad: tracking.peak,
+    trackingErrorRmsRad: tracking.rms,
+    rotationTravelledRad: segments.reduce((s, g) => s + g.travelledRad, 0),
+    shortestRotationRad: segments.reduce((s, g) => s + g.shortestRad, 0),
+    longWay: segments.some((g) => g.longWay),
     unwound: segments.some((g) => g.unwound),
     jumps: jumps.length,
-    chatterPerS: maxInWindow / o.chatterWindowS,
-    torqueReversals,
-    peakWheelTorqueFraction: peakTau,
-    peakWheelMomentumFraction: peakH,
-    controlEffortNms: effort,
-    finalErrorRad: trace.errorAngle[n - 1]!,
-    finalRateErrorRadPerS: rateErr[n - 1]!,
+    chatterPerS: chatter.perS,
+    torqueReversals: chatter.reversals,
+    peakWheelTorqueFraction: wheels.torque.fraction,
+    peakWheelMomentumFraction: wheels.momentum.fraction,
+    peakTorque: wheels.torque,
+    peakMomentum: wheels.momentum,
+    saturation: wheels.saturation,
+    controlEffortNms: wheels.effortNms,
+    finalErrorRad: last ? last.finalErrorRad : 0,
+    finalRateRadPerS: finalRate,
     segments,
   };
 }

@@ -80,6 +80,7 @@ export function buildVehicle(v: ResolvedVehicle): Result<Vehicle> {
       torqueEnvelope: torqueZ,
       momentumEnvelope: momentumZ,
       design,
+      frictionFeedforward: fr?.compensatedFraction ?? 0,
     },
     [...warnings, ...plant.warnings],
   );
@@ -95,6 +96,7 @@ export function buildOneController(c: ResolvedController, index: number, design:
       label: c.label,
       law: c.law,
       logicKind: lawDefinition(c.law).logicKind,
+      liftDependent: lawDefinition(c.law).liftDependent,
       controller: r.value,
       gainNote: gainNoteOf(c, design),
     },

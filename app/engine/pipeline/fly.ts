@@ -14,7 +14,7 @@ import { SettleWatch } from '../metrics/settle';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
-  vehicle: Pick<Vehicle, 'plant' | 'wheels'>;
+  vehicle: Pick<Vehicle, 'plant' | 'wheels' | 'frictionFeedforward'>;
   controller: BuiltController;
   mode: RunMode;
   reference: ReferenceSource;
@@ -52,6 +52,7 @@ export function fly(f: Flight): ClosedLoopResult {
     stream: f.stream,
     actuation: f.actuation,
     allocation: 'min-max',
+    frictionFeedforward: f.vehicle.frictionFeedforward,
     stopRule: f.earlyStop ? new SettleWatch(f.earlyStop.angleRad, f.earlyStop.rateRadPerS, f.earlyStop.settledForS) : undefined,
     shouldStop: f.shouldStop,
   });

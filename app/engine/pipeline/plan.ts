@@ -20,6 +20,7 @@ export function planLimits(s: ResolvedScenario, v: Vehicle): PlanLimits {
     torqueMargin: s.planning.torqueMargin,
     momentumMargin: s.planning.momentumMargin,
     slewRateLimitRadPerS: s.planning.slewRateLimitRadPerS > 0 ? s.planning.slewRateLimitRadPerS : undefined,
+    family: s.planning.profile,
   };
 }
 

@@ -17,7 +17,8 @@ import type { RunMode } from '../sim/types';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
 import { planManeuver, planSummary } from './plan';
-import { bestMarks, certificates, comparisonRow, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
+import { bestMarks, comparisonRow } from './comparison';
+import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
 
 export interface PipelineOptions {
@@ -78,8 +79,9 @@ export interface FlyOptions {
 
 /** Stages 5 and 6 for one controller in one mode. */
 export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, o: FlyOptions = {}): ControllerRun {
-  const res = fly(scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop));
-  return summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets), o.monitor ?? true);
+  const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
+  const res = fly(flight);
+  return summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
 }
 
 /** One pass: every controller in every mode, and the comparison. */

@@ -6,29 +6,33 @@
 import { symmetricEigen3 } from '../math/mat3';
 import { computeMetrics, type RunMetrics } from '../metrics/metrics';
 import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
+import { plannedSwitchTimes } from '../plan/reference';
+import type { SequencePlan } from '../plan/types';
+import type { SensorModel } from '../sim/sensors';
+import { makeDiagnostics } from '../control/types';
 import type { ClosedLoopResult } from '../sim/closedLoop';
-import type { RunMode, RunTrace, JumpEvent } from '../sim/types';
+import type { RunMode, RunOutcome, RunTrace, JumpEvent } from '../sim/types';
 import type { ResolvedScenario } from '../scenario/resolve';
 import type { Scenario } from '../scenario/schema';
 import type { Zonotope } from '../wheels/envelope';
-import { DEG_PER_RAD } from '../units';
 import type {
-  BestMarks,
   BuiltController,
   CertificateSummary,
-  ComparisonRow,
   ControllerRun,
   EnvelopeSummary,
+  RunVerdict,
   ScenarioSummary,
   Vehicle,
   VehicleSummary,
 } from './types';
 import { certificateSummary } from './types';
 
-/** Chatter is counted over sliding windows of this length (s); metrics.ts defines the measure. */
+/** Chatter is counted over sliding windows of this length (s); metrics/chatter.ts defines the measure. */
 export const CHATTER_WINDOW_S = 10;
+/** The monitor flags a rise above this fraction of the run's largest W, plus the noise energy (monitor.ts). */
+export const MONITOR_REL_TOL = 1e-3;
 
-/** What the metrics need of the scenario and the vehicle. */
+/** What the metrics and the monitor need of the scenario, the vehicle and the flight. */
 export interface MetricContext {
   settleAngleRad: number;
   settleRateRadPerS: number;
@@ -36,10 +40,13 @@ export interface MetricContext {
   maxMomentumNms: Float64Array;
   /** Target attitude of each segment, 4 per segment. */
   targets: Float64Array;
+  /** Planned switches of the flight's reference (s). */
+  plannedSwitchTimes: Float64Array;
+  sensors: SensorModel;
 }
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
-export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }, m: MetricContext): RunMetrics {
+export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }, m: MetricContext, liftDependent = true): RunMetrics {
   return computeMetrics(res.trace, res.jumps, {
     settleAngleRad: m.settleAngleRad,
     settleRateRadPerS: m.settleRateRadPerS,
@@ -47,21 +54,62 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     maxTorqueNm: m.maxTorqueNm,
     maxMomentumNms: m.maxMomentumNms,
     segmentTargets: m.targets,
+    plannedSwitchTimes: m.plannedSwitchTimes,
+    boundedNoiseEta: m.sensors.adversarialEta,
+    liftDependent,
   });
 }
 
-/** Lyapunov-monitor flags with the law's promised jump decrease (tolerance 1e-3 of max W). */
-export function runMonitor(res: { trace: RunTrace; jumps: readonly JumpEvent[] }, c: BuiltController): MonitorFlag[] {
-  return lyapunovMonitor(res.trace, res.jumps, { jumpDecrease: c.controller.jumpDecrease, relTol: 1e-3, absTol: 1e-12 });
+/**
+ * The energy sensor noise alone moves a law's W by: W of a state 3σ off in attitude and 3σ (plus
+ * the bias) off in rate, measured with the law's own Lyapunov function (monitor.ts header).
+ */
+export function noiseEnergy(c: BuiltController, sensors: SensorModel, nWheels: number): number {
+  const th = 3 * sensors.attitudeSigmaRad;
+  const b = sensors.rateBiasRadPerS;
+  const w = 3 * sensors.rateSigmaRadPerS + Math.hypot(b[0]!, b[1]!, b[2]!);
+  if (!(th > 0) && !(w > 0)) return 0;
+  const input = {
+    q: Float64Array.of(Math.sin(th / 2), 0, 0, Math.cos(th / 2)),
+    omega: Float64Array.of(w, 0, 0),
+    hWheel: new Float64Array(nWheels),
+    qRef: Float64Array.of(0, 0, 0, 1),
+    omegaRef: new Float64Array(3),
+    omegaDotRef: new Float64Array(3),
+  };
+  const d = makeDiagnostics();
+  const logic = c.controller.initialLogic(input);
+  const v = c.controller.diagnostics(d, input, logic).lyapunov;
+  return Number.isFinite(v) ? Math.abs(v) : 0;
 }
 
-export function metricContext(s: ResolvedScenario, v: Pick<Vehicle, 'wheels'>, targets: Float64Array): MetricContext {
+/** Lyapunov-monitor flags with the law's promised jump decrease and a physically scaled tolerance. */
+export function runMonitor(res: { trace: RunTrace; jumps: readonly JumpEvent[] }, c: BuiltController, m: MetricContext): MonitorFlag[] {
+  return lyapunovMonitor(res.trace, res.jumps, {
+    jumpDecrease: c.controller.jumpDecrease,
+    relTol: MONITOR_REL_TOL,
+    absTol: 1e-12,
+    noiseEnergy: noiseEnergy(c, m.sensors, m.maxTorqueNm.length),
+    plannedSwitchTimes: m.plannedSwitchTimes,
+  });
+}
+
+export function metricContext(
+  s: ResolvedScenario,
+  v: Pick<Vehicle, 'wheels'>,
+  targets: Float64Array,
+  plan: SequencePlan,
+  mode: RunMode,
+  sensors: SensorModel,
+): MetricContext {
   return {
     settleAngleRad: s.simulation.settleAngleRad,
     settleRateRadPerS: s.simulation.settleRateRadPerS,
     maxTorqueNm: v.wheels.maxTorqueNm,
     maxMomentumNms: v.wheels.maxMomentumNms,
     targets,
+    plannedSwitchTimes: plannedSwitchTimes(plan.reference, mode === 'step-target'),
+    sensors,
   };
 }
 
@@ -73,6 +121,7 @@ export function summariseRun(
   m: MetricContext,
   withMonitor = true,
 ): ControllerRun {
+  const metrics = runMetrics(res, m, c.liftDependent);
   return {
     key: `${c.id}:${mode}`,
     controllerId: c.id,
@@ -83,64 +132,26 @@ export function summariseRun(
     trace: res.trace,
     jumps: res.jumps,
     outcome: res.outcome,
-    metrics: runMetrics(res, m),
-    monitor: withMonitor ? runMonitor(res, c) : [],
+    verdict: verdictOf(res.outcome, metrics),
+    metrics,
+    monitor: withMonitor ? runMonitor(res, c, m) : [],
     gainNote: c.gainNote,
   };
 }
 
-export function comparisonRow(r: ControllerRun): ComparisonRow {
-  const m = r.metrics;
-  return {
-    key: r.key,
-    controllerId: r.controllerId,
-    label: r.label,
-    mode: r.mode,
-    status: r.outcome.status,
-    settleTimeS: m.settleTimeS,
-    rotationTravelledDeg: m.rotationTravelledRad * DEG_PER_RAD,
-    shortestRotationDeg: m.shortestRotationRad * DEG_PER_RAD,
-    unwound: m.unwound,
-    jumps: m.jumps,
-    chatterPerS: m.chatterPerS,
-    peakWheelTorqueFraction: m.peakWheelTorqueFraction,
-    peakWheelMomentumFraction: m.peakWheelMomentumFraction,
-    controlEffortNms: m.controlEffortNms,
-    finalErrorDeg: m.finalErrorRad * DEG_PER_RAD,
-    monitorFlags: r.monitor.length,
-  };
-}
-
-/** Lowest value wins in each numeric column; settle time: unsettled rows never win. */
-export function bestMarks(rows: readonly ComparisonRow[]): BestMarks {
-  const cols: (keyof ComparisonRow)[] = [
-    'settleTimeS',
-    'rotationTravelledDeg',
-    'jumps',
-    'chatterPerS',
-    'peakWheelTorqueFraction',
-    'peakWheelMomentumFraction',
-    'controlEffortNms',
-    'finalErrorDeg',
-    'monitorFlags',
-  ];
-  const best: BestMarks = {};
-  for (const col of cols) {
-    let bestKey: string | null = null;
-    let bestVal = Infinity;
-    let distinct = false;
-    for (const r of rows) {
-      const v = r[col];
-      if (typeof v !== 'number' || !Number.isFinite(v)) continue;
-      if (bestKey !== null && v !== bestVal) distinct = true;
-      if (v < bestVal) {
-        bestVal = v;
-        bestKey = r.key;
-      }
-    }
-    best[col] = rows.length > 1 && (distinct || col === 'settleTimeS') ? bestKey : null;
+/**
+ * Whether a run met the pointing requirement, apart from how the simulation ended: failed (the
+ * run did not reach its end: non-finite state, too many jumps at one instant, cancelled),
+ * unsettled (it ran to the end but some segment never stayed within the settle thresholds), or
+ * settled.
+ */
+export function verdictOf(o: RunOutcome, m: RunMetrics): RunVerdict {
+  if (o.status !== 'completed') return { kind: 'failed', text: `failed: ${o.message}` };
+  if (!m.settled) {
+    const bad = m.segments.filter((s) => s.settleTimeS === null).map((s) => s.segment + 1);
+    return { kind: 'unsettled', text: `not settled (segment${bad.length === 1 ? '' : 's'} ${bad.join(', ')})` };
   }
-  return best;
+  return { kind: 'settled', text: `settled in ${m.settleTimeS!.toFixed(1)} s` };
 }
 
 export function certificates(cs: readonly BuiltController[]): CertificateSummary[] {

@@ -36,6 +36,8 @@ export interface Vehicle {
   momentumEnvelope: Zonotope;
   /** What a controller designed for this vehicle knows of it. */
   design: DesignModel;
+  /** Fraction of the bearing friction model the wheel drives feed forward (0: none). */
+  frictionFeedforward: number;
 }
 
 export interface BuiltController {
@@ -43,6 +45,8 @@ export interface BuiltController {
   label: string;
   law: LawId;
   logicKind: LogicKind;
+  /** The law acts on the quaternion and picks a lift (control/definition.ts). */
+  liftDependent: boolean;
   controller: AttitudeController;
   /** What the gains ask of the wheels, in words. */
   gainNote: string;
@@ -50,6 +54,12 @@ export interface BuiltController {
 
 // ---------------------------------------------------------------------------------------------
 // Stage 6 (summarise) and the output.
+
+/** Whether a run met the pointing requirement (summarise.ts verdictOf), in a word and in a sentence. */
+export interface RunVerdict {
+  kind: 'settled' | 'unsettled' | 'failed';
+  text: string;
+}
 
 export interface ControllerRun {
   /** `${controllerId}:${mode}`, unique within one pipeline output. */
@@ -61,7 +71,10 @@ export interface ControllerRun {
   logicKind: LogicKind;
   trace: RunTrace;
   jumps: JumpEvent[];
+  /** How the simulation ended (it may run to its end without meeting the pointing requirement). */
   outcome: RunOutcome;
+  /** Whether it met the pointing requirement. */
+  verdict: RunVerdict;
   metrics: RunMetrics;
   monitor: MonitorFlag[];
   /** Torque the chosen gains imply, for the UI's "what these gains mean" read-out. */
@@ -138,8 +151,12 @@ export interface ComparisonRow {
   controllerId: string;
   label: string;
   mode: RunMode;
+  /** settled / unsettled / failed, and the sentence that says why. */
+  verdict: RunVerdict['kind'];
   status: string;
   settleTimeS: number | null;
+  trackingErrorPeakDeg: number;
+  trackingErrorRmsDeg: number;
   rotationTravelledDeg: number;
   shortestRotationDeg: number;
   unwound: boolean;
@@ -149,10 +166,14 @@ export interface ComparisonRow {
   peakWheelMomentumFraction: number;
   controlEffortNms: number;
   finalErrorDeg: number;
-  monitorFlags: number;
+  /** Lyapunov-monitor violations (flow rises and weak jumps; planned reference steps not counted). */
+  monitorViolations: number;
 }
 
-/** Column → key of the best row (lowest value wins; null when not comparable). */
+/**
+ * Column → key of the best row: lowest value wins, among settled runs only, and only when one run
+ * is strictly best (ties and single comparable rows get no mark); null when not comparable.
+ */
 export type BestMarks = Partial<Record<keyof ComparisonRow, string | null>>;
 
 /** The scenario as exports and views need it: names, epoch, frame, targets, settle thresholds. */

@@ -133,3 +133,22 @@ function zero3(v: Vec3): void {
   v[1] = 0;
   v[2] = 0;
 }
+
+/**
+ * The instants where the planned reference's acceleration steps, ascending: each slew's start, the
+ * end of its acceleration, the start of its deceleration and its end (a rest-to-rest profile is
+ * piecewise constant in acceleration). With `slewStartsOnly`, each slew's start: where a
+ * step-to-target reference changes its target.
+ */
+export function plannedSwitchTimes(tab: ReferenceTable, slewStartsOnly = false): Float64Array {
+  const out: number[] = [];
+  for (let k = 0; k < tab.n; k++) {
+    const t0 = tab.slewStartS[k]!;
+    out.push(t0);
+    if (slewStartsOnly) continue;
+    const a = tab.accelTime[k]!,
+      c = tab.coastTime[k]!;
+    out.push(t0 + a, t0 + a + c, tab.slewEndS[k]!);
+  }
+  return Float64Array.from(out);
+}

@@ -176,7 +176,7 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
   };
 }
 
-function explainNoProfile(g: SlewGeometry, limits: PlanLimits, a: number, w: number): Issue {
+export function explainNoProfile(g: SlewGeometry, limits: PlanLimits, a: number, w: number): Issue {
   const use = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, restToRestProfile(g.angleRad, a, w), limits, SEARCH_SAMPLING);
   const mom = use.momentum / limits.momentumMargin >= use.torque / limits.torqueMargin;
   return mom

@@ -16,6 +16,7 @@ import type { Mat3, Vec3 } from '../math/mat3';
 import { v3Norm } from '../math/mat3';
 import { qConjMultiply, qToAxisAngle, type Quat } from '../math/rotation';
 import { envelopeFraction, makeSlewGeometry, scanEnvelopeUse, storedMomentumAt, symmetricCapacity, type SlewGeometry } from './loads';
+import { noCoastClosedForm, noCoastSearch } from './bangBang';
 import { profileSwitchTimes, restToRestProfile } from './profile';
 import { pct, searchProfile, SEARCH_GUARD, VERIFY_SAMPLING } from './search';
 import type { BindingLimit, PlanLimits, RestToRestProfile, SegmentPlan, SegmentVerdict } from './types';
@@ -83,9 +84,10 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
   const aHi = (limits.torqueMargin * symmetricCapacity(g.Je, limits.torqueCapacity)) / JeNorm;
   const slew = limits.slewRateLimitRadPerS;
 
+  if (limits.family === 'bang-bang') return planNoCoast(base, g, limits, aHi, emptySystem, h0);
+
   if (emptySystem) {
-    const mJe = Float64Array.from([-g.Je[0]!, -g.Je[1]!, -g.Je[2]!]);
-    const wMom = (limits.momentumMargin * capacityAlong(mJe, limits.momentumCapacity)) / JeNorm;
+    const wMom = momentumRate(g, limits);
     const w = Math.min(slew ?? Infinity, wMom);
     const p = restToRestProfile(angle, aHi, w);
     let binding: BindingLimit;
@@ -111,6 +113,31 @@ export function planCheckedSegment(q0: Quat, q1: Quat, J: Mat3, h0: Vec3, limits
     `acceleration ${fmt(p.accelRadPerS2)} rad/s², peak rate ${fmt(p.peakRateRadPerS)} rad/s; ${found.binding} binds ` +
     `(found by a sampled search within ${pct(SEARCH_GUARD)} of the margins).`;
   return finish(base, g, limits, p, found.binding, 'sampled-search', why);
+}
+
+/** The momentum envelope's rate cap along −Je for an empty system (header). */
+function momentumRate(g: SlewGeometry, limits: PlanLimits): number {
+  const mJe = Float64Array.from([-g.Je[0]!, -g.Je[1]!, -g.Je[2]!]);
+  return (limits.momentumMargin * capacityAlong(mJe, limits.momentumCapacity)) / v3Norm(g.Je);
+}
+
+/** The no-coast family (bangBang.ts): closed form for an empty system, a search with stored momentum. */
+function planNoCoast(base: Base, g: SlewGeometry, limits: PlanLimits, aHi: number, emptySystem: boolean, h0: Vec3): SegmentVerdict {
+  if (emptySystem) {
+    const { profile: p, binding } = noCoastClosedForm(g.angleRad, aHi, momentumRate(g, limits), limits.slewRateLimitRadPerS);
+    const why =
+      binding === 'torque'
+        ? `Bang-bang: the torque envelope along Je sets the acceleration ${fmt(aHi)} rad/s²; the peak rate ${fmt(p.peakRateRadPerS)} rad/s stays below the rate cap.`
+        : `Bang-bang (no coast): the ${binding === 'slew-rate' ? 'slew-rate limit' : 'momentum envelope along Je'} caps the peak rate at ${fmt(p.peakRateRadPerS)} rad/s, so the acceleration is lowered to ${fmt(p.accelRadPerS2)} rad/s² (the torque envelope would allow ${fmt(aHi)}).`;
+    return finish(base, g, limits, p, binding, 'closed-form', why);
+  }
+  const found = noCoastSearch(g, limits, aHi);
+  if (!found.ok) return { ...base, feasible: false, reasons: [found.reason] };
+  const p = found.plan.profile;
+  const why =
+    `Bang-bang (no coast) with stored momentum (|H| = ${fmt(v3Norm(h0))} N·m·s): acceleration ${fmt(p.accelRadPerS2)} rad/s², ` +
+    `peak rate ${fmt(p.peakRateRadPerS)} rad/s; ${found.plan.binding} binds (found by a sampled search within ${pct(SEARCH_GUARD)} of the margins).`;
+  return finish(base, g, limits, p, found.plan.binding, 'sampled-search', why);
 }
 
 type Base = Omit<

@@ -26,7 +26,15 @@ export interface PlanLimits {
   momentumMargin: number;
   /** Optional cap on the body rate magnitude (rad/s), > 0. */
   slewRateLimitRadPerS?: number;
+  /**
+   * Profile family: 'bang-coast-bang' (default) may coast at a rate cap; 'bang-bang' never
+   * coasts (accelerate to the midpoint, decelerate), so a rate or momentum cap lowers the
+   * acceleration instead of adding a coast.
+   */
+  family?: ProfileFamily;
 }
+
+export type ProfileFamily = 'bang-bang' | 'bang-coast-bang';
 
 /** The limit that stops a faster slew. 'none' for a zero-angle segment. */
 export type BindingLimit = 'torque' | 'momentum' | 'slew-rate' | 'none';

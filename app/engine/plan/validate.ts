@@ -94,5 +94,7 @@ export function checkLimits(list: IssueList, path: string, limits: unknown): lim
     }
   }
   if (l.slewRateLimitRadPerS !== undefined) list.positive(`${path}.slewRateLimitRadPerS`, l.slewRateLimitRadPerS);
+  if (l.family !== undefined && l.family !== 'bang-bang' && l.family !== 'bang-coast-bang')
+    list.add(`${path}.family`, 'enum', `${path}.family must be "bang-bang" or "bang-coast-bang" (got ${describe(l.family)})`);
   return list.items.length === before;
 }

@@ -62,7 +62,8 @@ export interface ResolvedVehicle {
   wheelLayout: WheelLayout;
   /** One entry per wheel, in the file's order: unit-length axis (body), limits, rotor inertia (SI). */
   wheels: WheelSpec[];
-  wheelFriction: { viscousNmPerRadPerS: number; coulombNm: number } | null;
+  /** Bearing friction of every wheel, and the fraction of it the wheel drives cancel. */
+  wheelFriction: { viscousNmPerRadPerS: number; coulombNm: number; compensatedFraction: number } | null;
   sensors: { attitudeNoiseRad: number; rateNoiseRadPerS: number; rateBiasRadPerS: Vec3; boundedNoiseEta: number };
   controlRateHz: number;
   actuation: Actuation;
@@ -157,7 +158,11 @@ function resolveVehicle(v: Scenario['vehicle']): ResolvedVehicle {
     wheelLayout: v.wheels.layout,
     wheels: wheelSpecsOf(v.wheels),
     wheelFriction: v.wheelFriction
-      ? { viscousNmPerRadPerS: v.wheelFriction.viscousMNmPerRadPerS * SI_PER_MILLI, coulombNm: v.wheelFriction.coulombMNm * SI_PER_MILLI }
+      ? {
+          viscousNmPerRadPerS: v.wheelFriction.viscousMNmPerRadPerS * SI_PER_MILLI,
+          coulombNm: v.wheelFriction.coulombMNm * SI_PER_MILLI,
+          compensatedFraction: v.wheelFriction.compensatedFraction ?? 0,
+        }
       : null,
     sensors: {
       attitudeNoiseRad: v.sensors.attitudeNoiseArcsec * RAD_PER_ARCSEC,

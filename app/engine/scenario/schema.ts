@@ -147,6 +147,14 @@ export const WheelFrictionSchema = z
   .strictObject({
     viscousMNmPerRadPerS: nonNegative().describe('Viscous friction coefficient, mN·m per rad/s of wheel speed.'),
     coulombMNm: nonNegative().describe('Coulomb (dry) friction torque magnitude, mN·m.'),
+    compensatedFraction: z
+      .number()
+      .min(0)
+      .max(1)
+      .optional()
+      .describe(
+        'Friction feedforward: the fraction of this friction model the wheel drives add to each motor command, evaluated at the wheel speed seen at each control sample (common practice for reaction-wheel drives, no single source). The motor torque limit applies to the sum; the rotors feel what is left. 0 or absent: none.',
+      ),
   })
   .describe('Wheel bearing friction, the same for every wheel.');
 
@@ -226,7 +234,11 @@ export const PlanningSchema = z.strictObject({
   torqueMargin: z.number().gt(0).max(1).describe('Fraction of the wheel torque envelope the plan may use, (0, 1].'),
   momentumMargin: z.number().gt(0).max(1).describe('Fraction of the wheel momentum envelope the plan may use, (0, 1].'),
   slewRateLimitDegPerS: positive().describe('Cap on the body rate magnitude during a planned slew, deg/s.'),
-  profile: z.enum(['bang-bang', 'bang-coast-bang']).describe('Reference profile shape of each slew.'),
+  profile: z
+    .enum(['bang-bang', 'bang-coast-bang'])
+    .describe(
+      'Reference profile family of each slew. "bang-coast-bang": the fastest; coasts at the rate cap when the slew-rate limit or the momentum envelope binds. "bang-bang": never coasts (one switch at mid-angle); a rate cap lowers the acceleration instead, so slews that would coast take longer.',
+    ),
 });
 
 export const SimulationSchema = z.strictObject({

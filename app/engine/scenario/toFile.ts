@@ -54,6 +54,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
             wheelFriction: {
               viscousMNmPerRadPerS: v.wheelFriction.viscousNmPerRadPerS * MILLI_PER_SI,
               coulombMNm: v.wheelFriction.coulombNm * MILLI_PER_SI,
+              ...(v.wheelFriction.compensatedFraction > 0 ? { compensatedFraction: v.wheelFriction.compensatedFraction } : {}),
             },
           }
         : {}),

@@ -66,6 +66,11 @@ export interface ClosedLoopConfig {
   stream?: number;
   actuation: Actuation;
   allocation: 'min-max' | 'min-norm';
+  /**
+   * Fraction f ∈ [0, 1] of the modelled bearing friction the wheel drives add to each motor
+   * command (friction feedforward from the wheel speeds); 0 or absent: none.
+   */
+  frictionFeedforward?: number;
   /** Ends the flight early when it says so (e.g. settled long enough); absent: fly to tEnd. */
   stopRule?: StopRule;
   /** Cap on logic jumps at one instant before the run is declared Zeno-like. */

@@ -22,6 +22,10 @@ const SWITCH_LEFT = 1;
 export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
   const cfg = core.cfg;
   const Ts = core.Ts;
+  const stepsPer = Math.max(1, Math.round(cfg.rk4StepsPerSample));
+  // The momentum limit inside the flow looks one RK4 step ahead: near a limit the admissible
+  // torque is (h_max − h)/dt, a state feedback under which RK4 approaches h_max without crossing.
+  const dtStep = Ts / stepsPer;
   const ref = core.ref;
   const ctrl = core.ctrl;
   const zero3 = new Float64Array(3);
@@ -67,7 +71,7 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
       core.unpack(x);
       flowReference(t);
       ctrl.torque(core.tauCmd, core.trueInput, core.logic);
-      core.actuate(0);
+      core.actuate(dtStep, core.wTrue, core.hTrue);
       core.wheelNow.set(core.wheelHeld);
       gyrostatDerivative(dx, x, cfg.plant, core.wheelNow, zero3);
     },
@@ -90,7 +94,7 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
       const jumped = core.logicSteps(t, core.trueInput);
       if (atOutput || jumped || newSegment) {
         ctrl.torque(core.tauCmd, core.trueInput, core.logic);
-        core.actuate(0);
+        core.actuate(dtStep, core.wTrue, core.hTrue);
         core.record(t);
       }
       if (atOutput) sampleIndex++;
@@ -107,14 +111,13 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
   core.logic = ctrl.initialLogic(core.trueInput);
   core.logicSteps(0, core.trueInput);
   ctrl.torque(core.tauCmd, core.trueInput, core.logic);
-  core.actuate(0);
+  core.actuate(dtStep, core.wTrue, core.hTrue);
   core.record(0);
   sampleIndex = 1;
 
-  const stepsPer = Math.max(1, Math.round(cfg.rk4StepsPerSample));
   const res = simulateHybrid(sys, x0, {
     tEnd: cfg.tEnd,
-    integrator: { kind: 'rk4', dt: Ts / stepsPer },
+    integrator: { kind: 'rk4', dt: dtStep },
     maxJumpsPerInstant: core.maxPerInstant + 2,
     record: 'none',
   });

@@ -9,6 +9,7 @@
  * that change per sample sit in typed arrays, which V8 does not box).
  */
 import type { AttitudeController, ControlDiagnostics, ControlInput } from '../control/types';
+import { wheelFrictionTorque } from '../body/gyrostat';
 import { allocateMinMax, allocateMinNorm } from '../wheels/allocation';
 import { bodyTorqueFromWheelTorque } from '../wheels/array';
 import { createLimitInfo, limitWheelTorque } from '../wheels/limits';
@@ -62,6 +63,11 @@ export class LoopCore {
   readonly wheelCmd: Float64Array;
   readonly wheelHeld: Float64Array;
   readonly wheelNow: Float64Array;
+  /** Bearing friction and the net rotor torque (motor − friction) at the recorded instant. */
+  private readonly friction: Float64Array;
+  private readonly motorReq: Float64Array;
+  readonly wheelNet: Float64Array;
+  private readonly xRec: Float64Array;
   private readonly limitInfo = createLimitInfo();
   private readonly rec: PackedSample;
 
@@ -84,6 +90,10 @@ export class LoopCore {
     this.wheelCmd = new Float64Array(N);
     this.wheelHeld = new Float64Array(N);
     this.wheelNow = new Float64Array(N);
+    this.friction = new Float64Array(N);
+    this.motorReq = new Float64Array(N);
+    this.wheelNet = new Float64Array(N);
+    this.xRec = new Float64Array(7 + N);
     this.input = { q: this.qMeas, omega: this.wMeas, hWheel: this.hMeas, qRef: this.qRef, omegaRef: this.wRef, omegaDotRef: this.wdRef };
     this.trueInput = {
       q: this.qTrue,
@@ -108,6 +118,7 @@ export class LoopCore {
       torqueBody: this.tauBody,
       wheelTorqueCmd: this.wheelCmd,
       wheelTorque: this.wheelHeld,
+      wheelTorqueNet: this.wheelNet,
     };
   }
 
@@ -158,12 +169,38 @@ export class LoopCore {
     return jumped;
   }
 
-  /** Body torque request → wheel torques within limits (direction preserved), predicted over dtPredict. */
-  actuate(dtPredict: number): void {
+  /**
+   * Body torque request → wheel torques within limits (direction preserved), predicted over
+   * dtPredict. With friction feedforward (cfg.frictionFeedforward = f > 0) the motor is asked for
+   * the allocated torque plus f × the bearing friction the drive estimates from the wheel speeds
+   * it sees (`omega`, `h`: measured when sampled, true in the ideal loop), so that the rotor's net
+   * torque approaches the allocation; the limits then apply to that motor command.
+   */
+  actuate(dtPredict: number, omega: Float64Array, h: Float64Array): void {
     const cfg = this.cfg;
     if (cfg.allocation === 'min-max' && this.N > 3) allocateMinMax(this.wheelCmd, cfg.wheels, this.tauCmd);
     else allocateMinNorm(this.wheelCmd, cfg.wheels, this.tauCmd);
-    limitWheelTorque(this.wheelHeld, cfg.wheels, this.wheelCmd, this.hTrue, dtPredict, this.limitInfo);
+    let motor: Float64Array = this.wheelCmd;
+    const ff = cfg.frictionFeedforward ?? 0;
+    if (ff > 0 && cfg.plant.friction.active) {
+      const xe = this.xRec;
+      xe.set(omega, 4);
+      xe.set(h, 7);
+      wheelFrictionTorque(this.friction, xe, cfg.plant);
+      motor = this.motorReq;
+      for (let i = 0; i < this.N; i++) motor[i] = this.wheelCmd[i]! + ff * this.friction[i]!;
+    }
+    limitWheelTorque(this.wheelHeld, cfg.wheels, motor, this.hTrue, dtPredict, this.limitInfo);
+  }
+
+  /** Net rotor torque at the recorded instant: the delivered (period-average) motor torque minus friction. */
+  private netWheelTorque(): void {
+    const xr = this.xRec;
+    xr.set(this.qTrue, 0);
+    xr.set(this.wTrue, 4);
+    xr.set(this.hTrue, 7);
+    wheelFrictionTorque(this.friction, xr, this.cfg.plant);
+    for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]! - this.friction[i]!;
   }
 
   /** Append the current (true) state as a trace sample at t, and ask the stop rule and the caller whether to stop. */
@@ -172,6 +209,7 @@ export class LoopCore {
     // Diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (control/types.ts).
     this.ctrl.diagnostics(diag, this.trueInput, this.logic);
     bodyTorqueFromWheelTorque(this.tauBody, this.cfg.wheels, this.wheelHeld);
+    this.netWheelTorque();
     const rec = this.rec;
     const x = rec.scalars;
     rec.j = this.logicJumps;

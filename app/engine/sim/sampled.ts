@@ -41,7 +41,7 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
     if (Number.isNaN(core.logic)) core.logic = core.ctrl.initialLogic(core.input);
     core.logicSteps(t, core.input);
     core.ctrl.torque(core.tauCmd, core.input, core.logic);
-    core.actuate(Ts);
+    core.actuate(Ts, core.wMeas, core.hMeas);
     actuator.start(t, core.wheelHeld, core.wheelNow);
     core.record(t);
     sampleIndex++;

@@ -17,6 +17,7 @@ const WIDTH: Record<ChannelName, 'one' | 'three' | 'four' | 'wheels'> = {
   torqueBody: 'three',
   wheelTorqueCmd: 'wheels',
   wheelTorque: 'wheels',
+  wheelTorqueNet: 'wheels',
   logic: 'one',
   errorAngle: 'one',
   potential: 'one',
@@ -45,6 +46,7 @@ export interface TraceSample {
   torqueBody: ArrayLike<number>;
   wheelTorqueCmd: ArrayLike<number>;
   wheelTorque: ArrayLike<number>;
+  wheelTorqueNet: ArrayLike<number>;
   logic: number;
   errorAngle: number;
   potential: number;
@@ -81,6 +83,7 @@ export interface PackedSample {
   torqueBody: Float64Array;
   wheelTorqueCmd: Float64Array;
   wheelTorque: Float64Array;
+  wheelTorqueNet: Float64Array;
 }
 
 /**
@@ -107,6 +110,7 @@ function allocateTrace(nWheels: number, capacity: number): RunTrace {
     torqueBody: new Float64Array(3 * c),
     wheelTorqueCmd: new Float64Array(N * c),
     wheelTorque: new Float64Array(N * c),
+    wheelTorqueNet: new Float64Array(N * c),
     logic: new Float64Array(c),
     errorAngle: new Float64Array(c),
     potential: new Float64Array(c),
@@ -148,7 +152,7 @@ export class TraceBuilder {
     k: number,
     s: Pick<
       TraceSample,
-      'q' | 'qRef' | 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody' | 'hWheel' | 'wheelTorqueCmd' | 'wheelTorque'
+      'q' | 'qRef' | 'omega' | 'omegaRef' | 'torqueCmdBody' | 'torqueBody' | 'hWheel' | 'wheelTorqueCmd' | 'wheelTorque' | 'wheelTorqueNet'
     >,
   ): void {
     const tr = this.trace;
@@ -167,6 +171,7 @@ export class TraceBuilder {
       tr.hWheel[N * k + i] = s.hWheel[i]!;
       tr.wheelTorqueCmd[N * k + i] = s.wheelTorqueCmd[i]!;
       tr.wheelTorque[N * k + i] = s.wheelTorque[i]!;
+      tr.wheelTorqueNet[N * k + i] = s.wheelTorqueNet[i]!;
     }
   }
 

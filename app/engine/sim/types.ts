@@ -61,8 +61,10 @@ export interface RunTrace {
   torqueBody: Float64Array;
   /** Commanded wheel motor torques (allocation output), N·m, nWheels per sample. */
   wheelTorqueCmd: Float64Array;
-  /** Delivered wheel motor torques after torque and momentum limits, N·m, nWheels per sample. */
+  /** Delivered wheel motor torques after torque and momentum limits (the period average), N·m, nWheels per sample. */
   wheelTorque: Float64Array;
+  /** Net torque on each rotor: the delivered motor torque minus bearing friction, = dh/dt, N·m, nWheels per sample. */
+  wheelTorqueNet: Float64Array;
   /** Controller logic value (h ∈ {−1, 1}, synergistic index q ∈ {1..M}, 0 for smooth laws). */
   logic: Float64Array;
   /** Shortest rotation angle from the true attitude to the reference, rad. */

@@ -17,7 +17,7 @@ export { drawCase, haarAngleBetween, MAX_CASE_INDEX, MAX_INERTIA_ATTEMPTS, SLOT 
 export type { StudyContext, StudyOverrides } from './context';
 export { makeStudyContext, effectiveStudyJson } from './context';
 export type { CaseRecord, CaseRun, CaseStatus } from './runCase';
-export { runCase, CHATTER_THRESHOLD_PER_S, TRACE_SAMPLES, UNWIND_ETA_MIN } from './runCase';
+export { runCase, CHATTER_THRESHOLD_PER_S, TRACE_SAMPLES } from './runCase';
 export type { StudyProgress, StudyResult, RunStudyOptions } from './runner';
 export { runStudy, runStudyChunk, studyInfo, ProgressCounter } from './runner';
 export type { ControllerSummary, Histogram, MapPoint, Spread, StudyInfo, StudySummary, WorstCase } from './summary';

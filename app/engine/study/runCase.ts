@@ -18,13 +18,13 @@ import { drawCase } from './sample';
 export const TRACE_SAMPLES = 120;
 
 /**
- * A run "chatters" when its chatter metric (logic jumps plus torque sign reversals in the busiest
- * 10 s window, per second; metrics.ts) reaches this: ten events in ten seconds, about one a second
- * sustained. Common practice, no source; set from what studies show: a clean settling slew
- * scores 0.1–0.3 /s, a synergistic slew with its one or two intended switches up to 0.7 /s, and the
- * sign-switch law held near a 180° error by worst-case noise 1.2–3.6 /s on the test vehicle.
+ * A run "chatters" when its chatter metric (reversals of the commanded torque direction in the
+ * busiest 10 s window, per second, planned switches excluded; metrics/chatter.ts) reaches this:
+ * five reversals in ten seconds. Common practice, no source: a clean slew scores 0 (0.1 /s for
+ * the one braking reversal of a law stepping to its target), a law held near a 180° error by
+ * noise reverses at nearly every sample.
  */
-export const CHATTER_THRESHOLD_PER_S = 1;
+export const CHATTER_THRESHOLD_PER_S = 0.5;
 
 export type CaseStatus = 'settled' | 'unsettled' | 'failed' | 'unflyable';
 
@@ -39,7 +39,7 @@ export interface CaseRun {
   shortestRotationDeg: number;
   /** Travelled minus shortest rotation, deg. */
   extraRotationDeg: number;
-  /** Lift view of unwinding (see UNWIND_ETA_MIN); false by construction for laws on SO(3). */
+  /** Went the long way round although the short way was clearly shorter (metrics/segments.ts). */
   unwound: boolean;
   /** Ended on the quaternion lift opposite to the start's: the body turned through the 180° error attitude. */
   longWay: boolean;
@@ -91,33 +91,13 @@ function etaAt(q: Float64Array, k: number, target: Float64Array): number {
   return qe[3]!;
 }
 
-/**
- * Unwinding, the quaternion-lift view (Bhat & Bernstein, Systems & Control Letters 39(1), 2000;
- * Mayhew, Sanfelice & Teel, IEEE TAC 56(11), 2011): the error quaternion is continuous along a
- * run, so a run that starts with scalar part η₀ and ends near the opposite lift (η_end of the
- * other sign, |η_end| ≥ UNWIND_ETA_MIN) has turned the long way round, 360° − θ₀ instead of θ₀.
- * For a law that acts on the quaternion (PD, sign switch, hysteretic, eigenaxis) that is
- * unwinding. A law defined on SO(3) (the synergistic family, methods §4) cannot tell q from −q,
- * so for it the same event only says its path crossed the 180° attitude: reported as `longWay`,
- * not as unwinding. The pipeline's own flag (an extra full turn beyond the shortest rotation)
- * counts as unwinding for every law.
- *
- * Under worst-case noise ē a start with |η₀| < ē may be measured on the other lift: no law can
- * know its lift there, so going the long way from such a start (at most 4·arcsin ē of extra
- * rotation) is reported as `longWay` but not as unwinding.
- */
-export const UNWIND_ETA_MIN = 0.5;
-
-const SO3_LAWS: ReadonlySet<string> = new Set(['synergistic']);
-
 /** One flown case run → its study row. */
 export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): CaseRun {
   const m = run.metrics;
   const tr = run.trace;
   const n = tr.n;
-  const status: CaseStatus = run.outcome.status !== 'completed' ? 'failed' : m.settled ? 'settled' : 'unsettled';
+  const status: CaseStatus = run.verdict.kind;
   const finalEta = n > 0 ? etaAt(tr.q, n - 1, ctx.target) : d.errorEta;
-  const farLift = Math.abs(finalEta) >= UNWIND_ETA_MIN && finalEta * d.errorEta < 0;
   // Decimate: the first trace sample at or after each grid time.
   const M = TRACE_SAMPLES;
   const trace = new Float32Array(M);
@@ -139,8 +119,8 @@ export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): C
     rotationTravelledDeg: finite(m.rotationTravelledRad * DEG_PER_RAD),
     shortestRotationDeg: finite(m.shortestRotationRad * DEG_PER_RAD),
     extraRotationDeg: finite((m.rotationTravelledRad - m.shortestRotationRad) * DEG_PER_RAD),
-    unwound: m.unwound || (farLift && !SO3_LAWS.has(run.law) && Math.abs(d.errorEta) >= d.adversarialEta),
-    longWay: farLift,
+    unwound: m.unwound,
+    longWay: m.longWay,
     jumps: m.jumps,
     chatterPerS: finite(m.chatterPerS),
     chattered: m.chatterPerS >= CHATTER_THRESHOLD_PER_S,

@@ -7,7 +7,8 @@ import { useMemo, useState } from 'react';
 import type { ComparisonRow, PipelineOutput } from '../../engine/pipeline/types';
 import { useApp, useAllIssues, useAppState } from '../context';
 import { fmt, pct } from '../format';
-import { DEG_PER_RAD } from '../../engine/units';
+import { DEG_PER_RAD, MILLI_PER_SI } from '../../engine/units';
+import { COMPARISON_COLUMNS } from '../../engine/pipeline/comparison';
 
 export function RunStatus() {
   const app = useApp();
@@ -127,42 +128,31 @@ export function PlanSummary() {
   );
 }
 
-interface Metric {
-  key: keyof ComparisonRow;
-  label: string;
-  unit: string;
-  show: (r: ComparisonRow) => string;
-}
-
-const METRICS: Metric[] = [
-  { key: 'status', label: 'Outcome', unit: '', show: (r) => r.status },
-  { key: 'settleTimeS', label: 'Settle time', unit: 's', show: (r) => (r.settleTimeS === null ? 'never' : fmt(r.settleTimeS, 4)) },
-  { key: 'rotationTravelledDeg', label: 'Travelled', unit: 'deg', show: (r) => fmt(r.rotationTravelledDeg, 4) },
-  { key: 'shortestRotationDeg', label: 'Shortest', unit: 'deg', show: (r) => fmt(r.shortestRotationDeg, 4) },
-  { key: 'unwound', label: 'Unwound', unit: '', show: (r) => (r.unwound ? 'yes' : 'no') },
-  { key: 'jumps', label: 'Jumps', unit: '', show: (r) => String(r.jumps) },
-  { key: 'chatterPerS', label: 'Chatter', unit: '1/s', show: (r) => fmt(r.chatterPerS, 3) },
-  { key: 'peakWheelTorqueFraction', label: 'Peak τ wheel', unit: '', show: (r) => pct(r.peakWheelTorqueFraction) },
-  { key: 'peakWheelMomentumFraction', label: 'Peak h wheel', unit: '', show: (r) => pct(r.peakWheelMomentumFraction) },
-  { key: 'controlEffortNms', label: 'Effort ∫|τ|', unit: 'mN·m·s', show: (r) => fmt(r.controlEffortNms * 1e3, 4) },
-  { key: 'finalErrorDeg', label: 'Final error', unit: 'deg', show: (r) => fmt(r.finalErrorDeg, 3) },
-  { key: 'monitorFlags', label: 'W flags', unit: '', show: (r) => String(r.monitorFlags) },
-];
-
-/** What each metric means, shown as the row's tooltip. */
-const METRIC_HELP: Partial<Record<keyof ComparisonRow, string>> = {
-  settleTimeS: 'Earliest time after which the error angle and rate error stay inside the settle thresholds',
-  rotationTravelledDeg: 'Total rotation travelled by the body (sum over segments)',
-  shortestRotationDeg: 'Sum of the shortest rotations from each segment start to its target',
-  unwound: 'A segment travelled more than 180° beyond the shortest rotation',
-  jumps: 'Logic jumps of the hybrid controller',
-  chatterPerS: 'Largest rate of logic jumps and torque sign reversals in a sliding window',
-  peakWheelTorqueFraction: 'Largest wheel torque as a fraction of its limit',
-  peakWheelMomentumFraction: 'Largest wheel momentum as a fraction of its limit',
-  controlEffortNms: 'Integral of the delivered body torque magnitude',
-  finalErrorDeg: 'Error angle at the end of the run',
-  monitorFlags: 'Intervals where the Lyapunov value W rose on a flow or a jump fell short',
+/** How each comparison column is shown (the columns, their units and definitions come from the engine). */
+const SHOW: Partial<Record<keyof ComparisonRow, (r: ComparisonRow) => string>> = {
+  status: (r) => r.status,
+  settleTimeS: (r) => (r.settleTimeS === null ? 'never' : fmt(r.settleTimeS, 4)),
+  trackingErrorPeakDeg: (r) => fmt(r.trackingErrorPeakDeg, 3),
+  trackingErrorRmsDeg: (r) => fmt(r.trackingErrorRmsDeg, 3),
+  rotationTravelledDeg: (r) => fmt(r.rotationTravelledDeg, 4),
+  shortestRotationDeg: (r) => fmt(r.shortestRotationDeg, 4),
+  unwound: (r) => (r.unwound ? 'yes' : 'no'),
+  jumps: (r) => String(r.jumps),
+  chatterPerS: (r) => fmt(r.chatterPerS, 3),
+  peakWheelTorqueFraction: (r) => pct(r.peakWheelTorqueFraction),
+  peakWheelMomentumFraction: (r) => pct(r.peakWheelMomentumFraction),
+  controlEffortNms: (r) => fmt(r.controlEffortNms * MILLI_PER_SI, 4),
+  finalErrorDeg: (r) => fmt(r.finalErrorDeg, 3),
+  monitorViolations: (r) => String(r.monitorViolations),
 };
+
+const METRICS = COMPARISON_COLUMNS.map((c) => ({
+  key: c.key,
+  label: c.label,
+  unit: c.unit === '%' ? '' : c.unit,
+  help: `${c.definition} Source: ${c.source}.`,
+  show: SHOW[c.key] ?? ((r: ComparisonRow) => String(r[c.key])),
+}));
 
 export function ComparisonTable() {
   const app = useApp();
@@ -226,7 +216,7 @@ export function ComparisonTable() {
             {METRICS.map((m) => {
               const best = output.best[m.key];
               return (
-                <tr key={m.key} title={METRIC_HELP[m.key]}>
+                <tr key={m.key} title={m.help}>
                   <th className="metric">
                     {m.label}
                     {m.unit && <span className="unit"> {m.unit}</span>}
@@ -234,7 +224,7 @@ export function ComparisonTable() {
                   {rows.map((r) => (
                     <td
                       key={r.key}
-                      className={`num ${best === r.key ? 'best' : ''} ${m.key === 'status' && r.status !== 'completed' ? 'bad' : ''}`}
+                      className={`num ${best === r.key ? 'best' : ''} ${m.key === 'status' && r.verdict !== 'settled' ? 'bad' : ''}`}
                       data-best={best === r.key ? 'true' : undefined}
                     >
                       {m.show(r)}

@@ -22,6 +22,7 @@ export const eigenaxis: LawDefinition<'eigenaxis'> = {
   summary: 'Computed-torque eigenaxis feedback: from rest it turns about a fixed axis, the rate capped at ω_max.',
   source:
     'Wie, Weiss & Arapostathis, JGCD 12(3):375–380, 1989; rate limit: Wie & Lu, JGCD 18(6):1372–1379, 1995 (both from memory, methods §2c)',
+  liftDependent: true,
   logicKind: 'none',
   gains: {
     stiffness: { symbol: 'k', unit: '1/s²', meaning: 'per unit of the error quaternion vector part (inertia-normalised)' },

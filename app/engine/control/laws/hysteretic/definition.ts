@@ -11,6 +11,7 @@ export const hysteretic: LawDefinition<'hysteretic'> = {
   summary: 'τ = −k_p h ε − K_d ω_e with a logic h that flips when h·η ≤ −δ: no unwinding, and no chatter under noise below δ.',
   source:
     'Mayhew, Sanfelice & Teel, "Quaternion-based hybrid control for robust global attitude tracking", IEEE TAC 56(11):2555–2566, 2011',
+  liftDependent: true,
   logicKind: 'sign',
   gains: {
     stiffness: { symbol: 'k_p', unit: 'N·m', meaning: 'per unit of the error quaternion vector part' },

@@ -10,6 +10,7 @@ export const quaternionPd: LawDefinition<'quaternion-pd'> = {
   summary: 'τ = −k_p ε − K_d ω_e with tracking feedforward; continuous, so it unwinds from the far hemisphere.',
   source:
     'Wie & Barba, JGCD 8(3), 1985 (quaternion feedback, from memory); unwinding: Bhat & Bernstein, Systems & Control Letters 39(1), 2000',
+  liftDependent: true,
   logicKind: 'none',
   gains: {
     stiffness: { symbol: 'k_p', unit: 'N·m', meaning: 'per unit of the error quaternion vector part' },

@@ -9,6 +9,7 @@ export const signSwitch: LawDefinition<'sign-switch'> = {
   title: 'Sign switch (memoryless)',
   summary: 'τ = −k_p sgn(η) ε − K_d ω_e: the short way round, but discontinuous at η = 0, where noise makes it chatter.',
   source: 'Mayhew, Sanfelice & Teel, IEEE TAC 58(5):1179–1191, 2013',
+  liftDependent: true,
   logicKind: 'sign',
   gains: {
     stiffness: { symbol: 'k_p', unit: 'N·m', meaning: 'per unit of the error quaternion vector part' },

@@ -44,6 +44,7 @@ export const synergistic: LawDefinition<'synergistic'> = {
     'τ = −k_R ∇V_q − K_ω ω_e over a family of warped trace potentials; the member index q jumps when the synergy gap V_q − min_p V_p reaches δ, so every attitude converges.',
   source:
     'Mayhew & Teel, IEEE TAC 58(11):2730–2742, 2013 (synergistic hybrid feedback); angular warping: Berkane & Tayebi, IEEE TAC 62(1):495–501, 2017',
+  liftDependent: false,
   logicKind: 'index',
   gains: {
     stiffness: { symbol: 'k_R', unit: 'N·m', meaning: 'per unit of the potential gradient' },

@@ -1,0 +1,138 @@
+/**
+ * Per-segment measures against each segment's own TARGET (not the moving reference): settling,
+ * rotation travelled against the shortest rotation, and whether the body went the long way
+ * round (unwinding). Definitions, stated once here and quoted by every output:
+ *
+ * - Segment k spans the samples whose `segment` channel is k: from the start of its slew to the
+ *   start of the next slew (the last one to the end of the run), so it holds the slew and the hold.
+ * - Settle time of a segment: from the segment's first sample (the slew start) until the error
+ *   angle to the segment's target and the body rate stay below the settle thresholds through the
+ *   segment's last sample (targets are inertial and at rest: the rate error is |ω|). Null when the
+ *   last sample is outside them.
+ * - Rotation travelled: Σ ‖ω‖ Δt (trapezoidal) over the segment; shortest: the rotation angle from
+ *   the attitude at the segment's start to its target.
+ * - Long way: the error quaternion q_target* ⊗ q is continuous along the run; the segment went the
+ *   long way when its scalar part η ends with the opposite sign to the one it started with (the
+ *   body turned through the 180° error attitude, 2π − θ₀ instead of θ₀; Bhat & Bernstein,
+ *   Systems & Control Letters 39(1), 2000; Mayhew, Sanfelice & Teel, IEEE TAC 56(11), 2011).
+ * - Unwound: went the long way although the short way was clearly shorter, from a start outside
+ *   the worst-case noise band |η₀| < ē (where no law can know which way is short). A law acting on
+ *   the quaternion must pick one of ±q (its lift): for it "clearly shorter" is UNWIND_MIN_EXTRA_RAD,
+ *   the classic unwinding. A law defined on SO(3) cannot pick a lift; its long way counts as
+ *   unwinding only when it adds at least DETOUR_MIN_EXTRA_RAD, a real detour.
+ */
+import { qAngleBetween } from '../math/rotation';
+import type { RunTrace } from '../sim/types';
+import { RAD_PER_DEG } from '../units';
+
+/**
+ * Going the long way counts as unwinding when it is at least this much longer than the short way
+ * (2°): a start within 1° of the 180° error attitude has no clearly shorter way (common practice,
+ * no source).
+ */
+export const UNWIND_MIN_EXTRA_RAD = 2 * RAD_PER_DEG;
+/** For a law on SO(3): a long way counts as unwinding from 90° more than the short way (common practice, no source). */
+export const DETOUR_MIN_EXTRA_RAD = 90 * RAD_PER_DEG;
+/** |η| at the segment's end beyond which its lift is decided (the body is within 120° of the target). */
+export const LIFT_DECIDED_ETA = 0.5;
+
+export interface SegmentMetrics {
+  segment: number;
+  /** First and last sample times of the segment (slew start; next slew start or the run's end). */
+  tStart: number;
+  tEnd: number;
+  settleTimeS: number | null;
+  /** Error angle to the segment's target at its last sample, rad. */
+  finalErrorRad: number;
+  shortestRad: number;
+  travelledRad: number;
+  longWay: boolean;
+  unwound: boolean;
+}
+
+export interface SegmentOptions {
+  settleAngleRad: number;
+  settleRateRadPerS: number;
+  /** Target attitude of each segment, 4 per segment index ([x, y, z, w]). */
+  segmentTargets: Float64Array;
+  /** Worst-case bounded noise ē of the run (0: none). */
+  boundedNoiseEta: number;
+  /** True for a law acting on the quaternion (it picks a lift), false for one defined on SO(3) or S². */
+  liftDependent: boolean;
+}
+
+const qa = new Float64Array(4);
+const qt = new Float64Array(4);
+
+/** Scalar part of q_target* ⊗ q_k (Hamilton, [x, y, z, w]). */
+function etaAt(tr: RunTrace, k: number, target: Float64Array): number {
+  const q = tr.q;
+  return target[3]! * q[4 * k + 3]! + target[0]! * q[4 * k]! + target[1]! * q[4 * k + 1]! + target[2]! * q[4 * k + 2]!;
+}
+
+function loadTarget(o: SegmentOptions, s: number): Float64Array {
+  for (let i = 0; i < 4; i++) qt[i] = o.segmentTargets[4 * s + i] ?? (i === 3 ? 1 : 0);
+  return qt;
+}
+
+function errorToTarget(tr: RunTrace, k: number, target: Float64Array): number {
+  for (let i = 0; i < 4; i++) qa[i] = tr.q[4 * k + i]!;
+  return qAngleBetween(qa, target);
+}
+
+function rateNorm(tr: RunTrace, k: number): number {
+  const w = tr.omega;
+  const x = w[3 * k]!,
+    y = w[3 * k + 1]!,
+    z = w[3 * k + 2]!;
+  return Math.sqrt(x * x + y * y + z * z);
+}
+
+/** Measures of the samples a..b (inclusive) of one segment. */
+function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
+  const s = tr.segment[a]!;
+  const target = loadTarget(o, s);
+  let lastBad = -1;
+  for (let k = b; k >= a; k--)
+    if (!(errorToTarget(tr, k, target) < o.settleAngleRad && rateNorm(tr, k) < o.settleRateRadPerS)) {
+      lastBad = k;
+      break;
+    }
+  const t = tr.t;
+  const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
+  let travelled = 0;
+  let wPrev = rateNorm(tr, a);
+  for (let k = a + 1; k <= b; k++) {
+    const wk = rateNorm(tr, k);
+    travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
+    wPrev = wk;
+  }
+  const eta0 = etaAt(tr, a, target);
+  const etaEnd = etaAt(tr, b, target);
+  const shortest = errorToTarget(tr, a, target);
+  const longWay = Math.abs(etaEnd) >= LIFT_DECIDED_ETA && etaEnd * eta0 < 0;
+  const extra = 2 * Math.PI - 2 * shortest;
+  return {
+    segment: s,
+    tStart: t[a]!,
+    tEnd: t[b]!,
+    settleTimeS,
+    finalErrorRad: errorToTarget(tr, b, target),
+    shortestRad: shortest,
+    travelledRad: travelled,
+    longWay,
+    unwound: longWay && extra >= (o.liftDependent ? UNWIND_MIN_EXTRA_RAD : DETOUR_MIN_EXTRA_RAD) && Math.abs(eta0) >= o.boundedNoiseEta,
+  };
+}
+
+/** Every segment of a run, in trace order. */
+export function segmentMetrics(tr: RunTrace, o: SegmentOptions): SegmentMetrics[] {
+  const out: SegmentMetrics[] = [];
+  let a = 0;
+  for (let k = 1; k <= tr.n; k++)
+    if (k === tr.n || tr.segment[k] !== tr.segment[a]) {
+      out.push(measureSegment(tr, a, k - 1, o));
+      a = k;
+    }
+  return out;
+}
