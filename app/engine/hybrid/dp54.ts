@@ -19,6 +19,7 @@
  */
 import type { Issue, Result } from '../errors';
 import { fail, issue, ok } from '../errors';
+import { allFinite } from '../math/arrays';
 import type { FlowFn, Stepper, StepStatus } from './types';
 import { STEP_NON_FINITE, STEP_OK, STEP_UNDERFLOW } from './types';
 
@@ -134,11 +135,6 @@ export function makeDormandPrince(n: number, f: FlowFn, opts: Dp54Options): Resu
   if (!Number.isInteger(n) || n < 1) errs.push(issue('n', 'integer', `n must be an integer ≥ 1 (got ${n})`));
   if (typeof f !== 'function') errs.push(issue('f', 'required', 'f must be a function'));
   return errs.length ? fail(errs) : ok(new DormandPrince(n, f, opts));
-}
-
-function allFinite(x: Float64Array): boolean {
-  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) return false;
-  return true;
 }
 
 /** Dormand–Prince 5(4) stepper (see file header). Construct through makeDormandPrince for checks. */

@@ -30,6 +30,7 @@
  */
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
+import { allFinite } from '../math/arrays';
 import { ArcBuffer } from './arc';
 import { DormandPrince } from './dp54';
 import type { HybridOptions } from './options';
@@ -38,11 +39,6 @@ import { Rk4Stepper } from './rk4';
 import { locateCrossing, locateExit } from './roots';
 import type { HybridArc, HybridStatus, HybridSystem, JumpCause, JumpEvent, Stepper } from './types';
 import { STEP_NON_FINITE, STEP_OK, STEP_UNDERFLOW } from './types';
-
-function allFinite(x: Float64Array): boolean {
-  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) return false;
-  return true;
-}
 
 function fmt(v: number): string {
   return Number.isFinite(v) ? String(Number(v.toPrecision(12))) : String(v);
