@@ -62,11 +62,6 @@ export interface Gyrostat {
   dim: number;
 }
 
-/** Offsets into the gyrostat state. */
-export const GYRO_Q = 0;
-export const GYRO_OMEGA = 4;
-export const GYRO_H = 7;
-
 const UNIT_TOL = 1e-6;
 const DEFAULT_COULOMB_SMOOTHING = 0.5;
 

@@ -37,11 +37,6 @@ export interface CertifyParams {
   delta: number;
 }
 
-/** True for an issue the certificate raised as a refusal of the family or of δ (not an input error). */
-export function isCertificateRefusal(i: { rule: string }): boolean {
-  return i.rule.startsWith('certificate-');
-}
-
 export interface CertifyOptions {
   /** Path prefix for issues (the controller spec's path), e.g. `controllers[2]`. */
   path?: string;

@@ -17,7 +17,7 @@ export interface RootResult {
  * Minimization without Derivatives", Prentice-Hall 1973, ch. 4: inverse quadratic interpolation,
  * secant and bisection with the safeguards of the original zero routine).
  */
-export function brentRoot(f: (x: number) => number, a: number, b: number, xtol = 1e-15, maxIter = 200): RootResult {
+function brentRoot(f: (x: number) => number, a: number, b: number, xtol = 1e-15, maxIter = 200): RootResult {
   let fa = f(a),
     fb = f(b);
   if (fa === 0) return { x: a, fx: 0, iterations: 0, converged: true };

@@ -12,12 +12,12 @@ import type { HybridSystem, Stepper } from './types';
 /** What the step ran into: nothing, a guard crossing into D, or an exit from C. */
 export const EVENT_NONE = 0;
 export const EVENT_GUARD = 1;
-export const EVENT_EXIT = 2;
+const EVENT_EXIT = 2;
 
 /** Outcome of `locate`: fine, the guard was NaN at the step's end, or not finite inside the step. */
 export const LOCATE_OK = 0;
 export const LOCATE_GUARD_NAN = 1;
-export const LOCATE_NOT_FINITE = 2;
+const LOCATE_NOT_FINITE = 2;
 
 export class EventLocator {
   /** The event found by the last `locate` (EVENT_*), its time and the guard there. */

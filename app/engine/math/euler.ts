@@ -24,16 +24,12 @@ export const EULER_SEQUENCES = [
 ] as const;
 export type EulerSequence = (typeof EULER_SEQUENCES)[number];
 
-export function isEulerSequence(s: unknown): s is EulerSequence {
-  return typeof s === 'string' && (EULER_SEQUENCES as readonly string[]).includes(s);
-}
-
 function axisIndex(c: string): number {
   return c === 'X' ? 0 : c === 'Y' ? 1 : 2;
 }
 
 /** Elementary rotation quaternion about body axis `i` (0, 1, 2). */
-export function qElementary(out: Quat, i: number, angleRad: number): Quat {
+function qElementary(out: Quat, i: number, angleRad: number): Quat {
   out[0] = out[1] = out[2] = 0;
   out[i] = Math.sin(0.5 * angleRad);
   out[3] = Math.cos(0.5 * angleRad);

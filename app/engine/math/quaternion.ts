@@ -37,7 +37,7 @@ export function qCopy(out: Quat, a: ArrayLike<number>): Quat {
   return out;
 }
 
-export function qIdentity(out: Quat): Quat {
+function qIdentity(out: Quat): Quat {
   out[0] = out[1] = out[2] = 0;
   out[3] = 1;
   return out;
@@ -77,7 +77,7 @@ export function qNorm(a: ArrayLike<number>): number {
   return Math.hypot(a[0]!, a[1]!, a[2]!, a[3]!);
 }
 
-export function qDot(a: ArrayLike<number>, b: ArrayLike<number>): number {
+function qDot(a: ArrayLike<number>, b: ArrayLike<number>): number {
   return a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]! + a[3]! * b[3]!;
 }
 

@@ -25,7 +25,7 @@ import type { BindingLimit, PlanLimits, RestToRestProfile } from './types';
 /** Relative guard band below the margins for the sampled search. */
 export const SEARCH_GUARD = 1e-3;
 /** Sampling during the search (missed peaks ≲ step²/8 ≈ 5e-5 relative) and for verification/reporting. */
-export const SEARCH_SAMPLING: Sampling = { stepRad: 0.02, maxPerPhase: 128 };
+const SEARCH_SAMPLING: Sampling = { stepRad: 0.02, maxPerPhase: 128 };
 export const VERIFY_SAMPLING: Sampling = { stepRad: 0.002, maxPerPhase: 2048 };
 
 const SCAN_COUNT = 20;
