@@ -18,7 +18,7 @@ export type BinaryLookup = { ok: true; path: string } | { ok: false; message: st
 /** The command that fetches the binary, as a user types it from the repository root. */
 export const FETCH_COMMAND = 'node node_modules/electron/install.js';
 
-export function missingBinaryMessage(detail: string): string {
+function missingBinaryMessage(detail: string): string {
   return `Slewsmith: the Electron binary is not installed (${detail}); fetch it with \`${FETCH_COMMAND}\` (needs internet access), then run \`npm start\` again.`;
 }
 

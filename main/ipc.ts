@@ -25,7 +25,7 @@ export interface IpcMainLike {
   on(channel: string, listener: (event: SenderEvent, ...args: unknown[]) => void): void;
 }
 
-export class RefusedMessage extends Error {
+class RefusedMessage extends Error {
   constructor(channel: string, reason: string) {
     super(`Slewsmith refused ${channel}: ${reason}`);
     this.name = 'RefusedMessage';

@@ -6,7 +6,7 @@ import { issue, type Issue } from '../app/engine/errors';
 
 export { checkExportRequest, checkFileName, checkScenarioForSave, type ScenarioValidator } from '../app/bridge/checks';
 
-export const MAX_PATH_CHARS = 4096;
+const MAX_PATH_CHARS = 4096;
 
 export function checkArgCount(args: readonly unknown[], expected: number): Issue[] {
   return args.length === expected

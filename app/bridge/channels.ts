@@ -27,7 +27,3 @@ export const EventChannels = {
   /** A menu item or accelerator fired, or the shell asks for something; the payload is a UiCommand name. */
   command: 'slewsmith:menu/command',
 } as const;
-
-export type InvokeChannel = (typeof InvokeChannels)[keyof typeof InvokeChannels];
-export type NotifyChannel = (typeof NotifyChannels)[keyof typeof NotifyChannels];
-export type EventChannel = (typeof EventChannels)[keyof typeof EventChannels];

@@ -6,12 +6,12 @@
  */
 import { issue, type Issue, type Result } from '../engine/errors';
 import type { ExportRequest } from './api';
-import { parseScenarioDocument, scenarioDocumentFromBytes } from './scenario-bytes';
+import { scenarioDocumentFromBytes } from './scenario-bytes';
 
 /** Checks a scenario's JSON; the real one is validateScenario from app/engine/scenario. */
 export type ScenarioValidator = (json: unknown) => Result<unknown>;
 
-export const MAX_FILE_NAME_CHARS = 200;
+const MAX_FILE_NAME_CHARS = 200;
 export const UNTITLED_SCENARIO = 'untitled.scenario.json';
 
 /** Reserved on Windows whatever the extension; refusing them everywhere keeps files portable. */
@@ -103,13 +103,6 @@ export function checkScenarioForSave(v: unknown, validate: ScenarioValidator, ma
       warnings: r.warnings,
     };
   return { ok: true, value: { text }, warnings: r.warnings };
-}
-
-/** Parses and validates a scenario file's text; every outcome is a result. */
-export function parseScenarioText(text: string, validate: ScenarioValidator): Result<unknown> {
-  const doc = parseScenarioDocument(text);
-  if (!doc.ok) return doc;
-  return validated(doc.value.json, validate);
 }
 
 /** A scenario file's bytes (size, UTF-8, JSON object), then the validator; every outcome is a result. */

@@ -19,7 +19,7 @@ export const COMMAND_ACCELERATORS: Readonly<Record<MenuCommand, string>> = {
 /** Quit is handled by the shell itself (through the unsaved-changes guard), not by the UI. */
 export const QUIT_ACCELERATOR = 'CmdOrCtrl+Q';
 
-export function isMenuCommand(v: unknown): v is MenuCommand {
+function isMenuCommand(v: unknown): v is MenuCommand {
   return typeof v === 'string' && (MENU_COMMANDS as readonly string[]).includes(v);
 }
 
@@ -27,7 +27,7 @@ export function isMenuCommand(v: unknown): v is MenuCommand {
  * Commands only the shell sends, never a menu item: 'save-before-close' asks the UI to save for a
  * waiting close (it answers with `saveBeforeClose`, so an ordinary Save can never close the window).
  */
-export const SHELL_COMMANDS = ['save-before-close'] as const;
+const SHELL_COMMANDS = ['save-before-close'] as const;
 export type ShellCommand = (typeof SHELL_COMMANDS)[number];
 /** Everything the UI's command listener can receive. */
 export type UiCommand = MenuCommand | ShellCommand;

@@ -89,7 +89,7 @@ export function decodeUtf8Strict(bytes: Uint8Array): Result<string> {
 }
 
 /** What a JSON value is, in words: "JSON null", "a JSON array of 3 items", … */
-export function describeJsonValue(v: unknown): string {
+function describeJsonValue(v: unknown): string {
   if (v === null) return 'JSON null';
   if (Array.isArray(v)) return `a JSON array of ${v.length} item${v.length === 1 ? '' : 's'}`;
   if (typeof v === 'number') return `a JSON number (${v})`;

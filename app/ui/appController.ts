@@ -52,7 +52,7 @@ function controllersOf(s: unknown): Obj[] {
 }
 
 /** The controller ids of a scenario that are not excluded, in file order. */
-export function comparedControllerIds(scenario: unknown, excluded: readonly string[]): string[] {
+function comparedControllerIds(scenario: unknown, excluded: readonly string[]): string[] {
   return controllersOf(scenario)
     .map((c) => c.id)
     .filter((id): id is string => typeof id === 'string' && !excluded.includes(id));

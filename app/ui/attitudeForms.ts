@@ -44,7 +44,7 @@ export function resolveAttitudeChain(scenario: unknown): (Quat | null)[] {
   return out;
 }
 
-export const DEFAULT_ATTITUDES: Record<AttitudeForm, Obj> = {
+const DEFAULT_ATTITUDES: Record<AttitudeForm, Obj> = {
   quaternion: { quaternion: [0, 0, 0, 1] },
   euler: { euler: { sequence: 'ZYX', anglesDeg: [0, 0, 0] } },
   pointing: { pointing: { bodyAxis: [0, 0, 1], inertialDirection: [0, 0, 1], bodySecondary: [1, 0, 0], inertialSecondary: [1, 0, 0] } },

@@ -38,7 +38,7 @@ export function useAllIssues(): Issue[] {
   }, [validation, pipeline]);
 }
 
-export function useWarnings(): Issue[] {
+function useWarnings(): Issue[] {
   return useAppState((s) => s.validation.warnings);
 }
 

@@ -33,11 +33,11 @@ export interface ExportChoice {
   sampleRateHz: number | null;
 }
 
-export function toolVersion(): string {
+function toolVersion(): string {
   return typeof __SLEWSMITH_VERSION__ === 'string' ? __SLEWSMITH_VERSION__ : '0.0.0-dev';
 }
 
-export function exportFileName(scenarioName: unknown, run: ControllerRun, format: ExportFormat): string {
+function exportFileName(scenarioName: unknown, run: ControllerRun, format: ExportFormat): string {
   const base = typeof scenarioName === 'string' && scenarioName.trim() ? scenarioName : 'slewsmith';
   const slug = `${base}-${run.controllerId}-${run.mode}`
     .toLowerCase()

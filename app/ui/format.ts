@@ -3,14 +3,6 @@
  * deg/s, mN·m, mN·m·s, converted here at the edge and nowhere else).
  */
 
-export const UNITS = {
-  angle: 'deg',
-  rate: 'deg/s',
-  torque: 'mN·m',
-  momentum: 'mN·m·s',
-  time: 's',
-} as const;
-
 /** Compact fixed or exponential notation with `digits` significant figures; '—' for none. */
 export function fmt(v: number | null | undefined, digits = 4): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';
@@ -20,11 +12,6 @@ export function fmt(v: number | null | undefined, digits = 4): string {
   const s = v.toPrecision(digits);
   // toPrecision can still pick exponential form (e.g. 1e+3 for 1000 at 1 digit).
   return s.includes('e') ? String(Number(s)) : String(Number(s));
-}
-
-export function fmtFixed(v: number | null | undefined, decimals: number): string {
-  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
-  return v.toFixed(decimals);
 }
 
 export function pct(fraction: number | null | undefined): string {

@@ -16,7 +16,7 @@
  *   `Matrix3/Matrix4.elements` are also column-major, so `fromArray` is a straight copy; the
  *   row-major argument order of `Matrix3.set()` is never used here.
  */
-import type { Matrix3, Matrix4, Object3D, Quaternion, Vector3 } from 'three';
+import type { Matrix3, Matrix4, Object3D, Quaternion } from 'three';
 
 /** Copy an engine quaternion (offset `o` into a flat [x, y, z, w]… array) into a three Quaternion. */
 export function quaternionFromArray(target: Quaternion, arr: ArrayLike<number>, o = 0): Quaternion {
@@ -35,11 +35,6 @@ export function quaternionToArray(out: { [i: number]: number }, q: Quaternion, o
   out[o + 1] = q.y;
   out[o + 2] = q.z;
   out[o + 3] = q.w;
-}
-
-/** A three Vector3 from three consecutive entries of a flat array. */
-export function vector3FromArray(target: Vector3, arr: ArrayLike<number>, o = 0): Vector3 {
-  return target.set(arr[o]!, arr[o + 1]!, arr[o + 2]);
 }
 
 /**

@@ -52,7 +52,7 @@ interface HudItem {
   row: number;
 }
 
-export class Viewport {
+class Viewport {
   readonly scene = new Scene();
   readonly momentumScene = new Scene();
   readonly hudScene = new Scene();

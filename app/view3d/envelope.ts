@@ -30,7 +30,7 @@ export function envelopeDisplayScale(env: MomentumEnvelopeMesh, radius: number =
  * input triangles. The display scale is applied by the Mesh's `scale`, not baked in, so the
  * drawn surface is exactly the engine's.
  */
-export function envelopeGeometry(env: MomentumEnvelopeMesh): BufferGeometry {
+function envelopeGeometry(env: MomentumEnvelopeMesh): BufferGeometry {
   const g = new BufferGeometry();
   g.setAttribute('position', new BufferAttribute(Float32Array.from(env.vertices), 3));
   g.setIndex(new BufferAttribute(Uint32Array.from(env.triangles), 1));

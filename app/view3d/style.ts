@@ -26,7 +26,7 @@ export const COLORS = {
 export const WHEEL_COLORS = [0x4fc1e9, 0xa0d468, 0xed5565, 0xffce54, 0xac92ec, 0xf7a072] as const;
 
 /** Trail colour for the smooth laws (no logic variable). */
-export const LOGIC_NONE = 0xc9d1d9;
+const LOGIC_NONE = 0xc9d1d9;
 /** Hysteretic sign logic: h = +1 and h = −1. */
 export const LOGIC_SIGN_POS = 0x3fb8af;
 export const LOGIC_SIGN_NEG = 0xe06c9f;

@@ -45,7 +45,7 @@ export function boresightPath<T extends Float32Array | Float64Array>(out: T, q: 
 }
 
 /** Boresight direction at an arbitrary time (slerp between the bracketing samples). */
-export function boresightAt(out: { [i: number]: number }, oo: number, trace: RunTrace, time: number, b: ArrayLike<number>): void {
+function boresightAt(out: { [i: number]: number }, oo: number, trace: RunTrace, time: number, b: ArrayLike<number>): void {
   const c = locateSample(trace.t, trace.n, time, cursorScratch);
   if (c.i < 0) {
     out[oo] = b[0]!;

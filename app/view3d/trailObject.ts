@@ -38,7 +38,7 @@ import {
 import { NO_KEEP_OUT } from './types';
 import type { KeepOutCone, ViewRun } from './types';
 
-export const ARC_POINTS = 64;
+const ARC_POINTS = 64;
 
 const sColor = new Color();
 const sMat = new Matrix4();

@@ -66,7 +66,7 @@ function rateProblem(job: ComputeJob, controlRateHz: number): string | null {
  * keeps every sample in memory (about 0.5 kB each: 200 000 samples took 5 s and 220 MB here), so
  * a hold of 1e9 s would run for days and then exhaust memory. One million samples is 28 h at 10 Hz.
  */
-export const MAX_SAMPLES_PER_RUN = 1_000_000;
+const MAX_SAMPLES_PER_RUN = 1_000_000;
 
 function runLengthIssue(endS: number, rateHz: number): Issue[] {
   const samples = endS * rateHz;

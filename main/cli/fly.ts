@@ -18,9 +18,9 @@ import { printIssues, type CliContext } from './io';
 import { EXPORT_RATE_RULE, exportStamp, numberOption } from './options';
 import { prepareOutputFile, prepareOutputFolder, writeTextAtomic } from './output';
 
-export const INTERRUPTED = 130;
+const INTERRUPTED = 130;
 
-export function modesOf(a: ParsedArgs, ctx: CliContext): RunMode[] | undefined | null {
+function modesOf(a: ParsedArgs, ctx: CliContext): RunMode[] | undefined | null {
   const m = a.values.mode;
   if (m === undefined) return undefined;
   if (m === 'both') return ['follow-plan', 'step-target'];

@@ -5,7 +5,7 @@
 import { open, rename, unlink, stat } from 'node:fs/promises';
 import { writeFileAtomic, type AtomicFs, type WriteOutcome } from '../atomic-write';
 
-export const nodeAtomicFs: AtomicFs = {
+const nodeAtomicFs: AtomicFs = {
   async open(filePath, flags, mode) {
     const h = await open(filePath, flags, mode);
     return {

@@ -27,8 +27,8 @@ import type { Computer } from './compute';
  */
 const work = () => import('./commands');
 
-export const TOOL_NAME = 'Slewsmith';
-export const TOOL_VERSION = '0.1.0';
+const TOOL_NAME = 'Slewsmith';
+const TOOL_VERSION = '0.1.0';
 
 export type { CliContext, CliIo } from './io';
 

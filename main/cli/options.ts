@@ -62,7 +62,7 @@ export function numberOptions<K extends string>(
 }
 
 /** Export sample rate: at least one line per 1000 s; the upper end is the scenario's control rate. */
-export const MIN_EXPORT_RATE_HZ = 1e-3;
+const MIN_EXPORT_RATE_HZ = 1e-3;
 /** Checked before the scenario is loaded; its own control rate (compute.ts) is the real limit. */
 export const EXPORT_RATE_RULE: NumberRule = {
   min: MIN_EXPORT_RATE_HZ,

@@ -76,7 +76,7 @@ export async function ensureFolder(dir: string, option: string): Promise<FolderO
 }
 
 /** Creates and removes one temporary file in `dir`: the only sure test that we may write there. */
-export async function probeWritable(dir: string, option: string): Promise<FolderOutcome> {
+async function probeWritable(dir: string, option: string): Promise<FolderOutcome> {
   const probe = newTempPath(path.join(dir, 'write-probe'));
   try {
     const h = await open(probe, 'wx', 0o600);

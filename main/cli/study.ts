@@ -55,7 +55,7 @@ const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
 const sec = (x: number | null, durationS: number) => (x === null ? `>${durationS}` : x.toFixed(1));
 const frac = (x: number | null) => (x === null ? '-' : pct(x));
 
-export function studyTable(s: StudySummary): string {
+function studyTable(s: StudySummary): string {
   const rows = s.controllers.map((c: ControllerSummary) => [
     `${c.label} [${c.controllerId}]`,
     String(c.flyable),

@@ -17,6 +17,7 @@
  */
 import type { Issue, Result } from '../errors';
 import { fail, issue, ok } from '../errors';
+import { allFinite } from '../math/arrays';
 import type { Mat3, Vec3 } from '../math/mat3';
 import { m3Create, m3Invert, symmetricEigen3, v3Create } from '../math/mat3';
 
@@ -61,11 +62,6 @@ export interface Gyrostat {
   dim: number;
 }
 
-/** Offsets into the gyrostat state. */
-export const GYRO_Q = 0;
-export const GYRO_OMEGA = 4;
-export const GYRO_H = 7;
-
 const UNIT_TOL = 1e-6;
 const DEFAULT_COULOMB_SMOOTHING = 0.5;
 
@@ -101,7 +97,7 @@ export function makeGyrostat(J: Mat3, wheels: WheelGeometry, friction?: WheelFri
   let jOk = J instanceof Float64Array && J.length === 9;
   if (!jOk) errors.push(issue('inertia', 'shape', 'inertia must be a column-major Float64Array(9)'));
   else {
-    for (let i = 0; i < 9; i++) if (!Number.isFinite(J[i])) jOk = false;
+    jOk = allFinite(J);
     if (!jOk) errors.push(issue('inertia', 'finite', 'inertia entries must be finite'));
   }
   const n = wheels?.n;

@@ -21,11 +21,11 @@ export interface InertiaInfo {
 }
 
 /** Off-diagonal pairs may differ by this fraction of the largest entry (rounding in exported files). */
-export const INERTIA_SYMMETRY_TOL = 1e-6;
+const INERTIA_SYMMETRY_TOL = 1e-6;
 /** J1 + J2 ≥ J3 may fail by this fraction of J3 (rounding of moments computed elsewhere). */
-export const INERTIA_TRIANGLE_TOL = 1e-9;
+const INERTIA_TRIANGLE_TOL = 1e-9;
 /** Smallest eigenvalue must exceed this fraction of the largest to count as positive definite. */
-export const INERTIA_PD_TOL = 1e-12;
+const INERTIA_PD_TOL = 1e-12;
 
 function isArrayLike(v: unknown): v is ArrayLike<unknown> {
   return Array.isArray(v) || (ArrayBuffer.isView(v) && !(v instanceof DataView));

@@ -38,7 +38,7 @@ export type AxisSearchResult =
 const ANTIPODAL_GUARD = 1e-6;
 
 /** Angle between unit vectors (rad, [0, π]). */
-export function angleBetween(a: ArrayLike<number>, b: ArrayLike<number>): number {
+function angleBetween(a: ArrayLike<number>, b: ArrayLike<number>): number {
   const cx = a[1]! * b[2]! - a[2]! * b[1]!,
     cy = a[2]! * b[0]! - a[0]! * b[2]!,
     cz = a[0]! * b[1]! - a[1]! * b[0]!;
@@ -46,7 +46,7 @@ export function angleBetween(a: ArrayLike<number>, b: ArrayLike<number>): number
 }
 
 /** Whether the great-circle arc from unit a to unit b (shorter way) is clear of every cone. */
-export function arcClear(ax: number, ay: number, az: number, bx: number, by: number, bz: number, cones: readonly PlanningCone[]): boolean {
+function arcClear(ax: number, ay: number, az: number, bx: number, by: number, bz: number, cones: readonly PlanningCone[]): boolean {
   let nx = ay * bz - az * by,
     ny = az * bx - ax * bz,
     nz = ax * by - ay * bx;

@@ -24,7 +24,7 @@ import { prepareConstraints } from './validate';
 import { readHistory } from './history';
 
 /** Samples per block of the check. */
-export const BLOCK = 256;
+const BLOCK = 256;
 
 export interface CheckOptions {
   /** Also return the margin series of each constraint (one acos per sample and constraint). */

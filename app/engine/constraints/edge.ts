@@ -28,7 +28,7 @@ export function rotateInto(out: Float64Array, o: number, q: ArrayLike<number>, v
 }
 
 /** out = a ⊗ b* (Hamilton, scalar-last); out may alias neither input. */
-export function mulConj(out: Float64Array, a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
+function mulConj(out: Float64Array, a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
   const ax = a[0]!,
     ay = a[1]!,
     az = a[2]!,

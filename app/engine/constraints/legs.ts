@@ -18,7 +18,7 @@ import type { InfeasibleSegment, PlanLimits, SegmentPlan } from '../plan/types';
 import { rotateInto, rotationAngle, shortestArc } from './edge';
 
 /** Legs shorter than this rotation (rad) are dropped from a chain. */
-export const MIN_LEG_RAD = 1e-9;
+const MIN_LEG_RAD = 1e-9;
 
 /** The attitude chain for waypoint directions w_0 … w_m of axis b, ending exactly at q1. */
 export function chainFromWaypoints(q0: Quat, q1: Quat, waypoints: readonly Float64Array[]): Float64Array[] {

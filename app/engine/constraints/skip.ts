@@ -19,7 +19,7 @@ import type { Track } from './scan';
 import type { PreparedSource } from './types';
 
 /** Stride of the coarse pass that seeds the known minimum. */
-export const COARSE_STRIDE = 256;
+const COARSE_STRIDE = 256;
 
 /**
  * Per block of `block` samples, a bound on the rotation angle the attitude travels inside it:

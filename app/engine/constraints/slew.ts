@@ -273,7 +273,7 @@ function chainClear(chain: readonly Float64Array[], s: Setup): boolean {
 }
 
 /** Sampling step of the final check: min(0.25°, smallest cone threshold / 20). */
-export function checkStepRad(cs: readonly PlanningCone[]): number {
+function checkStepRad(cs: readonly PlanningCone[]): number {
   let step = 0.25 * RAD_PER_DEG;
   for (const c of cs) if (c.thresholdRad > 0) step = Math.min(step, c.thresholdRad / 20);
   return step;

@@ -111,7 +111,7 @@ export function sourceAt(out: Float64Array, src: PreparedSource, t: number): num
 }
 
 /** Angle between two unit vectors (rad, [0, π]), accurate near 0 and π. */
-export function unitAngle(ax: number, ay: number, az: number, bx: number, by: number, bz: number): number {
+function unitAngle(ax: number, ay: number, az: number, bx: number, by: number, bz: number): number {
   const cx = ay * bz - az * by,
     cy = az * bx - ax * bz,
     cz = ax * by - ay * bx;

@@ -11,7 +11,7 @@ import { arcTables, attitudeMargin } from './source';
 import type { AttitudeConstraint, DirectionSource, PreparedConstraint, PreparedSource } from './types';
 
 /** Consecutive samples of a direction source must be closer than this (rad) to interpolate. */
-export const MAX_SAMPLE_STEP_RAD = 0.5 * Math.PI;
+const MAX_SAMPLE_STEP_RAD = 0.5 * Math.PI;
 
 function isArrayLike(v: unknown): v is ArrayLike<unknown> {
   return v !== null && typeof v === 'object' && typeof (v as ArrayLike<unknown>).length === 'number';
@@ -47,7 +47,7 @@ function checkRadius(list: IssueList, path: string, r: unknown): boolean {
 }
 
 /** Validate one direction source into its prepared shape. */
-export function prepareSource(list: IssueList, path: string, s: DirectionSource | undefined): PreparedSource | null {
+function prepareSource(list: IssueList, path: string, s: DirectionSource | undefined): PreparedSource | null {
   if (s === null || typeof s !== 'object') {
     list.add(path, 'type', `${path} must be a direction source {kind: 'fixed' | 'sampled', …}`);
     return null;

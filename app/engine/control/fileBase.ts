@@ -6,12 +6,12 @@
  */
 import { z } from 'zod';
 
-export const KpKdGainsSchema = z.strictObject({
+const KpKdGainsSchema = z.strictObject({
   kp: z.number().positive().describe('Stiffness gain, SI; what it multiplies depends on the law (see the law’s gain names).'),
   kd: z.number().positive().describe('Damping gain, SI; what it multiplies depends on the law (see the law’s gain names).'),
 });
 
-export const BandwidthGainsSchema = z.strictObject({
+const BandwidthGainsSchema = z.strictObject({
   bandwidthRadPerS: z
     .number()
     .positive()
@@ -20,7 +20,7 @@ export const BandwidthGainsSchema = z.strictObject({
   dampingRatio: z.number().positive().max(10).describe('Small-error damping ratio ζ (dimensionless).'),
 });
 
-export const GainsSchema = z
+const GainsSchema = z
   .union([KpKdGainsSchema, BandwidthGainsSchema])
   .describe('Either explicit gains { kp, kd } or a bandwidth and damping ratio { bandwidthRadPerS, dampingRatio }.');
 

@@ -13,7 +13,7 @@ export { buildController, gainNoteOf, LAW_IDS, LAWS, lawDefinition } from './reg
 export { ControllerFileSchema, type ControllerFileEntry, type FileEntryOf } from './fileSchema';
 export { gainsFromBandwidth, synergisticGainsFromBandwidth } from './gains';
 export type { BandwidthGains, SynergisticBandwidthGains } from './gains';
-export { certifySynergistic, isCertificateRefusal } from './certificate';
+export { certifySynergistic } from './certificate';
 export type { CertificateResult, CertifyOptions, CertifyParams, CriticalPointReport } from './certificate';
 export { flowSetGradientCheck } from './flowset';
 export type { FlowSetCheck } from './flowset';

@@ -3,6 +3,7 @@
  * derivative-free minimiser and a damped Newton (Levenberg–Marquardt) solver for 3 equations in
  * 3 unknowns. They run once per certificate, not per integration step, so closures are fine here.
  */
+import { allFinite } from '../math/arrays';
 
 export interface RootResult {
   x: number;
@@ -16,7 +17,7 @@ export interface RootResult {
  * Minimization without Derivatives", Prentice-Hall 1973, ch. 4: inverse quadratic interpolation,
  * secant and bisection with the safeguards of the original zero routine).
  */
-export function brentRoot(f: (x: number) => number, a: number, b: number, xtol = 1e-15, maxIter = 200): RootResult {
+function brentRoot(f: (x: number) => number, a: number, b: number, xtol = 1e-15, maxIter = 200): RootResult {
   let fa = f(a),
     fb = f(b);
   if (fa === 0) return { x: a, fx: 0, iterations: 0, converged: true };
@@ -228,7 +229,7 @@ function solveLinear3(M: number[][], b: number[]): number[] | null {
     for (let k = r + 1; k < 3; k++) s -= a[r]![k]! * x[k]!;
     x[r] = s / a[r]![r]!;
   }
-  return x.every(Number.isFinite) ? x : null;
+  return allFinite(x) ? x : null;
 }
 
 /**

@@ -143,7 +143,7 @@ export function makeFamilyWorkspace(fam: WarpFamily): FamilyWorkspace {
  * at R_a(π/2, e₁) for methods §4.3) come out of floating point a few ulps apart; treating them as
  * ties makes the choice deterministic: the LOWEST index among the tied minimisers wins.
  */
-export const TIE_RELATIVE_TOLERANCE = 1e-12;
+const TIE_RELATIVE_TOLERANCE = 1e-12;
 
 /** Lowest index p with V_p within the tie tolerance of min V. */
 export function argminMember(V: ArrayLike<number>, n: number): number {
@@ -264,12 +264,4 @@ export function warpJacobianDet(fam: WarpFamily, q: ArrayLike<number>, p: number
   psiAQuat(sPsiR, fam, q);
   const U = fam.directions;
   return 1 + 2 * fam.k * (U[3 * p]! * sPsiR[0]! + U[3 * p + 1]! * sPsiR[1]! + U[3 * p + 2]! * sPsiR[2]!);
-}
-
-/** Copy of an eigenvector column of the family's A (i = 0, 1, 2 ascending eigenvalue). */
-export function eigenvector(out: Vec3, fam: WarpFamily, i: number): Vec3 {
-  out[0] = fam.eigenvectors[3 * i]!;
-  out[1] = fam.eigenvectors[3 * i + 1]!;
-  out[2] = fam.eigenvectors[3 * i + 2]!;
-  return out;
 }

@@ -32,7 +32,7 @@ import { selectSamples } from './columns';
 import { isKvnText, kvnFixed, kvnSignificant, toKvnText } from './kvn';
 import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
-import type { ExportMeta } from './types';
+import type { ExportMeta, ExportSegment } from './types';
 import { DEG_PER_RAD } from '../units';
 
 export interface AemOptions {
@@ -84,9 +84,48 @@ function commentText(s: string): string {
   return ascii.slice(0, KVN_MAX_LINE - 'COMMENT '.length);
 }
 
+/** Options resolved to what the writer prints (after their checks). */
+interface AemSettings {
+  /** CREATION_DATE, ms since 1970 (NaN when it did not parse: the options are then refused). */
+  creationMs: number;
+  fracDigits: number;
+  qDec: number;
+  rateSig: number;
+  objectName: string;
+  text: Record<'originator' | 'objectName' | 'objectId' | 'centerName' | 'refFrameA' | 'refFrameB', string | null>;
+}
+
+/** One META/DATA block pair: its label, its data lines and its first and last epochs (epoch units). */
+interface AemBlock {
+  label: string;
+  lines: string[];
+  first: number;
+  last: number;
+}
+
 export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: AemOptions): Result<string> {
   const errors: Issue[] = checkExportInputs(trace, scenario, meta);
   const o = options ?? ({} as AemOptions);
+  const settings = aemSettings(o, scenario, errors);
+  if (errors.length) return fail(errors);
+
+  const sel = selectSamples(trace, o.sampleRateHz);
+  if (!sel.ok) return sel;
+  const segs = exportSegments(trace, scenario, meta.segments);
+  if (!segs.ok) return segs;
+  const idx = sel.value;
+  const blocks = dataBlocks(trace, segs.value, idx, hemisphereSigns(trace, idx), scenario.epochUnixMs, settings);
+  if (!blocks.ok) return blocks;
+
+  const out: string[] = [];
+  headerLines(out, o, settings, scenario, meta);
+  blocks.value.forEach((blk, b) => segmentLines(out, blk, b, blocks.value.length, o, settings));
+  const eol = o.lineEnding ?? '\n';
+  return readBack(out.join(eol) + eol);
+}
+
+/** Every problem with the options, appended to `errors`; the values the writer uses. */
+function aemSettings(o: AemOptions, scenario: ScenarioSummary, errors: Issue[]): AemSettings {
   const creationMs = parseIsoUtcMs(o.creationDateUtc);
   if (creationMs === null) {
     errors.push({
@@ -119,9 +158,8 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   if (o.lineEnding !== undefined && o.lineEnding !== '\n' && o.lineEnding !== '\r\n') {
     errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
   }
-
   const objectName = o.objectName ?? toKvnText(scenario?.vehicleName ?? '');
-  const text: Record<'originator' | 'objectName' | 'objectId' | 'centerName' | 'refFrameA' | 'refFrameB', string | null> = {
+  const text: AemSettings['text'] = {
     originator: o.originator ?? 'SLEWSMITH',
     objectName,
     objectId: o.objectId ?? 'UNKNOWN',
@@ -129,6 +167,12 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
     refFrameA: o.refFrameA ?? 'EME2000',
     refFrameB: o.refFrameB ?? 'SC_BODY_1',
   };
+  textIssues(o, text, errors);
+  return { creationMs: creationMs ?? NaN, fracDigits, qDec, rateSig, objectName, text };
+}
+
+/** The text-valued options: KVN text (printable ASCII, one case) and a known interpolation. */
+function textIssues(o: AemOptions, text: AemSettings['text'], errors: Issue[]): void {
   for (const [k, v] of Object.entries(text)) {
     if (v === null && k === 'centerName') continue;
     if (typeof v !== 'string' || !isKvnText(v)) {
@@ -158,15 +202,10 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
       });
     }
   }
-  if (errors.length) return fail(errors);
+}
 
-  const sel = selectSamples(trace, o.sampleRateHz);
-  if (!sel.ok) return sel;
-  const segs = exportSegments(trace, scenario, meta.segments);
-  if (!segs.ok) return segs;
-  const idx = sel.value;
-
-  // One hemisphere throughout: sign per selected sample, in time order.
+/** One hemisphere throughout: the sign of each selected sample's quaternion, in time order (first with QC ≥ 0). */
+function hemisphereSigns(trace: RunTrace, idx: ArrayLike<number>): Float64Array {
   const sign = new Float64Array(trace.n);
   let px = 0,
     py = 0,
@@ -185,13 +224,23 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
     pz = s * z;
     pw = s * w;
   }
+  return sign;
+}
 
-  const epochMs = scenario.epochUnixMs;
+/** The data lines of each segment, strictly increasing in printed epoch; a segment with none is an error. */
+function dataBlocks(
+  trace: RunTrace,
+  segments: readonly ExportSegment[],
+  idx: ArrayLike<number>,
+  sign: Float64Array,
+  epochMs: number,
+  st: AemSettings,
+): Result<AemBlock[]> {
   const aq = new Float64Array(4);
-  const blocks: { label: string; lines: string[]; first: number; last: number }[] = [];
+  const blocks: AemBlock[] = [];
   const segErrors: Issue[] = [];
-  for (let b = 0; b < segs.value.length; b++) {
-    const seg = segs.value[b]!;
+  for (let b = 0; b < segments.length; b++) {
+    const seg = segments[b]!;
     const slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
     const lines: string[] = [];
     let lastUnits = -Infinity,
@@ -200,15 +249,15 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
       const k = idx[m]!;
       const t = trace.t[k]!;
       if (t < seg.startS - slack || t > seg.stopS + slack) continue;
-      const u = epochUnits(epochMs, t, fracDigits);
+      const u = epochUnits(epochMs, t, st.fracDigits);
       if (u <= lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
       if (Number.isNaN(firstUnits)) firstUnits = u;
       lastUnits = u;
       aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
       const s = sign[k]!;
-      const parts = [formatEpochUnits(u, fracDigits)];
-      for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, qDec));
-      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, rateSig));
+      const parts = [formatEpochUnits(u, st.fracDigits)];
+      for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, st.qDec));
+      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, st.rateSig));
       lines.push(parts.join(' '));
     }
     if (lines.length === 0) {
@@ -221,11 +270,14 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
     }
     blocks.push({ label: seg.label, lines, first: firstUnits, last: lastUnits });
   }
-  if (segErrors.length) return fail(segErrors);
+  return segErrors.length ? fail(segErrors) : ok(blocks);
+}
 
-  const creation = formatEpochUnits(epochUnits(creationMs as number, 0, 3), 3);
-  const messageId = o.messageId ?? `${objectName}-${creation.slice(0, 19).replace(/[-:]/g, '')}`;
-  const out: string[] = [];
+/** Header lines: version, the caution and what wrote the file, creation date, originator, message id. */
+function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: ScenarioSummary, meta: ExportMeta): void {
+  const text = st.text;
+  const creation = formatEpochUnits(epochUnits(st.creationMs, 0, 3), 3);
+  const messageId = o.messageId ?? `${st.objectName}-${creation.slice(0, 19).replace(/[-:]/g, '')}`;
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   kv('CCSDS_AEM_VERS', AEM_VERSION);
   out.push(`COMMENT ${commentText(CAUTION_TEXT)}`);
@@ -238,37 +290,42 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);
-  blocks.forEach((blk, b) => {
-    out.push('');
-    out.push('META_START');
-    out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${blocks.length}: ${blk.label}`)}`);
-    kv('OBJECT_NAME', objectName);
-    kv('OBJECT_ID', text.objectId as string);
-    if (text.centerName !== null) kv('CENTER_NAME', text.centerName);
-    kv('REF_FRAME_A', text.refFrameA as string);
-    kv('REF_FRAME_B', text.refFrameB as string);
-    kv('TIME_SYSTEM', 'UTC');
-    const start = formatEpochUnits(blk.first, fracDigits);
-    const stop = formatEpochUnits(blk.last, fracDigits);
-    kv('START_TIME', start);
-    kv('USEABLE_START_TIME', start);
-    kv('USEABLE_STOP_TIME', stop);
-    kv('STOP_TIME', stop);
-    kv('ATTITUDE_TYPE', 'QUATERNION/ANGVEL');
-    kv('ANGVEL_FRAME', text.refFrameB as string);
-    if (o.interpolation) {
-      kv('INTERPOLATION_METHOD', o.interpolation.method);
-      kv('INTERPOLATION_DEGREE', String(o.interpolation.degree));
-    }
-    out.push('META_STOP');
-    out.push('');
-    out.push('DATA_START');
-    out.push(...blk.lines);
-    out.push('DATA_STOP');
-  });
-  const eol = o.lineEnding ?? '\n';
-  const textOut = out.join(eol) + eol;
+}
 
+/** Segment b of count: its metadata block and its data block. */
+function segmentLines(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
+  const text = st.text;
+  const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
+  out.push('');
+  out.push('META_START');
+  out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.label}`)}`);
+  kv('OBJECT_NAME', st.objectName);
+  kv('OBJECT_ID', text.objectId as string);
+  if (text.centerName !== null) kv('CENTER_NAME', text.centerName);
+  kv('REF_FRAME_A', text.refFrameA as string);
+  kv('REF_FRAME_B', text.refFrameB as string);
+  kv('TIME_SYSTEM', 'UTC');
+  const start = formatEpochUnits(blk.first, st.fracDigits);
+  const stop = formatEpochUnits(blk.last, st.fracDigits);
+  kv('START_TIME', start);
+  kv('USEABLE_START_TIME', start);
+  kv('USEABLE_STOP_TIME', stop);
+  kv('STOP_TIME', stop);
+  kv('ATTITUDE_TYPE', 'QUATERNION/ANGVEL');
+  kv('ANGVEL_FRAME', text.refFrameB as string);
+  if (o.interpolation) {
+    kv('INTERPOLATION_METHOD', o.interpolation.method);
+    kv('INTERPOLATION_DEGREE', String(o.interpolation.degree));
+  }
+  out.push('META_STOP');
+  out.push('');
+  out.push('DATA_START');
+  out.push(...blk.lines);
+  out.push('DATA_STOP');
+}
+
+/** The written text, parsed back with parseAem: any problem is the writer's, reported as internal. */
+function readBack(textOut: string): Result<string> {
   const check = parseAem(textOut);
   if (!check.ok) {
     return fail(

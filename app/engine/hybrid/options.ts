@@ -4,8 +4,8 @@
  */
 import type { Issue, Result } from '../errors';
 import { describe, fail, issue, ok } from '../errors';
-import type { Dp54Options } from './dp54';
-import { validateDp54Options } from './dp54';
+import type { Dp54Options } from './dp54Options';
+import { validateDp54Options } from './dp54Options';
 import type { HybridSystem } from './types';
 
 export type IntegratorOptions =

@@ -8,6 +8,7 @@
  * m = ⌈(t_stop − t)/dt⌉ EQUAL steps, so it lands exactly on every stop without a sliver step.
  * Nothing here allocates after construction.
  */
+import { allFinite } from '../math/arrays';
 import type { FlowFn, Stepper, StepStatus } from './types';
 import { STEP_NON_FINITE, STEP_OK } from './types';
 
@@ -75,11 +76,6 @@ export function hermiteInterpolate(
 /** Number of equal steps of at most dt that cover `span` (≥ 1). */
 export function equalStepCount(span: number, dt: number): number {
   return Math.max(1, Math.ceil(span / dt - 1e-9));
-}
-
-function allFinite(x: Float64Array): boolean {
-  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) return false;
-  return true;
 }
 
 /** RK4 as a Stepper (see types.ts), with the equal-step policy and a Hermite dense output. */

@@ -113,17 +113,6 @@ export function m3MulVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<number>):
   return out;
 }
 
-/** out = Mᵀ v. */
-export function m3MulTransposeVec(out: Vec3, m: ArrayLike<number>, v: ArrayLike<number>): Vec3 {
-  const x = v[0]!,
-    y = v[1]!,
-    z = v[2]!;
-  out[0] = m[0]! * x + m[1]! * y + m[2]! * z;
-  out[1] = m[3]! * x + m[4]! * y + m[5]! * z;
-  out[2] = m[6]! * x + m[7]! * y + m[8]! * z;
-  return out;
-}
-
 export function m3Determinant(a: ArrayLike<number>): number {
   const a00 = a[0]!,
     a10 = a[1]!,
@@ -172,39 +161,6 @@ export function m3Invert(out: Mat3, a: ArrayLike<number>, tiny = 1e-14): boolean
   return true;
 }
 
-/** Skew (hat) matrix: hat(a) b = a × b. */
-export function m3Hat(out: Mat3, a: ArrayLike<number>): Mat3 {
-  const x = a[0]!,
-    y = a[1]!,
-    z = a[2]!;
-  out[0] = 0;
-  out[1] = z;
-  out[2] = -y;
-  out[3] = -z;
-  out[4] = 0;
-  out[5] = x;
-  out[6] = y;
-  out[7] = -x;
-  out[8] = 0;
-  return out;
-}
-
-/** vee of the skew part: ψ(M) = vee((M − Mᵀ)/2) (methods §1.2). */
-export function m3SkewVee(out: Vec3, m: ArrayLike<number>): Vec3 {
-  // (M - M^T)/2 entry (2,1) = (m21 - m12)/2 is the x component.
-  const x = 0.5 * (m[5]! - m[7]!);
-  const y = 0.5 * (m[6]! - m[2]!);
-  const z = 0.5 * (m[1]! - m[3]!);
-  out[0] = x;
-  out[1] = y;
-  out[2] = z;
-  return out;
-}
-
-export function m3Trace(m: ArrayLike<number>): number {
-  return m[0]! + m[4]! + m[8]!;
-}
-
 export function v3Cross(out: Vec3, a: ArrayLike<number>, b: ArrayLike<number>): Vec3 {
   const ax = a[0]!,
     ay = a[1]!,
@@ -224,16 +180,6 @@ export function v3Dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
 
 export function v3Norm(a: ArrayLike<number>): number {
   return Math.hypot(a[0]!, a[1]!, a[2]!);
-}
-
-/** Normalise; returns false and leaves `out` untouched for a zero or non-finite vector. */
-export function v3Normalize(out: Vec3, a: ArrayLike<number>): boolean {
-  const n = Math.hypot(a[0]!, a[1]!, a[2]!);
-  if (!(n > 0) || !Number.isFinite(n)) return false;
-  out[0] = a[0]! / n;
-  out[1] = a[1]! / n;
-  out[2] = a[2]! / n;
-  return true;
 }
 
 /**

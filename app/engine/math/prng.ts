@@ -26,7 +26,7 @@ function rotl(x: number, k: number): number {
   return ((x << k) | (x >>> (32 - k))) >>> 0;
 }
 
-export class Xoshiro128 implements Rng {
+class Xoshiro128 implements Rng {
   // State words and the cached normal live in typed arrays: plain object fields holding values
   // ≥ 2^31 or doubles would be boxed, allocating on every draw in the per-sample hot path.
   private readonly s = new Uint32Array(4);

@@ -26,10 +26,6 @@ export interface AttitudeState {
   separationSin: number;
 }
 
-export function createAttitudeState(): AttitudeState {
-  return { q: Float64Array.of(0, 0, 0, 1), omegaBody: new Float64Array(3), omegaDotBody: new Float64Array(3), separationSin: 1 };
-}
-
 /**
  * Body triad [b1 b2 b3] (column-major) of a primary and secondary body axis; false when either is
  * zero or they are parallel (sine of their angle below 1e-6).

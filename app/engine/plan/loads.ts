@@ -45,7 +45,7 @@ export function makeSlewGeometry(J: Mat3, e: ArrayLike<number>, h0: ArrayLike<nu
  * Body torque τ and wheel momentum h_w at angle φ, rate ω_s and acceleration α (formulas in the
  * header). Allocation-free; outTau and outH must not alias each other.
  */
-export function slewLoadsAt(outTau: Vec3, outH: Vec3, g: SlewGeometry, phi: number, omega: number, alpha: number): void {
+function slewLoadsAt(outTau: Vec3, outH: Vec3, g: SlewGeometry, phi: number, omega: number, alpha: number): void {
   const c = Math.cos(phi),
     s = Math.sin(phi),
     k = (1 - c) * g.eDotH0;

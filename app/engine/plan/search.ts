@@ -39,95 +39,136 @@ export type SearchOutcome =
   { ok: true; profile: RestToRestProfile; binding: BindingLimit; use: EnvelopeUse } | { ok: false; reason: Issue };
 
 export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number): SearchOutcome {
-  const th = g.angleRad;
-  const slew = limits.slewRateLimitRadPerS;
-  const tStop = limits.torqueMargin * (1 - SEARCH_GUARD);
-  const hStop = limits.momentumMargin * (1 - SEARCH_GUARD);
-  // The start torque is exactly J e a, so a_hi sits on the margin, outside the guard band:
-  // search below aTop (a tiny extra factor against rounding at equality).
-  const aTop = aHi * (1 - SEARCH_GUARD) * (1 - 1e-12);
-  const wHi = Math.min(slew ?? Infinity, Math.sqrt(th * aTop));
-  const use: EnvelopeUse = { torque: 0, momentum: 0 };
+  const search = new ProfileSearch(g, limits, aHi);
+  const scan = search.scanRateCaps();
+  if (scan.bestK < 0) return { ok: false, reason: explainNoProfile(g, limits, search.aTop * A_FLOOR, scan.ws[scan.ws.length - 1]!) };
+  search.refineGolden(scan);
+  return search.verify(scan.bestA, scan.bestW);
+}
 
-  const feasible = (a: number, w: number, s: Sampling = SEARCH_SAMPLING, tMax = tStop, hMax = hStop): boolean => {
-    scanEnvelopeUse(use, g, restToRestProfile(th, a, w), limits, s, tMax, hMax);
+/** The best (a, w) found so far, and the rate caps the scan tried (4a). */
+interface ScanResult {
+  /** Index of the best scan point in ws (−1: no rate cap had a feasible acceleration). */
+  bestK: number;
+  bestT: number;
+  bestA: number;
+  bestW: number;
+  ws: number[];
+}
+
+/** One search (steps 1–5 of the file header) for one slew: the bounds and the sampled feasibility test. */
+class ProfileSearch {
+  private readonly th: number;
+  private readonly slew: number | undefined;
+  /** Margins less the guard band, for the coarse sampling. */
+  private readonly tStop: number;
+  private readonly hStop: number;
+  /** Largest acceleration searched: a_hi less the guard band (and a hair against rounding). */
+  readonly aTop: number;
+  /** Largest rate cap searched. */
+  readonly wHi: number;
+  /** Envelope use of the last profile tested. */
+  private readonly use: EnvelopeUse = { torque: 0, momentum: 0 };
+
+  constructor(
+    private readonly g: SlewGeometry,
+    private readonly limits: PlanLimits,
+    aHi: number,
+  ) {
+    this.th = g.angleRad;
+    this.slew = limits.slewRateLimitRadPerS;
+    this.tStop = limits.torqueMargin * (1 - SEARCH_GUARD);
+    this.hStop = limits.momentumMargin * (1 - SEARCH_GUARD);
+    // The start torque is exactly J e a, so a_hi sits on the margin, outside the guard band:
+    // search below aTop (a tiny extra factor against rounding at equality).
+    this.aTop = aHi * (1 - SEARCH_GUARD) * (1 - 1e-12);
+    this.wHi = Math.min(this.slew ?? Infinity, Math.sqrt(this.th * this.aTop));
+  }
+
+  private feasible(a: number, w: number, s: Sampling = SEARCH_SAMPLING, tMax = this.tStop, hMax = this.hStop): boolean {
+    const use = this.use;
+    scanEnvelopeUse(use, this.g, restToRestProfile(this.th, a, w), this.limits, s, tMax, hMax);
     return use.torque <= tMax && use.momentum <= hMax;
-  };
+  }
 
   /** Largest feasible a for rate cap w (0 if none); `hint` is a likely feasible lower bracket. */
-  const maxAccelFor = (w: number, hint = 0): number => {
-    if (feasible(aTop, w)) return aTop;
-    let lo = hint > 0 && hint < aTop && feasible(hint, w) ? hint : aTop * A_FLOOR;
-    if (lo === aTop * A_FLOOR && !feasible(lo, w)) return 0;
+  private maxAccelFor(w: number, hint = 0): number {
+    const aTop = this.aTop;
+    if (this.feasible(aTop, w)) return aTop;
+    let lo = hint > 0 && hint < aTop && this.feasible(hint, w) ? hint : aTop * A_FLOOR;
+    if (lo === aTop * A_FLOOR && !this.feasible(lo, w)) return 0;
     let hi = aTop;
     for (let i = 0; i < MAX_BISECTIONS && hi > lo * (1 + SEARCH_GUARD / 4); i++) {
       const mid = Math.sqrt(lo * hi);
-      if (feasible(mid, w)) lo = mid;
+      if (this.feasible(mid, w)) lo = mid;
       else hi = mid;
     }
     return lo;
-  };
+  }
 
   /** Which margin the sampled profile (a, w) crosses first, or null when it is feasible. */
-  const violated = (a: number, w: number): BindingLimit | null => {
-    if (feasible(a, w)) return null;
-    const overT = use.torque / tStop,
-      overH = use.momentum / hStop;
+  private violated(a: number, w: number): BindingLimit | null {
+    if (this.feasible(a, w)) return null;
+    const overT = this.use.torque / this.tStop,
+      overH = this.use.momentum / this.hStop;
     return overH > 1 && overH >= overT ? 'momentum' : 'torque';
-  };
+  }
 
   /**
    * The binding limit is the one a slightly more aggressive profile breaks first: raise the rate
    * cap (if the profile coasts), else the acceleration, by four guard bands. At the slew-rate
    * limit itself the answer is 'slew-rate'.
    */
-  const classify = (p: RestToRestProfile, a: number, w: number): BindingLimit => {
+  private classify(p: RestToRestProfile, a: number, w: number): BindingLimit {
+    const slew = this.slew;
     const bump = 1 + 4 * SEARCH_GUARD;
     if (p.kind === 'bang-coast-bang') {
       if (slew !== undefined && p.peakRateRadPerS >= slew * (1 - 1e-12)) return 'slew-rate';
-      const v = violated(a, w * bump);
+      const v = this.violated(a, w * bump);
       if (v) return v;
       if (slew !== undefined && w * bump >= slew) return 'slew-rate';
     }
-    return violated(a * bump, w) ?? 'torque';
-  };
-
-  const timeOf = (a: number, w: number): number => (a > 0 ? restToRestProfile(th, a, w).durationS : Infinity);
-
-  // 4a. Scan the rate cap downwards. Once a*(w) reaches aTop no slower cap can win.
-  let bestK = -1,
-    bestT = Infinity,
-    bestA = 0,
-    bestW = 0,
-    prevA = 0;
-  const ws: number[] = [];
-  for (let k = 0; k < SCAN_COUNT; k++) {
-    const w = wHi * Math.pow(SCAN_RATIO, k);
-    ws.push(w);
-    const a = maxAccelFor(w, prevA);
-    if (a > 0) prevA = a;
-    const T = timeOf(a, w);
-    if (T < bestT) {
-      bestT = T;
-      bestK = k;
-      bestA = a;
-      bestW = w;
-    }
-    if (a >= aTop || T > SCAN_STOP * bestT) break;
+    return this.violated(a * bump, w) ?? 'torque';
   }
-  if (bestK < 0) return { ok: false, reason: explainNoProfile(g, limits, aTop * A_FLOOR, ws[ws.length - 1]!) };
 
-  // 4b. Golden-section on ln w between the neighbours of the best scan point.
-  if (bestA < aTop || bestK > 0) {
-    let lo = Math.log(ws[bestK]! * SCAN_RATIO);
-    let hi = Math.log(bestK > 0 ? ws[bestK - 1]! : wHi);
-    const r = (Math.sqrt(5) - 1) / 2;
+  private timeOf(a: number, w: number): number {
+    return a > 0 ? restToRestProfile(this.th, a, w).durationS : Infinity;
+  }
+
+  /** 4a. Scan the rate cap downwards. Once a*(w) reaches aTop no slower cap can win. */
+  scanRateCaps(): ScanResult {
+    const r: ScanResult = { bestK: -1, bestT: Infinity, bestA: 0, bestW: 0, ws: [] };
+    let prevA = 0;
+    for (let k = 0; k < SCAN_COUNT; k++) {
+      const w = this.wHi * Math.pow(SCAN_RATIO, k);
+      r.ws.push(w);
+      const a = this.maxAccelFor(w, prevA);
+      if (a > 0) prevA = a;
+      const T = this.timeOf(a, w);
+      if (T < r.bestT) {
+        r.bestT = T;
+        r.bestK = k;
+        r.bestA = a;
+        r.bestW = w;
+      }
+      if (a >= this.aTop || T > SCAN_STOP * r.bestT) break;
+    }
+    return r;
+  }
+
+  /** 4b. Golden-section on ln w between the neighbours of the best scan point; updates r when it finds better. */
+  refineGolden(r: ScanResult): void {
+    if (!(r.bestA < this.aTop || r.bestK > 0)) return;
+    const bestA = r.bestA;
+    let lo = Math.log(r.ws[r.bestK]! * SCAN_RATIO);
+    let hi = Math.log(r.bestK > 0 ? r.ws[r.bestK - 1]! : this.wHi);
+    const phi = (Math.sqrt(5) - 1) / 2;
     const at = (x: number): [number, number] => {
-      const a = maxAccelFor(Math.exp(x), bestA * 0.5);
-      return [timeOf(a, Math.exp(x)), a];
+      const a = this.maxAccelFor(Math.exp(x), bestA * 0.5);
+      return [this.timeOf(a, Math.exp(x)), a];
     };
-    let x1 = hi - r * (hi - lo),
-      x2 = lo + r * (hi - lo);
+    let x1 = hi - phi * (hi - lo),
+      x2 = lo + phi * (hi - lo);
     let [f1, a1] = at(x1);
     let [f2, a2] = at(x2);
     for (let i = 0; i < GOLDEN_STEPS; i++) {
@@ -136,44 +177,47 @@ export function searchProfile(g: SlewGeometry, limits: PlanLimits, aHi: number):
         x2 = x1;
         f2 = f1;
         a2 = a1;
-        x1 = hi - r * (hi - lo);
+        x1 = hi - phi * (hi - lo);
         [f1, a1] = at(x1);
       } else {
         lo = x1;
         x1 = x2;
         f1 = f2;
         a1 = a2;
-        x2 = lo + r * (hi - lo);
+        x2 = lo + phi * (hi - lo);
         [f2, a2] = at(x2);
       }
     }
     // The better golden point (ties: the first), if it beats the scan.
     const [fG, aG, xG] = f2 < f1 ? [f2, a2, x2] : [f1, a1, x1];
-    if (fG < bestT) [bestA, bestW] = [aG, Math.exp(xG)];
+    if (fG < r.bestT) [r.bestA, r.bestW] = [aG, Math.exp(xG)];
   }
 
-  // 5. Dense verification against half the guard band; shrink on a missed peak.
-  const vt = limits.torqueMargin * (1 - SEARCH_GUARD / 2);
-  const vh = limits.momentumMargin * (1 - SEARCH_GUARD / 2);
-  let a = bestA,
-    w = bestW;
-  for (let tries = 0; tries < 12; tries++) {
-    if (feasible(a, w, VERIFY_SAMPLING, vt, vh)) {
-      const profile = restToRestProfile(th, a, w);
-      const finalUse = scanEnvelopeUse({ torque: 0, momentum: 0 }, g, profile, limits, VERIFY_SAMPLING);
-      return { ok: true, profile, binding: classify(profile, a, w), use: finalUse };
+  /** 5. Dense verification against half the guard band; shrink on a missed peak. */
+  verify(bestA: number, bestW: number): SearchOutcome {
+    const limits = this.limits;
+    const vt = limits.torqueMargin * (1 - SEARCH_GUARD / 2);
+    const vh = limits.momentumMargin * (1 - SEARCH_GUARD / 2);
+    let a = bestA,
+      w = bestW;
+    for (let tries = 0; tries < 12; tries++) {
+      if (this.feasible(a, w, VERIFY_SAMPLING, vt, vh)) {
+        const profile = restToRestProfile(this.th, a, w);
+        const finalUse = scanEnvelopeUse({ torque: 0, momentum: 0 }, this.g, profile, limits, VERIFY_SAMPLING);
+        return { ok: true, profile, binding: this.classify(profile, a, w), use: finalUse };
+      }
+      a *= 1 - SEARCH_GUARD;
+      w *= 1 - SEARCH_GUARD;
     }
-    a *= 1 - SEARCH_GUARD;
-    w *= 1 - SEARCH_GUARD;
+    return {
+      ok: false,
+      reason: issue(
+        'segment',
+        'no-feasible-profile',
+        'No rest-to-rest eigenaxis profile passed the dense check of the torque and momentum margins.',
+      ),
+    };
   }
-  return {
-    ok: false,
-    reason: issue(
-      'segment',
-      'no-feasible-profile',
-      'No rest-to-rest eigenaxis profile passed the dense check of the torque and momentum margins.',
-    ),
-  };
 }
 
 export function explainNoProfile(g: SlewGeometry, limits: PlanLimits, a: number, w: number): Issue {

@@ -9,7 +9,7 @@ import type { Quat } from '../math/rotation';
 import type { PlanLimits } from './types';
 
 /** Allowed deviation of a quaternion's norm from 1 (inputs come from the target resolver). */
-export const UNIT_NORM_TOL = 1e-6;
+const UNIT_NORM_TOL = 1e-6;
 
 function finiteArray(list: IssueList, path: string, v: unknown, n: number): Float64Array | null {
   if (v === null || typeof v !== 'object' || typeof (v as ArrayLike<number>).length !== 'number') {

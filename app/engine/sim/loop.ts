@@ -247,11 +247,6 @@ export function projectQuaternion(x: Float64Array): boolean {
   return true;
 }
 
-export function allFinite(x: ArrayLike<number>): boolean {
-  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) return false;
-  return true;
-}
-
 /** Seconds for messages (12 significant digits). */
 export function fmtS(v: number): string {
   return Number.isFinite(v) ? String(Number(v.toPrecision(12))) : String(v);

@@ -13,9 +13,10 @@
 import { gyrostatDerivative } from '../body/gyrostat';
 import { equalStepCount, makeRk4Work, rk4Step } from '../hybrid/rk4';
 import type { FlowFn } from '../hybrid/types';
+import { allFinite } from '../math/arrays';
 import { makeActuator } from './actuation';
 import type { LoopEnd } from './closedLoop';
-import { allFinite, fmtS, type LoopCore, projectQuaternion } from './loop';
+import { fmtS, type LoopCore, projectQuaternion } from './loop';
 import { measure } from './sensors';
 
 const DUE_TOLERANCE = 1e-9;

@@ -60,8 +60,3 @@ export function civilFromDayNumber(out: CivilDate, n: number): CivilDate {
   out.day = day;
   return out;
 }
-
-/** Day number of January 1st of a year. */
-export function dayNumberOfYearStart(year: number): number {
-  return dayNumber(year, 1, 1);
-}

@@ -50,8 +50,7 @@ const ENTRIES: readonly (readonly [number, number, number])[] = [
   [2017, 1, 37],
 ];
 
-/** The last Bulletin C the table reflects, and the end of its validity (UTC). */
-export const LEAP_TABLE_REFLECTS = 'IERS Bulletin C 70 (July 2025)';
+/** The end of the table's validity (UTC); the table reflects IERS Bulletin C 70 (July 2025). */
 export const LEAP_TABLE_VALID_UNTIL_UTC = '2026-06-28T00:00:00Z';
 /** Day number (days since 2000-01-01) of LEAP_TABLE_VALID_UNTIL_UTC. */
 export const LEAP_TABLE_VALID_UNTIL_DAY = dayNumber(2026, 6, 28);
@@ -73,15 +72,6 @@ export const LEAP_SECONDS: readonly LeapEntry[] = ENTRIES.map(([y, m, v]) => ({
 
 /** Day number of the table's first entry (1972-01-01). */
 export const LEAP_TABLE_FIRST_DAY = LEAP_SECONDS[0]!.day;
-
-/** TAI − UTC (s) in effect during the UTC calendar day `day` (day number); NaN before 1972. */
-export function taiMinusUtcForDay(day: number): number {
-  for (let k = LEAP_SECONDS.length - 1; k >= 0; k--) {
-    const e = LEAP_SECONDS[k]!;
-    if (day >= e.day) return e.taiMinusUtcS;
-  }
-  return NaN;
-}
 
 /**
  * Seconds inserted at the end of UTC day `day` (1 for a positive leap second, −1 for a

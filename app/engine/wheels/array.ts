@@ -49,11 +49,11 @@ export interface WheelArray {
 export const MAX_WHEELS = 24;
 
 /** Axes whose norm is within this relative distance of 1 are normalised (with a warning). */
-export const AXIS_UNIT_TOLERANCE = 1e-6;
+const AXIS_UNIT_TOLERANCE = 1e-6;
 /** Deviation below this is rounding, normalised silently. */
 const AXIS_ROUNDING = 1e-12;
 /** G counts as rank-deficient when σ_min ≤ this × σ_max. */
-export const SPAN_TOLERANCE = 1e-6;
+const SPAN_TOLERANCE = 1e-6;
 /** Below this σ_min/σ_max the array works but allocations are large: warn. */
 const CONDITION_WARNING = 1e-2;
 /** Elements inspected when far too many are given (bounded work on garbage input). */
@@ -215,12 +215,5 @@ export function bodyTorqueFromWheelTorque(out: Float64Array, arr: WheelArray, wh
 export function peakTorqueRatio(arr: WheelArray, wheelTorque: ArrayLike<number>): number {
   let r = 0;
   for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(wheelTorque[i]!) / arr.maxTorqueNm[i]!);
-  return r;
-}
-
-/** Largest |h_i| / h_max,i. */
-export function peakMomentumRatio(arr: WheelArray, hWheel: ArrayLike<number>): number {
-  let r = 0;
-  for (let i = 0; i < arr.n; i++) r = Math.max(r, Math.abs(hWheel[i]!) / arr.maxMomentumNms[i]!);
   return r;
 }

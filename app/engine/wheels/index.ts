@@ -3,7 +3,7 @@
  * limits and zonotope envelopes. See each file's header for the model and its sources.
  */
 export type { WheelSpec, WheelArray } from './array';
-export { MAX_WHEELS, makeWheelArray, applyPinv, applyAxes, bodyTorqueFromWheelTorque, peakTorqueRatio, peakMomentumRatio } from './array';
+export { MAX_WHEELS, makeWheelArray, applyPinv, applyAxes, bodyTorqueFromWheelTorque, peakTorqueRatio } from './array';
 export type { WheelLimits, PyramidOptions } from './presets';
 export { orthogonalTriad, pyramid } from './presets';
 export { allocateMinNorm, allocateMinMax, allocateMinMaxLp } from './allocation';

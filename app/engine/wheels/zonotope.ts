@@ -175,9 +175,24 @@ function isClosedSurface(st: Structure): boolean {
 }
 
 function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: number): Structure {
-  // --- classes of parallel generators ---
+  const b = new StructureBuilder(parallelClasses(gen, n, parTol), n);
+  b.addFacetPairs(planeTol);
+  return { patterns: b.patterns, faces: b.faces, normals: b.normals };
+}
+
+/** Generators merged into classes of parallel (or opposite) directions. */
+interface GeneratorClasses {
+  /** Class of each generator (−1: zero length or beyond MAX_CLASSES). */
+  classOf: Int32Array;
+  /** g_i = classSign · |g_i| · classDir. */
+  classSign: Int8Array;
+  /** 3 per class: its unit direction (the first member's). */
+  dir: number[];
+}
+
+function parallelClasses(gen: Float64Array, n: number, parTol: number): GeneratorClasses {
   const classOf = new Int32Array(n).fill(-1);
-  const classSign = new Int8Array(n); // g_i = classSign · |g_i| · classDir
+  const classSign = new Int8Array(n);
   const dir: number[] = [];
   for (let i = 0; i < n; i++) {
     const x = gen[3 * i]!,
@@ -206,38 +221,111 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     classOf[i] = found;
     classSign[i] = ux * dir[3 * found]! + uy * dir[3 * found + 1]! + uz * dir[3 * found + 2]! >= 0 ? 1 : -1;
   }
-  const m = dir.length / 3;
+  return { classOf, classSign, dir };
+}
 
-  const index = new Map<number, number>();
-  const patterns: Int8Array[] = [];
-  const faces: number[][] = [];
-  const normals: number[] = [];
-  const pattern = new Int8Array(m); // class-level
-  const inPlane: number[] = [];
-  const isIn = new Uint8Array(m);
+/** The facets of one tolerance pair, built plane by plane; vertices merged by their sign pattern. */
+class StructureBuilder {
+  readonly patterns: Int8Array[] = [];
+  readonly faces: number[][] = [];
+  readonly normals: number[] = [];
+  private readonly index = new Map<number, number>();
+  private readonly m: number;
+  /** Class-level sign pattern of the vertex being walked. */
+  private readonly pattern: Int8Array;
+  /** Classes in the current facet's plane, and a flag per class. */
+  private readonly inPlane: number[] = [];
+  private readonly isIn: Uint8Array;
 
-  const vertexOf = (): number => {
+  constructor(
+    private readonly cls: GeneratorClasses,
+    private readonly n: number,
+  ) {
+    this.m = cls.dir.length / 3;
+    this.pattern = new Int8Array(this.m);
+    this.isIn = new Uint8Array(this.m);
+  }
+
+  /** For every plane spanned by two classes, the facet pair ±c (unless every class lies in it). */
+  addFacetPairs(planeTol: number): void {
+    const { dir } = this.cls;
+    const { m, inPlane, isIn } = this;
+    for (let a = 0; a < m; a++) {
+      for (let b = a + 1; b < m; b++) {
+        const cx = dir[3 * a + 1]! * dir[3 * b + 2]! - dir[3 * a + 2]! * dir[3 * b + 1]!;
+        const cy = dir[3 * a + 2]! * dir[3 * b]! - dir[3 * a]! * dir[3 * b + 2]!;
+        const cz = dir[3 * a]! * dir[3 * b + 1]! - dir[3 * a + 1]! * dir[3 * b]!;
+        const cn = Math.hypot(cx, cy, cz);
+        const nx = cx / cn,
+          ny = cy / cn,
+          nz = cz / cn;
+        inPlane.length = 0;
+        isIn.fill(0);
+        for (let e = 0; e < m; e++) {
+          const d = Math.abs(dir[3 * e]! * nx + dir[3 * e + 1]! * ny + dir[3 * e + 2]! * nz);
+          if (e === a || e === b || d <= planeTol) {
+            inPlane.push(e);
+            isIn[e] = 1;
+          }
+        }
+        // One facet pair per plane, produced by the plane's two lowest-numbered classes.
+        if (inPlane[0] !== a || inPlane[1] !== b) continue;
+        if (inPlane.length === m) continue; // everything coplanar: a flat set has no facets
+        this.addFacet(nx, ny, nz);
+        this.addFacet(-nx, -ny, -nz);
+      }
+    }
+  }
+
+  /** The vertex of the current class-level pattern (created on first sight). */
+  private vertexOf(): number {
+    const { classOf, classSign } = this.cls;
+    const { m, n, pattern } = this;
     let key = 0;
     for (let a = 0, w = 1; a < m; a++, w *= 2) if (pattern[a]! > 0) key += w;
-    let idx = index.get(key);
+    let idx = this.index.get(key);
     if (idx === undefined) {
-      idx = patterns.length;
-      index.set(key, idx);
+      idx = this.patterns.length;
+      this.index.set(key, idx);
       const p = new Int8Array(n);
       for (let i = 0; i < n; i++) p[i] = classOf[i]! >= 0 ? pattern[classOf[i]!]! * classSign[i]! : 0;
-      patterns.push(p);
+      this.patterns.push(p);
     }
     return idx;
-  };
+  }
 
-  const addFacet = (nx: number, ny: number, nz: number): void => {
+  /** The facet with outward normal (nx, ny, nz): the zonogon of the in-plane classes, translated by the others' signs. */
+  private addFacet(nx: number, ny: number, nz: number): void {
+    const { dir } = this.cls;
+    const { m, pattern, isIn } = this;
     for (let a = 0; a < m; a++) {
       if (isIn[a]) continue;
       pattern[a] = dir[3 * a]! * nx + dir[3 * a + 1]! * ny + dir[3 * a + 2]! * nz > 0 ? 1 : -1;
     }
+    const order = this.zonogonOrder(nx, ny, nz);
+    // Start with every in-plane class at −, switch them to + one by one, then back to − one by one.
+    const mm = order.length;
+    const face: number[] = [];
+    for (const o of order) pattern[o.a] = -o.flip;
+    face.push(this.vertexOf());
+    for (let s = 0; s < 2 * mm - 1; s++) {
+      const o = order[s % mm]!;
+      pattern[o.a] = s < mm ? o.flip : -o.flip;
+      face.push(this.vertexOf());
+    }
+    this.faces.push(face);
+    this.normals.push(nx, ny, nz);
+  }
+
+  /**
+   * The in-plane classes oriented into angles [0, π) about the normal and sorted, so that the
+   * zonogon walk turns monotonically, counter-clockwise seen from outside.
+   */
+  private zonogonOrder(nx: number, ny: number, nz: number): { a: number; flip: number; ang: number }[] {
+    const { dir } = this.cls;
     // In-plane basis e1 (first in-plane class, projected), e2 = n × e1: (e1, e2, n) right-handed,
     // so increasing angle in (e1, e2) is counter-clockwise seen from outside.
-    const a0 = inPlane[0]!;
+    const a0 = this.inPlane[0]!;
     let e1x = dir[3 * a0]!,
       e1y = dir[3 * a0 + 1]!,
       e1z = dir[3 * a0 + 2]!;
@@ -252,8 +340,7 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
     const e2x = ny * e1z - nz * e1y,
       e2y = nz * e1x - nx * e1z,
       e2z = nx * e1y - ny * e1x;
-    // Orient each in-plane class into angles [0, π) and sort; the zonogon walk then turns monotonically.
-    const order = inPlane.map((a) => {
+    const order = this.inPlane.map((a) => {
       const u = dir[3 * a]! * e1x + dir[3 * a + 1]! * e1y + dir[3 * a + 2]! * e1z;
       const v = dir[3 * a]! * e2x + dir[3 * a + 1]! * e2y + dir[3 * a + 2]! * e2z;
       let ang = Math.atan2(v, u);
@@ -265,44 +352,6 @@ function buildStructure(gen: Float64Array, n: number, parTol: number, planeTol: 
       return { a, flip, ang };
     });
     order.sort((p, q) => p.ang - q.ang);
-    // Start with every in-plane class at −, switch them to + one by one, then back to − one by one.
-    const mm = order.length;
-    const face: number[] = [];
-    for (const o of order) pattern[o.a] = -o.flip;
-    face.push(vertexOf());
-    for (let s = 0; s < 2 * mm - 1; s++) {
-      const o = order[s % mm]!;
-      pattern[o.a] = s < mm ? o.flip : -o.flip;
-      face.push(vertexOf());
-    }
-    faces.push(face);
-    normals.push(nx, ny, nz);
-  };
-
-  for (let a = 0; a < m; a++) {
-    for (let b = a + 1; b < m; b++) {
-      const cx = dir[3 * a + 1]! * dir[3 * b + 2]! - dir[3 * a + 2]! * dir[3 * b + 1]!;
-      const cy = dir[3 * a + 2]! * dir[3 * b]! - dir[3 * a]! * dir[3 * b + 2]!;
-      const cz = dir[3 * a]! * dir[3 * b + 1]! - dir[3 * a + 1]! * dir[3 * b]!;
-      const cn = Math.hypot(cx, cy, cz);
-      const nx = cx / cn,
-        ny = cy / cn,
-        nz = cz / cn;
-      inPlane.length = 0;
-      isIn.fill(0);
-      for (let e = 0; e < m; e++) {
-        const d = Math.abs(dir[3 * e]! * nx + dir[3 * e + 1]! * ny + dir[3 * e + 2]! * nz);
-        if (e === a || e === b || d <= planeTol) {
-          inPlane.push(e);
-          isIn[e] = 1;
-        }
-      }
-      // One facet pair per plane, produced by the plane's two lowest-numbered classes.
-      if (inPlane[0] !== a || inPlane[1] !== b) continue;
-      if (inPlane.length === m) continue; // everything coplanar: a flat set has no facets
-      addFacet(nx, ny, nz);
-      addFacet(-nx, -ny, -nz);
-    }
+    return order;
   }
-  return { patterns, faces, normals };
 }

@@ -15,7 +15,7 @@ type Obj = Record<string, unknown>;
 /** Every law's own file keys (to drop the old law's fields when the law changes). */
 const LAW_KEYS = [...new Set(LAW_IDS.flatMap((l) => LAWS[l].fields.map((f) => f.key)))];
 
-export function CertificateBadge({ id, compared, base }: { id: string; compared: boolean; base: string }) {
+function CertificateBadge({ id, compared, base }: { id: string; compared: boolean; base: string }) {
   const cert: CertificateSummary | undefined = useAppState((s) => s.output?.certificates.find((c) => c.controllerId === id));
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const all = useAllIssues();

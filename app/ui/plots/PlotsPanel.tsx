@@ -13,7 +13,7 @@ const PLOT_HEIGHT = 170;
 
 const join = (tables: Series[][]) => uPlot.join(tables as uPlot.AlignedData[]) as unknown as Series[];
 
-export function fileSlug(s: unknown): string {
+function fileSlug(s: unknown): string {
   const base = typeof s === 'string' && s.trim() ? s : 'slewsmith';
   return (
     base

@@ -7,7 +7,7 @@ import uPlot from 'uplot';
 import { fmt } from '../format';
 import type { PlotSpec } from './series';
 
-export const CURSOR_SYNC_KEY = 'slewsmith-time';
+const CURSOR_SYNC_KEY = 'slewsmith-time';
 
 export interface ChartGroup {
   charts: Set<uPlot>;

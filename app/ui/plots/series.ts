@@ -47,7 +47,7 @@ export interface PlotSpec {
   empty?: string;
 }
 
-export const AXIS_COLORS = ['#c0392b', '#27864a', '#2c5aa0'];
+const AXIS_COLORS = ['#c0392b', '#27864a', '#2c5aa0'];
 export const PALETTE = [
   '#2c5aa0',
   '#c0392b',
@@ -109,7 +109,7 @@ export function alignRuns(
   return join(runs.map((r) => [times(r), pick(r)]));
 }
 
-export function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, join: (t: Series[][]) => Series[]): PlotSpec {
+function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, join: (t: Series[][]) => Series[]): PlotSpec {
   const spec: PlotSpec = {
     id: 'error-angle',
     title: 'Attitude error angle',
@@ -130,7 +130,7 @@ export function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, joi
   return spec;
 }
 
-export function bodyRatePlot(run: ControllerRun): PlotSpec {
+function bodyRatePlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   return {
     id: 'body-rate',
@@ -182,15 +182,15 @@ function wheelPlot(
   return { id, title: `${title} — ${run.label}`, yLabel, series, data };
 }
 
-export function wheelMomentumPlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
+function wheelMomentumPlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
   return wheelPlot(run, run.trace.hWheel, out.vehicle.maxMomentumNms, 'wheel-momentum', 'Wheel momentum', 'h (mN·m·s)', 'h');
 }
 
-export function wheelTorquePlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
+function wheelTorquePlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
   return wheelPlot(run, run.trace.wheelTorque, out.vehicle.maxTorqueNm, 'wheel-torque', 'Wheel torque (delivered)', 'τ (mN·m)', 'τ');
 }
 
-export function logicPlot(run: ControllerRun): PlotSpec {
+function logicPlot(run: ControllerRun): PlotSpec {
   const base: PlotSpec = {
     id: 'logic',
     title: `Logic value — ${run.label}`,
@@ -203,7 +203,7 @@ export function logicPlot(run: ControllerRun): PlotSpec {
   return base;
 }
 
-export function potentialPlot(run: ControllerRun): PlotSpec {
+function potentialPlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   const base: PlotSpec = {
     id: 'potential',
@@ -221,7 +221,7 @@ export function potentialPlot(run: ControllerRun): PlotSpec {
   return base;
 }
 
-export function lyapunovPlot(run: ControllerRun): PlotSpec {
+function lyapunovPlot(run: ControllerRun): PlotSpec {
   return {
     id: 'lyapunov',
     title: `Lyapunov value W — ${run.label}`,
@@ -234,7 +234,7 @@ export function lyapunovPlot(run: ControllerRun): PlotSpec {
 }
 
 /** Hybrid time: the jump counter j against t (a stepped hybrid time domain) with W beside it. */
-export function hybridTimePlot(run: ControllerRun): PlotSpec {
+function hybridTimePlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   const j = new Float64Array(n);
   for (let k = 0; k < n; k++) j[k] = run.trace.j[k]!;

@@ -56,10 +56,3 @@ export function setIn(root: unknown, tokens: readonly PathToken[], value: unknow
   else copy[head as string] = next;
   return copy;
 }
-
-/** True when `prefix` names `path` or one of its ancestors. */
-export function isPrefixPath(prefix: readonly PathToken[], path: readonly PathToken[]): boolean {
-  if (prefix.length > path.length) return false;
-  for (let i = 0; i < prefix.length; i++) if (prefix[i] !== path[i]) return false;
-  return true;
-}

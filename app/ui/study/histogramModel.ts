@@ -136,7 +136,7 @@ export function countTicks(max: number, target = 4): number[] {
 }
 
 /** Edge text in display units. */
-export function edgeText(v: number, q: QuantitySpec): string {
+function edgeText(v: number, q: QuantitySpec): string {
   return fmt(v * q.scale, 3);
 }
 

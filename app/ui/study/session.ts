@@ -124,7 +124,7 @@ export function defaultStudyBlock(scenario: unknown): Obj {
 }
 
 /** File-name stem from a scenario name. */
-export function studySlug(name: unknown): string {
+function studySlug(name: unknown): string {
   const base = typeof name === 'string' && name.trim() ? name : 'slewsmith';
   return (
     base

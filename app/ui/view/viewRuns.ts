@@ -8,7 +8,7 @@ import { envelopeCapacity } from '../../engine/wheels/envelope';
 import { HALF_PI } from '../../engine/units';
 import type { KeepOutCone, ViewRun, ViewTarget } from '../../view3d/types';
 
-export function viewTargets(out: PipelineOutput): ViewTarget[] {
+function viewTargets(out: PipelineOutput): ViewTarget[] {
   return out.plan.segments.map((s, i) => ({
     tStart: s.tStart,
     tEnd: s.tEnd,

@@ -9,6 +9,7 @@
  */
 import type { Issue, Result } from '../../errors';
 import { fail, ok } from '../../errors';
+import { allFinite } from '../../math/arrays';
 import type { Mat3 } from '../../math/mat3';
 import { symmetricEigen3 } from '../../math/mat3';
 import type { PlantModel } from '../types';
@@ -52,7 +53,7 @@ function readGains(spec: ReducedPdSpec, base: string, issues: Issue[]): Mat3 | n
     return K;
   }
   const d = spec.Kd;
-  if (!d || d.length !== 9 || !Array.from(d).every(Number.isFinite)) {
+  if (!d || d.length !== 9 || !allFinite(d)) {
     issues.push({ path: base + 'Kd', rule: 'matrix', message: 'Kd must be a number or 9 finite numbers (column-major 3×3)' });
     return null;
   }
@@ -71,8 +72,7 @@ function readGains(spec: ReducedPdSpec, base: string, issues: Issue[]): Mat3 | n
 }
 
 function axisIssues(axis: ArrayLike<number>, base: string): Issue[] {
-  if (axis && axis.length === 3 && [0, 1, 2].every((i) => Number.isFinite(axis[i])) && Math.hypot(axis[0]!, axis[1]!, axis[2]!) > 0)
-    return [];
+  if (axis && axis.length === 3 && allFinite(axis) && Math.hypot(axis[0]!, axis[1]!, axis[2]!) > 0) return [];
   return [{ path: base + 'axis', rule: 'unit-vector', message: 'the pointed body axis must be three finite numbers, not all zero' }];
 }
 

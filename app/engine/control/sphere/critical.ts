@@ -139,7 +139,7 @@ export interface SamplingOptions {
 }
 
 /** Uniform unit vector on S² (normalised Gaussian). */
-export function randomDirection(out: Float64Array, rng: Rng): Float64Array {
+function randomDirection(out: Float64Array, rng: Rng): Float64Array {
   for (;;) {
     const x = rng.normal(),
       y = rng.normal(),

@@ -20,6 +20,7 @@
  */
 import type { Issue, Result } from '../../errors';
 import { fail, ok } from '../../errors';
+import { allFinite } from '../../math/arrays';
 import { qMultiply, qRotate } from '../../math/rotation';
 import { DEG_PER_RAD } from '../../units';
 import { evenWarpDirections, pointingAngle } from './potential';
@@ -36,7 +37,7 @@ export interface ReducedSlew {
 }
 
 function readUnit(issues: Issue[], path: string, v: ArrayLike<number> | undefined, n: number, unitTol: number | null): Float64Array | null {
-  if (!v || v.length !== n || !Array.from({ length: n }, (_, i) => v[i]!).every(Number.isFinite)) {
+  if (!v || v.length !== n || !allFinite(v)) {
     issues.push({ path, rule: 'finite', message: `${path} must be ${n} finite numbers` });
     return null;
   }
