@@ -14,6 +14,7 @@ import { buildVehicle } from '../../app/engine/pipeline/build';
 import { buildController } from '../../app/engine/control/registry';
 import type { CertificateResult } from '../../app/engine/control/certificate';
 import type { Issue } from '../../app/engine/errors';
+import { fmtBelow } from '../../app/engine/control/certificateCritical';
 import type { ParsedArgs } from './args';
 import { printIssues, type CliContext } from './io';
 
@@ -32,7 +33,7 @@ function print(c: Certified, json: boolean, ctx: CliContext): void {
   }
   io.out(`${c.label} [${c.id}]: ${k.summary}`);
   io.out(
-    `  δ* = ${k.deltaStar.toFixed(6)} (±${k.deltaStarTolerance.toExponential(1)}), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${k.recommendedDelta.toFixed(4)}`,
+    `  δ* = ${fmtBelow(k.deltaStar)}… (rounded down; ±${k.deltaStarTolerance.toExponential(1)}), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${k.recommendedDelta.toFixed(4)}`,
   );
   io.out(`  diffeomorphism margin min(1 + gᵀu) = ${k.diffeomorphismMargin.toFixed(6)}`);
   const rows = k.criticalPoints.filter((cp) => cp.target > 0);

@@ -9,6 +9,7 @@
  * Step 3, completeness: Levenberg–Marquardt on b_q(R) = 0 from many random starts must land only
  * on the points of step 2.
  */
+import { decimalsBelow } from '../math/below';
 import type { Issue } from '../errors';
 import { makeRng } from '../math/prng';
 import { qAngleBetween, qFromRotationVector, qMultiply, qRandomUniform } from '../math/rotation';
@@ -40,6 +41,12 @@ const TARGET_NAMES = ['I', 'R_a(π, v₁)', 'R_a(π, v₂)', 'R_a(π, v₃)'];
 export function fmt(v: number): string {
   if (!Number.isFinite(v)) return String(v);
   return Math.abs(v) >= 1e-3 || v === 0 ? v.toFixed(6) : v.toExponential(3);
+}
+
+/** An upper bound (δ*) printed strictly below its value, so that the printed number is admissible (math/below.ts). */
+export function fmtBelow(v: number): string {
+  if (!(v > 0) || !Number.isFinite(v)) return fmt(v);
+  return decimalsBelow(v, v >= 1e-3 ? 6 : 3 - Math.floor(Math.log10(v)));
 }
 
 /** Quaternion of P_target ⊗ (−sin(θ/2) u, cos(θ/2)); P_0 = identity, P_i = (v_i, 0). */

@@ -4,7 +4,7 @@
  * flow-set gradient check, and the one-sentence summary for the certificate badge.
  */
 import type { Issue } from '../errors';
-import { fmt } from './certificateCritical';
+import { fmt, fmtBelow } from './certificateCritical';
 import type { FlowSetCheck } from './flowset';
 import { flowSetGradientCheck } from './flowset';
 import type { WarpFamily } from './potential';
@@ -52,7 +52,7 @@ export function gapVerdict(
       issues.push({
         path: base + 'gapThreshold',
         rule: 'certificate-gap',
-        message: `the jump threshold δ = ${delta} is not below the certified gap δ* = ${fmt(deltaStar)}: an undesired critical point would lie in the flow set; use δ < ${fmt(deltaStar)} (recommended ${fmt(0.8 * deltaStar)})`,
+        message: `the jump threshold δ = ${delta} is not below the certified gap δ* = ${fmtBelow(deltaStar)}…: an undesired critical point would lie in the flow set; use δ ≤ ${fmtBelow(deltaStar)} (recommended ${fmt(0.8 * deltaStar)})`,
       });
     else {
       admissible = true;
@@ -60,7 +60,7 @@ export function gapVerdict(
         warnings.push({
           path: base + 'gapThreshold',
           rule: 'gap-margin',
-          message: `the jump threshold δ = ${delta} leaves only ${fmt(deltaStar - delta)} to the gap δ* = ${fmt(deltaStar)}; measurement noise could reach it (recommended ${fmt(0.8 * deltaStar)})`,
+          message: `the jump threshold δ = ${delta} leaves only ${fmt(deltaStar - delta)} to the gap δ* = ${fmtBelow(deltaStar)}…; measurement noise could reach it (recommended ${fmt(0.8 * deltaStar)})`,
         });
     }
   }
@@ -102,8 +102,8 @@ export function certificateSummary(verdict: GapVerdict, deltaTol: number, delta:
   const deltaStar = verdict.deltaStar;
   return verdict.certified
     ? verdict.admissible
-      ? `Certified: synergy gap δ* = ${fmt(deltaStar)} (±${deltaTol.toExponential(1)}); δ = ${delta} is admissible with margin ${fmt(deltaStar - delta)} (${Math.round((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
-      : `Family certified with synergy gap δ* = ${fmt(deltaStar)}, but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${fmt(0.8 * deltaStar)}).`
+      ? `Certified: synergy gap δ* = ${fmtBelow(deltaStar)}… (±${deltaTol.toExponential(1)}); δ = ${delta} is admissible with margin ${fmt(deltaStar - delta)} (${Math.round((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
+      : `Family certified with synergy gap δ* = ${fmtBelow(deltaStar)}…, but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${fmt(0.8 * deltaStar)}).`
     : `Refused: ${issues
         .map((i) => i.rule)
         .filter((r, k, a) => a.indexOf(r) === k)
