@@ -167,6 +167,19 @@ describe('JSON export', () => {
     expect(doc.channels.q_w[17]).toBe(tr.q[4 * 17 + 3]);
   });
 
+  it('carries what the metrics were computed with, the monitor flags, the outcome and the verdict when given, and omits them otherwise', () => {
+    const metricInputs = { settleAngleRad: 0.001, plannedSwitchTimesS: new Float64Array([0, 12.5]), liftDependent: true };
+    const monitor = [{ kind: 'flow-rise', tStart: 3, tEnd: 4, amount: 1e-6, message: 'W rose' }];
+    const outcome = { status: 'completed', message: 'ran to the end', t: 10, j: 1 };
+    const verdict = { kind: 'settled', text: 'settled in 8.0 s' };
+    const w = writeJson(tr, s, { ...META, metricInputs, monitor, outcome, verdict });
+    if (!w.ok) throw new Error('write');
+    const d = JSON.parse(w.value);
+    expect(d.metricInputs).toEqual({ settleAngleRad: 0.001, plannedSwitchTimesS: [0, 12.5], liftDependent: true });
+    expect([d.monitor, d.outcome, d.verdict]).toEqual([monitor, outcome, verdict]);
+    for (const k of ['metricInputs', 'monitor', 'outcome', 'verdict']) expect(k in doc).toBe(false);
+  });
+
   it('NaN, functions, bigints, class instances and cycles in opaque inputs are errors with paths', () => {
     const cyc: any = { a: 1 };
     cyc.self = cyc;

@@ -15,7 +15,14 @@ import { makeRng } from '../../app/engine/math/prng';
 import type { JumpEvent } from '../../app/engine/sim/types';
 
 /** A rest-free constant-rate rotation about Z toward a target `angle` away, with a chosen rate profile. */
-function rotationTrace(rate: (t: number) => number, T: number, dt: number, target: Float64Array, torque: (t: number) => number = () => 0) {
+function rotationTrace(
+  rate: (t: number) => number,
+  T: number,
+  dt: number,
+  target: Float64Array,
+  torque: (t: number) => number = () => 0,
+  segmentAt: (t: number) => number = () => 0,
+) {
   const b = new TraceBuilder(2, 8);
   let q: Float64Array = new Float64Array([0, 0, 0, 1]);
   const zero3 = [0, 0, 0];
@@ -25,7 +32,7 @@ function rotationTrace(rate: (t: number) => number, T: number, dt: number, targe
     b.push({
       t,
       j: 0,
-      segment: 0,
+      segment: segmentAt(t),
       q,
       omega: [0, 0, w],
       hWheel: [0.00005 * t, -0.002],
@@ -67,6 +74,26 @@ describe('run metrics', () => {
     expect(m.shortestRotationRad).toBeCloseTo(0.3, 9);
     expect(m.unwound).toBe(true);
     expect(m.finalErrorRad).toBeLessThan(1e-6 + 0.01);
+  });
+
+  it('the segments tile the run: rotation travelled over three segments is still ω·T', () => {
+    // Segment k runs to the next segment's first sample, so no sample interval is left out at a
+    // boundary (constant rate: the trapezoid rule is exact, ∫ω dt = ω·T).
+    const target = qFromAxisAngle(new Float64Array(4), [0, 0, 1], 1);
+    const targets = new Float64Array([...target, ...target, ...target]);
+    const tr = rotationTrace(
+      () => 0.1,
+      59.8,
+      0.1,
+      target,
+      () => 0,
+      (t) => (t < 20 - 1e-9 ? 0 : t < 40 - 1e-9 ? 1 : 2),
+    );
+    const m = computeMetrics(tr, [], opts(targets));
+    expect(m.segments.map((g) => g.segment)).toEqual([0, 1, 2]);
+    expect(m.rotationTravelledRad).toBeCloseTo(5.98, 12);
+    expect(m.segments[0]!.travelledRad).toBeCloseTo(2, 12); // 0 → 20 s, the next segment's first sample
+    expect(m.segments[2]!.travelledRad).toBeCloseTo(1.98, 12); // 40 → 59.8 s
   });
 
   it('short way: no unwinding; settle time is when the error and rate stay inside the thresholds', () => {

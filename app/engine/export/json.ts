@@ -1,6 +1,7 @@
 /**
  * JSON export: the same per-sample table as the CSV (one array per column), plus the scenario
- * file, the resolved targets, segments, jump events, plan, metrics, conventions and the caution.
+ * file, the resolved targets, segments, jump events, plan, metrics (with the settings they were
+ * computed with, the Lyapunov monitor's flags, the run's outcome and verdict), conventions and the caution.
  * Opaque inputs (plan, metrics) are copied through a strict JSON filter: a NaN, Infinity,
  * function, bigint or cycle anywhere is an error naming its path, never a silent `null`.
  */
@@ -143,6 +144,10 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
     jumpEvents: meta.jumpEvents ?? [],
     plan: meta.plan,
     metrics: meta.metrics,
+    metricInputs: meta.metricInputs,
+    monitor: meta.monitor,
+    outcome: meta.outcome,
+    verdict: meta.verdict,
     samples: { count: idx.length, ofTrace: trace.n, sampleRateHz: options.sampleRateHz ?? null },
     channels,
   };

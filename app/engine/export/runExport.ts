@@ -32,6 +32,10 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
     controllerId: run.controllerId,
     jumpEvents: run.jumps,
     metrics: run.metrics,
+    metricInputs: run.metricInputs,
+    monitor: run.monitor,
+    outcome: run.outcome,
+    verdict: run.verdict,
     plan: out.plan,
     wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
   };

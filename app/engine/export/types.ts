@@ -22,6 +22,11 @@ export interface ExportMeta {
   segments?: readonly ExportSegment[];
   jumpEvents?: readonly JumpEvent[];
   metrics?: unknown;
+  /** What the metrics were computed with, the monitor's flags, how the run ended and its verdict (opaque, JSON-able). */
+  metricInputs?: unknown;
+  monitor?: unknown;
+  outcome?: unknown;
+  verdict?: unknown;
   plan?: unknown;
   /** The wheels the run flew: unit axes (3 per wheel, body) and per-wheel limits, SI. */
   wheels?: { axes: ArrayLike<number>; maxTorqueNm: ArrayLike<number>; maxMomentumNms: ArrayLike<number> };

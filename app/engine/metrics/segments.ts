@@ -9,8 +9,10 @@
  *   angle to the segment's target and the body rate stay below the settle thresholds through the
  *   segment's last sample (targets are inertial and at rest: the rate error is |ω|). Null when the
  *   last sample is outside them.
- * - Rotation travelled: Σ ‖ω‖ Δt (trapezoidal) over the segment; shortest: the rotation angle from
- *   the attitude at the segment's start to its target.
+ * - Rotation travelled: Σ ‖ω‖ Δt (trapezoidal) from the segment's first sample to the next
+ *   segment's first sample (the next slew start; the last segment to the run's last sample), so the
+ *   segments tile the run and their sum is ∫‖ω‖ dt over the whole run; shortest: the rotation angle
+ *   from the attitude at the segment's start to its target.
  * - Long way: the error quaternion q_target* ⊗ q is continuous along the run; the segment went the
  *   long way when its scalar part η ends with the opposite sign to the one it started with (the
  *   body turned through the 180° error attitude, 2π − θ₀ instead of θ₀; Bhat & Bernstein,
@@ -88,7 +90,7 @@ function rateNorm(tr: RunTrace, k: number): number {
   return Math.sqrt(x * x + y * y + z * z);
 }
 
-/** Measures of the samples a..b (inclusive) of one segment. */
+/** Measures of the samples a..b (inclusive) of one segment; the travelled rotation runs on to b + 1 when the run does. */
 function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
   const s = tr.segment[a]!;
   const target = loadTarget(o, s);
@@ -102,7 +104,7 @@ function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): 
   const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
   let travelled = 0;
   let wPrev = rateNorm(tr, a);
-  for (let k = a + 1; k <= b; k++) {
+  for (let k = a + 1; k <= Math.min(b + 1, tr.n - 1); k++) {
     const wk = rateNorm(tr, k);
     travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
     wPrev = wk;

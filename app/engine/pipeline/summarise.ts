@@ -4,6 +4,7 @@
  * the vehicle, the certificates and the scenario that views and exports read.
  */
 import { symmetricEigen3 } from '../math/mat3';
+import { CHATTER_FLOOR_FRACTION } from '../metrics/chatter';
 import { computeMetrics, type RunMetrics } from '../metrics/metrics';
 import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
 import { plannedSwitchTimes } from '../plan/reference';
@@ -26,11 +27,14 @@ import type {
   VehicleSummary,
 } from './types';
 import { certificateSummary } from './types';
+import { metricInputsOf } from './metricInputs';
 
 /** Chatter is counted over sliding windows of this length (s); metrics/chatter.ts defines the measure. */
 export const CHATTER_WINDOW_S = 10;
 /** The monitor flags a rise above this fraction of the run's largest W, plus the noise energy (monitor.ts). */
 export const MONITOR_REL_TOL = 1e-3;
+/** …plus this absolute floor (J), so round-off in a constant W is never a rise. */
+export const MONITOR_ABS_TOL = 1e-12;
 
 /** What the metrics and the monitor need of the scenario, the vehicle and the flight. */
 export interface MetricContext {
@@ -42,6 +46,8 @@ export interface MetricContext {
   targets: Float64Array;
   /** Planned switches of the flight's reference (s). */
   plannedSwitchTimes: Float64Array;
+  /** Chatter floor, N·m: CHATTER_FLOOR_FRACTION of the smallest wheel torque limit. */
+  chatterFloorNm: number;
   sensors: SensorModel;
 }
 
@@ -55,6 +61,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     maxMomentumNms: m.maxMomentumNms,
     segmentTargets: m.targets,
     plannedSwitchTimes: m.plannedSwitchTimes,
+    chatterFloorNm: m.chatterFloorNm,
     boundedNoiseEta: m.sensors.adversarialEta,
     liftDependent,
   });
@@ -88,7 +95,7 @@ export function runMonitor(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
   return lyapunovMonitor(res.trace, res.jumps, {
     jumpDecrease: c.controller.jumpDecrease,
     relTol: MONITOR_REL_TOL,
-    absTol: 1e-12,
+    absTol: MONITOR_ABS_TOL,
     noiseEnergy: noiseEnergy(c, m.sensors, m.maxTorqueNm.length),
     plannedSwitchTimes: m.plannedSwitchTimes,
   });
@@ -109,6 +116,7 @@ export function metricContext(
     maxMomentumNms: v.wheels.maxMomentumNms,
     targets,
     plannedSwitchTimes: plannedSwitchTimes(plan.reference, mode === 'step-target'),
+    chatterFloorNm: CHATTER_FLOOR_FRACTION * Math.min(...Array.from(v.wheels.maxTorqueNm)),
     sensors,
   };
 }
@@ -136,6 +144,21 @@ export function summariseRun(
     metrics,
     monitor: withMonitor ? runMonitor(res, c, m) : [],
     gainNote: c.gainNote,
+    metricInputs: metricInputsOf({
+      settleAngleRad: m.settleAngleRad,
+      settleRateRadPerS: m.settleRateRadPerS,
+      chatterWindowS: CHATTER_WINDOW_S,
+      chatterFloorNm: m.chatterFloorNm,
+      plannedSwitchTimes: m.plannedSwitchTimes,
+      boundedNoiseEta: m.sensors.adversarialEta,
+      liftDependent: c.liftDependent,
+      monitor: {
+        relTol: MONITOR_REL_TOL,
+        absTol: MONITOR_ABS_TOL,
+        noiseEnergy: noiseEnergy(c, m.sensors, m.maxTorqueNm.length),
+        jumpDecrease: c.controller.jumpDecrease,
+      },
+    }),
   };
 }
 

@@ -17,6 +17,7 @@ import type { Zonotope } from '../wheels/envelope';
 import type { JumpEvent, RunMode, RunOutcome, RunTrace } from '../sim/types';
 import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
+import type { MetricInputs } from './metricInputs';
 import type { KeepOutCone } from '../scenario/resolve';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
 
@@ -79,6 +80,8 @@ export interface ControllerRun {
   monitor: MonitorFlag[];
   /** Torque the chosen gains imply, for the UI's "what these gains mean" read-out. */
   gainNote: string;
+  /** The settings the metrics and the monitor used (SI), for the JSON export. */
+  metricInputs: MetricInputs;
 }
 
 /** An envelope for views and capacity queries: mesh (vertices 3V, outward triangles 3T) and facet planes. */
