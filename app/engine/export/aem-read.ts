@@ -91,6 +91,27 @@ export function parseAem(text: string): Result<AemDocument> {
   return reader.errors.length ? fail(reader.errors) : ok(reader.doc);
 }
 
+/**
+ * The same checks as parseAem, line by line, for text that is never held whole (the AEM writer's
+ * read-back of a streamed export): data lines are checked but not kept, so memory stays flat.
+ */
+export class AemLineChecker {
+  private readonly reader = new AemReader(false);
+  private count = 0;
+  private stopped = false;
+
+  /** Checks the next line (without its line ending). */
+  line(raw: string): void {
+    if (!this.stopped && !this.reader.line(++this.count, raw)) this.stopped = true;
+  }
+
+  /** Every problem found, after the end-of-file checks (`lines` as parseAem counts them: a final line ending adds one). */
+  end(finalLineEnding = true): Issue[] {
+    if (!this.stopped) this.reader.end(this.count + (finalLineEnding ? 1 : 0));
+    return this.reader.errors;
+  }
+}
+
 /** The reader's state between lines: where it is, the segment being read, and what order and times to hold it to. */
 class AemReader {
   readonly errors: Issue[] = [];
@@ -105,6 +126,12 @@ class AemReader {
   private prevUseableStop: AemEpoch | null = null;
   /** Values per data line of the segment's ATTITUDE_TYPE (null when unknown). */
   private width: number | null = null;
+  /** The segment's last data line and how many it has (kept even when the lines themselves are not). */
+  private prevLine: AemDataLine | null = null;
+  private lineCount = 0;
+
+  /** `keepLines`: store every data line in the document (parseAem); false only checks them. */
+  constructor(private readonly keepLines = true) {}
 
   private err(line: number, rule: string, message: string): void {
     this.errors.push({ path: `line ${line}`, rule, message: `line ${line}: ${message}` });
@@ -219,6 +246,8 @@ class AemReader {
     this.state = 'meta';
     this.seg = { line: ln, metadata: {}, comments: [], dataComments: [], lines: [] };
     this.lastMetaIdx = -1;
+    this.prevLine = null;
+    this.lineCount = 0;
   }
 
   private betweenLine(l: KvnLine): void {
@@ -315,13 +344,13 @@ class AemReader {
   private dataLine(l: KvnLine, seg: AemSegment): void {
     const { ln, s } = l;
     if (l.isComment) {
-      if (seg.lines.length > 0)
+      if (this.lineCount > 0)
         this.err(ln, 'comment-placement', 'comments may not sit between data lines; put them directly after DATA_START');
       else seg.dataComments.push(l.comment);
       return;
     }
     if (s === 'DATA_STOP') {
-      if (seg.lines.length === 0) this.err(ln, 'empty-data', 'a data block needs at least one data line');
+      if (this.lineCount === 0) this.err(ln, 'empty-data', 'a data block needs at least one data line');
       this.doc.segments.push(seg);
       this.seg = null;
       this.state = 'between';
@@ -343,13 +372,16 @@ class AemReader {
       this.err(ln, 'columns', `${values.length} values after the epoch; ATTITUDE_TYPE ${seg.metadata.ATTITUDE_TYPE} has ${this.width}`);
       return;
     }
-    const prev = seg.lines[seg.lines.length - 1];
+    const prev = this.prevLine;
     if (prev && compareEpochs(time, prev.time) <= 0)
       this.err(ln, 'time-order', `epoch ${tok[0]} does not increase from ${prev.epoch} (line ${prev.line})`);
     if ((this.segStart && compareEpochs(time, this.segStart) < 0) || (this.segStop && compareEpochs(time, this.segStop) > 0)) {
       this.err(ln, 'time-range', `epoch ${tok[0]} lies outside START_TIME…STOP_TIME of its segment`);
     }
-    seg.lines.push({ line: ln, epoch: tok[0]!, time, values });
+    const entry = { line: ln, epoch: tok[0]!, time, values };
+    this.prevLine = entry;
+    this.lineCount++;
+    if (this.keepLines) seg.lines.push(entry);
   }
 
   /** The numbers after the epoch, or null when any is not a KVN number (each one reported). */

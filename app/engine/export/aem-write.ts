@@ -26,7 +26,8 @@ import type { ScenarioSummary } from '../pipeline/types';
 import { epochUnits, formatEpochUnits, parseIsoUtcMs } from '../scenario/utc';
 import type { RunTrace } from '../sim/types';
 import { AEM_VERSION, KVN_MAX_LINE } from './aem-keywords';
-import { parseAem } from './aem-read';
+import { AemLineChecker } from './aem-read';
+import { collectChunks, LineChunker, type ChunkedExport, type ChunkSource } from './chunks';
 import { CAUTION_TEXT } from '../caution';
 import { selectSamples } from './columns';
 import { isKvnText, kvnFixed, kvnSignificant, toKvnText } from './kvn';
@@ -84,6 +85,24 @@ function commentText(s: string): string {
   return ascii.slice(0, KVN_MAX_LINE - 'COMMENT '.length);
 }
 
+/** Free text as COMMENT values of whole words, each within the line limit (nothing clipped). */
+function commentPieces(s: string): string[] {
+  const room = KVN_MAX_LINE - 'COMMENT '.length;
+  const words = commentText(s.replace(/\s+/g, ' ').trim())
+    .split(' ')
+    .flatMap((w) => (w.length > room ? (w.match(new RegExp(`.{1,${room}}`, 'g')) ?? []) : [w]));
+  const pieces: string[] = [];
+  let cur = '';
+  for (const w of words) {
+    if (cur && cur.length + 1 + w.length > room) {
+      pieces.push(cur);
+      cur = w;
+    } else cur = cur ? `${cur} ${w}` : w;
+  }
+  if (cur) pieces.push(cur);
+  return pieces;
+}
+
 /** Options resolved to what the writer prints (after their checks). */
 interface AemSettings {
   /** CREATION_DATE, ms since 1970 (NaN when it did not parse: the options are then refused). */
@@ -95,15 +114,24 @@ interface AemSettings {
   text: Record<'originator' | 'objectName' | 'objectId' | 'centerName' | 'refFrameA' | 'refFrameB', string | null>;
 }
 
-/** One META/DATA block pair: its label, its data lines and its first and last epochs (epoch units). */
+/** One META/DATA block pair: its label, how many data lines it has, and its first and last epochs (epoch units). */
 interface AemBlock {
-  label: string;
-  lines: string[];
+  seg: ExportSegment;
+  count: number;
   first: number;
   last: number;
 }
 
+/** The whole AEM as one string (tests, the app's download); the CLI streams aemChunks instead. */
 export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: AemOptions): Result<string> {
+  return collectChunks(aemChunks(trace, scenario, meta, options));
+}
+
+/**
+ * Checks every input and the segments' data (a segment without a line is refused before any
+ * text), then the AEM text chunk by chunk (chunks.ts), each line also read back as it is written.
+ */
+export function aemChunks(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: AemOptions): ChunkedExport {
   const errors: Issue[] = checkExportInputs(trace, scenario, meta);
   const o = options ?? ({} as AemOptions);
   const settings = aemSettings(o, scenario, errors);
@@ -114,14 +142,12 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   const segs = exportSegments(trace, scenario, meta.segments);
   if (!segs.ok) return segs;
   const idx = sel.value;
-  const blocks = dataBlocks(trace, segs.value, idx, hemisphereSigns(trace, idx), scenario.epochUnixMs, settings);
+  const blocks = dataBlocks(trace, segs.value, idx, scenario.epochUnixMs, settings);
   if (!blocks.ok) return blocks;
-
-  const out: string[] = [];
-  headerLines(out, o, settings, scenario, meta);
-  blocks.value.forEach((blk, b) => segmentLines(out, blk, b, blocks.value.length, o, settings));
-  const eol = o.lineEnding ?? '\n';
-  return readBack(out.join(eol) + eol);
+  const head: string[] = [];
+  headerLines(head, o, settings, scenario, meta);
+  const data: AemData = { trace, idx, sign: hemisphereSigns(trace, idx), epochMs: scenario.epochUnixMs, st: settings };
+  return ok(aemText(head, blocks.value, data, o));
 }
 
 /** Every problem with the options, appended to `errors`; the values the writer uses. */
@@ -227,40 +253,71 @@ function hemisphereSigns(trace: RunTrace, idx: ArrayLike<number>): Float64Array 
   return sign;
 }
 
-/** The data lines of each segment, strictly increasing in printed epoch; a segment with none is an error. */
+/** What the data lines are made from: the trace, the selected samples, their hemisphere signs, the epoch and the settings. */
+interface AemData {
+  trace: RunTrace;
+  idx: ArrayLike<number>;
+  sign: Float64Array;
+  epochMs: number;
+  st: AemSettings;
+}
+
+/**
+ * The samples of one segment that become data lines, strictly increasing in printed epoch: each
+ * next() moves to the next one (its sample index in `k`, its epoch in epoch units in `units`).
+ * One definition for both passes (counting the lines for the metadata, then writing them), so the
+ * two cannot disagree.
+ */
+class SegmentSamples {
+  k = -1;
+  units = 0;
+  private m = 0;
+  private lastUnits = -Infinity;
+  private readonly slack: number;
+
+  constructor(
+    private readonly d: Pick<AemData, 'trace' | 'idx' | 'epochMs' | 'st'>,
+    private readonly seg: ExportSegment,
+  ) {
+    this.slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
+  }
+
+  next(): boolean {
+    const { trace, idx, epochMs, st } = this.d;
+    while (this.m < idx.length) {
+      const k = idx[this.m++]!;
+      const t = trace.t[k]!;
+      if (t < this.seg.startS - this.slack || t > this.seg.stopS + this.slack) continue;
+      const u = epochUnits(epochMs, t, st.fracDigits);
+      if (u <= this.lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
+      this.lastUnits = u;
+      this.k = k;
+      this.units = u;
+      return true;
+    }
+    return false;
+  }
+}
+
+/** Each segment's line count and first and last epochs; a segment with no line is an error. */
 function dataBlocks(
   trace: RunTrace,
   segments: readonly ExportSegment[],
   idx: ArrayLike<number>,
-  sign: Float64Array,
   epochMs: number,
   st: AemSettings,
 ): Result<AemBlock[]> {
-  const aq = new Float64Array(4);
   const blocks: AemBlock[] = [];
   const segErrors: Issue[] = [];
   for (let b = 0; b < segments.length; b++) {
     const seg = segments[b]!;
-    const slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
-    const lines: string[] = [];
-    let lastUnits = -Infinity,
-      firstUnits = NaN;
-    for (let m = 0; m < idx.length; m++) {
-      const k = idx[m]!;
-      const t = trace.t[k]!;
-      if (t < seg.startS - slack || t > seg.stopS + slack) continue;
-      const u = epochUnits(epochMs, t, st.fracDigits);
-      if (u <= lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
-      if (Number.isNaN(firstUnits)) firstUnits = u;
-      lastUnits = u;
-      aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
-      const s = sign[k]!;
-      const parts = [formatEpochUnits(u, st.fracDigits)];
-      for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, st.qDec));
-      for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, st.rateSig));
-      lines.push(parts.join(' '));
+    const blk: AemBlock = { seg, count: 0, first: NaN, last: NaN };
+    const it = new SegmentSamples({ trace, idx, epochMs, st }, seg);
+    while (it.next()) {
+      if (blk.count++ === 0) blk.first = it.units;
+      blk.last = it.units;
     }
-    if (lines.length === 0) {
+    if (blk.count === 0) {
       segErrors.push({
         path: `segments[${b}]`,
         rule: 'empty-segment',
@@ -268,9 +325,48 @@ function dataBlocks(
       });
       continue;
     }
-    blocks.push({ label: seg.label, lines, first: firstUnits, last: lastUnits });
+    blocks.push(blk);
   }
   return segErrors.length ? fail(segErrors) : ok(blocks);
+}
+
+/** One data line: epoch, quaternion (one hemisphere) and angular velocity in deg/s. */
+function dataLine(d: AemData, k: number, u: number, aq: Float64Array): string {
+  const { trace, st } = d;
+  aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
+  const s = d.sign[k]!;
+  const parts = [formatEpochUnits(u, st.fracDigits)];
+  for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, st.qDec));
+  for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, st.rateSig));
+  return parts.join(' ');
+}
+
+/**
+ * The text: header, then each segment's metadata and data lines, in chunks; every line is also
+ * fed to the reader's checks (AemLineChecker), and a problem it finds — the writer's, reported as
+ * internal — is the source's return value, so the caller discards what was written.
+ */
+function* aemText(head: readonly string[], blocks: readonly AemBlock[], d: AemData, o: AemOptions): ChunkSource {
+  const out = new LineChunker(o.lineEnding ?? '\n');
+  const check = new AemLineChecker();
+  const put = (line: string): string | null => {
+    check.line(line);
+    return out.add(line);
+  };
+  let chunk: string | null;
+  for (const h of head) if ((chunk = put(h)) !== null) yield chunk;
+  const aq = new Float64Array(4);
+  for (let b = 0; b < blocks.length; b++) {
+    const meta: string[] = [];
+    segmentMeta(meta, blocks[b]!, b, blocks.length, o, d.st);
+    for (const l of meta) if ((chunk = put(l)) !== null) yield chunk;
+    const it = new SegmentSamples(d, blocks[b]!.seg);
+    while (it.next()) if ((chunk = put(dataLine(d, it.k, it.units, aq))) !== null) yield chunk;
+    if ((chunk = put('DATA_STOP')) !== null) yield chunk;
+  }
+  const rest = out.flush();
+  if (rest !== null) yield rest;
+  return readBackIssues(check.end());
 }
 
 /** Header lines: version, the caution and what wrote the file, creation date, originator, message id. */
@@ -281,6 +377,7 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   kv('CCSDS_AEM_VERS', AEM_VERSION);
   out.push(`COMMENT ${commentText(CAUTION_TEXT)}`);
+  if (meta.incomplete) for (const piece of commentPieces(meta.incomplete)) out.push(`COMMENT ${piece}`);
   out.push(
     `COMMENT ${commentText(`Written by ${meta.toolName} ${meta.toolVersion}: scenario "${scenario.name}", controller "${meta.controllerLabel}"`)}`,
   );
@@ -292,13 +389,13 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
   kv('MESSAGE_ID', messageId);
 }
 
-/** Segment b of count: its metadata block and its data block. */
-function segmentLines(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
+/** Segment b of count: its metadata block and the start of its data block (the data lines and DATA_STOP follow). */
+function segmentMeta(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
   const text = st.text;
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   out.push('');
   out.push('META_START');
-  out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.label}`)}`);
+  out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.seg.label}`)}`);
   kv('OBJECT_NAME', st.objectName);
   kv('OBJECT_ID', text.objectId as string);
   if (text.centerName !== null) kv('CENTER_NAME', text.centerName);
@@ -320,21 +417,13 @@ function segmentLines(out: string[], blk: AemBlock, b: number, count: number, o:
   out.push('META_STOP');
   out.push('');
   out.push('DATA_START');
-  out.push(...blk.lines);
-  out.push('DATA_STOP');
 }
 
-/** The written text, parsed back with parseAem: any problem is the writer's, reported as internal. */
-function readBack(textOut: string): Result<string> {
-  const check = parseAem(textOut);
-  if (!check.ok) {
-    return fail(
-      check.errors.map((e) => ({
-        path: `aem.${e.path}`,
-        rule: 'internal',
-        message: `the written AEM failed its own read-back check: ${e.message}`,
-      })),
-    );
-  }
-  return ok(textOut);
+/** The read-back check's problems as the writer's own (rule "internal"). */
+function readBackIssues(errors: readonly Issue[]): Issue[] {
+  return errors.map((e) => ({
+    path: `aem.${e.path}`,
+    rule: 'internal',
+    message: `the written AEM failed its own read-back check: ${e.message}`,
+  }));
 }

@@ -1,14 +1,17 @@
 /**
- * CSV export: `#` comment header (tool, conventions, frames, units, caution), one header row of
- * column names with units, one row per (optionally decimated) sample. Comma-separated, `.` as the
- * decimal mark, numbers in shortest round-trip form.
+ * CSV export: `#` comment header (tool, conventions, frames, units, caution, and a line saying so
+ * when the run was cut short or failed), one header row of column names with units, one row per
+ * (optionally decimated) sample. Comma-separated, `.` as the decimal mark, numbers in shortest
+ * round-trip form. Streamed (chunks.ts): csvChunks hands the text out chunk by chunk; writeCsv
+ * collects it into one string.
  */
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
+import { collectChunks, LineChunker, type ChunkedExport, type ChunkSource } from './chunks';
 import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
-import { formatNumber, selectSamples, traceColumns } from './columns';
+import { formatNumber, selectSamples, traceColumns, type Column } from './columns';
 import { checkExportInputs, oneLine } from './prepare';
 import type { ExportMeta } from './types';
 
@@ -31,7 +34,13 @@ export function wheelLimitsText(w: NonNullable<ExportMeta['wheels']>): string {
   return parts.join('; ');
 }
 
+/** The whole CSV as one string (tests, the app's download); the CLI streams csvChunks instead. */
 export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: CsvOptions = {}): Result<string> {
+  return collectChunks(csvChunks(trace, scenario, meta, options));
+}
+
+/** Checks every input, then the CSV text chunk by chunk (chunks.ts). */
+export function csvChunks(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: CsvOptions = {}): ChunkedExport {
   const errors = checkExportInputs(trace, scenario, meta);
   if (options.lineEnding !== undefined && options.lineEnding !== '\n' && options.lineEnding !== '\r\n') {
     errors.push({ path: 'options.lineEnding', rule: 'one-of', message: 'options.lineEnding must be "\\n" or "\\r\\n"' });
@@ -47,6 +56,7 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   const head = [
     `${oneLine(meta.toolName)} ${oneLine(meta.toolVersion)} - run export (CSV)`,
     `CAUTION: ${CAUTION_TEXT}`,
+    ...(meta.incomplete ? [oneLine(meta.incomplete)] : []),
     `scenario: ${oneLine(scenario.name)}; vehicle: ${oneLine(scenario.vehicleName)}; controller: ${ctl}`,
     `epoch (t = 0): ${scenario.epochUtc} (UTC)`,
     `time: ${TIME_CONVENTION}`,
@@ -60,13 +70,24 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
       : `samples: ${trace.n}`,
     `columns: ${cols.map((c) => `${c.name} = ${c.description}${c.unit && c.unit !== 'count' ? ` [${c.unit}]` : ''}`).join('; ')}`,
   ];
-  const lines: string[] = head.map((h) => `# ${h}`);
-  lines.push(cols.map((c) => c.name).join(','));
+  return ok(csvRows(trace, idx, cols, [...head.map((h) => `# ${h}`), cols.map((c) => c.name).join(',')], eol));
+}
+
+/** The header lines, then one row per selected sample, in chunks. */
+function* csvRows(trace: RunTrace, idx: Int32Array, cols: readonly Column[], headLines: string[], eol: string): ChunkSource {
+  const out = new LineChunker(eol);
+  for (const h of headLines) {
+    const c = out.add(h);
+    if (c !== null) yield c;
+  }
   const row: string[] = new Array(cols.length);
   for (let m = 0; m < idx.length; m++) {
     const k = idx[m]!;
     for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c]!.get(trace, k));
-    lines.push(row.join(','));
+    const chunk = out.add(row.join(','));
+    if (chunk !== null) yield chunk;
   }
-  return ok(lines.join(eol) + eol);
+  const rest = out.flush();
+  if (rest !== null) yield rest;
+  return [];
 }

@@ -1,12 +1,21 @@
 /**
  * JSON export: the same per-sample table as the CSV (one array per column), plus the scenario
  * file, the resolved targets, segments, jump events, plan, metrics (with the settings they were
- * computed with, the Lyapunov monitor's flags, the run's outcome and verdict), conventions and the caution.
+ * computed with, the Lyapunov monitor's flags, the run's outcome and verdict), conventions and the caution
+ * (and, for a run that was cut short or failed, an `incomplete` sentence right after it).
  * Opaque inputs (plan, metrics) are copied through a strict JSON filter: a NaN, Infinity,
  * function, bigint or cycle anywhere is an error naming its path, never a silent `null`.
+ *
+ * Streamed (chunks.ts): everything but the per-sample table is one JSON.stringify; the table
+ * (`channels`, the document's last member) follows column by column in chunks, formatted exactly
+ * as JSON.stringify would format it with the same indentation (ECMA-262 §25.5.2.4 SerializeJSONArray
+ * and SerializeJSONObject: members separated by "," plus, when indenting, a line break and the
+ * indentation of their depth; numbers as Number::toString).
  */
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
+import { collectChunks, LineChunker, type ChunkedExport, type ChunkSource } from './chunks';
+import type { Column } from './columns';
 import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
@@ -78,7 +87,13 @@ export function toJsonSafe(v: unknown, path: string, errors: Issue[], seen: Set<
   return out;
 }
 
+/** The whole JSON document as one string (tests, the app's download); the CLI streams jsonChunks instead. */
 export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: JsonOptions = {}): Result<string> {
+  return collectChunks(jsonChunks(trace, scenario, meta, options));
+}
+
+/** Checks every input, then the JSON text chunk by chunk (chunks.ts). */
+export function jsonChunks(trace: RunTrace, scenario: ScenarioSummary, meta: ExportMeta, options: JsonOptions = {}): ChunkedExport {
   const errors = checkExportInputs(trace, scenario, meta);
   const indent = options.indent ?? 0;
   if (!Number.isInteger(indent) || indent < 0 || indent > 8) {
@@ -96,22 +111,14 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
 
   const idx = sel.value;
   const cols = traceColumns(trace.nWheels);
-  const channels: Record<string, number[]> = {};
   const units: Record<string, string> = {};
-  for (const c of cols) {
-    const a = new Array<number>(idx.length);
-    for (let m = 0; m < idx.length; m++) {
-      const x = c.get(trace, idx[m]!);
-      a[m] = x === 0 ? 0 : x;
-    }
-    channels[c.name] = a;
-    units[c.name] = c.unit;
-  }
+  for (const c of cols) units[c.name] = c.unit;
 
   const doc = {
     format: RUN_FORMAT,
     version: RUN_FORMAT_VERSION,
     caution: CAUTION_TEXT,
+    incomplete: meta.incomplete,
     tool: { name: meta.toolName, version: meta.toolVersion },
     conventions: {
       quaternion: QUATERNION_CONVENTION,
@@ -149,10 +156,50 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
     outcome: meta.outcome,
     verdict: meta.verdict,
     samples: { count: idx.length, ofTrace: trace.n, sampleRateHz: options.sampleRateHz ?? null },
-    channels,
   };
   const jsonErrors: Issue[] = [];
   const safe = toJsonSafe(doc, 'export', jsonErrors);
   if (jsonErrors.length) return fail(jsonErrors);
-  return ok(JSON.stringify(safe, null, indent || undefined) + '\n');
+  return ok(jsonDocument(JSON.stringify(safe, null, indent || undefined), trace, idx, cols, indent));
+}
+
+/**
+ * The document: `head` (every member but the table, as JSON.stringify wrote it) reopened, then
+ * the member "channels" — one array per column — and the closing braces, with JSON.stringify's
+ * layout for `indent` spaces (0: compact). Values are checked finite as they are written (the
+ * trace check already holds them to that; a column computed from finite values could still
+ * overflow): a non-finite one stops the document with a problem naming it.
+ */
+function* jsonDocument(head: string, trace: RunTrace, idx: Int32Array, cols: readonly Column[], indent: number): ChunkSource {
+  const pad = (depth: number) => (indent ? '\n' + ' '.repeat(indent * depth) : '');
+  const colon = indent ? ': ' : ':';
+  // `head` ends with its closing brace (preceded by a line break when indenting): reopen it.
+  const out = new LineChunker('');
+  let chunk = out.add(`${head.slice(0, indent ? -2 : -1)},${pad(1)}"channels"${colon}{`);
+  if (chunk !== null) yield chunk;
+  for (let c = 0; c < cols.length; c++) {
+    const col = cols[c]!;
+    chunk = out.add(`${c ? ',' : ''}${pad(2)}${JSON.stringify(col.name)}${colon}[`);
+    if (chunk !== null) yield chunk;
+    for (let m = 0; m < idx.length; m++) {
+      const x = col.get(trace, idx[m]!);
+      if (!Number.isFinite(x))
+        return [
+          {
+            path: `export.channels.${col.name}[${m}]`,
+            rule: 'finite',
+            message: `export.channels.${col.name}[${m}] is ${String(x)}; JSON exports carry finite numbers only`,
+          },
+        ];
+      chunk = out.add(`${m ? ',' : ''}${pad(3)}${x === 0 ? 0 : x}`);
+      if (chunk !== null) yield chunk;
+    }
+    chunk = out.add(`${pad(2)}]`);
+    if (chunk !== null) yield chunk;
+  }
+  chunk = out.add(`${pad(1)}}${pad(0)}}\n`);
+  if (chunk !== null) yield chunk;
+  const rest = out.flush();
+  if (rest !== null) yield rest;
+  return [];
 }

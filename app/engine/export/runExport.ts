@@ -5,9 +5,11 @@
  */
 import type { Result } from '../errors';
 import type { ControllerRun, PipelineOutput } from '../pipeline/types';
-import { writeCsv } from './csv';
-import { writeJson } from './json';
-import { writeAem } from './aem-write';
+import { runEndNote } from '../pipeline/outcome';
+import { collectChunks, type ChunkedExport } from './chunks';
+import { csvChunks } from './csv';
+import { jsonChunks } from './json';
+import { aemChunks } from './aem-write';
 import type { ExportMeta } from './types';
 
 export const EXPORT_FORMATS = ['csv', 'json', 'aem'] as const;
@@ -24,7 +26,13 @@ export interface RunExportOptions {
   messageId?: string;
 }
 
+/** The whole export as one string (the app's download, tests); the CLI streams exportRunChunks. */
 export function exportRun(format: ExportFormat, run: ControllerRun, out: PipelineOutput, o: RunExportOptions): Result<string> {
+  return collectChunks(exportRunChunks(format, run, out, o));
+}
+
+/** The export as a chunk source (chunks.ts): checked first, then the text piece by piece. */
+export function exportRunChunks(format: ExportFormat, run: ControllerRun, out: PipelineOutput, o: RunExportOptions): ChunkedExport {
   const meta: ExportMeta = {
     toolName: o.toolName,
     toolVersion: o.toolVersion,
@@ -37,10 +45,11 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
     outcome: run.outcome,
     verdict: run.verdict,
     plan: out.plan,
+    incomplete: runEndNote(run),
     wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
   };
-  if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
-  if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
+  if (format === 'csv') return csvChunks(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
+  if (format === 'json') return jsonChunks(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   const created = o.creationDateUtc ?? new Date().toISOString().replace(/\.\d{3}Z$/, 'Z');
-  return writeAem(run.trace, out.scenario, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz, messageId: o.messageId });
+  return aemChunks(run.trace, out.scenario, meta, { creationDateUtc: created, sampleRateHz: o.sampleRateHz, messageId: o.messageId });
 }

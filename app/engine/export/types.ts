@@ -28,6 +28,11 @@ export interface ExportMeta {
   outcome?: unknown;
   verdict?: unknown;
   plan?: unknown;
+  /**
+   * Set when the run did not reach its planned end or failed (pipeline/outcome.ts runEndNote): one
+   * sentence, starting "RUN TRUNCATED" or "RUN FAILED", that every writer puts in its header.
+   */
+  incomplete?: string;
   /** The wheels the run flew: unit axes (3 per wheel, body) and per-wheel limits, SI. */
   wheels?: { axes: ArrayLike<number>; maxTorqueNm: ArrayLike<number>; maxMomentumNms: ArrayLike<number> };
 }

@@ -31,6 +31,8 @@ export interface Flight {
   /** End the flight once it has been settled this long (studies); absent: fly to tEnd. */
   earlyStop?: { settledForS: number; angleRad: number; rateRadPerS: number };
   shouldStop?: () => boolean;
+  /** RK4 steps after which the run stops as truncated (budget.ts runStepCap); absent: the loop's default. */
+  maxSteps?: number;
 }
 
 /** Stage 5: fly. */
@@ -55,7 +57,13 @@ export function fly(f: Flight): ClosedLoopResult {
     frictionFeedforward: f.vehicle.frictionFeedforward,
     stopRule: f.earlyStop ? new SettleWatch(f.earlyStop.angleRad, f.earlyStop.rateRadPerS, f.earlyStop.settledForS) : undefined,
     shouldStop: f.shouldStop,
+    ...(f.maxSteps !== undefined ? { maxSteps: f.maxSteps } : {}),
   });
+}
+
+/** When the scenario's flights end, s: simulation.durationS, else the plan's end (at least 1 s) plus the tail. */
+export function flightEndS(s: ResolvedScenario, plan: SequencePlan): number {
+  return s.simulation.durationS ?? Math.max(plan.totalS, 1) + s.simulation.tailS;
 }
 
 /** The scenario's reference for a mode: the planned profile, or each target at once. */
@@ -79,7 +87,7 @@ export function scenarioFlight(
     mode,
     reference: referenceFor(mode, plan, targets, s.initial.qInertialFromBody),
     initial: { q: s.initial.qInertialFromBody, omega: s.initial.omegaBody, hWheel: s.initial.hWheelNms },
-    tEnd: s.simulation.durationS ?? Math.max(plan.totalS, 1) + s.simulation.tailS,
+    tEnd: flightEndS(s, plan),
     timing: s.simulation.timing,
     controlRateHz: s.vehicle.controlRateHz,
     rk4StepsPerSample: s.simulation.rk4StepsPerSample,

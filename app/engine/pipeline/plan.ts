@@ -11,6 +11,7 @@ import { applyAxes } from '../wheels/array';
 import { envelopeCapacity } from '../wheels/envelope';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
 import type { PlanSummary, Vehicle } from './types';
+import { planNumberIssues } from './planCheck';
 
 /** What the planner may use of the vehicle's envelopes. */
 export function planLimits(s: ResolvedScenario, v: Vehicle): PlanLimits {
@@ -36,7 +37,10 @@ export function planManeuver(s: ResolvedScenario, v: Vehicle): Result<SequencePl
     },
     planLimits(s, v),
   );
-  if (plan.ok) return plan;
+  if (plan.ok) {
+    const bad = planNumberIssues(plan.value, s);
+    return bad.length ? fail(bad, plan.warnings) : plan;
+  }
   const errors: Issue[] = plan.errors.map((e) => ({
     ...e,
     path: e.path.startsWith('targets') || e.path.startsWith('qStart') ? e.path : `planning.${e.path}`,

@@ -20,6 +20,7 @@ import { planManeuver, planSummary } from './plan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
+import { budgetIssues, DEFAULT_BUDGET, estimateBudget, runStepCap, type RunBudget } from './budget';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -29,6 +30,8 @@ export interface PipelineOptions {
   /** Called after each run: (done, total, label). */
   onProgress?: (done: number, total: number, label: string) => void;
   shouldStop?: () => boolean;
+  /** Resource limits of the pass (budget.ts); default DEFAULT_BUDGET. */
+  budget?: Partial<RunBudget>;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -75,12 +78,14 @@ export interface FlyOptions {
   shouldStop?: () => boolean;
   /** Run the Lyapunov monitor (default true; studies skip it for speed). */
   monitor?: boolean;
+  /** RK4 steps after which the run stops as truncated (budget.ts runStepCap). */
+  maxSteps?: number;
 }
 
 /** Stages 5 and 6 for one controller in one mode. */
 export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, o: FlyOptions = {}): ControllerRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
-  const res = fly(flight);
+  const res = fly(o.maxSteps !== undefined ? { ...flight, maxSteps: o.maxSteps } : flight);
   return summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
 }
 
@@ -92,12 +97,17 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
   const p = prep.value;
   const s = p.scenario;
   const modes: RunMode[] = opts.modes ? [...opts.modes] : s.simulation.modes;
+  // The budget before any flight: a pass that would not fit is refused at once, naming its drivers.
+  const estimate = estimateBudget(s, p.plan, p.controllers.length, modes);
+  const overBudget = budgetIssues(estimate, s, p.plan, { ...DEFAULT_BUDGET, ...opts.budget });
+  if (overBudget.length) return fail(overBudget, p.warnings);
+  const maxSteps = runStepCap(estimate);
   const runs: ControllerRun[] = [];
   const total = p.controllers.length * modes.length;
   for (const c of p.controllers) {
     for (const mode of modes) {
       if (opts.shouldStop?.()) break;
-      runs.push(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop }));
+      runs.push(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps }));
       opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
     }
   }

@@ -75,6 +75,12 @@ export interface ClosedLoopConfig {
   stopRule?: StopRule;
   /** Cap on logic jumps at one instant before the run is declared Zeno-like. */
   maxJumpsPerInstant?: number;
+  /**
+   * Cap on RK4 steps of the run (the pipeline's resource budget, pipeline/budget.ts, sets it a
+   * little above its own estimate): a run that reaches it stops with status 'max-steps' and a
+   * trace that ends there. Absent: 1e7.
+   */
+  maxSteps?: number;
   /** Cancellation hook polled at samples. */
   shouldStop?: () => boolean;
 }
@@ -109,12 +115,17 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   // Last state: record it if the run did not end exactly on a sample, against the reference at
   // that time (not the last sample's), so the final error is the error at the end.
   const tr = core.builder.trace;
-  if (tr.n === 0 || end.t > tr.t[tr.n - 1]! + 1e-9) {
+  if (core.fault === null && (tr.n === 0 || end.t > tr.t[tr.n - 1]! + 1e-9)) {
     core.unpack(end.x);
     core.segment = core.ref.at(end.t, core.qRef, core.wRef, core.wdRef);
     core.record(end.t);
   }
-  const outcome: RunOutcome = { status: end.status, message: end.message, t: end.t, j: core.logicJumps };
+  const outcome: RunOutcome = { status: end.status, message: end.message, t: end.t, j: core.logicJumps, plannedEndS: cfg.tEnd };
+  if (core.fault !== null && end.status === 'completed') {
+    // Only the final record can find a fault after the solver has finished.
+    outcome.status = 'non-finite';
+    outcome.message = core.fault;
+  }
   if (core.stopRequested && end.status === 'cancelled' && !cfg.shouldStop?.()) {
     outcome.status = 'completed';
     outcome.message = `the stop rule ended the run at t = ${end.t.toFixed(1)} s (settled long enough)`;

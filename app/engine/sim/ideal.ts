@@ -103,6 +103,7 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
     project: projectQuaternion,
     stop: () => core.stopRequested,
   };
+  const faulted = (): LoopEnd | null => (core.fault !== null ? { status: 'non-finite', message: core.fault, t: 0, x: x0 } : null);
 
   // Initial logic and the first output at t = 0.
   core.unpack(x0);
@@ -114,12 +115,15 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
   core.actuate(dtStep, core.wTrue, core.hTrue);
   core.record(0);
   sampleIndex = 1;
+  const atStart = faulted();
+  if (atStart) return atStart;
 
   const res = simulateHybrid(sys, x0, {
     tEnd: cfg.tEnd,
     integrator: { kind: 'rk4', dt: dtStep },
     maxJumpsPerInstant: core.maxPerInstant + 2,
     record: 'none',
+    ...(cfg.maxSteps !== undefined ? { maxSteps: cfg.maxSteps } : {}),
   });
   if (!res.ok) {
     // Options are built here from validated inputs; a refusal is a programming error worth a clear stop.
@@ -127,5 +131,7 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
     return { status: 'non-finite', message: `simulator refused the run: ${msg}`, t: 0, x: x0 };
   }
   const o = res.value.outcome;
+  // A non-finite recorded value stopped the simulator through `stop`: say so, not "cancelled".
+  if (core.fault !== null) return { status: 'non-finite', message: core.fault, t: o.t, x: res.value.finalState };
   return { status: o.status === 'blocked' ? 'non-finite' : o.status, message: o.message, t: o.t, x: res.value.finalState };
 }

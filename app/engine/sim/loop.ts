@@ -28,8 +28,12 @@ import {
   type PackedSample,
 } from './trace';
 import type { JumpEvent } from './types';
+import { firstNonFinite } from './finite';
 
-/** Samples a trace starts with; it grows by doubling, so a long run is never allocated up front. */
+/**
+ * Samples a trace starts with; it grows by doubling, never past the run's expected sample count
+ * while below it, so a long run is neither allocated up front nor left with unused capacity.
+ */
 const INITIAL_TRACE_CAPACITY = 4096;
 
 export class LoopCore {
@@ -75,6 +79,11 @@ export class LoopCore {
   logicJumps = 0;
   segment = -1;
   stopRequested = false;
+  /**
+   * Why the run must stop because a value became non-finite (the sample holding it is not
+   * recorded: the trace ends at the last finite sample); null while every value is finite.
+   */
+  fault: string | null = null;
 
   constructor(readonly cfg: ClosedLoopConfig) {
     const N = cfg.wheels.n;
@@ -104,7 +113,7 @@ export class LoopCore {
       omegaDotRef: this.wdRef,
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
-    this.builder = new TraceBuilder(N, Math.min(samples, INITIAL_TRACE_CAPACITY));
+    this.builder = new TraceBuilder(N, Math.min(samples, INITIAL_TRACE_CAPACITY), samples);
     this.rec = {
       j: 0,
       segment: 0,
@@ -203,8 +212,13 @@ export class LoopCore {
     for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]! - this.friction[i]!;
   }
 
-  /** Append the current (true) state as a trace sample at t, and ask the stop rule and the caller whether to stop. */
+  /**
+   * Append the current (true) state as a trace sample at t, and ask the stop rule and the caller
+   * whether to stop. A sample holding a non-finite value (the controller's torque request, the
+   * wheel commands, the state, a diagnostic) is not appended: it sets `fault`, which ends the run.
+   */
   record(t: number): void {
+    if (this.fault !== null) return;
     const diag = this.diag;
     // Diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (control/types.ts).
     this.ctrl.diagnostics(diag, this.trueInput, this.logic);
@@ -221,6 +235,12 @@ export class LoopCore {
     x[PACKED_POTENTIAL_MIN] = diag.potentialMin;
     x[PACKED_GAP] = diag.gap;
     x[PACKED_LYAPUNOV] = diag.lyapunov;
+    const bad = firstNonFinite(rec);
+    if (bad !== null) {
+      this.fault = `${bad} at t = ${fmtS(t)} s; the run stops there and its trace ends at the last finite sample`;
+      this.stopRequested = true;
+      return;
+    }
     this.builder.pushPacked(rec);
     const rule = this.stopRule;
     if (rule) {

@@ -8,7 +8,9 @@
  *
  * Step policy (as hybrid/rk4.ts): between two stops the loop takes m = ⌈span/dt⌉ equal steps,
  * dt = Ts / rk4StepsPerSample, and renormalises the quaternion after each step. A run that reaches
- * a non-finite state stops at the last finite one and says where.
+ * a non-finite state, or records a non-finite value (a torque request, a wheel command, a
+ * diagnostic: loop.ts record), stops at the last finite one and says where; a run that would pass
+ * its step cap (cfg.maxSteps) stops there as 'max-steps'.
  */
 import { gyrostatDerivative } from '../body/gyrostat';
 import { equalStepCount, makeRk4Work, rk4Step } from '../hybrid/rk4';
@@ -20,6 +22,8 @@ import { fmtS, type LoopCore, projectQuaternion } from './loop';
 import { measure } from './sensors';
 
 const DUE_TOLERANCE = 1e-9;
+/** Step cap when the caller sets none (the same default as the general hybrid simulator). */
+const DEFAULT_MAX_STEPS = 1e7;
 
 export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   const cfg = core.cfg;
@@ -55,9 +59,16 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   const work = makeRk4Work(x.length);
   const dt = Ts / Math.max(1, Math.round(cfg.rk4StepsPerSample));
   const tEnd = cfg.tEnd;
+  const maxSteps = cfg.maxSteps ?? DEFAULT_MAX_STEPS;
+  let steps = 0;
   let t = 0;
+  const stopped = (): LoopEnd =>
+    core.fault !== null
+      ? { status: 'non-finite', message: core.fault, t, x }
+      : { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
   sample(0, x);
   let tSched = nextStop(t);
+  if (core.stopRequested) return stopped();
   for (;;) {
     // 1. What is due at this instant: a sample, or a pulse end.
     while (t < tEnd && tSched <= t) {
@@ -65,7 +76,7 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
       if (Math.abs(t - due) <= DUE_TOLERANCE * Math.max(1, Math.abs(due))) sample(due, x);
       else actuator.edge(t, core.wheelNow);
       tSched = nextStop(t);
-      if (core.stopRequested) return { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
+      if (core.stopRequested) return stopped();
     }
     if (t >= tEnd) return { status: 'completed', message: `reached the end time ${fmtS(tEnd)} s`, t, x };
     // 2. Flow to the next stop in equal RK4 steps.
@@ -74,6 +85,14 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
     const span = tStop - t0;
     const m = equalStepCount(span, dt);
     const h = span / m;
+    if (steps + m > maxSteps)
+      return {
+        status: 'max-steps',
+        message: `the run used its ${maxSteps} RK4 steps by t = ${fmtS(t)} s of ${fmtS(tEnd)} s; the trace ends there`,
+        t,
+        x,
+      };
+    steps += m;
     for (let i = 0; i < m; i++) {
       const ti = t0 + i * h;
       flow(ti, x, work.k1);
@@ -91,6 +110,6 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
       t = i === m - 1 ? tStop : t0 + (i + 1) * h;
       projectQuaternion(x);
     }
-    if (core.stopRequested) return { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
+    if (core.stopRequested) return stopped();
   }
 }

@@ -1,6 +1,7 @@
 /**
- * A growable RunTrace: the closed loop appends one sample at a time; arrays double when full and
- * are trimmed once at the end, so appending costs no allocation in the steady state.
+ * A growable RunTrace: the closed loop appends one sample at a time; arrays double when full (but
+ * stop at the expected sample count while below it, so a run of known length keeps no unused
+ * capacity) and are trimmed once at the end, so appending costs no allocation in the steady state.
  */
 import type { RunTrace } from './types';
 
@@ -124,13 +125,26 @@ export class TraceBuilder {
   private cap: number;
   readonly trace: RunTrace;
 
-  constructor(nWheels: number, initialCapacity = 1024) {
+  /**
+   * `expected`: the number of samples the run is expected to record (0: unknown). Growth doubles
+   * the capacity but does not pass `expected` while below it; past it, it doubles again.
+   */
+  constructor(
+    nWheels: number,
+    initialCapacity = 1024,
+    private readonly expected = 0,
+  ) {
     this.cap = Math.max(16, initialCapacity);
     this.trace = allocateTrace(nWheels, this.cap);
   }
 
+  /** Samples the arrays can hold before they grow. */
+  get capacity(): number {
+    return this.cap;
+  }
+
   private grow(): void {
-    const c = this.cap * 2;
+    const c = this.cap < this.expected ? Math.min(this.cap * 2, this.expected) : this.cap * 2;
     const tr = this.trace;
     const nj = new Int32Array(c);
     nj.set(tr.j);

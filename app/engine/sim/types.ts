@@ -35,6 +35,8 @@ export interface RunOutcome {
   /** Hybrid time where the run ended. */
   t: number;
   j: number;
+  /** The end time the run was asked to reach, s (t < plannedEndS when it stopped early). */
+  plannedEndS?: number;
 }
 
 export interface RunTrace {
