@@ -7,6 +7,8 @@ type Bench = { file: string; fn: string; title: string };
 
 const benches: Bench[] = [
   { file: './engine.ts', fn: 'benchEngine', title: 'Engine: 600 s gyrostat run, 10 Hz zero-order hold' },
+  { file: './loop.ts', fn: 'benchLoop', title: 'Closed loop against a bare RK4 loop of the same dynamics (issue 12 ratios)' },
+  { file: './memory.ts', fn: 'benchMemory', title: 'Day-long runs: peak memory and trace bytes per sample' },
   { file: './control.ts', fn: 'benchControl', title: 'Synergistic flow-set check over uniform attitudes' },
   { file: './wheels.ts', fn: 'benchWheels', title: 'Wheel allocation, limiting, envelopes' },
   { file: './plan.ts', fn: 'benchPlan', title: 'Slew planner' },
@@ -14,6 +16,7 @@ const benches: Bench[] = [
   { file: './pipeline.ts', fn: 'benchPipeline', title: 'Scenario pipeline (plan + closed-loop runs)' },
   { file: './view3d.ts', fn: 'benchView3d', title: '3D view: scene update per new time' },
   { file: './study.ts', fn: 'benchStudy', title: 'Robustness study in worker threads' },
+  { file: './cliStudy.ts', fn: 'benchCliStudy', title: '10,000 dispersed slews from the CLI, two workers' },
   { file: './orbit.ts', fn: 'benchOrbit', title: 'Orbit: one day of ephemeris, windows, per-sample evaluation' },
   { file: './campaign.ts', fn: 'benchCampaign', title: 'Campaign statistics: add, and merge 1,000 shard files' },
   { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
