@@ -134,6 +134,19 @@ export function pairwiseMerge(a: PairwiseMoments, b: PairwiseMoments): Result<Pa
   return ok({ blocks: coalesce(all) });
 }
 
+/** Is case `index` covered? */
+export function pairwiseHas(p: PairwiseMoments, index: number): boolean {
+  let lo = 0,
+    hi = p.blocks.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (first(p.blocks[mid]!) <= index) lo = mid + 1;
+    else hi = mid;
+  }
+  const b = p.blocks[lo - 1];
+  return b !== undefined && index < end(b);
+}
+
 /** Number of cases covered (with or without a value). */
 export function pairwiseCovered(p: PairwiseMoments): number {
   return p.blocks.reduce((s, b) => s + 2 ** b.level, 0);

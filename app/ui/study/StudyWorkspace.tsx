@@ -6,6 +6,7 @@
  */
 import { useEffect, useMemo } from 'react';
 import type { ControllerSummary, StudySummary } from '../../engine/study';
+import type { ShareReport } from '../../engine/math/stats';
 import { useAppState } from '../context';
 import { fmt, pct } from '../format';
 import { IssueText } from '../components/fields';
@@ -165,6 +166,17 @@ function StudyBar() {
   );
 }
 
+/** A share with its 95 % interval: "1.2% · 0.6–2.4%" (Wilson score), "0.0% · ≤3.0%" at zero events (rule of three). */
+export function shareText(r: ShareReport): string {
+  if (r.of === 0) return '—';
+  const range = r.ruleOfThreeHigh !== null ? `≤${pct(r.ruleOfThreeHigh)}` : `${pct(r.low)}–${pct(r.high)}`;
+  return `${pct(r.share)} · ${range}`;
+}
+
+const shareTitle = (r: ShareReport) =>
+  `${r.count} of ${r.of}; 95 % Wilson score interval ${pct(r.low)}–${pct(r.high)}` +
+  (r.ruleOfThreeHigh !== null ? `; no event in ${r.of} runs: the rate is below ${pct(r.ruleOfThreeHigh)} at 95 % (rule of three)` : '');
+
 const settleText = (v: number | null, c: ControllerSummary, s: StudySummary) =>
   v === null ? (c.settled > 0 ? `>${s.durationS}` : '—') : fmt(v, 3);
 
@@ -205,20 +217,32 @@ function SharesTable({ summary }: { summary: StudySummary }) {
               <span className="swatch" style={{ background: PALETTE[i % PALETTE.length] }} /> {c.label}
             </td>
             <td className="num">{c.flyable}</td>
-            <td className={`num ${c.notSettledShare > 0 ? 'bad' : ''}`} data-testid={`share-unsettled-${c.controllerId}`}>
-              {pct(c.notSettledShare)}
+            <td
+              className={`num ${c.shares.notSettled.count > 0 ? 'bad' : ''}`}
+              data-testid={`share-unsettled-${c.controllerId}`}
+              title={shareTitle(c.shares.notSettled)}
+            >
+              {shareText(c.shares.notSettled)}
             </td>
-            <td className={`num ${c.unwoundShare > 0 ? 'bad' : ''}`} data-testid={`share-unwound-${c.controllerId}`}>
-              {pct(c.unwoundShare)}
+            <td
+              className={`num ${c.shares.unwound.count > 0 ? 'bad' : ''}`}
+              data-testid={`share-unwound-${c.controllerId}`}
+              title={shareTitle(c.shares.unwound)}
+            >
+              {shareText(c.shares.unwound)}
             </td>
-            <td className="num">{pct(c.longWayShare)}</td>
-            <td className="num">{pct(c.chatteredShare)}</td>
+            <td className="num" title={shareTitle(c.shares.longWay)}>
+              {shareText(c.shares.longWay)}
+            </td>
+            <td className="num" title={shareTitle(c.shares.chattered)}>
+              {shareText(c.shares.chattered)}
+            </td>
             <td className="num">
-              {settleText(c.settleTimeS.median, c, summary)} / {settleText(c.settleTimeS.p95, c, summary)}
+              {settleText(c.spreads.settleTimeS.median, c, summary)} / {settleText(c.spreads.settleTimeS.p95, c, summary)}
             </td>
-            <td className="num">{fmt(c.finalErrorDeg.p95, 3)}</td>
-            <td className="num">{pct(c.peakWheelMomentumFraction.p95)}</td>
-            <td className="num">{pct(c.peakWheelTorqueFraction.p95)}</td>
+            <td className="num">{fmt(c.spreads.finalErrorDeg.p95, 3)}</td>
+            <td className="num">{pct(c.spreads.peakWheelMomentumFraction.p95)}</td>
+            <td className="num">{pct(c.spreads.peakWheelTorqueFraction.p95)}</td>
           </tr>
         ))}
       </tbody>

@@ -436,7 +436,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       return;
     }
     const slug = studySlug(s.info.scenarioName);
-    const content = kind === 'cases' ? casesCsv(s.info, s.records, s.summary) : summaryJson(s.info, s.summary, s.records);
+    const content = kind === 'cases' ? casesCsv(s.info, s.records, s.summary) : summaryJson(s.info, s.summary, s.map);
     const suggestedName = kind === 'cases' ? `${slug}-study-cases.csv` : `${slug}-study-summary.json`;
     const r = await app.bridge.exportFile({ suggestedName, content });
     if (r.status === 'exported') app.notify(`Exported ${r.file.name}`);
