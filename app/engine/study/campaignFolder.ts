@@ -94,3 +94,62 @@ export function campaignSubmitScript(): string {
     '',
   ].join('\n');
 }
+
+/** Shards for a campaign saved from the app: about 5,000 cases each, at most 1,000. */
+export function suggestedShards(runs: number): number {
+  return Math.max(1, Math.min(1000, runs, Math.ceil(runs / 5000)));
+}
+
+const sbatchHead = (name: string, d: CampaignDescription, log: string) => [
+  '#!/bin/bash',
+  `#SBATCH --job-name=${name}`,
+  '#SBATCH --ntasks=1',
+  `#SBATCH --cpus-per-task=${d.cpusPerTask}`,
+  `#SBATCH --mem=${d.memoryMB}M`,
+  `#SBATCH --time=${String(Math.floor(d.timeLimitMin / 60)).padStart(2, '0')}:${String(d.timeLimitMin % 60).padStart(2, '0')}:00`,
+  `#SBATCH --output=logs/${log}.out`,
+  `#SBATCH --error=logs/${log}.err`,
+];
+
+/**
+ * The campaign folder as one bash script (what the app saves: a browser page cannot make a
+ * folder). `bash <file> [FOLDER]` writes the folder of the layout above; its Slurm scripts start
+ * the program as $SLEWSMITH (default `slewsmith`), from the folder (submit.sh submits from there).
+ */
+export function campaignBundleScript(d: CampaignDescription, scenarioJson: unknown, slug: string): string {
+  const k = d.shards;
+  const name = `slewsmith-${slug}`.replace(/[^A-Za-z0-9._-]/g, '-').slice(0, 64);
+  const shards = [
+    ...sbatchHead(name, d, 'shard-%a.%A'),
+    `#SBATCH --array=0-${k - 1}`,
+    '# One array task per shard: SLURM_ARRAY_TASK_ID is the shard index. Edit the resources above to suit the site.',
+    'set -euo pipefail',
+    `exec \${SLEWSMITH:-slewsmith} study ${CAMPAIGN_SCENARIO} --shard "\${SLURM_ARRAY_TASK_ID}/${k}" --out ${CAMPAIGN_SHARDS} --workers ${d.cpusPerTask}`,
+    '',
+  ].join('\n');
+  const merge = [
+    ...sbatchHead(`${name}-merge`, { ...d, cpusPerTask: 1 }, 'merge.%j'),
+    '# Submitted by submit.sh with --dependency=afterok on the shard array.',
+    'set -euo pipefail',
+    `exec \${SLEWSMITH:-slewsmith} study merge ${CAMPAIGN_SHARDS} --out .`,
+    '',
+  ].join('\n');
+  const file = (path: string, text: string, tag: string) => [`cat > ${path} <<'${tag}'`, text.replace(/\n$/, ''), tag];
+  return [
+    '#!/bin/bash',
+    `# Slewsmith campaign for "${d.scenarioName.replace(/[\r\n]/g, ' ')}": ${d.runs} cases in ${k} shards.`,
+    `# Usage: bash ${slug}-campaign.sh [FOLDER]   writes the campaign folder (default ./${slug}-campaign); then read FOLDER/README.txt.`,
+    'set -euo pipefail',
+    `DIR="\${1:-${slug}-campaign}"`,
+    'mkdir -p "$DIR/slurm" "$DIR/logs" "$DIR/shards"',
+    'cd "$DIR"',
+    ...file(CAMPAIGN_SCENARIO, JSON.stringify(scenarioJson, null, 2), 'SLEWSMITH_SCENARIO_END'),
+    ...file('README.txt', campaignReadme(d), 'SLEWSMITH_README_END'),
+    ...file('slurm/shards.sbatch', shards, 'SLEWSMITH_SHARDS_END'),
+    ...file('slurm/merge.sbatch', merge, 'SLEWSMITH_MERGE_END'),
+    ...file('slurm/submit.sh', campaignSubmitScript(), 'SLEWSMITH_SUBMIT_END'),
+    'chmod +x slurm/*.sbatch slurm/submit.sh',
+    'echo "campaign folder: $PWD (submit on Slurm: bash slurm/submit.sh; other schedulers: README.txt)"',
+    '',
+  ].join('\n');
+}
