@@ -18,7 +18,7 @@ import { numberOptions, STUDY_LIMITS } from './options';
 import { prepareOutputFolder } from './output';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { StudyOverrides } from '../../app/engine/study/context';
-import { startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
+import { createStudyWorker, startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
 import type { StudyProgress } from '../../app/engine/study/runner';
 import type { ControllerSummary, StudyInfo, StudySummary } from '../../app/engine/study/summary';
 import { summaryJson } from '../../app/engine/study/export';
@@ -54,6 +54,23 @@ export function threadPort(): { port: StudyWorkerPort; worker: Worker } {
     },
   };
   return { port, worker };
+}
+
+/** The worker half on this thread: each message handled in its own macrotask (setImmediate). */
+export function mainThreadPort(): { port: StudyWorkerPort; worker: null } {
+  let onMsg: ((m: FromWorker) => void) | null = null;
+  const handle = createStudyWorker((m) => onMsg?.(m));
+  return {
+    worker: null,
+    port: {
+      post: (m) => {
+        if (m.type !== 'close') setImmediate(() => handle(m));
+      },
+      listen: (m) => {
+        onMsg = m;
+      },
+    },
+  };
 }
 
 const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
@@ -193,7 +210,10 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
 
   // Never more workers than cases (the file's runs are known only after validation: cap later).
   const nWorkers = Math.max(1, Math.min(workersAsked ?? cores, runs ?? Infinity));
-  const threads = Array.from({ length: nWorkers }, () => threadPort());
+  // One worker: run the cases on this thread (the engine is loaded here already; a worker thread
+  // would load it again, the largest part of a shard's start-up), yielding between chunks so that
+  // progress and Ctrl-C are still handled.
+  const threads = nWorkers === 1 ? [mainThreadPort()] : Array.from({ length: nWorkers }, () => threadPort());
   const cancelFlag = new SharedArrayBuffer(4);
   let lastPrint = 0;
   const study = startStudyParallel(
@@ -245,7 +265,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
     r = await study.result;
   } finally {
     process.removeListener('SIGINT', onSigint);
-    await Promise.all(threads.map((t) => t.worker.terminate()));
+    await Promise.all(threads.map((t) => t.worker?.terminate()));
   }
   if (!r.ok) {
     await (out.shard ?? out.table)?.abort();
