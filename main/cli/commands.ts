@@ -13,6 +13,7 @@ export { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 export { runCertify } from './certify';
 export { runCompare, runFly } from './fly';
 export { runStudyCli } from './study';
+export { runStudyMerge, runStudySlurm } from './study-campaign';
 
 export async function runCheck(file: string, json: unknown, { io }: CliContext): Promise<number> {
   const p = preparePipeline(json);

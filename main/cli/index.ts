@@ -6,7 +6,7 @@
  *   slewsmith fly     <scenario>            simulate controllers and write the exports
  *   slewsmith compare <scenario>            the metrics table of every controller
  *   slewsmith certify <scenario>            the synergy-gap certificate of synergistic controllers
- *   slewsmith study   <scenario>            seeded Monte Carlo robustness study
+ *   slewsmith study   <scenario>            seeded Monte Carlo robustness study (also: study merge, study slurm)
  *   slewsmith schema                        the scenario format as JSON Schema
  *
  * Exit codes: 0 success; 2 invalid input or options (every problem named, field by field, on
@@ -143,7 +143,10 @@ const commands: Record<string, Command> = {
   },
   study: {
     summary: 'seeded Monte Carlo robustness study (the scenario\'s "study" block) in worker threads',
-    usage: 'slewsmith study <scenario.json> [--runs N] [--workers K] [--seed S] [--controller id,...] [--out DIR] [--json] [--case INDEX]',
+    usage:
+      'slewsmith study <scenario.json> [--runs N] [--workers K] [--seed S] [--controller id,...] [--out DIR] [--json] [--case INDEX] [--shard i/K]\n' +
+      '       slewsmith study merge <dir|shard file>... [--out DIR]\n' +
+      '       slewsmith study slurm <scenario.json> --shards K --out DIR [--cpus-per-task N] [--mem-mb M] [--time-min T] [--partition P] [--account A] [--submit]',
     options: [
       HELP,
       CONTROLLER,
@@ -158,10 +161,33 @@ const commands: Record<string, Command> = {
         valueName: 'index',
         help: 'write that case as a normal scenario file (into --out, else to stdout) instead of running the study',
       },
+      {
+        name: 'shard',
+        kind: 'value',
+        valueName: 'i/K',
+        help: 'run only shard i of K and write its shard file into --out (merge with "study merge")',
+      },
+      { name: 'shards', kind: 'value', valueName: 'K', help: 'study slurm: array tasks (shards)' },
+      { name: 'cpus-per-task', kind: 'value', valueName: 'N', help: 'study slurm: CPUs per array task (default 1)' },
+      { name: 'mem-mb', kind: 'value', valueName: 'M', help: 'study slurm: memory per array task, MiB (default 1024)' },
+      { name: 'time-min', kind: 'value', valueName: 'T', help: 'study slurm: time limit per array task, minutes (default 60)' },
+      { name: 'partition', kind: 'value', valueName: 'P', help: 'study slurm: Slurm partition' },
+      { name: 'account', kind: 'value', valueName: 'A', help: 'study slurm: Slurm account' },
+      { name: 'submit', kind: 'flag', help: 'study slurm: submit the array and the merge job with sbatch and print their ids' },
+    ],
+    notes: [
+      'study merge: combine shard files into cases.csv and summary.json, the same bytes as one process running the whole study.',
+      'study slurm: write a campaign folder (scenario, job-array and merge scripts, README.txt); --submit calls sbatch.',
     ],
     async run(a, { io }) {
+      const sub = a.positional[0];
+      if (sub === 'merge') return (await work()).runStudyMerge(a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
+      if (sub === 'slurm') {
+        const doc = await readScenario(a.positional[1], io);
+        return doc === null ? 2 : (await work()).runStudySlurm(doc.json, a, io);
+      }
       const doc = await readScenario(a.positional[0], io);
-      return doc === null ? 2 : (await work()).runStudyCli(doc.json, a, io);
+      return doc === null ? 2 : (await work()).runStudyCli(doc.json, a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
     },
   },
   schema: {

@@ -71,7 +71,7 @@ export const EXPORT_RATE_RULE: NumberRule = {
 };
 
 export const STUDY_LIMITS = {
-  runs: { integer: true, min: 1, max: 1_000_000 },
+  runs: { integer: true, min: 1, max: 10_000_000 },
   workers: { integer: true, min: 1, max: 64 },
   seed: { integer: true, min: 0, max: 4294967295 },
   case: { integer: true, min: 0, max: 0x0fffffff },

@@ -169,17 +169,21 @@ export function arrayJobScript(s: CampaignSlurmSpec): Result<string> {
   return ok(lines.join('\n'));
 }
 
-/** (ii) The merge job, run after every task of array job `arrayJobId` has succeeded. */
-export function mergeJobScript(s: CampaignSlurmSpec, arrayJobId: string): Result<string> {
+/**
+ * (ii) The merge job, run after every task of array job `arrayJobId` has succeeded. With
+ * `arrayJobId` null the script has no dependency line: it is submitted with
+ * `sbatch --dependency=afterok:<id> --kill-on-invalid-dep=yes` (campaign folders' submit.sh).
+ */
+export function mergeJobScript(s: CampaignSlurmSpec, arrayJobId: string | null): Result<string> {
   const issues = checkSpec(s);
-  if (!/^\d+$/.test(arrayJobId))
+  if (arrayJobId !== null && !/^\d+$/.test(arrayJobId))
     issues.push({ path: 'arrayJobId', rule: 'job-id', message: `the array job id must be a number (got "${arrayJobId}")` });
   if (issues.length) return fail(issues);
   const lines = header(s, `${s.jobName}-merge`, s.merge, 'merge.%j');
-  lines.splice(2, 0, `#SBATCH --dependency=afterok:${arrayJobId}`, '#SBATCH --kill-on-invalid-dep=yes');
+  if (arrayJobId !== null) lines.splice(2, 0, `#SBATCH --dependency=afterok:${arrayJobId}`, '#SBATCH --kill-on-invalid-dep=yes');
   lines.push(
     '',
-    `# Slewsmith campaign "${s.jobName}": merge the ${s.shards} shard results once array job ${arrayJobId} has succeeded`,
+    `# Slewsmith campaign "${s.jobName}": merge the ${s.shards} shard results once ${arrayJobId !== null ? `array job ${arrayJobId}` : 'the shard array job'} has succeeded`,
     '# (a failed shard cancels this job).',
     'set -euo pipefail',
     `exec ${s.merge.command.map((a) => quoteArg(a, s.shards)).join(' ')}`,

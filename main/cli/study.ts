@@ -18,10 +18,15 @@ import { numberOptions, STUDY_LIMITS } from './options';
 import { prepareOutputFolder } from './output';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { StudyOverrides } from '../../app/engine/study/context';
-import { startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
+import { createStudyWorker, startStudyParallel, type FromWorker, type StudyWorkerPort } from '../../app/engine/study/parallel';
 import type { StudyProgress } from '../../app/engine/study/runner';
 import type { ControllerSummary, StudyInfo, StudySummary } from '../../app/engine/study/summary';
-import { casesCsv, summaryJson } from '../../app/engine/study/export';
+import { summaryJson } from '../../app/engine/study/export';
+import type { ShareReport } from '../../app/engine/math/stats';
+import type { StudyAccumulator } from '../../app/engine/study/accumulate';
+import { shardRange, shardSpecIssues } from '../../app/engine/study/shard';
+import { fail, ok } from '../../app/engine/errors';
+import { ShardStream, StudyTableStream, shardFileName } from './campaign';
 import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
 import { studyCaseScenario } from '../../app/engine/study/caseScenario';
 import { DEG_PER_RAD } from '../../app/engine/units';
@@ -51,24 +56,47 @@ export function threadPort(): { port: StudyWorkerPort; worker: Worker } {
   return { port, worker };
 }
 
+/** The worker half on this thread: each message handled in its own macrotask (setImmediate). */
+export function mainThreadPort(): { port: StudyWorkerPort; worker: null } {
+  let onMsg: ((m: FromWorker) => void) | null = null;
+  const handle = createStudyWorker((m) => onMsg?.(m));
+  return {
+    worker: null,
+    port: {
+      post: (m) => {
+        if (m.type !== 'close') setImmediate(() => handle(m));
+      },
+      listen: (m) => {
+        onMsg = m;
+      },
+    },
+  };
+}
+
 const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
 const sec = (x: number | null, durationS: number) => (x === null ? `>${durationS}` : x.toFixed(1));
 const frac = (x: number | null) => (x === null ? '-' : pct(x));
+/** A share and its 95 % interval: "1.2% [0.6–2.4]" (Wilson score); at zero events "0.0% [≤3.0]" (rule of three). */
+export function shareCell(r: ShareReport): string {
+  if (r.of === 0) return '-';
+  const p = (x: number) => (100 * x).toFixed(1);
+  return r.ruleOfThreeHigh !== null ? `${pct(r.share)} [≤${p(r.ruleOfThreeHigh)}]` : `${pct(r.share)} [${p(r.low)}–${p(r.high)}]`;
+}
 
 function studyTable(s: StudySummary): string {
   const rows = s.controllers.map((c: ControllerSummary) => [
     `${c.label} [${c.controllerId}]`,
     String(c.flyable),
-    pct(c.settledShare),
-    pct(c.unwoundShare),
-    pct(c.longWayShare),
-    pct(c.chatteredShare),
-    sec(c.settleTimeS.median, s.durationS),
-    sec(c.settleTimeS.p95, s.durationS),
-    c.jumps.median === null ? '-' : String(c.jumps.median),
-    c.chatterPerS.median === null ? '-' : c.chatterPerS.median.toFixed(2),
-    frac(c.peakWheelMomentumFraction.p95),
-    frac(c.peakWheelTorqueFraction.p95),
+    shareCell(c.shares.settled),
+    shareCell(c.shares.unwound),
+    shareCell(c.shares.longWay),
+    shareCell(c.shares.chattered),
+    sec(c.spreads.settleTimeS.median, s.durationS),
+    sec(c.spreads.settleTimeS.p95, s.durationS),
+    c.spreads.jumps.median === null ? '-' : String(c.spreads.jumps.median),
+    c.spreads.chatterPerS.median === null ? '-' : c.spreads.chatterPerS.median.toFixed(2),
+    frac(c.spreads.peakWheelMomentumFraction.p95),
+    frac(c.spreads.peakWheelTorqueFraction.p95),
     c.worst.map((w) => String(w.index)).join(' '),
   ]);
   return table(
@@ -130,7 +158,18 @@ function progressLine(p: StudyProgress): string {
   return `study: ${p.done}/${p.total} cases (${((100 * p.done) / Math.max(1, p.total)).toFixed(0)}%), ${p.notSettled} run${p.notSettled === 1 ? '' : 's'} not settled, ${p.unflyable} unflyable, ${(p.elapsedMs / 1000).toFixed(1)} s${left}`;
 }
 
-export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Promise<number> {
+/** `--shard i/K`: the two whole numbers, or a message. */
+export function parseShardSpec(text: string): { index: number; count: number } | string {
+  const m = /^(\d{1,9})\/(\d{1,9})$/.exec(text.trim());
+  if (!m) return `--shard must be i/K, shard i (0 to K−1) of K (got "${text}")`;
+  const index = Number(m[1]),
+    count = Number(m[2]);
+  if (count < 1) return `--shard ${text}: K must be at least 1`;
+  if (index >= count) return `--shard ${text}: the shard index must be below the shard count (0 to ${count - 1})`;
+  return { index, count };
+}
+
+export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool = 'Slewsmith'): Promise<number> {
   const n = numberOptions(a.values, STUDY_LIMITS);
   if (!n.ok) {
     for (const b of n.messages) io.err(`error: ${b}`);
@@ -152,10 +191,29 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     }
   }
   if (n.values.case !== undefined) return writeCase(json, overrides, n.values.case, outDir, io);
+  const shardText = a.values.shard;
+  const shard = shardText === undefined ? null : parseShardSpec(shardText);
+  if (typeof shard === 'string') {
+    io.err(`error: ${shard}`);
+    return 2;
+  }
+  if (shard && outDir === undefined) {
+    io.err('error: --shard needs --out DIR (the folder the shard file is written to)');
+    return 2;
+  }
+  if (shard && a.flags.has('json')) {
+    io.err('error: --shard writes a shard file, not a summary: leave out --json (merge the shards for the summary)');
+    return 2;
+  }
+  // The table (or the shard file) is written while the study runs, case by case.
+  const out: { table: StudyTableStream | null; shard: ShardStream | null } = { table: null, shard: null };
 
   // Never more workers than cases (the file's runs are known only after validation: cap later).
   const nWorkers = Math.max(1, Math.min(workersAsked ?? cores, runs ?? Infinity));
-  const threads = Array.from({ length: nWorkers }, () => threadPort());
+  // One worker: run the cases on this thread (the engine is loaded here already; a worker thread
+  // would load it again, the largest part of a shard's start-up), yielding between chunks so that
+  // progress and Ctrl-C are still handled.
+  const threads = nWorkers === 1 ? [mainThreadPort()] : Array.from({ length: nWorkers }, () => threadPort());
   const cancelFlag = new SharedArrayBuffer(4);
   let lastPrint = 0;
   const study = startStudyParallel(
@@ -164,10 +222,26 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     {
       overrides,
       cancelFlag,
+      keepRecords: false,
+      cases: (i) => {
+        if (!shard) return ok({ first: 0, end: i.def.runs });
+        const bad = shardSpecIssues(shard.index, shard.count, i.def.runs);
+        return bad.length ? fail(bad) : ok(shardRange(shard.index, shard.count, i.def.runs));
+      },
       onReady: (i, warnings) => {
         for (const w of warnings) io.err(`warning: ${w.path}: ${w.message}`);
+        if (shard && outDir) {
+          out.shard = new ShardStream(path.join(outDir, shardFileName(shard.index, shard.count)), i, tool, shard.index, shard.count);
+          const c = out.shard.header.cases;
+          io.err(
+            `study: shard ${shard.index} of ${shard.count}: cases ${c.first}–${c.end - 1} of ${i.def.runs} × ${i.controllers.length} controllers on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`,
+          );
+          return;
+        }
+        if (outDir) out.table = new StudyTableStream(path.join(outDir, 'cases.csv'), i);
         io.err(`study: ${i.def.runs} cases × ${i.controllers.length} controllers on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`);
       },
+      onCase: (rec) => (out.shard ?? out.table)?.add(rec),
       onProgress: (p) => {
         const now = Date.now();
         if (now - lastPrint >= 1000 || p.done === p.total) {
@@ -191,17 +265,19 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     r = await study.result;
   } finally {
     process.removeListener('SIGINT', onSigint);
-    await Promise.all(threads.map((t) => t.worker.terminate()));
+    await Promise.all(threads.map((t) => t.worker?.terminate()));
   }
   if (!r.ok) {
+    await (out.shard ?? out.table)?.abort();
     const invalid = !r.errors.some((e) => e.path === 'workers');
     printIssues(io, invalid ? 'the study cannot run' : 'the study failed', r.errors);
     return invalid ? 2 : 1;
   }
   const o = r.value;
   for (const w of o.warnings) if (w.path === 'workers') io.err(`warning: ${w.message}`);
+  if (out.shard) return finishShard(out.shard, o.accumulator, o.cancelled || interrupted, io);
 
-  if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.records).trimEnd());
+  if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.map).trimEnd());
   else {
     io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}\n`);
     io.out(
@@ -210,10 +286,15 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     io.out(`\n${CAUTION_TEXT}`);
   }
   if (outDir) {
-    const files: [string, string][] = [
-      [path.join(outDir, 'cases.csv'), casesCsv(o.info, o.records, o.summary)],
-      [path.join(outDir, 'summary.json'), summaryJson(o.info, o.summary, o.records)],
-    ];
+    if (out.table) {
+      const t = await out.table.close(o.summary);
+      if (!t.ok) {
+        io.err(`error: ${t.errors[0]!.message}`);
+        return 1;
+      }
+      io.err(`wrote ${path.join(outDir, 'cases.csv')}`);
+    }
+    const files: [string, string][] = [[path.join(outDir, 'summary.json'), summaryJson(o.info, o.summary, o.map)]];
     for (const [file, text] of files) {
       const w = await writeFileAtomicNode(file, text);
       if (!w.ok) {
@@ -227,6 +308,22 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
     io.err(`study: stopped early; ${o.summary.casesDone} of ${o.summary.runsRequested} cases finished${outDir ? ' and written' : ''}`);
     return 130;
   }
+  return 0;
+}
+
+/** A shard that ran every case gets its trailer; one stopped early leaves no file (run it again). */
+async function finishShard(out: ShardStream, state: StudyAccumulator, stopped: boolean, io: CliIo): Promise<number> {
+  if (stopped) {
+    await out.abort();
+    io.err(`study: shard stopped early; no shard file written (run it again: a shard is all or nothing)`);
+    return 130;
+  }
+  const w = await out.close(state);
+  if (!w.ok) {
+    io.err(`error: ${w.errors[0]!.message}`);
+    return 1;
+  }
+  io.err(`wrote ${out.file} (${out.rows} rows)`);
   return 0;
 }
 

@@ -19,6 +19,11 @@ const benches: Bench[] = [
   { file: './cliStudy.ts', fn: 'benchCliStudy', title: '10,000 dispersed slews from the CLI, two workers' },
   { file: './orbit.ts', fn: 'benchOrbit', title: 'Orbit: one day of ephemeris, windows, per-sample evaluation' },
   { file: './campaign.ts', fn: 'benchCampaign', title: 'Campaign statistics: add, and merge 1,000 shard files' },
+  {
+    file: './study-campaign.ts',
+    fn: 'benchStudyCampaign',
+    title: 'Study campaign: merge 1,000 real-format shard files, per-shard overhead',
+  },
   { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
 ];
 

@@ -140,7 +140,7 @@ export async function benchStudy(): Promise<void> {
   );
   const sm = r.value.summary;
   console.log(
-    `   study outcome: ${sm.casesDone} cases; settled share per law: ${sm.controllers.map((x) => `${x.controllerId} ${(100 * x.settledShare).toFixed(1)} %`).join(', ')}`,
+    `   study outcome: ${sm.casesDone} cases; settled share per law: ${sm.controllers.map((x) => `${x.controllerId} ${(100 * x.shares.settled.share).toFixed(1)} %`).join(', ')}`,
   );
 }
 

@@ -9,6 +9,11 @@
  * Needs the Debian packages slurmctld, slurmd, slurm-client and munge, and root. Outside CI,
  * SLEWSMITH_SKIP_SLURM=1 skips it (and says so); without the packages and without that variable it
  * fails, naming them. It runs in the serial group of vitest.config.ts, after the parallel tests.
+ *
+ * The real campaign: `slewsmith study slurm` writes the campaign folder of a 2,000-case study of
+ * the bundled tern12-reversal example and submits it (--submit: sbatch for the 20-task array and
+ * the afterok merge job); the merged cases.csv and summary.json must equal, byte for byte, those
+ * of `slewsmith study` run in one process with the same seed.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -32,6 +37,23 @@ const TASK = path.join(here, 'slurm-tasks/campaign-task.mjs');
 const SHARDS = 20;
 const CASES = 20_000;
 const SEED = 60613;
+
+/** The real study: a bundled example (its PD controller only: the fastest law), one shard per array task. */
+const BIN = path.join(here, '../../bin/slewsmith.mjs');
+const EXAMPLE = path.join(here, '../../assets/tern12-reversal.scenario.json');
+const REAL = { runs: 2000, shards: 20, seed: 60614 };
+
+/** Run node with these arguments; its exit code and output. */
+function node(args: string[], env: NodeJS.ProcessEnv): Promise<{ code: number; out: string; err: string }> {
+  return new Promise((resolve) => {
+    const child = spawn(process.execPath, args, { env, stdio: ['ignore', 'pipe', 'pipe'] });
+    let out = '';
+    let err = '';
+    child.stdout!.on('data', (d) => (out += d));
+    child.stderr!.on('data', (d) => (err += d));
+    child.once('exit', (code) => resolve({ code: code ?? 1, out, err }));
+  });
+}
 
 const inCi = Boolean(process.env.CI);
 const skip = process.env.SLEWSMITH_SKIP_SLURM === '1' && !inCi;
@@ -153,6 +175,75 @@ describe.skipIf(skip)('Slurm job arrays on a one-node cluster', () => {
     expect(readFileSync(`${report}.state`, 'utf8')).toBe(stateToJson(all));
     expect(readFileSync(report, 'utf8')).toBe(campaignReport(all));
   }, 120_000);
+
+  it(`a real study: ${REAL.shards} array tasks of a ${REAL.runs}-case study of a bundled example and the merge job give the single-process files byte for byte`, async () => {
+    const c = cluster!;
+    const campaign = path.join(work, 'real campaign');
+    const refDir = path.join(work, 'single process');
+    const study = ['--runs', String(REAL.runs), '--seed', String(REAL.seed), '--controller', 'pd'];
+    // The campaign folder and its submission, through the CLI as a user runs it (sbatch finds the
+    // test cluster through SLURM_CONF in c.env).
+    const sub = await node(
+      [
+        BIN,
+        'study',
+        'slurm',
+        EXAMPLE,
+        ...study,
+        '--shards',
+        String(REAL.shards),
+        '--out',
+        campaign,
+        '--mem-mb',
+        '400',
+        '--time-min',
+        '15',
+        '--submit',
+      ],
+      c.env,
+    );
+    expect(sub.code, sub.err).toBe(0);
+    const arrayJobId = /shard array job: (\d+)/.exec(sub.out)?.[1];
+    const mergeJobId = /merge job: (\d+)/.exec(sub.out)?.[1];
+    expect(arrayJobId && mergeJobId, sub.out).toBeTruthy();
+    const script = readFileSync(path.join(campaign, 'slurm', 'shards.sbatch'), 'utf8');
+    expect(script).toContain(`#SBATCH --array=0-${REAL.shards - 1}`);
+    expect(script).toMatch(/#SBATCH --cpus-per-task=1\n#SBATCH --mem=400M\n#SBATCH --time=00:15:00/);
+    expect(readFileSync(path.join(campaign, 'slurm', 'merge.sbatch'), 'utf8')).toContain(`#SBATCH --dependency=afterok:${arrayJobId}`);
+
+    // The reference runs meanwhile: one process, the whole study, same seed.
+    const [jobs, ref] = await Promise.all([
+      c.waitFor([arrayJobId!, mergeJobId!], 600_000),
+      node([BIN, 'study', EXAMPLE, ...study, '--workers', '1', '--out', refDir], process.env),
+    ]);
+    expect(ref.code, ref.err).toBe(0);
+    const logs = () =>
+      readdirSync(path.join(campaign, 'logs'))
+        .map((f) => `--- ${f}\n${readFileSync(path.join(campaign, 'logs', f), 'utf8')}`)
+        .join('\n');
+    const states = jobs
+      .get(arrayJobId!)!
+      .map((t) => `${t.arrayTaskId}:${t.state}:${t.exitCode}`)
+      .sort();
+    const want = Array.from({ length: REAL.shards }, (_, i) => `${i}:COMPLETED:0:0`).sort();
+    if (JSON.stringify(states) !== JSON.stringify(want)) throw new Error(`shard tasks: ${states.join(', ')}\n${logs()}`);
+    expect(
+      jobs.get(mergeJobId!)!.map((j) => j.state),
+      logs(),
+    ).toEqual(['COMPLETED']);
+    const shardFiles = readdirSync(path.join(campaign, 'shards')).filter((f) => f.endsWith('.slewsmith-shard'));
+    expect(shardFiles).toHaveLength(REAL.shards);
+
+    for (const f of ['cases.csv', 'summary.json']) {
+      const merged = readFileSync(path.join(campaign, f), 'utf8');
+      const single = readFileSync(path.join(refDir, f), 'utf8');
+      expect(merged.length, f).toBe(single.length);
+      expect(merged === single, `${f} differs from the single-process file`).toBe(true);
+    }
+    const summary = JSON.parse(readFileSync(path.join(campaign, 'summary.json'), 'utf8'));
+    expect(summary.summary.casesDone).toBe(REAL.runs);
+    expect(summary.summary.controllers[0].shares.unwound.of).toBe(summary.summary.controllers[0].flyable);
+  }, 900_000);
 
   it('a second start in this process reuses the running cluster', async () => {
     const again = await startSlurmCluster();

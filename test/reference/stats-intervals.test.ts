@@ -14,7 +14,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { all, create, type BigNumber } from 'mathjs';
-import { Z95, shareInterval, wilsonInterval } from '../../app/engine/math/stats';
+import { Z95, shareInterval, shareReport, wilsonInterval } from '../../app/engine/math/stats';
 
 describe('z = Φ⁻¹(0.975)', () => {
   it('is the double nearest to the root of Φ(z) = 0.975 found in 60-digit arithmetic', () => {
@@ -151,5 +151,45 @@ describe('reported shares: rule of three at zero events', () => {
     expect(s.share).toBe(0.037);
     expect(s.low).toBeLessThan(0.037);
     expect(s.high).toBeGreaterThan(0.037);
+  });
+});
+
+describe('shareReport: the Wilson interval always, the rule of three beside it at zero events', () => {
+  it('0 of 100: Wilson [0, 0.0370] (textbook value quoted in the issue) and rule of three 3/100', () => {
+    const s = shareReport(0, 100);
+    expect(s.count).toBe(0);
+    expect(s.of).toBe(100);
+    expect(s.share).toBe(0);
+    expect(s.low).toBe(0);
+    // Closed form at k = 0 (Wilson 1927): z²/(n + z²) = 3.841459/103.841459 = 0.0369935 (by hand).
+    expect(s.high.toFixed(4)).toBe('0.0370');
+    expect(s.high).toBeCloseTo(0.0369935, 7);
+    expect(s.ruleOfThreeHigh).toBe(0.03); // 3/n (Hanley & Lippman-Hand 1983)
+  });
+
+  it('follows the closed form for k > 0 (Newcombe 1998 Table II, method 3, from memory) and carries no rule-of-three bound', () => {
+    const s = shareReport(81, 263);
+    expect(Math.abs(s.low - 0.2553)).toBeLessThanOrEqual(5e-5);
+    expect(Math.abs(s.high - 0.3662)).toBeLessThanOrEqual(5e-5);
+    expect(s.share).toBe(81 / 263);
+    expect(s.ruleOfThreeHigh).toBeNull();
+    // n of n: the Wilson interval's lower end n/(n + z²) (closed form at k = n), 200/203.841459 = 0.981155 by hand.
+    const all = shareReport(200, 200);
+    expect(all.low).toBeCloseTo(0.981155, 6);
+    expect(all.high).toBe(1);
+  });
+
+  it('the rule-of-three bound caps at 1 for n < 3; no cases give the uninformative [0, 1]', () => {
+    expect(shareReport(0, 2).ruleOfThreeHigh).toBe(1);
+    expect(shareReport(0, 0)).toEqual({ count: 0, of: 0, share: 0, low: 0, high: 1, ruleOfThreeHigh: null });
+    expect(() => shareReport(5, 4)).toThrow(/0 ≤ k ≤ n/);
+  });
+
+  it('3 × 10⁶ cases with no event: the bound 10⁻⁶ the issue quotes (rule of three, 3/n)', () => {
+    expect(shareReport(0, 3_000_000).ruleOfThreeHigh).toBeCloseTo(1e-6, 18);
+    // and the exact one-sided bound 1 − 0.05^(1/n) (Clopper & Pearson 1934 at k = 0) lies just below it
+    const exact = 1 - 0.05 ** (1 / 3_000_000);
+    expect(exact).toBeLessThan(1e-6);
+    expect(exact).toBeGreaterThan(0.99e-6);
   });
 });

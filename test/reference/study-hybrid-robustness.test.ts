@@ -72,14 +72,14 @@ describe('near-reversal starts with random sensor noise: who unwinds (Bhat & Ber
     for (const id of ['hyst', 'syn']) {
       const k = ci(id);
       const c = res.summary.controllers[k]!;
-      expect(c.unwoundShare).toBeLessThanOrEqual(0.05);
-      expect(c.settledShare).toBe(1);
+      expect(c.shares.unwound.share).toBeLessThanOrEqual(0.05);
+      expect(c.shares.settled.share).toBe(1);
     }
     // The hysteretic law ends on the lift it started nearest to: η_end has the sign of η₀.
     const k = ci('hyst');
     for (const r of res.records) expect(Math.sign(r.runs[k]!.finalEta)).toBe(Math.sign(r.draw.errorEta));
     // The SO(3) law never adds a big detour: extra rotation stays far below a turn.
-    expect(res.summary.controllers[ci('syn')]!.extraRotationDeg.max!).toBeLessThan(60);
+    expect(res.summary.controllers[ci('syn')]!.spreads.extraRotationDeg.max!).toBeLessThan(60);
   });
 });
 
@@ -99,17 +99,17 @@ describe('near-reversal starts with worst-case bounded noise ē = 0.05 < δ: who
 
   it('the sign-switch law chatters in a clear share of the cases (≥ 50 %) and is held near 180° for long', () => {
     const s = byId('sign');
-    expect(s.chatteredShare).toBeGreaterThanOrEqual(0.5);
+    expect(s.shares.chattered.share).toBeGreaterThanOrEqual(0.5);
     // Held near the reversal: its median settle time is well beyond the hybrid laws'.
     const hyst = byId('hyst');
-    expect(s.settleTimeS.median === null || s.settleTimeS.median > 1.5 * hyst.settleTimeS.median!).toBe(true);
+    expect(s.spreads.settleTimeS.median === null || s.spreads.settleTimeS.median > 1.5 * hyst.spreads.settleTimeS.median!).toBe(true);
   });
 
   it('the hysteretic and synergistic laws do not chatter (≤ 5 %) and all settle', () => {
     for (const id of ['hyst', 'syn']) {
       const c = byId(id);
-      expect(c.chatteredShare).toBeLessThanOrEqual(0.05);
-      expect(c.settledShare).toBe(1);
+      expect(c.shares.chattered.share).toBeLessThanOrEqual(0.05);
+      expect(c.shares.settled.share).toBe(1);
     }
   });
 });

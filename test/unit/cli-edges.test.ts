@@ -134,7 +134,7 @@ describe('option values', () => {
   it('every numeric study option goes through the same rule check', async () => {
     const study = (...extra: string[]) => cli(['study', asset('tern12-reversal.scenario.json'), ...extra]);
     const bad: [string, string, RegExp][] = [
-      ['--runs', '0', /--runs must be a whole number from 1 to 1000000 \(got "0"\)/],
+      ['--runs', '0', /--runs must be a whole number from 1 to 10000000 \(got "0"\)/],
       ['--runs', '1.5', /--runs must be a whole number/],
       ['--runs', '1e3', /--runs must be a whole number/],
       ['--workers', '65', /--workers must be a whole number from 1 to 64/],

@@ -108,6 +108,22 @@ describe('JSON round trips', () => {
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.errors.map((e) => e.path)).toEqual(['worst.items[1].payload']);
   });
+
+  it('TopK with tiers: tier written only when not 0, read back, order checked with it', () => {
+    const t = topKCreate<null>(5);
+    values(20).forEach((x, i) => topKAdd(t, { key: i, score: x, tier: i % 3 === 0 ? 1 : 0, payload: null }));
+    const j = trip(topKToJson(t));
+    expect((j as { items: object[] }).items.filter((x) => 'tier' in x).length).toBe(t.items.filter((x) => x.tier).length);
+    expect(sameBits(value(topKFromJson(j)), t)).toBe(true);
+    const swapped = JSON.parse(JSON.stringify(j));
+    swapped.items.reverse();
+    const r = topKFromJson(swapped, 'worst');
+    expect(r.ok).toBe(false);
+    const zero = JSON.parse(JSON.stringify(j));
+    zero.items[0].tier = 0;
+    const z = topKFromJson(zero, 'worst');
+    expect(z.ok ? [] : z.errors.map((e) => e.rule)).toContain('tier');
+  });
 });
 
 describe('reading refuses malformed input, naming every problem', () => {

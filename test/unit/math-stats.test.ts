@@ -390,4 +390,28 @@ describe('top-k of the worst cases', () => {
     expect(d.ok).toBe(false);
     if (!d.ok) expect(d.errors[0]!.rule).toBe('unique-key');
   });
+
+  it('tiers rank before scores: merged top-k of any split equals the union sorted by (tier desc, score desc, index asc)', () => {
+    const rng = makeRng(11, 3);
+    const tiered = (a: TopItem, b: TopItem) => (b.tier ?? 0) - (a.tier ?? 0) || b.score - a.score || a.key - b.key;
+    const all = items(rng, 2000).map((x) => {
+      const tier = Math.floor(rng.next() * 3);
+      return tier === 0 ? x : { ...x, tier };
+    });
+    const ref = [...all].sort(tiered).slice(0, 30);
+    const build = (xs: TopItem<{ i: number }>[]): TopK<{ i: number }> => {
+      const t = topKCreate<{ i: number }>(30);
+      for (const x of xs) topKAdd(t, x);
+      return t;
+    };
+    const parts = pieces(rng, shuffle(rng, all), 9).map(build);
+    const merged = mergeRandomTree(rng, shuffle(rng, parts), (a, b) => {
+      const r = topKMerge(a, b);
+      if (!r.ok) throw new Error(r.errors[0]!.message);
+      return r.value;
+    });
+    expect(merged.items).toEqual(ref);
+    expect(merged.items[0]!.tier).toBe(2);
+    expect(() => topKAdd(topKCreate(1), { key: 1, score: 0, tier: 0.5, payload: null })).toThrow(/tier/);
+  });
 });

@@ -108,9 +108,9 @@ describe('summarizeStudy on a hand-made record set', () => {
 
   it('counts and shares leave the unflyable case out', () => {
     expect([c.cases, c.flyable, c.settled, c.unsettled, c.failed]).toEqual([6, 5, 4, 1, 0]);
-    expect(c.settledShare).toBeCloseTo(4 / 5, 15);
-    expect(c.unwoundShare).toBeCloseTo(1 / 5, 15);
-    expect(c.chatteredShare).toBeCloseTo(1 / 5, 15);
+    expect(c.shares.settled.share).toBeCloseTo(4 / 5, 15);
+    expect(c.shares.unwound.share).toBeCloseTo(1 / 5, 15);
+    expect(c.shares.chattered.share).toBeCloseTo(1 / 5, 15);
     expect(s.unflyableCases).toBe(1);
     expect(s.inertiaRejections).toBe(0 + 1 + 2 + 3 + 4 + 5);
     expect(s.incomplete).toBe(false);
@@ -118,9 +118,14 @@ describe('summarizeStudy on a hand-made record set', () => {
 
   it('nearest-rank quantiles; the never-settled run counts as beyond the duration', () => {
     // settle times sorted: 10, 20, 30, 40, ∞ → median = 3rd = 30; p95 = 5th = ∞ → null.
-    expect(c.settleTimeS).toEqual({ median: 30, p95: null, max: null });
-    // jumps 0, 0, 1, 2, 12 → median 1, p95 12.
-    expect(c.jumps).toEqual({ median: 1, p95: 12, max: 12 });
+    // The median is located to a fine bin (a tenth of a 20-bin display bin) holding 30 s.
+    const st = c.spreads.settleTimeS;
+    expect(st.medianBin![0]).toBeLessThanOrEqual(30);
+    expect(st.medianBin![1]).toBeGreaterThanOrEqual(30);
+    expect(st.medianBin![1] - st.medianBin![0]).toBeLessThanOrEqual(info.def.durationS / 200 + 1e-12);
+    expect([st.p95, st.max, st.n]).toEqual([null, 40, 4]); // max and n over the runs that settled
+    // jumps 0, 0, 1, 2, 12 → median 1 (whole-number bins: exact); p95 = 12 is past the last bin (≥ 10) → null.
+    expect([c.spreads.jumps.median, c.spreads.jumps.p95, c.spreads.jumps.max]).toEqual([1, null, 12]);
   });
 
   it('histogram counts add up to the flyable runs; overflow holds what is off the scale', () => {

@@ -38,6 +38,7 @@ const SIZE = { width: 400, height: 168, left: 40, right: 8, top: 8, bottom: 34 }
 const VALUE: Record<QuantitySpec['key'], (r: CaseRun) => number | null> = {
   settleTimeS: (r) => (r.status === 'settled' ? r.settleTimeS : null),
   rotationTravelledDeg: (r) => r.rotationTravelledDeg,
+  extraRotationDeg: (r) => r.extraRotationDeg,
   jumps: (r) => r.jumps,
   chatterPerS: (r) => r.chatterPerS,
   peakWheelMomentumFraction: (r) => r.peakWheelMomentumFraction,

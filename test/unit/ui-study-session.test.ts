@@ -149,7 +149,7 @@ describe('study session: results do not depend on the number of workers', () => 
     const ref = runStudy(json);
     if (!ref.ok) throw new Error('study refused');
     expect(outs[0]!.csv).toBe(casesCsv(ref.value.info, ref.value.records, ref.value.summary));
-    expect(outs[0]!.json).toBe(summaryJson(ref.value.info, ref.value.summary, ref.value.records));
+    expect(outs[0]!.json).toBe(summaryJson(ref.value.info, ref.value.summary, ref.value.map));
 
     // One row per case × controller, with the engine's columns.
     const rows = csvRows(outs[0]!.csv);
@@ -159,13 +159,13 @@ describe('study session: results do not depend on the number of workers', () => 
     expect(keys.size).toBe(rows.length);
     // The share the view shows (summary) against a count of the CSV rows by hand.
     const summary = JSON.parse(outs[0]!.json).summary as {
-      controllers: { controllerId: string; notSettledShare: number; flyable: number }[];
+      controllers: { controllerId: string; shares: { notSettled: { share: number } }; flyable: number }[];
     };
     for (const c of summary.controllers) {
       const mine = rows.filter((r) => r.controller === c.controllerId && r.status !== 'unflyable');
       const bad = mine.filter((r) => r.status === 'unsettled' || r.status === 'failed').length;
       expect(c.flyable).toBe(mine.length);
-      expect(c.notSettledShare).toBeCloseTo(bad / mine.length, 15);
+      expect(c.shares.notSettled.share).toBeCloseTo(bad / mine.length, 15);
     }
   }, 120_000);
 

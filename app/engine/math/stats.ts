@@ -18,7 +18,10 @@
  *
  * `Moments` (Welford / Chan–Golub–LeVeque) is the plain streaming form for use inside one process:
  * merging is exact in exact arithmetic and correct to round-off in floating point, but NOT
- * bit-identical under regrouping (see `momentsMerge`).
+ * bit-identical under regrouping (see `momentsMerge`). `PairwiseMoments` (statsPairwise.ts) makes
+ * it so: the same pairwise update applied over a fixed binary tree of case indices, so every
+ * partial result is a function of the cases it covers, never of the split — the form the study
+ * summaries use (a shard carries O(log n) partial blocks).
  *
  * Non-finite inputs are never mixed into sums: moments count them in `nonFinite` and leave them out;
  * histograms put −∞ under, +∞ over and NaN in `invalid`. −0 is stored as +0 everywhere (JSON has
@@ -30,6 +33,7 @@
 export * from './statsMoments';
 export * from './statsHistogram';
 export * from './statsTopK';
+export * from './statsPairwise';
 
 // ---------------------------------------------------------------------------------------------
 // Shares with 95 % intervals
@@ -100,4 +104,31 @@ export function shareInterval(k: number, n: number): ShareInterval {
   if (k === n) return { share: 1, low: Math.max(0, 1 - 3 / n), high: 1, method: 'rule-of-three' };
   const w = wilsonInterval(k, n);
   return { share: k / n, low: w.low, high: w.high, method: 'wilson' };
+}
+
+/**
+ * A share as the study summaries report it (CLI, app, summary.json): the count, the share, the
+ * two-sided 95 % Wilson score interval (`wilsonInterval`) always, and — when nothing happened —
+ * the rule-of-three bound beside it, so "0 of n" is read for what it proves: with 0 events in n
+ * independent cases the event probability is below 3/n at 95 % confidence (one-sided; Hanley &
+ * Lippman-Hand 1983, see `shareInterval`). The Wilson upper end at 0 events, z²/(n + z²) ≈ 3.84/n,
+ * is the one-sided 97.5 % bound; both are given and named.
+ */
+export interface ShareReport {
+  count: number;
+  of: number;
+  /** count/of, 0 when of = 0. */
+  share: number;
+  /** Wilson score interval, 95 % two-sided; [0, 1] when of = 0. */
+  low: number;
+  high: number;
+  /** min(1, 3/of) when count = 0 < of (rule of three, one-sided 95 %); null otherwise. */
+  ruleOfThreeHigh: number | null;
+}
+
+export function shareReport(count: number, of: number): ShareReport {
+  checkCounts(count, of);
+  if (of === 0) return { count, of, share: 0, low: 0, high: 1, ruleOfThreeHigh: null };
+  const w = wilsonInterval(count, of);
+  return { count, of, share: count / of, low: w.low, high: w.high, ruleOfThreeHigh: count === 0 ? Math.min(1, 3 / of) : null };
 }

@@ -4,14 +4,17 @@
  * numbers bit for bit: finite doubles survive JSON.stringify/JSON.parse exactly (ECMA-262 writes the
  * shortest text that reads back to the same double); ±∞ and NaN, which JSON cannot hold, are
  * written as the strings "Infinity", "-Infinity" and "NaN"; −0 never occurs (stats.ts stores +0);
- * exact sums are text "<hex mantissa>p<exponent>" (exactSum.ts). Each object names its `kind`.
+ * exact sums are text "<hex mantissa>p<exponent>" (exactSum.ts); pairwise moments are one array
+ * per block. Each object names its `kind`.
  */
 import type { Issue, Result } from '../errors';
 import { describe, fail, ok } from '../errors';
 import type { ExactSum } from './exactSum';
 import { exactFromString, exactToString } from './exactSum';
 import type { ExactMoments, Histogram, Moments, TopItem, TopK } from './stats';
-import { edgeIssues } from './stats';
+import { edgeIssues, topBefore } from './stats';
+import type { PairwiseBlock, PairwiseMoments } from './statsPairwise';
+import { pairwiseIssues } from './statsPairwise';
 
 export type JsonNumber = number | 'Infinity' | '-Infinity' | 'NaN';
 
@@ -52,7 +55,8 @@ export interface HistogramJson {
 export interface TopKJson {
   kind: 'top-k';
   k: number;
-  items: { key: number; score: JsonNumber; payload: unknown }[];
+  /** `tier` is written only when it is not 0. */
+  items: { key: number; score: JsonNumber; tier?: number; payload: unknown }[];
 }
 
 export function momentsToJson(m: Moments): MomentsJson {
@@ -84,7 +88,15 @@ export function histogramToJson(h: Histogram): HistogramJson {
 
 /** Payloads are written as they are: they must be plain JSON values. */
 export function topKToJson<P>(t: TopK<P>): TopKJson {
-  return { kind: 'top-k', k: t.k, items: t.items.map((x) => ({ key: x.key, score: encodeNumber(x.score), payload: x.payload })) };
+  return {
+    kind: 'top-k',
+    k: t.k,
+    items: t.items.map((x) =>
+      x.tier
+        ? { key: x.key, score: encodeNumber(x.score), tier: x.tier, payload: x.payload }
+        : { key: x.key, score: encodeNumber(x.score), payload: x.payload },
+    ),
+  };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -230,14 +242,73 @@ export function topKFromJson<P = unknown>(
     const key = r.count(it.key, `${p}.key`);
     const score = r.number(it.score, `${p}.score`);
     if (Number.isNaN(score)) r.bad(`${p}.score`, 'not-nan', `${p}.score must not be NaN`);
+    let tier = 0;
+    if (it.tier !== undefined) {
+      if (typeof it.tier !== 'number' || !Number.isSafeInteger(it.tier) || it.tier === 0)
+        r.bad(`${p}.tier`, 'tier', `${p}.tier must be a whole number other than 0 when present (got ${describe(it.tier)})`);
+      else tier = it.tier;
+    }
     const pl = payload(it.payload, `${p}.payload`);
     if (!pl.ok) r.issues.push(...pl.errors);
     if (keys.has(key)) r.bad(`${p}.key`, 'unique-key', `${p}.key: case ${key} is listed twice`);
     keys.add(key);
     const prev = items[items.length - 1];
-    if (prev && !(prev.score > score || (prev.score === score && prev.key < key)))
-      r.bad(p, 'order', `${p} is out of order (score descending, then case index ascending)`);
-    items.push({ key, score, payload: pl.ok ? pl.value : (undefined as P) });
+    const item: TopItem<P> = { key, score, payload: pl.ok ? pl.value : (undefined as P) };
+    if (tier !== 0) item.tier = tier;
+    if (prev && !topBefore(prev, item))
+      r.bad(p, 'order', `${p} is out of order (tier descending, score descending, then case index ascending)`);
+    items.push(item);
   });
   return r.done({ k, items });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Pairwise (fixed-tree) moments: one array per block, [level, pos, n, mean, m2, min, max, nonFinite]
+
+export interface PairwiseMomentsJson {
+  kind: 'pairwise-moments';
+  blocks: [number, number, number, JsonNumber, JsonNumber, number | null, number | null, number][];
+}
+
+export function pairwiseToJson(p: PairwiseMoments): PairwiseMomentsJson {
+  return {
+    kind: 'pairwise-moments',
+    blocks: p.blocks.map((b) => [b.level, b.pos, b.m.n, encodeNumber(b.m.mean), encodeNumber(b.m.m2), b.m.min, b.m.max, b.m.nonFinite]),
+  };
+}
+
+export function pairwiseFromJson(v: unknown, path = 'moments'): Result<PairwiseMoments> {
+  const r = new Reader(path);
+  const o = r.object(v, 'pairwise-moments');
+  if (!o) return r.done(null as never);
+  if (!Array.isArray(o.blocks)) {
+    r.bad(r.at('blocks'), 'array', `${r.at('blocks')} must be an array`);
+    return r.done(null as never);
+  }
+  const blocks: PairwiseBlock[] = [];
+  (o.blocks as unknown[]).forEach((x, k) => {
+    const at = `${r.at('blocks')}[${k}]`;
+    if (!Array.isArray(x) || x.length !== 8) {
+      r.bad(at, 'block', `${at} must be [level, position, n, mean, m2, min, max, nonFinite]`);
+      return;
+    }
+    const before = r.issues.length;
+    const level = r.count(x[0], `${at}[0]`);
+    const pos = r.count(x[1], `${at}[1]`);
+    const n = r.count(x[2], `${at}[2]`);
+    const mean = r.number(x[3], `${at}[3]`);
+    const m2 = r.number(x[4], `${at}[4]`);
+    if (!(m2 >= 0)) r.bad(`${at}[4]`, 'non-negative', `${at}[4] (m2) must be ≥ 0 (got ${m2})`);
+    const min = r.finiteOrNull(x[5], `${at}[5]`);
+    const max = r.finiteOrNull(x[6], `${at}[6]`);
+    const nonFinite = r.count(x[7], `${at}[7]`);
+    if ((n === 0) !== (min === null) || (n === 0) !== (max === null))
+      r.bad(`${at}[5]`, 'empty-range', `${at}: min and max must be null exactly when n is 0`);
+    else if (min !== null && max !== null && min > max) r.bad(`${at}[5]`, 'order', `${at}: min ${min} is above max ${max}`);
+    if (n === 0 && (mean !== 0 || m2 !== 0)) r.bad(`${at}[3]`, 'empty-moments', `${at}: mean and m2 must be 0 when n is 0`);
+    if (r.issues.length === before) blocks.push({ level, pos, m: { n, mean, m2, min, max, nonFinite } });
+  });
+  const p = { blocks };
+  if (r.issues.length === 0) r.issues.push(...pairwiseIssues(p, path));
+  return r.done(p);
 }

@@ -1,20 +1,26 @@
 /**
- * Worst cases: a bounded top-k under a total order (score descending, then case index), part of
+ * Worst cases: a bounded top-k under a total order (tier descending, score descending, then case
+ * index), part of
  * the mergeable statistics of stats.ts — the list is unique whatever the order of arrival, so
  * merging shards is exact.
  */
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
 
-/** One candidate: its case index (`key`, a whole number ≥ 0), its score (higher = worse) and data. */
+/**
+ * One candidate: its case index (`key`, a whole number ≥ 0), its score (higher = worse) and data.
+ * `tier` (a whole number, default 0) ranks before the score: every item of a higher tier comes
+ * first (e.g. failed runs before slow ones, each tier ordered by its own score).
+ */
 export interface TopItem<P = unknown> {
   key: number;
   score: number;
+  tier?: number;
   payload: P;
 }
 
 /**
- * The k highest-scoring items, sorted by score descending, then key ascending (a total order on
+ * The k highest-ranked items, sorted by tier descending, score descending, then key ascending (a total order on
  * distinct keys, so the list is unique whatever the order of arrival). At most k items are kept.
  * Scores may be ±∞; NaN scores are refused at `topKAdd`.
  */
@@ -29,7 +35,10 @@ export function topKCreate<P = unknown>(k: number): TopK<P> {
 }
 
 /** True when a ranks before b. */
-function topBefore(a: TopItem<unknown>, b: TopItem<unknown>): boolean {
+export function topBefore(a: TopItem<unknown>, b: TopItem<unknown>): boolean {
+  const ta = a.tier ?? 0,
+    tb = b.tier ?? 0;
+  if (ta !== tb) return ta > tb;
   return a.score > b.score || (a.score === b.score && a.key < b.key);
 }
 
@@ -40,7 +49,10 @@ function topBefore(a: TopItem<unknown>, b: TopItem<unknown>): boolean {
 export function topKAdd<P>(t: TopK<P>, item: TopItem<P>): boolean {
   if (Number.isNaN(item.score)) throw new RangeError(`top-k score of case ${item.key} is NaN`);
   if (!Number.isSafeInteger(item.key) || item.key < 0) throw new RangeError(`top-k key must be a whole number ≥ 0 (got ${item.key})`);
-  const it = { key: item.key, score: item.score + 0, payload: item.payload };
+  if (item.tier !== undefined && !Number.isSafeInteger(item.tier))
+    throw new RangeError(`top-k tier must be a whole number (got ${item.tier})`);
+  const it: TopItem<P> = { key: item.key, score: item.score + 0, payload: item.payload };
+  if (item.tier !== undefined && item.tier !== 0) it.tier = item.tier + 0;
   const xs = t.items;
   if (xs.length === t.k && !topBefore(it, xs[xs.length - 1]!)) return false;
   let lo = 0,

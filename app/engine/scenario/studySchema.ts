@@ -102,7 +102,7 @@ export const StudyDispersionsSchema = z.strictObject({
 
 export const StudySchema = z
   .strictObject({
-    runs: z.number().int().min(1).max(1000000).describe('Number of dispersed cases; every selected controller flies every case.'),
+    runs: z.number().int().min(1).max(10000000).describe('Number of dispersed cases; every selected controller flies every case.'),
     seed: z
       .number()
       .int()

@@ -6,7 +6,9 @@
  *   createStudyWorker(post)                                   the worker half of that
  *   makeStudyContext / runStudyChunk                          build once, run chunks of cases
  *   summarizeStudy / outcomeMap                               results from finished cases
- *   casesCsv / summaryJson                                    exports
+ *   createStudyAccumulator / accumulateCase / studySummaryOf  the mergeable path every summary takes
+ *   casesCsv / summaryJson (casesCsvHead, caseRowsText, …)    exports, whole or streamed
+ *   shardRange / shardHeader / planMerge …                    campaign shards and their merge
  *   studyCaseScenario(json, overrides, index)                 one case as a normal scenario file
  *   rerunStudyCase(json, overrides, index, controllerId?)     one case re-flown with full traces
  */
@@ -20,9 +22,28 @@ export type { CaseRecord, CaseRun, CaseStatus } from './runCase';
 export { runCase, CHATTER_THRESHOLD_PER_S, TRACE_SAMPLES } from './runCase';
 export type { StudyProgress, StudyResult, RunStudyOptions } from './runner';
 export { runStudy, runStudyChunk, studyInfo, ProgressCounter } from './runner';
-export type { ControllerSummary, Histogram, MapPoint, Spread, StudyInfo, StudySummary, WorstCase } from './summary';
-export { summarizeStudy, outcomeMap, outcomeOf, sortRecords } from './summary';
-export { casesCsv, summaryJson, CASE_COLUMNS } from './export';
+export type { ControllerShares, ControllerSummary, Histogram, MapPoint, Spread, StudyInfo, StudySummary, WorstCase } from './summary';
+export { summarizeStudy, studySummaryOf, accumulateRecords, outcomeMap, outcomeOf, sortRecords } from './summary';
+export type { StudyAccumulator, RunCounts } from './accumulate';
+export { createStudyAccumulator, accumulateCase, mergeStudyAccumulators, accumulatedCases, MAP_SAMPLE_CASES } from './accumulate';
+export { accumulatorToJson, accumulatorFromJson } from './accumulateJson';
+export type { QuantityKey } from './quantities';
+export { QUANTITIES } from './quantities';
+export { casesCsv, casesCsvHead, caseRowsText, casesCsvTail, summaryJson, CASE_COLUMNS, SUMMARY_FORMAT, SUMMARY_VERSION } from './export';
+export { CaseOrderer } from './ordered';
+export type { ShardHeader, ShardTrailer } from './shard';
+export {
+  shardRange,
+  shardSpecIssues,
+  shardFileName,
+  shardHeader,
+  shardHeaderLine,
+  shardTrailerLine,
+  parseShardHeader,
+  parseShardTrailer,
+  planMerge,
+  SHARD_EXTENSION,
+} from './shard';
 export type { FromWorker, ToWorker, StudyWorkerPort, ParallelOptions, ParallelOutcome, ParallelStudy } from './parallel';
 export { createStudyWorker, startStudyParallel, inThreadPort } from './parallel';
 export type { StudyCaseRerun } from './caseScenario';

@@ -6,8 +6,11 @@
  * - Worker half (`createStudyWorker`): builds the study context once, then runs the chunks of
  *   case indices it is sent and posts every finished case.
  * - Coordinator half (`startStudyParallel`): hands out small chunks from one queue (a free worker
- *   takes the next), gathers the cases and summarises them. Each case depends only on (seed,
- *   index), and the summary sorts by index, so the result is the same for any number of workers.
+ *   takes the next), adds every finished case to the mergeable study state (accumulate.ts) and
+ *   summarises that. Each case depends only on (seed, index) and the state does not depend on the
+ *   order of arrival, so the result is the same for any number of workers. It runs the whole study
+ *   or one range of case indices (a shard of a campaign); `keepRecords: false` keeps no case in
+ *   memory (the caller streams them from `onCase`), so a study of any size runs in bounded memory.
  *
  * Cancellation: `cancel()` stops handing out chunks; with a SharedArrayBuffer flag the workers
  * also abandon the case they are in (checked at every control sample). Finished cases are kept.
@@ -20,7 +23,10 @@ import type { CaseRecord } from './runCase';
 import type { StudyProgress, StudyResult } from './runner';
 import { ProgressCounter, runStudyChunk, studyInfo } from './runner';
 import type { StudyInfo } from './summary';
-import { summarizeStudy } from './summary';
+import { studySummaryOf } from './summary';
+import type { StudyAccumulator } from './accumulate';
+import { accumulateCase, createStudyAccumulator } from './accumulate';
+import { pairwiseHas } from '../math/stats';
 
 export type ToWorker =
   | { type: 'init'; json: unknown; overrides: StudyOverrides; cancelFlag?: SharedArrayBuffer }
@@ -76,6 +82,15 @@ export interface ParallelOptions {
   cancelFlag?: SharedArrayBuffer;
   onReady?: (info: StudyInfo, warnings: Issue[]) => void;
   onProgress?: (p: StudyProgress) => void;
+  /**
+   * Run only the case indices [first, end) (a shard); default: the whole study. A function is
+   * asked once the study is known (its runs come from the file and the overrides).
+   */
+  cases?: { first: number; end: number } | ((info: StudyInfo) => Result<{ first: number; end: number }>);
+  /** Keep every finished case for the result's `records` (default true; false for large studies). */
+  keepRecords?: boolean;
+  /** Every finished case as it arrives (any order), after it was added to the summary state. */
+  onCase?: (r: CaseRecord) => void;
 }
 
 export interface ParallelOutcome extends StudyResult {
@@ -110,14 +125,17 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
   const alive = ports.map(() => true);
   const busy: (number | null)[] = ports.map(() => null);
   const records: CaseRecord[] = [];
+  const keep = opts.keepRecords ?? true;
+  let acc: StudyAccumulator | null = null;
   let queue: number[][] = [];
   const chunks: number[][] = [];
   let progress: ProgressCounter | null = null;
 
   const done = () => {
-    if (!info || !settle) return;
-    const s = summarizeStudy(info, records);
-    finish(ok({ info, summary: s, records: [...records].sort((a, b) => a.draw.index - b.draw.index), warnings, cancelled }, warnings));
+    if (!info || !settle || !acc) return;
+    const s = studySummaryOf(info, acc);
+    records.sort((a, b) => a.draw.index - b.draw.index);
+    finish(ok({ info, summary: s, map: acc.map, accumulator: acc, records, warnings, cancelled }, warnings));
   };
 
   const dispatch = () => {
@@ -147,18 +165,27 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
           finish(fail(msg.errors, msg.warnings));
         } else if (msg.type === 'ready') {
           if (!info) {
+            const asked = typeof opts.cases === 'function' ? opts.cases(msg.info) : ok(opts.cases);
+            const range = asked.ok ? caseRange(msg.info.def.runs, asked.value) : asked;
+            if (!range.ok) {
+              finish(fail(range.errors, msg.warnings));
+              return;
+            }
             info = msg.info;
             warnings = msg.warnings;
-            progress = new ProgressCounter(info.def.runs);
-            const n = info.def.runs;
-            for (let s = 0; s < n; s += chunkSize) chunks.push(Array.from({ length: Math.min(chunkSize, n - s) }, (_, k) => s + k));
+            acc = createStudyAccumulator(info);
+            const { first, end } = range.value;
+            progress = new ProgressCounter(end - first);
+            for (let s = first; s < end; s += chunkSize) chunks.push(Array.from({ length: Math.min(chunkSize, end - s) }, (_, k) => s + k));
             queue = [...chunks];
             opts.onReady?.(info, warnings);
           }
           dispatch();
         } else if (msg.type === 'case') {
-          records.push(msg.record);
+          if (!acc || !accumulateCase(acc, msg.record).ok) return; // a case reported twice is counted once
+          if (keep) records.push(msg.record);
           progress?.add(msg.record);
+          opts.onCase?.(msg.record);
           if (progress) opts.onProgress?.(progress.snapshot());
         } else if (msg.type === 'chunk-done') {
           busy[w] = null;
@@ -179,8 +206,7 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
     busy[w] = null;
     if (lost !== null) {
       // Re-run the unfinished part of its chunk elsewhere (finished cases of it are kept).
-      const have = new Set(records.map((r) => r.draw.index));
-      const rest = chunks[lost]!.filter((i) => !have.has(i));
+      const rest = chunks[lost]!.filter((i) => !acc || !pairwiseHas(acc.coverage, i));
       if (rest.length) {
         chunks.push(rest);
         queue = [rest, ...queue];
@@ -199,6 +225,21 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
       dispatch();
     },
   };
+}
+
+/** The case indices to run: [0, runs) or the given range within it. */
+function caseRange(runs: number, cases: { first: number; end: number } | undefined): Result<{ first: number; end: number }> {
+  if (!cases) return ok({ first: 0, end: runs });
+  const { first, end } = cases;
+  if (!Number.isSafeInteger(first) || !Number.isSafeInteger(end) || first < 0 || end > runs || first >= end)
+    return fail([
+      {
+        path: 'cases',
+        rule: 'range',
+        message: `the case range must be whole numbers with 0 ≤ first < end ≤ ${runs} (the study's runs); got [${first}, ${end})`,
+      },
+    ]);
+  return ok({ first, end });
 }
 
 /** A worker port that runs the worker half in this thread (tests; environments without workers). */

@@ -58,6 +58,14 @@ export interface CaseRun {
   traceCount: number;
 }
 
+/** A run's outcome, the first that applies: failed | unflyable | unsettled | unwound | chattered | settled. */
+export function outcomeOf(r: CaseRun): string {
+  if (r.status === 'failed' || r.status === 'unflyable' || r.status === 'unsettled') return r.status;
+  if (r.unwound) return 'unwound';
+  if (r.chattered) return 'chattered';
+  return 'settled';
+}
+
 /** One case: what was drawn (plain data) and one run per controller, in the study's order. */
 export interface CaseRecord {
   draw: CaseDraw;

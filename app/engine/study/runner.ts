@@ -9,8 +9,10 @@ import type { StudyContext, StudyOverrides } from './context';
 import { makeStudyContext } from './context';
 import type { CaseRecord } from './runCase';
 import { runCase } from './runCase';
-import type { StudyInfo, StudySummary } from './summary';
-import { summarizeStudy } from './summary';
+import type { MapPoint, StudyInfo, StudySummary } from './summary';
+import { studySummaryOf } from './summary';
+import type { StudyAccumulator } from './accumulate';
+import { accumulateCase, createStudyAccumulator } from './accumulate';
 
 export interface StudyProgress {
   done: number;
@@ -26,7 +28,11 @@ export interface StudyProgress {
 export interface StudyResult {
   info: StudyInfo;
   summary: StudySummary;
-  /** Finished cases in case order. */
+  /** The outcome map of the summary (the first MAP_SAMPLE_CASES cases). */
+  map: MapPoint[];
+  /** The mergeable state the summary was made from. */
+  accumulator: StudyAccumulator;
+  /** Finished cases in case order (empty when the runner was told not to keep them). */
   records: CaseRecord[];
   warnings: Issue[];
 }
@@ -34,6 +40,7 @@ export interface StudyResult {
 export function studyInfo(ctx: StudyContext): StudyInfo {
   return {
     scenarioName: ctx.prepared.scenario.name,
+    scenario: ctx.json,
     def: ctx.def,
     controllers: ctx.controllers.map((c) => ({ id: c.id, label: c.label, law: c.law })),
   };
@@ -91,6 +98,8 @@ export function runStudy(json: unknown, overrides: StudyOverrides = {}, opts: Ru
   const c = makeStudyContext(json, overrides);
   if (!c.ok) return fail(c.errors, c.warnings);
   const ctx = c.value;
+  const info = studyInfo(ctx);
+  const acc = createStudyAccumulator(info);
   const records: CaseRecord[] = [];
   const progress = new ProgressCounter(ctx.def.runs);
   const all = Array.from({ length: ctx.def.runs }, (_, i) => i);
@@ -98,12 +107,12 @@ export function runStudy(json: unknown, overrides: StudyOverrides = {}, opts: Ru
     ctx,
     all,
     (r) => {
+      accumulateCase(acc, r);
       records.push(r);
       progress.add(r);
       opts.onProgress?.(progress.snapshot());
     },
     opts.shouldStop,
   );
-  const info = studyInfo(ctx);
-  return ok({ info, summary: summarizeStudy(info, records), records, warnings: ctx.warnings }, ctx.warnings);
+  return ok({ info, summary: studySummaryOf(info, acc), map: acc.map, accumulator: acc, records, warnings: ctx.warnings }, ctx.warnings);
 }

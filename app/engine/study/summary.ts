@@ -1,25 +1,30 @@
 /**
- * Study results per controller: shares, quantiles, histograms, worst cases, and the outcome map
- * over initial attitudes. A pure function of the finished case records (sorted by case index
- * first), so the result does not depend on how many workers ran them or in what order.
+ * Study results per controller: shares with their 95 % intervals, moments, quantiles and
+ * histograms of each quantity, the worst cases, and the outcome map over initial attitudes.
  *
- * Histogram bins (fixed, so two studies can be compared bin by bin):
- * - settle time: 20 equal bins over [0, durationS] s, settled runs only (the rest are counted as
- *   `overflow`, "did not settle in time");
- * - rotation travelled: 24 bins of 15° over [0°, 360°], overflow beyond one full turn;
- * - jumps: one bin per count 0…9, overflow ≥ 10;
- * - chatter: edges 0, 0.1, 0.2, 0.5, 1, 2, 5 events/s, overflow ≥ 5 (log-like: most runs sit
- *   near 0.2, chattering ones spread over decades);
- * - peak wheel momentum / torque: 20 bins of 5 % over [0, 100 %] of the case's (degraded) limit
- *   (the limiter keeps a run at or below 100 %, which falls in the last bin);
- * - final error: edges 0, 0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 90°, overflow up to 180°.
- * Quantiles are nearest-rank (the smallest value with at least p of the runs at or below it);
- * a settle-time quantile that falls on runs that never settled is null ("not within durationS").
+ * Every summary is made from the mergeable state of accumulate.ts (`studySummaryOf`): a study run
+ * in one process and the same study merged from K shards go through the same function with the
+ * same state bits, so their summaries are identical. `summarizeStudy(info, records)` is that path
+ * for a list of finished cases (any order).
+ *
+ * Bins: quantities.ts. Quantiles are nearest-rank (Hyndman & Fan 1996, definition 1: the smallest
+ * value with at least p of the flyable runs at or below it), located to a fine bin (a tenth of a
+ * display bin; whole-number quantities exactly) and interpolated inside it; a settle-time
+ * quantile that falls on runs that never settled is null ("not within durationS"), as is any
+ * quantile beyond the last bin edge. Means and standard deviations are over the finite values.
  */
 import type { CaseRecord, CaseRun } from './runCase';
 import type { StudyDefinition } from '../scenario/study';
 import type { RunMode } from '../sim/types';
-import { DEG_PER_RAD } from '../units';
+import type { Histogram as Counts, ShareReport } from '../math/stats';
+import { histogramQuantile, momentsVariance, pairwiseTotal, shareReport } from '../math/stats';
+import type { StudyAccumulator } from './accumulate';
+import { accumulateCase, createStudyAccumulator, mapPointOf } from './accumulate';
+import type { QuantityKey } from './quantities';
+import { QUANTITIES } from './quantities';
+import { outcomeOf } from './runCase';
+
+export { outcomeOf };
 
 export interface Histogram {
   quantity: string;
@@ -29,12 +34,34 @@ export interface Histogram {
   counts: number[];
   /** Values above the last edge (or, for settle time, runs that never settled). */
   overflow: number;
+  /** Values below the first edge. */
+  underflow: number;
 }
 
+/** One quantity over the flyable runs of a controller. */
 export interface Spread {
+  /** Runs with a finite value (settle time: the runs that settled). */
+  n: number;
+  mean: number | null;
+  /** Sample standard deviation √(M2/(n − 1)); null for n < 2. */
+  sd: number | null;
+  min: number | null;
+  max: number | null;
+  /** Nearest-rank median and 95th percentile over every flyable run, interpolated in its fine bin. */
   median: number | null;
   p95: number | null;
-  max: number | null;
+  /** The fine bin [low, high] holding the median / 95th percentile (the true value lies in it). */
+  medianBin: [number, number] | null;
+  p95Bin: [number, number] | null;
+}
+
+/** Shares of the flyable runs, each with its 95 % interval (math/stats.ts shareReport). */
+export interface ControllerShares {
+  settled: ShareReport;
+  notSettled: ShareReport;
+  unwound: ShareReport;
+  longWay: ShareReport;
+  chattered: ShareReport;
 }
 
 export interface WorstCase {
@@ -60,28 +87,12 @@ export interface ControllerSummary {
   unwound: number;
   longWay: number;
   chattered: number;
-  /** Shares of the flyable cases, 0…1. */
-  settledShare: number;
-  notSettledShare: number;
-  unwoundShare: number;
-  longWayShare: number;
-  chatteredShare: number;
-  settleTimeS: Spread;
-  jumps: Spread;
-  chatterPerS: Spread;
-  peakWheelMomentumFraction: Spread;
-  peakWheelTorqueFraction: Spread;
-  finalErrorDeg: Spread;
-  extraRotationDeg: Spread;
-  histograms: {
-    settleTimeS: Histogram;
-    rotationTravelledDeg: Histogram;
-    jumps: Histogram;
-    chatterPerS: Histogram;
-    peakWheelMomentumFraction: Histogram;
-    peakWheelTorqueFraction: Histogram;
-    finalErrorDeg: Histogram;
-  };
+  /** Shares of the flyable cases with their 95 % intervals. */
+  shares: ControllerShares;
+  /** Per quantity (quantities.ts): moments and quantiles. */
+  spreads: Record<QuantityKey, Spread>;
+  /** Per quantity: counts in the display bins. */
+  histograms: Record<QuantityKey, Histogram>;
   worst: WorstCase[];
 }
 
@@ -100,6 +111,8 @@ export interface MapPoint {
 
 export interface StudyInfo {
   scenarioName: string;
+  /** The scenario JSON as run (with the effective study block), when known; summary.json carries it. */
+  scenario?: unknown;
   def: StudyDefinition;
   controllers: { id: string; label: string; law: string }[];
 }
@@ -120,179 +133,114 @@ export interface StudySummary {
   controllers: ControllerSummary[];
 }
 
-function spread(values: number[]): Spread {
-  if (values.length === 0) return { median: null, p95: null, max: null };
-  const s = [...values].sort((a, b) => a - b);
-  const at = (p: number) => {
-    const v = s[Math.min(s.length - 1, Math.max(0, Math.ceil(p * s.length) - 1))]!;
-    return Number.isFinite(v) ? v : null;
-  };
-  return { median: at(0.5), p95: at(0.95), max: at(1) };
-}
-
-function histogram(quantity: string, unit: string, edges: number[], values: number[], extraOverflow = 0): Histogram {
-  const counts = new Array(edges.length - 1).fill(0);
-  let overflow = extraOverflow;
-  const last = edges[edges.length - 1]!;
-  for (const v of values) {
-    if (!(v <= last)) {
-      overflow++;
-      continue;
-    }
-    let k = 0;
-    while (k < counts.length - 1 && v >= edges[k + 1]!) k++;
-    counts[k]++;
-  }
-  return { quantity, unit, edges, counts, overflow };
-}
-
-const range = (n: number, step: number) => Array.from({ length: n + 1 }, (_, k) => k * step);
-
-/** Worst first: failed, then not settled (largest final error first), then the slowest settlers. */
-function worstOrder(a: { i: number; r: CaseRun }, b: { i: number; r: CaseRun }): number {
-  const rank = (r: CaseRun) => (r.status === 'failed' ? 0 : r.status === 'unsettled' ? 1 : 2);
-  const d = rank(a.r) - rank(b.r);
-  if (d !== 0) return d;
-  if (a.r.status === 'settled') return (b.r.settleTimeS ?? 0) - (a.r.settleTimeS ?? 0) || a.i - b.i;
-  return b.r.finalErrorDeg - a.r.finalErrorDeg || a.i - b.i;
-}
-
-export function outcomeOf(r: CaseRun): string {
-  if (r.status === 'failed' || r.status === 'unflyable' || r.status === 'unsettled') return r.status;
-  if (r.unwound) return 'unwound';
-  if (r.chattered) return 'chattered';
-  return 'settled';
-}
-
 /** Records sorted by case index (the canonical order of every output). */
 export function sortRecords(records: readonly CaseRecord[]): CaseRecord[] {
   return [...records].sort((a, b) => a.draw.index - b.draw.index);
 }
 
-export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]): StudySummary {
-  const records = sortRecords(recordsIn);
+function spreadOf(acc: StudyAccumulator['controllers'][number], k: number): Spread {
+  const m = pairwiseTotal(acc.moments[k]!);
+  const v = momentsVariance(m);
+  const h: Counts = acc.histograms[k]!;
+  const whole = QUANTITIES[k]!.sub === 1;
+  const at = (p: number) => {
+    const q = histogramQuantile(h, p);
+    if (!q || q.where !== 'in-range') return { value: null, bin: null };
+    // Whole-number quantities: one value per bin, its lower edge, exactly.
+    return { value: whole ? q.low : q.estimate, bin: [q.low!, q.high!] as [number, number] };
+  };
+  const med = at(0.5),
+    p95 = at(0.95);
+  return {
+    n: m.n,
+    mean: m.n > 0 ? m.mean : null,
+    sd: v === null ? null : Math.sqrt(v),
+    min: m.min,
+    max: m.max,
+    median: med.value,
+    p95: p95.value,
+    medianBin: med.bin,
+    p95Bin: p95.bin,
+  };
+}
+
+/** Fine counts summed into the display bins. */
+function displayHistogram(k: number, def: StudyDefinition, fine: Counts): Histogram {
+  const q = QUANTITIES[k]!;
+  const edges = q.edges(def);
+  const counts = new Array<number>(edges.length - 1).fill(0);
+  fine.counts.forEach((c, j) => (counts[Math.floor(j / q.sub)]! += c));
+  return { quantity: q.quantity, unit: q.unit, edges, counts, overflow: fine.overflow, underflow: fine.underflow };
+}
+
+function settleDefinition(def: StudyDefinition): string {
+  return def.mode === 'step-target' && def.stopAfterSettledForS > 0
+    ? `error angle and rate error stay below the scenario's settle thresholds until the end of the run; a case ends early after ${def.stopAfterSettledForS} s settled`
+    : "error angle and rate error (to the reference) stay below the scenario's settle thresholds until the end of the run; every case runs its full duration";
+}
+
+/** The summary of a mergeable study state (the one path every summary takes). */
+export function studySummaryOf(info: StudyInfo, acc: StudyAccumulator): StudySummary {
   const def = info.def;
   const controllers = info.controllers.map((c, ci): ControllerSummary => {
-    const runs = records.map((rec) => ({ i: rec.draw.index, r: rec.runs[ci]! }));
-    const fly = runs.filter((x) => x.r.status !== 'unflyable');
-    const count = (f: (r: CaseRun) => boolean) => fly.filter((x) => f(x.r)).length;
-    const settled = count((r) => r.status === 'settled');
-    const unsettled = count((r) => r.status === 'unsettled');
-    const failed = count((r) => r.status === 'failed');
-    const n = fly.length;
-    const share = (k: number) => (n > 0 ? k / n : 0);
-    const settleTimes = fly.map((x) => (x.r.status === 'settled' && x.r.settleTimeS !== null ? x.r.settleTimeS : Infinity));
-    const of = (f: (r: CaseRun) => number) => fly.map((x) => f(x.r));
-    const worst = [...fly]
-      .sort(worstOrder)
-      .slice(0, def.worstCases)
-      .map(({ i, r }) => ({
-        index: i,
-        status: r.status,
-        settleTimeS: r.settleTimeS,
-        finalErrorDeg: r.finalErrorDeg,
-        unwound: r.unwound,
-        chattered: r.chattered,
-        reason: r.reason,
-      }));
+    const a = acc.controllers[ci]!;
+    const n = a.counts;
+    const share = (k: number) => shareReport(k, n.flyable);
+    const spreads = {} as Record<QuantityKey, Spread>;
+    const histograms = {} as Record<QuantityKey, Histogram>;
+    QUANTITIES.forEach((q, k) => {
+      spreads[q.key] = spreadOf(a, k);
+      histograms[q.key] = displayHistogram(k, def, a.histograms[k]!);
+    });
     return {
       controllerId: c.id,
       label: c.label,
       law: c.law,
-      cases: runs.length,
-      flyable: n,
-      settled,
-      unsettled,
-      failed,
-      unwound: count((r) => r.unwound),
-      longWay: count((r) => r.longWay),
-      chattered: count((r) => r.chattered),
-      settledShare: share(settled),
-      notSettledShare: share(unsettled + failed),
-      unwoundShare: share(count((r) => r.unwound)),
-      longWayShare: share(count((r) => r.longWay)),
-      chatteredShare: share(count((r) => r.chattered)),
-      settleTimeS: spread(settleTimes),
-      jumps: spread(of((r) => r.jumps)),
-      chatterPerS: spread(of((r) => r.chatterPerS)),
-      peakWheelMomentumFraction: spread(of((r) => r.peakWheelMomentumFraction)),
-      peakWheelTorqueFraction: spread(of((r) => r.peakWheelTorqueFraction)),
-      finalErrorDeg: spread(of((r) => r.finalErrorDeg)),
-      extraRotationDeg: spread(of((r) => r.extraRotationDeg)),
-      histograms: {
-        settleTimeS: histogram(
-          'settle time',
-          's',
-          range(20, def.durationS / 20),
-          settleTimes.filter(Number.isFinite),
-          settleTimes.filter((t) => !Number.isFinite(t)).length,
-        ),
-        rotationTravelledDeg: histogram(
-          'rotation travelled',
-          'deg',
-          range(24, 15),
-          of((r) => r.rotationTravelledDeg),
-        ),
-        jumps: histogram(
-          'logic jumps',
-          'count',
-          range(10, 1),
-          of((r) => r.jumps),
-        ),
-        chatterPerS: histogram(
-          'chatter',
-          'events/s',
-          [0, 0.1, 0.2, 0.5, 1, 2, 5],
-          of((r) => r.chatterPerS),
-        ),
-        peakWheelMomentumFraction: histogram(
-          'peak wheel momentum',
-          'fraction of limit',
-          range(20, 0.05),
-          of((r) => r.peakWheelMomentumFraction),
-        ),
-        peakWheelTorqueFraction: histogram(
-          'peak wheel torque',
-          'fraction of limit',
-          range(20, 0.05),
-          of((r) => r.peakWheelTorqueFraction),
-        ),
-        finalErrorDeg: histogram(
-          'final error',
-          'deg',
-          [0, 0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 90],
-          of((r) => r.finalErrorDeg),
-        ),
+      ...n,
+      shares: {
+        settled: share(n.settled),
+        notSettled: share(n.unsettled + n.failed),
+        unwound: share(n.unwound),
+        longWay: share(n.longWay),
+        chattered: share(n.chattered),
       },
-      worst,
+      spreads,
+      histograms,
+      worst: a.worst.items.map((w) => w.payload),
     };
   });
+  const casesDone = acc.coverage.blocks.reduce((s, b) => s + 2 ** b.level, 0);
   return {
     scenarioName: info.scenarioName,
     seed: def.seed,
     runsRequested: def.runs,
-    casesDone: records.length,
-    incomplete: records.length < def.runs,
+    casesDone,
+    incomplete: casesDone < def.runs,
     durationS: def.durationS,
     mode: def.mode,
-    settleDefinition:
-      def.mode === 'step-target' && def.stopAfterSettledForS > 0
-        ? `error angle and rate error stay below the scenario's settle thresholds until the end of the run; a case ends early after ${def.stopAfterSettledForS} s settled`
-        : "error angle and rate error (to the reference) stay below the scenario's settle thresholds until the end of the run; every case runs its full duration",
-    inertiaRejections: records.reduce((s, r) => s + r.draw.inertiaRejections, 0),
-    unflyableCases: records.filter((r) => r.runs.length > 0 && r.runs.every((x) => x.status === 'unflyable')).length,
+    settleDefinition: settleDefinition(def),
+    inertiaRejections: acc.inertiaRejections,
+    unflyableCases: acc.unflyableCases,
     controllers,
   };
 }
 
+/** The mergeable state of a list of finished cases (any order; each case once). */
+export function accumulateRecords(info: StudyInfo, records: readonly CaseRecord[]): StudyAccumulator {
+  const acc = createStudyAccumulator(info);
+  for (const r of records) {
+    const a = accumulateCase(acc, r);
+    if (!a.ok) throw new RangeError(a.errors[0]!.message);
+  }
+  return acc;
+}
+
+/** The summary of a list of finished cases, through the mergeable path. */
+export function summarizeStudy(info: StudyInfo, records: readonly CaseRecord[]): StudySummary {
+  return studySummaryOf(info, accumulateRecords(info, records));
+}
+
 /** The outcome map: one point per finished case, in case order. */
 export function outcomeMap(recordsIn: readonly CaseRecord[]): MapPoint[] {
-  return sortRecords(recordsIn).map((rec) => ({
-    index: rec.draw.index,
-    axis: [rec.draw.errorAxis[0]!, rec.draw.errorAxis[1]!, rec.draw.errorAxis[2]!],
-    angleDeg: rec.draw.errorAngleRad * DEG_PER_RAD,
-    eta0: rec.draw.errorEta,
-    outcome: rec.runs.map(outcomeOf),
-    settleTimeS: rec.runs.map((r) => r.settleTimeS),
-  }));
+  return sortRecords(recordsIn).map(mapPointOf);
 }

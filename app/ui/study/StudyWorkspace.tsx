@@ -6,6 +6,8 @@
  */
 import { useEffect, useMemo } from 'react';
 import type { ControllerSummary, StudySummary } from '../../engine/study';
+import type { ShareReport } from '../../engine/math/stats';
+import { DESKTOP_RUNS_LIMIT } from '../../engine/study/campaignFolder';
 import { useAppState } from '../context';
 import { fmt, pct } from '../format';
 import { IssueText } from '../components/fields';
@@ -44,7 +46,8 @@ function ProgressBar() {
   const done = p?.done ?? 0;
   const frac = total > 0 ? done / total : 0;
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
-  if (phase === 'idle' || phase === 'invalid') return null;
+  const loadedFrom = useStudyState((s) => s.loadedFrom);
+  if (phase === 'idle' || phase === 'invalid' || loadedFrom !== null) return null;
   const nC = info?.controllers.length ?? 0;
   return (
     <div className="study-progress-wrap">
@@ -73,12 +76,40 @@ function ProgressBar() {
   );
 }
 
+/** "Open results…": a summary.json from the CLI or a merged campaign, read in the page (File API). */
+function OpenResultsButton({ disabled }: { disabled: boolean }) {
+  const session = useStudySession();
+  return (
+    <label
+      className={`small button-like ${disabled ? 'disabled' : ''}`}
+      title="Open the summary.json of a study run elsewhere or of a merged campaign (slewsmith study merge)"
+      data-testid="study-open-results-label"
+    >
+      Open results…
+      <input
+        type="file"
+        accept=".json,application/json"
+        hidden
+        disabled={disabled}
+        data-testid="study-open-results"
+        onChange={(e) => {
+          const input = e.currentTarget;
+          const file = input.files?.[0];
+          input.value = '';
+          if (file) void file.text().then((text) => session.openResults(text, file.name));
+        }}
+      />
+    </label>
+  );
+}
+
 function StudyBar() {
   const session = useStudySession();
   const phase = useStudyState((s) => s.phase);
   const choice = useStudyState((s) => s.workerChoice);
   const setupOpen = useStudyState((s) => s.setupOpen);
   const hasResults = useStudyState((s) => s.summary !== null && s.info !== null);
+  const loadedFrom = useStudyState((s) => s.loadedFrom);
   const runs = useAppState((s) => (s.scenario as { study?: { runs?: unknown } } | null)?.study?.runs);
   const validation = useAppState((s) => s.validation);
   const pipeline = useAppState((s) => s.pipeline);
@@ -142,7 +173,17 @@ function StudyBar() {
       <span className="push-right" />
       <button
         className="small"
-        disabled={!hasResults || active}
+        disabled={active || blockers.length > 0}
+        onClick={() => void session.saveCampaign()}
+        data-testid="study-save-campaign"
+        title="Save the study as a campaign for a cluster: one script that writes the campaign folder (scenario, Slurm job array and merge, README)"
+      >
+        Save as campaign…
+      </button>
+      <OpenResultsButton disabled={active} />
+      <button
+        className="small"
+        disabled={!hasResults || active || loadedFrom !== null}
         onClick={() => void session.exportCases()}
         data-testid="study-export-csv"
         title="Per-case table: one row per case and controller"
@@ -164,6 +205,17 @@ function StudyBar() {
     </div>
   );
 }
+
+/** A share with its 95 % interval: "1.2% · 0.6–2.4%" (Wilson score), "0.0% · ≤3.0%" at zero events (rule of three). */
+export function shareText(r: ShareReport): string {
+  if (r.of === 0) return '—';
+  const range = r.ruleOfThreeHigh !== null ? `≤${pct(r.ruleOfThreeHigh)}` : `${pct(r.low)}–${pct(r.high)}`;
+  return `${pct(r.share)} · ${range}`;
+}
+
+const shareTitle = (r: ShareReport) =>
+  `${r.count} of ${r.of}; 95 % Wilson score interval ${pct(r.low)}–${pct(r.high)}` +
+  (r.ruleOfThreeHigh !== null ? `; no event in ${r.of} runs: the rate is below ${pct(r.ruleOfThreeHigh)} at 95 % (rule of three)` : '');
 
 const settleText = (v: number | null, c: ControllerSummary, s: StudySummary) =>
   v === null ? (c.settled > 0 ? `>${s.durationS}` : '—') : fmt(v, 3);
@@ -205,20 +257,32 @@ function SharesTable({ summary }: { summary: StudySummary }) {
               <span className="swatch" style={{ background: PALETTE[i % PALETTE.length] }} /> {c.label}
             </td>
             <td className="num">{c.flyable}</td>
-            <td className={`num ${c.notSettledShare > 0 ? 'bad' : ''}`} data-testid={`share-unsettled-${c.controllerId}`}>
-              {pct(c.notSettledShare)}
+            <td
+              className={`num ${c.shares.notSettled.count > 0 ? 'bad' : ''}`}
+              data-testid={`share-unsettled-${c.controllerId}`}
+              title={shareTitle(c.shares.notSettled)}
+            >
+              {shareText(c.shares.notSettled)}
             </td>
-            <td className={`num ${c.unwoundShare > 0 ? 'bad' : ''}`} data-testid={`share-unwound-${c.controllerId}`}>
-              {pct(c.unwoundShare)}
+            <td
+              className={`num ${c.shares.unwound.count > 0 ? 'bad' : ''}`}
+              data-testid={`share-unwound-${c.controllerId}`}
+              title={shareTitle(c.shares.unwound)}
+            >
+              {shareText(c.shares.unwound)}
             </td>
-            <td className="num">{pct(c.longWayShare)}</td>
-            <td className="num">{pct(c.chatteredShare)}</td>
+            <td className="num" title={shareTitle(c.shares.longWay)}>
+              {shareText(c.shares.longWay)}
+            </td>
+            <td className="num" title={shareTitle(c.shares.chattered)}>
+              {shareText(c.shares.chattered)}
+            </td>
             <td className="num">
-              {settleText(c.settleTimeS.median, c, summary)} / {settleText(c.settleTimeS.p95, c, summary)}
+              {settleText(c.spreads.settleTimeS.median, c, summary)} / {settleText(c.spreads.settleTimeS.p95, c, summary)}
             </td>
-            <td className="num">{fmt(c.finalErrorDeg.p95, 3)}</td>
-            <td className="num">{pct(c.peakWheelMomentumFraction.p95)}</td>
-            <td className="num">{pct(c.peakWheelTorqueFraction.p95)}</td>
+            <td className="num">{fmt(c.spreads.finalErrorDeg.p95, 3)}</td>
+            <td className="num">{pct(c.spreads.peakWheelMomentumFraction.p95)}</td>
+            <td className="num">{pct(c.spreads.peakWheelTorqueFraction.p95)}</td>
           </tr>
         ))}
       </tbody>
@@ -279,6 +343,15 @@ function WorstCases({ summary }: { summary: StudySummary }) {
   );
 }
 
+/** Cases × controllers of the document's study block (0 when it has none or it is not readable). */
+function studyCaseRuns(scenario: unknown): number {
+  const sc = scenario as { study?: { runs?: unknown; controllers?: unknown }; controllers?: unknown } | null;
+  const runs = sc?.study?.runs;
+  if (typeof runs !== 'number') return 0;
+  const ids = Array.isArray(sc?.study?.controllers) ? sc.study.controllers : Array.isArray(sc?.controllers) ? sc.controllers : [];
+  return runs * Math.max(1, ids.length);
+}
+
 function Results() {
   const summary = useStudyState((s) => s.summary);
   const info = useStudyState((s) => s.info);
@@ -288,7 +361,8 @@ function Results() {
   const warnings = useStudyState((s) => s.warnings);
   const message = useStudyState((s) => s.message);
   const forScenario = useStudyState((s) => s.scenario);
-  const current = useAppState((s) => s.scenario === forScenario);
+  const loadedFrom = useStudyState((s) => s.loadedFrom);
+  const current = useAppState((s) => s.scenario === forScenario) || loadedFrom !== null;
   const nameNow = useAppState((s) => (s.scenario as { name?: unknown } | null)?.name);
   const session = useStudySession();
   const validation = useAppState((s) => s.validation);
@@ -302,8 +376,16 @@ function Results() {
     [session, validation, pipeline, scenarioNow],
   );
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
+  const caseRuns = studyCaseRuns(scenarioNow);
   return (
     <div className="study-results" data-testid="study-results">
+      {caseRuns > DESKTOP_RUNS_LIMIT && (
+        <div className="study-campaign-hint" data-testid="study-campaign-hint">
+          This study is {caseRuns.toLocaleString('en')} runs (cases × controllers), more than the {DESKTOP_RUNS_LIMIT.toLocaleString('en')}{' '}
+          a desktop finishes in reasonable time: use <strong>Save as campaign…</strong> to run it as a job array on a cluster, then{' '}
+          <strong>Open results…</strong> with the merged summary.json.
+        </div>
+      )}
       {!active && blockers.length > 0 && (
         <div className="study-errors blockers" data-testid="study-blockers">
           <div className="blockers-head">Running the study is disabled until these are fixed:</div>
@@ -348,6 +430,12 @@ function Results() {
             <div className="study-stale" data-testid="study-stale">
               These results are for {info.scenarioName === nameNow ? 'an earlier version of this scenario' : `“${info.scenarioName}”`}; run
               the study again for the current one.
+            </div>
+          )}
+          {loadedFrom !== null && (
+            <div className="study-loaded" data-testid="study-loaded-from">
+              Results opened from <code>{loadedFrom}</code> (per-case rows stay in its cases.csv; a worst case re-flies from the scenario
+              stored in the file).
             </div>
           )}
           <div className="study-head-line">

@@ -32,6 +32,9 @@ import {
   type StudySummary,
   type StudyWorkerPort,
 } from '../../engine/study';
+import { readStudySummary } from '../../engine/study/summaryRead';
+import { makeStudyContext } from '../../engine/study/context';
+import { campaignBundleScript, suggestedShards } from '../../engine/study/campaignFolder';
 import type { SlewsmithBridge } from '../../bridge/api';
 import type { AppStore } from '../store/document';
 import type { PlaybackClock } from '../playback/clock';
@@ -66,6 +69,8 @@ export interface StudyUiState {
   opening: string | null;
   /** The setup column is shown (hide it to widen the results). */
   setupOpen: boolean;
+  /** The file the results were opened from (a merged campaign's summary.json), or null for a study run here. */
+  loadedFrom: string | null;
 }
 
 export interface StudyAppHandles {
@@ -106,6 +111,10 @@ export interface StudySession {
   /** Add the default study block to a scenario that has none (one undo step). */
   addDefaultStudy(): void;
   openCase(index: number, controllerId: string): Promise<void>;
+  /** Save the current study as a campaign (one script that writes the campaign folder on the cluster). */
+  saveCampaign(): Promise<void>;
+  /** Show the results of a summary.json (a merged campaign): true when it was opened, else a notice says why. */
+  openResults(text: string, fileName: string): boolean;
   exportCases(): Promise<void>;
   exportSummary(): Promise<void>;
   dispose(): void;
@@ -153,6 +162,7 @@ const INITIAL: StudyUiState = {
   scenario: null,
   opening: null,
   setupOpen: true,
+  loadedFrom: null,
 };
 
 interface Running {
@@ -294,6 +304,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       warnings: [],
       message: '',
       scenario,
+      loadedFrom: null,
     });
     const onCase = (rec: CaseRecord) => {
       r.live.push(rec);
@@ -436,7 +447,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       return;
     }
     const slug = studySlug(s.info.scenarioName);
-    const content = kind === 'cases' ? casesCsv(s.info, s.records, s.summary) : summaryJson(s.info, s.summary, s.records);
+    const content = kind === 'cases' ? casesCsv(s.info, s.records, s.summary) : summaryJson(s.info, s.summary, s.map);
     const suggestedName = kind === 'cases' ? `${slug}-study-cases.csv` : `${slug}-study-summary.json`;
     const r = await app.bridge.exportFile({ suggestedName, content });
     if (r.status === 'exported') app.notify(`Exported ${r.file.name}`);
@@ -459,6 +470,83 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       app.store.edit('study', defaultStudyBlock(sc), { label: 'Add study block', coalesceKey: null });
     },
     openCase,
+    async saveCampaign() {
+      const b = blockers();
+      if (b.length) {
+        app.notify(b[0]!.message, 'error');
+        return;
+      }
+      const ctx = makeStudyContext(app.store.getState().scenario);
+      if (!ctx.ok) {
+        app.notify(ctx.errors.map((e) => e.message).join('; '), 'error');
+        return;
+      }
+      const c = ctx.value;
+      const controllers = c.controllers.map((x) => x.id);
+      const scenario = { ...c.json, study: { ...(c.json.study as Obj), runs: c.def.runs, seed: c.def.seed, controllers } };
+      const name = c.prepared.scenario.name;
+      const slug = studySlug(name);
+      const text = campaignBundleScript(
+        {
+          scenarioName: name,
+          seed: c.def.seed,
+          runs: c.def.runs,
+          controllers,
+          shards: suggestedShards(c.def.runs),
+          command: 'slewsmith',
+          cpusPerTask: 1,
+          memoryMB: 1024,
+          timeLimitMin: 60,
+        },
+        scenario,
+        slug,
+      );
+      const r = await app.bridge.exportFile({ suggestedName: `${slug}-campaign.sh`, content: text });
+      if (r.status === 'exported') app.notify(`Saved ${r.file.name}: run "bash ${r.file.name}" on the cluster to make the campaign folder`);
+      else if (r.status === 'failed') app.notify(r.message, 'error');
+      else if (r.status === 'invalid') app.notify(r.errors.map((e) => e.message).join('; '), 'error');
+    },
+    openResults(text, fileName) {
+      if (running) {
+        app.notify('Cancel the running study before opening results', 'error');
+        return false;
+      }
+      let parsed: unknown;
+      try {
+        parsed = JSON.parse(text);
+      } catch {
+        app.notify(`${fileName} is not JSON: open the summary.json a study or a campaign merge wrote`, 'error');
+        return false;
+      }
+      const r = readStudySummary(parsed);
+      if (!r.ok) {
+        app.notify(
+          `${fileName} cannot be opened: ${r.errors
+            .slice(0, 3)
+            .map((e) => e.message)
+            .join('; ')}`,
+          'error',
+        );
+        return false;
+      }
+      const v = r.value;
+      store.setState({
+        open: true,
+        phase: v.summary.incomplete ? 'cancelled' : 'done',
+        info: v.info,
+        summary: v.summary,
+        map: v.map,
+        records: [],
+        errors: [],
+        warnings: [],
+        message: '',
+        scenario: v.scenario,
+        progress: null,
+        loadedFrom: fileName,
+      });
+      app.notify(`Opened the results of ${v.summary.casesDone.toLocaleString('en')} cases from ${fileName}`);
+      return true;
+    },
     exportCases: () => exportText('cases'),
     exportSummary: () => exportText('summary'),
     dispose() {
