@@ -19,6 +19,7 @@ import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
 import type { KeepOutCone } from '../scenario/resolve';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
+import type { TrackForm } from '../scenario/orbitSchema';
 
 export type { RunMode } from '../sim/types';
 export type { LogicKind } from '../control/types';
@@ -188,7 +189,8 @@ export interface ScenarioSummary {
   inertialFrame: 'EME2000';
   wheelCount: number;
   initialQ: Float64Array;
-  targets: { label: string; form: AttitudeForm; q: Float64Array; holdS: number }[];
+  /** q: the fixed attitude, or for a moving (track) target the attitude at which tracking starts in the plan. */
+  targets: { label: string; form: AttitudeForm | TrackForm; q: Float64Array; holdS: number }[];
   settleAngleRad: number;
   settleRateRadPerS: number;
   /** The validated scenario file in the current format, kept for provenance (the JSON export copies it). */
