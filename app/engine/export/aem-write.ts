@@ -24,6 +24,8 @@ import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { ScenarioSummary } from '../pipeline/types';
 import { epochUnits, formatEpochUnits, parseIsoUtcMs } from '../scenario/utc';
+import { parseUtcIso, utcLabelFromTai } from '../time/iso';
+import { orbitHeaderLines, windowText } from './orbitText';
 import type { RunTrace } from '../sim/types';
 import { AEM_VERSION, KVN_MAX_LINE } from './aem-keywords';
 import { parseAem } from './aem-read';
@@ -98,6 +100,8 @@ interface AemSettings {
 /** One META/DATA block pair: its label, its data lines and its first and last epochs (epoch units). */
 interface AemBlock {
   label: string;
+  /** Target index of the segment. */
+  index: number;
   lines: string[];
   first: number;
   last: number;
@@ -114,12 +118,12 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   const segs = exportSegments(trace, scenario, meta.segments);
   if (!segs.ok) return segs;
   const idx = sel.value;
-  const blocks = dataBlocks(trace, segs.value, idx, hemisphereSigns(trace, idx), scenario.epochUnixMs, settings);
+  const blocks = dataBlocks(trace, segs.value, idx, hemisphereSigns(trace, idx), scenario.epochUtc, settings);
   if (!blocks.ok) return blocks;
 
   const out: string[] = [];
   headerLines(out, o, settings, scenario, meta);
-  blocks.value.forEach((blk, b) => segmentLines(out, blk, b, blocks.value.length, o, settings));
+  blocks.value.forEach((blk, b) => segmentLines(out, blk, b, blocks.value.length, o, settings, scenario));
   const eol = o.lineEnding ?? '\n';
   return readBack(out.join(eol) + eol);
 }
@@ -233,9 +237,10 @@ function dataBlocks(
   segments: readonly ExportSegment[],
   idx: ArrayLike<number>,
   sign: Float64Array,
-  epochMs: number,
+  epochUtc: string,
   st: AemSettings,
 ): Result<AemBlock[]> {
+  const label = epochLabeller(epochUtc, st.fracDigits);
   const aq = new Float64Array(4);
   const blocks: AemBlock[] = [];
   const segErrors: Issue[] = [];
@@ -249,13 +254,13 @@ function dataBlocks(
       const k = idx[m]!;
       const t = trace.t[k]!;
       if (t < seg.startS - slack || t > seg.stopS + slack) continue;
-      const u = epochUnits(epochMs, t, st.fracDigits);
+      const u = Math.round(t * 10 ** st.fracDigits);
       if (u <= lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
       if (Number.isNaN(firstUnits)) firstUnits = u;
       lastUnits = u;
       aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
       const s = sign[k]!;
-      const parts = [formatEpochUnits(u, st.fracDigits)];
+      const parts = [label(u)];
       for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, st.qDec));
       for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, st.rateSig));
       lines.push(parts.join(' '));
@@ -268,7 +273,7 @@ function dataBlocks(
       });
       continue;
     }
-    blocks.push({ label: seg.label, lines, first: firstUnits, last: lastUnits });
+    blocks.push({ label: seg.label, index: seg.index, lines, first: firstUnits, last: lastUnits });
   }
   return segErrors.length ? fail(segErrors) : ok(blocks);
 }
@@ -287,26 +292,39 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
   out.push(
     `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,
   );
+  if (scenario.orbit) for (const line of orbitHeaderLines(scenario.orbit)) out.push(`COMMENT ${commentText(line)}`);
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);
 }
 
 /** Segment b of count: its metadata block and its data block. */
-function segmentLines(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
+function segmentLines(
+  out: string[],
+  blk: AemBlock,
+  b: number,
+  count: number,
+  o: AemOptions,
+  st: AemSettings,
+  scenario: ScenarioSummary,
+): void {
+  const label = epochLabeller(scenario.epochUtc, st.fracDigits);
   const text = st.text;
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   out.push('');
   out.push('META_START');
   out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.label}`)}`);
+  const orbit = scenario.orbit;
+  const w = orbit?.windows.find((x) => x.target === blk.index);
+  if (orbit && w) out.push(`COMMENT ${commentText(windowText(orbit, w))}`);
   kv('OBJECT_NAME', st.objectName);
   kv('OBJECT_ID', text.objectId as string);
   if (text.centerName !== null) kv('CENTER_NAME', text.centerName);
   kv('REF_FRAME_A', text.refFrameA as string);
   kv('REF_FRAME_B', text.refFrameB as string);
   kv('TIME_SYSTEM', 'UTC');
-  const start = formatEpochUnits(blk.first, st.fracDigits);
-  const stop = formatEpochUnits(blk.last, st.fracDigits);
+  const start = label(blk.first);
+  const stop = label(blk.last);
   kv('START_TIME', start);
   kv('USEABLE_START_TIME', start);
   kv('USEABLE_STOP_TIME', stop);
@@ -337,4 +355,26 @@ function readBack(textOut: string): Result<string> {
     );
   }
   return ok(textOut);
+}
+
+/**
+ * Epoch labels of plan times counted in units of 10^-digits s from the scenario epoch: UTC with
+ * leap seconds counted (time/iso.ts), so an inserted second reads 23:59:60.xxx (CCSDS 504.0-B-2
+ * §6.8.9 allows seconds = 60 in UTC). The epoch was validated upstream; a bad one falls back to
+ * the POSIX labels.
+ */
+function epochLabeller(epochUtc: string, digits: number): (units: number) => string {
+  const e = parseUtcIso(epochUtc);
+  const per = 10 ** digits;
+  if (!e.ok) {
+    const ms = parseIsoUtcMs(epochUtc) ?? 0;
+    return (u) => formatEpochUnits(epochUnits(ms, u / per, digits), digits);
+  }
+  const whole = Math.floor(e.value.taiS);
+  const fracUnits = Math.round((e.value.taiS - whole) * per);
+  return (u) => {
+    const total = fracUnits + u;
+    const s = Math.floor(total / per);
+    return utcLabelFromTai(whole + s + (total - s * per) / per, digits);
+  };
 }

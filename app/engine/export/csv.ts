@@ -3,6 +3,7 @@
  * column names with units, one row per (optionally decimated) sample. Comma-separated, `.` as the
  * decimal mark, numbers in shortest round-trip form.
  */
+import { orbitHeaderLines } from './orbitText';
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { ScenarioSummary } from '../pipeline/types';
@@ -58,6 +59,7 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
     options.sampleRateHz !== undefined
       ? `samples: ${idx.length} of ${trace.n} (decimated to about ${options.sampleRateHz} Hz; the last sample always kept)`
       : `samples: ${trace.n}`,
+    ...(scenario.orbit ? orbitHeaderLines(scenario.orbit) : []),
     `columns: ${cols.map((c) => `${c.name} = ${c.description}${c.unit && c.unit !== 'count' ? ` [${c.unit}]` : ''}`).join('; ')}`,
   ];
   const lines: string[] = head.map((h) => `# ${h}`);

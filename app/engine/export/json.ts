@@ -133,6 +133,7 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
       })),
     },
     segments: segs.value,
+    ...(scenario.orbit ? { orbit: scenario.orbit } : {}),
     wheels: meta.wheels
       ? {
           axes: Array.from(meta.wheels.axes),

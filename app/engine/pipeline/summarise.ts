@@ -7,6 +7,7 @@ import { symmetricEigen3 } from '../math/mat3';
 import { computeMetrics, type RunMetrics } from '../metrics/metrics';
 import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
 import { plannedSwitchTimes } from '../plan/reference';
+import { trackingSwitchTimes } from '../sim/trackingReference';
 import type { SequencePlan } from '../plan/types';
 import type { SensorModel } from '../sim/sensors';
 import { makeDiagnostics } from '../control/types';
@@ -43,6 +44,8 @@ export interface MetricContext {
   /** Planned switches of the flight's reference (s). */
   plannedSwitchTimes: Float64Array;
   sensors: SensorModel;
+  /** Orbit plans: segments are measured against the moving reference (metrics/segments.ts). */
+  movingTargets?: boolean;
 }
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
@@ -57,6 +60,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     plannedSwitchTimes: m.plannedSwitchTimes,
     boundedNoiseEta: m.sensors.adversarialEta,
     liftDependent,
+    movingTargets: m.movingTargets ?? false,
   });
 }
 
@@ -108,8 +112,11 @@ export function metricContext(
     maxTorqueNm: v.wheels.maxTorqueNm,
     maxMomentumNms: v.wheels.maxMomentumNms,
     targets,
-    plannedSwitchTimes: plannedSwitchTimes(plan.reference, mode === 'step-target'),
+    plannedSwitchTimes: plan.tracking
+      ? trackingSwitchTimes(plan.tracking, mode === 'step-target')
+      : plannedSwitchTimes(plan.reference, mode === 'step-target'),
     sensors,
+    movingTargets: !!plan.tracking,
   };
 }
 
