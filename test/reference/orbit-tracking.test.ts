@@ -105,9 +105,9 @@ describe('slew onto a moving target (trackingSlew.ts)', () => {
         worstWd = Math.max(worstWd, Math.abs((b.w[i]! - a.w[i]!) / (2 * h) - c.wd[i]!));
       }
     }
-    // Truncation O(h²|d³q|) plus SGP4 interpolation noise: 1e-8 rad/s and 1e-7 rad/s² (measured ~1e-10, ~1e-9).
+    // Central-difference truncation O(h²) and round-off ~1e-16/h: measured 1.4e-9 rad/s and 6.4e-12 rad/s².
     expect(worstW).toBeLessThan(1e-8);
-    expect(worstWd).toBeLessThan(1e-7);
+    expect(worstWd).toBeLessThan(1e-9);
   });
 });
 
@@ -208,6 +208,7 @@ describe('closed loop: tracking a ground site holds the pointing error at the le
     const level = Math.sqrt(bias2 + 2 * var1);
     // The loop also carries the truth–design model mismatch, the wheels' friction and the held
     // torque; allow 3× the linear level for the RMS and 6× for the peak (common practice, no source).
+    // Measured (level 2.43e-4 rad): PD and hysteretic RMS 1.78×, peak 2.90×; synergistic 1.31×, 2.23×.
     expect(w.rmsPointingErrorRad!).toBeLessThan(3 * level);
     expect(w.peakPointingErrorRad!).toBeLessThan(6 * level);
     expect(level).toBeGreaterThan(0);
