@@ -7,6 +7,8 @@ import { planSummary } from '../../app/engine/pipeline/plan';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { ParsedArgs } from './args';
 import { planTable } from './format';
+import { orbitOutput } from '../../app/engine/pipeline/orbit';
+import { orbitJson, windowsText } from './orbitText';
 import { printIssues, type CliContext } from './io';
 
 export { scenarioJsonSchema } from '../../app/engine/scenario/schema';
@@ -36,7 +38,9 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     return 2;
   }
   const plan = planSummary(p.value.plan, p.value.scenario.targets);
-  if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
-  else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
+  const orbit = p.value.orbit ? orbitOutput(p.value.scenario, p.value.orbit, p.value.plan.tracking ?? null) : null;
+  if (orbit) for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
+  if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan, ...(orbit ? { orbit: orbitJson(orbit) } : {}) }, null, 2));
+  else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${orbit ? `${windowsText(orbit)}\n\n` : ''}${CAUTION_TEXT}`);
   return plan.feasible ? 0 : 1;
 }

@@ -11,6 +11,7 @@ import type { RunMode } from '../../app/engine/pipeline/types';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import { exportRun, type ExportFormat } from '../../app/engine/export/runExport';
 import { comparisonCsv, comparisonTable } from './format';
+import { windowErrorText } from './orbitText';
 
 export interface ComputeJob {
   command: 'fly' | 'compare';
@@ -98,7 +99,7 @@ export function computeJob(job: ComputeJob, progress: ProgressSink): ComputeResu
     kind: 'ran',
     feasible: o.plan.feasible,
     headline,
-    table: comparisonTable(o.comparison, o.best),
+    table: o.orbit ? `${comparisonTable(o.comparison, o.best)}\n\n${windowErrorText(o.runs)}` : comparisonTable(o.comparison, o.best),
     csv: comparisonCsv(o.comparison, CAUTION_TEXT),
     json: JSON.stringify({ caution: CAUTION_TEXT, comparison: o.comparison, best: o.best }, null, 2),
     files,

@@ -31,7 +31,9 @@ export function planTable(plan: PlanSummary): string {
   const notes = plan.segments.map((s) => `  ${s.index + 1}. ${s.feasible ? '' : 'INFEASIBLE: '}${s.reason}`).join('\n');
   const verdict = plan.feasible
     ? `Plan feasible: total ${plan.totalTimeS.toFixed(2)} s (slews plus holds).`
-    : 'Plan INFEASIBLE: at least one slew cannot be flown within the wheel limits (see the reasons above).';
+    : plan.segments.some((s) => !s.feasible && /window|pass|horizon/.test(s.reason))
+      ? 'Plan INFEASIBLE: at least one target cannot be planned within its window or the orbit horizon (see the reasons above).'
+      : 'Plan INFEASIBLE: at least one slew cannot be flown within the wheel limits (see the reasons above).';
   return `${head}\n\n${notes}\n\n${verdict}`;
 }
 

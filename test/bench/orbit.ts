@@ -4,7 +4,11 @@
  *    Sun, Moon and the TEME → EME2000 rotation at 600 s nodes);
  *  - visibility windows for 5 invented sites and eclipse windows over that day;
  *  - per-sample evaluation: sampleEphemeris (r, v, Sun and Moon directions, eclipse; goal ≤ 2 µs)
- *    and targetStateAt for a ground-site target (attitude, ω, ω̇; no goal set).
+ *    and targetStateAt for a ground-site target (attitude, ω, ω̇; no goal set);
+ *  - the issue's day figure: ephemeris + Sun + windows (5 sites, eclipses) + a 20-target sequence
+ *    planned by the orbit-aware planner (Sun, nadir and site passes; goal ≤ 1 s);
+ *  - the planned reference evaluated per control sample (trackingReference.at: slew or tracking
+ *    state with ω and ω̇; the issue's "ephemeris evaluation per control sample", goal ≤ 2 µs).
  * The orbit is the invented Lumen-6 element set of test/reference/orbit-fixtures.ts.
  *
  * Run: `node --import tsx test/bench/orbit.ts` or `npm run bench orbit`.
@@ -18,6 +22,10 @@ import { eclipseWindows, visibilityWindows } from '../../app/engine/orbit/window
 import { createTargetState, makeTarget, targetStateAt } from '../../app/engine/orbit/targets';
 import { RAD_PER_DEG } from '../../app/engine/units';
 import { DEMO_TLE_SSO } from '../reference/orbit-fixtures';
+import { planTrackingSequence } from '../../app/engine/plan/trackingSequence';
+import type { TrackingTargetInput } from '../../app/engine/plan/trackingTypes';
+import type { SequencePlan } from '../../app/engine/plan/types';
+import { trackingReference } from '../../app/engine/sim/trackingReference';
 
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
@@ -136,6 +144,82 @@ export async function benchOrbit(): Promise<void> {
     { min: (tTarget.min * 1000) / N, median: (tTarget.median * 1000) / N },
     'µs',
     'none set',
+  );
+  // The day with a 20-target sequence planned (Sun, site pass, nadir, …), box wheel limits.
+  const J = Float64Array.of(0.08, 0, 0, 0, 0.09, 0, 0, 0, 0.03);
+  const limits = {
+    torqueCapacity: () => 0.004,
+    momentumCapacity: () => 0.03,
+    torqueMargin: 0.8,
+    momentumMargin: 0.8,
+    slewRateLimitRadPerS: 3 * RAD_PER_DEG,
+  };
+  const sun = makeTarget({ kind: 'sun', primaryBody: [0, 0, -1], secondaryBody: [1, 0, 0] });
+  const nadir = makeTarget({ kind: 'nadir', yaw: 'lvlh' });
+  if (!sun.ok || !nadir.ok) throw new Error('targets');
+  let planned = 0;
+  let plan: SequencePlan | null = null;
+  const dayPlan = () => {
+    build();
+    const siteTargets = SITES.map((site) => {
+      const t = makeTarget({ kind: 'site', site, primaryBody: [0, 0, 1], secondaryBody: [0, 1, 0] });
+      if (!t.ok) throw new Error('site target');
+      return t.value;
+    });
+    const passes = SITES.map((site) => {
+      const w = visibilityWindows(eph!, site, 0, 86400);
+      if (!w.ok) throw new Error('windows');
+      return w.value;
+    });
+    shadows();
+    const targets: TrackingTargetInput[] = [];
+    for (let i = 0; i < 20; i++) {
+      const k = (i >> 2) % SITES.length;
+      if (i % 4 === 1)
+        targets.push({
+          label: `site ${k + 1}`,
+          holdS: 60,
+          source: { kind: 'moving', target: siteTargets[k]! },
+          window: { kind: 'pass', passes: passes[k]!, untilPassEnd: false },
+        });
+      else
+        targets.push({
+          label: i % 4 === 3 ? 'nadir' : 'sun',
+          holdS: 300,
+          source: { kind: 'moving', target: (i % 4 === 3 ? nadir : sun).value },
+          window: null,
+        });
+    }
+    const r = planTrackingSequence(
+      { qStart: [0, 0, 0, 1], inertia: J, wheelMomentumBody: [0, 0, 0], ephemeris: eph!, horizonS: 86000, targets },
+      limits,
+    );
+    if (!r.ok) throw new Error('plan');
+    plan = r.value;
+    planned = r.value.tracking!.entries.length;
+  };
+  dayPlan();
+  const tPlan = timed(3, dayPlan);
+  console.log(`   day plan: ${planned} of 20 targets planned, feasible ${plan!.feasible}, total ${plan!.totalS.toFixed(0)} s`);
+  line('day: ephemeris + Sun + windows (5 sites, eclipses) + 20-target plan', tPlan, 'ms', '≤ 1000 ms');
+  const ref = trackingReference(plan!.tracking!, 'follow-plan');
+  const q = new Float64Array(4),
+    w = new Float64Array(3),
+    wd = new Float64Array(3);
+  const span = plan!.totalS;
+  const tref = new Float64Array(4096).map((_, k) => (k * span) / 4096 + 0.37);
+  const refFn = (t: number) => {
+    sink += ref.at(t, q, w, wd);
+  };
+  for (let k = 0; k < 200_000; k++) refFn(tref[k & 4095]!);
+  const tRef = timed(7, () => {
+    for (let k = 0; k < N; k++) refFn(tref[k & 4095]!);
+  });
+  line(
+    'planned reference per control sample (q, ω, ω̇ of slew/tracking)',
+    { min: (tRef.min * 1000) / N, median: (tRef.median * 1000) / N },
+    'µs',
+    '≤ 2 µs',
   );
   if (Number.isNaN(sink)) console.log('   (sink)');
 }

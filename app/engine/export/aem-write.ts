@@ -24,6 +24,8 @@ import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { ScenarioSummary } from '../pipeline/types';
 import { epochUnits, formatEpochUnits, parseIsoUtcMs } from '../scenario/utc';
+import { parseUtcIso, utcLabelFromTai } from '../time/iso';
+import { orbitHeaderLines, windowText } from './orbitText';
 import type { RunTrace } from '../sim/types';
 import { AEM_VERSION, KVN_MAX_LINE } from './aem-keywords';
 import { AemLineChecker } from './aem-read';
@@ -142,11 +144,12 @@ export function aemChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
   const segs = exportSegments(trace, scenario, meta.segments);
   if (!segs.ok) return segs;
   const idx = sel.value;
-  const blocks = dataBlocks(trace, segs.value, idx, scenario.epochUnixMs, settings);
+  const blocks = dataBlocks(trace, segs.value, idx, settings);
   if (!blocks.ok) return blocks;
   const head: string[] = [];
   headerLines(head, o, settings, scenario, meta);
-  const data: AemData = { trace, idx, sign: hemisphereSigns(trace, idx), epochMs: scenario.epochUnixMs, st: settings };
+  const label = epochLabeller(scenario.epochUtc, settings.fracDigits);
+  const data: AemData = { trace, idx, sign: hemisphereSigns(trace, idx), label, st: settings, scenario };
   return ok(aemText(head, blocks.value, data, o));
 }
 
@@ -253,13 +256,17 @@ function hemisphereSigns(trace: RunTrace, idx: ArrayLike<number>): Float64Array 
   return sign;
 }
 
-/** What the data lines are made from: the trace, the selected samples, their hemisphere signs, the epoch and the settings. */
+/**
+ * What the data lines are made from: the trace, the selected samples, their hemisphere signs, the
+ * epoch labeller (plan-time units → UTC text), the settings and the scenario (orbit windows).
+ */
 interface AemData {
   trace: RunTrace;
   idx: ArrayLike<number>;
   sign: Float64Array;
-  epochMs: number;
+  label: (units: number) => string;
   st: AemSettings;
+  scenario: ScenarioSummary;
 }
 
 /**
@@ -276,19 +283,20 @@ class SegmentSamples {
   private readonly slack: number;
 
   constructor(
-    private readonly d: Pick<AemData, 'trace' | 'idx' | 'epochMs' | 'st'>,
+    private readonly d: Pick<AemData, 'trace' | 'idx' | 'st'>,
     private readonly seg: ExportSegment,
   ) {
     this.slack = 1e-9 * Math.max(1, Math.abs(seg.stopS));
   }
 
   next(): boolean {
-    const { trace, idx, epochMs, st } = this.d;
+    const { trace, idx, st } = this.d;
     while (this.m < idx.length) {
       const k = idx[this.m++]!;
       const t = trace.t[k]!;
       if (t < this.seg.startS - this.slack || t > this.seg.stopS + this.slack) continue;
-      const u = epochUnits(epochMs, t, st.fracDigits);
+      // Plan time in units of 10^-digits s from the scenario epoch; the labeller turns it into UTC.
+      const u = Math.round(t * 10 ** st.fracDigits);
       if (u <= this.lastUnits) continue; // repeated printed epoch (logic jump, or finer than the epoch resolution)
       this.lastUnits = u;
       this.k = k;
@@ -304,7 +312,6 @@ function dataBlocks(
   trace: RunTrace,
   segments: readonly ExportSegment[],
   idx: ArrayLike<number>,
-  epochMs: number,
   st: AemSettings,
 ): Result<AemBlock[]> {
   const blocks: AemBlock[] = [];
@@ -312,7 +319,7 @@ function dataBlocks(
   for (let b = 0; b < segments.length; b++) {
     const seg = segments[b]!;
     const blk: AemBlock = { seg, count: 0, first: NaN, last: NaN };
-    const it = new SegmentSamples({ trace, idx, epochMs, st }, seg);
+    const it = new SegmentSamples({ trace, idx, st }, seg);
     while (it.next()) {
       if (blk.count++ === 0) blk.first = it.units;
       blk.last = it.units;
@@ -335,7 +342,7 @@ function dataLine(d: AemData, k: number, u: number, aq: Float64Array): string {
   const { trace, st } = d;
   aemQuaternionFromAttitude(aq, trace.q.subarray(4 * k, 4 * k + 4));
   const s = d.sign[k]!;
-  const parts = [formatEpochUnits(u, st.fracDigits)];
+  const parts = [d.label(u)];
   for (let i = 0; i < 4; i++) parts.push(kvnFixed(s * aq[i]!, st.qDec));
   for (let i = 0; i < 3; i++) parts.push(kvnSignificant(trace.omega[3 * k + i]! * DEG_PER_RAD, st.rateSig));
   return parts.join(' ');
@@ -358,7 +365,7 @@ function* aemText(head: readonly string[], blocks: readonly AemBlock[], d: AemDa
   const aq = new Float64Array(4);
   for (let b = 0; b < blocks.length; b++) {
     const meta: string[] = [];
-    segmentMeta(meta, blocks[b]!, b, blocks.length, o, d.st);
+    segmentMeta(meta, blocks[b]!, b, blocks.length, o, d);
     for (const l of meta) if ((chunk = put(l)) !== null) yield chunk;
     const it = new SegmentSamples(d, blocks[b]!.seg);
     while (it.next()) if ((chunk = put(dataLine(d, it.k, it.units, aq))) !== null) yield chunk;
@@ -384,26 +391,31 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
   out.push(
     `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,
   );
+  if (scenario.orbit) for (const line of orbitHeaderLines(scenario.orbit)) out.push(`COMMENT ${commentText(line)}`);
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);
 }
 
 /** Segment b of count: its metadata block and the start of its data block (the data lines and DATA_STOP follow). */
-function segmentMeta(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
+function segmentMeta(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, d: AemData): void {
+  const st = d.st;
   const text = st.text;
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   out.push('');
   out.push('META_START');
   out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.seg.label}`)}`);
+  const orbit = d.scenario.orbit;
+  const w = orbit?.windows.find((x) => x.target === blk.seg.index);
+  if (orbit && w) out.push(`COMMENT ${commentText(windowText(orbit, w))}`);
   kv('OBJECT_NAME', st.objectName);
   kv('OBJECT_ID', text.objectId as string);
   if (text.centerName !== null) kv('CENTER_NAME', text.centerName);
   kv('REF_FRAME_A', text.refFrameA as string);
   kv('REF_FRAME_B', text.refFrameB as string);
   kv('TIME_SYSTEM', 'UTC');
-  const start = formatEpochUnits(blk.first, st.fracDigits);
-  const stop = formatEpochUnits(blk.last, st.fracDigits);
+  const start = d.label(blk.first);
+  const stop = d.label(blk.last);
   kv('START_TIME', start);
   kv('USEABLE_START_TIME', start);
   kv('USEABLE_STOP_TIME', stop);
@@ -426,4 +438,26 @@ function readBackIssues(errors: readonly Issue[]): Issue[] {
     rule: 'internal',
     message: `the written AEM failed its own read-back check: ${e.message}`,
   }));
+}
+
+/**
+ * Epoch labels of plan times counted in units of 10^-digits s from the scenario epoch: UTC with
+ * leap seconds counted (time/iso.ts), so an inserted second reads 23:59:60.xxx (CCSDS 504.0-B-2
+ * §6.8.9 allows seconds = 60 in UTC). The epoch was validated upstream; a bad one falls back to
+ * the POSIX labels.
+ */
+function epochLabeller(epochUtc: string, digits: number): (units: number) => string {
+  const e = parseUtcIso(epochUtc);
+  const per = 10 ** digits;
+  if (!e.ok) {
+    const ms = parseIsoUtcMs(epochUtc) ?? 0;
+    return (u) => formatEpochUnits(epochUnits(ms, u / per, digits), digits);
+  }
+  const whole = Math.floor(e.value.taiS);
+  const fracUnits = Math.round((e.value.taiS - whole) * per);
+  return (u) => {
+    const total = fracUnits + u;
+    const s = Math.floor(total / per);
+    return utcLabelFromTai(whole + s + (total - s * per) / per, digits);
+  };
 }

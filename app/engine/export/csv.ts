@@ -5,6 +5,7 @@
  * round-trip form. Streamed (chunks.ts): csvChunks hands the text out chunk by chunk; writeCsv
  * collects it into one string.
  */
+import { orbitHeaderLines } from './orbitText';
 import type { Result } from '../errors';
 import { fail, ok } from '../errors';
 import { collectChunks, LineChunker, type ChunkedExport, type ChunkSource } from './chunks';
@@ -68,6 +69,7 @@ export function csvChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
     options.sampleRateHz !== undefined
       ? `samples: ${idx.length} of ${trace.n} (decimated to about ${options.sampleRateHz} Hz; the last sample always kept)`
       : `samples: ${trace.n}`,
+    ...(scenario.orbit ? orbitHeaderLines(scenario.orbit) : []),
     `columns: ${cols.map((c) => `${c.name} = ${c.description}${c.unit && c.unit !== 'count' ? ` [${c.unit}]` : ''}`).join('; ')}`,
   ];
   return ok(csvRows(trace, idx, cols, [...head.map((h) => `# ${h}`), cols.map((c) => c.name).join(',')], eol));

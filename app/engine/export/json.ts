@@ -141,6 +141,7 @@ export function jsonChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Exp
       })),
     },
     segments: segs.value,
+    ...(scenario.orbit ? { orbit: scenario.orbit } : {}),
     wheels: meta.wheels
       ? {
           axes: Array.from(meta.wheels.axes),

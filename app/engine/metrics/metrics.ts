@@ -37,6 +37,8 @@ export interface MetricOptions {
   boundedNoiseEta?: number;
   /** Whether the law acts on the quaternion, picking a lift (default true; segments.ts). */
   liftDependent?: boolean;
+  /** Orbit plans: measure segments against the moving reference (segments.ts movingTargets). */
+  movingTargets?: boolean;
 }
 
 export interface RunMetrics {
@@ -94,6 +96,7 @@ export function computeMetrics(tr: RunTrace, jumps: readonly JumpEvent[], o: Met
     segmentTargets: o.segmentTargets,
     boundedNoiseEta: o.boundedNoiseEta ?? 0,
     liftDependent: o.liftDependent ?? true,
+    movingTargets: o.movingTargets ?? false,
   });
   const settled = segments.length > 0 && segments.every((s) => s.settleTimeS !== null);
   const chatter = chatterOf(tr, {

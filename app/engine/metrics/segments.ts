@@ -61,6 +61,13 @@ export interface SegmentOptions {
   boundedNoiseEta: number;
   /** True for a law acting on the quaternion (it picks a lift), false for one defined on SO(3) or S². */
   liftDependent: boolean;
+  /**
+   * Orbit plans (moving targets): settling, the final error and the long-way test are measured
+   * against the reference at each sample (which is the target while tracking) and the rate error is
+   * |ω − ω_ref|; the shortest rotation still goes to the segment's target (its attitude when
+   * tracking starts).
+   */
+  movingTargets?: boolean;
 }
 
 const qa = new Float64Array(4);
@@ -90,8 +97,68 @@ function rateNorm(tr: RunTrace, k: number): number {
   return Math.sqrt(x * x + y * y + z * z);
 }
 
+const qr = new Float64Array(4);
+
+function refAt(tr: RunTrace, k: number): Float64Array {
+  for (let i = 0; i < 4; i++) qr[i] = tr.qRef[4 * k + i]!;
+  return qr;
+}
+
+function rateErrorNorm(tr: RunTrace, k: number): number {
+  const w = tr.omega,
+    r = tr.omegaRef;
+  return Math.hypot(w[3 * k]! - r[3 * k]!, w[3 * k + 1]! - r[3 * k + 1]!, w[3 * k + 2]! - r[3 * k + 2]!);
+}
+
+/** A segment's measures against the moving reference (SegmentOptions.movingTargets). */
+function measureMovingSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
+  const s = tr.segment[a]!;
+  let lastBad = -1;
+  for (let k = b; k >= a; k--)
+    if (!(errorToTarget(tr, k, refAt(tr, k)) < o.settleAngleRad && rateErrorNorm(tr, k) < o.settleRateRadPerS)) {
+      lastBad = k;
+      break;
+    }
+  const t = tr.t;
+  const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
+  const travelled = travelledFrom(tr, a, b);
+  const eta0 = etaAt(tr, a, refAt(tr, a));
+  const etaEnd = etaAt(tr, b, refAt(tr, b));
+  const finalErrorRad = errorToTarget(tr, b, refAt(tr, b));
+  const shortest = errorToTarget(tr, a, loadTarget(o, s));
+  const longWay = Math.abs(etaEnd) >= LIFT_DECIDED_ETA && etaEnd * eta0 < 0;
+  return {
+    segment: s,
+    tStart: t[a]!,
+    tEnd: t[b]!,
+    settleTimeS,
+    finalErrorRad,
+    shortestRad: shortest,
+    travelledRad: travelled,
+    longWay,
+    unwound: longWay && Math.abs(eta0) >= o.boundedNoiseEta,
+  };
+}
+
+/**
+ * ∫‖ω‖ dt (trapezoid) from sample a on to the next segment's first sample b + 1 when the run has
+ * one, so the segments tile the run and their sum is the whole run's rotation travelled.
+ */
+function travelledFrom(tr: RunTrace, a: number, b: number): number {
+  const t = tr.t;
+  let travelled = 0;
+  let wPrev = rateNorm(tr, a);
+  for (let k = a + 1; k <= Math.min(b + 1, tr.n - 1); k++) {
+    const wk = rateNorm(tr, k);
+    travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
+    wPrev = wk;
+  }
+  return travelled;
+}
+
 /** Measures of the samples a..b (inclusive) of one segment; the travelled rotation runs on to b + 1 when the run does. */
 function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
+  if (o.movingTargets) return measureMovingSegment(tr, a, b, o);
   const s = tr.segment[a]!;
   const target = loadTarget(o, s);
   let lastBad = -1;
@@ -102,13 +169,7 @@ function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): 
     }
   const t = tr.t;
   const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
-  let travelled = 0;
-  let wPrev = rateNorm(tr, a);
-  for (let k = a + 1; k <= Math.min(b + 1, tr.n - 1); k++) {
-    const wk = rateNorm(tr, k);
-    travelled += 0.5 * (wPrev + wk) * (t[k]! - t[k - 1]!);
-    wPrev = wk;
-  }
+  const travelled = travelledFrom(tr, a, b);
   const eta0 = etaAt(tr, a, target);
   const etaEnd = etaAt(tr, b, target);
   const shortest = errorToTarget(tr, a, target);

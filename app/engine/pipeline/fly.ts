@@ -7,6 +7,7 @@ import type { SequencePlan } from '../plan/types';
 import type { ResolvedScenario } from '../scenario/resolve';
 import { runClosedLoop, type ClosedLoopResult, type ReferenceSource } from '../sim/closedLoop';
 import { followPlanReference, stepTargetReference } from '../sim/reference';
+import { trackingReference } from '../sim/trackingReference';
 import type { SensorModel } from '../sim/sensors';
 import type { Actuation, RunMode } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
@@ -68,6 +69,7 @@ export function flightEndS(s: ResolvedScenario, plan: SequencePlan): number {
 
 /** The scenario's reference for a mode: the planned profile, or each target at once. */
 export function referenceFor(mode: RunMode, plan: SequencePlan, targets: Float64Array, qInitial: ArrayLike<number>): ReferenceSource {
+  if (plan.tracking) return trackingReference(plan.tracking, mode);
   return mode === 'follow-plan' ? followPlanReference(plan) : stepTargetReference(plan, targets, qInitial);
 }
 

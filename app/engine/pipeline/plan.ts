@@ -12,6 +12,7 @@ import { envelopeCapacity } from '../wheels/envelope';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
 import type { PlanSummary, Vehicle } from './types';
 import { planNumberIssues } from './planCheck';
+import { needsTrackingPlan, planOnOrbit, type OrbitStage } from './orbit';
 
 /** What the planner may use of the vehicle's envelopes. */
 export function planLimits(s: ResolvedScenario, v: Vehicle): PlanLimits {
@@ -26,8 +27,9 @@ export function planLimits(s: ResolvedScenario, v: Vehicle): PlanLimits {
 }
 
 /** Stage 4: the sequence plan from the initial attitude (at rest, with the initial wheel momentum), on the model the flight software has. */
-export function planManeuver(s: ResolvedScenario, v: Vehicle): Result<SequencePlan> {
+export function planManeuver(s: ResolvedScenario, v: Vehicle, orbit: OrbitStage | null = null): Result<SequencePlan> {
   const hBody = applyAxes(new Float64Array(3), v.wheels, s.initial.hWheelNms);
+  if (orbit && needsTrackingPlan(s)) return planOnOrbit(s, orbit, v.design.Jperp, hBody, planLimits(s, v));
   const plan = planSequence(
     {
       qStart: s.initial.qInertialFromBody,
@@ -49,13 +51,14 @@ export function planManeuver(s: ResolvedScenario, v: Vehicle): Result<SequencePl
 }
 
 export function planSummary(plan: SequencePlan, targets: readonly Pick<ResolvedTarget, 'label' | 'holdS'>[]): PlanSummary {
+  if (plan.tracking) return trackingPlanSummary(plan, targets);
   let tCursor = 0;
   const segments = plan.segments.map((seg, i) => {
     const tl = plan.timeline.find((e) => e.target === i);
     const label = targets[i]?.label ?? `target ${i + 1}`;
     const holdS = targets[i]?.holdS ?? 0;
     const axisBody = [seg.axisBody[0]!, seg.axisBody[1]!, seg.axisBody[2]!] as [number, number, number];
-    if (seg.feasible) {
+    if (seg.feasible && seg.method !== 'tracking') {
       const tStart = tl ? tl.slewStartS : tCursor;
       const tEnd = tl ? tl.holdEndS : tStart + seg.durationS + holdS;
       tCursor = tEnd;
@@ -92,7 +95,57 @@ export function planSummary(plan: SequencePlan, targets: readonly Pick<ResolvedT
       accelRadPerS2: 0,
       peakTorqueFraction: 0,
       peakMomentumFraction: 0,
-      reason: seg.reasons.map((r) => r.message).join('; '),
+      reason: 'reasons' in seg ? seg.reasons.map((r) => r.message).join('; ') : seg.summary,
+    };
+  });
+  return { feasible: plan.feasible, totalTimeS: plan.totalS, segments };
+}
+
+/** The summary of an orbit plan: slew, tracking start and hold of each planned entry. */
+function trackingPlanSummary(plan: SequencePlan, targets: readonly Pick<ResolvedTarget, 'label' | 'holdS'>[]): PlanSummary {
+  const entries = plan.tracking!.entries;
+  let tCursor = 0;
+  const segments = plan.segments.map((seg, i) => {
+    const e = entries.find((x) => x.target === i);
+    const label = targets[i]?.label ?? `target ${i + 1}`;
+    const axisBody = [seg.axisBody[0]!, seg.axisBody[1]!, seg.axisBody[2]!] as [number, number, number];
+    if (seg.feasible && seg.method === 'tracking' && e) {
+      tCursor = e.requestedHoldEndS;
+      return {
+        index: i,
+        label,
+        tStart: e.slewStartS,
+        slewTimeS: seg.durationS,
+        holdS: e.requestedHoldEndS - e.trackStartS,
+        tEnd: e.holdEndS,
+        angleRad: seg.angleRad,
+        axisBody,
+        feasible: true,
+        binding: seg.binding,
+        peakRateRadPerS: seg.peakRateRadPerS,
+        accelRadPerS2: seg.peakAccelRadPerS2,
+        peakTorqueFraction: seg.peakTorqueFraction,
+        peakMomentumFraction: seg.peakMomentumFraction,
+        reason: [seg.summary, ...e.notes].join('; '),
+        trackStartS: e.trackStartS,
+      };
+    }
+    return {
+      index: i,
+      label,
+      tStart: tCursor,
+      slewTimeS: 0,
+      holdS: targets[i]?.holdS ?? 0,
+      tEnd: tCursor,
+      angleRad: seg.angleRad,
+      axisBody,
+      feasible: false,
+      binding: 'none' as const,
+      peakRateRadPerS: 0,
+      accelRadPerS2: 0,
+      peakTorqueFraction: 0,
+      peakMomentumFraction: 0,
+      reason: seg.feasible ? 'not reached: an earlier target is infeasible' : seg.reasons.map((r) => r.message).join('; '),
     };
   });
   return { feasible: plan.feasible, totalTimeS: plan.totalS, segments };

@@ -21,6 +21,7 @@ import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
 import { budgetIssues, DEFAULT_BUDGET, estimateBudget, runStepCap, type RunBudget } from './budget';
+import { buildOrbitStage, orbitExportInfo, orbitOutput, windowErrors, type OrbitStage } from './orbit';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -42,9 +43,11 @@ export interface Prepared {
   vehicle: Vehicle;
   plan: SequencePlan;
   controllers: BuiltController[];
-  /** Target attitudes, 4 per segment. */
+  /** Target attitudes, 4 per segment (a moving target: its attitude when tracking starts). */
   targets: Float64Array;
   warnings: Issue[];
+  /** The orbit stage (ephemeris, sites, passes, eclipses) of a scenario with an orbit block, else null. */
+  orbit?: OrbitStage | null;
 }
 
 /** Stages 1–4: validate, resolve, build (vehicle and controllers), plan. */
@@ -63,7 +66,14 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   warnings.push(...veh.warnings);
   const v = veh.value;
   const ctrls = buildControllers(s.controllers, v.design, only);
-  const plan = planManeuver(s, v);
+  let orbit: OrbitStage | null = null;
+  if (s.orbit) {
+    const st = buildOrbitStage(s);
+    warnings.push(...st.warnings);
+    if (!st.ok) return fail(st.errors, warnings);
+    orbit = st.value;
+  }
+  const plan = planManeuver(s, v, orbit);
   const errors: Issue[] = [];
   if (!ctrls.ok) errors.push(...ctrls.errors);
   warnings.push(...ctrls.warnings);
@@ -71,7 +81,9 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
   const targets = new Float64Array(4 * s.targets.length);
   s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
-  return ok({ file, scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, targets, warnings }, warnings);
+  for (const e of plan.value.tracking?.entries ?? []) targets.set(e.qTrack, 4 * e.target);
+  warnings.push(...plan.warnings);
+  return ok({ file, scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, targets, warnings, orbit }, warnings);
 }
 
 export interface FlyOptions {
@@ -86,7 +98,9 @@ export interface FlyOptions {
 export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, o: FlyOptions = {}): ControllerRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
   const res = fly(o.maxSteps !== undefined ? { ...flight, maxSteps: o.maxSteps } : flight);
-  return summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
+  const run = summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
+  if (p.plan.tracking) run.windowErrors = windowErrors(res.trace, p.plan.tracking);
+  return run;
 }
 
 /** One pass: every controller in every mode, and the comparison. */
@@ -112,9 +126,15 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     }
   }
   const comparison = runs.map(comparisonRow);
+  const orbit = p.orbit ? orbitOutput(s, p.orbit, p.plan.tracking ?? null) : null;
+  const summary = scenarioSummary(s, p.file!);
+  if (orbit) {
+    summary.orbit = orbitExportInfo(orbit);
+    summary.targets.forEach((t, i) => t.q.set(p.targets.subarray(4 * i, 4 * i + 4)));
+  }
   return ok(
     {
-      scenario: scenarioSummary(s, p.file!),
+      scenario: summary,
       vehicle: vehicleSummary(p.vehicle),
       plan: planSummary(p.plan, s.targets),
       targets: p.targets,
@@ -126,6 +146,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       keepOut: s.keepOut,
       warnings: p.warnings,
       elapsedMs: Date.now() - t0,
+      orbit,
     },
     p.warnings,
   );

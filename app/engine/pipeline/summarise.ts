@@ -8,6 +8,7 @@ import { CHATTER_FLOOR_FRACTION } from '../metrics/chatter';
 import { computeMetrics, type RunMetrics } from '../metrics/metrics';
 import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
 import { plannedSwitchTimes } from '../plan/reference';
+import { trackingSwitchTimes } from '../sim/trackingReference';
 import type { SequencePlan } from '../plan/types';
 import type { SensorModel } from '../sim/sensors';
 import { makeDiagnostics } from '../control/types';
@@ -49,6 +50,8 @@ export interface MetricContext {
   /** Chatter floor, N·m: CHATTER_FLOOR_FRACTION of the smallest wheel torque limit. */
   chatterFloorNm: number;
   sensors: SensorModel;
+  /** Orbit plans: segments are measured against the moving reference (metrics/segments.ts). */
+  movingTargets?: boolean;
 }
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
@@ -64,6 +67,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     chatterFloorNm: m.chatterFloorNm,
     boundedNoiseEta: m.sensors.adversarialEta,
     liftDependent,
+    movingTargets: m.movingTargets ?? false,
   });
 }
 
@@ -115,9 +119,12 @@ export function metricContext(
     maxTorqueNm: v.wheels.maxTorqueNm,
     maxMomentumNms: v.wheels.maxMomentumNms,
     targets,
-    plannedSwitchTimes: plannedSwitchTimes(plan.reference, mode === 'step-target'),
+    plannedSwitchTimes: plan.tracking
+      ? trackingSwitchTimes(plan.tracking, mode === 'step-target')
+      : plannedSwitchTimes(plan.reference, mode === 'step-target'),
     chatterFloorNm: CHATTER_FLOOR_FRACTION * Math.min(...Array.from(v.wheels.maxTorqueNm)),
     sensors,
+    movingTargets: !!plan.tracking,
   };
 }
 

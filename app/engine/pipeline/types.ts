@@ -20,6 +20,8 @@ import type { MonitorFlag } from '../metrics/monitor';
 import type { MetricInputs } from './metricInputs';
 import type { KeepOutCone } from '../scenario/resolve';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
+import type { TrackForm } from '../scenario/orbitSchema';
+import type { OrbitExportInfo, OrbitOutput, WindowError } from './orbit';
 
 export type { RunMode } from '../sim/types';
 export type { LogicKind } from '../control/types';
@@ -82,6 +84,8 @@ export interface ControllerRun {
   gainNote: string;
   /** The settings the metrics and the monitor used (SI), for the JSON export. */
   metricInputs: MetricInputs;
+  /** Orbit plans: the pointing error achieved while tracking each planned target (pipeline/orbit.ts). */
+  windowErrors?: WindowError[];
 }
 
 /** An envelope for views and capacity queries: mesh (vertices 3V, outward triangles 3T) and facet planes. */
@@ -131,6 +135,8 @@ export interface SegmentSummary {
   peakMomentumFraction: number;
   /** Why the slew is infeasible, or what binds, in words. */
   reason: string;
+  /** Orbit plans: when tracking the target starts (the slew ends on its attitude and rate), s. */
+  trackStartS?: number;
 }
 
 export interface PlanSummary {
@@ -191,11 +197,14 @@ export interface ScenarioSummary {
   inertialFrame: 'EME2000';
   wheelCount: number;
   initialQ: Float64Array;
-  targets: { label: string; form: AttitudeForm; q: Float64Array; holdS: number }[];
+  /** q: the fixed attitude, or for a moving (track) target the attitude at which tracking starts in the plan. */
+  targets: { label: string; form: AttitudeForm | TrackForm; q: Float64Array; holdS: number }[];
   settleAngleRad: number;
   settleRateRadPerS: number;
   /** The validated scenario file in the current format, kept for provenance (the JSON export copies it). */
   file: Scenario;
+  /** Orbit scenarios: the frame, element set, sites, planned windows and eclipses the exports name (pipeline/orbit.ts). */
+  orbit?: OrbitExportInfo | null;
 }
 
 export interface PipelineOutput {
@@ -214,6 +223,8 @@ export interface PipelineOutput {
   warnings: Issue[];
   /** Wall time of the pass, ms (for the UI's status line; not a test value). */
   elapsedMs: number;
+  /** Scenarios with an orbit block: the orbit, sky, sites with their passes, eclipses and planned windows (pipeline/orbit.ts). */
+  orbit?: OrbitOutput | null;
 }
 
 /** A certificate as a summary row. */

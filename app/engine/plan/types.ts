@@ -9,6 +9,7 @@
 import type { Issue } from '../errors';
 import type { Mat3, Vec3 } from '../math/mat3';
 import type { Quat } from '../math/rotation';
+import type { TrackingPlan, TrackingSegmentPlan } from './trackingTypes';
 
 /**
  * What the wheel array can do, as the planner sees it. The wheels module supplies zonotope
@@ -101,6 +102,9 @@ export interface InfeasibleSegment extends SegmentGeometry {
 
 export type SegmentVerdict = SegmentPlan | InfeasibleSegment;
 
+/** A target's verdict in a sequence: an eigenaxis slew, an infeasible one, or a slew onto a moving target (orbit plans). */
+export type PlannedSegment = SegmentVerdict | TrackingSegmentPlan;
+
 /** One slew-then-hold entry of a sequence timeline (seconds from the plan start). */
 export interface TimelineEntry {
   /** Index into the sequence's targets. */
@@ -141,7 +145,7 @@ export interface SequencePlan {
   /** True when every target's slew is feasible. */
   feasible: boolean;
   /** One verdict per target, in order (each planned from the previous target's attitude). */
-  segments: SegmentVerdict[];
+  segments: PlannedSegment[];
   /**
    * The flyable timeline: every segment up to, not including, the first infeasible one. The
    * reference holds the last reached attitude after it.
@@ -152,4 +156,10 @@ export interface SequencePlan {
   /** End of the last hold in the timeline (s). */
   totalS: number;
   reference: ReferenceTable;
+  /**
+   * Orbit plans only (trackingSequence.ts): the timeline with moving targets and windows. When it
+   * is present a flight follows it, and `timeline` is empty and `reference` holds the initial
+   * attitude (they describe eigenaxis-only sequences).
+   */
+  tracking?: TrackingPlan;
 }

@@ -29,6 +29,16 @@ import type { AttitudeForm, AttitudeSpec, Scenario, WheelsSpec } from './schema'
 import { resolveStudy, type StudyDefinition } from './study';
 import { parseIsoUtcMs } from './utc';
 import { validateScenario } from './validate';
+import {
+  resolveOrbit,
+  resolveTrack,
+  resolveWindow,
+  trackForm,
+  type ResolvedOrbit,
+  type ResolvedTrack,
+  type ResolvedWindow,
+} from './orbitResolve';
+import type { TrackForm } from './orbitSchema';
 
 export type WheelLayout = WheelsSpec['layout'];
 
@@ -37,10 +47,18 @@ export type ResolvedController = ControllerParams & { id: string };
 
 export interface ResolvedTarget {
   label: string;
-  /** How the file gave it. */
-  form: AttitudeForm;
+  /** How the file gave it: an attitude form, or the track form of a moving target. */
+  form: AttitudeForm | TrackForm;
+  /**
+   * The fixed attitude. For a moving (track) target all four components are NaN: its attitude
+   * moves, and the pipeline's plan gives the attitude at which tracking starts (Prepared.targets).
+   */
   qInertialFromBody: Quat;
   holdS: number;
+  /** A moving target from the orbit (orbitResolve.ts), or null for a fixed attitude. */
+  track?: ResolvedTrack | null;
+  /** When the target is due (orbitResolve.ts), or null: right after the previous hold. */
+  window?: ResolvedWindow | null;
 }
 
 export interface KeepOutCone {
@@ -101,6 +119,8 @@ export interface ResolvedScenario {
   keepOut: KeepOutCone[];
   /** The robustness study block, SI with defaults (study.ts); null when the file has none. */
   study: StudyDefinition | null;
+  /** The orbit, its sites and horizon (orbitResolve.ts); absent or null when the file has no orbit block. */
+  orbit?: ResolvedOrbit | null;
 }
 
 function unit3(v: readonly number[]): Vec3 {
@@ -183,11 +203,19 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
   const epochUnixMs = parseIsoUtcMs(s.epochUtc);
   if (epochUnixMs === null) throw new EngineInputError([{ path: 'epochUtc', rule: 'calendar', message: 'resolve: epoch not validated' }]);
   const qInit = attitudeOf(s.initial.attitude, null, 'initial.attitude', true);
-  let previous: Quat = qInit;
+  const orbit = s.orbit ? resolveOrbit(s.orbit, s.epochUtc) : null;
+  let previous: Quat | null = qInit;
   const targets: ResolvedTarget[] = s.targets.map((t, i) => {
-    const q = attitudeOf(t.attitude, previous, `targets[${i}].attitude`);
+    const window = t.window && orbit ? resolveWindow(t.window, orbit.epochTaiS, `targets[${i}].window`) : null;
+    if (t.track && orbit) {
+      previous = null;
+      const q = Float64Array.of(NaN, NaN, NaN, NaN);
+      const track = resolveTrack(t.track, orbit.sites, `targets[${i}].track`);
+      return { label: t.label, form: trackForm(t.track), qInertialFromBody: q, holdS: t.holdS, track, window };
+    }
+    const q = attitudeOf(t.attitude!, previous, `targets[${i}].attitude`);
     previous = q;
-    return { label: t.label, form: attitudeForm(t.attitude), qInertialFromBody: q, holdS: t.holdS };
+    return { label: t.label, form: attitudeForm(t.attitude!), qInertialFromBody: q, holdS: t.holdS, track: null, window };
   });
   const vehicle = resolveVehicle(s.vehicle);
   const h0 = new Float64Array(vehicle.wheels.length);
@@ -233,6 +261,7 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
       halfAngleRad: k.halfAngleDeg * RAD_PER_DEG,
     })),
     study,
+    orbit,
   };
 }
 

@@ -21,6 +21,7 @@ import { z } from 'zod';
 import { EULER_SEQUENCES } from '../math/rotation';
 import { ControllerFileSchema } from '../control/fileSchema';
 import { StudySchema } from './studySchema';
+import { OrbitSchema, TargetWindowSchema, TrackSchema, TRACK_FORMS } from './orbitSchema';
 
 export {
   StudyAttitudeDispersionSchema,
@@ -229,7 +230,9 @@ export const InitialSchema = z.strictObject({
 
 export const TargetSchema = z.strictObject({
   label: label().describe('Name shown in plots and exports.'),
-  attitude: AttitudeSchema,
+  attitude: AttitudeSchema.optional().describe('A fixed attitude: exactly one of "attitude" and "track".'),
+  track: TrackSchema.optional().describe('A moving target from the orbit (needs "orbit"): exactly one of "attitude" and "track".'),
+  window: TargetWindowSchema.optional(),
   holdS: nonNegative().max(MAX_DURATION_S).describe('Time to hold the target after arriving, s.'),
 });
 
@@ -308,6 +311,7 @@ export const ScenarioSchema = z
     simulation: SimulationSchema,
     keepOut: z.array(KeepOutSchema).max(50).optional().describe('Inertial cones a body axis must stay out of.'),
     study: StudySchema.optional(),
+    orbit: OrbitSchema.optional(),
   })
   .describe('Slewsmith scenario file, format version 2.');
 
@@ -323,6 +327,7 @@ export type StudySpec = z.infer<typeof StudySchema>;
 export const KEYED_UNIONS: Record<string, readonly string[]> = {
   attitude: ATTITUDE_FORMS,
   gains: ['kp', 'bandwidthRadPerS'],
+  track: TRACK_FORMS,
 };
 
 /**

@@ -14,6 +14,7 @@ import type { ResolvedController, ResolvedScenario } from './resolve';
 import type { ControllerSpec, Scenario } from './schema';
 import { SCENARIO_FORMAT, SCENARIO_VERSION } from './schema';
 import { studyToFile } from './study';
+import { orbitToFile, trackToFile, windowToFile } from './orbitResolve';
 
 function lawFields<L extends LawId>(def: LawDefinition<L>, c: ControllerParams): Record<string, unknown> {
   return def.toFile(c as unknown as ParamsOf<L>) as Record<string, unknown>;
@@ -72,7 +73,14 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
       bodyRateDegPerS: deg3(r.initial.omegaBody),
       ...(r.initial.hWheelNms.some((h) => h !== 0) ? { wheelMomentumMNms: Array.from(r.initial.hWheelNms, (h) => h * MILLI_PER_SI) } : {}),
     },
-    targets: r.targets.map((t) => ({ label: t.label, attitude: { quaternion: Array.from(t.qInertialFromBody) }, holdS: t.holdS })),
+    targets: r.targets.map((t) => ({
+      label: t.label,
+      ...(t.track && r.orbit
+        ? { track: trackToFile(t.track, r.orbit.sites) }
+        : { attitude: { quaternion: Array.from(t.qInertialFromBody) } }),
+      ...(t.window ? { window: windowToFile(t.window) } : {}),
+      holdS: t.holdS,
+    })),
     controllers: r.controllers.map(controllerToFile),
     planning: {
       torqueMargin: r.planning.torqueMargin,
@@ -102,6 +110,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
         }
       : {}),
     ...(r.study ? { study: studyToFile(r.study) } : {}),
+    ...(r.orbit ? { orbit: orbitToFile(r.orbit) } : {}),
   };
   return out;
 }

@@ -42,6 +42,7 @@ export function studyCaseScenario(json: unknown, study: StudyOverrides | undefin
     ctx.def,
     d,
     ctx.controllers.map((x) => x.id),
+    ctx.target,
   );
   if (!cs.ok) return fail([{ path: `case ${index}`, rule: 'unflyable', message: `case ${index} cannot be flown: ${cs.reason}` }]);
   return ok(toScenarioFile(cs.scenario));

@@ -83,7 +83,8 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
   const s = p.scenario;
   const ids = def.controllers;
   const controllers = ids ? ids.map((id) => p.controllers.find((c) => c.id === id)!).filter(Boolean) : p.controllers;
-  const target = Float64Array.from(s.targets[0]!.qInertialFromBody);
+  // The planned first target (for an orbit track: its attitude when tracking starts; cases regulate to it).
+  const target = Float64Array.from(p.targets.subarray(0, 4));
   const nominal: NominalCase = {
     qInitial: s.initial.qInertialFromBody,
     qTarget: target,

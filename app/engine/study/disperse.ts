@@ -30,7 +30,17 @@ function inertiaDispersed(def: StudyDefinition): boolean {
 }
 
 /** The nominal scenario with case `d` applied, or why the case cannot be written as a vehicle. */
-export function disperseScenario(nom: ResolvedScenario, def: StudyDefinition, d: CaseDraw, controllerIds: readonly string[]): CaseScenario {
+/**
+ * `qTarget`: the case's target attitude when the nominal first target moves (an orbit track: the
+ * planned attitude at which tracking starts, StudyContext.target); a study case regulates to it.
+ */
+export function disperseScenario(
+  nom: ResolvedScenario,
+  def: StudyDefinition,
+  d: CaseDraw,
+  controllerIds: readonly string[],
+  qTarget?: ArrayLike<number>,
+): CaseScenario {
   if (!d.inertiaRows) return { ok: false, reason: `no physical inertia in ${d.inertiaRejections} draws (dispersion too wide)` };
   const kept: number[] = [];
   const wheels: WheelSpec[] = [];
@@ -74,7 +84,12 @@ export function disperseScenario(nom: ResolvedScenario, def: StudyDefinition, d:
       hWheelNms: Float64Array.from(kept, (i) => nom.initial.hWheelNms[i]!),
     },
     targets: [
-      { label: target.label, form: 'quaternion', qInertialFromBody: Float64Array.from(target.qInertialFromBody), holdS: target.holdS },
+      {
+        label: target.label,
+        form: 'quaternion',
+        qInertialFromBody: Float64Array.from(qTarget ?? target.qInertialFromBody),
+        holdS: target.holdS,
+      },
     ],
     controllers: controllerIds.map((id) => nom.controllers.find((c) => c.id === id)!),
     planning: nom.planning,

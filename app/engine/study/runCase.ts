@@ -79,7 +79,7 @@ export type PreparedCase = { draw: CaseDraw; ok: true; prepared: Prepared } | { 
 export function prepareCase(ctx: StudyContext, index: number): PreparedCase {
   const d = drawCase(ctx.def, ctx.nominal, index);
   const ids = ctx.controllers.map((c) => c.id);
-  const cs = disperseScenario(ctx.prepared.scenario, ctx.def, d, ids);
+  const cs = disperseScenario(ctx.prepared.scenario, ctx.def, d, ids, ctx.target);
   if (!cs.ok) return { draw: d, ok: false, reason: cs.reason };
   const p = prepareResolved(cs.scenario, null, ids);
   if (!p.ok) {
