@@ -84,8 +84,11 @@ export function App({ app }: { app: AppController }) {
               <aside className="right" aria-label="Plan and comparison">
                 <RunStatus />
                 <PlanSummary />
-                <ComparisonTable />
               </aside>
+              {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
+              <section className="compare-band" aria-label="Comparison of runs">
+                <ComparisonTable />
+              </section>
             </>
           )}
         </main>

@@ -1,8 +1,9 @@
 /**
  * The comparison table: metrics as rows, every run as a column (the engine's columns, units,
  * definitions, sources and best marks: pipeline/comparison.ts). It scrolls sideways with the
- * metric column frozen; run names wrap. Each metric's definition and source is one click (or
- * Enter) away on its ⓘ button. The run checkboxes choose which runs the plots and the 3D view show.
+ * metric column and the header row frozen; run names and cells wrap, so every run fits side by side
+ * at 1280 px in the band under the centre and right columns. Each metric's definition and source is one click (or
+ * Enter) away on its i button. The run checkboxes choose which runs the plots and the 3D view show.
  */
 import { useEffect, useRef, useState } from 'react';
 import type { ComparisonColumn } from '../../engine/pipeline/comparison';
@@ -117,7 +118,7 @@ function RunHeader({ out, rowKey, selected }: { out: PipelineOutput; rowKey: str
 }
 
 export function ComparisonTable() {
-  const [wide, setWide] = useState(false);
+  const [tall, setTall] = useState(false);
   const [info, setInfo] = useState<{ key: string; anchor: HTMLElement } | null>(null);
   const output: PipelineOutput | null = useAppState((s) => s.output);
   const current = useAppState((s) => s.outputScenario === s.scenario);
@@ -131,20 +132,27 @@ export function ComparisonTable() {
   };
   const infoCol = info ? COMPARISON_COLUMNS.find((c) => c.key === info.key) : undefined;
   return (
-    <div className={`comparison ${current ? '' : 'stale'} ${wide ? 'wide' : ''}`} data-testid="comparison">
+    <div className={`comparison ${current ? '' : 'stale'} ${tall ? 'tall' : ''}`} data-testid="comparison">
       <div className="panel-head">
         Comparison <span className="muted">· {rows.length} runs · tick to plot</span>
         <button
           className="small push-right"
-          onClick={() => setWide(!wide)}
-          title={wide ? 'Back to the side column' : 'Show every run side by side over the plots'}
-          data-testid="comparison-wide"
+          onClick={() => setTall(!tall)}
+          aria-pressed={tall}
+          title={tall ? 'Give the plots their room back' : 'Show every metric without scrolling, over the plots'}
+          data-testid="comparison-tall"
         >
-          {wide ? 'narrow' : 'widen'}
+          {tall ? 'shorter' : 'taller'}
         </button>
       </div>
       <div className="table-scroll" data-testid="comparison-scroll">
         <table className="data-table comparison-table">
+          <colgroup>
+            <col className="metric-col" />
+            {rows.map((r) => (
+              <col key={r.key} />
+            ))}
+          </colgroup>
           <thead>
             <tr>
               <th className="metric-head" scope="col">
@@ -174,7 +182,7 @@ export function ComparisonTable() {
                       data-testid={`info-${c.key}`}
                       onClick={(e) => (info?.key === c.key ? closeInfo() : setInfo({ key: c.key, anchor: e.currentTarget }))}
                     >
-                      ⓘ
+                      i
                     </button>
                   </th>
                   {rows.map((r) => {
@@ -208,7 +216,7 @@ export function ComparisonTable() {
         <dt>target at once</dt>
         <dd>{MODE_TEXT['step-target'].long}</dd>
         <dt>★ best</dt>
-        <dd>{BEST_RULE} ⓘ beside a metric gives its definition and source.</dd>
+        <dd>{BEST_RULE} The i beside a metric gives its definition and source.</dd>
       </dl>
       {info && infoCol && <MetricInfo col={infoCol} anchor={info.anchor} onClose={closeInfo} />}
     </div>

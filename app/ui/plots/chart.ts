@@ -97,6 +97,8 @@ function drawSegments(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: nu
   ctx.setLineDash([]);
   ctx.font = `600 ${MARKER_FONT_PX * dpr}px ${FAMILY}`;
   ctx.textBaseline = 'top';
+  // uPlot leaves its own text alignment (axis labels are centred) on the context.
+  ctx.textAlign = 'left';
   const starts = marks.filter((m) => m.kind === 'segment' && m.t >= xMin && m.t <= xMax);
   const pad = 3 * dpr;
   const lineH = (MARKER_FONT_PX + 3) * dpr;
