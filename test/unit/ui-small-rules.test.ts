@@ -2,7 +2,7 @@
  * Small pure rules of the app's issue-10 changes: δ* printed rounded down (checked against
  * decimal.js through mathjs BigNumber, ROUND_FLOOR to significant digits), the export dialog's
  * rate rule (bounds as the CLI's --rate: main/cli/options.ts), Ctrl+Y as a second redo chord off
- * macOS, and File › New's starter scenario being valid and not the demo.
+ * macOS, File › New's starter scenario being valid and not the demo, and the plot PNG caption.
  */
 import { describe, expect, it } from 'vitest';
 import { create, all } from 'mathjs';
@@ -12,6 +12,8 @@ import { commandForChord } from '../../app/bridge/commands';
 import { STARTER_NAME, starterScenario } from '../../app/ui/starter';
 import { validateScenario } from '../../app/engine/scenario/validate';
 import { runPipeline } from '../../app/engine/pipeline/run';
+import { captionLines, wrapText } from '../../app/ui/plots/pngCaption';
+import { CAUTION_TEXT, INERTIAL_FRAME } from '../../app/engine/caution';
 
 const math = create(all!, { number: 'BigNumber', precision: 64 });
 // decimal.js rounding mode 3 = ROUND_FLOOR (towards −∞).
@@ -81,5 +83,29 @@ describe('File › New starter scenario', () => {
     expect(r.ok).toBe(true);
     if (r.ok) expect(r.value.plan.feasible).toBe(true);
     expect(JSON.stringify(s)).not.toMatch(/Lumen|Tern|Kestrel/);
+  });
+});
+
+describe('plot PNG caption', () => {
+  it('carries the title, the scenario name, the time axis with the epoch and frame, and the caution', () => {
+    const lines = captionLines('Attitude error angle', { scenarioName: 'Invented pass', epochUtc: '2030-03-14T10:00:00Z' });
+    const text = lines.map((l) => l.text).join('\n');
+    expect(lines[0]).toEqual({ text: 'Attitude error angle', kind: 'title' });
+    expect(text).toContain('Scenario: Invented pass');
+    expect(text).toContain('seconds from the scenario epoch 2030-03-14T10:00:00Z (UTC)');
+    expect(text).toContain(INERTIAL_FRAME);
+    expect(lines.find((l) => l.kind === 'caution')!.text).toContain(CAUTION_TEXT);
+  });
+
+  it('wraps greedily without losing or reordering words', () => {
+    const words = 'one two three four five six seven eight nine ten'.split(' ');
+    const measure = (s: string) => s.length;
+    for (const width of [3, 8, 13, 20, 100]) {
+      const lines = wrapText(words.join(' '), width, measure);
+      expect(lines.join(' ')).toBe(words.join(' '));
+      for (const l of lines) expect(l.length <= width || !l.includes(' ')).toBe(true);
+      // Greedy: the next line's first word would not have fitted on this one.
+      for (let i = 0; i + 1 < lines.length; i++) expect(`${lines[i]} ${lines[i + 1]!.split(' ')[0]}`.length).toBeGreaterThan(width);
+    }
   });
 });
