@@ -16,6 +16,13 @@ export const COMMAND_ACCELERATORS: Readonly<Record<MenuCommand, string>> = {
   run: 'CmdOrCtrl+R',
 };
 
+/**
+ * Second chords for a command, off macOS only: Ctrl+Y redoes on Windows and Linux, as in most
+ * editors there. Electron menus take one accelerator per item, so the renderer answers these
+ * itself (App.tsx) as well as through the browser bridge.
+ */
+export const ALTERNATE_CHORDS: readonly { command: MenuCommand; accelerator: string }[] = [{ command: 'redo', accelerator: 'Ctrl+Y' }];
+
 /** Quit is handled by the shell itself (through the unsaved-changes guard), not by the UI. */
 export const QUIT_ACCELERATOR = 'CmdOrCtrl+Q';
 
@@ -57,6 +64,17 @@ export function commandForChord(chord: KeyChord, isMac: boolean): MenuCommand | 
     const parts = COMMAND_ACCELERATORS[command].split('+');
     const wantShift = parts.includes('Shift');
     if (parts[parts.length - 1] === key && wantShift === chord.shiftKey) return command;
+  }
+  return isMac ? null : alternateCommandForChord(chord, isMac);
+}
+
+/** The command an alternate chord (ALTERNATE_CHORDS, not a menu accelerator) stands for, or null. */
+export function alternateCommandForChord(chord: KeyChord, isMac: boolean): MenuCommand | null {
+  if (isMac || !chord.ctrlKey || chord.metaKey || chord.altKey) return null;
+  const key = chord.key.length === 1 ? chord.key.toUpperCase() : chord.key;
+  for (const a of ALTERNATE_CHORDS) {
+    const parts = a.accelerator.split('+');
+    if (parts[parts.length - 1] === key && parts.includes('Shift') === chord.shiftKey) return a.command;
   }
   return null;
 }

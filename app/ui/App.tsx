@@ -4,7 +4,7 @@
  * bar at the bottom, and the export dialog.
  */
 import { useEffect } from 'react';
-import { commandForChord } from '../bridge/commands';
+import { alternateCommandForChord, commandForChord } from '../bridge/commands';
 import type { AppController } from './appController';
 import { AppContext } from './context';
 import { startFrameLoop } from './playback/clock';
@@ -12,6 +12,7 @@ import { CautionStrip, TopBar } from './components/Chrome';
 import { VehiclePanel } from './components/VehiclePanel';
 import { ManeuverPanel } from './components/ManeuverPanel';
 import { ControllersPanel } from './components/ControllersPanel';
+import { RunSettingsPanel } from './components/RunSettingsPanel';
 import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
@@ -37,10 +38,18 @@ function useFieldUndo(app: AppController) {
   useEffect(() => {
     const isMac = /Mac|iPhone|iPad/.test(navigator.platform);
     const onKey = (e: KeyboardEvent) => {
+      // The desktop menu has no item for an alternate chord (Ctrl+Y): answer it here.
+      const alt = app.bridge.shell === 'desktop' && !isEditable(e.target) ? alternateCommandForChord(e, isMac) : null;
+      if (alt) {
+        e.preventDefault();
+        app.command(alt);
+        return;
+      }
       const c = commandForChord(e, isMac);
       if ((c !== 'undo' && c !== 'redo') || !isEditable(e.target)) return;
       e.preventDefault();
-      if (app.bridge.shell === 'browser') app.command(c);
+      // In a text field the desktop menu sends menu chords itself; alternate ones (Ctrl+Y) it does not.
+      if (app.bridge.shell === 'browser' || alternateCommandForChord(e, isMac)) app.command(c);
     };
     window.addEventListener('keydown', onKey, { capture: true });
     return () => window.removeEventListener('keydown', onKey, { capture: true });
@@ -62,6 +71,7 @@ export function App({ app }: { app: AppController }) {
             <VehiclePanel />
             <ManeuverPanel />
             <ControllersPanel />
+            <RunSettingsPanel />
           </aside>
           {studyOpen ? (
             <StudyWorkspace />
@@ -74,8 +84,11 @@ export function App({ app }: { app: AppController }) {
               <aside className="right" aria-label="Plan and comparison">
                 <RunStatus />
                 <PlanSummary />
-                <ComparisonTable />
               </aside>
+              {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
+              <section className="compare-band" aria-label="Comparison of runs">
+                <ComparisonTable />
+              </section>
             </>
           )}
         </main>

@@ -12,6 +12,8 @@ import { createAppStore, type AppStore } from './store/document';
 import { createClock, type PlaybackClock } from './playback/clock';
 import { createPipelineRunner, type PipelineRunner, type WorkerLike } from './worker/client';
 import { preflight } from './preflight';
+import { issueLine, presentIssues } from './issues/present';
+import { STARTER_FILE_NAME, starterScenario } from './starter';
 
 export interface UiFlags {
   exportOpen: boolean;
@@ -140,12 +142,13 @@ export function createAppController(o: AppControllerOptions): AppController {
     noticeTimer = setTimeout(() => ui.setState({ notice: null }), kind === 'error' ? 9000 : 4000);
   }
 
-  function issuesText(list: readonly Issue[]): string {
-    const first = list
+  function issuesText(list: readonly Issue[], scenario: unknown = store.getState().scenario): string {
+    const shown = presentIssues(list, scenario);
+    const first = shown
       .slice(0, 3)
-      .map((i) => `${i.path}: ${i.message}`)
+      .map((p) => issueLine(p))
       .join('; ');
-    return list.length > 3 ? `${first}; … (${list.length} problems)` : first;
+    return shown.length > 3 ? `${first}; … (${shown.length} fields with problems)` : first;
   }
 
   function applyOpen(r: OpenResult) {
@@ -155,7 +158,7 @@ export function createAppController(o: AppControllerOptions): AppController {
       clock.setTime(0);
       request(true);
       if (r.warnings.length) notify(`Opened with warnings: ${issuesText(r.warnings)}`);
-    } else if (r.status === 'invalid') notify(`${r.file.name} is not a valid scenario: ${issuesText(r.errors)}`, 'error');
+    } else if (r.status === 'invalid') notify(`${r.file.name} is not a valid scenario: ${issuesText(r.errors, null)}`, 'error');
     else if (r.status === 'failed') notify(r.message, 'error');
   }
 
@@ -190,9 +193,10 @@ export function createAppController(o: AppControllerOptions): AppController {
   async function newDocument() {
     const r = await bridge.newScenario();
     if (r.status !== 'created') return;
-    // A new document starts from the demo's structure under a new name; the user edits from there.
-    const base = o.fallbackScenario as Obj;
-    store.load({ ...base, name: 'Untitled scenario', description: '' }, 'untitled.scenario.json', true);
+    // A new document is a small valid starter of our own (starter.ts), not the demo.
+    store.load(starterScenario(), STARTER_FILE_NAME, true);
+    clock.pause();
+    clock.setTime(0);
     request(true);
   }
 

@@ -111,12 +111,15 @@ class Viewport {
    */
   layoutHud(aspect: number, insetSide: number, showInset: boolean): void {
     for (const h of this.hud) {
-      if (h.row >= 0) h.obj.position.set(-aspect + 0.04, 0.96 - 0.095 * h.row, 0);
-      else {
-        // Inside the inset's top-left corner, shrunk to fit its width.
-        const k = Math.min(1, (0.94 * insetSide - 0.03) / h.baseScaleX);
-        h.obj.scale.set(h.baseScaleX * k, h.baseScaleY * k, 1);
-        h.obj.position.set(aspect - insetSide + 0.025, -1 + insetSide - 0.02, 0);
+      // Labels keep a readable size in small views (labels.ts keepLabelsReadable): space rows by their height.
+      if (h.row >= 0) {
+        const y = 0.96 - Math.max(0.095, 1.15 * h.obj.scale.y) * h.row;
+        h.obj.position.set(-aspect + 0.04, y, 0);
+        // In a small view the run list keeps to the top third; the bodies carry their own tags.
+        h.obj.visible = h.row === 0 || y - h.obj.scale.y > 0.3;
+      } else {
+        // Just above the inset, right-aligned with it, at full size.
+        h.obj.position.set(Math.max(-aspect + 0.02, aspect - h.obj.scale.x - 0.02), -1 + insetSide + h.obj.scale.y + 0.01, 0);
         h.obj.visible = showInset;
       }
     }

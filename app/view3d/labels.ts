@@ -36,6 +36,12 @@ function makeCanvas(): Canvas2D | null {
 }
 
 const FONT_PX = 44;
+/** Subscript size relative to the main text. */
+const SUB_RATIO = 0.8;
+/** Label canvas height over the main glyph size (room for descenders and the outline). */
+const LINE_RATIO = 1.45;
+/** Smallest text on screen, px (issue 10: canvas labels at least 11 px at 1280×800). */
+export const MIN_LABEL_TEXT_PX = 11;
 const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
 
 /**
@@ -53,13 +59,13 @@ export function canvasLabelFactory(): LabelFactory | null {
     const main = us >= 0 ? text.slice(0, us) : text;
     const sub = us >= 0 ? text.slice(us + 1) : '';
     const mainFont = `600 ${FONT_PX}px ${FONT}`;
-    const subFont = `600 ${Math.round(FONT_PX * 0.66)}px ${FONT}`;
+    const subFont = `600 ${Math.round(FONT_PX * SUB_RATIO)}px ${FONT}`;
     ctx.font = mainFont;
     const wMain = ctx.measureText(main).width;
     ctx.font = subFont;
     const wSub = sub ? ctx.measureText(sub).width + 2 : 0;
     const pad = 8;
-    const h = Math.ceil(FONT_PX * 1.45);
+    const h = Math.ceil(FONT_PX * LINE_RATIO);
     canvas.width = Math.ceil(wMain + wSub + 2 * pad);
     canvas.height = h;
     // Resizing resets the context state.
@@ -85,9 +91,42 @@ export function canvasLabelFactory(): LabelFactory | null {
     const frac = style.heightFraction ?? SIZES.labelHeight;
     const sy = style.screenSpace ? 2 * frac : (2 * frac) / p11;
     sprite.scale.set((sy * canvas.width) / canvas.height, sy, 1);
+    const base: LabelBase = { sy, frac, aspect: canvas.width / canvas.height, hasSub: sub !== '', px: 0 };
+    sprite.userData.labelBase = base;
     sprite.center.set(style.anchorX ?? 0.5, style.anchorY ?? 0.5);
     sprite.renderOrder = 10;
     sprite.name = `label:${text}`;
     return sprite;
   };
+}
+
+interface LabelBase {
+  /** Scale at the design height fraction. */
+  sy: number;
+  frac: number;
+  /** Canvas width / height. */
+  aspect: number;
+  hasSub: boolean;
+  /** The viewport height the scale was last set for, px. */
+  px: number;
+}
+
+/**
+ * Keeps every label under `root` readable: a label's design height is a fraction of the viewport,
+ * so in a small viewport its text would shrink below MIN_LABEL_TEXT_PX; it is then scaled up so
+ * that the smallest glyph (the subscript when there is one) stays at that size.
+ * `viewportPx` is the viewport height in CSS px times the camera zoom (1 for a HUD).
+ */
+export function keepLabelsReadable(root: Object3D, viewportPx: number): void {
+  if (!(viewportPx > 0)) return;
+  root.traverse((o) => {
+    const b = o.userData.labelBase as LabelBase | undefined;
+    if (!b || b.px === viewportPx) return;
+    b.px = viewportPx;
+    // On-screen main glyph height = frac · viewportPx / LINE_RATIO.
+    const minMain = MIN_LABEL_TEXT_PX / (b.hasSub ? SUB_RATIO : 1);
+    const need = (minMain * LINE_RATIO) / viewportPx;
+    const k = Math.max(1, need / b.frac);
+    o.scale.set(b.sy * k * b.aspect, b.sy * k, 1);
+  });
 }

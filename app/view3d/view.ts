@@ -15,7 +15,7 @@ import { qRotateInverse } from '../engine/math/rotation';
 import { setInertialZUp } from './adapter';
 import type { AttitudeSceneOptions } from './attitudeScene';
 import { AttitudeScene } from './attitudeScene';
-import { canvasLabelFactory } from './labels';
+import { canvasLabelFactory, keepLabelsReadable } from './labels';
 import { CAMERA_FOV_DEG, CAMERA_HOME, COLORS, SIZES } from './style';
 import type { AttitudeView, ViewLayout, ViewOptions, ViewRun, ViewStats } from './types';
 
@@ -132,6 +132,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
       // Narrow viewports (side by side) widen the view so the sphere still fits across.
       camera.zoom = Math.min(1, camera.aspect / 0.95);
       camera.updateProjectionMatrix();
+      keepLabelsReadable(vp.scene, h * camera.zoom);
       renderer.render(vp.scene, camera);
 
       const side = Math.max(1, Math.floor(SIZES.insetFraction * Math.min(w, h)));
@@ -143,6 +144,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
         poseInset(vp.runs.length ? vp.runs[0]!.qNow : null, o.momentumCamera);
         inset.aspect = 1;
         inset.updateProjectionMatrix();
+        keepLabelsReadable(vp.momentumScene, side);
         renderer.render(vp.momentumScene, inset);
       }
 
@@ -150,6 +152,7 @@ export function createAttitudeView(canvas: HTMLCanvasElement, opts: AttitudeView
       hud.left = -aspect;
       hud.right = aspect;
       hud.updateProjectionMatrix();
+      keepLabelsReadable(vp.hudScene, h);
       vp.layoutHud(aspect, (2 * side) / h, o.showMomentum);
       renderer.setViewport(x0, 0, w, h);
       renderer.setScissor(x0, 0, w, h);

@@ -23,6 +23,8 @@ import type { Browser, Page } from 'playwright-core';
 import Quaternion from 'quaternion';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUrl, launchBrowser, outputDir, repoRoot, skipBrowser, watchedPage, type WatchedPage } from './harness';
+import { runName } from '../../app/ui/modeNames';
+import type { RunMode } from '../../app/engine/pipeline/types';
 import { box, frames, pixelDiff, projectWorldPoint, setTime, snapshot } from './view3d-helpers';
 
 const SPIN_NAME = 'Tern-12 spin-through (test copy)';
@@ -79,7 +81,8 @@ interface RunInfo {
 }
 
 async function runsInfo(page: Page): Promise<RunInfo[]> {
-  return page.evaluate(() => {
+  // The view names a run as the app does everywhere (modeNames.ts runName).
+  const raw = await page.evaluate(() => {
     type Run = {
       key: string;
       label: string;
@@ -91,7 +94,8 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
     const st = (window as unknown as { __slewsmith: { store: { getState(): { output: { runs: Run[] } } } } }).__slewsmith.store.getState();
     return st.output.runs.map((r) => ({
       key: r.key,
-      label: `${r.label} (${r.mode})`,
+      label: r.label,
+      mode: r.mode as RunMode,
       logicKind: r.logicKind,
       jumps: r.jumps.map((j) => j.t),
       brackets: r.jumps.map((j) => {
@@ -102,6 +106,7 @@ async function runsInfo(page: Page): Promise<RunInfo[]> {
       }),
     }));
   });
+  return raw.map(({ mode, ...r }) => ({ ...r, label: runName({ label: r.label, mode }) }));
 }
 
 const rotate = (q: number[], v: number[]): number[] =>

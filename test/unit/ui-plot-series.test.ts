@@ -2,12 +2,15 @@
  * Plot contents (app/ui/plots/series.ts) from a real pipeline run of the demo: every series is
  * the engine's channel in display units (deg, deg/s, mN·m, mN·m·s; conversion factors exact by
  * definition), per-wheel channels de-interleaved, ± limit lines at the engine's limits, jump
- * markers at the engine's jump times, and smooth laws say why their hybrid plots are empty.
+ * markers at the engine's jump times, overlays of every ticked run (|ω| and momentum use recomputed
+ * here from the trace), segment markers on every axis, and smooth laws' hybrid plots hidden with one note.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import type { PipelineOutput } from '../../app/engine/pipeline/types';
 import { alignRuns, buildPlots, channel, type Series } from '../../app/ui/plots/series';
+import { defaultBoresight, type OverlayOptions } from '../../app/ui/plots/overlays';
+import { runName } from '../../app/ui/modeNames';
 import demo from '../../assets/lumen6-imaging.scenario.json';
 import { DEG_PER_RAD } from '../../app/engine/units';
 
@@ -37,10 +40,12 @@ describe('plot series from a demo run', () => {
     expect([...channel(src, 2, 3, 1, 10)]).toEqual([20, 50]);
   });
 
-  it('builds the eight plots for the detailed run, in display units', () => {
-    const plots = buildPlots(out, ['synergistic:follow-plan', 'pd:follow-plan'], { logError: false }, join);
-    expect(plots.map((p) => p.id)).toEqual([
-      'error-angle',
+  const opts = (logError: boolean): OverlayOptions => ({ logError, boresight: defaultBoresight(out) });
+
+  it('builds the four overlays over every ticked run and the per-run plots of the first, in display units', () => {
+    const set = buildPlots(out, ['synergistic:follow-plan', 'pd:follow-plan'], opts(false), join);
+    expect(set.overlays.map((p) => p.id)).toEqual(['error-angle', 'boresight', 'rate-magnitude', 'momentum-use']);
+    expect(set.detailPlots.map((p) => p.id)).toEqual([
       'body-rate',
       'wheel-momentum',
       'wheel-torque',
@@ -49,26 +54,42 @@ describe('plot series from a demo run', () => {
       'lyapunov',
       'hybrid-time',
     ]);
+    expect(set.hiddenNote).toBeNull();
     const syn = out.runs.find((r) => r.key === 'synergistic:follow-plan')!;
     const pd = out.runs.find((r) => r.key === 'pd:follow-plan')!;
+    expect(set.detail).toBe(syn);
     const n = syn.trace.n;
+    const plots = [...set.overlays, ...set.detailPlots];
     const byId = Object.fromEntries(plots.map((p) => [p.id, p]));
     for (const p of plots) {
       expect(p.empty, p.id).toBeUndefined();
       expect(p.data.length, p.id).toBe(p.series.length + 1);
       for (const d of p.data) expect(d.length, p.id).toBeGreaterThan(0);
+      // Segment starts on every time axis, at the engine's plan times.
+      expect(
+        p.markers?.filter((m) => m.kind === 'segment').map((m) => m.t),
+        p.id,
+      ).toEqual(out.plan.segments.map((s) => s.tStart));
     }
     // Error angle: both runs, rad → deg.
     const ea = byId['error-angle']!;
-    expect(ea.series.map((s) => s.label)).toEqual([`${syn.label} (follow-plan)`, `${pd.label} (follow-plan)`]);
+    expect(ea.series.map((s) => s.label)).toEqual([runName(syn), runName(pd)]);
     const k = Math.floor(n / 3);
     const tk = syn.trace.t[k]!;
     const row = Array.from(ea.data[0] as ArrayLike<number>).indexOf(tk);
     expect(ea.data[1]![row]).toBeCloseTo(syn.trace.errorAngle[k]! * DEG_PER_RAD, 12);
+    // |ω| overlay: Euclidean norm of the three components, rad/s → deg/s (both runs).
+    const w = syn.trace.omega;
+    expect(byId['rate-magnitude']!.data[1]![row]).toBeCloseTo(Math.hypot(w[3 * k]!, w[3 * k + 1]!, w[3 * k + 2]!) * DEG_PER_RAD, 12);
+    expect(byId['rate-magnitude']!.series.map((s) => s.label)).toContain('slew-rate cap');
+    // Momentum use: max over wheels of |h_i| / h_max,i in %, recomputed here from the trace.
+    const N = syn.trace.nWheels;
+    let use = 0;
+    for (let i = 0; i < N; i++) use = Math.max(use, Math.abs(syn.trace.hWheel[N * k + i]!) / out.vehicle.maxMomentumNms[i]!);
+    expect(byId['momentum-use']!.data[1]![row]).toBeCloseTo(100 * use, 12);
     // Body rate: ω_y of sample k, rad/s → deg/s.
     expect(byId['body-rate']!.data[2]![k]).toBeCloseTo(syn.trace.omega[3 * k + 1]! * DEG_PER_RAD, 12);
     // Wheel momentum: wheel 3 of sample k, N·m·s → mN·m·s; then the ± limit lines.
-    const N = syn.trace.nWheels;
     const wm = byId['wheel-momentum']!;
     expect(wm.data[3]![k]).toBeCloseTo(syn.trace.hWheel[N * k + 2]! * 1e3, 12);
     const hMax = out.vehicle.maxMomentumNms[0]! * 1e3;
@@ -90,15 +111,15 @@ describe('plot series from a demo run', () => {
     expect(ht.data[2]![n - 1]).toBe(syn.trace.j[n - 1]);
   });
 
-  it('says why a smooth law has no logic, potential or hybrid-time plot', () => {
-    const plots = buildPlots(out, ['pd:follow-plan'], { logError: true }, join);
-    const byId = Object.fromEntries(plots.map((p) => [p.id, p]));
-    expect(byId.logic!.empty).toMatch(/smooth law/);
-    expect(byId.potential!.empty).toMatch(/no potential family/);
-    expect(byId['hybrid-time']!.empty).toMatch(/no jumps/);
-    expect(byId['error-angle']!.log).toBe(true);
+  it('hides the logic, potential and hybrid-time plots of a smooth law, saying why once', () => {
+    const set = buildPlots(out, ['pd:follow-plan'], opts(true), join);
+    const ids = set.detailPlots.map((p) => p.id);
+    expect(ids).toEqual(['body-rate', 'wheel-momentum', 'wheel-torque', 'lyapunov']);
+    expect(set.hiddenNote).toMatch(/smooth law/);
+    const ea = set.overlays.find((p) => p.id === 'error-angle')!;
+    expect(ea.log).toBe(true);
     // Log axis: non-positive samples become gaps, never NaN.
-    for (const v of Array.from(byId['error-angle']!.data[1]!)) expect(v === null || (v as number) > 0).toBe(true);
+    for (const v of Array.from(ea.data[1]!)) expect(v === null || (v as number) > 0).toBe(true);
   });
 
   it('aligns runs with different sample times on the union of times', () => {
@@ -110,9 +131,10 @@ describe('plot series from a demo run', () => {
     expect(Array.from(data[1]!).filter((v) => v === null).length).toBe(b.trace.n);
   });
 
-  it('shows only the error plot, saying so, when no run is selected', () => {
-    const plots = buildPlots(out, [], { logError: false }, join);
-    expect(plots).toHaveLength(1);
-    expect(plots[0]!.empty).toBe('No run selected');
+  it('shows only empty overlays, saying so, when no run is ticked', () => {
+    const set = buildPlots(out, [], opts(false), join);
+    expect(set.detail).toBeNull();
+    expect(set.detailPlots).toHaveLength(0);
+    for (const p of set.overlays) expect(p.empty).toMatch(/Tick a run/);
   });
 });

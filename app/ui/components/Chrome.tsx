@@ -20,6 +20,7 @@ function shortcut(c: MenuCommand): string {
 }
 
 const OTHER_KEYS: [string, string][] = [
+  ...(isMac ? [] : ([['Ctrl+Y', 'Redo (as Ctrl+Shift+Z)']] as [string, string][])),
   ['Space', 'Play / pause'],
   ['← / →', 'Previous / next sample'],
   ['Shift + ← / →', 'Previous / next logic jump'],
@@ -179,8 +180,16 @@ export function TopBar() {
           </span>
         )}
       </span>
-      <span className="shell muted" data-testid="shell-status">
-        {app.bridge.shell} shell · {fileName}
+      <span
+        className="shell muted"
+        data-testid="shell-status"
+        title={
+          app.bridge.shell === 'browser'
+            ? 'Running in a web browser: Open picks a file from your disk; Save and Export download the file.'
+            : 'Running as the desktop app: files open and save in place.'
+        }
+      >
+        {app.bridge.shell === 'browser' ? 'in browser — files via downloads' : 'desktop app'}
       </span>
       {notice && (
         <span className={`notice ${notice.kind}`} role="status" data-testid="notice">

@@ -8,6 +8,8 @@ import type { LawField } from '../../engine/control/definition';
 import type { LawId } from '../../engine/control/params';
 import { useAllIssues, useApp, useAppState, useIssuesAt, useScenarioValue } from '../context';
 import { fmt } from '../format';
+import { fmtFloor } from '../formatFloor';
+import { cleanMessage } from '../issues/present';
 import { IssueText, NumberField, Section, SelectField, TextField, VectorField } from './fields';
 
 type Obj = Record<string, unknown>;
@@ -19,6 +21,7 @@ function CertificateBadge({ id, compared, base }: { id: string; compared: boolea
   const cert: CertificateSummary | undefined = useAppState((s) => s.output?.certificates.find((c) => c.controllerId === id));
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const all = useAllIssues();
+  const scenario = useAppState((s) => s.scenario);
   // The engine refuses a law it cannot certify (e.g. δ not below δ*): say so rather than show the
   // last run's verdict.
   const refusal = all.find((i) => i.path === base || i.path.startsWith(`${base}.`) || i.path.startsWith(`${base}[`));
@@ -27,7 +30,7 @@ function CertificateBadge({ id, compared, base }: { id: string; compared: boolea
     return (
       <div className="cert bad" data-testid={`certificate-${id}`}>
         <span className="cert-verdict">not certified</span>
-        <div className="cert-msg">{refusal.message}</div>
+        <div className="cert-msg">{cleanMessage(refusal.message, refusal.path, scenario)}</div>
       </div>
     );
   if (!cert) return <div className="cert none">Certificate: waiting for a run…</div>;
@@ -38,9 +41,11 @@ function CertificateBadge({ id, compared, base }: { id: string; compared: boolea
       title={cert.message}
     >
       <span className="cert-verdict">{cert.admissible ? 'admissible' : 'NOT admissible'}</span>
-      <span>δ* = {fmt(cert.deltaStar, 4)}</span>
-      <span>δ = {fmt(cert.delta, 4)}</span>
-      <span>margin {fmt(cert.margin, 3)}</span>
+      <span title="Certified gap, printed rounded down so that the value shown is itself admissible">
+        δ* = {fmtFloor(cert.deltaStar, 4, true)}
+      </span>
+      <span>jump threshold δ = {fmt(cert.delta, 4)}</span>
+      <span>margin δ* − δ = {fmtFloor(cert.margin, 3)}</span>
       <div className="cert-msg">{cert.message}</div>
     </div>
   );

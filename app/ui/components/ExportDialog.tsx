@@ -4,7 +4,10 @@ import type { Issue } from '../../engine/errors';
 import { useApp, useAppState } from '../context';
 import { EXPORT_FORMATS, exportRun, type ExportFormat } from '../exporting';
 import { useStoreSlice } from '../store/hooks';
+import { runName } from '../modeNames';
 import { IssueText } from './fields';
+import { exportRateProblem } from '../exportRate';
+import { parseNumberText } from '../format';
 
 export function ExportDialog() {
   const app = useApp();
@@ -30,14 +33,14 @@ export function ExportDialog() {
   }, [open, output, runKey, selected]);
 
   const close = () => app.ui.setState({ exportOpen: false });
-  const rate = rateText.trim() === '' ? null : Number(rateText);
-  const rateBad = rate !== null && !(Number.isFinite(rate) && rate > 0);
+  const rateProblem = exportRateProblem(rateText, output ? output.scenario.file.vehicle.controlRateHz : Infinity);
+  const rate = rateText.trim() === '' || rateProblem ? null : (parseNumberText(rateText) as number);
 
   const doExport = async () => {
-    if (!output) return;
+    if (!output || rateProblem) return;
     setBusy(true);
     try {
-      const r = exportRun(output, { format, runKey, sampleRateHz: rateBad ? NaN : rate });
+      const r = exportRun(output, { format, runKey, sampleRateHz: rate });
       if (!r.ok) {
         setIssues(r.errors);
         return;
@@ -83,7 +86,7 @@ export function ExportDialog() {
               <select value={runKey} onChange={(e) => setRunKey(e.target.value)} aria-label="run to export" data-testid="export-run">
                 {output.runs.map((r) => (
                   <option key={r.key} value={r.key}>
-                    {r.label} — {r.mode}
+                    {runName(r)}
                   </option>
                 ))}
               </select>
@@ -94,7 +97,9 @@ export function ExportDialog() {
             <span className="field-label">Sample rate</span>
             <span className="field-control">
               <input
-                className={`num ${rateBad ? 'invalid' : ''}`}
+                className={`num ${rateProblem ? 'invalid' : ''}`}
+                aria-invalid={rateProblem !== null}
+                aria-describedby={rateProblem ? 'export-rate-problem' : undefined}
                 type="text"
                 inputMode="decimal"
                 placeholder="every sample"
@@ -106,12 +111,23 @@ export function ExportDialog() {
             </span>
             <span className="field-unit">Hz</span>
           </div>
+          {rateProblem && (
+            <div className="issue error" id="export-rate-problem" data-testid="export-rate-problem" role="alert">
+              {rateProblem}
+            </div>
+          )}
           <IssueText errors={issues} />
         </>
       )}
       <div className="dialog-buttons">
         <button onClick={close}>Cancel</button>
-        <button className="primary" disabled={!output || busy || !runKey} onClick={() => void doExport()} data-testid="export-go">
+        <button
+          className="primary"
+          disabled={!output || busy || !runKey || rateProblem !== null}
+          title={rateProblem ?? undefined}
+          onClick={() => void doExport()}
+          data-testid="export-go"
+        >
           Export…
         </button>
       </div>

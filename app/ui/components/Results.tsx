@@ -1,14 +1,14 @@
 /**
- * Right column: run status with the reasons running is blocked, the plan summary per segment and
- * the comparison table (metrics as rows, runs as columns, the engine's best value marked). The
- * run checkboxes in the table header choose which runs the plots and the 3D view show.
+ * Right column: run status with the reasons running is blocked (one per field, in the form's
+ * words), the plan summary per segment and the comparison table (ComparisonTable.tsx).
  */
-import { useMemo, useState } from 'react';
-import type { ComparisonRow, PipelineOutput } from '../../engine/pipeline/types';
+import { useMemo } from 'react';
 import { useApp, useAllIssues, useAppState } from '../context';
 import { fmt, pct } from '../format';
-import { DEG_PER_RAD, MILLI_PER_SI } from '../../engine/units';
-import { COMPARISON_COLUMNS } from '../../engine/pipeline/comparison';
+import { DEG_PER_RAD } from '../../engine/units';
+import { presentIssues, sentence } from '../issues/present';
+
+export { ComparisonTable } from './ComparisonTable';
 
 export function RunStatus() {
   const app = useApp();
@@ -20,6 +20,9 @@ export function RunStatus() {
   const blockers = useMemo(() => app.blockers(), [app, issues, excluded, pipeline]);
   const blocked = blockers.length > 0;
   const warnings = useAppState((s) => (s.outputScenario === s.scenario ? s.output?.warnings : undefined));
+  const scenario = useAppState((s) => s.scenario);
+  const shownBlockers = useMemo(() => presentIssues(blockers, scenario), [blockers, scenario]);
+  const shownWarnings = useMemo(() => presentIssues(warnings ?? [], scenario), [warnings, scenario]);
   const label =
     pipeline.status === 'waiting' || pipeline.status === 'running'
       ? 'Running…'
@@ -48,12 +51,13 @@ export function RunStatus() {
       {!blocked && warnings && warnings.length > 0 && (
         <details className="run-warnings" data-testid="run-warnings">
           <summary>
-            {warnings.length} warning{warnings.length === 1 ? '' : 's'} from the engine
+            {shownWarnings.length} warning{shownWarnings.length === 1 ? '' : 's'} from the engine
           </summary>
           <ul>
-            {warnings.map((i) => (
-              <li key={`${i.path}|${i.rule}`} data-rule={i.rule}>
-                <code>{i.path || '(file)'}</code> {i.message}
+            {shownWarnings.map((p) => (
+              <li key={p.path} data-rule={p.rule} data-path={p.path}>
+                <strong>{p.title}:</strong> {sentence(p.text)}
+                {p.more.length > 0 && <span className="muted"> (+{p.more.length} related)</span>}
               </li>
             ))}
           </ul>
@@ -63,9 +67,17 @@ export function RunStatus() {
         <div className="blockers" data-testid="blockers">
           <div className="blockers-head">Running is disabled until these are fixed:</div>
           <ul>
-            {blockers.map((i) => (
-              <li key={`${i.path}|${i.rule}`} data-rule={i.rule} data-path={i.path}>
-                <code>{i.path || '(file)'}</code> {i.message} <span className="rule">[{i.rule}]</span>
+            {shownBlockers.map((p) => (
+              <li key={p.path} data-rule={p.rule} data-path={p.path}>
+                <strong className="issue-field">{p.title}:</strong> {sentence(p.text)}
+                {p.suggestion && <span className="issue-suggest"> Suggested: {p.suggestion}.</span>}{' '}
+                <span className="rule">[{p.rule}]</span>
+                {p.more.length > 0 && (
+                  <span className="muted">
+                    {' '}
+                    (+{p.more.length} related finding{p.more.length === 1 ? '' : 's'}, listed beside the field)
+                  </span>
+                )}
               </li>
             ))}
           </ul>
@@ -124,124 +136,6 @@ export function PlanSummary() {
           ))}
         </tbody>
       </table>
-    </div>
-  );
-}
-
-/** How each comparison column is shown (the columns, their units and definitions come from the engine). */
-const SHOW: Partial<Record<keyof ComparisonRow, (r: ComparisonRow) => string>> = {
-  status: (r) => r.status,
-  settleTimeS: (r) => (r.settleTimeS === null ? 'never' : fmt(r.settleTimeS, 4)),
-  trackingErrorPeakDeg: (r) => fmt(r.trackingErrorPeakDeg, 3),
-  trackingErrorRmsDeg: (r) => fmt(r.trackingErrorRmsDeg, 3),
-  rotationTravelledDeg: (r) => fmt(r.rotationTravelledDeg, 4),
-  shortestRotationDeg: (r) => fmt(r.shortestRotationDeg, 4),
-  unwound: (r) => (r.unwound ? 'yes' : 'no'),
-  jumps: (r) => String(r.jumps),
-  chatterPerS: (r) => fmt(r.chatterPerS, 3),
-  peakWheelTorqueFraction: (r) => pct(r.peakWheelTorqueFraction),
-  peakWheelMomentumFraction: (r) => pct(r.peakWheelMomentumFraction),
-  controlEffortNms: (r) => fmt(r.controlEffortNms * MILLI_PER_SI, 4),
-  finalErrorDeg: (r) => fmt(r.finalErrorDeg, 3),
-  monitorViolations: (r) => String(r.monitorViolations),
-};
-
-const METRICS = COMPARISON_COLUMNS.map((c) => ({
-  key: c.key,
-  label: c.label,
-  unit: c.unit === '%' ? '' : c.unit,
-  help: `${c.definition} Source: ${c.source}.`,
-  show: SHOW[c.key] ?? ((r: ComparisonRow) => String(r[c.key])),
-}));
-
-export function ComparisonTable() {
-  const app = useApp();
-  const [wide, setWide] = useState(false);
-  const output: PipelineOutput | null = useAppState((s) => s.output);
-  const current = useAppState((s) => s.outputScenario === s.scenario);
-  const selected = useAppState((s) => s.selectedRunKeys);
-  if (!output) return <div className="panel-empty">No runs yet.</div>;
-  const rows = output.comparison;
-  const toggle = (key: string, on: boolean) => {
-    const next = on ? [...selected, key] : selected.filter((k) => k !== key);
-    app.store.selectRuns(next);
-  };
-  return (
-    <div className={`comparison ${current ? '' : 'stale'} ${wide ? 'wide' : ''}`} data-testid="comparison">
-      <div className="panel-head">
-        Comparison <span className="muted">· ★ best per metric · tick runs to plot</span>
-        <button
-          className="small push-right"
-          onClick={() => setWide(!wide)}
-          title={wide ? 'Back to the side column' : 'Show every run side by side over the plots'}
-          data-testid="comparison-wide"
-        >
-          {wide ? 'narrow' : 'widen'}
-        </button>
-      </div>
-      <div className="table-scroll">
-        <table className="data-table comparison-table">
-          <thead>
-            <tr>
-              <th>metric</th>
-              {rows.map((r) => (
-                <th key={r.key} className={`run-col ${selected[0] === r.key ? 'detail' : ''}`} data-run={r.key}>
-                  <label
-                    className="check"
-                    title={`${r.label} (${r.mode}) — ${selected[0] === r.key ? 'shown in the detail plots' : 'tick to show in plots and 3D'}`}
-                  >
-                    <input
-                      type="checkbox"
-                      checked={selected.includes(r.key)}
-                      onChange={(e) => toggle(r.key, e.target.checked)}
-                      data-testid={`show-${r.key}`}
-                    />
-                    <span className="run-name">{r.label}</span>
-                  </label>
-                  <div className="run-mode muted">{r.mode}</div>
-                  {selected.includes(r.key) && selected[0] !== r.key && (
-                    <button
-                      className="link"
-                      onClick={() => app.store.selectRuns([r.key, ...selected.filter((k) => k !== r.key)])}
-                      title="Show this run in the detail plots"
-                    >
-                      detail
-                    </button>
-                  )}
-                </th>
-              ))}
-            </tr>
-          </thead>
-          <tbody>
-            {METRICS.map((m) => {
-              const best = output.best[m.key];
-              return (
-                <tr key={m.key} title={m.help}>
-                  <th className="metric">
-                    {m.label}
-                    {m.unit && <span className="unit"> {m.unit}</span>}
-                  </th>
-                  {rows.map((r) => (
-                    <td
-                      key={r.key}
-                      className={`num ${best === r.key ? 'best' : ''} ${m.key === 'status' && r.verdict !== 'settled' ? 'bad' : ''}`}
-                      data-best={best === r.key ? 'true' : undefined}
-                    >
-                      {m.show(r)}
-                      {best === r.key && (
-                        <span className="star" aria-label="best">
-                          {' '}
-                          ★
-                        </span>
-                      )}
-                    </td>
-                  ))}
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-      </div>
     </div>
   );
 }

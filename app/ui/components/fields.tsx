@@ -10,23 +10,10 @@ import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
 import type { Issue } from '../../engine/errors';
 import { useApp, useIssuesAt, useScenarioValue } from '../context';
 import { numberText, parseNumberText } from '../format';
+import { IssueList } from '../issues/IssueList';
 
 export function IssueText({ errors, warnings = [] }: { errors: readonly Issue[]; warnings?: readonly Issue[] }) {
-  if (errors.length === 0 && warnings.length === 0) return null;
-  return (
-    <div className="field-issues">
-      {errors.map((i) => (
-        <div key={`${i.path}|${i.rule}`} className="issue error" data-rule={i.rule} data-path={i.path} role="alert">
-          {i.message} <span className="rule">[{i.rule}]</span>
-        </div>
-      ))}
-      {warnings.map((i) => (
-        <div key={`w|${i.path}|${i.rule}`} className="issue warning" data-rule={i.rule} data-path={i.path}>
-          {i.message}
-        </div>
-      ))}
-    </div>
-  );
+  return <IssueList errors={errors} warnings={warnings} />;
 }
 
 interface NumberInputProps {

@@ -1,15 +1,20 @@
 /**
- * The synchronised plots under the 3D view. Data changes go to uPlot's setData; playback time
- * reaches each chart's playhead through the clock's frame loop, never through React renders.
+ * The synchronised plots under the 3D view: overlays of every ticked run first, then the per-run
+ * plots of the run the picker chooses. Data changes go to uPlot's setData; playback time reaches
+ * each chart's playhead through the clock's frame loop, never through React renders.
  */
-import { useEffect, useMemo, useRef, useState } from 'react';
+import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
+import type { PipelineOutput } from '../../engine/pipeline/types';
+import { INERTIAL_FRAME } from '../../engine/caution';
 import { useApp, useAppState } from '../context';
+import { runName } from '../modeNames';
 import { createChart, createChartGroup, structureKey, type ChartGroup, type ChartHandle } from './chart';
-import { buildPlots, type PlotSpec, type Series } from './series';
+import { boresightChoices, defaultBoresight, type BoresightChoice } from './overlays';
+import { buildPlots, runColor, type PlotSpec, type Series } from './series';
 
-const PLOT_HEIGHT = 170;
+const PLOT_HEIGHT = 180;
 
 const join = (tables: Series[][]) => uPlot.join(tables as uPlot.AlignedData[]) as unknown as Series[];
 
@@ -24,7 +29,7 @@ function fileSlug(s: unknown): string {
   );
 }
 
-function PlotCard({ spec, group, extra }: { spec: PlotSpec; group: ChartGroup; extra?: React.ReactNode }) {
+function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGroup; out: PipelineOutput; extra?: ReactNode }) {
   const app = useApp();
   const host = useRef<HTMLDivElement>(null);
   const handle = useRef<ChartHandle | null>(null);
@@ -64,9 +69,9 @@ function PlotCard({ spec, group, extra }: { spec: PlotSpec; group: ChartGroup; e
   const exportPng = async () => {
     if (!handle.current) return;
     try {
-      const content = await handle.current.toPng();
-      const name = (app.store.getState().scenario as { name?: unknown } | null)?.name;
-      const r = await app.bridge.exportFile({ suggestedName: `${fileSlug(name)}-${spec.id}.png`, content });
+      // The run's own scenario (the plot shows it), not an edit made since.
+      const content = await handle.current.toPng({ scenarioName: out.scenario.name, epochUtc: out.scenario.epochUtc });
+      const r = await app.bridge.exportFile({ suggestedName: `${fileSlug(out.scenario.name)}-${spec.id}.png`, content });
       if (r.status === 'exported') app.notify(`Exported ${r.file.name}`);
       else if (r.status === 'failed') app.notify(r.message, 'error');
       else if (r.status === 'invalid') app.notify(r.errors.map((e) => e.message).join('; '), 'error');
@@ -78,16 +83,76 @@ function PlotCard({ spec, group, extra }: { spec: PlotSpec; group: ChartGroup; e
   return (
     <div className="plot-card" data-plot={spec.id} data-testid={`plot-${spec.id}`}>
       <div className="plot-head">
-        <span className="plot-title">{spec.title}</span>
+        <span className="plot-title" title={spec.title}>
+          {spec.title}
+        </span>
         {extra}
         {!empty && (
-          <button className="small" onClick={exportPng} title="Save this plot as a PNG image" data-testid={`png-${spec.id}`}>
+          <button
+            className="small"
+            onClick={exportPng}
+            title="Save this plot as a PNG image with its caption"
+            data-testid={`png-${spec.id}`}
+          >
             PNG
           </button>
         )}
       </div>
+      {spec.note && <div className="plot-note">{spec.note}</div>}
       {empty ? <div className="plot-empty">{empty}</div> : <div className="plot-host" ref={host} />}
     </div>
+  );
+}
+
+/** The run whose per-run plots are shown: the first ticked run; choosing another ticks it and puts it first. */
+function RunPicker({ out, selected }: { out: PipelineOutput; selected: readonly string[] }) {
+  const app = useApp();
+  const current = selected[0] ?? '';
+  return (
+    <label className="run-picker">
+      <span>Per-run plots for</span>
+      <select
+        value={current}
+        onChange={(e) => app.store.selectRuns([e.target.value, ...selected.filter((k) => k !== e.target.value)])}
+        data-testid="detail-run"
+        aria-label="run shown in the per-run plots"
+      >
+        {current === '' && <option value="">(no run ticked)</option>}
+        {out.runs.map((r) => (
+          <option key={r.key} value={r.key}>
+            {runName(r)}
+            {selected.includes(r.key) ? '' : ' (not ticked)'}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
+
+function BoresightPicker({
+  choices,
+  value,
+  onChange,
+}: {
+  choices: BoresightChoice[];
+  value: BoresightChoice;
+  onChange: (c: BoresightChoice) => void;
+}) {
+  return (
+    <select
+      className="axis-picker"
+      value={value.key}
+      onChange={(e) => onChange(choices.find((c) => c.key === e.target.value) ?? value)}
+      aria-label="body axis of the pointing-error plot"
+      title="Body axis whose pointing error is plotted"
+      data-testid="boresight-axis"
+    >
+      {choices.map((c) => (
+        <option key={c.key} value={c.key}>
+          {c.name}
+        </option>
+      ))}
+    </select>
   );
 }
 
@@ -96,26 +161,76 @@ export function PlotsPanel() {
   const selected = useAppState((s) => s.selectedRunKeys);
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const [logError, setLogError] = useState(true);
+  const [axisKey, setAxisKey] = useState<string | null>(null);
   const group = useMemo(() => createChartGroup(), []);
-  const plots = useMemo(() => (output ? buildPlots(output, selected, { logError }, join) : []), [output, selected, logError]);
+  const choices = useMemo(() => (output ? boresightChoices(output) : []), [output]);
+  const boresight = useMemo(
+    () => (output ? (choices.find((c) => c.key === axisKey) ?? defaultBoresight(output)) : null),
+    [output, choices, axisKey],
+  );
+  const plots = useMemo(
+    () => (output && boresight ? buildPlots(output, selected, { logError, boresight }, join) : null),
+    [output, selected, logError, boresight],
+  );
 
-  if (!output) return <div className="plots panel-empty">Plots appear after the first run.</div>;
+  if (!output || !plots || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
+  const logToggle = (
+    <label className="check small-toggle" title="Logarithmic error axis (error angle and pointing error)">
+      <input type="checkbox" checked={logError} onChange={(e) => setLogError(e.target.checked)} data-testid="log-toggle" /> log
+    </label>
+  );
   return (
     <div className={`plots ${current ? '' : 'stale'}`} data-testid="plots">
-      {plots.map((p) => (
-        <PlotCard
-          key={p.id}
-          spec={p}
-          group={group}
-          extra={
-            p.id === 'error-angle' ? (
-              <label className="check small-toggle" title="Logarithmic error axis">
-                <input type="checkbox" checked={logError} onChange={(e) => setLogError(e.target.checked)} data-testid="log-toggle" /> log
-              </label>
-            ) : undefined
-          }
-        />
-      ))}
+      <div className="plots-head" data-testid="plots-head">
+        <span className="plots-title">Ticked runs</span>
+        <span className="run-keys">
+          {selected.map((k) => {
+            const r = output.runs.find((x) => x.key === k);
+            return r ? (
+              <span key={k} className="run-key">
+                <span className="swatch" style={{ background: runColor(output, k) }} />
+                {runName(r)}
+              </span>
+            ) : null;
+          })}
+        </span>
+        <span className="time-note muted" data-testid="time-note">
+          t in s from {output.scenario.epochUtc} UTC · frame {INERTIAL_FRAME} · solid line: a slew starts (target number and name), dotted:
+          planned arrival
+        </span>
+      </div>
+      <div className="plot-grid" data-testid="overlay-plots">
+        {plots.overlays.map((p) => (
+          <PlotCard
+            key={p.id}
+            spec={p}
+            group={group}
+            out={output}
+            extra={
+              p.id === 'error-angle' ? (
+                logToggle
+              ) : p.id === 'boresight' ? (
+                <BoresightPicker choices={choices} value={boresight} onChange={(c) => setAxisKey(c.key)} />
+              ) : undefined
+            }
+          />
+        ))}
+      </div>
+      <div className="plots-head detail-head">
+        <RunPicker out={output} selected={selected} />
+        {plots.hiddenNote && (
+          <span className="hidden-note muted" data-testid="hidden-note">
+            {plots.hiddenNote}
+          </span>
+        )}
+      </div>
+      {plots.detail && (
+        <div className="plot-grid" data-testid="detail-plots">
+          {plots.detailPlots.map((p) => (
+            <PlotCard key={p.id} spec={p} group={group} out={output} />
+          ))}
+        </div>
+      )}
     </div>
   );
 }

@@ -1,11 +1,16 @@
 /**
  * uPlot charts from PlotSpecs: one cursor synchronised across every chart (uPlot cursor sync),
  * x zoom shared through a chart group, a playhead line moved by the frame loop (no redraw),
- * click-to-scrub, jump markers and flagged intervals drawn in a draw hook, PNG snapshots.
+ * click-to-scrub, segment starts and arrivals (labelled where there is room), jump markers and
+ * shaded intervals drawn in a draw hook, PNG snapshots with a caption (pngCaption.ts).
+ *
+ * Canvas text is at least 11 CSS px (axis values 12 px); uPlot multiplies by the device pixel
+ * ratio itself, our own draw hook does the same.
  */
 import uPlot from 'uplot';
 import { fmt } from '../format';
 import type { PlotSpec } from './series';
+import { captionLines, wrapText, type CaptionContext } from './pngCaption';
 
 const CURSOR_SYNC_KEY = 'slewsmith-time';
 
@@ -23,13 +28,18 @@ export interface ChartHandle {
   setData(spec: PlotSpec): void;
   resize(width: number, height: number): void;
   setPlayhead(t: number): void;
-  /** PNG of the chart with its title and a legend line. */
-  toPng(): Promise<Uint8Array>;
+  /** PNG of the chart with its caption (title, scenario, time axis, caution) and a legend. */
+  toPng(caption: CaptionContext): Promise<Uint8Array>;
   destroy(): void;
 }
 
-const FONT = '11px system-ui, -apple-system, "Segoe UI", sans-serif';
-const AXIS_STROKE = '#4a5563';
+const FAMILY = 'system-ui, -apple-system, "Segoe UI", sans-serif';
+/** Axis values and titles, CSS px (at least 11 px: the renderer's text rule). */
+const AXIS_FONT_PX = 12;
+/** Segment labels drawn in the plot area, CSS px. */
+const MARKER_FONT_PX = 11;
+const FONT = `${AXIS_FONT_PX}px ${FAMILY}`;
+const AXIS_STROKE = '#3d4654';
 const GRID = { stroke: 'rgba(80, 90, 105, 0.12)', width: 1 };
 
 function valueFormatter(_u: uPlot, v: number | null): string {
@@ -51,53 +61,107 @@ export function structureKey(spec: PlotSpec): string {
   );
 }
 
+/** Shaded intervals: monitor flags, wheels at a limit. */
+function drawIntervals(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
+  if (!s.intervals?.length) return;
+  const { top, height } = u.bbox;
+  for (const iv of s.intervals) {
+    if (iv.t1 < xMin || iv.t0 > xMax) continue;
+    const x0 = u.valToPos(iv.t0, 'x', true);
+    const x1 = u.valToPos(iv.t1, 'x', true);
+    u.ctx.fillStyle = iv.color ?? 'rgba(214, 96, 20, 0.18)';
+    u.ctx.fillRect(x0, top, Math.max(2 * dpr, x1 - x0), height);
+  }
+}
+
+/**
+ * Segment starts (solid) and planned arrivals (dotted), with "n label" at the top of each start
+ * where it fits before the next start, else just the target number, else nothing.
+ */
+function drawSegments(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
+  const marks = s.markers;
+  if (!marks?.length) return;
+  const ctx = u.ctx;
+  const { top, height, left, width } = u.bbox;
+  ctx.lineWidth = dpr;
+  for (const m of marks) {
+    if (m.t < xMin || m.t > xMax) continue;
+    const x = Math.round(u.valToPos(m.t, 'x', true)) + 0.5;
+    ctx.strokeStyle = m.kind === 'segment' ? 'rgba(40, 48, 60, 0.55)' : 'rgba(40, 48, 60, 0.4)';
+    ctx.setLineDash(m.kind === 'segment' ? [] : [2 * dpr, 3 * dpr]);
+    ctx.beginPath();
+    ctx.moveTo(x, top);
+    ctx.lineTo(x, top + height);
+    ctx.stroke();
+  }
+  ctx.setLineDash([]);
+  ctx.font = `600 ${MARKER_FONT_PX * dpr}px ${FAMILY}`;
+  ctx.textBaseline = 'top';
+  // uPlot leaves its own text alignment (axis labels are centred) on the context.
+  ctx.textAlign = 'left';
+  const starts = marks.filter((m) => m.kind === 'segment' && m.t >= xMin && m.t <= xMax);
+  const pad = 3 * dpr;
+  const lineH = (MARKER_FONT_PX + 3) * dpr;
+  starts.forEach((m, i) => {
+    const x = u.valToPos(m.t, 'x', true) + pad;
+    const next = i + 1 < starts.length ? u.valToPos(starts[i + 1]!.t, 'x', true) : left + width;
+    const room = next - x - pad;
+    const full = `${m.number} ${m.label}`;
+    const text = ctx.measureText(full).width <= room ? full : ctx.measureText(String(m.number)).width <= room ? String(m.number) : '';
+    if (!text) return;
+    const w = ctx.measureText(text).width;
+    ctx.fillStyle = 'rgba(255, 255, 255, 0.85)';
+    ctx.fillRect(x - 1 * dpr, top + 1 * dpr, w + 2 * dpr, lineH);
+    ctx.fillStyle = '#28303c';
+    ctx.fillText(text, x, top + 2 * dpr);
+  });
+}
+
+function drawJumps(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
+  if (!s.jumpTimes?.length) return;
+  const ctx = u.ctx;
+  const { top, height } = u.bbox;
+  ctx.strokeStyle = 'rgba(142, 68, 173, 0.55)';
+  ctx.lineWidth = dpr;
+  ctx.setLineDash([3 * dpr, 3 * dpr]);
+  ctx.beginPath();
+  for (const t of s.jumpTimes) {
+    if (t < xMin || t > xMax) continue;
+    const x = Math.round(u.valToPos(t, 'x', true)) + 0.5;
+    ctx.moveTo(x, top);
+    ctx.lineTo(x, top + height);
+  }
+  ctx.stroke();
+  // A small triangle at the bottom of each jump line, so jumps read even over dense data.
+  ctx.setLineDash([]);
+  ctx.fillStyle = 'rgba(142, 68, 173, 0.9)';
+  const a = 4 * dpr;
+  for (const t of s.jumpTimes) {
+    if (t < xMin || t > xMax) continue;
+    const x = u.valToPos(t, 'x', true);
+    ctx.beginPath();
+    ctx.moveTo(x - a, top + height);
+    ctx.lineTo(x + a, top + height);
+    ctx.lineTo(x, top + height - 1.6 * a);
+    ctx.fill();
+  }
+}
+
 function drawMarkers(spec: () => PlotSpec) {
   return (u: uPlot) => {
     const s = spec();
-    if (!s.jumpTimes?.length && !s.intervals?.length) return;
     const ctx = u.ctx;
     const { left, top, width, height } = u.bbox;
     const xMin = u.scales.x!.min ?? -Infinity;
     const xMax = u.scales.x!.max ?? Infinity;
+    const dpr = u.ctx.canvas.width / Math.max(1, u.width);
     ctx.save();
     ctx.beginPath();
     ctx.rect(left, top, width, height);
     ctx.clip();
-    if (s.intervals) {
-      ctx.fillStyle = 'rgba(214, 96, 20, 0.18)';
-      for (const iv of s.intervals) {
-        if (iv.t1 < xMin || iv.t0 > xMax) continue;
-        const x0 = u.valToPos(iv.t0, 'x', true);
-        const x1 = u.valToPos(iv.t1, 'x', true);
-        ctx.fillRect(x0, top, Math.max(2 * devicePixelRatio, x1 - x0), height);
-      }
-    }
-    if (s.jumpTimes) {
-      ctx.strokeStyle = 'rgba(142, 68, 173, 0.55)';
-      ctx.lineWidth = devicePixelRatio;
-      ctx.setLineDash([3 * devicePixelRatio, 3 * devicePixelRatio]);
-      ctx.beginPath();
-      for (const t of s.jumpTimes) {
-        if (t < xMin || t > xMax) continue;
-        const x = Math.round(u.valToPos(t, 'x', true)) + 0.5;
-        ctx.moveTo(x, top);
-        ctx.lineTo(x, top + height);
-      }
-      ctx.stroke();
-      // A small triangle at the top of each jump line, so jumps read even over dense data.
-      ctx.setLineDash([]);
-      ctx.fillStyle = 'rgba(142, 68, 173, 0.9)';
-      const a = 4 * devicePixelRatio;
-      for (const t of s.jumpTimes) {
-        if (t < xMin || t > xMax) continue;
-        const x = u.valToPos(t, 'x', true);
-        ctx.beginPath();
-        ctx.moveTo(x - a, top);
-        ctx.lineTo(x + a, top);
-        ctx.lineTo(x, top + 1.6 * a);
-        ctx.fill();
-      }
-    }
+    drawIntervals(u, s, xMin, xMax, dpr);
+    drawJumps(u, s, xMin, xMax, dpr);
+    drawSegments(u, s, xMin, xMax, dpr);
     ctx.restore();
   };
 }
@@ -106,7 +170,7 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
   const stepped = uPlot.paths.stepped?.({ align: 1 });
   const hasJ = spec.series.some((s) => s.scale === 'j');
   const axes: uPlot.Axis[] = [
-    { label: 't (s)', stroke: AXIS_STROKE, font: FONT, labelFont: FONT, grid: GRID, ticks: GRID, size: 34, labelSize: 16 },
+    { label: 't (s from epoch)', stroke: AXIS_STROKE, font: FONT, labelFont: FONT, grid: GRID, ticks: GRID, size: 36, labelSize: 18 },
     {
       label: spec.yLabel,
       stroke: AXIS_STROKE,
@@ -115,8 +179,8 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
       grid: GRID,
       ticks: GRID,
       scale: 'y',
-      size: 58,
-      labelSize: 16,
+      size: 62,
+      labelSize: 18,
       values: spec.log ? logTickLabels : (_u, vals) => vals.map((v) => fmt(v, 3)),
     },
   ];
@@ -129,8 +193,8 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
       scale: 'j',
       side: 1,
       grid: { show: false },
-      size: 40,
-      labelSize: 16,
+      size: 44,
+      labelSize: 18,
       values: (_u, vals) => vals.map((v) => (Number.isInteger(v) ? String(v) : '')),
     });
   return {
@@ -234,39 +298,70 @@ export function createChart(
       place(lastT);
     },
     setPlayhead: place,
-    async toPng() {
+    async toPng(caption) {
       const src = plot.ctx.canvas;
       const dpr = src.width / Math.max(1, plot.width);
-      const pad = 8 * dpr;
-      const titleH = 22 * dpr;
-      const legendH = 20 * dpr;
+      const pad = 10 * dpr;
+      const maxW = src.width;
       const c = document.createElement('canvas');
-      c.width = src.width + 2 * pad;
-      c.height = src.height + titleH + legendH + 2 * pad;
       const ctx = c.getContext('2d');
       if (!ctx) throw new Error('2D canvas unavailable');
+      const fonts = {
+        title: `600 ${14 * dpr}px ${FAMILY}`,
+        info: `${12 * dpr}px ${FAMILY}`,
+        caution: `italic ${11 * dpr}px ${FAMILY}`,
+      };
+      const lineH = { title: 20 * dpr, info: 17 * dpr, caution: 15 * dpr };
+      const lines: { text: string; kind: keyof typeof fonts }[] = [];
+      for (const l of captionLines(spec.title, caption)) {
+        ctx.font = fonts[l.kind];
+        for (const t of wrapText(l.text, maxW, (x) => ctx.measureText(x).width)) lines.push({ text: t, kind: l.kind });
+      }
+      const headH = lines.reduce((h, l) => h + lineH[l.kind], 0) + 4 * dpr;
+      // Legend entries in rows that fit the plot's width.
+      const legendFont = `${12 * dpr}px ${FAMILY}`;
+      const rowH = 20 * dpr;
+      ctx.font = legendFont;
+      const entries: { s: (typeof spec.series)[number]; x: number; row: number }[] = [];
+      let lx = 0,
+        row = 0;
+      for (const s of spec.series) {
+        const w = 28 * dpr + ctx.measureText(s.label).width;
+        if (lx > 0 && lx + w > maxW) {
+          lx = 0;
+          row++;
+        }
+        entries.push({ s, x: lx, row });
+        lx += w;
+      }
+      const legendH = (row + 1) * rowH + 4 * dpr;
+      c.width = src.width + 2 * pad;
+      c.height = src.height + headH + legendH + 2 * pad;
       ctx.fillStyle = '#ffffff';
       ctx.fillRect(0, 0, c.width, c.height);
-      ctx.fillStyle = '#1f2731';
-      ctx.font = `600 ${13 * dpr}px system-ui, sans-serif`;
       ctx.textBaseline = 'middle';
-      ctx.fillText(spec.title, pad, pad + titleH / 2);
-      ctx.drawImage(src, pad, pad + titleH);
-      ctx.font = `${11 * dpr}px system-ui, sans-serif`;
-      let x = pad;
-      const y = pad + titleH + src.height + legendH / 2;
-      for (const s of spec.series) {
-        ctx.strokeStyle = s.color;
+      let y = pad;
+      for (const l of lines) {
+        ctx.font = fonts[l.kind];
+        ctx.fillStyle = l.kind === 'caution' ? '#5c3d00' : '#1f2731';
+        ctx.fillText(l.text, pad, y + lineH[l.kind] / 2);
+        y += lineH[l.kind];
+      }
+      ctx.drawImage(src, pad, pad + headH);
+      ctx.font = legendFont;
+      for (const e of entries) {
+        const x = pad + e.x;
+        const ly = pad + headH + src.height + 4 * dpr + e.row * rowH + rowH / 2;
+        ctx.strokeStyle = e.s.color;
         ctx.lineWidth = 2 * dpr;
-        ctx.setLineDash((s.dash ?? []).map((d) => d * dpr));
+        ctx.setLineDash((e.s.dash ?? []).map((d) => d * dpr));
         ctx.beginPath();
-        ctx.moveTo(x, y);
-        ctx.lineTo(x + 16 * dpr, y);
+        ctx.moveTo(x, ly);
+        ctx.lineTo(x + 16 * dpr, ly);
         ctx.stroke();
         ctx.setLineDash([]);
         ctx.fillStyle = '#1f2731';
-        ctx.fillText(s.label, x + 20 * dpr, y);
-        x += 28 * dpr + ctx.measureText(s.label).width;
+        ctx.fillText(e.s.label, x + 20 * dpr, ly);
       }
       const blob = await new Promise<Blob | null>((resolve) => c.toBlob(resolve, 'image/png'));
       if (!blob) throw new Error('PNG encoding failed');

@@ -1,140 +1,28 @@
 /**
  * Plot contents from engine runs: which series, in which display units, with which markers.
- * Only unit conversion and de-interleaving happen here (design.md: the UI shows deg, deg/s, mN·m,
- * mN·m·s); every value comes from the run trace. Pure data, no DOM, so tests can check it.
+ * Only unit conversion, de-interleaving and the per-sample arithmetic of the overlay quantities
+ * (overlays.ts) happen here (design.md: the UI shows deg, deg/s, mN·m, mN·m·s); every value
+ * comes from the run trace. Pure data, no DOM, so tests can check it.
+ *
+ * Two groups: overlays compare every ticked run on one axis (overlays.ts); the per-run plots
+ * (this file) show one run in detail, the one the run picker chooses. A per-run plot the chosen
+ * run has nothing for (logic, potentials, hybrid time of a smooth law) is left out, and
+ * `hiddenNote` says once why.
  */
 import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types';
 import { DEG_PER_RAD, MILLI_PER_SI } from '../../engine/units';
+import { runName } from '../modeNames';
+import { momentumLimitIntervals, segmentMarkers, torqueLimitIntervals, type LimitInterval } from './markers';
+import { overlayPlots, type OverlayOptions } from './overlays';
+import { AXIS_COLORS, LIMIT_COLOR, MONITOR_FILL, PALETTE, channel, times, type PlotSpec, type Series, type SeriesSpec } from './base';
 
-export type Series = ArrayLike<number | null>;
-
-export interface SeriesSpec {
-  label: string;
-  color: string;
-  /** Dashed line (limits, references). */
-  dash?: number[];
-  stepped?: boolean;
-  /** Second y scale (the hybrid-time plot's jump counter). */
-  scale?: 'y' | 'j';
-  width?: number;
-  /** Draw points only (no line). */
-  pointsOnly?: boolean;
-}
-
-export interface Interval {
-  t0: number;
-  t1: number;
-  label: string;
-}
-
-export interface PlotSpec {
-  id: string;
-  title: string;
-  yLabel: string;
-  /** Label of the second (right) axis, when a series uses scale 'j'. */
-  y2Label?: string;
-  log?: boolean;
-  series: SeriesSpec[];
-  /** x (time, s) first, then one array per series. */
-  data: Series[];
-  /** Pairs of series numbers (1-based, as uPlot counts): fill between upper and lower. */
-  bands?: { upper: number; lower: number; color: string }[];
-  /** Vertical markers (logic jumps), s. */
-  jumpTimes?: number[];
-  /** Shaded intervals (Lyapunov monitor flags). */
-  intervals?: Interval[];
-  /** When set, the plot has nothing to show and says why. */
-  empty?: string;
-}
-
-const AXIS_COLORS = ['#c0392b', '#27864a', '#2c5aa0'];
-export const PALETTE = [
-  '#2c5aa0',
-  '#c0392b',
-  '#27864a',
-  '#8e44ad',
-  '#d35400',
-  '#16817a',
-  '#7f6a00',
-  '#b03a75',
-  '#4f5d75',
-  '#6a994e',
-  '#9c6644',
-  '#1d3557',
-];
-const LIMIT_COLOR = '#7a8594';
-
-/** Channel `c` of a sample-major array with `stride` values per sample, scaled. */
-export function channel(src: ArrayLike<number>, n: number, stride: number, c: number, scale = 1): Float64Array {
-  const out = new Float64Array(n);
-  for (let k = 0; k < n; k++) out[k] = src[k * stride + c]! * scale;
-  return out;
-}
-
-function scaled(src: ArrayLike<number>, n: number, scale: number): Float64Array {
-  return channel(src, n, 1, 0, scale);
-}
-
-function times(run: ControllerRun): Float64Array {
-  return run.trace.t.subarray(0, run.trace.n);
-}
-
-/** Log axes cannot show zero or negatives: those samples become gaps. */
-function positiveOrNull(a: ArrayLike<number>): (number | null)[] {
-  const out = new Array<number | null>(a.length);
-  for (let i = 0; i < a.length; i++) out[i] = a[i]! > 0 ? a[i]! : null;
-  return out;
-}
-
-function sameTimes(runs: readonly ControllerRun[]): boolean {
-  const a = runs[0]!.trace;
-  return runs.every((r) => {
-    const b = r.trace;
-    if (b.n !== a.n) return false;
-    for (let k = 0; k < a.n; k++) if (b.t[k] !== a.t[k]) return false;
-    return true;
-  });
-}
-
-/**
- * Several runs on one time axis. Runs with identical sample times share it; otherwise the union
- * of times is used with gaps where a run has no sample (the caller passes uPlot.join).
- */
-export function alignRuns(
-  runs: readonly ControllerRun[],
-  pick: (r: ControllerRun) => ArrayLike<number | null>,
-  join: (tables: Series[][]) => Series[],
-): Series[] {
-  if (runs.length === 1 || sameTimes(runs)) return [times(runs[0]!), ...runs.map(pick)];
-  return join(runs.map((r) => [times(r), pick(r)]));
-}
-
-function errorAnglePlot(runs: readonly ControllerRun[], log: boolean, join: (t: Series[][]) => Series[]): PlotSpec {
-  const spec: PlotSpec = {
-    id: 'error-angle',
-    title: 'Attitude error angle',
-    yLabel: 'error angle (deg)',
-    log,
-    series: runs.map((r, i) => ({ label: `${r.label} (${r.mode})`, color: PALETTE[i % PALETTE.length]! })),
-    data: [],
-  };
-  if (runs.length === 0) return { ...spec, empty: 'No run selected' };
-  spec.data = alignRuns(
-    runs,
-    (r) => {
-      const deg = scaled(r.trace.errorAngle, r.trace.n, DEG_PER_RAD);
-      return log ? positiveOrNull(deg) : deg;
-    },
-    join,
-  );
-  return spec;
-}
+export * from './base';
 
 function bodyRatePlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   return {
     id: 'body-rate',
-    title: `Body rate — ${run.label}`,
+    title: `Body rate components — ${runName(run)}`,
     yLabel: 'ω body (deg/s)',
     series: [
       ...['ωx', 'ωy', 'ωz'].map((label, i) => ({ label, color: AXIS_COLORS[i]! })),
@@ -155,59 +43,102 @@ function distinct(values: ArrayLike<number>): number[] {
   return out;
 }
 
+/** A wheel colour with transparency, for its at-limit shading. */
+function tint(hex: string, alpha: number): string {
+  const v = Number.parseInt(hex.slice(1), 16);
+  return `rgba(${(v >> 16) & 255}, ${(v >> 8) & 255}, ${v & 255}, ${alpha})`;
+}
+
+/** "wheel 2 from 45.1 s for 3.2 s; wheel 4 …", or '' when no wheel reaches its limit. */
+export function limitText(intervals: readonly LimitInterval[], what: string): string {
+  const per = new Map<number, { first: number; total: number }>();
+  for (const iv of intervals) {
+    const p = per.get(iv.wheel) ?? { first: iv.t0, total: 0 };
+    p.first = Math.min(p.first, iv.t0);
+    p.total += iv.t1 - iv.t0;
+    per.set(iv.wheel, p);
+  }
+  if (per.size === 0) return `No wheel reaches its ${what} limit.`;
+  const parts = [...per.entries()]
+    .sort((a, b) => a[1].first - b[1].first)
+    .map(([w, p]) => `wheel ${w} from ${p.first.toFixed(1)} s (${p.total.toFixed(1)} s in all)`);
+  return `At the ${what} limit (shaded): ${parts.join('; ')}.`;
+}
+
 function wheelPlot(
   run: ControllerRun,
   src: Float64Array,
   limits: Float64Array,
-  id: string,
-  title: string,
-  yLabel: string,
-  sym: string,
+  atLimit: LimitInterval[],
+  what: { id: string; title: string; yLabel: string; sym: string; limitWord: string },
 ): PlotSpec {
   const n = run.trace.n;
   const N = run.trace.nWheels;
   const series: SeriesSpec[] = [];
   const data: Series[] = [times(run)];
   for (let w = 0; w < N; w++) {
-    series.push({ label: `${sym}${w + 1}`, color: PALETTE[w % PALETTE.length]! });
+    series.push({ label: `${what.sym}${w + 1}`, color: PALETTE[w % PALETTE.length]! });
     data.push(channel(src, n, N, w, MILLI_PER_SI));
   }
   for (const lim of distinct(limits)) {
     const v = lim * MILLI_PER_SI;
-    series.push({ label: `+${sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
+    series.push({ label: `+${what.sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
     data.push(new Float64Array(n).fill(v));
-    series.push({ label: `−${sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
+    series.push({ label: `−${what.sym} max`, color: LIMIT_COLOR, dash: [6, 4], width: 1 });
     data.push(new Float64Array(n).fill(-v));
   }
-  return { id, title: `${title} — ${run.label}`, yLabel, series, data };
+  return {
+    id: what.id,
+    title: `${what.title} — ${runName(run)}`,
+    yLabel: what.yLabel,
+    series,
+    data,
+    intervals: atLimit.map((iv) => ({
+      t0: iv.t0,
+      t1: iv.t1,
+      label: `wheel ${iv.wheel} at its ${what.limitWord} limit`,
+      color: tint(PALETTE[(iv.wheel - 1) % PALETTE.length]!, 0.2),
+    })),
+    note: limitText(atLimit, what.limitWord),
+  };
 }
 
 function wheelMomentumPlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
-  return wheelPlot(run, run.trace.hWheel, out.vehicle.maxMomentumNms, 'wheel-momentum', 'Wheel momentum', 'h (mN·m·s)', 'h');
+  return wheelPlot(run, run.trace.hWheel, out.vehicle.maxMomentumNms, momentumLimitIntervals(run, out), {
+    id: 'wheel-momentum',
+    title: 'Wheel momentum per wheel',
+    yLabel: 'h (mN·m·s)',
+    sym: 'h',
+    limitWord: 'momentum',
+  });
 }
 
 function wheelTorquePlot(run: ControllerRun, out: PipelineOutput): PlotSpec {
-  return wheelPlot(run, run.trace.wheelTorque, out.vehicle.maxTorqueNm, 'wheel-torque', 'Wheel torque (delivered)', 'τ (mN·m)', 'τ');
+  return wheelPlot(run, run.trace.wheelTorque, out.vehicle.maxTorqueNm, torqueLimitIntervals(run, out), {
+    id: 'wheel-torque',
+    title: 'Wheel motor torque per wheel (delivered)',
+    yLabel: 'τ (mN·m)',
+    sym: 'τ',
+    limitWord: 'torque',
+  });
 }
 
 function logicPlot(run: ControllerRun): PlotSpec {
-  const base: PlotSpec = {
+  return {
     id: 'logic',
-    title: `Logic value — ${run.label}`,
+    title: `Logic value — ${runName(run)}`,
     yLabel: run.logicKind === 'index' ? 'potential index q' : 'h',
     series: [{ label: run.logicKind === 'index' ? 'q' : 'h', color: PALETTE[3]!, stepped: true }],
     data: [times(run), run.trace.logic.subarray(0, run.trace.n)],
     jumpTimes: run.jumps.map((j) => j.t),
   };
-  if (run.logicKind === 'none') return { ...base, empty: `${run.label} is a smooth law: it has no logic variable` };
-  return base;
 }
 
 function potentialPlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
-  const base: PlotSpec = {
+  return {
     id: 'potential',
-    title: `Active potential vs family minimum — ${run.label}`,
+    title: `Active potential vs family minimum — ${runName(run)}`,
     yLabel: 'potential (—)',
     series: [
       { label: 'V_q (active)', color: PALETTE[0]! },
@@ -217,19 +148,18 @@ function potentialPlot(run: ControllerRun): PlotSpec {
     bands: [{ upper: 1, lower: 2, color: 'rgba(44, 90, 160, 0.15)' }],
     jumpTimes: run.jumps.map((j) => j.t),
   };
-  if (run.logicKind !== 'index') return { ...base, empty: `${run.label} has no potential family (synergistic laws only)` };
-  return base;
 }
 
 function lyapunovPlot(run: ControllerRun): PlotSpec {
   return {
     id: 'lyapunov',
-    title: `Lyapunov value W — ${run.label}`,
+    title: `Lyapunov value W — ${runName(run)}`,
     yLabel: 'W (—)',
     series: [{ label: 'W', color: PALETTE[4]! }],
     data: [times(run), run.trace.lyapunov.subarray(0, run.trace.n)],
     jumpTimes: run.jumps.map((j) => j.t),
-    intervals: run.monitor.map((f) => ({ t0: f.tStart, t1: f.tEnd, label: f.message })),
+    intervals: run.monitor.map((f) => ({ t0: f.tStart, t1: f.tEnd, label: f.message, color: MONITOR_FILL })),
+    note: run.monitor.length ? 'Shaded: intervals the Lyapunov monitor flags.' : undefined,
   };
 }
 
@@ -238,9 +168,9 @@ function hybridTimePlot(run: ControllerRun): PlotSpec {
   const n = run.trace.n;
   const j = new Float64Array(n);
   for (let k = 0; k < n; k++) j[k] = run.trace.j[k]!;
-  const base: PlotSpec = {
+  return {
     id: 'hybrid-time',
-    title: `Hybrid time domain (t, j) — ${run.label}`,
+    title: `Hybrid time domain (t, j) — ${runName(run)}`,
     yLabel: 'W (—)',
     y2Label: 'jump counter j',
     series: [
@@ -250,33 +180,46 @@ function hybridTimePlot(run: ControllerRun): PlotSpec {
     data: [times(run), run.trace.lyapunov.subarray(0, n), j],
     jumpTimes: run.jumps.map((x) => x.t),
   };
-  if (run.logicKind === 'none') return { ...base, empty: `${run.label} is a smooth law: its hybrid time domain has no jumps` };
-  return base;
 }
 
-export interface PlotSetOptions {
-  logError: boolean;
+/** The per-run plots a run has, and one sentence naming the ones it has not (or null). */
+export function detailPlots(run: ControllerRun, out: PipelineOutput): { plots: PlotSpec[]; hiddenNote: string | null } {
+  const plots = [bodyRatePlot(run), wheelMomentumPlot(run, out), wheelTorquePlot(run, out)];
+  let hiddenNote: string | null = null;
+  if (run.logicKind === 'none')
+    hiddenNote = `Logic value, potentials and hybrid time are not shown: ${run.label} is a smooth law, with no logic variable and no jumps.`;
+  else {
+    plots.push(logicPlot(run));
+    if (run.logicKind === 'index') plots.push(potentialPlot(run));
+    else hiddenNote = `Potentials are not shown: ${run.label} has no potential family (synergistic laws only).`;
+  }
+  plots.push(lyapunovPlot(run));
+  if (run.logicKind !== 'none') plots.push(hybridTimePlot(run));
+  return { plots, hiddenNote };
 }
 
-/** Every plot for the selected runs; the first selected run is the detailed one. */
+export interface PlotSet {
+  /** Every ticked run on one axis each. */
+  overlays: PlotSpec[];
+  /** The run the per-run plots show (the first ticked run), or null. */
+  detail: ControllerRun | null;
+  detailPlots: PlotSpec[];
+  hiddenNote: string | null;
+}
+
+/** Every plot for the ticked runs; the first ticked run is the one the per-run plots show. */
 export function buildPlots(
   out: PipelineOutput,
   selected: readonly string[],
-  o: PlotSetOptions,
+  o: OverlayOptions,
   join: (t: Series[][]) => Series[],
-): PlotSpec[] {
+): PlotSet {
   const runs = selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
-  const detail = runs[0];
-  const plots = [errorAnglePlot(runs, o.logError, join)];
-  if (!detail) return plots;
-  plots.push(
-    bodyRatePlot(detail),
-    wheelMomentumPlot(detail, out),
-    wheelTorquePlot(detail, out),
-    logicPlot(detail),
-    potentialPlot(detail),
-    lyapunovPlot(detail),
-    hybridTimePlot(detail),
-  );
-  return plots;
+  const markers = segmentMarkers(out);
+  const withMarkers = (p: PlotSpec): PlotSpec => ({ ...p, markers });
+  const overlays = overlayPlots(out, runs, o, join).map(withMarkers);
+  const detail = runs[0] ?? null;
+  if (!detail) return { overlays, detail: null, detailPlots: [], hiddenNote: null };
+  const d = detailPlots(detail, out);
+  return { overlays, detail, detailPlots: d.plots.map(withMarkers), hiddenNote: d.hiddenNote };
 }

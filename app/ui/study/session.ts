@@ -40,6 +40,7 @@ import type { AppStore } from '../store/document';
 import type { PlaybackClock } from '../playback/clock';
 import { createStore, type Store } from '../store/createStore';
 import type { CaseScenarioReply, FromStudyWorker, StudyWorkerLike } from './protocol';
+import { TimeLeftEstimator } from './timeLeft';
 
 export type StudyPhase = 'idle' | 'starting' | 'running' | 'cancelling' | 'done' | 'cancelled' | 'invalid' | 'failed';
 
@@ -176,6 +177,8 @@ interface Running {
   live: CaseRecord[];
   info: StudyInfo | null;
   progress: StudyProgress | null;
+  /** Time left from each worker's steady rate (timeLeft.ts). */
+  eta: TimeLeftEstimator | null;
   timer: ReturnType<typeof setTimeout> | null;
   hardStop: ReturnType<typeof setTimeout> | null;
 }
@@ -217,7 +220,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
     return out;
   }
 
-  function portFor(r: Running, k: number, w: StudyWorkerLike, onCase: (rec: CaseRecord) => void): StudyWorkerPort {
+  function portFor(r: Running, k: number, w: StudyWorkerLike, onCase: (rec: CaseRecord, worker: number) => void): StudyWorkerPort {
     return {
       post(m) {
         if (m.type === 'close') {
@@ -232,7 +235,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
         w.onmessage = (ev) => {
           const m = ev.data;
           if (!m || !isEngineMessage(m)) return;
-          if (m.type === 'case') onCase(m.record);
+          if (m.type === 'case') onCase(m.record, k);
           if (m.type === 'chunk-done') r.busy[k] = null;
           onMessage(m);
         };
@@ -250,7 +253,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
     if (running !== r) return;
     const info = r.info;
     store.setState({
-      progress: r.progress,
+      progress: r.progress && r.eta ? { ...r.progress, remainingMs: r.eta.remainingMs(performance.now()) } : r.progress,
       records: r.live.slice().sort((a, b) => a.draw.index - b.draw.index),
       summary: info ? summarizeStudy(info, r.live) : null,
       map: outcomeMap(r.live),
@@ -288,6 +291,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       live: [],
       info: null,
       progress: null,
+      eta: Number.isFinite(runs) && runs > 0 ? new TimeLeftEstimator(runs) : null,
       timer: null,
       hardStop: null,
     };
@@ -306,8 +310,9 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       scenario,
       loadedFrom: null,
     });
-    const onCase = (rec: CaseRecord) => {
+    const onCase = (rec: CaseRecord, worker: number) => {
       r.live.push(rec);
+      r.eta?.add({ worker, t: performance.now() });
       schedulePublish(r);
     };
     let ports: StudyWorkerPort[];

@@ -7,6 +7,7 @@ import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types'
 import { envelopeCapacity } from '../../engine/wheels/envelope';
 import { HALF_PI } from '../../engine/units';
 import type { KeepOutCone, ViewRun, ViewTarget } from '../../view3d/types';
+import { runName } from '../modeNames';
 
 function viewTargets(out: PipelineOutput): ViewTarget[] {
   return out.plan.segments.map((s, i) => ({
@@ -22,7 +23,7 @@ export function toViewRuns(out: PipelineOutput, runs: readonly ControllerRun[]):
   const capacity = (d: Float64Array) => envelopeCapacity(env, d);
   const targets = viewTargets(out);
   return runs.map((r) => ({
-    label: `${r.label} (${r.mode})`,
+    label: runName(r),
     trace: r.trace,
     jumps: r.jumps.map((j) => ({ t: j.t, j: j.j, from: j.from, to: j.to })).sort((a, b) => a.t - b.t),
     targets,
