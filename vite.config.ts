@@ -63,6 +63,9 @@ export default defineConfig({
   define: {
     __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),
   },
+  // satellite.js's root entry pulls in its WebAssembly build (top-level await), which the classic
+  // workers cannot hold; the engine uses only the JavaScript SGP4 (app/satellite-core.ts).
+  resolve: { alias: [{ find: /^satellite\.js$/, replacement: path.join(root, 'app/satellite-core.ts') }] },
   build: {
     outDir: path.join(root, electronConfig.output.rendererDir),
     emptyOutDir: true,

@@ -23,6 +23,9 @@ export default defineConfig(({ mode }) => {
     publicDir: false,
     // Bundle for Node (Electron 45 ships Node 22), not the browser.
     ssr: { target: 'node', noExternal: true },
+    // satellite.js's root entry pulls in its WebAssembly build (top-level await), which a CommonJS
+    // bundle cannot hold; the engine uses only the JavaScript SGP4 (app/satellite-core.ts).
+    resolve: { alias: [{ find: /^satellite\.js$/, replacement: path.join(root, 'app/satellite-core.ts') }] },
     build: {
       ssr: entry,
       outDir: path.join(root, o.mainDir),

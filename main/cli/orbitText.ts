@@ -42,10 +42,17 @@ export function windowsText(o: OrbitOutput): string {
     o.eclipses.length
       ? table(
           ['#', 'start UTC', 'end UTC', 'start s', 'end s'],
-          o.eclipses.map((e, i) => [String(i + 1), utc(o, e.startS), utc(o, e.endS), e.startS.toFixed(1), e.endS.toFixed(1)]),
+          o.eclipses.map((e, i) => [
+            String(i + 1),
+            utc(o, e.startS),
+            utc(o, e.endS),
+            `${e.startS.toFixed(1)}${e.startClipped ? '*' : ''}`,
+            `${e.endS.toFixed(1)}${e.endClipped ? '*' : ''}`,
+          ]),
         )
       : '  none within the horizon',
   );
+  if (o.eclipses.some((e) => e.startClipped || e.endClipped)) out.push('  (* cut at the start or end of the horizon)');
   out.push('');
   out.push('Planned windows (tracking starts when the slew ends on the target’s attitude and rate):');
   out.push(
