@@ -13,10 +13,10 @@ import { EXPORT_FORMATS, type ExportFormat } from '../../app/engine/export/runEx
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { RunMode } from '../../app/engine/pipeline/types';
 import type { ParsedArgs } from './args';
-import type { ComputeJob, ComputeResult } from './compute';
+import type { ChunkPull, ComputeJob, ComputeResult, RunEndLine } from './compute';
 import { printIssues, type CliContext } from './io';
 import { EXPORT_RATE_RULE, exportStamp, numberOption } from './options';
-import { prepareOutputFile, prepareOutputFolder, writeTextAtomic } from './output';
+import { prepareOutputFile, prepareOutputFolder, writeStreamAtomic, writeTextAtomic } from './output';
 
 const INTERRUPTED = 130;
 
@@ -55,14 +55,38 @@ function refused(file: string, r: Exclude<ComputeResult, { kind: 'ran' }>, ctx: 
   return 2;
 }
 
-/** Writes one file that Ctrl-C can drop whole; returns 'ok', 'failed' or 'interrupted'. */
-async function writeOne(file: string, text: string, ctx: CliContext, stop: AbortController): Promise<'ok' | 'failed' | 'interrupted'> {
+/**
+ * Writes one file that Ctrl-C can drop whole, from a whole text or streamed chunk by chunk;
+ * returns 'ok', 'failed' or 'interrupted'.
+ */
+async function writeOne(
+  file: string,
+  text: string | ChunkPull,
+  ctx: CliContext,
+  stop: AbortController,
+): Promise<'ok' | 'failed' | 'interrupted'> {
   if (stop.signal.aborted) return 'interrupted';
-  const w = await writeTextAtomic(file, text, stop.signal);
+  const w = typeof text === 'string' ? await writeTextAtomic(file, text, stop.signal) : await writeStreamAtomic(file, text, stop.signal);
   if (w.ok) return 'ok';
   if (w.interrupted) return 'interrupted';
-  ctx.io.err(`error: could not write ${file}: ${w.message}`);
+  if (w.errors) printIssues(ctx.io, `export ${file} refused`, w.errors);
+  else ctx.io.err(`error: could not write ${file}: ${w.message}`);
   return 'failed';
+}
+
+/**
+ * The closing lines: every run that did not settle, and why (unsettled, failed, truncated). The
+ * status is 0 only when every run settled (issue 17: a partial or failed run is never success).
+ */
+function runLines(runs: readonly RunEndLine[], ctx: CliContext): boolean {
+  let allSettled = true;
+  for (const r of runs) {
+    if (r.verdict === 'settled') continue;
+    allSettled = false;
+    const what = r.end === 'truncated' ? 'TRUNCATED' : r.verdict === 'failed' ? 'FAILED' : 'UNSETTLED';
+    ctx.io.err(`run ${r.key}: ${what}: ${r.text}`);
+  }
+  return allSettled;
 }
 
 export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedArgs, ctx: CliContext): Promise<number> {
@@ -83,6 +107,7 @@ export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedA
     const r = await ctx.compute(job, (line) => ctx.io.err(line), stop.signal);
     if (r === null) return interrupted(ctx, 'compare', 0);
     if (r.kind !== 'ran') return refused(file, r, ctx);
+    r.release?.(); // compare writes no run exports: the simulation thread can go
     if (a.flags.has('json')) ctx.io.out(r.json);
     else ctx.io.out(`${r.headline}\n\n${r.table}\n\n${CAUTION_TEXT}`);
     let written = 0;
@@ -93,8 +118,8 @@ export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedA
       if (w === 'failed') failed = true;
       else written++;
     }
-    for (const f of r.failedRuns) ctx.io.err(`run ${f.key} ended early: ${f.message}`);
-    return r.feasible && r.failedRuns.length === 0 && !failed ? 0 : 1;
+    const settled = runLines(r.runs, ctx);
+    return r.feasible && settled && !failed ? 0 : 1;
   });
 }
 
@@ -141,28 +166,45 @@ export async function runFly(
     const r = await ctx.compute(job, (line) => ctx.io.err(line), stop.signal);
     if (r === null) return interrupted(ctx, 'fly', 0);
     if (r.kind !== 'ran') return refused(file, r, ctx);
-    let status = r.feasible ? 0 : 1;
-    let written = 0;
-    for (const f of r.files) {
-      const target = path.join(outDir, f.name);
-      if (f.text === undefined) {
-        printIssues(ctx.io, `export ${target} refused`, f.errors ?? []);
-        if (sampleRateHz !== undefined && f.errors?.some((e) => e.rule === 'empty-segment'))
-          ctx.io.err(
-            `  (with --rate ${sampleRateHz} Hz a segment shorter than ${(1 / sampleRateHz).toPrecision(3)} s gets no sample; raise --rate)`,
-          );
-        status = 1;
-        continue;
-      }
-      const w = await writeOne(target, f.text, ctx, stop);
-      if (w === 'interrupted') return interrupted(ctx, 'fly', written);
-      if (w === 'failed') status = 1;
-      else {
-        written++;
-        ctx.io.out(`wrote ${target}`);
-      }
+    try {
+      return await writeFiles(r, outDir, sampleRateHz, ctx, stop);
+    } finally {
+      r.release?.();
     }
-    ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
-    return status;
   });
+}
+
+/** fly's files, then the table and the closing lines; the status (0 only if all runs settled and every file was written). */
+async function writeFiles(
+  r: Extract<ComputeResult, { kind: 'ran' }>,
+  outDir: string,
+  sampleRateHz: number | undefined,
+  ctx: CliContext,
+  stop: AbortController,
+): Promise<number> {
+  let status = r.feasible ? 0 : 1;
+  let written = 0;
+  for (const [i, f] of r.files.entries()) {
+    const target = path.join(outDir, f.name);
+    const text = f.text ?? r.openFile?.(i);
+    if (f.errors || text === undefined) {
+      printIssues(ctx.io, `export ${target} refused`, f.errors ?? []);
+      if (sampleRateHz !== undefined && f.errors?.some((e) => e.rule === 'empty-segment'))
+        ctx.io.err(
+          `  (with --rate ${sampleRateHz} Hz a segment shorter than ${(1 / sampleRateHz).toPrecision(3)} s gets no sample; raise --rate)`,
+        );
+      status = 1;
+      continue;
+    }
+    const w = await writeOne(target, text, ctx, stop);
+    if (w === 'interrupted') return interrupted(ctx, 'fly', written);
+    if (w === 'failed') status = 1;
+    else {
+      written++;
+      ctx.io.out(`wrote ${target}`);
+    }
+  }
+  ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
+  if (!runLines(r.runs, ctx)) status = 1;
+  return status;
 }

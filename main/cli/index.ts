@@ -10,7 +10,8 @@
  *   slewsmith schema                        the scenario format as JSON Schema
  *
  * Exit codes: 0 success; 2 invalid input or options (every problem named, field by field, on
- * stderr); 1 an infeasible plan, a refused certificate or a failed run or write; 130 interrupted
+ * stderr); 1 an infeasible plan, a refused certificate, a run that did not settle (unsettled,
+ * failed or truncated) or a failed write; 130 interrupted
  * (Ctrl-C). Progress goes to stderr, results to stdout. No input or option makes the CLI print a
  * stack trace: an unexpected exception is one line naming the command (the stack only with
  * SLEWSMITH_DEBUG=1), status 1.
@@ -212,8 +213,9 @@ function mainHelp(): string {
     ...rows,
     '',
     "Run 'slewsmith <command> --help' for a command's options.",
-    'Exit codes: 0 success; 2 invalid input or options; 1 infeasible plan, refused certificate, failed',
-    'run or write; 130 interrupted (Ctrl-C). A closed output pipe (e.g. `| head`) is not an error:',
+    'Exit codes: 0 success (fly/compare: every run settled); 2 invalid input or options; 1 infeasible',
+    'plan, refused certificate, a run unsettled, failed or truncated (named in the last lines), or a',
+    'failed write; 130 interrupted (Ctrl-C). A closed output pipe (e.g. `| head`) is not an error:',
     "output stops, files are still written, and the status is the command's own.",
     'SLEWSMITH_DEBUG=1 adds the stack to the one-line report of an unexpected failure.',
     '',

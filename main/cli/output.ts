@@ -12,7 +12,9 @@
  */
 import { lstat, mkdir, open, readdir, stat, unlink } from 'node:fs/promises';
 import path from 'node:path';
+import type { Issue } from '../../app/engine/errors';
 import { createAtomicStreamWriter } from '../atomic-stream';
+import type { ChunkPull } from './compute';
 import { errorCode, newTempPath } from '../atomic-write';
 import { sweepStaleTempFiles } from '../temp-files';
 
@@ -111,7 +113,7 @@ export async function prepareOutputFile(file: string, option: string): Promise<F
   return prepareOutputFolder(path.dirname(path.resolve(file)), option);
 }
 
-export type WriteResult = { ok: true } | { ok: false; message: string; interrupted?: boolean };
+export type WriteResult = { ok: true } | { ok: false; message: string; interrupted?: boolean; errors?: Issue[] };
 
 /** 1 MiB per chunk: the interrupt check runs between chunks, and memory stays flat. */
 const CHUNK_CHARS = 1 << 20;
@@ -133,6 +135,38 @@ export async function writeTextAtomic(file: string, text: string, signal?: Abort
     await w.abort();
     return { ok: false, message: `${file} not written: interrupted`, interrupted: true };
   }
+  const r = await w.commit();
+  return r.ok ? { ok: true } : { ok: false, message: r.message };
+}
+
+/**
+ * Writes a streamed export to `file` atomically, pulling one chunk at a time (the source waits for
+ * the disk). The text is committed only when the source ends without a problem; a problem found
+ * while writing (`errors`), a write failure or an abort drops the temporary file and keeps the target.
+ */
+export async function writeStreamAtomic(file: string, pull: ChunkPull, signal?: AbortSignal): Promise<WriteResult> {
+  const w = createAtomicStreamWriter(file);
+  const dropped = async (r: WriteResult): Promise<WriteResult> => {
+    await w.abort();
+    return r;
+  };
+  const stopped = () => dropped({ ok: false, message: `${file} not written: interrupted`, interrupted: true });
+  for (;;) {
+    if (signal?.aborted) return stopped();
+    let next: Awaited<ReturnType<ChunkPull>>;
+    try {
+      next = await pull();
+    } catch (e) {
+      if (signal?.aborted) return stopped();
+      return dropped({ ok: false, message: e instanceof Error ? e.message : String(e) });
+    }
+    if ('done' in next) {
+      if (next.done.length) return dropped({ ok: false, message: `${file} not written`, errors: next.done });
+      break;
+    }
+    if (!(await w.write(next.chunk))) break;
+  }
+  if (signal?.aborted) return stopped();
   const r = await w.commit();
   return r.ok ? { ok: true } : { ok: false, message: r.message };
 }

@@ -227,6 +227,7 @@ describe('interrupts while writing (in-process)', () => {
     csv: '',
     json: '',
     failedRuns: [],
+    runs: [],
     files: [
       { name: 'first.csv', text: big },
       { name: 'second.csv', text: big },

@@ -10,7 +10,7 @@
  * The estimate is deterministic (counts, not clocks): samples = ⌈t_end · f⌉ + 1 per run (plus two
  * per segment switch in the continuous-ideal mode, which records at each switch), trace bytes =
  * samples × the bytes of one sample of every trace channel (sim/trace.ts), time = samples and RK4
- * steps weighted by costs measured on the project's 2-core reference machine (test/bench/budget.ts
+ * steps weighted by costs measured on the project's 2-core reference machine (test/bench/pipeline.ts
  * prints the measured figures; the weights are rounded up from them). Each run also gets a step
  * cap a little above its estimate (runStepCap), so a run that somehow needs more work than
  * estimated stops as truncated ('max-steps') instead of running on.
@@ -42,7 +42,7 @@ export const DEFAULT_BUDGET: Readonly<RunBudget> = {
 };
 
 /**
- * Cost weights, s, rounded up from test/bench/budget.ts on the reference machine (2 shared cores,
+ * Cost weights, s, rounded up from test/bench/pipeline.ts (µs per trace sample) on the reference machine (2 shared cores,
  * Node 20): a recorded sample of the sampled loop (sensors, law, allocation, limits, metrics)
  * about 9–35 µs, each further RK4 step of the sampled loop about 2–3 µs, each RK4 step of the
  * continuous-ideal loop (four flow evaluations, each with the law and the wheel limits) about

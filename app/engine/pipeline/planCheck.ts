@@ -15,6 +15,7 @@ function finitePositive(v: number): boolean {
 }
 
 function show(v: number): string {
+  if (Number.isNaN(v)) return 'undefined (not a number)';
   return Number.isFinite(v) ? String(Number(v.toPrecision(6))) : String(v);
 }
 

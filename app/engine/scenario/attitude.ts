@@ -34,6 +34,19 @@ function norm3(v: readonly number[]): number {
   return Math.hypot(v[0]!, v[1]!, v[2]!);
 }
 
+/**
+ * The direction of `v` divided by its largest component magnitude, so that later products neither
+ * underflow (a component of 5e-324 squared is 0, and normalising then divides by zero) nor
+ * overflow (three components of 1e308): any non-zero finite vector gives a finite direction.
+ * Vectors of ordinary length are used as given, so their results stay bit for bit the same.
+ */
+function scaled(v: readonly number[]): number[] {
+  const n = norm3(v);
+  if (n > 1e-150 && n < 1e150) return [v[0]!, v[1]!, v[2]!]; // ordinary lengths: as given
+  const m = Math.max(Math.abs(v[0]!), Math.abs(v[1]!), Math.abs(v[2]!));
+  return [v[0]! / m, v[1]! / m, v[2]! / m];
+}
+
 function sinAngle(a: readonly number[], b: readonly number[]): number {
   const cx = a[1]! * b[2]! - a[2]! * b[1]!,
     cy = a[2]! * b[0]! - a[0]! * b[2]!,
@@ -105,7 +118,13 @@ export function resolveAttitude(
       }
     }
     if (!good) return false;
-    if (sinAngle(pt.bodyAxis, pt.bodySecondary) < PARALLEL_TOL) {
+    const v = {
+      bodyAxis: scaled(pt.bodyAxis),
+      inertialDirection: scaled(pt.inertialDirection),
+      bodySecondary: scaled(pt.bodySecondary),
+      inertialSecondary: scaled(pt.inertialSecondary),
+    };
+    if (sinAngle(v.bodyAxis, v.bodySecondary) < PARALLEL_TOL) {
       errors.push(
         issue(
           `${base}.bodySecondary`,
@@ -115,7 +134,7 @@ export function resolveAttitude(
       );
       good = false;
     }
-    if (sinAngle(pt.inertialDirection, pt.inertialSecondary) < PARALLEL_TOL) {
+    if (sinAngle(v.inertialDirection, v.inertialSecondary) < PARALLEL_TOL) {
       errors.push(
         issue(
           `${base}.inertialSecondary`,
@@ -126,7 +145,7 @@ export function resolveAttitude(
       good = false;
     }
     if (!good) return false;
-    if (!qFromTwoVectors(out, pt.bodyAxis, pt.inertialDirection, pt.bodySecondary, pt.inertialSecondary, PARALLEL_TOL)) {
+    if (!qFromTwoVectors(out, v.bodyAxis, v.inertialDirection, v.bodySecondary, v.inertialSecondary, PARALLEL_TOL)) {
       errors.push(issue(base, 'not-parallel', `${base}: the primary and secondary vectors do not define an attitude`));
       return false;
     }
@@ -149,7 +168,7 @@ export function resolveAttitude(
     return false;
   }
   if (previous === null) return false;
-  const qRel = qFromAxisAngle(qCreate(), rel.axis, rel.angleDeg * RAD_PER_DEG);
+  const qRel = qFromAxisAngle(qCreate(), scaled(rel.axis), rel.angleDeg * RAD_PER_DEG);
   const prev = qCopy(qCreate(), previous);
   qMultiply(out, prev, qRel);
   return true;

@@ -125,8 +125,16 @@ export interface ResolvedScenario {
 
 function unit3(v: readonly number[]): Vec3 {
   const n = Math.hypot(v[0]!, v[1]!, v[2]!);
-  if (!(n > 0) || !Number.isFinite(n)) throw new EngineInputError([{ path: '', rule: 'non-zero', message: 'resolve: zero vector' }]);
-  return v3Create(v[0]! / n, v[1]! / n, v[2]! / n);
+  if (n > 1e-300 && Number.isFinite(n)) return v3Create(v[0]! / n, v[1]! / n, v[2]! / n);
+  // Extreme lengths (three components near 1.8e308 have an infinite length; denormal ones lose
+  // their digits): scaled by the largest component first.
+  const m = Math.max(Math.abs(v[0]!), Math.abs(v[1]!), Math.abs(v[2]!));
+  if (!(m > 0) || !Number.isFinite(m)) throw new EngineInputError([{ path: '', rule: 'non-zero', message: 'resolve: zero vector' }]);
+  const x = v[0]! / m,
+    y = v[1]! / m,
+    z = v[2]! / m;
+  const h = Math.hypot(x, y, z);
+  return v3Create(x / h, y / h, z / h);
 }
 
 function scaled3(v: readonly number[], k: number): Vec3 {
