@@ -15,7 +15,18 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 
 export async function benchCliStudy(): Promise<void> {
-  const args = ['bin/slewsmith.mjs', 'study', 'assets/tern12-reversal.scenario.json', '--runs', '2000', '--seed', '11', '--workers', '2', '--json'];
+  const args = [
+    'bin/slewsmith.mjs',
+    'study',
+    'assets/tern12-reversal.scenario.json',
+    '--runs',
+    '2000',
+    '--seed',
+    '11',
+    '--workers',
+    '2',
+    '--json',
+  ];
   const walls: number[] = [];
   let summary = '';
   for (let i = 0; i < 3; i++) {

@@ -265,7 +265,9 @@ export async function benchLoop(): Promise<void> {
     mf = median(tf);
   const per = (m: number) => `${((1000 * m) / (N - 1)).toFixed(2)} µs/sample`;
   const row = (name: string, v: number[], m: number) =>
-    `   ${name.padEnd(58)} median ${m.toFixed(2).padStart(6)} ms, min ${Math.min(...v).toFixed(2).padStart(6)} ms (${per(m)})`;
+    `   ${name.padEnd(58)} median ${m.toFixed(2).padStart(6)} ms, min ${Math.min(...v)
+      .toFixed(2)
+      .padStart(6)} ms (${per(m)})`;
   console.log(row('bare Float64Array RK4 loop, PD, q/ω/h recorded', tb, mb));
   console.log(row('closed loop like for like (PD, no noise, no friction)', tl, ml));
   console.log(row('closed loop full (hysteretic, noise, friction, limits, trace)', tf, mf));

@@ -44,10 +44,14 @@ export async function benchMemory(): Promise<void> {
     ['3 controllers × 2 modes', ['pd', 'hysteretic', 'synergistic'], ['follow-plan', 'step-target']],
   ];
   for (const [name, ctl, modes] of cases) {
-    const res = spawnSync(process.execPath, ['--import', 'tsx', fileURLToPath(import.meta.url), '--child', ctl.join(','), modes.join(',')], {
-      encoding: 'utf8',
-      cwd: path.join(here, '../..'),
-    });
+    const res = spawnSync(
+      process.execPath,
+      ['--import', 'tsx', fileURLToPath(import.meta.url), '--child', ctl.join(','), modes.join(',')],
+      {
+        encoding: 'utf8',
+        cwd: path.join(here, '../..'),
+      },
+    );
     const line = res.stdout.trim().split('\n').pop() ?? '';
     let v: Record<string, any>;
     try {

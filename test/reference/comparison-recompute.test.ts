@@ -191,10 +191,18 @@ function settingProblems(e: Exported, out: PipelineOutput): string[] {
     if (!ok) p.push(`${e.run.key} ${what}: ${detail}`);
   };
   want('full-rate export', doc.samples.sampleRateHz === null && doc.samples.count === doc.samples.ofTrace, JSON.stringify(doc.samples));
-  want('CSV wheel limits = JSON wheel limits', JSON.stringify(limits) === JSON.stringify({ torqueNm: doc.wheels.maxTorqueNm, momentumNms: doc.wheels.maxMomentumNms }), JSON.stringify(limits));
+  want(
+    'CSV wheel limits = JSON wheel limits',
+    JSON.stringify(limits) === JSON.stringify({ torqueNm: doc.wheels.maxTorqueNm, momentumNms: doc.wheels.maxMomentumNms }),
+    JSON.stringify(limits),
+  );
   // deg → rad of the file's own values: equal to rounding (one multiplication).
   want('settle angle', close(mi.settleAngleRad, doc.scenario.simulation.settleAngleDeg * RAD_PER_DEG, 2e-16), `${mi.settleAngleRad}`);
-  want('settle rate', close(mi.settleRateRadPerS, doc.scenario.simulation.settleRateDegPerS * RAD_PER_DEG, 2e-16), `${mi.settleRateRadPerS}`);
+  want(
+    'settle rate',
+    close(mi.settleRateRadPerS, doc.scenario.simulation.settleRateDegPerS * RAD_PER_DEG, 2e-16),
+    `${mi.settleRateRadPerS}`,
+  );
   want('bounded noise', mi.boundedNoiseEta === (doc.scenario.vehicle.sensors.boundedNoiseEta ?? 0), `${mi.boundedNoiseEta}`);
   const floorPct = statedNumber('chatterPerS', /above (\d+(?:\.\d+)?) % of the smallest wheel torque limit/);
   want('chatter floor', close(mi.chatterFloorNm, (floorPct / 100) * Math.min(...limits.torqueNm), 2e-16), `${mi.chatterFloorNm}`);
@@ -204,7 +212,11 @@ function settingProblems(e: Exported, out: PipelineOutput): string[] {
     : statedNumber('unwound', /at least (\d+(?:\.\d+)?)° for a law defined on SO\(3\)/);
   want('unwinding threshold', close(mi.unwindMinExtraRad, unwindDeg * RAD_PER_DEG, 2e-16), `${mi.unwindMinExtraRad}`);
   want('decided lift', mi.liftDecidedEta === statedNumber('unwound', /\(\|η\| ≥ (\d+(?:\.\d+)?)\)/), `${mi.liftDecidedEta}`);
-  want('monitor tolerance', close(mi.monitor.relTol, statedNumber('monitorViolations', /(\d+(?:\.\d+)?) % of the run's largest \|W\|/) / 100, 1e-15), `${mi.monitor.relTol}`);
+  want(
+    'monitor tolerance',
+    close(mi.monitor.relTol, statedNumber('monitorViolations', /(\d+(?:\.\d+)?) % of the run's largest \|W\|/) / 100, 1e-15),
+    `${mi.monitor.relTol}`,
+  );
   // Planned switches from the plan summary by rest-to-rest trapezoid kinematics: acceleration for
   // ω_peak/α, coast, deceleration for ω_peak/α, and the slew angle = ω_peak·(T − ω_peak/α) (Wie,
   // Space Vehicle Dynamics and Control, 2nd ed., 2008 — from memory; references.md §2).
@@ -212,11 +224,14 @@ function settingProblems(e: Exported, out: PipelineOutput): string[] {
   for (const g of out.plan.segments.filter((x) => x.feasible && x.slewTimeS > 0)) {
     const ta = g.peakRateRadPerS / g.accelRadPerS2;
     want(`segment ${g.index} trapezoid area`, close(g.angleRad, g.peakRateRadPerS * (g.slewTimeS - ta), 1e-9), `${g.angleRad}`);
-    planned.push(...(e.run.mode === 'step-target' ? [g.tStart] : [g.tStart, g.tStart + ta, g.tStart + g.slewTimeS - ta, g.tStart + g.slewTimeS]));
+    planned.push(
+      ...(e.run.mode === 'step-target' ? [g.tStart] : [g.tStart, g.tStart + ta, g.tStart + g.slewTimeS - ta, g.tStart + g.slewTimeS]),
+    );
   }
   want(
     'planned switch times',
-    planned.length === mi.plannedSwitchTimesS.length && planned.every((t, i) => Math.abs(t - mi.plannedSwitchTimesS[i]!) <= 1e-9 * Math.max(1, t)),
+    planned.length === mi.plannedSwitchTimesS.length &&
+      planned.every((t, i) => Math.abs(t - mi.plannedSwitchTimesS[i]!) <= 1e-9 * Math.max(1, t)),
     `${JSON.stringify(mi.plannedSwitchTimesS)} vs ${JSON.stringify(planned)}`,
   );
   return p;
@@ -259,7 +274,8 @@ describe('every comparison column recomputed from the exported CSV (and JSON) ma
           const doc = JSON.parse(e.json) as RunJson & { monitor: { kind: string }[] };
           if (doc.jumpEvents.length !== r.jumps) bad.push(`${e.run.key}: ${doc.jumpEvents.length} jump events, j rose by ${r.jumps}`);
           const flagged = doc.monitor.filter((f) => f.kind !== 'reference-step').length;
-          if (flagged !== r.monitorViolations) bad.push(`${e.run.key}: ${flagged} exported monitor violations, recomputed ${r.monitorViolations}`);
+          if (flagged !== r.monitorViolations)
+            bad.push(`${e.run.key}: ${flagged} exported monitor violations, recomputed ${r.monitorViolations}`);
           seen.unwound.add(r.unwound);
           seen.verdicts.add(r.verdict);
           seen.chatter += r.chatterReversals;
@@ -317,10 +333,16 @@ describe('the recomputation notices a changed export', () => {
 
   it('a rate changed at one sample moves the rotation travelled; a wheel torque past its limit moves the peak', () => {
     const mid = Math.floor(e!.run.trace.n / 2);
-    const faster = recompute(withField(e!.csv, 'omega_x_radps', mid, (x) => x + 0.01), e!.json);
+    const faster = recompute(
+      withField(e!.csv, 'omega_x_radps', mid, (x) => x + 0.01),
+      e!.json,
+    );
     expect(mismatches(e!.row, faster).some((m) => m.includes('rotationTravelledDeg'))).toBe(true);
     const limit = wheelLimitsFromCsv(parseCsv(e!.csv)).torqueNm[1]!;
-    const over = recompute(withField(e!.csv, 'wheel2_torque_motor_Nm', mid, () => 1.5 * limit), e!.json);
+    const over = recompute(
+      withField(e!.csv, 'wheel2_torque_motor_Nm', mid, () => 1.5 * limit),
+      e!.json,
+    );
     expect(over.peakWheelTorqueFraction).toBeCloseTo(1.5, 12);
     expect(mismatches(e!.row, over).some((m) => m.includes('peakWheelTorqueFraction'))).toBe(true);
     expect(mismatches(e!.row, recompute(e!.csv, e!.json))).toEqual([]);
