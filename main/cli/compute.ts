@@ -11,6 +11,7 @@ import type { RunMode } from '../../app/engine/pipeline/types';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import { exportRun, type ExportFormat } from '../../app/engine/export/runExport';
 import { comparisonCsv, comparisonTable } from './format';
+import { violationLines } from './constraintStatus';
 
 export interface ComputeJob {
   command: 'fly' | 'compare';
@@ -50,6 +51,8 @@ export type ComputeResult =
       json: string;
       files: ExportText[];
       failedRuns: { key: string; message: string }[];
+      /** Attitude-constraint violations of the plan and the runs, one line each (exit status 3 when any). */
+      constraintViolations?: string[];
     };
 
 export type ProgressSink = (line: string) => void;
@@ -116,16 +119,20 @@ export function computeJob(job: ComputeJob, progress: ProgressSink): ComputeResu
         files.push(text.ok ? { name, text: text.value } : { name, errors: text.errors });
       }
   }
-  const headline = `Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)`;
+  const headline = `Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : o.plan.constraints?.clear === false && prep.value.plan.feasible ? 'VIOLATES A CONSTRAINT' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)`;
   return {
     kind: 'ran',
-    feasible: o.plan.feasible,
+    feasible: prep.value.plan.feasible,
     headline,
     table: comparisonTable(o.comparison, o.best),
     csv: comparisonCsv(o.comparison, CAUTION_TEXT),
     json: JSON.stringify({ caution: CAUTION_TEXT, comparison: o.comparison, best: o.best }, null, 2),
     files,
     failedRuns: o.runs.filter((x) => x.outcome.status !== 'completed').map((x) => ({ key: x.key, message: x.outcome.message })),
+    constraintViolations: [
+      ...violationLines('plan', o.plan.constraints),
+      ...o.runs.flatMap((x) => violationLines(`run ${x.key}`, x.constraints)),
+    ],
   };
 }
 

@@ -17,6 +17,7 @@ import type { ComputeJob, ComputeResult } from './compute';
 import { printIssues, type CliContext } from './io';
 import { EXPORT_RATE_RULE, exportStamp, numberOption } from './options';
 import { prepareOutputFile, prepareOutputFolder, writeTextAtomic } from './output';
+import { withConstraintStatus } from './constraintStatus';
 
 const INTERRUPTED = 130;
 
@@ -94,7 +95,8 @@ export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedA
       else written++;
     }
     for (const f of r.failedRuns) ctx.io.err(`run ${f.key} ended early: ${f.message}`);
-    return r.feasible && r.failedRuns.length === 0 && !failed ? 0 : 1;
+    for (const v of r.constraintViolations ?? []) ctx.io.err(`constraint violated: ${v}`);
+    return withConstraintStatus(r.feasible && r.failedRuns.length === 0 && !failed ? 0 : 1, (r.constraintViolations ?? []).length > 0);
   });
 }
 
@@ -163,6 +165,7 @@ export async function runFly(
       }
     }
     ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
-    return status;
+    for (const v of r.constraintViolations ?? []) ctx.io.err(`constraint violated: ${v}`);
+    return withConstraintStatus(status, (r.constraintViolations ?? []).length > 0);
   });
 }

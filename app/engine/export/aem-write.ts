@@ -34,6 +34,7 @@ import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
 import type { ExportMeta, ExportSegment } from './types';
 import { DEG_PER_RAD } from '../units';
+import { constraintComments } from './constraintColumns';
 
 export interface AemOptions {
   /** When the message is created, ISO 8601 UTC `YYYY-MM-DDThh:mm:ss[.sss]Z` (passed in so output is reproducible). */
@@ -287,6 +288,7 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
   out.push(
     `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,
   );
+  for (const c of constraintComments(meta.constraints)) out.push(`COMMENT ${commentText(c)}`);
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);

@@ -10,6 +10,7 @@ import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { formatNumber, selectSamples, traceColumns } from './columns';
 import { checkExportInputs, oneLine } from './prepare';
+import { constraintColumns } from './constraintColumns';
 import type { ExportMeta } from './types';
 
 export interface CsvOptions {
@@ -40,7 +41,7 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   const sel = selectSamples(trace, options.sampleRateHz);
   if (!sel.ok) return sel;
   const idx = sel.value;
-  const cols = traceColumns(trace.nWheels);
+  const cols = [...traceColumns(trace.nWheels), ...constraintColumns(meta.constraints)];
   const eol = options.lineEnding ?? '\n';
 
   const ctl = meta.controllerId ? `${oneLine(meta.controllerLabel)} (id ${oneLine(meta.controllerId)})` : oneLine(meta.controllerLabel);
@@ -65,7 +66,10 @@ export function writeCsv(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
   const row: string[] = new Array(cols.length);
   for (let m = 0; m < idx.length; m++) {
     const k = idx[m]!;
-    for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c]!.get(trace, k));
+    for (let c = 0; c < cols.length; c++) {
+      const x = cols[c]!.get(trace, k);
+      row[c] = Number.isNaN(x) ? '' : formatNumber(x);
+    }
     lines.push(row.join(','));
   }
   return ok(lines.join(eol) + eol);

@@ -10,6 +10,8 @@ import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { selectSamples, traceColumns } from './columns';
+import { constraintColumnNames, constraintColumns } from './constraintColumns';
+import { DEG_PER_RAD } from '../units';
 import { exportSegments } from './segments';
 import { checkExportInputs } from './prepare';
 import type { ExportMeta } from './types';
@@ -94,14 +96,14 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
   if (!segs.ok) return segs;
 
   const idx = sel.value;
-  const cols = traceColumns(trace.nWheels);
-  const channels: Record<string, number[]> = {};
+  const cols = [...traceColumns(trace.nWheels), ...constraintColumns(meta.constraints)];
+  const channels: Record<string, (number | null)[]> = {};
   const units: Record<string, string> = {};
   for (const c of cols) {
-    const a = new Array<number>(idx.length);
+    const a = new Array<number | null>(idx.length);
     for (let m = 0; m < idx.length; m++) {
       const x = c.get(trace, idx[m]!);
-      a[m] = x === 0 ? 0 : x;
+      a[m] = Number.isNaN(x) ? null : x === 0 ? 0 : x;
     }
     channels[c.name] = a;
     units[c.name] = c.unit;
@@ -143,6 +145,19 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
     jumpEvents: meta.jumpEvents ?? [],
     plan: meta.plan,
     metrics: meta.metrics,
+    ...(meta.constraints?.length
+      ? {
+          constraints: meta.constraints.map((c, i) => ({
+            name: c.name,
+            kind: c.kind,
+            column: constraintColumnNames(meta.constraints!.map((x) => x.name))[i],
+            minMarginDeg: Number.isFinite(c.minMarginRad) ? c.minMarginRad * DEG_PER_RAD : null,
+            minAtS: Number.isFinite(c.minMarginRad) ? c.minAtS : null,
+            violatedS: c.violatedS,
+            violations: c.violations,
+          })),
+        }
+      : {}),
     samples: { count: idx.length, ofTrace: trace.n, sampleRateHz: options.sampleRateHz ?? null },
     channels,
   };

@@ -9,6 +9,20 @@ import { writeCsv } from './csv';
 import { writeJson } from './json';
 import { writeAem } from './aem-write';
 import type { ExportMeta } from './types';
+import type { RunConstraintReport } from '../pipeline/constraints';
+import type { ExportConstraint } from './constraintColumns';
+
+function exportConstraints(r: RunConstraintReport): ExportConstraint[] {
+  return r.constraints.map((c, i) => ({
+    name: c.name,
+    kind: c.kind,
+    marginRad: r.marginRad[i]!,
+    minMarginRad: c.minMarginRad,
+    minAtS: c.minAtS,
+    violatedS: c.violatedS,
+    violations: c.intervals.length,
+  }));
+}
 
 export const EXPORT_FORMATS = ['csv', 'json', 'aem'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -34,6 +48,7 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
     metrics: run.metrics,
     plan: out.plan,
     wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
+    ...(run.constraints ? { constraints: exportConstraints(run.constraints) } : {}),
   };
   if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });

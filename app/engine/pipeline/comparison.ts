@@ -135,6 +135,16 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
       'Mayhew, Sanfelice & Teel, IEEE TAC 56(11), 2011; Mayhew & Teel, IEEE TAC 58(11), 2013 (the promised decrease); tolerance: app/engine/metrics/monitor.ts',
     marked: true,
   },
+  {
+    key: 'constraintMarginDeg',
+    label: 'Constraint margin',
+    unit: 'deg',
+    definition:
+      "Smallest margin over the run of every attitude constraint of the scenario: for a keep-out cone the angle between the body axis and the direction less (half-angle + margin), for a keep-in cone (half-angle − margin) less that angle. Negative: violated (the outcome says which and when). Checked on the run's own samples, the margin interpolated linearly between them.",
+    source:
+      'Cone constraints as in Kjellberg & Lightsey, JGCD 36(5):1301–1309, 2013; margin convention: app/engine/constraints/types.ts (derived for this project)',
+    marked: false,
+  },
 ];
 
 export function comparisonRow(r: ControllerRun): ComparisonRow {
@@ -159,6 +169,8 @@ export function comparisonRow(r: ControllerRun): ComparisonRow {
     controlEffortNms: m.controlEffortNms,
     finalErrorDeg: m.finalErrorRad * DEG_PER_RAD,
     monitorViolations: monitorViolations(r.monitor).length,
+    constraintMarginDeg:
+      r.constraints && Number.isFinite(r.constraints.minimumMarginRad) ? r.constraints.minimumMarginRad * DEG_PER_RAD : null,
   };
 }
 

@@ -20,6 +20,16 @@ import { planManeuver, planSummary } from './plan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
+import {
+  checkPlan,
+  checkRun,
+  planSummaryWithConstraints,
+  runEndS,
+  scenarioConstraints,
+  verdictWithConstraints,
+  type ConstraintReport,
+  type ScenarioConstraints,
+} from './constraints';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -41,6 +51,9 @@ export interface Prepared {
   controllers: BuiltController[];
   /** Target attitudes, 4 per segment. */
   targets: Float64Array;
+  /** The scenario's attitude constraints over the run (constraints.ts), and the plan's check (null: none declared). */
+  constraints: ScenarioConstraints;
+  planConstraints: ConstraintReport | null;
   warnings: Issue[];
 }
 
@@ -66,9 +79,25 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   warnings.push(...ctrls.warnings);
   if (!plan.ok) errors.push(...plan.errors);
   if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
+  const sc = scenarioConstraints(s, plan.value);
+  if (!sc.ok) return fail(sc.errors, warnings);
+  const planConstraints = checkPlan(plan.value, sc.value, runEndS(s, plan.value));
   const targets = new Float64Array(4 * s.targets.length);
   s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
-  return ok({ file, scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, targets, warnings }, warnings);
+  return ok(
+    {
+      file,
+      scenario: s,
+      vehicle: v,
+      plan: plan.value,
+      controllers: ctrls.value,
+      targets,
+      constraints: sc.value,
+      planConstraints,
+      warnings,
+    },
+    warnings,
+  );
 }
 
 export interface FlyOptions {
@@ -81,7 +110,9 @@ export interface FlyOptions {
 export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, o: FlyOptions = {}): ControllerRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
   const res = fly(flight);
-  return summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
+  const run = summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
+  const checked = checkRun(run.trace, p.constraints);
+  return checked ? { ...run, constraints: checked, verdict: verdictWithConstraints(run.verdict, checked) } : run;
 }
 
 /** One pass: every controller in every mode, and the comparison. */
@@ -106,7 +137,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     {
       scenario: scenarioSummary(s, p.file!),
       vehicle: vehicleSummary(p.vehicle),
-      plan: planSummary(p.plan, s.targets),
+      plan: planSummaryWithConstraints(planSummary(p.plan, s.targets), p.planConstraints),
       targets: p.targets,
       initialQ: Float64Array.from(s.initial.qInertialFromBody),
       runs,
@@ -114,6 +145,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       best: bestMarks(comparison),
       certificates: certificates(p.controllers),
       keepOut: s.keepOut,
+      constraints: p.constraints.info,
       warnings: p.warnings,
       elapsedMs: Date.now() - t0,
     },

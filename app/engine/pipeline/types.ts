@@ -18,6 +18,7 @@ import type { JumpEvent, RunMode, RunOutcome, RunTrace } from '../sim/types';
 import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
 import type { KeepOutCone } from '../scenario/resolve';
+import type { ConstraintInfo, ConstraintReport, RunConstraintReport } from './constraints';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
 
 export type { RunMode } from '../sim/types';
@@ -77,6 +78,8 @@ export interface ControllerRun {
   verdict: RunVerdict;
   metrics: RunMetrics;
   monitor: MonitorFlag[];
+  /** The run checked against the scenario's constraints (absent when it declares none). */
+  constraints?: RunConstraintReport;
   /** Torque the chosen gains imply, for the UI's "what these gains mean" read-out. */
   gainNote: string;
 }
@@ -134,6 +137,8 @@ export interface PlanSummary {
   feasible: boolean;
   totalTimeS: number;
   segments: SegmentSummary[];
+  /** The planned reference checked against the scenario's constraints (absent when it declares none). */
+  constraints?: ConstraintReport;
 }
 
 export interface CertificateSummary {
@@ -168,6 +173,8 @@ export interface ComparisonRow {
   finalErrorDeg: number;
   /** Lyapunov-monitor violations (flow rises and weak jumps; planned reference steps not counted). */
   monitorViolations: number;
+  /** Smallest attitude-constraint margin over the run, degrees (negative: violated); null when the scenario declares none. */
+  constraintMarginDeg: number | null;
 }
 
 /**
@@ -208,6 +215,8 @@ export interface PipelineOutput {
   certificates: CertificateSummary[];
   /** Keep-out cones, SI (unit axes), as the scenario declares them. */
   keepOut: KeepOutCone[];
+  /** Every constraint checked (keepOut cones first, then the constraints list); absent or empty when none. */
+  constraints?: ConstraintInfo[];
   warnings: Issue[];
   /** Wall time of the pass, ms (for the UI's status line; not a test value). */
   elapsedMs: number;

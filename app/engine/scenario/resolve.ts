@@ -29,6 +29,8 @@ import type { AttitudeForm, AttitudeSpec, Scenario, WheelsSpec } from './schema'
 import { resolveStudy, type StudyDefinition } from './study';
 import { parseIsoUtcMs } from './utc';
 import { validateScenario } from './validate';
+import type { ConstraintSpec } from '../constraints/directions';
+import { resolveConstraints } from './constraintResolve';
 
 export type WheelLayout = WheelsSpec['layout'];
 
@@ -99,6 +101,8 @@ export interface ResolvedScenario {
     endWhenSettledForS: number;
   };
   keepOut: KeepOutCone[];
+  /** The `constraints` list, SI (constraintResolve.ts); the keepOut cones are not repeated here. */
+  constraints: ConstraintSpec[];
   /** The robustness study block, SI with defaults (study.ts); null when the file has none. */
   study: StudyDefinition | null;
 }
@@ -232,6 +236,7 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
       inertialDirection: unit3(k.inertialDirection),
       halfAngleRad: k.halfAngleDeg * RAD_PER_DEG,
     })),
+    constraints: resolveConstraints(s.constraints),
     study,
   };
 }

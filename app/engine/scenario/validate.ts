@@ -29,6 +29,7 @@ import { migrateScenario } from './migrate';
 import { resolveStudy } from './study';
 import { checkLawFields } from '../control/registry';
 import { checkBandwidthAgainstRate } from '../control/lawSupport';
+import { checkConstraintList } from './constraintValidate';
 
 type Obj = Record<string, unknown>;
 
@@ -214,6 +215,7 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
 
   checkAttitudes(raw, errors, warnings);
   checkControllers(raw, errors, warnings);
+  checkConstraintList(raw.constraints, errors);
 
   const ko = raw.keepOut;
   if (Array.isArray(ko)) {

@@ -86,6 +86,7 @@ export function disperseScenario(nom: ResolvedScenario, def: StudyDefinition, d:
       endWhenSettledForS: def.mode === 'step-target' ? def.stopAfterSettledForS : 0,
     },
     keepOut: nom.keepOut,
+    constraints: nom.constraints,
     study: null,
   };
   return { ok: true, scenario, kept };

@@ -144,6 +144,7 @@ const SHOW: Partial<Record<keyof ComparisonRow, (r: ComparisonRow) => string>> =
   controlEffortNms: (r) => fmt(r.controlEffortNms * MILLI_PER_SI, 4),
   finalErrorDeg: (r) => fmt(r.finalErrorDeg, 3),
   monitorViolations: (r) => String(r.monitorViolations),
+  constraintMarginDeg: (r) => (r.constraintMarginDeg === null ? '–' : fmt(r.constraintMarginDeg, 3)),
 };
 
 const METRICS = COMPARISON_COLUMNS.map((c) => ({
