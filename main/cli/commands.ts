@@ -36,7 +36,12 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     printIssues(io, `${file} is not valid`, p.errors);
     return 2;
   }
-  const plan = planSummaryWithConstraints(planSummary(p.value.plan, p.value.scenario.targets), p.value.planConstraints);
+  const plan = planSummaryWithConstraints(
+    planSummary(p.value.plan, p.value.scenario.targets),
+    p.value.planConstraints,
+    p.value.plan,
+    p.value.constrainedSegments,
+  );
   if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
   else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
   return withConstraintStatus(p.value.plan.feasible ? 0 : 1, plan.constraints?.clear === false);

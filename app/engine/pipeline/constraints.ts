@@ -23,7 +23,8 @@ import type { ResolvedScenario } from '../scenario/resolve';
 import type { RunTrace } from '../sim/types';
 import { parseUtcIso } from '../time/iso';
 import { DEG_PER_RAD, RAD_PER_DEG } from '../units';
-import type { PlanSummary, RunVerdict } from './types';
+import type { PlanSummary, RunVerdict, SegmentSummary } from './types';
+import type { ConstrainedSegment } from './constrainedPlan';
 
 /** A declared constraint as the reports show it (SI). */
 export interface ConstraintInfo {
@@ -103,13 +104,14 @@ export function scenarioConstraints(
   const prepared = prepareConstraints(made.value);
   if (!prepared.ok) return fail(prepared.errors.map((e) => relabel(e, specs)));
   const errors: Issue[] = [];
-  for (const e of plan.timeline) {
+  plan.timeline.forEach((e, k) => {
+    if (plan.timeline[k + 1]?.target === e.target) return; // a leg of a constrained slew: the target is reached at the last
     const q = s.targets[e.target]!.qInertialFromBody;
     const found = attitudeViolations(q, prepared.value, e.slewEndS, `targets[${e.target}].attitude`);
     for (const v of found) {
       errors.push(issue(v.path, v.rule, `${v.message}: the target "${e.label}" itself is where the constraint forbids`));
     }
-  }
+  });
   if (errors.length) return fail(errors);
   const info = specs.map<ConstraintInfo>((c) => ({
     name: c.name,
@@ -215,9 +217,15 @@ export function verdictWithConstraints(v: RunVerdict, r: ConstraintReport | null
  * The plan summary with the constraint check: a segment whose slew or hold violates a constraint is
  * not feasible and says which; the plan is feasible only when every segment is.
  */
-export function planSummaryWithConstraints(p: PlanSummary, r: ConstraintReport | null): PlanSummary {
+export function planSummaryWithConstraints(
+  p: PlanSummary,
+  r: ConstraintReport | null,
+  plan?: SequencePlan,
+  around: readonly ConstrainedSegment[] = [],
+): PlanSummary {
   if (!r) return p;
-  const segments = p.segments.map((seg) => {
+  const segments = p.segments.map((segIn) => {
+    const seg = plan ? withLegs(segIn, plan, around) : segIn;
     const hits = r.constraints.flatMap((c) =>
       c.intervals.filter((iv) => iv.endS > seg.tStart && iv.startS < seg.tEnd).map((iv) => ({ c, iv })),
     );
@@ -228,5 +236,30 @@ export function planSummaryWithConstraints(p: PlanSummary, r: ConstraintReport |
     );
     return { ...seg, feasible: false, reason: `${words.join('; ')}${seg.reason ? `; ${seg.reason}` : ''}` };
   });
-  return { ...p, feasible: p.feasible && r.clear, segments, constraints: r };
+  const totalTimeS = plan ? plan.totalS : p.totalTimeS;
+  return {
+    ...p,
+    feasible: p.feasible && r.clear,
+    totalTimeS,
+    segments,
+    constraints: r,
+    ...(around.length ? { constrainedSlews: [...around] } : {}),
+  };
+}
+
+/** A segment flown as several legs (a constrained slew): its slew time and end from the legs, its reason from the planner. */
+function withLegs(seg: SegmentSummary, plan: SequencePlan, around: readonly ConstrainedSegment[]): SegmentSummary {
+  const a = around.find((x) => x.index === seg.index);
+  if (!a) return seg;
+  const legs = plan.timeline.filter((e) => e.target === seg.index);
+  const first = legs[0],
+    last = legs[legs.length - 1];
+  if (!first || !last || !seg.feasible) return { ...seg, reason: `${a.message}; ${seg.reason}` };
+  return {
+    ...seg,
+    tStart: first.slewStartS,
+    slewTimeS: last.slewEndS - first.slewStartS,
+    tEnd: last.holdEndS,
+    reason: `${a.message}. ${seg.reason}`,
+  };
 }

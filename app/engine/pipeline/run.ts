@@ -16,7 +16,8 @@ import { validateScenario } from '../scenario/validate';
 import type { RunMode } from '../sim/types';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
-import { planManeuver, planSummary } from './plan';
+import { planLimits, planManeuver, planSummary } from './plan';
+import { planAroundConstraints, type ConstrainedSegment } from './constrainedPlan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
@@ -54,6 +55,8 @@ export interface Prepared {
   /** The scenario's attitude constraints over the run (constraints.ts), and the plan's check (null: none declared). */
   constraints: ScenarioConstraints;
   planConstraints: ConstraintReport | null;
+  /** Slews planned around the constraints (constrainedPlan.ts); empty when every shortest slew was clear. */
+  constrainedSegments: ConstrainedSegment[];
   warnings: Issue[];
 }
 
@@ -79,9 +82,27 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   warnings.push(...ctrls.warnings);
   if (!plan.ok) errors.push(...plan.errors);
   if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
-  const sc = scenarioConstraints(s, plan.value);
+  let sc = scenarioConstraints(s, plan.value);
   if (!sc.ok) return fail(sc.errors, warnings);
-  const planConstraints = checkPlan(plan.value, sc.value, runEndS(s, plan.value));
+  let planned = plan.value;
+  let planConstraints = checkPlan(planned, sc.value, runEndS(s, planned));
+  let constrainedSegments: ConstrainedSegment[] = [];
+  if (planConstraints && !planConstraints.clear) {
+    const around = planAroundConstraints(
+      planned,
+      planConstraints,
+      sc.value.constraints,
+      s.targets.map((x) => x.holdS),
+      planLimits(s, v),
+    );
+    if (around) {
+      planned = around.plan;
+      constrainedSegments = around.segments;
+      sc = scenarioConstraints(s, planned);
+      if (!sc.ok) return fail(sc.errors, warnings);
+      planConstraints = checkPlan(planned, sc.value, runEndS(s, planned));
+    }
+  }
   const targets = new Float64Array(4 * s.targets.length);
   s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
   return ok(
@@ -89,11 +110,12 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
       file,
       scenario: s,
       vehicle: v,
-      plan: plan.value,
+      plan: planned,
       controllers: ctrls.value,
       targets,
       constraints: sc.value,
       planConstraints,
+      constrainedSegments,
       warnings,
     },
     warnings,
@@ -137,7 +159,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     {
       scenario: scenarioSummary(s, p.file!),
       vehicle: vehicleSummary(p.vehicle),
-      plan: planSummaryWithConstraints(planSummary(p.plan, s.targets), p.planConstraints),
+      plan: planSummaryWithConstraints(planSummary(p.plan, s.targets), p.planConstraints, p.plan, p.constrainedSegments),
       targets: p.targets,
       initialQ: Float64Array.from(s.initial.qInertialFromBody),
       runs,

@@ -19,6 +19,7 @@ import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
 import type { KeepOutCone } from '../scenario/resolve';
 import type { ConstraintInfo, ConstraintReport, RunConstraintReport } from './constraints';
+import type { ConstrainedSegment } from './constrainedPlan';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
 
 export type { RunMode } from '../sim/types';
@@ -139,6 +140,8 @@ export interface PlanSummary {
   segments: SegmentSummary[];
   /** The planned reference checked against the scenario's constraints (absent when it declares none). */
   constraints?: ConstraintReport;
+  /** Slews planned around the constraints, with their extra time (absent when none was needed). */
+  constrainedSlews?: ConstrainedSegment[];
 }
 
 export interface CertificateSummary {
