@@ -48,7 +48,7 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
     metrics: run.metrics,
     plan: out.plan,
     wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
-    ...(run.constraints ? { constraints: exportConstraints(run.constraints) } : {}),
+    ...(run.constraints && run.constraints.marginRad.length ? { constraints: exportConstraints(run.constraints) } : {}),
   };
   if (format === 'csv') return writeCsv(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return writeJson(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });

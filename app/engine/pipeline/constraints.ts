@@ -58,7 +58,7 @@ export interface ConstraintReport {
   constraints: ConstraintOutcome[];
 }
 
-/** A flown run's report with its margin series (rad per trace sample, NaN outside the window), in the constraints' order. */
+/** A flown run's report with its margin series (rad per trace sample, NaN outside the window), in the constraints' order; empty when not asked for (studies). */
 export interface RunConstraintReport extends ConstraintReport {
   marginRad: Float64Array[];
 }
@@ -187,15 +187,18 @@ export function checkPlan(plan: SequencePlan, sc: ScenarioConstraints, endS: num
 }
 
 /** Check a flown run on its own samples, with the margin series for the plots and the exports. */
-export function checkRun(trace: RunTrace, sc: ScenarioConstraints): RunConstraintReport | null {
+export function checkRun(trace: RunTrace, sc: ScenarioConstraints, series = true): RunConstraintReport | null {
   if (sc.constraints.length === 0 || trace.n === 0) return null;
   const r = checkAttitudeHistory(
     { timesS: trace.t.subarray(0, trace.n), qInertialFromBody: trace.q.subarray(0, 4 * trace.n) },
     sc.constraints,
-    { series: true },
+    { series },
   );
   if (!r.ok) return null;
-  return { ...reportOf(r.value), marginRad: r.value.constraints.map((c) => c.marginRad ?? new Float64Array(trace.n).fill(NaN)) };
+  return {
+    ...reportOf(r.value),
+    marginRad: series ? r.value.constraints.map((c) => c.marginRad ?? new Float64Array(trace.n).fill(NaN)) : [],
+  };
 }
 
 const deg = (rad: number, digits = 2) => `${(rad * DEG_PER_RAD).toFixed(digits)}°`;

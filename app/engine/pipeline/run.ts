@@ -126,6 +126,8 @@ export interface FlyOptions {
   shouldStop?: () => boolean;
   /** Run the Lyapunov monitor (default true; studies skip it for speed). */
   monitor?: boolean;
+  /** Keep each constraint's margin series on the run (default true; studies skip it for speed). */
+  constraintSeries?: boolean;
 }
 
 /** Stages 5 and 6 for one controller in one mode. */
@@ -133,7 +135,7 @@ export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, 
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
   const res = fly(flight);
   const run = summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
-  const checked = checkRun(run.trace, p.constraints);
+  const checked = checkRun(run.trace, p.constraints, o.constraintSeries ?? true);
   return checked ? { ...run, constraints: checked, verdict: verdictWithConstraints(run.verdict, checked) } : run;
 }
 

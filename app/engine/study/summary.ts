@@ -20,6 +20,7 @@ import type { CaseRecord, CaseRun } from './runCase';
 import type { StudyDefinition } from '../scenario/study';
 import type { RunMode } from '../sim/types';
 import { DEG_PER_RAD } from '../units';
+import { shareInterval, type ShareInterval } from '../math/stats';
 
 export interface Histogram {
   quantity: string;
@@ -83,6 +84,13 @@ export interface ControllerSummary {
     finalErrorDeg: Histogram;
   };
   worst: WorstCase[];
+  /**
+   * Flyable cases whose run violated an attitude constraint, and their share with its 95 %
+   * interval (math/stats.ts shareInterval: Wilson, or the rule of three at 0 and n); absent when
+   * the scenario declares no constraints.
+   */
+  constraintViolated?: number;
+  constraintViolatedShare?: ShareInterval;
 }
 
 /** One point of the outcome map: the case's initial error rotation and each controller's outcome. */
@@ -265,6 +273,15 @@ export function summarizeStudy(info: StudyInfo, recordsIn: readonly CaseRecord[]
         ),
       },
       worst,
+      ...(fly.some((x) => x.r.constraintViolated !== undefined)
+        ? {
+            constraintViolated: count((r) => r.constraintViolated === true),
+            constraintViolatedShare: shareInterval(
+              count((r) => r.constraintViolated === true),
+              n,
+            ),
+          }
+        : {}),
     };
   });
   return {
