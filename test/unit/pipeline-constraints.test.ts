@@ -213,6 +213,9 @@ describe('checks on the plan and on every run', () => {
       expect(flownMin, run.key).toBeGreaterThan(10);
       expect(run.trace.segment[run.trace.n - 1]).toBe(0);
       expect(run.constraints!.constraints[1]!.intervals, run.key).toEqual([]);
+      // The legs' quaternions keep one sign across the leg boundary: a law acting on the sign (PD)
+      // would otherwise see a 360° error there and unwind (it did before signContinuous).
+      expect(run.verdict.kind, run.key).toBe('settled');
     }
   });
 

@@ -44,6 +44,18 @@ export interface ConstrainedSequence {
   segments: ConstrainedSegment[];
 }
 
+/**
+ * The leg with its start quaternion on the same sign as the previous end (q and −q are one
+ * attitude; the reference must not jump between them at a leg boundary, or a law that acts on the
+ * quaternion's sign would see a 360° error and unwind).
+ */
+function signContinuous(p: TimelineEntry['plan'], prevEnd: ArrayLike<number>): TimelineEntry['plan'] {
+  const q = p.qStart;
+  if (q[0]! * prevEnd[0]! + q[1]! * prevEnd[1]! + q[2]! * prevEnd[2]! + q[3]! * prevEnd[3]! >= 0) return p;
+  const neg = (v: ArrayLike<number>) => Float64Array.from({ length: 4 }, (_, i) => -v[i]!);
+  return { ...p, qStart: neg(p.qStart), qEnd: neg(p.qEnd) };
+}
+
 /** Whether the check shows a violation during [t0, t1]. */
 function violatedDuring(r: ConstraintReport, t0: number, t1: number): boolean {
   return r.constraints.some((c) => c.intervals.some((iv) => iv.endS > t0 && iv.startS < t1));
@@ -69,10 +81,13 @@ export function planAroundConstraints(
   const segmentOf: number[] = [];
   const segments: ConstrainedSegment[] = [];
   let t = 0;
+  let prevEnd: ArrayLike<number> = tab.qInitial;
   for (const e of plan.timeline) {
     const hold = holds[e.target] ?? e.holdEndS - e.slewEndS;
     const direct = e.plan;
-    const push = (p: TimelineEntry['plan'], start: number, holdS: number) => {
+    const push = (pIn: TimelineEntry['plan'], start: number, holdS: number) => {
+      const p = signContinuous(pIn, prevEnd);
+      prevEnd = p.qEnd;
       timeline.push({
         target: e.target,
         label: e.label,
