@@ -80,7 +80,7 @@ export function comparisonTable(rows: readonly ComparisonRow[], best: BestMarks)
     ...TABLE_COLUMNS.map((c) => (CELL[c.key]?.(r) ?? String(r[c.key])) + (best[c.key] === r.key ? '*' : '')),
   ]);
   const heads = TABLE_COLUMNS.map((c) => (c.unit && c.unit !== '%' ? `${c.label} ${c.unit}` : c.label));
-  return `${table(['controller [mode]', 'outcome', ...heads], body)}\n(* best in column: lowest value among the settled runs, no mark on a tie)`;
+  return `${table(['controller [mode]', 'outcome', ...heads], body)}\n(* best in column: lowest value among the settled runs that kept every constraint, no mark on a tie)`;
 }
 
 /** What each column means and where that comes from (compare --help). */

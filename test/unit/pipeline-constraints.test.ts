@@ -162,6 +162,8 @@ describe('checks on the plan and on every run', () => {
       const row = o.comparison.find((c) => c.key === run.key)!;
       expect(row.constraintMarginDeg!).toBeLessThan(0);
       expect(row.constraintMarginDeg!).toBeCloseTo(rc.minimumMarginRad * DEG_PER_RAD, 12);
+      // A violating run never gets a best mark.
+      expect(Object.values(o.best)).not.toContain(run.key);
       const tr = run.trace;
       for (const k of [0, Math.floor(tr.n / 3), Math.floor(tr.n / 2), tr.n - 1]) {
         const q = tr.q.subarray(4 * k, 4 * k + 4);

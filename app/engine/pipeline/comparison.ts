@@ -182,11 +182,13 @@ const TIE_RELATIVE = 1e-9;
 
 /**
  * Lowest value wins in each column, among SETTLED runs only (an unsettled or failed run never gets
- * a mark), and only when one run is strictly best: a tie at the best value marks nobody.
+ * a mark, nor does one that violated an attitude constraint), and only when one run is strictly
+ * best: a tie at the best value marks nobody.
  */
 export function bestMarks(rows: readonly ComparisonRow[]): BestMarks {
   const best: BestMarks = {};
-  const eligible = rows.filter((r) => r.verdict === 'settled');
+  // A run that violated an attitude constraint gets no mark either (its margin is negative).
+  const eligible = rows.filter((r) => r.verdict === 'settled' && !(r.constraintMarginDeg !== null && r.constraintMarginDeg < 0));
   for (const col of MARKED_COLUMNS) {
     const vals = eligible
       .map((r) => ({ key: r.key, v: r[col] }))
