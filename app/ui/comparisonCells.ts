@@ -31,6 +31,7 @@ const SHOW: Partial<Record<keyof ComparisonRow, Show>> = {
   controlEffortNms: (r) => fmt(r.controlEffortNms * MILLI_PER_SI, 4),
   finalErrorDeg: (r) => fmt(r.finalErrorDeg, 3),
   monitorViolations: (r) => String(r.monitorViolations),
+  constraintMarginDeg: (r) => (r.constraintMarginDeg === null ? '–' : fmt(r.constraintMarginDeg, 3)),
 };
 
 /** The text of one cell. */

@@ -4,6 +4,8 @@
  */
 import { preparePipeline } from '../../app/engine/pipeline/run';
 import { planSummary } from '../../app/engine/pipeline/plan';
+import { planSummaryWithConstraints } from '../../app/engine/pipeline/constraints';
+import { withConstraintStatus } from './constraintStatus';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { ParsedArgs } from './args';
 import { planTable } from './format';
@@ -37,10 +39,15 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     printIssues(io, `${file} is not valid`, p.errors);
     return 2;
   }
-  const plan = planSummary(p.value.plan, p.value.scenario.targets);
+  const plan = planSummaryWithConstraints(
+    planSummary(p.value.plan, p.value.scenario.targets),
+    p.value.planConstraints,
+    p.value.plan,
+    p.value.constrainedSegments,
+  );
   const orbit = p.value.orbit ? orbitOutput(p.value.scenario, p.value.orbit, p.value.plan.tracking ?? null) : null;
   if (orbit) for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
   if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan, ...(orbit ? { orbit: orbitJson(orbit) } : {}) }, null, 2));
   else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${orbit ? `${windowsText(orbit)}\n\n` : ''}${CAUTION_TEXT}`);
-  return plan.feasible ? 0 : 1;
+  return withConstraintStatus(p.value.plan.feasible ? 0 : 1, plan.constraints?.clear === false);
 }

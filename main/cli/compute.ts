@@ -14,6 +14,7 @@ import type { ChunkSource } from '../../app/engine/export/chunks';
 import { runEnd, type RunEnd } from '../../app/engine/pipeline/outcome';
 import { comparisonCsv, comparisonTable } from './format';
 import { windowErrorText } from './orbitText';
+import { violationLines } from './constraintStatus';
 
 export interface ComputeJob {
   command: 'fly' | 'compare';
@@ -78,6 +79,8 @@ export type ComputeResult =
       openFile?: (index: number) => ChunkPull;
       /** Frees what the computer keeps for `openFile` (the worker thread); call once done. */
       release?: () => void;
+      /** Attitude-constraint violations of the plan and the runs, one line each (exit status 3 when any). */
+      constraintViolations?: string[];
     };
 
 export type ProgressSink = (line: string) => void;
@@ -139,10 +142,10 @@ export function computeJobSources(job: ComputeJob, progress: ProgressSink): Comp
         sources.push(text.ok ? text.value : undefined);
       }
   }
-  const headline = `Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)`;
+  const headline = `Comparison for "${o.vehicle.name}" (plan ${o.plan.feasible ? 'feasible' : o.plan.constraints?.clear === false && prep.value.plan.feasible ? 'VIOLATES A CONSTRAINT' : 'INFEASIBLE'}, ${o.plan.totalTimeS.toFixed(1)} s)`;
   const result: ComputeResult = {
     kind: 'ran',
-    feasible: o.plan.feasible,
+    feasible: prep.value.plan.feasible,
     headline,
     table: o.orbit ? `${comparisonTable(o.comparison, o.best)}\n\n${windowErrorText(o.runs)}` : comparisonTable(o.comparison, o.best),
     csv: comparisonCsv(o.comparison, CAUTION_TEXT),
@@ -150,6 +153,10 @@ export function computeJobSources(job: ComputeJob, progress: ProgressSink): Comp
     files,
     failedRuns: o.runs.filter((x) => x.outcome.status !== 'completed').map((x) => ({ key: x.key, message: x.outcome.message })),
     runs: o.runs.map((x) => ({ key: x.key, verdict: x.verdict.kind, end: runEnd(x.outcome), text: x.verdict.text })),
+    constraintViolations: [
+      ...violationLines('plan', o.plan.constraints),
+      ...o.runs.flatMap((x) => violationLines(`run ${x.key}`, x.constraints)),
+    ],
   };
   return { result, sources };
 }

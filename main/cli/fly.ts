@@ -17,6 +17,7 @@ import type { ChunkPull, ComputeJob, ComputeResult, RunEndLine } from './compute
 import { printIssues, type CliContext } from './io';
 import { EXPORT_RATE_RULE, exportStamp, numberOption } from './options';
 import { prepareOutputFile, prepareOutputFolder, writeStreamAtomic, writeTextAtomic } from './output';
+import { withConstraintStatus } from './constraintStatus';
 
 const INTERRUPTED = 130;
 
@@ -119,7 +120,8 @@ export async function runCompare(file: string, doc: ScenarioDocument, a: ParsedA
       else written++;
     }
     const settled = runLines(r.runs, ctx);
-    return r.feasible && settled && !failed ? 0 : 1;
+    for (const v of r.constraintViolations ?? []) ctx.io.err(`constraint violated: ${v}`);
+    return withConstraintStatus(r.feasible && settled && !failed ? 0 : 1, (r.constraintViolations ?? []).length > 0);
   });
 }
 
@@ -206,5 +208,6 @@ async function writeFiles(
   }
   ctx.io.out(`\n${r.table}\n\n${CAUTION_TEXT}`);
   if (!runLines(r.runs, ctx)) status = 1;
-  return status;
+  for (const v of r.constraintViolations ?? []) ctx.io.err(`constraint violated: ${v}`);
+  return withConstraintStatus(status, (r.constraintViolations ?? []).length > 0);
 }

@@ -29,12 +29,26 @@ export function planTable(plan: PlanSummary): string {
     rows,
   );
   const notes = plan.segments.map((s) => `  ${s.index + 1}. ${s.feasible ? '' : 'INFEASIBLE: '}${s.reason}`).join('\n');
+  const violated = plan.constraints?.clear === false;
   const verdict = plan.feasible
     ? `Plan feasible: total ${plan.totalTimeS.toFixed(2)} s (slews plus holds).`
-    : plan.segments.some((s) => !s.feasible && /window|pass|horizon/.test(s.reason))
-      ? 'Plan INFEASIBLE: at least one target cannot be planned within its window or the orbit horizon (see the reasons above).'
-      : 'Plan INFEASIBLE: at least one slew cannot be flown within the wheel limits (see the reasons above).';
-  return `${head}\n\n${notes}\n\n${verdict}`;
+    : violated
+      ? 'Plan INFEASIBLE: the planned attitude violates an attitude constraint (see the reasons above).'
+      : plan.segments.some((s) => !s.feasible && /window|pass|horizon/.test(s.reason))
+        ? 'Plan INFEASIBLE: at least one target cannot be planned within its window or the orbit horizon (see the reasons above).'
+        : 'Plan INFEASIBLE: at least one slew cannot be flown within the wheel limits (see the reasons above).';
+  return `${head}\n\n${notes}${constraintLines(plan)}\n\n${verdict}`;
+}
+
+/** The plan's constraint check, one line per constraint: its smallest margin and when. */
+function constraintLines(plan: PlanSummary): string {
+  const r = plan.constraints;
+  if (!r) return '';
+  const lines = r.constraints.map(
+    (c) =>
+      `  ${c.kind} "${c.name}": ${c.intervals.length ? 'VIOLATED' : 'clear'}, smallest margin ${(c.minMarginRad * DEG_PER_RAD).toFixed(2)} deg at t = ${c.minAtS.toFixed(1)} s`,
+  );
+  return `\n\nAttitude constraints (planned reference):\n${lines.join('\n')}`;
 }
 
 function pct(x: number): string {
@@ -56,6 +70,7 @@ const CELL: Partial<Record<keyof ComparisonRow, (r: ComparisonRow) => string>> =
   controlEffortNms: (r) => (r.controlEffortNms * MILLI_PER_SI).toFixed(2),
   finalErrorDeg: (r) => r.finalErrorDeg.toPrecision(3),
   monitorViolations: (r) => String(r.monitorViolations),
+  constraintMarginDeg: (r) => (r.constraintMarginDeg === null ? '-' : r.constraintMarginDeg.toFixed(2)),
 };
 
 const TABLE_COLUMNS = COMPARISON_COLUMNS.filter((c) => c.key !== 'status');
@@ -67,7 +82,7 @@ export function comparisonTable(rows: readonly ComparisonRow[], best: BestMarks)
     ...TABLE_COLUMNS.map((c) => (CELL[c.key]?.(r) ?? String(r[c.key])) + (best[c.key] === r.key ? '*' : '')),
   ]);
   const heads = TABLE_COLUMNS.map((c) => (c.unit && c.unit !== '%' ? `${c.label} ${c.unit}` : c.label));
-  return `${table(['controller [mode]', 'outcome', ...heads], body)}\n(* best in column: lowest value among the settled runs, no mark on a tie)`;
+  return `${table(['controller [mode]', 'outcome', ...heads], body)}\n(* best in column: lowest value among the settled runs that kept every constraint, no mark on a tie)`;
 }
 
 /** What each column means and where that comes from (compare --help). */

@@ -83,6 +83,19 @@ export function shareCell(r: ShareReport): string {
   return r.ruleOfThreeHigh !== null ? `${pct(r.share)} [≤${p(r.ruleOfThreeHigh)}]` : `${pct(r.share)} [${p(r.low)}–${p(r.high)}]`;
 }
 
+/** One line per controller: the share of cases that violated an attitude constraint, with its 95 % interval. */
+function constraintShareLines(s: StudySummary): string {
+  const lines = s.controllers.flatMap((c) => {
+    const v = c.constraintViolatedShare;
+    return v
+      ? [
+          `  ${c.label} [${c.controllerId}]: ${c.constraintViolated} of ${c.flyable} (${pct(v.share)}, 95 % interval ${pct(v.low)} to ${pct(v.high)}, ${v.method})`,
+        ]
+      : [];
+  });
+  return lines.length ? `\n\nCases that violated an attitude constraint:\n${lines.join('\n')}` : '';
+}
+
 function studyTable(s: StudySummary): string {
   const rows = s.controllers.map((c: ControllerSummary) => [
     `${c.label} [${c.controllerId}]`,
@@ -279,7 +292,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
 
   if (a.flags.has('json')) io.out(summaryJson(o.info, o.summary, o.map).trimEnd());
   else {
-    io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}\n`);
+    io.out(`${describeStudy(o.info, o.summary)}\n\n${studyTable(o.summary)}${constraintShareLines(o.summary)}\n`);
     io.out(
       `settled: within the scenario's settle thresholds until the end of the case (early stop after ${o.info.def.stopAfterSettledForS} s settled); unwound: driven to the far quaternion lift or an extra full turn; long way: ended on the far lift (through the 180° attitude, any law); chatter: ≥ ${CHATTER_THRESHOLD_PER_S} logic jumps or torque reversals per second in the busiest 10 s; peak h / τ: 95th percentile of the peak wheel momentum / torque fraction; worst cases: case indices, worst first (write one as a scenario with --case INDEX).`,
     );

@@ -235,9 +235,9 @@ function az100(): number[] {
   return [Math.cos(100 * D), Math.sin(100 * D), 0];
 }
 
-describe('skipping quiet stretches changes no reported number', () => {
-  it('2 h at 10 Hz against moving sources: the skipping scan equals the dense scan (series on disables skipping)', () => {
-    // Self-consistency, no outside source: the bound behind the skipping is in skip.ts.
+describe('the bisection scan changes no reported number', () => {
+  it('2 h at 10 Hz against moving sources: the bisection scan equals the dense scan (series on evaluates every sample)', () => {
+    // Self-consistency, no outside source: the bound behind the bisection is in motionBound.ts.
     const n = 72_000;
     const t = new Float64Array(n),
       q = new Float64Array(4 * n);

@@ -7,18 +7,20 @@
  * crossing between samples i−1 and i is at t_{i−1} + Δt · m_{i−1} / (m_{i−1} − m_i), and a
  * window edge between samples gets the interpolated margin there. Only the window counts.
  *
- * Speed: the history is processed in blocks of BLOCK samples. Per block, each distinct body axis
- * is rotated into inertial axes once and each distinct source is interpolated once; per
- * constraint the inner loop compares the cosine of the angle with the cosine of the threshold
- * (no acos), so a constant-radius constraint costs a dot product per sample. Exact margins
- * (atan2 form, source.ts) are computed only at crossings, window edges and extremes. A source
- * whose radius varies in time, or a request for the series, takes one acos per sample. Scratch
- * blocks are made per call; nothing is allocated per sample.
+ * Speed: without the series, each constraint is checked on the history's own samples by bisection
+ * with a bound on the motion between them (bisect.ts, motionBound.ts): only the samples that can decide
+ * a crossing or a minimum are evaluated, and the report is the same as from every sample. With
+ * the series, every sample is evaluated, in blocks of BLOCK samples: per block each distinct body
+ * axis is rotated once and each distinct source interpolated once, and the inner loop compares
+ * the cosine of the angle with the cosine of the threshold. Exact margins (atan2 form, source.ts)
+ * are computed only at crossings, window edges and extremes. Scratch is made per call; nothing
+ * is allocated per sample.
  */
 import { fail, IssueList, ok, type Issue, type Result } from '../errors';
 import { fillFixed, rotateBlock, sourceBlock } from './blocks';
-import { finishTrack, makeTrack, scanBlock, startTrack } from './scan';
-import { blockRotationBounds, canSkip, coarseMinimum, sourceRateBound } from './skip';
+import { scanTrackBisect } from './bisect';
+import { finishTrack, makeTrack, scanBlock, startTrack, type Track } from './scan';
+import { rotationPrefix, sourceRateBound } from './motionBound';
 import type { AttitudeConstraint, AttitudeHistory, HistoryCheck, PreparedConstraint } from './types';
 import { prepareConstraints } from './validate';
 import { readHistory } from './history';
@@ -95,7 +97,11 @@ function spanWarnings(t: Float64Array, cs: readonly PreparedConstraint[]): Issue
   return out;
 }
 
-/** The check on validated data (q of any non-zero norm, 4 per sample). */
+/**
+ * The check on validated data (q of any non-zero norm, 4 per sample). Without series, each
+ * constraint is scanned by bisection (bisect.ts: only the samples that decide a reported number
+ * are evaluated); with series, every sample is evaluated in blocks.
+ */
 export function checkPreparedHistory(
   t: Float64Array,
   q: Float64Array,
@@ -104,54 +110,45 @@ export function checkPreparedHistory(
 ): HistoryCheck {
   const n = t.length;
   const axes: Float64Array[] = [];
-  const tracks = cs.map((c) => makeTrack(c, axisIndex(axes, c.axisBody), t, options.series === true));
-  const axisBuf = axes.map(() => new Float64Array(3 * BLOCK));
-  // Distinct sources, indexed by sourceIndex (0 … m−1 by construction in prepareConstraints).
-  const m = cs.reduce((a, c) => Math.max(a, c.sourceIndex + 1), 0);
-  const src: (PreparedConstraint['source'] | undefined)[] = new Array(m);
-  for (const c of cs) src[c.sourceIndex] = c.source;
-  const dirBuf = src.map(() => new Float64Array(3 * BLOCK)),
-    radBuf = src.map(() => new Float64Array(BLOCK)),
-    cursor = new Int32Array(m);
-  src.forEach((s, k) => s && s.timesS.length < 2 && fillFixed(dirBuf[k]!, radBuf[k]!, s));
-  const turn = blockRotationBounds(q, n, BLOCK);
+  const series = options.series === true;
+  const tracks = cs.map((c) => makeTrack(c, axisIndex(axes, c.axisBody), t, series));
   for (const tr of tracks) {
     startTrack(tr, t, q);
     tr.rate = sourceRateBound(tr.c.source);
-    tr.knownMin = coarseMinimum(tr, t, q);
   }
-  const T = tracks.length;
-  const skip = new Uint8Array(T),
-    axisNeeded = new Uint8Array(axes.length),
-    srcNeeded = new Uint8Array(m);
-  for (let b0 = 0, blk = 0; b0 < n; b0 += BLOCK, blk++) {
-    const b1 = Math.min(n, b0 + BLOCK);
-    let needed = false;
-    axisNeeded.fill(0);
-    srcNeeded.fill(0);
-    for (let k = 0; k < T; k++) {
-      const tr = tracks[k]!;
-      skip[k] = canSkip(tr, turn[blk]!, t, q, b0, b1) ? 1 : 0;
-      if (skip[k]) continue;
-      needed = true;
-      axisNeeded[tr.axis] = 1;
-      srcNeeded[tr.c.sourceIndex] = 1;
-    }
-    if (!needed) continue;
-    rotateBlock(axisBuf, q, b0, b1, axes, axisNeeded);
-    for (let k = 0; k < m; k++) {
-      const s = src[k];
-      if (s && srcNeeded[k] && s.timesS.length >= 2) cursor[k] = sourceBlock(dirBuf[k]!, radBuf[k]!, s, t, b0, b1, cursor[k]!);
-    }
-    for (let k = 0; k < T; k++) {
-      const tr = tracks[k]!;
-      if (!skip[k]) scanBlock(tr, axisBuf[tr.axis]!, dirBuf[tr.c.sourceIndex]!, radBuf[tr.c.sourceIndex]!, t, q, b0, b1);
-    }
+  if (series) denseScan(tracks, axes, t, q);
+  else if (tracks.length) {
+    const phi = rotationPrefix(q, n);
+    for (const tr of tracks) scanTrackBisect(tr, t, q, phi, axes[tr.axis]!);
   }
   const results = tracks.map((tr) => finishTrack(tr, t, q));
   let minimum = NaN;
   for (const r of results) if (!(r.minMarginRad >= minimum)) minimum = Number.isNaN(r.minMarginRad) ? minimum : r.minMarginRad;
   return { constraints: results, minimumMarginRad: minimum, clear: results.every((r) => r.intervals.length === 0) };
+}
+
+/** Every sample of every track, in blocks of BLOCK samples (the series path). */
+function denseScan(tracks: Track[], axes: Float64Array[], t: Float64Array, q: Float64Array): void {
+  const n = t.length;
+  const axisBuf = axes.map(() => new Float64Array(3 * BLOCK));
+  // Distinct sources, indexed by sourceIndex (0 … m−1 by construction in prepareConstraints).
+  const m = tracks.reduce((a, tr) => Math.max(a, tr.c.sourceIndex + 1), 0);
+  const src: (PreparedConstraint['source'] | undefined)[] = new Array(m);
+  for (const tr of tracks) src[tr.c.sourceIndex] = tr.c.source;
+  const dirBuf = src.map(() => new Float64Array(3 * BLOCK)),
+    radBuf = src.map(() => new Float64Array(BLOCK)),
+    cursor = new Int32Array(m);
+  src.forEach((s, k) => s && s.timesS.length < 2 && fillFixed(dirBuf[k]!, radBuf[k]!, s));
+  const axisNeeded = new Uint8Array(axes.length).fill(1);
+  for (let b0 = 0; b0 < n; b0 += BLOCK) {
+    const b1 = Math.min(n, b0 + BLOCK);
+    rotateBlock(axisBuf, q, b0, b1, axes, axisNeeded);
+    for (let k = 0; k < m; k++) {
+      const s = src[k];
+      if (s && s.timesS.length >= 2) cursor[k] = sourceBlock(dirBuf[k]!, radBuf[k]!, s, t, b0, b1, cursor[k]!);
+    }
+    for (const tr of tracks) scanBlock(tr, axisBuf[tr.axis]!, dirBuf[tr.c.sourceIndex]!, radBuf[tr.c.sourceIndex]!, t, q, b0, b1);
+  }
 }
 
 function axisIndex(axes: Float64Array[], a: Float64Array): number {

@@ -32,11 +32,8 @@ export interface Track {
   openEdgeMargin: number;
   intervals: ViolationInterval[];
   series: Float64Array | undefined;
-  /** Skipping (skip.ts): source rate bound (rad/s), coarse minimum, cached margin at bestI. */
+  /** Bound on the source's angular rate plus its radius rate (rad/s; motionBound.ts), for bisect.ts. */
   rate: number;
-  knownMin: number;
-  bestMarginI: number;
-  bestMargin: number;
 }
 
 /** First index whose time passes the (monotone) test, or t.length; binary search. */
@@ -83,13 +80,10 @@ export function makeTrack(c: PreparedConstraint, axis: number, t: Float64Array, 
     intervals: [],
     series: series ? new Float64Array(n).fill(NaN) : undefined,
     rate: 0,
-    knownMin: Infinity,
-    bestMarginI: -1,
-    bestMargin: Infinity,
   };
 }
 
-function marginAt(tr: Track, t: Float64Array, q: Float64Array, i: number): number {
+export function marginAt(tr: Track, t: Float64Array, q: Float64Array, i: number): number {
   return attitudeMargin(q, tr.c, t[i]!, 4 * i);
 }
 
@@ -116,7 +110,7 @@ export function startTrack(tr: Track, t: Float64Array, q: Float64Array): void {
 }
 
 /** Called when the violation flag changes between the previous point and (tCur, mCur). */
-function transition(tr: Track, t: Float64Array, q: Float64Array, tCur: number, mCur: number, flag: boolean): void {
+export function transition(tr: Track, t: Float64Array, q: Float64Array, tCur: number, mCur: number, flag: boolean): void {
   let tx = tCur;
   if (tr.prevI !== -2) {
     const tPrev = tr.prevI >= 0 ? t[tr.prevI]! : tr.a;

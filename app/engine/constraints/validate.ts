@@ -46,6 +46,31 @@ function checkRadius(list: IssueList, path: string, r: unknown): boolean {
   return true;
 }
 
+/**
+ * The common case of a sampled source in one tight pass: finite, strictly increasing times and
+ * finite non-zero directions, normalised into `dirs`. False at the first problem (the caller then
+ * names every problem sample by sample).
+ */
+function readSamplesFast(t: ArrayLike<unknown>, d: ArrayLike<unknown>, times: Float64Array, dirs: Float64Array): boolean {
+  const n = times.length;
+  for (let i = 0; i < n; i++) {
+    const ti = t[i],
+      x = d[3 * i],
+      y = d[3 * i + 1],
+      z = d[3 * i + 2];
+    if (typeof ti !== 'number' || typeof x !== 'number' || typeof y !== 'number' || typeof z !== 'number') return false;
+    // ti − ti is NaN for NaN and ±Infinity.
+    if (ti - ti !== 0 || (i > 0 && !(ti > times[i - 1]!))) return false;
+    const r = Math.hypot(x, y, z);
+    if (!(r > 1e-12 && r < Infinity)) return false;
+    times[i] = ti;
+    dirs[3 * i] = x / r;
+    dirs[3 * i + 1] = y / r;
+    dirs[3 * i + 2] = z / r;
+  }
+  return true;
+}
+
 /** Validate one direction source into its prepared shape. */
 function prepareSource(list: IssueList, path: string, s: DirectionSource | undefined): PreparedSource | null {
   if (s === null || typeof s !== 'object') {
@@ -87,13 +112,16 @@ function prepareSource(list: IssueList, path: string, s: DirectionSource | undef
   }
   const times = new Float64Array(n),
     dirs = new Float64Array(3 * n);
-  for (let i = 0; i < n; i++) {
-    if (list.finite(`${path}.timesS[${i}]`, t[i])) times[i] = t[i] as number;
-    if (i > 0 && !(times[i]! > times[i - 1]!) && list.items.length === before) {
-      list.add(`${path}.timesS[${i}]`, 'increasing', `${path}.timesS must be strictly increasing (sample ${i} is not after ${i - 1})`);
+  if (!readSamplesFast(t, d, times, dirs)) {
+    // Something is wrong: go through every sample again and name each problem.
+    for (let i = 0; i < n; i++) {
+      if (list.finite(`${path}.timesS[${i}]`, t[i])) times[i] = t[i] as number;
+      if (i > 0 && !(times[i]! > times[i - 1]!) && list.items.length === before) {
+        list.add(`${path}.timesS[${i}]`, 'increasing', `${path}.timesS must be strictly increasing (sample ${i} is not after ${i - 1})`);
+      }
+      const u = readDirection(list, `${path}.directions[${i}]`, [d[3 * i], d[3 * i + 1], d[3 * i + 2]], 'every sample');
+      if (u) dirs.set(u, 3 * i);
     }
-    const u = readDirection(list, `${path}.directions[${i}]`, [d[3 * i], d[3 * i + 1], d[3 * i + 2]], 'every sample');
-    if (u) dirs.set(u, 3 * i);
   }
   for (let i = 1; i < n && list.items.length === before; i++) {
     const c = dirs[3 * i]! * dirs[3 * i - 3]! + dirs[3 * i + 1]! * dirs[3 * i - 2]! + dirs[3 * i + 2]! * dirs[3 * i - 1]!;

@@ -40,6 +40,7 @@ import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
 import type { ExportMeta, ExportSegment } from './types';
 import { DEG_PER_RAD } from '../units';
+import { constraintComments } from './constraintColumns';
 
 /** AEM quaternion (Q1, Q2, Q3, QC) from A = inertial to B = body, from qInertialFromBody: the same numbers (see header). */
 export function aemQuaternionFromAttitude(out: Float64Array, qInertialFromBody: ArrayLike<number>): Float64Array {
@@ -265,6 +266,7 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
     `COMMENT ${commentText(`Quaternion from ${text.refFrameA} to ${text.refFrameB} (Q1 Q2 Q3 QC, scalar last); ANGVEL of ${text.refFrameB} relative to ${text.refFrameA} in ${text.refFrameB} axes, deg/s`)}`,
   );
   if (scenario.orbit) for (const line of orbitHeaderLines(scenario.orbit)) out.push(`COMMENT ${commentText(line)}`);
+  for (const c of constraintComments(meta.constraints)) out.push(`COMMENT ${commentText(c)}`);
   kv('CREATION_DATE', creation);
   kv('ORIGINATOR', text.originator as string);
   kv('MESSAGE_ID', messageId);

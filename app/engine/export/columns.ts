@@ -14,6 +14,11 @@ export interface Column {
   unit: string;
   description: string;
   integer: boolean;
+  /**
+   * NaN means "not defined at this sample" (a constraint outside its window): the CSV leaves the
+   * cell empty and the JSON writes null. Any other column must be finite everywhere.
+   */
+  undefinedAsNaN?: boolean;
   get(trace: RunTrace, k: number): number;
 }
 

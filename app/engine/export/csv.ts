@@ -14,6 +14,7 @@ import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { formatNumber, selectSamples, traceColumns, type Column } from './columns';
 import { checkExportInputs, oneLine } from './prepare';
+import { constraintColumns } from './constraintColumns';
 import type { ExportMeta } from './types';
 
 export interface CsvOptions {
@@ -50,7 +51,7 @@ export function csvChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
   const sel = selectSamples(trace, options.sampleRateHz);
   if (!sel.ok) return sel;
   const idx = sel.value;
-  const cols = traceColumns(trace.nWheels);
+  const cols = [...traceColumns(trace.nWheels), ...constraintColumns(meta.constraints)];
   const eol = options.lineEnding ?? '\n';
 
   const ctl = meta.controllerId ? `${oneLine(meta.controllerLabel)} (id ${oneLine(meta.controllerId)})` : oneLine(meta.controllerLabel);
@@ -85,7 +86,11 @@ function* csvRows(trace: RunTrace, idx: Int32Array, cols: readonly Column[], hea
   const row: string[] = new Array(cols.length);
   for (let m = 0; m < idx.length; m++) {
     const k = idx[m]!;
-    for (let c = 0; c < cols.length; c++) row[c] = formatNumber(cols[c]!.get(trace, k));
+    for (let c = 0; c < cols.length; c++) {
+      const col = cols[c]!;
+      const x = col.get(trace, k);
+      row[c] = col.undefinedAsNaN && Number.isNaN(x) ? '' : formatNumber(x);
+    }
     const chunk = out.add(row.join(','));
     if (chunk !== null) yield chunk;
   }

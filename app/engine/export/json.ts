@@ -20,6 +20,8 @@ import type { ScenarioSummary } from '../pipeline/types';
 import type { RunTrace } from '../sim/types';
 import { CAUTION_TEXT, FRAME_CONVENTION, QUATERNION_CONVENTION, TIME_CONVENTION } from '../caution';
 import { selectSamples, traceColumns } from './columns';
+import { constraintColumnNames, constraintColumns } from './constraintColumns';
+import { DEG_PER_RAD } from '../units';
 import { exportSegments } from './segments';
 import { checkExportInputs } from './prepare';
 import type { ExportMeta } from './types';
@@ -110,7 +112,7 @@ export function jsonChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Exp
   if (!segs.ok) return segs;
 
   const idx = sel.value;
-  const cols = traceColumns(trace.nWheels);
+  const cols = [...traceColumns(trace.nWheels), ...constraintColumns(meta.constraints)];
   const units: Record<string, string> = {};
   for (const c of cols) units[c.name] = c.unit;
 
@@ -156,6 +158,19 @@ export function jsonChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Exp
     monitor: meta.monitor,
     outcome: meta.outcome,
     verdict: meta.verdict,
+    ...(meta.constraints?.length
+      ? {
+          constraints: meta.constraints.map((c, i) => ({
+            name: c.name,
+            kind: c.kind,
+            column: constraintColumnNames(meta.constraints!.map((x) => x.name))[i],
+            minMarginDeg: Number.isFinite(c.minMarginRad) ? c.minMarginRad * DEG_PER_RAD : null,
+            minAtS: Number.isFinite(c.minMarginRad) ? c.minAtS : null,
+            violatedS: c.violatedS,
+            violations: c.violations,
+          })),
+        }
+      : {}),
     samples: { count: idx.length, ofTrace: trace.n, sampleRateHz: options.sampleRateHz ?? null },
   };
   const jsonErrors: Issue[] = [];
@@ -184,6 +199,11 @@ function* jsonDocument(head: string, trace: RunTrace, idx: Int32Array, cols: rea
     if (chunk !== null) yield chunk;
     for (let m = 0; m < idx.length; m++) {
       const x = col.get(trace, idx[m]!);
+      if (col.undefinedAsNaN && Number.isNaN(x)) {
+        chunk = out.add(`${m ? ',' : ''}${pad(3)}null`);
+        if (chunk !== null) yield chunk;
+        continue;
+      }
       if (!Number.isFinite(x))
         return [
           {

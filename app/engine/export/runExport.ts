@@ -11,6 +11,20 @@ import { csvChunks } from './csv';
 import { jsonChunks } from './json';
 import { aemChunks } from './aem-write';
 import type { ExportMeta } from './types';
+import type { RunConstraintReport } from '../pipeline/constraints';
+import type { ExportConstraint } from './constraintColumns';
+
+function exportConstraints(r: RunConstraintReport): ExportConstraint[] {
+  return r.constraints.map((c, i) => ({
+    name: c.name,
+    kind: c.kind,
+    marginRad: r.marginRad[i]!,
+    minMarginRad: c.minMarginRad,
+    minAtS: c.minAtS,
+    violatedS: c.violatedS,
+    violations: c.intervals.length,
+  }));
+}
 
 export const EXPORT_FORMATS = ['csv', 'json', 'aem'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -47,6 +61,7 @@ export function exportRunChunks(format: ExportFormat, run: ControllerRun, out: P
     plan: out.plan,
     incomplete: runEndNote(run),
     wheels: { axes: out.vehicle.wheelAxes, maxTorqueNm: out.vehicle.maxTorqueNm, maxMomentumNms: out.vehicle.maxMomentumNms },
+    ...(run.constraints && run.constraints.marginRad.length ? { constraints: exportConstraints(run.constraints) } : {}),
   };
   if (format === 'csv') return csvChunks(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });
   if (format === 'json') return jsonChunks(run.trace, out.scenario, meta, { sampleRateHz: o.sampleRateHz });

@@ -3,6 +3,7 @@
  * opaque JSON-able objects here (the JSON export copies them; other writers ignore them).
  */
 import type { JumpEvent } from '../sim/types';
+import type { ExportConstraint } from './constraintColumns';
 
 export interface ExportSegment {
   /** Maneuver segment index (the trace's `segment` value). */
@@ -35,4 +36,6 @@ export interface ExportMeta {
   incomplete?: string;
   /** The wheels the run flew: unit axes (3 per wheel, body) and per-wheel limits, SI. */
   wheels?: { axes: ArrayLike<number>; maxTorqueNm: ArrayLike<number>; maxMomentumNms: ArrayLike<number> };
+  /** The run checked against the scenario's attitude constraints (constraintColumns.ts): margin columns and AEM comments. */
+  constraints?: readonly ExportConstraint[];
 }

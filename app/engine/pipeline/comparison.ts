@@ -145,6 +145,16 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
       'Mayhew, Sanfelice & Teel, IEEE TAC 56(11), 2011; Mayhew & Teel, IEEE TAC 58(11), 2013 (the promised decrease); tolerance: app/engine/metrics/monitor.ts',
     marked: true,
   },
+  {
+    key: 'constraintMarginDeg',
+    label: 'Constraint margin',
+    unit: 'deg',
+    definition:
+      "Smallest margin over the run of every attitude constraint of the scenario: for a keep-out cone the angle between the body axis and the direction less (half-angle + margin), for a keep-in cone (half-angle − margin) less that angle. Negative: violated (the outcome says which and when). Checked on the run's own samples, the margin interpolated linearly between them.",
+    source:
+      'Cone constraints as in Kjellberg & Lightsey, JGCD 36(5):1301–1309, 2013; margin convention: app/engine/constraints/types.ts (derived for this project)',
+    marked: false,
+  },
 ];
 
 export function comparisonRow(r: ControllerRun): ComparisonRow {
@@ -169,6 +179,8 @@ export function comparisonRow(r: ControllerRun): ComparisonRow {
     controlEffortNms: m.controlEffortNms,
     finalErrorDeg: m.finalErrorRad * DEG_PER_RAD,
     monitorViolations: monitorViolations(r.monitor).length,
+    constraintMarginDeg:
+      r.constraints && Number.isFinite(r.constraints.minimumMarginRad) ? r.constraints.minimumMarginRad * DEG_PER_RAD : null,
   };
 }
 
@@ -180,11 +192,13 @@ const TIE_RELATIVE = 1e-9;
 
 /**
  * Lowest value wins in each column, among SETTLED runs only (an unsettled or failed run never gets
- * a mark), and only when one run is strictly best: a tie at the best value marks nobody.
+ * a mark, nor does one that violated an attitude constraint), and only when one run is strictly
+ * best: a tie at the best value marks nobody.
  */
 export function bestMarks(rows: readonly ComparisonRow[]): BestMarks {
   const best: BestMarks = {};
-  const eligible = rows.filter((r) => r.verdict === 'settled');
+  // A run that violated an attitude constraint gets no mark either (its margin is negative).
+  const eligible = rows.filter((r) => r.verdict === 'settled' && !(r.constraintMarginDeg !== null && r.constraintMarginDeg < 0));
   for (const col of MARKED_COLUMNS) {
     const vals = eligible
       .map((r) => ({ key: r.key, v: r[col] }))

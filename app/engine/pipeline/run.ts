@@ -16,12 +16,23 @@ import { validateScenario } from '../scenario/validate';
 import type { RunMode } from '../sim/types';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
-import { planManeuver, planSummary } from './plan';
+import { planLimits, planManeuver, planSummary } from './plan';
+import { planAroundConstraints, type ConstrainedSegment } from './constrainedPlan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
 import { budgetIssues, DEFAULT_BUDGET, estimateBudget, runStepCap, type RunBudget } from './budget';
 import { buildOrbitStage, orbitExportInfo, orbitOutput, windowErrors, type OrbitStage } from './orbit';
+import {
+  checkPlan,
+  checkRun,
+  planSummaryWithConstraints,
+  runEndS,
+  scenarioConstraints,
+  verdictWithConstraints,
+  type ConstraintReport,
+  type ScenarioConstraints,
+} from './constraints';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -45,6 +56,11 @@ export interface Prepared {
   controllers: BuiltController[];
   /** Target attitudes, 4 per segment (a moving target: its attitude when tracking starts). */
   targets: Float64Array;
+  /** The scenario's attitude constraints over the run (constraints.ts), and the plan's check (null: none declared). */
+  constraints: ScenarioConstraints;
+  planConstraints: ConstraintReport | null;
+  /** Slews planned around the constraints (constrainedPlan.ts); empty when every shortest slew was clear. */
+  constrainedSegments: ConstrainedSegment[];
   warnings: Issue[];
   /** The orbit stage (ephemeris, sites, passes, eclipses) of a scenario with an orbit block, else null. */
   orbit?: OrbitStage | null;
@@ -79,11 +95,49 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   warnings.push(...ctrls.warnings);
   if (!plan.ok) errors.push(...plan.errors);
   if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
+  const ephemeris = orbit?.ephemeris ?? null;
+  let sc = scenarioConstraints(s, plan.value, ephemeris);
+  if (!sc.ok) return fail(sc.errors, warnings);
+  let planned = plan.value;
+  let planConstraints = checkPlan(planned, sc.value, runEndS(s, planned));
+  let constrainedSegments: ConstrainedSegment[] = [];
+  // Replanning around cones is for rest-to-rest slews; a tracking plan (orbit targets) is checked only.
+  if (planConstraints && !planConstraints.clear && !planned.tracking) {
+    const around = planAroundConstraints(
+      planned,
+      planConstraints,
+      sc.value.constraints,
+      s.targets.map((x) => x.holdS),
+      planLimits(s, v),
+    );
+    if (around) {
+      planned = around.plan;
+      constrainedSegments = around.segments;
+      sc = scenarioConstraints(s, planned, ephemeris);
+      if (!sc.ok) return fail(sc.errors, warnings);
+      planConstraints = checkPlan(planned, sc.value, runEndS(s, planned));
+    }
+  }
   const targets = new Float64Array(4 * s.targets.length);
   s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
-  for (const e of plan.value.tracking?.entries ?? []) targets.set(e.qTrack, 4 * e.target);
+  for (const e of planned.tracking?.entries ?? []) targets.set(e.qTrack, 4 * e.target);
   warnings.push(...plan.warnings);
-  return ok({ file, scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, targets, warnings, orbit }, warnings);
+  return ok(
+    {
+      file,
+      scenario: s,
+      vehicle: v,
+      plan: planned,
+      controllers: ctrls.value,
+      targets,
+      constraints: sc.value,
+      planConstraints,
+      constrainedSegments,
+      warnings,
+      orbit,
+    },
+    warnings,
+  );
 }
 
 export interface FlyOptions {
@@ -92,6 +146,8 @@ export interface FlyOptions {
   monitor?: boolean;
   /** RK4 steps after which the run stops as truncated (budget.ts runStepCap). */
   maxSteps?: number;
+  /** Keep each constraint's margin series on the run (default true; studies skip it for speed). */
+  constraintSeries?: boolean;
 }
 
 /** Stages 5 and 6 for one controller in one mode. */
@@ -100,7 +156,8 @@ export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, 
   const res = fly(o.maxSteps !== undefined ? { ...flight, maxSteps: o.maxSteps } : flight);
   const run = summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
   if (p.plan.tracking) run.windowErrors = windowErrors(res.trace, p.plan.tracking);
-  return run;
+  const checked = checkRun(run.trace, p.constraints, o.constraintSeries ?? true);
+  return checked ? { ...run, constraints: checked, verdict: verdictWithConstraints(run.verdict, checked) } : run;
 }
 
 /** One pass: every controller in every mode, and the comparison. */
@@ -136,7 +193,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     {
       scenario: summary,
       vehicle: vehicleSummary(p.vehicle),
-      plan: planSummary(p.plan, s.targets),
+      plan: planSummaryWithConstraints(planSummary(p.plan, s.targets), p.planConstraints, p.plan, p.constrainedSegments),
       targets: p.targets,
       initialQ: Float64Array.from(s.initial.qInertialFromBody),
       runs,
@@ -144,6 +201,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       best: bestMarks(comparison),
       certificates: certificates(p.controllers),
       keepOut: s.keepOut,
+      constraints: p.constraints.info,
       warnings: p.warnings,
       elapsedMs: Date.now() - t0,
       orbit,

@@ -19,6 +19,8 @@ import type { RunMetrics } from '../metrics/metrics';
 import type { MonitorFlag } from '../metrics/monitor';
 import type { MetricInputs } from './metricInputs';
 import type { KeepOutCone } from '../scenario/resolve';
+import type { ConstraintInfo, ConstraintReport, RunConstraintReport } from './constraints';
+import type { ConstrainedSegment } from './constrainedPlan';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
 import type { TrackForm } from '../scenario/orbitSchema';
 import type { OrbitExportInfo, OrbitOutput, WindowError } from './orbit';
@@ -80,6 +82,8 @@ export interface ControllerRun {
   verdict: RunVerdict;
   metrics: RunMetrics;
   monitor: MonitorFlag[];
+  /** The run checked against the scenario's constraints (absent when it declares none). */
+  constraints?: RunConstraintReport;
   /** Torque the chosen gains imply, for the UI's "what these gains mean" read-out. */
   gainNote: string;
   /** The settings the metrics and the monitor used (SI), for the JSON export. */
@@ -143,6 +147,10 @@ export interface PlanSummary {
   feasible: boolean;
   totalTimeS: number;
   segments: SegmentSummary[];
+  /** The planned reference checked against the scenario's constraints (absent when it declares none). */
+  constraints?: ConstraintReport;
+  /** Slews planned around the constraints, with their extra time (absent when none was needed). */
+  constrainedSlews?: ConstrainedSegment[];
 }
 
 export interface CertificateSummary {
@@ -177,6 +185,8 @@ export interface ComparisonRow {
   finalErrorDeg: number;
   /** Lyapunov-monitor violations (flow rises and weak jumps; planned reference steps not counted). */
   monitorViolations: number;
+  /** Smallest attitude-constraint margin over the run, degrees (negative: violated); null when the scenario declares none. */
+  constraintMarginDeg: number | null;
 }
 
 /**
@@ -220,6 +230,8 @@ export interface PipelineOutput {
   certificates: CertificateSummary[];
   /** Keep-out cones, SI (unit axes), as the scenario declares them. */
   keepOut: KeepOutCone[];
+  /** Every constraint checked (keepOut cones first, then the constraints list); absent or empty when none. */
+  constraints?: ConstraintInfo[];
   warnings: Issue[];
   /** Wall time of the pass, ms (for the UI's status line; not a test value). */
   elapsedMs: number;

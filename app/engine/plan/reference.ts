@@ -71,7 +71,7 @@ export function evaluateReference(plan: { reference: ReferenceTable }, t: number
   outOmegaDot[0] = st[2]! * ex + 0;
   outOmegaDot[1] = st[2]! * ey + 0;
   outOmegaDot[2] = st[2]! * ez + 0;
-  return k;
+  return tab.segmentOf ? tab.segmentOf[k]! : k;
 }
 
 /**

@@ -139,6 +139,11 @@ export interface ReferenceTable {
   peakRate: Float64Array;
   accelTime: Float64Array;
   coastTime: Float64Array;
+  /**
+   * Target index of each entry when several entries fly one target (a constrained slew's legs,
+   * pipeline/constrainedPlan.ts); absent: entry k is segment k. evaluateReference returns it.
+   */
+  segmentOf?: Int32Array;
 }
 
 export interface SequencePlan {

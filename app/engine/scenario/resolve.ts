@@ -39,6 +39,8 @@ import {
   type ResolvedWindow,
 } from './orbitResolve';
 import type { TrackForm } from './orbitSchema';
+import type { ConstraintSpec } from '../constraints/directions';
+import { resolveConstraints } from './constraintResolve';
 
 export type WheelLayout = WheelsSpec['layout'];
 
@@ -117,6 +119,8 @@ export interface ResolvedScenario {
     endWhenSettledForS: number;
   };
   keepOut: KeepOutCone[];
+  /** The `constraints` list, SI (constraintResolve.ts); the keepOut cones are not repeated here. */
+  constraints: ConstraintSpec[];
   /** The robustness study block, SI with defaults (study.ts); null when the file has none. */
   study: StudyDefinition | null;
   /** The orbit, its sites and horizon (orbitResolve.ts); absent or null when the file has no orbit block. */
@@ -268,6 +272,7 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
       inertialDirection: unit3(k.inertialDirection),
       halfAngleRad: k.halfAngleDeg * RAD_PER_DEG,
     })),
+    constraints: resolveConstraints(s.constraints),
     study,
     orbit,
   };

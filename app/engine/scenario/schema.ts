@@ -18,6 +18,7 @@
  * ranges and units; validate.ts adds the cross-field checks.
  */
 import { z } from 'zod';
+import { ConstraintsSchema } from './constraintSchema';
 import { EULER_SEQUENCES } from '../math/rotation';
 import { ControllerFileSchema } from '../control/fileSchema';
 import { StudySchema } from './studySchema';
@@ -310,6 +311,7 @@ export const ScenarioSchema = z
     planning: PlanningSchema,
     simulation: SimulationSchema,
     keepOut: z.array(KeepOutSchema).max(50).optional().describe('Inertial cones a body axis must stay out of.'),
+    constraints: ConstraintsSchema.optional(),
     study: StudySchema.optional(),
     orbit: OrbitSchema.optional(),
   })

@@ -15,6 +15,7 @@ import type { ControllerSpec, Scenario } from './schema';
 import { SCENARIO_FORMAT, SCENARIO_VERSION } from './schema';
 import { studyToFile } from './study';
 import { orbitToFile, trackToFile, windowToFile } from './orbitResolve';
+import { constraintsToFile } from './constraintResolve';
 
 function lawFields<L extends LawId>(def: LawDefinition<L>, c: ControllerParams): Record<string, unknown> {
   return def.toFile(c as unknown as ParamsOf<L>) as Record<string, unknown>;
@@ -109,6 +110,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
           })),
         }
       : {}),
+    ...(r.constraints.length ? { constraints: constraintsToFile(r.constraints) } : {}),
     ...(r.study ? { study: studyToFile(r.study) } : {}),
     ...(r.orbit ? { orbit: orbitToFile(r.orbit) } : {}),
   };

@@ -30,6 +30,7 @@ import { resolveStudy } from './study';
 import { checkLawFields } from '../control/registry';
 import { checkBandwidthAgainstRate } from '../control/lawSupport';
 import { checkOrbitScenario } from './orbitValidate';
+import { checkConstraintList } from './constraintValidate';
 
 type Obj = Record<string, unknown>;
 
@@ -216,6 +217,7 @@ function crossFieldChecks(raw: Obj, errors: Issue[], warnings: Issue[]): void {
   checkAttitudes(raw, errors, warnings);
   checkControllers(raw, errors, warnings);
   checkOrbitScenario(raw, errors, warnings, MAX_CHECKED_ITEMS);
+  checkConstraintList(raw.constraints, errors);
 
   const ko = raw.keepOut;
   if (Array.isArray(ko)) {

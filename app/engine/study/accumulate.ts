@@ -47,9 +47,23 @@ export interface RunCounts {
   unwound: number;
   longWay: number;
   chattered: number;
+  /** Flyable runs checked against attitude constraints (0 when the scenario declares none), and those that violated one. */
+  constraintChecked: number;
+  constraintViolated: number;
 }
 
-export const RUN_COUNT_KEYS = ['cases', 'flyable', 'settled', 'unsettled', 'failed', 'unwound', 'longWay', 'chattered'] as const;
+export const RUN_COUNT_KEYS = [
+  'cases',
+  'flyable',
+  'settled',
+  'unsettled',
+  'failed',
+  'unwound',
+  'longWay',
+  'chattered',
+  'constraintChecked',
+  'constraintViolated',
+] as const;
 
 export interface ControllerAccumulator {
   counts: RunCounts;
@@ -78,7 +92,18 @@ function must<T>(r: Result<T>): T {
 }
 
 function emptyCounts(): RunCounts {
-  return { cases: 0, flyable: 0, settled: 0, unsettled: 0, failed: 0, unwound: 0, longWay: 0, chattered: 0 };
+  return {
+    cases: 0,
+    flyable: 0,
+    settled: 0,
+    unsettled: 0,
+    failed: 0,
+    unwound: 0,
+    longWay: 0,
+    chattered: 0,
+    constraintChecked: 0,
+    constraintViolated: 0,
+  };
 }
 
 /** Fine bin edges of every quantity for this study (display edges cut by each quantity's `sub`). */
@@ -164,6 +189,8 @@ export function accumulateCase(acc: StudyAccumulator, rec: CaseRecord): Result<S
     if (r.unwound) n.unwound++;
     if (r.longWay) n.longWay++;
     if (r.chattered) n.chattered++;
+    if (r.constraintViolated !== undefined) n.constraintChecked++;
+    if (r.constraintViolated === true) n.constraintViolated++;
     topKAdd(c.worst, worstItem(index, r));
   });
   return ok(acc);

@@ -101,6 +101,7 @@ export function disperseScenario(
       endWhenSettledForS: def.mode === 'step-target' ? def.stopAfterSettledForS : 0,
     },
     keepOut: nom.keepOut,
+    constraints: nom.constraints,
     study: null,
   };
   return { ok: true, scenario, kept };

@@ -56,6 +56,10 @@ export interface CaseRun {
   /** Error angle, deg, at t_k = k·durationS/(TRACE_SAMPLES − 1), for k < traceCount. */
   errorTraceDeg: Float32Array;
   traceCount: number;
+  /** The run violated an attitude constraint of the scenario (absent: the scenario declares none). */
+  constraintViolated?: boolean;
+  /** Smallest constraint margin over the run, deg (absent: none declared). */
+  constraintMarginDeg?: number;
 }
 
 /** A run's outcome, the first that applies: failed | unflyable | unsettled | unwound | chattered | settled. */
@@ -139,6 +143,9 @@ export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): C
     endS: n > 0 ? tr.t[n - 1]! : 0,
     errorTraceDeg: trace,
     traceCount: count,
+    ...(run.constraints
+      ? { constraintViolated: !run.constraints.clear, constraintMarginDeg: finite(run.constraints.minimumMarginRad * DEG_PER_RAD) }
+      : {}),
   };
 }
 
@@ -175,7 +182,7 @@ export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boo
   if (!pc.ok) return { draw: pc.draw, runs: ctx.controllers.map((c) => unflyableRun(c, pc.reason)) };
   const runs: CaseRun[] = [];
   for (const c of pc.prepared.controllers) {
-    const run = flyAndSummarise(pc.prepared, c, ctx.def.mode, { shouldStop, monitor: false });
+    const run = flyAndSummarise(pc.prepared, c, ctx.def.mode, { shouldStop, monitor: false, constraintSeries: false });
     if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
     runs.push(caseRunOf(ctx, pc.draw, run));
   }

@@ -17,7 +17,7 @@ import type { CaseRecord, CaseRun } from './runCase';
 import type { StudyDefinition } from '../scenario/study';
 import type { RunMode } from '../sim/types';
 import type { Histogram as Counts, ShareReport } from '../math/stats';
-import { histogramQuantile, momentsVariance, pairwiseTotal, shareReport } from '../math/stats';
+import { histogramQuantile, momentsVariance, pairwiseTotal, shareInterval, shareReport, type ShareInterval } from '../math/stats';
 import type { StudyAccumulator } from './accumulate';
 import { accumulateCase, createStudyAccumulator, mapPointOf } from './accumulate';
 import type { QuantityKey } from './quantities';
@@ -94,6 +94,13 @@ export interface ControllerSummary {
   /** Per quantity: counts in the display bins. */
   histograms: Record<QuantityKey, Histogram>;
   worst: WorstCase[];
+  /**
+   * Flyable cases whose run violated an attitude constraint, and their share with its 95 %
+   * interval (math/stats.ts shareInterval: Wilson, or the rule of three at 0 and n); absent when
+   * the scenario declares no constraints.
+   */
+  constraintViolated?: number;
+  constraintViolatedShare?: ShareInterval;
 }
 
 /** One point of the outcome map: the case's initial error rotation and each controller's outcome. */
@@ -207,6 +214,7 @@ export function studySummaryOf(info: StudyInfo, acc: StudyAccumulator): StudySum
       spreads,
       histograms,
       worst: a.worst.items.map((w) => w.payload),
+      ...(n.constraintChecked > 0 ? { constraintViolatedShare: shareInterval(n.constraintViolated, n.constraintChecked) } : {}),
     };
   });
   const casesDone = acc.coverage.blocks.reduce((s, b) => s + 2 ** b.level, 0);
