@@ -391,53 +391,9 @@ export function planTrackingSequence(input: TrackingSequenceInput, limits: PlanL
     const tg = input.targets[i]!;
     const path = `targets[${i}]`;
     const notes: string[] = [];
-    let found: SlewSearch | null = null;
-    let win: ScheduledWindow | null = null;
-    let requestedEnd = NaN;
-    const w = tg.window;
-    if (!w) {
-      found = searchSlew(input, tg.source, () => cursor, prevState, H, limits);
-      if (found) requestedEnd = found.slewStartS + found.offset.durationS + tg.holdS;
-    } else if (w.kind === 'time') {
-      found = searchSlew(input, tg.source, (T) => w.atS - T, prevState, H, limits);
-      if (found && found.slewStartS < cursor - 1e-9) found = null;
-      if (found) {
-        win = { kind: 'time', startS: w.atS, endS: null, passIndex: null, maxElevationRad: null };
-        requestedEnd = w.atS + tg.holdS;
-      }
-    } else {
-      for (let pi = 0; pi < w.passes.length && !found; pi++) {
-        const pass = w.passes[pi]!;
-        if (pass.startClipped || pass.startS < cursor) continue;
-        const r = searchSlew(input, tg.source, (T) => pass.startS - T, prevState, H, limits);
-        if (!r || r.slewStartS < cursor - 1e-9) {
-          notes.push(`pass ${pi + 1} (starting at ${pass.startS.toFixed(1)} s) is too soon to slew onto`);
-          continue;
-        }
-        found = r;
-        win = { kind: 'pass', startS: pass.startS, endS: pass.endS, passIndex: pi, maxElevationRad: pass.maxElevationRad };
-        requestedEnd = w.untilPassEnd ? pass.endS : pass.startS + tg.holdS;
-      }
-    }
-    const reasonOf = (): Issue => {
-      if (w && w.kind === 'pass' && !w.passes.some((p) => !p.startClipped && p.startS >= cursor))
-        return issue(
-          `${path}.window`,
-          'no-pass',
-          `${tg.label}: no pass of its site starts between ${cursor.toFixed(1)} s and the horizon (${input.horizonS} s)`,
-        );
-      if (w && w.kind === 'time')
-        return issue(
-          `${path}.window.atUtc`,
-          'too-soon',
-          `${tg.label}: no feasible slew reaches the target by its window start (${w.atS.toFixed(1)} s from the epoch) after the previous hold (${cursor.toFixed(1)} s)`,
-        );
-      return issue(
-        path,
-        'envelope',
-        `${tg.label}: no slew up to ${MAX_TRACKING_SLEW_S} s stays within the margined wheel envelopes (or the ephemeris ends)`,
-      );
-    };
+    const { found: f0, win, requestedEnd } = scheduleTarget(input, tg, cursor, prevState, H, limits, notes);
+    let found = f0;
+    const reasonOf = (): Issue => noSlewReason(input, tg, path, cursor);
     let hold: Fractions | null = null;
     if (found) {
       const trackStart = found.slewStartS + found.offset.durationS;
@@ -480,25 +436,7 @@ export function planTrackingSequence(input: TrackingSequenceInput, limits: PlanL
     prevState(found.slewStartS, q0, w0);
     sourceRaw(eph, tg.source, trackStart);
     const qTrackRaw = Float64Array.from(ts.q);
-    const binding = bindingOf(found.slew, limits);
-    const seg: TrackingSegmentPlan = {
-      feasible: true,
-      method: 'tracking',
-      qStart: q0,
-      qEnd: qTrackRaw,
-      axisBody: unitOr(found.offset.rho0),
-      angleRad: Math.hypot(found.offset.rho0[0]!, found.offset.rho0[1]!, found.offset.rho0[2]!),
-      wheelMomentumStartBody: wheelMomentum(q0, w0, J, H),
-      wheelMomentumEndBody: wheelMomentum(qTrackRaw, ts.omegaBody, J, H),
-      durationS: T,
-      peakRateRadPerS: found.slew.peakRate,
-      peakAccelRadPerS2: found.slew.peakAccel,
-      binding,
-      peakTorqueFraction: Math.max(found.slew.torque, hold.torque),
-      peakMomentumFraction: Math.max(found.slew.momentum, hold.momentum),
-      slewRateFraction: found.slew.rate,
-      summary: `slew of ${T.toFixed(1)} s onto ${tg.source.kind === 'moving' ? 'the moving target (ends on its attitude and rate)' : 'the fixed attitude'}, ${binding === 'none' ? 'no limit binds' : `${binding} binds`}; tracking from ${trackStart.toFixed(1)} s`,
-    };
+    const seg = trackingSegmentOf(found, hold, q0, w0, qTrackRaw, tg, limits, J, H);
     segments.push(seg);
     entries.push({
       target: i,
@@ -519,7 +457,123 @@ export function planTrackingSequence(input: TrackingSequenceInput, limits: PlanL
     });
     cursor = requestedEnd;
   }
-  // Lift every entry in order so the reference is continuous.
+  liftEntries(entries, eph, qInitial);
+  const last = entries[entries.length - 1];
+  const tracking: TrackingPlan = { entries, ephemeris: eph, qInitial, hInertial: H };
+  return ok(
+    {
+      feasible,
+      segments,
+      timeline: [],
+      firstInfeasible: feasible ? -1 : segments.length - 1,
+      totalS: last ? last.requestedHoldEndS : 0,
+      reference: emptyReference(J, qInitial, input.wheelMomentumBody),
+      tracking,
+    },
+    warnings,
+  );
+}
+
+/** The plan row of one tracked target: the slew onto it and what its hold needs of the envelopes. */
+function trackingSegmentOf(
+  found: SlewSearch,
+  hold: Fractions,
+  q0: Float64Array,
+  w0: Float64Array,
+  qTrackRaw: Float64Array,
+  tg: TrackingSequenceInput['targets'][number],
+  limits: PlanLimits,
+  J: Mat3,
+  H: Float64Array,
+): TrackingSegmentPlan {
+  const T = found.offset.durationS;
+  const trackStart = found.slewStartS + T;
+  const binding = bindingOf(found.slew, limits);
+  return {
+    feasible: true,
+    method: 'tracking',
+    qStart: q0,
+    qEnd: qTrackRaw,
+    axisBody: unitOr(found.offset.rho0),
+    angleRad: Math.hypot(found.offset.rho0[0]!, found.offset.rho0[1]!, found.offset.rho0[2]!),
+    wheelMomentumStartBody: wheelMomentum(q0, w0, J, H),
+    wheelMomentumEndBody: wheelMomentum(qTrackRaw, ts.omegaBody, J, H),
+    durationS: T,
+    peakRateRadPerS: found.slew.peakRate,
+    peakAccelRadPerS2: found.slew.peakAccel,
+    binding,
+    peakTorqueFraction: Math.max(found.slew.torque, hold.torque),
+    peakMomentumFraction: Math.max(found.slew.momentum, hold.momentum),
+    slewRateFraction: found.slew.rate,
+    summary: `slew of ${T.toFixed(1)} s onto ${tg.source.kind === 'moving' ? 'the moving target (ends on its attitude and rate)' : 'the fixed attitude'}, ${binding === 'none' ? 'no limit binds' : `${binding} binds`}; tracking from ${trackStart.toFixed(1)} s`,
+  };
+}
+
+/** When the target is due and the slew onto it: right after the previous hold, at a time, or at the first pass it can reach. */
+function scheduleTarget(
+  input: TrackingSequenceInput,
+  tg: TrackingSequenceInput['targets'][number],
+  cursor: number,
+  prevState: StartState,
+  H: Float64Array,
+  limits: PlanLimits,
+  notes: string[],
+): { found: SlewSearch | null; win: ScheduledWindow | null; requestedEnd: number } {
+  let found: SlewSearch | null = null;
+  let win: ScheduledWindow | null = null;
+  let requestedEnd = NaN;
+  const w = tg.window;
+  if (!w) {
+    found = searchSlew(input, tg.source, () => cursor, prevState, H, limits);
+    if (found) requestedEnd = found.slewStartS + found.offset.durationS + tg.holdS;
+  } else if (w.kind === 'time') {
+    found = searchSlew(input, tg.source, (T) => w.atS - T, prevState, H, limits);
+    if (found && found.slewStartS < cursor - 1e-9) found = null;
+    if (found) {
+      win = { kind: 'time', startS: w.atS, endS: null, passIndex: null, maxElevationRad: null };
+      requestedEnd = w.atS + tg.holdS;
+    }
+  } else {
+    for (let pi = 0; pi < w.passes.length && !found; pi++) {
+      const pass = w.passes[pi]!;
+      if (pass.startClipped || pass.startS < cursor) continue;
+      const r = searchSlew(input, tg.source, (T) => pass.startS - T, prevState, H, limits);
+      if (!r || r.slewStartS < cursor - 1e-9) {
+        notes.push(`pass ${pi + 1} (starting at ${pass.startS.toFixed(1)} s) is too soon to slew onto`);
+        continue;
+      }
+      found = r;
+      win = { kind: 'pass', startS: pass.startS, endS: pass.endS, passIndex: pi, maxElevationRad: pass.maxElevationRad };
+      requestedEnd = w.untilPassEnd ? pass.endS : pass.startS + tg.holdS;
+    }
+  }
+  return { found, win, requestedEnd };
+}
+
+/** Why no slew could be planned onto target i (no pass left, too late for its time, or no envelope-feasible slew). */
+function noSlewReason(input: TrackingSequenceInput, tg: TrackingSequenceInput['targets'][number], path: string, cursor: number): Issue {
+  const w = tg.window;
+  if (w && w.kind === 'pass' && !w.passes.some((p) => !p.startClipped && p.startS >= cursor))
+    return issue(
+      `${path}.window`,
+      'no-pass',
+      `${tg.label}: no pass of its site starts between ${cursor.toFixed(1)} s and the horizon (${input.horizonS} s)`,
+    );
+  if (w && w.kind === 'time')
+    return issue(
+      `${path}.window.atUtc`,
+      'too-soon',
+      `${tg.label}: no feasible slew reaches the target by its window start (${w.atS.toFixed(1)} s from the epoch) after the previous hold (${cursor.toFixed(1)} s)`,
+    );
+  return issue(
+    path,
+    'envelope',
+    `${tg.label}: no slew up to ${MAX_TRACKING_SLEW_S} s stays within the margined wheel envelopes (or the ephemeris ends)`,
+  );
+}
+
+/** Lift every entry in order so the reference is continuous (one hemisphere across the whole plan). */
+function liftEntries(entries: TrackingEntry[], eph: TrackingSequenceInput['ephemeris'], qInitial: Float64Array): void {
   const refQ = Float64Array.from(qInitial);
   for (let k = 0; k < entries.length; k++) {
     const e = entries[k]!;
@@ -537,20 +591,6 @@ export function planTrackingSequence(input: TrackingSequenceInput, limits: PlanL
       liftedTargetAt(e, { ephemeris: eph }, e.trackStartS, e.qTrack, ew, ewd);
     }
   }
-  const last = entries[entries.length - 1];
-  const tracking: TrackingPlan = { entries, ephemeris: eph, qInitial, hInertial: H };
-  return ok(
-    {
-      feasible,
-      segments,
-      timeline: [],
-      firstInfeasible: feasible ? -1 : segments.length - 1,
-      totalS: last ? last.requestedHoldEndS : 0,
-      reference: emptyReference(J, qInitial, input.wheelMomentumBody),
-      tracking,
-    },
-    warnings,
-  );
 }
 
 function unitOr(v: ArrayLike<number>): Float64Array {

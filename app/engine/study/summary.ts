@@ -16,8 +16,8 @@
 import type { CaseRecord, CaseRun } from './runCase';
 import type { StudyDefinition } from '../scenario/study';
 import type { RunMode } from '../sim/types';
-import type { Histogram as Counts, ShareReport } from '../math/stats';
-import { histogramQuantile, momentsVariance, pairwiseTotal, shareInterval, shareReport, type ShareInterval } from '../math/stats';
+import type { Histogram as Counts, ShareReport, ShareInterval } from '../math/stats';
+import { histogramQuantile, momentsVariance, pairwiseTotal, shareInterval, shareReport } from '../math/stats';
 import type { StudyAccumulator } from './accumulate';
 import { accumulateCase, createStudyAccumulator, mapPointOf } from './accumulate';
 import type { QuantityKey } from './quantities';
