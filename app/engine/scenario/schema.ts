@@ -21,6 +21,7 @@ import { z } from 'zod';
 import { EULER_SEQUENCES } from '../math/rotation';
 import { ControllerFileSchema } from '../control/fileSchema';
 import { StudySchema } from './studySchema';
+import { antipodalNoiseSensorShape, rollFreeTargetShape } from './pointingOnlySchema';
 
 export {
   StudyAttitudeDispersionSchema,
@@ -184,6 +185,7 @@ export const SensorsSchema = z.strictObject({
     .describe(
       'Worst-case bounded noise ē on the error quaternion’s scalar part, a stress test of the laws (Mayhew, Sanfelice & Teel 2011): whenever |η| < ē the measured error is reflected to (ε, −η). Dimensionless; 0 or absent: off.',
     ),
+  ...antipodalNoiseSensorShape,
 });
 
 export const ActuationSchema = z.strictObject({
@@ -231,6 +233,7 @@ export const TargetSchema = z.strictObject({
   label: label().describe('Name shown in plots and exports.'),
   attitude: AttitudeSchema,
   holdS: nonNegative().max(MAX_DURATION_S).describe('Time to hold the target after arriving, s.'),
+  ...rollFreeTargetShape,
 });
 
 // ---------------------------------------------------------------------------------------------

@@ -14,6 +14,7 @@ import type { ResolvedController, ResolvedScenario } from './resolve';
 import type { ControllerSpec, Scenario } from './schema';
 import { SCENARIO_FORMAT, SCENARIO_VERSION } from './schema';
 import { studyToFile } from './study';
+import { rollFreeTargetToFile } from './pointingOnly';
 
 function lawFields<L extends LawId>(def: LawDefinition<L>, c: ControllerParams): Record<string, unknown> {
   return def.toFile(c as unknown as ParamsOf<L>) as Record<string, unknown>;
@@ -63,6 +64,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
         rateNoiseDegPerS: v.sensors.rateNoiseRadPerS * DEG_PER_RAD,
         rateBiasDegPerS: deg3(v.sensors.rateBiasRadPerS),
         ...(v.sensors.boundedNoiseEta > 0 ? { boundedNoiseEta: v.sensors.boundedNoiseEta } : {}),
+        ...((v.sensors.antipodalNoiseRad ?? 0) > 0 ? { antipodalNoiseDeg: v.sensors.antipodalNoiseRad! * DEG_PER_RAD } : {}),
       },
       controlRateHz: v.controlRateHz,
       actuation: act.mode === 'quantized' ? { mode: 'quantized', torqueQuantumMNm: act.quantumNm * MILLI_PER_SI } : { mode: act.mode },
@@ -72,7 +74,11 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
       bodyRateDegPerS: deg3(r.initial.omegaBody),
       ...(r.initial.hWheelNms.some((h) => h !== 0) ? { wheelMomentumMNms: Array.from(r.initial.hWheelNms, (h) => h * MILLI_PER_SI) } : {}),
     },
-    targets: r.targets.map((t) => ({ label: t.label, attitude: { quaternion: Array.from(t.qInertialFromBody) }, holdS: t.holdS })),
+    targets: r.targets.map((t) =>
+      t.pointingOnly
+        ? rollFreeTargetToFile(t.label, t.holdS, t.pointingOnly)
+        : { label: t.label, attitude: { quaternion: Array.from(t.qInertialFromBody) }, holdS: t.holdS },
+    ),
     controllers: r.controllers.map(controllerToFile),
     planning: {
       torqueMargin: r.planning.torqueMargin,
