@@ -3,7 +3,7 @@
  * there). check and plan live here; the others have their own modules and are re-exported.
  */
 import { preparePipeline } from '../../app/engine/pipeline/run';
-import { planSummary } from '../../app/engine/pipeline/plan';
+import { planSummaryWithSavings } from '../../app/engine/pipeline/rollFreePlan';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { ParsedArgs } from './args';
 import { planTable } from './format';
@@ -34,7 +34,7 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     printIssues(io, `${file} is not valid`, p.errors);
     return 2;
   }
-  const plan = planSummary(p.value.plan, p.value.scenario.targets);
+  const plan = planSummaryWithSavings(p.value);
   if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan }, null, 2));
   else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${CAUTION_TEXT}`);
   return plan.feasible ? 0 : 1;

@@ -16,10 +16,12 @@ import { validateScenario } from '../scenario/validate';
 import type { RunMode } from '../sim/types';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
-import { planManeuver, planSummary } from './plan';
+import { planManeuver } from './plan';
+import { planSummaryWithSavings } from './rollFreePlan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
+import { pointingLawIssues } from './pointing';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -61,11 +63,11 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
   const v = veh.value;
   const ctrls = buildControllers(s.controllers, v.design, only);
   const plan = planManeuver(s, v);
-  const errors: Issue[] = [];
+  const errors: Issue[] = pointingLawIssues(s.controllers, s.targets, only);
   if (!ctrls.ok) errors.push(...ctrls.errors);
   warnings.push(...ctrls.warnings);
   if (!plan.ok) errors.push(...plan.errors);
-  if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
+  if (!ctrls.ok || !plan.ok || errors.length) return fail(errors, warnings);
   const targets = new Float64Array(4 * s.targets.length);
   s.targets.forEach((t, i) => targets.set(t.qInertialFromBody, 4 * i));
   return ok({ file, scenario: s, vehicle: v, plan: plan.value, controllers: ctrls.value, targets, warnings }, warnings);
@@ -106,7 +108,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     {
       scenario: scenarioSummary(s, p.file!),
       vehicle: vehicleSummary(p.vehicle),
-      plan: planSummary(p.plan, s.targets),
+      plan: planSummaryWithSavings(p),
       targets: p.targets,
       initialQ: Float64Array.from(s.initial.qInertialFromBody),
       runs,

@@ -26,6 +26,7 @@ import type {
   VehicleSummary,
 } from './types';
 import { certificateSummary } from './types';
+import { pointingAxesOf } from './pointing';
 
 /** Chatter is counted over sliding windows of this length (s); metrics/chatter.ts defines the measure. */
 export const CHATTER_WINDOW_S = 10;
@@ -43,6 +44,8 @@ export interface MetricContext {
   /** Planned switches of the flight's reference (s). */
   plannedSwitchTimes: Float64Array;
   sensors: SensorModel;
+  /** Pointed body axis per segment, 3 each (zeros: full attitude); absent when no target is pointing-only. */
+  segmentAxes?: Float64Array;
 }
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
@@ -57,6 +60,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     plannedSwitchTimes: m.plannedSwitchTimes,
     boundedNoiseEta: m.sensors.adversarialEta,
     liftDependent,
+    ...(m.segmentAxes ? { segmentAxes: m.segmentAxes } : {}),
   });
 }
 
@@ -102,6 +106,7 @@ export function metricContext(
   mode: RunMode,
   sensors: SensorModel,
 ): MetricContext {
+  const axes = pointingAxesOf(s.targets);
   return {
     settleAngleRad: s.simulation.settleAngleRad,
     settleRateRadPerS: s.simulation.settleRateRadPerS,
@@ -110,6 +115,7 @@ export function metricContext(
     targets,
     plannedSwitchTimes: plannedSwitchTimes(plan.reference, mode === 'step-target'),
     sensors,
+    ...(axes ? { segmentAxes: axes } : {}),
   };
 }
 
@@ -155,7 +161,13 @@ export function verdictOf(o: RunOutcome, m: RunMetrics): RunVerdict {
 }
 
 export function certificates(cs: readonly BuiltController[]): CertificateSummary[] {
-  return cs.flatMap((c) => (c.controller.certificate ? [certificateSummary(c.id, c.controller.certificate)] : []));
+  return cs.flatMap((c) =>
+    c.controller.certificate
+      ? [certificateSummary(c.id, c.controller.certificate)]
+      : c.controller.sphereCertificate
+        ? [certificateSummary(c.id, c.controller.sphereCertificate, 'S2')]
+        : [],
+  );
 }
 
 function envelopeSummary(z: Zonotope): EnvelopeSummary {
