@@ -22,6 +22,8 @@ import { validateScenario } from '../../app/engine/scenario/validate';
 import { resolveScenario } from '../../app/engine/scenario/resolve';
 import { buildVehicle } from '../../app/engine/pipeline/build';
 import { RAD_PER_DEG } from '../../app/engine/units';
+import { exportRun } from '../../app/engine/export/runExport';
+import { parseAem } from '../../app/engine/export/aem-read';
 import { loadExample } from './scenario-fixtures';
 
 type V3 = [number, number, number];
@@ -195,6 +197,47 @@ describe('flying a pointing-only target', () => {
     expect(rf.slewTimeS).toBeCloseTo(seg.slewTimeS, 9);
     expect(rf.timeSavedS).toBeCloseTo(rf.heldRollTimeS! - rf.slewTimeS!, 9);
     expect(rf.summary).toMatch(/^Pointing only: /);
+  });
+});
+
+describe('exports of a pointing-only run', () => {
+  const out = runPipeline(pointingScenario(), { modes: ['step-target'], controllers: ['psyn'] });
+  if (!out.ok) throw new Error(JSON.stringify(out.errors));
+  const run = out.value.runs[0]!;
+  const opts = { toolName: 'Slewsmith', toolVersion: '0.1.0', creationDateUtc: '2030-01-01T00:00:00Z', sampleRateHz: 1 };
+
+  it('the AEM carries the FULL attitude flown (every data line is ±q of the trace at that time, npm quaternion angle < 1e-8) and says the roll is free', () => {
+    const text = exportRun('aem', run, out.value, opts);
+    if (!text.ok) throw new Error(JSON.stringify(text.errors));
+    const doc = parseAem(text.value);
+    if (!doc.ok) throw new Error(JSON.stringify(doc.errors));
+    const seg = doc.value.segments[0]!;
+    expect(seg.comments.some((c) => /Pointing only \(roll free\): body axis \(0\.000000, 0\.000000, 1\.000000\) on EME2000/.test(c))).toBe(
+      true,
+    );
+    const tr = run.trace;
+    let checked = 0;
+    for (const line of seg.lines) {
+      const t = line.time.unixS - seg.lines[0]!.time.unixS;
+      const k = Array.from(tr.t).findIndex((x) => Math.abs(x - t) < 1e-6);
+      if (k < 0) continue;
+      const [x, y, z, w] = line.values;
+      // the AEM quaternion A = EME2000 → B = body has the same numbers as q_inertial←body (the
+      // project's convention, pinned against the AEM standard in export-aem-convention.test.ts)
+      expect(relAngle([x!, y!, z!, w!], tr.q.subarray(4 * k, 4 * k + 4))).toBeLessThan(1e-8);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(100);
+  });
+
+  it('the JSON names the pointed axis and direction of the resolved target, and the saving of the plan', () => {
+    const text = exportRun('json', run, out.value, opts);
+    if (!text.ok) throw new Error(JSON.stringify(text.errors));
+    const doc = JSON.parse(text.value);
+    const p = doc.resolved.targets[0].pointingOnly;
+    expect(p.bodyAxis).toEqual([0, 0, 1]);
+    expect(ang(p.inertialDirection, unit(DIRECTION))).toBeLessThan(1e-12);
+    expect(doc.plan.segments[0].rollFree.timeSavedS).toBeCloseTo(out.value.plan.segments[0]!.rollFree!.timeSavedS!, 12);
   });
 });
 

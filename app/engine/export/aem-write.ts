@@ -32,6 +32,7 @@ import { selectSamples } from './columns';
 import { isKvnText, kvnFixed, kvnSignificant, toKvnText } from './kvn';
 import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
+import { pointingNote } from './pointingNote';
 import type { ExportMeta, ExportSegment } from './types';
 import { DEG_PER_RAD } from '../units';
 
@@ -119,7 +120,9 @@ export function writeAem(trace: RunTrace, scenario: ScenarioSummary, meta: Expor
 
   const out: string[] = [];
   headerLines(out, o, settings, scenario, meta);
-  blocks.value.forEach((blk, b) => segmentLines(out, blk, b, blocks.value.length, o, settings));
+  blocks.value.forEach((blk, b) =>
+    segmentLines(out, blk, b, blocks.value.length, o, settings, pointingNote(scenario, segs.value[b]!.index)),
+  );
   const eol = o.lineEnding ?? '\n';
   return readBack(out.join(eol) + eol);
 }
@@ -293,12 +296,21 @@ function headerLines(out: string[], o: AemOptions, st: AemSettings, scenario: Sc
 }
 
 /** Segment b of count: its metadata block and its data block. */
-function segmentLines(out: string[], blk: AemBlock, b: number, count: number, o: AemOptions, st: AemSettings): void {
+function segmentLines(
+  out: string[],
+  blk: AemBlock,
+  b: number,
+  count: number,
+  o: AemOptions,
+  st: AemSettings,
+  note: string | null = null,
+): void {
   const text = st.text;
   const kv = (k: string, v: string) => out.push(`${k} = ${v}`);
   out.push('');
   out.push('META_START');
   out.push(`COMMENT ${commentText(`Segment ${b + 1} of ${count}: ${blk.label}`)}`);
+  if (note) out.push(`COMMENT ${commentText(note)}`);
   kv('OBJECT_NAME', st.objectName);
   kv('OBJECT_ID', text.objectId as string);
   if (text.centerName !== null) kv('CENTER_NAME', text.centerName);

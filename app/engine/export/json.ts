@@ -130,6 +130,7 @@ export function writeJson(trace: RunTrace, scenario: ScenarioSummary, meta: Expo
         form: t.form,
         qInertialFromBody: Array.from(t.q),
         holdS: t.holdS,
+        ...(t.pointingOnly ? { pointingOnly: t.pointingOnly } : {}),
       })),
     },
     segments: segs.value,

@@ -21,6 +21,9 @@ export interface ComparisonColumn {
 }
 
 const METRICS_SRC = 'app/engine/metrics (definitions stated in the code; common practice, no single source)';
+/** Appended to every error-angle column: what the angle is on a pointing-only (roll-free) segment. */
+const POINTING_ANGLE =
+  ' On a pointing-only (roll-free) segment the angle is the POINTING error of the body axis b, ∠(R(q)b, R(q_ref)b), for every law: the roll about b is not an error there.';
 
 export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
   {
@@ -37,7 +40,8 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     label: 'Settle time',
     unit: 's',
     definition:
-      "Longest over the segments of: the time from the segment's slew start until the error to its TARGET and the body rate stay below the scenario's settle thresholds through the segment's end.",
+      "Longest over the segments of: the time from the segment's slew start until the error to its TARGET and the body rate stay below the scenario's settle thresholds through the segment's end." +
+      POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -46,7 +50,8 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     label: 'Tracking error, peak',
     unit: 'deg',
     definition:
-      'Largest angle between the attitude and the reference (the planned profile when following the plan, the target when stepping to it).',
+      'Largest angle between the attitude and the reference (the planned profile when following the plan, the target when stepping to it).' +
+      POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -54,7 +59,7 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     key: 'trackingErrorRmsDeg',
     label: 'Tracking error, RMS',
     unit: 'deg',
-    definition: 'Root mean square over the run of the angle between the attitude and the reference.',
+    definition: 'Root mean square over the run of the angle between the attitude and the reference.' + POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -70,7 +75,7 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     key: 'shortestRotationDeg',
     label: 'Shortest rotation',
     unit: 'deg',
-    definition: "Sum over segments of the rotation angle from the segment's starting attitude to its target.",
+    definition: "Sum over segments of the rotation angle from the segment's starting attitude to its target." + POINTING_ANGLE,
     source: METRICS_SRC,
     marked: false,
   },
@@ -121,7 +126,7 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     key: 'finalErrorDeg',
     label: 'Final error',
     unit: 'deg',
-    definition: "Angle to the last segment's target at the end of the run.",
+    definition: "Angle to the last segment's target at the end of the run." + POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },

@@ -203,7 +203,20 @@ export function scenarioSummary(s: ResolvedScenario, file: Scenario): ScenarioSu
     inertialFrame: 'EME2000',
     wheelCount: s.vehicle.wheels.length,
     initialQ: Float64Array.from(s.initial.qInertialFromBody),
-    targets: s.targets.map((t) => ({ label: t.label, form: t.form, q: Float64Array.from(t.qInertialFromBody), holdS: t.holdS })),
+    targets: s.targets.map((t) => ({
+      label: t.label,
+      form: t.form,
+      q: Float64Array.from(t.qInertialFromBody),
+      holdS: t.holdS,
+      ...(t.pointingOnly
+        ? {
+            pointingOnly: {
+              bodyAxis: Array.from(t.pointingOnly.bodyAxis),
+              inertialDirection: Array.from(t.pointingOnly.inertialDirection),
+            },
+          }
+        : {}),
+    })),
     settleAngleRad: s.simulation.settleAngleRad,
     settleRateRadPerS: s.simulation.settleRateRadPerS,
     file,

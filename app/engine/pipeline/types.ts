@@ -215,7 +215,14 @@ export interface ScenarioSummary {
   inertialFrame: 'EME2000';
   wheelCount: number;
   initialQ: Float64Array;
-  targets: { label: string; form: AttitudeForm; q: Float64Array; holdS: number }[];
+  targets: {
+    label: string;
+    form: AttitudeForm;
+    q: Float64Array;
+    holdS: number;
+    /** A pointing-only (roll-free) target: its pointed body axis and inertial direction (unit). */
+    pointingOnly?: { bodyAxis: number[]; inertialDirection: number[] };
+  }[];
   settleAngleRad: number;
   settleRateRadPerS: number;
   /** The validated scenario file in the current format, kept for provenance (the JSON export copies it). */
