@@ -13,6 +13,15 @@ import { ReducedSynergistic } from '../../sphere/laws';
 import { pointingGainNote, pointingGains } from '../pointing-pd/law';
 import { pointingFamilyOf } from './law';
 
+/** The certificate's words → this law's file fields. */
+function renameText(m: string): string {
+  return m
+    .replace(/warp directions? ⊥ b \(e\.g\. u and −u\)/g, 'warp azimuths (e.g. [0, 180] or [0, 120, 240])')
+    .replace(/equal warp directions/g, 'equal warp azimuths')
+    .replace(/warp direction (\d+)/g, 'warp azimuth $1')
+    .replace(/hysteresis δ/g, 'jump threshold δ (gapThreshold)');
+}
+
 /** The certificate's field names → this law's file fields, in paths and in words. */
 function renameFields(i: Issue, path: string): Issue {
   const p = i.path.startsWith(`${path}.`) ? i.path.slice(path.length + 1) : i.path;
@@ -20,12 +29,7 @@ function renameFields(i: Issue, path: string): Issue {
     .replace(/^warpDirections/, 'warpAzimuthsDeg')
     .replace(/^hysteresis/, 'gapThreshold')
     .replace(/^axis/, 'law');
-  const message = i.message
-    .replace(/warp directions? ⊥ b \(e\.g\. u and −u\)/g, 'warp azimuths (e.g. [0, 180] or [0, 120, 240])')
-    .replace(/equal warp directions/g, 'equal warp azimuths')
-    .replace(/warp direction (\d+)/g, 'warp azimuth $1')
-    .replace(/hysteresis δ/g, 'jump threshold δ (gapThreshold)');
-  return { ...i, path: `${path}.${field}`, message };
+  return { ...i, path: `${path}.${field}`, message: renameText(i.message) };
 }
 
 export const pointingSynergistic: LawDefinition<'pointing-synergistic'> = {
@@ -83,10 +87,11 @@ export const pointingSynergistic: LawDefinition<'pointing-synergistic'> = {
   toFile: (p) => ({ warpGain: p.warpGain, warpAzimuthsDeg: p.warpAzimuthsRad.map((a) => a * DEG_PER_RAD), gapThreshold: p.gapThreshold }),
   build(c, design, path) {
     const fam = pointingFamilyOf(c);
-    const cert = certifySphereFamily({ family: fam, delta: c.gapThreshold }, { path });
-    const warnings = cert.warnings.map((i) => renameFields(i, path));
+    const raw = certifySphereFamily({ family: fam, delta: c.gapThreshold }, { path });
+    const warnings = raw.warnings.map((i) => renameFields(i, path));
+    const issues = raw.issues.map((i) => renameFields(i, path));
+    const cert = { ...raw, issues, warnings: [...warnings], summary: renameText(raw.summary) };
     if (!cert.admissible) {
-      const issues = cert.issues.map((i) => renameFields(i, path));
       if (c.requireCertificate !== false) return fail(issues, warnings);
       warnings.push(...issues.map((i) => ({ ...i, message: `${i.message} (built anyway: requireCertificate is false)` })));
     }
