@@ -163,7 +163,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
       attitudeNoiseScale: scale ? [scale[0]!, scale[1]!] : [1, 1],
       rateBiasSigmaRadPerS: (d.sensors?.rateBiasDegPerS ?? 0) * RAD_PER_DEG,
       adversarialEta: d.sensors?.adversarialEta ?? 0,
-      antipodalNoiseRad: (d.sensors?.antipodalNoiseDeg ?? 0) * RAD_PER_DEG,
+      ...((d.sensors?.antipodalNoiseDeg ?? 0) > 0 ? { antipodalNoiseRad: d.sensors!.antipodalNoiseDeg! * RAD_PER_DEG } : {}),
     },
     controlRateHz: d.controlRateHz ? [...d.controlRateHz] : null,
     actuation: d.actuation ? [...d.actuation] : null,
