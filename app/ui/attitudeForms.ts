@@ -7,6 +7,7 @@
 import type { Issue } from '../engine/errors';
 import { qConjMultiply, qCreate, qRotate, qToAxisAngle, qToEuler, type EulerSequence, type Quat } from '../engine/math/rotation';
 import { resolveAttitude } from '../engine/scenario/attitude';
+import { resolveTargetAttitude } from '../engine/scenario/pointingOnly';
 import { AttitudeSchema, type AttitudeForm } from '../engine/scenario/schema';
 import { DEG_PER_RAD } from '../engine/units';
 
@@ -38,7 +39,10 @@ export function resolveAttitudeChain(scenario: unknown): (Quat | null)[] {
   let prev = init;
   const targets = Array.isArray(s.targets) ? (s.targets as Obj[]) : [];
   targets.forEach((t, i) => {
-    prev = resolveOne(t?.attitude, prev, `targets[${i}].attitude`, false);
+    // a roll-free target is the reduced target from the previous attitude (scenario/pointingOnly.ts)
+    const spec = AttitudeSchema.safeParse(t?.attitude);
+    const q = qCreate();
+    prev = spec.success && resolveTargetAttitude(q, spec.data, t?.rollFree === true, prev, i, errors, warnings) !== false ? q : null;
     out.push(prev);
   });
   return out;

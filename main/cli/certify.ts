@@ -1,5 +1,7 @@
 /**
- * `slewsmith certify`: the synergy-gap certificate of each selected synergistic controller.
+ * `slewsmith certify`: the synergy-gap certificate of each selected synergistic controller, on
+ * SO(3) (the full-attitude family) or on the sphere S² (the pointing family,
+ * control/sphere/certificate.ts); the S² gap is printed rounded DOWN (shownGap.ts).
  *
  * Exit status by what failed, never by the wording of a message:
  * - 2, invalid input: the scenario does not validate, the vehicle cannot be built, a controller's
@@ -13,18 +15,41 @@ import { loadScenario } from '../../app/engine/scenario/resolve';
 import { buildVehicle } from '../../app/engine/pipeline/build';
 import { buildController } from '../../app/engine/control/registry';
 import type { CertificateResult } from '../../app/engine/control/certificate';
+import type { SphereCertificateResult } from '../../app/engine/control/sphere/certificate';
+import { gapShownDown } from '../../app/engine/control/sphere/shownGap';
+import { DEG_PER_RAD } from '../../app/engine/units';
 import type { Issue } from '../../app/engine/errors';
 import { fmtBelow } from '../../app/engine/control/certificateCritical';
 import type { ParsedArgs } from './args';
 import { printIssues, type CliContext } from './io';
 
-interface Certified {
-  id: string;
-  label: string;
-  certificate: CertificateResult;
+type Certified =
+  | { id: string; label: string; space: 'SO(3)'; certificate: CertificateResult }
+  | { id: string; label: string; space: 'S2'; certificate: SphereCertificateResult };
+
+/** The S² certificate: δ* (rounded down, with its bound) and every undesired critical point of every member. */
+function printSphere(c: Certified & { space: 'S2' }, json: boolean, ctx: CliContext): void {
+  const { io } = ctx;
+  const k = c.certificate;
+  if (json) {
+    io.out(JSON.stringify({ controller: c.id, space: 'S2', ...k }, null, 2));
+    return;
+  }
+  io.out(`${c.label} [${c.id}] (pointing family on the sphere S²): ${k.summary}`);
+  io.out(
+    `  δ* ≥ ${gapShownDown(k.deltaStar, k.deltaStarTolerance, 6)} (δ* = ${k.deltaStar} ± ${k.deltaStarTolerance.toExponential(1)}, shown rounded down), δ = ${k.delta}, margin ${k.margin.toFixed(6)}, recommended δ ≈ ${gapShownDown(k.recommendedDelta, 0, 4)}`,
+  );
+  io.out(`  diffeomorphism margin min(1 + k uᵀ(b × y)) = ${k.diffeomorphismMargin.toFixed(6)}`);
+  io.out('  undesired critical points (member p, warp angle θ*, pointing error, V at the point, gap μ, jump to):');
+  for (const cp of k.criticalPoints.filter((p) => p.kind === 'undesired'))
+    io.out(
+      `    p=${cp.member}  θ*=${cp.warpAngle.toFixed(6)}  φ=${(cp.pointingAngleRad * DEG_PER_RAD).toFixed(4)}°  V=(${cp.potentials.map((v) => v.toFixed(6)).join(', ')})  μ=${cp.gap.toFixed(6)}  → ${cp.jumpTo}`,
+    );
+  for (const w of k.warnings) io.err(`warning: ${w.message}`);
 }
 
 function print(c: Certified, json: boolean, ctx: CliContext): void {
+  if (c.space === 'S2') return printSphere(c, json, ctx);
   const { io } = ctx;
   const k = c.certificate;
   if (json) {
@@ -72,11 +97,13 @@ export async function runCertify(file: string, json: unknown, a: ParsedArgs, ctx
     if (only && !only.includes(c.id)) return;
     const built = buildController({ ...c, requireCertificate: false }, vehicle.value.design, `controllers[${i}]`);
     if (!built.ok) errors.push(...built.errors);
-    else if (built.value.certificate) certified.push({ id: c.id, label: c.label, certificate: built.value.certificate });
+    else if (built.value.certificate) certified.push({ id: c.id, label: c.label, space: 'SO(3)', certificate: built.value.certificate });
+    else if (built.value.sphereCertificate)
+      certified.push({ id: c.id, label: c.label, space: 'S2', certificate: built.value.sphereCertificate });
   });
   if (errors.length) return invalid(errors);
   if (certified.length === 0) {
-    io.err('error: no synergistic controller in the selection: nothing to certify');
+    io.err('error: no synergistic controller (synergistic or pointing-synergistic) in the selection: nothing to certify');
     return 2;
   }
   let status = 0;

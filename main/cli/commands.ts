@@ -3,9 +3,9 @@
  * there). check and plan live here; the others have their own modules and are re-exported.
  */
 import { preparePipeline } from '../../app/engine/pipeline/run';
-import { planSummary } from '../../app/engine/pipeline/plan';
 import { planSummaryWithConstraints } from '../../app/engine/pipeline/constraints';
 import { withConstraintStatus } from './constraintStatus';
+import { planSummaryWithSavings } from '../../app/engine/pipeline/rollFreePlan';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { ParsedArgs } from './args';
 import { planTable } from './format';
@@ -40,7 +40,7 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     return 2;
   }
   const plan = planSummaryWithConstraints(
-    planSummary(p.value.plan, p.value.scenario.targets),
+    planSummaryWithSavings(p.value),
     p.value.planConstraints,
     p.value.plan,
     p.value.constrainedSegments,

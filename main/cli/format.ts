@@ -28,7 +28,9 @@ export function planTable(plan: PlanSummary): string {
     ['segment', 'feasible', 'angle deg', 'slew s', 'hold s', 'start s', 'binding', 'peak deg/s', 'torque', 'momentum'],
     rows,
   );
-  const notes = plan.segments.map((s) => `  ${s.index + 1}. ${s.feasible ? '' : 'INFEASIBLE: '}${s.reason}`).join('\n');
+  const notes = plan.segments
+    .map((s) => `  ${s.index + 1}. ${s.feasible ? '' : 'INFEASIBLE: '}${s.reason}${s.rollFree ? `\n     ${s.rollFree.summary}` : ''}`)
+    .join('\n');
   const violated = plan.constraints?.clear === false;
   const verdict = plan.feasible
     ? `Plan feasible: total ${plan.totalTimeS.toFixed(2)} s (slews plus holds).`

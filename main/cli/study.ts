@@ -143,7 +143,9 @@ function describeStudy(info: StudyInfo, s: StudySummary): string {
         ? 'start uniform over SO(3)'
         : a.mode === 'cone'
           ? `start within ${(a.maxAngleRad * DEG_PER_RAD).toFixed(1)}° of nominal`
-          : `start within ${(a.withinRad * DEG_PER_RAD).toFixed(1)}° of a 180° error, both hemispheres`,
+          : a.mode === 'near-antipode'
+            ? `pointed axis within ${(a.withinRad * DEG_PER_RAD).toFixed(1)}° of the antipode of its direction, uniform roll`
+            : `start within ${(a.withinRad * DEG_PER_RAD).toFixed(1)}° of a 180° error, both hemispheres`,
   );
   if (d.rateSigmaRadPerS > 0) parts.push(`rate 1σ ${(d.rateSigmaRadPerS * DEG_PER_RAD).toPrecision(3)}°/s`);
   if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0)
@@ -159,6 +161,8 @@ function describeStudy(info: StudyInfo, s: StudySummary): string {
   if (d.sensors.rateBiasSigmaRadPerS > 0)
     parts.push(`extra rate bias 1σ ${(d.sensors.rateBiasSigmaRadPerS * DEG_PER_RAD).toPrecision(3)}°/s`);
   if (d.sensors.adversarialEta > 0) parts.push(`worst-case noise ē = ${d.sensors.adversarialEta}`);
+  if ((d.sensors.antipodalNoiseRad ?? 0) > 0)
+    parts.push(`worst-case pointing noise ${(d.sensors.antipodalNoiseRad! * DEG_PER_RAD).toPrecision(3)}° near the antipode`);
   if (d.controlRateHz) parts.push(`rate from {${d.controlRateHz.join(', ')}} Hz`);
   if (d.actuation) parts.push(`actuation from {${d.actuation.join(', ')}}`);
   const head = `Robustness study of "${info.scenarioName}": ${s.casesDone} of ${s.runsRequested} cases, seed ${s.seed}, ${s.mode} mode, ${s.durationS} s per case`;

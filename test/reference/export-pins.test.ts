@@ -18,7 +18,7 @@ import { exportRun, EXPORT_FORMATS } from '../../app/engine/export/runExport';
 
 const root = path.resolve(__dirname, '../..');
 const PIN_FILE = path.join(root, 'test/golden/export-pins.json');
-const EXAMPLES = ['lumen6-imaging', 'tern12-reversal', 'kestrel60-momentum'];
+const EXAMPLES = ['lumen6-imaging', 'tern12-reversal', 'kestrel60-momentum', 'petrel16-pointing'];
 const SAMPLES = 101;
 
 interface RunPin {

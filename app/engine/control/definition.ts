@@ -33,8 +33,8 @@ export interface LawField {
   label: string;
   /** Unit as shown ("—" for dimensionless). */
   unit: string;
-  /** number; vector3; or a list of unit vectors the user may leave out (default given in `help`). */
-  kind: 'number' | 'vector3' | 'optional-axes' | 'optional-directions';
+  /** number; vector3; a list of numbers (2 to 12); or a list of unit vectors the user may leave out (default given in `help`). */
+  kind: 'number' | 'vector3' | 'number-list' | 'optional-axes' | 'optional-directions';
   step?: number;
   /** One sentence: what it does and the rule it must keep. */
   help: string;
@@ -53,6 +53,10 @@ export interface LawDefinition<L extends LawId> {
   readonly logicKind: LogicKind;
   /** True when the law acts on the quaternion and so picks one of ±q (unwinding is about that choice). */
   readonly liftDependent: boolean;
+  /** True for a law that controls one body axis and leaves the roll free: it flies only pointing-only targets. */
+  readonly pointingOnly?: boolean;
+  /** The certificate its build computes, when it has one: on SO(3) or on the sphere S². */
+  readonly certificate?: 'SO(3)' | 'S2';
   readonly gains: { stiffness: GainMeaning; damping: GainMeaning };
   readonly fields: readonly LawField[];
   /** The law's own fields for a new controller of this law (display units). */

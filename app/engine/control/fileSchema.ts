@@ -8,6 +8,8 @@ import { HystereticFileSchema } from './laws/hysteretic/schema';
 import { QuaternionPdFileSchema } from './laws/quaternion-pd/schema';
 import { SignSwitchFileSchema } from './laws/sign-switch/schema';
 import { SynergisticFileSchema } from './laws/synergistic/schema';
+import { PointingPdFileSchema } from './laws/pointing-pd/schema';
+import { PointingSynergisticFileSchema } from './laws/pointing-synergistic/schema';
 import type { LawId } from './params';
 
 export const ControllerFileSchema = z.discriminatedUnion('law', [
@@ -16,6 +18,8 @@ export const ControllerFileSchema = z.discriminatedUnion('law', [
   EigenaxisFileSchema,
   HystereticFileSchema,
   SynergisticFileSchema,
+  PointingPdFileSchema,
+  PointingSynergisticFileSchema,
 ]);
 
 export type ControllerFileEntry = z.infer<typeof ControllerFileSchema>;

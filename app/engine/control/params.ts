@@ -40,6 +40,20 @@ export type LawParams =
       warpDirections: Vec3[];
       /** Jump threshold δ on the synergy gap μ = V_q − min_p V_p (potential units): jump when μ ≥ δ. */
       gapThreshold: number;
+    }
+  | {
+      /** Smooth pointing-only PD on the sphere (control/sphere/laws.ts ReducedPd). */
+      law: 'pointing-pd';
+    }
+  | {
+      /** Synergistic pointing-only law on the sphere (control/sphere/laws.ts ReducedSynergistic). */
+      law: 'pointing-synergistic';
+      /** Warp gain k in θ(y) = k·V(y), rad per unit of V = 1 − cos φ (the warp is a diffeomorphism of S² for k < 1). */
+      warpGain: number;
+      /** Warp directions ⊥ the pointed axis, as azimuths about it, rad (one member each; only their differences matter). */
+      warpAzimuthsRad: number[];
+      /** Jump threshold δ on the synergy gap μ = V_q − min_p V_p (units of V): jump when μ ≥ δ. */
+      gapThreshold: number;
     };
 
 export type LawId = LawParams['law'];

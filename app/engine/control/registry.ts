@@ -10,6 +10,8 @@ import { hysteretic } from './laws/hysteretic/definition';
 import { quaternionPd } from './laws/quaternion-pd/definition';
 import { signSwitch } from './laws/sign-switch/definition';
 import { synergistic } from './laws/synergistic/definition';
+import { pointingPd } from './laws/pointing-pd/definition';
+import { pointingSynergistic } from './laws/pointing-synergistic/definition';
 import type { ControllerCommon, ControllerParams, LawId } from './params';
 import type { AttitudeController, DesignModel } from './types';
 
@@ -21,10 +23,20 @@ export const LAWS: Registry = {
   eigenaxis,
   hysteretic,
   synergistic,
+  'pointing-pd': pointingPd,
+  'pointing-synergistic': pointingSynergistic,
 };
 
 /** Law ids in the order the UI offers them. */
-export const LAW_IDS: readonly LawId[] = ['quaternion-pd', 'sign-switch', 'eigenaxis', 'hysteretic', 'synergistic'];
+export const LAW_IDS: readonly LawId[] = [
+  'quaternion-pd',
+  'sign-switch',
+  'eigenaxis',
+  'hysteretic',
+  'synergistic',
+  'pointing-pd',
+  'pointing-synergistic',
+];
 
 export function lawDefinition<L extends LawId>(law: L): LawDefinition<L> {
   return LAWS[law];

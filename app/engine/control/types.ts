@@ -22,6 +22,7 @@
 import type { Mat3, Vec3 } from '../math/mat3';
 import type { Quat } from '../math/rotation';
 import type { CertificateResult } from './certificate';
+import type { SphereCertificateResult } from './sphere/certificate';
 
 import type { LawId } from './params';
 
@@ -62,6 +63,11 @@ export interface ControlInput {
   omegaRef: Vec3;
   /** Reference body acceleration, reference axes, rad/s². */
   omegaDotRef: Vec3;
+  /**
+   * The body axis the active target points (unit, body axes) when that target is pointing-only
+   * (roll free); absent or zero for a full-attitude target. Pointing laws take their axis from it.
+   */
+  pointingAxis?: Vec3;
 }
 
 export interface ControlDiagnostics {
@@ -89,6 +95,8 @@ export interface AttitudeController {
   readonly jumpDecrease: number;
   /** The synergistic law's certificate (null for other laws). */
   readonly certificate: CertificateResult | null;
+  /** The synergistic pointing law's S² certificate (absent or null for other laws). */
+  readonly sphereCertificate?: SphereCertificateResult | null;
   initialLogic(input: ControlInput): number;
   /** Re-latch per-segment data at a segment start (laws without such data omit it). */
   beginSegment?(input: ControlInput): void;

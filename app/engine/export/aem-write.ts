@@ -38,6 +38,7 @@ import { aemSettings, type AemOptions, type AemSettings } from './aem-options';
 export type { AemOptions } from './aem-options';
 import { checkExportInputs } from './prepare';
 import { exportSegments } from './segments';
+import { pointingNote } from './pointingNote';
 import type { ExportMeta, ExportSegment } from './types';
 import { DEG_PER_RAD } from '../units';
 import { constraintComments } from './constraintColumns';
@@ -283,6 +284,8 @@ function segmentMeta(out: string[], blk: AemBlock, b: number, count: number, o: 
   const orbit = d.scenario.orbit;
   const w = orbit?.windows.find((x) => x.target === blk.seg.index);
   if (orbit && w) out.push(`COMMENT ${commentText(windowText(orbit, w))}`);
+  const note = pointingNote(d.scenario, blk.seg.index);
+  if (note) out.push(`COMMENT ${commentText(note)}`);
   kv('OBJECT_NAME', st.objectName);
   kv('OBJECT_ID', text.objectId as string);
   if (text.centerName !== null) kv('CENTER_NAME', text.centerName);

@@ -140,6 +140,7 @@ export function jsonChunks(trace: RunTrace, scenario: ScenarioSummary, meta: Exp
         form: t.form,
         qInertialFromBody: Array.from(t.q),
         holdS: t.holdS,
+        ...(t.pointingOnly ? { pointingOnly: t.pointingOnly } : {}),
       })),
     },
     segments: segs.value,

@@ -11,11 +11,15 @@
  * - wheel peaks, saturation and control effort (wheels.ts);
  * - jumps: logic jumps of a hybrid law;
  * - final error: the angle to the last segment's target at the end of the run.
+ * On pointing-only segments (segmentAxes) every error angle is the POINTING error of the axis,
+ * ∠(R(q)b, R(q_ref)b) against the reference and ∠(R(q)b, r) against the target (segments.ts), for
+ * every law: only the axis is required there (a pointing law's own error-angle channel is that
+ * angle already; a full-attitude law's channel keeps its full error, which these metrics do not use).
  * Computed from the stored trace only.
  */
 import type { JumpEvent, RunTrace } from '../sim/types';
 import { CHATTER_FLOOR_FRACTION, chatterOf } from './chatter';
-import { segmentMetrics, type SegmentMetrics } from './segments';
+import { pointingErrorBetween, segmentAxis, segmentMetrics, type SegmentMetrics } from './segments';
 import { wheelUse, type WheelPeak, type WheelSaturation } from './wheels';
 
 export type { SegmentMetrics } from './segments';
@@ -39,6 +43,8 @@ export interface MetricOptions {
   liftDependent?: boolean;
   /** Orbit plans: measure segments against the moving reference (segments.ts movingTargets). */
   movingTargets?: boolean;
+  /** Pointed body axis per segment index, 3 each (zeros: full attitude); absent: every segment is a full attitude. */
+  segmentAxes?: Float64Array;
 }
 
 export interface RunMetrics {
@@ -66,19 +72,28 @@ export interface RunMetrics {
   segments: SegmentMetrics[];
 }
 
-function trackingError(tr: RunTrace): { peak: number; rms: number } {
+const axisScratch = new Float64Array(3);
+
+/** The error angle at sample k: the law's, or on a pointing-only segment the pointing error to the reference. */
+function errorAt(tr: RunTrace, k: number, axes: Float64Array | undefined): number {
+  const b = axes ? segmentAxis(axisScratch, axes, tr.segment[k]!) : null;
+  return b ? pointingErrorBetween(tr.q, 4 * k, tr.qRef, 4 * k, b) : tr.errorAngle[k]!;
+}
+
+function trackingError(tr: RunTrace, axes: Float64Array | undefined): { peak: number; rms: number } {
   let peak = 0,
     sum = 0,
-    span = 0;
+    span = 0,
+    p = 0;
   for (let k = 0; k < tr.n; k++) {
-    const e = tr.errorAngle[k]!;
+    const e = errorAt(tr, k, axes);
     if (e > peak) peak = e;
     if (k > 0) {
       const dt = tr.t[k]! - tr.t[k - 1]!;
-      const p = tr.errorAngle[k - 1]!;
       sum += 0.5 * (p * p + e * e) * dt;
       span += dt;
     }
+    p = e;
   }
   return { peak, rms: span > 0 ? Math.sqrt(sum / span) : peak };
 }
@@ -97,6 +112,7 @@ export function computeMetrics(tr: RunTrace, jumps: readonly JumpEvent[], o: Met
     boundedNoiseEta: o.boundedNoiseEta ?? 0,
     liftDependent: o.liftDependent ?? true,
     movingTargets: o.movingTargets ?? false,
+    ...(o.segmentAxes ? { segmentAxes: o.segmentAxes } : {}),
   });
   const settled = segments.length > 0 && segments.every((s) => s.settleTimeS !== null);
   const chatter = chatterOf(tr, {
@@ -105,7 +121,7 @@ export function computeMetrics(tr: RunTrace, jumps: readonly JumpEvent[], o: Met
     plannedSwitchTimes: o.plannedSwitchTimes ?? [],
   });
   const wheels = wheelUse(tr, o.maxTorqueNm, o.maxMomentumNms);
-  const tracking = trackingError(tr);
+  const tracking = trackingError(tr, o.segmentAxes);
   const last = segments[segments.length - 1];
   const n = tr.n;
   const w = tr.omega;

@@ -22,8 +22,15 @@
  *   the quaternion must pick one of ±q (its lift): for it "clearly shorter" is UNWIND_MIN_EXTRA_RAD,
  *   the classic unwinding. A law defined on SO(3) cannot pick a lift; its long way counts as
  *   unwinding only when it adds at least DETOUR_MIN_EXTRA_RAD, a real detour.
+ * - Pointing-only segments (a roll-free target with pointed body axis b; scenario/pointingOnly.ts):
+ *   only the axis is required, so every error above is the POINTING error ∠(R(q)b, R(q_target)b),
+ *   for every law; the shortest is that angle at the segment's start. With the roll free there is
+ *   no lift: the long way is measured on the axis' own path, L = Σ |ω × b| Δt (trapezoidal; the
+ *   arc the axis sweeps, |d(Rb)/dt| = |ω × b|): long way when L ≥ 2π − θ₀ (as far as going round
+ *   the other way), unwound when that other way is also a real detour (2π − 2θ₀ ≥
+ *   DETOUR_MIN_EXTRA_RAD; common practice, no source).
  */
-import { qAngleBetween } from '../math/rotation';
+import { qAngleBetween, qRotate } from '../math/rotation';
 import type { RunTrace } from '../sim/types';
 import { RAD_PER_DEG } from '../units';
 
@@ -68,10 +75,45 @@ export interface SegmentOptions {
    * tracking starts).
    */
   movingTargets?: boolean;
+  /** Pointed body axis per segment index, 3 each (zeros for a full-attitude segment); absent: none. */
+  segmentAxes?: Float64Array;
 }
 
 const qa = new Float64Array(4);
 const qt = new Float64Array(4);
+const axisScratch = new Float64Array(3);
+const xa = new Float64Array(3);
+const xb = new Float64Array(3);
+
+/** Segment s's pointed axis into `out`, or null for a full-attitude segment. */
+export function segmentAxis(out: Float64Array, axes: Float64Array | undefined, s: number): Float64Array | null {
+  if (!axes || 3 * s + 2 >= axes.length || s < 0) return null;
+  out[0] = axes[3 * s]!;
+  out[1] = axes[3 * s + 1]!;
+  out[2] = axes[3 * s + 2]!;
+  return out[0] !== 0 || out[1] !== 0 || out[2] !== 0 ? out : null;
+}
+
+/** ∠(R(qa)b, R(qb)b) for quaternions at offsets ia, ib of a and c (atan2 form, accurate at 0 and π). */
+export function pointingErrorBetween(a: ArrayLike<number>, ia: number, c: ArrayLike<number>, ic: number, b: Float64Array): number {
+  for (let i = 0; i < 4; i++) qa[i] = a[ia + i]!;
+  qRotate(xa, qa, b);
+  for (let i = 0; i < 4; i++) qa[i] = c[ic + i]!;
+  qRotate(xb, qa, b);
+  const cx = xa[1]! * xb[2]! - xa[2]! * xb[1]!,
+    cy = xa[2]! * xb[0]! - xa[0]! * xb[2]!,
+    cz = xa[0]! * xb[1]! - xa[1]! * xb[0]!;
+  return Math.atan2(Math.hypot(cx, cy, cz), xa[0]! * xb[0]! + xa[1]! * xb[1]! + xa[2]! * xb[2]!);
+}
+
+/** |ω_k × b|: the rate at which the pointed axis moves, rad/s. */
+function axisRate(tr: RunTrace, k: number, b: Float64Array): number {
+  const w = tr.omega;
+  const x = w[3 * k]!,
+    y = w[3 * k + 1]!,
+    z = w[3 * k + 2]!;
+  return Math.hypot(y * b[2]! - z * b[1]!, z * b[0]! - x * b[2]!, x * b[1]! - y * b[0]!);
+}
 
 /** Scalar part of q_target* ⊗ q_k (Hamilton, [x, y, z, w]). */
 function etaAt(tr: RunTrace, k: number, target: Float64Array): number {
@@ -84,7 +126,8 @@ function loadTarget(o: SegmentOptions, s: number): Float64Array {
   return qt;
 }
 
-function errorToTarget(tr: RunTrace, k: number, target: Float64Array): number {
+function errorToTarget(tr: RunTrace, k: number, target: Float64Array, b: Float64Array | null): number {
+  if (b) return pointingErrorBetween(tr.q, 4 * k, target, 0, b);
   for (let i = 0; i < 4; i++) qa[i] = tr.q[4 * k + i]!;
   return qAngleBetween(qa, target);
 }
@@ -115,7 +158,7 @@ function measureMovingSegment(tr: RunTrace, a: number, b: number, o: SegmentOpti
   const s = tr.segment[a]!;
   let lastBad = -1;
   for (let k = b; k >= a; k--)
-    if (!(errorToTarget(tr, k, refAt(tr, k)) < o.settleAngleRad && rateErrorNorm(tr, k) < o.settleRateRadPerS)) {
+    if (!(errorToTarget(tr, k, refAt(tr, k), null) < o.settleAngleRad && rateErrorNorm(tr, k) < o.settleRateRadPerS)) {
       lastBad = k;
       break;
     }
@@ -124,8 +167,8 @@ function measureMovingSegment(tr: RunTrace, a: number, b: number, o: SegmentOpti
   const travelled = travelledFrom(tr, a, b);
   const eta0 = etaAt(tr, a, refAt(tr, a));
   const etaEnd = etaAt(tr, b, refAt(tr, b));
-  const finalErrorRad = errorToTarget(tr, b, refAt(tr, b));
-  const shortest = errorToTarget(tr, a, loadTarget(o, s));
+  const finalErrorRad = errorToTarget(tr, b, refAt(tr, b), null);
+  const shortest = errorToTarget(tr, a, loadTarget(o, s), null);
   const longWay = Math.abs(etaEnd) >= LIFT_DECIDED_ETA && etaEnd * eta0 < 0;
   return {
     segment: s,
@@ -161,26 +204,50 @@ function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): 
   if (o.movingTargets) return measureMovingSegment(tr, a, b, o);
   const s = tr.segment[a]!;
   const target = loadTarget(o, s);
+  const axis = segmentAxis(axisScratch, o.segmentAxes, s);
   let lastBad = -1;
   for (let k = b; k >= a; k--)
-    if (!(errorToTarget(tr, k, target) < o.settleAngleRad && rateNorm(tr, k) < o.settleRateRadPerS)) {
+    if (!(errorToTarget(tr, k, target, axis) < o.settleAngleRad && rateNorm(tr, k) < o.settleRateRadPerS)) {
       lastBad = k;
       break;
     }
   const t = tr.t;
   const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
   const travelled = travelledFrom(tr, a, b);
+  const shortest = errorToTarget(tr, a, target, axis);
+  const extra = 2 * Math.PI - 2 * shortest;
+  const finalErrorRad = errorToTarget(tr, b, target, axis);
+  if (axis) {
+    let path = 0;
+    let vPrev = axisRate(tr, a, axis);
+    for (let k = a + 1; k <= b; k++) {
+      const vk = axisRate(tr, k, axis);
+      path += 0.5 * (vPrev + vk) * (t[k]! - t[k - 1]!);
+      vPrev = vk;
+    }
+    const longWay = path >= 2 * Math.PI - shortest;
+    const unwound = longWay && extra >= DETOUR_MIN_EXTRA_RAD;
+    return {
+      segment: s,
+      tStart: t[a]!,
+      tEnd: t[b]!,
+      settleTimeS,
+      finalErrorRad,
+      shortestRad: shortest,
+      travelledRad: travelled,
+      longWay,
+      unwound,
+    };
+  }
   const eta0 = etaAt(tr, a, target);
   const etaEnd = etaAt(tr, b, target);
-  const shortest = errorToTarget(tr, a, target);
   const longWay = Math.abs(etaEnd) >= LIFT_DECIDED_ETA && etaEnd * eta0 < 0;
-  const extra = 2 * Math.PI - 2 * shortest;
   return {
     segment: s,
     tStart: t[a]!,
     tEnd: t[b]!,
     settleTimeS,
-    finalErrorRad: errorToTarget(tr, b, target),
+    finalErrorRad,
     shortestRad: shortest,
     travelledRad: travelled,
     longWay,

@@ -21,6 +21,9 @@ export interface ComparisonColumn {
 }
 
 const METRICS_SRC = 'app/engine/metrics (definitions stated in the code; common practice, no single source)';
+/** Appended to every error-angle column: what the angle is on a pointing-only (roll-free) segment. */
+const POINTING_ANGLE =
+  ' On a pointing-only (roll-free) segment the angle is the POINTING error of the body axis b, ∠(R(q)b, R(q_ref)b), for every law: the roll about b is not an error there.';
 
 export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
   {
@@ -37,7 +40,8 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     label: 'Settle time',
     unit: 's',
     definition:
-      "Longest over the segments of: the time from the segment's first sample (its slew start; a segment runs to the next slew start) to the first sample from which, through the segment's last sample, the angle to the segment's TARGET and the body rate magnitude are both below the scenario's settle thresholds.",
+      "Longest over the segments of: the time from the segment's first sample (its slew start; a segment runs to the next slew start) to the first sample from which, through the segment's last sample, the angle to the segment's TARGET and the body rate magnitude are both below the scenario's settle thresholds." +
+      POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -46,7 +50,8 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     label: 'Tracking error, peak',
     unit: 'deg',
     definition:
-      'Largest angle over the samples between the attitude and the reference (the planned profile when following the plan, the target when stepping to it).',
+      'Largest angle over the samples between the attitude and the reference (the planned profile when following the plan, the target when stepping to it).' +
+      POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -55,7 +60,8 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     label: 'Tracking error, RMS',
     unit: 'deg',
     definition:
-      'Time-weighted root mean square over the run of the angle θ between the attitude and the reference: √(∫θ² dt / run length), trapezoidal over the samples.',
+      'Time-weighted root mean square over the run of the angle θ between the attitude and the reference: √(∫θ² dt / run length), trapezoidal over the samples.' +
+      POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },
@@ -72,7 +78,7 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     key: 'shortestRotationDeg',
     label: 'Shortest rotation',
     unit: 'deg',
-    definition: "Sum over segments of the rotation angle from the attitude at the segment's first sample to its target.",
+    definition: "Sum over segments of the rotation angle from the attitude at the segment's first sample to its target." + POINTING_ANGLE,
     source: METRICS_SRC,
     marked: false,
   },
@@ -131,7 +137,7 @@ export const COMPARISON_COLUMNS: readonly ComparisonColumn[] = [
     key: 'finalErrorDeg',
     label: 'Final error',
     unit: 'deg',
-    definition: "Angle from the attitude at the run's last sample to the last segment's target.",
+    definition: "Angle from the attitude at the run's last sample to the last segment's target." + POINTING_ANGLE,
     source: METRICS_SRC,
     marked: true,
   },

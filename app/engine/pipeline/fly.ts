@@ -12,6 +12,7 @@ import type { SensorModel } from '../sim/sensors';
 import type { Actuation, RunMode } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
 import { SettleWatch } from '../metrics/settle';
+import { pointingAxesOf } from './pointing';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
@@ -67,10 +68,16 @@ export function flightEndS(s: ResolvedScenario, plan: SequencePlan): number {
   return s.simulation.durationS ?? Math.max(plan.totalS, 1) + s.simulation.tailS;
 }
 
-/** The scenario's reference for a mode: the planned profile, or each target at once. */
-export function referenceFor(mode: RunMode, plan: SequencePlan, targets: Float64Array, qInitial: ArrayLike<number>): ReferenceSource {
+/** The scenario's reference for a mode: the planned profile, or each target at once (with each pointing-only target's axis). */
+export function referenceFor(
+  mode: RunMode,
+  plan: SequencePlan,
+  targets: Float64Array,
+  qInitial: ArrayLike<number>,
+  pointingAxes?: Float64Array,
+): ReferenceSource {
   if (plan.tracking) return trackingReference(plan.tracking, mode);
-  return mode === 'follow-plan' ? followPlanReference(plan) : stepTargetReference(plan, targets, qInitial);
+  return mode === 'follow-plan' ? followPlanReference(plan, pointingAxes) : stepTargetReference(plan, targets, qInitial, pointingAxes);
 }
 
 /** The flight of one controller in one mode of a scenario, as the pipeline flies it. */
@@ -87,7 +94,7 @@ export function scenarioFlight(
     vehicle: v,
     controller: c,
     mode,
-    reference: referenceFor(mode, plan, targets, s.initial.qInertialFromBody),
+    reference: referenceFor(mode, plan, targets, s.initial.qInertialFromBody, pointingAxesOf(s.targets) ?? undefined),
     initial: { q: s.initial.qInertialFromBody, omega: s.initial.omegaBody, hWheel: s.initial.hWheelNms },
     tEnd: flightEndS(s, plan),
     timing: s.simulation.timing,
@@ -98,6 +105,7 @@ export function scenarioFlight(
       rateSigmaRadPerS: s.vehicle.sensors.rateNoiseRadPerS,
       rateBiasRadPerS: s.vehicle.sensors.rateBiasRadPerS,
       adversarialEta: s.vehicle.sensors.boundedNoiseEta,
+      antipodalNoiseRad: s.vehicle.sensors.antipodalNoiseRad ?? 0,
     },
     seed: s.simulation.seed,
     actuation: s.vehicle.actuation,

@@ -16,7 +16,7 @@ import { validateScenario } from '../scenario/validate';
 import type { RunMode } from '../sim/types';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
-import { planLimits, planManeuver, planSummary } from './plan';
+import { planLimits, planManeuver } from './plan';
 import { planAroundConstraints, type ConstrainedSegment } from './constrainedPlan';
 import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
@@ -33,6 +33,8 @@ import {
   type ConstraintReport,
   type ScenarioConstraints,
 } from './constraints';
+import { planSummaryWithSavings } from './rollFreePlan';
+import { pointingLawIssues } from './pointing';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -90,11 +92,11 @@ export function prepareResolved(s: ResolvedScenario, file: Scenario | null, only
     orbit = st.value;
   }
   const plan = planManeuver(s, v, orbit);
-  const errors: Issue[] = [];
+  const errors: Issue[] = pointingLawIssues(s.controllers, s.targets, only);
   if (!ctrls.ok) errors.push(...ctrls.errors);
   warnings.push(...ctrls.warnings);
   if (!plan.ok) errors.push(...plan.errors);
-  if (!ctrls.ok || !plan.ok) return fail(errors, warnings);
+  if (!ctrls.ok || !plan.ok || errors.length) return fail(errors, warnings);
   const ephemeris = orbit?.ephemeris ?? null;
   let sc = scenarioConstraints(s, plan.value, ephemeris);
   if (!sc.ok) return fail(sc.errors, warnings);
@@ -193,7 +195,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     {
       scenario: summary,
       vehicle: vehicleSummary(p.vehicle),
-      plan: planSummaryWithConstraints(planSummary(p.plan, s.targets), p.planConstraints, p.plan, p.constrainedSegments),
+      plan: planSummaryWithConstraints(planSummaryWithSavings(p), p.planConstraints, p.plan, p.constrainedSegments),
       targets: p.targets,
       initialQ: Float64Array.from(s.initial.qInertialFromBody),
       runs,

@@ -29,6 +29,7 @@ import type {
 } from './types';
 import { certificateSummary } from './types';
 import { metricInputsOf } from './metricInputs';
+import { pointingAxesOf } from './pointing';
 
 /** Chatter is counted over sliding windows of this length (s); metrics/chatter.ts defines the measure. */
 export const CHATTER_WINDOW_S = 10;
@@ -52,6 +53,8 @@ export interface MetricContext {
   sensors: SensorModel;
   /** Orbit plans: segments are measured against the moving reference (metrics/segments.ts). */
   movingTargets?: boolean;
+  /** Pointed body axis per segment, 3 each (zeros: full attitude); absent when no target is pointing-only. */
+  segmentAxes?: Float64Array;
 }
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
@@ -68,6 +71,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     boundedNoiseEta: m.sensors.adversarialEta,
     liftDependent,
     movingTargets: m.movingTargets ?? false,
+    ...(m.segmentAxes ? { segmentAxes: m.segmentAxes } : {}),
   });
 }
 
@@ -113,6 +117,7 @@ export function metricContext(
   mode: RunMode,
   sensors: SensorModel,
 ): MetricContext {
+  const axes = pointingAxesOf(s.targets);
   return {
     settleAngleRad: s.simulation.settleAngleRad,
     settleRateRadPerS: s.simulation.settleRateRadPerS,
@@ -125,6 +130,7 @@ export function metricContext(
     chatterFloorNm: CHATTER_FLOOR_FRACTION * Math.min(...Array.from(v.wheels.maxTorqueNm)),
     sensors,
     movingTargets: !!plan.tracking,
+    ...(axes ? { segmentAxes: axes } : {}),
   };
 }
 
@@ -185,7 +191,13 @@ export function verdictOf(o: RunOutcome, m: RunMetrics): RunVerdict {
 }
 
 export function certificates(cs: readonly BuiltController[]): CertificateSummary[] {
-  return cs.flatMap((c) => (c.controller.certificate ? [certificateSummary(c.id, c.controller.certificate)] : []));
+  return cs.flatMap((c) =>
+    c.controller.certificate
+      ? [certificateSummary(c.id, c.controller.certificate)]
+      : c.controller.sphereCertificate
+        ? [certificateSummary(c.id, c.controller.sphereCertificate, 'S2')]
+        : [],
+  );
 }
 
 function envelopeSummary(z: Zonotope): EnvelopeSummary {
@@ -221,7 +233,20 @@ export function scenarioSummary(s: ResolvedScenario, file: Scenario): ScenarioSu
     inertialFrame: 'EME2000',
     wheelCount: s.vehicle.wheels.length,
     initialQ: Float64Array.from(s.initial.qInertialFromBody),
-    targets: s.targets.map((t) => ({ label: t.label, form: t.form, q: Float64Array.from(t.qInertialFromBody), holdS: t.holdS })),
+    targets: s.targets.map((t) => ({
+      label: t.label,
+      form: t.form,
+      q: Float64Array.from(t.qInertialFromBody),
+      holdS: t.holdS,
+      ...(t.pointingOnly
+        ? {
+            pointingOnly: {
+              bodyAxis: Array.from(t.pointingOnly.bodyAxis),
+              inertialDirection: Array.from(t.pointingOnly.inertialDirection),
+            },
+          }
+        : {}),
+    })),
     settleAngleRad: s.simulation.settleAngleRad,
     settleRateRadPerS: s.simulation.settleRateRadPerS,
     file,

@@ -141,6 +141,29 @@ export interface SegmentSummary {
   reason: string;
   /** Orbit plans: when tracking the target starts (the slew ends on its attitude and rate), s. */
   trackStartS?: number;
+  /** A pointing-only target: what its reduced slew saves against the held-roll slew (rollFreePlan.ts). */
+  rollFree?: RollFreeSaving;
+}
+
+/** A pointing-only segment's reduced slew against the full-attitude slew to the same pointing (same start, same planner). */
+export interface RollFreeSaving {
+  /** Pointed body axis (unit, body) and its direction (unit, inertial). */
+  bodyAxis: [number, number, number];
+  inertialDirection: [number, number, number];
+  /** Reduced slew: angle (= the pointing error at the start), rad; time, s; peak wheel momentum, fraction of the envelope (null: infeasible). */
+  angleRad: number;
+  slewTimeS: number | null;
+  peakMomentumFraction: number | null;
+  /** The same target with its roll held (the form's full attitude). */
+  heldRollAngleRad: number;
+  heldRollFeasible: boolean;
+  heldRollTimeS: number | null;
+  heldRollPeakMomentumFraction: number | null;
+  /** Held-roll minus reduced, signed (null when either is infeasible): s, and fraction of the envelope. */
+  timeSavedS: number | null;
+  peakMomentumFractionSaved: number | null;
+  /** One sentence for tables. */
+  summary: string;
 }
 
 export interface PlanSummary {
@@ -155,8 +178,12 @@ export interface PlanSummary {
 
 export interface CertificateSummary {
   controllerId: string;
+  /** Where the family lives: SO(3) (full attitude) or the sphere S² (pointing-only); absent: SO(3). */
+  space?: 'SO(3)' | 'S2';
   admissible: boolean;
   deltaStar: number;
+  /** Numerical error bound of δ* (absent on older outputs: 0). */
+  deltaStarTolerance?: number;
   delta: number;
   margin: number;
   diffeomorphismMargin: number;
@@ -207,8 +234,15 @@ export interface ScenarioSummary {
   inertialFrame: 'EME2000';
   wheelCount: number;
   initialQ: Float64Array;
-  /** q: the fixed attitude, or for a moving (track) target the attitude at which tracking starts in the plan. */
-  targets: { label: string; form: AttitudeForm | TrackForm; q: Float64Array; holdS: number }[];
+  targets: {
+    label: string;
+    /** q: the fixed attitude, or for a moving (track) target the attitude at which tracking starts in the plan. */
+    form: AttitudeForm | TrackForm;
+    q: Float64Array;
+    holdS: number;
+    /** A pointing-only (roll-free) target: its pointed body axis and inertial direction (unit). */
+    pointingOnly?: { bodyAxis: number[]; inertialDirection: number[] };
+  }[];
   settleAngleRad: number;
   settleRateRadPerS: number;
   /** The validated scenario file in the current format, kept for provenance (the JSON export copies it). */
@@ -239,10 +273,15 @@ export interface PipelineOutput {
   orbit?: OrbitOutput | null;
 }
 
-/** A certificate as a summary row. */
-export function certificateSummary(controllerId: string, k: CertificateResult): CertificateSummary {
+/** A certificate as a summary row (an S² certificate has the same fields). */
+export function certificateSummary(
+  controllerId: string,
+  k: Pick<CertificateResult, 'admissible' | 'deltaStar' | 'deltaStarTolerance' | 'delta' | 'margin' | 'diffeomorphismMargin' | 'summary'>,
+  space: 'SO(3)' | 'S2' = 'SO(3)',
+): CertificateSummary {
   return {
     controllerId,
+    ...(space === 'S2' ? { space, deltaStarTolerance: k.deltaStarTolerance } : {}),
     admissible: k.admissible,
     deltaStar: k.deltaStar,
     delta: k.delta,

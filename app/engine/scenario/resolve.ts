@@ -25,6 +25,7 @@ import { orthogonalTriad, pyramid } from '../wheels/presets';
 import type { Actuation, RunMode } from '../sim/types';
 import { RAD_PER_ARCSEC, RAD_PER_DEG, SI_PER_MILLI } from '../units';
 import { attitudeForm, resolveAttitude } from './attitude';
+import { resolveTargetAttitude, type PointingOnlyTarget } from './pointingOnly';
 import type { AttitudeForm, AttitudeSpec, Scenario, WheelsSpec } from './schema';
 import { resolveStudy, type StudyDefinition } from './study';
 import { parseIsoUtcMs } from './utc';
@@ -61,6 +62,8 @@ export interface ResolvedTarget {
   track?: ResolvedTrack | null;
   /** When the target is due (orbitResolve.ts), or null: right after the previous hold. */
   window?: ResolvedWindow | null;
+  /** Roll-free target (pointingOnly.ts): its axis and direction; qInertialFromBody is then the reduced target. */
+  pointingOnly?: PointingOnlyTarget;
 }
 
 export interface KeepOutCone {
@@ -84,7 +87,14 @@ export interface ResolvedVehicle {
   wheels: WheelSpec[];
   /** Bearing friction of every wheel, and the fraction of it the wheel drives cancel. */
   wheelFriction: { viscousNmPerRadPerS: number; coulombNm: number; compensatedFraction: number } | null;
-  sensors: { attitudeNoiseRad: number; rateNoiseRadPerS: number; rateBiasRadPerS: Vec3; boundedNoiseEta: number };
+  sensors: {
+    attitudeNoiseRad: number;
+    rateNoiseRadPerS: number;
+    rateBiasRadPerS: Vec3;
+    boundedNoiseEta: number;
+    /** Worst-case bounded noise ē on pointing-only targets, rad (absent or 0: off). */
+    antipodalNoiseRad?: number;
+  };
   controlRateHz: number;
   actuation: Actuation;
 }
@@ -201,6 +211,7 @@ function resolveVehicle(v: Scenario['vehicle']): ResolvedVehicle {
       rateNoiseRadPerS: v.sensors.rateNoiseDegPerS * RAD_PER_DEG,
       rateBiasRadPerS: scaled3(v.sensors.rateBiasDegPerS, RAD_PER_DEG),
       boundedNoiseEta: v.sensors.boundedNoiseEta ?? 0,
+      antipodalNoiseRad: (v.sensors.antipodalNoiseDeg ?? 0) * RAD_PER_DEG,
     },
     controlRateHz: v.controlRateHz,
     actuation:
@@ -225,9 +236,20 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
       const track = resolveTrack(t.track, orbit.sites, `targets[${i}].track`);
       return { label: t.label, form: trackForm(t.track), qInertialFromBody: q, holdS: t.holdS, track, window };
     }
-    const q = attitudeOf(t.attitude!, previous, `targets[${i}].attitude`);
+    const q = qCreate();
+    const errors: Issue[] = [];
+    const pointingOnly = resolveTargetAttitude(q, t.attitude!, t.rollFree === true, previous, i, errors, []);
+    if (pointingOnly === false) throw new EngineInputError(errors);
     previous = q;
-    return { label: t.label, form: attitudeForm(t.attitude!), qInertialFromBody: q, holdS: t.holdS, track: null, window };
+    return {
+      label: t.label,
+      form: attitudeForm(t.attitude!),
+      qInertialFromBody: q,
+      holdS: t.holdS,
+      track: null,
+      window,
+      ...(pointingOnly ? { pointingOnly } : {}),
+    };
   });
   const vehicle = resolveVehicle(s.vehicle);
   const h0 = new Float64Array(vehicle.wheels.length);

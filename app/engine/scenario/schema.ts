@@ -23,6 +23,7 @@ import { EULER_SEQUENCES } from '../math/rotation';
 import { ControllerFileSchema } from '../control/fileSchema';
 import { StudySchema } from './studySchema';
 import { OrbitSchema, TargetWindowSchema, TrackSchema, TRACK_FORMS } from './orbitSchema';
+import { antipodalNoiseSensorShape, rollFreeTargetShape } from './pointingOnlySchema';
 
 export {
   StudyAttitudeDispersionSchema,
@@ -186,6 +187,7 @@ export const SensorsSchema = z.strictObject({
     .describe(
       'Worst-case bounded noise ē on the error quaternion’s scalar part, a stress test of the laws (Mayhew, Sanfelice & Teel 2011): whenever |η| < ē the measured error is reflected to (ε, −η). Dimensionless; 0 or absent: off.',
     ),
+  ...antipodalNoiseSensorShape,
 });
 
 export const ActuationSchema = z.strictObject({
@@ -235,6 +237,7 @@ export const TargetSchema = z.strictObject({
   track: TrackSchema.optional().describe('A moving target from the orbit (needs "orbit"): exactly one of "attitude" and "track".'),
   window: TargetWindowSchema.optional(),
   holdS: nonNegative().max(MAX_DURATION_S).describe('Time to hold the target after arriving, s.'),
+  ...rollFreeTargetShape,
 });
 
 // ---------------------------------------------------------------------------------------------

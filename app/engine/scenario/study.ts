@@ -15,7 +15,12 @@ import type { RunMode } from '../sim/types';
 export type ActuationMode = 'hold' | 'pwm' | 'quantized';
 
 export type AttitudeDispersion =
-  { mode: 'nominal' } | { mode: 'uniform' } | { mode: 'cone'; maxAngleRad: number } | { mode: 'near-reversal'; withinRad: number };
+  | { mode: 'nominal' }
+  | { mode: 'uniform' }
+  | { mode: 'cone'; maxAngleRad: number }
+  | { mode: 'near-reversal'; withinRad: number }
+  /** Pointing-only first target: the pointed axis within withinRad of its antipode (study/pointingCase.ts). */
+  | { mode: 'near-antipode'; withinRad: number };
 
 export interface StudyDefinition {
   runs: number;
@@ -37,6 +42,8 @@ export interface StudyDefinition {
     attitudeNoiseScale: [number, number];
     rateBiasSigmaRadPerS: number;
     adversarialEta: number;
+    /** Worst-case bounded noise ē on pointing-only targets, rad (absent or 0 = off). */
+    antipodalNoiseRad?: number;
   };
   /** Rates to pick from (null = the vehicle's). */
   controlRateHz: number[] | null;
@@ -114,6 +121,14 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
       ),
     );
   }
+  if (d.initialAttitude?.mode === 'near-antipode' && s.targets[0]?.rollFree !== true)
+    errors.push(
+      issue(
+        'study.dispersions.initialAttitude.mode',
+        'needs-roll-free',
+        'study.dispersions.initialAttitude.mode "near-antipode" places the pointed axis near the antipode of the first target’s direction: the first target must be pointing-only (targets[0].rollFree: true)',
+      ),
+    );
   if (errors.length > before) return null;
 
   const a = d.initialAttitude;
@@ -123,7 +138,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
       ? { mode: 'uniform' }
       : a.mode === 'cone'
         ? { mode: 'cone', maxAngleRad: a.maxAngleDeg * RAD_PER_DEG }
-        : { mode: 'near-reversal', withinRad: a.withinDeg * RAD_PER_DEG };
+        : { mode: a.mode, withinRad: a.withinDeg * RAD_PER_DEG };
   const quantum = d.torqueQuantumMNm ?? vehicleQuantum;
   return {
     runs: st.runs,
@@ -148,6 +163,7 @@ export function resolveStudy(st: StudySpec, s: Scenario, errors: Issue[], warnin
       attitudeNoiseScale: scale ? [scale[0]!, scale[1]!] : [1, 1],
       rateBiasSigmaRadPerS: (d.sensors?.rateBiasDegPerS ?? 0) * RAD_PER_DEG,
       adversarialEta: d.sensors?.adversarialEta ?? 0,
+      ...((d.sensors?.antipodalNoiseDeg ?? 0) > 0 ? { antipodalNoiseRad: d.sensors!.antipodalNoiseDeg! * RAD_PER_DEG } : {}),
     },
     controlRateHz: d.controlRateHz ? [...d.controlRateHz] : null,
     actuation: d.actuation ? [...d.actuation] : null,
@@ -161,7 +177,8 @@ export function studyToFile(d: StudyDefinition): StudySpec {
   const dispersions: NonNullable<StudySpec['dispersions']> = {};
   if (a.mode === 'uniform') dispersions.initialAttitude = { mode: 'uniform' };
   else if (a.mode === 'cone') dispersions.initialAttitude = { mode: 'cone', maxAngleDeg: a.maxAngleRad * DEG_PER_RAD };
-  else if (a.mode === 'near-reversal') dispersions.initialAttitude = { mode: 'near-reversal', withinDeg: a.withinRad * DEG_PER_RAD };
+  else if (a.mode === 'near-reversal' || a.mode === 'near-antipode')
+    dispersions.initialAttitude = { mode: a.mode, withinDeg: a.withinRad * DEG_PER_RAD };
   if (d.rateSigmaRadPerS > 0) dispersions.initialRateDegPerS = d.rateSigmaRadPerS * DEG_PER_RAD;
   if (d.inertia.momentSigmaFraction > 0 || d.inertia.axisMisalignmentSigmaRad > 0)
     dispersions.inertia = {
@@ -171,11 +188,18 @@ export function studyToFile(d: StudyDefinition): StudySpec {
   const w = d.wheels;
   if (w.torqueDegradationMax > 0 || w.momentumDegradationMax > 0 || w.failOneWheelProbability > 0) dispersions.wheels = { ...w };
   const sn = d.sensors;
-  if (sn.attitudeNoiseScale[0] !== 1 || sn.attitudeNoiseScale[1] !== 1 || sn.rateBiasSigmaRadPerS > 0 || sn.adversarialEta > 0)
+  if (
+    sn.attitudeNoiseScale[0] !== 1 ||
+    sn.attitudeNoiseScale[1] !== 1 ||
+    sn.rateBiasSigmaRadPerS > 0 ||
+    sn.adversarialEta > 0 ||
+    (sn.antipodalNoiseRad ?? 0) > 0
+  )
     dispersions.sensors = {
       attitudeNoiseScale: [sn.attitudeNoiseScale[0], sn.attitudeNoiseScale[1]],
       rateBiasDegPerS: sn.rateBiasSigmaRadPerS * DEG_PER_RAD,
       adversarialEta: sn.adversarialEta,
+      ...((sn.antipodalNoiseRad ?? 0) > 0 ? { antipodalNoiseDeg: sn.antipodalNoiseRad! * DEG_PER_RAD } : {}),
     };
   if (d.controlRateHz) dispersions.controlRateHz = [...d.controlRateHz];
   if (d.actuation) dispersions.actuation = [...d.actuation];

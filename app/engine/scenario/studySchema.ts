@@ -5,10 +5,15 @@
  * in the keys or the descriptions, as everywhere in the file.
  */
 import { z } from 'zod';
+import { antipodalNoiseStudyShape, NearAntipodeDispersionSchema } from './pointingOnlySchema';
 
 export const StudyAttitudeDispersionSchema = z
   .discriminatedUnion('mode', [
-    z.strictObject({ mode: z.literal('uniform').describe('Start attitude uniform over SO(3) (Haar measure).') }),
+    z.strictObject({
+      mode: z
+        .literal('uniform')
+        .describe('Start attitude uniform over SO(3) (Haar measure); a pointed body axis is then uniform over the sphere.'),
+    }),
     z.strictObject({
       mode: z.literal('cone').describe('Start attitude uniform (Haar) within a ball of rotations about the nominal initial attitude.'),
       maxAngleDeg: z.number().gt(0).max(180).describe('Largest rotation away from the nominal initial attitude, degrees.'),
@@ -19,6 +24,7 @@ export const StudyAttitudeDispersionSchema = z
         .describe('Error to the first target within withinDeg of 180°; the quaternion sign (hemisphere) is drawn at random.'),
       withinDeg: z.number().gt(0).max(90).describe('Largest distance of the initial error angle from 180°, degrees.'),
     }),
+    NearAntipodeDispersionSchema,
   ])
   .describe('How the initial attitude is dispersed.');
 
@@ -73,6 +79,7 @@ export const StudySensorDispersionSchema = z.strictObject({
     .describe(
       'Worst-case bounded noise level ē on the error quaternion scalar part (measured η reflected when |η| < ē), dimensionless; 0 = off.',
     ),
+  ...antipodalNoiseStudyShape,
 });
 
 export const StudyDispersionsSchema = z.strictObject({

@@ -16,6 +16,7 @@ import { SCENARIO_FORMAT, SCENARIO_VERSION } from './schema';
 import { studyToFile } from './study';
 import { orbitToFile, trackToFile, windowToFile } from './orbitResolve';
 import { constraintsToFile } from './constraintResolve';
+import { rollFreeTargetToFile } from './pointingOnly';
 
 function lawFields<L extends LawId>(def: LawDefinition<L>, c: ControllerParams): Record<string, unknown> {
   return def.toFile(c as unknown as ParamsOf<L>) as Record<string, unknown>;
@@ -65,6 +66,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
         rateNoiseDegPerS: v.sensors.rateNoiseRadPerS * DEG_PER_RAD,
         rateBiasDegPerS: deg3(v.sensors.rateBiasRadPerS),
         ...(v.sensors.boundedNoiseEta > 0 ? { boundedNoiseEta: v.sensors.boundedNoiseEta } : {}),
+        ...((v.sensors.antipodalNoiseRad ?? 0) > 0 ? { antipodalNoiseDeg: v.sensors.antipodalNoiseRad! * DEG_PER_RAD } : {}),
       },
       controlRateHz: v.controlRateHz,
       actuation: act.mode === 'quantized' ? { mode: 'quantized', torqueQuantumMNm: act.quantumNm * MILLI_PER_SI } : { mode: act.mode },
@@ -75,12 +77,12 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
       ...(r.initial.hWheelNms.some((h) => h !== 0) ? { wheelMomentumMNms: Array.from(r.initial.hWheelNms, (h) => h * MILLI_PER_SI) } : {}),
     },
     targets: r.targets.map((t) => ({
-      label: t.label,
       ...(t.track && r.orbit
-        ? { track: trackToFile(t.track, r.orbit.sites) }
-        : { attitude: { quaternion: Array.from(t.qInertialFromBody) } }),
+        ? { label: t.label, track: trackToFile(t.track, r.orbit.sites), holdS: t.holdS }
+        : t.pointingOnly
+          ? rollFreeTargetToFile(t.label, t.holdS, t.pointingOnly)
+          : { label: t.label, attitude: { quaternion: Array.from(t.qInertialFromBody) }, holdS: t.holdS }),
       ...(t.window ? { window: windowToFile(t.window) } : {}),
-      holdS: t.holdS,
     })),
     controllers: r.controllers.map(controllerToFile),
     planning: {

@@ -9,6 +9,7 @@ import { dedupeIssues, describe, fail, issue, ok } from '../errors';
 import { qCreate } from '../math/rotation';
 import type { Quat } from '../math/rotation';
 import { resolveAttitude } from './attitude';
+import { resolveTargetAttitude } from './pointingOnly';
 import { fromZodIssues } from './issues';
 import {
   ActuationSchema,
@@ -252,7 +253,7 @@ function checkAttitudes(raw: Obj, errors: Issue[], warnings: Issue[]): void {
       return;
     }
     const q = qCreate();
-    previous = resolveAttitude(q, a.data, previous, `targets[${i}].attitude`, errors, warnings) ? q : null;
+    previous = resolveTargetAttitude(q, a.data, get(t, 'rollFree') === true, previous, i, errors, warnings) !== false ? q : null;
   });
 }
 

@@ -45,6 +45,12 @@ export interface ReferenceSource {
    * step and the law latches its per-segment data at the exact instant). Not used when sampled.
    */
   switchTimes?: ArrayLike<number>;
+  /**
+   * Pointing-only segments: the pointed body axis of segment k at [3k, 3k + 3) (unit; zeros for a
+   * full-attitude segment). The loop hands the active one to the law (ControlInput.pointingAxis)
+   * and to the worst-case pointing noise. Absent: every segment is a full attitude.
+   */
+  pointingAxes?: Float64Array;
 }
 
 export interface ClosedLoopConfig {
@@ -118,6 +124,7 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   if (core.fault === null && (tr.n === 0 || end.t > tr.t[tr.n - 1]! + 1e-9)) {
     core.unpack(end.x);
     core.segment = core.ref.at(end.t, core.qRef, core.wRef, core.wdRef);
+    core.loadAxis(core.segment);
     core.record(end.t);
   }
   const outcome: RunOutcome = { status: end.status, message: end.message, t: end.t, j: core.logicJumps, plannedEndS: cfg.tEnd };

@@ -59,6 +59,7 @@ export function runIdeal(core: LoopCore, x0: Float64Array): LoopEnd {
     const s = ref.at(t, core.qRef, core.wRef, core.wdRef);
     if (s === core.segment) return false;
     core.segment = s;
+    core.loadAxis(s);
     ctrl.beginSegment?.(inp);
     return true;
   };

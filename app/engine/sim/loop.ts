@@ -50,6 +50,8 @@ export class LoopCore {
   readonly qRef = new Float64Array(4);
   readonly wRef = new Float64Array(3);
   readonly wdRef = new Float64Array(3);
+  /** Pointed body axis of the active segment (zeros for a full-attitude segment). */
+  readonly axis = new Float64Array(3);
   readonly qTrue = new Float64Array(4);
   readonly wTrue = new Float64Array(3);
   readonly hTrue: Float64Array;
@@ -103,7 +105,15 @@ export class LoopCore {
     this.motorReq = new Float64Array(N);
     this.wheelNet = new Float64Array(N);
     this.xRec = new Float64Array(7 + N);
-    this.input = { q: this.qMeas, omega: this.wMeas, hWheel: this.hMeas, qRef: this.qRef, omegaRef: this.wRef, omegaDotRef: this.wdRef };
+    this.input = {
+      q: this.qMeas,
+      omega: this.wMeas,
+      hWheel: this.hMeas,
+      qRef: this.qRef,
+      omegaRef: this.wRef,
+      omegaDotRef: this.wdRef,
+      pointingAxis: this.axis,
+    };
     this.trueInput = {
       q: this.qTrue,
       omega: this.wTrue,
@@ -111,6 +121,7 @@ export class LoopCore {
       qRef: this.qRef,
       omegaRef: this.wRef,
       omegaDotRef: this.wdRef,
+      pointingAxis: this.axis,
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
     this.builder = new TraceBuilder(N, Math.min(samples, INITIAL_TRACE_CAPACITY), samples);
@@ -144,6 +155,16 @@ export class LoopCore {
     w[1] = x[5]!;
     w[2] = x[6]!;
     for (let i = 0; i < this.N; i++) h[i] = x[7 + i]!;
+  }
+
+  /** Load segment s's pointed axis from the reference (zeros for a full-attitude segment). */
+  loadAxis(s: number): void {
+    const a = this.ref.pointingAxes;
+    const o = 3 * s;
+    const has = a !== undefined && o >= 0 && o + 2 < a.length;
+    this.axis[0] = has ? a[o]! : 0;
+    this.axis[1] = has ? a[o + 1]! : 0;
+    this.axis[2] = has ? a[o + 2]! : 0;
   }
 
   /** One logic update (with its event record) for `inp`; true when the logic jumped. */

@@ -13,9 +13,13 @@ function slewStarts(plan: SequencePlan): Float64Array {
   return Float64Array.from(plan.timeline, (e) => e.slewStartS);
 }
 
-/** follow-plan: the planned eigenaxis reference. */
-export function followPlanReference(plan: SequencePlan): ReferenceSource {
-  return { at: (t, q, w, wd) => Math.max(0, evaluateReference(plan, t, q, w, wd)), switchTimes: slewStarts(plan) };
+/** follow-plan: the planned eigenaxis reference (`pointingAxes`: ReferenceSource.pointingAxes). */
+export function followPlanReference(plan: SequencePlan, pointingAxes?: Float64Array): ReferenceSource {
+  return {
+    at: (t, q, w, wd) => Math.max(0, evaluateReference(plan, t, q, w, wd)),
+    switchTimes: slewStarts(plan),
+    ...(pointingAxes ? { pointingAxes } : {}),
+  };
 }
 
 /**
@@ -23,7 +27,12 @@ export function followPlanReference(plan: SequencePlan): ReferenceSource {
  * slew starts. Target quaternions are copied into one flat table up front, so a call allocates
  * nothing (it runs at every sample, and at every flow evaluation in the ideal mode).
  */
-export function stepTargetReference(plan: SequencePlan, targets: Float64Array, qInitial: ArrayLike<number>): ReferenceSource {
+export function stepTargetReference(
+  plan: SequencePlan,
+  targets: Float64Array,
+  qInitial: ArrayLike<number>,
+  pointingAxes?: Float64Array,
+): ReferenceSource {
   const starts = slewStarts(plan);
   const m = starts.length;
   const table = new Float64Array(4 * (m + 1)); // entry 0: the initial attitude, k + 1: segment k's target
@@ -36,6 +45,7 @@ export function stepTargetReference(plan: SequencePlan, targets: Float64Array, q
   }
   return {
     switchTimes: starts,
+    ...(pointingAxes ? { pointingAxes } : {}),
     at: (t, q, w, wd) => {
       let k = 0;
       while (k < m && t >= starts[k]! - 1e-12) k++;

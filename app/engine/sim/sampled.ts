@@ -37,7 +37,8 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   const sample = (t: number, x: Float64Array) => {
     core.unpack(x);
     const s = core.ref.at(t, core.qRef, core.wRef, core.wdRef);
-    measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef);
+    core.loadAxis(s);
+    measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef, core.axis);
     core.hMeas.set(core.hTrue);
     if (s !== core.segment) {
       core.segment = s;

@@ -12,10 +12,16 @@
  *   of size below 2ē in S³ (an attitude error below about 2ē rad), chosen to mislead every
  *   memoryless sign decision.
  *
+ * - Worst-case bounded on pointing-only targets (control/sphere/noise.ts applyAntipodalStall):
+ *   whenever the pointed body axis is within ē of the antipode of its direction, the measured
+ *   attitude is turned by at most ē so that the law sees the axis exactly at the antipode — the
+ *   S² analogue of the reflection, which holds a smooth pointing law on its undesired equilibrium.
+ *
  * Every draw comes from the seeded PRNG (prng.ts), so a run is reproducible from its seed.
  */
 import type { Rng } from '../math/prng';
 import { qConjMultiply, qFromRotationVector, qMultiply, qNormalize } from '../math/rotation';
+import { applyAntipodalStall } from '../control/sphere/noise';
 
 export interface SensorModel {
   /** 1σ attitude noise per body axis, rad. */
@@ -26,6 +32,8 @@ export interface SensorModel {
   rateBiasRadPerS: ArrayLike<number>;
   /** Worst-case bounded noise level ē on the error quaternion's scalar part (0 = off). */
   adversarialEta: number;
+  /** Worst-case bounded noise ē on pointing-only segments, rad (absent or 0 = off). */
+  antipodalNoiseRad?: number;
 }
 
 export const PERFECT_SENSORS: SensorModel = {
@@ -41,7 +49,8 @@ const qe = new Float64Array(4);
 
 /**
  * Write the measured attitude and rate. `qRef` is the controller's current reference, used only
- * by the worst-case model (it needs the error the law will form).
+ * by the worst-case models (they need the error the law will form); `pointingAxis` is the pointed
+ * body axis of a pointing-only segment (zeros or absent otherwise).
  */
 export function measure(
   qOut: Float64Array,
@@ -51,6 +60,7 @@ export function measure(
   qTrue: ArrayLike<number>,
   omegaTrue: ArrayLike<number>,
   qRef: ArrayLike<number>,
+  pointingAxis?: ArrayLike<number>,
 ): void {
   const sa = model.attitudeSigmaRad;
   if (sa > 0) {
@@ -74,6 +84,9 @@ export function measure(
       qNormalize(qOut, qOut);
     }
   }
+  const stall = model.antipodalNoiseRad ?? 0;
+  if (stall > 0 && pointingAxis && (pointingAxis[0] !== 0 || pointingAxis[1] !== 0 || pointingAxis[2] !== 0))
+    applyAntipodalStall(qOut, qOut, qTrue, qRef, pointingAxis, stall);
   const sw = model.rateSigmaRadPerS;
   const b = model.rateBiasRadPerS;
   for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + (sw > 0 ? sw * rng.normal() : 0);

@@ -95,6 +95,7 @@ export function makeStudyContext(json: unknown, overrides: StudyOverrides = {}):
     rateBiasRadPerS: s.vehicle.sensors.rateBiasRadPerS,
     controlRateHz: s.vehicle.controlRateHz,
     actuation: s.vehicle.actuation.mode as ActuationMode,
+    ...(s.targets[0]!.pointingOnly ? { pointing: s.targets[0]!.pointingOnly } : {}),
   };
   return ok({ json: eff.json as Record<string, unknown>, prepared: p, def, nominal, controllers, target, warnings }, warnings);
 }

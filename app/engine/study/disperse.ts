@@ -19,6 +19,7 @@ import type { ResolvedScenario } from '../scenario/resolve';
 import type { StudyDefinition } from '../scenario/study';
 import type { WheelSpec } from '../wheels/array';
 import type { CaseDraw } from './sample';
+import { caseTarget } from './pointingCase';
 
 /** Quantum for quantized cases when neither the study nor the vehicle gives one, N·m (common practice, no source). */
 export const FALLBACK_TORQUE_QUANTUM_NM = 1e-5;
@@ -73,6 +74,7 @@ export function disperseScenario(
         rateNoiseRadPerS: v.sensors.rateNoiseRadPerS,
         rateBiasRadPerS: Float64Array.from(d.rateBiasRadPerS),
         boundedNoiseEta: d.adversarialEta,
+        antipodalNoiseRad: d.antipodalNoiseRad ?? 0,
       },
       controlRateHz: d.controlRateHz,
       actuation: d.actuation === 'quantized' ? { mode: 'quantized', quantumNm: quantum } : { mode: d.actuation },
@@ -84,12 +86,9 @@ export function disperseScenario(
       hWheelNms: Float64Array.from(kept, (i) => nom.initial.hWheelNms[i]!),
     },
     targets: [
-      {
-        label: target.label,
-        form: 'quaternion',
-        qInertialFromBody: Float64Array.from(qTarget ?? target.qInertialFromBody),
-        holdS: target.holdS,
-      },
+      qTarget
+        ? { label: target.label, form: 'quaternion', qInertialFromBody: Float64Array.from(qTarget), holdS: target.holdS }
+        : caseTarget(target, d.q0),
     ],
     controllers: controllerIds.map((id) => nom.controllers.find((c) => c.id === id)!),
     planning: nom.planning,

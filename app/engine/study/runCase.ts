@@ -13,6 +13,7 @@ import type { StudyContext } from './context';
 import { disperseScenario } from './disperse';
 import type { CaseDraw } from './sample';
 import { drawCase } from './sample';
+import { caseTarget } from './pointingCase';
 
 /** Samples of the decimated error-angle trace kept for every run (fixed grid over durationS). */
 export const TRACE_SAMPLES = 120;
@@ -109,7 +110,11 @@ export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): C
   const tr = run.trace;
   const n = tr.n;
   const status: CaseStatus = run.verdict.kind;
-  const finalEta = n > 0 ? etaAt(tr.q, n - 1, ctx.target) : d.errorEta;
+  // a roll-free target is the reduced one from the case's own start (pointingCase.ts)
+  const target = ctx.prepared.scenario.targets[0]?.pointingOnly
+    ? caseTarget(ctx.prepared.scenario.targets[0], d.q0).qInertialFromBody
+    : ctx.target;
+  const finalEta = n > 0 ? etaAt(tr.q, n - 1, target) : d.errorEta;
   // Decimate: the first trace sample at or after each grid time.
   const M = TRACE_SAMPLES;
   const trace = new Float32Array(M);

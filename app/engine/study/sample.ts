@@ -22,6 +22,9 @@ import { m3Create, symmetricEigen3 } from '../math/mat3';
 import { qConjMultiply, qFromAxisAngle, qMultiply, qNormalize, qRandomUniform, qToMat3 } from '../math/rotation';
 import { validateInertia } from '../body/inertia';
 import type { ActuationMode, StudyDefinition } from '../scenario/study';
+import type { PointingOnlyTarget } from '../scenario/pointingOnly';
+import { reducedTargetAttitude } from '../control/sphere/slew';
+import { drawNearAntipode } from './pointingCase';
 
 /** Random-stream slot of each dispersion within a case (stream = 16·index + slot). */
 export const SLOT = {
@@ -53,6 +56,8 @@ export interface NominalCase {
   rateBiasRadPerS: ArrayLike<number>;
   controlRateHz: number;
   actuation: ActuationMode;
+  /** The first target's axis and direction when it is roll free (pointingCase.ts). */
+  pointing?: PointingOnlyTarget;
 }
 
 /** One dispersed case, as plain data (it crosses worker boundaries and goes into exports). */
@@ -72,6 +77,8 @@ export interface CaseDraw {
   attitudeNoiseRad: number;
   rateBiasRadPerS: number[];
   adversarialEta: number;
+  /** Worst-case bounded noise ē on pointing-only targets, rad (absent: 0). */
+  antipodalNoiseRad?: number;
   controlRateHz: number;
   actuation: ActuationMode;
   /** Seed of the case's sensor-noise generator (stream 0), the same for every controller. */
@@ -129,6 +136,9 @@ function drawAttitude(out: Float64Array, def: StudyDefinition, nom: NominalCase,
     const th = haarAngleBetween(rng, 0, a.maxAngleRad);
     qFromAxisAngle(tmpQ, unitVector(tmpAxis, rng), th);
     qMultiply(out, nom.qInitial, tmpQ);
+  } else if (a.mode === 'near-antipode') {
+    // resolveStudy refuses the mode unless the first target is roll free
+    drawNearAntipode(out, rng, nom.pointing!, a.withinRad, nom.qInitial);
   } else {
     // Error q_e with angle in [π − w, π] about a uniform axis; q0 = ±q_target ⊗ q_e.
     const th = haarAngleBetween(rng, Math.PI - a.withinRad, Math.PI);
@@ -213,8 +223,10 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
     : nom.actuation;
   const noiseSeed = Math.floor(stream(def, index, SLOT.noiseSeed).next() * 4294967296);
 
-  // Initial error in the target frame: its axis and angle place the case on the outcome map.
-  qConjMultiply(tmpQ, nom.qTarget, q0);
+  // Initial error in the target frame: its axis and angle place the case on the outcome map. For a
+  // roll-free target the case's target is the reduced one from q0: the error is the swing rotation.
+  const red = nom.pointing ? reducedTargetAttitude(q0, nom.pointing.bodyAxis, nom.pointing.inertialDirection) : null;
+  qConjMultiply(tmpQ, red?.ok ? red.value.q : nom.qTarget, q0);
   const sn = Math.hypot(tmpQ[0]!, tmpQ[1]!, tmpQ[2]!);
   const errorAxis = sn > 1e-15 ? [tmpQ[0]! / sn, tmpQ[1]! / sn, tmpQ[2]! / sn] : [1, 0, 0];
   const errorAngleRad = 2 * Math.atan2(sn, Math.abs(tmpQ[3]!));
@@ -232,6 +244,7 @@ export function drawCase(def: StudyDefinition, nom: NominalCase, index: number):
     attitudeNoiseRad: nom.attitudeNoiseRad * noiseScale,
     rateBiasRadPerS,
     adversarialEta: def.sensors.adversarialEta,
+    antipodalNoiseRad: def.sensors.antipodalNoiseRad ?? 0,
     controlRateHz,
     actuation,
     noiseSeed,

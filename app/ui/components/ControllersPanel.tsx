@@ -1,6 +1,7 @@
 /**
  * Controllers to compare: a checkbox per controller (unchecked ones are left out of the run),
- * law and gains editors, and for the synergistic law the certificate badge from the engine.
+ * law and gains editors, and for the synergistic laws (SO(3) and pointing, S²) the certificate badge
+ * from the engine (an S² gap shown rounded down, so the shown value is admissible).
  */
 import type { CertificateSummary } from '../../engine/pipeline/types';
 import { LAW_IDS, LAWS } from '../../engine/control/registry';
@@ -10,6 +11,7 @@ import { useAllIssues, useApp, useAppState, useIssuesAt, useScenarioValue } from
 import { fmt } from '../format';
 import { fmtFloor } from '../formatFloor';
 import { cleanMessage } from '../issues/present';
+import { gapShownDown } from '../../engine/control/sphere/shownGap';
 import { IssueText, NumberField, Section, SelectField, TextField, VectorField } from './fields';
 
 type Obj = Record<string, unknown>;
@@ -41,9 +43,15 @@ function CertificateBadge({ id, compared, base }: { id: string; compared: boolea
       title={cert.message}
     >
       <span className="cert-verdict">{cert.admissible ? 'admissible' : 'NOT admissible'}</span>
-      <span title="Certified gap, printed rounded down so that the value shown is itself admissible">
-        δ* = {fmtFloor(cert.deltaStar, 4, true)}
-      </span>
+      {cert.space === 'S2' ? (
+        <span title="pointing family on the sphere S²; δ* less its error bound, rounded down, so every δ below it is admissible">
+          S² δ* ≥ {gapShownDown(cert.deltaStar, cert.deltaStarTolerance ?? 0, 4)}
+        </span>
+      ) : (
+        <span title="Certified gap, printed rounded down so that the value shown is itself admissible">
+          δ* = {fmtFloor(cert.deltaStar, 4, true)}
+        </span>
+      )}
       <span>jump threshold δ = {fmt(cert.delta, 4)}</span>
       <span>margin δ* − δ = {fmtFloor(cert.margin, 3)}</span>
       <div className="cert-msg">{cert.message}</div>
@@ -153,6 +161,44 @@ function OptionalVectors({ base, f }: { base: string; f: LawField }) {
   );
 }
 
+/** A list of numbers (2 to 12 entries), e.g. the warp azimuths of the pointing family. */
+function NumberList({ base, f }: { base: string; f: LawField }) {
+  const app = useApp();
+  const path = `${base}.${f.key}`;
+  const raw = useScenarioValue(path);
+  const list = Array.isArray(raw) ? (raw as unknown[]) : [];
+  return (
+    <div className="number-list" data-testid={`list-${f.key}`}>
+      {list.map((_, k) => (
+        <div key={k} className="row-with-button">
+          <NumberField path={`${path}[${k}]`} label={`${f.label} ${k + 1}`} unit={f.unit} step={f.step} title={f.help} />
+          <button
+            className="icon"
+            title={`Remove ${f.label.toLowerCase()} ${k + 1}`}
+            disabled={list.length <= 2}
+            onClick={() =>
+              app.store.edit(
+                path,
+                list.filter((__, i) => i !== k),
+                { label: `Remove ${f.label.toLowerCase()}`, coalesceKey: null },
+              )
+            }
+          >
+            ×
+          </button>
+        </div>
+      ))}
+      <button
+        className="small"
+        disabled={list.length >= 12}
+        onClick={() => app.store.edit(path, [...list, 0], { label: `Add ${f.label.toLowerCase()}`, coalesceKey: null })}
+      >
+        + {f.label.toLowerCase().replace(/s$/, '')}
+      </button>
+    </div>
+  );
+}
+
 /** The fields a law adds, as its registry entry describes them (one name per quantity everywhere). */
 function LawFields({ base, law }: { base: string; law: LawId }) {
   return (
@@ -162,6 +208,8 @@ function LawFields({ base, law }: { base: string; law: LawId }) {
           <NumberField key={f.key} path={`${base}.${f.key}`} label={f.label} unit={f.unit} step={f.step} title={f.help} />
         ) : f.kind === 'vector3' ? (
           <VectorField key={f.key} path={`${base}.${f.key}`} label={f.label} unit={f.unit} names={['1', '2', '3']} />
+        ) : f.kind === 'number-list' ? (
+          <NumberList key={f.key} base={base} f={f} />
         ) : (
           <OptionalVectors key={f.key} base={base} f={f} />
         ),
@@ -222,7 +270,9 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
       {known && <div className="muted law-summary">{LAWS[law].summary}</div>}
       <GainsEditor base={base} law={known ? law : null} />
       {known && <LawFields base={base} law={law} />}
-      {law === 'synergistic' && <CertificateBadge id={id} compared={compared} base={base} />}
+      {(law === 'synergistic' || (known && LAWS[law].certificate !== undefined)) && (
+        <CertificateBadge id={id} compared={compared} base={base} />
+      )}
       {gainNote && <div className="derived">{gainNote}</div>}
       <IssueText errors={rest} />
     </details>

@@ -2,6 +2,7 @@
 import { useApp, useAppState, useIssuesAt, useIssuesUnder, useScenarioValue } from '../context';
 import { fmt } from '../format';
 import { AttitudeEditor } from './AttitudeEditor';
+import { PRIMARY_AXIS } from '../../engine/scenario/pointingOnly';
 import { IssueText, NumberField, NumberInput, Section, TextField, VectorField } from './fields';
 
 type Obj = Record<string, unknown>;
@@ -60,6 +61,31 @@ function NumberFieldInline({ path, label }: { path: string; label: string }) {
   return <NumberInput path={path} ariaLabel={label} showIssues={false} />;
 }
 
+/** Pointing only (roll free): offered on attitude forms that name a pointed body axis (scenario/pointingOnly.ts). */
+function RollFreeCheck({ i, attitude }: { i: number; attitude: unknown }) {
+  const app = useApp();
+  const path = `targets[${i}].rollFree`;
+  const on = useScenarioValue(path) === true;
+  const forms = Object.keys(PRIMARY_AXIS);
+  const form = attitude && typeof attitude === 'object' ? Object.keys(attitude as Obj)[0] : undefined;
+  const allowed = form !== undefined && forms.includes(form);
+  return (
+    <label
+      className="check"
+      title={`Only the primary body axis must reach its direction; the roll about it is free and the slew is the shortest rotation that carries the axis there. Needs a form with a pointed axis (${forms.join(', ')}).`}
+    >
+      <input
+        type="checkbox"
+        data-testid={`roll-free-${i}`}
+        checked={on}
+        disabled={!allowed && !on}
+        onChange={(e) => app.store.edit(path, e.target.checked ? true : undefined, { label: 'Pointing only', coalesceKey: null })}
+      />{' '}
+      pointing only (roll free)
+    </label>
+  );
+}
+
 function TargetCard({ i, count }: { i: number; count: number }) {
   const app = useApp();
   const target = useScenarioValue(`targets[${i}]`) as Obj | undefined;
@@ -103,7 +129,13 @@ function TargetCard({ i, count }: { i: number; count: number }) {
       </summary>
       <TextField path={`targets[${i}].label`} label="Label" />
       <AttitudeEditor path={`targets[${i}].attitude`} chainIndex={i + 1} allowRelative />
+      <RollFreeCheck i={i} attitude={target?.attitude} />
       <NumberField path={`targets[${i}].holdS`} label="Hold" unit="s" step={5} />
+      {seg?.rollFree && (
+        <div className="derived" data-testid={`roll-free-saving-${i}`}>
+          {seg.rollFree.summary}
+        </div>
+      )}
     </details>
   );
 }

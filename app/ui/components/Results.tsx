@@ -126,6 +126,11 @@ export function PlanSummary() {
               <td className="wrap">
                 {g.label}
                 {!g.feasible && <div className="issue error">{g.reason}</div>}
+                {g.rollFree && (
+                  <div className="muted" data-testid={`plan-roll-free-${g.index}`}>
+                    {g.rollFree.summary}
+                  </div>
+                )}
               </td>
               <td className="num">{fmt(g.angleRad * DEG_PER_RAD, 4)}</td>
               <td className="num">{fmt(g.slewTimeS, 4)}</td>

@@ -23,6 +23,7 @@ import type { Issue } from '../../errors';
 import type { SphereCriticalPoint, SphereSamplingCheck } from './critical';
 import { locateCriticalPoints, samplingCheck } from './critical';
 import type { SphereFamily } from './potential';
+import { gapShownDown } from './shownGap';
 import { pointingAngle, sphereWarpJacobianDet, sphereWarpMarginClosedForm } from './potential';
 
 export interface SphereCertifyParams {
@@ -202,8 +203,8 @@ function certifyUncached(params: SphereCertifyParams, options: SphereCertifyOpti
   deltaStar = Math.max(0, deltaStar);
   const admissible = checkDelta(base, delta, deltaStar, tol, issues, warnings);
   const summary = admissible
-    ? `Certified: pointing synergy gap δ* = ${fmt(deltaStar)} (±${tol.toExponential(1)}); δ = ${delta} is admissible with margin ${fmt(deltaStar - delta)} (${Math.round((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
-    : `Family certified with pointing synergy gap δ* = ${fmt(deltaStar)}, but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${fmt(0.8 * deltaStar)}).`;
+    ? `Certified: pointing synergy gap δ* ≥ ${gapShownDown(deltaStar, tol, 6)} (rounded down; bound ±${tol.toExponential(1)}); δ = ${delta} is admissible with margin ${gapShownDown(deltaStar - delta, tol, 6)} (${Math.floor((100 * (deltaStar - delta)) / deltaStar)}% of δ*). Diffeomorphism margin ${fmt(diffeo)}.`
+    : `Family certified with pointing synergy gap δ* ≥ ${gapShownDown(deltaStar, tol, 6)} (rounded down), but δ = ${delta} is NOT admissible (need 0 < δ < δ*; recommended ${gapShownDown(0.8 * deltaStar, 0, 6)}).`;
   return {
     certified,
     admissible,

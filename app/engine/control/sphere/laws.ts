@@ -21,6 +21,14 @@
  * relative to the reference decays, the roll angle settles wherever the transient leaves it (a
  * neutral direction: the closed loop converges to the circle {y = b, ω_e = 0}, not to a point).
  *
+ * The pointed axis: the law's own b, unless the input carries the active target's axis
+ * (ControlInput.pointingAxis, non-zero): then the law retargets to it. The synergistic family
+ * follows: its warp directions are those it was built with, turned by the shortest rotation that
+ * carries the build axis onto the new one (computed from the build directions each time, so the
+ * family for an axis never depends on the history). A rotation R of (b, u_p) gives V'_p(Ry) =
+ * V_p(y), so critical points, gaps and the certificate are unchanged (derived here; the potentials
+ * involve only inner products, which rotations keep).
+ *
  * diagnostics(): errorAngle = the pointing error φ = ∠(b, y); eta = cos(φ/2), the scalar part of
  * the swing rotation carrying y onto b (V = 1 − cos φ = 2(1 − eta²)), so that, as for the full
  * laws, errorAngle = 2 arccos(eta) and eta = 0 at the antipode; potential = V (PD) or V_q,
@@ -68,11 +76,32 @@ abstract class ReducedLawBase implements AttitudeController {
     this.axis = Float64Array.of(axis[0]! / n, axis[1]! / n, axis[2]! / n);
   }
 
-  /** Fill the tracking state and y from a measurement. */
+  /** The last non-zero input axis retargeted to (raw, as given). */
+  private readonly inputAxis = new Float64Array(3);
+
+  /** Fill the tracking state and y from a measurement (retargeting to the input's axis first). */
   protected pointing(input: ControlInput): Float64Array {
+    const a = input.pointingAxis;
+    if (
+      a &&
+      (a[0] !== 0 || a[1] !== 0 || a[2] !== 0) &&
+      (a[0] !== this.inputAxis[0] || a[1] !== this.inputAxis[1] || a[2] !== this.inputAxis[2])
+    ) {
+      this.inputAxis[0] = a[0]!;
+      this.inputAxis[1] = a[1]!;
+      this.inputAxis[2] = a[2]!;
+      const n = Math.hypot(a[0]!, a[1]!, a[2]!);
+      this.axis[0] = a[0]! / n;
+      this.axis[1] = a[1]! / n;
+      this.axis[2] = a[2]! / n;
+      this.retarget();
+    }
     computeTracking(this.st, this.plant, input);
     return qRotateInverse(this.y, this.st.qe, this.axis);
   }
+
+  /** Called after `axis` changed (the family follows it in the synergistic law). */
+  protected retarget(): void {}
 
   /** ∇ of the active potential at this.y into this.grad (after `pointing`). */
   protected abstract activeGradient(logic: number): Float64Array;
@@ -133,6 +162,9 @@ export class ReducedSynergistic extends ReducedLawBase {
   readonly kind = 'reduced-synergistic' as const;
   readonly jumpDecrease: number;
   private readonly ws: SphereWorkspace;
+  /** The build axis and warp directions (the family for any other axis is their rotation). */
+  private readonly axis0: Float64Array;
+  private readonly dirs0: Float64Array;
 
   constructor(
     label: string,
@@ -150,6 +182,14 @@ export class ReducedSynergistic extends ReducedLawBase {
     super(label, plant, family.axis, kp, Kd);
     this.ws = makeSphereWorkspace(family);
     this.jumpDecrease = kp * delta;
+    this.axis0 = Float64Array.from(family.axis);
+    this.dirs0 = Float64Array.from(family.directions);
+  }
+
+  protected override retarget(): void {
+    const f = this.family;
+    f.axis.set(this.axis);
+    for (let p = 0; p < f.members; p++) rotateShortest(f.directions, 3 * p, this.axis0, this.axis, this.dirs0);
   }
 
   private evaluate(input: ControlInput): SphereWorkspace {
@@ -197,6 +237,50 @@ export class ReducedSynergistic extends ReducedLawBase {
       };
     return { logic, why: null };
   }
+}
+
+/**
+ * out[o..o+2] = R v[o..o+2], R the shortest rotation carrying unit `from` onto unit `to`:
+ * R v = c v + (w × v) + (w·v)/(1 + c) w, w = from × to, c = from·to (Rodrigues' formula with
+ * sin φ = |w|, cos φ = c; standard, no source). For to = −from any rotation by π about an axis ⊥
+ * from will do: the one about the body axis least aligned with `from`, made ⊥ it.
+ */
+function rotateShortest(out: Float64Array, o: number, from: Float64Array, to: Float64Array, v: Float64Array): void {
+  const fx = from[0]!,
+    fy = from[1]!,
+    fz = from[2]!;
+  const vx = v[o]!,
+    vy = v[o + 1]!,
+    vz = v[o + 2]!;
+  const c = fx * to[0]! + fy * to[1]! + fz * to[2]!;
+  if (c > -1 + 1e-12) {
+    const wx = fy * to[2]! - fz * to[1]!,
+      wy = fz * to[0]! - fx * to[2]!,
+      wz = fx * to[1]! - fy * to[0]!;
+    const k = (wx * vx + wy * vy + wz * vz) / (1 + c);
+    out[o] = c * vx + (wy * vz - wz * vy) + k * wx;
+    out[o + 1] = c * vy + (wz * vx - wx * vz) + k * wy;
+    out[o + 2] = c * vz + (wx * vy - wy * vx) + k * wz;
+    return;
+  }
+  const ax = Math.abs(fx),
+    ay = Math.abs(fy),
+    az = Math.abs(fz);
+  let nx = ax <= ay && ax <= az ? 1 : 0,
+    ny = nx === 0 && ay <= az ? 1 : 0,
+    nz = nx === 0 && ny === 0 ? 1 : 0;
+  const d = nx * fx + ny * fy + nz * fz;
+  nx -= d * fx;
+  ny -= d * fy;
+  nz -= d * fz;
+  const m = Math.hypot(nx, ny, nz);
+  nx /= m;
+  ny /= m;
+  nz /= m;
+  const nv = 2 * (nx * vx + ny * vy + nz * vz);
+  out[o] = nv * nx - vx;
+  out[o + 1] = nv * ny - vy;
+  out[o + 2] = nv * nz - vz;
 }
 
 export interface ReducedBandwidthGains {
