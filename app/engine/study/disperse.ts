@@ -85,10 +85,12 @@ export function disperseScenario(
       omegaBody: Float64Array.from(d.omega0RadPerS),
       hWheelNms: Float64Array.from(kept, (i) => nom.initial.hWheelNms[i]!),
     },
+    // A pointing-only first target is reduced from the case's own start; otherwise the case regulates
+    // to the planned attitude (for a moving target, where tracking starts).
     targets: [
-      qTarget
-        ? { label: target.label, form: 'quaternion', qInertialFromBody: Float64Array.from(qTarget), holdS: target.holdS }
-        : caseTarget(target, d.q0),
+      target.pointingOnly || !qTarget
+        ? caseTarget(target, d.q0)
+        : { label: target.label, form: 'quaternion', qInertialFromBody: Float64Array.from(qTarget), holdS: target.holdS },
     ],
     controllers: controllerIds.map((id) => nom.controllers.find((c) => c.id === id)!),
     planning: nom.planning,
