@@ -17,6 +17,7 @@ import { attitudeViolations, prepareConstraints } from '../constraints/validate'
 import { fail, issue, ok, type Issue, type Result } from '../errors';
 import type { Ephemeris } from '../orbit/ephemeris';
 import { evaluateReference } from '../plan/reference';
+import { trackingReference } from '../sim/trackingReference';
 import type { SequencePlan } from '../plan/types';
 import { keepOutSpecs } from '../scenario/constraintResolve';
 import type { ResolvedScenario } from '../scenario/resolve';
@@ -152,6 +153,7 @@ function reportOf(h: HistoryCheck): ConstraintReport {
 
 /** Sample times of a plan's reference: each slew at ≤ 0.1° of body turn per step, holds every 60 s. */
 export function planSampleTimes(plan: SequencePlan, endS: number): Float64Array {
+  if (plan.tracking) return trackingSampleTimes(plan, endS);
   const t: number[] = [0];
   const push = (x: number) => {
     if (x > t[t.length - 1]!) t.push(x);
@@ -170,7 +172,34 @@ export function planSampleTimes(plan: SequencePlan, endS: number): Float64Array 
   return Float64Array.from(t);
 }
 
-/** Check the planned reference over [0, endS]. */
+/**
+ * Sample times of a tracking plan (orbit targets): the targets move during their holds (a site
+ * pass turns the line of sight by up to about 1°/s in low orbit), so every TRACKING_STEP_S, and
+ * slews every TRACKING_SLEW_STEP_S (common practice, no source: fine against the cones' degrees).
+ */
+function trackingSampleTimes(plan: SequencePlan, endS: number): Float64Array {
+  const t: number[] = [0];
+  const fill = (a: number, b: number, dt: number) => {
+    const steps = Math.max(1, Math.ceil((b - a) / dt));
+    for (let k = 1; k <= steps; k++) {
+      const x = a + ((b - a) * k) / steps;
+      if (x > t[t.length - 1]!) t.push(x);
+    }
+  };
+  let cursor = 0;
+  for (const e of plan.tracking!.entries) {
+    fill(cursor, e.slewStartS, TRACKING_STEP_S);
+    fill(e.slewStartS, e.trackStartS, TRACKING_SLEW_STEP_S);
+    cursor = e.trackStartS;
+  }
+  fill(cursor, endS, TRACKING_STEP_S);
+  return Float64Array.from(t);
+}
+
+const TRACKING_STEP_S = 1;
+const TRACKING_SLEW_STEP_S = 0.1;
+
+/** Check the planned reference over [0, endS] (a tracking plan through its own reference, follow-plan). */
 export function checkPlan(plan: SequencePlan, sc: ScenarioConstraints, endS: number): ConstraintReport | null {
   if (sc.constraints.length === 0) return null;
   const t = planSampleTimes(plan, endS);
@@ -178,8 +207,10 @@ export function checkPlan(plan: SequencePlan, sc: ScenarioConstraints, endS: num
   const qi = new Float64Array(4),
     w = new Float64Array(3),
     wd = new Float64Array(3);
+  const tracking = plan.tracking ? trackingReference(plan.tracking, 'follow-plan') : null;
   t.forEach((ti, k) => {
-    evaluateReference(plan, ti, qi, w, wd);
+    if (tracking) tracking.at(ti, qi, w, wd);
+    else evaluateReference(plan, ti, qi, w, wd);
     q.set(qi, 4 * k);
   });
   const r = checkAttitudeHistory({ timesS: t, qInertialFromBody: q }, sc.constraints);
