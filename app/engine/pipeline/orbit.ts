@@ -26,6 +26,7 @@ import { planTrackingSequence } from '../plan/trackingSequence';
 import type { TrackingPlan, TrackingTargetInput } from '../plan/trackingTypes';
 import type { PlanLimits, SequencePlan } from '../plan/types';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
+import type { ResolvedSite } from '../scenario/orbitResolve';
 import type { RunTrace } from '../sim/types';
 import { utcLabelFromTai } from '../time/iso';
 
@@ -182,13 +183,8 @@ export interface PlannedWindow {
   notes: string[];
 }
 
-export interface SitePasses {
-  id: string;
-  label: string;
-  latitudeRad: number;
-  longitudeRad: number;
-  heightM: number;
-  elevationMaskRad: number;
+/** A site as resolved from the scenario, with its passes over the horizon. */
+export interface SitePasses extends ResolvedSite {
   passes: VisibilityWindow[];
 }
 

@@ -10,7 +10,7 @@ import type { PlanLimits, SequencePlan } from '../plan/types';
 import { applyAxes } from '../wheels/array';
 import { envelopeCapacity } from '../wheels/envelope';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
-import type { PlanSummary, Vehicle } from './types';
+import type { PlanSummary, SegmentSummary, Vehicle } from './types';
 import { planNumberIssues } from './planCheck';
 import { needsTrackingPlan, planOnOrbit, type OrbitStage } from './orbit';
 
@@ -80,25 +80,46 @@ export function planSummary(plan: SequencePlan, targets: readonly Pick<ResolvedT
         reason: seg.summary,
       };
     }
-    return {
-      index: i,
+    return unplannedRow(
+      i,
       label,
-      tStart: tCursor,
-      slewTimeS: 0,
+      tCursor,
       holdS,
-      tEnd: tCursor,
-      angleRad: seg.angleRad,
+      seg.angleRad,
       axisBody,
-      feasible: false,
-      binding: 'none' as const,
-      peakRateRadPerS: 0,
-      accelRadPerS2: 0,
-      peakTorqueFraction: 0,
-      peakMomentumFraction: 0,
-      reason: 'reasons' in seg ? seg.reasons.map((r) => r.message).join('; ') : seg.summary,
-    };
+      'reasons' in seg ? seg.reasons.map((r) => r.message).join('; ') : seg.summary,
+    );
   });
   return { feasible: plan.feasible, totalTimeS: plan.totalS, segments };
+}
+
+/** A plan row for a target that is not flown (infeasible, or after an infeasible one): no slew, no limits used. */
+function unplannedRow(
+  index: number,
+  label: string,
+  tCursor: number,
+  holdS: number,
+  angleRad: number,
+  axisBody: [number, number, number],
+  reason: string,
+): SegmentSummary {
+  return {
+    index,
+    label,
+    tStart: tCursor,
+    slewTimeS: 0,
+    holdS,
+    tEnd: tCursor,
+    angleRad,
+    axisBody,
+    feasible: false,
+    binding: 'none',
+    peakRateRadPerS: 0,
+    accelRadPerS2: 0,
+    peakTorqueFraction: 0,
+    peakMomentumFraction: 0,
+    reason,
+  };
 }
 
 /** The summary of an orbit plan: slew, tracking start and hold of each planned entry. */
@@ -130,23 +151,15 @@ function trackingPlanSummary(plan: SequencePlan, targets: readonly Pick<Resolved
         trackStartS: e.trackStartS,
       };
     }
-    return {
-      index: i,
+    return unplannedRow(
+      i,
       label,
-      tStart: tCursor,
-      slewTimeS: 0,
-      holdS: targets[i]?.holdS ?? 0,
-      tEnd: tCursor,
-      angleRad: seg.angleRad,
+      tCursor,
+      targets[i]?.holdS ?? 0,
+      seg.angleRad,
       axisBody,
-      feasible: false,
-      binding: 'none' as const,
-      peakRateRadPerS: 0,
-      accelRadPerS2: 0,
-      peakTorqueFraction: 0,
-      peakMomentumFraction: 0,
-      reason: seg.feasible ? 'not reached: an earlier target is infeasible' : seg.reasons.map((r) => r.message).join('; '),
-    };
+      seg.feasible ? 'not reached: an earlier target is infeasible' : seg.reasons.map((r) => r.message).join('; '),
+    );
   });
   return { feasible: plan.feasible, totalTimeS: plan.totalS, segments };
 }
