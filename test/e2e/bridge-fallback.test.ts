@@ -20,6 +20,9 @@ async function bundleFixture(): Promise<string> {
     configFile: false,
     logLevel: 'error',
     root: repoRoot,
+    // As vite.config.ts: the engine's SGP4 comes from satellite.js's JavaScript part only (its root
+    // entry also loads a WebAssembly build with top-level await, which this ES library build rejects).
+    resolve: { alias: [{ find: /^satellite\.js$/, replacement: path.join(repoRoot, 'app/satellite-core.ts') }] },
     build: {
       write: false,
       minify: false,
