@@ -292,7 +292,7 @@ describe.skipIf(skipBrowser)('study view (Chromium)', () => {
     const csv = await download(page, 'study-export-csv');
     const { rows } = csvData(csv.text);
     expect(rows.length).toBe(done * expected.study.controllers.length);
-    expect(csv.text).toContain(`${done} of ${expected.study.runs} cases (stopped early`);
+    expect(csv.text).toContain(`# stopped early: ${done} of ${expected.study.runs} cases finished`);
     const indices = [...new Set(rows.map((r) => Number(r[0])))];
     expect(indices.length).toBe(done);
     expect(indices).toEqual([...indices].sort((a, b) => a - b));
