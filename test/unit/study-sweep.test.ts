@@ -12,6 +12,8 @@ import { measure } from '../../app/engine/sim/sensors';
 import { makeRng } from '../../app/engine/math/prng';
 import { shareReport } from '../../app/engine/math/stats';
 import { testVehicleScenario } from './study-fixtures';
+import { loadScenario } from '../../app/engine/scenario/resolve';
+import { toScenarioFile } from '../../app/engine/scenario/toFile';
 
 const spec = (axes: unknown[], extra: Record<string, unknown> = {}) =>
   ({ axes, runs: 2, seed: 5, controllers: null, level: 0.5, ...extra }) as Parameters<typeof validateSweep>[0];
@@ -176,6 +178,23 @@ describe('band-edge worst-case noise', () => {
     // outside the band: untouched
     measure(qOut, w, model, makeRng(1), [0, 0, 0.6, 0.8], [0, 0, 0], [0, 0, 0, 1]);
     expect(Array.from(qOut)).toEqual([0, 0, 0.6, 0.8]);
+  });
+});
+
+describe('vehicle.sensors.boundedNoiseMode in the file', () => {
+  it('defaults to reflect, round-trips band-edge, refuses other words with its path', () => {
+    const j = testVehicleScenario({ runs: 1, seed: 1 });
+    const plain = loadScenario(j);
+    expect(plain.ok && plain.value.vehicle.sensors.boundedNoiseMode).toBe('reflect');
+    expect(plain.ok && 'boundedNoiseMode' in toScenarioFile(plain.value).vehicle.sensors).toBe(false);
+    const v = j.vehicle as { sensors: Record<string, unknown> };
+    v.sensors.boundedNoiseMode = 'band-edge';
+    const edge = loadScenario(j);
+    expect(edge.ok && toScenarioFile(edge.value).vehicle.sensors.boundedNoiseMode).toBe('band-edge');
+    v.sensors.boundedNoiseMode = 'edge';
+    const bad = loadScenario(j);
+    expect(bad.ok).toBe(false);
+    if (!bad.ok) expect(bad.errors[0]!.path).toBe('vehicle.sensors.boundedNoiseMode');
   });
 });
 
