@@ -17,6 +17,7 @@ export { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 export { runCertify } from './certify';
 export { runCompare, runFly } from './fly';
 export { runStudyCli } from './study';
+export { runSweepCli } from './sweep';
 export { runStudyMerge, runStudySlurm } from './study-campaign';
 
 export async function runCheck(file: string, json: unknown, { io }: CliContext): Promise<number> {

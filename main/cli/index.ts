@@ -7,6 +7,7 @@
  *   slewsmith compare <scenario>            the metrics table of every controller
  *   slewsmith certify <scenario>            the synergy-gap certificate of synergistic controllers
  *   slewsmith study   <scenario>            seeded Monte Carlo robustness study (also: study merge, study slurm)
+ *   slewsmith sweep   <scenario>            robustness sweep: one or two study parameters on a grid, a study per cell
  *   slewsmith schema                        the scenario format as JSON Schema
  *
  * Exit codes: 0 success; 2 invalid input or options (every problem named, field by field, on
@@ -189,6 +190,34 @@ const commands: Record<string, Command> = {
       }
       const doc = await readScenario(a.positional[0], io);
       return doc === null ? 2 : (await work()).runStudyCli(doc.json, a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
+    },
+  },
+  sweep: {
+    summary: 'robustness sweep: one or two study parameters on a grid, each cell a seeded study; settle-share maps with their boundary',
+    usage:
+      'slewsmith sweep <scenario.json> --param NAME=lo:hi:steps [--param2 NAME=v1,v2,...] --runs N [--controller id,...] [--workers K] [--seed S] [--level L] [--out DIR]',
+    options: [
+      HELP,
+      CONTROLLER,
+      {
+        name: 'param',
+        kind: 'value',
+        valueName: 'NAME=lo:hi:steps',
+        help: 'first swept parameter: noise-scale, worst-case-eta, hysteresis, control-rate-hz, torque-quantum-mnm, inertia-error, failed-wheel (values also as NAME=v1,v2,...)',
+      },
+      { name: 'param2', kind: 'value', valueName: 'NAME=lo:hi:steps', help: 'second swept parameter (a 2-D grid)' },
+      { name: 'runs', kind: 'value', valueName: 'N', help: 'cases per grid cell' },
+      { name: 'workers', kind: 'value', valueName: 'K', help: 'worker threads (default: CPU count); results do not depend on it' },
+      { name: 'seed', kind: 'value', valueName: 'S', help: 'sweep seed (default 0); cell i runs with a seed made from it and i' },
+      { name: 'level', kind: 'value', valueName: 'L', help: 'settle share of the boundary, 0.001 to 0.999 (default 0.5)' },
+      { name: 'out', kind: 'value', valueName: 'dir', help: 'write cells.csv and sweep.json there' },
+    ],
+    notes: [
+      "Each cell is the scenario's study (its dispersions, duration and settle rules) with the cell's values written in; exit 130 after Ctrl-C keeps the finished cells.",
+    ],
+    async run(a, { io }) {
+      const doc = await readScenario(a.positional[0], io);
+      return doc === null ? 2 : (await work()).runSweepCli(doc.json, a, io);
     },
   },
   schema: {

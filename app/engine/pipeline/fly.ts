@@ -105,6 +105,7 @@ export function scenarioFlight(
       rateSigmaRadPerS: s.vehicle.sensors.rateNoiseRadPerS,
       rateBiasRadPerS: s.vehicle.sensors.rateBiasRadPerS,
       adversarialEta: s.vehicle.sensors.boundedNoiseEta,
+      adversarialMode: s.vehicle.sensors.boundedNoiseMode,
       antipodalNoiseRad: s.vehicle.sensors.antipodalNoiseRad ?? 0,
     },
     seed: s.simulation.seed,

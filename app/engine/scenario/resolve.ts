@@ -92,6 +92,8 @@ export interface ResolvedVehicle {
     rateNoiseRadPerS: number;
     rateBiasRadPerS: Vec3;
     boundedNoiseEta: number;
+    /** How the worst-case noise acts inside |η| < ē (sim/sensors.ts). */
+    boundedNoiseMode: 'reflect' | 'band-edge';
     /** Worst-case bounded noise ē on pointing-only targets, rad (absent or 0: off). */
     antipodalNoiseRad?: number;
   };
@@ -211,6 +213,7 @@ function resolveVehicle(v: Scenario['vehicle']): ResolvedVehicle {
       rateNoiseRadPerS: v.sensors.rateNoiseDegPerS * RAD_PER_DEG,
       rateBiasRadPerS: scaled3(v.sensors.rateBiasDegPerS, RAD_PER_DEG),
       boundedNoiseEta: v.sensors.boundedNoiseEta ?? 0,
+      boundedNoiseMode: v.sensors.boundedNoiseMode ?? 'reflect',
       antipodalNoiseRad: (v.sensors.antipodalNoiseDeg ?? 0) * RAD_PER_DEG,
     },
     controlRateHz: v.controlRateHz,

@@ -187,6 +187,12 @@ export const SensorsSchema = z.strictObject({
     .describe(
       'Worst-case bounded noise ē on the error quaternion’s scalar part, a stress test of the laws (Mayhew, Sanfelice & Teel 2011): whenever |η| < ē the measured error is reflected to (ε, −η). Dimensionless; 0 or absent: off.',
     ),
+  boundedNoiseMode: z
+    .enum(['reflect', 'band-edge'])
+    .optional()
+    .describe(
+      'How the worst-case noise ē acts whenever |η| < ē: "reflect" (default) measures (ε, −η); "band-edge" measures η as −sgn(η)·ē (the vector part rescaled to a unit quaternion), the sign flip at the largest size the bound allows, which also switches a hysteretic law whose δ is below ē (Mayhew, Sanfelice & Teel 2011).',
+    ),
   ...antipodalNoiseSensorShape,
 });
 

@@ -66,6 +66,7 @@ export function toScenarioFile(r: ResolvedScenario): Scenario {
         rateNoiseDegPerS: v.sensors.rateNoiseRadPerS * DEG_PER_RAD,
         rateBiasDegPerS: deg3(v.sensors.rateBiasRadPerS),
         ...(v.sensors.boundedNoiseEta > 0 ? { boundedNoiseEta: v.sensors.boundedNoiseEta } : {}),
+        ...(v.sensors.boundedNoiseMode === 'band-edge' ? { boundedNoiseMode: 'band-edge' as const } : {}),
         ...((v.sensors.antipodalNoiseRad ?? 0) > 0 ? { antipodalNoiseDeg: v.sensors.antipodalNoiseRad! * DEG_PER_RAD } : {}),
       },
       controlRateHz: v.controlRateHz,

@@ -32,6 +32,11 @@ export interface SensorModel {
   rateBiasRadPerS: ArrayLike<number>;
   /** Worst-case bounded noise level ē on the error quaternion's scalar part (0 = off). */
   adversarialEta: number;
+  /**
+   * Inside |η| < ē: 'reflect' (default) measures (ε, −η); 'band-edge' measures η = −sgn(η)·ē with
+   * the vector part rescaled to keep a unit quaternion (η = 0 counts as positive).
+   */
+  adversarialMode?: 'reflect' | 'band-edge';
   /** Worst-case bounded noise ē on pointing-only segments, rad (absent or 0 = off). */
   antipodalNoiseRad?: number;
 }
@@ -79,7 +84,17 @@ export function measure(
   if (ebar > 0) {
     qConjMultiply(qe, qRef, qOut);
     if (Math.abs(qe[3]!) < ebar) {
-      qe[3] = -qe[3]!;
+      if (model.adversarialMode === 'band-edge') {
+        // Sign flipped at the bound's edge: a hysteretic law with δ < ē then switches at every
+        // crossing of η = 0, one with δ > ē never (Mayhew, Sanfelice & Teel, IEEE TAC 56(11), 2011).
+        const eta = qe[3]! >= 0 ? -ebar : ebar;
+        const nv = Math.hypot(qe[0]!, qe[1]!, qe[2]!);
+        const f = nv > 0 ? Math.sqrt(1 - ebar * ebar) / nv : 0;
+        qe[0] = qe[0]! * f;
+        qe[1] = qe[1]! * f;
+        qe[2] = qe[2]! * f;
+        qe[3] = eta;
+      } else qe[3] = -qe[3]!;
       qMultiply(qOut, qRef, qe);
       qNormalize(qOut, qOut);
     }

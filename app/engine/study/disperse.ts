@@ -74,6 +74,7 @@ export function disperseScenario(
         rateNoiseRadPerS: v.sensors.rateNoiseRadPerS,
         rateBiasRadPerS: Float64Array.from(d.rateBiasRadPerS),
         boundedNoiseEta: d.adversarialEta,
+        boundedNoiseMode: v.sensors.boundedNoiseMode,
         antipodalNoiseRad: d.antipodalNoiseRad ?? 0,
       },
       controlRateHz: d.controlRateHz,

@@ -11,6 +11,7 @@
  *   shardRange / shardHeader / planMerge …                    campaign shards and their merge
  *   studyCaseScenario(json, overrides, index)                 one case as a normal scenario file
  *   rerunStudyCase(json, overrides, index, controllerId?)     one case re-flown with full traces
+ *   validateSweep / runSweep / runSweepCell / sweepJson         robustness sweeps: grid cells as studies
  */
 export type { StudyDefinition, AttitudeDispersion, ActuationMode } from '../scenario/study';
 export { defaultStudySpec, DEFAULT_DURATION_S, DEFAULT_SETTLED_FOR_S, DEFAULT_WORST_CASES } from '../scenario/study';
@@ -48,3 +49,8 @@ export type { FromWorker, ToWorker, StudyWorkerPort, ParallelOptions, ParallelOu
 export { createStudyWorker, startStudyParallel, inThreadPort } from './parallel';
 export type { StudyCaseRerun } from './caseScenario';
 export { studyCaseScenario, rerunStudyCase } from './caseScenario';
+export type { SweepAxis, SweepAxisSpec, SweepDefinition, SweepParameter, SweepSpec } from './sweep';
+export { validateSweep, cellCount, cellPosition, cellSeed, SWEEP_PARAMETERS, SWEEP_PARAMETER_NAMES } from './sweep';
+export type { BoundaryPoint, SweepBoundary, SweepCell, SweepCellController, SweepInfo, SweepResult } from './sweepRun';
+export { runSweep, runSweepCell, sweepInfo, sweepResultOf, sweepBoundaries, sweepCellJson } from './sweepRun';
+export { sweepCellsCsv, sweepJson, SWEEP_FORMAT, SWEEP_VERSION } from './sweepExport';

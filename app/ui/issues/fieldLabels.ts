@@ -123,6 +123,7 @@ const SENSORS: Record<string, Leaf> = {
   rateNoiseDegPerS: { label: 'Rate noise σ', suggest: 0.01 },
   rateBiasDegPerS: { label: 'Rate bias', suggest: [0, 0, 0] },
   boundedNoiseEta: { label: 'Bounded noise ē (file only)', suggest: 0 },
+  boundedNoiseMode: { label: 'Bounded noise mode (file only)', suggest: 'reflect' },
 };
 
 const ACTUATION: Record<string, Leaf> = {
