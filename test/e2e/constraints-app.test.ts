@@ -89,6 +89,31 @@ describe.skipIf(skipBrowser)('constraints in the app (Chromium)', () => {
     expect(await card.getByTestId('constraint-plan-0').textContent()).toMatch(/plan margin −?-?\d.*violated/);
   });
 
+  it('3D view: the cone is drawn and coloured violated at the start, clear once the margin is positive', async () => {
+    const cones = (t: number) =>
+      page.evaluate((t) => {
+        const app = (window as unknown as { __slewsmith: { clock: { pause(): void; setTime(t: number): void } } }).__slewsmith;
+        app.clock.pause();
+        app.clock.setTime(t);
+        return new Promise<string[]>((resolve) =>
+          requestAnimationFrame(() =>
+            requestAnimationFrame(() => {
+              const v = (window as unknown as { __slewsmithView: any }).__slewsmithView;
+              const names: string[] = [];
+              for (const vp of v.model.viewports) for (const o of vp.common.keepOut.children) if (o.name) names.push(o.name);
+              resolve(names);
+            }),
+          ),
+        );
+      }, t);
+    expect(await cones(0)).toEqual(['keep-out:Imager start cone:violated', 'label:Imager start cone (violated)']);
+    // The plan summary gives the end of the violation; 5 s later the axis is well outside the cone.
+    const text = (await page.locator('[data-testid=comparison] tr[data-metric=status] td').first().textContent()) ?? '';
+    const until = Number(/violated ([\d.]+) s/.exec(text)?.[1]);
+    expect(until).toBeGreaterThan(0);
+    expect(await cones(until + 5)).toEqual(['keep-out:Imager start cone:clear', 'label:Imager start cone']);
+  });
+
   it('a half-angle of 190 is named at its field with the form label and rule', async () => {
     const card = page.getByTestId('constraint-0');
     const input = card.locator('input[data-path="constraints[0].halfAngleDeg"]');

@@ -16,6 +16,7 @@ import { DEG_PER_RAD } from '../../app/engine/units';
 import { CONSTRAINT_DASHES, constraintMarginPlot, marginDegrees } from '../../app/ui/plots/constraintPlot';
 import { LIMIT_COLOR, runColor, type Series } from '../../app/ui/plots/base';
 import { asset } from './cli-harness';
+import { constraintCones, sampleAt } from '../../app/ui/view/viewRuns';
 
 type Json = Record<string, unknown>;
 
@@ -145,5 +146,29 @@ describe('constraint margin plot', () => {
 
   it('degrees from radians with NaN as gaps', () => {
     expect(marginDegrees(Float64Array.of(Math.PI / 2, Number.NaN, -Math.PI), 3)).toEqual([90, null, -180]);
+  });
+
+  it('3D cones: fixed-direction constraints drawn, coloured by the sign of the hand-computed margin at the time', () => {
+    const r = out.runs[0]!;
+    const start = CONSTRAINTS[0]!;
+    const ends = r.constraints!.constraints[0]!.intervals[0]!.endS;
+    let flips = 0;
+    for (const time of [0, ends / 2, ends + 0.5, r.trace.t[r.trace.n - 1]!]) {
+      const cones = constraintCones(out, r, time);
+      expect(cones.map((c) => c.label)).toEqual(['Start cone', 'Stay near (keep-in)']);
+      expect(cones[0]!.halfAngleRad).toBeCloseTo(5 / DEG_PER_RAD, 12);
+      const k = sampleAt(r.trace.t, r.trace.n, time);
+      const angle = angleDeg(inertialAxis(r.trace.q.subarray(4 * k, 4 * k + 4), start.bodyAxis), START_DIR);
+      const handViolated = angle - start.halfAngleDeg - start.marginDeg < 0;
+      expect(cones[0]!.violated, `t=${time}`).toBe(handViolated);
+      if (!handViolated) flips++;
+    }
+    expect(flips).toBe(2);
+    expect(constraintCones(out, null, 0)[0]!.violated).toBeUndefined();
+  });
+
+  it('sampleAt finds the last sample at or before the time', () => {
+    const t = Float64Array.of(0, 0.1, 0.2, 0.3);
+    expect([-1, 0, 0.05, 0.1, 0.25, 0.3, 9].map((x) => sampleAt(t, 4, x))).toEqual([0, 0, 0, 1, 2, 3, 3]);
   });
 });
