@@ -12,6 +12,7 @@ import { CautionStrip, TopBar } from './components/Chrome';
 import { VehiclePanel } from './components/VehiclePanel';
 import { ManeuverPanel } from './components/ManeuverPanel';
 import { ControllersPanel } from './components/ControllersPanel';
+import { ConstraintsPanel } from './components/ConstraintsPanel';
 import { RunSettingsPanel } from './components/RunSettingsPanel';
 import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
@@ -71,6 +72,7 @@ export function App({ app }: { app: AppController }) {
             <VehiclePanel />
             <ManeuverPanel />
             <ControllersPanel />
+            <ConstraintsPanel />
             <RunSettingsPanel />
           </aside>
           {studyOpen ? (

@@ -134,6 +134,7 @@ export class CommonContent {
     for (const c of cones) {
       if (!unitAxis(dir, c.dirInertial) || !(c.halfAngleRad > 0)) continue;
       const seg = 48;
+      const color = c.violated === false ? COLORS.constraintClear : COLORS.keepOut;
       const { fan, rim } = keepOutConePositions(dir, Math.min(c.halfAngleRad, Math.PI / 2), R, seg);
       const fg = new BufferGeometry();
       fg.setAttribute('position', new BufferAttribute(fan, 3));
@@ -142,15 +143,15 @@ export class CommonContent {
       fg.setIndex(idx);
       const surface = new Mesh(
         fg,
-        new MeshBasicMaterial({ color: COLORS.keepOut, transparent: true, opacity: 0.1, side: DoubleSide, depthWrite: false }),
+        new MeshBasicMaterial({ color, transparent: true, opacity: c.violated ? 0.22 : 0.1, side: DoubleSide, depthWrite: false }),
       );
-      surface.name = `keep-out:${c.label}`;
+      surface.name = `keep-out:${c.label}${c.violated === undefined ? '' : c.violated ? ':violated' : ':clear'}`;
       const rg = new BufferGeometry();
       rg.setAttribute('position', new BufferAttribute(rim, 3));
-      const ring = new LineLoop(rg, new LineBasicMaterial({ color: COLORS.keepOut, transparent: true, opacity: 0.85 }));
+      const ring = new LineLoop(rg, new LineBasicMaterial({ color, transparent: true, opacity: 0.85 }));
       this.keepOut.add(surface, ring);
       if (this.kit.labels) {
-        const lab = this.kit.labels(c.label, { color: cssHex(COLORS.keepOut), heightFraction: 0.036 });
+        const lab = this.kit.labels(c.violated ? `${c.label} (violated)` : c.label, { color: cssHex(color), heightFraction: 0.036 });
         lab.position.set(dir[0]!, dir[1]!, dir[2]).multiplyScalar(R * 1.08);
         this.keepOut.add(lab);
       }

@@ -15,6 +15,8 @@ export const COLORS = {
   jumpMarker: 0xffffff,
   keepOut: 0xd6455d,
   keepOutEntry: 0xff5c7a,
+  /** A constraint cone whose margin is not negative at the current time. */
+  constraintClear: 0x3fb68b,
   reference: 0xc0a0ff,
   envelope: 0x6b8fb3,
   envelopeEdge: 0x8fb0cf,

@@ -57,6 +57,8 @@ export interface KeepOutCone {
   dirInertial: ArrayLike<number>;
   /** Half angle, rad, in (0, π/2]. */
   halfAngleRad: number;
+  /** Whether the shown run's margin to this cone is negative at the current time (colours the cone); absent: not known. */
+  violated?: boolean;
 }
 
 /** The empty cone list, one shared instance (option changes are detected by identity). */

@@ -42,9 +42,10 @@ describe('plot series from a demo run', () => {
 
   const opts = (logError: boolean): OverlayOptions => ({ logError, boresight: defaultBoresight(out) });
 
-  it('builds the four overlays over every ticked run and the per-run plots of the first, in display units', () => {
+  it('builds the overlays over every ticked run and the per-run plots of the first, in display units', () => {
     const set = buildPlots(out, ['synergistic:follow-plan', 'pd:follow-plan'], opts(false), join);
-    expect(set.overlays.map((p) => p.id)).toEqual(['error-angle', 'boresight', 'rate-magnitude', 'momentum-use']);
+    // The demo declares a keep-out cone, so the constraint-margin overlay follows the four others.
+    expect(set.overlays.map((p) => p.id)).toEqual(['error-angle', 'boresight', 'rate-magnitude', 'momentum-use', 'constraint-margin']);
     expect(set.detailPlots.map((p) => p.id)).toEqual([
       'body-rate',
       'wheel-momentum',

@@ -6,6 +6,7 @@ import { useMemo } from 'react';
 import { useApp, useAllIssues, useAppState } from '../context';
 import { fmt, pct } from '../format';
 import { DEG_PER_RAD } from '../../engine/units';
+import type { PipelineOutput } from '../../engine/pipeline/types';
 import { presentIssues, sentence } from '../issues/present';
 
 export { ComparisonTable } from './ComparisonTable';
@@ -141,6 +142,50 @@ export function PlanSummary() {
           ))}
         </tbody>
       </table>
+      <PlanConstraints output={output} />
     </div>
+  );
+}
+
+/** Each constraint's smallest planned margin and whether the planned reference violates it. */
+function PlanConstraints({ output }: { output: PipelineOutput }) {
+  const report = output.plan.constraints;
+  if (!report || report.constraints.length === 0) return null;
+  return (
+    <table className="data-table plan-table" data-testid="plan-constraints">
+      <thead>
+        <tr>
+          <th>constraint</th>
+          <th title="Smallest margin of the planned reference to the cone edge beyond its margin, deg">
+            min margin
+            <br />
+            deg
+          </th>
+          <th title="When the smallest margin occurs, s from the epoch">
+            at
+            <br />s
+          </th>
+          <th>plan</th>
+        </tr>
+      </thead>
+      <tbody>
+        {report.constraints.map((c) => {
+          const violated = c.intervals.length > 0;
+          const checked = Number.isFinite(c.minMarginRad);
+          return (
+            <tr key={c.name} className={violated ? 'infeasible' : ''} data-constraint={c.name}>
+              <td className="wrap">
+                {c.name} <span className="muted">({c.kind})</span>
+              </td>
+              <td className="num">{checked ? fmt(c.minMarginRad * DEG_PER_RAD, 3) : '–'}</td>
+              <td className="num">{checked ? fmt(c.minAtS, 4) : '–'}</td>
+              <td className={violated ? 'bad' : 'good'}>
+                {!checked ? 'outside its window' : violated ? `violated ${fmt(c.violatedS, 3)} s` : 'clear'}
+              </td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
   );
 }

@@ -12,6 +12,7 @@
 import { LAWS } from '../../engine/control/registry';
 import type { LawId } from '../../engine/control/params';
 import { parsePath, type PathToken } from '../store/paths';
+import { CONSTRAINT_FIELDS as CF } from '../constraintForms';
 
 export interface FieldDescription {
   /** Sections, outermost first, as the form titles them ("Vehicle", "Reaction wheels"). */
@@ -297,6 +298,37 @@ function keepOutField(scenario: unknown, rest: readonly PathToken[]): FieldDescr
   return leaf([...K, `cone ${i + 1}${name}`], KEEP_OUT, more);
 }
 
+const CONSTRAINT: Record<string, Leaf> = {
+  name: { label: CF.name },
+  kind: { label: CF.kind, suggest: 'keep-out' },
+  bodyAxis: { label: CF.bodyAxis, suggest: [0, 0, 1] },
+  halfAngleDeg: { label: CF.halfAngleDeg, suggest: 30 },
+  marginDeg: { label: CF.marginDeg, suggest: 0 },
+};
+const CONSTRAINT_DIRECTION: Record<string, Leaf> = {
+  kind: { label: CF.direction, suggest: 'sun' },
+  inertialDirection: { label: CF.inertialDirection, suggest: [1, 0, 0] },
+  latitudeDeg: { label: CF.latitudeDeg, suggest: 0 },
+  longitudeDeg: { label: CF.longitudeDeg, suggest: 0 },
+  altitudeM: { label: CF.altitudeM, suggest: 0 },
+};
+const CONSTRAINT_WINDOW: Record<string, Leaf> = { startS: { label: CF.startS, suggest: 0 }, endS: { label: CF.endS } };
+
+/** The Constraints panel (ConstraintsPanel.tsx): one card per constraint. */
+function constraintField(scenario: unknown, rest: readonly PathToken[]): FieldDescription | null {
+  const C = ['Constraints'];
+  const [i, key, ...more] = rest;
+  if (i === undefined) return { where: [], label: 'Constraints' };
+  if (typeof i !== 'number') return null;
+  const c = get(scenario, ['constraints', i]) as Obj | undefined;
+  const name = typeof c?.name === 'string' && c.name.trim() ? ` “${c.name}”` : '';
+  const where = [...C, `constraint ${i + 1}${name}`];
+  if (key === undefined) return { where: C, label: `constraint ${i + 1}${name}` };
+  if (key === 'direction') return more.length === 0 ? { where, label: CF.direction } : leaf(where, CONSTRAINT_DIRECTION, more);
+  if (key === 'window') return more.length === 0 ? { where, label: 'Time window' } : leaf(where, CONSTRAINT_WINDOW, more);
+  return leaf(where, CONSTRAINT, [key, ...more]);
+}
+
 const STUDY: Record<string, Leaf> = {
   runs: { label: 'Cases', suggest: 100 },
   seed: { label: 'Seed', suggest: 1 },
@@ -374,6 +406,8 @@ export function describeField(path: string, scenario: unknown): FieldDescription
       return rest.length === 0 ? { where: [], label: 'Simulation' } : leaf(['Simulation'], SIMULATION, rest);
     case 'keepOut':
       return keepOutField(scenario, rest);
+    case 'constraints':
+      return constraintField(scenario, rest);
     case 'study':
       return studyField(rest);
     default:

@@ -27,7 +27,18 @@ export interface PresentedIssue {
   count?: number;
 }
 
-const TOP_KEYS = new Set(['vehicle', 'initial', 'targets', 'controllers', 'planning', 'simulation', 'keepOut', 'study', 'epochUtc']);
+const TOP_KEYS = new Set([
+  'vehicle',
+  'initial',
+  'targets',
+  'controllers',
+  'planning',
+  'simulation',
+  'keepOut',
+  'constraints',
+  'study',
+  'epochUtc',
+]);
 
 /** Path-like words inside a message: `vehicle.actuation.mode`, `controllers[0]`. */
 const PATH_WORD = /\b[a-z][A-Za-z0-9]*(?:\[\d+\]|\.[A-Za-z][A-Za-z0-9]*)+/g;

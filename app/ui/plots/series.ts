@@ -14,6 +14,7 @@ import { DEG_PER_RAD, MILLI_PER_SI } from '../../engine/units';
 import { runName } from '../modeNames';
 import { momentumLimitIntervals, segmentMarkers, torqueLimitIntervals, type LimitInterval } from './markers';
 import { overlayPlots, type OverlayOptions } from './overlays';
+import { constraintMarginPlot } from './constraintPlot';
 import { AXIS_COLORS, LIMIT_COLOR, MONITOR_FILL, PALETTE, channel, times, type PlotSpec, type Series, type SeriesSpec } from './base';
 
 export * from './base';
@@ -217,7 +218,8 @@ export function buildPlots(
   const runs = selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
   const markers = segmentMarkers(out);
   const withMarkers = (p: PlotSpec): PlotSpec => ({ ...p, markers });
-  const overlays = overlayPlots(out, runs, o, join).map(withMarkers);
+  const margin = constraintMarginPlot(out, runs, join);
+  const overlays = [...overlayPlots(out, runs, o, join), ...(margin ? [margin] : [])].map(withMarkers);
   const detail = runs[0] ?? null;
   if (!detail) return { overlays, detail: null, detailPlots: [], hiddenNote: null };
   const d = detailPlots(detail, out);

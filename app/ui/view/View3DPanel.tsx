@@ -8,7 +8,7 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { createAttitudeView, type AttitudeViewHandle } from '../../view3d';
 import type { ViewLayout, ViewOptions } from '../../view3d/types';
 import { useApp, useAppState } from '../context';
-import { keepOutCones, toViewRuns } from './viewRuns';
+import { constraintCones, conesKey, toViewRuns } from './viewRuns';
 
 const TOGGLES: { key: keyof ViewOptions; label: string }[] = [
   { key: 'showTrail', label: 'trail' },
@@ -34,6 +34,11 @@ export function View3DPanel() {
     () => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []),
     [output, selected],
   );
+
+  // What the frame loop needs to colour the cones by the shown run's margin at the current time.
+  const shown = useRef<{ output: typeof output; run: (typeof runs)[number] | null; key: string }>({ output: null, run: null, key: '' });
+  shown.current.output = output;
+  shown.current.run = runs[0] ?? null;
 
   // Mount once.
   useEffect(() => {
@@ -65,7 +70,16 @@ export function View3DPanel() {
     });
     ro.observe(h);
     const offTick = app.clock.onTick((t, moved) => {
-      if (moved) v.setTime(t);
+      if (moved) {
+        v.setTime(t);
+        const sh = shown.current;
+        const cones = constraintCones(sh.output, sh.run, t);
+        const key = conesKey(cones);
+        if (key !== sh.key) {
+          sh.key = key;
+          v.setOptions({ keepOut: cones });
+        }
+      }
       if (moved || needsRender.current || performance.now() < activeUntil) {
         needsRender.current = false;
         v.render();
@@ -94,9 +108,11 @@ export function View3DPanel() {
   useEffect(() => {
     const v = view.current;
     if (!v) return;
-    v.setOptions({ ...toggles, keepOut: keepOutCones(output) });
+    const cones = constraintCones(output, runs[0] ?? null, app.clock.t);
+    shown.current.key = conesKey(cones);
+    v.setOptions({ ...toggles, keepOut: cones });
     needsRender.current = true;
-  }, [toggles, output]);
+  }, [toggles, output, runs, app]);
 
   return (
     <div className="view3d" data-testid="view3d">

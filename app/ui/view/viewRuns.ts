@@ -5,7 +5,7 @@
  */
 import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types';
 import { envelopeCapacity } from '../../engine/wheels/envelope';
-import { HALF_PI } from '../../engine/units';
+import { DEG_PER_RAD, HALF_PI } from '../../engine/units';
 import type { KeepOutCone, ViewRun, ViewTarget } from '../../view3d/types';
 import { runName } from '../modeNames';
 
@@ -36,8 +36,56 @@ export function toViewRuns(out: PipelineOutput, runs: readonly ControllerRun[]):
   }));
 }
 
-/** Keep-out cones of the pipeline output (SI) for the view. */
-export function keepOutCones(out: PipelineOutput | null): KeepOutCone[] {
+/** Index of the last trace sample at or before t (0 before the first). */
+export function sampleAt(t: ArrayLike<number>, n: number, time: number): number {
+  let lo = 0;
+  let hi = n - 1;
+  if (n <= 0 || !(time >= t[0]!)) return 0;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1;
+    if (t[mid]! <= time) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
+}
+
+/**
+ * Every cone the view can draw — the `keepOut` cones and the `constraints` list's cones against a
+ * fixed inertial direction (the Sun, Moon, Earth and station directions move and are not drawn) —
+ * with `violated` from the shown run's margin at `time` (the engine's margin series; a sample
+ * outside the constraint's window counts as clear). Without a run, `violated` is absent.
+ */
+export function constraintCones(out: PipelineOutput | null, run: ControllerRun | null, time: number): KeepOutCone[] {
   if (!out) return [];
-  return out.keepOut.map((k) => ({ label: k.label, dirInertial: k.inertialDirection, halfAngleRad: Math.min(HALF_PI, k.halfAngleRad) }));
+  const info = out.constraints ?? [];
+  const margins = run?.constraints?.marginRad;
+  const k = run ? sampleAt(run.trace.t, run.trace.n, time) : 0;
+  const violated = (i: number): boolean | undefined => {
+    const m = margins?.[i]?.[k];
+    return m === undefined ? undefined : m < 0;
+  };
+  const cones: KeepOutCone[] = out.keepOut.map((c, i) => ({
+    label: c.label,
+    dirInertial: c.inertialDirection,
+    halfAngleRad: Math.min(HALF_PI, c.halfAngleRad),
+    violated: violated(i),
+  }));
+  const list = out.scenario.file.constraints ?? [];
+  list.forEach((c, j) => {
+    if (c.direction.kind !== 'fixed') return;
+    const i = out.keepOut.length + j;
+    const halfAngleRad = Math.min(HALF_PI, info[i]?.halfAngleRad ?? c.halfAngleDeg / DEG_PER_RAD);
+    cones.push({
+      label: c.kind === 'keep-in' ? `${c.name} (keep-in)` : c.name,
+      dirInertial: c.direction.inertialDirection,
+      halfAngleRad,
+      violated: violated(i),
+    });
+  });
+  return cones;
+}
+
+/** A key that changes when the cones' colours change (the view rebuilds the cones only then). */
+export function conesKey(cones: readonly KeepOutCone[]): string {
+  return cones.map((c) => (c.violated === undefined ? '?' : c.violated ? '1' : '0')).join('');
 }
