@@ -13,6 +13,8 @@ import { VehiclePanel } from './components/VehiclePanel';
 import { ManeuverPanel } from './components/ManeuverPanel';
 import { ControllersPanel } from './components/ControllersPanel';
 import { RunSettingsPanel } from './components/RunSettingsPanel';
+import { OrbitPanel } from './orbit/OrbitPanel';
+import { PassesView } from './orbit/PassesView';
 import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
@@ -69,6 +71,7 @@ export function App({ app }: { app: AppController }) {
         <main className={`workspace ${studyOpen ? 'study-open' : ''}`}>
           <aside className="left" aria-label="Scenario editors">
             <VehiclePanel />
+            <OrbitPanel />
             <ManeuverPanel />
             <ControllersPanel />
             <RunSettingsPanel />
@@ -84,6 +87,7 @@ export function App({ app }: { app: AppController }) {
               <aside className="right" aria-label="Plan and comparison">
                 <RunStatus />
                 <PlanSummary />
+                <PassesView />
               </aside>
               {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
               <section className="compare-band" aria-label="Comparison of runs">

@@ -14,6 +14,7 @@ import {
   windowErrorCells,
   wrapLongitudeDeg,
 } from '../../app/ui/orbit/orbitRows';
+import { describeField } from '../../app/ui/issues/fieldLabels';
 
 // 2026-03-20T21:55:00Z as TAI seconds since 2000-01-01T12:00:00 TAI, by hand: 2000-01-01 → 2026-01-01
 // is 26·365 + 7 leap days (2000 … 2024) = 9497 d; to 20 March 31 + 28 + 19 = 78 d more, so 9575 d;
@@ -108,5 +109,17 @@ describe('orbit rows', () => {
   it('TLE text to lines: CRLF, trailing spaces and empty lines dropped', () => {
     expect(tleLinesOfText('TITLE  \r\n1 abc \r\n\r\n2 def\n')).toEqual(['TITLE', '1 abc', '2 def']);
     expect(tleLinesOfText('')).toEqual([]);
+  });
+});
+
+describe('orbit issue labels (app/ui/issues/fieldLabels.ts)', () => {
+  it('TLE issues, elements and sites are named in the Orbit panel’s words', () => {
+    expect(describeField('orbit.tle line 2, column 69', {})).toEqual({ where: ['Orbit'], label: 'Two-line element set' });
+    expect(describeField('orbit.meanElements.inclinationDeg', {})).toMatchObject({
+      where: ['Orbit', 'Mean elements'],
+      label: 'Inclination',
+    });
+    expect(describeField('orbit.sites[1].elevationMaskDeg', {})).toMatchObject({ where: ['Orbit', 'Site 2'], label: 'Elevation mask' });
+    expect(describeField('orbit.horizonS', {})).toMatchObject({ where: ['Orbit'], label: 'Horizon' });
   });
 });
