@@ -15,6 +15,8 @@ import {
   wrapLongitudeDeg,
 } from '../../app/ui/orbit/orbitRows';
 import { describeField } from '../../app/ui/issues/fieldLabels';
+import { boresightChoices } from '../../app/ui/plots/overlays';
+import type { PipelineOutput } from '../../app/engine/pipeline/types';
 
 // 2026-03-20T21:55:00Z as TAI seconds since 2000-01-01T12:00:00 TAI, by hand: 2000-01-01 → 2026-01-01
 // is 26·365 + 7 leap days (2000 … 2024) = 9497 d; to 20 March 31 + 28 + 19 = 78 d more, so 9575 d;
@@ -121,5 +123,27 @@ describe('orbit issue labels (app/ui/issues/fieldLabels.ts)', () => {
     });
     expect(describeField('orbit.sites[1].elevationMaskDeg', {})).toMatchObject({ where: ['Orbit', 'Site 2'], label: 'Elevation mask' });
     expect(describeField('orbit.horizonS', {})).toMatchObject({ where: ['Orbit'], label: 'Horizon' });
+  });
+});
+
+describe('boresight choices of tracking targets (app/ui/plots/overlays.ts)', () => {
+  it('a track names its body axis; nadir without one is +Z; a fixed target without pointing has none', () => {
+    const out = {
+      scenario: {
+        targets: [{ label: 'site' }, { label: 'nadir' }, { label: 'fixed' }],
+        file: {
+          targets: [
+            { track: { site: { id: 'a', bodyAxis: [0, 0, 2], bodySecondary: [1, 0, 0] } } },
+            { track: { nadir: { yaw: 'lvlh' } } },
+            { attitude: { euler: { sequence: 'zyx', anglesDeg: [0, 0, 0] } } },
+          ],
+        },
+      },
+    } as unknown as PipelineOutput;
+    const c = boresightChoices(out).filter((x) => x.key.startsWith('target-'));
+    expect(c.map((x) => [x.key, [...x.axis]])).toEqual([
+      ['target-1', [0, 0, 1]],
+      ['target-2', [0, 0, 1]],
+    ]);
   });
 });
