@@ -58,7 +58,7 @@ describe.skipIf(skipBrowser)('orbit scenarios in the app (Chromium)', () => {
     const passes = page.getByTestId('passes-table').locator('tbody tr');
     expect(await passes.count()).toBeGreaterThanOrEqual(3);
     const first = await passes.first().locator('td').allTextContents();
-    expect(first[1]).toMatch(/^2026-03-2\d \d\d:\d\d:\d\d$/);
+    expect(first[1]).toMatch(/^(\d\d-\d\d )?\d\d:\d\d:\d\d$/);
     expect(Number(first[3])).toBeGreaterThan(0);
     expect(await page.getByTestId('windows-table').locator('tbody tr').count()).toBe(JSON.parse(example).targets.length);
     expect(await page.getByTestId('window-errors-table').locator('tbody tr').count()).toBeGreaterThan(0);

@@ -9,6 +9,7 @@ import {
   eclipseRows,
   groundTrackPieces,
   passRows,
+  shortUtcText,
   tleLinesOfText,
   utcText,
   windowErrorCells,
@@ -41,6 +42,8 @@ describe('orbit rows', () => {
     expect(utcText(EPOCH_TAI, 3661.4)).toBe('2026-03-20 22:56:01');
     // 2 h 5 min later crosses midnight.
     expect(utcText(EPOCH_TAI, 7500)).toBe('2026-03-21 00:00:00');
+    expect(shortUtcText(EPOCH_TAI, 3661.4)).toBe('22:56:01');
+    expect(shortUtcText(EPOCH_TAI, 7500)).toBe('03-21 00:00:00');
     expect(durationText(3725)).toBe('01:02:05');
     expect(durationText(59.6)).toBe('00:01:00');
   });

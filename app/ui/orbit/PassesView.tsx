@@ -7,7 +7,7 @@
 import { useMemo } from 'react';
 import { useAppState } from '../context';
 import { modeShort } from '../modeNames';
-import { eclipseRows, passRows, windowErrorCells, windowRows } from './orbitRows';
+import { eclipseRows, passRows, utcText, windowErrorCells, windowRows } from './orbitRows';
 import { GroundTrack } from './GroundTrack';
 
 export function PassesView() {
@@ -22,7 +22,10 @@ export function PassesView() {
   return (
     <div className={`passes ${current ? '' : 'stale'}`} data-testid="passes-view">
       <div className="panel-head">
-        Passes and windows <span className="muted">· {orbit.elementSetName}, times UTC</span>
+        Passes and windows{' '}
+        <span className="muted">
+          · {orbit.elementSetName}; times UTC on {utcText(orbit.epochTaiS, 0).slice(0, 10)} unless dated
+        </span>
       </div>
       <GroundTrack orbit={orbit} />
       <table className="data-table passes-table" data-testid="passes-table">
@@ -44,10 +47,14 @@ export function PassesView() {
             </tr>
           )}
           {passes.map((p, k) => (
-            <tr key={k} data-site={p.siteId} title={`${p.siteLabel}: ${p.duration} above the mask${p.note ? ` (${p.note})` : ''}`}>
+            <tr
+              key={k}
+              data-site={p.siteId}
+              title={`${p.siteLabel}: ${p.start} to ${p.end} UTC, ${p.duration} above the mask${p.note ? ` (${p.note})` : ''}`}
+            >
               <td className="wrap">{p.siteLabel}</td>
-              <td className="num">{p.start}</td>
-              <td className="num">{p.end}</td>
+              <td className="num">{p.startShort}</td>
+              <td className="num">{p.endShort}</td>
               <td className="num">{p.maxElevation}</td>
             </tr>
           ))}
@@ -71,9 +78,9 @@ export function PassesView() {
             </tr>
           )}
           {eclipses.map((e, k) => (
-            <tr key={k} title={e.note || undefined}>
-              <td className="num">{e.start}</td>
-              <td className="num">{e.end}</td>
+            <tr key={k} title={`${e.start} to ${e.end} UTC${e.note ? ` (${e.note})` : ''}`}>
+              <td className="num">{e.startShort}</td>
+              <td className="num">{e.endShort}</td>
               <td className="num">{e.umbra}</td>
             </tr>
           ))}
@@ -91,7 +98,10 @@ export function PassesView() {
         </thead>
         <tbody>
           {windows.map((w) => (
-            <tr key={w.target} title={`Slew starts ${w.slewStart}; due ${w.due}; peak elevation ${w.maxElevation}°`}>
+            <tr
+              key={w.target}
+              title={`Slew starts ${w.slewStart}, tracking ${w.trackStart} to ${w.holdEnd} UTC; due ${w.due}; peak elevation ${w.maxElevation}°`}
+            >
               <td>{w.target + 1}</td>
               <td className="wrap">
                 {w.label}
@@ -99,8 +109,8 @@ export function PassesView() {
                   {w.what} · {w.due}
                 </div>
               </td>
-              <td className="num">{w.trackStart}</td>
-              <td className="num">{w.holdEnd}</td>
+              <td className="num">{w.trackStartShort}</td>
+              <td className="num">{w.holdEndShort}</td>
             </tr>
           ))}
         </tbody>

@@ -12,6 +12,16 @@ export function utcText(epochTaiS: number, t: number): string {
   return orbitUtcLabel(epochTaiS, t, 0).replace('T', ' ');
 }
 
+/**
+ * Short UTC text for narrow tables: `hh:mm:ss` on the scenario epoch's UTC date, `MM-DD hh:mm:ss`
+ * on any other date (the full label is in utcText).
+ */
+export function shortUtcText(epochTaiS: number, t: number): string {
+  const full = utcText(epochTaiS, t);
+  const day0 = utcText(epochTaiS, 0).slice(0, 10);
+  return full.slice(0, 10) === day0 ? full.slice(11) : full.slice(5);
+}
+
 /** `hh:mm:ss` of a duration in seconds (rounded to the second). */
 export function durationText(s: number): string {
   const whole = Math.round(s);
@@ -27,6 +37,9 @@ export interface PassRow {
   siteLabel: string;
   start: string;
   end: string;
+  /** Start and end in shortUtcText form. */
+  startShort: string;
+  endShort: string;
   duration: string;
   /** Peak elevation, degrees, two decimals. */
   maxElevation: string;
@@ -52,6 +65,8 @@ export function passRows(o: Pick<OrbitOutput, 'epochTaiS' | 'sites'>): PassRow[]
         siteLabel: s.label,
         start: utcText(o.epochTaiS, p.startS),
         end: utcText(o.epochTaiS, p.endS),
+        startShort: shortUtcText(o.epochTaiS, p.startS),
+        endShort: shortUtcText(o.epochTaiS, p.endS),
         duration: durationText(p.endS - p.startS),
         maxElevation: (p.maxElevationRad * DEG_PER_RAD).toFixed(2),
         note: clipNote(p.startClipped, p.endClipped),
@@ -63,6 +78,8 @@ export function passRows(o: Pick<OrbitOutput, 'epochTaiS' | 'sites'>): PassRow[]
 export interface EclipseRow {
   start: string;
   end: string;
+  startShort: string;
+  endShort: string;
   duration: string;
   /** Umbra duration, or "no umbra". */
   umbra: string;
@@ -73,6 +90,8 @@ export function eclipseRows(o: Pick<OrbitOutput, 'epochTaiS' | 'eclipses'>): Ecl
   return o.eclipses.map((e) => ({
     start: utcText(o.epochTaiS, e.startS),
     end: utcText(o.epochTaiS, e.endS),
+    startShort: shortUtcText(o.epochTaiS, e.startS),
+    endShort: shortUtcText(o.epochTaiS, e.endS),
     duration: durationText(e.endS - e.startS),
     umbra: Number.isFinite(e.umbraStartS) && Number.isFinite(e.umbraEndS) ? durationText(e.umbraEndS - e.umbraStartS) : 'no umbra',
     note: clipNote(e.startClipped, e.endClipped),
@@ -94,6 +113,8 @@ export interface WindowRow {
   slewStart: string;
   trackStart: string;
   holdEnd: string;
+  trackStartShort: string;
+  holdEndShort: string;
   /** How the window was set: "next pass" / "at a time" / "after the previous target". */
   due: string;
   maxElevation: string;
@@ -107,6 +128,8 @@ export function windowRows(o: Pick<OrbitOutput, 'epochTaiS' | 'windows'>): Windo
     slewStart: utcText(o.epochTaiS, w.slewStartS),
     trackStart: utcText(o.epochTaiS, w.trackStartS),
     holdEnd: utcText(o.epochTaiS, w.holdEndS),
+    trackStartShort: shortUtcText(o.epochTaiS, w.trackStartS),
+    holdEndShort: shortUtcText(o.epochTaiS, w.holdEndS),
     due: w.window === 'pass' ? 'next pass' : w.window === 'time' ? 'at a time' : 'after the previous target',
     maxElevation: w.maxElevationRad === null ? '—' : (w.maxElevationRad * DEG_PER_RAD).toFixed(2),
   }));
