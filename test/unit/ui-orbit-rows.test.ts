@@ -16,6 +16,9 @@ import {
   wrapLongitudeDeg,
 } from '../../app/ui/orbit/orbitRows';
 import { describeField } from '../../app/ui/issues/fieldLabels';
+import { newSite, sizeAs, starterOrbit } from '../../app/ui/orbit/orbitEdits';
+import { validateScenario } from '../../app/engine/scenario/validate';
+import demoScenario from '../../assets/lumen6-imaging.scenario.json';
 import { boresightChoices } from '../../app/ui/plots/overlays';
 import type { PipelineOutput } from '../../app/engine/pipeline/types';
 
@@ -148,5 +151,28 @@ describe('boresight choices of tracking targets (app/ui/plots/overlays.ts)', () 
       ['target-1', [0, 0, 1]],
       ['target-2', [0, 0, 1]],
     ]);
+  });
+});
+
+describe('what the Orbit panel writes (app/ui/orbit/orbitEdits.ts)', () => {
+  it('the demo with a new orbit block and two new sites is a valid scenario', () => {
+    const demo = JSON.parse(JSON.stringify(demoScenario)) as Record<string, unknown>;
+    const orbit = starterOrbit(demo.epochUtc);
+    const s1 = newSite([]);
+    orbit.sites = [s1, newSite([s1])];
+    const v = validateScenario({ ...demo, orbit });
+    expect(v.ok ? [] : v.errors).toEqual([]);
+    expect((orbit.sites as { id: string }[]).map((s) => s.id)).toEqual(['site-1', 'site-2']);
+  });
+
+  it('orbit size given the other way keeps the orbit', () => {
+    // Kepler's third law with SGP4's μ = 398600.8 km³/s² (WGS-72; Vallado et al. 2006, "Revisiting
+    // Spacetrack Report #3"), by hand: n = 15.2·2π/86400 = 1.105375e-3 rad/s, a = (μ/n²)^(1/3) ≈ 6884.0 km.
+    const a = sizeAs({ meanMotionRevPerDay: 15.2 }, 'semiMajorAxisKm');
+    expect(Math.abs(a - 6884.0)).toBeLessThan(0.5);
+    // a is stored to 9 significant digits (1e-5 km): the mean motion comes back within ~3e-8 rev/day.
+    expect(sizeAs({ semiMajorAxisKm: a }, 'meanMotionRevPerDay')).toBeCloseTo(15.2, 6);
+    // Nothing usable to convert: a start value.
+    expect(sizeAs({ meanMotionRevPerDay: 'x' }, 'semiMajorAxisKm')).toBe(6900);
   });
 });

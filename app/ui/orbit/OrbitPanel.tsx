@@ -7,9 +7,9 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import type { Issue } from '../../engine/errors';
-import { DEFAULT_HORIZON_S } from '../../engine/scenario/orbitSchema';
 import { useAllIssues, useApp, useAppState, useScenarioValue } from '../context';
 import { IssueText, NumberField, Section, SelectField, TextField } from '../components/fields';
+import { newSite, sizeAs, starterElements, starterOrbit, type SizeKey } from './orbitEdits';
 import { tleLinesOfText } from './orbitRows';
 
 type Obj = Record<string, unknown>;
@@ -24,20 +24,6 @@ const SIZE_KEYS = [
   { value: 'meanMotionRevPerDay', label: 'Mean motion' },
   { value: 'semiMajorAxisKm', label: 'Semi-major axis' },
 ];
-
-/** Invented starting elements (a near-circular sun-synchronous-like orbit; common practice, no source). */
-function starterElements(epochUtc: unknown) {
-  return {
-    name: 'New orbit (invented)',
-    epochUtc: typeof epochUtc === 'string' ? epochUtc : '2030-01-01T00:00:00Z',
-    meanMotionRevPerDay: 15.2,
-    eccentricity: 0.001,
-    inclinationDeg: 97.4,
-    raanDeg: 0,
-    argPerigeeDeg: 90,
-    meanAnomalyDeg: 0,
-  };
-}
 
 function useIssuesStarting(prefix: string): Issue[] {
   const all = useAllIssues();
@@ -113,15 +99,7 @@ function MeanElementsFields() {
         value={sizeKey}
         onChoose={(v) => {
           if (v === sizeKey || !isObj(me)) return;
-          // Same orbit size both ways: a = (μ / n²)^(1/3) with μ = 398600.8 km³/s² (SGP4's WGS-72 value).
-          const MU = 398600.8;
-          const cur = me[sizeKey];
-          let next: number;
-          if (typeof cur !== 'number' || !(cur > 0)) next = v === 'semiMajorAxisKm' ? 6900 : 15;
-          else if (v === 'semiMajorAxisKm') {
-            const n = (cur * 2 * Math.PI) / 86400;
-            next = Number(Math.cbrt(MU / (n * n)).toPrecision(7));
-          } else next = Number(((Math.sqrt(MU / cur ** 3) * 86400) / (2 * Math.PI)).toPrecision(10));
+          const next = sizeAs(me, v as SizeKey);
           app.store.editMany(
             [
               [`${p}.${sizeKey}`, undefined],
@@ -187,13 +165,6 @@ function SiteCard({ i }: { i: number }) {
   );
 }
 
-function uniqueSiteId(list: unknown[]): string {
-  const ids = new Set(list.map((s) => (isObj(s) ? s.id : undefined)));
-  let n = list.length + 1;
-  while (ids.has(`site-${n}`)) n++;
-  return `site-${n}`;
-}
-
 export function OrbitPanel() {
   const app = useApp();
   const orbit = useScenarioValue('orbit');
@@ -212,13 +183,7 @@ export function OrbitPanel() {
           <button
             className="small"
             data-testid="orbit-add"
-            onClick={() =>
-              app.store.edit(
-                'orbit',
-                { meanElements: starterElements(epoch), sites: [], horizonS: DEFAULT_HORIZON_S },
-                { label: 'Add orbit', coalesceKey: null },
-              )
-            }
+            onClick={() => app.store.edit('orbit', starterOrbit(epoch), { label: 'Add orbit', coalesceKey: null })}
           >
             Add orbit
           </button>
@@ -272,23 +237,7 @@ export function OrbitPanel() {
           <button
             className="small"
             data-testid="orbit-site-add"
-            onClick={() =>
-              app.store.edit(
-                'orbit.sites',
-                [
-                  ...list,
-                  {
-                    id: uniqueSiteId(list),
-                    label: `Site ${list.length + 1} (invented)`,
-                    latitudeDeg: 0,
-                    longitudeDeg: 0,
-                    heightM: 0,
-                    elevationMaskDeg: 10,
-                  },
-                ],
-                { label: 'Add site', coalesceKey: null },
-              )
-            }
+            onClick={() => app.store.edit('orbit.sites', [...list, newSite(list)], { label: 'Add site', coalesceKey: null })}
           >
             Add site
           </button>
