@@ -66,6 +66,7 @@ function TleField() {
           aria-invalid={errors.length > 0}
           spellCheck={false}
           rows={Math.max(2, lines.length)}
+          style={{ height: `calc(${Math.max(2, lines.length)} * 1.4em + 12px)` }}
           wrap="off"
           value={draft ?? lines.join('\n')}
           onChange={(e) => {
