@@ -14,6 +14,8 @@ import { ManeuverPanel } from './components/ManeuverPanel';
 import { ControllersPanel } from './components/ControllersPanel';
 import { ConstraintsPanel } from './components/ConstraintsPanel';
 import { RunSettingsPanel } from './components/RunSettingsPanel';
+import { OrbitPanel } from './orbit/OrbitPanel';
+import { PassesView } from './orbit/PassesView';
 import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
@@ -70,6 +72,7 @@ export function App({ app }: { app: AppController }) {
         <main className={`workspace ${studyOpen ? 'study-open' : ''}`}>
           <aside className="left" aria-label="Scenario editors">
             <VehiclePanel />
+            <OrbitPanel />
             <ManeuverPanel />
             <ControllersPanel />
             <ConstraintsPanel />
@@ -86,6 +89,7 @@ export function App({ app }: { app: AppController }) {
               <aside className="right" aria-label="Plan and comparison">
                 <RunStatus />
                 <PlanSummary />
+                <PassesView />
               </aside>
               {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
               <section className="compare-band" aria-label="Comparison of runs">

@@ -2,6 +2,7 @@
 import { useApp, useAppState, useIssuesAt, useIssuesUnder, useScenarioValue } from '../context';
 import { fmt } from '../format';
 import { AttitudeEditor } from './AttitudeEditor';
+import { TrackSummary } from '../orbit/TrackSummary';
 import { PRIMARY_AXIS } from '../../engine/scenario/pointingOnly';
 import { IssueText, NumberField, NumberInput, Section, TextField, VectorField } from './fields';
 
@@ -128,8 +129,14 @@ function TargetCard({ i, count }: { i: number; count: number }) {
         </span>
       </summary>
       <TextField path={`targets[${i}].label`} label="Label" />
-      <AttitudeEditor path={`targets[${i}].attitude`} chainIndex={i + 1} allowRelative />
-      <RollFreeCheck i={i} attitude={target?.attitude} />
+      {target?.track !== undefined ? (
+        <TrackSummary i={i} />
+      ) : (
+        <>
+          <AttitudeEditor path={`targets[${i}].attitude`} chainIndex={i + 1} allowRelative />
+          <RollFreeCheck i={i} attitude={target?.attitude} />
+        </>
+      )}
       <NumberField path={`targets[${i}].holdS`} label="Hold" unit="s" step={5} />
       {seg?.rollFree && (
         <div className="derived" data-testid={`roll-free-saving-${i}`}>

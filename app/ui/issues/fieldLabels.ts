@@ -386,6 +386,49 @@ function studyField(rest: readonly PathToken[]): FieldDescription | null {
 }
 
 // ---------------------------------------------------------------------------------------------
+// Orbit (orbit/OrbitPanel.tsx)
+
+const ORBIT_SECTION = 'Orbit';
+const ORBIT: Record<string, Leaf> = {
+  horizonS: { label: 'Horizon', suggest: 86400 },
+};
+const ELEMENTS: Record<string, Leaf> = {
+  name: { label: 'Element set name' },
+  epochUtc: { label: 'Element epoch (UTC)' },
+  semiMajorAxisKm: { label: 'Semi-major axis' },
+  meanMotionRevPerDay: { label: 'Mean motion' },
+  eccentricity: { label: 'Eccentricity' },
+  inclinationDeg: { label: 'Inclination' },
+  raanDeg: { label: 'RAAN' },
+  argPerigeeDeg: { label: 'Argument of perigee' },
+  meanAnomalyDeg: { label: 'Mean anomaly' },
+  bstarPerEarthRadii: { label: 'B* drag term' },
+};
+const SITE: Record<string, Leaf> = {
+  id: { label: 'Id' },
+  label: { label: 'Name' },
+  latitudeDeg: { label: 'Latitude' },
+  longitudeDeg: { label: 'Longitude' },
+  heightM: { label: 'Height' },
+  elevationMaskDeg: { label: 'Elevation mask' },
+};
+
+/** TLE issues carry the line and columns in their path ("orbit.tle line 2, column 69"). */
+function orbitField(path: string, rest: readonly PathToken[]): FieldDescription | null {
+  if (path.startsWith('orbit.tle')) return { where: [ORBIT_SECTION], label: 'Two-line element set' };
+  const [key, ...more] = rest;
+  if (key === undefined) return { where: [], label: 'Orbit block' };
+  if (key === 'meanElements')
+    return more.length === 0 ? { where: [ORBIT_SECTION], label: 'Mean elements' } : leaf([ORBIT_SECTION, 'Mean elements'], ELEMENTS, more);
+  if (key === 'sites') {
+    const [i, ...inner] = more;
+    if (typeof i !== 'number') return { where: [ORBIT_SECTION], label: 'Ground sites' };
+    return inner.length === 0 ? { where: [ORBIT_SECTION], label: `Site ${i + 1}` } : leaf([ORBIT_SECTION, `Site ${i + 1}`], SITE, inner);
+  }
+  return leaf([ORBIT_SECTION], ORBIT, rest);
+}
+
+// ---------------------------------------------------------------------------------------------
 
 /** The form's section and label for an issue path, or null when the form has no such field. */
 export function describeField(path: string, scenario: unknown): FieldDescription | null {
@@ -410,6 +453,8 @@ export function describeField(path: string, scenario: unknown): FieldDescription
       return constraintField(scenario, rest);
     case 'study':
       return studyField(rest);
+    case 'orbit':
+      return orbitField(path, rest);
     default:
       return typeof head === 'string' && rest.length === 0 && SCENARIO[head]
         ? { where: [SCENARIO_SECTION], label: SCENARIO[head].label, suggest: SCENARIO[head].suggest }

@@ -42,11 +42,27 @@ function axisText(a: Axis3): string {
 
 type Obj = Record<string, unknown>;
 
+/**
+ * The body axis a target points: the `pointing` form's, or a tracking target's (`track.site`,
+ * `station`, `sun`: its bodyAxis; `nadir`: its bodyAxis, +Z when absent as in orbitSchema.ts).
+ */
+function declaredAxis(t: { attitude?: unknown; track?: unknown }): number[] | null {
+  const a = t.attitude as Obj | undefined;
+  const p = a?.pointing as Obj | undefined;
+  if (p && Array.isArray(p.bodyAxis)) return p.bodyAxis as number[];
+  const tr = t.track as Obj | undefined;
+  if (!tr) return null;
+  const kind = Object.keys(tr)[0];
+  const b = kind ? (tr[kind] as Obj | undefined) : undefined;
+  if (b && Array.isArray(b.bodyAxis)) return b.bodyAxis as number[];
+  return kind === 'nadir' ? [0, 0, 1] : null;
+}
+
 /** Pointing body axes the scenario's targets declare, in target order. */
 function targetAxes(out: PipelineOutput): (Axis3 | null)[] {
   return out.scenario.file.targets.map((t) => {
-    const p = (t.attitude as Obj).pointing as Obj | undefined;
-    return p && Array.isArray(p.bodyAxis) ? unitAxis(p.bodyAxis as number[]) : null;
+    const axis = declaredAxis(t as { attitude?: unknown; track?: unknown });
+    return axis ? unitAxis(axis) : null;
   });
 }
 
