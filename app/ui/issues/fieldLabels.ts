@@ -361,6 +361,7 @@ const STUDY_GROUPS: Record<string, Record<string, Leaf>> = {
     attitudeNoiseScale: { label: 'Noise × [min, max]', suggest: [1, 1] },
     rateBiasDegPerS: { label: 'Extra rate bias 1σ', suggest: 0 },
     adversarialEta: { label: 'Worst-case noise ē', suggest: 0 },
+    antipodalNoiseDeg: { label: 'Worst-case pointing noise', suggest: 0 },
   },
 };
 const GROUP_TITLES: Record<string, string> = {

@@ -17,6 +17,7 @@ const ATTITUDE_MODES = [
   { value: 'uniform', label: 'uniform (all attitudes)' },
   { value: 'cone', label: 'cone about nominal' },
   { value: 'near-reversal', label: 'near 180° error' },
+  { value: 'near-antipode', label: 'pointed axis near its antipode (pointing-only target)' },
 ];
 
 const ACTUATION = [
@@ -46,6 +47,7 @@ const SHOWN = [
   'study.dispersions.sensors.attitudeNoiseScale[1]',
   'study.dispersions.sensors.rateBiasDegPerS',
   'study.dispersions.sensors.adversarialEta',
+  'study.dispersions.sensors.antipodalNoiseDeg',
   'study.dispersions.controlRateHz',
   'study.dispersions.torqueQuantumMNm',
 ];
@@ -109,7 +111,9 @@ function AttitudeDispersion() {
           ? { mode: 'uniform' }
           : m === 'cone'
             ? { mode: 'cone', maxAngleDeg: 30 }
-            : { mode: 'near-reversal', withinDeg: 10 };
+            : m === 'near-antipode'
+              ? { mode: 'near-antipode', withinDeg: 1 }
+              : { mode: 'near-reversal', withinDeg: 10 };
     editStudy(app.store, 'study.dispersions.initialAttitude', v, 'Study start attitudes');
   };
   const issues = useIssuesUnder('study.dispersions.initialAttitude', SHOWN);
@@ -125,6 +129,9 @@ function AttitudeDispersion() {
       {mode === 'cone' && <NumberField path="study.dispersions.initialAttitude.maxAngleDeg" label="Cone radius" unit="deg" step={5} />}
       {mode === 'near-reversal' && (
         <NumberField path="study.dispersions.initialAttitude.withinDeg" label="Off 180° by ≤" unit="deg" step={1} />
+      )}
+      {mode === 'near-antipode' && (
+        <NumberField path="study.dispersions.initialAttitude.withinDeg" label="Axis off its antipode by ≤" unit="deg" step={0.5} />
       )}
       <IssueText errors={issues} />
     </>
@@ -298,6 +305,13 @@ export function StudySetup() {
         unit="—"
         placeholder="0"
         title="Bounded worst-case noise on the error quaternion scalar part: the measured η is reflected when |η| < ē (0 = off)"
+      />
+      <OptNumberField
+        path="study.dispersions.sensors.antipodalNoiseDeg"
+        label="Worst-case pointing noise"
+        unit="deg"
+        placeholder="0"
+        title="Pointing-only targets: whenever the pointed axis is within this angle of its antipode, the measurement shows it exactly there (the stall of a smooth pointing law; 0 = off)"
       />
       <NumberListField
         path="study.dispersions.controlRateHz"
