@@ -153,17 +153,31 @@ function rateErrorNorm(tr: RunTrace, k: number): number {
   return Math.hypot(w[3 * k]! - r[3 * k]!, w[3 * k + 1]! - r[3 * k + 1]!, w[3 * k + 2]! - r[3 * k + 2]!);
 }
 
-/** A segment's measures against the moving reference (SegmentOptions.movingTargets). */
-function measureMovingSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
-  const s = tr.segment[a]!;
+/**
+ * Settle time of samples a..b: from the segment's first sample to the first sample from which
+ * every later sample of the segment is `inside` the thresholds; null when the last one is not.
+ */
+function settleTimeOf(tr: RunTrace, a: number, b: number, inside: (k: number) => boolean): number | null {
   let lastBad = -1;
   for (let k = b; k >= a; k--)
-    if (!(errorToTarget(tr, k, refAt(tr, k), null) < o.settleAngleRad && rateErrorNorm(tr, k) < o.settleRateRadPerS)) {
+    if (!inside(k)) {
       lastBad = k;
       break;
     }
   const t = tr.t;
-  const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
+  return lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
+}
+
+/** A segment's measures against the moving reference (SegmentOptions.movingTargets). */
+function measureMovingSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): SegmentMetrics {
+  const s = tr.segment[a]!;
+  const settleTimeS = settleTimeOf(
+    tr,
+    a,
+    b,
+    (k) => errorToTarget(tr, k, refAt(tr, k), null) < o.settleAngleRad && rateErrorNorm(tr, k) < o.settleRateRadPerS,
+  );
+  const t = tr.t;
   const travelled = travelledFrom(tr, a, b);
   const eta0 = etaAt(tr, a, refAt(tr, a));
   const etaEnd = etaAt(tr, b, refAt(tr, b));
@@ -205,14 +219,13 @@ function measureSegment(tr: RunTrace, a: number, b: number, o: SegmentOptions): 
   const s = tr.segment[a]!;
   const target = loadTarget(o, s);
   const axis = segmentAxis(axisScratch, o.segmentAxes, s);
-  let lastBad = -1;
-  for (let k = b; k >= a; k--)
-    if (!(errorToTarget(tr, k, target, axis) < o.settleAngleRad && rateNorm(tr, k) < o.settleRateRadPerS)) {
-      lastBad = k;
-      break;
-    }
+  const settleTimeS = settleTimeOf(
+    tr,
+    a,
+    b,
+    (k) => errorToTarget(tr, k, target, axis) < o.settleAngleRad && rateNorm(tr, k) < o.settleRateRadPerS,
+  );
   const t = tr.t;
-  const settleTimeS = lastBad < b ? t[lastBad < a ? a : lastBad + 1]! - t[a]! : null;
   const travelled = travelledFrom(tr, a, b);
   const shortest = errorToTarget(tr, a, target, axis);
   const extra = 2 * Math.PI - 2 * shortest;
