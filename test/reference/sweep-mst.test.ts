@@ -142,6 +142,23 @@ describe('(ē, δ) sweep of the hysteretic law: the boundary lies on ē = δ (MS
     }
   });
 
+  it('carries the theory line ē = δ (MST 2011) for the hysteretic law, clipped to the grid, and the measured boundary lies on it', () => {
+    expect(res.theory.length).toBe(1);
+    const t = res.theory[0]!;
+    expect(t.controllerId).toBe('hyst');
+    expect(t.source).toMatch(/Mayhew, Sanfelice & Teel 2011/);
+    // the overlap of ē ∈ [0.05, 0.35] and δ ∈ [0.1, 0.3]
+    expect(t.points).toEqual([
+      { a0: 0.1, a1: 0.1 },
+      { a0: 0.3, a1: 0.3 },
+    ]);
+    // every measured crossing at fixed δ lies within one grid step of the line's ē at that δ
+    for (const p of res.boundaries[0]!.points.filter((q) => q.along === 0)) {
+      expect(Math.abs(p.value - p.fixedValue!)).toBeLessThanOrEqual(0.1 + 1e-12);
+    }
+    expect(JSON.parse(sweepJson(res, 'c')).theory).toEqual(res.theory);
+  });
+
   it('the JSON is a pure function of the result (same bytes twice)', () => {
     expect(sweepJson(res, 'c')).toBe(sweepJson(res, 'c'));
   });

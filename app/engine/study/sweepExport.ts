@@ -77,6 +77,7 @@ export function sweepJson(r: SweepResult, caution: string): string {
         complete: r.complete,
         cells: r.cells,
         boundaries: r.boundaries,
+        theory: r.theory,
       },
       null,
       2,

@@ -17,6 +17,8 @@ import { accumulateCase, createStudyAccumulator } from './accumulate';
 import { runStudyChunk, studyInfo } from './runner';
 import { studySummaryOf } from './summary';
 import type { SweepDefinition } from './sweep';
+import type { SweepTheoryLine } from './sweepTheory';
+import { sweepTheoryLines } from './sweepTheory';
 import { applyParameter, cellCount, cellPosition, cellSeed, sweepScenarioIssues } from './sweep';
 
 export interface SweepCellController {
@@ -82,6 +84,8 @@ export interface SweepResult {
   /** True when every cell finished. */
   complete: boolean;
   boundaries: SweepBoundary[];
+  /** Published boundary lines that apply to this sweep (sweepTheory.ts). */
+  theory: SweepTheoryLine[];
 }
 
 /** The scenario JSON of cell `index`: the effective study block with the cell's runs, seed and controllers, then the cell's values. */
@@ -227,5 +231,5 @@ export function runSweep(json: unknown, def: SweepDefinition, opts: RunSweepOpti
 /** A result from finished cells (any order). */
 export function sweepResultOf(info: SweepInfo, cellsIn: readonly SweepCell[]): SweepResult {
   const cells = [...cellsIn].sort((a, b) => a.index - b.index);
-  return { info, cells, complete: cells.length === info.cells, boundaries: sweepBoundaries(info, cells) };
+  return { info, cells, complete: cells.length === info.cells, boundaries: sweepBoundaries(info, cells), theory: sweepTheoryLines(info) };
 }
