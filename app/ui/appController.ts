@@ -43,7 +43,10 @@ export interface AppControllerOptions {
   /** The scenario shown until the shell gives one (the bundled demo). */
   fallbackScenario: unknown;
   fallbackName: string;
+  /** Quiet time after an edit before the pass is sent (default 10 ms: a burst of keys within one frame is one pass). */
   debounceMs?: number;
+  /** Pipeline workers sharing each pass (default 1; the renderer uses the machine's cores, up to 4). */
+  pipelineWorkers?: number;
 }
 
 type Obj = Record<string, unknown>;
@@ -76,7 +79,8 @@ export function createAppController(o: AppControllerOptions): AppController {
 
   const runner: PipelineRunner = createPipelineRunner({
     spawn: o.spawnWorker,
-    debounceMs: o.debounceMs ?? 40,
+    workers: o.pipelineWorkers ?? 1,
+    debounceMs: o.debounceMs ?? 10,
     onStart: () => store.setPipeline({ status: 'running' }),
     // `source` is the document and comparison the request was made for.
     onResult: (result, _input, _id, source) => {
