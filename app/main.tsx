@@ -17,6 +17,8 @@ const app = createAppController({
     new Worker(new URL('./ui/worker/pipeline.worker.ts', import.meta.url), { type: 'module', name: 'pipeline' }) as unknown as WorkerLike,
   fallbackScenario: demo,
   fallbackName: 'lumen6-imaging.scenario.json',
+  // Each pass is shared by the workers (one per core, up to 4: the demo has six runs).
+  pipelineWorkers: Math.max(1, Math.min(4, navigator.hardwareConcurrency || 1)),
 });
 
 // For the end-to-end tests and for debugging from the console: read-only handles, no globals

@@ -43,7 +43,10 @@ export interface AppControllerOptions {
   /** The scenario shown until the shell gives one (the bundled demo). */
   fallbackScenario: unknown;
   fallbackName: string;
+  /** Quiet time after an edit before the pass is sent (default 10 ms: a burst of keys within one frame is one pass). */
   debounceMs?: number;
+  /** Pipeline workers sharing each pass (default 1; the renderer uses the machine's cores, up to 4). */
+  pipelineWorkers?: number;
 }
 
 type Obj = Record<string, unknown>;
@@ -76,7 +79,8 @@ export function createAppController(o: AppControllerOptions): AppController {
 
   const runner: PipelineRunner = createPipelineRunner({
     spawn: o.spawnWorker,
-    debounceMs: o.debounceMs ?? 40,
+    workers: o.pipelineWorkers ?? 1,
+    debounceMs: o.debounceMs ?? 10,
     onStart: () => store.setPipeline({ status: 'running' }),
     // `source` is the document and comparison the request was made for.
     onResult: (result, _input, _id, source) => {
@@ -233,17 +237,21 @@ export function createAppController(o: AppControllerOptions): AppController {
   }
 
   const offCommand = bridge.onCommand(command);
-  // The shell's document (the demo under `npm start`), else keep the bundled fallback.
-  void bridge.initialScenario().then(
-    (r) => {
-      if (r.status === 'none') request(true);
-      else applyOpen(r);
-    },
-    (e: unknown) => {
-      reportFailure('Opening the first scenario')(e);
-      request(true);
-    },
-  );
+  // The bundled fallback's pass starts now, before React's first render and before the shell
+  // answers; the shell's document (the demo under `npm start` and in the browser) replaces it only
+  // when it differs, so the usual first start flies the demo once.
+  request(true);
+  const fallback = store.getState().scenario;
+  void bridge.initialScenario().then((r) => {
+    if (r.status === 'none') return;
+    const s = store.getState();
+    const untouched = s.scenario === fallback && s.undoStack.length === 0;
+    if (r.status === 'opened' && untouched && JSON.stringify(r.scenario) === JSON.stringify(fallback)) {
+      // Same document: take its name and template flag, keep the pass already running.
+      store.setFileName(r.file.name, r.template);
+      if (r.warnings.length) notify(`Opened with warnings: ${issuesText(r.warnings)}`);
+    } else applyOpen(r);
+  }, reportFailure('Opening the first scenario'));
 
   return {
     store,

@@ -53,11 +53,12 @@ function fakeBridge() {
   return { bridge, dirty, saved, send: (c: UiCommand) => listeners.forEach((l) => l(c)) };
 }
 
-function setup() {
+function setup(initial?: SlewsmithBridge['initialScenario']) {
   InlineWorker.posted = [];
   InlineWorker.hold = false;
   InlineWorker.held = [];
   const fb = fakeBridge();
+  if (initial) fb.bridge.initialScenario = initial;
   const app = createAppController({
     bridge: fb.bridge,
     spawnWorker: () => new InlineWorker(),
@@ -72,6 +73,23 @@ const done = (app: ReturnType<typeof setup>['app']) =>
   vi.waitFor(() => expect(app.store.getState().pipeline.status).toBe('done'), { timeout: 20_000 });
 
 describe('app controller', () => {
+  it("starts the fallback's pass at once; the shell's same document keeps it (one pass), a different one replaces it", async () => {
+    const file = { path: null, name: 'shell-demo.json' };
+    const same = setup(async () => ({ status: 'opened', scenario: JSON.parse(JSON.stringify(demo)), file, template: true, warnings: [] }));
+    expect(InlineWorker.posted.length).toBe(1); // posted before the shell answered
+    await done(same.app);
+    expect(InlineWorker.posted.length).toBe(1);
+    expect(same.app.store.getState().fileName).toBe('shell-demo.json');
+    same.app.dispose();
+
+    const other = { ...JSON.parse(JSON.stringify(demo)), name: 'another scenario' };
+    const diff = setup(async () => ({ status: 'opened', scenario: other, file, template: false, warnings: [] }));
+    await vi.waitFor(() => expect(InlineWorker.posted.at(-1)?.scenario).toEqual(other), { timeout: 20_000 });
+    await done(diff.app);
+    expect(diff.app.store.getState().output?.scenario.name).toBe('another scenario');
+    diff.app.dispose();
+  });
+
   it('runs the starting document and sets the playback range from the runs', async () => {
     const { app } = setup();
     await done(app);

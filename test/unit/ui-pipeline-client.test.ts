@@ -24,7 +24,7 @@ class FakeWorker implements WorkerLike {
   }
 }
 
-function setup() {
+function setup(workerCount = 1) {
   let clock = 0;
   const timers: { at: number; fn: () => void; live: boolean }[] = [];
   const workers: FakeWorker[] = [];
@@ -38,6 +38,8 @@ function setup() {
     },
     debounceMs: 150,
     staleKillMs: 2000,
+    workers: workerCount,
+    merge: (parts) => parts.join('+') as never,
     now: () => clock,
     setTimer: (fn, ms) => {
       const h = { at: clock + ms, fn, live: true };
@@ -118,5 +120,38 @@ describe('pipeline runner', () => {
     expect(workers).toHaveLength(2);
     workers[1]!.reply(workers[1]!.received[0]!.id, 'fine');
     expect(results.map((r) => r.value)).toEqual(['fine']);
+  });
+
+  it('shares a pass over two workers (run slices) and merges the parts in slot order, whatever order they reply in', () => {
+    const { runner, workers, results } = setup(2);
+    runner.runNow('two');
+    expect(workers).toHaveLength(2);
+    expect(workers.map((w) => w.received[0]!.options)).toEqual([{ runSlice: { index: 0, of: 2 } }, { runSlice: { index: 1, of: 2 } }]);
+    workers[1]!.reply(workers[1]!.received[0]!.id, 'B');
+    expect(results).toEqual([]); // waits for the other part
+    expect(runner.busy).toBe(true);
+    workers[0]!.reply(workers[0]!.received[0]!.id, 'A');
+    expect(results).toEqual([{ value: 'A+B', scenario: 'two' }]);
+    expect(runner.busy).toBe(false);
+  });
+
+  it('a shared pass: a failed part is the result; a stale pass is dropped whole', () => {
+    const { runner, workers, results } = setup(2);
+    runner.runNow('p');
+    runner.runNow('q');
+    const [a, b] = workers as [FakeWorker, FakeWorker];
+    a.reply(a.received[0]!.id, 'pa');
+    b.reply(b.received[0]!.id, 'pb');
+    expect(results).toEqual([]); // 'p' is stale
+    expect(a.received.map((r) => r.scenario)).toEqual(['p', 'q']);
+    a.onmessage?.({
+      data: {
+        type: 'result',
+        id: a.received[1]!.id,
+        result: { ok: false, errors: [{ path: 'x', rule: 'r', message: 'm' }], warnings: [] },
+      },
+    } as unknown as MessageEvent<RunReply>);
+    b.reply(b.received[1]!.id, 'qb');
+    expect(results).toEqual([{ value: null, scenario: 'q' }]);
   });
 });

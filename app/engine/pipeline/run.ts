@@ -35,6 +35,7 @@ import {
 } from './constraints';
 import { planSummaryWithSavings } from './rollFreePlan';
 import { pointingLawIssues } from './pointing';
+import { runSliceIssues, sliceLength, type RunSlice } from './slices';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -46,6 +47,11 @@ export interface PipelineOptions {
   shouldStop?: () => boolean;
   /** Resource limits of the pass (budget.ts); default DEFAULT_BUDGET. */
   budget?: Partial<RunBudget>;
+  /**
+   * Fly only every `of`-th run starting at `index` (runs numbered controller-major, then mode), so
+   * that `of` workers share one pass; mergeRunSlices (slices.ts) puts the parts back together.
+   */
+  runSlice?: RunSlice;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -176,10 +182,15 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
   if (overBudget.length) return fail(overBudget, p.warnings);
   const maxSteps = runStepCap(estimate);
   const runs: ControllerRun[] = [];
-  const total = p.controllers.length * modes.length;
+  const slice = opts.runSlice ?? { index: 0, of: 1 };
+  const badSlice = runSliceIssues(slice);
+  if (badSlice.length) return fail(badSlice, p.warnings);
+  const total = sliceLength(p.controllers.length * modes.length, slice);
+  let k = 0;
   for (const c of p.controllers) {
     for (const mode of modes) {
       if (opts.shouldStop?.()) break;
+      if (k++ % slice.of !== slice.index) continue;
       runs.push(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps }));
       opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
     }

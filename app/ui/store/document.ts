@@ -89,6 +89,8 @@ export interface AppStore extends Store<AppState> {
   /** A freshly opened or created document: clears history, clean. */
   load(scenario: unknown, fileName: string, untitled: boolean): void;
   markSaved(fileName: string): void;
+  /** Name the document without touching it (the shell's file turned out to be the one already loaded). */
+  setFileName(fileName: string, untitled: boolean): void;
   setOutput(output: PipelineOutput, forScenario: unknown): void;
   setPipeline(p: Partial<PipelineState>): void;
   selectRuns(keys: string[]): void;
@@ -210,6 +212,10 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
         selectedRunKeys: [],
         excludedControllerIds: [],
       });
+    },
+
+    setFileName(fileName, untitled) {
+      base.setState({ fileName, untitled });
     },
 
     markSaved(fileName) {

@@ -6,9 +6,14 @@
  * whose id is not the newest requested is discarded as stale. A worker stuck on a stale job for
  * longer than `staleKillMs` is terminated and replaced, so the newest edit is not held up by a
  * long run nobody wants any more.
+ *
+ * With `workers` > 1 a pass is shared: worker i flies every `workers`-th run from run i
+ * (runPipeline's runSlice) and the parts are merged (mergeRunSlices) when the last one replies, so
+ * the engine time of an edit is divided by the cores the machine gives us.
  */
 import type { Result } from '../../engine/errors';
 import type { PipelineOutput } from '../../engine/pipeline/types';
+import { mergeRunSlices } from '../../engine/pipeline/slices';
 import type { RunReply, RunRequest } from './protocol';
 
 export interface WorkerLike {
@@ -20,6 +25,10 @@ export interface WorkerLike {
 
 export interface PipelineRunnerOptions {
   spawn: () => WorkerLike;
+  /** Workers sharing each pass (default 1). */
+  workers?: number;
+  /** Joins the parts of a shared pass (default mergeRunSlices). */
+  merge?: (parts: PipelineOutput[]) => PipelineOutput;
   debounceMs?: number;
   staleKillMs?: number;
   onStart?: (id: number) => void;
@@ -47,16 +56,20 @@ interface Job {
   options: Record<string, unknown>;
   tag: unknown;
   sentAt: number;
+  /** Replies so far, by worker slot (a shared pass waits for all of them). */
+  parts: (Result<PipelineOutput> | undefined)[];
 }
 
 export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   const debounceMs = o.debounceMs ?? 150;
   const staleKillMs = o.staleKillMs ?? 2000;
+  const slots = Math.max(1, Math.floor(o.workers ?? 1));
+  const merge = o.merge ?? mergeRunSlices;
   const now = o.now ?? (() => performance.now());
   const setTimer = o.setTimer ?? ((fn, ms) => setTimeout(fn, ms));
   const clearTimer = o.clearTimer ?? ((h) => clearTimeout(h as ReturnType<typeof setTimeout>));
 
-  let worker: WorkerLike | null = null;
+  const workers: (WorkerLike | null)[] = Array.from({ length: slots }, () => null);
   let nextId = 1;
   let wantedId = 0;
   let inFlight: Job | null = null;
@@ -64,34 +77,39 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   let timer: unknown = null;
   let disposed = false;
 
-  function ensureWorker(): WorkerLike {
-    if (worker) return worker;
+  function ensureWorker(slot: number): WorkerLike {
+    const existing = workers[slot];
+    if (existing) return existing;
     const w = o.spawn();
-    w.onmessage = (ev) => onReply(ev.data);
+    w.onmessage = (ev) => onReply(slot, ev.data);
     w.onerror = (ev) => {
       ev.preventDefault?.();
       const id = inFlight?.id ?? 0;
-      // The worker is unusable after an uncaught error; start a fresh one for the next job.
-      dropWorker();
+      // A worker is unusable after an uncaught error; start fresh ones for the next job.
+      dropWorkers();
       if (id === wantedId) o.onCrash(ev.message || 'The pipeline worker stopped unexpectedly.', id);
       pump();
     };
-    worker = w;
+    workers[slot] = w;
     return w;
   }
 
-  function dropWorker() {
-    worker?.terminate();
-    worker = null;
+  function dropWorkers() {
+    workers.forEach((w, i) => {
+      w?.terminate();
+      workers[i] = null;
+    });
     inFlight = null;
   }
 
   function send(job: Job) {
-    const w = ensureWorker();
     job.sentAt = now();
     inFlight = job;
     o.onStart?.(job.id);
-    w.postMessage({ type: 'run', id: job.id, scenario: job.scenario, options: job.options });
+    for (let i = 0; i < slots; i++) {
+      const options = slots > 1 ? { ...job.options, runSlice: { index: i, of: slots } } : job.options;
+      ensureWorker(i).postMessage({ type: 'run', id: job.id, scenario: job.scenario, options });
+    }
   }
 
   function pump() {
@@ -101,22 +119,36 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     send(job);
   }
 
-  function onReply(reply: RunReply) {
+  /** The pass's result once every part replied: the first failure, or the merged output. */
+  function joined(parts: Result<PipelineOutput>[]): Result<PipelineOutput> {
+    const bad = parts.find((p) => !p.ok);
+    if (bad || parts.length === 1) return bad ?? parts[0]!;
+    const values = parts.flatMap((p) => (p.ok ? [p.value] : []));
+    return { ok: true, value: merge(values), warnings: parts[0]!.warnings };
+  }
+
+  function onReply(slot: number, reply: RunReply) {
     const job = inFlight;
     if (!job || reply.id !== job.id) return;
-    inFlight = null;
-    if (reply.id === wantedId) {
-      if (reply.type === 'result') o.onResult(reply.result, job.scenario, reply.id, job.tag);
-      else o.onCrash(reply.message, reply.id);
+    if (reply.type === 'crash') {
+      inFlight = null;
+      if (reply.id === wantedId) o.onCrash(reply.message, reply.id);
+      pump();
+      return;
     }
+    job.parts[slot] = reply.result;
+    const parts = job.parts.filter((p): p is Result<PipelineOutput> => p !== undefined);
+    if (parts.length < slots) return;
+    inFlight = null;
+    if (reply.id === wantedId) o.onResult(joined(parts), job.scenario, reply.id, job.tag);
     pump();
   }
 
   function enqueue(scenario: unknown, options: Record<string, unknown>, tag: unknown) {
-    const job: Job = { id: nextId++, scenario, options, tag, sentAt: 0 };
+    const job: Job = { id: nextId++, scenario, options, tag, sentAt: 0, parts: [] };
     wantedId = job.id;
     waiting = job;
-    if (inFlight && now() - inFlight.sentAt > staleKillMs) dropWorker();
+    if (inFlight && now() - inFlight.sentAt > staleKillMs) dropWorkers();
     pump();
   }
 
@@ -144,7 +176,7 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     dispose() {
       disposed = true;
       if (timer !== null) clearTimer(timer);
-      dropWorker();
+      dropWorkers();
     },
     get busy() {
       return inFlight !== null || waiting !== null || timer !== null;
