@@ -45,6 +45,34 @@ function show(v: number): string {
   return Number.isNaN(v) ? 'NaN' : String(v);
 }
 
+/** v·0 summed over a channel: 0 when every value is finite, NaN otherwise (±∞·0 and NaN·0 are NaN). */
+function zeroSum(a: Float64Array): number {
+  let z = 0;
+  for (let i = 0; i < a.length; i++) z += a[i]! * 0;
+  return z;
+}
+
+/**
+ * True when every value of the sample is finite: the per-sample check of the closed loop. One
+ * multiply-add per value through named channels (no keyed lookups, no branch per value);
+ * firstNonFinite names the culprit only when this says false.
+ */
+export function sampleIsFinite(s: PackedSample): boolean {
+  const z =
+    zeroSum(s.scalars) +
+    zeroSum(s.torqueCmdBody) +
+    zeroSum(s.wheelTorqueCmd) +
+    zeroSum(s.wheelTorque) +
+    zeroSum(s.wheelTorqueNet) +
+    zeroSum(s.torqueBody) +
+    zeroSum(s.q) +
+    zeroSum(s.omega) +
+    zeroSum(s.hWheel) +
+    zeroSum(s.qRef) +
+    zeroSum(s.omegaRef);
+  return z === 0;
+}
+
 /**
  * A sentence naming the first non-finite value of the sample, or null when all are finite.
  * Called once per recorded sample: plain index loops, nothing allocated unless a value is bad.

@@ -1,0 +1,123 @@
+/**
+ * The closed loop's per-sample fast paths (issue 12) against what they replace or against the
+ * definitions they implement:
+ *  - sampleIsFinite (sim/finite.ts) says false exactly when firstNonFinite names a value: checked
+ *    with one non-finite value (NaN, +∞, −∞) planted in every slot of every channel. The trick it
+ *    rests on is IEEE 754-2019 arithmetic (§6.1: ∞ × 0 is an invalid operation giving NaN; §6.2:
+ *    NaN propagates through + and ×; finite × 0 is ±0 and ±0 + ±0 compares equal to 0);
+ *  - wheelFrictionTorqueAt (body/gyrostat.ts) from ω and h apart gives the same bits as
+ *    wheelFrictionTorque from the packed state, and both equal the friction law written out here
+ *    from its doc comment: c_i Ω_i + τ_c,i tanh(Ω_i / Ω_s), Ω_i = h_i / J_s,i − g_iᵀω (viscous plus
+ *    smoothed Coulomb friction: common practice, no single source).
+ */
+import { describe, expect, it } from 'vitest';
+import { makeGyrostat, wheelFrictionTorque, wheelFrictionTorqueAt } from '../../app/engine/body/gyrostat';
+import { m3Diag } from '../../app/engine/math/mat3';
+import { makeRng } from '../../app/engine/math/prng';
+import { firstNonFinite, sampleIsFinite } from '../../app/engine/sim/finite';
+import { PACKED_SCALARS, type PackedSample } from '../../app/engine/sim/trace';
+
+const N_WHEELS = 4;
+const CHANNELS = [
+  'scalars',
+  'q',
+  'omega',
+  'hWheel',
+  'qRef',
+  'omegaRef',
+  'torqueCmdBody',
+  'torqueBody',
+  'wheelTorqueCmd',
+  'wheelTorque',
+  'wheelTorqueNet',
+] as const;
+
+function randomSample(seed: number): PackedSample {
+  const rng = makeRng(seed, 0);
+  const f = (n: number) => Float64Array.from({ length: n }, () => rng.normal() * 10 ** Math.floor(6 * rng.normal()));
+  return {
+    j: 3,
+    segment: 1,
+    scalars: f(PACKED_SCALARS),
+    q: f(4),
+    omega: f(3),
+    hWheel: f(N_WHEELS),
+    qRef: f(4),
+    omegaRef: f(3),
+    torqueCmdBody: f(3),
+    torqueBody: f(3),
+    wheelTorqueCmd: f(N_WHEELS),
+    wheelTorque: f(N_WHEELS),
+    wheelTorqueNet: f(N_WHEELS),
+  };
+}
+
+describe('sampleIsFinite agrees with firstNonFinite', () => {
+  it('finite samples, including huge, tiny, −0 and values whose sum overflows', () => {
+    for (let seed = 1; seed <= 50; seed++) {
+      const s = randomSample(seed);
+      expect(sampleIsFinite(s)).toBe(true);
+      expect(firstNonFinite(s)).toBeNull();
+    }
+    // A sum of finite values may overflow to +∞; the check must still say "finite"
+    // (1.7e308 + 1.7e308 = +∞ in binary64, IEEE 754-2019 §4.3 rounding to nearest).
+    const big = randomSample(7);
+    big.hWheel.fill(1.7e308);
+    big.q[0] = -0;
+    big.omega[1] = Number.MIN_VALUE;
+    expect(sampleIsFinite(big)).toBe(true);
+    expect(firstNonFinite(big)).toBeNull();
+  });
+
+  it('one NaN, +∞ or −∞ in any slot of any channel: false, and firstNonFinite names that channel', () => {
+    for (const bad of [NaN, Infinity, -Infinity]) {
+      for (const ch of CHANNELS) {
+        const len = randomSample(1)[ch].length;
+        for (let i = 0; i < len; i++) {
+          const s = randomSample(100 + i);
+          s[ch][i] = bad;
+          expect(sampleIsFinite(s), `${ch}[${i}] = ${bad}`).toBe(false);
+          const msg = firstNonFinite(s);
+          expect(msg).not.toBeNull();
+          if (ch !== 'scalars') expect(msg).toContain(`(${ch})`);
+        }
+      }
+    }
+  });
+});
+
+describe('wheelFrictionTorqueAt', () => {
+  const axes = new Float64Array([0.6, 0, 0.8, 0, 0.6, 0.8, -0.6, 0, 0.8, 0, -0.6, 0.8]);
+  const js = new Float64Array([1e-5, 1.2e-5, 0.9e-5, 1.1e-5]);
+  const mk = (friction?: Parameters<typeof makeGyrostat>[2]) => {
+    const r = makeGyrostat(m3Diag(0.11, 0.12, 0.08), { n: 4, axes, rotorInertiaKgm2: js }, friction);
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    return r.value;
+  };
+  const withFriction = mk({ viscousNmsPerRad: new Float64Array([2e-7, 3e-7, 1e-7, 4e-7]), coulombNm: 5e-5, coulombSmoothingRadPerS: 0.3 });
+  const none = mk();
+
+  it('same bits as wheelFrictionTorque on the packed state, and the friction law written out', () => {
+    const rng = makeRng(42, 0);
+    const x = new Float64Array(11);
+    const a = new Float64Array(4),
+      b = new Float64Array(4);
+    for (let k = 0; k < 200; k++) {
+      for (let i = 0; i < 11; i++) x[i] = rng.normal() * (i >= 7 ? 5e-3 : 0.05);
+      for (const g of [withFriction, none]) {
+        wheelFrictionTorque(a, x, g);
+        wheelFrictionTorqueAt(b, x.subarray(4, 7), x.subarray(7, 11), g);
+        for (let i = 0; i < 4; i++) expect(Object.is(a[i], b[i])).toBe(true);
+      }
+      wheelFrictionTorqueAt(b, x.subarray(4, 7), x.subarray(7, 11), withFriction);
+      for (let i = 0; i < 4; i++) {
+        const rel = x[7 + i]! / js[i]! - (axes[3 * i]! * x[4]! + axes[3 * i + 1]! * x[5]! + axes[3 * i + 2]! * x[6]!);
+        const c = [2e-7, 3e-7, 1e-7, 4e-7][i]!;
+        const want = c * rel + 5e-5 * Math.tanh(rel / 0.3);
+        expect(Math.abs(b[i]! - want)).toBeLessThanOrEqual(1e-12 * Math.max(1e-9, Math.abs(want)));
+      }
+      wheelFrictionTorqueAt(b, x.subarray(4, 7), x.subarray(7, 11), none);
+      expect(Array.from(b)).toEqual([0, 0, 0, 0]);
+    }
+  });
+});
