@@ -1,9 +1,10 @@
 /**
  * The closed loop's per-sample fast paths (issue 12) against what they replace or against the
  * definitions they implement:
- *  - sampleIsFinite (sim/finite.ts) says false exactly when firstNonFinite names a value: checked
- *    with one non-finite value (NaN, +∞, −∞) planted in every slot of every channel. The trick it
- *    rests on is IEEE 754-2019 arithmetic (§6.1: ∞ × 0 is an invalid operation giving NaN; §6.2:
+ *  - TraceBuilder.pushPackedIfFinite (sim/trace.ts) appends exactly the samples in which
+ *    firstNonFinite finds nothing, with every value copied bit for bit: checked with one
+ *    non-finite value (NaN, +∞, −∞) planted in every slot of every channel. The check it rests
+ *    on is IEEE 754-2019 arithmetic (§6.1: ∞ × 0 is an invalid operation giving NaN; §6.2:
  *    NaN propagates through + and ×; finite × 0 is ±0 and ±0 + ±0 compares equal to 0);
  *  - wheelFrictionTorqueAt (body/gyrostat.ts) from ω and h apart gives the same bits as
  *    wheelFrictionTorque from the packed state, and both equal the friction law written out here
@@ -14,8 +15,9 @@ import { describe, expect, it } from 'vitest';
 import { makeGyrostat, wheelFrictionTorque, wheelFrictionTorqueAt } from '../../app/engine/body/gyrostat';
 import { m3Diag } from '../../app/engine/math/mat3';
 import { makeRng } from '../../app/engine/math/prng';
-import { firstNonFinite, sampleIsFinite } from '../../app/engine/sim/finite';
-import { PACKED_SCALARS, type PackedSample } from '../../app/engine/sim/trace';
+import { firstNonFinite } from '../../app/engine/sim/finite';
+import { PACKED_SCALARS, TraceBuilder, type PackedSample } from '../../app/engine/sim/trace';
+import type { RunTrace } from '../../app/engine/sim/types';
 
 const N_WHEELS = 4;
 const CHANNELS = [
@@ -52,12 +54,32 @@ function randomSample(seed: number): PackedSample {
   };
 }
 
-describe('sampleIsFinite agrees with firstNonFinite', () => {
-  it('finite samples, including huge, tiny, −0 and values whose sum overflows', () => {
+/** The trace's sample k equals the packed sample bit for bit (Object.is: −0 and NaN told apart). */
+function expectStored(tr: RunTrace, k: number, s: PackedSample): void {
+  const same = (a: ArrayLike<number>, o: number, b: ArrayLike<number>) => {
+    for (let i = 0; i < b.length; i++) expect(Object.is(a[o + i], b[i])).toBe(true);
+  };
+  same(tr.t, k, [s.scalars[0]!]);
+  same(tr.logic, k, [s.scalars[1]!]);
+  same(tr.errorAngle, k, [s.scalars[2]!]);
+  same(tr.potential, k, [s.scalars[3]!]);
+  same(tr.potentialMin, k, [s.scalars[4]!]);
+  same(tr.gap, k, [s.scalars[5]!]);
+  same(tr.lyapunov, k, [s.scalars[6]!]);
+  expect(tr.j[k]).toBe(s.j);
+  expect(tr.segment[k]).toBe(s.segment);
+  for (const ch of CHANNELS) if (ch !== 'scalars') same(tr[ch], s[ch].length * k, s[ch]);
+}
+
+describe('TraceBuilder.pushPackedIfFinite agrees with firstNonFinite', () => {
+  it('finite samples (huge, tiny, −0, values whose sum overflows) are all appended, bit for bit', () => {
+    const b = new TraceBuilder(N_WHEELS, 16);
+    const kept: PackedSample[] = [];
     for (let seed = 1; seed <= 50; seed++) {
       const s = randomSample(seed);
-      expect(sampleIsFinite(s)).toBe(true);
       expect(firstNonFinite(s)).toBeNull();
+      expect(b.pushPackedIfFinite(s)).toBe(true);
+      kept.push(s);
     }
     // A sum of finite values may overflow to +∞; the check must still say "finite"
     // (1.7e308 + 1.7e308 = +∞ in binary64, IEEE 754-2019 §4.3 rounding to nearest).
@@ -65,18 +87,28 @@ describe('sampleIsFinite agrees with firstNonFinite', () => {
     big.hWheel.fill(1.7e308);
     big.q[0] = -0;
     big.omega[1] = Number.MIN_VALUE;
-    expect(sampleIsFinite(big)).toBe(true);
     expect(firstNonFinite(big)).toBeNull();
+    expect(b.pushPackedIfFinite(big)).toBe(true);
+    kept.push(big);
+    const tr = b.finish();
+    expect(tr.n).toBe(kept.length);
+    kept.forEach((s, k) => expectStored(tr, k, s));
   });
 
-  it('one NaN, +∞ or −∞ in any slot of any channel: false, and firstNonFinite names that channel', () => {
+  it('one NaN, +∞ or −∞ in any slot of any channel: not appended, and firstNonFinite names that channel', () => {
     for (const bad of [NaN, Infinity, -Infinity]) {
       for (const ch of CHANNELS) {
         const len = randomSample(1)[ch].length;
         for (let i = 0; i < len; i++) {
+          const b = new TraceBuilder(N_WHEELS, 16);
+          const good = randomSample(99);
+          expect(b.pushPackedIfFinite(good)).toBe(true);
           const s = randomSample(100 + i);
           s[ch][i] = bad;
-          expect(sampleIsFinite(s), `${ch}[${i}] = ${bad}`).toBe(false);
+          expect(b.pushPackedIfFinite(s), `${ch}[${i}] = ${bad}`).toBe(false);
+          const tr = b.finish();
+          expect(tr.n).toBe(1);
+          expectStored(tr, 0, good);
           const msg = firstNonFinite(s);
           expect(msg).not.toBeNull();
           if (ch !== 'scalars') expect(msg).toContain(`(${ch})`);

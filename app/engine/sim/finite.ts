@@ -1,6 +1,7 @@
 /**
- * The closed loop's check that no non-finite number enters a trace: every channel of a sample is
- * looked at before the sample is appended (loop.ts LoopCore.record). The first bad value is named
+ * The closed loop's check that no non-finite number enters a trace: every value of a sample is
+ * checked as it is appended (trace.ts pushPackedIfFinite, from loop.ts LoopCore.record), and a
+ * sample holding a bad one is not kept. The first bad value is named
  * by its channel, in words, so a run that stops on it says which quantity went wrong: the
  * controller's torque request, a wheel command, the state, a diagnostic.
  */
@@ -43,34 +44,6 @@ const SCALARS: readonly [number, string][] = [
 
 function show(v: number): string {
   return Number.isNaN(v) ? 'NaN' : String(v);
-}
-
-/** v·0 summed over a channel: 0 when every value is finite, NaN otherwise (±∞·0 and NaN·0 are NaN). */
-function zeroSum(a: Float64Array): number {
-  let z = 0;
-  for (let i = 0; i < a.length; i++) z += a[i]! * 0;
-  return z;
-}
-
-/**
- * True when every value of the sample is finite: the per-sample check of the closed loop. One
- * multiply-add per value through named channels (no keyed lookups, no branch per value);
- * firstNonFinite names the culprit only when this says false.
- */
-export function sampleIsFinite(s: PackedSample): boolean {
-  const z =
-    zeroSum(s.scalars) +
-    zeroSum(s.torqueCmdBody) +
-    zeroSum(s.wheelTorqueCmd) +
-    zeroSum(s.wheelTorque) +
-    zeroSum(s.wheelTorqueNet) +
-    zeroSum(s.torqueBody) +
-    zeroSum(s.q) +
-    zeroSum(s.omega) +
-    zeroSum(s.hWheel) +
-    zeroSum(s.qRef) +
-    zeroSum(s.omegaRef);
-  return z === 0;
 }
 
 /**

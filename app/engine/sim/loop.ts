@@ -28,7 +28,7 @@ import {
   type PackedSample,
 } from './trace';
 import type { JumpEvent } from './types';
-import { firstNonFinite, sampleIsFinite } from './finite';
+import { firstNonFinite } from './finite';
 
 /**
  * Samples a trace starts with; it grows by doubling, never past the run's expected sample count
@@ -253,13 +253,12 @@ export class LoopCore {
     x[PACKED_POTENTIAL_MIN] = diag.potentialMin;
     x[PACKED_GAP] = diag.gap;
     x[PACKED_LYAPUNOV] = diag.lyapunov;
-    const bad = sampleIsFinite(rec) ? null : firstNonFinite(rec);
-    if (bad !== null) {
+    if (!this.builder.pushPackedIfFinite(rec)) {
+      const bad = firstNonFinite(rec) ?? 'a value became non-finite';
       this.fault = `${bad} at t = ${fmtS(t)} s; the run stops there and its trace ends at the last finite sample`;
       this.stopRequested = true;
       return;
     }
-    this.builder.pushPacked(rec);
     const rule = this.stopRule;
     if (rule) {
       const w = this.wTrue,
