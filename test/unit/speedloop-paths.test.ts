@@ -9,12 +9,18 @@
  *  - wheelFrictionTorqueAt (body/gyrostat.ts) from ω and h apart gives the same bits as
  *    wheelFrictionTorque from the packed state, and both equal the friction law written out here
  *    from its doc comment: c_i Ω_i + τ_c,i tanh(Ω_i / Ω_s), Ω_i = h_i / J_s,i − g_iᵀω (viscous plus
- *    smoothed Coulomb friction: common practice, no single source).
+ *    smoothed Coulomb friction: common practice, no single source);
+ *  - the limiter's fast path (wheels/limits.ts): reason 'none' and the command returned bit for
+ *    bit exactly when every command lies in its interval [lo_i, hi_i] as the methods note §6
+ *    defines it (lo_i = max(−τ_max,i, (−h_max,i − h_i)/dt), hi_i = min(τ_max,i, (h_max,i − h_i)/dt);
+ *    a wheel beyond its limit may only come back), written out here; otherwise the general path
+ *    runs and the delivered body torque is s × the request (direction kept, same note).
  */
 import { describe, expect, it } from 'vitest';
 import { makeGyrostat, wheelFrictionTorque, wheelFrictionTorqueAt } from '../../app/engine/body/gyrostat';
 import { m3Diag } from '../../app/engine/math/mat3';
 import { makeRng } from '../../app/engine/math/prng';
+import { bodyTorqueFromWheelTorque, createLimitInfo, limitWheelTorque, makeWheelArray, pyramid } from '../../app/engine/wheels';
 import { firstNonFinite } from '../../app/engine/sim/finite';
 import { PACKED_SCALARS, TraceBuilder, type PackedSample } from '../../app/engine/sim/trace';
 import type { RunTrace } from '../../app/engine/sim/types';
@@ -151,5 +157,77 @@ describe('wheelFrictionTorqueAt', () => {
       wheelFrictionTorqueAt(b, x.subarray(4, 7), x.subarray(7, 11), none);
       expect(Array.from(b)).toEqual([0, 0, 0, 0]);
     }
+  });
+});
+
+describe('limiter fast path when nothing binds', () => {
+  const TAU = 0.002,
+    H = 0.006;
+  const made = makeWheelArray(
+    pyramid({
+      maxTorqueNm: TAU,
+      maxMomentumNms: H,
+      rotorInertiaKgm2: 2e-5,
+      cantAngleRad: Math.acos(1 / Math.sqrt(3)),
+      azimuthOffsetRad: Math.PI / 4,
+    }),
+  );
+  if (!made.ok) throw new Error(JSON.stringify(made.errors));
+  const arr = made.value;
+
+  /** Every command inside [lo_i, hi_i] (methods note §6, written out). */
+  function inside(cmd: Float64Array, h: Float64Array, dt: number): boolean {
+    for (let i = 0; i < 4; i++) {
+      let lo = -TAU,
+        hi = TAU;
+      if (dt > 0) {
+        lo = Math.max(lo, h[i]! < -H ? 0 : (-H - h[i]!) / dt);
+        hi = Math.min(hi, h[i]! > H ? 0 : (H - h[i]!) / dt);
+      } else {
+        if (h[i]! <= -H) lo = 0;
+        if (h[i]! >= H) hi = 0;
+      }
+      if (cmd[i]! < lo || cmd[i]! > hi) return false;
+    }
+    return true;
+  }
+
+  it('none exactly when inside, command unchanged bit for bit (also aliased); otherwise s × the body torque', () => {
+    const rng = makeRng(2026, 0);
+    const cmd = new Float64Array(4),
+      h = new Float64Array(4),
+      out = new Float64Array(4);
+    const info = createLimitInfo();
+    let nInside = 0,
+      nOutside = 0;
+    for (let k = 0; k < 4000; k++) {
+      for (let i = 0; i < 4; i++) {
+        cmd[i] = rng.normal() * TAU * (k % 3 === 0 ? 1.5 : 0.4);
+        h[i] = rng.normal() * H * (k % 5 === 0 ? 1.2 : 0.5);
+      }
+      if (k % 7 === 0) cmd[k % 4] = -0;
+      const dt = k % 4 === 0 ? 0 : 0.1;
+      const want = inside(cmd, h, dt);
+      limitWheelTorque(out, arr, cmd, h, dt, info);
+      if (want) {
+        nInside++;
+        expect(info.reason).toBe('none');
+        expect(info.scale).toBe(1);
+        for (let i = 0; i < 4; i++) expect(Object.is(out[i], cmd[i])).toBe(true);
+        const alias = Float64Array.from(cmd);
+        limitWheelTorque(alias, arr, alias, h, dt, info);
+        for (let i = 0; i < 4; i++) expect(Object.is(alias[i], cmd[i])).toBe(true);
+      } else {
+        nOutside++;
+        expect(info.reason).not.toBe('none');
+        // Direction kept: delivered body torque = s × requested (methods note §6).
+        const req = bodyTorqueFromWheelTorque(new Float64Array(3), arr, cmd);
+        const got = bodyTorqueFromWheelTorque(new Float64Array(3), arr, out);
+        for (let i = 0; i < 3; i++) expect(Math.abs(got[i]! - info.scale * req[i]!)).toBeLessThan(1e-12);
+      }
+    }
+    // Both branches exercised many times (counts depend only on the seeded draws).
+    expect(nInside).toBeGreaterThan(500);
+    expect(nOutside).toBeGreaterThan(500);
   });
 });
