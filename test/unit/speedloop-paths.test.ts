@@ -14,7 +14,10 @@
  *    bit exactly when every command lies in its interval [lo_i, hi_i] as the methods note §6
  *    defines it (lo_i = max(−τ_max,i, (−h_max,i − h_i)/dt), hi_i = min(τ_max,i, (h_max,i − h_i)/dt);
  *    a wheel beyond its limit may only come back), written out here; otherwise the general path
- *    runs and the delivered body torque is s × the request (direction kept, same note).
+ *    runs and the delivered body torque is s × the request (direction kept, same note);
+ *  - the trace's first capacity (sim/loop.ts): the whole expected run, ⌈tEnd·f⌉ + 8 samples, when
+ *    the run is short or has no stop rule (it then flies to tEnd), 4096 samples growing otherwise
+ *    (arithmetic on the run's length, no source needed).
  */
 import { describe, expect, it } from 'vitest';
 import { makeGyrostat, wheelFrictionTorque, wheelFrictionTorqueAt } from '../../app/engine/body/gyrostat';
@@ -22,6 +25,10 @@ import { m3Diag } from '../../app/engine/math/mat3';
 import { makeRng } from '../../app/engine/math/prng';
 import { bodyTorqueFromWheelTorque, createLimitInfo, limitWheelTorque, makeWheelArray, pyramid } from '../../app/engine/wheels';
 import { firstNonFinite } from '../../app/engine/sim/finite';
+import { LoopCore } from '../../app/engine/sim/loop';
+import type { ClosedLoopConfig, StopRule } from '../../app/engine/sim/closedLoop';
+import { PERFECT_SENSORS } from '../../app/engine/sim/sensors';
+import { fixedReference, law, pyramidVehicle } from '../reference/closedloop-fixtures';
 import { PACKED_SCALARS, TraceBuilder, type PackedSample } from '../../app/engine/sim/trace';
 import type { RunTrace } from '../../app/engine/sim/types';
 
@@ -229,5 +236,48 @@ describe('limiter fast path when nothing binds', () => {
     // Both branches exercised many times (counts depend only on the seeded draws).
     expect(nInside).toBeGreaterThan(500);
     expect(nOutside).toBeGreaterThan(500);
+  });
+});
+
+describe('trace capacity up front', () => {
+  const veh = pyramidVehicle(
+    [
+      [0.11, 0, 0],
+      [0, 0.12, 0],
+      [0, 0, 0.08],
+    ],
+    0.002,
+    0.006,
+  );
+  const cfg = (tEnd: number, stopRule?: StopRule): ClosedLoopConfig => ({
+    plant: veh.plant,
+    wheels: veh.wheels,
+    controller: law({ kind: 'quaternion-pd', gains: { omegaN: 0.1, zeta: 0.9 } }, veh),
+    reference: fixedReference(),
+    q0: [0, 0, 0, 1],
+    omega0: [0, 0, 0],
+    hWheel0: new Float64Array(4),
+    tEnd,
+    timing: 'sampled',
+    controlRateHz: 10,
+    rk4StepsPerSample: 1,
+    sensors: PERFECT_SENSORS,
+    seed: 1,
+    actuation: { mode: 'hold' },
+    allocation: 'min-norm',
+    ...(stopRule ? { stopRule } : {}),
+  });
+  const never: StopRule = { update: () => false };
+
+  it('whole run when short or without a stop rule; 4096 and growing for a long run that may stop early', () => {
+    expect(new LoopCore(cfg(600)).builder.capacity).toBe(6008);
+    expect(new LoopCore(cfg(600, never)).builder.capacity).toBe(6008);
+    const expected = (tEnd: number) => Math.ceil(tEnd / (1 / 10)) + 8;
+    expect(expected(1637.6)).toBe(16_384); // the largest short run
+    expect(new LoopCore(cfg(1637.6, never)).builder.capacity).toBe(16_384);
+    expect(expected(1640)).toBe(16_408);
+    expect(new LoopCore(cfg(1640, never)).builder.capacity).toBe(4096);
+    expect(new LoopCore(cfg(86_400)).builder.capacity).toBe(864_008);
+    expect(new LoopCore(cfg(86_400, never)).builder.capacity).toBe(4096);
   });
 });

@@ -38,7 +38,8 @@ const INITIAL_TRACE_CAPACITY = 4096;
 /**
  * A run expecting at most this many samples (27 min at 10 Hz, 5.8 MB of a four-wheel trace) gets
  * its whole trace at once: no growth copy per short run (a run stopped early keeps at most that
- * much unused capacity).
+ * much unused capacity). So does a run of any length without a stop rule, which flies to tEnd
+ * unless cancelled or faulty: a day-long trace is then never held twice while it grows.
  */
 const WHOLE_TRACE_UP_FRONT = 16_384;
 
@@ -128,7 +129,8 @@ export class LoopCore {
       pointingAxis: this.axis,
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
-    this.builder = new TraceBuilder(N, samples <= WHOLE_TRACE_UP_FRONT ? samples : INITIAL_TRACE_CAPACITY, samples);
+    const upFront = samples <= WHOLE_TRACE_UP_FRONT || this.stopRule === null;
+    this.builder = new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples);
     this.rec = {
       j: 0,
       segment: 0,
