@@ -264,17 +264,27 @@ export function gyrostatDerivative(
  * motor torque, so ḣ_i = τ_motor,i − out_i), N·m. Zeros when the gyrostat has no friction.
  */
 export function wheelFrictionTorque(out: Float64Array, x: ArrayLike<number>, g: Gyrostat): Float64Array {
+  return frictionCore(out, x[4]!, x[5]!, x[6]!, x, 7, g);
+}
+
+/**
+ * The same bearing friction from the body rate ω (3) and the wheel momenta h (n) held apart,
+ * N·m (no state vector to assemble in the closed loop's per-sample path).
+ */
+export function wheelFrictionTorqueAt(out: Float64Array, omega: ArrayLike<number>, h: ArrayLike<number>, g: Gyrostat): Float64Array {
+  return frictionCore(out, omega[0]!, omega[1]!, omega[2]!, h, 0, g);
+}
+
+/** Friction with ω = (wx, wy, wz) and wheel momentum i at h[o + i]. */
+function frictionCore(out: Float64Array, wx: number, wy: number, wz: number, h: ArrayLike<number>, o: number, g: Gyrostat): Float64Array {
   const fr = g.friction;
-  const wx = x[4]!,
-    wy = x[5]!,
-    wz = x[6]!;
   const ax = g.axes;
   for (let i = 0; i < g.n; i++) {
     if (!fr.active) {
       out[i] = 0;
       continue;
     }
-    const rel = x[7 + i]! * g.JsInv[i]! - (ax[3 * i]! * wx + ax[3 * i + 1]! * wy + ax[3 * i + 2]! * wz);
+    const rel = h[o + i]! * g.JsInv[i]! - (ax[3 * i]! * wx + ax[3 * i + 1]! * wy + ax[3 * i + 2]! * wz);
     out[i] = fr.viscousNmsPerRad[i]! * rel + fr.coulombNm[i]! * Math.tanh(rel / fr.coulombSmoothingRadPerS);
   }
   return out;

@@ -1,6 +1,7 @@
 /**
- * The closed loop's check that no non-finite number enters a trace: every channel of a sample is
- * looked at before the sample is appended (loop.ts LoopCore.record). The first bad value is named
+ * The closed loop's check that no non-finite number enters a trace: every value of a sample is
+ * checked as it is appended (trace.ts pushPackedIfFinite, from loop.ts LoopCore.record), and a
+ * sample holding a bad one is not kept. The first bad value is named
  * by its channel, in words, so a run that stops on it says which quantity went wrong: the
  * controller's torque request, a wheel command, the state, a diagnostic.
  */

@@ -9,7 +9,7 @@
  * that change per sample sit in typed arrays, which V8 does not box).
  */
 import type { AttitudeController, ControlDiagnostics, ControlInput } from '../control/types';
-import { wheelFrictionTorque } from '../body/gyrostat';
+import { wheelFrictionTorqueAt } from '../body/gyrostat';
 import { allocateMinMax, allocateMinNorm } from '../wheels/allocation';
 import { bodyTorqueFromWheelTorque } from '../wheels/array';
 import { createLimitInfo, limitWheelTorque } from '../wheels/limits';
@@ -35,6 +35,13 @@ import { firstNonFinite } from './finite';
  * while below it, so a long run is neither allocated up front nor left with unused capacity.
  */
 const INITIAL_TRACE_CAPACITY = 4096;
+/**
+ * A run expecting at most this many samples (27 min at 10 Hz, 5.8 MB of a four-wheel trace) gets
+ * its whole trace at once: no growth copy per short run (a run stopped early keeps at most that
+ * much unused capacity). So does a run of any length without a stop rule, which flies to tEnd
+ * unless cancelled or faulty: a day-long trace is then never held twice while it grows.
+ */
+const WHOLE_TRACE_UP_FRONT = 16_384;
 
 export class LoopCore {
   readonly N: number;
@@ -73,7 +80,6 @@ export class LoopCore {
   private readonly friction: Float64Array;
   private readonly motorReq: Float64Array;
   readonly wheelNet: Float64Array;
-  private readonly xRec: Float64Array;
   private readonly limitInfo = createLimitInfo();
   private readonly rec: PackedSample;
 
@@ -104,7 +110,6 @@ export class LoopCore {
     this.friction = new Float64Array(N);
     this.motorReq = new Float64Array(N);
     this.wheelNet = new Float64Array(N);
-    this.xRec = new Float64Array(7 + N);
     this.input = {
       q: this.qMeas,
       omega: this.wMeas,
@@ -124,7 +129,8 @@ export class LoopCore {
       pointingAxis: this.axis,
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
-    this.builder = new TraceBuilder(N, Math.min(samples, INITIAL_TRACE_CAPACITY), samples);
+    const upFront = samples <= WHOLE_TRACE_UP_FRONT || this.stopRule === null;
+    this.builder = new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples);
     this.rec = {
       j: 0,
       segment: 0,
@@ -213,10 +219,7 @@ export class LoopCore {
     let motor: Float64Array = this.wheelCmd;
     const ff = cfg.frictionFeedforward ?? 0;
     if (ff > 0 && cfg.plant.friction.active) {
-      const xe = this.xRec;
-      xe.set(omega, 4);
-      xe.set(h, 7);
-      wheelFrictionTorque(this.friction, xe, cfg.plant);
+      wheelFrictionTorqueAt(this.friction, omega, h, cfg.plant);
       motor = this.motorReq;
       for (let i = 0; i < this.N; i++) motor[i] = this.wheelCmd[i]! + ff * this.friction[i]!;
     }
@@ -225,11 +228,7 @@ export class LoopCore {
 
   /** Net rotor torque at the recorded instant: the delivered (period-average) motor torque minus friction. */
   private netWheelTorque(): void {
-    const xr = this.xRec;
-    xr.set(this.qTrue, 0);
-    xr.set(this.wTrue, 4);
-    xr.set(this.hTrue, 7);
-    wheelFrictionTorque(this.friction, xr, this.cfg.plant);
+    wheelFrictionTorqueAt(this.friction, this.wTrue, this.hTrue, this.cfg.plant);
     for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]! - this.friction[i]!;
   }
 
@@ -256,13 +255,12 @@ export class LoopCore {
     x[PACKED_POTENTIAL_MIN] = diag.potentialMin;
     x[PACKED_GAP] = diag.gap;
     x[PACKED_LYAPUNOV] = diag.lyapunov;
-    const bad = firstNonFinite(rec);
-    if (bad !== null) {
+    if (!this.builder.pushPackedIfFinite(rec)) {
+      const bad = firstNonFinite(rec) ?? 'a value became non-finite';
       this.fault = `${bad} at t = ${fmtS(t)} s; the run stops there and its trace ends at the last finite sample`;
       this.stopRequested = true;
       return;
     }
-    this.builder.pushPacked(rec);
     const rule = this.stopRule;
     if (rule) {
       const w = this.wTrue,

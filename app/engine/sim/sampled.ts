@@ -39,7 +39,7 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
     const s = core.ref.at(t, core.qRef, core.wRef, core.wdRef);
     core.loadAxis(s);
     measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef, core.axis);
-    core.hMeas.set(core.hTrue);
+    for (let i = 0; i < core.N; i++) core.hMeas[i] = core.hTrue[i]!;
     if (s !== core.segment) {
       core.segment = s;
       core.ctrl.beginSegment?.(core.input);

@@ -225,6 +225,39 @@ export class TraceBuilder {
     tr.n = k + 1;
   }
 
+  /**
+   * Append a PackedSample only when every value in it is finite; false (nothing appended, n
+   * unchanged) otherwise. One pass: each value is copied and v·0 summed on the way, which stays 0
+   * for finite values and turns NaN for ±∞ or NaN (IEEE 754-2019 §6.1–6.2). The closed loop's
+   * per-sample path (loop.ts record); finite.ts firstNonFinite then names the bad value.
+   */
+  pushPackedIfFinite(s: PackedSample): boolean {
+    if (this.trace.n >= this.cap) this.grow();
+    const tr = this.trace;
+    const k = tr.n;
+    const N = tr.nWheels;
+    let z = 0;
+    const x = s.scalars;
+    for (let i = 0; i < PACKED_SCALARS; i++) z += x[i]! * 0;
+    z += copyFour(tr.q, 4 * k, s.q) + copyFour(tr.qRef, 4 * k, s.qRef);
+    z += copyThree(tr.omega, 3 * k, s.omega) + copyThree(tr.omegaRef, 3 * k, s.omegaRef);
+    z += copyThree(tr.torqueCmdBody, 3 * k, s.torqueCmdBody) + copyThree(tr.torqueBody, 3 * k, s.torqueBody);
+    z += copyN(tr.hWheel, N * k, s.hWheel, N) + copyN(tr.wheelTorqueCmd, N * k, s.wheelTorqueCmd, N);
+    z += copyN(tr.wheelTorque, N * k, s.wheelTorque, N) + copyN(tr.wheelTorqueNet, N * k, s.wheelTorqueNet, N);
+    if (z !== 0) return false;
+    tr.t[k] = x[PACKED_T]!;
+    tr.j[k] = s.j;
+    tr.segment[k] = s.segment;
+    tr.logic[k] = x[PACKED_LOGIC]!;
+    tr.errorAngle[k] = x[PACKED_ERROR_ANGLE]!;
+    tr.potential[k] = x[PACKED_POTENTIAL]!;
+    tr.potentialMin[k] = x[PACKED_POTENTIAL_MIN]!;
+    tr.gap[k] = x[PACKED_GAP]!;
+    tr.lyapunov[k] = x[PACKED_LYAPUNOV]!;
+    tr.n = k + 1;
+    return true;
+  }
+
   /** Trim the arrays to the stored length (views, no copy) and return the trace. */
   finish(): RunTrace {
     const tr = this.trace;
@@ -234,6 +267,39 @@ export class TraceBuilder {
     for (const name of TRACE_CHANNELS) tr[name] = tr[name].subarray(0, n * channelWidth(name, tr.nWheels));
     return tr;
   }
+}
+
+/** dst[o .. o+3] = src[0 .. 3]; returns Σ v·0 (0 when all four are finite, NaN otherwise). */
+function copyFour(dst: Float64Array, o: number, src: Float64Array): number {
+  const a = src[0]!,
+    b = src[1]!,
+    c = src[2]!,
+    d = src[3]!;
+  dst[o] = a;
+  dst[o + 1] = b;
+  dst[o + 2] = c;
+  dst[o + 3] = d;
+  return a * 0 + b * 0 + c * 0 + d * 0;
+}
+
+function copyThree(dst: Float64Array, o: number, src: Float64Array): number {
+  const a = src[0]!,
+    b = src[1]!,
+    c = src[2]!;
+  dst[o] = a;
+  dst[o + 1] = b;
+  dst[o + 2] = c;
+  return a * 0 + b * 0 + c * 0;
+}
+
+function copyN(dst: Float64Array, o: number, src: Float64Array, n: number): number {
+  let z = 0;
+  for (let i = 0; i < n; i++) {
+    const v = src[i]!;
+    dst[o + i] = v;
+    z += v * 0;
+  }
+  return z;
 }
 
 /** Keep every k-th sample (and always the last), e.g. for exports at a lower rate or study traces. */

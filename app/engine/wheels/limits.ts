@@ -115,6 +115,10 @@ function limitCore(
   for (let i = 0; i < n; i++) if (!Number.isFinite(cmd[i]) || !Number.isFinite(h[i])) return invalid(out, n, info);
   const lT = arr.maxTorqueNm,
     hMax = arr.maxMomentumNms;
+  if (insideAllIntervals(cmd, h, lT, hMax, n, dt)) {
+    for (let i = 0; i < n; i++) out[i] = cmd[i]!;
+    return setInfo(info, 1, 'none', -1, false);
+  }
   let anyViolated = false;
   let momViolated = false;
   for (let i = 0; i < n; i++) {
@@ -178,6 +182,37 @@ function limitCore(
   const c = bind >= 0 ? cmdS[bind]! : 0;
   const byMomentum = bind >= 0 && (c > 0 ? hiMom[bind] === 1 : loMom[bind] === 1);
   return setInfo(info, sScale, byMomentum ? 'momentum' : 'torque', bind, false);
+}
+
+/**
+ * The common case first: is every command inside its wheel's interval [lo_i, hi_i]? The same
+ * bounds, computed the same way, as the general path below (which then returns the command
+ * unchanged with reason 'none'), without filling the scratch arrays the scaling and the LPs need.
+ */
+function insideAllIntervals(
+  cmd: ArrayLike<number>,
+  h: ArrayLike<number>,
+  lT: ArrayLike<number>,
+  hMax: ArrayLike<number>,
+  n: number,
+  dt: number,
+): boolean {
+  for (let i = 0; i < n; i++) {
+    let mLo = -Infinity,
+      mHi = Infinity;
+    if (dt > 0) {
+      mLo = (-hMax[i]! - h[i]!) / dt;
+      mHi = (hMax[i]! - h[i]!) / dt;
+      if (h[i]! > hMax[i]!) mHi = 0;
+      if (h[i]! < -hMax[i]!) mLo = 0;
+    } else {
+      if (h[i]! >= hMax[i]!) mHi = 0;
+      if (h[i]! <= -hMax[i]!) mLo = 0;
+    }
+    const c = cmd[i]!;
+    if (c < Math.max(-lT[i]!, mLo) || c > Math.min(lT[i]!, mHi)) return false;
+  }
+  return true;
 }
 
 /**
