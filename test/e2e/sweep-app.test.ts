@@ -89,6 +89,10 @@ describe.skipIf(skipBrowser)('sweep view (Chromium)', () => {
 
   it('opens as the Sweep tab of the study workspace and names bad input at its field, with Run disabled', async () => {
     await page.getByTestId('cmd-study').click();
+    // The Study tab's bar with the tabs added (its own spec covers the study itself).
+    await page.getByTestId('study-run').waitFor();
+    expect(await page.getByTestId('tab-study').getAttribute('aria-selected')).toBe('true');
+    await shot(page, 'sweep-study-tab', 1280, 800);
     await page.getByTestId('tab-sweep').click();
     await page.getByTestId('sweep-setup').waitFor();
     expect(await page.getByTestId('tab-sweep').getAttribute('aria-selected')).toBe('true');

@@ -131,7 +131,6 @@ function StudyBar() {
       >
         {setupOpen ? '◂ setup' : '▸ setup'}
       </button>
-      <span className="study-title">Robustness study</span>
       <WorkspaceTabs />
       {!active ? (
         <button

@@ -81,7 +81,6 @@ function SweepBar() {
   const level = levelOf(form);
   return (
     <div className="study-bar">
-      <span className="study-title">Robustness study</span>
       <WorkspaceTabs />
       {!active ? (
         <button
@@ -138,7 +137,7 @@ export function WorkspaceTabs() {
   const session = useSweepSession();
   const open = useSweepState((s) => s.open);
   return (
-    <span className="workspace-tabs" role="tablist" aria-label="Study views">
+    <span className="workspace-tabs" role="tablist" aria-label="Robustness study views">
       <button
         role="tab"
         aria-selected={!open}
