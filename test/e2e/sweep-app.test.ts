@@ -245,6 +245,8 @@ describe.skipIf(skipBrowser)('sweep view (Chromium)', () => {
       .poll(async () => Number(await bar.getAttribute('data-done')), { timeout: 120_000, interval: 100 })
       .toBeGreaterThanOrEqual(3);
     expect(await phase(page)).toBe('running');
+    // The top bar's Study button shows the sweep's progress too (for when the workspace is closed).
+    expect(await page.getByTestId('cmd-study').textContent()).toMatch(/^Study · sweep \d+ %$/);
     await shot(page, 'sweep-running', 1280, 800);
     await page.getByTestId('sweep-cancel').click();
     await expect.poll(() => phase(page), { timeout: 30_000 }).toBe('cancelled');

@@ -509,6 +509,11 @@ export function StudyToggle() {
   const phase = useStudyState((s) => s.phase);
   const p = useStudyState((s) => s.progress);
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
+  const sweepPct = useSweepState((s) =>
+    s.progress && (s.phase === 'starting' || s.phase === 'running' || s.phase === 'cancelling')
+      ? Math.floor((100 * s.progress.cellsDone) / Math.max(1, s.progress.cellsTotal))
+      : null,
+  );
   return (
     <button
       className={`toolbar-button study-toggle ${open ? 'on' : ''}`}
@@ -518,6 +523,7 @@ export function StudyToggle() {
       data-testid="cmd-study"
     >
       Study{active && p ? ` ${Math.floor((100 * p.done) / Math.max(1, p.total))} %` : ''}
+      {sweepPct !== null ? ` · sweep ${sweepPct} %` : ''}
     </button>
   );
 }
