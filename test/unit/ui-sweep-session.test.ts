@@ -230,6 +230,19 @@ describe('sweep form: problems named at their fields', () => {
     for (const i of c.issues) expect(i.message).not.toContain('NaN');
   });
 
+  it('names only the unread axis while the other cannot be checked in its place (no shifted paths)', () => {
+    const bad = {
+      ...base,
+      axes: [
+        { ...axisFormFor('worst-case-eta'), lo: 'x' },
+        { ...base.axes[1], hi: '2' },
+      ] as SweepForm['axes'],
+    };
+    expect(rules(bad)).toEqual(['sweep.axes[0].lo|number']);
+    expect(check(bad).cells).toBeNull();
+    expect(rules({ ...base, axes: [axisFormFor(''), base.axes[1]] })).toEqual(['sweep.axes[0].parameter|required']);
+  });
+
   it('refuses values outside a parameter’s limits, too many values, a bad level', () => {
     expect(rules({ ...base, axes: [{ ...base.axes[0], list: '0.05, 1' }, base.axes[1]] })).toEqual(['sweep.axes[0].values[1]|range']);
     expect(rules({ ...base, axes: [base.axes[0], { ...base.axes[1], steps: '51' }] })).toEqual(['sweep.axes[1]|max-values']);

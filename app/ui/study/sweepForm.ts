@@ -138,25 +138,26 @@ export function checkSweepForm(form: SweepForm, scenario: unknown): SweepFormChe
       if (errors.length === before) axes.push({ parameter: a.parameter, lo, hi, steps });
     }
   });
+  // Only a complete set of axes goes to the engine: a missing one would shift the other's index in its paths.
+  const axesRead = errors.length === 0;
   const runs = numberAt(form.runs, 'sweep.runs', 'cases per cell', errors);
   const seed = numberAt(form.seed, 'sweep.seed', 'seed', errors);
   const levelPct = numberAt(form.levelPct, 'sweep.level', 'boundary level (%)', errors);
   const flown = flownControllers(form, scenario);
   if (form.controllers !== null && flown.length === 0)
     errors.push(issue('sweep.controllers', 'min-length', 'sweep.controllers: tick at least one controller to fly'));
-  const readErrors = errors.length;
   const r = validateSweep({
-    axes,
+    axes: axesRead ? axes : [],
     runs,
     seed,
     controllers: form.controllers ? flown.map((c) => c.id) : null,
     level: levelPct / 100,
   });
-  const cells = axes.length === form.axes.filter((a) => a.parameter !== '').length ? gridCells(axes) : null;
+  const cells = axesRead ? gridCells(axes) : null;
   if (!r.ok) {
     // Problems of fields that did not read are already named; the engine's level is a fraction, the form's a percentage.
     for (const e of r.errors) {
-      if (readErrors && (e.path === 'sweep.axes' || errors.some((x) => x.path === e.path))) continue;
+      if ((!axesRead && e.path.startsWith('sweep.axes')) || errors.some((x) => x.path === e.path)) continue;
       errors.push(
         e.path === 'sweep.level'
           ? issue(
