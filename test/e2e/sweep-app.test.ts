@@ -103,6 +103,7 @@ describe.skipIf(skipBrowser)('sweep view (Chromium)', () => {
     await issueAt(page, 'sweep.axes[0].values[2]').waitFor();
     expect(await issueAt(page, 'sweep.axes[0].values[2]').textContent()).toContain('must lie in [0, 1)');
     expect(await page.getByTestId('sweep-run').isDisabled()).toBe(true);
+    await shot(page, 'sweep-bad-input', 1280, 800);
     await field(page, 'sweep.axes[0].values').fill('0.05, 0.15, 0.25');
 
     await field(page, 'sweep.axes[1].parameter').selectOption('hysteresis');

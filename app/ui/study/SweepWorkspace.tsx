@@ -166,7 +166,8 @@ function SweepProgressBar() {
   const phase = useSweepState((s) => s.phase);
   const p = useSweepState((s) => s.progress);
   const workers = useSweepState((s) => s.workersUsed);
-  if (phase === 'idle' || !p) return null;
+  // An empty row keeps the body in the workspace's last (stretching) grid row.
+  if (phase === 'idle' || !p) return <div />;
   const frac = p.cellsTotal > 0 ? p.cellsDone / p.cellsTotal : 0;
   const active = isActive(phase);
   return (
