@@ -15,6 +15,8 @@ import { PALETTE } from '../plots/series';
 import { ControllerKey, Histograms } from './Histograms';
 import { OutcomeMap } from './OutcomeMap';
 import { StudySetup } from './StudySetup';
+import { SweepWorkspace, WorkspaceTabs } from './SweepWorkspace';
+import { useSweepState } from './sweepRegistry';
 import { useStudySession, useStudyState } from './registry';
 import type { WorkerChoice } from './session';
 import './studyWorkspace.css';
@@ -129,7 +131,7 @@ function StudyBar() {
       >
         {setupOpen ? '◂ setup' : '▸ setup'}
       </button>
-      <span className="study-title">Robustness study</span>
+      <WorkspaceTabs />
       {!active ? (
         <button
           className="primary"
@@ -468,6 +470,7 @@ function Results() {
 export function StudyWorkspace() {
   const session = useStudySession();
   const setupOpen = useStudyState((s) => s.setupOpen);
+  const sweepOpen = useSweepState((s) => s.open);
   // Escape closes the view (when no field has focus).
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
@@ -479,16 +482,22 @@ export function StudyWorkspace() {
   }, [session]);
   return (
     <section className="study-workspace" aria-label="Robustness study" data-testid="study-workspace">
-      <StudyBar />
-      <ProgressBar />
-      <div className={`study-body ${setupOpen ? '' : 'setup-hidden'}`}>
-        {setupOpen && (
-          <aside className="study-setup" aria-label="Study setup">
-            <StudySetup />
-          </aside>
-        )}
-        <Results />
-      </div>
+      {sweepOpen ? (
+        <SweepWorkspace />
+      ) : (
+        <>
+          <StudyBar />
+          <ProgressBar />
+          <div className={`study-body ${setupOpen ? '' : 'setup-hidden'}`}>
+            {setupOpen && (
+              <aside className="study-setup" aria-label="Study setup">
+                <StudySetup />
+              </aside>
+            )}
+            <Results />
+          </div>
+        </>
+      )}
     </section>
   );
 }
@@ -500,6 +509,11 @@ export function StudyToggle() {
   const phase = useStudyState((s) => s.phase);
   const p = useStudyState((s) => s.progress);
   const active = phase === 'starting' || phase === 'running' || phase === 'cancelling';
+  const sweepPct = useSweepState((s) =>
+    s.progress && (s.phase === 'starting' || s.phase === 'running' || s.phase === 'cancelling')
+      ? Math.floor((100 * s.progress.cellsDone) / Math.max(1, s.progress.cellsTotal))
+      : null,
+  );
   return (
     <button
       className={`toolbar-button study-toggle ${open ? 'on' : ''}`}
@@ -509,6 +523,7 @@ export function StudyToggle() {
       data-testid="cmd-study"
     >
       Study{active && p ? ` ${Math.floor((100 * p.done) / Math.max(1, p.total))} %` : ''}
+      {sweepPct !== null ? ` · sweep ${sweepPct} %` : ''}
     </button>
   );
 }

@@ -112,6 +112,11 @@ export interface StudySession {
   /** Add the default study block to a scenario that has none (one undo step). */
   addDefaultStudy(): void;
   openCase(index: number, controllerId: string): Promise<void>;
+  /**
+   * Open case `index` of the study in `json` (any scenario with a study block, e.g. a sweep cell's) as a
+   * normal run with `controllerId` ticked; `fileStem` names the untitled document, `what` the notice.
+   */
+  openCaseOf(json: unknown, index: number, controllerId: string, fileStem: string, what: string): Promise<void>;
   /** Save the current study as a campaign (one script that writes the campaign folder on the cluster). */
   saveCampaign(): Promise<void>;
   /** Show the results of a summary.json (a merged campaign): true when it was opened, else a notice says why. */
@@ -419,9 +424,15 @@ export function createStudySession(o: StudySessionOptions): StudySession {
   async function openCase(index: number, controllerId: string): Promise<void> {
     const s = store.getState();
     if (s.opening || !s.scenario) return;
+    const name = isObj(s.scenario) ? s.scenario.name : undefined;
+    await openCaseOf(s.scenario, index, controllerId, `${studySlug(name)}-case-${index}`, `study case ${index}`);
+  }
+
+  async function openCaseOf(scenario: unknown, index: number, controllerId: string, fileStem: string, what: string): Promise<void> {
+    if (store.getState().opening) return;
     store.setState({ opening: `${index}:${controllerId}` });
     try {
-      const r = await caseScenario(s.scenario, index);
+      const r = await caseScenario(scenario, index);
       if (!r.ok) {
         app.notify(`Case ${index} cannot be opened: ${r.errors.map((e) => e.message).join('; ')}`, 'error');
         return;
@@ -433,13 +444,12 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       const ids = Array.isArray(json.controllers)
         ? (json.controllers as Obj[]).map((c) => c.id).filter((id): id is string => typeof id === 'string')
         : [];
-      const name = isObj(s.scenario) ? s.scenario.name : undefined;
-      app.store.load(json, `${studySlug(name)}-case-${index}.scenario.json`, true);
+      app.store.load(json, `${fileStem}.scenario.json`, true);
       app.store.setExcluded(ids.filter((id) => id !== controllerId));
       app.clock.pause();
       app.clock.setTime(0);
       store.setState({ open: false });
-      app.notify(`Opened study case ${index} as a new untitled scenario with ${controllerId} ticked`);
+      app.notify(`Opened ${what} as a new untitled scenario with ${controllerId} ticked`);
     } finally {
       store.setState({ opening: null });
     }
@@ -475,6 +485,7 @@ export function createStudySession(o: StudySessionOptions): StudySession {
       app.store.edit('study', defaultStudyBlock(sc), { label: 'Add study block', coalesceKey: null });
     },
     openCase,
+    openCaseOf,
     async saveCampaign() {
       const b = blockers();
       if (b.length) {
