@@ -11,6 +11,7 @@ import uPlot from 'uplot';
 import { fmt } from '../format';
 import type { PlotSpec } from './series';
 import { captionLines, wrapText, type CaptionContext } from './pngCaption';
+import { bandPixels, ECLIPSE_BAND_FILL, ECLIPSE_BAND_TEXT, WINDOW_BAND_FILL, WINDOW_BAND_TEXT } from './windowBands';
 
 const CURSOR_SYNC_KEY = 'slewsmith-time';
 
@@ -71,6 +72,31 @@ function drawIntervals(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: n
     const x1 = u.valToPos(iv.t1, 'x', true);
     u.ctx.fillStyle = iv.color ?? 'rgba(214, 96, 20, 0.18)';
     u.ctx.fillRect(x0, top, Math.max(2 * dpr, x1 - x0), height);
+  }
+}
+
+/**
+ * Orbit bands (windowBands.ts): planned site/station windows and eclipses over the full height,
+ * each labelled at the bottom of the plot area where the label fits inside its band.
+ */
+function drawWindowBands(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
+  if (!s.windowBands?.length) return;
+  const ctx = u.ctx;
+  const { top, height, left, width } = u.bbox;
+  ctx.font = `${MARKER_FONT_PX * dpr}px ${FAMILY}`;
+  ctx.textBaseline = 'bottom';
+  ctx.textAlign = 'left';
+  for (const b of s.windowBands) {
+    const px = bandPixels(b.t0, b.t1, xMin, xMax, left, width);
+    if (!px) continue;
+    const w = Math.max(2 * dpr, px.x1 - px.x0);
+    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_FILL : WINDOW_BAND_FILL;
+    ctx.fillRect(px.x0, top, w, height);
+    const room = w - 6 * dpr;
+    const text = ctx.measureText(b.label).width <= room ? b.label : '';
+    if (!text) continue;
+    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_TEXT : WINDOW_BAND_TEXT;
+    ctx.fillText(text, px.x0 + 3 * dpr, top + height - 3 * dpr);
   }
 }
 
@@ -159,6 +185,7 @@ function drawMarkers(spec: () => PlotSpec) {
     ctx.beginPath();
     ctx.rect(left, top, width, height);
     ctx.clip();
+    drawWindowBands(u, s, xMin, xMax, dpr);
     drawIntervals(u, s, xMin, xMax, dpr);
     drawJumps(u, s, xMin, xMax, dpr);
     drawSegments(u, s, xMin, xMax, dpr);
