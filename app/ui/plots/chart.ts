@@ -76,28 +76,52 @@ function drawIntervals(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: n
 }
 
 /**
- * Orbit bands (windowBands.ts): planned site/station windows and eclipses over the full height,
- * each labelled at the bottom of the plot area where the label fits inside its band.
+ * Orbit bands (windowBands.ts): planned site/station windows and eclipses over the full height.
+ * Labels sit near the bottom (windows one line above eclipses, which they often overlap): the
+ * full name inside the band where it fits, else its first word, else that word just right of the
+ * band when there is room before the next band of the same kind, else none.
  */
 function drawWindowBands(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
-  if (!s.windowBands?.length) return;
+  const bands = s.windowBands;
+  if (!bands?.length) return;
   const ctx = u.ctx;
   const { top, height, left, width } = u.bbox;
+  const spans = bands.map((b) => bandPixels(b.t0, b.t1, xMin, xMax, left, width));
+  bands.forEach((b, i) => {
+    const px = spans[i];
+    if (!px) return;
+    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_FILL : WINDOW_BAND_FILL;
+    ctx.fillRect(px.x0, top, Math.max(2 * dpr, px.x1 - px.x0), height);
+  });
   ctx.font = `${MARKER_FONT_PX * dpr}px ${FAMILY}`;
   ctx.textBaseline = 'bottom';
   ctx.textAlign = 'left';
-  for (const b of s.windowBands) {
-    const px = bandPixels(b.t0, b.t1, xMin, xMax, left, width);
-    if (!px) continue;
-    const w = Math.max(2 * dpr, px.x1 - px.x0);
-    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_FILL : WINDOW_BAND_FILL;
-    ctx.fillRect(px.x0, top, w, height);
-    const room = w - 6 * dpr;
-    const text = ctx.measureText(b.label).width <= room ? b.label : '';
-    if (!text) continue;
+  const pad = 3 * dpr;
+  const lineH = (MARKER_FONT_PX + 3) * dpr;
+  bands.forEach((b, i) => {
+    const px = spans[i];
+    if (!px) return;
+    let next = left + width;
+    for (let k = i + 1; k < bands.length; k++) {
+      const q = spans[k];
+      if (bands[k]!.kind === b.kind && q) {
+        next = q.x0;
+        break;
+      }
+    }
+    const short = b.label.split(/[\s(]/)[0] || b.label;
+    const fits = (t: string, room: number) => ctx.measureText(t).width <= room;
+    const inside = Math.max(2 * dpr, px.x1 - px.x0) - 2 * pad;
+    let x = px.x0 + pad;
+    let text = fits(b.label, inside) ? b.label : fits(short, inside) ? short : '';
+    if (!text && fits(short, next - px.x1 - 2 * pad)) {
+      text = short;
+      x = px.x1 + pad;
+    }
+    if (!text) return;
     ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_TEXT : WINDOW_BAND_TEXT;
-    ctx.fillText(text, px.x0 + 3 * dpr, top + height - 3 * dpr);
-  }
+    ctx.fillText(text, x, top + height - pad - (b.kind === 'window' ? lineH : 0));
+  });
 }
 
 /**
@@ -283,6 +307,8 @@ export function createChart(
     target,
   );
   group.charts.add(plot);
+  // For the end-to-end tests (band pixels against uPlot's own valToPos); nothing in the app reads it.
+  (target as HTMLElement & { __slewsmithPlot?: uPlot }).__slewsmithPlot = plot;
 
   const playhead = document.createElement('div');
   playhead.className = 'playhead';
