@@ -13,6 +13,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUrl, launchBrowser, repoRoot, skipBrowser, watchedPage, type WatchedPage } from './harness';
+import { TEXT_RULES_SCRIPT, type TextViolation } from './textRules';
 
 const screensDir = path.join(repoRoot, 'test-output/screens');
 const example = fs.readFileSync(path.join(repoRoot, 'assets/lumen6-orbit-day.scenario.json'), 'utf8');
@@ -125,6 +126,10 @@ describe.skipIf(skipBrowser)('orbit view and orbit bands (Chromium)', () => {
     expect(names).toContain('label:Lumen-6');
     expect(names.some((n) => n.startsWith('hud-shadow:'))).toBe(true);
     expect(await page.getByTestId('orbit-view-key').textContent()).toMatch(/EME2000/);
+    // Text rules (≥ 13 px, contrast ≥ 4.5:1, textRules.ts) on the view bar and the band legend.
+    const v = (await page.evaluate(TEXT_RULES_SCRIPT)) as TextViolation[];
+    const ours = v.filter((x) => /view3d-bar|view-mode|orbit-view-key|orbit-follow|band-legend|band-key/.test(x.where));
+    expect(ours.map((x) => `${x.rule} ${x.value} < ${x.needed} at ${x.where}: "${x.text}"`)).toEqual([]);
     fs.mkdirSync(screensDir, { recursive: true });
     await page.screenshot({ path: path.join(screensDir, 'orbit-view-1280x800.png') });
   });
