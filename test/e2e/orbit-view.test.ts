@@ -65,6 +65,8 @@ describe.skipIf(skipBrowser)('orbit view and orbit bands (Chromium)', () => {
   let page: Page;
   let windows: Win[];
   let eclipses: { startS: number; endS: number }[];
+  /** On the default (no orbit) scenario: band legends shown and whether the orbit switch was enabled. */
+  let noOrbit: { legends: number; orbitEnabled: boolean };
 
   beforeAll(async () => {
     browser = await launchBrowser();
@@ -72,6 +74,11 @@ describe.skipIf(skipBrowser)('orbit view and orbit bands (Chromium)', () => {
     page = w.page;
     await page.goto(appUrl(), { waitUntil: 'load' });
     await page.locator('[data-testid=run-status][data-status=done]').waitFor({ timeout: 60_000 });
+    await page.getByTestId('plots').waitFor({ timeout: 60_000 });
+    noOrbit = {
+      legends: await page.getByTestId('window-band-legend').count(),
+      orbitEnabled: await page.getByTestId('view-mode-orbit').isEnabled(),
+    };
     await page.evaluate((text) => {
       const s = (window as unknown as { __slewsmith: { store: { load(j: unknown, name: string, clean: boolean): void } } }).__slewsmith;
       s.store.load(JSON.parse(text), 'lumen6-orbit-day.scenario.json', true);
@@ -95,6 +102,10 @@ describe.skipIf(skipBrowser)('orbit view and orbit bands (Chromium)', () => {
 
   afterAll(async () => {
     await browser?.close();
+  });
+
+  it('a scenario without an orbit has no bands, no band legend and no orbit scene to switch to', () => {
+    expect(noOrbit).toEqual({ legends: 0, orbitEnabled: false });
   });
 
   it('switches to the orbit scene, which draws the Earth, the orbit and its labels', async () => {
