@@ -203,6 +203,11 @@ describe.skipIf(skipBrowser)('orbit view and orbit bands (Chromium)', () => {
       expect(r.share).toBeGreaterThan(0.3);
     }
     await page.screenshot({ path: path.join(screensDir, 'orbit-bands-1280x800.png') });
+    // The plot's PNG carries the bands too, with their legend entries (looked at by eye).
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('png-error-angle').click()]);
+    const bytes = fs.readFileSync((await download.path())!);
+    expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    fs.writeFileSync(path.join(screensDir, 'orbit-bands-plot.png'), bytes);
   });
 
   it('at 1600×1000 the orbit view still draws; no page errors', async () => {

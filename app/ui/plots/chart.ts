@@ -375,10 +375,17 @@ export function createChart(
       const legendFont = `${12 * dpr}px ${FAMILY}`;
       const rowH = 20 * dpr;
       ctx.font = legendFont;
-      const entries: { s: (typeof spec.series)[number]; x: number; row: number }[] = [];
+      // Series first, then the orbit bands' kinds (windowBands.ts) as filled swatches.
+      const bandKinds = new Set((spec.windowBands ?? []).map((b) => b.kind));
+      const items: { label: string; color: string; dash?: number[]; fill?: string }[] = [
+        ...spec.series.map((s) => ({ label: s.label, color: s.color, dash: s.dash })),
+        ...(bandKinds.has('window') ? [{ label: 'planned window (site named in the band)', color: '', fill: WINDOW_BAND_FILL }] : []),
+        ...(bandKinds.has('eclipse') ? [{ label: 'eclipse', color: '', fill: ECLIPSE_BAND_FILL }] : []),
+      ];
+      const entries: { s: (typeof items)[number]; x: number; row: number }[] = [];
       let lx = 0,
         row = 0;
-      for (const s of spec.series) {
+      for (const s of items) {
         const w = 28 * dpr + ctx.measureText(s.label).width;
         if (lx > 0 && lx + w > maxW) {
           lx = 0;
@@ -405,14 +412,19 @@ export function createChart(
       for (const e of entries) {
         const x = pad + e.x;
         const ly = pad + headH + src.height + 4 * dpr + e.row * rowH + rowH / 2;
-        ctx.strokeStyle = e.s.color;
-        ctx.lineWidth = 2 * dpr;
-        ctx.setLineDash((e.s.dash ?? []).map((d) => d * dpr));
-        ctx.beginPath();
-        ctx.moveTo(x, ly);
-        ctx.lineTo(x + 16 * dpr, ly);
-        ctx.stroke();
-        ctx.setLineDash([]);
+        if (e.s.fill) {
+          ctx.fillStyle = e.s.fill;
+          ctx.fillRect(x, ly - 6 * dpr, 16 * dpr, 12 * dpr);
+        } else {
+          ctx.strokeStyle = e.s.color;
+          ctx.lineWidth = 2 * dpr;
+          ctx.setLineDash((e.s.dash ?? []).map((d) => d * dpr));
+          ctx.beginPath();
+          ctx.moveTo(x, ly);
+          ctx.lineTo(x + 16 * dpr, ly);
+          ctx.stroke();
+          ctx.setLineDash([]);
+        }
         ctx.fillStyle = '#1f2731';
         ctx.fillText(e.s.label, x + 20 * dpr, ly);
       }
