@@ -59,6 +59,8 @@ export interface KeepOutCone {
   halfAngleRad: number;
   /** Whether the shown run's margin to this cone is negative at the current time (colours the cone); absent: not known. */
   violated?: boolean;
+  /** The direction moves with time (Sun, Moon, Earth, ground station): the UI re-aims the cone as the time moves. */
+  moving?: boolean;
 }
 
 /** The empty cone list, one shared instance (option changes are detected by identity). */

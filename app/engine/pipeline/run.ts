@@ -22,6 +22,7 @@ import { bestMarks, comparisonRow } from './comparison';
 import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSummary } from './summarise';
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
 import { budgetIssues, DEFAULT_BUDGET, estimateBudget, runStepCap, type RunBudget } from './budget';
+import { orbitViewSamples } from '../orbit/viewSamples';
 import { buildOrbitStage, orbitExportInfo, orbitOutput, windowErrors, type OrbitStage } from './orbit';
 import {
   checkPlan,
@@ -218,6 +219,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       warnings: p.warnings,
       elapsedMs: Date.now() - t0,
       orbit,
+      orbitView: p.orbit ? orbitViewSamples(p.orbit.ephemeris) : null,
     },
     p.warnings,
   );

@@ -24,6 +24,7 @@ import type { ConstrainedSegment } from './constrainedPlan';
 import type { AttitudeForm, Scenario } from '../scenario/schema';
 import type { TrackForm } from '../scenario/orbitSchema';
 import type { OrbitExportInfo, OrbitOutput, WindowError } from './orbit';
+import type { OrbitViewSamples } from '../orbit/viewSamples';
 
 export type { RunMode } from '../sim/types';
 export type { LogicKind } from '../control/types';
@@ -271,6 +272,8 @@ export interface PipelineOutput {
   elapsedMs: number;
   /** Scenarios with an orbit block: the orbit, sky, sites with their passes, eclipses and planned windows (pipeline/orbit.ts). */
   orbit?: OrbitOutput | null;
+  /** Orbit scenarios: the geometry the 3D orbit view interpolates per frame, sampled once per pass (orbit/viewSamples.ts). */
+  orbitView?: OrbitViewSamples | null;
 }
 
 /** A certificate as a summary row (an S² certificate has the same fields). */

@@ -13,6 +13,8 @@ import { runName } from '../modeNames';
 import { createChart, createChartGroup, structureKey, type ChartGroup, type ChartHandle } from './chart';
 import { boresightChoices, defaultBoresight, type BoresightChoice } from './overlays';
 import { buildPlots, runColor, type PlotSpec, type Series } from './series';
+import { WindowBandLegend } from './WindowBandLegend';
+import { windowBands } from './windowBands';
 
 const PLOT_HEIGHT = 180;
 
@@ -168,10 +170,14 @@ export function PlotsPanel() {
     () => (output ? (choices.find((c) => c.key === axisKey) ?? defaultBoresight(output)) : null),
     [output, choices, axisKey],
   );
-  const plots = useMemo(
-    () => (output && boresight ? buildPlots(output, selected, { logError, boresight }, join) : null),
-    [output, selected, logError, boresight],
-  );
+  const bands = useMemo(() => (output ? windowBands(output) : null), [output]);
+  const plots = useMemo(() => {
+    const p = output && boresight ? buildPlots(output, selected, { logError, boresight }, join) : null;
+    // Orbit scenarios: the planned windows and eclipses shaded on every time plot.
+    if (!p || !bands?.length) return p;
+    const add = (x: PlotSpec): PlotSpec => ({ ...x, windowBands: bands });
+    return { ...p, overlays: p.overlays.map(add), detailPlots: p.detailPlots.map(add) };
+  }, [output, selected, logError, boresight, bands]);
 
   if (!output || !plots || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
   const logToggle = (
@@ -198,6 +204,7 @@ export function PlotsPanel() {
           t in s from {output.scenario.epochUtc} UTC · frame {INERTIAL_FRAME} · solid line: a slew starts (target number and name), dotted:
           planned arrival
         </span>
+        {bands && bands.length > 0 && <WindowBandLegend bands={bands} />}
       </div>
       <div className="plot-grid" data-testid="overlay-plots">
         {plots.overlays.map((p) => (

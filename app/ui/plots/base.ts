@@ -4,6 +4,7 @@
  */
 import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types';
 import type { TimeMarker } from './markers';
+import type { WindowBand } from './windowBands';
 
 export type Series = ArrayLike<number | null>;
 
@@ -44,6 +45,8 @@ export interface PlotSpec {
   intervals?: Interval[];
   /** Segment starts and planned arrivals (every time axis shows them). */
   markers?: TimeMarker[];
+  /** Orbit scenarios: planned site/station windows and eclipses, shaded and labelled (windowBands.ts). */
+  windowBands?: readonly WindowBand[];
   /** One line under the title (what is shaded, which wheel is at its limit). */
   note?: string;
   /** When set, the plot has nothing to show and says why. */

@@ -11,6 +11,7 @@ import uPlot from 'uplot';
 import { fmt } from '../format';
 import type { PlotSpec } from './series';
 import { captionLines, wrapText, type CaptionContext } from './pngCaption';
+import { bandPixels, ECLIPSE_BAND_FILL, ECLIPSE_BAND_TEXT, WINDOW_BAND_FILL, WINDOW_BAND_TEXT } from './windowBands';
 
 const CURSOR_SYNC_KEY = 'slewsmith-time';
 
@@ -72,6 +73,55 @@ function drawIntervals(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: n
     u.ctx.fillStyle = iv.color ?? 'rgba(214, 96, 20, 0.18)';
     u.ctx.fillRect(x0, top, Math.max(2 * dpr, x1 - x0), height);
   }
+}
+
+/**
+ * Orbit bands (windowBands.ts): planned site/station windows and eclipses over the full height.
+ * Labels sit near the bottom (windows one line above eclipses, which they often overlap): the
+ * full name inside the band where it fits, else its first word, else that word just right of the
+ * band when there is room before the next band of the same kind, else none.
+ */
+function drawWindowBands(u: uPlot, s: PlotSpec, xMin: number, xMax: number, dpr: number): void {
+  const bands = s.windowBands;
+  if (!bands?.length) return;
+  const ctx = u.ctx;
+  const { top, height, left, width } = u.bbox;
+  const spans = bands.map((b) => bandPixels(b.t0, b.t1, xMin, xMax, left, width));
+  bands.forEach((b, i) => {
+    const px = spans[i];
+    if (!px) return;
+    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_FILL : WINDOW_BAND_FILL;
+    ctx.fillRect(px.x0, top, Math.max(2 * dpr, px.x1 - px.x0), height);
+  });
+  ctx.font = `${MARKER_FONT_PX * dpr}px ${FAMILY}`;
+  ctx.textBaseline = 'bottom';
+  ctx.textAlign = 'left';
+  const pad = 3 * dpr;
+  const lineH = (MARKER_FONT_PX + 3) * dpr;
+  bands.forEach((b, i) => {
+    const px = spans[i];
+    if (!px) return;
+    let next = left + width;
+    for (let k = i + 1; k < bands.length; k++) {
+      const q = spans[k];
+      if (bands[k]!.kind === b.kind && q) {
+        next = q.x0;
+        break;
+      }
+    }
+    const short = b.label.split(/[\s(]/)[0] || b.label;
+    const fits = (t: string, room: number) => ctx.measureText(t).width <= room;
+    const inside = Math.max(2 * dpr, px.x1 - px.x0) - 2 * pad;
+    let x = px.x0 + pad;
+    let text = fits(b.label, inside) ? b.label : fits(short, inside) ? short : '';
+    if (!text && fits(short, next - px.x1 - 2 * pad)) {
+      text = short;
+      x = px.x1 + pad;
+    }
+    if (!text) return;
+    ctx.fillStyle = b.kind === 'eclipse' ? ECLIPSE_BAND_TEXT : WINDOW_BAND_TEXT;
+    ctx.fillText(text, x, top + height - pad - (b.kind === 'window' ? lineH : 0));
+  });
 }
 
 /**
@@ -159,6 +209,7 @@ function drawMarkers(spec: () => PlotSpec) {
     ctx.beginPath();
     ctx.rect(left, top, width, height);
     ctx.clip();
+    drawWindowBands(u, s, xMin, xMax, dpr);
     drawIntervals(u, s, xMin, xMax, dpr);
     drawJumps(u, s, xMin, xMax, dpr);
     drawSegments(u, s, xMin, xMax, dpr);
@@ -256,6 +307,8 @@ export function createChart(
     target,
   );
   group.charts.add(plot);
+  // For the end-to-end tests (band pixels against uPlot's own valToPos); nothing in the app reads it.
+  (target as HTMLElement & { __slewsmithPlot?: uPlot }).__slewsmithPlot = plot;
 
   const playhead = document.createElement('div');
   playhead.className = 'playhead';
@@ -322,10 +375,17 @@ export function createChart(
       const legendFont = `${12 * dpr}px ${FAMILY}`;
       const rowH = 20 * dpr;
       ctx.font = legendFont;
-      const entries: { s: (typeof spec.series)[number]; x: number; row: number }[] = [];
+      // Series first, then the orbit bands' kinds (windowBands.ts) as filled swatches.
+      const bandKinds = new Set((spec.windowBands ?? []).map((b) => b.kind));
+      const items: { label: string; color: string; dash?: number[]; fill?: string }[] = [
+        ...spec.series.map((s) => ({ label: s.label, color: s.color, dash: s.dash })),
+        ...(bandKinds.has('window') ? [{ label: 'planned window (site named in the band)', color: '', fill: WINDOW_BAND_FILL }] : []),
+        ...(bandKinds.has('eclipse') ? [{ label: 'eclipse', color: '', fill: ECLIPSE_BAND_FILL }] : []),
+      ];
+      const entries: { s: (typeof items)[number]; x: number; row: number }[] = [];
       let lx = 0,
         row = 0;
-      for (const s of spec.series) {
+      for (const s of items) {
         const w = 28 * dpr + ctx.measureText(s.label).width;
         if (lx > 0 && lx + w > maxW) {
           lx = 0;
@@ -352,14 +412,19 @@ export function createChart(
       for (const e of entries) {
         const x = pad + e.x;
         const ly = pad + headH + src.height + 4 * dpr + e.row * rowH + rowH / 2;
-        ctx.strokeStyle = e.s.color;
-        ctx.lineWidth = 2 * dpr;
-        ctx.setLineDash((e.s.dash ?? []).map((d) => d * dpr));
-        ctx.beginPath();
-        ctx.moveTo(x, ly);
-        ctx.lineTo(x + 16 * dpr, ly);
-        ctx.stroke();
-        ctx.setLineDash([]);
+        if (e.s.fill) {
+          ctx.fillStyle = e.s.fill;
+          ctx.fillRect(x, ly - 6 * dpr, 16 * dpr, 12 * dpr);
+        } else {
+          ctx.strokeStyle = e.s.color;
+          ctx.lineWidth = 2 * dpr;
+          ctx.setLineDash((e.s.dash ?? []).map((d) => d * dpr));
+          ctx.beginPath();
+          ctx.moveTo(x, ly);
+          ctx.lineTo(x + 16 * dpr, ly);
+          ctx.stroke();
+          ctx.setLineDash([]);
+        }
         ctx.fillStyle = '#1f2731';
         ctx.fillText(e.s.label, x + 20 * dpr, ly);
       }

@@ -4,8 +4,10 @@
  * goes in from the clock's frame loop. It renders when the time moved, after a resize or data
  * change, and for a moment after pointer input (the orbit camera damps its motion).
  */
-import { useEffect, useMemo, useRef, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { createAttitudeView, type AttitudeViewHandle } from '../../view3d';
+import type { OrbitViewHandle } from '../../view3d/orbitView';
+import { OrbitView3D } from './OrbitView3D';
 import type { ViewLayout, ViewOptions } from '../../view3d/types';
 import { useApp, useAppState } from '../context';
 import { constraintCones, conesKey, toViewRuns } from './viewRuns';
@@ -29,6 +31,13 @@ export function View3DPanel() {
   const [layout, setLayout] = useState<ViewLayout>('overlay');
   const [toggles, setToggles] = useState<Record<string, boolean>>(() => Object.fromEntries(TOGGLES.map((t) => [t.key, true])));
   const output = useAppState((s) => s.output);
+  // Which scene the panel shows: the body-centred attitude view, or (orbit scenarios) the orbit.
+  const [mode, setMode] = useState<'attitude' | 'orbit'>('attitude');
+  const orbitAvailable = !!output?.orbitView;
+  const showOrbit = mode === 'orbit' && orbitAvailable;
+  const orbitView = useRef<OrbitViewHandle | null>(null);
+  const [follow, setFollow] = useState(true);
+  const onOrbitHandle = useCallback((h: OrbitViewHandle | null) => (orbitView.current = h), []);
   const selected = useAppState((s) => s.selectedRunKeys);
   const runs = useMemo(
     () => (output ? selected.map((k) => output.runs.find((r) => r.key === k)).filter((r) => r !== undefined) : []),
@@ -116,23 +125,66 @@ export function View3DPanel() {
 
   return (
     <div className="view3d" data-testid="view3d">
-      <div className="view3d-canvas" ref={host}>
+      {showOrbit && <OrbitView3D output={output} follow={follow} onHandle={onOrbitHandle} />}
+      <div className="view3d-canvas" ref={host} style={showOrbit ? { display: 'none' } : undefined}>
         <canvas ref={canvas} data-testid="view3d-canvas" />
         {failure && <div className="panel-empty overlay-msg">{failure}</div>}
         {!output && !failure && <div className="overlay-msg">The 3D view shows the run once it is computed.</div>}
       </div>
       <div className="view3d-bar">
-        {TOGGLES.map((t) => (
-          <label key={t.key} className="check">
-            <input
-              type="checkbox"
-              checked={toggles[t.key] ?? true}
-              onChange={(e) => setToggles({ ...toggles, [t.key]: e.target.checked })}
-            />{' '}
-            {t.label}
+        <span className="view-mode" role="group" aria-label="scene shown in the 3D view">
+          <button
+            className={`small ${showOrbit ? '' : 'on'}`}
+            aria-pressed={!showOrbit}
+            onClick={() => setMode('attitude')}
+            title="The spacecraft's attitude, body-centred, in inertial axes"
+            data-testid="view-mode-attitude"
+          >
+            attitude
+          </button>
+          <button
+            className={`small ${showOrbit ? 'on' : ''}`}
+            aria-pressed={showOrbit}
+            onClick={() => setMode('orbit')}
+            disabled={!orbitAvailable}
+            title={
+              orbitAvailable
+                ? 'The Earth, the orbit, the Sun and Moon directions and the line of sight to the tracked site'
+                : 'Needs a scenario with an orbit block, run once'
+            }
+            data-testid="view-mode-orbit"
+          >
+            orbit
+          </button>
+        </span>
+        {!showOrbit &&
+          TOGGLES.map((t) => (
+            <label key={t.key} className="check">
+              <input
+                type="checkbox"
+                checked={toggles[t.key] ?? true}
+                onChange={(e) => setToggles({ ...toggles, [t.key]: e.target.checked })}
+              />{' '}
+              {t.label}
+            </label>
+          ))}
+        {showOrbit && (
+          <label className="check" title="Keep the camera on the spacecraft's side as the time moves; untick to turn the view freely">
+            <input type="checkbox" checked={follow} onChange={(e) => setFollow(e.target.checked)} data-testid="orbit-follow" /> follow
+            spacecraft
           </label>
-        ))}
+        )}
+        {showOrbit && (
+          <span
+            className="muted orbit-key"
+            data-testid="orbit-view-key"
+            title="Frame EME2000, Z up. Yellow arrow: toward the Sun; grey arrow: toward the Moon; green line: line of sight to the tracked site (amber while the slew is under way); orange: the prime meridian; the spacecraft marker dims in eclipse."
+          >
+            EME2000 · yellow: Sun · grey: Moon · green: line of sight
+          </span>
+        )}
         <select
+          hidden={showOrbit}
           value={layout}
           onChange={(e) => setLayout(e.target.value as ViewLayout)}
           aria-label="layout of several runs"
@@ -142,7 +194,10 @@ export function View3DPanel() {
           <option value="overlay">overlay</option>
           <option value="side-by-side">side by side</option>
         </select>
-        <button className="small" onClick={() => (view.current?.resetCamera(), (needsRender.current = true))}>
+        <button
+          className="small"
+          onClick={() => (showOrbit ? orbitView.current?.resetCamera() : view.current?.resetCamera(), (needsRender.current = true))}
+        >
           reset view
         </button>
       </div>

@@ -8,6 +8,7 @@ import { envelopeCapacity } from '../../engine/wheels/envelope';
 import { DEG_PER_RAD, HALF_PI } from '../../engine/units';
 import type { KeepOutCone, ViewRun, ViewTarget } from '../../view3d/types';
 import { runName } from '../modeNames';
+import { movingCone } from './movingCones';
 
 function viewTargets(out: PipelineOutput): ViewTarget[] {
   return out.plan.segments.map((s, i) => ({
@@ -50,8 +51,9 @@ export function sampleAt(t: ArrayLike<number>, n: number, time: number): number 
 }
 
 /**
- * Every cone the view can draw — the `keepOut` cones and the `constraints` list's cones against a
- * fixed inertial direction (the Sun, Moon, Earth and station directions move and are not drawn) —
+ * Every cone the view can draw — the `keepOut` cones and the `constraints` list's cones: against a
+ * fixed inertial direction, and on orbit scenarios against the Sun, Moon, Earth centre or limb and a
+ * ground station at `time` (movingCones.ts, from the output's orbit samples) —
  * with `violated` from the shown run's margin at `time` (the engine's margin series; a sample
  * outside the constraint's window counts as clear). Without a run, `violated` is absent.
  */
@@ -72,11 +74,17 @@ export function constraintCones(out: PipelineOutput | null, run: ControllerRun |
   }));
   const list = out.scenario.file.constraints ?? [];
   list.forEach((c, j) => {
-    if (c.direction.kind !== 'fixed') return;
     const i = out.keepOut.length + j;
     const halfAngleRad = Math.min(HALF_PI, info[i]?.halfAngleRad ?? c.halfAngleDeg / DEG_PER_RAD);
+    const label = c.kind === 'keep-in' ? `${c.name} (keep-in)` : c.name;
+    if (c.direction.kind !== 'fixed') {
+      const m = movingCone(out, c, info[i]?.halfAngleRad ?? c.halfAngleDeg / DEG_PER_RAD, time);
+      if (m)
+        cones.push({ label, dirInertial: m.dir, halfAngleRad: Math.min(HALF_PI, m.halfAngleRad), violated: violated(i), moving: true });
+      return;
+    }
     cones.push({
-      label: c.kind === 'keep-in' ? `${c.name} (keep-in)` : c.name,
+      label,
       dirInertial: c.direction.inertialDirection,
       halfAngleRad,
       violated: violated(i),
@@ -85,7 +93,21 @@ export function constraintCones(out: PipelineOutput | null, run: ControllerRun |
   return cones;
 }
 
-/** A key that changes when the cones' colours change (the view rebuilds the cones only then). */
+/** Moving cones are rebuilt when their axis has turned by about this much (rad): 0.25°. */
+const MOVING_STEP_RAD = 0.25 / DEG_PER_RAD;
+
+/**
+ * A key that changes when the cones' colours change, or a moving cone's axis or half angle has
+ * turned by about MOVING_STEP_RAD (the view rebuilds the cones only then).
+ */
 export function conesKey(cones: readonly KeepOutCone[]): string {
-  return cones.map((c) => (c.violated === undefined ? '?' : c.violated ? '1' : '0')).join('');
+  return cones
+    .map((c) => {
+      const v = c.violated === undefined ? '?' : c.violated ? '1' : '0';
+      if (!c.moving) return v;
+      const d = c.dirInertial;
+      const q = (x: number) => Math.round(x / MOVING_STEP_RAD);
+      return `${v}:${q(d[0]!)},${q(d[1]!)},${q(d[2]!)},${q(c.halfAngleRad)}`;
+    })
+    .join('|');
 }

@@ -26,5 +26,6 @@ export function transferables(out: PipelineOutput): ArrayBuffer[] {
   add(out.vehicle.momentumEnvelope.triangles);
   add(out.targets);
   add(out.initialQ);
+  if (out.orbitView) for (const v of Object.values(out.orbitView)) add(v);
   return [...seen];
 }
