@@ -156,7 +156,7 @@ export function WindowFields({ i, passes, onlyWithOrbit = false }: { i: number; 
         path={path}
         value={kind}
         choices={choices}
-        title="When tracking starts: the slew ends there; the previous target is held until the slew must start"
+        title="When tracking starts (the slew ends there; the previous target is held until the slew must start): after the previous target; at the start of the next pass above the mask, holding for Hold or to the pass end; or at a UTC time"
         onChoose={(v) =>
           app.store.edit(path, windowFor(v as WindowKind, isObj(target) ? target.window : undefined, epoch), {
             label: 'Target window',

@@ -16,7 +16,7 @@ export type TargetKind = 'fixed' | TrackForm;
 
 export const TARGET_KINDS: readonly { value: TargetKind; label: string }[] = [
   { value: 'fixed', label: 'Fixed attitude' },
-  { value: 'site', label: 'Ground site (track it)' },
+  { value: 'site', label: 'Ground site' },
   { value: 'station', label: 'Station pass (track it)' },
   { value: 'sun', label: 'Sun-pointing' },
   { value: 'nadir', label: 'Nadir hold' },
@@ -25,10 +25,10 @@ export const TARGET_KINDS: readonly { value: TargetKind; label: string }[] = [
 export type WindowKind = 'none' | 'pass' | 'pass-to-end' | 'time';
 
 export const WINDOW_KINDS: readonly { value: WindowKind; label: string }[] = [
-  { value: 'none', label: 'After the previous target' },
-  { value: 'pass', label: 'At the pass start, hold for Hold' },
-  { value: 'pass-to-end', label: 'At the pass start, hold to the pass end' },
-  { value: 'time', label: 'At a time (UTC), hold for Hold' },
+  { value: 'none', label: 'After previous' },
+  { value: 'pass', label: 'Pass start, Hold s' },
+  { value: 'pass-to-end', label: 'Pass start to end' },
+  { value: 'time', label: 'At a UTC time' },
 ];
 
 /** Where the secondary body axis is kept (SecondaryTowardSchema); "fixed" is the EME2000 vector form. */
