@@ -51,7 +51,15 @@ describe('target kinds (trackForms.ts)', () => {
       for (const k of kinds) {
         const t = retargetKind(base.targets[i], k, base, [0, 0, Math.SQRT1_2, Math.SQRT1_2]);
         expect(targetKindOf(t)).toBe(k);
-        expect({ i, k, errors: errorsOf(withTarget(base, i, t)) }).toEqual({ i, k, errors: [] });
+        const edited = withTarget(base, i, t);
+        expect({ i, k, errors: errorsOf(edited) }).toEqual({ i, k, errors: [] });
+        // and the file round-trips (reference: the project's own inverse, scenario/toFile.ts)
+        const v = validateScenario(edited);
+        if (!v.ok) continue;
+        const r = resolveScenario(v.value);
+        const again = validateScenario(toScenarioFile(r));
+        expect(again.ok).toBe(true);
+        if (again.ok) expect(resolveScenario(again.value).targets).toEqual(r.targets);
       }
   });
 

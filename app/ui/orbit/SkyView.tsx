@@ -186,9 +186,12 @@ export function SkyView() {
         </span>{' '}
         <span style={{ color: COLOUR.sun }}>● Sun</span> <span style={{ color: COLOUR.moon }}>● Moon</span>
         {output.orbit ? ' (from the spacecraft, at the start; line: over the run)' : ' (geocentric, at the epoch)'}
-        {scene.cones.length > 0 && (
-          <span style={{ color: COLOUR.keepOut }}> ◯ {scene.cones.map((c) => `${c.label} (${c.kind})`).join(', ')}</span>
-        )}
+        {scene.cones.map((c, k) => (
+          <span key={k} style={{ color: c.kind === 'keep-out' ? COLOUR.keepOut : COLOUR.keepIn }}>
+            {' '}
+            ◯ {c.label} ({c.kind === 'keep-out' ? 'keep-out' : 'keep-in, dashed'})
+          </span>
+        ))}
         . ✕ n: the axis at target n.
       </figcaption>
     </figure>
