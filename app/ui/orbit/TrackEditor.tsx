@@ -86,7 +86,7 @@ function NadirFields({ base }: { base: string }) {
       <label className="check" title="Without: +Z on nadir, and +Y (LVLH) or +X (Sun steering) placed by the yaw rule">
         <input
           type="checkbox"
-          data-testid="nadir-own-axes"
+          data-testid={`nadir-own-axes-${base}`}
           checked={own}
           onChange={(e) =>
             app.store.editMany(
