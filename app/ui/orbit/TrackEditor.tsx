@@ -121,7 +121,8 @@ export function TrackEditor({ i }: { i: number }) {
     return p;
   }, [base]);
   const other = useIssuesUnder(`targets[${i}].track`, shown);
-  if (kind === 'fixed') return null;
+  // A track the form does not know (a typo in the file): the engine's messages, and the Target choice to replace it.
+  if (kind === 'fixed') return <IssueText errors={other} />;
   return (
     <div className="track-editor" data-testid={`track-editor-${i}`}>
       {(kind === 'site' || kind === 'station') && <SiteChoice path={`${base}.id`} kind={kind} />}
