@@ -16,6 +16,7 @@ import { ConstraintsPanel } from './components/ConstraintsPanel';
 import { RunSettingsPanel } from './components/RunSettingsPanel';
 import { OrbitPanel } from './orbit/OrbitPanel';
 import { PassesView } from './orbit/PassesView';
+import { SkyView } from './orbit/SkyView';
 import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
@@ -90,6 +91,7 @@ export function App({ app }: { app: AppController }) {
                 <RunStatus />
                 <PlanSummary />
                 <PassesView />
+                <SkyView />
               </aside>
               {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
               <section className="compare-band" aria-label="Comparison of runs">

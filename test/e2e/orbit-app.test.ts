@@ -1,10 +1,13 @@
 /**
  * Orbit scenarios in the main window (real Chromium, browser fallback bridge, 1280×800): the
  * bundled orbit-day example loaded into the store shows the Orbit panel with its TLE and sites,
- * the target cards of tracking targets, the passes-and-windows view with the ground track; a TLE
+ * the target cards of tracking targets with their kind, station and window fields, a target switched
+ * to a ground site with a pass window (the plan follows the pass; undo restores it), the sky view,
+ * the passes-and-windows view with the ground track; a TLE
  * edited to a bad checksum shows the engine's message at the field, naming the line and column.
  * Text rules (≥ 13 px, contrast ≥ 4.5:1, textRules.ts) on the orbit panel and the passes view.
- * Screenshots to test-output/screens/orbit-passes-1280x800.png and orbit-1280x800.png.
+ * Screenshots to test-output/screens/orbit-passes-1280x800.png, orbit-1280x800.png,
+ * orbit-target-site-1280x800.png and orbit-sky-1280x800.png / -1600x1000.png.
  * (The pass times are the engine's, checked in its own tests; this test checks the wiring.)
  */
 import fs from 'node:fs';
@@ -48,10 +51,13 @@ describe.skipIf(skipBrowser)('orbit scenarios in the app (Chromium)', () => {
     expect(await page.getByTestId('orbit-site-0').locator('[data-path="orbit.sites[0].latitudeDeg"]').inputValue()).toBe('44');
   });
 
-  it('tracking targets show what they track instead of an attitude form', async () => {
-    const text = (await page.locator('[data-testid^=track-]').allTextContents()).join('\n');
-    expect(text).toMatch(/Ground station.*Harrowgate station \(invented\) \(harrowgate\)/s);
-    expect(text).toMatch(/held to its end/);
+  it('tracking targets show their kind, station and window in editable fields', async () => {
+    const card = page.getByTestId('target-4');
+    await card.locator('summary .target-label').click();
+    expect(await card.getByLabel('Target', { exact: true }).inputValue()).toBe('station');
+    expect(await card.getByLabel('Station', { exact: true }).inputValue()).toBe('harrowgate');
+    expect(await card.getByLabel('Due', { exact: true }).inputValue()).toBe('pass-to-end');
+    expect(await card.locator('[data-path="targets[4].track.station.bodyAxis[0]"]').inputValue()).toBe('1');
   });
 
   it('passes, eclipses, windows and window errors are listed; text rules hold there', async () => {
@@ -70,6 +76,74 @@ describe.skipIf(skipBrowser)('orbit scenarios in the app (Chromium)', () => {
     await page.getByTestId('passes-view').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(screensDir, 'orbit-passes-1280x800.png') });
   });
+
+  it('a target switched to a ground site with a pass window: the plan follows the pass; undo restores it; the sky view draws', async () => {
+    type Out = { plan: { segments: { trackStartS?: number }[] }; orbit: { sites: { id: string; passes: { startS: number }[] }[] } };
+    const state = () =>
+      page.evaluate(() => {
+        const st = (
+          window as unknown as { __slewsmith: { store: { getState(): { output: unknown; scenario: unknown; outputScenario: unknown } } } }
+        ).__slewsmith.store.getState();
+        return { output: st.output as unknown, current: st.outputScenario === st.scenario };
+      });
+    const waitFresh = async () => {
+      await page.waitForFunction(
+        () => {
+          const st = (
+            window as unknown as { __slewsmith: { store: { getState(): { scenario: unknown; outputScenario: unknown } } } }
+          ).__slewsmith.store.getState();
+          return st.outputScenario === st.scenario;
+        },
+        undefined,
+        { timeout: 240_000 },
+      );
+      await page.locator('[data-testid=run-status][data-status=done]').waitFor({ timeout: 240_000 });
+    };
+    const before = (await state()).output as Out;
+    const start0 = before.plan.segments[0]!.trackStartS;
+    const card = page.getByTestId('target-0');
+    await card.locator('summary .target-label').click();
+    const kind = card.getByLabel('Target', { exact: true });
+    expect(await kind.inputValue()).toBe('sun');
+    await kind.selectOption('site');
+    await card.getByLabel('Site', { exact: true }).selectOption('harrowgate');
+    await card.getByLabel('Due', { exact: true }).selectOption('pass');
+    expect(await card.getByTestId('track-editor-0').locator('.issue.error').count()).toBe(0);
+    await waitFresh();
+    const after = (await state()).output as Out;
+    const passes = after.orbit.sites.find((x) => x.id === 'harrowgate')!.passes.map((p) => p.startS);
+    // the slew now ends at the start of a Harrowgate pass (the engine's pass times, checked in its own tests)
+    expect(passes.some((p) => Math.abs(p - after.plan.segments[0]!.trackStartS!) < 1e-6)).toBe(true);
+    expect(after.plan.segments[0]!.trackStartS).not.toBe(start0);
+    fs.mkdirSync(screensDir, { recursive: true });
+    await card.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(screensDir, 'orbit-target-site-1280x800.png') });
+    // three undo steps (kind, site, window) bring the Sun target back, and its plan
+    for (let k = 0; k < 3; k++) await page.getByRole('button', { name: 'Undo' }).click();
+    expect(await kind.inputValue()).toBe('sun');
+    await waitFresh();
+    expect(((await state()).output as Out).plan.segments[0]!.trackStartS).toBe(start0);
+    // the sky view: a chart with the boresight trail of the shown run
+    const sky = page.getByTestId('sky-view');
+    await sky.scrollIntoViewIfNeeded();
+    expect(Number(await sky.getAttribute('data-points'))).toBeGreaterThan(10);
+    const inked = await sky.locator('canvas').evaluate((c: HTMLCanvasElement) => {
+      const g = c.getContext('2d')!;
+      const d = g.getImageData(0, 0, c.width, c.height).data;
+      let n = 0;
+      // trail blue #0b5cad (within a little anti-aliasing)
+      for (let i = 0; i < d.length; i += 4)
+        if (Math.abs(d[i]! - 11) < 30 && Math.abs(d[i + 1]! - 92) < 30 && Math.abs(d[i + 2]! - 173) < 30) n++;
+      return n;
+    });
+    expect(inked).toBeGreaterThan(50);
+    await page.screenshot({ path: path.join(screensDir, 'orbit-sky-1280x800.png') });
+    await page.setViewportSize({ width: 1600, height: 1000 });
+    await sky.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(screensDir, 'orbit-sky-1600x1000.png') });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    expect(w.errors).toEqual([]);
+  }, 600_000);
 
   it('a TLE with a bad checksum shows the message at the field, naming line and column', async () => {
     const bad = [tle[0], tle[1], tle[2]!.slice(0, 68) + String((Number(tle[2]!.slice(68)) + 1) % 10)].join('\n');

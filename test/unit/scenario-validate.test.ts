@@ -24,7 +24,9 @@ describe('example scenarios', () => {
     it(`${name} validates and resolves without errors or warnings`, () => {
       const r = loadScenario(loadExample(name));
       if (!r.ok) throw new Error(JSON.stringify(r.errors, null, 1));
-      expect(r.warnings).toEqual([]);
+      // The invented element epochs of the examples on an orbit lie past the leap-second table's
+      // validity (2026-06-28), as their scenario epochs do: that notice, at the element epoch's field, is the only one.
+      expect(r.warnings.filter((w) => !(w.rule === 'leap-table-expired' && w.path === 'orbit.meanElements.epochUtc'))).toEqual([]);
       expect(r.value.targets.length).toBeGreaterThan(0);
     });
   }
@@ -205,7 +207,8 @@ describe('vehicle, controllers and the rest', () => {
     t.vehicle.actuation.torqueQuantumMNm = 0.1;
     const r = validateScenario(t);
     expect(r.ok).toBe(true);
-    expect(pairs(r.warnings)).toEqual(['vehicle.actuation.torqueQuantumMNm ignored']);
+    // (tern12's invented element epoch also draws the leap-table notice: not this test's subject)
+    expect(pairs(r.warnings.filter((w) => w.rule !== 'leap-table-expired'))).toEqual(['vehicle.actuation.torqueQuantumMNm ignored']);
   });
   it('synergistic: repeated weights, non-orthonormal axes, zero warp direction', () => {
     const s = loadExample('tern12-reversal');

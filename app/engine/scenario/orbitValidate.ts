@@ -45,12 +45,20 @@ export function orbitOfSpec(o: OrbitSpec, errors: Issue[], warnings: Issue[]): S
     return null;
   }
   const r = o.tle ? orbitFromTle(o.tle.join('\n'), 'orbit.tle') : orbitFromElements(toElements(o.meanElements!), 'orbit.meanElements');
-  warnings.push(...r.warnings);
+  warnings.push(...r.warnings.map(fileEpochPath));
   if (!r.ok) {
-    errors.push(...r.errors);
+    errors.push(...r.errors.map(fileEpochPath));
     return null;
   }
   return r.value;
+}
+
+/** The element epoch's problems at the file's key (`epochUtc`), not the orbit library's input name. */
+function fileEpochPath(i: Issue): Issue {
+  const from = 'orbit.meanElements.epochUtcIso';
+  if (!i.path.startsWith(from)) return i;
+  const to = 'orbit.meanElements.epochUtc';
+  return { ...i, path: to + i.path.slice(from.length), message: i.message.split(from).join(to) };
 }
 
 function toElements(m: NonNullable<OrbitSpec['meanElements']>) {

@@ -2,7 +2,8 @@
 import { useApp, useAppState, useIssuesAt, useIssuesUnder, useScenarioValue } from '../context';
 import { fmt } from '../format';
 import { AttitudeEditor } from './AttitudeEditor';
-import { TrackSummary } from '../orbit/TrackSummary';
+import { TrackEditor, WindowFields } from '../orbit/TrackEditor';
+import { TargetKindChoice } from '../orbit/TargetKindChoice';
 import { PRIMARY_AXIS } from '../../engine/scenario/pointingOnly';
 import { IssueText, NumberField, NumberInput, Section, TextField, VectorField } from './fields';
 
@@ -129,12 +130,14 @@ function TargetCard({ i, count }: { i: number; count: number }) {
         </span>
       </summary>
       <TextField path={`targets[${i}].label`} label="Label" />
+      <TargetKindChoice i={i} />
       {target?.track !== undefined ? (
-        <TrackSummary i={i} />
+        <TrackEditor i={i} />
       ) : (
         <>
           <AttitudeEditor path={`targets[${i}].attitude`} chainIndex={i + 1} allowRelative />
           <RollFreeCheck i={i} attitude={target?.attitude} />
+          <WindowFields i={i} passes={false} onlyWithOrbit />
         </>
       )}
       <NumberField path={`targets[${i}].holdS`} label="Hold" unit="s" step={5} />

@@ -201,6 +201,34 @@ function attitudeField(where: string[], rest: readonly PathToken[]): FieldDescri
   return leaf(where, table, more, form === 'euler' ? ['1', '2', '3'] : AXIS);
 }
 
+// A target's track and window (orbit/TrackEditor.tsx).
+const TRACK_AIMED: Record<string, Leaf> = {
+  id: { label: 'Site' },
+  bodyAxis: { label: 'Body axis', suggest: [0, 0, 1] },
+  bodySecondary: { label: 'Body secondary axis', suggest: [1, 0, 0] },
+  secondaryToward: { label: 'Secondary toward', suggest: 'orbit-normal' },
+};
+const TRACK_NADIR: Record<string, Leaf> = {
+  yaw: { label: 'Yaw rule', suggest: 'lvlh' },
+  bodyAxis: { label: 'Body axis on nadir', suggest: [0, 0, 1] },
+  bodySecondary: { label: 'Body secondary axis' },
+};
+const WINDOW: Record<string, Leaf> = {
+  start: { label: 'Due' },
+  holdUntil: { label: 'Due' },
+  atUtc: { label: 'Start (UTC)' },
+};
+
+function trackField(where: string[], key: 'track' | 'window', rest: readonly PathToken[]): FieldDescription | null {
+  if (key === 'window') return rest.length === 0 ? { where, label: 'Due' } : leaf(where, WINDOW, rest);
+  const [form, ...more] = rest;
+  if (form === undefined || more.length === 0) return { where, label: 'Target' };
+  if (form === 'station' && more[0] === 'id') return { where, label: 'Station' };
+  if (more[0] === 'secondaryToward' && more[1] === 'inertialDirection')
+    return leaf(where, { inertialDirection: { label: '→ EME2000 direction', suggest: [0, 0, 1] } }, more.slice(1));
+  return leaf(where, form === 'nadir' ? TRACK_NADIR : TRACK_AIMED, more);
+}
+
 function maneuverField(scenario: unknown, tokens: readonly PathToken[]): FieldDescription | null {
   const M = ['Maneuver'];
   const [block, ...rest] = tokens;
@@ -225,6 +253,7 @@ function maneuverField(scenario: unknown, tokens: readonly PathToken[]): FieldDe
   const T = [...M, `Target ${i + 1}${name}`];
   if (key === undefined) return { where: M, label: `Target ${i + 1}${name}` };
   if (key === 'attitude') return attitudeField(T, more);
+  if (key === 'track' || key === 'window') return trackField(T, key, more);
   return leaf(T, { label: { label: 'Label', suggest: `Target ${i + 1}` }, holdS: { label: 'Hold', suggest: 30 } }, [key, ...more]);
 }
 
