@@ -30,6 +30,7 @@ import { ShardStream, StudyTableStream, shardFileName } from './campaign';
 import { CHATTER_THRESHOLD_PER_S } from '../../app/engine/study/runCase';
 import { studyCaseScenario } from '../../app/engine/study/caseScenario';
 import { DEG_PER_RAD } from '../../app/engine/units';
+import { studyContextSeed, type StudyContextSeed } from '../../app/engine/study/contextSeed';
 
 const WORKER_URL = new URL('./study-worker.mjs', import.meta.url);
 
@@ -231,6 +232,9 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
   // would load it again, the largest part of a shard's start-up), yielding between chunks so that
   // progress and Ctrl-C are still handled.
   const threads = nWorkers === 1 ? [mainThreadPort()] : Array.from({ length: nWorkers }, () => threadPort());
+  // With worker threads: build the study's context (its certificates) once here while they start,
+  // and hand the certificates to them instead of each computing them again.
+  const contextSeed: StudyContextSeed | undefined = nWorkers === 1 ? undefined : studyContextSeed(json, overrides);
   const cancelFlag = new SharedArrayBuffer(4);
   let lastPrint = 0;
   const study = startStudyParallel(
@@ -240,6 +244,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
       overrides,
       cancelFlag,
       keepRecords: false,
+      ...(contextSeed ? { contextSeed } : {}),
       cases: (i) => {
         if (!shard) return ok({ first: 0, end: i.def.runs });
         const bad = shardSpecIssues(shard.index, shard.count, i.def.runs);

@@ -5,6 +5,9 @@
  * start-up and the summary), median and min of 3. The case duration is the file's own study block.
  * Goal (issue 12): ≤ 8 s wall on two cores.
  *
+ * Runs `bin/slewsmith.mjs`, i.e. the prebuilt bundle (`npm run build:cli`) when it is fresh and tsx
+ * otherwise; `SLEWSMITH_CLI=tsx` or `=bundle` in the environment picks one (bin/cli-bundle.mjs).
+ *
  * Run: `node --import tsx test/bench/cliStudy.ts` or `npm run bench cliStudy`.
  */
 import { spawnSync } from 'node:child_process';
@@ -39,7 +42,7 @@ export async function benchCliStudy(): Promise<void> {
     }
     try {
       const doc = JSON.parse(r.stdout);
-      summary = `${doc.cases ?? doc.runs ?? '?'} cases`;
+      summary = `${doc.summary?.casesDone ?? '?'} cases`;
     } catch {
       summary = 'summary not JSON';
     }

@@ -107,6 +107,23 @@ export function certifySynergistic(params: CertifyParams, options: CertifyOption
   return result;
 }
 
+/**
+ * The cached certificates as plain data (key, result), oldest first: a study's coordinator
+ * computes them once and hands them to its workers, which plant them with
+ * `plantCertificateCache` instead of computing the same certificates again.
+ */
+export function certificateCacheEntries(): [string, CertificateResult][] {
+  return [...cache].map(([k, r]) => [k, structuredCloneResult(r)]);
+}
+
+/** Add entries made by `certificateCacheEntries` (of the same program) to this thread's cache. */
+export function plantCertificateCache(entries: readonly (readonly [string, CertificateResult])[]): void {
+  for (const [k, r] of entries) {
+    cache.set(k, structuredCloneResult(r));
+    if (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+  }
+}
+
 /** Deep copy so callers may not alter the cached value (plain data: arrays, numbers incl. Infinity, strings). */
 function structuredCloneResult(r: CertificateResult): CertificateResult {
   return deepCopy(r) as CertificateResult;

@@ -27,9 +27,11 @@ import { studySummaryOf } from './summary';
 import type { StudyAccumulator } from './accumulate';
 import { accumulateCase, createStudyAccumulator } from './accumulate';
 import { pairwiseHas } from '../math/stats';
+import type { StudyContextSeed } from './contextSeed';
+import { plantStudyContextSeed } from './contextSeed';
 
 export type ToWorker =
-  | { type: 'init'; json: unknown; overrides: StudyOverrides; cancelFlag?: SharedArrayBuffer }
+  | { type: 'init'; json: unknown; overrides: StudyOverrides; cancelFlag?: SharedArrayBuffer; seed?: StudyContextSeed }
   | { type: 'run'; chunk: number; indices: number[] }
   | { type: 'close' };
 
@@ -49,6 +51,7 @@ export function createStudyWorker(post: (msg: FromWorker) => void): (msg: ToWork
     try {
       if (msg.type === 'init') {
         flag = msg.cancelFlag ? new Int32Array(msg.cancelFlag) : null;
+        if (msg.seed) plantStudyContextSeed(msg.seed);
         const c = makeStudyContext(msg.json, msg.overrides);
         if (!c.ok) {
           post({ type: 'invalid', errors: c.errors, warnings: c.warnings });
@@ -87,6 +90,11 @@ export interface ParallelOptions {
    * asked once the study is known (its runs come from the file and the overrides).
    */
   cases?: { first: number; end: number } | ((info: StudyInfo) => Result<{ first: number; end: number }>);
+  /**
+   * The study's certificates computed once by the caller (contextSeed.ts `studyContextSeed`), sent
+   * with every worker's init so no worker computes them again. Results do not depend on it.
+   */
+  contextSeed?: StudyContextSeed;
   /** Keep every finished case for the result's `records` (default true; false for large studies). */
   keepRecords?: boolean;
   /** Every finished case as it arrives (any order), after it was added to the summary state. */
@@ -215,7 +223,14 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
     dispatch();
   }
 
-  for (const p of ports) p.post({ type: 'init', json, overrides: opts.overrides ?? {}, cancelFlag: opts.cancelFlag });
+  for (const p of ports)
+    p.post({
+      type: 'init',
+      json,
+      overrides: opts.overrides ?? {},
+      cancelFlag: opts.cancelFlag,
+      ...(opts.contextSeed ? { seed: opts.contextSeed } : {}),
+    });
 
   return {
     result,

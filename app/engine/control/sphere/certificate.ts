@@ -115,6 +115,19 @@ export function clearSphereCertificateCache(): void {
   cache.clear();
 }
 
+/** The cached certificates as plain data, oldest first (see certificateCacheEntries in ../certificate.ts). */
+export function sphereCertificateCacheEntries(): [string, SphereCertificateResult][] {
+  return [...cache].map(([k, r]) => [k, deepCopy(r)]);
+}
+
+/** Add entries made by `sphereCertificateCacheEntries` (of the same program) to this thread's cache. */
+export function plantSphereCertificateCache(entries: readonly (readonly [string, SphereCertificateResult])[]): void {
+  for (const [k, r] of entries) {
+    cache.set(k, deepCopy(r));
+    if (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+  }
+}
+
 /** Certify, or return the cached result for the same parameters (a deep copy either way). */
 export function certifySphereFamily(params: SphereCertifyParams, options: SphereCertifyOptions = {}): SphereCertificateResult {
   const f = params.family;
