@@ -203,7 +203,7 @@ const commands: Record<string, Command> = {
         name: 'param',
         kind: 'value',
         valueName: 'NAME=lo:hi:steps',
-        help: 'first swept parameter: noise-scale, worst-case-eta, hysteresis, control-rate-hz, torque-quantum-mnm, inertia-error, failed-wheel (values also as NAME=v1,v2,...)',
+        help: 'first swept parameter: noise-scale, worst-case-eta, hysteresis, control-rate-hz, torque-quantum-mnm, inertia-error, jump-threshold, failed-wheel (values also as NAME=v1,v2,...)',
       },
       { name: 'param2', kind: 'value', valueName: 'NAME=lo:hi:steps', help: 'second swept parameter (a 2-D grid)' },
       { name: 'runs', kind: 'value', valueName: 'N', help: 'cases per grid cell' },
