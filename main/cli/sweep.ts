@@ -74,6 +74,15 @@ function optionOf(e: Issue): string {
 const pct = (x: number) => `${Math.round(100 * x)}`.padStart(3);
 const num = (x: number) => Number(x.toPrecision(4)).toString();
 
+/** Where a theory line lies, in the axes' names: one value, or a segment between two points. */
+function theoryWhere(r: SweepResult, t: SweepResult['theory'][number]): string {
+  const [a0, a1] = r.info.def.axes.map((a) => a.parameter);
+  const first = t.points[0]!;
+  const last = t.points[t.points.length - 1]!;
+  if (first.a1 === null || last.a1 === null || a1 === undefined) return `at ${a0} = ${num(first.a0)}`;
+  return `from (${a0}, ${a1}) = (${num(first.a0)}, ${num(first.a1)}) to (${num(last.a0)}, ${num(last.a1)})`;
+}
+
 /** One text map per controller: settle share (%) per cell, rows = second axis (largest on top), then the boundary points. */
 export function sweepTextMap(r: SweepResult): string {
   const { def, controllers } = r.info;
@@ -108,6 +117,7 @@ export function sweepTextMap(r: SweepResult): string {
         );
       }
     }
+    for (const t of r.theory.filter((x) => x.controllerId === c.id)) out.push(`theory: ${t.label} — ${theoryWhere(r, t)} (${t.source})`);
     out.push('');
   });
   return out.join('\n');

@@ -138,6 +138,10 @@ describe('slewsmith sweep --shard / sweep merge', () => {
       expect(await read(out, 'sweep.json')).toBe(await read(single, 'sweep.json'));
       expect(await read(out, 'cells.csv')).toBe(await read(single, 'cells.csv'));
       expect(m.stdout).toContain('Hysteretic [hyst]');
+      // the theory line of the (ē, δ) grid, clipped to the overlap of ē ∈ [0.05, 0.35] and δ ∈ [0.1, 0.3] (MST 2011)
+      expect(m.stdout).toContain(
+        'theory: ē = δ — from (worst-case-eta, hysteresis) = (0.1, 0.1) to (0.3, 0.3) (Mayhew, Sanfelice & Teel 2011',
+      );
     });
   }
 
