@@ -7,7 +7,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { applyParameter, validateSweep, type SweepDefinition } from '../../app/engine/study/sweep';
-import { runSweep } from '../../app/engine/study/sweepRun';
+import { runSweep, sweepInfo } from '../../app/engine/study/sweepRun';
+import { makeStudyContext } from '../../app/engine/study/context';
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
 import { sweepTheoryLines, type SweepTheoryInputs } from '../../app/engine/study/sweepTheory';
 import { loadScenario } from '../../app/engine/scenario/resolve';
 import { toScenarioFile } from '../../app/engine/scenario/toFile';
@@ -77,6 +80,27 @@ describe('jump-threshold parameter', () => {
     const bad = loadScenario(j);
     expect(bad.ok).toBe(false);
     if (!bad.ok) expect(bad.errors.some((e) => e.path === 'controllers[3].requireCertificate')).toBe(true);
+  });
+
+  it('lets a pointing-synergistic law fly beyond its certified gap, which the plain scenario refuses', () => {
+    const json = JSON.parse(readFileSync(path.join(__dirname, '../../assets/petrel16-pointing.scenario.json'), 'utf8')) as Record<
+      string,
+      unknown
+    >;
+    const d = validateSweep(spec([{ parameter: 'jump-threshold', values: [2.5, 3] }], { controllers: ['synergistic'] }));
+    if (!d.ok) throw new Error('bad sweep');
+    const inf = sweepInfo(json, d.value);
+    expect(inf.ok).toBe(true);
+    // the S² certificate's δ* of the example's family (control/sphere/certificate.ts) lies below the grid: no line
+    const gap = inf.ok ? inf.value.theoryInputs!.controllers[0]!.gapStar : null;
+    expect(gap).toBeGreaterThan(0);
+    expect(gap).toBeLessThan(2.5);
+    expect(inf.ok && sweepTheoryLines(inf.value)).toEqual([]);
+    const plain = JSON.parse(JSON.stringify(json)) as { controllers: Record<string, unknown>[] };
+    plain.controllers.find((c) => c.id === 'synergistic')!.gapThreshold = 2.5;
+    const refused = makeStudyContext(plain, { controllers: ['synergistic'] });
+    expect(refused.ok).toBe(false);
+    if (!refused.ok) expect(refused.errors.some((e) => e.path.startsWith('controllers[1].gapThreshold'))).toBe(true);
   });
 
   it('must be positive; the message names the axis field', () => {
