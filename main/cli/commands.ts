@@ -18,6 +18,7 @@ export { runCertify } from './certify';
 export { runCompare, runFly } from './fly';
 export { runStudyCli } from './study';
 export { runSweepCli } from './sweep';
+export { runSweepMerge } from './sweep-campaign';
 export { runStudyMerge, runStudySlurm } from './study-campaign';
 
 export async function runCheck(file: string, json: unknown, { io }: CliContext): Promise<number> {

@@ -195,7 +195,8 @@ const commands: Record<string, Command> = {
   sweep: {
     summary: 'robustness sweep: one or two study parameters on a grid, each cell a seeded study; settle-share maps with their boundary',
     usage:
-      'slewsmith sweep <scenario.json> --param NAME=lo:hi:steps [--param2 NAME=v1,v2,...] --runs N [--controller id,...] [--workers K] [--seed S] [--level L] [--out DIR]',
+      'slewsmith sweep <scenario.json> --param NAME=lo:hi:steps [--param2 NAME=v1,v2,...] --runs N [--controller id,...] [--workers K] [--seed S] [--level L] [--out DIR] [--shard i/K]\n' +
+      '       slewsmith sweep merge <shard file|folder>... [--out DIR]',
     options: [
       HELP,
       CONTROLLER,
@@ -203,7 +204,7 @@ const commands: Record<string, Command> = {
         name: 'param',
         kind: 'value',
         valueName: 'NAME=lo:hi:steps',
-        help: 'first swept parameter: noise-scale, worst-case-eta, hysteresis, control-rate-hz, torque-quantum-mnm, inertia-error, failed-wheel (values also as NAME=v1,v2,...)',
+        help: 'first swept parameter: noise-scale, worst-case-eta, hysteresis, control-rate-hz, torque-quantum-mnm, inertia-error, jump-threshold, failed-wheel (values also as NAME=v1,v2,...)',
       },
       { name: 'param2', kind: 'value', valueName: 'NAME=lo:hi:steps', help: 'second swept parameter (a 2-D grid)' },
       { name: 'runs', kind: 'value', valueName: 'N', help: 'cases per grid cell' },
@@ -211,13 +212,21 @@ const commands: Record<string, Command> = {
       { name: 'seed', kind: 'value', valueName: 'S', help: 'sweep seed (default 0); cell i runs with a seed made from it and i' },
       { name: 'level', kind: 'value', valueName: 'L', help: 'settle share of the boundary, 0.001 to 0.999 (default 0.5)' },
       { name: 'out', kind: 'value', valueName: 'dir', help: 'write cells.csv and sweep.json there' },
+      {
+        name: 'shard',
+        kind: 'value',
+        valueName: 'i/K',
+        help: 'run only shard i of K (a contiguous range of the cells) and write its shard file into --out (merge with "sweep merge")',
+      },
     ],
     notes: [
+      'sweep merge: combine the shard files of one sweep into cells.csv and sweep.json, the same bytes as one process running every cell.',
       "Each cell is the scenario's study (its dispersions, duration and settle rules) with the cell's values written in; exit 130 after Ctrl-C keeps the finished cells.",
     ],
     async run(a, { io }) {
+      if (a.positional[0] === 'merge') return (await work()).runSweepMerge(a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
       const doc = await readScenario(a.positional[0], io);
-      return doc === null ? 2 : (await work()).runSweepCli(doc.json, a, io);
+      return doc === null ? 2 : (await work()).runSweepCli(doc.json, a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
     },
   },
   schema: {

@@ -22,10 +22,12 @@ import { CAUTION_TEXT } from '../../app/engine/caution';
 import type { Issue } from '../../app/engine/errors';
 import type { SweepAxisSpec, SweepDefinition } from '../../app/engine/study/sweep';
 import { cellCount, SWEEP_PARAMETER_NAMES, validateSweep } from '../../app/engine/study/sweep';
-import type { SweepCell, SweepInfo, SweepResult } from '../../app/engine/study/sweepRun';
+import type { SweepCell, SweepResult } from '../../app/engine/study/sweepRun';
 import { sweepInfo, sweepResultOf } from '../../app/engine/study/sweepRun';
 import { sweepCellsCsv, sweepJson } from '../../app/engine/study/sweepExport';
 import type { SweepFromWorker, SweepToWorker } from './sweep-messages';
+import { parseShardSpec } from './study';
+import { sweepShardCells, sweepShardFileName, sweepShardSpecIssues, sweepShardText } from '../../app/engine/study/sweepShard';
 
 const WORKER_URL = new URL('./sweep-worker.mjs', import.meta.url);
 
@@ -72,6 +74,15 @@ function optionOf(e: Issue): string {
 const pct = (x: number) => `${Math.round(100 * x)}`.padStart(3);
 const num = (x: number) => Number(x.toPrecision(4)).toString();
 
+/** Where a theory line lies, in the axes' names: one value, or a segment between two points. */
+function theoryWhere(r: SweepResult, t: SweepResult['theory'][number]): string {
+  const [a0, a1] = r.info.def.axes.map((a) => a.parameter);
+  const first = t.points[0]!;
+  const last = t.points[t.points.length - 1]!;
+  if (first.a1 === null || last.a1 === null || a1 === undefined) return `at ${a0} = ${num(first.a0)}`;
+  return `from (${a0}, ${a1}) = (${num(first.a0)}, ${num(first.a1)}) to (${num(last.a0)}, ${num(last.a1)})`;
+}
+
 /** One text map per controller: settle share (%) per cell, rows = second axis (largest on top), then the boundary points. */
 export function sweepTextMap(r: SweepResult): string {
   const { def, controllers } = r.info;
@@ -106,12 +117,13 @@ export function sweepTextMap(r: SweepResult): string {
         );
       }
     }
+    for (const t of r.theory.filter((x) => x.controllerId === c.id)) out.push(`theory: ${t.label} — ${theoryWhere(r, t)} (${t.source})`);
     out.push('');
   });
   return out.join('\n');
 }
 
-export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo): Promise<number> {
+export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo, tool = 'Slewsmith'): Promise<number> {
   const n = numberOptions(a.values, SWEEP_LIMITS);
   const messages = n.ok ? [] : n.messages;
   const axes: SweepAxisSpec[] = [];
@@ -124,6 +136,10 @@ export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   }
   if (a.values.param === undefined) messages.push('--param NAME=lo:hi:steps is required (the parameter to sweep)');
   if (a.values.runs === undefined) messages.push('--runs N is required (cases per grid cell)');
+  const shardText = a.values.shard;
+  const shard = shardText === undefined ? null : parseShardSpec(shardText);
+  if (typeof shard === 'string') messages.push(shard);
+  else if (shard && a.values.out === undefined) messages.push('--shard needs --out DIR (the folder the shard file is written to)');
   if (messages.length || !n.ok) {
     for (const m of messages) io.err(`error: ${m}`);
     return 2;
@@ -159,15 +175,46 @@ export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo): Prom
   for (const w of inf.warnings) io.err(`warning: ${w.path}: ${w.message}`);
   const info = inf.value;
   const total = cellCount(def);
+  let indices = Array.from({ length: total }, (_, i) => i);
+  if (shard && typeof shard !== 'string') {
+    const bad = sweepShardSpecIssues(shard.index, shard.count, total);
+    if (bad.length) {
+      for (const e of bad) io.err(`error: ${e.message}`);
+      return 2;
+    }
+    const r = sweepShardCells(shard.index, shard.count, total);
+    indices = indices.slice(r.first, r.end);
+  }
   const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
-  const nWorkers = Math.max(1, Math.min(v.workers ?? cores, total));
+  const nWorkers = Math.max(1, Math.min(v.workers ?? cores, indices.length));
+  const part =
+    shard && typeof shard !== 'string'
+      ? `shard ${shard.index} of ${shard.count}: cells ${indices[0]}–${indices[indices.length - 1]} of `
+      : '';
   io.err(
-    `sweep: ${total} cells × ${def.runs} cases × ${info.controllers.length} controllers (${def.axes.map((x) => `${x.parameter} ${x.values.length}`).join(' × ')}) on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`,
+    `sweep: ${part}${total} cells × ${def.runs} cases × ${info.controllers.length} controllers (${def.axes.map((x) => `${x.parameter} ${x.values.length}`).join(' × ')}) on ${nWorkers} worker thread${nWorkers === 1 ? '' : 's'}`,
   );
-  const outcome = await runCells(json, def, info, nWorkers, io);
+  const outcome = await runCells(json, def, nWorkers, io, indices);
   if (outcome.error) {
     printIssues(io, outcome.invalid ? 'the sweep cannot run' : 'the sweep failed', outcome.error);
     return outcome.invalid ? 2 : 1;
+  }
+  if (shard && typeof shard !== 'string' && outDir !== undefined) {
+    if (outcome.interrupted) {
+      io.err('sweep: shard stopped early; no shard file written (run it again: a shard is all or nothing)');
+      return 130;
+    }
+    const file = path.join(outDir, sweepShardFileName(shard.index, shard.count));
+    const w = await writeFileAtomicNode(file, sweepShardText(info, json, tool, shard.index, shard.count, outcome.cells));
+    if (!w.ok) {
+      io.err(`error: could not write ${file}: ${w.message}`);
+      return 1;
+    }
+    io.err(`wrote ${file}`);
+    io.out(
+      `shard ${shard.index} of ${shard.count} of the sweep of "${info.scenarioName}": cells ${indices[0]}–${indices[indices.length - 1]} of ${total} done; merge all ${shard.count} shards with: slewsmith sweep merge ${outDir}`,
+    );
+    return 0;
   }
   const result = sweepResultOf(info, outcome.cells);
   io.out(
@@ -207,10 +254,10 @@ interface CellsOutcome {
   invalid: boolean;
 }
 
-/** Hand the cells out one at a time to `nWorkers` worker threads; Ctrl-C stops and keeps the finished ones. */
-function runCells(json: unknown, def: SweepDefinition, info: SweepInfo, nWorkers: number, io: CliIo): Promise<CellsOutcome> {
+/** Hand the cells `indices` out one at a time to `nWorkers` worker threads; Ctrl-C stops and keeps the finished ones. */
+function runCells(json: unknown, def: SweepDefinition, nWorkers: number, io: CliIo, indices: readonly number[]): Promise<CellsOutcome> {
   return new Promise((resolve) => {
-    const total = info.cells;
+    const total = indices.length;
     const cancelFlag = new SharedArrayBuffer(4);
     const flag = new Int32Array(cancelFlag);
     const cells: SweepCell[] = [];
@@ -248,7 +295,7 @@ function runCells(json: unknown, def: SweepDefinition, info: SweepInfo, nWorkers
         return;
       }
       busy.add(w);
-      const msg: SweepToWorker = { type: 'run', index: next++ };
+      const msg: SweepToWorker = { type: 'run', index: indices[next++]! };
       w.postMessage(msg);
     };
     const fail = (issues: Issue[], isInput: boolean) => {

@@ -24,6 +24,7 @@ const benches: Bench[] = [
     fn: 'benchStudyCampaign',
     title: 'Study campaign: merge 1,000 real-format shard files, per-shard overhead',
   },
+  { file: './sweep.ts', fn: 'benchSweep', title: 'Robustness sweep from the CLI: 10 × 10 cells × 3 laws, two workers' },
   { file: './browser.ts', fn: 'benchBrowser', title: 'Renderer in headless Chromium' },
 ];
 

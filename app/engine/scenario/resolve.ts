@@ -191,7 +191,13 @@ function attitudeOf(spec: AttitudeSpec, previous: Quat | null, path: string, isI
 }
 
 export function resolveController(c: Scenario['controllers'][number]): ResolvedController {
-  return { id: c.id, label: c.label, gains: resolveGains(c.gains), ...resolveLawFields(c) };
+  return {
+    id: c.id,
+    label: c.label,
+    gains: resolveGains(c.gains),
+    ...resolveLawFields(c),
+    ...('requireCertificate' in c && c.requireCertificate === false ? { requireCertificate: false } : {}),
+  };
 }
 
 function resolveVehicle(v: Scenario['vehicle']): ResolvedVehicle {

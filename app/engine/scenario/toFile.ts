@@ -24,7 +24,14 @@ function lawFields<L extends LawId>(def: LawDefinition<L>, c: ControllerParams):
 
 export function controllerToFile(c: ResolvedController): ControllerSpec {
   const fields = lawFields(lawDefinition(c.law), c);
-  return { id: c.id, label: c.label, law: c.law, gains: gainsToFile(c.gains), ...fields } as ControllerSpec;
+  return {
+    id: c.id,
+    label: c.label,
+    law: c.law,
+    gains: gainsToFile(c.gains),
+    ...fields,
+    ...(c.requireCertificate === false ? { requireCertificate: false } : {}),
+  } as ControllerSpec;
 }
 
 const deg3 = (v: ArrayLike<number>) => [v[0]! * DEG_PER_RAD, v[1]! * DEG_PER_RAD, v[2]! * DEG_PER_RAD];

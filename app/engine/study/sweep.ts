@@ -64,6 +64,15 @@ export const SWEEP_PARAMETERS = {
     minOpen: false,
     describe: '1σ relative error of each principal moment (study.dispersions.inertia.momentSigmaFraction)',
   },
+  'jump-threshold': {
+    label: 'jump threshold δ',
+    unit: '',
+    min: 0,
+    max: 1e6,
+    minOpen: true,
+    describe:
+      'jump threshold δ on the synergy gap of every synergistic controller flown (controllers[].gapThreshold, the law’s potential units); cells at or beyond the certified gap δ* are flown anyway (requireCertificate: false), so the map shows what the certificate rules out',
+  },
   'failed-wheel': {
     label: 'wheel-loss probability',
     unit: '',
@@ -270,6 +279,9 @@ function child(o: Record<string, unknown>, key: string): Record<string, unknown>
   return made;
 }
 
+/** The laws with a jump threshold on a synergy gap (and a gap certificate). */
+export const SYNERGISTIC_LAWS: readonly string[] = ['synergistic', 'pointing-synergistic'];
+
 /** Write value `v` of parameter `p` into a copy of the scenario JSON (which already has its study block). */
 export function applyParameter(json: Record<string, unknown>, p: SweepParameter, v: number): void {
   const study = child(json, 'study');
@@ -297,6 +309,16 @@ export function applyParameter(json: Record<string, unknown>, p: SweepParameter,
     case 'inertia-error':
       child(disp, 'inertia').momentSigmaFraction = v;
       return;
+    case 'jump-threshold': {
+      const cs = json.controllers;
+      if (Array.isArray(cs))
+        for (const c of cs)
+          if (isObj(c) && typeof c.law === 'string' && SYNERGISTIC_LAWS.includes(c.law)) {
+            c.gapThreshold = v;
+            c.requireCertificate = false;
+          }
+      return;
+    }
     case 'failed-wheel':
       child(disp, 'wheels').failOneWheelProbability = v;
       return;
@@ -305,7 +327,7 @@ export function applyParameter(json: Record<string, unknown>, p: SweepParameter,
 
 /**
  * Checks against the scenario that the grid alone cannot make: a hysteresis sweep needs a
- * hysteretic controller among those flown.
+ * hysteretic controller among those flown, a jump-threshold sweep a synergistic one.
  */
 export function sweepScenarioIssues(def: SweepDefinition, laws: readonly { id: string; law: string }[]): Issue[] {
   const out: Issue[] = [];
@@ -316,6 +338,14 @@ export function sweepScenarioIssues(def: SweepDefinition, laws: readonly { id: s
           `sweep.axes[${i}].parameter`,
           'needs-hysteretic',
           `sweep.axes[${i}] varies the hysteresis δ, but none of the controllers flown (${laws.map((c) => c.id).join(', ')}) is hysteretic`,
+        ),
+      );
+    if (a.parameter === 'jump-threshold' && !laws.some((c) => SYNERGISTIC_LAWS.includes(c.law)))
+      out.push(
+        issue(
+          `sweep.axes[${i}].parameter`,
+          'needs-synergistic',
+          `sweep.axes[${i}] varies the jump threshold δ, but none of the controllers flown (${laws.map((c) => c.id).join(', ')}) is synergistic (${SYNERGISTIC_LAWS.join(' or ')})`,
         ),
       );
   });

@@ -12,12 +12,13 @@
 import type { Issue, Result } from '../errors';
 import { fail, issue, ok } from '../errors';
 import type { ShareReport } from '../math/stats';
+import type { StudyContext } from './context';
 import { effectiveStudyJson, makeStudyContext } from './context';
 import { accumulateCase, createStudyAccumulator } from './accumulate';
 import { runStudyChunk, studyInfo } from './runner';
 import { studySummaryOf } from './summary';
 import type { SweepDefinition } from './sweep';
-import type { SweepTheoryLine } from './sweepTheory';
+import type { SweepTheoryInputs, SweepTheoryLine } from './sweepTheory';
 import { sweepTheoryLines } from './sweepTheory';
 import { applyParameter, cellCount, cellPosition, cellSeed, sweepScenarioIssues } from './sweep';
 
@@ -75,6 +76,8 @@ export interface SweepInfo {
   controllers: { id: string; label: string; law: string }[];
   durationS: number;
   cells: number;
+  /** The values the theory lines need that the sweep does not vary (cell 0's build); absent in results made before they existed. */
+  theoryInputs?: SweepTheoryInputs;
 }
 
 export interface SweepResult {
@@ -109,9 +112,32 @@ export function sweepInfo(json: unknown, def: SweepDefinition): Result<SweepInfo
   const bad = sweepScenarioIssues(def, controllers);
   if (bad.length) return fail(bad, ctx.warnings);
   return ok(
-    { scenarioName: ctx.prepared.scenario.name, def, controllers, durationS: ctx.def.durationS, cells: cellCount(def) },
+    {
+      scenarioName: ctx.prepared.scenario.name,
+      def,
+      controllers,
+      durationS: ctx.def.durationS,
+      cells: cellCount(def),
+      theoryInputs: theoryInputsOf(ctx),
+    },
     ctx.warnings,
   );
+}
+
+/** Fixed hysteresis δ, certified gap δ* and worst-case ē of cell 0 (the ones a sweep varies are not read from here). */
+function theoryInputsOf(ctx: StudyContext): SweepTheoryInputs {
+  return {
+    worstCaseEta: ctx.def.sensors.adversarialEta,
+    controllers: ctx.controllers.map((b) => {
+      const spec = ctx.prepared.scenario.controllers.find((c) => c.id === b.id);
+      const cert = b.controller.certificate ?? b.controller.sphereCertificate ?? null;
+      return {
+        id: b.id,
+        hysteresis: spec?.law === 'hysteretic' ? spec.hysteresis : null,
+        gapStar: cert && cert.certified ? cert.deltaStar : null,
+      };
+    }),
+  };
 }
 
 /**

@@ -26,4 +26,10 @@ export const PointingSynergisticFileSchema = z.strictObject({
     .number()
     .positive()
     .describe('Jump threshold δ on the synergy gap V_q − min_p V_p, in units of V = 1 − cos φ; must be below the certified gap δ*.'),
+  requireCertificate: z
+    .boolean()
+    .optional()
+    .describe(
+      'true or absent: the controller is built only when the synergy-gap certificate admits gapThreshold (0 < δ < δ*). false: built anyway, the refusal reported as a warning (a robustness sweep of the jump threshold writes false so that it can fly cells beyond δ*).',
+    ),
 });
