@@ -49,6 +49,8 @@ export const PARAMETER_START: Record<SweepParameter, { lo: number; hi: number; s
   'control-rate-hz': { lo: 2, hi: 20, steps: 4 },
   'torque-quantum-mnm': { lo: 0.01, hi: 0.1, steps: 4 },
   'inertia-error': { lo: 0, hi: 0.2, steps: 5 },
+  // Synergy gaps certified for the bundled families are 0.03–0.25 (potential units); a span across them.
+  'jump-threshold': { lo: 0.01, hi: 0.3, steps: 5 },
   'failed-wheel': { lo: 0, hi: 1, steps: 3 },
 };
 
