@@ -3,7 +3,7 @@
  * view over the synchronised plots in the centre, plan and comparison on the right, the playback
  * bar at the bottom, and the export dialog.
  */
-import { useEffect } from 'react';
+import { lazy, Suspense, useEffect } from 'react';
 import { alternateCommandForChord, commandForChord } from '../bridge/commands';
 import type { AppController } from './appController';
 import { AppContext } from './context';
@@ -21,10 +21,13 @@ import { ComparisonTable, PlanSummary, RunStatus } from './components/Results';
 import { Scrubber } from './components/Scrubber';
 import { ExportDialog } from './components/ExportDialog';
 import { PlotsPanel } from './plots/PlotsPanel';
-import { View3DPanel } from './view/View3DPanel';
 import { useStoreSlice } from './store/hooks';
 import { studySessionOf } from './study/registry';
-import { StudyWorkspace } from './study/StudyWorkspace';
+
+// three.js (the 3D views, the study's outcome map) loads after the first plot: these two panels come
+// in their own chunks, so the first pass's plots do not wait for a third of the bundle.
+const View3DPanel = lazy(() => import('./view/View3DPanel').then((m) => ({ default: m.View3DPanel })));
+const StudyWorkspace = lazy(() => import('./study/StudyWorkspace').then((m) => ({ default: m.StudyWorkspace })));
 
 function isEditable(t: EventTarget | null): boolean {
   const el = t as HTMLElement | null;
@@ -80,11 +83,15 @@ export function App({ app }: { app: AppController }) {
             <RunSettingsPanel />
           </aside>
           {studyOpen ? (
-            <StudyWorkspace />
+            <Suspense fallback={<section className="center" aria-busy="true" aria-label="Study loading" />}>
+              <StudyWorkspace />
+            </Suspense>
           ) : (
             <>
               <section className="center" aria-label="3D view and plots">
-                <View3DPanel />
+                <Suspense fallback={<div className="view3d" aria-busy="true" aria-label="3D view loading" />}>
+                  <View3DPanel />
+                </Suspense>
                 <PlotsPanel />
               </section>
               <aside className="right" aria-label="Plan and comparison">

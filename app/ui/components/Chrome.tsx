@@ -4,7 +4,7 @@ import { useApp, useAppState } from '../context';
 import { useStoreSlice } from '../store/hooks';
 import { COMMAND_ACCELERATORS, type MenuCommand } from '../../bridge/commands';
 import type { RecentFile } from '../../bridge/api';
-import { StudyToggle } from '../study/StudyWorkspace';
+import { StudyToggle } from '../study/StudyToggle';
 
 export function CautionStrip() {
   return (
