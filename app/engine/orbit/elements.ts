@@ -123,7 +123,7 @@ export function orbitFromElements(input: MeanElementsInput, path = 'elements'): 
   };
   const satrec = json2satrec(omm);
   if (satrec.error !== 0)
-    return fail([issue(path, 'sgp4-init', `${path}: SGP4 initialisation failed: ${sgp4ErrorText(satrec.error)}`)], warnings);
+    return fail([issue(path, 'propagator-init', `${path}: SGP4 initialisation failed: ${sgp4ErrorText(satrec.error)}`)], warnings);
   return ok(
     { name: input.name ?? 'elements', origin: 'elements', satrec, epochTaiS: rounded.value.taiS, epochUtcIso: epochIsoMs },
     warnings,

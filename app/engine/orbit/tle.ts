@@ -18,7 +18,7 @@
  *
  * Every problem is an Issue whose path names the line and columns ("tle line 2, columns 27–33")
  * and whose rule names the check (line-length, line-number, blank, format, checksum,
- * catalogue-mismatch, range, epoch, sgp4-init, …); all problems are reported together.
+ * catalogue-mismatch, range, epoch, propagator-init, …); all problems are reported together.
  */
 import { twoline2satrec } from 'satellite.js';
 import { fail, issue, ok, type Issue, type Result } from '../errors';
@@ -283,7 +283,7 @@ export function orbitFromTle(text: string, prefix = 'tle'): Result<Sgp4Orbit & {
   const f = p.value;
   const satrec = twoline2satrec(f.line1, f.line2);
   if (satrec.error !== 0)
-    return fail([issue(prefix, 'sgp4-init', `SGP4 initialisation failed: ${sgp4ErrorText(satrec.error)}`)], p.warnings);
+    return fail([issue(prefix, 'propagator-init', `SGP4 initialisation failed: ${sgp4ErrorText(satrec.error)}`)], p.warnings);
   const epochTaiS = tleEpochTai(f.epochYear, f.epochDayOfYear);
   const name = f.title || `catalogue ${String(f.catalogNumber).padStart(5, '0')}`;
   return ok({ name, origin: 'tle', satrec, epochTaiS, epochUtcIso: utcLabelFromTai(epochTaiS, 6) + 'Z', fields: f }, p.warnings);
