@@ -277,7 +277,8 @@ describe.skipIf(skipBrowser)('sweep view (Chromium)', () => {
     expect(shares).toEqual(['1', '1', '0', '0']);
     expect(await map.getAttribute('data-boundary-points')).toBe('1');
     expect(await map.getAttribute('data-boundary-segments')).toBe('1');
-    expect(await map.getAttribute('data-theory')).toBe('');
+    // The one-axis theory line (MST 2011): ē = δ at the controller's fixed δ = 0.4, inside the ē range.
+    expect(await map.getAttribute('data-theory')).toBe('ē = δ (δ = 0.4)');
     await shot(page, 'sweep-strip', 1280, 800);
     expect(w.errors).toEqual([]);
     expect(await w.cspViolations()).toEqual([]);

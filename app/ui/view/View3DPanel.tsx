@@ -131,7 +131,7 @@ export function View3DPanel() {
         {failure && <div className="panel-empty overlay-msg">{failure}</div>}
         {!output && !failure && <div className="overlay-msg">The 3D view shows the run once it is computed.</div>}
       </div>
-      <div className="view3d-bar">
+      <div className="view-mode-float">
         <span className="view-mode" role="group" aria-label="scene shown in the 3D view">
           <button
             className={`small ${showOrbit ? '' : 'on'}`}
@@ -157,6 +157,8 @@ export function View3DPanel() {
             orbit
           </button>
         </span>
+      </div>
+      <div className="view3d-bar">
         {!showOrbit &&
           TOGGLES.map((t) => (
             <label key={t.key} className="check">
