@@ -45,7 +45,7 @@ export interface AppControllerOptions {
   fallbackName: string;
   /** Quiet time after an edit before the pass is sent (default 10 ms: a burst of keys within one frame is one pass). */
   debounceMs?: number;
-  /** Pipeline workers sharing each pass (default 1; the renderer uses the machine's cores, up to 4). */
+  /** Pipeline workers sharing each pass (default 1; main.tsx gives one per core beyond two, up to 4). */
   pipelineWorkers?: number;
 }
 
