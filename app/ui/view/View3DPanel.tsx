@@ -132,6 +132,13 @@ export function View3DPanel() {
         {!output && !failure && <div className="overlay-msg">The 3D view shows the run once it is computed.</div>}
       </div>
       <div className="view-mode-float">
+        <button
+          className="small view-reset"
+          title="Back to the starting camera"
+          onClick={() => (showOrbit ? orbitView.current?.resetCamera() : view.current?.resetCamera(), (needsRender.current = true))}
+        >
+          reset view
+        </button>
         <span className="view-mode" role="group" aria-label="scene shown in the 3D view">
           <button
             className={`small ${showOrbit ? '' : 'on'}`}
@@ -186,22 +193,15 @@ export function View3DPanel() {
           </span>
         )}
         <select
-          hidden={showOrbit}
+          hidden={showOrbit || runs.length < 2}
           value={layout}
           onChange={(e) => setLayout(e.target.value as ViewLayout)}
           aria-label="layout of several runs"
-          disabled={runs.length < 2}
           title="How several selected runs are shown"
         >
           <option value="overlay">overlay</option>
           <option value="side-by-side">side by side</option>
         </select>
-        <button
-          className="small"
-          onClick={() => (showOrbit ? orbitView.current?.resetCamera() : view.current?.resetCamera(), (needsRender.current = true))}
-        >
-          reset view
-        </button>
       </div>
     </div>
   );
