@@ -8,6 +8,7 @@ import { validateScenario } from '../../app/engine/scenario/validate';
 import { loadScenario } from '../../app/engine/scenario/resolve';
 import { EXAMPLE_FILES, loadExample } from './scenario-fixtures';
 import type { Issue } from '../../app/engine/errors';
+import { preparePipeline } from '../../app/engine/pipeline/run';
 
 function errorsOf(json: unknown): Issue[] {
   const r = validateScenario(json);
@@ -30,6 +31,19 @@ describe('example scenarios', () => {
       expect(r.value.targets.length).toBeGreaterThan(0);
     });
   }
+});
+
+describe('orbit stage warnings', () => {
+  it("the pipeline's element-epoch notice names the file's key (epochUtc), not the orbit library's input name", () => {
+    const p = preparePipeline(loadExample('tern12-reversal'));
+    if (!p.ok) throw new Error(JSON.stringify(p.errors, null, 1));
+    const epoch = p.warnings.filter((w) => w.rule === 'leap-table-expired');
+    expect(epoch.length).toBeGreaterThan(0);
+    for (const w of epoch) {
+      expect(w.path).toBe('orbit.meanElements.epochUtc');
+      expect(w.message).not.toContain('epochUtcIso');
+    }
+  });
 });
 
 describe('format and version gate', () => {

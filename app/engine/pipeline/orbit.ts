@@ -27,6 +27,7 @@ import type { TrackingPlan, TrackingTargetInput } from '../plan/trackingTypes';
 import type { PlanLimits, SequencePlan } from '../plan/types';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
 import type { ResolvedSite } from '../scenario/orbitResolve';
+import { atFileEpochKey } from '../scenario/orbitValidate';
 import type { RunTrace } from '../sim/types';
 import { utcLabelFromTai } from '../time/iso';
 
@@ -60,12 +61,12 @@ export function buildOrbitStage(s: ResolvedScenario): Result<OrbitStage> {
   const warnings: Issue[] = [];
   const src = o.source;
   const orb = src.kind === 'tle' ? orbitFromTle(src.lines.join('\n'), 'orbit.tle') : orbitFromElements(src.elements, 'orbit.meanElements');
-  if (!orb.ok) return fail(orb.errors, orb.warnings);
+  if (!orb.ok) return fail(orb.errors.map(atFileEpochKey), orb.warnings.map(atFileEpochKey));
   const tail =
     s.simulation.durationS !== null && s.simulation.durationS !== undefined ? s.simulation.durationS : o.horizonS + s.simulation.tailS;
   const endS = Math.max(o.horizonS, tail) + EPHEMERIS_MARGIN_S;
   const eph = buildEphemeris(orb.value, o.epochTaiS, 0, endS, {}, 'orbit');
-  warnings.push(...orb.warnings, ...eph.warnings);
+  warnings.push(...orb.warnings.map(atFileEpochKey), ...eph.warnings);
   if (!eph.ok) return fail(eph.errors, warnings);
   const errors: Issue[] = [];
   const sites: Site[] = [];

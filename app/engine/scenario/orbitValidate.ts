@@ -45,16 +45,16 @@ export function orbitOfSpec(o: OrbitSpec, errors: Issue[], warnings: Issue[]): S
     return null;
   }
   const r = o.tle ? orbitFromTle(o.tle.join('\n'), 'orbit.tle') : orbitFromElements(toElements(o.meanElements!), 'orbit.meanElements');
-  warnings.push(...r.warnings.map(fileEpochPath));
+  warnings.push(...r.warnings.map(atFileEpochKey));
   if (!r.ok) {
-    errors.push(...r.errors.map(fileEpochPath));
+    errors.push(...r.errors.map(atFileEpochKey));
     return null;
   }
   return r.value;
 }
 
-/** The element epoch's problems at the file's key (`epochUtc`), not the orbit library's input name. */
-function fileEpochPath(i: Issue): Issue {
+/** The element epoch's problems at the file's key (`epochUtc`), not the orbit library's input name (also used by pipeline/orbit.ts). */
+export function atFileEpochKey(i: Issue): Issue {
   const from = 'orbit.meanElements.epochUtcIso';
   if (!i.path.startsWith(from)) return i;
   const to = 'orbit.meanElements.epochUtc';
