@@ -11,7 +11,7 @@ import type { ParsedArgs } from './args';
 import { planTable } from './format';
 import { orbitOutput } from '../../app/engine/pipeline/orbit';
 import { orbitJson, windowsText } from './orbitText';
-import { printIssues, type CliContext } from './io';
+import { printIssues, printWarnings, type CliContext } from './io';
 
 export { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 export { runCertify } from './certify';
@@ -27,7 +27,7 @@ export async function runCheck(file: string, json: unknown, { io }: CliContext):
     printIssues(io, `${file} is not valid`, p.errors);
     return 2;
   }
-  for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
+  printWarnings(io, p.value.warnings);
   const s = p.value.scenario;
   io.out(
     `${file}: valid. "${s.name}", ${s.vehicle.wheels.length} wheels, ${s.targets.length} targets, ${p.value.controllers.length} controllers.`,
@@ -48,7 +48,7 @@ export async function runPlan(file: string, json: unknown, a: ParsedArgs, { io }
     p.value.constrainedSegments,
   );
   const orbit = p.value.orbit ? orbitOutput(p.value.scenario, p.value.orbit, p.value.plan.tracking ?? null) : null;
-  if (orbit) for (const w of p.value.warnings) io.err(`warning: ${w.path}: ${w.message}`);
+  if (orbit) printWarnings(io, p.value.warnings);
   if (a.flags.has('json')) io.out(JSON.stringify({ caution: CAUTION_TEXT, plan, ...(orbit ? { orbit: orbitJson(orbit) } : {}) }, null, 2));
   else io.out(`Plan for "${p.value.scenario.name}"\n\n${planTable(plan)}\n\n${orbit ? `${windowsText(orbit)}\n\n` : ''}${CAUTION_TEXT}`);
   return withConstraintStatus(p.value.plan.feasible ? 0 : 1, plan.constraints?.clear === false);

@@ -39,6 +39,14 @@ export function printIssues(io: CliIo, title: string, all: readonly Issue[]): vo
   io.err(lines.map((l) => `  ${l}`).join('\n'));
 }
 
+/** One stderr line per warning: the field path, then the message (the path once, when the message already starts with it). */
+export function printWarnings(io: CliIo, warnings: readonly Issue[]): void {
+  for (const w of warnings) {
+    const m = oneLine(w.message, 400);
+    io.err(`warning: ${w.path && !m.startsWith(`${w.path}:`) ? `${w.path}: ${m}` : m}`);
+  }
+}
+
 /** Newlines folded and the length capped, for messages that come from outside the CLI. */
 export function oneLine(s: string, max = 300): string {
   const t = s.replace(/\s*[\r\n]+\s*/g, ' ').trim();

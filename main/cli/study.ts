@@ -11,7 +11,7 @@ import { Worker } from 'node:worker_threads';
 import os from 'node:os';
 import path from 'node:path';
 import type { ParsedArgs } from './args';
-import { printIssues, type CliIo } from './io';
+import { printIssues, printWarnings, type CliIo } from './io';
 import { table } from './format';
 import { writeFileAtomicNode } from './fs';
 import { numberOptions, STUDY_LIMITS } from './options';
@@ -251,7 +251,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
         return bad.length ? fail(bad) : ok(shardRange(shard.index, shard.count, i.def.runs));
       },
       onReady: (i, warnings) => {
-        for (const w of warnings) io.err(`warning: ${w.path}: ${w.message}`);
+        printWarnings(io, warnings);
         if (shard && outDir) {
           out.shard = new ShardStream(path.join(outDir, shardFileName(shard.index, shard.count)), i, tool, shard.index, shard.count);
           const c = out.shard.header.cases;

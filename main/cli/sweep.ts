@@ -14,7 +14,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { ParsedArgs } from './args';
 import type { CliIo } from './io';
-import { printIssues } from './io';
+import { printIssues, printWarnings } from './io';
 import { writeFileAtomicNode } from './fs';
 import { numberOptions, type NumberRule } from './options';
 import { prepareOutputFolder } from './output';
@@ -172,7 +172,7 @@ export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
     printIssues(io, 'the sweep cannot run', named);
     return 2;
   }
-  for (const w of inf.warnings) io.err(`warning: ${w.path}: ${w.message}`);
+  printWarnings(io, inf.warnings);
   const info = inf.value;
   const total = cellCount(def);
   let indices = Array.from({ length: total }, (_, i) => i);
