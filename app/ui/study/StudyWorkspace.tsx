@@ -20,6 +20,7 @@ import { useSweepState } from './sweepRegistry';
 import { useStudySession, useStudyState } from './registry';
 import type { WorkerChoice } from './session';
 import './studyWorkspace.css';
+import { RunWarnings } from './RunWarnings';
 
 function seconds(ms: number | null): string {
   if (ms === null || !Number.isFinite(ms)) return '—';
@@ -406,20 +407,7 @@ function Results() {
           <IssueText errors={errors} />
         </div>
       )}
-      {warnings.length > 0 && (
-        <details className="run-warnings">
-          <summary>
-            {warnings.length} warning{warnings.length === 1 ? '' : 's'} from the study
-          </summary>
-          <ul>
-            {warnings.map((i) => (
-              <li key={`${i.path}|${i.rule}`}>
-                <code>{i.path}</code> {i.message}
-              </li>
-            ))}
-          </ul>
-        </details>
-      )}
+      <RunWarnings warnings={warnings} from="the study" />
       {!summary || !info ? (
         phase === 'idle' || phase === 'invalid' ? (
           <div className="panel-empty">Set up the study on the left and press Run study. Results fill in here while the cases run.</div>

@@ -18,6 +18,7 @@ import { useSweepSession, useSweepState } from './sweepRegistry';
 import type { SweepPhase } from './sweepSession';
 import { useStudySession } from './registry';
 import './sweepWorkspace.css';
+import { RunWarnings } from './RunWarnings';
 
 const PHASE_TEXT: Record<SweepPhase, string> = {
   idle: 'Not run yet',
@@ -436,20 +437,7 @@ function SweepResults() {
           <Issues list={errors} />
         </div>
       )}
-      {warnings.length > 0 && (
-        <details className="run-warnings">
-          <summary>
-            {warnings.length} warning{warnings.length === 1 ? '' : 's'} from the sweep
-          </summary>
-          <ul>
-            {warnings.map((i) => (
-              <li key={`${i.path}|${i.rule}`}>
-                <code>{i.path}</code> {i.message}
-              </li>
-            ))}
-          </ul>
-        </details>
-      )}
+      <RunWarnings warnings={warnings} from="the sweep" />
       <div className="sweep-level-row">
         <div className="field sweep-level">
           <FieldRow label="boundary at" unit="% settled">
