@@ -89,6 +89,8 @@ export interface ClosedLoopConfig {
   maxSteps?: number;
   /** Cancellation hook polled at samples. */
   shouldStop?: () => boolean;
+  /** Record into this memory (sim/trace.ts traceArena), which the next run will overwrite; absent: new arrays. */
+  traceArena?: RunTrace;
 }
 
 export interface ClosedLoopResult {

@@ -130,7 +130,7 @@ export class LoopCore {
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
     const upFront = samples <= WHOLE_TRACE_UP_FRONT || this.stopRule === null;
-    this.builder = new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples);
+    this.builder = new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples, cfg.traceArena);
     this.rec = {
       j: 0,
       segment: 0,

@@ -121,6 +121,53 @@ function allocateTrace(nWheels: number, capacity: number): RunTrace {
   };
 }
 
+/**
+ * Memory for the full trace of one run, `capacity` samples, that the runs of a pass record into one
+ * after the other (pipeline/run.ts, for runs that keep a display trace): the pass then holds one full
+ * trace whatever the garbage collector does, instead of a new one per run beside the last one not
+ * yet collected. A trace recorded into it is overwritten by the next run: copy what is kept.
+ */
+export function traceArena(nWheels: number, capacity: number): RunTrace {
+  return allocateTrace(nWheels, Math.max(16, Math.ceil(capacity)));
+}
+
+/** A fresh RunTrace (n = 0) over an arena's arrays, built as one object literal like allocateTrace. */
+function overArena(a: RunTrace): RunTrace {
+  return {
+    n: 0,
+    nWheels: a.nWheels,
+    t: a.t,
+    j: a.j,
+    segment: a.segment,
+    q: a.q,
+    omega: a.omega,
+    hWheel: a.hWheel,
+    qRef: a.qRef,
+    omegaRef: a.omegaRef,
+    torqueCmdBody: a.torqueCmdBody,
+    torqueBody: a.torqueBody,
+    wheelTorqueCmd: a.wheelTorqueCmd,
+    wheelTorque: a.wheelTorque,
+    wheelTorqueNet: a.wheelTorqueNet,
+    logic: a.logic,
+    errorAngle: a.errorAngle,
+    potential: a.potential,
+    potentialMin: a.potentialMin,
+    gap: a.gap,
+    lyapunov: a.lyapunov,
+  };
+}
+
+/** The trace in memory of its own (every sample, bit for bit): what a run keeps of a trace recorded in an arena. */
+export function copyTrace(tr: RunTrace): RunTrace {
+  const out = allocateTrace(tr.nWheels, tr.n);
+  out.n = tr.n;
+  out.j.set(tr.j.subarray(0, tr.n));
+  out.segment.set(tr.segment.subarray(0, tr.n));
+  for (const name of TRACE_CHANNELS) out[name].set(tr[name].subarray(0, tr.n * channelWidth(name, tr.nWheels)));
+  return out;
+}
+
 export class TraceBuilder {
   private cap: number;
   readonly trace: RunTrace;
@@ -133,9 +180,16 @@ export class TraceBuilder {
     nWheels: number,
     initialCapacity = 1024,
     private readonly expected = 0,
+    arena?: RunTrace,
   ) {
-    this.cap = Math.max(16, initialCapacity);
-    this.trace = allocateTrace(nWheels, this.cap);
+    // An arena (traceArena): record into its memory from sample 0, whatever an earlier run left there.
+    if (arena && arena.nWheels === nWheels && arena.t.length >= 16) {
+      this.cap = arena.t.length;
+      this.trace = overArena(arena);
+    } else {
+      this.cap = Math.max(16, initialCapacity);
+      this.trace = allocateTrace(nWheels, this.cap);
+    }
   }
 
   /** Samples the arrays can hold before they grow. */
@@ -310,6 +364,30 @@ export function decimateTrace(tr: RunTrace, every: number): RunTrace {
   const idx = new Int32Array(m);
   for (let i = 0, k = 0; k < n; k += step) idx[i++] = k;
   if (m > 0) idx[m - 1] = n - 1;
+  const out = allocateTrace(tr.nWheels, m);
+  out.n = m;
+  for (let i = 0; i < m; i++) {
+    out.j[i] = tr.j[idx[i]!]!;
+    out.segment[i] = tr.segment[idx[i]!]!;
+  }
+  for (const name of TRACE_CHANNELS) {
+    const w = channelWidth(name, tr.nWheels);
+    const src = tr[name];
+    const a = out[name];
+    for (let i = 0; i < m; i++) {
+      const o = idx[i]! * w;
+      for (let c = 0; c < w; c++) a[i * w + c] = src[o + c]!;
+    }
+  }
+  return out;
+}
+
+/**
+ * The samples at `idx` (increasing indices into `tr`), every channel copied bit for bit, as a new
+ * trace of the same shape (pipeline/displayTrace.ts keeps such a subset of a long run for views).
+ */
+export function subsetTrace(tr: RunTrace, idx: Int32Array): RunTrace {
+  const m = idx.length;
   const out = allocateTrace(tr.nWheels, m);
   out.n = m;
   for (let i = 0; i < m; i++) {
