@@ -7,6 +7,7 @@ import type { Result } from '../engine/errors';
 import { fail } from '../engine/errors';
 import type { ControllerRun, PipelineOutput } from '../engine/pipeline/types';
 import { exportRun as engineExportRun, type ExportFormat } from '../engine/export/runExport';
+import { fullRun } from '../engine/pipeline/refly';
 
 export type { ExportFormat } from '../engine/export/runExport';
 
@@ -51,7 +52,10 @@ function exportFileName(scenarioName: unknown, run: ControllerRun, format: Expor
 export function exportRun(out: PipelineOutput, choice: ExportChoice): Result<{ name: string; content: string }> {
   const run = out.runs.find((r) => r.key === choice.runKey);
   if (!run) return fail([{ path: 'run', rule: 'exists', message: 'Choose a run to export' }]);
-  const r = engineExportRun(choice.format, run, out, {
+  // A long run kept a display trace for the views: it is flown again so the file holds every sample.
+  const full = fullRun(out, run);
+  if (!full.ok) return full;
+  const r = engineExportRun(choice.format, full.value, out, {
     toolName: 'Slewsmith',
     toolVersion: toolVersion(),
     sampleRateHz: choice.sampleRateHz ?? undefined,

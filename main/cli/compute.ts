@@ -15,6 +15,7 @@ import { runEnd, type RunEnd } from '../../app/engine/pipeline/outcome';
 import { comparisonCsv, comparisonTable } from './format';
 import { windowErrorText } from './orbitText';
 import { violationLines } from './constraintStatus';
+import { fullRunExports } from './fullRunExports';
 
 export interface ComputeJob {
   command: 'fly' | 'compare';
@@ -128,9 +129,11 @@ export function computeJobSources(job: ComputeJob, progress: ProgressSink): Comp
   const sources: (ChunkSource | undefined)[] = [];
   const x = job.exports;
   if (x) {
+    // A long run kept a display trace: its files fly it again when opened (fullRunExports.ts).
+    const reflown = fullRunExports(o);
     for (const run of o.runs)
       for (const f of x.formats) {
-        const text = exportRunChunks(f, run, o, {
+        const text = (run.traceKind === 'display' ? reflown : exportRunChunks)(f, run, o, {
           toolName: x.toolName,
           toolVersion: x.toolVersion,
           sampleRateHz: x.sampleRateHz,

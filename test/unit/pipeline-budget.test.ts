@@ -1,7 +1,8 @@
 /**
  * The pipeline's resource budget (app/engine/pipeline/budget.ts): the estimate against what a run
  * really records and holds, and the refusals — a 10-day run at 100 Hz refused before any flight,
- * naming duration and rate; a 24 h run at 10 Hz with three controllers inside the budget.
+ * naming duration and rate; a 24 h run at 10 Hz with three controllers in two modes inside the budget
+ * (one full trace in flight plus display traces, pipeline/displayTrace.ts).
  *
  * References: element sizes of Float64Array (8 bytes) and Int32Array (4 bytes) are ECMA-262's
  * TypedArray table (§23.2, "Element Size"); the sample count of a zero-order-hold loop at rate f
@@ -55,19 +56,47 @@ describe('the estimate', () => {
     }
   });
 
-  it('a 24 h run at 10 Hz with three controllers in one mode fits the default budget', () => {
+  it('a 24 h run at 10 Hz with three controllers in two modes fits: one full trace in flight plus six display traces', () => {
     const json = loadExample('lumen6-imaging');
     json.simulation.durationS = 86400;
     json.simulation.mode = 'follow-plan';
     const p = preparePipeline(json);
     if (!p.ok) throw new Error('prepare');
-    const e = estimateBudget(p.value.scenario, p.value.plan, 3, ['follow-plan']);
-    expect(e.samplesPerRun).toBe(864_001);
-    expect(e.traceBytes).toBe(3 * 864_001 * 352);
-    expect(budgetIssues(e, p.value.scenario, p.value.plan)).toEqual([]);
-    // Both modes (six runs) would not: 1.82 GB of traces.
+    const one = estimateBudget(p.value.scenario, p.value.plan, 3, ['follow-plan']);
+    expect(one.samplesPerRun).toBe(864_001);
+    // The display rule (pipeline/displayTrace.ts): stride ⌈4 · 864,001 / 20,000⌉ = 173, so ⌈864,001 / 173⌉ = 4,995
+    // buckets of at most 4 samples, plus the last: 19,981 samples (arithmetic by hand).
+    expect(one.display).toBe(true);
+    expect(one.keptSamplesPerRun).toBe(19_981);
+    expect(one.keptBytesPerRun).toBe(19_981 * 352);
+    expect(one.traceBytes).toBe((864_001 + 3 * 19_981) * 352);
+    expect(budgetIssues(one, p.value.scenario, p.value.plan)).toEqual([]);
     const both = estimateBudget(p.value.scenario, p.value.plan, 3, ['follow-plan', 'step-target']);
-    expect(budgetIssues(both, p.value.scenario, p.value.plan).map((i) => i.rule)).toEqual(['budget-memory']);
+    expect(both.traceBytes).toBe((864_001 + 6 * 19_981) * 352); // 346 MB, under 1 GiB
+    expect(budgetIssues(both, p.value.scenario, p.value.plan)).toEqual([]);
+    // With the display limit off (every run keeps its full trace) the six runs would hold 1.82 GB: refused as before.
+    const off = estimateBudget(p.value.scenario, p.value.plan, 3, ['follow-plan', 'step-target'], {
+      fullUpToSamples: Infinity,
+      displaySamples: 1,
+    });
+    expect(off.display).toBe(false);
+    expect(off.traceBytes).toBe(6 * 864_001 * 352);
+    const refused = budgetIssues(off, p.value.scenario, p.value.plan);
+    expect(refused.map((i) => [i.path, i.rule])).toEqual([['controllers', 'budget-memory']]);
+    expect(refused[0]!.message).toContain('would hold 1.82 GB of traces (864,001 samples each');
+  });
+
+  it('a pass of display traces over the memory budget names the duration and rate that drive its full trace', () => {
+    const json = loadExample('lumen6-imaging');
+    json.simulation.durationS = 86400;
+    const p = preparePipeline(json);
+    if (!p.ok) throw new Error('prepare');
+    const e = estimateBudget(p.value.scenario, p.value.plan, 3, ['follow-plan', 'step-target']);
+    const issues = budgetIssues(e, p.value.scenario, p.value.plan, { ...DEFAULT_BUDGET, maxTraceBytes: 200e6 });
+    expect(issues.map((i) => [i.path, i.rule])).toEqual([['simulation.durationS', 'budget-memory']]);
+    expect(issues[0]!.message).toContain('one full trace of 864,001 samples in flight');
+    expect(issues[0]!.message).toContain('plus 6 display traces of 19,981 samples');
+    expect(issues[0]!.message).toContain('vehicle.controlRateHz = 10 Hz');
   });
 });
 

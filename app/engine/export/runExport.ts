@@ -13,6 +13,8 @@ import { aemChunks } from './aem-write';
 import type { ExportMeta } from './types';
 import type { RunConstraintReport } from '../pipeline/constraints';
 import type { ExportConstraint } from './constraintColumns';
+import { fail } from '../errors';
+import { displayTraceExportIssue } from '../pipeline/refly';
 
 function exportConstraints(r: RunConstraintReport): ExportConstraint[] {
   return r.constraints.map((c, i) => ({
@@ -47,6 +49,9 @@ export function exportRun(format: ExportFormat, run: ControllerRun, out: Pipelin
 
 /** The export as a chunk source (chunks.ts): checked first, then the text piece by piece. */
 export function exportRunChunks(format: ExportFormat, run: ControllerRun, out: PipelineOutput, o: RunExportOptions): ChunkedExport {
+  // A long run's display trace is a subset: exports take the full run (pipeline/refly.ts fullRun).
+  const partial = displayTraceExportIssue(run);
+  if (partial) return fail([partial]);
   const meta: ExportMeta = {
     toolName: o.toolName,
     toolVersion: o.toolVersion,

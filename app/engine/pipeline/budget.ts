@@ -9,7 +9,10 @@
  *
  * The estimate is deterministic (counts, not clocks): samples = ⌈t_end · f⌉ + 1 per run (plus two
  * per segment switch in the continuous-ideal mode, which records at each switch), trace bytes =
- * samples × the bytes of one sample of every trace channel (sim/trace.ts), time = samples and RK4
+ * samples × the bytes of one sample of every trace channel (sim/trace.ts) for every run when runs are
+ * short, but for runs that keep a display trace (displayTrace.ts) one full trace in flight plus every
+ * run's display trace at its bound (the changes of j, segment and logic a display trace also keeps
+ * are not known before flying and are not counted, like the jump lists), time = samples and RK4
  * steps weighted by costs measured on the project's 2-core reference machine (test/bench/pipeline.ts
  * prints the measured figures; the weights are rounded up from them). Each run also gets a step
  * cap a little above its estimate (runStepCap), so a run that somehow needs more work than
@@ -21,6 +24,7 @@ import type { ResolvedScenario } from '../scenario/resolve';
 import { TRACE_CHANNELS, channelWidth } from '../sim/trace';
 import type { RunMode } from '../sim/types';
 import { flightEndS } from './fly';
+import { DISPLAY_TRACE_LIMIT, displaySamplesBound, type DisplayTraceLimit } from './displayTrace';
 
 export interface RunBudget {
   /** Samples one run may record (a run's exports hold one row per sample). */
@@ -33,7 +37,8 @@ export interface RunBudget {
 
 /**
  * One million samples per run (27.8 h at 10 Hz), 1 GiB of traces per pass, 15 minutes of estimated
- * compute: a 24 h run at 10 Hz with three controllers in one mode fits (0.91 GB, about 1.5 min).
+ * compute: a 24 h run at 10 Hz with three controllers in two modes fits (one full trace of 304 MB in
+ * flight plus six display traces of 7.04 MB: 346 MB, about 3 min).
  */
 export const DEFAULT_BUDGET: Readonly<RunBudget> = {
   maxSamplesPerRun: 1_000_000,
@@ -63,9 +68,13 @@ export interface BudgetEstimate {
   /** Samples and RK4 steps of one run (the longest). */
   samplesPerRun: number;
   stepsPerRun: number;
-  /** Bytes of one trace sample and of all traces of the pass. */
+  /** Bytes of one trace sample and of all traces of the pass (what it holds at its peak). */
   bytesPerSample: number;
   traceBytes: number;
+  /** Whether each run keeps a display trace (longer than the display limit), and the samples and bytes each run keeps. */
+  display: boolean;
+  keptSamplesPerRun: number;
+  keptBytesPerRun: number;
   /** Estimated compute time of the pass, s. */
   computeS: number;
 }
@@ -84,7 +93,13 @@ function stepsPerSample(s: ResolvedScenario): number {
 }
 
 /** The estimate for flying `controllers` controllers in `modes` modes of a prepared scenario. */
-export function estimateBudget(s: ResolvedScenario, plan: SequencePlan, controllers: number, modes: readonly RunMode[]): BudgetEstimate {
+export function estimateBudget(
+  s: ResolvedScenario,
+  plan: SequencePlan,
+  controllers: number,
+  modes: readonly RunMode[],
+  displayLimit: DisplayTraceLimit = DISPLAY_TRACE_LIMIT,
+): BudgetEstimate {
   const durationS = flightEndS(s, plan);
   const rateHz = s.vehicle.controlRateHz;
   const ideal = s.simulation.timing === 'continuous-ideal';
@@ -92,6 +107,8 @@ export function estimateBudget(s: ResolvedScenario, plan: SequencePlan, controll
   const steps = Math.ceil(durationS * rateHz) * stepsPerSample(s);
   const runs = controllers * modes.length;
   const bytesPerSample = traceBytesPerSample(s.vehicle.wheels.length);
+  const kept = displaySamplesBound(samples, displayLimit);
+  const display = kept < samples;
   const perRunS = samples * COST_PER_SAMPLE_S + steps * (ideal ? COST_PER_IDEAL_STEP_S : COST_PER_SAMPLED_STEP_S);
   return {
     runs,
@@ -102,7 +119,11 @@ export function estimateBudget(s: ResolvedScenario, plan: SequencePlan, controll
     samplesPerRun: samples,
     stepsPerRun: steps,
     bytesPerSample,
-    traceBytes: runs * samples * bytesPerSample,
+    // Display: one run's full trace in flight, and every run's display trace (the last one is made while its full trace is alive).
+    traceBytes: display ? (samples + runs * kept) * bytesPerSample : runs * samples * bytesPerSample,
+    display,
+    keptSamplesPerRun: kept,
+    keptBytesPerRun: kept * bytesPerSample,
     computeS: runs * perRunS,
   };
 }
@@ -160,12 +181,16 @@ export function budgetIssues(e: BudgetEstimate, s: ResolvedScenario, plan: Seque
       rule: 'budget-samples',
       message: `each run would record ${grouped(e.samplesPerRun)} samples: ${length}; the budget is ${grouped(b.maxSamplesPerRun)} samples per run — shorten the run or lower vehicle.controlRateHz`,
     });
-  if (!(e.traceBytes <= b.maxTraceBytes))
+  if (!(e.traceBytes <= b.maxTraceBytes)) {
+    const held = e.display
+      ? `one full trace of ${grouped(e.samplesPerRun)} samples in flight (${length}) plus ${e.runs} display trace${e.runs === 1 ? '' : 's'} of ${grouped(e.keptSamplesPerRun)} samples; ${e.bytesPerSample} bytes per sample with ${s.vehicle.wheels.length} wheels`
+      : `${grouped(e.samplesPerRun)} samples each: ${length}; ${e.bytesPerSample} bytes per sample with ${s.vehicle.wheels.length} wheels`;
     issues.push({
-      path: 'controllers',
+      path: e.display ? dur.path : 'controllers',
       rule: 'budget-memory',
-      message: `the ${runs} would hold ${bytesText(e.traceBytes)} of traces (${grouped(e.samplesPerRun)} samples each: ${length}; ${e.bytesPerSample} bytes per sample with ${s.vehicle.wheels.length} wheels); the budget is ${bytesText(b.maxTraceBytes)} (${b.maxTraceBytes / 1024 ** 3} GiB) — fly fewer controllers or one mode, or shorten the run`,
+      message: `the ${runs} would hold ${bytesText(e.traceBytes)} of traces (${held}); the budget is ${bytesText(b.maxTraceBytes)} (${b.maxTraceBytes / 1024 ** 3} GiB) — ${e.display ? 'shorten the run or lower vehicle.controlRateHz' : 'fly fewer controllers or one mode, or shorten the run'}`,
     });
+  }
   if (!(e.computeS <= b.maxComputeS))
     issues.push({
       path: 'simulation.rk4StepsPerSample',
@@ -177,5 +202,6 @@ export function budgetIssues(e: BudgetEstimate, s: ResolvedScenario, plan: Seque
 
 /** One line for people: what the pass will cost. */
 export function budgetSummary(e: BudgetEstimate): string {
-  return `${e.runs} run${e.runs === 1 ? '' : 's'} of ${grouped(e.samplesPerRun)} samples, ${bytesText(e.traceBytes)} of traces, about ${durationText(e.computeS)} to compute`;
+  const kept = e.display ? ` (each keeps a display trace of ${grouped(e.keptSamplesPerRun)} samples)` : '';
+  return `${e.runs} run${e.runs === 1 ? '' : 's'} of ${grouped(e.samplesPerRun)} samples${kept}, ${bytesText(e.traceBytes)} of traces, about ${durationText(e.computeS)} to compute`;
 }

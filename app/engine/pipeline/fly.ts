@@ -9,7 +9,7 @@ import { runClosedLoop, type ClosedLoopResult, type ReferenceSource } from '../s
 import { followPlanReference, stepTargetReference } from '../sim/reference';
 import { trackingReference } from '../sim/trackingReference';
 import type { SensorModel } from '../sim/sensors';
-import type { Actuation, RunMode } from '../sim/types';
+import type { Actuation, RunMode, RunTrace } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
 import { SettleWatch } from '../metrics/settle';
 import { pointingAxesOf } from './pointing';
@@ -35,6 +35,8 @@ export interface Flight {
   shouldStop?: () => boolean;
   /** RK4 steps after which the run stops as truncated (budget.ts runStepCap); absent: the loop's default. */
   maxSteps?: number;
+  /** Record the trace into this reused memory (sim/trace.ts traceArena); absent: new arrays. */
+  traceArena?: RunTrace;
 }
 
 /** Stage 5: fly. */
@@ -60,6 +62,7 @@ export function fly(f: Flight): ClosedLoopResult {
     stopRule: f.earlyStop ? new SettleWatch(f.earlyStop.angleRad, f.earlyStop.rateRadPerS, f.earlyStop.settledForS) : undefined,
     shouldStop: f.shouldStop,
     ...(f.maxSteps !== undefined ? { maxSteps: f.maxSteps } : {}),
+    ...(f.traceArena ? { traceArena: f.traceArena } : {}),
   });
 }
 

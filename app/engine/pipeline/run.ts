@@ -13,7 +13,8 @@ import type { SequencePlan } from '../plan/types';
 import { resolveScenario, type ResolvedScenario } from '../scenario/resolve';
 import type { Scenario } from '../scenario/schema';
 import { validateScenario } from '../scenario/validate';
-import type { RunMode } from '../sim/types';
+import type { RunMode, RunTrace } from '../sim/types';
+import { copyTrace, traceArena } from '../sim/trace';
 import { buildControllers, buildVehicle } from './build';
 import { fly, scenarioFlight } from './fly';
 import { planLimits, planManeuver } from './plan';
@@ -37,6 +38,7 @@ import {
 import { planSummaryWithSavings } from './rollFreePlan';
 import { pointingLawIssues } from './pointing';
 import { runSliceIssues, sliceLength, type RunSlice } from './slices';
+import { DISPLAY_TRACE_LIMIT, keepForDisplay, type DisplayTraceLimit } from './displayTrace';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -53,6 +55,8 @@ export interface PipelineOptions {
    * that `of` workers share one pass; mergeRunSlices (slices.ts) puts the parts back together.
    */
   runSlice?: RunSlice;
+  /** When a run keeps a display trace instead of its full trace (displayTrace.ts); default DISPLAY_TRACE_LIMIT. */
+  displayTrace?: DisplayTraceLimit;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -157,12 +161,18 @@ export interface FlyOptions {
   maxSteps?: number;
   /** Keep each constraint's margin series on the run (default true; studies skip it for speed). */
   constraintSeries?: boolean;
+  /** Record the full trace into this reused memory (sim/trace.ts traceArena): the caller copies what it keeps. */
+  traceArena?: RunTrace;
 }
 
 /** Stages 5 and 6 for one controller in one mode. */
 export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, o: FlyOptions = {}): ControllerRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, o.shouldStop);
-  const res = fly(o.maxSteps !== undefined ? { ...flight, maxSteps: o.maxSteps } : flight);
+  const res = fly({
+    ...flight,
+    ...(o.maxSteps !== undefined ? { maxSteps: o.maxSteps } : {}),
+    ...(o.traceArena ? { traceArena: o.traceArena } : {}),
+  });
   const run = summariseRun(res, c, mode, metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors), o.monitor ?? true);
   if (p.plan.tracking) run.windowErrors = windowErrors(res.trace, p.plan.tracking);
   const checked = checkRun(run.trace, p.constraints, o.constraintSeries ?? true);
@@ -178,10 +188,13 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
   const s = p.scenario;
   const modes: RunMode[] = opts.modes ? [...opts.modes] : s.simulation.modes;
   // The budget before any flight: a pass that would not fit is refused at once, naming its drivers.
-  const estimate = estimateBudget(s, p.plan, p.controllers.length, modes);
+  const display = opts.displayTrace ?? DISPLAY_TRACE_LIMIT;
+  const estimate = estimateBudget(s, p.plan, p.controllers.length, modes, display);
   const overBudget = budgetIssues(estimate, s, p.plan, { ...DEFAULT_BUDGET, ...opts.budget });
   if (overBudget.length) return fail(overBudget, p.warnings);
   const maxSteps = runStepCap(estimate);
+  // Runs that keep display traces record their full traces one after the other into one arena.
+  const arena = estimate.display ? traceArena(s.vehicle.wheels.length, estimate.samplesPerRun + 8) : undefined;
   const runs: ControllerRun[] = [];
   const slice = opts.runSlice ?? { index: 0, of: 1 };
   const badSlice = runSliceIssues(slice);
@@ -192,7 +205,11 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     for (const mode of modes) {
       if (opts.shouldStop?.()) break;
       if (k++ % slice.of !== slice.index) continue;
-      runs.push(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps }));
+      // Everything that reads the full trace is done inside flyAndSummarise; a long run then keeps a
+      // display trace, and its full trace is garbage before the next run is flown.
+      const run = keepForDisplay(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps, traceArena: arena }), display);
+      // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
+      runs.push(arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run);
       opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
     }
   }

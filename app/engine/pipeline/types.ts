@@ -91,6 +91,24 @@ export interface ControllerRun {
   metricInputs: MetricInputs;
   /** Orbit plans: the pointing error achieved while tracking each planned target (pipeline/orbit.ts). */
   windowErrors?: WindowError[];
+  /**
+   * What `trace` (and the constraint margin series) hold: absent or 'full', every sample flown;
+   * 'display', the subset a long run keeps for the views (pipeline/displayTrace.ts). Exports refuse
+   * a display trace: they fly the run again at full rate (pipeline/refly.ts).
+   */
+  traceKind?: 'full' | 'display';
+  /** A display trace: what was flown and what was kept. */
+  display?: DisplayTraceInfo;
+}
+
+/** How a display trace was made from its run's full trace (pipeline/displayTrace.ts). */
+export interface DisplayTraceInfo {
+  /** Samples the run recorded at full rate. */
+  fullSamples: number;
+  /** Stride of the regular grid of kept samples. */
+  stride: number;
+  /** Samples kept (= trace.n). */
+  kept: number;
 }
 
 /** An envelope for views and capacity queries: mesh (vertices 3V, outward triangles 3T) and facet planes. */

@@ -40,6 +40,8 @@ export function ExportDialog() {
     if (!output || rateProblem) return;
     setBusy(true);
     try {
+      // A long run kept a display trace and is flown again for its export: let the busy state paint first.
+      if (output.runs.find((x) => x.key === runKey)?.traceKind === 'display') await new Promise((ok) => setTimeout(ok, 0));
       const r = exportRun(output, { format, runKey, sampleRateHz: rate });
       if (!r.ok) {
         setIssues(r.errors);
