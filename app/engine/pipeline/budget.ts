@@ -38,7 +38,7 @@ export interface RunBudget {
 /**
  * One million samples per run (27.8 h at 10 Hz), 1 GiB of traces per pass, 15 minutes of estimated
  * compute: a 24 h run at 10 Hz with three controllers in two modes fits (one full trace of 304 MB in
- * flight plus six display traces of 7.04 MB: 346 MB, about 3 min).
+ * flight plus six display traces of 7.03 MB: 346 MB, about 3 min).
  */
 export const DEFAULT_BUDGET: Readonly<RunBudget> = {
   maxSamplesPerRun: 1_000_000,
