@@ -108,6 +108,14 @@ describe('display traces', () => {
     expect(shown.runs.some((r) => r.trace.j[r.trace.n - 1]! > 0)).toBe(true);
   });
 
+  it('the pass says so once in its warnings, naming the field that makes the runs long', () => {
+    expect(full.warnings.some((w) => w.rule === 'display-trace')).toBe(false);
+    const w = shown.warnings.filter((x) => x.rule === 'display-trace');
+    expect(w.map((x) => x.path)).toEqual(['simulation.durationS']);
+    expect(w[0]!.message).toContain(`runs of more than 500 samples keep a display trace`);
+    expect(w[0]!.message).toContain(`${shown.runs[0]!.trace.n} of 2,001 samples in the first`);
+  });
+
   it('metrics, verdicts and the comparison come from the full trace: the same in both passes', () => {
     expect(shown.comparison).toEqual(full.comparison);
     expect(shown.best).toEqual(full.best);

@@ -7,6 +7,7 @@
  * display traces. The run is marked (traceKind 'display', display) and exports refuse it
  * (refly.ts displayTraceExportIssue); they fly the run again at full rate (refly.ts).
  */
+import type { Issue } from '../errors';
 import { displayIndices, DISPLAY_SAMPLES_PER_BUCKET } from '../sim/displayTrace';
 import { subsetTrace } from '../sim/trace';
 import type { ControllerRun } from './types';
@@ -62,4 +63,16 @@ function pick(a: Float64Array, idx: Int32Array): Float64Array {
   const out = new Float64Array(idx.length);
   for (let i = 0; i < idx.length; i++) out[i] = a[idx[i]!]!;
   return out;
+}
+
+/** A note for people when runs of the pass keep display traces (the app's run warnings, the CLI); null when none does. */
+export function displayTraceNotice(runs: readonly ControllerRun[], path: string, l: DisplayTraceLimit): Issue | null {
+  const d = runs.find((r) => r.traceKind === 'display')?.display;
+  if (!d) return null;
+  const n = (x: number) => Math.round(x).toLocaleString('en-US');
+  return {
+    path,
+    rule: 'display-trace',
+    message: `runs of more than ${n(l.fullUpToSamples)} samples keep a display trace for the plots and views (${n(d.kept)} of ${n(d.fullSamples)} samples in the first: a regular grid, each stretch's peaks of pointing error and wheel momentum, and every jump, segment and logic switch); the metrics, the comparison and the exports use every sample (an export flies the run again)`,
+  };
 }

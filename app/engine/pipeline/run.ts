@@ -38,7 +38,7 @@ import {
 import { planSummaryWithSavings } from './rollFreePlan';
 import { pointingLawIssues } from './pointing';
 import { runSliceIssues, sliceLength, type RunSlice } from './slices';
-import { DISPLAY_TRACE_LIMIT, keepForDisplay, type DisplayTraceLimit } from './displayTrace';
+import { DISPLAY_TRACE_LIMIT, displayTraceNotice, keepForDisplay, type DisplayTraceLimit } from './displayTrace';
 
 export interface PipelineOptions {
   /** Run only these controller ids (default: all in the scenario). */
@@ -213,6 +213,8 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
     }
   }
+  const shown = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
+  if (shown) p.warnings.push(shown);
   const comparison = runs.map(comparisonRow);
   const orbit = p.orbit ? orbitOutput(s, p.orbit, p.plan.tracking ?? null) : null;
   const summary = scenarioSummary(s, p.file!);
