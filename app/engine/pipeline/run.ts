@@ -206,7 +206,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       if (opts.shouldStop?.()) break;
       if (k++ % slice.of !== slice.index) continue;
       // Everything that reads the full trace is done inside flyAndSummarise; a long run then keeps a
-      // display trace, and its full trace is garbage before the next run is flown.
+      // display trace, and the next run overwrites its full trace in the arena.
       const run = keepForDisplay(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps, traceArena: arena }), display);
       // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
       runs.push(arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run);
