@@ -83,6 +83,13 @@ export class LoopCore {
   private readonly limitInfo = createLimitInfo();
   private readonly rec: PackedSample;
 
+  /**
+   * Set by the sampled loop when the law's last torque saw exactly the true state (no sensor
+   * error this sample): record() then takes the diagnostics from the tracking error the torque
+   * formed instead of forming it again (same bits). Cleared by record().
+   */
+  torqueSawTrueState = false;
+
   logic = NaN;
   logicJumps = 0;
   segment = -1;
@@ -163,6 +170,18 @@ export class LoopCore {
     for (let i = 0; i < this.N; i++) h[i] = x[7 + i]!;
   }
 
+  /** True when the measured state equals the true state bit for bit (Object.is: −0 ≠ +0). */
+  measuredIsTrue(): boolean {
+    const qm = this.qMeas,
+      qt = this.qTrue,
+      wm = this.wMeas,
+      wt = this.wTrue;
+    if (!Object.is(qm[0], qt[0]) || !Object.is(qm[1], qt[1]) || !Object.is(qm[2], qt[2]) || !Object.is(qm[3], qt[3])) return false;
+    if (!Object.is(wm[0], wt[0]) || !Object.is(wm[1], wt[1]) || !Object.is(wm[2], wt[2])) return false;
+    for (let i = 0; i < this.N; i++) if (!Object.is(this.hMeas[i], this.hTrue[i])) return false;
+    return true;
+  }
+
   /** Load segment s's pointed axis from the reference (zeros for a full-attitude segment). */
   loadAxis(s: number): void {
     const a = this.ref.pointingAxes;
@@ -241,7 +260,10 @@ export class LoopCore {
     if (this.fault !== null) return;
     const diag = this.diag;
     // Diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (control/types.ts).
-    this.ctrl.diagnostics(diag, this.trueInput, this.logic);
+    const ctrl = this.ctrl;
+    if (this.torqueSawTrueState && ctrl.diagnosticsOfLastTorque) ctrl.diagnosticsOfLastTorque(diag, this.logic);
+    else ctrl.diagnostics(diag, this.trueInput, this.logic);
+    this.torqueSawTrueState = false;
     bodyTorqueFromWheelTorque(this.tauBody, this.cfg.wheels, this.wheelHeld);
     this.netWheelTorque();
     const rec = this.rec;
