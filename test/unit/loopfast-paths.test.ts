@@ -14,6 +14,9 @@
  *        any dynamics text; the gyrostat form as in methods §6);
  *  - diagnosticsOfLastTorque (control/quaternionBase.ts) gives the same bits as diagnostics on the
  *    input the torque saw, for the PD, sign-switch and hysteretic laws;
+ *  - allocateMinMax with one null vector (wheels/allocation.ts) makes the same choice, bit for bit,
+ *    as the pair search it replaced (transcribed below from commit c114375), and its peak equals
+ *    the LP optimum's (allocateMinMaxLp);
  *  - a run whose sensors are perfect (the loop then takes the diagnostics from the torque's
  *    tracking error) records the same trace, bit for bit, as the same run through a law that
  *    lacks the shortcut (the general path), and a noisy run does too.
@@ -29,6 +32,9 @@ import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
 import { TRACE_CHANNELS } from '../../app/engine/sim/trace';
 import type { ClosedLoopResult } from '../../app/engine/sim/closedLoop';
 import { fly, law, pyramidVehicle } from '../reference/closedloop-fixtures';
+import { allocateMinMax, allocateMinMaxLp, allocateMinNorm } from '../../app/engine/wheels/allocation';
+import { makeWheelArray, type WheelArray } from '../../app/engine/wheels/array';
+import { pyramid } from '../../app/engine/wheels/presets';
 
 function gyro(n: number, friction: boolean): Gyrostat {
   const axes =
@@ -240,4 +246,91 @@ describe('diagnostics from the torque when the sensors are perfect', () => {
       }
     });
   }
+});
+
+/**
+ * The one-null-vector min-max allocation as it was before weights and centres were formed once
+ * and a candidate's peak check could stop early (wheels/allocation.ts at commit c114375): the
+ * reference for "the same choice, the same bits".
+ */
+function previousMinMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
+  const n = arr.n,
+    nu = arr.nullBasis,
+    l = arr.maxTorqueNm;
+  const peakWith = (a: number) => {
+    let p = 0;
+    for (let i = 0; i < n; i++) p = Math.max(p, Math.abs(out[i]! + nu[i]! * a) / l[i]!);
+    return p;
+  };
+  let bestPeak = Infinity,
+    alpha = 0,
+    firstFree = -1;
+  for (let i = 0; i < n; i++) {
+    if (Math.abs(nu[i]!) <= 1e-14) continue;
+    if (firstFree < 0) firstFree = i;
+    const wi = Math.abs(nu[i]!) / l[i]!;
+    const ci = -out[i]! / nu[i]!;
+    for (let j = i + 1; j < n; j++) {
+      if (Math.abs(nu[j]!) <= 1e-14) continue;
+      const wj = Math.abs(nu[j]!) / l[j]!;
+      const cj = -out[j]! / nu[j]!;
+      const a = (wi * ci + wj * cj) / (wi + wj);
+      const peak = peakWith(a);
+      if (peak < bestPeak) {
+        bestPeak = peak;
+        alpha = a;
+      }
+    }
+  }
+  if (bestPeak === Infinity && firstFree >= 0) alpha = -out[firstFree]! / nu[firstFree]!;
+  for (let i = 0; i < n; i++) out[i]! += nu[i]! * alpha;
+  return out;
+}
+
+describe('min-max allocation, one null vector', () => {
+  it('same bits as the previous pair search, and the peak of the LP optimum (allocateMinMaxLp)', () => {
+    const rng = makeRng(5, 2);
+    const arrays: WheelArray[] = [];
+    for (let k = 0; k < 12; k++) {
+      const specs = pyramid({
+        cantAngleRad: 0.4 + 0.8 * rng.next(),
+        azimuthOffsetRad: rng.next(),
+        maxTorqueNm: 2e-3,
+        maxMomentumNms: 6e-3,
+        rotorInertiaKgm2: 1e-5,
+      });
+      // Unequal torque limits on some arrays, so the weights w_i differ.
+      if (k % 2) specs.forEach((s, i) => (s.maxTorqueNm = 1e-3 * (1 + 0.5 * i)));
+      const w = makeWheelArray(specs);
+      if (!w.ok) throw new Error(JSON.stringify(w.errors));
+      arrays.push(w.value);
+    }
+    const a = new Float64Array(4),
+      b = new Float64Array(4),
+      c = new Float64Array(4);
+    const tau = new Float64Array(3);
+    let checked = 0;
+    for (const arr of arrays) {
+      for (let k = 0; k < 400; k++) {
+        for (let i = 0; i < 3; i++) tau[i] = (k % 9 === 0 ? 0 : 1e-3) * rng.normal();
+        allocateMinMax(a, arr, tau);
+        allocateMinNorm(b, arr, tau);
+        previousMinMaxOneDim(b, arr);
+        for (let i = 0; i < 4; i++) expect(Object.is(a[i], b[i])).toBe(true);
+        // Outside check: the min-max problem's optimum (LP of wheels/lp.ts, checked against mathjs in
+        // test/reference/wheels-allocation.test.ts; min-∞-norm allocation: Yoon, Seo & Choi, Aerospace
+        // Science and Technology 39, 2014).
+        allocateMinMaxLp(c, arr, tau);
+        let pa = 0,
+          pc = 0;
+        for (let i = 0; i < 4; i++) {
+          pa = Math.max(pa, Math.abs(a[i]!) / arr.maxTorqueNm[i]!);
+          pc = Math.max(pc, Math.abs(c[i]!) / arr.maxTorqueNm[i]!);
+        }
+        expect(Math.abs(pa - pc)).toBeLessThanOrEqual(1e-9 * Math.max(1, pc));
+        checked++;
+      }
+    }
+    expect(checked).toBe(4800);
+  });
 });
