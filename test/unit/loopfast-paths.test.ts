@@ -17,6 +17,7 @@
  *  - allocateMinMax with one null vector (wheels/allocation.ts) makes the same choice, bit for bit,
  *    as the pair search it replaced (transcribed below from commit c114375), and its peak equals
  *    the LP optimum's (allocateMinMaxLp);
+ *  - without bearing friction the recorded net wheel torque is the delivered motor torque itself;
  *  - a run whose sensors are perfect (the loop then takes the diagnostics from the torque's
  *    tracking error) records the same trace, bit for bit, as the same run through a law that
  *    lacks the shortcut (the general path), and a noisy run does too.
@@ -227,6 +228,21 @@ function sameTrace(a: ClosedLoopResult, b: ClosedLoopResult): void {
   expect(a.jumps).toEqual(b.jumps);
   expect(a.outcome).toEqual(b.outcome);
 }
+
+describe('net wheel torque without bearing friction', () => {
+  it('equals the delivered motor torque bit for bit (net = motor − friction, friction 0: body/gyrostat.ts)', () => {
+    const r = fly({ vehicle: veh, controller: law(SPECS[0]!, veh), q0: [0, 0, Math.sin(1), Math.cos(1)], tEnd: 30 });
+    expect(veh.plant.friction.active).toBe(false);
+    const a = r.trace.wheelTorqueNet,
+      b = r.trace.wheelTorque;
+    let nonzero = 0;
+    for (let i = 0; i < a.length; i++) {
+      expect(Object.is(a[i], b[i])).toBe(true);
+      if (b[i] !== 0) nonzero++;
+    }
+    expect(nonzero).toBeGreaterThan(100);
+  });
+});
 
 describe('diagnostics from the torque when the sensors are perfect', () => {
   const q0 = [Math.sin(1.4), 0.3 * Math.cos(1.4), 0, 0];

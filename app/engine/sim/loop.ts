@@ -170,15 +170,15 @@ export class LoopCore {
     for (let i = 0; i < this.N; i++) h[i] = x[7 + i]!;
   }
 
-  /** True when the measured state equals the true state bit for bit (Object.is: −0 ≠ +0). */
+  /** True when the measured state equals the true state bit for bit (−0 and +0 differ; NaN: false). */
   measuredIsTrue(): boolean {
     const qm = this.qMeas,
       qt = this.qTrue,
       wm = this.wMeas,
       wt = this.wTrue;
-    if (!Object.is(qm[0], qt[0]) || !Object.is(qm[1], qt[1]) || !Object.is(qm[2], qt[2]) || !Object.is(qm[3], qt[3])) return false;
-    if (!Object.is(wm[0], wt[0]) || !Object.is(wm[1], wt[1]) || !Object.is(wm[2], wt[2])) return false;
-    for (let i = 0; i < this.N; i++) if (!Object.is(this.hMeas[i], this.hTrue[i])) return false;
+    for (let i = 0; i < 4; i++) if (!sameBits(qm[i]!, qt[i]!)) return false;
+    for (let i = 0; i < 3; i++) if (!sameBits(wm[i]!, wt[i]!)) return false;
+    for (let i = 0; i < this.N; i++) if (!sameBits(this.hMeas[i]!, this.hTrue[i]!)) return false;
     return true;
   }
 
@@ -247,6 +247,11 @@ export class LoopCore {
 
   /** Net rotor torque at the recorded instant: the delivered (period-average) motor torque minus friction. */
   private netWheelTorque(): void {
+    if (!this.cfg.plant.friction.active) {
+      // No friction: held − (+0) is held itself, bit for bit (−0 too).
+      for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]!;
+      return;
+    }
     wheelFrictionTorqueAt(this.friction, this.wTrue, this.hTrue, this.cfg.plant);
     for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]! - this.friction[i]!;
   }
@@ -294,6 +299,11 @@ export class LoopCore {
     }
     if (this.cfg.shouldStop?.()) this.stopRequested = true;
   }
+}
+
+/** a and b are the same double (NaN never is: the caller then takes the general path). */
+function sameBits(a: number, b: number): boolean {
+  return a === b && (a !== 0 || 1 / a === 1 / b);
 }
 
 /** Renormalise the quaternion block of x after a step (true when it changed). */
