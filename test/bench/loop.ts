@@ -32,12 +32,16 @@ const median = (v: number[]): number => {
   return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
 };
 
-function timeIt(fn: () => void, reps: number): number[] {
+/** Wall-clock ms of each call; the process's CPU ms (user + system) of each call go to `cpu`. */
+function timeIt(fn: () => void, reps: number, cpu: number[]): number[] {
   const out: number[] = [];
   for (let r = 0; r < reps; r++) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     fn();
     out.push(performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
   }
   return out;
 }
@@ -255,10 +259,13 @@ export async function benchLoop(): Promise<void> {
   const tb: number[] = [],
     tl: number[] = [],
     tf: number[] = [];
+  const cb: number[] = [],
+    cl: number[] = [],
+    cf: number[] = [];
   for (let i = 0; i < REPS; i++) {
-    tb.push(...timeIt(() => bareLoop(inputs, record), 1));
-    tl.push(...timeIt(() => runClosedLoop(like), 1));
-    tf.push(...timeIt(() => runClosedLoop(fullCfg), 1));
+    tb.push(...timeIt(() => bareLoop(inputs, record), 1, cb));
+    tl.push(...timeIt(() => runClosedLoop(like), 1, cl));
+    tf.push(...timeIt(() => runClosedLoop(fullCfg), 1, cf));
   }
   const mb = median(tb),
     ml = median(tl),
@@ -274,6 +281,12 @@ export async function benchLoop(): Promise<void> {
   const goal = (ratio: number, g: number) => `${ratio.toFixed(2)}× (goal ≤ ${g}×: ${ratio <= g ? 'met' : 'not met'})`;
   console.log(`   ratio like for like / bare: ${goal(ml / mb, 1.5)}`);
   console.log(`   ratio full / bare:          ${goal(mf / mb, 3)}`);
+  // CPU time (user + system of this process, µs resolution) is less sensitive to other load than wall time.
+  const cpu = (v: number[]) => `${median(v).toFixed(2)} ms (min ${Math.min(...v).toFixed(2)})`;
+  console.log(`   CPU time per run, median: bare ${cpu(cb)}, like for like ${cpu(cl)}, full ${cpu(cf)}`);
+  console.log(
+    `   CPU-time ratios (median): like for like / bare ${(median(cl) / median(cb)).toFixed(2)}×, full / bare ${(median(cf) / median(cb)).toFixed(2)}×`,
+  );
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1]!).href) await benchLoop();

@@ -56,7 +56,15 @@ export abstract class QuaternionLawBase implements AttitudeController {
   }
 
   diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics {
-    const st = computeTracking(this.st, this.plant, input);
+    return this.diagnosticsFrom(out, computeTracking(this.st, this.plant, input), logic);
+  }
+
+  /** The tracking error the last torque call formed is still in this.st (torque writes only scratch after it). */
+  diagnosticsOfLastTorque(out: ControlDiagnostics, logic: number): ControlDiagnostics {
+    return this.diagnosticsFrom(out, this.st, logic);
+  }
+
+  private diagnosticsFrom(out: ControlDiagnostics, st: TrackingState, logic: number): ControlDiagnostics {
     const eta = st.qe[3]!;
     const s = this.sign(eta, logic);
     out.errorAngle = qAngle(st.qe);

@@ -105,6 +105,12 @@ export interface AttitudeController {
   /** Body torque request, N·m, written into out. */
   torque(out: Vec3, input: ControlInput, logic: number): Vec3;
   diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics;
+  /**
+   * Optional shortcut: `diagnostics` of the input the last `torque` call saw, from the tracking
+   * error that call formed (not formed again). The caller uses it only when the input's values are
+   * unchanged since; same bits as `diagnostics(out, thatInput, logic)`.
+   */
+  diagnosticsOfLastTorque?(out: ControlDiagnostics, logic: number): ControlDiagnostics;
 }
 
 export function makeDiagnostics(): ControlDiagnostics {

@@ -83,6 +83,13 @@ export class LoopCore {
   private readonly limitInfo = createLimitInfo();
   private readonly rec: PackedSample;
 
+  /**
+   * Set by the sampled loop when the law's last torque saw exactly the true state (no sensor
+   * error this sample): record() then takes the diagnostics from the tracking error the torque
+   * formed instead of forming it again (same bits). Cleared by record().
+   */
+  torqueSawTrueState = false;
+
   logic = NaN;
   logicJumps = 0;
   segment = -1;
@@ -163,6 +170,18 @@ export class LoopCore {
     for (let i = 0; i < this.N; i++) h[i] = x[7 + i]!;
   }
 
+  /** True when the measured state equals the true state bit for bit (−0 and +0 differ; NaN: false). */
+  measuredIsTrue(): boolean {
+    const qm = this.qMeas,
+      qt = this.qTrue,
+      wm = this.wMeas,
+      wt = this.wTrue;
+    for (let i = 0; i < 4; i++) if (!sameBits(qm[i]!, qt[i]!)) return false;
+    for (let i = 0; i < 3; i++) if (!sameBits(wm[i]!, wt[i]!)) return false;
+    for (let i = 0; i < this.N; i++) if (!sameBits(this.hMeas[i]!, this.hTrue[i]!)) return false;
+    return true;
+  }
+
   /** Load segment s's pointed axis from the reference (zeros for a full-attitude segment). */
   loadAxis(s: number): void {
     const a = this.ref.pointingAxes;
@@ -228,6 +247,11 @@ export class LoopCore {
 
   /** Net rotor torque at the recorded instant: the delivered (period-average) motor torque minus friction. */
   private netWheelTorque(): void {
+    if (!this.cfg.plant.friction.active) {
+      // No friction: held − (+0) is held itself, bit for bit (−0 too).
+      for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]!;
+      return;
+    }
     wheelFrictionTorqueAt(this.friction, this.wTrue, this.hTrue, this.cfg.plant);
     for (let i = 0; i < this.N; i++) this.wheelNet[i] = this.wheelHeld[i]! - this.friction[i]!;
   }
@@ -241,7 +265,10 @@ export class LoopCore {
     if (this.fault !== null) return;
     const diag = this.diag;
     // Diagnostics of the TRUE state: diag.errorAngle is the angle of q_ref* ⊗ q (control/types.ts).
-    this.ctrl.diagnostics(diag, this.trueInput, this.logic);
+    const ctrl = this.ctrl;
+    if (this.torqueSawTrueState && ctrl.diagnosticsOfLastTorque) ctrl.diagnosticsOfLastTorque(diag, this.logic);
+    else ctrl.diagnostics(diag, this.trueInput, this.logic);
+    this.torqueSawTrueState = false;
     bodyTorqueFromWheelTorque(this.tauBody, this.cfg.wheels, this.wheelHeld);
     this.netWheelTorque();
     const rec = this.rec;
@@ -272,6 +299,11 @@ export class LoopCore {
     }
     if (this.cfg.shouldStop?.()) this.stopRequested = true;
   }
+}
+
+/** a and b are the same double (NaN never is: the caller then takes the general path). */
+function sameBits(a: number, b: number): boolean {
+  return a === b && (a !== 0 || 1 / a === 1 / b);
 }
 
 /** Renormalise the quaternion block of x after a step (true when it changed). */

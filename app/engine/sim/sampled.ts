@@ -12,11 +12,9 @@
  * diagnostic: loop.ts record), stops at the last finite one and says where; a run that would pass
  * its step cap (cfg.maxSteps) stops there as 'max-steps'.
  */
-import { gyrostatDerivative } from '../body/gyrostat';
-import { equalStepCount, makeRk4Work, rk4Step } from '../hybrid/rk4';
-import type { FlowFn } from '../hybrid/types';
-import { allFinite } from '../math/arrays';
+import { equalStepCount } from '../hybrid/rk4';
 import { makeActuator } from './actuation';
+import { HeldGyrostatRk4 } from './heldRk4';
 import type { LoopEnd } from './closedLoop';
 import { fmtS, type LoopCore, projectQuaternion } from './loop';
 import { measure } from './sensors';
@@ -29,8 +27,8 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   const cfg = core.cfg;
   const Ts = core.Ts;
   const actuator = makeActuator(cfg.actuation, cfg.wheels, Ts);
-  const zero3 = new Float64Array(3);
-  const flow: FlowFn = (_t, x, dx) => gyrostatDerivative(dx, x, cfg.plant, core.wheelNow, zero3);
+  // Between two stops the wheel torques are held: RK4 written for the gyrostat (heldRk4.ts).
+  const stepper = new HeldGyrostatRk4(cfg.plant);
   let sampleIndex = 0;
 
   /** One controller sample at t: measure, switch, compute, allocate, hold. */
@@ -47,6 +45,7 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
     if (Number.isNaN(core.logic)) core.logic = core.ctrl.initialLogic(core.input);
     core.logicSteps(t, core.input);
     core.ctrl.torque(core.tauCmd, core.input, core.logic);
+    core.torqueSawTrueState = core.measuredIsTrue();
     core.actuate(Ts, core.wMeas, core.hMeas);
     actuator.start(t, core.wheelHeld, core.wheelNow);
     core.record(t);
@@ -57,7 +56,6 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
 
   let x = Float64Array.from(x0);
   let xNew = new Float64Array(x.length);
-  const work = makeRk4Work(x.length);
   const dt = Ts / Math.max(1, Math.round(cfg.rk4StepsPerSample));
   const tEnd = cfg.tEnd;
   const maxSteps = cfg.maxSteps ?? DEFAULT_MAX_STEPS;
@@ -94,11 +92,10 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
         x,
       };
     steps += m;
+    stepper.hold(core.wheelNow);
     for (let i = 0; i < m; i++) {
       const ti = t0 + i * h;
-      flow(ti, x, work.k1);
-      rk4Step(xNew, flow, ti, x, h, work, true);
-      if (!allFinite(xNew))
+      if (!stepper.step(xNew, x, h))
         return {
           status: 'non-finite',
           message: `the state became non-finite in the RK4 step from t = ${fmtS(ti)} s; the run ends at the last finite state`,

@@ -25,6 +25,10 @@ const lpA = new Float64Array(2 * MAX_WHEELS * (2 * K_MAX + 1));
 const lpB = new Float64Array(2 * MAX_WHEELS);
 const lpC = new Float64Array(2 * K_MAX + 1);
 const lpZ = new Float64Array(2 * K_MAX + 1);
+/** One-null-vector scratch: weight w_i, centre c_i, and 1 when wheel i has a null component. */
+const oneW = new Float64Array(MAX_WHEELS);
+const oneC = new Float64Array(MAX_WHEELS);
+const oneFree = new Uint8Array(MAX_WHEELS);
 
 function finite3(v: ArrayLike<number>): boolean {
   return Number.isFinite(v[0]) && Number.isFinite(v[1]) && Number.isFinite(v[2]);
@@ -69,28 +73,37 @@ export function allocateMinMaxLp(out: Float64Array, arr: WheelArray, bodyTorque:
  * candidate α_ij with the smallest actual f is the optimum too, and stays right when pair values
  * tie to rounding. With equal w this is α = (min c + max c)/2,
  * which for ν_i = ±1 (c_i = −ν_i x_i) is the form in the project's methods note:
- * α = −(min_i ν_i x_i + max_i ν_i x_i)/2. Exact; O(n³) as each pair's α is checked (n = 4 here).
+ * α = −(min_i ν_i x_i + max_i ν_i x_i)/2. Exact; O(n³) as each pair's α is checked (n = 4 here;
+ * a check stops as soon as its candidate cannot beat the best so far).
  */
 function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
   const n = arr.n;
   const nu = arr.nullBasis;
   const l = arr.maxTorqueNm;
-  let bestPeak = Infinity;
-  let alpha = 0;
+  // Each wheel's weight and centre once (the pair loop used to form w_j, c_j again for every i).
   let firstFree = -1;
   for (let i = 0; i < n; i++) {
-    if (Math.abs(nu[i]!) <= 1e-14) continue;
+    const free = !(Math.abs(nu[i]!) <= 1e-14);
+    oneFree[i] = free ? 1 : 0;
+    if (!free) continue;
     if (firstFree < 0) firstFree = i;
-    const wi = Math.abs(nu[i]!) / l[i]!;
-    const ci = -out[i]! / nu[i]!;
+    oneW[i] = Math.abs(nu[i]!) / l[i]!;
+    oneC[i] = -out[i]! / nu[i]!;
+  }
+  let bestPeak = Infinity;
+  let alpha = 0;
+  for (let i = 0; i < n; i++) {
+    if (oneFree[i] === 0) continue;
+    const wi = oneW[i]!;
+    const ci = oneC[i]!;
     for (let j = i + 1; j < n; j++) {
-      if (Math.abs(nu[j]!) <= 1e-14) continue;
-      const wj = Math.abs(nu[j]!) / l[j]!;
-      const cj = -out[j]! / nu[j]!;
+      if (oneFree[j] === 0) continue;
+      const wj = oneW[j]!;
+      const cj = oneC[j]!;
       const a = (wi * ci + wj * cj) / (wi + wj);
       // Judge each candidate by its actual peak rather than by the pair value: when two pair
       // values tie to rounding (a wheel with a tiny null component), the argmax pair is ill-defined.
-      const peak = peakWith(out, nu, l, n, a);
+      const peak = peakWith(out, nu, l, n, a, bestPeak);
       if (peak < bestPeak) {
         bestPeak = peak;
         alpha = a;
@@ -102,9 +115,16 @@ function minMaxOneDim(out: Float64Array, arr: WheelArray): Float64Array {
   return out;
 }
 
-function peakWith(x: Float64Array, nu: Float64Array, l: Float64Array, n: number, a: number): number {
+/**
+ * max_i |x_i + ν_i a| / l_i, or any value ≥ `bound` as soon as the running maximum reaches it
+ * (the candidate then cannot beat the best so far; the choice is the same as with the full max).
+ */
+function peakWith(x: Float64Array, nu: Float64Array, l: Float64Array, n: number, a: number, bound: number): number {
   let p = 0;
-  for (let i = 0; i < n; i++) p = Math.max(p, Math.abs(x[i]! + nu[i]! * a) / l[i]!);
+  for (let i = 0; i < n; i++) {
+    p = Math.max(p, Math.abs(x[i]! + nu[i]! * a) / l[i]!);
+    if (p >= bound) return p;
+  }
   return p;
 }
 
