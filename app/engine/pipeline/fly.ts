@@ -13,6 +13,7 @@ import type { Actuation, RunMode } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
 import { SettleWatch } from '../metrics/settle';
 import { pointingAxesOf } from './pointing';
+import type { SampleSink } from '../sim/sink';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
@@ -35,6 +36,8 @@ export interface Flight {
   shouldStop?: () => boolean;
   /** RK4 steps after which the run stops as truncated (budget.ts runStepCap); absent: the loop's default. */
   maxSteps?: number;
+  /** Samples to this sink instead of the trace (sim/sink.ts; a study case's online metrics). */
+  sink?: SampleSink;
 }
 
 /** Stage 5: fly. */
@@ -60,6 +63,7 @@ export function fly(f: Flight): ClosedLoopResult {
     stopRule: f.earlyStop ? new SettleWatch(f.earlyStop.angleRad, f.earlyStop.rateRadPerS, f.earlyStop.settledForS) : undefined,
     shouldStop: f.shouldStop,
     ...(f.maxSteps !== undefined ? { maxSteps: f.maxSteps } : {}),
+    ...(f.sink ? { sink: f.sink } : {}),
   });
 }
 
