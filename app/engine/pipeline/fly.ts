@@ -13,6 +13,7 @@ import type { Actuation, RunMode, RunTrace } from '../sim/types';
 import type { BuiltController, Vehicle } from './types';
 import { SettleWatch } from '../metrics/settle';
 import { pointingAxesOf } from './pointing';
+import type { SampleSink } from '../sim/sink';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
@@ -37,6 +38,8 @@ export interface Flight {
   maxSteps?: number;
   /** Record the trace into this reused memory (sim/trace.ts traceArena); absent: new arrays. */
   traceArena?: RunTrace;
+  /** Samples to this sink instead of the trace (sim/sink.ts; a study case's online metrics). */
+  sink?: SampleSink;
 }
 
 /** Stage 5: fly. */
@@ -63,6 +66,7 @@ export function fly(f: Flight): ClosedLoopResult {
     shouldStop: f.shouldStop,
     ...(f.maxSteps !== undefined ? { maxSteps: f.maxSteps } : {}),
     ...(f.traceArena ? { traceArena: f.traceArena } : {}),
+    ...(f.sink ? { sink: f.sink } : {}),
   });
 }
 

@@ -5,7 +5,7 @@
  */
 import { symmetricEigen3 } from '../math/mat3';
 import { CHATTER_FLOOR_FRACTION } from '../metrics/chatter';
-import { computeMetrics, type RunMetrics } from '../metrics/metrics';
+import { computeMetrics, type MetricOptions, type RunMetrics } from '../metrics/metrics';
 import { lyapunovMonitor, type MonitorFlag } from '../metrics/monitor';
 import { plannedSwitchTimes } from '../plan/reference';
 import { trackingSwitchTimes } from '../sim/trackingReference';
@@ -59,7 +59,12 @@ export interface MetricContext {
 
 /** Metrics of a flown run with the scenario's settle thresholds and the wheels' own limits. */
 export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }, m: MetricContext, liftDependent = true): RunMetrics {
-  return computeMetrics(res.trace, res.jumps, {
+  return computeMetrics(res.trace, res.jumps, metricOptionsOf(m, liftDependent));
+}
+
+/** The metric options of a run (the trace path above and the online one, pipeline/flyOnline.ts). */
+export function metricOptionsOf(m: MetricContext, liftDependent = true): MetricOptions {
+  return {
     settleAngleRad: m.settleAngleRad,
     settleRateRadPerS: m.settleRateRadPerS,
     chatterWindowS: CHATTER_WINDOW_S,
@@ -72,7 +77,7 @@ export function runMetrics(res: { trace: RunTrace; jumps: readonly JumpEvent[] }
     liftDependent,
     movingTargets: m.movingTargets ?? false,
     ...(m.segmentAxes ? { segmentAxes: m.segmentAxes } : {}),
-  });
+  };
 }
 
 /**

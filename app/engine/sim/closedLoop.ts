@@ -24,6 +24,7 @@ import { LoopCore } from './loop';
 import { runSampled } from './sampled';
 import { runIdeal } from './ideal';
 import type { Actuation, JumpEvent, RunOutcome, RunStatus, RunTrace } from './types';
+import type { SampleSink } from './sink';
 
 export type { Actuation } from './types';
 
@@ -91,6 +92,8 @@ export interface ClosedLoopConfig {
   shouldStop?: () => boolean;
   /** Record into this memory (sim/trace.ts traceArena), which the next run will overwrite; absent: new arrays. */
   traceArena?: RunTrace;
+  /** Every recorded sample goes here instead of the trace (sink.ts); the result's trace is then empty. */
+  sink?: SampleSink;
 }
 
 export interface ClosedLoopResult {
@@ -123,7 +126,8 @@ export function runClosedLoop(cfg: ClosedLoopConfig): ClosedLoopResult {
   // Last state: record it if the run did not end exactly on a sample, against the reference at
   // that time (not the last sample's), so the final error is the error at the end.
   const tr = core.builder.trace;
-  if (core.fault === null && (tr.n === 0 || end.t > tr.t[tr.n - 1]! + 1e-9)) {
+  const n = core.sink ? core.sink.count : tr.n;
+  if (core.fault === null && (n === 0 || end.t > (core.sink ? core.sink.lastT : tr.t[n - 1]!) + 1e-9)) {
     core.unpack(end.x);
     core.segment = core.ref.at(end.t, core.qRef, core.wRef, core.wdRef);
     core.loadAxis(core.segment);

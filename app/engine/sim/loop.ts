@@ -29,6 +29,7 @@ import {
 } from './trace';
 import type { JumpEvent } from './types';
 import { firstNonFinite } from './finite';
+import type { SampleSink } from './sink';
 
 /**
  * Samples a trace starts with; it grows by doubling, never past the run's expected sample count
@@ -53,6 +54,8 @@ export class LoopCore {
   readonly jumps: JumpEvent[] = [];
   readonly maxPerInstant: number;
   readonly stopRule: StopRule | null;
+  /** Takes the samples instead of the trace (sink.ts); null: the trace records them. */
+  readonly sink: SampleSink | null;
 
   readonly qRef = new Float64Array(4);
   readonly wRef = new Float64Array(3);
@@ -109,6 +112,7 @@ export class LoopCore {
     this.rng = makeRng(cfg.seed, cfg.stream ?? 0);
     this.maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
     this.stopRule = cfg.stopRule ?? null;
+    this.sink = cfg.sink ?? null;
     this.hTrue = new Float64Array(N);
     this.hMeas = new Float64Array(N);
     this.wheelCmd = new Float64Array(N);
@@ -137,7 +141,9 @@ export class LoopCore {
     };
     const samples = Math.ceil(cfg.tEnd / this.Ts) + 8;
     const upFront = samples <= WHOLE_TRACE_UP_FRONT || this.stopRule === null;
-    this.builder = new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples, cfg.traceArena);
+    this.builder = this.sink
+      ? new TraceBuilder(N, 0)
+      : new TraceBuilder(N, upFront ? samples : INITIAL_TRACE_CAPACITY, samples, cfg.traceArena);
     this.rec = {
       j: 0,
       segment: 0,
@@ -282,7 +288,7 @@ export class LoopCore {
     x[PACKED_POTENTIAL_MIN] = diag.potentialMin;
     x[PACKED_GAP] = diag.gap;
     x[PACKED_LYAPUNOV] = diag.lyapunov;
-    if (!this.builder.pushPackedIfFinite(rec)) {
+    if (!(this.sink ? this.sink.push(rec) : this.builder.pushPackedIfFinite(rec))) {
       const bad = firstNonFinite(rec) ?? 'a value became non-finite';
       this.fault = `${bad} at t = ${fmtS(t)} s; the run stops there and its trace ends at the last finite sample`;
       this.stopRequested = true;

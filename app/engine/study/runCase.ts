@@ -14,6 +14,10 @@ import { disperseScenario } from './disperse';
 import type { CaseDraw } from './sample';
 import { drawCase } from './sample';
 import { caseTarget } from './pointingCase';
+import { flyOnline, onlineFlightPossible, type OnlineRun } from '../pipeline/flyOnline';
+import type { RunMetrics } from '../metrics/metrics';
+import type { ErrorGrid } from '../metrics/online';
+import type { RunConstraintReport } from '../pipeline/constraints';
 
 /** Samples of the decimated error-angle trace kept for every run (fixed grid over durationS). */
 export const TRACE_SAMPLES = 120;
@@ -98,40 +102,43 @@ export function prepareCase(ctx: StudyContext, index: number): PreparedCase {
 
 const qe = new Float64Array(4);
 
-/** Scalar part of q_target* ⊗ q at trace sample k. */
-function etaAt(q: Float64Array, k: number, target: Float64Array): number {
-  qConjMultiply(qe, target, q.subarray(4 * k, 4 * k + 4));
-  return qe[3]!;
+/** What a study row is made of, from a trace (caseRunOf) or from the online recorder (caseRunOnline). */
+interface RowParts {
+  controllerId: string;
+  status: CaseStatus;
+  /** The outcome's message (the reason of a failed run). */
+  message: string;
+  metrics: RunMetrics;
+  /** Samples recorded, the last one's time and attitude (null when none). */
+  n: number;
+  endS: number;
+  lastQ: ArrayLike<number> | null;
+  /** Error angle, rad, at the first `gridCount` grid times (TRACE_SAMPLES over durationS). */
+  gridRad: ArrayLike<number>;
+  gridCount: number;
+  constraints?: RunConstraintReport;
 }
 
-/** One flown case run → its study row. */
-export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): CaseRun {
-  const m = run.metrics;
-  const tr = run.trace;
-  const n = tr.n;
-  const status: CaseStatus = run.verdict.kind;
+/** The error-angle grid of a study row: TRACE_SAMPLES times k·durationS/(TRACE_SAMPLES − 1). */
+export function caseErrorGrid(ctx: StudyContext): ErrorGrid {
+  return { stepS: ctx.def.durationS / (TRACE_SAMPLES - 1), count: TRACE_SAMPLES };
+}
+
+function caseRunFromParts(ctx: StudyContext, d: CaseDraw, p: RowParts): CaseRun {
+  const m = p.metrics;
+  const status = p.status;
   // a roll-free target is the reduced one from the case's own start (pointingCase.ts)
   const target = ctx.prepared.scenario.targets[0]?.pointingOnly
     ? caseTarget(ctx.prepared.scenario.targets[0], d.q0).qInertialFromBody
     : ctx.target;
-  const finalEta = n > 0 ? etaAt(tr.q, n - 1, target) : d.errorEta;
-  // Decimate: the first trace sample at or after each grid time.
-  const M = TRACE_SAMPLES;
-  const trace = new Float32Array(M);
-  const dtGrid = ctx.def.durationS / (M - 1);
-  let count = 0;
-  for (let k = 0, i = 0; k < M && n > 0; k++) {
-    const tk = k * dtGrid;
-    if (tk > tr.t[n - 1]! + 1e-9) break;
-    while (i < n - 1 && tr.t[i]! < tk - 1e-9) i++;
-    trace[k] = tr.errorAngle[i]! * DEG_PER_RAD;
-    count = k + 1;
-  }
+  const finalEta = p.n > 0 && p.lastQ ? qConjMultiply(qe, target, p.lastQ)[3]! : d.errorEta;
+  const trace = new Float32Array(TRACE_SAMPLES);
+  for (let k = 0; k < p.gridCount; k++) trace[k] = p.gridRad[k]! * DEG_PER_RAD;
   const finite = (x: number) => (Number.isFinite(x) ? x : 0);
   return {
-    controllerId: run.controllerId,
+    controllerId: p.controllerId,
     status,
-    reason: status === 'failed' ? run.outcome.message : '',
+    reason: status === 'failed' ? p.message : '',
     settleTimeS: m.settleTimeS,
     rotationTravelledDeg: finite(m.rotationTravelledRad * DEG_PER_RAD),
     shortestRotationDeg: finite(m.shortestRotationRad * DEG_PER_RAD),
@@ -145,13 +152,59 @@ export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): C
     peakWheelMomentumFraction: finite(m.peakWheelMomentumFraction),
     finalErrorDeg: finite(m.finalErrorRad * DEG_PER_RAD),
     finalEta: finite(finalEta),
-    endS: n > 0 ? tr.t[n - 1]! : 0,
+    endS: p.n > 0 ? p.endS : 0,
     errorTraceDeg: trace,
-    traceCount: count,
-    ...(run.constraints
-      ? { constraintViolated: !run.constraints.clear, constraintMarginDeg: finite(run.constraints.minimumMarginRad * DEG_PER_RAD) }
+    traceCount: p.gridCount,
+    ...(p.constraints
+      ? { constraintViolated: !p.constraints.clear, constraintMarginDeg: finite(p.constraints.minimumMarginRad * DEG_PER_RAD) }
       : {}),
   };
+}
+
+/** One flown case run → its study row. */
+export function caseRunOf(ctx: StudyContext, d: CaseDraw, run: ControllerRun): CaseRun {
+  const tr = run.trace;
+  const n = tr.n;
+  // Decimate: the first trace sample at or after each grid time.
+  const M = TRACE_SAMPLES;
+  const gridRad = new Float64Array(M);
+  const dtGrid = ctx.def.durationS / (M - 1);
+  let count = 0;
+  for (let k = 0, i = 0; k < M && n > 0; k++) {
+    const tk = k * dtGrid;
+    if (tk > tr.t[n - 1]! + 1e-9) break;
+    while (i < n - 1 && tr.t[i]! < tk - 1e-9) i++;
+    gridRad[k] = tr.errorAngle[i]!;
+    count = k + 1;
+  }
+  return caseRunFromParts(ctx, d, {
+    controllerId: run.controllerId,
+    status: run.verdict.kind,
+    message: run.outcome.message,
+    metrics: run.metrics,
+    n,
+    endS: n > 0 ? tr.t[n - 1]! : 0,
+    lastQ: n > 0 ? tr.q.subarray(4 * (n - 1), 4 * n) : null,
+    gridRad,
+    gridCount: count,
+    ...(run.constraints ? { constraints: run.constraints } : {}),
+  });
+}
+
+/** A case run flown with its metrics computed as it went (pipeline/flyOnline.ts) → the same study row as caseRunOf. */
+export function caseRunOnline(ctx: StudyContext, d: CaseDraw, run: OnlineRun): CaseRun {
+  const r = run.recorder;
+  return caseRunFromParts(ctx, d, {
+    controllerId: run.controllerId,
+    status: run.verdict.kind,
+    message: run.outcome.message,
+    metrics: run.metrics,
+    n: r.count,
+    endS: r.lastT,
+    lastQ: r.count > 0 ? r.lastQ : null,
+    gridRad: r.gridErrorRad,
+    gridCount: r.gridFilled,
+  });
 }
 
 function unflyableRun(c: Pick<BuiltController, 'id'>, reason: string): CaseRun {
@@ -178,15 +231,32 @@ function unflyableRun(c: Pick<BuiltController, 'id'>, reason: string): CaseRun {
   };
 }
 
+export interface RunCaseOptions {
+  /**
+   * Summarise runs as they fly, without a trace, where the scenario allows it (default true;
+   * false: always the trace path; both give the same rows, test/property/metrics-online.test.ts).
+   */
+  online?: boolean;
+}
+
 /**
  * Run case `index` for every selected controller. Returns null when `shouldStop` interrupted it
  * (a half-run case is never reported).
  */
-export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boolean): CaseRecord | null {
+export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boolean, options: RunCaseOptions = {}): CaseRecord | null {
   const pc = prepareCase(ctx, index);
   if (!pc.ok) return { draw: pc.draw, runs: ctx.controllers.map((c) => unflyableRun(c, pc.reason)) };
   const runs: CaseRun[] = [];
+  // Without constraints or orbit tracking a row needs only the metrics: fly without a trace.
+  const online = (options.online ?? true) && onlineFlightPossible(pc.prepared);
+  const grid = caseErrorGrid(ctx);
   for (const c of pc.prepared.controllers) {
+    if (online) {
+      const run = flyOnline(pc.prepared, c, ctx.def.mode, grid, shouldStop);
+      if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
+      runs.push(caseRunOnline(ctx, pc.draw, run));
+      continue;
+    }
     const run = flyAndSummarise(pc.prepared, c, ctx.def.mode, { shouldStop, monitor: false, constraintSeries: false });
     if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
     runs.push(caseRunOf(ctx, pc.draw, run));
