@@ -13,7 +13,7 @@
  * afterok) and the job ids printed. Exit 0, 2 invalid input (naming the option), 1 a failed write
  * or a refused sbatch.
  */
-import { chmod, mkdir } from 'node:fs/promises';
+import { chmod, mkdir, readdir } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { ParsedArgs } from './args';
@@ -25,7 +25,7 @@ import { sweepDefinitionOf, sweepOptionParts } from './sweep';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import { cellCount } from '../../app/engine/study/sweep';
 import { sweepInfo } from '../../app/engine/study/sweepRun';
-import { sweepShardCells } from '../../app/engine/study/sweepShard';
+import { sweepShardCells, SWEEP_SHARD_EXTENSION } from '../../app/engine/study/sweepShard';
 import { CAMPAIGN_SCENARIO, CAMPAIGN_SHARDS, campaignSubmitScript } from '../../app/engine/study/campaignFolder';
 
 const BIN = fileURLToPath(new URL('../../bin/slewsmith.mjs', import.meta.url));
@@ -215,6 +215,12 @@ export async function runSweepSlurm(doc: { json: unknown; text: string }, a: Par
     io.err(`error: could not create folders in ${dir}: ${(e as Error).message}`);
     return 1;
   }
+  // The merge reads every shard file in shards/: files of an earlier campaign there would be refused with these.
+  const old = (await readdir(path.join(dir, CAMPAIGN_SHARDS)).catch(() => [] as string[])).filter((f) => f.endsWith(SWEEP_SHARD_EXTENSION));
+  if (old.length)
+    io.err(
+      `warning: ${path.join(dir, CAMPAIGN_SHARDS)} already holds ${old.length} shard file${old.length === 1 ? '' : 's'} of an earlier run; the merge reads every one there, so remove them before submitting unless they are this campaign's`,
+    );
   const files: [string, string, boolean][] = [
     [path.join(dir, CAMPAIGN_SCENARIO), doc.text, false],
     [path.join(dir, 'README.txt'), readme, false],

@@ -163,6 +163,12 @@ describe('slewsmith sweep slurm: the campaign folder', () => {
     expect(m.stderr).toContain('merged 3 shards: 8 cells');
     for (const f of ['cells.csv', 'sweep.json']) expect(await read(campaign, f), f).toBe(await read(single, f));
   }, 240_000);
+
+  it('written again over a folder holding shard files: a warning says the merge would read them', async () => {
+    const r = await runInProcess(['sweep', 'slurm', scenario, ...SWEEP, '--shards', '2', '--out', campaign]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain(`warning: ${path.join(campaign, 'shards')} already holds 3 shard files of an earlier run`);
+  });
 });
 
 describe('slewsmith sweep slurm --submit', () => {
