@@ -19,6 +19,7 @@ export { runCompare, runFly } from './fly';
 export { runStudyCli } from './study';
 export { runSweepCli } from './sweep';
 export { runSweepMerge } from './sweep-campaign';
+export { runSweepSlurm } from './sweep-slurm';
 export { runStudyMerge, runStudySlurm } from './study-campaign';
 
 export async function runCheck(file: string, json: unknown, { io }: CliContext): Promise<number> {

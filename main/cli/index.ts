@@ -7,7 +7,7 @@
  *   slewsmith compare <scenario>            the metrics table of every controller
  *   slewsmith certify <scenario>            the synergy-gap certificate of synergistic controllers
  *   slewsmith study   <scenario>            seeded Monte Carlo robustness study (also: study merge, study slurm)
- *   slewsmith sweep   <scenario>            robustness sweep: one or two study parameters on a grid, a study per cell
+ *   slewsmith sweep   <scenario>            robustness sweep: one or two study parameters on a grid, a study per cell (also: sweep merge, sweep slurm)
  *   slewsmith schema                        the scenario format as JSON Schema
  *
  * Exit codes: 0 success; 2 invalid input or options (every problem named, field by field, on
@@ -196,7 +196,8 @@ const commands: Record<string, Command> = {
     summary: 'robustness sweep: one or two study parameters on a grid, each cell a seeded study; settle-share maps with their boundary',
     usage:
       'slewsmith sweep <scenario.json> --param NAME=lo:hi:steps [--param2 NAME=v1,v2,...] --runs N [--controller id,...] [--workers K] [--seed S] [--level L] [--out DIR] [--shard i/K]\n' +
-      '       slewsmith sweep merge <shard file|folder>... [--out DIR]',
+      '       slewsmith sweep merge <shard file|folder>... [--out DIR]\n' +
+      '       slewsmith sweep slurm <scenario.json> --param ... [--param2 ...] --runs N [--controller id,...] [--seed S] [--level L] --shards K --out DIR [--cpus-per-task N] [--mem-mb M] [--time-min T] [--partition P] [--account A] [--submit]',
     options: [
       HELP,
       CONTROLLER,
@@ -218,13 +219,25 @@ const commands: Record<string, Command> = {
         valueName: 'i/K',
         help: 'run only shard i of K (a contiguous range of the cells) and write its shard file into --out (merge with "sweep merge")',
       },
+      { name: 'shards', kind: 'value', valueName: 'K', help: 'sweep slurm: array tasks (shards), at most the number of cells' },
+      { name: 'cpus-per-task', kind: 'value', valueName: 'N', help: 'sweep slurm: CPUs (worker threads) per array task (default 1)' },
+      { name: 'mem-mb', kind: 'value', valueName: 'M', help: 'sweep slurm: memory per array task, MiB (default 1024)' },
+      { name: 'time-min', kind: 'value', valueName: 'T', help: 'sweep slurm: time limit per array task, minutes (default 60)' },
+      { name: 'partition', kind: 'value', valueName: 'P', help: 'sweep slurm: Slurm partition' },
+      { name: 'account', kind: 'value', valueName: 'A', help: 'sweep slurm: Slurm account' },
+      { name: 'submit', kind: 'flag', help: 'sweep slurm: submit the array and the merge job with sbatch and print their ids' },
     ],
     notes: [
       'sweep merge: combine the shard files of one sweep into cells.csv and sweep.json, the same bytes as one process running every cell.',
+      'sweep slurm: write a campaign folder (scenario, job-array and merge scripts, README.txt) whose merge job writes the same cells.csv and sweep.json as one process; --submit calls sbatch.',
       "Each cell is the scenario's study (its dispersions, duration and settle rules) with the cell's values written in; exit 130 after Ctrl-C keeps the finished cells.",
     ],
     async run(a, { io }) {
       if (a.positional[0] === 'merge') return (await work()).runSweepMerge(a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
+      if (a.positional[0] === 'slurm') {
+        const doc = await readScenario(a.positional[1], io);
+        return doc === null ? 2 : (await work()).runSweepSlurm(doc, a, io);
+      }
       const doc = await readScenario(a.positional[0], io);
       return doc === null ? 2 : (await work()).runSweepCli(doc.json, a, io, `${TOOL_NAME} ${TOOL_VERSION}`);
     },

@@ -123,7 +123,12 @@ export function sweepTextMap(r: SweepResult): string {
   return out.join('\n');
 }
 
-export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo, tool = 'Slewsmith'): Promise<number> {
+/** The number options, the axes and the messages of `sweep` and `sweep slurm` (before the sweep is validated). */
+export function sweepOptionParts(a: ParsedArgs): {
+  values: Partial<Record<keyof typeof SWEEP_LIMITS, number>>;
+  axes: SweepAxisSpec[];
+  messages: string[];
+} {
   const n = numberOptions(a.values, SWEEP_LIMITS);
   const messages = n.ok ? [] : n.messages;
   const axes: SweepAxisSpec[] = [];
@@ -136,27 +141,49 @@ export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
   }
   if (a.values.param === undefined) messages.push('--param NAME=lo:hi:steps is required (the parameter to sweep)');
   if (a.values.runs === undefined) messages.push('--runs N is required (cases per grid cell)');
-  const shardText = a.values.shard;
-  const shard = shardText === undefined ? null : parseShardSpec(shardText);
-  if (typeof shard === 'string') messages.push(shard);
-  else if (shard && a.values.out === undefined) messages.push('--shard needs --out DIR (the folder the shard file is written to)');
-  if (messages.length || !n.ok) {
-    for (const m of messages) io.err(`error: ${m}`);
-    return 2;
-  }
-  const v = n.values;
+  return { values: n.ok ? n.values : {}, axes, messages };
+}
+
+/** The sweep definition of the options, or one message per problem naming its option. */
+export function sweepDefinitionOf(
+  a: ParsedArgs,
+  parts: ReturnType<typeof sweepOptionParts>,
+): { ok: true; def: SweepDefinition } | { ok: false; messages: string[] } {
+  const v = parts.values;
   const d = validateSweep({
-    axes,
+    axes: parts.axes,
     runs: v.runs!,
     seed: v.seed ?? 0,
     controllers: a.lists.controller ?? null,
     level: v.level ?? DEFAULT_LEVEL,
   });
-  if (!d.ok) {
-    for (const e of d.errors) io.err(`error: ${optionOf(e)}: ${e.message}`);
+  return d.ok ? { ok: true, def: d.value } : { ok: false, messages: d.errors.map((e) => `${optionOf(e)}: ${e.message}`) };
+}
+
+/** Options of `sweep slurm` only. */
+export const SWEEP_SLURM_ONLY = ['shards', 'cpus-per-task', 'mem-mb', 'time-min', 'partition', 'account'] as const;
+
+export async function runSweepCli(json: unknown, a: ParsedArgs, io: CliIo, tool = 'Slewsmith'): Promise<number> {
+  const parts = sweepOptionParts(a);
+  const messages = parts.messages;
+  for (const o of SWEEP_SLURM_ONLY)
+    if (a.values[o] !== undefined) messages.push(`--${o} is an option of "sweep slurm" (the campaign writer), not of a sweep run`);
+  if (a.flags.has('submit')) messages.push('--submit is an option of "sweep slurm" (the campaign writer), not of a sweep run');
+  const shardText = a.values.shard;
+  const shard = shardText === undefined ? null : parseShardSpec(shardText);
+  if (typeof shard === 'string') messages.push(shard);
+  else if (shard && a.values.out === undefined) messages.push('--shard needs --out DIR (the folder the shard file is written to)');
+  if (messages.length) {
+    for (const m of messages) io.err(`error: ${m}`);
     return 2;
   }
-  const def = d.value;
+  const v = parts.values;
+  const d = sweepDefinitionOf(a, parts);
+  if (!d.ok) {
+    for (const m of d.messages) io.err(`error: ${m}`);
+    return 2;
+  }
+  const def = d.def;
   const outDir = a.values.out;
   if (outDir !== undefined) {
     const ready = await prepareOutputFolder(outDir, '--out');

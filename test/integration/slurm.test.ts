@@ -14,6 +14,10 @@
  * the bundled tern12-reversal example and submits it (--submit: sbatch for the 20-task array and
  * the afterok merge job); the merged cases.csv and summary.json must equal, byte for byte, those
  * of `slewsmith study` run in one process with the same seed.
+ *
+ * The sweep campaign: `slewsmith sweep slurm --submit` for an 8-cell robustness sweep in 3 array
+ * tasks and the afterok merge job; the merged cells.csv and sweep.json must equal, byte for byte,
+ * those of `slewsmith sweep` run in one process with the same options.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -31,6 +35,7 @@ import {
 } from './slurm-cluster';
 import { submitCampaign, type CampaignSlurmSpec } from '../../main/cli/slurm';
 import { campaignReport, campaignState, stateToJson } from './campaign-fixture';
+import { mstScenario } from '../reference/sweep-fixtures';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const TASK = path.join(here, 'slurm-tasks/campaign-task.mjs');
@@ -42,6 +47,8 @@ const SEED = 60613;
 const BIN = path.join(here, '../../bin/slewsmith.mjs');
 const EXAMPLE = path.join(here, '../../assets/tern12-reversal.scenario.json');
 const REAL = { runs: 2000, shards: 20, seed: 60614 };
+/** The sweep campaign: the invented MST-setting vehicle of test/reference/sweep-fixtures.ts, 4 × 2 cells in 3 array tasks. */
+const SWEEP = { cells: 8, shards: 3 };
 
 /** Run node with these arguments; its exit code and output. */
 function node(args: string[], env: NodeJS.ProcessEnv): Promise<{ code: number; out: string; err: string }> {
@@ -244,6 +251,75 @@ describe.skipIf(skip)('Slurm job arrays on a one-node cluster', () => {
     expect(summary.summary.casesDone).toBe(REAL.runs);
     expect(summary.summary.controllers[0].shares.unwound.of).toBe(summary.summary.controllers[0].flyable);
   }, 900_000);
+
+  it(`a sweep campaign: ${SWEEP.shards} array tasks of an ${SWEEP.cells}-cell sweep and the merge job give the one-process sweep byte for byte`, async () => {
+    const c = cluster!;
+    const campaign = path.join(work, 'sweep campaign');
+    const refDir = path.join(work, 'sweep single process');
+    const scenario = path.join(work, 'mst sweep.scenario.json');
+    const base = mstScenario({ controlRateHz: 100, rk4StepsPerSample: 10, durationS: 20, hysteresis: 0.4, noiseMode: 'band-edge' });
+    const json = {
+      ...base,
+      simulation: { ...base.simulation, settleAngleDeg: 60, settleRateDegPerS: 20 },
+      study: { ...base.study, dispersions: { initialAttitude: { mode: 'near-reversal', withinDeg: 1 } } },
+    };
+    writeFileSync(scenario, JSON.stringify(json, null, 2) + '\n');
+    const sweep = ['--param', 'worst-case-eta=0.05,0.15,0.25,0.35', '--param2', 'hysteresis=0.1,0.3', '--runs', '2', '--seed', '11'];
+    const sub = await node(
+      [
+        BIN,
+        'sweep',
+        'slurm',
+        scenario,
+        ...sweep,
+        '--shards',
+        String(SWEEP.shards),
+        '--out',
+        campaign,
+        '--mem-mb',
+        '400',
+        '--time-min',
+        '15',
+        '--submit',
+      ],
+      c.env,
+    );
+    expect(sub.code, sub.err).toBe(0);
+    const arrayJobId = /shard array job: (\d+)/.exec(sub.out)?.[1];
+    const mergeJobId = /merge job: (\d+)/.exec(sub.out)?.[1];
+    expect(arrayJobId && mergeJobId, sub.out).toBeTruthy();
+    expect(readFileSync(path.join(campaign, 'slurm', 'shards.sbatch'), 'utf8')).toContain(`#SBATCH --array=0-${SWEEP.shards - 1}\n`);
+    expect(readFileSync(path.join(campaign, 'slurm', 'merge.sbatch'), 'utf8')).toContain(`#SBATCH --dependency=afterok:${arrayJobId}`);
+
+    const [jobs, ref] = await Promise.all([
+      c.waitFor([arrayJobId!, mergeJobId!], 300_000),
+      node([BIN, 'sweep', scenario, ...sweep, '--workers', '1', '--out', refDir], process.env),
+    ]);
+    expect(ref.code, ref.err).toBe(0);
+    const logs = () =>
+      readdirSync(path.join(campaign, 'logs'))
+        .map((f) => `--- ${f}\n${readFileSync(path.join(campaign, 'logs', f), 'utf8')}`)
+        .join('\n');
+    const states = jobs
+      .get(arrayJobId!)!
+      .map((t) => `${t.arrayTaskId}:${t.state}:${t.exitCode}`)
+      .sort();
+    const want = Array.from({ length: SWEEP.shards }, (_, i) => `${i}:COMPLETED:0:0`).sort();
+    if (JSON.stringify(states) !== JSON.stringify(want)) throw new Error(`sweep shard tasks: ${states.join(', ')}\n${logs()}`);
+    expect(
+      jobs.get(mergeJobId!)!.map((j) => j.state),
+      logs(),
+    ).toEqual(['COMPLETED']);
+    const shardFiles = readdirSync(path.join(campaign, 'shards')).filter((f) => f.endsWith('.slewsmith-sweep-shard'));
+    expect(shardFiles).toHaveLength(SWEEP.shards);
+    for (const f of ['cells.csv', 'sweep.json']) {
+      const merged = readFileSync(path.join(campaign, f), 'utf8');
+      const single = readFileSync(path.join(refDir, f), 'utf8');
+      expect(merged.length, f).toBe(single.length);
+      expect(merged === single, `${f} differs from the single-process file`).toBe(true);
+    }
+    expect((JSON.parse(readFileSync(path.join(campaign, 'sweep.json'), 'utf8')) as { cells: unknown[] }).cells).toHaveLength(SWEEP.cells);
+  }, 400_000);
 
   it('a second start in this process reuses the running cluster', async () => {
     const again = await startSlurmCluster();

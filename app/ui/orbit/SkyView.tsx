@@ -2,12 +2,16 @@
  * Sky view: the celestial sphere in the engine's inertial frame (EME2000) as a right ascension /
  * declination chart, with the chosen body axis' path over the shown run, the Sun and the Moon
  * (their path over the run), fixed cones on that body axis as circles on the sky, and where the
- * axis points at each target. The geometry is skyModel.ts; this file only draws it on a canvas.
+ * axis points at each target. At the playback time (the clock the 3D view and the plots share)
+ * it marks the axis, aims the cones against the Sun, Moon, Earth and stations, and places the Sun
+ * and Moon; the canvas is redrawn from the clock's frame listener, not through React state. The
+ * geometry is skyModel.ts and skyPlayback.ts; this file only draws it on a canvas.
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { useAppState } from '../context';
+import { useApp, useAppState } from '../context';
 import { SelectField } from '../components/fields';
 import { angleBetween, skyScene, SKY_AXES, type SkyPiece, type SkyScene } from './skyModel';
+import { skyNow, type SkyNow } from './skyPlayback';
 
 const COLOUR = {
   grid: '#d5dce6',
@@ -17,9 +21,10 @@ const COLOUR = {
   keepOut: '#b3261e',
   keepIn: '#1d6b2f',
   target: '#1f2933',
+  now: '#0b5cad',
 };
 
-function draw(canvas: HTMLCanvasElement, scene: SkyScene) {
+function draw(canvas: HTMLCanvasElement, scene: SkyScene, now: SkyNow | null) {
   const cssW = canvas.clientWidth || 300;
   const cssH = Math.round(cssW / 2);
   const dpr = window.devicePixelRatio || 1;
@@ -65,7 +70,7 @@ function draw(canvas: HTMLCanvasElement, scene: SkyScene) {
       g.stroke();
     }
   };
-  for (const c of scene.cones) {
+  for (const c of [...scene.cones, ...(now?.cones ?? [])]) {
     g.strokeStyle = c.kind === 'keep-out' ? COLOUR.keepOut : COLOUR.keepIn;
     g.lineWidth = 1.5;
     g.setLineDash(c.kind === 'keep-out' ? [] : [5, 3]);
@@ -90,13 +95,19 @@ function draw(canvas: HTMLCanvasElement, scene: SkyScene) {
       g.stroke();
     }
   };
-  disc(scene.sun, COLOUR.sun, 6, true);
-  disc(scene.moon, COLOUR.moon, 5, true);
+  disc(now?.sun ?? scene.sun, COLOUR.sun, 6, true);
+  disc(now?.moon ?? scene.moon, COLOUR.moon, 5, true);
   g.strokeStyle = COLOUR.trail;
   g.lineWidth = 2;
   lines(scene.trail);
   disc(scene.trailStart, COLOUR.trail, 4, true);
   disc(scene.trailEnd, COLOUR.trail, 6, false);
+  if (now?.axis) {
+    // The axis at the playback time: a filled dot in a white ring, then a ring in the trail's colour.
+    disc(now.axis, '#ffffff', 8, true);
+    disc(now.axis, COLOUR.now, 5, true);
+    disc(now.axis, COLOUR.now, 8, false);
+  }
   g.font = '12px system-ui, sans-serif';
   for (const t of scene.targets) {
     g.strokeStyle = COLOUR.target;
@@ -124,6 +135,7 @@ function defaultAxis(candidates: readonly ArrayLike<number>[]): string {
 }
 
 export function SkyView() {
+  const app = useApp();
   const output = useAppState((s) => s.output);
   const runKey = useAppState((s) => s.selectedRunKeys[0] ?? null);
   const current = useAppState((s) => s.outputScenario === s.scenario);
@@ -141,24 +153,48 @@ export function SkyView() {
   }, [output]);
   const [chosen, setChosen] = useState<string | null>(null);
   const axisName = chosen ?? suggested;
-  const scene = useMemo(() => {
-    const axis = SKY_AXES.find((a) => a.value === axisName)?.axis ?? [0, 0, 1];
-    return output ? skyScene(output, runKey, axis) : null;
-  }, [output, runKey, axisName]);
+  const axisVector = useMemo(() => SKY_AXES.find((a) => a.value === axisName)?.axis ?? [0, 0, 1], [axisName]);
+  const scene = useMemo(() => (output ? skyScene(output, runKey, axisVector) : null), [output, runKey, axisVector]);
   const ref = useRef<HTMLCanvasElement | null>(null);
+  const figure = useRef<HTMLElement | null>(null);
   useEffect(() => {
     const c = ref.current;
-    if (!c || !scene) return;
-    draw(c, scene);
-    const ro = new ResizeObserver(() => draw(c, scene));
+    if (!c || !scene || !output) return;
+    const paint = () => {
+      const now = skyNow(output, runKey, axisVector, app.clock.t);
+      draw(c, scene, now);
+      // For tests and tools: where the marker is (written here, not through React state).
+      const f = figure.current;
+      if (f) {
+        f.dataset.nowT = String(now.t);
+        f.dataset.nowRaDeg = now.axis ? now.axis.raDeg.toFixed(6) : '';
+        f.dataset.nowDecDeg = now.axis ? now.axis.decDeg.toFixed(6) : '';
+        f.dataset.movingCones = String(now.cones.length);
+        f.dataset.sunRaDeg = now.sun ? now.sun.raDeg.toFixed(6) : '';
+      }
+    };
+    paint();
+    const off = app.clock.onFrame(paint);
+    const ro = new ResizeObserver(paint);
     ro.observe(c);
-    return () => ro.disconnect();
-  }, [scene]);
+    return () => {
+      off();
+      ro.disconnect();
+    };
+  }, [scene, output, runKey, axisVector, app]);
+  const movingLabels = useMemo(
+    () =>
+      (output?.orbitView ? (output.scenario.file.constraints ?? []) : [])
+        .filter((c) => c.direction.kind !== 'fixed' && angleBetween(c.bodyAxis, axisVector) < 1e-9)
+        .map((c) => ({ label: c.name, kind: c.kind })),
+    [output, axisVector],
+  );
   if (!output || !scene) return null;
   const run = output.runs.find((r) => r.key === runKey);
   const minutes = scene.spanS / 60;
   return (
     <figure
+      ref={figure}
       className={`sky-view ${current ? '' : 'stale'}`}
       data-testid="sky-view"
       data-points={scene.trail.reduce((s, p) => s + p.raDeg.length, 0)}
@@ -181,15 +217,25 @@ export function SkyView() {
         <span style={{ color: COLOUR.trail }}>
           ● body {axisName}{' '}
           {run
-            ? `over ${run.label} (${minutes < 2 ? `${scene.spanS.toFixed(0)} s` : `${minutes.toFixed(1)} min`}), ○ at the end`
+            ? `over ${run.label} (${minutes < 2 ? `${scene.spanS.toFixed(0)} s` : `${minutes.toFixed(1)} min`}), ○ at the end, ◉ at the playback time`
             : '(no run yet)'}
         </span>{' '}
         <span style={{ color: COLOUR.sun }}>● Sun</span> <span style={{ color: COLOUR.moon }}>● Moon</span>
-        {output.orbit ? ' (from the spacecraft, at the start; line: over the run)' : ' (geocentric, at the epoch)'}
+        {output.orbit
+          ? output.orbitView
+            ? ' (from the spacecraft, at the playback time; line: over the run)'
+            : ' (from the spacecraft, at the start; line: over the run)'
+          : ' (geocentric, at the playback time)'}
         {scene.cones.map((c, k) => (
           <span key={k} style={{ color: c.kind === 'keep-out' ? COLOUR.keepOut : COLOUR.keepIn }}>
             {' '}
             ◯ {c.label} ({c.kind === 'keep-out' ? 'keep-out' : 'keep-in, dashed'})
+          </span>
+        ))}
+        {movingLabels.map((c, k) => (
+          <span key={`m${k}`} style={{ color: c.kind === 'keep-out' ? COLOUR.keepOut : COLOUR.keepIn }}>
+            {' '}
+            ◯ {c.label} ({c.kind === 'keep-out' ? 'keep-out' : 'keep-in, dashed'}, at the playback time)
           </span>
         ))}
         . ✕ n: the axis at target n.

@@ -15,7 +15,7 @@ import type { OrbitOutput } from '../../engine/pipeline/orbit';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import { moonDirectionEme2000, sunDirectionEme2000 } from '../../engine/orbit/sky';
 import { parseUtcIso } from '../../engine/time/iso';
-import { DEG_PER_RAD, RAD_PER_DEG } from '../../engine/units';
+import { DEG_PER_RAD, HALF_PI, RAD_PER_DEG } from '../../engine/units';
 
 const TWO_PI = 2 * Math.PI;
 
@@ -83,7 +83,26 @@ export interface SkyPiece {
 }
 
 /**
- * Directions (3 per point) as chart polylines, cut where a step crosses the RA = 0° meridian
+ * Does the step from (ax, ay, ·) to (bx, by, ·) change RA by more than 90° (taken the short way)?
+ * Away from the poles that needs a step of at least 90° · cos δ on the sky; the trails and outlines
+ * drawn here step far less (≤ 1500 points per run, 180 per circle), so it happens only when the step
+ * passes within a few degrees of a celestial pole, where the equirectangular chart stretches it
+ * into a line across the chart's top or bottom (the sweep in RA at nearly constant declination).
+ * Such a step is split, leaving the chart at the pole edge (common practice, no source: the
+ * threshold is a judgement call well above any ordinary step and below the ~180° of a pole pass).
+ */
+function passesPole(ax: number, ay: number, bx: number, by: number): boolean {
+  // cos ΔRA = (a_xy · b_xy) / (|a_xy| |b_xy|) < 0  ⇔  |ΔRA| > 90°; a point on the pole axis has no RA (drawn at RA 0°).
+  const dot = ax * bx + ay * by;
+  const na = Math.hypot(ax, ay),
+    nb = Math.hypot(bx, by);
+  if (na === 0 || nb === 0) return na !== nb; // onto or off the pole itself
+  return dot < 0;
+}
+
+/**
+ * Directions (3 per point) as chart polylines, split where a step passes over a celestial pole
+ * (passesPole: the RA jumps by more than 90° in one step), and cut where a step crosses the RA = 0° meridian
  * (the half-plane y = 0, x > 0). The cut point is where the chord between the two points meets
  * that plane, projected back to the sphere: it lies on the great circle through them, and the
  * piece ending there ends at RA 360°, the next starts at RA 0°. `closed` joins the last point to
@@ -117,6 +136,17 @@ export function skyPieces(points: ArrayLike<number>, closed: boolean): SkyPiece[
     const bx = points[3 * b]!,
       by = points[3 * b + 1]!,
       bz = points[3 * b + 2]!;
+    if (passesPole(ax, ay, bx, by)) {
+      // Over a pole: leave the chart at the top (or bottom) edge at a's RA, come back at b's.
+      const pole = az + bz >= 0 ? HALF_PI : -HALF_PI;
+      push(at(a).raRad, pole);
+      pieces.push(cur);
+      cur = { raDeg: [], decDeg: [] };
+      const q = at(b);
+      push(q.raRad, pole);
+      push(q.raRad, q.decRad);
+      continue;
+    }
     const aSide = ay >= 0,
       bSide = by >= 0;
     if (aSide !== bSide && ay !== by) {
