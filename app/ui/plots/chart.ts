@@ -381,7 +381,9 @@ export function createChart(
   const place = (t: number) => {
     lastT = t;
     const x = plot.valToPos(t, 'x');
-    const w = plot.over.clientWidth;
+    // The plot area's CSS width from uPlot's own box (canvas px over the canvas's pixel ratio):
+    // reading over.clientWidth here forced a layout for every chart at every new output.
+    const w = plot.bbox.width / (plot.ctx.canvas.width / Math.max(1, plot.width));
     if (!Number.isFinite(x) || x < 0 || x > w) playhead.style.display = 'none';
     else {
       playhead.style.display = 'block';
