@@ -75,13 +75,14 @@ describe('plot decimation (M4, display only)', () => {
     }
   });
 
-  it('a zoomed range: extremes per column inside it, one neighbour kept outside on each side', () => {
+  it("a zoomed range: extremes per column inside it, one neighbour outside on each side and the extent's ends", () => {
     const n = 5000;
     const x = Float64Array.from({ length: n }, (_, k) => k);
     const y = Float64Array.from({ length: n }, (_, k) => Math.sin(k / 37) + 0.01 * ((k * 7919) % 13));
     const idx = keptIndices(x, [y], 1000, 2000, 100);
-    expect(idx[0]).toBe(999);
-    expect(idx[idx.length - 1]).toBe(2001);
+    // The whole extent's ends (uPlot's zoom reset ranges over the data held), then the neighbours.
+    expect(idx.slice(0, 2)).toEqual([0, 999]);
+    expect(idx.slice(-2)).toEqual([2001, n - 1]);
     const kx = idx.map((k) => x[k]!);
     const ky = idx.map((k) => y[k]!);
     expect(m4(kx, [ky], 1000, 2000, 100)).toEqual(m4(x, [y], 1000, 2000, 100));

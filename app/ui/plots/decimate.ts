@@ -19,7 +19,8 @@ const MIN_SAMPLES_PER_COLUMN = 4;
 
 /**
  * Indices of `x` to keep for `columns` pixel columns over [xMin, xMax], ascending. Samples
- * outside the range are dropped except the nearest one on each side, so lines reach the edges.
+ * outside the range are dropped except the nearest one on each side (lines reach the edges) and
+ * the first and last of all.
  */
 export function keptIndices(x: ArrayLike<number>, ys: readonly Series[], xMin: number, xMax: number, columns: number): number[] {
   const n = x.length;
@@ -29,10 +30,17 @@ export function keptIndices(x: ArrayLike<number>, ys: readonly Series[], xMin: n
   while (i0 < n && x[i0]! < xMin) i0++;
   let i1 = n - 1;
   while (i1 >= 0 && x[i1]! > xMax) i1--;
+  // The very first and last samples stay too, so the data keep their full x extent (uPlot's
+  // double-click reset ranges x over the data it holds); outside the range they are clipped away.
+  if (i0 > 1) kept.push(0);
   if (i0 > 0) kept.push(i0 - 1);
+  const tail = () => {
+    if (i1 + 1 < n && i1 + 1 !== kept[kept.length - 1]) kept.push(i1 + 1);
+    if (i1 + 2 < n) kept.push(n - 1);
+  };
   if (i1 < i0) {
     // No sample inside the range: the neighbours on each side draw the line across it.
-    if (i1 + 1 < n && i1 + 1 !== kept[kept.length - 1]) kept.push(i1 + 1);
+    tail();
     return kept;
   }
   const S = ys.length;
@@ -83,7 +91,7 @@ export function keptIndices(x: ArrayLike<number>, ys: readonly Series[], xMin: n
     picks.sort((a, b) => a - b);
     for (let j = 0; j < picks.length; j++) if (j === 0 || picks[j] !== picks[j - 1]) kept.push(picks[j]!);
   }
-  if (i1 + 1 < n) kept.push(i1 + 1);
+  tail();
   return kept;
 }
 
