@@ -224,7 +224,8 @@ function buildOptions(
   height: number,
   group: ChartGroup,
   current: () => PlotSpec,
-  onZoom: (u: uPlot) => void,
+  /** Called on every x range change; true when it is a zoom (or its undo) to share with the group. */
+  onZoom: (u: uPlot) => boolean,
 ): uPlot.Options {
   const stepped = uPlot.paths.stepped?.({ align: 1 });
   const hasJ = spec.series.some((s) => s.scale === 'j');
@@ -289,9 +290,9 @@ function buildOptions(
       draw: [drawMarkers(current)],
       setScale: [
         (u, key) => {
-          if (key === 'x') onZoom(u);
-          // Share the x zoom with every other chart of the group.
-          if (key !== 'x' || group.syncing) return;
+          // Share the x zoom with every other chart of the group: a zoom or its undo, not the
+          // range a new output sets (each chart takes that from its own data).
+          if (key !== 'x' || !onZoom(u) || group.syncing) return;
           group.syncing = true;
           const { min, max } = u.scales.x!;
           for (const other of group.charts) if (other !== u && min !== undefined && max !== undefined) other.setScale('x', { min, max });
@@ -336,13 +337,16 @@ export function createChart(
     plot.setData(thin(range), false);
     if (min !== undefined && max !== undefined) plot.setScale('x', { min, max });
   };
-  const onZoom = (u: uPlot, force = false) => {
-    if (pendingZoom) return;
+  /** True when the x range is a zoom or leaves one (not the whole extent a new output sets). */
+  const onZoom = (u: uPlot, force = false): boolean => {
     const range = shownRange(u);
+    const zoom = range !== null || thinnedFor !== null;
+    if (pendingZoom) return zoom;
     const same = range === null ? thinnedFor === null : thinnedFor !== null && range[0] === thinnedFor[0] && range[1] === thinnedFor[1];
-    if (same && !force) return;
+    if (same && !force) return zoom;
     pendingZoom = true;
     queueMicrotask(rethin);
+    return zoom;
   };
   const plot = new uPlot(
     buildOptions(
@@ -403,7 +407,7 @@ export function createChart(
       const next = Math.max(1, Math.round(width * dprNow()));
       if (next !== columns) {
         columns = next;
-        onZoom(plot, true);
+        void onZoom(plot, true);
       }
       place(lastT);
     },
