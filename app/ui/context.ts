@@ -1,5 +1,5 @@
 /** React access to the app controller and thin hooks over its stores. */
-import { createContext, useContext, useMemo } from 'react';
+import { createContext, useContext, useMemo, useRef, useSyncExternalStore } from 'react';
 import type { Issue } from '../engine/errors';
 import type { AppController } from './appController';
 import type { AppState } from './store/document';
@@ -24,22 +24,55 @@ export function useScenarioValue(path: string): unknown {
   return useAppState((s) => getIn(s.scenario, tokens));
 }
 
+/** Same issues in the same order (path, rule, message): a new validation pass that found the same. */
+function sameIssues(a: readonly Issue[], b: readonly Issue[]): boolean {
+  if (a === b) return true;
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i]!,
+      y = b[i]!;
+    if (x.path !== y.path || x.rule !== y.rule || x.message !== y.message) return false;
+  }
+  return true;
+}
+
+const NO_ISSUES: Issue[] = [];
+
+/**
+ * A list of issues from the store that keeps its identity while its content does not change:
+ * every edit validates the scenario again (new arrays, usually the same or no issues), and the
+ * dozens of fields reading their issues should not render again for that.
+ */
+function useIssueList(select: (s: AppState) => Issue[]): Issue[] {
+  const store = useApp().store;
+  const last = useRef<Issue[]>(NO_ISSUES);
+  const snapshot = () => {
+    const next = select(store.getState());
+    if (!sameIssues(last.current, next)) last.current = next;
+    return last.current;
+  };
+  return useSyncExternalStore(store.subscribe, snapshot, snapshot);
+}
+
+function allIssuesOf(s: AppState): Issue[] {
+  const errors = s.validation.errors;
+  if (s.pipeline.status !== 'invalid' || s.pipeline.errors.length === 0) return errors;
+  const seen = new Set(errors.map((i) => `${i.path}|${i.rule}`));
+  return [...errors, ...s.pipeline.errors.filter((i) => !seen.has(`${i.path}|${i.rule}`))];
+}
+
+const warningsOf = (s: AppState) => s.validation.warnings;
+
 /**
  * All current problems (UI-side checks and, for the current document, the engine's run errors).
  * Returns the same array while nothing changed, so it can be a hook dependency.
  */
 export function useAllIssues(): Issue[] {
-  const validation = useAppState((s) => s.validation);
-  const pipeline = useAppState((s) => s.pipeline);
-  return useMemo(() => {
-    if (pipeline.status !== 'invalid' || pipeline.errors.length === 0) return validation.errors;
-    const seen = new Set(validation.errors.map((i) => `${i.path}|${i.rule}`));
-    return [...validation.errors, ...pipeline.errors.filter((i) => !seen.has(`${i.path}|${i.rule}`))];
-  }, [validation, pipeline]);
+  return useIssueList(allIssuesOf);
 }
 
 function useWarnings(): Issue[] {
-  return useAppState((s) => s.validation.warnings);
+  return useIssueList(warningsOf);
 }
 
 /** Issues whose path is exactly `path` (errors first, then warnings). */

@@ -52,52 +52,84 @@ const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
 export function canvasLabelFactory(): LabelFactory | null {
   if (!makeCanvas()) return null;
   const p11 = 1 / Math.tan((CAMERA_FOV_DEG * Math.PI) / 360);
-  return (text, style) => {
-    const canvas = makeCanvas()!;
-    const ctx = canvas.getContext('2d')!;
-    const us = text.indexOf('_');
-    const main = us >= 0 ? text.slice(0, us) : text;
-    const sub = us >= 0 ? text.slice(us + 1) : '';
-    const mainFont = `600 ${FONT_PX}px ${FONT}`;
-    const subFont = `600 ${Math.round(FONT_PX * SUB_RATIO)}px ${FONT}`;
-    ctx.font = mainFont;
-    const wMain = ctx.measureText(main).width;
-    ctx.font = subFont;
-    const wSub = sub ? ctx.measureText(sub).width + 2 : 0;
-    const pad = 8;
-    const h = Math.ceil(FONT_PX * LINE_RATIO);
-    canvas.width = Math.ceil(wMain + wSub + 2 * pad);
-    canvas.height = h;
-    // Resizing resets the context state.
-    ctx.textBaseline = 'middle';
-    ctx.lineJoin = 'round';
-    ctx.lineWidth = 7;
-    ctx.strokeStyle = 'rgba(10, 12, 16, 0.85)';
-    ctx.fillStyle = style.color;
-    ctx.font = mainFont;
-    ctx.strokeText(main, pad, h * 0.45);
-    ctx.fillText(main, pad, h * 0.45);
-    if (sub) {
-      ctx.font = subFont;
-      ctx.strokeText(sub, pad + wMain + 2, h * 0.62);
-      ctx.fillText(sub, pad + wMain + 2, h * 0.62);
+  /**
+   * Textures by text and colour, shared by every sprite showing them: a new run set (every edit)
+   * builds its triads and tags again, and drawing and uploading the same text each time cost more
+   * than the rest of the swap. Counted: disposing a sprite's material (disposeTree) releases one
+   * use, and the texture is freed with its last one.
+   */
+  const shared = new Map<string, { tex: CanvasTexture; width: number; height: number; uses: number }>();
+  const textureFor = (text: string, color: string) => {
+    const key = `${color}|${text}`;
+    let e = shared.get(key);
+    if (!e) {
+      const drawn = drawLabel(text, color);
+      const entry = { ...drawn, uses: 0 };
+      const free = drawn.tex.dispose.bind(drawn.tex);
+      drawn.tex.dispose = () => {
+        if (--entry.uses > 0) return;
+        shared.delete(key);
+        free();
+      };
+      shared.set(key, entry);
+      e = entry;
     }
-    const tex = new CanvasTexture(canvas as unknown as HTMLCanvasElement);
-    tex.colorSpace = SRGBColorSpace;
-    tex.minFilter = LinearFilter;
-    tex.generateMipmaps = false;
+    e.uses++;
+    return e;
+  };
+  return (text, style) => {
+    const { tex, width, height } = textureFor(text, style.color);
+    const us = text.indexOf('_');
     const mat = new SpriteMaterial({ map: tex, sizeAttenuation: false, depthTest: false, depthWrite: false, transparent: true });
     const sprite = new Sprite(mat);
     const frac = style.heightFraction ?? SIZES.labelHeight;
     const sy = style.screenSpace ? 2 * frac : (2 * frac) / p11;
-    sprite.scale.set((sy * canvas.width) / canvas.height, sy, 1);
-    const base: LabelBase = { sy, frac, aspect: canvas.width / canvas.height, hasSub: sub !== '', px: 0 };
+    sprite.scale.set((sy * width) / height, sy, 1);
+    const base: LabelBase = { sy, frac, aspect: width / height, hasSub: us >= 0 && us < text.length - 1, px: 0 };
     sprite.userData.labelBase = base;
     sprite.center.set(style.anchorX ?? 0.5, style.anchorY ?? 0.5);
     sprite.renderOrder = 10;
     sprite.name = `label:${text}`;
     return sprite;
   };
+}
+
+/** The label's texture: main text with an optional subscript after '_', outlined for contrast. */
+function drawLabel(text: string, color: string): { tex: CanvasTexture; width: number; height: number } {
+  const canvas = makeCanvas()!;
+  const ctx = canvas.getContext('2d')!;
+  const us = text.indexOf('_');
+  const main = us >= 0 ? text.slice(0, us) : text;
+  const sub = us >= 0 ? text.slice(us + 1) : '';
+  const mainFont = `600 ${FONT_PX}px ${FONT}`;
+  const subFont = `600 ${Math.round(FONT_PX * SUB_RATIO)}px ${FONT}`;
+  ctx.font = mainFont;
+  const wMain = ctx.measureText(main).width;
+  ctx.font = subFont;
+  const wSub = sub ? ctx.measureText(sub).width + 2 : 0;
+  const pad = 8;
+  const h = Math.ceil(FONT_PX * LINE_RATIO);
+  canvas.width = Math.ceil(wMain + wSub + 2 * pad);
+  canvas.height = h;
+  // Resizing resets the context state.
+  ctx.textBaseline = 'middle';
+  ctx.lineJoin = 'round';
+  ctx.lineWidth = 7;
+  ctx.strokeStyle = 'rgba(10, 12, 16, 0.85)';
+  ctx.fillStyle = color;
+  ctx.font = mainFont;
+  ctx.strokeText(main, pad, h * 0.45);
+  ctx.fillText(main, pad, h * 0.45);
+  if (sub) {
+    ctx.font = subFont;
+    ctx.strokeText(sub, pad + wMain + 2, h * 0.62);
+    ctx.fillText(sub, pad + wMain + 2, h * 0.62);
+  }
+  const tex = new CanvasTexture(canvas as unknown as HTMLCanvasElement);
+  tex.colorSpace = SRGBColorSpace;
+  tex.minFilter = LinearFilter;
+  tex.generateMipmaps = false;
+  return { tex, width: canvas.width, height: canvas.height };
 }
 
 interface LabelBase {

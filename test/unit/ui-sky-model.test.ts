@@ -236,4 +236,22 @@ describe('the scene of a run', () => {
     // the chosen axis is not the cone's: no cone
     expect(skyScene(out, key, [1, 0, 0]).cones.length).toBe(0);
   });
+
+  it('the geocentric Sun and Moon paths kept by epoch and span: a second scene draws the same, another epoch its own', () => {
+    // Without the orbit block the paths are the geocentric ones at the epoch (the cached branch).
+    const geo = { ...out, orbit: null };
+    const a = skyScene(geo, key, [0, 0, 1]);
+    const b = skyScene(geo, key, [1, 0, 0]);
+    expect(b.sunPath).toEqual(a.sunPath);
+    expect(b.moonPath).toEqual(a.moonPath);
+    const ref0 = almanacSunJ2000(out.scenario.epochUnixMs);
+    expect(Math.abs(((b.sun!.raDeg - ref0.ra + 540) % 360) - 180) * Math.cos(ref0.dec / D)).toBeLessThan(0.02);
+    // A day later (same span): the Sun moves about 1° along the ecliptic (almanac formula above).
+    const later = { ...geo, scenario: { ...out.scenario, epochUtc: new Date(out.scenario.epochUnixMs + 86_400_000).toISOString() } };
+    const c = skyScene(later, key, [0, 0, 1]);
+    const ref = almanacSunJ2000(out.scenario.epochUnixMs + 86_400_000);
+    const dRa = Math.abs(((c.sun!.raDeg - ref.ra + 540) % 360) - 180);
+    expect(dRa * Math.cos(ref.dec / D)).toBeLessThan(0.02);
+    expect(Math.abs(c.sun!.raDeg - a.sun!.raDeg)).toBeGreaterThan(0.5);
+  });
 });

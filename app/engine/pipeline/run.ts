@@ -24,6 +24,7 @@ import { certificates, metricContext, scenarioSummary, summariseRun, vehicleSumm
 import type { BuiltController, ControllerRun, PipelineOutput, Vehicle } from './types';
 import { budgetIssues, DEFAULT_BUDGET, estimateBudget, runStepCap, type RunBudget } from './budget';
 import { orbitViewSamples } from '../orbit/viewSamples';
+import type { OrbitViewCache } from '../orbit/viewSamplesCache';
 import { buildOrbitStage, orbitExportInfo, orbitOutput, windowErrors, type OrbitStage } from './orbit';
 import {
   checkPlan,
@@ -57,6 +58,8 @@ export interface PipelineOptions {
   runSlice?: RunSlice;
   /** When a run keeps a display trace instead of its full trace (displayTrace.ts); default DISPLAY_TRACE_LIMIT. */
   displayTrace?: DisplayTraceLimit;
+  /** Where the orbit view samples come from when the ephemeris was sampled before (the app's worker keeps one). */
+  orbitViewCache?: OrbitViewCache;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -238,7 +241,7 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       warnings: p.warnings,
       elapsedMs: Date.now() - t0,
       orbit,
-      orbitView: p.orbit ? orbitViewSamples(p.orbit.ephemeris) : null,
+      orbitView: p.orbit ? (opts.orbitViewCache?.samples(p.orbit.ephemeris) ?? orbitViewSamples(p.orbit.ephemeris)) : null,
     },
     p.warnings,
   );

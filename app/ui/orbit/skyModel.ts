@@ -252,8 +252,26 @@ function trackDirections(orbit: OrbitOutput, dirs: Float64Array, tEndS: number):
   return dirs.subarray(0, 3 * Math.max(1, n));
 }
 
-/** Geocentric Sun or Moon directions over [0, spanS] (scenarios without an orbit), at most 97 samples. */
+/**
+ * The last few geocentric paths by (body, epoch, span): an edit that leaves the epoch and the
+ * run's length alone (a gain, an inertia) redraws the sky without evaluating the Moon's series
+ * 97 times again. The arrays are only read (subarray views), never handed to a worker.
+ */
+const bodyPathCache: { key: string; dirs: Float64Array }[] = [];
+const BODY_PATH_CACHE_SIZE = 4;
+
 function bodyDirections(which: 'sun' | 'moon', epochTaiS: number, spanS: number): Float64Array {
+  const key = `${which}|${epochTaiS}|${spanS}`;
+  const hit = bodyPathCache.find((e) => e.key === key);
+  if (hit) return hit.dirs;
+  const dirs = computeBodyDirections(which, epochTaiS, spanS);
+  bodyPathCache.unshift({ key, dirs });
+  bodyPathCache.length = Math.min(bodyPathCache.length, BODY_PATH_CACHE_SIZE);
+  return dirs;
+}
+
+/** Geocentric Sun or Moon directions over [0, spanS] (scenarios without an orbit), at most 97 samples. */
+function computeBodyDirections(which: 'sun' | 'moon', epochTaiS: number, spanS: number): Float64Array {
   const m = spanS > 0 ? 96 : 0;
   const out = new Float64Array(3 * (m + 1));
   const v = new Float64Array(3);

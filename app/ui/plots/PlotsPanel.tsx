@@ -37,6 +37,17 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
   const handle = useRef<ChartHandle | null>(null);
   const specRef = useRef(spec);
   specRef.current = spec;
+  // Off-screen charts (the per-run plots below the fold, a scrolled-away overlay) take new data
+  // only when they come within a screen of the viewport: an edit redraws what can be seen.
+  const visible = useRef(true);
+  const pending = useRef<PlotSpec | null>(null);
+  /** The spec the chart shows (drawn at creation or by the last setData). */
+  const shown = useRef<PlotSpec | null>(null);
+  const show = (h: ChartHandle, s: PlotSpec) => {
+    h.setData(s);
+    shown.current = s;
+    pending.current = null;
+  };
   const key = structureKey(spec);
   const empty = spec.empty;
 
@@ -49,6 +60,7 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
       app.clock.setTime(t);
     });
     handle.current = h;
+    shown.current = specRef.current;
     h.setPlayhead(app.clock.t);
     const off = app.clock.onFrame((t) => h.setPlayhead(t));
     const ro = new ResizeObserver(() => {
@@ -56,7 +68,23 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
       if (Math.abs(w - h.plot.width) > 1) h.resize(w, PLOT_HEIGHT);
     });
     ro.observe(el);
+    visible.current = true;
+    pending.current = null;
+    const io =
+      typeof IntersectionObserver === 'function'
+        ? new IntersectionObserver(
+            (entries) => {
+              const e = entries[entries.length - 1];
+              if (!e) return;
+              visible.current = e.isIntersecting;
+              if (e.isIntersecting && pending.current) show(h, pending.current);
+            },
+            { rootMargin: '100% 0px' },
+          )
+        : null;
+    io?.observe(el);
     return () => {
+      io?.disconnect();
       ro.disconnect();
       off();
       h.destroy();
@@ -65,11 +93,14 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
   }, [key, empty, group, app]);
 
   useEffect(() => {
-    if (handle.current && !spec.empty) handle.current.setData(spec);
+    if (!handle.current || spec.empty || spec === shown.current) return;
+    if (visible.current) show(handle.current, spec);
+    else pending.current = spec;
   }, [spec]);
 
   const exportPng = async () => {
     if (!handle.current) return;
+    if (pending.current) show(handle.current, pending.current);
     try {
       // The run's own scenario (the plot shows it), not an edit made since.
       const content = await handle.current.toPng({ scenarioName: out.scenario.name, epochUtc: out.scenario.epochUtc });

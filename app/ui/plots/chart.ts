@@ -11,6 +11,7 @@ import uPlot from 'uplot';
 import { fmt } from '../format';
 import type { PlotSpec } from './series';
 import { captionLines, wrapText, type CaptionContext } from './pngCaption';
+import { decimateAligned } from './decimate';
 import { bandPixels, ECLIPSE_BAND_FILL, ECLIPSE_BAND_TEXT, WINDOW_BAND_FILL, WINDOW_BAND_TEXT } from './windowBands';
 
 const CURSOR_SYNC_KEY = 'slewsmith-time';
@@ -217,7 +218,15 @@ function drawMarkers(spec: () => PlotSpec) {
   };
 }
 
-function buildOptions(spec: PlotSpec, width: number, height: number, group: ChartGroup, current: () => PlotSpec): uPlot.Options {
+function buildOptions(
+  spec: PlotSpec,
+  width: number,
+  height: number,
+  group: ChartGroup,
+  current: () => PlotSpec,
+  /** Called on every x range change; true when it is a zoom (or its undo) to share with the group. */
+  onZoom: (u: uPlot) => boolean,
+): uPlot.Options {
   const stepped = uPlot.paths.stepped?.({ align: 1 });
   const hasJ = spec.series.some((s) => s.scale === 'j');
   const axes: uPlot.Axis[] = [
@@ -281,8 +290,9 @@ function buildOptions(spec: PlotSpec, width: number, height: number, group: Char
       draw: [drawMarkers(current)],
       setScale: [
         (u, key) => {
-          // Share the x zoom with every other chart of the group.
-          if (key !== 'x' || group.syncing) return;
+          // Share the x zoom with every other chart of the group: a zoom or its undo, not the
+          // range a new output sets (each chart takes that from its own data).
+          if (key !== 'x' || !onZoom(u) || group.syncing) return;
           group.syncing = true;
           const { min, max } = u.scales.x!;
           for (const other of group.charts) if (other !== u && min !== undefined && max !== undefined) other.setScale('x', { min, max });
@@ -301,9 +311,53 @@ export function createChart(
   onScrub: (t: number) => void,
 ): ChartHandle {
   let spec = initial;
+  // Display only (decimate.ts): about one kept sample group per canvas pixel column of the shown
+  // x range; the full columns stay in `spec`, and a zoom thins them again for its own range.
+  const dprNow = () => (typeof devicePixelRatio === 'number' && devicePixelRatio > 0 ? devicePixelRatio : 1);
+  let columns = Math.max(1, Math.round(size.width * dprNow()));
+  let pendingZoom = false;
+  /** The x range the shown columns were thinned for (null: the whole extent). */
+  let thinnedFor: [number, number] | null = null;
+  const thin = (range: [number, number] | null) => {
+    thinnedFor = range;
+    return decimateAligned(spec.data, columns, range?.[0], range?.[1]) as uPlot.AlignedData;
+  };
+  /** The x range now shown, or null when it covers every sample. */
+  const shownRange = (u: uPlot): [number, number] | null => {
+    const { min, max } = u.scales.x!;
+    const x = spec.data[0];
+    if (min === undefined || max === undefined || !x || x.length === 0) return null;
+    return min <= (x[0] as number) && max >= (x[x.length - 1] as number) ? null : [min, max];
+  };
+  /** After an x zoom (or its undo) or a resize: the columns thinned for the range shown, y re-ranged on them. */
+  const rethin = () => {
+    pendingZoom = false;
+    const range = shownRange(plot);
+    const { min, max } = plot.scales.x!;
+    plot.setData(thin(range), false);
+    if (min !== undefined && max !== undefined) plot.setScale('x', { min, max });
+  };
+  /** True when the x range is a zoom or leaves one (not the whole extent a new output sets). */
+  const onZoom = (u: uPlot, force = false): boolean => {
+    const range = shownRange(u);
+    const zoom = range !== null || thinnedFor !== null;
+    if (pendingZoom) return zoom;
+    const same = range === null ? thinnedFor === null : thinnedFor !== null && range[0] === thinnedFor[0] && range[1] === thinnedFor[1];
+    if (same && !force) return zoom;
+    pendingZoom = true;
+    queueMicrotask(rethin);
+    return zoom;
+  };
   const plot = new uPlot(
-    buildOptions(spec, size.width, size.height, group, () => spec),
-    spec.data as uPlot.AlignedData,
+    buildOptions(
+      spec,
+      size.width,
+      size.height,
+      group,
+      () => spec,
+      (u) => onZoom(u),
+    ),
+    thin(null),
     target,
   );
   group.charts.add(plot);
@@ -331,7 +385,9 @@ export function createChart(
   const place = (t: number) => {
     lastT = t;
     const x = plot.valToPos(t, 'x');
-    const w = plot.over.clientWidth;
+    // The plot area's CSS width from uPlot's own box (canvas px over the canvas's pixel ratio):
+    // reading over.clientWidth here forced a layout for every chart at every new output.
+    const w = plot.bbox.width / (plot.ctx.canvas.width / Math.max(1, plot.width));
     if (!Number.isFinite(x) || x < 0 || x > w) playhead.style.display = 'none';
     else {
       playhead.style.display = 'block';
@@ -343,11 +399,16 @@ export function createChart(
     plot,
     setData(next) {
       spec = next;
-      plot.setData(next.data as uPlot.AlignedData);
+      plot.setData(thin(null));
       place(lastT);
     },
     resize(width, height) {
       plot.setSize({ width, height });
+      const next = Math.max(1, Math.round(width * dprNow()));
+      if (next !== columns) {
+        columns = next;
+        void onZoom(plot, true);
+      }
       place(lastT);
     },
     setPlayhead: place,

@@ -27,6 +27,12 @@ export function View3DPanel() {
   const canvas = useRef<HTMLCanvasElement>(null);
   const view = useRef<AttitudeViewHandle | null>(null);
   const needsRender = useRef(true);
+  /**
+   * True from a new run set until the frame after the one that shows it in the plots: the 3D frame
+   * (its first shader compiles at start, a new run set's upload at each edit) then does not hold
+   * back the plots' frame; the scene follows one frame later.
+   */
+  const holdRender = useRef(false);
   const [failure, setFailure] = useState<string | null>(null);
   const [layout, setLayout] = useState<ViewLayout>('overlay');
   const [toggles, setToggles] = useState<Record<string, boolean>>(() => Object.fromEntries(TOGGLES.map((t) => [t.key, true])));
@@ -89,6 +95,10 @@ export function View3DPanel() {
           v.setOptions({ keepOut: cones });
         }
       }
+      if (holdRender.current) {
+        needsRender.current = true;
+        return;
+      }
       if (moved || needsRender.current || performance.now() < activeUntil) {
         needsRender.current = false;
         v.render();
@@ -112,6 +122,18 @@ export function View3DPanel() {
     v.setRuns(toViewRuns(output, runs), runs.length > 1 ? layout : 'single');
     v.setTime(app.clock.t);
     needsRender.current = true;
+    // Released by a task after this frame's animation callbacks, i.e. after the frame that paints
+    // the plots; the next frame draws the scene.
+    holdRender.current = true;
+    let timer: ReturnType<typeof setTimeout> | null = null;
+    const frame = requestAnimationFrame(() => {
+      timer = setTimeout(() => (holdRender.current = false), 0);
+    });
+    return () => {
+      cancelAnimationFrame(frame);
+      if (timer !== null) clearTimeout(timer);
+      holdRender.current = false;
+    };
   }, [output, runs, layout, app]);
 
   useEffect(() => {

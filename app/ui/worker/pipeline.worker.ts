@@ -6,10 +6,13 @@
 // First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
 import '../../no-eval';
 import { runPipeline } from '../../engine/pipeline/run';
+import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { RunReply, RunRequest } from './protocol';
 import { transferables } from './protocol';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
+// Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
+const orbitViewCache = createOrbitViewCache();
 
 scope.onmessage = (ev: MessageEvent<RunRequest>) => {
   const req = ev.data;
@@ -17,7 +20,7 @@ scope.onmessage = (ev: MessageEvent<RunRequest>) => {
   let reply: RunReply;
   let transfer: ArrayBuffer[] = [];
   try {
-    const result = runPipeline(req.scenario, req.options as never);
+    const result = runPipeline(req.scenario, { ...(req.options as object), orbitViewCache });
     reply = { type: 'result', id: req.id, result };
     if (result.ok) transfer = transferables(result.value);
   } catch (e) {
