@@ -82,13 +82,22 @@ export function createAppController(o: AppControllerOptions): AppController {
     workers: o.pipelineWorkers ?? 1,
     debounceMs: o.debounceMs ?? 10,
     onStart: () => store.setPipeline({ status: 'running' }),
+    // The first run of a pass is shown as soon as it has flown (partialOutput.ts has the rules).
+    partialAfterRuns: 1,
+    onPartial: (output, total, _input, id, source) => {
+      const s = store.getState();
+      const src = source as { scenario: unknown; excluded: unknown };
+      if (src.scenario !== s.scenario || src.excluded !== s.excludedControllerIds) return; // stale
+      if (store.setPartialOutput(output, src.scenario, { passId: id, done: output.runs.length, total }))
+        clock.setRange(0, runEnd(store.getState().output!));
+    },
     // `source` is the document and comparison the request was made for.
-    onResult: (result, _input, _id, source) => {
+    onResult: (result, _input, id, source) => {
       const s = store.getState();
       const src = source as { scenario: unknown; excluded: unknown };
       if (src.scenario !== s.scenario || src.excluded !== s.excludedControllerIds) return; // stale
       if (result.ok) {
-        store.setOutput(result.value, src.scenario);
+        store.setOutput(result.value, src.scenario, id);
         store.setPipeline({
           status: 'done',
           errors: [],

@@ -39,6 +39,7 @@ import {
 import { planSummaryWithSavings } from './rollFreePlan';
 import { pointingLawIssues } from './pointing';
 import { runSliceIssues, sliceLength, type RunSlice } from './slices';
+import type { PartialPass } from './partialPass';
 import { DISPLAY_TRACE_LIMIT, displayTraceNotice, keepForDisplay, type DisplayTraceLimit } from './displayTrace';
 
 export interface PipelineOptions {
@@ -60,6 +61,12 @@ export interface PipelineOptions {
   displayTrace?: DisplayTraceLimit;
   /** Where the orbit view samples come from when the ephemeris was sampled before (the app's worker keeps one). */
   orbitViewCache?: OrbitViewCache;
+  /**
+   * An early look at the pass (partialPass.ts): after the first `afterRuns` runs, `post` gets an
+   * output holding just those runs (comparison and best marks over them only) and the number of
+   * runs the pass will have. The pass then goes on; its final output is the same as without it.
+   */
+  partial?: PartialPass;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -214,10 +221,23 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
       // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
       runs.push(arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run);
       opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
+      if (opts.partial && runs.length === opts.partial.afterRuns && runs.length < total) {
+        // Same assembly as the end of the pass, over the runs so far and a copy of the warnings.
+        const early = [...p.warnings];
+        const note = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
+        if (note) early.push(note);
+        opts.partial.post(assembleOutput(p, [...runs], early, opts, t0), total);
+      }
     }
   }
   const shown = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
   if (shown) p.warnings.push(shown);
+  return ok(assembleOutput(p, runs, p.warnings, opts, t0), p.warnings);
+}
+
+/** The output of a pass from its prepared stages and its runs (stage 6's tail). */
+function assembleOutput(p: Prepared, runs: ControllerRun[], warnings: Issue[], opts: PipelineOptions, t0: number): PipelineOutput {
+  const s = p.scenario;
   const comparison = runs.map(comparisonRow);
   const orbit = p.orbit ? orbitOutput(s, p.orbit, p.plan.tracking ?? null) : null;
   const summary = scenarioSummary(s, p.file!);
@@ -225,24 +245,21 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
     summary.orbit = orbitExportInfo(orbit);
     summary.targets.forEach((t, i) => t.q.set(p.targets.subarray(4 * i, 4 * i + 4)));
   }
-  return ok(
-    {
-      scenario: summary,
-      vehicle: vehicleSummary(p.vehicle),
-      plan: planSummaryWithConstraints(planSummaryWithSavings(p), p.planConstraints, p.plan, p.constrainedSegments),
-      targets: p.targets,
-      initialQ: Float64Array.from(s.initial.qInertialFromBody),
-      runs,
-      comparison,
-      best: bestMarks(comparison),
-      certificates: certificates(p.controllers),
-      keepOut: s.keepOut,
-      constraints: p.constraints.info,
-      warnings: p.warnings,
-      elapsedMs: Date.now() - t0,
-      orbit,
-      orbitView: p.orbit ? (opts.orbitViewCache?.samples(p.orbit.ephemeris) ?? orbitViewSamples(p.orbit.ephemeris)) : null,
-    },
-    p.warnings,
-  );
+  return {
+    scenario: summary,
+    vehicle: vehicleSummary(p.vehicle),
+    plan: planSummaryWithConstraints(planSummaryWithSavings(p), p.planConstraints, p.plan, p.constrainedSegments),
+    targets: p.targets,
+    initialQ: Float64Array.from(s.initial.qInertialFromBody),
+    runs,
+    comparison,
+    best: bestMarks(comparison),
+    certificates: certificates(p.controllers),
+    keepOut: s.keepOut,
+    constraints: p.constraints.info,
+    warnings,
+    elapsedMs: Date.now() - t0,
+    orbit,
+    orbitView: p.orbit ? (opts.orbitViewCache?.samples(p.orbit.ephemeris) ?? orbitViewSamples(p.orbit.ephemeris)) : null,
+  };
 }

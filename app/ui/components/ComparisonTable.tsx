@@ -5,6 +5,7 @@
  * at 1280 px in the band under the centre and right columns. Each metric's definition and source is one click (or
  * Enter) away on its i button. The run checkboxes choose which runs the plots and the 3D view show.
  */
+import { PartialNote } from './PartialNote';
 import { useEffect, useRef, useState } from 'react';
 import type { ComparisonColumn } from '../../engine/pipeline/comparison';
 import { COMPARISON_COLUMNS } from '../../engine/pipeline/comparison';
@@ -120,8 +121,11 @@ function RunHeader({ out, rowKey, selected }: { out: PipelineOutput; rowKey: str
 export function ComparisonTable() {
   const [tall, setTall] = useState(false);
   const [info, setInfo] = useState<{ key: string; anchor: HTMLElement } | null>(null);
-  const output: PipelineOutput | null = useAppState((s) => s.output);
-  const current = useAppState((s) => s.outputScenario === s.scenario);
+  // While a pass is partial the table keeps the last complete comparison (marked stale) under an
+  // "n of m runs" note, and shows no best marks, rather than a shrunken table of the arrived runs.
+  const partial = useAppState((s) => s.partial !== null);
+  const output: PipelineOutput | null = useAppState((s) => (s.partial ? (s.completeOutput ?? s.output) : s.output));
+  const current = useAppState((s) => s.outputScenario === s.scenario && s.partial === null);
   const selected = useAppState((s) => s.selectedRunKeys);
   if (!output) return <div className="panel-empty">No runs yet.</div>;
   const rows = output.comparison;
@@ -145,6 +149,7 @@ export function ComparisonTable() {
           {tall ? 'shorter' : 'taller'}
         </button>
       </div>
+      <PartialNote what="comparison" />
       <div className="table-scroll" data-testid="comparison-scroll">
         <table className="data-table comparison-table">
           <colgroup>
@@ -165,7 +170,7 @@ export function ComparisonTable() {
           </thead>
           <tbody>
             {COMPARISON_COLUMNS.map((c) => {
-              const best = output.best[c.key];
+              const best = partial ? undefined : output.best[c.key];
               const unit = unitOf(c);
               return (
                 <tr key={c.key} data-metric={c.key}>

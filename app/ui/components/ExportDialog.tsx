@@ -6,6 +6,7 @@ import { EXPORT_FORMATS, exportRun, type ExportFormat } from '../exporting';
 import { useStoreSlice } from '../store/hooks';
 import { runName } from '../modeNames';
 import { IssueText } from './fields';
+import { PartialNote } from './PartialNote';
 import { exportRateProblem } from '../exportRate';
 import { parseNumberText } from '../format';
 
@@ -15,6 +16,8 @@ export function ExportDialog() {
   const output = useAppState((s) => s.output);
   const current = useAppState((s) => s.outputScenario === s.scenario);
   const selected = useAppState((s) => s.selectedRunKeys);
+  // A partial pass mixes new runs with the previous pass's: nothing is exported until it is complete.
+  const partial = useAppState((s) => s.partial !== null);
   const [format, setFormat] = useState<ExportFormat>('aem');
   const [runKey, setRunKey] = useState('');
   const [rateText, setRateText] = useState('');
@@ -37,7 +40,7 @@ export function ExportDialog() {
   const rate = rateText.trim() === '' || rateProblem ? null : (parseNumberText(rateText) as number);
 
   const doExport = async () => {
-    if (!output || rateProblem) return;
+    if (!output || rateProblem || partial) return;
     setBusy(true);
     try {
       // A long run kept a display trace and is flown again for its export: let the busy state paint first.
@@ -65,6 +68,7 @@ export function ExportDialog() {
         <p>Nothing to export yet: no run has been computed.</p>
       ) : (
         <>
+          <PartialNote what="export" />
           {!current && <p className="issue warning">The scenario changed since this run; the export is of the last computed run.</p>}
           <fieldset>
             <legend>Format</legend>
@@ -125,7 +129,7 @@ export function ExportDialog() {
         <button onClick={close}>Cancel</button>
         <button
           className="primary"
-          disabled={!output || busy || !runKey || rateProblem !== null}
+          disabled={!output || busy || !runKey || rateProblem !== null || partial}
           title={rateProblem ?? undefined}
           onClick={() => void doExport()}
           data-testid="export-go"

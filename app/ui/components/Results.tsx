@@ -8,6 +8,7 @@ import { fmt, pct } from '../format';
 import { DEG_PER_RAD } from '../../engine/units';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import { presentIssues, sentence } from '../issues/present';
+import { PartialNote } from './PartialNote';
 
 export { ComparisonTable } from './ComparisonTable';
 
@@ -20,13 +21,17 @@ export function RunStatus() {
   // eslint-disable-next-line react-hooks/exhaustive-deps
   const blockers = useMemo(() => app.blockers(), [app, issues, excluded, pipeline]);
   const blocked = blockers.length > 0;
-  const warnings = useAppState((s) => (s.outputScenario === s.scenario ? s.output?.warnings : undefined));
+  // A partial pass's warnings are not final: the count waits for the whole pass (PartialNote says so).
+  const warnings = useAppState((s) => (s.outputScenario === s.scenario && !s.partial ? s.output?.warnings : undefined));
+  const partial = useAppState((s) => s.partial);
   const scenario = useAppState((s) => s.scenario);
   const shownBlockers = useMemo(() => presentIssues(blockers, scenario), [blockers, scenario]);
   const shownWarnings = useMemo(() => presentIssues(warnings ?? [], scenario), [warnings, scenario]);
   const label =
     pipeline.status === 'waiting' || pipeline.status === 'running'
-      ? 'Running…'
+      ? partial
+        ? `Running… ${partial.done} of ${partial.total} runs shown`
+        : 'Running…'
       : pipeline.status === 'done'
         ? `Up to date · ${pipeline.message}`
         : pipeline.status === 'failed'
@@ -49,6 +54,7 @@ export function RunStatus() {
         <span className={`status-text ${pipeline.status}`}>{label}</span>
       </div>
       {pipeline.status === 'failed' && <div className="issue error">{pipeline.message}</div>}
+      {!blocked && <PartialNote what="warnings" />}
       {!blocked && warnings && warnings.length > 0 && (
         <details className="run-warnings" data-testid="run-warnings">
           <summary>

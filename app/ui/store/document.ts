@@ -16,6 +16,7 @@ import type { PipelineOutput } from '../../engine/pipeline/types';
 import { createStore, type Store } from './createStore';
 import { formatPath, parsePath, setIn, type PathToken } from './paths';
 import { migrateScenario } from '../../engine/scenario/migrate';
+import { isStalePass, withComingRuns } from './partialOutput';
 
 export interface ValidationState {
   ok: boolean;
@@ -40,6 +41,15 @@ export interface PipelineState {
   message: string;
 }
 
+/** A pass of which only the first runs have arrived (partialOutput.ts). */
+export interface PartialState {
+  /** The runner's id of the pass. */
+  passId: number;
+  /** Runs arrived, and runs the pass will have. */
+  done: number;
+  total: number;
+}
+
 export interface AppState {
   scenario: unknown;
   savedScenario: unknown;
@@ -55,6 +65,16 @@ export interface AppState {
   output: PipelineOutput | null;
   /** The scenario snapshot `output` was computed from. */
   outputScenario: unknown;
+  /**
+   * Non-null while `output` is an incomplete pass: its runs are the arrived ones, then the previous
+   * output's runs still to come (kept so the plots do not flicker). Its comparison, best marks and
+   * warnings are not final; `completeOutput` holds the last complete pass.
+   */
+  partial: PartialState | null;
+  /** The last complete pass (what `output` was before the partial one; equal to `output` otherwise). */
+  completeOutput: PipelineOutput | null;
+  /** Runner id of the newest pass shown (complete or partial); older passes are ignored. */
+  outputPassId: number;
   /** Keys of the runs shown in plots and 3D (ControllerRun.key); the first is the detailed one. */
   selectedRunKeys: string[];
   /** Ids of the scenario's controllers left out of the comparison (unchecked). Kept as the
@@ -91,7 +111,10 @@ export interface AppStore extends Store<AppState> {
   markSaved(fileName: string): void;
   /** Name the document without touching it (the shell's file turned out to be the one already loaded). */
   setFileName(fileName: string, untitled: boolean): void;
-  setOutput(output: PipelineOutput, forScenario: unknown): void;
+  /** A complete pass; `passId` (the runner's) drops it when a newer pass is already shown. */
+  setOutput(output: PipelineOutput, forScenario: unknown, passId?: number): void;
+  /** The first runs of a pass (a partial reply); returns false when dropped as stale. */
+  setPartialOutput(output: PipelineOutput, forScenario: unknown, partial: PartialState): boolean;
   setPipeline(p: Partial<PipelineState>): void;
   selectRuns(keys: string[]): void;
   setExcluded(ids: string[]): void;
@@ -117,6 +140,9 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     pipeline: EMPTY_PIPELINE,
     output: null,
     outputScenario: null,
+    partial: null,
+    completeOutput: null,
+    outputPassId: 0,
     selectedRunKeys: [],
     excludedControllerIds: [],
   });
@@ -209,6 +235,8 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
         pipeline: EMPTY_PIPELINE,
         output: null,
         outputScenario: null,
+        partial: null,
+        completeOutput: null,
         selectedRunKeys: [],
         excludedControllerIds: [],
       });
@@ -222,14 +250,43 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
       base.setState((s) => ({ savedScenario: s.scenario, fileName, untitled: false, dirty: false }));
     },
 
-    setOutput(output, forScenario) {
+    setOutput(output, forScenario, passId) {
       base.setState((s) => {
+        if (passId !== undefined && isStalePass(s, passId, true)) return {};
         const keys = output.runs.map((r) => r.key);
         // Keep the user's selection where those runs still exist; otherwise show the first run.
         let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
         if (selected.length === 0 && keys.length > 0) selected = [keys[0]!];
-        return { output, outputScenario: forScenario, selectedRunKeys: selected };
+        const shownId = passId ?? Math.max(s.outputPassId, s.partial?.passId ?? 0);
+        return {
+          output,
+          outputScenario: forScenario,
+          selectedRunKeys: selected,
+          partial: null,
+          completeOutput: output,
+          outputPassId: shownId,
+        };
       });
+    },
+
+    setPartialOutput(output, forScenario, partial) {
+      let taken = false;
+      base.setState((s) => {
+        if (isStalePass(s, partial.passId, false)) return {};
+        taken = true;
+        const shown = withComingRuns(output, s.output);
+        const keys = shown.runs.map((r) => r.key);
+        let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
+        if (selected.length === 0 && keys.length > 0) selected = [keys[0]!];
+        return {
+          output: shown,
+          outputScenario: forScenario,
+          selectedRunKeys: selected,
+          partial: { ...partial },
+          outputPassId: partial.passId,
+        };
+      });
+      return taken;
     },
 
     setPipeline(p) {

@@ -10,6 +10,9 @@
  * With `workers` > 1 a pass is shared: worker i flies every `workers`-th run from run i
  * (runPipeline's runSlice) and the parts are merged (mergeRunSlices) when the last one replies, so
  * the engine time of an edit is divided by the cores the machine gives us.
+ *
+ * With one worker and `partialAfterRuns`, the worker also posts the pass's first runs as soon as
+ * they have flown ('partial' reply), so the plots can change before the whole pass is done.
  */
 import type { Result } from '../../engine/errors';
 import type { PipelineOutput } from '../../engine/pipeline/types';
@@ -34,6 +37,13 @@ export interface PipelineRunnerOptions {
   onStart?: (id: number) => void;
   /** `tag` is whatever the caller passed with the request (e.g. the document it came from). */
   onResult: (result: Result<PipelineOutput>, scenario: unknown, id: number, tag: unknown) => void;
+  /**
+   * Ask the worker for an early output after this many runs (one worker only: a shared pass is
+   * already divided); it comes to `onPartial` when its pass is still the newest requested, always
+   * before that pass's `onResult`. `total` is the number of runs of the whole pass.
+   */
+  partialAfterRuns?: number;
+  onPartial?: (output: PipelineOutput, total: number, scenario: unknown, id: number, tag: unknown) => void;
   onCrash: (message: string, id: number) => void;
   now?: () => number;
   setTimer?: (fn: () => void, ms: number) => unknown;
@@ -108,7 +118,8 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     o.onStart?.(job.id);
     for (let i = 0; i < slots; i++) {
       const options = slots > 1 ? { ...job.options, runSlice: { index: i, of: slots } } : job.options;
-      ensureWorker(i).postMessage({ type: 'run', id: job.id, scenario: job.scenario, options });
+      const early = slots === 1 && o.partialAfterRuns !== undefined && o.onPartial ? { partialAfterRuns: o.partialAfterRuns } : {};
+      ensureWorker(i).postMessage({ type: 'run', id: job.id, scenario: job.scenario, options, ...early });
     }
   }
 
@@ -130,6 +141,10 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   function onReply(slot: number, reply: RunReply) {
     const job = inFlight;
     if (!job || reply.id !== job.id) return;
+    if (reply.type === 'partial') {
+      if (reply.id === wantedId) o.onPartial?.(reply.output, reply.total, job.scenario, reply.id, job.tag);
+      return;
+    }
     if (reply.type === 'crash') {
       inFlight = null;
       if (reply.id === wantedId) o.onCrash(reply.message, reply.id);

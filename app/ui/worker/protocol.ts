@@ -8,9 +8,15 @@ export interface RunRequest {
   scenario: unknown;
   /** Passed through to runPipeline as its options. */
   options: Record<string, unknown>;
+  /** Post a 'partial' reply after this many runs (runPipeline's `partial`); absent: only the result. */
+  partialAfterRuns?: number;
 }
 
-export type RunReply = { type: 'result'; id: number; result: Result<PipelineOutput> } | { type: 'crash'; id: number; message: string };
+export type RunReply =
+  | { type: 'result'; id: number; result: Result<PipelineOutput> }
+  | { type: 'crash'; id: number; message: string }
+  /** The first runs of pass `id` (copied, not transferred: the same runs come again in the result). */
+  | { type: 'partial'; id: number; output: PipelineOutput; total: number };
 
 /** The typed-array buffers of an output, each once, for a zero-copy transfer. */
 export function transferables(out: PipelineOutput): ArrayBuffer[] {

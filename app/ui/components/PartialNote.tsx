@@ -1,0 +1,18 @@
+/**
+ * The "n of m runs" note shown where an incomplete pass must not read as finished (comparison
+ * table, best marks, warnings count, export): the plots already show the arrived runs.
+ */
+import { useAppState } from '../context';
+
+export function PartialNote({ what }: { what: string }) {
+  const partial = useAppState((s) => s.partial);
+  const running = useAppState((s) => s.pipeline.status === 'running' || s.pipeline.status === 'waiting');
+  if (!partial) return null;
+  return (
+    <div className="muted partial-note" data-testid={`partial-note-${what}`} role="status">
+      {running
+        ? `Waiting for the remaining runs (${partial.done} of ${partial.total} runs done)`
+        : `Incomplete pass: ${partial.done} of ${partial.total} runs (the rest was not flown)`}
+    </div>
+  );
+}

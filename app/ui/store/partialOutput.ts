@@ -1,0 +1,29 @@
+/**
+ * The store's rules for a pass that arrives in two replies (the worker's 'partial' reply with the
+ * first run(s), then the whole output). Pass ids are the runner's, increasing with each request.
+ *
+ * - A reply of a pass older than the one shown is dropped: a partial never replaces a newer pass
+ *   (complete or partial), and a complete output never replaces a newer partial one.
+ * - A complete output of the pass shown as partial replaces it (same id is allowed); a partial of
+ *   the pass already shown complete is dropped.
+ * - While a pass is partial the plots keep the previous output's runs that are still to come, so a
+ *   line does not vanish for the tens of milliseconds until its new trace arrives (no flicker);
+ *   the arrived runs come first, in pass order, as in the complete output.
+ */
+import type { ControllerRun, PipelineOutput } from '../../engine/pipeline/types';
+import type { AppState } from './document';
+
+/** True when a reply of pass `passId` must not replace what the store shows. */
+export function isStalePass(s: Pick<AppState, 'outputPassId' | 'partial'>, passId: number, complete: boolean): boolean {
+  if (complete) return passId < s.outputPassId;
+  // A partial reply: only for a pass newer than every pass shown so far.
+  return passId <= s.outputPassId;
+}
+
+/** The partial output with the previous output's runs that have not arrived yet appended. */
+export function withComingRuns(partial: PipelineOutput, previous: PipelineOutput | null): PipelineOutput {
+  if (!previous) return partial;
+  const arrived = new Set(partial.runs.map((r) => r.key));
+  const coming: ControllerRun[] = previous.runs.filter((r) => !arrived.has(r.key));
+  return coming.length ? { ...partial, runs: [...partial.runs, ...coming] } : partial;
+}
