@@ -138,7 +138,10 @@ export function ComparisonTable() {
   return (
     <div className={`comparison ${current ? '' : 'stale'} ${tall ? 'tall' : ''}`} data-testid="comparison">
       <div className="panel-head">
-        Comparison <span className="muted">· {rows.length} runs · tick to plot</span>
+        Comparison{' '}
+        <span className="muted">
+          · {rows.length} runs · {partial ? <PartialNote what="comparison" inline /> : 'tick to plot'}
+        </span>
         <button
           className="small push-right"
           onClick={() => setTall(!tall)}
@@ -149,7 +152,6 @@ export function ComparisonTable() {
           {tall ? 'shorter' : 'taller'}
         </button>
       </div>
-      <PartialNote what="comparison" />
       <div className="table-scroll" data-testid="comparison-scroll">
         <table className="data-table comparison-table">
           <colgroup>

@@ -24,6 +24,7 @@ export function RunStatus() {
   // A partial pass's warnings are not final: the count waits for the whole pass (PartialNote says so).
   const warnings = useAppState((s) => (s.outputScenario === s.scenario && !s.partial ? s.output?.warnings : undefined));
   const partial = useAppState((s) => s.partial);
+  const hadWarnings = useAppState((s) => (s.completeOutput?.warnings.length ?? 0) > 0);
   const scenario = useAppState((s) => s.scenario);
   const shownBlockers = useMemo(() => presentIssues(blockers, scenario), [blockers, scenario]);
   const shownWarnings = useMemo(() => presentIssues(warnings ?? [], scenario), [warnings, scenario]);
@@ -54,7 +55,8 @@ export function RunStatus() {
         <span className={`status-text ${pipeline.status}`}>{label}</span>
       </div>
       {pipeline.status === 'failed' && <div className="issue error">{pipeline.message}</div>}
-      {!blocked && <PartialNote what="warnings" />}
+      {/* In place of the warnings line while the pass is partial (the status line says "n of m runs" too). */}
+      {!blocked && partial && hadWarnings && <PartialNote what="warnings" />}
       {!blocked && warnings && warnings.length > 0 && (
         <details className="run-warnings" data-testid="run-warnings">
           <summary>
