@@ -14,7 +14,7 @@ import type { PipelineOutput } from '../../app/engine/pipeline/types';
 import { createOrbitViewCache } from '../../app/engine/orbit/viewSamplesCache';
 import { answerRun } from '../../app/ui/worker/answerRun';
 import { createPipelineRunner, type WorkerLike } from '../../app/ui/worker/client';
-import type { RunReply, RunRequest } from '../../app/ui/worker/protocol';
+import type { RunReply, RunRequest, WorkerMessage } from '../../app/ui/worker/protocol';
 import { createAppStore } from '../../app/ui/store/document';
 import { preflight } from '../../app/ui/preflight';
 
@@ -25,18 +25,26 @@ const value = (r: ReturnType<typeof runPipeline>): PipelineOutput => {
 };
 const sameButTime = (a: PipelineOutput, b: PipelineOutput) => expect({ ...a, elapsedMs: 0 }).toEqual({ ...b, elapsedMs: 0 });
 
-/** The worker of pipeline.worker.ts, in process: every message crosses a structured clone with its transfer list. */
+/**
+ * The worker of pipeline.worker.ts, in process: every message crosses a structured clone with its
+ * transfer list; a pass waiting for 'continue' (partialWait) is resumed by that message.
+ */
 class InProcessWorker implements WorkerLike {
   onmessage: ((ev: MessageEvent<RunReply>) => void) | null = null;
   onerror: ((ev: ErrorEvent) => void) | null = null;
   private cache = createOrbitViewCache();
-  postMessage(m: RunRequest) {
+  private pending: { id: number; resume: (go: boolean) => void } | null = null;
+  postMessage(m: WorkerMessage) {
     const req = structuredClone(m);
-    answerRun(
-      req,
-      (reply, transfer) => this.onmessage?.({ data: structuredClone(reply, { transfer }) } as MessageEvent<RunReply>),
-      this.cache,
-    );
+    if (req.type === 'continue') {
+      const p = this.pending;
+      this.pending = null;
+      if (p && p.id === req.id) p.resume(req.go);
+      return;
+    }
+    const post = (reply: RunReply, transfer: ArrayBuffer[]) =>
+      this.onmessage?.({ data: structuredClone(reply, { transfer }) } as MessageEvent<RunReply>);
+    answerRun(req, post, this.cache, req.partialWait ? (resume) => (this.pending = { id: req.id, resume }) : undefined);
   }
   terminate() {}
 }
@@ -79,9 +87,11 @@ describe('runner + worker with partial replies (structured clone, transfer)', ()
     const events: string[] = [];
     let final: PipelineOutput | null = null;
     let early: PipelineOutput | null = null;
+    const painted: (() => void)[] = [];
     const runner = createPipelineRunner({
       spawn: () => new InProcessWorker(),
       partialAfterRuns: 1,
+      afterPaint: (fn) => painted.push(fn),
       onPartial: (out, total) => {
         events.push(`partial ${out.runs.length}/${total}`);
         early = out;
@@ -93,9 +103,40 @@ describe('runner + worker with partial replies (structured clone, transfer)', ()
       onCrash: (m) => events.push(`crash ${m}`),
     });
     runner.runNow(json);
+    // The rest of the pass waits for the renderer's paint.
+    expect(events).toEqual([`partial 1/${whole.runs.length}`]);
+    expect(runner.busy).toBe(true);
+    painted.shift()!();
     expect(events).toEqual([`partial 1/${whole.runs.length}`, 'result']);
     sameButTime(final!, whole);
     expect(early!.runs[0]).toEqual(whole.runs[0]);
+  });
+
+  it('a newer edit drops the rest of a pass waiting after its partial; only the newer result arrives', () => {
+    const json = load('tern12-reversal.scenario.json');
+    const edited = structuredClone(json) as { name: string };
+    edited.name = `${edited.name} (edited)`;
+    const events: string[] = [];
+    const painted: (() => void)[] = [];
+    const results: PipelineOutput[] = [];
+    const runner = createPipelineRunner({
+      spawn: () => new InProcessWorker(),
+      partialAfterRuns: 1,
+      afterPaint: (fn) => painted.push(fn),
+      onPartial: (_o, _t, _s, id) => events.push(`partial ${id}`),
+      onResult: (r, _s, id) => {
+        events.push(`result ${id}`);
+        results.push(value(r));
+      },
+      onCrash: (m) => events.push(`crash ${m}`),
+    });
+    runner.runNow(json);
+    runner.runNow(edited); // waits: pass 1 is in flight (held after its partial)
+    painted.shift()!(); // pass 1 is no longer wanted: its rest is dropped, pass 2 starts
+    expect(events).toEqual(['partial 1', 'partial 2']);
+    painted.shift()!();
+    expect(events).toEqual(['partial 1', 'partial 2', 'result 2']);
+    sameButTime(results[0]!, value(runPipeline(edited)));
   });
 
   it('with several workers no partial is asked for (a shared pass is already divided)', () => {

@@ -17,10 +17,10 @@
 import type { Result } from '../../engine/errors';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import { mergeRunSlices } from '../../engine/pipeline/slices';
-import type { RunReply, RunRequest } from './protocol';
+import type { RunReply, WorkerMessage } from './protocol';
 
 export interface WorkerLike {
-  postMessage(message: RunRequest): void;
+  postMessage(message: WorkerMessage): void;
   terminate(): void;
   onmessage: ((ev: MessageEvent<RunReply>) => void) | null;
   onerror: ((ev: ErrorEvent) => void) | null;
@@ -44,6 +44,12 @@ export interface PipelineRunnerOptions {
    */
   partialAfterRuns?: number;
   onPartial?: (output: PipelineOutput, total: number, scenario: unknown, id: number, tag: unknown) => void;
+  /**
+   * Calls back once the partial output has been painted; the worker flies the rest of the pass only
+   * then (it would otherwise compete with the renderer for the cores). Default: the next animation
+   * frame, then a task (the worker goes on by itself after a short wait if no frame comes).
+   */
+  afterPaint?: (fn: () => void) => void;
   onCrash: (message: string, id: number) => void;
   now?: () => number;
   setTimer?: (fn: () => void, ms: number) => unknown;
@@ -78,6 +84,9 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   const now = o.now ?? (() => performance.now());
   const setTimer = o.setTimer ?? ((fn, ms) => setTimeout(fn, ms));
   const clearTimer = o.clearTimer ?? ((h) => clearTimeout(h as ReturnType<typeof setTimeout>));
+  const afterPaint =
+    o.afterPaint ??
+    ((fn: () => void) => (typeof requestAnimationFrame === 'function' ? requestAnimationFrame(() => setTimer(fn, 0)) : setTimer(fn, 0)));
 
   const workers: (WorkerLike | null)[] = Array.from({ length: slots }, () => null);
   let nextId = 1;
@@ -118,7 +127,8 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     o.onStart?.(job.id);
     for (let i = 0; i < slots; i++) {
       const options = slots > 1 ? { ...job.options, runSlice: { index: i, of: slots } } : job.options;
-      const early = slots === 1 && o.partialAfterRuns !== undefined && o.onPartial ? { partialAfterRuns: o.partialAfterRuns } : {};
+      const early =
+        slots === 1 && o.partialAfterRuns !== undefined && o.onPartial ? { partialAfterRuns: o.partialAfterRuns, partialWait: true } : {};
       ensureWorker(i).postMessage({ type: 'run', id: job.id, scenario: job.scenario, options, ...early });
     }
   }
@@ -142,7 +152,11 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     const job = inFlight;
     if (!job || reply.id !== job.id) return;
     if (reply.type === 'partial') {
-      if (reply.id === wantedId) o.onPartial?.(reply.output, reply.total, job.scenario, reply.id, job.tag);
+      const worker = workers[slot];
+      const answer = (go: boolean) => worker?.postMessage({ type: 'continue', id: reply.id, go });
+      if (reply.id !== wantedId) return answer(false); // a newer edit came: drop the rest of this pass
+      o.onPartial?.(reply.output, reply.total, job.scenario, reply.id, job.tag);
+      afterPaint(() => answer(reply.id === wantedId));
       return;
     }
     if (reply.type === 'crash') {

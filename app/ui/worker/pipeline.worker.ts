@@ -6,15 +6,36 @@
 // First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
 import '../../no-eval';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
-import type { RunRequest } from './protocol';
+import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
 const orbitViewCache = createOrbitViewCache();
 
-scope.onmessage = (ev: MessageEvent<RunRequest>) => {
+// A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
+// message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
+const REST_AFTER_MS = 250;
+let pending: { id: number; resume: (go: boolean) => void; timer: ReturnType<typeof setTimeout> } | null = null;
+
+function resumePending(id: number, go: boolean) {
+  const p = pending;
+  if (!p || p.id !== id) return;
+  pending = null;
+  clearTimeout(p.timer);
+  p.resume(go);
+}
+
+scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
   const req = ev.data;
+  if (req?.type === 'continue') return resumePending(req.id, req.go);
   if (!req || req.type !== 'run') return;
-  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+  if (pending) resumePending(pending.id, false);
+  const wait = req.partialWait
+    ? (resume: (go: boolean) => void) => {
+        const timer = setTimeout(() => resumePending(req.id, true), REST_AFTER_MS);
+        pending = { id: req.id, resume, timer };
+      }
+    : undefined;
+  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache, wait);
 };

@@ -10,7 +10,18 @@ export interface RunRequest {
   options: Record<string, unknown>;
   /** Post a 'partial' reply after this many runs (runPipeline's `partial`); absent: only the result. */
   partialAfterRuns?: number;
+  /** With partialAfterRuns: fly the rest only when a 'continue' for this id comes (answerRun.ts). */
+  partialWait?: boolean;
 }
+
+/** The renderer has shown the partial reply of pass `id`: fly the rest (go) or drop it (a newer edit came). */
+export interface ContinueRequest {
+  type: 'continue';
+  id: number;
+  go: boolean;
+}
+
+export type WorkerMessage = RunRequest | ContinueRequest;
 
 export type RunReply =
   | { type: 'result'; id: number; result: Result<PipelineOutput> }
