@@ -84,6 +84,7 @@ export function createAppController(o: AppControllerOptions): AppController {
     onStart: () => store.setPipeline({ status: 'running' }),
     // The first run of a pass is shown as soon as it has flown (partialOutput.ts has the rules).
     partialAfterRuns: 1,
+    partialSkipsFirstPass: true,
     onPartial: (output, total, _input, id, source) => {
       const s = store.getState();
       const src = source as { scenario: unknown; excluded: unknown };

@@ -153,6 +153,28 @@ describe('runner + worker with partial replies (structured clone, transfer)', ()
     expect(sent).toHaveLength(2);
     expect(sent.every((m) => m.partialAfterRuns === undefined)).toBe(true);
   });
+
+  it('partialSkipsFirstPass: the first pass (the cold start) is flown whole, later passes ask for the early output', () => {
+    const sent: RunRequest[] = [];
+    const worker: WorkerLike = { postMessage: (m: RunRequest) => sent.push(m), terminate() {}, onmessage: null, onerror: null };
+    const runner = createPipelineRunner({
+      spawn: () => worker,
+      workers: 1,
+      partialAfterRuns: 1,
+      partialSkipsFirstPass: true,
+      onPartial: () => {},
+      onResult: () => {},
+      onCrash: () => {},
+    });
+    runner.runNow({});
+    expect(sent).toHaveLength(1);
+    expect(sent[0]!.partialAfterRuns).toBeUndefined();
+    // The first pass answers; the next one is sent with the early output asked for.
+    worker.onmessage!({ data: { type: 'result', id: sent[0]!.id, result: { ok: false, errors: [] } } } as MessageEvent);
+    runner.runNow({});
+    expect(sent).toHaveLength(2);
+    expect(sent[1]!.partialAfterRuns).toBe(1);
+  });
 });
 
 describe('store partial state', () => {
