@@ -9,17 +9,16 @@
  * merge scripts, submit.sh, README.txt); with --submit it also calls sbatch (array, then the
  * merge with afterok) and prints the job ids. Exit 0, 2 invalid input, 1 sbatch refused.
  */
-import { chmod, mkdir } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { ParsedArgs } from './args';
 import { printIssues, type CliIo } from './io';
-import { writeFileAtomicNode } from './fs';
+import { makeCampaignFolders, writeCampaign } from './campaignWrite';
 import { prepareOutputFolder } from './output';
 import { findShardFiles, mergeShards } from './campaign';
-import { arrayJobScript, mergeJobScript, submitCampaign, type CampaignSlurmSpec } from './slurm';
+import { arrayJobScript, mergeJobScript, type CampaignSlurmSpec } from './slurm';
 import { makeStudyContext, type StudyOverrides } from '../../app/engine/study/context';
-import { CAMPAIGN_SCENARIO, CAMPAIGN_SHARDS, campaignReadme, campaignSubmitScript } from '../../app/engine/study/campaignFolder';
+import { CAMPAIGN_SCENARIO, CAMPAIGN_SHARDS, campaignReadme } from '../../app/engine/study/campaignFolder';
 import { numberOptions, STUDY_LIMITS } from './options';
 import { shareCell } from './study';
 
@@ -156,41 +155,14 @@ export async function runStudySlurm(json: unknown, a: ParsedArgs, io: CliIo): Pr
     memoryMB: mem!,
     timeLimitMin: minutes!,
   });
-  try {
-    for (const d of ['slurm', 'logs', CAMPAIGN_SHARDS]) await mkdir(path.join(dir, d), { recursive: true });
-  } catch (e) {
-    io.err(`error: could not create folders in ${dir}: ${(e as Error).message}`);
-    return 1;
-  }
-  const files: [string, string, boolean][] = [
-    [path.join(dir, CAMPAIGN_SCENARIO), JSON.stringify(scenario, null, 2) + '\n', false],
-    [path.join(dir, 'README.txt'), readme, false],
-    [path.join(dir, 'slurm', 'shards.sbatch'), arrayText.value, true],
-    [path.join(dir, 'slurm', 'merge.sbatch'), mergeText.value, true],
-    [path.join(dir, 'slurm', 'submit.sh'), campaignSubmitScript(), true],
-  ];
-  for (const [file, text, exec] of files) {
-    const w = await writeFileAtomicNode(file, text);
-    if (!w.ok) {
-      io.err(`error: could not write ${file}: ${w.message}`);
-      return 1;
-    }
-    if (exec) await chmod(file, 0o755);
-    io.err(`wrote ${file}`);
-  }
-  io.err(
+  if (!(await makeCampaignFolders(dir, io))) return 1;
+  const texts = { scenario: JSON.stringify(scenario, null, 2) + '\n', readme, arrayScript: arrayText.value, mergeScript: mergeText.value };
+  return writeCampaign(
+    dir,
+    texts,
     `campaign: ${def.runs} cases × ${controllers.length} controllers in ${shards} shards; per array task ${cpus} CPU, ${mem} MiB, ${minutes} min`,
+    spec,
+    a.flags.has('submit'),
+    io,
   );
-  if (!a.flags.has('submit')) {
-    io.out(`campaign folder ${dir}: submit with "bash ${path.join(dir, 'slurm', 'submit.sh')}" (README.txt: other schedulers)`);
-    return 0;
-  }
-  const sub = await submitCampaign(spec);
-  if (!sub.ok) {
-    printIssues(io, 'the campaign was not submitted', sub.errors);
-    return 1;
-  }
-  io.out(`shard array job: ${sub.value.arrayJobId}`);
-  io.out(`merge job: ${sub.value.mergeJobId}`);
-  return 0;
 }

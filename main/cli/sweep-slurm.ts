@@ -13,20 +13,20 @@
  * afterok) and the job ids printed. Exit 0, 2 invalid input (naming the option), 1 a failed write
  * or a refused sbatch.
  */
-import { chmod, mkdir, readdir } from 'node:fs/promises';
+import { readdir } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { ParsedArgs } from './args';
 import { printIssues, printWarnings, type CliIo } from './io';
-import { writeFileAtomicNode } from './fs';
+import { makeCampaignFolders, writeCampaign } from './campaignWrite';
 import { prepareOutputFolder } from './output';
-import { arrayJobScript, mergeJobScript, shellQuote, submitCampaign, type CampaignSlurmSpec } from './slurm';
+import { arrayJobScript, mergeJobScript, shellQuote, type CampaignSlurmSpec } from './slurm';
 import { sweepDefinitionOf, sweepOptionParts } from './sweep';
 import { CAUTION_TEXT } from '../../app/engine/caution';
 import { cellCount } from '../../app/engine/study/sweep';
 import { sweepInfo } from '../../app/engine/study/sweepRun';
 import { sweepShardCells, SWEEP_SHARD_EXTENSION } from '../../app/engine/study/sweepShard';
-import { CAMPAIGN_SCENARIO, CAMPAIGN_SHARDS, campaignSubmitScript } from '../../app/engine/study/campaignFolder';
+import { CAMPAIGN_SCENARIO, CAMPAIGN_SHARDS } from '../../app/engine/study/campaignFolder';
 
 const BIN = fileURLToPath(new URL('../../bin/slewsmith.mjs', import.meta.url));
 
@@ -209,47 +209,20 @@ export async function runSweepSlurm(doc: { json: unknown; text: string }, a: Par
     memoryMB: mem,
     timeLimitMin: minutes,
   });
-  try {
-    for (const sub of ['slurm', 'logs', CAMPAIGN_SHARDS]) await mkdir(path.join(dir, sub), { recursive: true });
-  } catch (e) {
-    io.err(`error: could not create folders in ${dir}: ${(e as Error).message}`);
-    return 1;
-  }
+  if (!(await makeCampaignFolders(dir, io))) return 1;
   // The merge reads every shard file in shards/: files of an earlier campaign there would be refused with these.
   const old = (await readdir(path.join(dir, CAMPAIGN_SHARDS)).catch(() => [] as string[])).filter((f) => f.endsWith(SWEEP_SHARD_EXTENSION));
   if (old.length)
     io.err(
       `warning: ${path.join(dir, CAMPAIGN_SHARDS)} already holds ${old.length} shard file${old.length === 1 ? '' : 's'} of an earlier run; the merge reads every one there, so remove them before submitting unless they are this campaign's`,
     );
-  const files: [string, string, boolean][] = [
-    [path.join(dir, CAMPAIGN_SCENARIO), doc.text, false],
-    [path.join(dir, 'README.txt'), readme, false],
-    [path.join(dir, 'slurm', 'shards.sbatch'), arrayText.value, true],
-    [path.join(dir, 'slurm', 'merge.sbatch'), mergeText.value, true],
-    [path.join(dir, 'slurm', 'submit.sh'), campaignSubmitScript(), true],
-  ];
-  for (const [file, text, exec] of files) {
-    const w = await writeFileAtomicNode(file, text);
-    if (!w.ok) {
-      io.err(`error: could not write ${file}: ${w.message}`);
-      return 1;
-    }
-    if (exec) await chmod(file, 0o755);
-    io.err(`wrote ${file}`);
-  }
-  io.err(
+  const texts = { scenario: doc.text, readme, arrayScript: arrayText.value, mergeScript: mergeText.value };
+  return writeCampaign(
+    dir,
+    texts,
     `sweep campaign: ${total} cells × ${def.runs} cases × ${info.controllers.length} controllers in ${shards} shards; per array task ${cpus} CPU, ${mem} MiB, ${minutes} min`,
+    spec,
+    a.flags.has('submit'),
+    io,
   );
-  if (!a.flags.has('submit')) {
-    io.out(`campaign folder ${dir}: submit with "bash ${path.join(dir, 'slurm', 'submit.sh')}" (README.txt: other schedulers)`);
-    return 0;
-  }
-  const sub = await submitCampaign(spec);
-  if (!sub.ok) {
-    printIssues(io, 'the campaign was not submitted', sub.errors);
-    return 1;
-  }
-  io.out(`shard array job: ${sub.value.arrayJobId}`);
-  io.out(`merge job: ${sub.value.mergeJobId}`);
-  return 0;
 }
