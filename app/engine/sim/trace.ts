@@ -364,22 +364,7 @@ export function decimateTrace(tr: RunTrace, every: number): RunTrace {
   const idx = new Int32Array(m);
   for (let i = 0, k = 0; k < n; k += step) idx[i++] = k;
   if (m > 0) idx[m - 1] = n - 1;
-  const out = allocateTrace(tr.nWheels, m);
-  out.n = m;
-  for (let i = 0; i < m; i++) {
-    out.j[i] = tr.j[idx[i]!]!;
-    out.segment[i] = tr.segment[idx[i]!]!;
-  }
-  for (const name of TRACE_CHANNELS) {
-    const w = channelWidth(name, tr.nWheels);
-    const src = tr[name];
-    const a = out[name];
-    for (let i = 0; i < m; i++) {
-      const o = idx[i]! * w;
-      for (let c = 0; c < w; c++) a[i * w + c] = src[o + c]!;
-    }
-  }
-  return out;
+  return subsetTrace(tr, idx);
 }
 
 /**
