@@ -8,6 +8,7 @@ import type { PipelineOutput } from '../../engine/pipeline/types';
 import { createOrbitView, type OrbitViewHandle } from '../../view3d/orbitView';
 import { useApp } from '../context';
 import { toOrbitViewData } from './orbitViewData';
+import { canvasUpkeep } from './canvasUpkeep';
 
 export function OrbitView3D({
   output,
@@ -41,31 +42,20 @@ export function OrbitView3D({
     // For the end-to-end tests and the console (as __slewsmithView for the attitude view).
     const hook = window as unknown as { __slewsmithOrbitView?: OrbitViewHandle };
     hook.__slewsmithOrbitView = v;
-    let activeUntil = 0;
-    const poke = () => {
-      activeUntil = performance.now() + 1200;
-    };
-    c.addEventListener('pointerdown', poke);
-    c.addEventListener('pointermove', poke);
-    c.addEventListener('wheel', poke, { passive: true });
-    const ro = new ResizeObserver(() => {
-      v.resize(h.clientWidth, h.clientHeight);
+    const upkeep = canvasUpkeep(c, h, (w, hh) => {
+      v.resize(w, hh);
       needsRender.current = true;
     });
-    ro.observe(h);
     const offTick = app.clock.onTick((t, moved) => {
       if (moved) v.setTime(t);
-      if (moved || needsRender.current || performance.now() < activeUntil) {
+      if (moved || needsRender.current || upkeep.active()) {
         needsRender.current = false;
         v.render();
       }
     });
     return () => {
       offTick();
-      ro.disconnect();
-      c.removeEventListener('pointerdown', poke);
-      c.removeEventListener('pointermove', poke);
-      c.removeEventListener('wheel', poke);
+      upkeep.dispose();
       v.dispose();
       if (hook.__slewsmithOrbitView === v) delete hook.__slewsmithOrbitView;
       view.current = null;

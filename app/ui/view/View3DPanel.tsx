@@ -11,6 +11,7 @@ import { OrbitView3D } from './OrbitView3D';
 import type { ViewLayout, ViewOptions } from '../../view3d/types';
 import { useApp, useAppState } from '../context';
 import { constraintCones, conesKey, toViewRuns } from './viewRuns';
+import { canvasUpkeep } from './canvasUpkeep';
 
 const TOGGLES: { key: keyof ViewOptions; label: string }[] = [
   { key: 'showTrail', label: 'trail' },
@@ -72,18 +73,10 @@ export function View3DPanel() {
     // view handle (model, renderer, camera). Nothing in the app reads it.
     const hook = window as unknown as { __slewsmithView?: AttitudeViewHandle };
     hook.__slewsmithView = v;
-    let activeUntil = 0;
-    const poke = () => {
-      activeUntil = performance.now() + 1200;
-    };
-    c.addEventListener('pointerdown', poke);
-    c.addEventListener('pointermove', poke);
-    c.addEventListener('wheel', poke, { passive: true });
-    const ro = new ResizeObserver(() => {
-      v.resize(h.clientWidth, h.clientHeight);
+    const upkeep = canvasUpkeep(c, h, (w, hh) => {
+      v.resize(w, hh);
       needsRender.current = true;
     });
-    ro.observe(h);
     const offTick = app.clock.onTick((t, moved) => {
       if (moved) {
         v.setTime(t);
@@ -99,17 +92,14 @@ export function View3DPanel() {
         needsRender.current = true;
         return;
       }
-      if (moved || needsRender.current || performance.now() < activeUntil) {
+      if (moved || needsRender.current || upkeep.active()) {
         needsRender.current = false;
         v.render();
       }
     });
     return () => {
       offTick();
-      ro.disconnect();
-      c.removeEventListener('pointerdown', poke);
-      c.removeEventListener('pointermove', poke);
-      c.removeEventListener('wheel', poke);
+      upkeep.dispose();
       v.dispose();
       if (hook.__slewsmithView === v) delete hook.__slewsmithView;
       view.current = null;
