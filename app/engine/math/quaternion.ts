@@ -10,6 +10,7 @@
 import { quat, vec3, mat3 } from 'gl-matrix';
 import type { Mat3, Vec3 } from './mat3';
 import type { Rng } from './prng';
+import { hypot3 } from './hypot';
 
 export type Quat = Float64Array;
 
@@ -214,10 +215,10 @@ export function qToAxisAngle(axisOut: Vec3, q: ArrayLike<number>): number {
 
 /**
  * Shortest rotation angle of q in [0, π]: 2·atan2(|ε|, |η|). Same as 2·arccos|η| but accurate
- * near 0 and π (no unclamped acos).
+ * near 0 and π (no unclamped acos). |ε| by hypot3 (hypot.ts), Math.hypot bit for bit without the call.
  */
 export function qAngle(q: ArrayLike<number>): number {
-  return 2 * Math.atan2(Math.hypot(q[0]!, q[1]!, q[2]!), Math.abs(q[3]!));
+  return 2 * Math.atan2(hypot3(q[0]!, q[1]!, q[2]!), Math.abs(q[3]!));
 }
 
 /** Shortest rotation angle between two attitudes (from the relative quaternion a* ⊗ b, accurate near 0). */
@@ -236,7 +237,7 @@ export function qFromRotationVector(out: Quat, phi: ArrayLike<number>): Quat {
   const x = phi[0]!,
     y = phi[1]!,
     z = phi[2]!;
-  const th = Math.hypot(x, y, z);
+  const th = hypot3(x, y, z);
   const half = 0.5 * th;
   // sin(θ/2)/θ with a series near zero.
   const k = th < 1e-4 ? 0.5 - (th * th) / 48 : Math.sin(half) / th;
