@@ -27,6 +27,11 @@ export abstract class QuaternionLawBase implements AttitudeController {
   abstract readonly jumpDecrease: number;
   readonly certificate = null;
   protected readonly st: TrackingState = makeTrackingState();
+  /**
+   * The input whose tracking error this.st holds by prepareSample's promise (its values unchanged
+   * until the next torque call), or null. Any other input forms its own, clearing this.
+   */
+  private prepared: ControlInput | null = null;
 
   constructor(
     readonly label: string,
@@ -42,8 +47,22 @@ export abstract class QuaternionLawBase implements AttitudeController {
   abstract jumpGuard(input: ControlInput, logic: number): number;
   abstract updateLogic(input: ControlInput, logic: number): { logic: number; why: string | null };
 
+  prepareSample(input: ControlInput): void {
+    computeTracking(this.st, this.plant, input);
+    this.prepared = input;
+  }
+
+  /** The tracking error of `input`: the prepared one when it is that input, else formed now. */
+  private track(input: ControlInput): TrackingState {
+    if (input === this.prepared) return this.st;
+    this.prepared = null;
+    return computeTracking(this.st, this.plant, input);
+  }
+
   torque(out: Vec3, input: ControlInput, logic: number): Vec3 {
-    const st = computeTracking(this.st, this.plant, input);
+    const st = this.track(input);
+    // The promise ends with the torque: the caller may change the input after it.
+    this.prepared = null;
     const s = this.sign(st.qe[3]!, logic) * this.kp;
     const ex = st.qe[0]!,
       ey = st.qe[1]!,
@@ -56,7 +75,7 @@ export abstract class QuaternionLawBase implements AttitudeController {
   }
 
   diagnostics(out: ControlDiagnostics, input: ControlInput, logic: number): ControlDiagnostics {
-    return this.diagnosticsFrom(out, computeTracking(this.st, this.plant, input), logic);
+    return this.diagnosticsFrom(out, this.track(input), logic);
   }
 
   /** The tracking error the last torque call formed is still in this.st (torque writes only scratch after it). */
@@ -80,7 +99,7 @@ export abstract class QuaternionLawBase implements AttitudeController {
   protected abstract familyMin(eta: number): number;
 
   protected eta(input: ControlInput): number {
-    return computeTracking(this.st, this.plant, input).qe[3]!;
+    return this.track(input).qe[3]!;
   }
 }
 

@@ -111,6 +111,13 @@ export interface AttitudeController {
    * unchanged since; same bits as `diagnostics(out, thatInput, logic)`.
    */
   diagnosticsOfLastTorque?(out: ControlDiagnostics, logic: number): ControlDiagnostics;
+  /**
+   * Optional shortcut for a sampled loop: the caller promises that `input`'s values stay unchanged
+   * until the law's next `torque` call on it, so the law may form its tracking error from it once
+   * here and use it for the jump guard, the logic update and the torque of this sample (same bits
+   * as forming it in each). A call on another input in between forms that one as usual.
+   */
+  prepareSample?(input: ControlInput): void;
 }
 
 export function makeDiagnostics(): ControlDiagnostics {

@@ -42,6 +42,8 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
       core.segment = s;
       core.ctrl.beginSegment?.(core.input);
     }
+    // The measured input stays as it is until the torque: the law may form its tracking error once.
+    core.ctrl.prepareSample?.(core.input);
     if (Number.isNaN(core.logic)) core.logic = core.ctrl.initialLogic(core.input);
     core.logicSteps(t, core.input);
     core.ctrl.torque(core.tauCmd, core.input, core.logic);
