@@ -5,6 +5,9 @@
  *    jump guard, the logic update and the torque gives the same bits as forming it in each call,
  *    also when a call on another input (the true state's diagnostics at a jump) comes in between,
  *    and the promise ends with the torque (a changed input is formed again);
+ *  - LoopCore.measuredIsTrue (sim/loop.ts) with sensors that add nothing answers exactly "is every
+ *    measured value the true one, bit for bit" (Object.is) after sensors.ts measure, over states
+ *    holding +0, −0, NaN, ±∞ and rate biases of ±0 (IEEE 754-2019 §6.3 signed-zero sums);
  *  - a noisy hysteretic run that jumps records the same trace, bit for bit, as the same law
  *    without the shortcut, and its jump follows the hysteretic jump map h⁺ = sgn(η) when hη ≤ −δ
  *    (Mayhew, Sanfelice & Teel, IEEE TAC 56(11):2555–2566, 2011, eq. of the jump set; methods §3).
@@ -14,7 +17,9 @@ import { makeRng } from '../../app/engine/math/prng';
 import { makeDiagnostics, type AttitudeController, type ControlInput } from '../../app/engine/control/types';
 import { TRACE_CHANNELS } from '../../app/engine/sim/trace';
 import type { ClosedLoopResult } from '../../app/engine/sim/closedLoop';
-import { fly, law, pyramidVehicle } from '../reference/closedloop-fixtures';
+import { fixedReference, fly, law, pyramidVehicle } from '../reference/closedloop-fixtures';
+import { LoopCore } from '../../app/engine/sim/loop';
+import { measure, type SensorModel } from '../../app/engine/sim/sensors';
 
 const veh = pyramidVehicle(
   [
@@ -137,5 +142,58 @@ describe('a noisy hysteretic run that jumps', () => {
     expect(Math.abs((j.lyapunovBefore ?? NaN) - (j.lyapunovAfter ?? NaN) - -4 * kp * eta)).toBeLessThan(1e-12 * kp);
     expect(fast.trace.logic[k]).toBe(-1);
     sameRun(fast, slow);
+  });
+});
+
+describe('measuredIsTrue with sensors that add nothing', () => {
+  it('is true exactly when every measured value is the true one bit for bit (−0, NaN, ±∞, bias ±0)', () => {
+    const special = [0, -0, NaN, Infinity, -Infinity, 1e-300, -2.5, 5e-324];
+    const pick = (r: number): number => (r < 0.5 ? special[Math.floor(r * 16)]! : rng.normal());
+    let agreeTrue = 0,
+      agreeFalse = 0;
+    for (const bias of [
+      [0, 0, 0],
+      [-0, 0, -0],
+    ]) {
+      const sensors: SensorModel = { attitudeSigmaRad: 0, rateSigmaRadPerS: 0, rateBiasRadPerS: bias, adversarialEta: 0 };
+      const core = new LoopCore({
+        plant: veh.plant,
+        wheels: veh.wheels,
+        controller: law(SPECS[0]!, veh),
+        reference: fixedReference(),
+        q0: [0, 0, 0, 1],
+        omega0: [0, 0, 0],
+        hWheel0: new Float64Array(veh.wheels.n),
+        tEnd: 1,
+        timing: 'sampled',
+        controlRateHz: 10,
+        rk4StepsPerSample: 1,
+        sensors,
+        seed: 1,
+        actuation: { mode: 'hold' },
+        allocation: 'min-norm',
+      });
+      for (let k = 0; k < 4000; k++) {
+        // Mostly ordinary values, with one or two special ones somewhere.
+        for (let i = 0; i < 4; i++) core.qTrue[i] = k % 5 === 0 ? pick(rng.next()) : rng.normal();
+        for (let i = 0; i < 3; i++) core.wTrue[i] = k % 2 === 0 ? pick(rng.next()) : rng.normal();
+        for (let i = 0; i < core.N; i++) core.hTrue[i] = k % 7 === 0 ? pick(rng.next()) : rng.normal();
+        measure(core.qMeas, core.wMeas, sensors, core.rng, core.qTrue, core.wTrue, core.qRef, core.axis);
+        for (let i = 0; i < core.N; i++) core.hMeas[i] = core.hTrue[i]!; // as sampled.ts does
+        let same = true;
+        for (let i = 0; i < 4; i++) if (!Object.is(core.qMeas[i], core.qTrue[i])) same = false;
+        for (let i = 0; i < 3; i++) if (!Object.is(core.wMeas[i], core.wTrue[i])) same = false;
+        for (let i = 0; i < core.N; i++) if (!Object.is(core.hMeas[i], core.hTrue[i])) same = false;
+        // NaN equals itself under Object.is but never under ===: the loop then takes the general path.
+        let anyNaN = false;
+        for (const a of [core.qTrue, core.wTrue, core.hTrue]) for (let i = 0; i < a.length; i++) if (Number.isNaN(a[i])) anyNaN = true;
+        const want = same && !anyNaN;
+        expect(core.measuredIsTrue()).toBe(want);
+        if (want) agreeTrue++;
+        else agreeFalse++;
+      }
+    }
+    expect(agreeTrue).toBeGreaterThan(1000);
+    expect(agreeFalse).toBeGreaterThan(1000);
   });
 });

@@ -92,6 +92,12 @@ export class LoopCore {
    * formed instead of forming it again (same bits). Cleared by record().
    */
   torqueSawTrueState = false;
+  /**
+   * The sensor model measures the true state with nothing added (no noise, no worst-case model,
+   * rate bias ±0): sensors.ts then copies q and writes ω as (ω + b) + 0, so the measured state is
+   * the true one bit for bit except where a rate is −0 (−0 + 0 = +0) or NaN.
+   */
+  private readonly sensorsAddNothing: boolean;
 
   logic = NaN;
   logicJumps = 0;
@@ -113,6 +119,16 @@ export class LoopCore {
     this.maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
     this.stopRule = cfg.stopRule ?? null;
     this.sink = cfg.sink ?? null;
+    const sm = cfg.sensors;
+    const b = sm.rateBiasRadPerS;
+    this.sensorsAddNothing =
+      sm.attitudeSigmaRad === 0 &&
+      sm.rateSigmaRadPerS === 0 &&
+      sm.adversarialEta === 0 &&
+      (sm.antipodalNoiseRad ?? 0) === 0 &&
+      b[0] === 0 &&
+      b[1] === 0 &&
+      b[2] === 0;
     this.hTrue = new Float64Array(N);
     this.hMeas = new Float64Array(N);
     this.wheelCmd = new Float64Array(N);
@@ -178,6 +194,21 @@ export class LoopCore {
 
   /** True when the measured state equals the true state bit for bit (−0 and +0 differ; NaN: false). */
   measuredIsTrue(): boolean {
+    // IEEE 754-2019 §6.3: x + (±0) = x for every x ≠ 0 (±∞ too), and +0 + (±0) = +0 in
+    // round-to-nearest; so with sensors that add nothing only a −0 or NaN rate, or a NaN in the
+    // copied q or h (NaN never equals itself, as sameBits says), can make the two differ.
+    if (this.sensorsAddNothing) {
+      const q = this.qTrue,
+        w = this.wTrue,
+        h = this.hTrue;
+      if (!(q[0] === q[0] && q[1] === q[1] && q[2] === q[2] && q[3] === q[3])) return false;
+      for (let i = 0; i < 3; i++) {
+        const v = w[i]!;
+        if (!(v > 0 || v < 0 || (v === 0 && 1 / v > 0))) return false;
+      }
+      for (let i = 0; i < this.N; i++) if (h[i] !== h[i]) return false;
+      return true;
+    }
     const qm = this.qMeas,
       qt = this.qTrue,
       wm = this.wMeas,
