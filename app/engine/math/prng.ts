@@ -77,9 +77,10 @@ class Xoshiro128 implements Rng {
     while (u === 0) u = this.next();
     const v = this.next();
     const r = Math.sqrt(-2 * Math.log(u));
-    this.spare[0] = r * Math.sin(2 * Math.PI * v);
+    const a = 2 * Math.PI * v; // formed once for both (the same product as before)
+    this.spare[0] = r * Math.sin(a);
     this.hasSpare = true;
-    return r * Math.cos(2 * Math.PI * v);
+    return r * Math.cos(a);
   }
 }
 

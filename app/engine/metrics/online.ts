@@ -81,6 +81,9 @@ export class OnlineMetrics implements SampleSink {
   private readonly target = new Float64Array(4);
   private readonly axisBuf = new Float64Array(3);
   private readonly trackAxis = new Float64Array(3);
+  /** The segment whose axis trackB holds (NaN: none yet), and that axis (null: not pointing-only). */
+  private trackSeg = NaN;
+  private trackB: Float64Array | null = null;
   private axis: Float64Array | null = null;
   private readonly segs: SegmentMetrics[] = [];
   private open: OpenSegment | null = null;
@@ -140,6 +143,8 @@ export class OnlineMetrics implements SampleSink {
     this.segs.length = 0;
     this.open = null;
     this.trackPeak = this.trackSum = this.trackSpan = this.effort = 0;
+    this.trackSeg = NaN;
+    this.trackB = null;
     this.lastOmega.fill(0);
     this.lastQ.fill(0);
     this.haveLast = false;
@@ -179,8 +184,16 @@ export class OnlineMetrics implements SampleSink {
     this.gridSample(s, t);
 
     this.lastError = s.scalars[PACKED_ERROR_ANGLE]!;
-    this.lastQ.set(s.q);
-    this.lastOmega.set(w);
+    const lq = this.lastQ,
+      lw = this.lastOmega,
+      q = s.q;
+    lq[0] = q[0]!;
+    lq[1] = q[1]!;
+    lq[2] = q[2]!;
+    lq[3] = q[3]!;
+    lw[0] = w[0]!;
+    lw[1] = w[1]!;
+    lw[2] = w[2]!;
     this.tPrev = t;
     this.ratePrev = rate;
     this.lastT = t;
@@ -281,7 +294,12 @@ export class OnlineMetrics implements SampleSink {
 
   /** metrics.ts trackingError: peak and trapezoidal RMS of the law's error (pointing error on pointing-only segments). */
   private trackingSample(s: PackedSample, t: number, k: number): void {
-    const b = segmentAxis(this.trackAxis, this.o.segmentAxes, s.segment);
+    // The segment's pointed axis, looked up again only when the segment changes.
+    if (s.segment !== this.trackSeg) {
+      this.trackSeg = s.segment;
+      this.trackB = segmentAxis(this.trackAxis, this.o.segmentAxes, s.segment);
+    }
+    const b = this.trackB;
     const e = b ? pointingErrorBetween(s.q, 0, s.qRef, 0, b) : s.scalars[PACKED_ERROR_ANGLE]!;
     if (e > this.trackPeak) this.trackPeak = e;
     if (k > 0) {
@@ -340,14 +358,23 @@ export class OnlineMetrics implements SampleSink {
     this.effortPrev = m;
     peakSample(this.torquePeak, s.wheelTorque, o.maxTorqueNm, N, t);
     peakSample(this.momentumPeak, s.hWheel, o.maxMomentumNms, N, t);
-    for (let i = 0; i < 2 * N; i++) {
-      const torque = i < N;
-      const v = torque ? s.wheelTorque[i]! : s.hWheel[i - N]!;
-      const lim = torque ? o.maxTorqueNm[i]! : o.maxMomentumNms[i - N]!;
-      if (this.satPrev[i]) this.satTotal[i]! += t - this.tPrev;
-      const at = Math.abs(v) >= AT_LIMIT_FRACTION * lim;
-      this.satPrev[i] = at ? 1 : 0;
-      if (at && this.satFirst[i]! < 0) this.satFirst[i] = t;
+    // Slots [0, N): wheel torques; [N, 2N): wheel momenta.
+    this.limitSample(s.wheelTorque, o.maxTorqueNm, 0, t);
+    this.limitSample(s.hWheel, o.maxMomentumNms, N, t);
+  }
+
+  /** Time at the limit of one kind (torque or momentum) of every wheel; `at0` is its first slot. */
+  private limitSample(data: Float64Array, limits: ArrayLike<number>, at0: number, t: number): void {
+    const prev = this.satPrev,
+      total = this.satTotal,
+      first = this.satFirst;
+    const dt = t - this.tPrev;
+    for (let i = 0; i < this.N; i++) {
+      const j = at0 + i;
+      if (prev[j]) total[j]! += dt;
+      const at = Math.abs(data[i]!) >= AT_LIMIT_FRACTION * limits[i]!;
+      prev[j] = at ? 1 : 0;
+      if (at && first[j]! < 0) first[j] = t;
     }
   }
 

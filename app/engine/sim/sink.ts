@@ -24,16 +24,30 @@ export interface SampleSink {
  * trace.ts pushPackedIfFinite checks the same channels).
  */
 export function packedNonFiniteSum(s: PackedSample): number {
+  // Every channel's loop written out in this one function (no helper call per channel: this runs
+  // at every sample of every study run). Only whether the sum is 0 or NaN matters, not its sign.
   let z = 0;
-  const x = s.scalars;
+  const x = s.scalars,
+    q = s.q,
+    r = s.qRef,
+    w = s.omega,
+    wr = s.omegaRef,
+    tc = s.torqueCmdBody,
+    tb = s.torqueBody,
+    h = s.hWheel,
+    c = s.wheelTorqueCmd,
+    u = s.wheelTorque,
+    n = s.wheelTorqueNet;
   for (let i = 0; i < x.length; i++) z += x[i]! * 0;
-  z += sum0(s.q) + sum0(s.qRef) + sum0(s.omega) + sum0(s.omegaRef) + sum0(s.torqueCmdBody) + sum0(s.torqueBody);
-  z += sum0(s.hWheel) + sum0(s.wheelTorqueCmd) + sum0(s.wheelTorque) + sum0(s.wheelTorqueNet);
-  return z;
-}
-
-function sum0(a: Float64Array): number {
-  let z = 0;
-  for (let i = 0; i < a.length; i++) z += a[i]! * 0;
+  for (let i = 0; i < q.length; i++) z += q[i]! * 0;
+  for (let i = 0; i < r.length; i++) z += r[i]! * 0;
+  for (let i = 0; i < w.length; i++) z += w[i]! * 0;
+  for (let i = 0; i < wr.length; i++) z += wr[i]! * 0;
+  for (let i = 0; i < tc.length; i++) z += tc[i]! * 0;
+  for (let i = 0; i < tb.length; i++) z += tb[i]! * 0;
+  for (let i = 0; i < h.length; i++) z += h[i]! * 0;
+  for (let i = 0; i < c.length; i++) z += c[i]! * 0;
+  for (let i = 0; i < u.length; i++) z += u[i]! * 0;
+  for (let i = 0; i < n.length; i++) z += n[i]! * 0;
   return z;
 }

@@ -184,7 +184,12 @@ export function startStudyParallel(json: unknown, ports: readonly StudyWorkerPor
             acc = createStudyAccumulator(info);
             const { first, end } = range.value;
             progress = new ProgressCounter(end - first);
-            for (let s = first; s < end; s += chunkSize) chunks.push(Array.from({ length: Math.min(chunkSize, end - s) }, (_, k) => s + k));
+            // The last cases (one chunk per worker's worth) go out one by one, so the workers
+            // finish within about one case of each other instead of one chunk.
+            const tail = Math.max(first, end - ports.length * chunkSize);
+            for (let s = first; s < tail; s += chunkSize)
+              chunks.push(Array.from({ length: Math.min(chunkSize, tail - s) }, (_, k) => s + k));
+            for (let s = tail; s < end; s++) chunks.push([s]);
             queue = [...chunks];
             opts.onReady?.(info, warnings);
           }

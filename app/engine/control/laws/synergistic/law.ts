@@ -25,6 +25,8 @@ export class Synergistic implements AttitudeController {
   private readonly st: TrackingState = makeTrackingState();
   private readonly ws: FamilyWorkspace;
   private readonly b = new Float64Array(3);
+  /** ws holds an evaluation (at ws.q). */
+  private evaluated = false;
 
   constructor(
     readonly label: string,
@@ -41,9 +43,19 @@ export class Synergistic implements AttitudeController {
     this.jumpDecrease = kR * delta;
   }
 
+  /**
+   * The tracking error, and the family at it. The family is a function of q_e alone, so when q_e
+   * is bit for bit the one ws was last evaluated at (the jump guard, the logic update and the
+   * torque of one sample see the same measured input) ws already holds it.
+   */
   private evaluate(input: ControlInput): FamilyWorkspace {
-    const st = computeTracking(this.st, this.plant, input);
-    return evaluateFamily(this.ws, this.family, st.qe);
+    const qe = computeTracking(this.st, this.plant, input).qe;
+    const ws = this.ws;
+    const at = ws.q;
+    if (this.evaluated && sameBits(at[0]!, qe[0]!) && sameBits(at[1]!, qe[1]!) && sameBits(at[2]!, qe[2]!) && sameBits(at[3]!, qe[3]!))
+      return ws;
+    this.evaluated = true;
+    return evaluateFamily(ws, this.family, qe);
   }
 
   private valid(logic: number): boolean {
@@ -101,4 +113,9 @@ export class Synergistic implements AttitudeController {
     out.lyapunov = this.kR * ws.V[p]! + errorKineticEnergy(this.st, this.plant);
     return out;
   }
+}
+
+/** a and b are the same double (+0 and −0 differ; NaN never matches, so it is evaluated again). */
+function sameBits(a: number, b: number): boolean {
+  return a === b && (a !== 0 || 1 / a === 1 / b);
 }
