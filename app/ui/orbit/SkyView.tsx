@@ -12,6 +12,7 @@ import { useApp, useAppState } from '../context';
 import { SelectField } from '../components/fields';
 import { angleBetween, skyScene, SKY_AXES, type SkyPiece, type SkyScene } from './skyModel';
 import { skyNow, type SkyNow } from './skyPlayback';
+import { movingConeAvailable } from '../view/movingCones';
 
 const COLOUR = {
   grid: '#d5dce6',
@@ -184,9 +185,11 @@ export function SkyView() {
   }, [scene, output, runKey, axisVector, app]);
   const movingLabels = useMemo(
     () =>
-      (output?.orbitView ? (output.scenario.file.constraints ?? []) : [])
-        .filter((c) => c.direction.kind !== 'fixed' && angleBetween(c.bodyAxis, axisVector) < 1e-9)
-        .map((c) => ({ label: c.name, kind: c.kind })),
+      !output
+        ? []
+        : (output.scenario.file.constraints ?? [])
+            .filter((c) => movingConeAvailable(output, c.direction.kind) && angleBetween(c.bodyAxis, axisVector) < 1e-9)
+            .map((c) => ({ label: c.name, kind: c.kind })),
     [output, axisVector],
   );
   if (!output || !scene) return null;
