@@ -148,7 +148,9 @@ export function SkyView() {
       const body = tr ? Object.values(tr)[0] : undefined;
       if (body?.bodyAxis) axes.push(body.bodyAxis);
     }
-    for (const c of output.constraints ?? []) if (c.directionKind === 'fixed') axes.push(c.bodyAxis);
+    // Cones the view draws: fixed ones, and moving ones it can aim (movingCones.ts).
+    for (const c of output.constraints ?? [])
+      if (c.directionKind === 'fixed' || movingConeAvailable(output, c.directionKind)) axes.push(c.bodyAxis);
     for (const k of output.keepOut) axes.push(k.bodyAxis);
     return defaultAxis(axes);
   }, [output]);
