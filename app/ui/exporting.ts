@@ -8,6 +8,7 @@ import { fail } from '../engine/errors';
 import type { ControllerRun, PipelineOutput } from '../engine/pipeline/types';
 import { exportRun as engineExportRun, type ExportFormat } from '../engine/export/runExport';
 import { fullRun } from '../engine/pipeline/refly';
+import type { ExportProgress } from './worker/exportProtocol';
 
 export type { ExportFormat } from '../engine/export/runExport';
 
@@ -34,7 +35,7 @@ export interface ExportChoice {
   sampleRateHz: number | null;
 }
 
-function toolVersion(): string {
+export function toolVersion(): string {
   return typeof __SLEWSMITH_VERSION__ === 'string' ? __SLEWSMITH_VERSION__ : '0.0.0-dev';
 }
 
@@ -50,16 +51,45 @@ function exportFileName(scenarioName: unknown, run: ControllerRun, format: Expor
 
 /** Write the chosen run in the chosen format; engine issues come back as they are. */
 export function exportRun(out: PipelineOutput, choice: ExportChoice): Result<{ name: string; content: string }> {
+  return exportRunWith(out, choice, { toolVersion: toolVersion() });
+}
+
+export interface ExportRunHooks {
+  toolVersion: string;
+  /** AEM CREATION_DATE; default now. */
+  creationDateUtc?: string;
+  /** Where the export is (the re-flight counts samples: the loop polls shouldStop once per recorded sample, sim/loop.ts). */
+  onProgress?: (p: ExportProgress) => void;
+}
+
+/** exportRun with the version, creation date and a progress callback given: the export worker's path (worker/answerExport.ts). */
+export function exportRunWith(out: PipelineOutput, choice: ExportChoice, hooks: ExportRunHooks): Result<{ name: string; content: string }> {
   const run = out.runs.find((r) => r.key === choice.runKey);
   if (!run) return fail([{ path: 'run', rule: 'exists', message: 'Choose a run to export' }]);
   // A long run kept a display trace for the views: it is flown again so the file holds every sample.
-  const full = fullRun(out, run);
+  const full = fullRun(out, run, hooks.onProgress && run.display ? sampleCounter(run.display.fullSamples, hooks.onProgress) : undefined);
   if (!full.ok) return full;
+  hooks.onProgress?.({ phase: 'write' });
   const r = engineExportRun(choice.format, full.value, out, {
     toolName: 'Slewsmith',
-    toolVersion: toolVersion(),
+    toolVersion: hooks.toolVersion,
     sampleRateHz: choice.sampleRateHz ?? undefined,
+    ...(hooks.creationDateUtc !== undefined ? { creationDateUtc: hooks.creationDateUtc } : {}),
   });
   if (!r.ok) return r;
   return { ok: true, value: { name: exportFileName(out.scenario.name, run, choice.format), content: r.value }, warnings: r.warnings };
+}
+
+/** Progress steps per re-flight (about one a percent: a message per sample would flood the renderer). */
+const PROGRESS_STEPS = 100;
+
+/** A shouldStop that never stops and reports every total/PROGRESS_STEPS calls (one call per recorded sample). */
+function sampleCounter(total: number, onProgress: (p: ExportProgress) => void): () => boolean {
+  const every = Math.max(1, Math.ceil(total / PROGRESS_STEPS));
+  let done = 0;
+  return () => {
+    done++;
+    if (done % every === 0) onProgress({ phase: 'fly', done, total });
+    return false;
+  };
 }

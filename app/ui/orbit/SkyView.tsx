@@ -12,6 +12,7 @@ import { useApp, useAppState } from '../context';
 import { SelectField } from '../components/fields';
 import { angleBetween, skyScene, SKY_AXES, type SkyPiece, type SkyScene } from './skyModel';
 import { skyNow, type SkyNow } from './skyPlayback';
+import { movingConeAvailable } from '../view/movingCones';
 
 const COLOUR = {
   grid: '#d5dce6',
@@ -147,7 +148,9 @@ export function SkyView() {
       const body = tr ? Object.values(tr)[0] : undefined;
       if (body?.bodyAxis) axes.push(body.bodyAxis);
     }
-    for (const c of output.constraints ?? []) if (c.directionKind === 'fixed') axes.push(c.bodyAxis);
+    // Cones the view draws: fixed ones, and moving ones it can aim (movingCones.ts).
+    for (const c of output.constraints ?? [])
+      if (c.directionKind === 'fixed' || movingConeAvailable(output, c.directionKind)) axes.push(c.bodyAxis);
     for (const k of output.keepOut) axes.push(k.bodyAxis);
     return defaultAxis(axes);
   }, [output]);
@@ -184,9 +187,11 @@ export function SkyView() {
   }, [scene, output, runKey, axisVector, app]);
   const movingLabels = useMemo(
     () =>
-      (output?.orbitView ? (output.scenario.file.constraints ?? []) : [])
-        .filter((c) => c.direction.kind !== 'fixed' && angleBetween(c.bodyAxis, axisVector) < 1e-9)
-        .map((c) => ({ label: c.name, kind: c.kind })),
+      !output
+        ? []
+        : (output.scenario.file.constraints ?? [])
+            .filter((c) => movingConeAvailable(output, c.direction.kind) && angleBetween(c.bodyAxis, axisVector) < 1e-9)
+            .map((c) => ({ label: c.name, kind: c.kind })),
     [output, axisVector],
   );
   if (!output || !scene) return null;

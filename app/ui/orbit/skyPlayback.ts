@@ -6,7 +6,8 @@
  *   interpolation the 3D view uses too), turned into the inertial frame (qInertialFromBody);
  * - the cones against the Sun, Moon, Earth centre / limb and ground stations on that axis, aimed at
  *   time t by the same function the 3D view uses (app/ui/view/movingCones.ts, from
- *   PipelineOutput.orbitView), drawn as small circles;
+ *   PipelineOutput.orbitView; without an orbit the Sun and Moon cones from the epoch, geocentric),
+ *   drawn as small circles;
  * - the Sun and the Moon at time t: from the spacecraft (orbitView) on orbit scenarios, geocentric
  *   (engine orbit/sky.ts) otherwise.
  * Called once per frame in which the time moved; the allocations are a few small arrays per cone.
@@ -69,7 +70,7 @@ export function bodyAxisAt(
   return qRotate(out, qt, bodyAxis);
 }
 
-/** File constraints whose direction moves, on the chosen body axis, as circles at time t (orbit scenarios only). */
+/** File constraints whose direction moves, on the chosen body axis, as circles at time t (movingCones.ts says which can be aimed). */
 export function movingSkyCones(out: PipelineOutput, bodyAxis: ArrayLike<number>, time: number, points = 180): SkyCone[] {
   const info = out.constraints ?? [];
   const cones: SkyCone[] = [];

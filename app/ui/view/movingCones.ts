@@ -6,9 +6,17 @@
  * −r/|r|; Earth limb the centre direction with the disc's angular radius asin(R⊕/|r|) added to the
  * half angle (the margin is measured to the nearest edge of the disc); ground station (site − r)
  * normalised with the site (WGS-84) turned with the Earth. Interpolation only: no allocation.
+ *
+ * Scenarios without an orbit have no samples, but the Sun and Moon directions are still defined by
+ * the epoch: geocentric, from the engine's orbit/sky.ts at TAI = epoch + t, the functions the
+ * engine's constraint check samples in that case (constraints/directions.ts; it interpolates
+ * between samples SKY_STEP_S apart, within 0.1°). Earth and station cones need the orbit (the
+ * engine refuses them without one), so none is drawn.
  */
 import { createOrbitViewPoint, earthFixedPointAt, orbitViewAt, siteEcefM } from '../../engine/orbit/viewSamples';
 import type { PipelineOutput } from '../../engine/pipeline/types';
+import { moonDirectionEme2000, sunDirectionEme2000 } from '../../engine/orbit/sky';
+import { parseUtcIso } from '../../engine/time/iso';
 import { RAD_PER_DEG } from '../../engine/units';
 
 type FileConstraint = NonNullable<PipelineOutput['scenario']['file']['constraints']>[number];
@@ -24,11 +32,45 @@ const point = createOrbitViewPoint();
 const ecef = new Float64Array(3),
   site = new Float64Array(3);
 
+// The last epoch parsed (one scenario is shown at a time): a frame does not parse it again.
+let epochText = '';
+let epochTai = NaN;
+
+/** TAI seconds since J2000 of the output's epoch (NaN when it does not parse), as the engine's constraint check reads it. */
+function epochTaiS(out: Pick<PipelineOutput, 'scenario'>): number {
+  const text = out.scenario.epochUtc;
+  if (text !== epochText) {
+    const e = parseUtcIso(text, 'epochUtc');
+    epochText = text;
+    epochTai = e.ok ? e.value.taiS : NaN;
+  }
+  return epochTai;
+}
+
+/** Whether cones against direction `kind` can be aimed for this output: orbit samples, or the Sun and Moon by the epoch without an orbit. */
+export function movingConeAvailable(
+  out: Pick<PipelineOutput, 'scenario' | 'orbitView'>,
+  kind: FileConstraint['direction']['kind'],
+): boolean {
+  if (kind === 'fixed') return false;
+  if (out.orbitView) return true;
+  return !out.scenario.file.orbit && (kind === 'sun' || kind === 'moon') && Number.isFinite(epochTaiS(out));
+}
+
 /** The cone of a moving-direction constraint at plan time t, or null (fixed direction, no orbit samples, or t outside them). */
 export function movingCone(out: PipelineOutput, c: FileConstraint, halfAngleRad: number, t: number): MovingCone | null {
   const d = c.direction;
   const s = out.orbitView;
-  if (d.kind === 'fixed' || !s) return null;
+  if (d.kind === 'fixed') return null;
+  if (!s) {
+    // No orbit: the geocentric Sun and Moon by the epoch (an orbit scenario without samples draws none).
+    if (!movingConeAvailable(out, d.kind)) return null;
+    const dir = new Float64Array(3);
+    const tai = epochTaiS(out) + Math.max(t, 0);
+    if (d.kind === 'sun') sunDirectionEme2000(dir, tai);
+    else moonDirectionEme2000(dir, tai);
+    return { dir, halfAngleRad };
+  }
   const p = orbitViewAt(point, s, Math.min(Math.max(t, 0), s.endS));
   if (!p.valid) return null;
   switch (d.kind) {

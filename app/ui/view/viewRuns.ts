@@ -53,7 +53,8 @@ export function sampleAt(t: ArrayLike<number>, n: number, time: number): number 
 /**
  * Every cone the view can draw — the `keepOut` cones and the `constraints` list's cones: against a
  * fixed inertial direction, and on orbit scenarios against the Sun, Moon, Earth centre or limb and a
- * ground station at `time` (movingCones.ts, from the output's orbit samples) —
+ * ground station at `time` (movingCones.ts, from the output's orbit samples; without an orbit the
+ * Sun and Moon, geocentric by the epoch) —
  * with `violated` from the shown run's margin at `time` (the engine's margin series; a sample
  * outside the constraint's window counts as clear). Without a run, `violated` is absent.
  */
