@@ -81,6 +81,8 @@ export function createAppController(o: AppControllerOptions): AppController {
     spawn: o.spawnWorker,
     workers: o.pipelineWorkers ?? 1,
     debounceMs: o.debounceMs ?? 10,
+    // An edit after a quiet spell is posted in its own keystroke, before React renders it (issue 12).
+    leadingEdge: true,
     onStart: () => store.setPipeline({ status: 'running' }),
     // The first run of a pass is shown as soon as it has flown (partialOutput.ts has the rules).
     partialAfterRuns: 1,

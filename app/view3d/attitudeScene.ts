@@ -7,6 +7,10 @@
  * the rest translucent, overlaid runs' trails dimmer and their jump markers diamonds);
  * 'side-by-side' gives each run its own viewport, all sharing one camera and one time.
  * Each viewport has a body-frame momentum inset (its own scene) and a HUD with the run labels.
+ *
+ * A new run set in the same layout whose runs have the same frame keys (runContent.ts
+ * runFrameKey; an edit's new output) keeps the viewports: scenes, common content, HUD, buses and
+ * triads with their materials stay, and only each run's trail and inset are built anew.
  */
 import { Scene } from 'three';
 import type { Object3D } from 'three';
@@ -17,7 +21,7 @@ import { envelopeDisplayScale } from './envelope';
 import type { LabelFactory } from './labels';
 import type { Kit } from './primitives';
 import { createKit, disposeKit, disposeTree, Triad } from './primitives';
-import { RunContent } from './runContent';
+import { RunContent, runFrameKey } from './runContent';
 import { SIZES } from './style';
 import { NO_KEEP_OUT } from './types';
 import type { ViewLayout, ViewOptions, ViewRun, ViewStats } from './types';
@@ -52,7 +56,26 @@ interface HudItem {
   row: number;
 }
 
+/** Something retired by setRuns, disposed once the new content has been drawn. */
+interface Retired {
+  dispose(kit: Kit): void;
+}
+
+/** The key of a viewport showing `runs` (overlay or not): equal keys can share the viewport. */
+function viewportKey(runs: readonly ViewRun[], overlay: boolean): string {
+  return JSON.stringify([overlay, runs.map(runFrameKey)]);
+}
+
+/** The runs of each viewport for a layout. */
+function viewportRuns(runs: ViewRun[], layout: ViewLayout): ViewRun[][] {
+  if (runs.length === 0) return [];
+  if (layout === 'side-by-side') return runs.map((r) => [r]);
+  if (layout === 'overlay') return [runs];
+  return [[runs[0]!]];
+}
+
 class Viewport {
+  readonly key: string;
   readonly scene = new Scene();
   readonly momentumScene = new Scene();
   readonly hudScene = new Scene();
@@ -62,6 +85,7 @@ class Viewport {
   private readonly hud: HudItem[] = [];
 
   constructor(kit: Kit, bus: BusModel, runs: ViewRun[], options: ViewOptions, overlay: boolean) {
+    this.key = viewportKey(runs, overlay);
     this.common = new CommonContent(kit);
     this.scene.add(this.common.group);
     this.insetTriad = new Triad(kit, {
@@ -129,6 +153,16 @@ class Viewport {
     for (let k = 0; k < this.runs.length; k++) this.runs[k]!.update(time);
   }
 
+  /** Show `runs` (same viewportKey as this viewport's) in place; the replaced parts go to `retire`. */
+  takeRuns(runs: ViewRun[], options: ViewOptions, retire: (r: Retired) => void): void {
+    const scale = envelopeDisplayScale(runs[0]!.momentumEnvelope);
+    // The inset keeps the constructor's order: its triad, then each run's momentum in run order.
+    for (const rc of this.runs) this.momentumScene.remove(rc.momentum.group);
+    this.runs.forEach((rc, i) => retire(rc.replaceRun(runs[i]!, options, scale)));
+    for (const rc of this.runs) this.momentumScene.add(rc.momentum.group);
+    this.applyOptions(options);
+  }
+
   applyOptions(o: ViewOptions): void {
     this.common.setVisibility(o.showInertialTriad, o.showSphere, o.showKeepOut);
     this.common.setKeepOut(o.showKeepOut ? o.keepOut : NO_KEEP_OUT);
@@ -166,7 +200,7 @@ export class AttitudeScene {
    * for each new run set. Node tests leave it false and see old geometry freed at once.
    */
   deferDisposal = false;
-  private retired: Viewport[] = [];
+  private retired: Retired[] = [];
 
   constructor(o: AttitudeSceneOptions = {}) {
     this.bus = o.bus ?? DEFAULT_BUS_MODEL;
@@ -177,16 +211,21 @@ export class AttitudeScene {
 
   /** Build the viewports for `runs` in `layout` (once per run set), posed at the current time. */
   setRuns(runs: ViewRun[], layout: ViewLayout): void {
-    this.disposeViewports();
+    const groups = viewportRuns(runs, layout);
+    const overlay = layout === 'overlay';
+    const same =
+      layout === this.layout &&
+      groups.length > 0 &&
+      groups.length === this.viewports.length &&
+      groups.every((g, i) => this.viewports[i]!.key === viewportKey(g, overlay));
     this.runs = runs.slice();
     this.layout = layout;
-    if (runs.length === 0) return;
-    if (layout === 'side-by-side') {
-      this.viewports = runs.map((r) => new Viewport(this.kit, this.bus, [r], this.options, false));
-    } else if (layout === 'overlay') {
-      this.viewports = [new Viewport(this.kit, this.bus, runs, this.options, true)];
+    if (same) {
+      const retire = (r: Retired) => (this.deferDisposal ? this.retired.push(r) : r.dispose(this.kit));
+      groups.forEach((g, i) => this.viewports[i]!.takeRuns(g, this.options, retire));
     } else {
-      this.viewports = [new Viewport(this.kit, this.bus, [runs[0]!], this.options, false)];
+      this.disposeViewports();
+      this.viewports = groups.map((g) => new Viewport(this.kit, this.bus, g, this.options, overlay));
     }
     this.setTime(this.time);
   }

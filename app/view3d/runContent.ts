@@ -3,6 +3,11 @@
  * `update(time)`: the posed bus with its body triad, the active target's ghost triad, the moving
  * reference's ghost (profiled mode), the boresight trail (inertial scene) and the wheel momentum
  * (body-frame inset).
+ *
+ * A new run with the same frame key (runFrameKey: label, reference ghost, targets) can take the
+ * place of the old one (`replaceRun`): the bus, triads, target ghosts and their materials stay, so
+ * an edit's new run set costs neither their construction nor new shader programs; the trail and
+ * the momentum inset, which are the run's data, are built anew.
  */
 import { Group } from 'three';
 import { setObjectAttitude, slerpFlat } from './adapter';
@@ -40,8 +45,16 @@ export function activeTargetIndex(tStarts: Float64Array, tEnds: Float64Array, ti
   return k;
 }
 
+/**
+ * What the frame parts of a run's content are built from (everything but the trace, the jumps and
+ * the vehicle): runs with equal keys can share them (RunContent.replaceRun).
+ */
+export function runFrameKey(run: ViewRun): string {
+  return JSON.stringify([run.label, run.hasReference, run.targets.map((t) => t.label)]);
+}
+
 export class RunContent {
-  readonly run: ViewRun;
+  run: ViewRun;
   /** Inertial-frame content. */
   readonly group = new Group();
   readonly body = new Group();
@@ -51,21 +64,23 @@ export class RunContent {
   readonly targets = new Group();
   readonly targetGhosts: Triad[] = [];
   readonly referenceGhost: Triad | null;
-  readonly trail: TrailObject;
-  readonly momentum: MomentumContent;
-  readonly cursor = createCursor();
+  trail: TrailObject;
+  momentum: MomentumContent;
+  cursor = createCursor();
   /** Interpolated attitude at the last update, [x, y, z, w]. */
   readonly qNow = new Float64Array([0, 0, 0, 1]);
   readonly qRefNow = new Float64Array([0, 0, 0, 1]);
   activeTarget = -1;
 
-  private readonly tStarts: Float64Array;
-  private readonly tEnds: Float64Array;
+  private tStarts: Float64Array;
+  private tEnds: Float64Array;
   private readonly kit: Kit;
+  private readonly style: RunContentStyle;
 
   constructor(kit: Kit, bus: BusModel, run: ViewRun, options: ViewOptions, style: RunContentStyle) {
     this.kit = kit;
     this.run = run;
+    this.style = style;
     const solid = style.index === 0;
     const opacity = solid ? 1 : style.overlayOpacity;
     this.group.name = `run:${run.label}`;
@@ -122,19 +137,67 @@ export class RunContent {
       this.group.add(this.referenceGhost);
     } else this.referenceGhost = null;
 
-    this.trail = new TrailObject(kit, run, options.boresightBody, {
-      opacity: solid ? 1 : Math.max(0.35, opacity),
+    this.trail = this.buildTrail(run, options);
+    this.group.add(this.trail.group);
+    this.momentum = this.buildMomentum(run, style.momentumScale);
+    this.applyOptions(options);
+  }
+
+  private buildTrail(run: ViewRun, options: ViewOptions): TrailObject {
+    const solid = this.style.index === 0;
+    return new TrailObject(this.kit, run, options.boresightBody, {
+      opacity: solid ? 1 : Math.max(0.35, this.style.overlayOpacity),
       marker: solid ? 'dot' : 'diamond',
       sphereRadius: SIZES.sphereRadius,
     });
-    this.group.add(this.trail.group);
+  }
 
-    this.momentum = new MomentumContent(kit, run, {
-      drawEnvelope: style.drawEnvelope,
-      opacity: solid ? 1 : Math.max(0.35, opacity),
-      scale: style.momentumScale,
+  private buildMomentum(run: ViewRun, scale: number | undefined): MomentumContent {
+    const solid = this.style.index === 0;
+    return new MomentumContent(this.kit, run, {
+      drawEnvelope: this.style.drawEnvelope,
+      opacity: solid ? 1 : Math.max(0.35, this.style.overlayOpacity),
+      scale,
     });
+  }
+
+  /**
+   * Show `run` (whose runFrameKey equals the current run's) in this content: the frame parts stay
+   * and are re-posed as a new content would pose them; the trail and the momentum inset are built
+   * anew. The caller moves `momentum.group` into its inset scene and disposes what this returns
+   * (the old trail and inset) once the new ones have been drawn.
+   */
+  replaceRun(run: ViewRun, options: ViewOptions, momentumScale: number | undefined): { dispose(): void } {
+    const oldTrail = this.trail;
+    const oldMomentum = this.momentum;
+    this.run = run;
+    this.cursor = createCursor();
+    this.qNow.set([0, 0, 0, 1]);
+    this.qRefNow.set([0, 0, 0, 1]);
+    this.body.quaternion.identity();
+    this.referenceGhost?.quaternion.identity();
+    this.tStarts = Float64Array.from(run.targets, (t) => t.tStart);
+    this.tEnds = Float64Array.from(run.targets, (t) => t.tEnd);
+    run.targets.forEach((tg, k) => {
+      const ghost = this.targetGhosts[k]!;
+      setObjectAttitude(ghost, tg.q, 0);
+      ghost.visible = false;
+    });
+    this.activeTarget = -1;
+    // The trail group is the last child, as in the constructor.
+    this.group.remove(oldTrail.group);
+    this.trail = this.buildTrail(run, options);
+    this.group.add(this.trail.group);
+    this.momentum = this.buildMomentum(run, momentumScale);
     this.applyOptions(options);
+    const kit = this.kit;
+    return {
+      dispose() {
+        oldTrail.dispose();
+        disposeTree(oldTrail.group, kit);
+        disposeTree(oldMomentum.group, kit);
+      },
+    };
   }
 
   /** Pose everything for `time` (s). Reads the trace's typed arrays; allocation-free. */

@@ -24,7 +24,7 @@ class FakeWorker implements WorkerLike {
   }
 }
 
-function setup(workerCount = 1) {
+function setup(workerCount = 1, leadingEdge = false) {
   let clock = 0;
   const timers: { at: number; fn: () => void; live: boolean }[] = [];
   const workers: FakeWorker[] = [];
@@ -39,6 +39,7 @@ function setup(workerCount = 1) {
     debounceMs: 150,
     staleKillMs: 2000,
     workers: workerCount,
+    leadingEdge,
     merge: (parts) => parts.join('+') as never,
     now: () => clock,
     setTimer: (fn, ms) => {
@@ -62,6 +63,34 @@ function setup(workerCount = 1) {
 }
 
 describe('pipeline runner', () => {
+  it('leading edge: an edit after a quiet spell is sent at once; a burst after it is debounced to its newest', () => {
+    const { runner, workers, advance } = setup(1, true);
+    runner.schedule('s1');
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s1']); // no timer waited for
+    workers[0]!.reply(1, 'r1');
+    advance(50);
+    runner.schedule('s2'); // 50 ms after s1: inside the window, debounced
+    advance(100);
+    runner.schedule('s3');
+    advance(149);
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s1']);
+    advance(1);
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s1', 's3']);
+    // Quiet again but s3 is still in flight: debounced, then it waits for s3's reply.
+    advance(500);
+    runner.schedule('s4');
+    expect(workers[0]!.received).toHaveLength(2);
+    advance(150);
+    expect(workers[0]!.received).toHaveLength(2);
+    workers[0]!.reply(2, 'r3');
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s1', 's3', 's4']);
+    // Idle and quiet: the next edit goes at once again.
+    workers[0]!.reply(3, 'r4');
+    advance(500);
+    runner.schedule('s5');
+    expect(workers[0]!.received.map((r) => r.scenario)).toEqual(['s1', 's3', 's4', 's5']);
+  });
+
   it('debounces a burst of edits into one run of the newest scenario', () => {
     const { runner, workers, advance } = setup();
     runner.schedule('s1');

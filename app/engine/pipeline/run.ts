@@ -191,7 +191,26 @@ export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, 
 
 /** One pass: every controller in every mode, and the comparison. */
 export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<PipelineOutput> {
-  const t0 = Date.now();
+  const pass = pipelinePass(json, opts);
+  let step = pass.next();
+  while (!step.done) step = pass.next();
+  return step.value;
+}
+
+/** Where a resumable pass stopped: `done` of its `total` runs have flown. */
+export interface PassStep {
+  done: number;
+  total: number;
+}
+
+/**
+ * runPipeline one run at a time: the generator stops after each run (and its `partial` post) and
+ * goes on at the next `next()`, so a caller can answer messages between runs (the app's worker
+ * paints the first run before the rest) and resume the same pass instead of flying it again. The
+ * value it returns is runPipeline's result; `elapsedMs` counts only the time spent inside it.
+ */
+export function* pipelinePass(json: unknown, opts: PipelineOptions = {}): Generator<PassStep, Result<PipelineOutput>, void> {
+  let t0 = Date.now();
   const prep = preparePipeline(json, opts.controllers);
   if (!prep.ok) return fail(prep.errors, prep.warnings);
   const p = prep.value;
@@ -228,6 +247,9 @@ export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<P
         if (note) early.push(note);
         opts.partial.post(assembleOutput(p, [...runs], early, opts, t0), total);
       }
+      const paused = Date.now();
+      yield { done: runs.length, total };
+      t0 += Date.now() - paused;
     }
   }
   const shown = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);

@@ -7,12 +7,15 @@
  *
  * With `wait` as well, the pass stops after the partial reply and the rest waits until `wait`
  * calls back (the renderer has painted the first run, so the two do not compete for the cores);
- * the whole pass is then flown from the start, so the result is the undivided pass by
- * construction. `wait` calling back with go = false drops the rest (a newer edit replaced it):
- * the result is then a 'cancelled' failure, which the client discards as stale.
+ * the same pass then goes on with the remaining runs (pipelinePass, a generator that stops after
+ * each run), so its result is runPipeline's undivided pass, the first run flown once
+ * (test/unit/pipeline-resumable.test.ts). `wait` calling back with go = false drops the rest (a
+ * newer edit replaced it): the result is then a 'cancelled' failure, which the client discards
+ * as stale.
  */
 import { fail } from '../../engine/errors';
-import { runPipeline } from '../../engine/pipeline/run';
+import { pipelinePass, runPipeline } from '../../engine/pipeline/run';
+import type { Result } from '../../engine/errors';
 import type { OrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import type { RunReply, RunRequest } from './protocol';
@@ -50,26 +53,43 @@ export function answerRun(req: RunRequest, post: PostReply, orbitViewCache: Orbi
   if (afterRuns === undefined) return whole(req, post, orbitViewCache);
   if (!wait) return whole(req, post, orbitViewCache, { afterRuns, post: postPartial });
   let early: { output: PipelineOutput; total: number } | null = null;
-  let first;
+  const pass = pipelinePass(req.scenario, {
+    ...(req.options as object),
+    orbitViewCache,
+    partial: { afterRuns, post: (output, total) => (early = { output, total }) },
+  });
+  // Flies runs until the pass ends (its result) or `stop` says so after a run (null).
+  const flyOn = (stop: () => boolean): Result<PipelineOutput> | null => {
+    for (;;) {
+      const step = pass.next();
+      if (step.done) return step.value;
+      if (stop()) return null;
+    }
+  };
+  const answer = (result: Result<PipelineOutput>) =>
+    post({ type: 'result', id: req.id, result }, result.ok ? transferables(result.value) : []);
+  let first: Result<PipelineOutput> | null;
   try {
-    first = runPipeline(req.scenario, {
-      ...(req.options as object),
-      orbitViewCache,
-      partial: { afterRuns, post: (output, total) => (early = { output, total }) },
-      shouldStop: () => early !== null,
-    });
+    first = flyOn(() => early !== null);
   } catch (e) {
     return post(crash(req.id, e), []);
   }
-  const got = early as { output: PipelineOutput; total: number } | null;
-  if (!got) {
-    // No partial output (a failure, or a pass of no more runs than afterRuns): this is the whole pass.
-    return post({ type: 'result', id: req.id, result: first }, first.ok ? transferables(first.value) : []);
-  }
+  // No partial output (a failure, or a pass of no more runs than afterRuns): this is the whole pass.
+  if (first) return answer(first);
+  const got = early as unknown as { output: PipelineOutput; total: number };
   postPartial(got.output, got.total);
   wait((go) => {
-    if (go) whole(req, post, orbitViewCache);
-    else
-      post({ type: 'result', id: req.id, result: fail([{ path: '', rule: 'cancelled', message: 'A newer edit replaced this pass' }]) }, []);
+    if (!go)
+      return post(
+        { type: 'result', id: req.id, result: fail([{ path: '', rule: 'cancelled', message: 'A newer edit replaced this pass' }]) },
+        [],
+      );
+    let rest: Result<PipelineOutput> | null;
+    try {
+      rest = flyOn(() => false);
+    } catch (e) {
+      return post(crash(req.id, e), []);
+    }
+    if (rest) answer(rest);
   });
 }

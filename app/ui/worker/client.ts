@@ -33,6 +33,12 @@ export interface PipelineRunnerOptions {
   /** Joins the parts of a shared pass (default mergeRunSlices). */
   merge?: (parts: PipelineOutput[]) => PipelineOutput;
   debounceMs?: number;
+  /**
+   * Leading edge: an edit that comes after `debounceMs` of quiet while no pass is in flight or
+   * waiting is sent at once, inside the edit's own event (before the UI renders it), instead of
+   * after the timer; edits that follow within `debounceMs` are debounced as usual.
+   */
+  leadingEdge?: boolean;
   staleKillMs?: number;
   onStart?: (id: number) => void;
   /** `tag` is whatever the caller passed with the request (e.g. the document it came from). */
@@ -102,6 +108,7 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   let timer: unknown = null;
   let disposed = false;
   let passesSent = 0;
+  let lastScheduleAt = -Infinity;
 
   function ensureWorker(slot: number): WorkerLike {
     const existing = workers[slot];
@@ -192,6 +199,10 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   return {
     schedule(scenario, options = {}, tag) {
       if (disposed) return;
+      const t = now();
+      const quiet = o.leadingEdge && timer === null && !inFlight && !waiting && t - lastScheduleAt >= debounceMs;
+      lastScheduleAt = t;
+      if (quiet) return enqueue(scenario, options, tag);
       if (timer !== null) clearTimer(timer);
       timer = setTimer(() => {
         timer = null;
