@@ -8,6 +8,7 @@ import '../../no-eval';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
+import { prestartRequest } from './prestart';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
@@ -39,3 +40,7 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
     : undefined;
   answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache, wait);
 };
+
+// A worker app/boot.ts started for the demo flies it now, before any message could arrive.
+const early = prestartRequest(scope.name);
+if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
