@@ -80,11 +80,39 @@ function demoCertificates(): Plugin {
   };
 }
 
+/**
+ * The app chunk (main.tsx), which app/boot.ts imports only after it has started the workers, is
+ * announced in the page as a module preload (with the chunks it imports and its stylesheet), so
+ * the browser fetches it alongside the small entry instead of after it.
+ */
+function preloadAppChunk(): Plugin {
+  return {
+    name: 'slewsmith-preload-app-chunk',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html, ctx) {
+        const chunks = Object.values(ctx.bundle ?? {}).filter((o) => o.type === 'chunk');
+        const app = chunks.find((c) => c.facadeModuleId?.endsWith('/app/main.tsx'));
+        if (!app) return html;
+        const css = (app as { viteMetadata?: { importedCss: Set<string> } }).viteMetadata?.importedCss ?? new Set<string>();
+        const tags = [
+          ...[app.fileName, ...app.imports.filter((f) => !chunks.some((c) => c.fileName === f && c.isEntry))].map(
+            (f) => `<link rel="modulepreload" crossorigin href="./${f}">`,
+          ),
+          ...[...css].map((f) => `<link rel="stylesheet" crossorigin href="./${f}">`),
+        ];
+        return html.replace('</head>', `  ${tags.join('\n    ')}\n  </head>`);
+      },
+    },
+  };
+}
+
 export default defineConfig({
   root: path.join(root, electronConfig.entries.rendererRoot),
   base: './',
   publicDir: false,
-  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario()],
+  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk()],
   worker: { plugins: () => [demoCertificates()] },
   define: {
     __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),

@@ -60,6 +60,9 @@ describe('production renderer build', () => {
     const main = outputs.find((o): o is Rolldown.OutputChunk => o.type === 'chunk' && !!o.facadeModuleId?.endsWith('app/main.tsx'))!;
     expect(main.isDynamicEntry).toBe(true);
     expect(entry.dynamicImports).toContain(main.fileName);
+    // The page announces the app chunk so that it is fetched alongside the entry (vite.config.ts).
+    const html = code(outputs.find((o) => o.fileName === 'index.html')!);
+    expect(html).toContain(`<link rel="modulepreload" crossorigin href="./${main.fileName}">`);
     // zod's config({ jitless: true }) as minified: `({jitless:!0})`.
     const jitless = /\(\{\s*jitless\s*:\s*(?:!0|true)\s*\}\)/;
     // Booleans, not toMatch: a failure would otherwise print a whole bundle.
