@@ -157,6 +157,19 @@ describe('the demo pass started before the app', () => {
     app.dispose();
   }, 60_000);
 
+  it('a pass shared by two workers is adopted from both and merged', async () => {
+    const { app, spawned } = start(demo, 2, 2);
+    expect(spawned.map((w) => w.name)).toEqual([prestartName(0, 2), prestartName(1, 2)]);
+    expect(spawned.every((w) => w.posted.length === 0)).toBe(true);
+    spawned.forEach((w) => w.flyAtStart());
+    await vi.waitFor(() => expect(app.store.getState().pipeline.status).toBe('done'));
+    const direct = runPipeline(demo, { controllers: app.comparedIds() });
+    if (!direct.ok) throw new Error('demo failed');
+    expect(app.store.getState().output?.runs.map((r) => r.key)).toEqual(direct.value.runs.map((r) => r.key));
+    expect(app.store.getState().output?.comparison).toEqual(direct.value.comparison);
+    app.dispose();
+  }, 60_000);
+
   it('another worker count: the early workers are stopped and the pass is posted to new ones', () => {
     const { app, spawned } = start(demo, 2, 1);
     expect(spawned.slice(0, 2).every((w) => w.terminated)).toBe(true);
