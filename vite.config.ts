@@ -112,7 +112,8 @@ export default defineConfig({
   root: path.join(root, electronConfig.entries.rendererRoot),
   base: './',
   publicDir: false,
-  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk()],
+  // demoCertificates: the worker bundles import it; the dev server serves workers through these plugins.
+  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk(), demoCertificates()],
   worker: { plugins: () => [demoCertificates()] },
   define: {
     __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),
