@@ -9,6 +9,7 @@
  * workers for it and that no source map is emitted. A copy of the demo scenario is
  * emitted beside the page so the browser build can open it without a file system.
  */
+import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -55,11 +56,65 @@ function demoScenario(): Plugin {
   };
 }
 
+/**
+ * `virtual:slewsmith-demo-certificates`: the bundled demo's synergy-gap certificates, computed now
+ * by the engine's own sources (main/demo-certificates.ts, run through tsx in a child process), for
+ * the pipeline worker to plant in its certificate cache: its first pass then skips ~200 ms of
+ * certificate work on the demo. Any other scenario misses the cache and computes its own.
+ */
+function demoCertificates(): Plugin {
+  const id = 'virtual:slewsmith-demo-certificates';
+  return {
+    name: 'slewsmith-demo-certificates',
+    resolveId: (source) => (source === id ? `\0${id}` : null),
+    load(resolved) {
+      if (resolved !== `\0${id}`) return null;
+      const r = spawnSync(
+        process.execPath,
+        ['--import', 'tsx', path.join(root, 'main/demo-certificates.ts'), path.join(root, electronConfig.demoScenario)],
+        { cwd: root, encoding: 'utf8', maxBuffer: 1 << 24 },
+      );
+      if (r.status !== 0) throw new Error(`demo certificates failed: ${r.stderr}`);
+      return r.stdout;
+    },
+  };
+}
+
+/**
+ * The app chunk (main.tsx), which app/boot.ts imports only after it has started the workers, is
+ * announced in the page as a module preload (with the chunks it imports and its stylesheet), so
+ * the browser fetches it alongside the small entry instead of after it.
+ */
+function preloadAppChunk(): Plugin {
+  return {
+    name: 'slewsmith-preload-app-chunk',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html, ctx) {
+        const chunks = Object.values(ctx.bundle ?? {}).filter((o) => o.type === 'chunk');
+        const app = chunks.find((c) => c.facadeModuleId?.endsWith('/app/main.tsx'));
+        if (!app) return html;
+        const css = (app as { viteMetadata?: { importedCss: Set<string> } }).viteMetadata?.importedCss ?? new Set<string>();
+        const tags = [
+          ...[app.fileName, ...app.imports.filter((f) => !chunks.some((c) => c.fileName === f && c.isEntry))].map(
+            (f) => `<link rel="modulepreload" crossorigin href="./${f}">`,
+          ),
+          ...[...css].map((f) => `<link rel="stylesheet" crossorigin href="./${f}">`),
+        ];
+        return html.replace('</head>', `  ${tags.join('\n    ')}\n  </head>`);
+      },
+    },
+  };
+}
+
 export default defineConfig({
   root: path.join(root, electronConfig.entries.rendererRoot),
   base: './',
   publicDir: false,
-  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario()],
+  // demoCertificates: the worker bundles import it; the dev server serves workers through these plugins.
+  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk(), demoCertificates()],
+  worker: { plugins: () => [demoCertificates()] },
   define: {
     __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),
   },

@@ -1,10 +1,13 @@
 /** Renderer entry: wires the app controller (store, clock, worker, bridge) and mounts React. */
+// First, as the workers do: the CSP forbids eval, so zod must not probe it (no-eval.ts).
+import './no-eval';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { getBridge } from './bridge';
 import { App } from './ui/App';
 import { createAppController } from './ui/appController';
-import type { WorkerLike } from './ui/worker/client';
+import { pipelineWorkerCount, spawnPipelineWorker } from './ui/worker/pipelineWorkers';
+import { takePrestartedPass } from './ui/worker/prestart';
 import demo from '../assets/lumen6-imaging.scenario.json';
 import './ui/styles.css';
 
@@ -13,14 +16,13 @@ if (!container) throw new Error('index.html has no #root element');
 
 const app = createAppController({
   bridge: getBridge(),
-  spawnWorker: () =>
-    new Worker(new URL('./ui/worker/pipeline.worker.ts', import.meta.url), { type: 'module', name: 'pipeline' }) as unknown as WorkerLike,
+  spawnWorker: spawnPipelineWorker,
   fallbackScenario: demo,
   fallbackName: 'lumen6-imaging.scenario.json',
-  // Each pass is shared by the workers: one per core beyond the two the window's own processes
-  // keep busy (renderer, compositor/GPU), up to 4. Measured on a 2-core machine in Chromium, a
-  // second worker made no edit faster (engine 104–135 ms against 117–122 ms) and the cold start slower.
-  pipelineWorkers: Math.max(1, Math.min(4, (navigator.hardwareConcurrency || 1) - 2)),
+  // Each pass is shared by the workers (pipelineWorkers.ts says how many).
+  pipelineWorkers: pipelineWorkerCount(),
+  // boot.ts has already posted the demo's pass; the controller's first request takes it over.
+  prestarted: takePrestartedPass(),
 });
 
 // For the end-to-end tests and for debugging from the console: read-only handles, no globals

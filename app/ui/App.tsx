@@ -3,7 +3,7 @@
  * view over the synchronised plots in the centre, plan and comparison on the right, the playback
  * bar at the bottom, and the export dialog.
  */
-import { lazy, Suspense, useEffect } from 'react';
+import { lazy, Suspense, useEffect, useRef } from 'react';
 import { alternateCommandForChord, commandForChord } from '../bridge/commands';
 import type { AppController } from './appController';
 import { AppContext } from './context';
@@ -28,6 +28,18 @@ import { studySessionOf } from './study/registry';
 // in their own chunks, so the first pass's plots do not wait for a third of the bundle.
 const View3DPanel = lazy(() => import('./view/View3DPanel').then((m) => ({ default: m.View3DPanel })));
 const StudyWorkspace = lazy(() => import('./study/StudyWorkspace').then((m) => ({ default: m.StudyWorkspace })));
+
+/**
+ * True from the end of the first pass on (its output, or a first document that cannot run): the 3D
+ * panel's chunk (three.js) is fetched, compiled and mounted only then, so at a cold start it does
+ * not compete with the first plots for the main thread. Its place is held by the same empty box.
+ */
+function useFirstPassOver(app: AppController): boolean {
+  const over = useStoreSlice(app.store, (s) => s.output !== null || s.pipeline.status === 'invalid' || s.pipeline.status === 'failed');
+  const latched = useRef(false);
+  if (over) latched.current = true;
+  return latched.current;
+}
 
 function isEditable(t: EventTarget | null): boolean {
   const el = t as HTMLElement | null;
@@ -66,6 +78,7 @@ function useFieldUndo(app: AppController) {
 export function App({ app }: { app: AppController }) {
   useFieldUndo(app);
   useEffect(() => startFrameLoop(app.clock), [app]);
+  const show3d = useFirstPassOver(app);
   // The study view takes the centre and right columns while it is open.
   const studyOpen = useStoreSlice(studySessionOf(app).store, (s) => s.open);
   return (
@@ -90,7 +103,7 @@ export function App({ app }: { app: AppController }) {
             <>
               <section className="center" aria-label="3D view and plots">
                 <Suspense fallback={<div className="view3d" aria-busy="true" aria-label="3D view loading" />}>
-                  <View3DPanel />
+                  {show3d ? <View3DPanel /> : <div className="view3d" aria-busy="true" aria-label="3D view loading" />}
                 </Suspense>
                 <PlotsPanel />
               </section>

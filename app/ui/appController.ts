@@ -11,6 +11,7 @@ import { createStore, type Store } from './store/createStore';
 import { createAppStore, type AppStore } from './store/document';
 import { createClock, type PlaybackClock } from './playback/clock';
 import { createPipelineRunner, type PipelineRunner, type WorkerLike } from './worker/client';
+import type { PrestartedPass } from './worker/prestart';
 import { preflight } from './preflight';
 import { issueLine, presentIssues } from './issues/present';
 import { STARTER_FILE_NAME, starterScenario } from './starter';
@@ -47,6 +48,8 @@ export interface AppControllerOptions {
   debounceMs?: number;
   /** Pipeline workers sharing each pass (default 1; main.tsx gives one per core beyond two, up to 4). */
   pipelineWorkers?: number;
+  /** The fallback's pass posted before the app loaded (app/boot.ts), taken over when it is the same pass. */
+  prestarted?: PrestartedPass | null;
 }
 
 type Obj = Record<string, unknown>;
@@ -80,6 +83,7 @@ export function createAppController(o: AppControllerOptions): AppController {
   const runner: PipelineRunner = createPipelineRunner({
     spawn: o.spawnWorker,
     workers: o.pipelineWorkers ?? 1,
+    prestarted: o.prestarted ?? null,
     debounceMs: o.debounceMs ?? 10,
     // An edit after a quiet spell is posted in its own keystroke, before React renders it (issue 12).
     leadingEdge: true,

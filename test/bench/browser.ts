@@ -65,10 +65,12 @@ const INIT_SCRIPT = `
 globalThis.__name = (f) => f;
 (() => {
   const ids = ${JSON.stringify(PLOTS)};
-  const marks = (window.__bench = { done: null, painted: null, firstPost: null, firstReply: null, view: { setRunsMs: 0, setRuns: 0, renderMs: 0, renders: 0 } });
-  // When the app first posts a run to its pipeline worker and when the first reply arrives.
+  const marks = (window.__bench = { done: null, painted: null, firstWorker: null, firstPost: null, firstReply: null, view: { setRunsMs: 0, setRuns: 0, renderMs: 0, renders: 0 } });
+  // When the app creates its first worker, first posts a run to a pipeline worker (none when the
+  // worker starts the demo by itself: app/boot.ts) and when the first reply arrives.
   const NativeWorker = window.Worker;
   window.Worker = function (...args) {
+    if (marks.firstWorker === null) marks.firstWorker = performance.now();
     const w = new NativeWorker(...args);
     const post = w.postMessage.bind(w);
     w.postMessage = (...m) => { if (marks.firstPost === null) marks.firstPost = performance.now(); post(...m); };
@@ -129,6 +131,7 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
     dcl: number[] = [],
     engine: number[] = [],
     post: number[] = [],
+    created: number[] = [],
     reply: number[] = [];
   for (let k = 0; k < loads; k++) {
     const { context, page } = await newPage(browser, skip3d);
@@ -137,7 +140,11 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
       timeout: 120_000,
     });
     const m = await page.evaluate(() => {
-      const b = (window as unknown as { __bench: { done: number; painted: number; firstPost: number; firstReply: number } }).__bench;
+      const b = (
+        window as unknown as {
+          __bench: { done: number; painted: number; firstWorker: number; firstPost: number | null; firstReply: number };
+        }
+      ).__bench;
       const nav = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
       const out = (
         window as unknown as { __slewsmith: { store: { getState(): { output: { elapsedMs: number } } } } }
@@ -148,6 +155,7 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
         dcl: nav.domContentLoadedEventEnd,
         engine: out.elapsedMs,
         post: b.firstPost,
+        created: b.firstWorker,
         reply: b.firstReply,
       };
     });
@@ -155,7 +163,8 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
     done.push(m.done);
     dcl.push(m.dcl);
     engine.push(m.engine);
-    post.push(m.post);
+    if (m.post !== null) post.push(m.post);
+    created.push(m.created);
     reply.push(m.reply);
     await context.close();
   }
@@ -163,7 +172,8 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
     `   ${skip3d ? 'same, 3D view render() skipped' : 'cold start → five plots with data'}: median ${ms(median(painted))} (min ${ms(Math.min(...painted))}, max ${ms(Math.max(...painted))}, ${loads} loads)${skip3d ? '' : '   [target ≤ 1200 ms]'}`,
   );
   console.log(
-    `     of which (medians, from navigation start): DOMContentLoaded ${ms(median(dcl))}; first run posted to the worker ${ms(median(post))}; ` +
+    `     of which (medians, from navigation start): DOMContentLoaded ${ms(median(dcl))}; first worker created ${ms(median(created))}; ` +
+      `first run posted to a worker ${post.length ? ms(median(post)) : 'never (the worker started the demo itself)'}; ` +
       `its reply ${ms(median(reply))} (worker start-up + engine pipeline ${ms(median(engine))} for six runs + transfer); ` +
       `run status 'done' in the DOM ${ms(median(done))}; plots painted ${ms(median(painted))} (frame-probe resolution ≈ 17 ms)`,
   );
@@ -428,33 +438,37 @@ export async function benchBrowser(): Promise<void> {
   try {
     // A production build in a child process (NODE_ENV=production; see test/e2e/global-setup.ts),
     // into a temporary folder so a concurrent e2e run's dist/renderer is left alone.
+    // SLEWSMITH_BENCH_DIST=<folder>: serve a build made before instead (before/after runs of two builds).
+    const prebuilt = process.env.SLEWSMITH_BENCH_DIST;
     const t0 = performance.now();
-    const built = spawnSync(
-      path.join(root, 'node_modules/.bin/vite'),
-      ['build', '--logLevel', 'error', '--outDir', outDir, '--emptyOutDir'],
-      {
-        cwd: root,
-        env: { ...process.env, NODE_ENV: 'production' },
-        encoding: 'utf8',
-      },
-    );
+    const built = prebuilt
+      ? { status: 0, stderr: '', stdout: '' }
+      : spawnSync(path.join(root, 'node_modules/.bin/vite'), ['build', '--logLevel', 'error', '--outDir', outDir, '--emptyOutDir'], {
+          cwd: root,
+          env: { ...process.env, NODE_ENV: 'production' },
+          encoding: 'utf8',
+        });
     if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}${built.stdout}`);
-    console.log(`   renderer built in ${ms(performance.now() - t0)} (vite build, production)`);
+    if (prebuilt) console.log(`   serving the build in ${prebuilt}`);
+    else console.log(`   renderer built in ${ms(performance.now() - t0)} (vite build, production)`);
     const server = await preview({
       configFile: path.join(root, 'vite.config.ts'),
       root: path.join(root, electronConfig.entries.rendererRoot),
       logLevel: 'error',
-      build: { outDir },
+      build: { outDir: prebuilt ? path.resolve(prebuilt) : outDir },
       preview: { host: '127.0.0.1', port: 0, strictPort: true, open: false },
     });
     const url = server.resolvedUrls?.local[0];
     if (!url) throw new Error('vite preview started without a local URL');
     const browser = await chromium.launch({ executablePath: chromiumPath, args: ARGS, headless: true });
     try {
-      // SLEWSMITH_BENCH_ONLY=edit: only the edit figures (for before/after runs on a shared machine).
+      // SLEWSMITH_BENCH_ONLY=edit: only the edit figures; =cold: only the cold start (SLEWSMITH_BENCH_LOADS
+      // loads, default 5), for before/after runs on a shared machine.
       const only = process.env.SLEWSMITH_BENCH_ONLY;
-      if (!only) await coldStart(browser, url, 5, false);
+      const loads = Number(process.env.SLEWSMITH_BENCH_LOADS) || 5;
+      if (!only || only === 'cold') await coldStart(browser, url, loads, false);
       if (!only) await coldStart(browser, url, 3, true);
+      if (only === 'cold') return;
       // SLEWSMITH_BENCH_EDITS=n: more edits than 7 for steadier medians on a shared machine.
       await editToPlots(browser, url, Number(process.env.SLEWSMITH_BENCH_EDITS ?? 7), false);
       if (!only) await editToPlots(browser, url, 5, true);

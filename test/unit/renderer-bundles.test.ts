@@ -53,7 +53,16 @@ describe('production renderer build', () => {
     expect(workers().map((w) => w.fileName.replace(/-[\w-]+\.js$/, ''))).toEqual(
       expect.arrayContaining(['assets/pipeline.worker', 'assets/study.worker']),
     );
-    const main = outputs.find((o) => o.type === 'chunk' && o.isEntry)!;
+    // The page's entry (app/boot.ts) starts the workers and loads the app chunk (app/main.tsx),
+    // which sets zod's option before anything else; the entry itself holds no zod at all.
+    const entry = outputs.find((o): o is Rolldown.OutputChunk => o.type === 'chunk' && o.isEntry)!;
+    expect(entry.moduleIds.filter((id) => id.includes('node_modules/zod'))).toEqual([]);
+    const main = outputs.find((o): o is Rolldown.OutputChunk => o.type === 'chunk' && !!o.facadeModuleId?.endsWith('app/main.tsx'))!;
+    expect(main.isDynamicEntry).toBe(true);
+    expect(entry.dynamicImports).toContain(main.fileName);
+    // The page announces the app chunk so that it is fetched alongside the entry (vite.config.ts).
+    const html = code(outputs.find((o) => o.fileName === 'index.html')!);
+    expect(html).toContain(`<link rel="modulepreload" crossorigin href="./${main.fileName}">`);
     // zod's config({ jitless: true }) as minified: `({jitless:!0})`.
     const jitless = /\(\{\s*jitless\s*:\s*(?:!0|true)\s*\}\)/;
     // Booleans, not toMatch: a failure would otherwise print a whole bundle.

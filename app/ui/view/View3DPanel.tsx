@@ -69,6 +69,14 @@ export function View3DPanel() {
       return;
     }
     view.current = v;
+    // The view's first frame compiles its shaders (≈ 150 ms in software GL): like a new run set's,
+    // it waits until the frame after the one that paints the plots (the panel often mounts in the
+    // same commit as the first output).
+    holdRender.current = true;
+    let firstTimer: ReturnType<typeof setTimeout> | null = null;
+    const firstFrame = requestAnimationFrame(() => {
+      firstTimer = setTimeout(() => (holdRender.current = false), 0);
+    });
     // For the end-to-end tests and the console, as main.tsx exposes the store and clock: the
     // view handle (model, renderer, camera). Nothing in the app reads it.
     const hook = window as unknown as { __slewsmithView?: AttitudeViewHandle };
@@ -98,6 +106,8 @@ export function View3DPanel() {
       }
     });
     return () => {
+      cancelAnimationFrame(firstFrame);
+      if (firstTimer !== null) clearTimeout(firstTimer);
       offTick();
       upkeep.dispose();
       v.dispose();

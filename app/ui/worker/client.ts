@@ -18,6 +18,7 @@ import type { Result } from '../../engine/errors';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import { mergeRunSlices } from '../../engine/pipeline/slices';
 import type { RunReply, WorkerMessage } from './protocol';
+import { passMessage, replayEarly, samePass, type PrestartedPass } from './prestart';
 
 export interface WorkerLike {
   postMessage(message: WorkerMessage): void;
@@ -63,6 +64,12 @@ export interface PipelineRunnerOptions {
    */
   afterPaint?: (fn: () => void) => void;
   onCrash: (message: string, id: number) => void;
+  /**
+   * Workers already flying a pass posted before the runner existed (prestart.ts): they become the
+   * runner's workers, and its first pass adopts that pass instead of posting it again when it
+   * would post the same messages.
+   */
+  prestarted?: PrestartedPass | null;
   now?: () => number;
   setTimer?: (fn: () => void, ms: number) => unknown;
   clearTimer?: (h: unknown) => void;
@@ -109,11 +116,17 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
   let disposed = false;
   let passesSent = 0;
   let lastScheduleAt = -Infinity;
+  let prestarted = o.prestarted && o.prestarted.workers.length === slots ? o.prestarted : null;
+  if (prestarted) prestarted.workers.forEach((w, i) => attach(i, w));
+  else o.prestarted?.workers.forEach((w) => w.terminate());
 
   function ensureWorker(slot: number): WorkerLike {
     const existing = workers[slot];
     if (existing) return existing;
-    const w = o.spawn();
+    return attach(slot, o.spawn());
+  }
+
+  function attach(slot: number, w: WorkerLike): WorkerLike {
     w.onmessage = (ev) => onReply(slot, ev.data);
     w.onerror = (ev) => {
       ev.preventDefault?.();
@@ -142,10 +155,17 @@ export function createPipelineRunner(o: PipelineRunnerOptions): PipelineRunner {
     const wantsEarly = slots === 1 && o.partialAfterRuns !== undefined && o.onPartial && !(o.partialSkipsFirstPass && passesSent === 0);
     const early = wantsEarly ? { partialAfterRuns: o.partialAfterRuns, partialWait: true } : {};
     passesSent++;
-    for (let i = 0; i < slots; i++) {
-      const options = slots > 1 ? { ...job.options, runSlice: { index: i, of: slots } } : job.options;
-      ensureWorker(i).postMessage({ type: 'run', id: job.id, scenario: job.scenario, options, ...early });
+    const messages = Array.from({ length: slots }, (_, i) => passMessage(job.id, job.scenario, job.options, i, slots, early));
+    const adopt = prestarted;
+    prestarted = null;
+    if (adopt && adopt.workers.every((w, i) => workers[i] === w) && samePass(adopt.messages, messages)) {
+      // The early pass is this pass: take its replies under its id.
+      job.id = wantedId = adopt.messages[0]!.id;
+      adopt.workers.forEach((_, i) => replayEarly(adopt, i, true));
+      return;
     }
+    messages.forEach((m, i) => ensureWorker(i).postMessage(m));
+    adopt?.workers.forEach((_, i) => replayEarly(adopt, i, false));
   }
 
   function pump() {

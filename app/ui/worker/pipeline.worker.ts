@@ -5,11 +5,17 @@
  */
 // First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
 import '../../no-eval';
+import demoCertificates from 'virtual:slewsmith-demo-certificates';
+import { plantCertificateCache } from '../../engine/control/certificate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
+import { prestartRequest } from './prestart';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
+// The bundled demo's certificates, computed when the app was built (vite.config.ts); a scenario
+// whose certificate inputs differ misses them (the key holds every input) and computes its own.
+plantCertificateCache(demoCertificates);
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
 const orbitViewCache = createOrbitViewCache();
 
@@ -39,3 +45,7 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
     : undefined;
   answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache, wait);
 };
+
+// A worker app/boot.ts started for the demo flies it now, before any message could arrive.
+const early = prestartRequest(scope.name);
+if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
