@@ -25,10 +25,12 @@ export class HeldGyrostatRk4 {
   /** −Σ g_i τ_i for the held torques (frictionless bearings only), N·m, body axes. */
   private readonly b = new Float64Array(3);
   private readonly dim: number;
-  /** Frictionless step: the wheel momenta of stages 2–3 and of stage 4, and one stage's ω̇. */
+  /** Frictionless step: the wheel momenta of stages 2–3 and of stage 4, one stage's body rate u and its ω̇. */
   private readonly hMid: Float64Array;
   private readonly hEnd: Float64Array;
   private readonly wd = new Float64Array(3);
+  private readonly u = new Float64Array(3);
+  private readonly hStep = new Float64Array(1);
 
   constructor(private readonly g: Gyrostat) {
     this.dim = 7 + g.n;
@@ -67,7 +69,12 @@ export class HeldGyrostatRk4 {
    * out is not finite (the caller keeps x).
    */
   step(out: Float64Array, x: Float64Array, h: number): boolean {
-    if (!this.g.friction.active) return this.stepFrictionless(out, x, h);
+    if (!this.g.friction.active) {
+      // h through a typed-array slot, not as an argument: a double passed to a call that is not
+      // inlined is boxed, once per step.
+      this.hStep[0] = h;
+      return this.stepFrictionless(out, x);
+    }
     const n = this.dim;
     const { k1, k2, k3, k4, tmp } = this;
     this.deriv(k1, x);
@@ -95,7 +102,8 @@ export class HeldGyrostatRk4 {
    * wheel momenta are x_h (stage 1), x_h + (h/2)τ (stages 2 and 3: k1 and k2 hold the same τ) and
    * x_h + hτ (stage 4), each formed once per step.
    */
-  private stepFrictionless(out: Float64Array, x: Float64Array, h: number): boolean {
+  private stepFrictionless(out: Float64Array, x: Float64Array): boolean {
+    const h = this.hStep[0]!;
     const n = this.g.n,
       tau = this.tau,
       hMid = this.hMid,
@@ -114,13 +122,19 @@ export class HeldGyrostatRk4 {
       wx = x[4]!,
       wy = x[5]!,
       wz = x[6]!;
-    const wd = this.wd;
+    // ω̇ takes its stage rate through u and returns it in wd: doubles passed to or returned from a
+    // call that is not inlined are boxed (a heap number each), typed-array slots are not.
+    const u = this.u,
+      wd = this.wd;
     // Stage 1 at x.
     const a0 = 0.5 * (qw * wx + qy * wz - qz * wy);
     const a1 = 0.5 * (qw * wy + qz * wx - qx * wz);
     const a2 = 0.5 * (qw * wz + qx * wy - qy * wx);
     const a3 = -0.5 * (qx * wx + qy * wy + qz * wz);
-    this.omegaDot(wx, wy, wz, x, 7);
+    u[0] = wx;
+    u[1] = wy;
+    u[2] = wz;
+    this.omegaDot(x, 7);
     const a4 = wd[0]!,
       a5 = wd[1]!,
       a6 = wd[2]!;
@@ -136,7 +150,10 @@ export class HeldGyrostatRk4 {
     const b1 = 0.5 * (sw * uy + sz * ux - sx * uz);
     const b2 = 0.5 * (sw * uz + sx * uy - sy * ux);
     const b3 = -0.5 * (sx * ux + sy * uy + sz * uz);
-    this.omegaDot(ux, uy, uz, hMid, 0);
+    u[0] = ux;
+    u[1] = uy;
+    u[2] = uz;
+    this.omegaDot(hMid, 0);
     const b4 = wd[0]!,
       b5 = wd[1]!,
       b6 = wd[2]!;
@@ -152,7 +169,10 @@ export class HeldGyrostatRk4 {
     const c1 = 0.5 * (sw * uy + sz * ux - sx * uz);
     const c2 = 0.5 * (sw * uz + sx * uy - sy * ux);
     const c3 = -0.5 * (sx * ux + sy * uy + sz * uz);
-    this.omegaDot(ux, uy, uz, hMid, 0);
+    u[0] = ux;
+    u[1] = uy;
+    u[2] = uz;
+    this.omegaDot(hMid, 0);
     const c4 = wd[0]!,
       c5 = wd[1]!,
       c6 = wd[2]!;
@@ -168,7 +188,10 @@ export class HeldGyrostatRk4 {
     const d1 = 0.5 * (sw * uy + sz * ux - sx * uz);
     const d2 = 0.5 * (sw * uz + sx * uy - sy * ux);
     const d3 = -0.5 * (sx * ux + sy * uy + sz * uz);
-    this.omegaDot(ux, uy, uz, hEnd, 0);
+    u[0] = ux;
+    u[1] = uy;
+    u[2] = uz;
+    this.omegaDot(hEnd, 0);
     const d4 = wd[0]!,
       d5 = wd[1]!,
       d6 = wd[2]!;
@@ -199,10 +222,14 @@ export class HeldGyrostatRk4 {
   }
 
   /**
-   * wd = ω̇ of the frictionless gyrostat at body rate (wx, wy, wz) and wheel momenta
-   * hw[o … o+n−1], with the held body reaction b (order of operations as gyrostatDerivative).
+   * wd = ω̇ of the frictionless gyrostat at body rate u and wheel momenta hw[o … o+n−1], with the
+   * held body reaction b (order of operations as gyrostatDerivative).
    */
-  private omegaDot(wx: number, wy: number, wz: number, hw: Float64Array, o: number): void {
+  private omegaDot(hw: Float64Array, o: number): void {
+    const u = this.u,
+      wx = u[0]!,
+      wy = u[1]!,
+      wz = u[2]!;
     const g = this.g,
       P = g.Jperp,
       ax = g.axes,
