@@ -5,7 +5,12 @@
  *    local variables) against the general rk4Step (hybrid/rk4.ts) over gyrostatDerivative
  *    (body/gyrostat.ts) with the wheel torques held and no external torque: 0–6 wheels on random
  *    axes, random inertia, torques including ±0, steps of many sizes, and states holding
- *    non-finite values (the same bits written and the same finite/non-finite answer).
+ *    non-finite values (the same bits written and the same finite/non-finite answer);
+ *  - the online metrics recorder (metrics/online.ts), which forms a fixed-target segment's error
+ *    only where it is read (first sample, a rate below the settle threshold, the segment's last
+ *    sample), against computeMetrics on the same samples as a trace (metrics/metrics.ts), on
+ *    random multi-segment runs (full-attitude and pointing-only segments, rates and errors
+ *    straddling the settle thresholds, runs ending fast or slow): equal by Object.is.
  */
 import { describe, expect, it } from 'vitest';
 import { gyrostatDerivative, makeGyrostat, type Gyrostat } from '../../app/engine/body/gyrostat';
@@ -13,6 +18,9 @@ import { makeRk4Work, rk4Step } from '../../app/engine/hybrid/rk4';
 import type { FlowFn } from '../../app/engine/hybrid/types';
 import { makeRng, type Rng } from '../../app/engine/math/prng';
 import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
+import { computeMetrics, type MetricOptions } from '../../app/engine/metrics/metrics';
+import { OnlineMetrics } from '../../app/engine/metrics/online';
+import { PACKED_ERROR_ANGLE, PACKED_SCALARS, PACKED_T, TraceBuilder, type PackedSample } from '../../app/engine/sim/trace';
 
 function randomGyrostat(rng: Rng, n: number): Gyrostat {
   for (;;) {
@@ -76,5 +84,121 @@ describe('HeldGyrostatRk4 without friction (stages in locals)', () => {
       }
     }
     expect(compared).toBe(12_000);
+  });
+});
+
+/** Paths where a and b differ (numbers by Object.is). */
+function differences(a: unknown, b: unknown, at = '', out: string[] = []): string[] {
+  if (typeof a === 'number' || typeof b === 'number') {
+    if (!Object.is(a, b)) out.push(`${at}: ${String(a)} vs ${String(b)}`);
+  } else if (Array.isArray(a) && Array.isArray(b)) {
+    if (a.length !== b.length) out.push(`${at}: length ${a.length} vs ${b.length}`);
+    else for (let i = 0; i < a.length; i++) differences(a[i], b[i], `${at}[${i}]`, out);
+  } else if (a !== null && b !== null && typeof a === 'object' && typeof b === 'object') {
+    const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
+    for (const k of keys) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${at}.${k}`, out);
+  } else if (a !== b) out.push(`${at}: ${String(a)} vs ${String(b)}`);
+  return out;
+}
+
+function unitQuat(rng: Rng, out: Float64Array, o = 0): void {
+  const a = rng.normal(),
+    b = rng.normal(),
+    c = rng.normal(),
+    d = rng.normal();
+  const r = Math.hypot(a, b, c, d);
+  out[o] = a / r;
+  out[o + 1] = b / r;
+  out[o + 2] = c / r;
+  out[o + 3] = d / r;
+}
+
+describe('online metrics: a fixed-target error formed only where read', () => {
+  it('equal to computeMetrics on the same samples, random multi-segment runs', () => {
+    const rng = makeRng(20261204, 5);
+    const N = 3;
+    let runs = 0;
+    for (let trial = 0; trial < 120; trial++) {
+      const nSeg = 1 + (trial % 3);
+      const targets = new Float64Array(4 * nSeg);
+      const axes = new Float64Array(3 * nSeg);
+      for (let g = 0; g < nSeg; g++) {
+        unitQuat(rng, targets, 4 * g);
+        // every other trial: some pointing-only segments (a unit body axis), else zeros
+        if (trial % 2 === 1 && (g + trial) % 2 === 0) {
+          const x = rng.normal(),
+            y = rng.normal(),
+            z = rng.normal(),
+            r = Math.hypot(x, y, z);
+          axes[3 * g] = x / r;
+          axes[3 * g + 1] = y / r;
+          axes[3 * g + 2] = z / r;
+        }
+      }
+      const o: MetricOptions = {
+        settleAngleRad: 0.3,
+        settleRateRadPerS: 0.05,
+        chatterWindowS: 10,
+        maxTorqueNm: [0.004, 0.004, 0.004],
+        maxMomentumNms: [0.03, 0.03, 0.03],
+        segmentTargets: targets,
+        plannedSwitchTimes: [],
+        ...(trial % 2 === 1 ? { segmentAxes: axes } : {}),
+      };
+      const online = new OnlineMetrics(N, o);
+      const builder = new TraceBuilder(N, 16);
+      const n = 5 + (trial % 40);
+      const s: PackedSample = {
+        j: 0,
+        segment: 0,
+        scalars: new Float64Array(PACKED_SCALARS),
+        q: new Float64Array(4),
+        omega: new Float64Array(3),
+        hWheel: new Float64Array(N),
+        qRef: new Float64Array(4),
+        omegaRef: new Float64Array(3),
+        torqueCmdBody: new Float64Array(3),
+        torqueBody: new Float64Array(3),
+        wheelTorqueCmd: new Float64Array(N),
+        wheelTorque: new Float64Array(N),
+        wheelTorqueNet: new Float64Array(N),
+      };
+      const q = new Float64Array(4);
+      for (let k = 0; k < n; k++) {
+        s.segment = Math.min(nSeg - 1, Math.floor((k * nSeg) / n));
+        s.scalars[PACKED_T] = 0.1 * k;
+        // near the target (inside the angle threshold) or anywhere
+        if (rng.next() < 0.5) {
+          const e = 0.4 * rng.next();
+          const t = targets.subarray(4 * s.segment, 4 * s.segment + 4);
+          q[0] = t[0]! + 0.5 * e * rng.normal();
+          q[1] = t[1]! + 0.5 * e * rng.normal();
+          q[2] = t[2]! + 0.5 * e * rng.normal();
+          q[3] = t[3]!;
+          const r = Math.hypot(q[0]!, q[1]!, q[2]!, q[3]!);
+          for (let i = 0; i < 4; i++) s.q[i] = q[i]! / r;
+        } else unitQuat(rng, s.q);
+        s.qRef.set(targets.subarray(4 * s.segment, 4 * s.segment + 4));
+        // rates around the settle threshold, the last sample fast or slow
+        const scale = rng.next() < 0.5 ? 0.02 : 0.2;
+        for (let i = 0; i < 3; i++) s.omega[i] = scale * rng.normal();
+        s.scalars[PACKED_ERROR_ANGLE] = rng.next();
+        for (let i = 0; i < 3; i++) {
+          s.torqueCmdBody[i] = 0.002 * rng.normal();
+          s.torqueBody[i] = 0.002 * rng.normal();
+        }
+        for (let i = 0; i < N; i++) {
+          s.hWheel[i] = 0.03 * rng.normal();
+          s.wheelTorque[i] = 0.004 * rng.normal();
+        }
+        expect(online.push(s)).toBe(true);
+        expect(builder.pushPackedIfFinite(s)).toBe(true);
+      }
+      const a = online.metrics([]);
+      const b = computeMetrics(builder.finish(), [], o);
+      expect(differences(a, b), `trial ${trial}`).toEqual([]);
+      runs++;
+    }
+    expect(runs).toBe(120);
   });
 });

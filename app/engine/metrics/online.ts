@@ -238,12 +238,16 @@ export class OnlineMetrics implements SampleSink {
       rateErr = Math.hypot(w[0]! - r[0]!, w[1]! - r[1]!, w[2]! - r[2]!);
       eta = etaOf(s.q, s.qRef);
     } else {
-      err = this.axis ? pointingErrorBetween(s.q, 0, this.target, 0, this.axis) : qAngleBetween(s.q, this.target);
       rateErr = rate;
+      // The error is read at the segment's first sample (its shortest rotation), by the settle
+      // test only when the rate passes it (the test is false at once otherwise), and at the
+      // segment's close from its last sample (finalErrorRad): no acos per fast-turning sample.
+      err = first || rate < o.settleRateRadPerS ? this.fixedTargetError(s.q) : NaN;
       eta = etaOf(s.q, this.target);
     }
     if (g.lastOutside) g.settledFromT = t;
-    g.lastOutside = !(err < o.settleAngleRad && rateErr < o.settleRateRadPerS);
+    // err is NaN only when the rate fails the test: the same answer as with err itself.
+    g.lastOutside = !(rateErr < o.settleRateRadPerS && err < o.settleAngleRad);
     if (first) {
       g.shortestRad = o.movingTargets ? qAngleBetween(s.q, this.target) : err;
       g.eta0 = eta;
@@ -257,8 +261,16 @@ export class OnlineMetrics implements SampleSink {
     g.etaLast = eta;
   }
 
+  /** Error to the fixed target (pointing error on a pointing-only segment), as segments.ts measureSegment. */
+  private fixedTargetError(q: Float64Array): number {
+    return this.axis ? pointingErrorBetween(q, 0, this.target, 0, this.axis) : qAngleBetween(q, this.target);
+  }
+
+  /** Close the open segment; `lastQ` still holds the attitude at its last sample. */
   private closeSegment(g: OpenSegment, tEnd: number): void {
     const o = this.o;
+    // The last sample's error when its rate skipped it (fixed targets; never NaN from finite samples).
+    if (Number.isNaN(g.lastErrorRad)) g.lastErrorRad = this.fixedTargetError(this.lastQ);
     const settleTimeS = g.lastOutside ? null : g.settledFromT - g.tStart;
     const shortest = g.shortestRad;
     let longWay: boolean, unwound: boolean;
