@@ -10,13 +10,19 @@
  *    only where it is read (first sample, a rate below the settle threshold, the segment's last
  *    sample), against computeMetrics on the same samples as a trace (metrics/metrics.ts), on
  *    random multi-segment runs (full-attitude and pointing-only segments, rates and errors
- *    straddling the settle thresholds, runs ending fast or slow): equal by Object.is.
+ *    straddling the settle thresholds, runs ending fast or slow): equal by Object.is;
+ *  - Rng.normals (math/prng.ts), count draws in one call, against as many normal() calls on a twin
+ *    generator (the same values and the same state after, a cached spare or not), and the sensors'
+ *    measure (sim/sensors.ts), which now draws through it, against the per-call form it replaced
+ *    (transcribed below from commit 2bf7e55) over random states and sensor models.
  */
 import { describe, expect, it } from 'vitest';
 import { gyrostatDerivative, makeGyrostat, type Gyrostat } from '../../app/engine/body/gyrostat';
 import { makeRk4Work, rk4Step } from '../../app/engine/hybrid/rk4';
 import type { FlowFn } from '../../app/engine/hybrid/types';
 import { makeRng, type Rng } from '../../app/engine/math/prng';
+import { qConjMultiply, qFromRotationVector, qMultiply, qNormalize } from '../../app/engine/math/rotation';
+import { measure, type SensorModel } from '../../app/engine/sim/sensors';
 import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
 import { computeMetrics, type MetricOptions } from '../../app/engine/metrics/metrics';
 import { OnlineMetrics } from '../../app/engine/metrics/online';
@@ -200,5 +206,88 @@ describe('online metrics: a fixed-target error formed only where read', () => {
       runs++;
     }
     expect(runs).toBe(120);
+  });
+});
+
+describe('Rng.normals and the sensors drawing through it', () => {
+  it('normals(out, k) gives the values and the state of k normal() calls', () => {
+    for (let seed = 0; seed < 40; seed++) {
+      const a = makeRng(seed, seed % 3),
+        b = makeRng(seed, seed % 3);
+      const out = new Float64Array(8);
+      for (let round = 0; round < 200; round++) {
+        const k = (round * 7 + seed) % 6; // 0–5: odd counts leave a spare cached
+        a.normals(out, k);
+        for (let i = 0; i < k; i++) expect(Object.is(out[i], b.normal())).toBe(true);
+        if (round % 5 === 0) expect(a.next()).toBe(b.next());
+      }
+      expect(a.normal()).toBe(b.normal());
+    }
+  });
+
+  /** sensors.ts measure as of commit 2bf7e55 (a normal() call per value), without the pointing-only stall. */
+  function measureBefore(
+    qOut: Float64Array,
+    omegaOut: Float64Array,
+    model: SensorModel,
+    rng: Rng,
+    qTrue: Float64Array,
+    omegaTrue: Float64Array,
+    qRef: Float64Array,
+  ): void {
+    const dtheta = new Float64Array(3),
+      dq = new Float64Array(4),
+      qe = new Float64Array(4);
+    const sa = model.attitudeSigmaRad;
+    if (sa > 0) {
+      dtheta[0] = sa * rng.normal();
+      dtheta[1] = sa * rng.normal();
+      dtheta[2] = sa * rng.normal();
+      qFromRotationVector(dq, dtheta);
+      qMultiply(qOut, qTrue, dq);
+    } else qOut.set(qTrue);
+    const ebar = model.adversarialEta;
+    if (ebar > 0) {
+      qConjMultiply(qe, qRef, qOut);
+      if (Math.abs(qe[3]!) < ebar) {
+        qe[3] = -qe[3]!;
+        qMultiply(qOut, qRef, qe);
+        qNormalize(qOut, qOut);
+      }
+    }
+    const sw = model.rateSigmaRadPerS;
+    const b = model.rateBiasRadPerS;
+    for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + (sw > 0 ? sw * rng.normal() : 0);
+  }
+
+  it('measure: the same measured state and the same draws as the per-call form', () => {
+    const pick = makeRng(99, 1);
+    const qa = new Float64Array(4),
+      qb = new Float64Array(4),
+      wa = new Float64Array(3),
+      wb = new Float64Array(3),
+      qT = new Float64Array(4),
+      wT = new Float64Array(3),
+      qR = new Float64Array(4);
+    for (let trial = 0; trial < 40; trial++) {
+      const model: SensorModel = {
+        attitudeSigmaRad: trial % 4 === 0 ? 0 : 4e-5 * (1 + pick.next()),
+        rateSigmaRadPerS: trial % 3 === 0 ? 0 : 9e-5 * (1 + pick.next()),
+        rateBiasRadPerS: [1e-5 * pick.normal(), trial % 2 ? -0 : 1e-5 * pick.normal(), 0],
+        adversarialEta: trial % 5 === 0 ? 0 : 0.04,
+      };
+      const a = makeRng(trial, 7),
+        b = makeRng(trial, 7);
+      for (let k = 0; k < 300; k++) {
+        unitQuat(pick, qT);
+        unitQuat(pick, qR);
+        for (let i = 0; i < 3; i++) wT[i] = k % 17 === 0 ? -0 : 0.05 * pick.normal();
+        measure(qa, wa, model, a, qT, wT, qR);
+        measureBefore(qb, wb, model, b, qT, wT, qR);
+        for (let i = 0; i < 4; i++) expect(Object.is(qa[i], qb[i])).toBe(true);
+        for (let i = 0; i < 3; i++) expect(Object.is(wa[i], wb[i])).toBe(true);
+      }
+      expect(a.next()).toBe(b.next());
+    }
   });
 });
