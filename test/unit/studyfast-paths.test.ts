@@ -14,7 +14,10 @@
  *  - Rng.normals (math/prng.ts), count draws in one call, against as many normal() calls on a twin
  *    generator (the same values and the same state after, a cached spare or not), and the sensors'
  *    measure (sim/sensors.ts), which now draws through it, against the per-call form it replaced
- *    (transcribed below from commit 2bf7e55) over random states and sensor models.
+ *    (transcribed below from commit 2bf7e55) over random states and sensor models;
+ *  - packedNonFiniteSum (sim/sink.ts), the online sink's finiteness check written out for the
+ *    loop's layout, against Number.isFinite on every value: random samples of 0–6 wheels and of
+ *    other channel lengths, with NaN, ±∞, ±0 and extreme finite values planted anywhere.
  */
 import { describe, expect, it } from 'vitest';
 import { gyrostatDerivative, makeGyrostat, type Gyrostat } from '../../app/engine/body/gyrostat';
@@ -23,6 +26,7 @@ import type { FlowFn } from '../../app/engine/hybrid/types';
 import { makeRng, type Rng } from '../../app/engine/math/prng';
 import { qConjMultiply, qFromRotationVector, qMultiply, qNormalize } from '../../app/engine/math/rotation';
 import { measure, type SensorModel } from '../../app/engine/sim/sensors';
+import { packedNonFiniteSum } from '../../app/engine/sim/sink';
 import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
 import { computeMetrics, type MetricOptions } from '../../app/engine/metrics/metrics';
 import { OnlineMetrics } from '../../app/engine/metrics/online';
@@ -289,5 +293,58 @@ describe('Rng.normals and the sensors drawing through it', () => {
       }
       expect(a.next()).toBe(b.next());
     }
+  });
+});
+
+describe('packedNonFiniteSum', () => {
+  it('is 0 exactly when every value is finite, NaN otherwise, for any layout', () => {
+    const rng = makeRng(5, 11);
+    const specials = [NaN, Infinity, -Infinity];
+    const finiteOdd = [0, -0, Number.MAX_VALUE, -Number.MAX_VALUE, Number.MIN_VALUE, 1e308];
+    let nonFinite = 0;
+    for (let k = 0; k < 20_000; k++) {
+      const N = k % 7;
+      const odd = k % 10 === 9; // channel lengths other than the loop's
+      const f = (len: number) =>
+        Float64Array.from({ length: len }, () => (rng.next() < 0.05 ? finiteOdd[k % finiteOdd.length]! : rng.normal()));
+      const s: PackedSample = {
+        j: 0,
+        segment: 0,
+        scalars: f(odd ? 5 + (k % 4) : PACKED_SCALARS),
+        q: f(4),
+        omega: f(3),
+        hWheel: f(N),
+        qRef: f(4),
+        omegaRef: f(odd ? 2 : 3),
+        torqueCmdBody: f(3),
+        torqueBody: f(3),
+        wheelTorqueCmd: f(odd ? N + 1 : N),
+        wheelTorque: f(N),
+        wheelTorqueNet: f(N),
+      };
+      const channels = [
+        s.scalars,
+        s.q,
+        s.qRef,
+        s.omega,
+        s.omegaRef,
+        s.torqueCmdBody,
+        s.torqueBody,
+        s.hWheel,
+        s.wheelTorqueCmd,
+        s.wheelTorque,
+        s.wheelTorqueNet,
+      ];
+      if (k % 2 === 1) {
+        const c = channels[k % channels.length]!;
+        if (c.length > 0) c[Math.floor(rng.next() * c.length)] = specials[k % 3]!;
+      }
+      const finite = channels.every((c) => Array.from(c).every((v) => Number.isFinite(v)));
+      if (!finite) nonFinite++;
+      const z = packedNonFiniteSum(s);
+      if (finite) expect(z === 0).toBe(true);
+      else expect(Number.isNaN(z)).toBe(true);
+    }
+    expect(nonFinite).toBeGreaterThan(8_000);
   });
 });
