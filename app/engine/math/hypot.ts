@@ -1,7 +1,8 @@
 /**
  * √(a² + b² + c²) without overflow or underflow, written out: the closed loop forms it at every
- * sample (the error angle, the sensor noise rotation), where the built-in Math.hypot is a variadic
- * call that cannot be inlined.
+ * sample (the error angle, the sensor noise rotation) and the planner's envelope scans at every
+ * point of a profile (plan/loads.ts, wheels/envelope.ts), where the built-in Math.hypot is a
+ * variadic call that cannot be inlined and allocates for its arguments.
  *
  * Method: scale by the largest magnitude m, sum the squares of the scaled values with Kahan's
  * compensated summation (Kahan, "Further remarks on reducing truncation errors", CACM 8(1):40,

@@ -12,6 +12,12 @@ export interface Rng {
   next(): number;
   /** Standard normal (Box–Muller, one value per call; the pair's second value is cached). */
   normal(): number;
+  /**
+   * out[0 … count−1] = `count` standard normals: the same values, drawn in the same order, as
+   * `count` calls of normal() (and the same generator state after). One call instead of `count`
+   * keeps the values out of heap numbers in the sensors' per-sample path.
+   */
+  normals(out: Float64Array, count: number): void;
 }
 
 function splitmix32(state: { s: number }): number {
@@ -66,6 +72,25 @@ class Xoshiro128 implements Rng {
 
   next(): number {
     return this.nextUint32() / 4294967296;
+  }
+
+  normals(out: Float64Array, count: number): void {
+    for (let i = 0; i < count; i++) {
+      if (this.hasSpare) {
+        this.hasSpare = false;
+        out[i] = this.spare[0]!;
+        continue;
+      }
+      // normal() below, written out
+      let u = 0;
+      while (u === 0) u = this.next();
+      const v = this.next();
+      const r = Math.sqrt(-2 * Math.log(u));
+      const a = 2 * Math.PI * v;
+      this.spare[0] = r * Math.sin(a);
+      this.hasSpare = true;
+      out[i] = r * Math.cos(a);
+    }
   }
 
   normal(): number {

@@ -78,6 +78,11 @@ export class OnlineMetrics implements SampleSink {
 
   private readonly N: number;
   private readonly floor2: number;
+  /**
+   * The sample's time and |ω|, read by the per-sample steps from here rather than passed: a
+   * double passed to a call that is not inlined is boxed, a heap number per call and sample.
+   */
+  private readonly now = new Float64Array(2);
   private readonly target = new Float64Array(4);
   private readonly axisBuf = new Float64Array(3);
   private readonly trackAxis = new Float64Array(3);
@@ -166,6 +171,8 @@ export class OnlineMetrics implements SampleSink {
     const k = this.count;
     const w = s.omega;
     const rate = Math.sqrt(w[0]! * w[0]! + w[1]! * w[1]! + w[2]! * w[2]!);
+    this.now[0] = t;
+    this.now[1] = rate;
 
     // Segments: the interval from the previous sample belongs to the previous sample's segment
     // (segments.ts travelledFrom runs on to the next segment's first sample), then a new segment opens.
@@ -176,12 +183,12 @@ export class OnlineMetrics implements SampleSink {
       g = null;
     }
     if (!g) g = this.openSegment(s, t);
-    this.segmentSample(g, s, t, rate);
+    this.segmentSample(g, s);
 
-    this.trackingSample(s, t, k);
-    this.chatterSample(s, t, k);
-    this.wheelSample(s, t, k);
-    this.gridSample(s, t);
+    this.trackingSample(s, k);
+    this.chatterSample(s, k);
+    this.wheelSample(s, k);
+    this.gridSample(s);
 
     this.lastError = s.scalars[PACKED_ERROR_ANGLE]!;
     const lq = this.lastQ,
@@ -225,8 +232,10 @@ export class OnlineMetrics implements SampleSink {
   }
 
   /** One sample of the open segment: settle, errors, η, the pointed axis' path. */
-  private segmentSample(g: OpenSegment, s: PackedSample, t: number, rate: number): void {
+  private segmentSample(g: OpenSegment, s: PackedSample): void {
     const o = this.o;
+    const t = this.now[0]!,
+      rate = this.now[1]!;
     const first = g.fresh;
     g.fresh = false;
     let err: number, rateErr: number, eta: number;
@@ -238,12 +247,16 @@ export class OnlineMetrics implements SampleSink {
       rateErr = Math.hypot(w[0]! - r[0]!, w[1]! - r[1]!, w[2]! - r[2]!);
       eta = etaOf(s.q, s.qRef);
     } else {
-      err = this.axis ? pointingErrorBetween(s.q, 0, this.target, 0, this.axis) : qAngleBetween(s.q, this.target);
       rateErr = rate;
+      // The error is read at the segment's first sample (its shortest rotation), by the settle
+      // test only when the rate passes it (the test is false at once otherwise), and at the
+      // segment's close from its last sample (finalErrorRad): no acos per fast-turning sample.
+      err = first || rate < o.settleRateRadPerS ? this.fixedTargetError(s.q) : NaN;
       eta = etaOf(s.q, this.target);
     }
     if (g.lastOutside) g.settledFromT = t;
-    g.lastOutside = !(err < o.settleAngleRad && rateErr < o.settleRateRadPerS);
+    // err is NaN only when the rate fails the test: the same answer as with err itself.
+    g.lastOutside = !(rateErr < o.settleRateRadPerS && err < o.settleAngleRad);
     if (first) {
       g.shortestRad = o.movingTargets ? qAngleBetween(s.q, this.target) : err;
       g.eta0 = eta;
@@ -257,8 +270,16 @@ export class OnlineMetrics implements SampleSink {
     g.etaLast = eta;
   }
 
+  /** Error to the fixed target (pointing error on a pointing-only segment), as segments.ts measureSegment. */
+  private fixedTargetError(q: Float64Array): number {
+    return this.axis ? pointingErrorBetween(q, 0, this.target, 0, this.axis) : qAngleBetween(q, this.target);
+  }
+
+  /** Close the open segment; `lastQ` still holds the attitude at its last sample. */
   private closeSegment(g: OpenSegment, tEnd: number): void {
     const o = this.o;
+    // The last sample's error when its rate skipped it (fixed targets; never NaN from finite samples).
+    if (Number.isNaN(g.lastErrorRad)) g.lastErrorRad = this.fixedTargetError(this.lastQ);
     const settleTimeS = g.lastOutside ? null : g.settledFromT - g.tStart;
     const shortest = g.shortestRad;
     let longWay: boolean, unwound: boolean;
@@ -293,7 +314,8 @@ export class OnlineMetrics implements SampleSink {
   }
 
   /** metrics.ts trackingError: peak and trapezoidal RMS of the law's error (pointing error on pointing-only segments). */
-  private trackingSample(s: PackedSample, t: number, k: number): void {
+  private trackingSample(s: PackedSample, k: number): void {
+    const t = this.now[0]!;
     // The segment's pointed axis, looked up again only when the segment changes.
     if (s.segment !== this.trackSeg) {
       this.trackSeg = s.segment;
@@ -311,7 +333,8 @@ export class OnlineMetrics implements SampleSink {
   }
 
   /** chatter.ts chatterOf, with each reversal's planned-switch test waiting for the next sample's time. */
-  private chatterSample(s: PackedSample, t: number, k: number): void {
+  private chatterSample(s: PackedSample, k: number): void {
+    const t = this.now[0]!;
     if (this.pending) this.decidePending(t);
     const tc = s.torqueCmdBody;
     const x = tc[0]!,
@@ -349,22 +372,24 @@ export class OnlineMetrics implements SampleSink {
   }
 
   /** wheels.ts wheelUse: peaks, time at the limits, effort. */
-  private wheelSample(s: PackedSample, t: number, k: number): void {
+  private wheelSample(s: PackedSample, k: number): void {
     const N = this.N;
+    const t = this.now[0]!;
     const o = this.o;
     const tb = s.torqueBody;
     const m = Math.sqrt(tb[0]! * tb[0]! + tb[1]! * tb[1]! + tb[2]! * tb[2]!);
     if (k > 0) this.effort += 0.5 * (m + this.effortPrev) * (t - this.tPrev);
     this.effortPrev = m;
-    peakSample(this.torquePeak, s.wheelTorque, o.maxTorqueNm, N, t);
-    peakSample(this.momentumPeak, s.hWheel, o.maxMomentumNms, N, t);
+    peakSample(this.torquePeak, s.wheelTorque, o.maxTorqueNm, N, this.now);
+    peakSample(this.momentumPeak, s.hWheel, o.maxMomentumNms, N, this.now);
     // Slots [0, N): wheel torques; [N, 2N): wheel momenta.
-    this.limitSample(s.wheelTorque, o.maxTorqueNm, 0, t);
-    this.limitSample(s.hWheel, o.maxMomentumNms, N, t);
+    this.limitSample(s.wheelTorque, o.maxTorqueNm, 0);
+    this.limitSample(s.hWheel, o.maxMomentumNms, N);
   }
 
   /** Time at the limit of one kind (torque or momentum) of every wheel; `at0` is its first slot. */
-  private limitSample(data: Float64Array, limits: ArrayLike<number>, at0: number, t: number): void {
+  private limitSample(data: Float64Array, limits: ArrayLike<number>, at0: number): void {
+    const t = this.now[0]!;
     const prev = this.satPrev,
       total = this.satTotal,
       first = this.satFirst;
@@ -379,9 +404,10 @@ export class OnlineMetrics implements SampleSink {
   }
 
   /** The error-angle channel at each grid time reached: the first sample at or after it (study/runCase.ts). */
-  private gridSample(s: PackedSample, t: number): void {
+  private gridSample(s: PackedSample): void {
     const g = this.grid;
     if (!g) return;
+    const t = this.now[0]!;
     while (this.gridFilled < g.count && !(t < this.gridFilled * g.stepS - 1e-9))
       this.gridErrorRad[this.gridFilled++] = s.scalars[PACKED_ERROR_ANGLE]!;
   }
@@ -446,7 +472,9 @@ export class OnlineMetrics implements SampleSink {
   }
 }
 
-function peakSample(p: WheelPeak, data: Float64Array, limits: ArrayLike<number>, N: number, t: number): void {
+/** `now[0]`: the sample's time. */
+function peakSample(p: WheelPeak, data: Float64Array, limits: ArrayLike<number>, N: number, now: Float64Array): void {
+  const t = now[0]!;
   for (let i = 0; i < N; i++) {
     const f = Math.abs(data[i]!) / limits[i]!;
     if (f > p.fraction) {

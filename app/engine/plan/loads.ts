@@ -15,6 +15,7 @@ import type { Mat3, Vec3 } from '../math/mat3';
 import { m3MulVec, v3Cross, v3Dot } from '../math/mat3';
 import { profileStateAt } from './profile';
 import type { PlanLimits, RestToRestProfile } from './types';
+import { hypot3 } from '../math/hypot';
 
 /** Per-segment constants of the load formulas. */
 export interface SlewGeometry {
@@ -80,7 +81,7 @@ const dir = new Float64Array(3);
  * which every caller treats as a violation.
  */
 export function envelopeFraction(v: ArrayLike<number>, capacity: (d: Vec3) => number): number {
-  const n = Math.hypot(v[0]!, v[1]!, v[2]!);
+  const n = hypot3(v[0]!, v[1]!, v[2]!);
   if (n === 0) return 0;
   dir[0] = v[0]! / n;
   dir[1] = v[1]! / n;
@@ -91,7 +92,7 @@ export function envelopeFraction(v: ArrayLike<number>, capacity: (d: Vec3) => nu
 
 /** Capacity along ±u (min of the two; zonotopes are symmetric but the interface does not say so). */
 export function symmetricCapacity(u: ArrayLike<number>, capacity: (d: Vec3) => number): number {
-  const n = Math.hypot(u[0]!, u[1]!, u[2]!);
+  const n = hypot3(u[0]!, u[1]!, u[2]!);
   if (!(n > 0)) return 0;
   dir[0] = u[0]! / n;
   dir[1] = u[1]! / n;

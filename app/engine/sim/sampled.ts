@@ -63,13 +63,15 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   const maxSteps = cfg.maxSteps ?? DEFAULT_MAX_STEPS;
   let steps = 0;
   let t = 0;
-  const stopped = (): LoopEnd =>
+  // t is passed, not captured: a captured `let` double lives boxed in the closure's context, a new
+  // heap number at every step.
+  const stopped = (t: number): LoopEnd =>
     core.fault !== null
       ? { status: 'non-finite', message: core.fault, t, x }
       : { status: 'cancelled', message: `the run was asked to stop at t = ${fmtS(t)} s`, t, x };
   sample(0, x);
   let tSched = nextStop(t);
-  if (core.stopRequested) return stopped();
+  if (core.stopRequested) return stopped(t);
   for (;;) {
     // 1. What is due at this instant: a sample, or a pulse end.
     while (t < tEnd && tSched <= t) {
@@ -77,7 +79,7 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
       if (Math.abs(t - due) <= DUE_TOLERANCE * Math.max(1, Math.abs(due))) sample(due, x);
       else actuator.edge(t, core.wheelNow);
       tSched = nextStop(t);
-      if (core.stopRequested) return stopped();
+      if (core.stopRequested) return stopped(t);
     }
     if (t >= tEnd) return { status: 'completed', message: `reached the end time ${fmtS(tEnd)} s`, t, x };
     // 2. Flow to the next stop in equal RK4 steps.
@@ -110,6 +112,6 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
       t = i === m - 1 ? tStop : t0 + (i + 1) * h;
       projectQuaternion(x);
     }
-    if (core.stopRequested) return stopped();
+    if (core.stopRequested) return stopped(t);
   }
 }

@@ -49,6 +49,7 @@ export const PERFECT_SENSORS: SensorModel = {
 };
 
 const dtheta = new Float64Array(3);
+const rateNoise = new Float64Array(3);
 const dq = new Float64Array(4);
 const qe = new Float64Array(4);
 
@@ -69,9 +70,11 @@ export function measure(
 ): void {
   const sa = model.attitudeSigmaRad;
   if (sa > 0) {
-    dtheta[0] = sa * rng.normal();
-    dtheta[1] = sa * rng.normal();
-    dtheta[2] = sa * rng.normal();
+    // three draws in one call (the values of three normal() calls, in order)
+    rng.normals(dtheta, 3);
+    dtheta[0] = sa * dtheta[0]!;
+    dtheta[1] = sa * dtheta[1]!;
+    dtheta[2] = sa * dtheta[2]!;
     qFromRotationVector(dq, dtheta);
     qMultiply(qOut, qTrue, dq);
   } else {
@@ -104,5 +107,9 @@ export function measure(
     applyAntipodalStall(qOut, qOut, qTrue, qRef, pointingAxis, stall);
   const sw = model.rateSigmaRadPerS;
   const b = model.rateBiasRadPerS;
-  for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + (sw > 0 ? sw * rng.normal() : 0);
+  // The rate's three draws come after the attitude's, as three normal() calls in axis order would.
+  if (sw > 0) {
+    rng.normals(rateNoise, 3);
+    for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + sw * rateNoise[i]!;
+  } else for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + 0;
 }

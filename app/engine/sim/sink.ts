@@ -24,9 +24,10 @@ export interface SampleSink {
  * trace.ts pushPackedIfFinite checks the same channels).
  */
 export function packedNonFiniteSum(s: PackedSample): number {
-  // Every channel's loop written out in this one function (no helper call per channel: this runs
-  // at every sample of every study run). Only whether the sum is 0 or NaN matters, not its sign.
-  let z = 0;
+  // Written out in this one function (no helper call per channel: this runs at every sample of
+  // every study run). Only whether the sum is 0 or NaN matters, not its sign, so the terms may be
+  // grouped in any order: the fixed-size channels in four independent straight-line sums (a
+  // micro-bench: 18 ns instead of 40 ns per three-wheel sample), the wheel channels in one loop.
   const x = s.scalars,
     q = s.q,
     r = s.qRef,
@@ -38,16 +39,44 @@ export function packedNonFiniteSum(s: PackedSample): number {
     c = s.wheelTorqueCmd,
     u = s.wheelTorque,
     n = s.wheelTorqueNet;
-  for (let i = 0; i < x.length; i++) z += x[i]! * 0;
-  for (let i = 0; i < q.length; i++) z += q[i]! * 0;
-  for (let i = 0; i < r.length; i++) z += r[i]! * 0;
-  for (let i = 0; i < w.length; i++) z += w[i]! * 0;
-  for (let i = 0; i < wr.length; i++) z += wr[i]! * 0;
-  for (let i = 0; i < tc.length; i++) z += tc[i]! * 0;
-  for (let i = 0; i < tb.length; i++) z += tb[i]! * 0;
-  for (let i = 0; i < h.length; i++) z += h[i]! * 0;
-  for (let i = 0; i < c.length; i++) z += c[i]! * 0;
-  for (let i = 0; i < u.length; i++) z += u[i]! * 0;
-  for (let i = 0; i < n.length; i++) z += n[i]! * 0;
+  const N = h.length;
+  if (
+    x.length !== 7 || // the seven terms written out below (PACKED_SCALARS)
+    q.length !== 4 ||
+    r.length !== 4 ||
+    w.length !== 3 ||
+    wr.length !== 3 ||
+    tc.length !== 3 ||
+    tb.length !== 3 ||
+    c.length !== N ||
+    u.length !== N ||
+    n.length !== N
+  )
+    return anyLengthsSum(s);
+  let a = x[0]! * 0 + x[1]! * 0 + x[2]! * 0 + x[3]! * 0 + x[4]! * 0 + x[5]! * 0 + x[6]! * 0;
+  const b = q[0]! * 0 + q[1]! * 0 + q[2]! * 0 + q[3]! * 0 + r[0]! * 0 + r[1]! * 0 + r[2]! * 0 + r[3]! * 0;
+  const d = w[0]! * 0 + w[1]! * 0 + w[2]! * 0 + wr[0]! * 0 + wr[1]! * 0 + wr[2]! * 0;
+  const e = tc[0]! * 0 + tc[1]! * 0 + tc[2]! * 0 + tb[0]! * 0 + tb[1]! * 0 + tb[2]! * 0;
+  for (let i = 0; i < N; i++) a += h[i]! * 0 + c[i]! * 0 + u[i]! * 0 + n[i]! * 0;
+  return a + b + d + e;
+}
+
+/** The same sum over channels of any length (a sample not of the loop's own layout). */
+function anyLengthsSum(s: PackedSample): number {
+  let z = 0;
+  for (const a of [
+    s.scalars,
+    s.q,
+    s.qRef,
+    s.omega,
+    s.omegaRef,
+    s.torqueCmdBody,
+    s.torqueBody,
+    s.hWheel,
+    s.wheelTorqueCmd,
+    s.wheelTorque,
+    s.wheelTorqueNet,
+  ])
+    for (let i = 0; i < a.length; i++) z += a[i]! * 0;
   return z;
 }

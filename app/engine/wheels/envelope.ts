@@ -13,6 +13,7 @@
 import type { WheelArray } from './array';
 import { makeZonotope } from './zonotope';
 import type { Zonotope } from './zonotope';
+import { hypot3 } from '../math/hypot';
 
 export type { Zonotope } from './zonotope';
 export { makeZonotope } from './zonotope';
@@ -54,14 +55,14 @@ export type EnvelopeFaces = Pick<Zonotope, 'faceNormals' | 'faceOffsets'>;
 export function envelopeCapacity(z: EnvelopeFaces, d: ArrayLike<number>): number {
   const f = envelopeBindingFace(z, d);
   if (f < 0) return 0;
-  const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
+  const dn = hypot3(d[0]!, d[1]!, d[2]!);
   const nd = (z.faceNormals[3 * f]! * d[0]! + z.faceNormals[3 * f + 1]! * d[1]! + z.faceNormals[3 * f + 2]! * d[2]!) / dn;
   return z.faceOffsets[f]! / nd;
 }
 
 /** Index of the facet the ray along d leaves through (−1 when undefined, see envelopeCapacity). */
 export function envelopeBindingFace(z: EnvelopeFaces, d: ArrayLike<number>): number {
-  const dn = Math.hypot(d[0]!, d[1]!, d[2]!);
+  const dn = hypot3(d[0]!, d[1]!, d[2]!);
   if (!(dn > 0) || !Number.isFinite(dn)) return -1;
   const ux = d[0]! / dn,
     uy = d[1]! / dn,
