@@ -9,10 +9,16 @@ import { createAppController } from './ui/appController';
 import { pipelineWorkerCount, spawnPipelineWorker } from './ui/worker/pipelineWorkers';
 import { takePrestartedPass } from './ui/worker/prestart';
 import demo from '../assets/lumen6-imaging.scenario.json';
+import demoValidation from 'virtual:slewsmith-demo-validation';
+import { plantValidation } from './engine/scenario/knownValidation';
 import './ui/styles.css';
 
 const container = document.getElementById('root');
 if (!container) throw new Error('index.html has no #root element');
+
+// The demo's validation made at build time (main/demo-validation.ts): the first screen does not
+// validate the demo again; any other scenario, or the demo once edited, is validated as before.
+plantValidation(...demoValidation);
 
 const app = createAppController({
   bridge: getBridge(),

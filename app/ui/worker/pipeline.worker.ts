@@ -6,7 +6,9 @@
 // First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
 import '../../no-eval';
 import demoCertificates from 'virtual:slewsmith-demo-certificates';
+import demoValidation from 'virtual:slewsmith-demo-validation';
 import { plantCertificateCache } from '../../engine/control/certificate';
+import { plantValidation } from '../../engine/scenario/knownValidation';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
@@ -16,6 +18,9 @@ const scope = self as unknown as DedicatedWorkerGlobalScope;
 // The bundled demo's certificates, computed when the app was built (vite.config.ts); a scenario
 // whose certificate inputs differ misses them (the key holds every input) and computes its own.
 plantCertificateCache(demoCertificates);
+// Its validation too (main/demo-validation.ts): only an input equal to the demo in every value
+// takes it, so the early pass validates nothing; any other scenario is validated as before.
+plantValidation(...demoValidation);
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
 const orbitViewCache = createOrbitViewCache();
 
