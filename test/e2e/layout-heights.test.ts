@@ -35,6 +35,9 @@ describe.skipIf(skipBrowser)('layout heights (Chromium)', () => {
       const page = w.page;
       await page.goto(appUrl(), { waitUntil: 'load' });
       await page.locator('[data-testid=run-status][data-status=done]').waitFor({ timeout: 120_000 });
+      // The 3D panel (a lazy chunk) mounts only once the first pass is over (App.tsx): 'done' can
+      // come before its canvas exists.
+      await page.locator('.view3d canvas').waitFor({ timeout: 60_000 });
       const b = await page.evaluate(() => {
         const box = (s: string) => {
           const r = document.querySelector(s)!.getBoundingClientRect();
