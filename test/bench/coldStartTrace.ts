@@ -101,6 +101,13 @@ interface CpuFigures {
   worker: number;
   kinds: Map<string, number>;
   doneMs: number;
+  /** When the pipeline worker's thread first ran a task (its script arrived and the page let it start). */
+  workerStartMs: number;
+  /**
+   * From the browser process having the worker's script (DedicatedWorkerHost::DidStartScriptLoad)
+   * to the worker thread's first task: the wait for the page's main thread to take that message.
+   */
+  workerHopMs: number;
 }
 
 /** CPU ms per thread from navigation start to the 'slewsmith-done' mark, and by kind on the main thread. */
@@ -113,17 +120,27 @@ function cpuToDone(events: TraceEvent[], pageUrl: string): CpuFigures {
   if (!nav) throw new Error('no navigationStart in the trace');
   const done = events.find((e) => e.name === 'slewsmith-done' && e.pid === nav.pid);
   if (!done) throw new Error('no slewsmith-done mark in the trace');
-  const figures: CpuFigures = { main: 0, worker: 0, kinds: new Map(), doneMs: (done.ts - nav.ts) / 1000 };
+  const figures: CpuFigures = {
+    main: 0,
+    worker: 0,
+    kinds: new Map(),
+    doneMs: (done.ts - nav.ts) / 1000,
+    workerStartMs: NaN,
+    workerHopMs: NaN,
+  };
   // Per thread, only outermost events of a kind count (a FunctionCall inside a FunctionCall once).
   const lastEnd = new Map<string, number>();
   for (const e of [...events].sort((a, b) => a.ts - b.ts)) {
     if (e.pid !== nav.pid || e.ph !== 'X' || e.ts < nav.ts || e.ts > done.ts) continue;
     const thread = threads.get(`${e.pid}:${e.tid}`) ?? '';
     const isMain = thread.startsWith('CrRendererMain');
-    const isWorker = thread.includes('Worker');
+    const isWorker = thread.startsWith('DedicatedWorker');
     const cpu = (e.tdur ?? 0) / 1000;
     if (e.name === 'RunTask' && isMain) figures.main += cpu;
-    if (e.name === 'RunTask' && isWorker) figures.worker += cpu;
+    if (e.name === 'RunTask' && isWorker) {
+      figures.worker += cpu;
+      if (Number.isNaN(figures.workerStartMs)) figures.workerStartMs = (e.ts - nav.ts) / 1000;
+    }
     const kind = CPU_KINDS[e.name];
     if (!kind || !isMain) continue;
     const key = `${e.tid}:${kind}`;
@@ -131,6 +148,8 @@ function cpuToDone(events: TraceEvent[], pageUrl: string): CpuFigures {
     lastEnd.set(key, e.ts + (e.dur ?? 0));
     figures.kinds.set(kind, (figures.kinds.get(kind) ?? 0) + cpu);
   }
+  const loaded = events.find((e) => e.name === 'DedicatedWorkerHost::DidStartScriptLoad' && e.ts >= nav.ts);
+  figures.workerHopMs = loaded ? figures.workerStartMs - (loaded.ts - nav.ts) / 1000 : NaN;
   return figures;
 }
 
@@ -228,7 +247,7 @@ try {
         .map(([n, v]) => `${n} ${v.toFixed(0)}`)
         .join(', ');
       console.log(
-        `load ${k + 1}: CPU to 'done' (${f.doneMs.toFixed(0)} ms wall, traced): main ${f.main.toFixed(0)} ms (${kinds}), worker ${f.worker.toFixed(0)} ms`,
+        `load ${k + 1}: CPU to 'done' (${f.doneMs.toFixed(0)} ms wall, traced): main ${f.main.toFixed(0)} ms (${kinds}), worker ${f.worker.toFixed(0)} ms; worker thread started at ${f.workerStartMs.toFixed(0)} ms, ${f.workerHopMs.toFixed(0)} ms after its script arrived`,
       );
       await context.close();
     }
@@ -240,7 +259,7 @@ try {
     const fig = (v: number[]) => `median ${med(v).toFixed(0)} ms, min ${Math.min(...v).toFixed(0)} ms`;
     console.log(
       `CPU to 'done' over ${loads} load(s): main thread ${fig(all.map((f) => f.main))}; worker ${fig(all.map((f) => f.worker))}; ` +
-        `wall (traced) ${fig(all.map((f) => f.doneMs))}`,
+        `wall (traced) ${fig(all.map((f) => f.doneMs))}; worker thread started at ${fig(all.map((f) => f.workerStartMs))}, after its script arrived ${fig(all.map((f) => f.workerHopMs))}`,
     );
   } finally {
     await browser.close();
