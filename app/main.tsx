@@ -11,6 +11,7 @@ import { takePrestartedPass } from './ui/worker/prestart';
 import demo from '../assets/lumen6-imaging.scenario.json';
 import demoValidation from 'virtual:slewsmith-demo-validation';
 import { plantValidation } from './engine/scenario/knownValidation';
+import { validateScenarioAfresh } from './engine/scenario/validate';
 import './ui/styles.css';
 
 const container = document.getElementById('root');
@@ -29,6 +30,14 @@ const app = createAppController({
   pipelineWorkers: pipelineWorkerCount(),
   // boot.ts has already posted the demo's pass; the controller's first request takes it over.
   prestarted: takePrestartedPass(),
+});
+
+// Once the first pass is shown, the validator's first run on the demo in idle time, so that the
+// first edit does not pay for it (the planted validation above skipped it at start).
+const offWarm = app.store.subscribe(() => {
+  if (app.store.getState().output === null) return;
+  offWarm();
+  requestIdleCallback(() => void validateScenarioAfresh(demo), { timeout: 2000 });
 });
 
 // For the end-to-end tests and for debugging from the console: read-only handles, no globals

@@ -17,7 +17,7 @@ import type { Result } from '../../app/engine/errors';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import { clearKnownValidations, copyJson, knownValidation, plantValidation, sameJson } from '../../app/engine/scenario/knownValidation';
 import type { Scenario } from '../../app/engine/scenario/schema';
-import { validateScenario } from '../../app/engine/scenario/validate';
+import { validateScenario, validateScenarioAfresh } from '../../app/engine/scenario/validate';
 import { preflight } from '../../app/ui/preflight';
 import { validationModuleSource } from '../../main/demo-validation';
 
@@ -92,6 +92,13 @@ describe('build-time validation of the bundled demo', () => {
       expect(sameJson(d, demo()), what).toBe(false);
       expect(validateScenario(d), what).not.toEqual(MARKER);
     }
+  });
+
+  it('validateScenarioAfresh (the idle warm-up) ignores what was planted', () => {
+    const real = validateScenario(demo());
+    plantValidation(demo(), MARKER);
+    expect(validateScenario(demo())).toEqual(MARKER);
+    expect(validateScenarioAfresh(demo())).toEqual(real);
   });
 
   it('an edited demo still gets the validator’s field-named messages', () => {

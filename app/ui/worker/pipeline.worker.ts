@@ -9,6 +9,7 @@ import demoCertificates from 'virtual:slewsmith-demo-certificates';
 import demoValidation from 'virtual:slewsmith-demo-validation';
 import { plantCertificateCache } from '../../engine/control/certificate';
 import { plantValidation } from '../../engine/scenario/knownValidation';
+import { validateScenarioAfresh } from '../../engine/scenario/validate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
@@ -53,4 +54,8 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
 
 // A worker app/boot.ts started for the demo flies it now, before any message could arrive.
 const early = prestartRequest(scope.name);
-if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+if (early) {
+  answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+  // The validator's first run, now that the pass is posted: the first edit then finds it warm.
+  setTimeout(() => void validateScenarioAfresh(early.scenario), 0);
+}
