@@ -28,6 +28,8 @@ const orbitViewCache = createOrbitViewCache();
 // A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
 // message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
 const REST_AFTER_MS = 250;
+// The validator's warm-up after the early pass (below).
+const WARM_AFTER_MS = 500;
 let pending: { id: number; resume: (go: boolean) => void; timer: ReturnType<typeof setTimeout> } | null = null;
 
 function resumePending(id: number, go: boolean) {
@@ -56,6 +58,7 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
 const early = prestartRequest(scope.name);
 if (early) {
   answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
-  // The validator's first run, now that the pass is posted: the first edit then finds it warm.
-  setTimeout(() => void validateScenarioAfresh(early.scenario), 0);
+  // The validator's first run, once the page has had time to show the pass (it would compete with
+  // that for the cores): the first edit then finds it warm. An edit before it pays that run itself.
+  setTimeout(() => void validateScenarioAfresh(early.scenario), WARM_AFTER_MS);
 }
