@@ -57,28 +57,40 @@ function demoScenario(): Plugin {
 }
 
 /**
- * `virtual:slewsmith-demo-certificates`: the bundled demo's synergy-gap certificates, computed now
- * by the engine's own sources (main/demo-certificates.ts, run through tsx in a child process), for
- * the pipeline worker to plant in its certificate cache: its first pass then skips ~200 ms of
- * certificate work on the demo. Any other scenario misses the cache and computes its own.
+ * A module made at build time by one of main/'s scripts run on the bundled demo (through tsx in a
+ * child process, so it runs the engine's own sources): `id` resolves to what the script prints.
  */
-function demoCertificates(): Plugin {
-  const id = 'virtual:slewsmith-demo-certificates';
+function demoBuildModule(id: string, script: string): Plugin {
   return {
-    name: 'slewsmith-demo-certificates',
+    name: `slewsmith-${id.replace('virtual:slewsmith-', '')}`,
     resolveId: (source) => (source === id ? `\0${id}` : null),
     load(resolved) {
       if (resolved !== `\0${id}`) return null;
-      const r = spawnSync(
-        process.execPath,
-        ['--import', 'tsx', path.join(root, 'main/demo-certificates.ts'), path.join(root, electronConfig.demoScenario)],
-        { cwd: root, encoding: 'utf8', maxBuffer: 1 << 24 },
-      );
-      if (r.status !== 0) throw new Error(`demo certificates failed: ${r.stderr}`);
+      const r = spawnSync(process.execPath, ['--import', 'tsx', path.join(root, script), path.join(root, electronConfig.demoScenario)], {
+        cwd: root,
+        encoding: 'utf8',
+        maxBuffer: 1 << 24,
+      });
+      if (r.status !== 0) throw new Error(`${id} failed: ${r.stderr}`);
       return r.stdout;
     },
   };
 }
+
+/**
+ * `virtual:slewsmith-demo-certificates`: the bundled demo's synergy-gap certificates, computed now
+ * by the engine's own sources (main/demo-certificates.ts), for the pipeline worker to plant in its
+ * certificate cache: its first pass then skips ~200 ms of certificate work on the demo. Any other
+ * scenario misses the cache and computes its own.
+ */
+const demoCertificates = () => demoBuildModule('virtual:slewsmith-demo-certificates', 'main/demo-certificates.ts');
+
+/**
+ * `virtual:slewsmith-demo-validation`: the bundled demo's JSON value and its validation
+ * (main/demo-validation.ts), planted by the page (main.tsx) and the pipeline worker so neither
+ * validates the demo at start; any other scenario is validated as before.
+ */
+const demoValidation = () => demoBuildModule('virtual:slewsmith-demo-validation', 'main/demo-validation.ts');
 
 /**
  * The app chunk (main.tsx), which app/boot.ts imports only after it has started the workers, is
@@ -112,9 +124,10 @@ export default defineConfig({
   root: path.join(root, electronConfig.entries.rendererRoot),
   base: './',
   publicDir: false,
-  // demoCertificates: the worker bundles import it; the dev server serves workers through these plugins.
-  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk(), demoCertificates()],
-  worker: { plugins: () => [demoCertificates()] },
+  // demoCertificates, demoValidation: the worker bundles import them; the dev server serves workers
+  // through these plugins.
+  plugins: [react(), cspMeta(contentSecurityPolicy), demoScenario(), preloadAppChunk(), demoCertificates(), demoValidation()],
+  worker: { plugins: () => [demoCertificates(), demoValidation()] },
   define: {
     __SLEWSMITH_VERSION__: JSON.stringify(pkg.version),
   },

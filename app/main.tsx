@@ -9,10 +9,17 @@ import { createAppController } from './ui/appController';
 import { pipelineWorkerCount, spawnPipelineWorker } from './ui/worker/pipelineWorkers';
 import { takePrestartedPass } from './ui/worker/prestart';
 import demo from '../assets/lumen6-imaging.scenario.json';
+import demoValidation from 'virtual:slewsmith-demo-validation';
+import { plantValidation } from './engine/scenario/knownValidation';
+import { validateScenarioAfresh } from './engine/scenario/validate';
 import './ui/styles.css';
 
 const container = document.getElementById('root');
 if (!container) throw new Error('index.html has no #root element');
+
+// The demo's validation made at build time (main/demo-validation.ts): the first screen does not
+// validate the demo again; any other scenario, or the demo once edited, is validated as before.
+plantValidation(...demoValidation);
 
 const app = createAppController({
   bridge: getBridge(),
@@ -23,6 +30,14 @@ const app = createAppController({
   pipelineWorkers: pipelineWorkerCount(),
   // boot.ts has already posted the demo's pass; the controller's first request takes it over.
   prestarted: takePrestartedPass(),
+});
+
+// Once the first pass is shown, the validator's first run on the demo in idle time, so that the
+// first edit does not pay for it (the planted validation above skipped it at start).
+const offWarm = app.store.subscribe(() => {
+  if (app.store.getState().output === null) return;
+  offWarm();
+  requestIdleCallback(() => void validateScenarioAfresh(demo), { timeout: 2000 });
 });
 
 // For the end-to-end tests and for debugging from the console: read-only handles, no globals

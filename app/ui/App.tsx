@@ -3,7 +3,7 @@
  * view over the synchronised plots in the centre, plan and comparison on the right, the playback
  * bar at the bottom, and the export dialog.
  */
-import { lazy, Suspense, useEffect, useRef } from 'react';
+import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { alternateCommandForChord, commandForChord } from '../bridge/commands';
 import type { AppController } from './appController';
 import { AppContext } from './context';
@@ -39,6 +39,26 @@ function useFirstPassOver(app: AppController): boolean {
   const latched = useRef(false);
   if (over) latched.current = true;
   return latched.current;
+}
+
+/**
+ * True from the frame after the one that showed the first pass (`over`): a panel mounted only then
+ * (the sky view, whose scene costs tens of milliseconds of Sun, Moon and body-axis directions)
+ * does not hold back the first plots' frame; it appears one frame later.
+ */
+function useFrameAfter(over: boolean): boolean {
+  const [after, setAfter] = useState(false);
+  useEffect(() => {
+    if (!over || after) return;
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    // The animation frame callback runs before that frame's paint; the task it queues runs after it.
+    const frame = requestAnimationFrame(() => (timer = setTimeout(() => setAfter(true), 0)));
+    return () => {
+      cancelAnimationFrame(frame);
+      if (timer !== undefined) clearTimeout(timer);
+    };
+  }, [over, after]);
+  return after;
 }
 
 function isEditable(t: EventTarget | null): boolean {
@@ -79,6 +99,7 @@ export function App({ app }: { app: AppController }) {
   useFieldUndo(app);
   useEffect(() => startFrameLoop(app.clock), [app]);
   const show3d = useFirstPassOver(app);
+  const showSky = useFrameAfter(show3d);
   // The study view takes the centre and right columns while it is open.
   const studyOpen = useStoreSlice(studySessionOf(app).store, (s) => s.open);
   return (
@@ -111,7 +132,7 @@ export function App({ app }: { app: AppController }) {
                 <RunStatus />
                 <PlanSummary />
                 <PassesView />
-                <SkyView />
+                {showSky ? <SkyView /> : null}
               </aside>
               {/* Under the centre and right columns, so every run fits side by side at 1280 px. */}
               <section className="compare-band" aria-label="Comparison of runs">

@@ -32,6 +32,7 @@ import { checkLawFields } from '../control/registry';
 import { checkBandwidthAgainstRate } from '../control/lawSupport';
 import { checkOrbitScenario } from './orbitValidate';
 import { checkConstraintList } from './constraintValidate';
+import { knownValidation } from './knownValidation';
 
 type Obj = Record<string, unknown>;
 
@@ -125,9 +126,19 @@ export function capIssues(list: readonly Issue[], max = MAX_LISTED_ISSUES): Issu
 /**
  * Structure, ranges, units and cross-field rules of a scenario file: the one validation of the
  * pipeline (later stages assert). Older formats are migrated first (migrate.ts; its notes come
- * back as warnings).
+ * back as warnings). An input equal to one validated at build time (the bundled demo, planted by
+ * the renderer's threads: knownValidation.ts) gets that validation without the work.
  */
 export function validateScenario(json: unknown): Result<Scenario> {
+  return knownValidation<Scenario>(json) ?? validateScenarioAfresh(json);
+}
+
+/**
+ * validateScenario without the planted validations: always does the work. The renderer's threads
+ * call it once on the demo when idle after the first pass, so that the first edit does not also
+ * pay for the validator's first run (its code compiled and warmed up).
+ */
+export function validateScenarioAfresh(json: unknown): Result<Scenario> {
   const gate = checkFormatAndVersion(json);
   if (gate.length) return fail(gate);
   const migrated = migrateScenario(json);

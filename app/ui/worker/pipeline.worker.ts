@@ -6,7 +6,10 @@
 // First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
 import '../../no-eval';
 import demoCertificates from 'virtual:slewsmith-demo-certificates';
+import demoValidation from 'virtual:slewsmith-demo-validation';
 import { plantCertificateCache } from '../../engine/control/certificate';
+import { plantValidation } from '../../engine/scenario/knownValidation';
+import { validateScenarioAfresh } from '../../engine/scenario/validate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
@@ -16,12 +19,17 @@ const scope = self as unknown as DedicatedWorkerGlobalScope;
 // The bundled demo's certificates, computed when the app was built (vite.config.ts); a scenario
 // whose certificate inputs differ misses them (the key holds every input) and computes its own.
 plantCertificateCache(demoCertificates);
+// Its validation too (main/demo-validation.ts): only an input equal to the demo in every value
+// takes it, so the early pass validates nothing; any other scenario is validated as before.
+plantValidation(...demoValidation);
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
 const orbitViewCache = createOrbitViewCache();
 
 // A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
 // message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
 const REST_AFTER_MS = 250;
+// The validator's warm-up after the early pass (below).
+const WARM_AFTER_MS = 500;
 let pending: { id: number; resume: (go: boolean) => void; timer: ReturnType<typeof setTimeout> } | null = null;
 
 function resumePending(id: number, go: boolean) {
@@ -48,4 +56,9 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
 
 // A worker app/boot.ts started for the demo flies it now, before any message could arrive.
 const early = prestartRequest(scope.name);
-if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+if (early) {
+  answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+  // The validator's first run, once the page has had time to show the pass (it would compete with
+  // that for the cores): the first edit then finds it warm. An edit before it pays that run itself.
+  setTimeout(() => void validateScenarioAfresh(early.scenario), WARM_AFTER_MS);
+}
