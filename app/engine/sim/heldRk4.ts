@@ -9,34 +9,26 @@
  * instead of once per derivative is the body reaction b = −Σ g_i τ_i of held motor torques when
  * the bearings have no friction (τ_i does not depend on the state then): the same operations on
  * the same values give the same bits. With friction the per-wheel torque depends on the state
- * and is formed in every derivative as gyrostatDerivative forms it. Without friction the step
- * keeps its four stages in local variables (stepFrictionless; same operations, same order).
+ * and is formed in every stage as gyrostatDerivative forms it (sim/heldRk4Friction.ts). Both
+ * steps keep their four stages in local variables (same operations, same order).
  */
 import type { Gyrostat } from '../body/gyrostat';
+import { heldRk4FrictionStep } from './heldRk4Friction';
 
 export class HeldGyrostatRk4 {
-  private readonly k1: Float64Array;
-  private readonly k2: Float64Array;
-  private readonly k3: Float64Array;
-  private readonly k4: Float64Array;
-  private readonly tmp: Float64Array;
   /** Held motor torque per wheel, N·m. */
   private readonly tau: Float64Array;
   /** −Σ g_i τ_i for the held torques (frictionless bearings only), N·m, body axes. */
   private readonly b = new Float64Array(3);
-  private readonly dim: number;
+  /** Friction step: the wheel parts of the four stage derivatives (4n values). */
+  private readonly kw: Float64Array;
   /** Frictionless step: the wheel momenta of stages 2–3 and of stage 4. */
   private readonly hMid: Float64Array;
   private readonly hEnd: Float64Array;
   private readonly hStep = new Float64Array(1);
 
   constructor(private readonly g: Gyrostat) {
-    this.dim = 7 + g.n;
-    this.k1 = new Float64Array(this.dim);
-    this.k2 = new Float64Array(this.dim);
-    this.k3 = new Float64Array(this.dim);
-    this.k4 = new Float64Array(this.dim);
-    this.tmp = new Float64Array(this.dim);
+    this.kw = new Float64Array(4 * g.n);
     this.tau = new Float64Array(g.n);
     this.hMid = new Float64Array(g.n);
     this.hEnd = new Float64Array(g.n);
@@ -67,30 +59,11 @@ export class HeldGyrostatRk4 {
    * out is not finite (the caller keeps x).
    */
   step(out: Float64Array, x: Float64Array, h: number): boolean {
-    if (!this.g.friction.active) {
-      // h through a typed-array slot, not as an argument: a double passed to a call that is not
-      // inlined is boxed, once per step.
-      this.hStep[0] = h;
-      return this.stepFrictionless(out, x);
-    }
-    const n = this.dim;
-    const { k1, k2, k3, k4, tmp } = this;
-    this.deriv(k1, x);
-    const h2 = 0.5 * h;
-    for (let i = 0; i < n; i++) tmp[i] = x[i]! + h2 * k1[i]!;
-    this.deriv(k2, tmp);
-    for (let i = 0; i < n; i++) tmp[i] = x[i]! + h2 * k2[i]!;
-    this.deriv(k3, tmp);
-    for (let i = 0; i < n; i++) tmp[i] = x[i]! + h * k3[i]!;
-    this.deriv(k4, tmp);
-    const h6 = h / 6;
-    let finite = true;
-    for (let i = 0; i < n; i++) {
-      const v = x[i]! + h6 * (k1[i]! + 2 * (k2[i]! + k3[i]!) + k4[i]!);
-      out[i] = v;
-      if (!Number.isFinite(v)) finite = false;
-    }
-    return finite;
+    // h through a typed-array slot, not as an argument: a double passed to a call that is not
+    // inlined is boxed, once per step.
+    this.hStep[0] = h;
+    if (!this.g.friction.active) return this.stepFrictionless(out, x);
+    return heldRk4FrictionStep(out, x, this.g, this.tau, this.kw, this.hStep);
   }
 
   /**
@@ -295,73 +268,5 @@ export class HeldGyrostatRk4 {
       z += v * 0;
     }
     return z === 0;
-  }
-
-  /** dx = f(x), the gyrostat equations with the held torques (order of operations as gyrostatDerivative). */
-  private deriv(dx: Float64Array, x: Float64Array): void {
-    const g = this.g;
-    const qx = x[0]!,
-      qy = x[1]!,
-      qz = x[2]!,
-      qw = x[3]!;
-    const wx = x[4]!,
-      wy = x[5]!,
-      wz = x[6]!;
-    dx[0] = 0.5 * (qw * wx + qy * wz - qz * wy);
-    dx[1] = 0.5 * (qw * wy + qz * wx - qx * wz);
-    dx[2] = 0.5 * (qw * wz + qx * wy - qy * wx);
-    dx[3] = -0.5 * (qx * wx + qy * wy + qz * wz);
-    const P = g.Jperp;
-    let Hx = P[0]! * wx + P[3]! * wy + P[6]! * wz;
-    let Hy = P[1]! * wx + P[4]! * wy + P[7]! * wz;
-    let Hz = P[2]! * wx + P[5]! * wy + P[8]! * wz;
-    const ax = g.axes,
-      n = g.n,
-      tau = this.tau;
-    let bx: number, by: number, bz: number;
-    const fr = g.friction;
-    if (!fr.active) {
-      for (let i = 0; i < n; i++) {
-        const h = x[7 + i]!;
-        Hx += ax[3 * i]! * h;
-        Hy += ax[3 * i + 1]! * h;
-        Hz += ax[3 * i + 2]! * h;
-        dx[7 + i] = tau[i]!;
-      }
-      bx = this.b[0]!;
-      by = this.b[1]!;
-      bz = this.b[2]!;
-    } else {
-      bx = 0;
-      by = 0;
-      bz = 0;
-      const visc = fr.viscousNmsPerRad,
-        coul = fr.coulombNm,
-        js = g.JsInv,
-        smooth = fr.coulombSmoothingRadPerS;
-      for (let i = 0; i < n; i++) {
-        const gx = ax[3 * i]!,
-          gy = ax[3 * i + 1]!,
-          gz = ax[3 * i + 2]!;
-        const h = x[7 + i]!;
-        Hx += gx * h;
-        Hy += gy * h;
-        Hz += gz * h;
-        const rel = h * js[i]! - (gx * wx + gy * wy + gz * wz);
-        const t = tau[i]! - (visc[i]! * rel + coul[i]! * Math.tanh(rel / smooth));
-        dx[7 + i] = t;
-        bx -= gx * t;
-        by -= gy * t;
-        bz -= gz * t;
-      }
-    }
-    // rhs = −ω × H + b
-    const rx = bx - (wy * Hz - wz * Hy);
-    const ry = by - (wz * Hx - wx * Hz);
-    const rz = bz - (wx * Hy - wy * Hx);
-    const M = g.JperpInv;
-    dx[4] = M[0]! * rx + M[3]! * ry + M[6]! * rz;
-    dx[5] = M[1]! * rx + M[4]! * ry + M[7]! * rz;
-    dx[6] = M[2]! * rx + M[5]! * ry + M[8]! * rz;
   }
 }
