@@ -8,6 +8,7 @@ import '../../no-eval';
 import demoCertificates from 'virtual:slewsmith-demo-certificates';
 import { plantCertificateCache } from '../../engine/control/certificate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
+import { createRunCache } from '../../engine/pipeline/runCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
 import { prestartRequest } from './prestart';
@@ -17,7 +18,8 @@ const scope = self as unknown as DedicatedWorkerGlobalScope;
 // whose certificate inputs differ misses them (the key holds every input) and computes its own.
 plantCertificateCache(demoCertificates);
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
-const orbitViewCache = createOrbitViewCache();
+// And the runs of the last pass: an edit flies only the runs whose inputs it changed (runCache.ts).
+const caches = { orbitViewCache: createOrbitViewCache(), runCache: createRunCache() };
 
 // A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
 // message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
@@ -43,9 +45,9 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
         pending = { id: req.id, resume, timer };
       }
     : undefined;
-  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache, wait);
+  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), caches, wait);
 };
 
 // A worker app/boot.ts started for the demo flies it now, before any message could arrive.
 const early = prestartRequest(scope.name);
-if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+if (early) answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), caches);
