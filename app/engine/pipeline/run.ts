@@ -38,8 +38,9 @@ import {
 } from './constraints';
 import { planSummaryWithSavings } from './rollFreePlan';
 import { pointingLawIssues } from './pointing';
-import { runSliceIssues, sliceLength, type RunSlice } from './slices';
+import { runSliceIssues, type RunSlice } from './slices';
 import type { PartialPass } from './partialPass';
+import { runKey, type RunCache } from './runCache';
 import { DISPLAY_TRACE_LIMIT, displayTraceNotice, keepForDisplay, type DisplayTraceLimit } from './displayTrace';
 
 export interface PipelineOptions {
@@ -47,7 +48,7 @@ export interface PipelineOptions {
   controllers?: readonly string[];
   /** Override the scenario's simulation modes. */
   modes?: readonly RunMode[];
-  /** Called after each run: (done, total, label). */
+  /** Called after each run flown: (runs done, total, label). */
   onProgress?: (done: number, total: number, label: string) => void;
   shouldStop?: () => boolean;
   /** Resource limits of the pass (budget.ts); default DEFAULT_BUDGET. */
@@ -67,6 +68,12 @@ export interface PipelineOptions {
    * runs the pass will have. The pass then goes on; its final output is the same as without it.
    */
   partial?: PartialPass;
+  /**
+   * The runs of earlier passes (runCache.ts, the app's worker keeps one): a run whose inputs are
+   * unchanged is taken from it instead of flown; the output is the same. `onProgress`, `partial`
+   * and the generator's steps then count the runs flown (a pass of cached runs only has no step).
+   */
+  runCache?: RunCache;
 }
 
 /** Stages 1–4 and the controllers: everything but the flights. */
@@ -224,37 +231,57 @@ export function* pipelinePass(json: unknown, opts: PipelineOptions = {}): Genera
   const maxSteps = runStepCap(estimate);
   // Runs that keep display traces record their full traces one after the other into one arena.
   const arena = estimate.display ? traceArena(s.vehicle.wheels.length, estimate.samplesPerRun + 8) : undefined;
-  const runs: ControllerRun[] = [];
   const slice = opts.runSlice ?? { index: 0, of: 1 };
   const badSlice = runSliceIssues(slice);
   if (badSlice.length) return fail(badSlice, p.warnings);
-  const total = sliceLength(p.controllers.length * modes.length, slice);
+  // The runs of this pass (or slice), in pass order; with a run cache, those of an unchanged key
+  // are taken from it and only the others are flown, in the same order as without it.
+  const planned: { c: BuiltController; mode: RunMode; key: string | null; run: ControllerRun | null }[] = [];
   let k = 0;
-  for (const c of p.controllers) {
-    for (const mode of modes) {
-      if (opts.shouldStop?.()) break;
-      if (k++ % slice.of !== slice.index) continue;
-      // Everything that reads the full trace is done inside flyAndSummarise; a long run then keeps a
-      // display trace, and the next run overwrites its full trace in the arena.
-      const run = keepForDisplay(flyAndSummarise(p, c, mode, { shouldStop: opts.shouldStop, maxSteps, traceArena: arena }), display);
-      // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
-      runs.push(arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run);
-      opts.onProgress?.(runs.length, total, `${c.label} (${mode})`);
-      if (opts.partial && runs.length === opts.partial.afterRuns && runs.length < total) {
-        // Same assembly as the end of the pass, over the runs so far and a copy of the warnings.
-        const early = [...p.warnings];
-        const note = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
-        if (note) early.push(note);
-        opts.partial.post(assembleOutput(p, [...runs], early, opts, t0), total);
-      }
-      const paused = Date.now();
-      yield { done: runs.length, total };
-      t0 += Date.now() - paused;
+  for (const c of p.controllers)
+    for (const mode of modes) if (k++ % slice.of === slice.index) planned.push({ c, mode, key: null, run: null });
+  const total = planned.length;
+  const cache = opts.runCache;
+  if (cache) {
+    const settings = { modes, maxSteps, displayTraceLimit: display };
+    for (const e of planned) {
+      e.key = runKey(s, e.c.id, e.mode, settings);
+      if (e.key !== null) e.run = cache.take(e.key);
     }
   }
-  const shown = displayTraceNotice(runs, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
+  const runs = (): ControllerRun[] => planned.flatMap((e) => (e.run ? [e.run] : []));
+  let have = planned.filter((e) => e.run).length;
+  let flown = 0;
+  for (const e of planned) {
+    if (e.run) continue;
+    if (opts.shouldStop?.()) break;
+    // Everything that reads the full trace is done inside flyAndSummarise; a long run then keeps a
+    // display trace, and the next run overwrites its full trace in the arena.
+    const run = keepForDisplay(flyAndSummarise(p, e.c, e.mode, { shouldStop: opts.shouldStop, maxSteps, traceArena: arena }), display);
+    // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
+    e.run = arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run;
+    // A run cut short by shouldStop is not the run its inputs give.
+    if (cache && e.key !== null && !opts.shouldStop?.()) cache.put(e.key, e.run);
+    have++;
+    flown++;
+    opts.onProgress?.(have, total, `${e.c.label} (${e.mode})`);
+    if (opts.partial && flown === opts.partial.afterRuns && have < total) {
+      // Same assembly as the end of the pass, over the runs so far and a copy of the warnings.
+      const early = [...p.warnings];
+      const sofar = runs();
+      const note = displayTraceNotice(sofar, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
+      if (note) early.push(note);
+      opts.partial.post(assembleOutput(p, sofar, early, opts, t0), total);
+    }
+    const paused = Date.now();
+    yield { done: have, total };
+    t0 += Date.now() - paused;
+  }
+  if (cache && have === total) cache.keepOnly(new Set(planned.flatMap((e) => (e.key === null ? [] : [e.key]))));
+  const done = runs();
+  const shown = displayTraceNotice(done, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
   if (shown) p.warnings.push(shown);
-  return ok(assembleOutput(p, runs, p.warnings, opts, t0), p.warnings);
+  return ok(assembleOutput(p, done, p.warnings, opts, t0), p.warnings);
 }
 
 /** The output of a pass from its prepared stages and its runs (stage 6's tail). */

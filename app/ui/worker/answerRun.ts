@@ -17,6 +17,7 @@ import { fail } from '../../engine/errors';
 import { pipelinePass, runPipeline } from '../../engine/pipeline/run';
 import type { Result } from '../../engine/errors';
 import type { OrbitViewCache } from '../../engine/orbit/viewSamplesCache';
+import type { RunCache } from '../../engine/pipeline/runCache';
 import type { PipelineOutput } from '../../engine/pipeline/types';
 import type { RunReply, RunRequest } from './protocol';
 import { transferables } from './protocol';
@@ -29,16 +30,22 @@ function crash(id: number, e: unknown): RunReply {
   return { type: 'crash', id, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) };
 }
 
+/** What the worker keeps between passes: orbit view samples, and the runs of the last pass (both optional to the engine). */
+export interface WorkerCaches {
+  orbitViewCache: OrbitViewCache;
+  runCache?: RunCache;
+}
+
 function whole(
   req: RunRequest,
   post: PostReply,
-  orbitViewCache: OrbitViewCache,
+  caches: WorkerCaches,
   partial?: { afterRuns: number; post: (o: PipelineOutput, total: number) => void },
 ): void {
   let reply: RunReply;
   let transfer: ArrayBuffer[] = [];
   try {
-    const result = runPipeline(req.scenario, { ...(req.options as object), orbitViewCache, ...(partial ? { partial } : {}) });
+    const result = runPipeline(req.scenario, { ...(req.options as object), ...caches, ...(partial ? { partial } : {}) });
     reply = { type: 'result', id: req.id, result };
     if (result.ok) transfer = transferables(result.value);
   } catch (e) {
@@ -47,15 +54,16 @@ function whole(
   post(reply, transfer);
 }
 
-export function answerRun(req: RunRequest, post: PostReply, orbitViewCache: OrbitViewCache, wait?: WaitForRest): void {
+export function answerRun(req: RunRequest, post: PostReply, caches: OrbitViewCache | WorkerCaches, wait?: WaitForRest): void {
+  const kept: WorkerCaches = 'orbitViewCache' in caches ? caches : { orbitViewCache: caches };
   const afterRuns = req.partialAfterRuns;
   const postPartial = (output: PipelineOutput, total: number) => post({ type: 'partial', id: req.id, output, total }, []);
-  if (afterRuns === undefined) return whole(req, post, orbitViewCache);
-  if (!wait) return whole(req, post, orbitViewCache, { afterRuns, post: postPartial });
+  if (afterRuns === undefined) return whole(req, post, kept);
+  if (!wait) return whole(req, post, kept, { afterRuns, post: postPartial });
   let early: { output: PipelineOutput; total: number } | null = null;
   const pass = pipelinePass(req.scenario, {
     ...(req.options as object),
-    orbitViewCache,
+    ...kept,
     partial: { afterRuns, post: (output, total) => (early = { output, total }) },
   });
   // Flies runs until the pass ends (its result) or `stop` says so after a run (null).

@@ -11,6 +11,7 @@ import { plantCertificateCache } from '../../engine/control/certificate';
 import { plantValidation } from '../../engine/scenario/knownValidation';
 import { validateScenarioAfresh } from '../../engine/scenario/validate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
+import { createRunCache } from '../../engine/pipeline/runCache';
 import type { WorkerMessage } from './protocol';
 import { answerRun } from './answerRun';
 import { prestartRequest } from './prestart';
@@ -23,7 +24,8 @@ plantCertificateCache(demoCertificates);
 // takes it, so the early pass validates nothing; any other scenario is validated as before.
 plantValidation(...demoValidation);
 // Orbit scenarios: the view samples of an unchanged ephemeris are not computed again at each edit.
-const orbitViewCache = createOrbitViewCache();
+// And the runs of the last pass: an edit flies only the runs whose inputs it changed (runCache.ts).
+const caches = { orbitViewCache: createOrbitViewCache(), runCache: createRunCache() };
 
 // A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
 // message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
@@ -51,13 +53,13 @@ scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
         pending = { id: req.id, resume, timer };
       }
     : undefined;
-  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache, wait);
+  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), caches, wait);
 };
 
 // A worker app/boot.ts started for the demo flies it now, before any message could arrive.
 const early = prestartRequest(scope.name);
 if (early) {
-  answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), orbitViewCache);
+  answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), caches);
   // The validator's first run, once the page has had time to show the pass (it would compete with
   // that for the cores): the first edit then finds it warm. An edit before it pays that run itself.
   setTimeout(() => void validateScenarioAfresh(early.scenario), WARM_AFTER_MS);
