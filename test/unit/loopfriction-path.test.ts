@@ -15,26 +15,11 @@ import type { FlowFn } from '../../app/engine/hybrid/types';
 import { makeRng, type Rng } from '../../app/engine/math/prng';
 import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
 import { heldRk4FrictionStep } from '../../app/engine/sim/heldRk4Friction';
+import { randomMassProperties } from './gyrostat-fixtures';
 
 function randomFrictionGyrostat(rng: Rng, n: number, trial: number): Gyrostat {
   for (;;) {
-    const axes = new Float64Array(3 * n);
-    for (let i = 0; i < n; i++) {
-      const x = rng.normal(),
-        y = rng.normal(),
-        z = rng.normal();
-      const r = Math.hypot(x, y, z);
-      axes[3 * i] = x / r;
-      axes[3 * i + 1] = y / r;
-      axes[3 * i + 2] = z / r;
-    }
-    const js = Float64Array.from({ length: n }, () => 1e-5 * (0.5 + rng.next()));
-    const d = [0.05 + 0.2 * rng.next(), 0.05 + 0.2 * rng.next(), 0.05 + 0.2 * rng.next()];
-    const o = () => 0.01 * rng.normal();
-    const a = o(),
-      b = o(),
-      c = o();
-    const J = new Float64Array([d[0]!, a, b, a, d[1]!, c, b, c, d[2]!]);
+    const { J, axes, js } = randomMassProperties(rng, n);
     // some wheels without viscous or without Coulomb friction; at least one coefficient > 0
     const visc = Float64Array.from({ length: n }, (_, i) => ((i + trial) % 3 === 0 ? 0 : 1e-6 * rng.next()));
     const coul = Float64Array.from({ length: n }, (_, i) => ((i + trial) % 4 === 1 ? 0 : 1e-4 * rng.next()));

@@ -31,26 +31,11 @@ import { HeldGyrostatRk4 } from '../../app/engine/sim/heldRk4';
 import { computeMetrics, type MetricOptions } from '../../app/engine/metrics/metrics';
 import { OnlineMetrics } from '../../app/engine/metrics/online';
 import { PACKED_ERROR_ANGLE, PACKED_SCALARS, PACKED_T, TraceBuilder, type PackedSample } from '../../app/engine/sim/trace';
+import { randomMassProperties } from './gyrostat-fixtures';
 
 function randomGyrostat(rng: Rng, n: number): Gyrostat {
   for (;;) {
-    const axes = new Float64Array(3 * n);
-    for (let i = 0; i < n; i++) {
-      const x = rng.normal(),
-        y = rng.normal(),
-        z = rng.normal();
-      const r = Math.hypot(x, y, z);
-      axes[3 * i] = x / r;
-      axes[3 * i + 1] = y / r;
-      axes[3 * i + 2] = z / r;
-    }
-    const js = Float64Array.from({ length: n }, () => 1e-5 * (0.5 + rng.next()));
-    const d = [0.05 + 0.2 * rng.next(), 0.05 + 0.2 * rng.next(), 0.05 + 0.2 * rng.next()];
-    const o = () => 0.01 * rng.normal();
-    const a = o(),
-      b = o(),
-      c = o();
-    const J = new Float64Array([d[0]!, a, b, a, d[1]!, c, b, c, d[2]!]);
+    const { J, axes, js } = randomMassProperties(rng, n);
     const r = makeGyrostat(J, { n, axes, rotorInertiaKgm2: js });
     if (r.ok) return r.value;
   }
