@@ -1,7 +1,12 @@
 /**
  * The renderer in headless Chromium (Debian's /usr/bin/chromium, WebGL through SwiftShader),
- * against the production build served by `vite preview` on 127.0.0.1. Figures only, no
- * assertions. Three measurements, each printed with its target:
+ * against the production build served on 127.0.0.1 the way the desktop app loads it: the app's
+ * protocol handler (`main/protocol.ts`) behind a small http server, files uncompressed
+ * (`serveBuild.ts`). Until issue 12's third cold-start round it was `vite preview`, which gzips
+ * every script on each request; on a loaded 2-core machine that delayed the scripts (a fresh
+ * context has an empty cache) and so the cold-start figure, with no change in the app.
+ * `SLEWSMITH_BENCH_SERVER=preview` serves through `vite preview` as before, so both figures can
+ * be printed. Figures only, no assertions. Three measurements, each printed with its target:
  *
  *  1. Cold start to first plot: navigation start (performance.timeOrigin) → the five always-shown
  *     plots painted with data (coloured pixels on their canvases, checked every animation frame),
@@ -31,9 +36,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { preview } from 'vite';
 import { electronConfig } from '../../electron.config';
 import { CHROMIUM_ARGS } from '../e2e/chromium-args';
+import { serveBuild } from './serveBuild';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const chromiumPath = process.env.SLEWSMITH_CHROMIUM ?? '/usr/bin/chromium';
@@ -451,15 +456,11 @@ export async function benchBrowser(): Promise<void> {
     if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}${built.stdout}`);
     if (prebuilt) console.log(`   serving the build in ${prebuilt}`);
     else console.log(`   renderer built in ${ms(performance.now() - t0)} (vite build, production)`);
-    const server = await preview({
-      configFile: path.join(root, 'vite.config.ts'),
-      root: path.join(root, electronConfig.entries.rendererRoot),
-      logLevel: 'error',
-      build: { outDir: prebuilt ? path.resolve(prebuilt) : outDir },
-      preview: { host: '127.0.0.1', port: 0, strictPort: true, open: false },
-    });
-    const url = server.resolvedUrls?.local[0];
-    if (!url) throw new Error('vite preview started without a local URL');
+    const server = await serveBuild(root, prebuilt ? path.resolve(prebuilt) : outDir);
+    const url = server.url;
+    console.log(
+      `   served by ${server.kind === 'app' ? "the app's protocol handler over http (uncompressed; SLEWSMITH_BENCH_SERVER=preview for vite preview)" : 'vite preview (gzip per request)'}`,
+    );
     const browser = await chromium.launch({ executablePath: chromiumPath, args: ARGS, headless: true });
     try {
       // SLEWSMITH_BENCH_ONLY=edit: only the edit figures; =cold: only the cold start (SLEWSMITH_BENCH_LOADS

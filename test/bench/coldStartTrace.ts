@@ -6,7 +6,8 @@
  * as start and duration in ms from navigation start. A diagnostic, not a bench figure:
  * `node --import tsx test/bench/coldStartTrace.ts [traceFile]`; `SLEWSMITH_BENCH_DIST=<folder>`
  * serves a build made before (otherwise a production build into a temporary folder, like
- * browser.ts); `TRACE_MIN_MS` (default 4) hides shorter events.
+ * browser.ts); served like browser.ts (`serveBuild.ts`: the app's protocol handler, or `vite
+ * preview` with `SLEWSMITH_BENCH_SERVER=preview`); `TRACE_MIN_MS` (default 4) hides shorter events.
  *
  * CPU time (`TRACE_LOADS=n`, default 1: n loads, each in a fresh context): each thread's CPU time
  * (the trace's thread durations, `tdur`, of its top-level tasks) from navigation start to the
@@ -21,9 +22,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
-import { preview } from 'vite';
-import { electronConfig } from '../../electron.config';
 import { CHROMIUM_ARGS } from '../e2e/chromium-args';
+import { serveBuild } from './serveBuild';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const chromiumPath = process.env.SLEWSMITH_CHROMIUM ?? '/usr/bin/chromium';
@@ -205,15 +205,11 @@ try {
     );
     if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}`);
   }
-  const server = await preview({
-    configFile: path.join(root, 'vite.config.ts'),
-    root: path.join(root, electronConfig.entries.rendererRoot),
-    logLevel: 'error',
-    build: { outDir },
-    preview: { host: '127.0.0.1', port: 0, strictPort: true, open: false },
-  });
-  const url = server.resolvedUrls?.local[0];
-  if (!url) throw new Error('no preview URL');
+  const server = await serveBuild(root, outDir);
+  const url = server.url;
+  console.log(
+    `served by ${server.kind === 'app' ? "the app's protocol handler (SLEWSMITH_BENCH_SERVER=preview: vite preview)" : 'vite preview'}`,
+  );
   const browser = await chromium.launch({ executablePath: chromiumPath, args: [...CHROMIUM_ARGS], headless: true });
   try {
     const loads = Number(process.env.TRACE_LOADS) || 1;
