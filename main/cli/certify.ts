@@ -11,7 +11,7 @@
  *   false in its result). Each controller is built with `requireCertificate: false` so that its
  *   certificate is always computed and returned rather than turned into build errors.
  */
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { buildVehicle } from '../../app/engine/pipeline/build';
 import { buildController } from '../../app/engine/control/registry';
 import type { CertificateResult } from '../../app/engine/control/certificate';

@@ -13,7 +13,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { validateScenario } from '../../app/engine/scenario/validate';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import { exportRun, EXPORT_FORMATS } from '../../app/engine/export/runExport';
 import { runEndNote } from '../../app/engine/pipeline/outcome';

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { validateScenario } from '../../app/engine/scenario/validate';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { EXAMPLE_FILES, loadExample } from '../unit/scenario-fixtures';
 
 function leafPaths(v: unknown, path: (string | number)[] = [], out: (string | number)[][] = []): (string | number)[][] {

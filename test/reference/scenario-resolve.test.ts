@@ -21,7 +21,7 @@ import Quaternion from 'quaternion';
 import { EULER_SEQUENCES, qAngleBetween, qRotate } from '../../app/engine/math/rotation';
 import { m3Get } from '../../app/engine/math/mat3';
 import { makeRng } from '../../app/engine/math/prng';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import type { ResolvedScenario } from '../../app/engine/scenario/resolve';
 import { loadExample } from '../unit/scenario-fixtures';
 import { DEG_PER_RAD, RAD_PER_DEG } from '../../app/engine/units';

@@ -70,7 +70,8 @@ describe('production renderer build', () => {
     for (const w of workers()) expect(jitless.test(code(w)), w.fileName).toBe(true);
   });
 
-  it('the built pipeline worker runs a scenario without ever constructing code from a string', () => {
+  /** The built pipeline worker in a context without code generation from strings, after flying the demo. */
+  function runBuiltWorker() {
     const worker = workers().find((w) => w.fileName.includes('pipeline.worker'))!;
     const replies: { type: string; result?: { ok: boolean } }[] = [];
     const functionCalls: string[] = [];
@@ -99,6 +100,27 @@ describe('production renderer build', () => {
     );
     expect(replies.map((r) => r.type)).toEqual(['result']);
     expect(replies[0]!.result!.ok).toBe(true);
+    expect(functionCalls).toEqual([]);
+    return { context, replies, functionCalls, scenarioText };
+  }
+
+  it('the built pipeline worker runs a scenario without ever constructing code from a string', () => {
+    runBuiltWorker();
+  });
+
+  it('the built pipeline worker loads its validator for an edited scenario, still without code from a string', async () => {
+    const { context, replies, functionCalls, scenarioText } = runBuiltWorker();
+    // Not the bundled demo (a mass edit the schema refuses): the worker loads the validator
+    // (workerValidator.ts) and answers once it has; zod's jitless setting comes with it.
+    vm.runInContext(
+      `(() => { const s = JSON.parse(text); s.vehicle.inertiaKgm2[0][0] = -1;
+         self.onmessage({ data: { type: 'run', id: 2, scenario: s, options: { controllers: ['pd'], modes: ['profiled'] } } }); })()`,
+      Object.assign(context, { text: scenarioText }),
+    );
+    for (let k = 0; k < 20 && replies.length < 2; k++) await new Promise((r) => setTimeout(r, 0));
+    expect(replies.map((r) => r.type)).toEqual(['result', 'result']);
+    expect(replies[1]!.result!.ok).toBe(false);
+    expect(JSON.stringify(replies[1]!.result)).toContain('vehicle.inertiaKgm2');
     expect(functionCalls).toEqual([]);
   });
 });

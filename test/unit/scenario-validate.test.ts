@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { validateScenario } from '../../app/engine/scenario/validate';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { EXAMPLE_FILES, loadExample } from './scenario-fixtures';
 import type { Issue } from '../../app/engine/errors';
 import { preparePipeline } from '../../app/engine/pipeline/run';

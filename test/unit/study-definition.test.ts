@@ -4,7 +4,7 @@
  * (no outside source); the unit conversions are exact definitions (1° = π/180 rad).
  */
 import { describe, expect, it } from 'vitest';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { validateScenario } from '../../app/engine/scenario/validate';
 import { scenarioJsonSchema } from '../../app/engine/scenario/schema';
 import { effectiveStudyJson } from '../../app/engine/study/context';

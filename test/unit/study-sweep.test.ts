@@ -12,7 +12,7 @@ import { measure } from '../../app/engine/sim/sensors';
 import { makeRng } from '../../app/engine/math/prng';
 import { shareReport } from '../../app/engine/math/stats';
 import { testVehicleScenario } from './study-fixtures';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { toScenarioFile } from '../../app/engine/scenario/toFile';
 
 const spec = (axes: unknown[], extra: Record<string, unknown> = {}) =>

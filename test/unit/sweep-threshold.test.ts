@@ -12,7 +12,7 @@ import { makeStudyContext } from '../../app/engine/study/context';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { sweepTheoryLines, type SweepTheoryInputs } from '../../app/engine/study/sweepTheory';
-import { loadScenario } from '../../app/engine/scenario/resolve';
+import { loadScenario } from '../../app/engine/scenario/load';
 import { toScenarioFile } from '../../app/engine/scenario/toFile';
 import { testVehicleScenario } from './study-fixtures';
 

@@ -27,7 +27,7 @@ import type { TrackingPlan, TrackingTargetInput } from '../plan/trackingTypes';
 import type { PlanLimits, SequencePlan } from '../plan/types';
 import type { ResolvedScenario, ResolvedTarget } from '../scenario/resolve';
 import type { ResolvedSite } from '../scenario/orbitResolve';
-import { atFileEpochKey } from '../scenario/orbitValidate';
+import { atFileEpochKey } from '../scenario/epochKey';
 import type { RunTrace } from '../sim/types';
 import { utcLabelFromTai } from '../time/iso';
 

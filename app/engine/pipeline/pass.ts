@@ -1,18 +1,22 @@
 /**
  * The pipeline's one orchestrator (DEVELOPERS.md has the diagram):
  *
- *   validate (scenario/validate.ts) → resolve (scenario/resolve.ts) → build (build.ts)
+ *   validate (the validator it is given) → resolve (scenario/resolve.ts) → build (build.ts)
  *     → plan (plan.ts) → fly (fly.ts, per controller and mode) → summarise (summarise.ts)
  *
  * Shared by the CLI, the app's worker and the robustness study. Synchronous and pure (no I/O);
  * progress and cancellation through callbacks.
+ *
+ * The validator is an argument: run.ts binds scenario/validate.ts's validateScenario (what every
+ * caller but the app's pipeline worker uses), while the worker loads the validator, and with it
+ * the zod schemas, only when an input is not the bundled demo, whose validation was made at build
+ * time (issue 12, cold start). This file must not import validate.ts or any schema module.
  */
 import type { Issue, Result } from '../errors';
 import { fail, ok } from '../errors';
 import type { SequencePlan } from '../plan/types';
 import { resolveScenario, type ResolvedScenario } from '../scenario/resolve';
 import type { Scenario } from '../scenario/schema';
-import { validateScenario } from '../scenario/validate';
 import type { RunMode, RunTrace } from '../sim/types';
 import { copyTrace, traceArena } from '../sim/trace';
 import { buildControllers, buildVehicle } from './build';
@@ -96,9 +100,12 @@ export interface Prepared {
   orbit?: OrbitStage | null;
 }
 
+/** Validation of a scenario file (stage 1): scenario/validate.ts validateScenario, or what answers for it. */
+export type ScenarioValidator = (json: unknown) => Result<Scenario>;
+
 /** Stages 1–4: validate, resolve, build (vehicle and controllers), plan. */
-export function preparePipeline(json: unknown, only?: readonly string[]): Result<Prepared> {
-  const valid = validateScenario(json);
+export function prepareWith(validate: ScenarioValidator, json: unknown, only?: readonly string[]): Result<Prepared> {
+  const valid = validate(json);
   if (!valid.ok) return fail(valid.errors, valid.warnings);
   const r = prepareResolved(resolveScenario(valid.value), valid.value, only);
   return r.ok ? ok(r.value, [...valid.warnings, ...r.warnings]) : fail(r.errors, [...valid.warnings, ...r.warnings]);
@@ -197,8 +204,8 @@ export function flyAndSummarise(p: Prepared, c: BuiltController, mode: RunMode, 
 }
 
 /** One pass: every controller in every mode, and the comparison. */
-export function runPipeline(json: unknown, opts: PipelineOptions = {}): Result<PipelineOutput> {
-  const pass = pipelinePass(json, opts);
+export function runWith(validate: ScenarioValidator, json: unknown, opts: PipelineOptions = {}): Result<PipelineOutput> {
+  const pass = passWith(validate, json, opts);
   let step = pass.next();
   while (!step.done) step = pass.next();
   return step.value;
@@ -211,14 +218,18 @@ export interface PassStep {
 }
 
 /**
- * runPipeline one run at a time: the generator stops after each run (and its `partial` post) and
+ * runWith one run at a time: the generator stops after each run (and its `partial` post) and
  * goes on at the next `next()`, so a caller can answer messages between runs (the app's worker
  * paints the first run before the rest) and resume the same pass instead of flying it again. The
- * value it returns is runPipeline's result; `elapsedMs` counts only the time spent inside it.
+ * value it returns is runWith's result; `elapsedMs` counts only the time spent inside it.
  */
-export function* pipelinePass(json: unknown, opts: PipelineOptions = {}): Generator<PassStep, Result<PipelineOutput>, void> {
+export function* passWith(
+  validate: ScenarioValidator,
+  json: unknown,
+  opts: PipelineOptions = {},
+): Generator<PassStep, Result<PipelineOutput>, void> {
   let t0 = Date.now();
-  const prep = preparePipeline(json, opts.controllers);
+  const prep = prepareWith(validate, json, opts.controllers);
   if (!prep.ok) return fail(prep.errors, prep.warnings);
   const p = prep.value;
   const s = p.scenario;

@@ -15,7 +15,8 @@ export {
 export type { Scenario, AttitudeSpec, AttitudeForm, ControllerSpec, KeepOutSpec, TargetSpec, WheelsSpec } from './schema';
 export { migrateScenario } from './migrate';
 export { validateScenario, wheelCount, capIssues, MAX_LISTED_ISSUES } from './validate';
-export { resolveScenario, loadScenario, wheelSpecsOf } from './resolve';
+export { resolveScenario, wheelSpecsOf } from './resolve';
+export { loadScenario } from './load';
 export type { ResolvedScenario, ResolvedController, ResolvedTarget, ResolvedVehicle, KeepOutCone } from './resolve';
 export { QUATERNION_NORM_TOLERANCE } from './attitude';
 export { parseIsoUtcMs, formatEpoch } from './utc';

@@ -12,7 +12,7 @@
  */
 import type { Issue } from '../errors';
 import { issue } from '../errors';
-import { SCENARIO_FORMAT, SCENARIO_VERSION } from './schema';
+import { SCENARIO_FORMAT, SCENARIO_VERSION } from './formatConstants';
 
 type Obj = Record<string, unknown>;
 

@@ -12,15 +12,8 @@ import { EngineInputError, issue } from '../errors';
 import type { MeanElementsInput } from '../orbit/elements';
 import { parseUtcIso } from '../time/iso';
 import { DEG_PER_RAD, RAD_PER_DEG } from '../units';
-import {
-  DEFAULT_HORIZON_S,
-  type GroundSiteSpec,
-  type OrbitSpec,
-  type SecondaryTowardSpec,
-  type TargetWindowSpec,
-  type TrackForm,
-  type TrackSpec,
-} from './orbitSchema';
+import { DEFAULT_HORIZON_S } from './formatConstants';
+import type { GroundSiteSpec, OrbitSpec, SecondaryTowardSpec, TargetWindowSpec, TrackForm, TrackSpec } from './orbitSchema';
 
 export interface ResolvedSite {
   id: string;

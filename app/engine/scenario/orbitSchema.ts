@@ -13,13 +13,13 @@
  * windows that fit the horizon) are in orbitValidate.ts; SI resolution in orbitResolve.ts.
  */
 import { z } from 'zod';
+import { DEFAULT_HORIZON_S } from './formatConstants';
 
 const vec3 = (what: string) => z.array(z.number()).length(3).describe(what);
 
 /** Longest horizon, s (7 days): the ephemeris, windows and plan never reach beyond it. */
 export const MAX_HORIZON_S = 7 * 86400;
-/** Horizon when the file gives none, s (one day). */
-export const DEFAULT_HORIZON_S = 86400;
+export { DEFAULT_HORIZON_S };
 
 /** ISO 8601 UTC with a trailing Z, fractions to 1 ns (time/iso.ts checks the calendar and leap seconds). */
 const isoUtc = () => z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{1,9})?Z$/);

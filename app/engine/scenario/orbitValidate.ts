@@ -16,6 +16,7 @@ import { orbitFromElements } from '../orbit/elements';
 import { checkPropagationSpan, type Sgp4Orbit } from '../orbit/propagate';
 import { orbitFromTle } from '../orbit/tle';
 import { parseUtcIso } from '../time/iso';
+import { atFileEpochKey } from './epochKey';
 import { DEFAULT_HORIZON_S, OrbitSchema, TargetWindowSchema, TrackSchema, type OrbitSpec, type TrackSpec } from './orbitSchema';
 
 type Obj = Record<string, unknown>;
@@ -51,14 +52,6 @@ export function orbitOfSpec(o: OrbitSpec, errors: Issue[], warnings: Issue[]): S
     return null;
   }
   return r.value;
-}
-
-/** The element epoch's problems at the file's key (`epochUtc`), not the orbit library's input name (also used by pipeline/orbit.ts). */
-export function atFileEpochKey(i: Issue): Issue {
-  const from = 'orbit.meanElements.epochUtcIso';
-  if (!i.path.startsWith(from)) return i;
-  const to = 'orbit.meanElements.epochUtc';
-  return { ...i, path: to + i.path.slice(from.length), message: i.message.split(from).join(to) };
 }
 
 function toElements(m: NonNullable<OrbitSpec['meanElements']>) {

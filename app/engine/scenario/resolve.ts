@@ -12,7 +12,7 @@
  * mN·m per rad/s → N·m·s/rad (units.ts). Matrices are column-major Float64Array(9) (math/mat3.ts).
  */
 import type { Issue, Result } from '../errors';
-import { EngineInputError, fail, ok } from '../errors';
+import { EngineInputError, fail } from '../errors';
 import type { Mat3, Vec3 } from '../math/mat3';
 import { m3FromRows, v3Create } from '../math/mat3';
 import type { Quat } from '../math/rotation';
@@ -29,7 +29,6 @@ import { resolveTargetAttitude, type PointingOnlyTarget } from './pointingOnly';
 import type { AttitudeForm, AttitudeSpec, Scenario, WheelsSpec } from './schema';
 import { resolveStudy, type StudyDefinition } from './study';
 import { parseIsoUtcMs } from './utc';
-import { validateScenario } from './validate';
 import {
   resolveOrbit,
   resolveTrack,
@@ -307,13 +306,6 @@ export function resolveScenario(s: Scenario): ResolvedScenario {
     study,
     orbit,
   };
-}
-
-/** Stages 1 and 2: validate, then resolve; the validation's warnings come along. */
-export function loadScenario(json: unknown): Result<ResolvedScenario> {
-  const v = validateScenario(json);
-  if (!v.ok) return v;
-  return ok(resolveScenario(v.value), v.warnings);
 }
 
 /** Failing result of a load, typed for callers that return other values. */

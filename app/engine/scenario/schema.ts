@@ -22,6 +22,7 @@ import { ConstraintsSchema } from './constraintSchema';
 import { EULER_SEQUENCES } from '../math/rotation';
 import { ControllerFileSchema } from '../control/fileSchema';
 import { StudySchema } from './studySchema';
+import { SCENARIO_FORMAT, SCENARIO_VERSION } from './formatConstants';
 import { OrbitSchema, TargetWindowSchema, TrackSchema, TRACK_FORMS } from './orbitSchema';
 import { antipodalNoiseSensorShape, rollFreeTargetShape } from './pointingOnlySchema';
 
@@ -34,8 +35,7 @@ export {
   StudyWheelDispersionSchema,
 } from './studySchema';
 
-export const SCENARIO_FORMAT = 'slewsmith-scenario';
-export const SCENARIO_VERSION = 2;
+export { SCENARIO_FORMAT, SCENARIO_VERSION };
 
 /**
  * Longest hold or tail, s (11.6 days): a bound on the file, not the simulation budget (the

@@ -1,6 +1,8 @@
 /**
  * The pipeline worker's answer to one request (pipeline.worker.ts posts what this gives), kept
- * apart from the worker global so tests can fly it in Node with structured cloning.
+ * apart from the worker global so tests can fly it in Node with structured cloning. The scenario
+ * validator is an argument (the worker loads it only for an input that is not the bundled demo:
+ * workerValidator.ts); answerRun.ts binds validateScenario.
  *
  * With `partialAfterRuns`, a 'partial' reply (the first runs) is posted during the pass, cloned
  * rather than transferred: the same runs come again in the result, whose buffers are transferred.
@@ -14,7 +16,7 @@
  * as stale.
  */
 import { fail } from '../../engine/errors';
-import { pipelinePass, runPipeline } from '../../engine/pipeline/run';
+import { passWith, runWith, type ScenarioValidator } from '../../engine/pipeline/pass';
 import type { Result } from '../../engine/errors';
 import type { OrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import type { RunCache } from '../../engine/pipeline/runCache';
@@ -25,7 +27,7 @@ import { transferables } from './protocol';
 export type PostReply = (reply: RunReply, transfer: ArrayBuffer[]) => void;
 export type WaitForRest = (resume: (go: boolean) => void) => void;
 
-function crash(id: number, e: unknown): RunReply {
+export function crash(id: number, e: unknown): RunReply {
   // A throw here is an engine bug, not bad input (bad input comes back as errors); say so.
   return { type: 'crash', id, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) };
 }
@@ -37,6 +39,7 @@ export interface WorkerCaches {
 }
 
 function whole(
+  validate: ScenarioValidator,
   req: RunRequest,
   post: PostReply,
   caches: WorkerCaches,
@@ -45,7 +48,7 @@ function whole(
   let reply: RunReply;
   let transfer: ArrayBuffer[] = [];
   try {
-    const result = runPipeline(req.scenario, { ...(req.options as object), ...caches, ...(partial ? { partial } : {}) });
+    const result = runWith(validate, req.scenario, { ...(req.options as object), ...caches, ...(partial ? { partial } : {}) });
     reply = { type: 'result', id: req.id, result };
     if (result.ok) transfer = transferables(result.value);
   } catch (e) {
@@ -54,14 +57,20 @@ function whole(
   post(reply, transfer);
 }
 
-export function answerRun(req: RunRequest, post: PostReply, caches: OrbitViewCache | WorkerCaches, wait?: WaitForRest): void {
+export function answerRunWith(
+  validate: ScenarioValidator,
+  req: RunRequest,
+  post: PostReply,
+  caches: OrbitViewCache | WorkerCaches,
+  wait?: WaitForRest,
+): void {
   const kept: WorkerCaches = 'orbitViewCache' in caches ? caches : { orbitViewCache: caches };
   const afterRuns = req.partialAfterRuns;
   const postPartial = (output: PipelineOutput, total: number) => post({ type: 'partial', id: req.id, output, total }, []);
-  if (afterRuns === undefined) return whole(req, post, kept);
-  if (!wait) return whole(req, post, kept, { afterRuns, post: postPartial });
+  if (afterRuns === undefined) return whole(validate, req, post, kept);
+  if (!wait) return whole(validate, req, post, kept, { afterRuns, post: postPartial });
   let early: { output: PipelineOutput; total: number } | null = null;
-  const pass = pipelinePass(req.scenario, {
+  const pass = passWith(validate, req.scenario, {
     ...(req.options as object),
     ...kept,
     partial: { afterRuns, post: (output, total) => (early = { output, total }) },

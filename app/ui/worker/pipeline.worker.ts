@@ -3,17 +3,17 @@
  * Runs the engine's pipeline off the UI thread. One request at a time; the client (client.ts)
  * keeps only the newest request waiting and discards replies that are no longer wanted.
  */
-// First, as in app/index.html: the CSP forbids eval in workers too (zod must not probe it).
-import '../../no-eval';
+// No zod here: the validator and its schemas (with app/no-eval.ts, zod's CSP setting, first) are
+// loaded on first need, i.e. for any input that is not the bundled demo (workerValidator.ts).
 import demoCertificates from 'virtual:slewsmith-demo-certificates';
 import demoValidation from 'virtual:slewsmith-demo-validation';
 import { plantCertificateCache } from '../../engine/control/certificate';
 import { plantValidation } from '../../engine/scenario/knownValidation';
-import { validateScenarioAfresh } from '../../engine/scenario/validate';
 import { createOrbitViewCache } from '../../engine/orbit/viewSamplesCache';
 import { createRunCache } from '../../engine/pipeline/runCache';
-import type { WorkerMessage } from './protocol';
-import { answerRun } from './answerRun';
+import type { RunReply, RunRequest, WorkerMessage } from './protocol';
+import { answerRunWith, crash, type WaitForRest } from './answerPass';
+import { loadValidator, validatorNow } from './workerValidator';
 import { prestartRequest } from './prestart';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -42,25 +42,51 @@ function resumePending(id: number, go: boolean) {
   p.resume(go);
 }
 
+const post = (reply: RunReply, transfer: ArrayBuffer[]) => scope.postMessage(reply, transfer);
+
+/**
+ * Answers `req` now when the validator is loaded or the input is the demo; otherwise once the
+ * validator has loaded (the requests that wait for it are answered in the order they came).
+ */
+function answer(req: RunRequest, wait?: () => WaitForRest | undefined): void {
+  const now = validatorNow(req.scenario);
+  if (now) return answerRunWith(now, req, post, caches, wait?.());
+  loadValidator().then(
+    (v) => answerRunWith(v.validateScenario, req, post, caches, wait?.()),
+    (e: unknown) => post(crash(req.id, e), []),
+  );
+}
+
 scope.onmessage = (ev: MessageEvent<WorkerMessage>) => {
   const req = ev.data;
   if (req?.type === 'continue') return resumePending(req.id, req.go);
   if (!req || req.type !== 'run') return;
-  if (pending) resumePending(pending.id, false);
-  const wait = req.partialWait
-    ? (resume: (go: boolean) => void) => {
-        const timer = setTimeout(() => resumePending(req.id, true), REST_AFTER_MS);
-        pending = { id: req.id, resume, timer };
-      }
-    : undefined;
-  answerRun(req, (reply, transfer) => scope.postMessage(reply, transfer), caches, wait);
+  // When the pass starts (after the validator loaded, if it had to), a pass still waiting for its
+  // 'continue' is dropped: this newer request replaces it.
+  answer(req, () => {
+    if (pending) resumePending(pending.id, false);
+    return req.partialWait
+      ? (resume: (go: boolean) => void) => {
+          const timer = setTimeout(() => resumePending(req.id, true), REST_AFTER_MS);
+          pending = { id: req.id, resume, timer };
+        }
+      : undefined;
+  });
 };
 
 // A worker app/boot.ts started for the demo flies it now, before any message could arrive.
 const early = prestartRequest(scope.name);
 if (early) {
-  answerRun(early, (reply, transfer) => scope.postMessage(reply, transfer), caches);
-  // The validator's first run, once the page has had time to show the pass (it would compete with
-  // that for the cores): the first edit then finds it warm. An edit before it pays that run itself.
-  setTimeout(() => void validateScenarioAfresh(early.scenario), WARM_AFTER_MS);
+  answer(early);
+  // The validator's load and first run, once the page has had time to show the pass (they would
+  // compete with that for the cores): the first edit then finds it loaded and warm. An edit before
+  // it pays both itself.
+  setTimeout(
+    () =>
+      void loadValidator().then(
+        (v) => v.validateScenarioAfresh(early.scenario),
+        () => undefined, // a failed load is reported to the request that needs the validator
+      ),
+    WARM_AFTER_MS,
+  );
 }
