@@ -14,6 +14,7 @@ import { fly, scenarioFlight } from './fly';
 import type { Prepared } from './run';
 import { metricContext, metricOptionsOf, verdictOf } from './summarise';
 import type { BuiltController, RunVerdict } from './types';
+import type { SensorNoiseTape } from '../sim/noiseTape';
 
 export interface OnlineRun {
   controllerId: string;
@@ -30,12 +31,22 @@ export function onlineFlightPossible(p: Prepared): boolean {
   return p.constraints.constraints.length === 0 && !p.plan.tracking;
 }
 
-/** Fly controller c in `mode` and summarise it online; `grid`: the error-angle samples to keep. */
-export function flyOnline(p: Prepared, c: BuiltController, mode: RunMode, grid: ErrorGrid | null, shouldStop?: () => boolean): OnlineRun {
+/**
+ * Fly controller c in `mode` and summarise it online; `grid`: the error-angle samples to keep;
+ * `noiseTape`: the sensor noise read from this tape (sim/noiseTape.ts; the same values as drawn).
+ */
+export function flyOnline(
+  p: Prepared,
+  c: BuiltController,
+  mode: RunMode,
+  grid: ErrorGrid | null,
+  shouldStop?: () => boolean,
+  noiseTape?: SensorNoiseTape,
+): OnlineRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, shouldStop);
   const m = metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors);
   const recorder = new OnlineMetrics(p.vehicle.wheels.n, metricOptionsOf(m, c.liftDependent), grid);
-  const res = fly({ ...flight, sink: recorder });
+  const res = fly({ ...flight, sink: recorder, ...(noiseTape ? { noiseTape } : {}) });
   const metrics = recorder.metrics(res.jumps);
   return { controllerId: c.id, outcome: res.outcome, jumps: res.jumps, metrics, verdict: verdictOf(res.outcome, metrics), recorder };
 }
