@@ -7,7 +7,7 @@
  * (its window errors do); `onlineFlightPossible` says so, and the caller flies the trace path
  * otherwise.
  */
-import { OnlineMetrics, type ErrorGrid } from '../metrics/online';
+import { OnlineMetrics, type ErrorGrid, type OnlineParts } from '../metrics/online';
 import type { RunMetrics } from '../metrics/metrics';
 import type { JumpEvent, RunMode, RunOutcome } from '../sim/types';
 import { fly, scenarioFlight } from './fly';
@@ -33,7 +33,8 @@ export function onlineFlightPossible(p: Prepared): boolean {
 
 /**
  * Fly controller c in `mode` and summarise it online; `grid`: the error-angle samples to keep;
- * `noiseTape`: the sensor noise read from this tape (sim/noiseTape.ts; the same values as drawn).
+ * `noiseTape`: the sensor noise read from this tape (sim/noiseTape.ts; the same values as drawn);
+ * `parts`: 'study-row' leaves out the metrics no study row reads (metrics/online.ts OnlineParts).
  */
 export function flyOnline(
   p: Prepared,
@@ -42,10 +43,11 @@ export function flyOnline(
   grid: ErrorGrid | null,
   shouldStop?: () => boolean,
   noiseTape?: SensorNoiseTape,
+  parts: OnlineParts = 'all',
 ): OnlineRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, shouldStop);
   const m = metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors);
-  const recorder = new OnlineMetrics(p.vehicle.wheels.n, metricOptionsOf(m, c.liftDependent), grid);
+  const recorder = new OnlineMetrics(p.vehicle.wheels.n, metricOptionsOf(m, c.liftDependent), grid, parts);
   const res = fly({ ...flight, sink: recorder, ...(noiseTape ? { noiseTape } : {}) });
   const metrics = recorder.metrics(res.jumps);
   return { controllerId: c.id, outcome: res.outcome, jumps: res.jumps, metrics, verdict: verdictOf(res.outcome, metrics), recorder };

@@ -263,7 +263,7 @@ export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boo
   const tape = (options.shareNoise ?? true) ? caseNoiseTape : undefined;
   for (const c of pc.prepared.controllers) {
     if (online) {
-      const run = flyOnline(pc.prepared, c, ctx.def.mode, grid, shouldStop, tape);
+      const run = flyOnline(pc.prepared, c, ctx.def.mode, grid, shouldStop, tape, 'study-row');
       if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
       runs.push(caseRunOnline(ctx, pc.draw, run));
       continue;
