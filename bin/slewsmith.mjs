@@ -7,6 +7,7 @@
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chooseCli } from './cli-bundle.mjs';
+import { prestartStudyWorkers } from './study-prestart.mjs';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const choice = chooseCli(root, process.env);
@@ -15,6 +16,10 @@ if (choice.kind === 'error') {
   process.exitCode = 2;
 } else {
   let main;
+  // A study's worker threads start loading now, beside the CLI's own load (bin/study-prestart.mjs).
+  const workerFile =
+    choice.kind === 'bundle' ? path.join(path.dirname(choice.entry), 'study-worker.mjs') : path.join(root, 'main/cli/study-worker.mjs');
+  prestartStudyWorkers(process.argv.slice(2), pathToFileURL(workerFile));
   if (choice.kind === 'bundle') ({ main } = await import(pathToFileURL(choice.entry).href));
   else {
     const { register } = await import('tsx/esm/api');

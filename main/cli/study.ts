@@ -34,9 +34,32 @@ import { studyContextSeed, type StudyContextSeed } from '../../app/engine/study/
 
 const WORKER_URL = new URL('./study-worker.mjs', import.meta.url);
 
-/** A worker thread as the coordinator's port. */
+/** What bin/study-prestart.mjs leaves: workers started from `url` before the CLI was loaded. */
+interface Prestarted {
+  url: string;
+  workers: Worker[];
+}
+const PRESTARTED = Symbol.for('slewsmith.prestartedStudyWorkers');
+
+/** A worker the launcher started from this CLI's own worker file, if one is left (ref'd again). */
+function adoptPrestarted(): Worker | null {
+  const p = (globalThis as Record<symbol, Prestarted | undefined>)[PRESTARTED];
+  if (!p || p.url !== WORKER_URL.href) return null;
+  const w = p.workers.shift() ?? null;
+  w?.ref();
+  return w;
+}
+
+/** End the launcher's workers that no study adopted (wrong count, one worker, an early error). */
+export function endPrestartedWorkers(): void {
+  const p = (globalThis as Record<symbol, Prestarted | undefined>)[PRESTARTED];
+  if (!p) return;
+  for (const w of p.workers.splice(0)) void w.terminate();
+}
+
+/** A worker thread as the coordinator's port (one the launcher started, else a new one). */
 export function threadPort(): { port: StudyWorkerPort; worker: Worker } {
-  const worker = new Worker(WORKER_URL);
+  const worker = adoptPrestarted() ?? new Worker(WORKER_URL);
   let dead = false;
   const port: StudyWorkerPort = {
     post: (msg) => {
@@ -232,6 +255,7 @@ export async function runStudyCli(json: unknown, a: ParsedArgs, io: CliIo, tool 
   // would load it again, the largest part of a shard's start-up), yielding between chunks so that
   // progress and Ctrl-C are still handled.
   const threads = nWorkers === 1 ? [mainThreadPort()] : Array.from({ length: nWorkers }, () => threadPort());
+  endPrestartedWorkers();
   // With worker threads: build the study's context (its certificates) once here while they start,
   // and hand the certificates to them instead of each computing them again.
   const contextSeed: StudyContextSeed | undefined = nWorkers === 1 ? undefined : studyContextSeed(json, overrides);

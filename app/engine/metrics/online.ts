@@ -33,6 +33,14 @@ import {
 } from './segments';
 import { AT_LIMIT_FRACTION, type WheelPeak, type WheelSaturation } from './wheels';
 
+/**
+ * What a recorder computes: 'all' (RunMetrics in full) or 'study-row' (only what a study row and
+ * the run's verdict read, study/runCase.ts caseRunFromParts and pipeline/summarise.ts verdictOf:
+ * the tracking error, the control effort and the time at the wheel limits are left out and come
+ * back as NaN, NaN and no saturation entries; every other field is the same bits).
+ */
+export type OnlineParts = 'all' | 'study-row';
+
 /** A fixed time grid for the error-angle channel: t_k = k·stepS for k < count. */
 export interface ErrorGrid {
   stepS: number;
@@ -128,6 +136,7 @@ export class OnlineMetrics implements SampleSink {
     nWheels: number,
     private readonly o: MetricOptions,
     private readonly grid: ErrorGrid | null = null,
+    private readonly parts: OnlineParts = 'all',
   ) {
     this.N = nWheels;
     const floor = o.chatterFloorNm ?? CHATTER_FLOOR_FRACTION * smallest(o.maxTorqueNm);
@@ -185,9 +194,10 @@ export class OnlineMetrics implements SampleSink {
     if (!g) g = this.openSegment(s, t);
     this.segmentSample(g, s);
 
-    this.trackingSample(s, k);
+    const all = this.parts === 'all';
+    if (all) this.trackingSample(s, k);
     this.chatterSample(s, k);
-    this.wheelSample(s, k);
+    this.wheelSample(s, k, all);
     this.gridSample(s);
 
     this.lastError = s.scalars[PACKED_ERROR_ANGLE]!;
@@ -371,17 +381,18 @@ export class OnlineMetrics implements SampleSink {
     this.most = Math.max(this.most, hi - this.lo + 1);
   }
 
-  /** wheels.ts wheelUse: peaks, time at the limits, effort. */
-  private wheelSample(s: PackedSample, k: number): void {
+  /** wheels.ts wheelUse: peaks, and with `all` the time at the limits and the effort. */
+  private wheelSample(s: PackedSample, k: number, all: boolean): void {
     const N = this.N;
-    const t = this.now[0]!;
     const o = this.o;
+    peakSample(this.torquePeak, s.wheelTorque, o.maxTorqueNm, N, this.now);
+    peakSample(this.momentumPeak, s.hWheel, o.maxMomentumNms, N, this.now);
+    if (!all) return;
+    const t = this.now[0]!;
     const tb = s.torqueBody;
     const m = Math.sqrt(tb[0]! * tb[0]! + tb[1]! * tb[1]! + tb[2]! * tb[2]!);
     if (k > 0) this.effort += 0.5 * (m + this.effortPrev) * (t - this.tPrev);
     this.effortPrev = m;
-    peakSample(this.torquePeak, s.wheelTorque, o.maxTorqueNm, N, this.now);
-    peakSample(this.momentumPeak, s.hWheel, o.maxMomentumNms, N, this.now);
     // Slots [0, N): wheel torques; [N, 2N): wheel momenta.
     this.limitSample(s.wheelTorque, o.maxTorqueNm, 0);
     this.limitSample(s.hWheel, o.maxMomentumNms, N);
@@ -447,11 +458,13 @@ export class OnlineMetrics implements SampleSink {
           totalS: this.satTotal[i]!,
         });
     const last = segments[segments.length - 1];
+    const all = this.parts === 'all';
+    if (!all) saturation.length = 0;
     return {
       settleTimeS: settled ? Math.max(...segments.map((g) => g.settleTimeS!)) : null,
       settled,
-      trackingErrorPeakRad: this.trackPeak,
-      trackingErrorRmsRad: this.trackSpan > 0 ? Math.sqrt(this.trackSum / this.trackSpan) : this.trackPeak,
+      trackingErrorPeakRad: all ? this.trackPeak : NaN,
+      trackingErrorRmsRad: !all ? NaN : this.trackSpan > 0 ? Math.sqrt(this.trackSum / this.trackSpan) : this.trackPeak,
       rotationTravelledRad: segments.reduce((sum, g) => sum + g.travelledRad, 0),
       shortestRotationRad: segments.reduce((sum, g) => sum + g.shortestRad, 0),
       longWay: segments.some((g) => g.longWay),
@@ -464,7 +477,7 @@ export class OnlineMetrics implements SampleSink {
       peakTorque: { ...this.torquePeak },
       peakMomentum: { ...this.momentumPeak },
       saturation,
-      controlEffortNms: this.effort,
+      controlEffortNms: all ? this.effort : NaN,
       finalErrorRad: last ? last.finalErrorRad : 0,
       finalRateRadPerS: n > 0 ? Math.hypot(w[0]!, w[1]!, w[2]!) : 0,
       segments: segments.slice(),

@@ -14,6 +14,7 @@ import type { BuiltController, Vehicle } from './types';
 import { SettleWatch } from '../metrics/settle';
 import { pointingAxesOf } from './pointing';
 import type { SampleSink } from '../sim/sink';
+import type { SensorNoiseTape } from '../sim/noiseTape';
 
 /** Everything one flight needs (SI). */
 export interface Flight {
@@ -40,6 +41,8 @@ export interface Flight {
   traceArena?: RunTrace;
   /** Samples to this sink instead of the trace (sim/sink.ts; a study case's online metrics). */
   sink?: SampleSink;
+  /** Sensor noise read from this tape (sim/noiseTape.ts; shared by a study case's laws); same values as drawn. */
+  noiseTape?: SensorNoiseTape;
 }
 
 /** Stage 5: fly. */
@@ -67,6 +70,7 @@ export function fly(f: Flight): ClosedLoopResult {
     ...(f.maxSteps !== undefined ? { maxSteps: f.maxSteps } : {}),
     ...(f.traceArena ? { traceArena: f.traceArena } : {}),
     ...(f.sink ? { sink: f.sink } : {}),
+    ...(f.noiseTape ? { noiseTape: f.noiseTape } : {}),
   });
 }
 

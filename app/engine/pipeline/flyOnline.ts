@@ -7,13 +7,14 @@
  * (its window errors do); `onlineFlightPossible` says so, and the caller flies the trace path
  * otherwise.
  */
-import { OnlineMetrics, type ErrorGrid } from '../metrics/online';
+import { OnlineMetrics, type ErrorGrid, type OnlineParts } from '../metrics/online';
 import type { RunMetrics } from '../metrics/metrics';
 import type { JumpEvent, RunMode, RunOutcome } from '../sim/types';
 import { fly, scenarioFlight } from './fly';
 import type { Prepared } from './run';
 import { metricContext, metricOptionsOf, verdictOf } from './summarise';
 import type { BuiltController, RunVerdict } from './types';
+import type { SensorNoiseTape } from '../sim/noiseTape';
 
 export interface OnlineRun {
   controllerId: string;
@@ -30,12 +31,24 @@ export function onlineFlightPossible(p: Prepared): boolean {
   return p.constraints.constraints.length === 0 && !p.plan.tracking;
 }
 
-/** Fly controller c in `mode` and summarise it online; `grid`: the error-angle samples to keep. */
-export function flyOnline(p: Prepared, c: BuiltController, mode: RunMode, grid: ErrorGrid | null, shouldStop?: () => boolean): OnlineRun {
+/**
+ * Fly controller c in `mode` and summarise it online; `grid`: the error-angle samples to keep;
+ * `noiseTape`: the sensor noise read from this tape (sim/noiseTape.ts; the same values as drawn);
+ * `parts`: 'study-row' leaves out the metrics no study row reads (metrics/online.ts OnlineParts).
+ */
+export function flyOnline(
+  p: Prepared,
+  c: BuiltController,
+  mode: RunMode,
+  grid: ErrorGrid | null,
+  shouldStop?: () => boolean,
+  noiseTape?: SensorNoiseTape,
+  parts: OnlineParts = 'all',
+): OnlineRun {
   const flight = scenarioFlight(p.scenario, p.vehicle, p.plan, p.targets, c, mode, shouldStop);
   const m = metricContext(p.scenario, p.vehicle, p.targets, p.plan, mode, flight.sensors);
-  const recorder = new OnlineMetrics(p.vehicle.wheels.n, metricOptionsOf(m, c.liftDependent), grid);
-  const res = fly({ ...flight, sink: recorder });
+  const recorder = new OnlineMetrics(p.vehicle.wheels.n, metricOptionsOf(m, c.liftDependent), grid, parts);
+  const res = fly({ ...flight, sink: recorder, ...(noiseTape ? { noiseTape } : {}) });
   const metrics = recorder.metrics(res.jumps);
   return { controllerId: c.id, outcome: res.outcome, jumps: res.jumps, metrics, verdict: verdictOf(res.outcome, metrics), recorder };
 }

@@ -25,6 +25,7 @@ import { runSampled } from './sampled';
 import { runIdeal } from './ideal';
 import type { Actuation, JumpEvent, RunOutcome, RunStatus, RunTrace } from './types';
 import type { SampleSink } from './sink';
+import type { SensorNoiseTape } from './noiseTape';
 
 export type { Actuation } from './types';
 
@@ -94,6 +95,12 @@ export interface ClosedLoopConfig {
   traceArena?: RunTrace;
   /** Every recorded sample goes here instead of the trace (sink.ts); the result's trace is then empty. */
   sink?: SampleSink;
+  /**
+   * Read the sensor noise from this tape (noiseTape.ts), begun here with the run's seed, stream
+   * and σs, instead of drawing it: the same measured values; runs drawing the same realisation
+   * (a study case's laws) share the draws. Used by sampled runs of at most NOISE_TAPE_MAX_SAMPLES.
+   */
+  noiseTape?: SensorNoiseTape;
 }
 
 export interface ClosedLoopResult {

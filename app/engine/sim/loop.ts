@@ -30,6 +30,7 @@ import {
 import type { JumpEvent } from './types';
 import { firstNonFinite } from './finite';
 import type { SampleSink } from './sink';
+import { NOISE_TAPE_MAX_SAMPLES, type SensorNoiseTape } from './noiseTape';
 
 /**
  * Samples a trace starts with; it grows by doubling, never past the run's expected sample count
@@ -56,6 +57,8 @@ export class LoopCore {
   readonly stopRule: StopRule | null;
   /** Takes the samples instead of the trace (sink.ts); null: the trace records them. */
   readonly sink: SampleSink | null;
+  /** The sensor noise read from this tape (begun for this run) instead of drawn from rng; null: drawn. */
+  readonly noiseTape: SensorNoiseTape | null;
 
   readonly qRef = new Float64Array(4);
   readonly wRef = new Float64Array(3);
@@ -119,6 +122,11 @@ export class LoopCore {
     this.maxPerInstant = cfg.maxJumpsPerInstant ?? 20;
     this.stopRule = cfg.stopRule ?? null;
     this.sink = cfg.sink ?? null;
+    const sm0 = cfg.sensors;
+    const tape = cfg.noiseTape ?? null;
+    this.noiseTape =
+      tape !== null && cfg.timing === 'sampled' && Math.ceil(cfg.tEnd * cfg.controlRateHz) < NOISE_TAPE_MAX_SAMPLES ? tape : null;
+    this.noiseTape?.begin(cfg.seed, cfg.stream ?? 0, sm0.attitudeSigmaRad, sm0.rateSigmaRadPerS);
     const sm = cfg.sensors;
     const b = sm.rateBiasRadPerS;
     this.sensorsAddNothing =

@@ -17,7 +17,7 @@ import { makeActuator } from './actuation';
 import { HeldGyrostatRk4 } from './heldRk4';
 import type { LoopEnd } from './closedLoop';
 import { fmtS, type LoopCore, projectQuaternion } from './loop';
-import { measure } from './sensors';
+import { measure, measureFromTape } from './sensors';
 
 const DUE_TOLERANCE = 1e-9;
 /** Step cap when the caller sets none (the same default as the general hybrid simulator). */
@@ -30,13 +30,16 @@ export function runSampled(core: LoopCore, x0: Float64Array): LoopEnd {
   // Between two stops the wheel torques are held: RK4 written for the gyrostat (heldRk4.ts).
   const stepper = new HeldGyrostatRk4(cfg.plant);
   let sampleIndex = 0;
+  // Sample k's noise from the tape (its k-th entry) when the run has one: same values as drawn.
+  const tape = core.noiseTape;
 
   /** One controller sample at t: measure, switch, compute, allocate, hold. */
   const sample = (t: number, x: Float64Array) => {
     core.unpack(x);
     const s = core.ref.at(t, core.qRef, core.wRef, core.wdRef);
     core.loadAxis(s);
-    measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef, core.axis);
+    if (tape) measureFromTape(core.qMeas, core.wMeas, cfg.sensors, tape, sampleIndex, core.qTrue, core.wTrue, core.qRef, core.axis);
+    else measure(core.qMeas, core.wMeas, cfg.sensors, core.rng, core.qTrue, core.wTrue, core.qRef, core.axis);
     for (let i = 0; i < core.N; i++) core.hMeas[i] = core.hTrue[i]!;
     if (s !== core.segment) {
       core.segment = s;

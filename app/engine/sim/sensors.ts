@@ -22,6 +22,7 @@
 import type { Rng } from '../math/prng';
 import { qConjMultiply, qFromRotationVector, qMultiply, qNormalize } from '../math/rotation';
 import { applyAntipodalStall } from '../control/sphere/noise';
+import type { SensorNoiseTape } from './noiseTape';
 
 export interface SensorModel {
   /** 1σ attitude noise per body axis, rad. */
@@ -83,6 +84,56 @@ export function measure(
     qOut[2] = qTrue[2]!;
     qOut[3] = qTrue[3]!;
   }
+  boundedNoise(qOut, model, qTrue, qRef, pointingAxis);
+  const sw = model.rateSigmaRadPerS;
+  const b = model.rateBiasRadPerS;
+  // The rate's three draws come after the attitude's, as three normal() calls in axis order would.
+  if (sw > 0) {
+    rng.normals(rateNoise, 3);
+    for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + sw * rateNoise[i]!;
+  } else for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + 0;
+}
+
+/**
+ * measure with the random parts read from a tape (noiseTape.ts) at sample k instead of drawn:
+ * the same measured state, bit for bit, when the tape was begun with the run's seed, stream and
+ * σs and k is the run's sample index (the tape forms dq and σ_ω n as measure does).
+ */
+export function measureFromTape(
+  qOut: Float64Array,
+  omegaOut: Float64Array,
+  model: SensorModel,
+  tape: SensorNoiseTape,
+  k: number,
+  qTrue: ArrayLike<number>,
+  omegaTrue: ArrayLike<number>,
+  qRef: ArrayLike<number>,
+  pointingAxis?: ArrayLike<number>,
+): void {
+  tape.at(k);
+  if (model.attitudeSigmaRad > 0) qMultiply(qOut, qTrue, tape.dqNow);
+  else {
+    qOut[0] = qTrue[0]!;
+    qOut[1] = qTrue[1]!;
+    qOut[2] = qTrue[2]!;
+    qOut[3] = qTrue[3]!;
+  }
+  boundedNoise(qOut, model, qTrue, qRef, pointingAxis);
+  const b = model.rateBiasRadPerS;
+  if (model.rateSigmaRadPerS > 0) {
+    const r = tape.rateNow;
+    for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + r[i]!;
+  } else for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + 0;
+}
+
+/** The worst-case bounded models on the measured attitude (after the random rotation). */
+function boundedNoise(
+  qOut: Float64Array,
+  model: SensorModel,
+  qTrue: ArrayLike<number>,
+  qRef: ArrayLike<number>,
+  pointingAxis: ArrayLike<number> | undefined,
+): void {
   const ebar = model.adversarialEta;
   if (ebar > 0) {
     qConjMultiply(qe, qRef, qOut);
@@ -105,11 +156,4 @@ export function measure(
   const stall = model.antipodalNoiseRad ?? 0;
   if (stall > 0 && pointingAxis && (pointingAxis[0] !== 0 || pointingAxis[1] !== 0 || pointingAxis[2] !== 0))
     applyAntipodalStall(qOut, qOut, qTrue, qRef, pointingAxis, stall);
-  const sw = model.rateSigmaRadPerS;
-  const b = model.rateBiasRadPerS;
-  // The rate's three draws come after the attitude's, as three normal() calls in axis order would.
-  if (sw > 0) {
-    rng.normals(rateNoise, 3);
-    for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + sw * rateNoise[i]!;
-  } else for (let i = 0; i < 3; i++) omegaOut[i] = omegaTrue[i]! + b[i]! + 0;
 }

@@ -18,6 +18,7 @@ import { flyOnline, onlineFlightPossible, type OnlineRun } from '../pipeline/fly
 import type { RunMetrics } from '../metrics/metrics';
 import type { ErrorGrid } from '../metrics/online';
 import type { RunConstraintReport } from '../pipeline/constraints';
+import { SensorNoiseTape } from '../sim/noiseTape';
 
 /** Samples of the decimated error-angle trace kept for every run (fixed grid over durationS). */
 export const TRACE_SAMPLES = 120;
@@ -237,7 +238,16 @@ export interface RunCaseOptions {
    * false: always the trace path; both give the same rows, test/property/metrics-online.test.ts).
    */
   online?: boolean;
+  /**
+   * Draw a case's sensor noise once and let every law read it (sim/noiseTape.ts; default true;
+   * false: each law draws it again, as a lone flight does). The same rows either way
+   * (test/unit/noise-tape.test.ts).
+   */
+  shareNoise?: boolean;
 }
+
+/** This thread's tape: a case's laws fly one after another with the same noise seed. */
+const caseNoiseTape = new SensorNoiseTape();
 
 /**
  * Run case `index` for every selected controller. Returns null when `shouldStop` interrupted it
@@ -250,9 +260,10 @@ export function runCase(ctx: StudyContext, index: number, shouldStop?: () => boo
   // Without constraints or orbit tracking a row needs only the metrics: fly without a trace.
   const online = (options.online ?? true) && onlineFlightPossible(pc.prepared);
   const grid = caseErrorGrid(ctx);
+  const tape = (options.shareNoise ?? true) ? caseNoiseTape : undefined;
   for (const c of pc.prepared.controllers) {
     if (online) {
-      const run = flyOnline(pc.prepared, c, ctx.def.mode, grid, shouldStop);
+      const run = flyOnline(pc.prepared, c, ctx.def.mode, grid, shouldStop, tape, 'study-row');
       if (run.outcome.status === 'cancelled' && shouldStop?.()) return null;
       runs.push(caseRunOnline(ctx, pc.draw, run));
       continue;
