@@ -199,6 +199,39 @@ export function detailPlots(run: ControllerRun, out: PipelineOutput): { plots: P
   return { plots, hiddenNote };
 }
 
+/**
+ * The parts of an output that buildPlots (and windowBands, boresightChoices) read, in a fixed
+ * order. The store shares each with the shown output while it is unchanged (store/shareOutput.ts),
+ * so equal entries by identity mean equal plots: PlotsPanel reuses its plot specs, and a chart
+ * whose spec is the same object is not drawn again. The run order matters (a run's colour is its
+ * place), hence the keys' text. test/unit/ui-plot-series.test.ts builds the plots from these parts
+ * alone.
+ */
+export function plotSources(out: PipelineOutput): readonly unknown[] {
+  return [
+    out.runs.map((r) => r.key).join('\n'),
+    out.plan,
+    out.vehicle,
+    out.constraints,
+    out.orbit,
+    out.scenario.file.targets,
+    out.scenario.file.planning,
+    out.scenario.targets,
+  ];
+}
+
+/** An output holding only what plotSources lists (for the test that buildPlots reads nothing else). */
+export function plotSourcesOnly(out: PipelineOutput): PipelineOutput {
+  return {
+    runs: out.runs,
+    plan: out.plan,
+    vehicle: out.vehicle,
+    constraints: out.constraints,
+    orbit: out.orbit,
+    scenario: { file: { targets: out.scenario.file.targets, planning: out.scenario.file.planning }, targets: out.scenario.targets },
+  } as unknown as PipelineOutput;
+}
+
 export interface PlotSet {
   /** Every ticked run on one axis each. */
   overlays: PlotSpec[];
