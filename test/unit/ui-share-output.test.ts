@@ -142,10 +142,12 @@ describe('the store keeps unchanged runs across a partial and a complete reply',
     store.setOutput(structuredClone(before), demo, 1);
     const shown = store.getState().output!;
     const edited = gainEdit(1, 1.1);
-    // The worker's partial reply: the runs up to the first flown one (pd's two, hysteretic's first).
-    const early = { ...structuredClone(after), runs: structuredClone(after.runs.slice(0, 3)) };
-    expect(store.setPartialOutput(early, edited, { passId: 2, done: 3, total: 6 })).toBe(true);
+    // The worker's partial reply: the run flown first (hysteretic's first; the cached ones are left out).
+    const early = { ...structuredClone(after), runs: structuredClone(after.runs.slice(2, 3)) };
+    expect(store.setPartialOutput(early, edited, { passId: 2, done: 1, total: 6 })).toBe(true);
     const mid = store.getState().output!;
+    // Shown in the pass's order (a run's colour is its place), the others as before.
+    expect(mid.runs.map((r) => r.key)).toEqual(after.runs.map((r) => r.key));
     expect(mid.runs[0]).toBe(shown.runs[0]);
     expect(mid.runs[2]).not.toBe(shown.runs[2]);
     expect(mid.runs[5]).toBe(shown.runs[5]); // still to come: the previous trace
