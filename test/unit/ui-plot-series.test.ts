@@ -9,7 +9,16 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import type { PipelineOutput } from '../../app/engine/pipeline/types';
 import fs from 'node:fs';
-import { alignRuns, buildPlots, channel, detailPlots, plotSources, plotSourcesOnly, type Series } from '../../app/ui/plots/series';
+import {
+  alignRuns,
+  buildDetail,
+  buildPlots,
+  channel,
+  detailPlots,
+  plotSources,
+  plotSourcesOnly,
+  type Series,
+} from '../../app/ui/plots/series';
 import { segmentMarkers } from '../../app/ui/plots/markers';
 import { windowBands } from '../../app/ui/plots/windowBands';
 import { boresightChoices, defaultBoresight, type OverlayOptions } from '../../app/ui/plots/overlays';
@@ -174,6 +183,7 @@ describe('plots read only what plotSources lists', () => {
       // The per-run plots (and their markers) read the run, the plan and the vehicle only.
       const planVehicle = { plan: full.plan, vehicle: full.vehicle } as PipelineOutput;
       for (const run of full.runs) expect(detailPlots(run, planVehicle)).toEqual(detailPlots(run, full));
+      expect(buildDetail({ ...planVehicle, runs: full.runs }, keys)).toEqual(buildDetail(full, keys));
       expect(segmentMarkers(planVehicle)).toEqual(segmentMarkers(full));
     });
 });

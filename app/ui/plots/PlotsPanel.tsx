@@ -12,7 +12,7 @@ import { useApp, useAppState } from '../context';
 import { runName } from '../modeNames';
 import { createChart, createChartGroup, structureKey, type ChartGroup, type ChartHandle } from './chart';
 import { boresightChoices, defaultBoresight, type BoresightChoice } from './overlays';
-import { buildPlots, plotSources, runColor, type PlotSpec, type Series } from './series';
+import { buildDetail, buildOverlays, plotSources, runColor, type PlotSpec, type Series } from './series';
 import { WindowBandLegend } from './WindowBandLegend';
 import { windowBands } from './windowBands';
 
@@ -236,21 +236,17 @@ export function PlotsPanel() {
   const withBands = (p: PlotSpec): PlotSpec => (bands?.length ? { ...p, windowBands: bands } : p);
   // Overlays: every ticked run. Per-run plots: the first ticked run only (with the plan's markers,
   // the vehicle's limits and the bands), so they stay as they are when another run changes.
-  const overlaySet = useReused(
-    () => (output && boresight ? buildPlots(output, selected, { logError, boresight }, join) : null),
+  const overlaySpecs = useReused(
+    () => (output && boresight ? buildOverlays(output, selected, { logError, boresight }, join) : null),
     [...sources, ...ticked, selected.length, logError, boresight],
   );
-  const overlays = useReused(() => overlaySet?.overlays.map(withBands) ?? [], [overlaySet, bands]);
+  const overlays = useReused(() => overlaySpecs?.map(withBands) ?? [], [overlaySpecs, bands]);
   // The per-run plots read the first ticked run, the plan (markers) and the vehicle (limits) only
   // (test/unit/ui-plot-series.test.ts): equal inputs keep the specs shown.
-  const detail = useReused(
-    () => ({
-      run: overlaySet?.detail ?? null,
-      plots: overlaySet?.detailPlots.map(withBands) ?? [],
-      hiddenNote: overlaySet?.hiddenNote ?? null,
-    }),
-    [ticked[0], output?.plan, output?.vehicle, bands, overlaySet === null],
-  );
+  const detail = useReused(() => {
+    const d = output ? buildDetail(output, selected) : null;
+    return { run: d?.detail ?? null, plots: d?.detailPlots.map(withBands) ?? [], hiddenNote: d?.hiddenNote ?? null };
+  }, [ticked[0], output?.plan, output?.vehicle, bands]);
   const scenarioName = output?.scenario.name ?? '';
   const epochUtc = output?.scenario.epochUtc ?? '';
   // The cards' header controls, kept while their inputs are the same (PlotCard is memoised).
@@ -267,7 +263,7 @@ export function PlotsPanel() {
     [choices, boresight],
   );
 
-  if (!output || !overlaySet || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
+  if (!output || !overlaySpecs || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
   return (
     <div className={`plots ${current ? '' : 'stale'}`} data-testid="plots">
       <div className="plots-head" data-testid="plots-head">

@@ -241,6 +241,32 @@ export interface PlotSet {
   hiddenNote: string | null;
 }
 
+function tickedRuns(out: PipelineOutput, selected: readonly string[]): ControllerRun[] {
+  return selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
+}
+
+/** The overlays of buildPlots alone (every ticked run on one axis each, with the plan's markers). */
+export function buildOverlays(
+  out: PipelineOutput,
+  selected: readonly string[],
+  o: OverlayOptions,
+  join: (t: Series[][]) => Series[],
+): PlotSpec[] {
+  const runs = tickedRuns(out, selected);
+  const markers = segmentMarkers(out);
+  const margin = constraintMarginPlot(out, runs, join);
+  return [...overlayPlots(out, runs, o, join), ...(margin ? [margin] : [])].map((p) => ({ ...p, markers }));
+}
+
+/** The per-run plots of buildPlots alone (the first ticked run's; it reads that run, the plan and the vehicle). */
+export function buildDetail(out: PipelineOutput, selected: readonly string[]): Omit<PlotSet, 'overlays'> {
+  const detail = tickedRuns(out, selected)[0] ?? null;
+  if (!detail) return { detail: null, detailPlots: [], hiddenNote: null };
+  const markers = segmentMarkers(out);
+  const d = detailPlots(detail, out);
+  return { detail, detailPlots: d.plots.map((p) => ({ ...p, markers })), hiddenNote: d.hiddenNote };
+}
+
 /** Every plot for the ticked runs; the first ticked run is the one the per-run plots show. */
 export function buildPlots(
   out: PipelineOutput,
@@ -248,13 +274,5 @@ export function buildPlots(
   o: OverlayOptions,
   join: (t: Series[][]) => Series[],
 ): PlotSet {
-  const runs = selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
-  const markers = segmentMarkers(out);
-  const withMarkers = (p: PlotSpec): PlotSpec => ({ ...p, markers });
-  const margin = constraintMarginPlot(out, runs, join);
-  const overlays = [...overlayPlots(out, runs, o, join), ...(margin ? [margin] : [])].map(withMarkers);
-  const detail = runs[0] ?? null;
-  if (!detail) return { overlays, detail: null, detailPlots: [], hiddenNote: null };
-  const d = detailPlots(detail, out);
-  return { overlays, detail, detailPlots: d.plots.map(withMarkers), hiddenNote: d.hiddenNote };
+  return { overlays: buildOverlays(out, selected, o, join), ...buildDetail(out, selected) };
 }
