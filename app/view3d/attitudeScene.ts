@@ -21,7 +21,7 @@ import { envelopeDisplayScale } from './envelope';
 import type { LabelFactory } from './labels';
 import type { Kit } from './primitives';
 import { createKit, disposeKit, disposeTree, Triad } from './primitives';
-import { RunContent, runFrameKey } from './runContent';
+import { RunContent, runFrameKey, sameRunData } from './runContent';
 import { SIZES } from './style';
 import { NO_KEEP_OUT } from './types';
 import type { ViewLayout, ViewOptions, ViewRun, ViewStats } from './types';
@@ -158,7 +158,12 @@ class Viewport {
     const scale = envelopeDisplayScale(runs[0]!.momentumEnvelope);
     // The inset keeps the constructor's order: its triad, then each run's momentum in run order.
     for (const rc of this.runs) this.momentumScene.remove(rc.momentum.group);
-    this.runs.forEach((rc, i) => retire(rc.replaceRun(runs[i]!, options, scale)));
+    this.runs.forEach((rc, i) => {
+      const run = runs[i]!;
+      // An unchanged run (another law's gain edited) keeps its trail and inset as they are.
+      if (sameRunData(rc.run, run) && rc.momentumScale === scale) rc.run = run;
+      else retire(rc.replaceRun(run, options, scale));
+    });
     for (const rc of this.runs) this.momentumScene.add(rc.momentum.group);
     this.applyOptions(options);
   }

@@ -53,6 +53,41 @@ export function runFrameKey(run: ViewRun): string {
   return JSON.stringify([run.label, run.hasReference, run.targets.map((t) => t.label)]);
 }
 
+/**
+ * True when `b` shows exactly what `a` shows: the same trace and vehicle arrays (by identity: the
+ * app's store keeps an unchanged run's objects between passes, app/ui/store/shareOutput.ts), and
+ * equal label, mode flags, jumps and targets. Such a run keeps its content as it is (no new trail
+ * or momentum inset, so no new GPU buffers or shader programs).
+ */
+export function sameRunData(a: ViewRun, b: ViewRun): boolean {
+  if (a === b) return true;
+  if (
+    a.trace !== b.trace ||
+    a.wheelAxes !== b.wheelAxes ||
+    a.maxMomentumNms !== b.maxMomentumNms ||
+    a.momentumEnvelope !== b.momentumEnvelope ||
+    a.label !== b.label ||
+    a.hasReference !== b.hasReference ||
+    a.logicKind !== b.logicKind ||
+    a.jumps.length !== b.jumps.length ||
+    a.targets.length !== b.targets.length
+  )
+    return false;
+  const sameJump = (x: ViewRun['jumps'][number], y: ViewRun['jumps'][number]) =>
+    Object.is(x.t, y.t) && x.j === y.j && x.from === y.from && x.to === y.to;
+  if (!a.jumps.every((x, i) => sameJump(x, b.jumps[i]!))) return false;
+  return a.targets.every((x, i) => {
+    const y = b.targets[i]!;
+    return (
+      Object.is(x.tStart, y.tStart) &&
+      Object.is(x.tEnd, y.tEnd) &&
+      x.label === y.label &&
+      x.q.length === y.q.length &&
+      x.q.every((v, k) => Object.is(v, y.q[k]))
+    );
+  });
+}
+
 export class RunContent {
   run: ViewRun;
   /** Inertial-frame content. */
@@ -66,6 +101,8 @@ export class RunContent {
   readonly referenceGhost: Triad | null;
   trail: TrailObject;
   momentum: MomentumContent;
+  /** The momentum inset's display scale (shared by a viewport's runs). */
+  momentumScale: number | undefined;
   cursor = createCursor();
   /** Interpolated attitude at the last update, [x, y, z, w]. */
   readonly qNow = new Float64Array([0, 0, 0, 1]);
@@ -140,6 +177,7 @@ export class RunContent {
     this.trail = this.buildTrail(run, options);
     this.group.add(this.trail.group);
     this.momentum = this.buildMomentum(run, style.momentumScale);
+    this.momentumScale = style.momentumScale;
     this.applyOptions(options);
   }
 
@@ -189,6 +227,7 @@ export class RunContent {
     this.trail = this.buildTrail(run, options);
     this.group.add(this.trail.group);
     this.momentum = this.buildMomentum(run, momentumScale);
+    this.momentumScale = momentumScale;
     this.applyOptions(options);
     const kit = this.kit;
     return {

@@ -12,13 +12,11 @@
  *     plots painted with data (coloured pixels on their canvases, checked every animation frame),
  *     in a fresh browser context each time (empty HTTP cache, new worker); median of 5 loads.
  *     Target ≤ 1.2 s (issue 12).
- *  2. Edit → updated plots on the demo (three controllers, each profiled and direct: six runs):
- *     the Jxx field filled as a user types (alternately 0.13 and 0.11), timed from the input event
- *     to the first moment the error-angle plot's pixels change after the new output arrived, with
- *     the phases between: the runner's debounce (input → 'running'), the worker round trip
- *     ('running' → 'done', of which the engine's own elapsedMs), and store → pixels (React render
- *     plus chart draw). Median of 7 edits. Target ≤ 50 ms. The worker posts the pass's first run
- *     early (a partial output) and the plots update with it; so two figures: edit → first updated
+ *  2. Edit → updated plots on the demo (three controllers, each profiled and direct: six runs),
+ *     two kinds of edit (browserEdit.ts): the vehicle's Jxx (every run changes) and one law's gain
+ *     (only that law's two runs change), each timed from the input event to the first moment the
+ *     error-angle plot's pixels change after the edited run's new output arrived, with the phases
+ *     between. Median of 7 edits each. Target ≤ 50 ms. Two figures per kind: edit → first updated
  *     plot (the issue's figure), and edit → complete pass shown ('done' and the frame after it,
  *     when the comparison table, best marks and warnings are final).
  *  3. 3D scene update per new time with a ≥ 10,000-sample run: the demo at 30 Hz control with a
@@ -38,6 +36,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { electronConfig } from '../../electron.config';
 import { CHROMIUM_ARGS } from '../e2e/chromium-args';
+import { editToPlots, type EditKind } from './browserEdit';
 import { serveBuild } from './serveBuild';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
@@ -184,170 +183,6 @@ async function coldStart(browser: Browser, url: string, loads: number, skip3d: b
   );
 }
 
-interface EditTimes {
-  input: number;
-  running: number;
-  /** The first new output in the store (the partial one when the worker posts the first run early). */
-  firstOut: number;
-  /** Whether that first output was partial. */
-  partial: boolean;
-  done: number;
-  /** The frame after 'done' (the complete pass shown: comparison table, best marks, warnings). */
-  doneFrame: number;
-  /** The run status shown as done in the DOM (React committed the new output). */
-  commit: number;
-  painted: number;
-  elapsed: number;
-  /** Time inside the 3D view's setRuns and render calls between the edit and the updated plot. */
-  setRunsMs: number;
-  renderMs: number;
-  renders: number;
-}
-
-/** Arms the page-side recorder for one edit (resolved in window.__benchEdit). */
-async function armEdit(page: Page): Promise<void> {
-  await page.evaluate(() => {
-    type St = { pipeline: { status: string }; output: { elapsedMs: number } | null; partial?: unknown };
-    const app = (window as unknown as { __slewsmith: { store: { getState(): St; subscribe(l: (s: St, p: St) => void): () => void } } })
-      .__slewsmith;
-    const store = app.store;
-    const canvasOf = () => document.querySelector<HTMLCanvasElement>('.plot-card[data-plot="error-angle"] canvas');
-    const checksum = (c: HTMLCanvasElement | null) => {
-      if (!c) return -1;
-      const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
-      let h = 0;
-      for (let i = 0; i < d.length; i += 4) h = (Math.imul(h, 31) + d[i]! + 7 * d[i + 1]! + 13 * d[i + 2]!) | 0;
-      return h;
-    };
-    const prevOut = store.getState().output;
-    const sum0 = checksum(canvasOf());
-    const view = (window as unknown as { __bench: { view: { setRunsMs: number; renderMs: number; renders: number } } }).__bench.view;
-    const view0 = { ...view };
-    const rec = {
-      input: NaN,
-      running: NaN,
-      firstOut: NaN,
-      partial: false,
-      done: NaN,
-      doneFrame: NaN,
-      commit: NaN,
-      painted: NaN,
-      elapsed: NaN,
-      setRunsMs: NaN,
-      renderMs: NaN,
-      renders: NaN,
-    };
-    const status = document.querySelector('[data-testid=run-status]')!;
-    const mo = new MutationObserver(() => {
-      if (!Number.isNaN(rec.done) && Number.isNaN(rec.commit) && status.getAttribute('data-status') === 'done')
-        rec.commit = performance.now();
-    });
-    mo.observe(status, { attributes: true, attributeFilter: ['data-status'] });
-    const w = window as unknown as { __benchEdit: Promise<typeof rec> };
-    w.__benchEdit = new Promise((resolve) => {
-      const onInput = () => {
-        if (Number.isNaN(rec.input)) rec.input = performance.now();
-      };
-      window.addEventListener('input', onInput, true);
-      const ch = new MessageChannel();
-      const finish = () => {
-        if (Number.isNaN(rec.painted) || Number.isNaN(rec.doneFrame)) return;
-        mo.disconnect();
-        window.removeEventListener('input', onInput, true);
-        unsub();
-        resolve(rec);
-      };
-      // From the first new output on (partial or complete), poll between tasks (sub-millisecond)
-      // for the plot's pixels to change.
-      ch.port1.onmessage = () => {
-        if (checksum(canvasOf()) !== sum0) {
-          rec.painted = performance.now();
-          rec.setRunsMs = view.setRunsMs - view0.setRunsMs;
-          rec.renderMs = view.renderMs - view0.renderMs;
-          rec.renders = view.renders - view0.renders;
-          finish();
-        } else ch.port2.postMessage(0);
-      };
-      const unsub = store.subscribe((s, p) => {
-        const now = performance.now();
-        if (s.output !== p.output && s.output !== prevOut && Number.isNaN(rec.firstOut)) {
-          rec.firstOut = now;
-          rec.partial = s.partial != null;
-          ch.port2.postMessage(0);
-        }
-        if (s.pipeline.status === p.pipeline.status) return;
-        if (s.pipeline.status === 'running') rec.running = now;
-        if (s.pipeline.status === 'done' && s.output !== prevOut && Number.isNaN(rec.done)) {
-          rec.done = now;
-          rec.elapsed = s.output ? s.output.elapsedMs : NaN;
-          requestAnimationFrame(() =>
-            setTimeout(() => {
-              rec.doneFrame = performance.now();
-              finish();
-            }, 0),
-          );
-        }
-      });
-    });
-  });
-}
-
-/**
- * `skip3d`: the 3D view's render() does nothing during the edits, which isolates what one 3D frame
- * costs the main thread here (shader programs rebuilt for the new run set, then the compositor
- * waiting for SwiftShader and reading the preserved drawing buffer back: software-GL artefacts).
- */
-async function editToPlots(browser: Browser, url: string, edits: number, skip3d: boolean): Promise<void> {
-  const { context, page } = await newPage(browser);
-  await page.goto(url, { waitUntil: 'load' });
-  await waitForDone(page);
-  await page.waitForFunction(() => (window as unknown as { __bench: { painted: number | null } }).__bench.painted !== null, null, {
-    timeout: 120_000,
-  });
-  await page.evaluate((skip) => ((window as unknown as { __benchSkipRender: boolean }).__benchSkipRender = skip), skip3d);
-  const jxx = page.getByLabel('Jxx', { exact: true });
-  const times: EditTimes[] = [];
-  for (let k = 0; k < edits; k++) {
-    await armEdit(page);
-    await jxx.fill(k % 2 === 0 ? '0.13' : '0.11');
-    const r = await page.evaluate(() => (window as unknown as { __benchEdit: Promise<EditTimes> }).__benchEdit);
-    times.push(r);
-    await page.waitForTimeout(300);
-  }
-  await context.close();
-  const total = times.map((t) => t.painted - t.input);
-  const complete = times.map((t) => t.doneFrame - t.input);
-  const partials = times.filter((t) => t.partial).length;
-  const debounce = times.map((t) => t.running - t.input);
-  const toFirst = times.map((t) => t.firstOut - t.running);
-  const worker = times.map((t) => t.done - t.running);
-  const engine = times.map((t) => t.elapsed);
-  const render = times.map((t) => t.painted - t.firstOut);
-  const commit = times.map((t) => t.commit - t.done);
-  const setRuns = times.map((t) => t.setRunsMs);
-  const view = times.map((t) => t.renderMs);
-  const renders = times.map((t) => t.renders);
-  const what = skip3d ? 'same, 3D view render() skipped' : 'edit (Jxx) → error-angle plot updated, demo with 3 controllers × 2 modes';
-  console.log(
-    `   ${what}: first updated plot median ${ms(median(total))} (max ${ms(Math.max(...total))}, ${edits} edits, ` +
-      `${partials} from a partial pass)${skip3d ? '' : '   [target ≤ 50 ms]'}`,
-  );
-  console.log(
-    `     edit → complete pass shown (status 'done', then the next frame: comparison, best marks, warnings): ` +
-      `median ${ms(median(complete))} (max ${ms(Math.max(...complete))})`,
-  );
-  console.log(
-    `     phases (medians): debounce of the runner ${ms(median(debounce))}; 'running' → first output in the store ` +
-      `${ms(median(toFirst))}; first output → plot pixels ${ms(median(render))}; 'running' → 'done' ${ms(median(worker))} ` +
-      `(engine pipeline ${ms(median(engine))}, messaging and transfer ${ms(median(worker.map((w, i) => w - engine[i]!)))}; ` +
-      `React commit of the complete output ${ms(median(commit))})`,
-  );
-  console.log(
-    `     main-thread time inside the 3D view between edit and updated plot (medians): setRuns ${ms(median(setRuns))}, ` +
-      `render ${ms(median(view))} over ${median(renders)} call(s)`,
-  );
-}
-
 async function sceneUpdate(browser: Browser, url: string, dir: string): Promise<void> {
   const demo = JSON.parse(fs.readFileSync(path.join(root, electronConfig.demoScenario), 'utf8'));
   demo.name = 'Lumen-6 imaging pass at 30 Hz (bench copy)';
@@ -470,9 +305,14 @@ export async function benchBrowser(): Promise<void> {
       if (!only || only === 'cold') await coldStart(browser, url, loads, false);
       if (!only) await coldStart(browser, url, 3, true);
       if (only === 'cold') return;
-      // SLEWSMITH_BENCH_EDITS=n: more edits than 7 for steadier medians on a shared machine.
-      await editToPlots(browser, url, Number(process.env.SLEWSMITH_BENCH_EDITS ?? 7), false);
-      if (!only) await editToPlots(browser, url, 5, true);
+      // SLEWSMITH_BENCH_EDITS=n: more edits than 7 for steadier medians on a shared machine. Two kinds
+      // of edit: the vehicle's Jxx (every run changes) and one law's gain (only that law's runs).
+      const open = () => newPage(browser);
+      const edits = Number(process.env.SLEWSMITH_BENCH_EDITS ?? 7);
+      // SLEWSMITH_BENCH_EDIT_KINDS=gain (or vehicle): one kind only.
+      const kinds = (process.env.SLEWSMITH_BENCH_EDIT_KINDS ?? 'vehicle,gain').split(',') as EditKind[];
+      for (const kind of kinds) await editToPlots(open, url, edits, false, kind);
+      if (!only) await editToPlots(open, url, 5, true, 'vehicle');
       if (!only) await sceneUpdate(browser, url, dir);
     } finally {
       await browser.close();

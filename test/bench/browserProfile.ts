@@ -3,7 +3,10 @@
  * (Profiler domain, through playwright-core) of the renderer between the Jxx edit and the
  * updated error-angle plot, summarised as self time per function (top 40) and per source file.
  * A diagnostic, not a bench figure: `node --import tsx test/bench/browserProfile.ts [outDir]`
- * (builds with source maps off into a temporary folder, like browser.ts).
+ * (builds with source maps off into a temporary folder, like browser.ts). `PROFILE_EDIT=gain`: the
+ * hysteretic law's bandwidth instead of Jxx, with pd and hysteretic ticked (browserEdit.ts's gain
+ * edit); `PROFILE_DIST=folder`: serve a build made before (A/B of two builds, `--minify false`
+ * for names); `PROFILE_EDITS=n` edits profiled (default 4).
  */
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -70,29 +73,32 @@ function summarise(p: Profile, label: string): void {
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'slewsmith-prof-'));
 const outDir = path.join(dir, 'renderer');
 try {
-  const built = spawnSync(
-    path.join(root, 'node_modules/.bin/vite'),
-    [
-      'build',
-      '--logLevel',
-      'error',
-      '--outDir',
-      outDir,
-      '--emptyOutDir',
-      ...(process.env.PROFILE_MINIFY === '0' ? ['--minify', 'false'] : []),
-    ],
-    {
-      cwd: root,
-      env: { ...process.env, NODE_ENV: 'production' },
-      encoding: 'utf8',
-    },
-  );
+  const prebuilt = process.env.PROFILE_DIST;
+  const built = prebuilt
+    ? { status: 0, stderr: '' }
+    : spawnSync(
+        path.join(root, 'node_modules/.bin/vite'),
+        [
+          'build',
+          '--logLevel',
+          'error',
+          '--outDir',
+          outDir,
+          '--emptyOutDir',
+          ...(process.env.PROFILE_MINIFY === '0' ? ['--minify', 'false'] : []),
+        ],
+        {
+          cwd: root,
+          env: { ...process.env, NODE_ENV: 'production' },
+          encoding: 'utf8',
+        },
+      );
   if (built.status !== 0) throw new Error(`renderer build failed: ${built.stderr}`);
   const server = await preview({
     configFile: path.join(root, 'vite.config.ts'),
     root: path.join(root, electronConfig.entries.rendererRoot),
     logLevel: 'error',
-    build: { outDir },
+    build: { outDir: prebuilt ? path.resolve(prebuilt) : outDir },
     preview: { host: '127.0.0.1', port: 0, strictPort: true, open: false },
   });
   const url = server.resolvedUrls?.local[0];
@@ -111,21 +117,33 @@ try {
     await page.waitForTimeout(1500);
     const cold = (await cdp.send('Profiler.stop')).profile as unknown as Profile;
     summarise(cold, 'cold start (navigation → done + 1.5 s)');
-    const jxx = page.getByLabel('Jxx', { exact: true });
+    const gain = process.env.PROFILE_EDIT === 'gain';
+    const field = gain
+      ? page.getByTestId('controller-hysteretic').getByLabel('Bandwidth ωn', { exact: true })
+      : page.getByLabel('Jxx', { exact: true });
+    const values = gain ? ['0.22', '0.18'] : ['0.13', '0.11'];
+    if (gain)
+      await page.evaluate(() =>
+        (window as unknown as { __slewsmith: { store: { selectRuns(k: string[]): void } } }).__slewsmith.store.selectRuns([
+          'pd:follow-plan',
+          'hysteretic:follow-plan',
+        ]),
+      );
+    const edits = Number(process.env.PROFILE_EDITS) || 4;
     for (let k = 0; k < 4; k++) {
-      await jxx.fill(k % 2 === 0 ? '0.13' : '0.11');
+      await field.fill(values[k % 2]!);
       await page.locator('[data-testid=run-status][data-status=done]').waitFor();
       await page.waitForTimeout(400);
     }
     await cdp.send('Profiler.start');
-    for (let k = 0; k < 4; k++) {
-      await jxx.fill(k % 2 === 0 ? '0.13' : '0.11');
+    for (let k = 0; k < edits; k++) {
+      await field.fill(values[k % 2]!);
       await page.waitForTimeout(30);
       await page.locator('[data-testid=run-status][data-status=done]').waitFor();
       await page.waitForTimeout(400);
     }
     const edit = (await cdp.send('Profiler.stop')).profile as unknown as Profile;
-    summarise(edit, 'four edits of Jxx (main thread, each to done + 0.4 s)');
+    summarise(edit, `${edits} edits of ${gain ? 'the hysteretic bandwidth' : 'Jxx'} (main thread, each to done + 0.4 s)`);
     if (process.argv[2]) fs.writeFileSync(path.join(process.argv[2], 'edit.cpuprofile'), JSON.stringify(edit));
     await context.close();
   } finally {

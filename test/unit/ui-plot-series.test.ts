@@ -8,8 +8,20 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runPipeline } from '../../app/engine/pipeline/run';
 import type { PipelineOutput } from '../../app/engine/pipeline/types';
-import { alignRuns, buildPlots, channel, type Series } from '../../app/ui/plots/series';
-import { defaultBoresight, type OverlayOptions } from '../../app/ui/plots/overlays';
+import fs from 'node:fs';
+import {
+  alignRuns,
+  buildDetail,
+  buildPlots,
+  channel,
+  detailPlots,
+  plotSources,
+  plotSourcesOnly,
+  type Series,
+} from '../../app/ui/plots/series';
+import { segmentMarkers } from '../../app/ui/plots/markers';
+import { windowBands } from '../../app/ui/plots/windowBands';
+import { boresightChoices, defaultBoresight, type OverlayOptions } from '../../app/ui/plots/overlays';
 import { runName } from '../../app/ui/modeNames';
 import demo from '../../assets/lumen6-imaging.scenario.json';
 import { DEG_PER_RAD } from '../../app/engine/units';
@@ -138,4 +150,40 @@ describe('plot series from a demo run', () => {
     expect(set.detailPlots).toHaveLength(0);
     for (const p of set.overlays) expect(p.empty).toMatch(/Tick a run/);
   });
+});
+
+/**
+ * PlotsPanel reuses its plot specs while every part plotSources lists is the same object
+ * (store/shareOutput.ts keeps unchanged parts): so buildPlots, windowBands and boresightChoices
+ * must read nothing else. Built from those parts alone, the plots must equal the full output's
+ * (the demo, and the orbit example with its windows, eclipses and constraints).
+ */
+describe('plots read only what plotSources lists', () => {
+  const cases: [string, unknown][] = [
+    ['demo', demo],
+    ['tern12 (orbit)', JSON.parse(fs.readFileSync(new URL('../../assets/tern12-reversal.scenario.json', import.meta.url), 'utf8'))],
+  ];
+  for (const [name, json] of cases)
+    it(name, () => {
+      const first = (json as { controllers: { id: string }[] }).controllers[0]!.id;
+      const r = runPipeline(json, name === 'demo' ? { modes: ['follow-plan'] } : { modes: ['follow-plan'], controllers: [first] });
+      if (!r.ok) throw new Error(JSON.stringify(r.errors));
+      const full = r.value;
+      const only = plotSourcesOnly(full);
+      const keys = full.runs.map((x) => x.key);
+      expect(plotSources(only)).toEqual(plotSources(full));
+      const choices = boresightChoices(full);
+      expect(boresightChoices(only)).toEqual(choices);
+      expect(windowBands(only)).toEqual(windowBands(full));
+      for (const c of [choices[0]!, choices[choices.length - 1]!])
+        for (const logError of [false, true]) {
+          const o = { logError, boresight: c };
+          expect(buildPlots(only, keys, o, join)).toEqual(buildPlots(full, keys, o, join));
+        }
+      // The per-run plots (and their markers) read the run, the plan and the vehicle only.
+      const planVehicle = { plan: full.plan, vehicle: full.vehicle } as PipelineOutput;
+      for (const run of full.runs) expect(detailPlots(run, planVehicle)).toEqual(detailPlots(run, full));
+      expect(buildDetail({ ...planVehicle, runs: full.runs }, keys)).toEqual(buildDetail(full, keys));
+      expect(segmentMarkers(planVehicle)).toEqual(segmentMarkers(full));
+    });
 });

@@ -95,6 +95,43 @@ describe('3D run-set swap in place', () => {
     });
   }
 
+  it('a run with the same data (same trace and vehicle objects, equal jumps and targets) keeps its trail; a changed run gets a new one', () => {
+    const first = before();
+    const s = new AttitudeScene();
+    s.setRuns(first, 'overlay');
+    s.setTime(20);
+    const trailA = s.viewports[0]!.runs[0]!.trail;
+    const trailB = s.viewports[0]!.runs[1]!.trail;
+    // As the app gives it after another law's edit: new ViewRun objects, the same trace and vehicle
+    // arrays, jumps and targets copied; run B changed.
+    const copy = (r: ViewRun): ViewRun => ({
+      ...r,
+      jumps: r.jumps.map((j) => ({ ...j })),
+      targets: r.targets.map((t) => ({ ...t, q: t.q.slice() })),
+    });
+    const next = [copy(first[0]!), after()[1]!];
+    s.setRuns(next, 'overlay');
+    expect(s.viewports[0]!.runs[0]!.trail).toBe(trailA);
+    expect(s.viewports[0]!.runs[1]!.trail).not.toBe(trailB);
+    const fresh = new AttitudeScene();
+    fresh.setRuns(next, 'overlay');
+    for (const t of [20, 0, 47.5, 99]) {
+      s.setTime(t);
+      fresh.setTime(t);
+      expect(describeScene(s)).toEqual(describeScene(fresh));
+    }
+    // A jump that differs, or a trace that is another object with the same values, is rebuilt.
+    const jumped = copy(next[0]!);
+    jumped.jumps = jumped.jumps.map((j) => ({ ...j, t: j.t + 0.5 }));
+    s.setRuns([jumped, next[1]!], 'overlay');
+    expect(s.viewports[0]!.runs[0]!.trail).not.toBe(trailA);
+    const trailA2 = s.viewports[0]!.runs[0]!.trail;
+    s.setRuns([{ ...jumped, trace: { ...jumped.trace } }, next[1]!], 'overlay');
+    expect(s.viewports[0]!.runs[0]!.trail).not.toBe(trailA2);
+    s.dispose();
+    fresh.dispose();
+  });
+
   it('with deferred disposal the replaced parts are freed only at flushDisposals', () => {
     const s = new AttitudeScene();
     s.deferDisposal = true;

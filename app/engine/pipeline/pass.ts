@@ -247,7 +247,7 @@ export function* passWith(
   if (badSlice.length) return fail(badSlice, p.warnings);
   // The runs of this pass (or slice), in pass order; with a run cache, those of an unchanged key
   // are taken from it and only the others are flown, in the same order as without it.
-  const planned: { c: BuiltController; mode: RunMode; key: string | null; run: ControllerRun | null }[] = [];
+  const planned: { c: BuiltController; mode: RunMode; key: string | null; run: ControllerRun | null; flown?: boolean }[] = [];
   let k = 0;
   for (const c of p.controllers)
     for (const mode of modes) if (k++ % slice.of === slice.index) planned.push({ c, mode, key: null, run: null });
@@ -273,13 +273,17 @@ export function* passWith(
     e.run = arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run;
     // A run cut short by shouldStop is not the run its inputs give.
     if (cache && e.key !== null && !opts.shouldStop?.()) cache.put(e.key, e.run);
+    e.flown = true;
     have++;
     flown++;
     opts.onProgress?.(have, total, `${e.c.label} (${e.mode})`);
     if (opts.partial && flown === opts.partial.afterRuns && have < total) {
-      // Same assembly as the end of the pass, over the runs so far and a copy of the warnings.
+      // Same assembly as the end of the pass, over the runs flown so far and a copy of the warnings.
+      // Runs taken from the cache are left out: they equal runs the renderer already shows (it keeps
+      // the previous traces of the runs still to come), and copying them into the early reply cost
+      // the page more than the flight (five of the demo's six runs cloned for a gain edit).
       const early = [...p.warnings];
-      const sofar = runs();
+      const sofar = planned.flatMap((e) => (e.run && e.flown ? [e.run] : []));
       const note = displayTraceNotice(sofar, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);
       if (note) early.push(note);
       opts.partial.post(assembleOutput(p, sofar, early, opts, t0), total);

@@ -227,8 +227,8 @@ function ControllerCard({ i, count }: { i: number; count: number }) {
   const known = (LAW_IDS as readonly string[]).includes(law);
   const excluded = useAppState((s) => s.excludedControllerIds);
   const compared = !excluded.includes(id);
-  const output = useAppState((s) => s.output);
-  const gainNote = output?.runs.find((r) => r.controllerId === id)?.gainNote;
+  // The note alone (a string): the card does not render again for an output that leaves it as it was.
+  const gainNote = useAppState((s) => s.output?.runs.find((r) => r.controllerId === id)?.gainNote);
   const rest = useIssuesAt(base).errors;
 
   const chooseLaw = (next: string) => {

@@ -11,8 +11,6 @@ const NONE: string[] = [];
 function InertiaEditor() {
   const [symmetric, setSymmetric] = useState(true);
   const issues = useIssuesUnder(INERTIA_PATH, NONE);
-  const output = useAppState((s) => s.output);
-  const current = useAppState((s) => s.outputScenario === s.scenario);
   const axis = ['x', 'y', 'z'];
   // A rule of the whole matrix (definiteness, triangle inequality) marks every entry.
   const matrixInvalid = issues.some((i) => i.path === INERTIA_PATH);
@@ -42,12 +40,20 @@ function InertiaEditor() {
         together)
       </label>
       <IssueText errors={issues} />
-      {output && (
-        <div className={`derived ${current ? '' : 'stale'}`} data-testid="principal-moments">
-          Principal moments: {output.vehicle.principalMomentsKgm2.map((m) => fmt(m, 4)).join(', ')} kg·m²
-          {current ? '' : ' (last valid run)'}
-        </div>
-      )}
+      <PrincipalMoments />
+    </div>
+  );
+}
+
+/** The last run's principal moments (its own component: only it follows the output). */
+function PrincipalMoments() {
+  const moments = useAppState((s) => s.output?.vehicle.principalMomentsKgm2);
+  const current = useAppState((s) => s.outputScenario === s.scenario);
+  if (!moments) return null;
+  return (
+    <div className={`derived ${current ? '' : 'stale'}`} data-testid="principal-moments">
+      Principal moments: {moments.map((m) => fmt(m, 4)).join(', ')} kg·m²
+      {current ? '' : ' (last valid run)'}
     </div>
   );
 }

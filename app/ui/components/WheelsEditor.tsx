@@ -55,8 +55,6 @@ function presetAxes(w: Obj): number[][] {
 export function WheelsEditor() {
   const app = useApp();
   const wheels = (useScenarioValue(P) ?? {}) as Obj;
-  const output = useAppState((s) => s.output);
-  const current = useAppState((s) => s.outputScenario === s.scenario);
   const layout = typeof wheels.layout === 'string' ? wheels.layout : 'pyramid';
   const shown = layout === 'custom' ? NONE : FIELD_PATHS;
   const other = useIssuesUnder(P, shown);
@@ -69,7 +67,11 @@ export function WheelsEditor() {
       value = { layout: 'pyramid', count: 4, cantAngleDeg: round(CUBE_DIAGONAL_CANT_DEG), azimuthOffsetDeg: 45, ...l };
     else if (next === 'triad') value = { layout: 'triad', ...l };
     else {
-      // Keep the geometry the user had: the engine's resolved axes from the last run when current.
+      // Keep the geometry the user had: the engine's resolved axes from the last run when current
+      // (read at the choice, so the editor does not render again for every new output).
+      const st = app.store.getState();
+      const output = st.output;
+      const current = st.outputScenario === st.scenario;
       let axes: number[][];
       if (output && current && output.vehicle.nWheels > 0) {
         axes = [];
@@ -210,12 +212,20 @@ export function WheelsEditor() {
         </>
       )}
       <IssueText errors={other} />
-      {output && (
-        <div className={`derived ${current ? '' : 'stale'}`} data-testid="wheel-capacity">
-          Worst-direction capacity: torque {fmt(output.vehicle.worstTorqueCapacityNm * MILLI_PER_SI, 3)} mN·m, momentum{' '}
-          {fmt(output.vehicle.worstMomentumCapacityNms * MILLI_PER_SI, 3)} mN·m·s
-        </div>
-      )}
+      <WheelCapacity />
+    </div>
+  );
+}
+
+/** The last run's worst-direction capacities (its own component: only it follows the output). */
+function WheelCapacity() {
+  const vehicle = useAppState((s) => s.output?.vehicle);
+  const current = useAppState((s) => s.outputScenario === s.scenario);
+  if (!vehicle) return null;
+  return (
+    <div className={`derived ${current ? '' : 'stale'}`} data-testid="wheel-capacity">
+      Worst-direction capacity: torque {fmt(vehicle.worstTorqueCapacityNm * MILLI_PER_SI, 3)} mN·m, momentum{' '}
+      {fmt(vehicle.worstMomentumCapacityNms * MILLI_PER_SI, 3)} mN·m·s
     </div>
   );
 }

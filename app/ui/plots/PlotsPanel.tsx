@@ -3,7 +3,7 @@
  * plots of the run the picker chooses. Data changes go to uPlot's setData; playback time reaches
  * each chart's playhead through the clock's frame loop, never through React renders.
  */
-import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { memo, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { PipelineOutput } from '../../engine/pipeline/types';
@@ -12,7 +12,7 @@ import { useApp, useAppState } from '../context';
 import { runName } from '../modeNames';
 import { createChart, createChartGroup, structureKey, type ChartGroup, type ChartHandle } from './chart';
 import { boresightChoices, defaultBoresight, type BoresightChoice } from './overlays';
-import { buildPlots, runColor, type PlotSpec, type Series } from './series';
+import { buildDetail, buildOverlays, plotSources, runColor, type PlotSpec, type Series } from './series';
 import { WindowBandLegend } from './WindowBandLegend';
 import { windowBands } from './windowBands';
 
@@ -31,7 +31,20 @@ function fileSlug(s: unknown): string {
   );
 }
 
-function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGroup; out: PipelineOutput; extra?: ReactNode }) {
+interface PlotCardProps {
+  spec: PlotSpec;
+  group: ChartGroup;
+  /** The shown run's scenario name and epoch, for the PNG's caption and file name. */
+  scenarioName: string;
+  epochUtc: string;
+  extra?: ReactNode;
+}
+
+/**
+ * One chart. Memoised: a card whose spec is the same object (PlotsPanel reuses the specs of plots
+ * whose inputs did not change) neither renders nor draws again.
+ */
+const PlotCard = memo(function PlotCard({ spec, group, scenarioName, epochUtc, extra }: PlotCardProps) {
   const app = useApp();
   const host = useRef<HTMLDivElement>(null);
   const handle = useRef<ChartHandle | null>(null);
@@ -103,8 +116,8 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
     if (pending.current) show(handle.current, pending.current);
     try {
       // The run's own scenario (the plot shows it), not an edit made since.
-      const content = await handle.current.toPng({ scenarioName: out.scenario.name, epochUtc: out.scenario.epochUtc });
-      const r = await app.bridge.exportFile({ suggestedName: `${fileSlug(out.scenario.name)}-${spec.id}.png`, content });
+      const content = await handle.current.toPng({ scenarioName, epochUtc });
+      const r = await app.bridge.exportFile({ suggestedName: `${fileSlug(scenarioName)}-${spec.id}.png`, content });
       if (r.status === 'exported') app.notify(`Exported ${r.file.name}`);
       else if (r.status === 'failed') app.notify(r.message, 'error');
       else if (r.status === 'invalid') app.notify(r.errors.map((e) => e.message).join('; '), 'error');
@@ -135,6 +148,19 @@ function PlotCard({ spec, group, out, extra }: { spec: PlotSpec; group: ChartGro
       {empty ? <div className="plot-empty">{empty}</div> : <div className="plot-host" ref={host} />}
     </div>
   );
+});
+
+/**
+ * `compute()`'s last value while every entry of `deps` is the same (Object.is) as at the last
+ * computation; computed again otherwise. Unlike useMemo, the dependency list may vary in length.
+ */
+function useReused<T>(compute: () => T, deps: readonly unknown[]): T {
+  const last = useRef<{ deps: readonly unknown[]; value: T } | null>(null);
+  const l = last.current;
+  if (l && l.deps.length === deps.length && l.deps.every((d, i) => Object.is(d, deps[i]))) return l.value;
+  const value = compute();
+  last.current = { deps, value };
+  return value;
 }
 
 /** The run whose per-run plots are shown: the first ticked run; choosing another ticks it and puts it first. */
@@ -196,26 +222,48 @@ export function PlotsPanel() {
   const [logError, setLogError] = useState(true);
   const [axisKey, setAxisKey] = useState<string | null>(null);
   const group = useMemo(() => createChartGroup(), []);
-  const choices = useMemo(() => (output ? boresightChoices(output) : []), [output]);
-  const boresight = useMemo(
+  // Everything below is keyed on the parts of the output the plots read (plotSources), which the
+  // store keeps as the same objects while unchanged: a gain edit of one law rebuilds only the plots
+  // showing that law's runs, and the other cards keep their specs (no render, no redraw).
+  const sources = output ? plotSources(output) : [];
+  const ticked = output ? selected.map((k) => output.runs.find((r) => r.key === k)) : [];
+  const choices = useReused(() => (output ? boresightChoices(output) : []), sources);
+  const boresight = useReused(
     () => (output ? (choices.find((c) => c.key === axisKey) ?? defaultBoresight(output)) : null),
-    [output, choices, axisKey],
+    [...sources, choices, axisKey],
   );
-  const bands = useMemo(() => (output ? windowBands(output) : null), [output]);
-  const plots = useMemo(() => {
-    const p = output && boresight ? buildPlots(output, selected, { logError, boresight }, join) : null;
-    // Orbit scenarios: the planned windows and eclipses shaded on every time plot.
-    if (!p || !bands?.length) return p;
-    const add = (x: PlotSpec): PlotSpec => ({ ...x, windowBands: bands });
-    return { ...p, overlays: p.overlays.map(add), detailPlots: p.detailPlots.map(add) };
-  }, [output, selected, logError, boresight, bands]);
+  const bands = useReused(() => (output ? windowBands(output) : null), [output?.orbit]);
+  const withBands = (p: PlotSpec): PlotSpec => (bands?.length ? { ...p, windowBands: bands } : p);
+  // Overlays: every ticked run. Per-run plots: the first ticked run only (with the plan's markers,
+  // the vehicle's limits and the bands), so they stay as they are when another run changes.
+  const overlaySpecs = useReused(
+    () => (output && boresight ? buildOverlays(output, selected, { logError, boresight }, join) : null),
+    [...sources, ...ticked, selected.length, logError, boresight],
+  );
+  const overlays = useReused(() => overlaySpecs?.map(withBands) ?? [], [overlaySpecs, bands]);
+  // The per-run plots read the first ticked run, the plan (markers) and the vehicle (limits) only
+  // (test/unit/ui-plot-series.test.ts): equal inputs keep the specs shown.
+  const detail = useReused(() => {
+    const d = output ? buildDetail(output, selected) : null;
+    return { run: d?.detail ?? null, plots: d?.detailPlots.map(withBands) ?? [], hiddenNote: d?.hiddenNote ?? null };
+  }, [ticked[0], output?.plan, output?.vehicle, bands]);
+  const scenarioName = output?.scenario.name ?? '';
+  const epochUtc = output?.scenario.epochUtc ?? '';
+  // The cards' header controls, kept while their inputs are the same (PlotCard is memoised).
+  const logToggle = useMemo(
+    () => (
+      <label className="check small-toggle" title="Logarithmic error axis (error angle and pointing error)">
+        <input type="checkbox" checked={logError} onChange={(e) => setLogError(e.target.checked)} data-testid="log-toggle" /> log
+      </label>
+    ),
+    [logError],
+  );
+  const boresightPicker = useMemo(
+    () => (boresight ? <BoresightPicker choices={choices} value={boresight} onChange={(c) => setAxisKey(c.key)} /> : null),
+    [choices, boresight],
+  );
 
-  if (!output || !plots || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
-  const logToggle = (
-    <label className="check small-toggle" title="Logarithmic error axis (error angle and pointing error)">
-      <input type="checkbox" checked={logError} onChange={(e) => setLogError(e.target.checked)} data-testid="log-toggle" /> log
-    </label>
-  );
+  if (!output || !overlaySpecs || !boresight) return <div className="plots panel-empty">Plots appear after the first run.</div>;
   return (
     <div className={`plots ${current ? '' : 'stale'}`} data-testid="plots">
       <div className="plots-head" data-testid="plots-head">
@@ -238,34 +286,29 @@ export function PlotsPanel() {
         {bands && bands.length > 0 && <WindowBandLegend bands={bands} />}
       </div>
       <div className="plot-grid" data-testid="overlay-plots">
-        {plots.overlays.map((p) => (
+        {overlays.map((p) => (
           <PlotCard
             key={p.id}
             spec={p}
             group={group}
-            out={output}
-            extra={
-              p.id === 'error-angle' ? (
-                logToggle
-              ) : p.id === 'boresight' ? (
-                <BoresightPicker choices={choices} value={boresight} onChange={(c) => setAxisKey(c.key)} />
-              ) : undefined
-            }
+            scenarioName={scenarioName}
+            epochUtc={epochUtc}
+            extra={p.id === 'error-angle' ? logToggle : p.id === 'boresight' ? boresightPicker : undefined}
           />
         ))}
       </div>
       <div className="plots-head detail-head">
         <RunPicker out={output} selected={selected} />
-        {plots.hiddenNote && (
+        {detail.hiddenNote && (
           <span className="hidden-note muted" data-testid="hidden-note">
-            {plots.hiddenNote}
+            {detail.hiddenNote}
           </span>
         )}
       </div>
-      {plots.detail && (
+      {detail.run && (
         <div className="plot-grid" data-testid="detail-plots">
-          {plots.detailPlots.map((p) => (
-            <PlotCard key={p.id} spec={p} group={group} out={output} />
+          {detail.plots.map((p) => (
+            <PlotCard key={p.id} spec={p} group={group} scenarioName={scenarioName} epochUtc={epochUtc} />
           ))}
         </div>
       )}

@@ -199,6 +199,39 @@ export function detailPlots(run: ControllerRun, out: PipelineOutput): { plots: P
   return { plots, hiddenNote };
 }
 
+/**
+ * The parts of an output that buildPlots (and windowBands, boresightChoices) read, in a fixed
+ * order. The store shares each with the shown output while it is unchanged (store/shareOutput.ts),
+ * so equal entries by identity mean equal plots: PlotsPanel reuses its plot specs, and a chart
+ * whose spec is the same object is not drawn again. The run order matters (a run's colour is its
+ * place), hence the keys' text. test/unit/ui-plot-series.test.ts builds the plots from these parts
+ * alone.
+ */
+export function plotSources(out: PipelineOutput): readonly unknown[] {
+  return [
+    out.runs.map((r) => r.key).join('\n'),
+    out.plan,
+    out.vehicle,
+    out.constraints,
+    out.orbit,
+    out.scenario.file.targets,
+    out.scenario.file.planning,
+    out.scenario.targets,
+  ];
+}
+
+/** An output holding only what plotSources lists (for the test that buildPlots reads nothing else). */
+export function plotSourcesOnly(out: PipelineOutput): PipelineOutput {
+  return {
+    runs: out.runs,
+    plan: out.plan,
+    vehicle: out.vehicle,
+    constraints: out.constraints,
+    orbit: out.orbit,
+    scenario: { file: { targets: out.scenario.file.targets, planning: out.scenario.file.planning }, targets: out.scenario.targets },
+  } as unknown as PipelineOutput;
+}
+
 export interface PlotSet {
   /** Every ticked run on one axis each. */
   overlays: PlotSpec[];
@@ -208,6 +241,32 @@ export interface PlotSet {
   hiddenNote: string | null;
 }
 
+function tickedRuns(out: PipelineOutput, selected: readonly string[]): ControllerRun[] {
+  return selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
+}
+
+/** The overlays of buildPlots alone (every ticked run on one axis each, with the plan's markers). */
+export function buildOverlays(
+  out: PipelineOutput,
+  selected: readonly string[],
+  o: OverlayOptions,
+  join: (t: Series[][]) => Series[],
+): PlotSpec[] {
+  const runs = tickedRuns(out, selected);
+  const markers = segmentMarkers(out);
+  const margin = constraintMarginPlot(out, runs, join);
+  return [...overlayPlots(out, runs, o, join), ...(margin ? [margin] : [])].map((p) => ({ ...p, markers }));
+}
+
+/** The per-run plots of buildPlots alone (the first ticked run's; it reads that run, the plan and the vehicle). */
+export function buildDetail(out: PipelineOutput, selected: readonly string[]): Omit<PlotSet, 'overlays'> {
+  const detail = tickedRuns(out, selected)[0] ?? null;
+  if (!detail) return { detail: null, detailPlots: [], hiddenNote: null };
+  const markers = segmentMarkers(out);
+  const d = detailPlots(detail, out);
+  return { detail, detailPlots: d.plots.map((p) => ({ ...p, markers })), hiddenNote: d.hiddenNote };
+}
+
 /** Every plot for the ticked runs; the first ticked run is the one the per-run plots show. */
 export function buildPlots(
   out: PipelineOutput,
@@ -215,13 +274,5 @@ export function buildPlots(
   o: OverlayOptions,
   join: (t: Series[][]) => Series[],
 ): PlotSet {
-  const runs = selected.map((k) => out.runs.find((r) => r.key === k)).filter((r): r is ControllerRun => r !== undefined);
-  const markers = segmentMarkers(out);
-  const withMarkers = (p: PlotSpec): PlotSpec => ({ ...p, markers });
-  const margin = constraintMarginPlot(out, runs, join);
-  const overlays = [...overlayPlots(out, runs, o, join), ...(margin ? [margin] : [])].map(withMarkers);
-  const detail = runs[0] ?? null;
-  if (!detail) return { overlays, detail: null, detailPlots: [], hiddenNote: null };
-  const d = detailPlots(detail, out);
-  return { overlays, detail, detailPlots: d.plots.map(withMarkers), hiddenNote: d.hiddenNote };
+  return { overlays: buildOverlays(out, selected, o, join), ...buildDetail(out, selected) };
 }

@@ -17,6 +17,7 @@ import { createStore, type Store } from './createStore';
 import { formatPath, parsePath, setIn, type PathToken } from './paths';
 import { migrateScenario } from '../../engine/scenario/migrate';
 import { isStalePass, withComingRuns } from './partialOutput';
+import { shareOutput } from './shareOutput';
 
 export interface ValidationState {
   ok: boolean;
@@ -253,6 +254,8 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
     setOutput(output, forScenario, passId) {
       base.setState((s) => {
         if (passId !== undefined && isStalePass(s, passId, true)) return {};
+        // Parts equal to the shown output keep its objects (shareOutput.ts): views skip unchanged runs.
+        output = shareOutput(s.output, output);
         const keys = output.runs.map((r) => r.key);
         // Keep the user's selection where those runs still exist; otherwise show the first run.
         let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
@@ -274,7 +277,7 @@ export function createAppStore(initialScenario: unknown, o: AppStoreOptions): Ap
       base.setState((s) => {
         if (isStalePass(s, partial.passId, false)) return {};
         taken = true;
-        const shown = withComingRuns(output, s.output);
+        const shown = withComingRuns(shareOutput(s.output, output), s.output);
         const keys = shown.runs.map((r) => r.key);
         let selected = s.selectedRunKeys.filter((k) => keys.includes(k));
         if (selected.length === 0 && keys.length > 0) selected = [keys[0]!];
