@@ -153,6 +153,36 @@ describe('run cache: a pass flies only the changed runs and equals a fresh pass'
     expect(pass.next().done).toBe(true);
   });
 
+  it('copies cached runs and stores the flown one only after the early reply is posted; a claim outlives its eviction', () => {
+    const json = load('lumen6-imaging.scenario.json');
+    const cache = createRunCache();
+    cachedPass(json, cache);
+    const events: string[] = [];
+    const watched: RunCache = {
+      stats: cache.stats,
+      take: (k) => cache.take(k),
+      claim: (k) => {
+        const c = cache.claim(k);
+        return c && (() => (events.push('copy'), c()));
+      },
+      put: (k, r) => (events.push('put'), cache.put(k, r)),
+      keepOnly: (keys) => cache.keepOnly(keys),
+    };
+    const gain = gainEdit(json, 1);
+    const out = value(runPipeline(gain, { runCache: watched, partial: { afterRuns: 1, post: () => events.push('post') } }));
+    expect(events).toEqual(['post', 'put', 'put', 'copy', 'copy', 'copy', 'copy']);
+    expectSame(out, value(runPipeline(gain)));
+    // A claim made before the cache drops its run still copies that run.
+    const run = out.runs[0]!;
+    const small = createRunCache();
+    small.put('a', run);
+    const claim = small.claim('a')!;
+    small.keepOnly(new Set());
+    expect(small.stats.held).toBe(0);
+    expect(exactText(claim())).toBe(exactText(run));
+    expect(small.claim('a')).toBeNull();
+  });
+
   it('a full cache drops the oldest runs; a run over the limit is not kept', () => {
     const json = load('lumen6-imaging.scenario.json');
     const out = value(runPipeline(json));

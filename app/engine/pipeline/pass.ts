@@ -247,32 +247,38 @@ export function* passWith(
   if (badSlice.length) return fail(badSlice, p.warnings);
   // The runs of this pass (or slice), in pass order; with a run cache, those of an unchanged key
   // are taken from it and only the others are flown, in the same order as without it.
-  const planned: { c: BuiltController; mode: RunMode; key: string | null; run: ControllerRun | null; flown?: boolean }[] = [];
+  // `claim`: a run of the cache, copied only after the changed runs have flown (and the first posted).
+  const planned: {
+    c: BuiltController;
+    mode: RunMode;
+    key: string | null;
+    run: ControllerRun | null;
+    claim: (() => ControllerRun) | null;
+    flown?: boolean;
+  }[] = [];
   let k = 0;
   for (const c of p.controllers)
-    for (const mode of modes) if (k++ % slice.of === slice.index) planned.push({ c, mode, key: null, run: null });
+    for (const mode of modes) if (k++ % slice.of === slice.index) planned.push({ c, mode, key: null, run: null, claim: null });
   const total = planned.length;
   const cache = opts.runCache;
   if (cache) {
     const settings = { modes, maxSteps, displayTraceLimit: display };
     for (const e of planned) {
       e.key = runKey(s, e.c.id, e.mode, settings);
-      if (e.key !== null) e.run = cache.take(e.key);
+      if (e.key !== null) e.claim = cache.claim(e.key);
     }
   }
   const runs = (): ControllerRun[] => planned.flatMap((e) => (e.run ? [e.run] : []));
-  let have = planned.filter((e) => e.run).length;
+  let have = planned.filter((e) => e.claim).length;
   let flown = 0;
   for (const e of planned) {
-    if (e.run) continue;
+    if (e.claim) continue;
     if (opts.shouldStop?.()) break;
     // Everything that reads the full trace is done inside flyAndSummarise; a long run then keeps a
     // display trace, and the next run overwrites its full trace in the arena.
     const run = keepForDisplay(flyAndSummarise(p, e.c, e.mode, { shouldStop: opts.shouldStop, maxSteps, traceArena: arena }), display);
     // A run that ended early (short enough to keep in full) must not stay in the arena the next run overwrites.
     e.run = arena && run.traceKind !== 'display' ? { ...run, trace: copyTrace(run.trace) } : run;
-    // A run cut short by shouldStop is not the run its inputs give.
-    if (cache && e.key !== null && !opts.shouldStop?.()) cache.put(e.key, e.run);
     e.flown = true;
     have++;
     flown++;
@@ -288,10 +294,14 @@ export function* passWith(
       if (note) early.push(note);
       opts.partial.post(assembleOutput(p, sofar, early, opts, t0), total);
     }
+    // Stored after the early post (its copy is not on the way to the first plot). A run cut short
+    // by shouldStop is not the run its inputs give.
+    if (cache && e.key !== null && !opts.shouldStop?.()) cache.put(e.key, e.run);
     const paused = Date.now();
     yield { done: have, total };
     t0 += Date.now() - paused;
   }
+  for (const e of planned) if (e.claim && !e.run) e.run = e.claim();
   if (cache && have === total) cache.keepOnly(new Set(planned.flatMap((e) => (e.key === null ? [] : [e.key]))));
   const done = runs();
   const shown = displayTraceNotice(done, s.simulation.durationS != null ? 'simulation.durationS' : 'targets', display);

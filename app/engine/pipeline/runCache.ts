@@ -152,6 +152,12 @@ function bytesOf(x: unknown, seen: Set<ArrayBufferLike>): number {
 export interface RunCache {
   /** A fresh copy of the run stored under `key`, or null. */
   take(key: string): ControllerRun | null;
+  /**
+   * The run stored under `key` claimed now and copied later: a function that returns a fresh copy
+   * each time it is called (from the run as stored at the claim, even if the cache drops it since),
+   * or null. Lets a pass fly its changed runs first and pay for the copies after.
+   */
+  claim(key: string): (() => ControllerRun) | null;
   /** Keeps a copy of `run` under `key` (nothing when it would pass the cache's byte limit). */
   put(key: string, run: ControllerRun): void;
   /** Drops every run but those of `keys` (the pass just completed). */
@@ -173,14 +179,19 @@ export function createRunCache(maxBytes = RUN_CACHE_MAX_BYTES): RunCache {
     stats.bytes -= e.bytes;
     stats.held = runs.size;
   };
+  const claim = (key: string): (() => ControllerRun) | null => {
+    const e = runs.get(key);
+    if (!e) return null;
+    stats.hits++;
+    const stored = e.run;
+    return () => copyData(stored);
+  };
   return {
     stats,
     take(key) {
-      const e = runs.get(key);
-      if (!e) return null;
-      stats.hits++;
-      return copyData(e.run);
+      return claim(key)?.() ?? null;
     },
+    claim,
     put(key, run) {
       drop(key);
       const bytes = bytesOf(run, new Set());
