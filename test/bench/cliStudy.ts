@@ -14,6 +14,7 @@ import { spawnSync } from 'node:child_process';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { chooseCli } from '../../bin/cli-bundle.mjs';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 
@@ -30,6 +31,15 @@ export async function benchCliStudy(): Promise<void> {
     '2',
     '--json',
   ];
+  // Which form the command runs: a stale or missing bundle falls back to tsx (seconds slower).
+  const choice = chooseCli(root, process.env);
+  const form =
+    choice.kind === 'bundle'
+      ? 'the prebuilt bundle'
+      : choice.kind === 'tsx'
+        ? `tsx (${choice.reason}; \`npm run build:cli\` for the bundle)`
+        : choice.message;
+  console.log(`   running through ${form}`);
   const walls: number[] = [];
   let summary = '';
   for (let i = 0; i < 3; i++) {
