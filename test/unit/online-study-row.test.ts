@@ -9,6 +9,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { differences } from './exact-differences';
 import { makeStudyContext } from '../../app/engine/study/context';
 import { caseErrorGrid, caseRunOnline, prepareCase } from '../../app/engine/study/runCase';
 import { flyOnline } from '../../app/engine/pipeline/flyOnline';
@@ -16,22 +17,6 @@ import type { RunMetrics } from '../../app/engine/metrics/metrics';
 
 const root = path.resolve(__dirname, '../..');
 const asset = (name: string): unknown => JSON.parse(fs.readFileSync(path.join(root, 'assets', name), 'utf8'));
-
-/** Paths where a and b differ (numbers by Object.is, typed arrays element by element). */
-function differences(a: unknown, b: unknown, at = '', out: string[] = []): string[] {
-  if (typeof a === 'number' || typeof b === 'number') {
-    if (!Object.is(a, b)) out.push(`${at}: ${String(a)} vs ${String(b)}`);
-  } else if (ArrayBuffer.isView(a) || ArrayBuffer.isView(b) || Array.isArray(a) || Array.isArray(b)) {
-    const x = a as ArrayLike<unknown>,
-      y = b as ArrayLike<unknown>;
-    if (!x || !y || x.length !== y.length) out.push(`${at}: length ${x?.length} vs ${y?.length}`);
-    else for (let i = 0; i < x.length; i++) differences(x[i], y[i], `${at}[${i}]`, out);
-  } else if (a !== null && b !== null && typeof a === 'object' && typeof b === 'object') {
-    const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
-    for (const k of keys) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${at}.${k}`, out);
-  } else if (a !== b) out.push(`${at}: ${String(a)} vs ${String(b)}`);
-  return out;
-}
 
 const LEFT_OUT = ['trackingErrorPeakRad', 'trackingErrorRmsRad', 'controlEffortNms', 'saturation'] as const;
 

@@ -20,6 +20,7 @@
  *    other channel lengths, with NaN, ±∞, ±0 and extreme finite values planted anywhere.
  */
 import { describe, expect, it } from 'vitest';
+import { differences } from './exact-differences';
 import { gyrostatDerivative, makeGyrostat, type Gyrostat } from '../../app/engine/body/gyrostat';
 import { makeRk4Work, rk4Step } from '../../app/engine/hybrid/rk4';
 import type { FlowFn } from '../../app/engine/hybrid/types';
@@ -81,20 +82,6 @@ describe('HeldGyrostatRk4 without friction (stages in locals)', () => {
     expect(compared).toBe(12_000);
   });
 });
-
-/** Paths where a and b differ (numbers by Object.is). */
-function differences(a: unknown, b: unknown, at = '', out: string[] = []): string[] {
-  if (typeof a === 'number' || typeof b === 'number') {
-    if (!Object.is(a, b)) out.push(`${at}: ${String(a)} vs ${String(b)}`);
-  } else if (Array.isArray(a) && Array.isArray(b)) {
-    if (a.length !== b.length) out.push(`${at}: length ${a.length} vs ${b.length}`);
-    else for (let i = 0; i < a.length; i++) differences(a[i], b[i], `${at}[${i}]`, out);
-  } else if (a !== null && b !== null && typeof a === 'object' && typeof b === 'object') {
-    const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
-    for (const k of keys) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${at}.${k}`, out);
-  } else if (a !== b) out.push(`${at}: ${String(a)} vs ${String(b)}`);
-  return out;
-}
 
 function unitQuat(rng: Rng, out: Float64Array, o = 0): void {
   const a = rng.normal(),

@@ -1,7 +1,7 @@
 /**
  * The pipeline (pass.ts) with the scenario validator bound: what the CLI, the studies, the export
  * worker and the tests call. The app's pipeline worker calls pass.ts itself, so that the bundled
- * demo's pass does not load the validator (app/ui/worker/answerRun.ts).
+ * demo's pass does not load the validator (app/ui/worker/answerPass.ts).
  */
 import type { Result } from '../errors';
 import { validateScenario } from '../scenario/validate';

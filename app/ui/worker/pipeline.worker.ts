@@ -27,7 +27,7 @@ plantValidation(...demoValidation);
 // And the runs of the last pass: an edit flies only the runs whose inputs it changed (runCache.ts).
 const caches = { orbitViewCache: createOrbitViewCache(), runCache: createRunCache() };
 
-// A pass waiting for the renderer to paint its first run (answerRun.ts): resumed by a 'continue'
+// A pass waiting for the renderer to paint its first run (answerPass.ts): resumed by a 'continue'
 // message, or after REST_AFTER_MS if none comes (a hidden window paints no frames).
 const REST_AFTER_MS = 250;
 // The validator's warm-up after the early pass (below).

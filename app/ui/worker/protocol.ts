@@ -10,7 +10,7 @@ export interface RunRequest {
   options: Record<string, unknown>;
   /** Post a 'partial' reply after this many runs (runPipeline's `partial`); absent: only the result. */
   partialAfterRuns?: number;
-  /** With partialAfterRuns: fly the rest only when a 'continue' for this id comes (answerRun.ts). */
+  /** With partialAfterRuns: fly the rest only when a 'continue' for this id comes (answerPass.ts). */
   partialWait?: boolean;
 }
 
