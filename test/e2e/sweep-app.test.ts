@@ -239,6 +239,9 @@ describe.skipIf(skipBrowser)('sweep view (Chromium)', () => {
     await page.getByTestId('cmd-study').click();
     await field(page, 'sweep.axes[0].values').fill('0.05, 0.1, 0.15, 0.2, 0.25, 0.3');
     await field(page, 'sweep.axes[1].steps').fill('6');
+    // 20 cases per cell, so the sweep cannot finish while the screenshot below is taken (a study
+    // case got faster; with 2 cases per cell a fast machine finished all 36 cells before the cancel).
+    await field(page, 'sweep.runs').fill('20');
     await expect.poll(() => page.getByTestId('sweep-run').isDisabled()).toBe(false);
     await page.getByTestId('sweep-run').click();
     const bar = page.getByTestId('sweep-progress');
